@@ -1,0 +1,158 @@
+"""Sun geometry on the mean day of each month, and monthly plane-of-array insolation.
+
+All functions are vectorised over months (arrays of 12).  Angles in degrees at
+the interface, radians inside.
+
+References
+----------
+.. [1] Duffie, J. A. and Beckman, W. A., Solar Engineering of Thermal Processes,
+   4th ed., Wiley, 2013: eq. 1.6.1a (Cooper declination), 1.10.3 (monthly mean
+   daily extraterrestrial radiation), table 1.6.1 (Klein's mean days),
+   sec. 2.19 (Liu and Jordan isotropic monthly transposition with Klein's Rb).
+.. [2] Klein, S. A., "Calculation of monthly average insolation on tilted
+   surfaces", Solar Energy 19 (1977) 325-329.
+.. [3] Erbs, D. G., Klein, S. A. and Duffie, J. A., "Estimation of the diffuse
+   radiation fraction for hourly, daily and monthly-average global
+   radiation", Solar Energy 28 (1982) 293-302.
+.. [4] Allen, R. G. et al., Crop evapotranspiration, FAO Irrigation and
+   Drainage Paper 56, 1998: eqs. 21, 23-25, 34.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+SOLAR_CONSTANT_W_M2 = 1367.0  # Duffie & Beckman [1] sec. 1.2
+#: Klein (1977) recommended average day of each month, day of year [2].
+KLEIN_MEAN_DAY = np.array([17, 47, 75, 105, 135, 162, 198, 228, 258, 288, 318, 344])
+DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31])
+_DAY_STEPS = 721  # hour-angle steps across one day for the numerical Rb
+
+
+def declination_cooper69(day_of_year):
+    """Solar declination [deg], Cooper (1969) via Duffie & Beckman eq. 1.6.1a."""
+    n = np.asarray(day_of_year, dtype=float)
+    return 23.45 * np.sin(np.radians(360.0 * (284.0 + n) / 365.0))
+
+
+def sunset_hour_angle(latitude_deg, declination_deg):
+    """Sunset hour angle [deg] on a horizontal surface, 0 in polar night, 180 in midnight sun."""
+    x = -np.tan(np.radians(latitude_deg)) * np.tan(np.radians(declination_deg))
+    return np.degrees(np.arccos(np.clip(x, -1.0, 1.0)))
+
+
+def extraterrestrial_daily_kwh_m2(latitude_deg, day_of_year):
+    """Daily extraterrestrial radiation on a horizontal surface [kWh/m2/day].
+
+    Duffie & Beckman eq. 1.10.3 with the Spencer-free eccentricity 1 + 0.033 cos(360 n / 365).
+    """
+    n = np.asarray(day_of_year, dtype=float)
+    phi = np.radians(latitude_deg)
+    dec = np.radians(declination_cooper69(n))
+    ws = np.radians(sunset_hour_angle(latitude_deg, np.degrees(dec)))
+    e0 = 1.0 + 0.033 * np.cos(2.0 * np.pi * n / 365.0)
+    h0_j = (24 * 3600 / np.pi) * SOLAR_CONSTANT_W_M2 * e0 * (
+        np.cos(phi) * np.cos(dec) * np.sin(ws) + ws * np.sin(phi) * np.sin(dec)
+    )
+    return np.maximum(h0_j, 0.0) / 3.6e6
+
+
+def fao56_ra_mj_m2_day(latitude_deg, day_of_year):
+    """Extraterrestrial radiation Ra [MJ/m2/day] exactly as FAO-56 eqs. 21, 23-25 [4]."""
+    j = np.asarray(day_of_year, dtype=float)
+    phi = np.radians(latitude_deg)
+    dr = 1 + 0.033 * np.cos(2 * np.pi * j / 365)
+    dec = 0.409 * np.sin(2 * np.pi * j / 365 - 1.39)
+    ws = np.arccos(np.clip(-np.tan(phi) * np.tan(dec), -1, 1))
+    gsc = 0.0820
+    return (24 * 60 / np.pi) * gsc * dr * (
+        ws * np.sin(phi) * np.sin(dec) + np.cos(phi) * np.cos(dec) * np.sin(ws)
+    )
+
+
+def fao56_daylight_hours(latitude_deg, day_of_year):
+    """Daylight hours N [h], FAO-56 eq. 34 (with the eq. 24-25 declination and ws)."""
+    j = np.asarray(day_of_year, dtype=float)
+    dec = 0.409 * np.sin(2 * np.pi * j / 365 - 1.39)
+    ws = np.arccos(np.clip(-np.tan(np.radians(latitude_deg)) * np.tan(dec), -1, 1))
+    return 24 / np.pi * ws
+
+
+def clearness_index(insolation_kwh_m2_day, latitude_deg):
+    """Monthly mean clearness index KT = H / H0 on Klein's mean days (0 where H0 = 0)."""
+    h = np.asarray(insolation_kwh_m2_day, dtype=float)
+    h0 = extraterrestrial_daily_kwh_m2(latitude_deg, KLEIN_MEAN_DAY)
+    return np.divide(h, h0, out=np.zeros_like(h), where=h0 > 1e-9)
+
+
+def erbs_monthly_diffuse_fraction(kt, sunset_hour_angle_deg):
+    """Monthly mean diffuse fraction Hd/H, Erbs, Klein & Duffie (1982) [3].
+
+    Valid for 0.3 <= KT <= 0.8; KT is clipped to that range.
+    """
+    kt = np.clip(np.asarray(kt, dtype=float), 0.3, 0.8)
+    ws = np.asarray(sunset_hour_angle_deg, dtype=float)
+    low = 1.391 - 3.560 * kt + 4.189 * kt**2 - 2.137 * kt**3
+    high = 1.311 - 3.022 * kt + 3.427 * kt**2 - 1.821 * kt**3
+    return np.where(ws <= 81.4, low, high)
+
+
+def beam_ratio_rb(latitude_deg, tilt_deg, azimuth_deg, day_of_year=KLEIN_MEAN_DAY):
+    """Ratio Rb of daily beam irradiation on the tilted plane to the horizontal [-].
+
+    Klein (1977) [2] defines Rb on the mean day as the ratio of the day's
+    integrals of cos(incidence) (clipped at zero, sun above the horizon) to
+    cos(zenith).  We integrate numerically over the hour angle, which handles
+    any azimuth and both hemispheres; for an equator-facing plane it equals
+    Klein's closed form.  ``azimuth_deg`` is measured clockwise from north
+    (180 = south-facing).
+    """
+    phi = np.radians(latitude_deg)
+    beta = np.radians(tilt_deg)
+    gamma = np.radians(np.asarray(azimuth_deg, dtype=float) - 180.0)  # D&B: 0 = south, west +
+    dec = np.radians(declination_cooper69(day_of_year))[:, None]
+    w = np.linspace(-np.pi, np.pi, _DAY_STEPS)[None, :]
+    cos_z = np.sin(phi) * np.sin(dec) + np.cos(phi) * np.cos(dec) * np.cos(w)
+    cos_t = (
+        np.sin(dec) * np.sin(phi) * np.cos(beta)
+        - np.sin(dec) * np.cos(phi) * np.sin(beta) * np.cos(gamma)
+        + np.cos(dec) * np.cos(phi) * np.cos(beta) * np.cos(w)
+        + np.cos(dec) * np.sin(phi) * np.sin(beta) * np.cos(gamma) * np.cos(w)
+        + np.cos(dec) * np.sin(beta) * np.sin(gamma) * np.sin(w)
+    )
+    up = cos_z > 0
+    num = np.where(up, np.maximum(cos_t, 0.0), 0.0).sum(axis=1)
+    den = np.where(up, cos_z, 0.0).sum(axis=1)
+    return np.divide(num, den, out=np.zeros_like(num), where=den > 1e-9)
+
+
+def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg, tilt_deg, azimuth_deg,
+                           albedo=0.2):
+    """Monthly mean daily plane-of-array insolation [kWh/m2/day].
+
+    Liu and Jordan (1962) isotropic-sky transposition of monthly means with
+    Klein's (1977) Rb and the Erbs et al. (1982) monthly diffuse fraction
+    (Duffie & Beckman sec. 2.19):
+
+        HT = H (1 - Hd/H) Rb + Hd (1 + cos b) / 2 + H rho (1 - cos b) / 2
+
+    Returns a dict with ``poa``, ``kt``, ``diffuse_fraction``, ``rb`` (arrays of 12).
+    """
+    h = np.asarray(insolation_kwh_m2_day, dtype=float)
+    ws = sunset_hour_angle(latitude_deg, declination_cooper69(KLEIN_MEAN_DAY))
+    kt = clearness_index(h, latitude_deg)
+    fd = erbs_monthly_diffuse_fraction(kt, ws)
+    rb = beam_ratio_rb(latitude_deg, tilt_deg, azimuth_deg)
+    b = np.radians(tilt_deg)
+    poa = h * (1 - fd) * rb + h * fd * (1 + np.cos(b)) / 2 + h * albedo * (1 - np.cos(b)) / 2
+    return {"poa": poa, "kt": kt, "diffuse_fraction": fd, "rb": rb}
+
+
+def daylight_hours(latitude_deg, day_of_year=KLEIN_MEAN_DAY):
+    """Day length [h] from the sunset hour angle (Duffie & Beckman eq. 1.6.11)."""
+    return 2.0 * sunset_hour_angle(latitude_deg, declination_cooper69(day_of_year)) / 15.0
+
+
+def equator_facing_azimuth(latitude_deg: float) -> float:
+    """180 (south) in the northern hemisphere and on the equator, 0 (north) in the southern."""
+    return 180.0 if latitude_deg >= 0 else 0.0

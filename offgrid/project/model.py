@@ -1,0 +1,162 @@
+"""The project document: plain data that the user typed, nothing computed.
+
+Every class is a small mutable dataclass so the text UI can edit it in place;
+the engine only reads it.  Units are in the field names.  Validation lives in
+:mod:`offgrid.project.validate`; this module only declares shapes and defaults.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Literal
+
+FORMAT_NAME = "offgrid-project"
+SCHEMA_VERSION = 1
+
+AcDc = Literal["ac", "dc"]
+ControllerType = Literal["pwm", "mppt"]
+Chemistry = Literal["flooded", "agm", "gel", "lifepo4"]
+TimeOfDay = Literal["any", "day", "evening", "night", "morning"]
+ALL_MONTHS: tuple[int, ...] = tuple(range(1, 13))
+
+
+@dataclass
+class ProjectInfo:
+    name: str = "Untitled project"
+    client: str = ""
+    designer: str = ""
+    notes: str = ""
+    demo: bool = False  # True marks invented demonstration data
+
+
+@dataclass
+class Site:
+    name: str = ""
+    latitude_deg: float = 0.0
+    longitude_deg: float = 0.0
+    elevation_m: float = 0.0
+    tilt_deg: float | None = None  # None: equal to |latitude|, at least the self-cleaning minimum
+    azimuth_deg: float | None = None  # None: equator-facing (180 north of equator, 0 south)
+    albedo: float = 0.2
+    battery_temp_c: float | None = None  # battery room temperature; None: site monthly mean
+
+
+@dataclass
+class MonthlyClimate:
+    """Twelve monthly means for one site."""
+
+    insolation_kwh_m2_day: list[float]
+    temp_mean_c: list[float]
+    temp_max_c: list[float] | None = None
+    temp_min_c: list[float] | None = None
+    record_low_c: float | None = None
+    source: str = ""
+    latitude_deg: float | None = None
+    longitude_deg: float | None = None
+    elevation_m: float | None = None
+    demo: bool = False
+
+
+@dataclass
+class ClimateChoice:
+    """Either a reference to a climate file (name in climates/ or a path) or an inline table."""
+
+    ref: str | None = None
+    inline: MonthlyClimate | None = None
+
+
+@dataclass
+class Load:
+    name: str
+    quantity: int = 1
+    power_w: float = 0.0
+    hours_per_day: float = 0.0
+    ac_dc: AcDc = "ac"
+    duty_cycle: float = 1.0
+    surge_w: float = 0.0  # starting power of one unit, W; 0 = no surge
+    months: tuple[int, ...] = ALL_MONTHS
+    critical: bool = False
+    time_of_day: TimeOfDay = "any"
+
+
+@dataclass
+class ModuleSpec:
+    """PV module datasheet values at STC (1000 W/m2, 25 C cell, AM1.5)."""
+
+    name: str = "Generic 60-cell 300 W (demo datasheet)"
+    pmax_w: float = 300.0
+    vmp_v: float = 32.5
+    imp_a: float = 9.23
+    voc_v: float = 39.8
+    isc_a: float = 9.75
+    alpha_isc_pct_per_c: float = 0.05
+    beta_voc_pct_per_c: float = -0.30
+    gamma_pmax_pct_per_c: float = -0.40
+    cells_in_series: int = 60
+    area_m2: float = 1.63
+    noct_c: float = 45.0
+
+
+@dataclass
+class BatterySpec:
+    name: str = "Generic 12 V 200 Ah AGM block (demo datasheet)"
+    chemistry: Chemistry = "agm"
+    nominal_voltage_v: float = 12.0
+    capacity_ah: float = 200.0  # at the 20-hour rate for lead-acid
+    max_dod: float = 0.5
+    efficiency: float = 0.85  # round-trip energy efficiency, 0-1
+
+
+@dataclass
+class ControllerSpec:
+    type: ControllerType = "mppt"
+    max_pv_voltage_v: float = 150.0
+    efficiency: float = 0.97
+    max_current_a: float | None = None  # None: the engine picks a standard rating
+
+
+@dataclass
+class InverterSpec:
+    efficiency: float = 0.90
+    self_consumption_w: float = 15.0
+    hours_on_per_day: float = 24.0
+
+
+@dataclass
+class Derates:
+    soiling: float = 0.95  # fraction kept; used when soiling_rate_pct_per_day is None
+    soiling_rate_pct_per_day: float | None = None
+    cleaning_interval_days: float = 30.0
+    mismatch: float = 0.98
+    wiring: float = 0.97
+
+
+@dataclass
+class DesignChoices:
+    system_voltage: int | Literal["auto"] = "auto"
+    autonomy_days: float = 3.0
+    max_dod: float | None = None  # None: the battery unit's own max DoD
+    load_growth_pct: float = 10.0
+    coincidence_factor: float = 0.7
+    ageing_factor: float = 0.8  # battery capacity at end of life / rated
+    min_tilt_deg: float = 10.0
+    derates: Derates = field(default_factory=Derates)
+    drop_limit_array_pct: float = 3.0
+    drop_limit_battery_pct: float = 1.0
+    drop_limit_load_pct: float = 3.0
+
+
+@dataclass
+class Project:
+    info: ProjectInfo = field(default_factory=ProjectInfo)
+    site: Site = field(default_factory=Site)
+    climate: ClimateChoice = field(default_factory=ClimateChoice)
+    loads: list[Load] = field(default_factory=list)
+    module: ModuleSpec = field(default_factory=ModuleSpec)
+    battery: BatterySpec = field(default_factory=BatterySpec)
+    controller: ControllerSpec = field(default_factory=ControllerSpec)
+    inverter: InverterSpec = field(default_factory=InverterSpec)
+    choices: DesignChoices = field(default_factory=DesignChoices)
+    # Sections that later features own (wiring runs, prices, variants) are kept
+    # verbatim so that nothing a user saved is ever dropped.
+    extra: dict = field(default_factory=dict)

@@ -1,0 +1,220 @@
+"""Result records of the engine: every figure with its reason.
+
+A :class:`SystemDesign` is a tree of frozen records holding plain numbers
+(units in the names).  ``SystemDesign.reasons`` maps the dotted path of a
+figure (``"array.power_w"``) to a :class:`Reason`: the formula in words, the
+inputs with their units, and the source.  The text UI's *why* view, the CLI,
+the JSON and the report all read these same records.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import asdict, dataclass, field, fields, is_dataclass
+from typing import Any, Literal
+
+Severity = Literal["info", "warning", "error"]
+
+
+@dataclass(frozen=True)
+class Reason:
+    formula: str
+    inputs: tuple[tuple[str, str], ...] = ()
+    source: str = "common practice, no source"
+
+    def as_dict(self) -> dict[str, Any]:
+        return {"formula": self.formula, "inputs": dict(self.inputs), "source": self.source}
+
+
+@dataclass(frozen=True)
+class Notice:
+    """A warning produced by the engine; ``figure`` is the dotted path it concerns."""
+
+    code: str
+    message: str
+    severity: Severity = "warning"
+    figure: str | None = None
+
+
+def fmt(value: float | int | str, unit: str = "", digits: int = 3) -> str:
+    """Format an input value for a reason: ``fmt(12.345, 'V') -> '12.3 V'``."""
+    if isinstance(value, str):
+        text = value
+    elif isinstance(value, bool):
+        text = "yes" if value else "no"
+    elif isinstance(value, int):
+        text = str(value)
+    else:
+        v = float(value)
+        if v == 0 or not math.isfinite(v):
+            text = f"{v:g}"
+        else:
+            mag = math.floor(math.log10(abs(v)))
+            dec = max(0, digits - 1 - mag)
+            text = f"{v:.{dec}f}"
+    return f"{text} {unit}".strip()
+
+
+class ReasonBook:
+    """Collects reasons while the engine computes."""
+
+    def __init__(self) -> None:
+        self._items: dict[str, Reason] = {}
+
+    def add(self, path: str, formula: str, source: str = "common practice, no source",
+            **inputs: str) -> None:
+        self._items[path] = Reason(formula, tuple(inputs.items()), source)
+
+    def freeze(self) -> dict[str, Reason]:
+        return dict(self._items)
+
+
+@dataclass(frozen=True)
+class LoadResult:
+    daily_energy_wh: tuple[float, ...]  # 12 months, at the battery, growth margin included
+    ac_energy_wh: tuple[float, ...]  # 12 months, at the appliances
+    dc_energy_wh: tuple[float, ...]
+    inverter_loss_wh: tuple[float, ...]
+    inverter_idle_wh: float
+    critical_energy_wh: tuple[float, ...]  # at the battery, growth included
+    design_daily_energy_wh: float  # the design month's daily energy
+    max_daily_energy_wh: float
+    growth_pct: float
+    coincidence_factor: float
+    connected_ac_w: float
+    connected_dc_w: float
+    peak_ac_w: float  # connected AC x coincidence factor
+    peak_dc_w: float
+    largest_surge_w: float
+    largest_surge_load: str
+    per_load_wh: tuple[tuple[float, ...], ...]  # per load, 12 months, at the appliance
+
+
+@dataclass(frozen=True)
+class SiteResult:
+    design_month: int  # 1-12
+    tilt_deg: float
+    azimuth_deg: float
+    latitude_deg: float
+    horizontal_kwh_m2_day: tuple[float, ...]
+    poa_kwh_m2_day: tuple[float, ...]
+    demand_to_sun: tuple[float, ...]  # Wh/day per kWh/m2/day, the design-month criterion
+    temp_mean_c: tuple[float, ...]
+    temp_day_c: tuple[float, ...]
+    record_low_c: float
+    climate_source: str
+
+
+@dataclass(frozen=True)
+class ArrayResult:
+    power_w: float
+    required_power_w: float
+    module_power_w: float
+    modules_series: int
+    modules_parallel: int
+    module_count: int
+    derates: dict[str, float]  # name -> fraction kept, in chain order
+    derate_total: float
+    cell_temp_c: tuple[float, ...]
+    supply_wh_day: tuple[float, ...]  # 12 months, delivered to the battery
+    voc_cold_v: float
+    vmp_hot_v: float
+    string_voc_cold_v: float
+    string_vmp_hot_v: float
+
+
+@dataclass(frozen=True)
+class BatteryResult:
+    chemistry: str
+    system_voltage_v: int
+    capacity_ah: float  # installed bank capacity at system voltage
+    required_ah: float
+    nominal_kwh: float
+    usable_kwh: float
+    max_dod: float
+    autonomy_days: float
+    units_series: int
+    units_parallel: int
+    unit_count: int
+    temp_factor: float
+    ageing_factor: float
+    discharge_efficiency: float
+    absorption_voltage_v: float
+
+
+@dataclass(frozen=True)
+class ControllerResult:
+    type: str
+    required_current_a: float
+    current_a: float  # standard rating chosen, per controller
+    count: int
+    max_pv_voltage_v: float
+    efficiency: float
+
+
+@dataclass(frozen=True)
+class InverterResult:
+    needed: bool
+    required_continuous_w: float
+    continuous_w: float
+    required_surge_w: float
+    surge_w: float
+    efficiency: float
+    self_consumption_w: float
+    dc_input_current_a: float
+
+
+@dataclass(frozen=True)
+class SystemDesign:
+    loads: LoadResult
+    site: SiteResult
+    array: ArrayResult
+    battery: BatteryResult
+    controller: ControllerResult
+    inverter: InverterResult
+    warnings: tuple[Notice, ...]
+    cautions: tuple[str, ...]
+    reasons: dict[str, Reason] = field(default_factory=dict)
+
+    def why(self, path: str) -> Reason | None:
+        return self.reasons.get(path)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain JSON-ready dictionary (documented in README)."""
+        out: dict[str, Any] = {}
+        for f in fields(self):
+            value = getattr(self, f.name)
+            if f.name == "reasons":
+                out["reasons"] = {k: r.as_dict() for k, r in sorted(value.items())}
+            elif f.name == "warnings":
+                out["warnings"] = [asdict(n) for n in value]
+            elif f.name == "cautions":
+                out["cautions"] = list(value)
+            elif is_dataclass(value):
+                out[f.name] = _plain(asdict(value))
+            else:
+                out[f.name] = _plain(value)
+        return out
+
+
+def _plain(value: Any) -> Any:
+    if isinstance(value, dict):
+        return {k: _plain(v) for k, v in value.items()}
+    if isinstance(value, list | tuple):
+        return [_plain(v) for v in value]
+    if isinstance(value, float):
+        if not math.isfinite(value):
+            raise ValueError("a design figure is not finite")
+        return round(value, 6)
+    if hasattr(value, "item"):  # numpy scalar
+        return _plain(value.item())
+    return value
+
+
+class DesignError(ValueError):
+    """The design cannot be met; the message says why and what to change."""
+
+    def __init__(self, code: str, message: str, field: str | None = None) -> None:
+        super().__init__(message)
+        self.code = code
+        self.field = field
