@@ -223,16 +223,16 @@ def check_insolation(values: Sequence[float], latitude_deg: float,
                 "above-extraterrestrial",
                 f"{field} {name}: {h[m]:.2f} kWh/m2/day is more than reaches the top of the "
                 f"atmosphere ({h0[m]:.2f}); clearness index {kt[m]:.2f}", "error", field, m + 1))
-        elif kt[m] > KT_HIGH:
+        elif round(kt[m], 2) > KT_HIGH:
             found.append(Finding(
                 "kt-high", f"{field} {name}: clearness index {kt[m]:.2f} is above {KT_HIGH}, "
                 "clearer than monthly means are observed; check the value", "warning", field,
                 m + 1))
-        elif kt[m] < KT_IMPLAUSIBLY_LOW and h0[m] > 0.5:
+        elif round(kt[m], 2) < KT_IMPLAUSIBLY_LOW and h0[m] > 0.5:
             found.append(Finding(
                 "kt-very-low", f"{field} {name}: clearness index {kt[m]:.2f} is below "
                 f"{KT_IMPLAUSIBLY_LOW}; check the value and the unit", "warning", field, m + 1))
-        elif kt[m] < KT_LOW and h0[m] > 0.5:
+        elif round(kt[m], 2) < KT_LOW and h0[m] > 0.5:
             found.append(Finding(
                 "kt-low", f"{field} {name}: clearness index {kt[m]:.2f} is below {KT_LOW}, "
                 "outside the fitted range of the monthly diffuse correlation (Erbs et al. "
