@@ -289,7 +289,8 @@ def read_hourly(path: str | Path, kind: str | None = None) -> HourlyRows:
         raise WeatherFileError(f"{path}: no such file")
     kind = kind or detect_kind(path)
     if kind not in _READERS:
-        raise WeatherFileError(f"{path.name}: '{kind}' is not an hourly format ({', '.join(_READERS)})")
+        raise WeatherFileError(
+            f"{path.name}: '{kind}' is not an hourly format ({', '.join(_READERS)})")
     rows = _READERS[kind](path)
     if len(rows.month) == 0:
         raise WeatherFileError(f"{path.name}: no data rows")
