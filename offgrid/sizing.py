@@ -57,6 +57,7 @@ INVERTER_SURGE_MULTIPLE = 2.0
 AUTO_VOLTAGE_MAX_CURRENT_A = 100.0
 NEC_CONTINUOUS = 1.25  # NEC 690.8(A)(1) and 690.8(B)(1), NFPA 70-2023
 MPPT_VOLTAGE_MARGIN = 1.15  # hot string Vmp / absorption voltage, MPPT (common practice)
+LOW_SUN_KWH_M2_DAY = 1.5  # below it the monthly transposition is unreliable (test_climate_poa)
 PWM_VOLTAGE_MARGIN = 1.05  # hot module Vmp / (absorption voltage + drop), PWM (common practice)
 
 
@@ -209,6 +210,13 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
              "plane-of-array insolation", "worst-month method, common practice",
              ratio=fmt(float(ratio[dm]), "Wh per kWh/m2"), month=MONTHS[dm])
     lr = _with_design_energy(lr, float(demand[dm]))
+    if horiz[dm] < LOW_SUN_KWH_M2_DAY and tilt > 15.0:
+        notices.append(Notice(
+            "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
+            f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
+            f"a {tilt:.0f} deg plane can read 20-50 % high (compared with pvlib's hourly Perez "
+            "model on TMY years at 55-65 N). Allow a margin or check with an hourly simulation.",
+            "warning", "site.poa_kwh_m2_day"))
     book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
              "worst-month method", month=MONTHS[dm])
 
