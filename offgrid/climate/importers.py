@@ -27,7 +27,9 @@ from __future__ import annotations
 import csv
 import io
 import re
+import warnings
 from dataclasses import dataclass, field
+from datetime import datetime
 from pathlib import Path
 
 import numpy as np
@@ -106,8 +108,13 @@ def detect_kind(path: Path) -> str:
         return "tmy3"
     if re.match(r"^\s*\d{5}\s+.+\s[NS]\s+\d+\s+\d+\s+[EW]\s+\d+\s+\d+", first):
         return "tmy2"
-    if "month" in first.lower():
-        return "monthly-csv"
+    with path.open(encoding="utf-8", errors="replace") as fh:
+        for _, text in zip(range(40), fh, strict=False):
+            stripped = text.strip().lower()
+            if stripped and not stripped.startswith("#"):
+                if stripped.split(",")[0].strip() == "month":
+                    return "monthly-csv"
+                break
     raise WeatherFileError(
         f"{path.name}: format not recognised; offgrid imports EPW (.epw), TMY3 (.csv), "
         "TMY2 (.tm2) and a monthly CSV whose header starts with 'month'"
@@ -152,7 +159,9 @@ def _read_tmy3(path: Path) -> HourlyRows:
 
     _scan_csv_rows(path, skip=2, min_fields=34, label="TMY3")
     try:
-        data, meta = iotools.read_tmy3(str(path), coerce_year=1990, map_variables=True)
+        with warnings.catch_warnings():  # a garbled column gives a dtype warning; we name it
+            warnings.simplefilter("ignore")
+            data, meta = iotools.read_tmy3(str(path), coerce_year=1990, map_variables=True)
     except (ValueError, KeyError, IndexError, TypeError) as exc:
         raise WeatherFileError(_locate_tmy3_error(path, exc)) from exc
     lines = np.arange(len(data)) + 3
@@ -183,8 +192,10 @@ def _locate_tmy3_error(path: Path, exc: Exception) -> str:
                 continue
             if n == 2:
                 continue
-            if not re.fullmatch(r"\d{1,2}/\d{1,2}/\d{4}", row[0].strip()):
-                return f"{path.name} line {n}: date '{row[0]}' is not MM/DD/YYYY"
+            try:
+                datetime.strptime(row[0].strip(), "%m/%d/%Y")
+            except ValueError:
+                return f"{path.name} line {n}: date '{row[0]}' is not a date MM/DD/YYYY"
             if not re.fullmatch(r"\d{1,2}:\d{2}", row[1].strip()):
                 return f"{path.name} line {n}: time '{row[1]}' is not HH:MM"
     return f"{path.name}: the TMY3 reader failed ({exc})"
@@ -248,7 +259,9 @@ def _read_epw(path: Path) -> HourlyRows:
     _check_epw_header(path)
     _scan_csv_rows(path, skip=8, min_fields=22, label="EPW")
     try:
-        data, meta = iotools.read_epw(str(path))
+        with warnings.catch_warnings():  # a garbled column gives a dtype warning; we name it
+            warnings.simplefilter("ignore")
+            data, meta = iotools.read_epw(str(path))
     except (ValueError, KeyError, IndexError, TypeError) as exc:
         raise WeatherFileError(_locate_epw_error(path, exc)) from exc
     lines = np.arange(len(data)) + 9
@@ -409,8 +422,10 @@ def reduce_hourly(rows: HourlyRows, source: str = "", name: str = "") -> ImportR
         runs = np.split(absent, np.flatnonzero(np.diff(absent) > 1) + 1)
         longest = max(runs, key=len)
         if len(rows.month) < 0.5 * n_days * 24 or longest.size > MAX_FILLED_GAP_H:
+            before = np.flatnonzero(slot == longest[0] - 1)
+            after_line = f" (after line {int(rows.line[before[0]])})" if before.size else ""
             raise WeatherFileError(
-                f"{place(longest[0])}: {longest.size} hourly row(s) missing up to "
+                f"{place(longest[0])}{after_line}: {longest.size} hourly row(s) missing up to "
                 f"{place(longest[-1]).split(': ', 1)[-1]} ({absent.size} missing in all, "
                 f"{len(rows.month)} rows of {n_days * 24}); a full year of hourly rows is needed"
             )
