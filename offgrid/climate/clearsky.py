@@ -56,8 +56,9 @@ def clear_sky_daily_ineichen(latitude_deg: float, longitude_deg: float, elevatio
     linke = clearsky.lookup_linke_turbidity(days, latitude_deg, longitude_deg).to_numpy()
     am_rel = atmosphere.get_relative_airmass(np.where(zen < 90, zen, np.nan))
     am_abs = atmosphere.get_absolute_airmass(am_rel, atmosphere.alt2pres(elevation_m))
-    cs = clearsky.ineichen(zen.ravel(), np.asarray(am_abs).ravel(), np.repeat(linke, steps),
-                           altitude=elevation_m)
+    with np.errstate(divide="ignore", invalid="ignore"):  # night rows: NaN airmass, set to 0
+        cs = clearsky.ineichen(zen.ravel(), np.asarray(am_abs).ravel(),
+                               np.repeat(linke, steps), altitude=elevation_m)
     ghi = np.nan_to_num(np.asarray(cs["ghi"], dtype=float).reshape(zen.shape), nan=0.0)
     ghi = np.where(zen < 90, np.maximum(ghi, 0.0), 0.0)
     daily = ghi.sum(axis=1) * sun["step_h"] / 1000.0
