@@ -129,7 +129,8 @@ def _wrap(text: str, indent: str = "   ", width: int = 79) -> str:
                          subsequent_indent=indent + "  ")
 
 
-def print_findings(findings, out=sys.stdout) -> None:
+def print_findings(findings, out=None) -> None:
+    out = sys.stdout if out is None else out
     if not findings:
         print("Checks: nothing to report", file=out)
         return
@@ -176,8 +177,8 @@ def run_list(args) -> int:
         kind = "demo" if h["demo"] else ("hourly year" if h["daily"] else "monthly")
         print(f"{stem:<34} {lat:>7} {lon:>8}  {kind}")
         print(_wrap(h["source"], indent="    ", width=79))
-    print("\nDemo climates are invented demonstration data. Show one with "
-          "`offgrid climate show NAME`.")
+    print("\nDemo climates are invented demonstration data.")
+    print("Show one with `offgrid climate show NAME`.")
     return 0
 
 
