@@ -295,7 +295,7 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
         raise ValueError("design: array size and battery capacity must be 0 or more")
     unlimited = np.isinf(cap)
     cap = np.where(unlimited, UNLIMITED_WH, cap)  # an unlimited battery: a huge store
-    scalar = n == 1 and not record
+    scalar = n == 1
     if scalar:
         mn, mx = min, max
         aw_v, cap_v = float(aw[0]), float(cap[0])
@@ -364,14 +364,14 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
             day_shed_c = day_shed_c + shed_c
             day_shed = day_shed + (lo - so) + shed_c
             if rec is not None:
-                rec["stored_wh"].append(e * np.ones(n))
-                rec["pv_wh"].append(p * np.ones(n))
-                rec["served_wh"].append(served * np.ones(n))
-                rec["discharge_wh"].append(draw * np.ones(n))
-                rec["charge_wh"].append(cin * np.ones(n))
-                rec["spilled_wh"].append(spill * np.ones(n))
-                rec["shed_wh"].append(((lo - so) + shed_c) * np.ones(n))
-                rec["shed_critical_wh"].append(shed_c * np.ones(n))
+                rec["stored_wh"].append(e)
+                rec["pv_wh"].append(p)
+                rec["served_wh"].append(served)
+                rec["discharge_wh"].append(draw)
+                rec["charge_wh"].append(cin)
+                rec["spilled_wh"].append(spill)
+                rec["shed_wh"].append(((lo - so) + shed_c))
+                rec["shed_critical_wh"].append(shed_c)
         unmet = unmet + day_shed
         unmet_c = unmet_c + day_shed_c
         flag = day_shed > tol
@@ -399,8 +399,14 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
         charge_wh=arr(tot_cin), spilled_wh=arr(tot_spill), stored_start_wh=arr(e_start),
         stored_end_wh=arr(e), eta_charge=ec, eta_discharge=ed)
     if rec is not None:
-        out.record = {key: np.array(v).reshape(days, k, n) for key, v in rec.items()}
+        out.record = {key: _stack(v, n).reshape(days, k, n) for key, v in rec.items()}
     return out
+
+
+def _stack(values: list, n: int) -> np.ndarray:
+    if n == 1:
+        return np.asarray(values, dtype=float)
+    return np.vstack([np.broadcast_to(np.asarray(v, dtype=float), (n,)) for v in values])
 
 
 def simulate_inputs(inp: SystemInputs, weather: WeatherSeries, array_w=None, capacity_wh=None,
