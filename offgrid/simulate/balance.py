@@ -370,7 +370,7 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
                 rec["discharge_wh"].append(draw)
                 rec["charge_wh"].append(cin)
                 rec["spilled_wh"].append(spill)
-                rec["shed_wh"].append(((lo - so) + shed_c))
+                rec["shed_wh"].append((lo - so) + shed_c)
                 rec["shed_critical_wh"].append(shed_c)
         unmet = unmet + day_shed
         unmet_c = unmet_c + day_shed_c

@@ -17,6 +17,7 @@ References
 
 from __future__ import annotations
 
+import itertools
 from dataclasses import dataclass
 
 import numpy as np
@@ -99,7 +100,7 @@ def battery_wear(soc_series, years: float, chemistry: str, discharge_wh: float,
     cycle_years = None if per_year <= 0 else 1.0 / per_year
     life = cal if cycle_years is None else min(cal, cycle_years)
     hist = []
-    for lo, hi in zip(_BANDS[:-1], _BANDS[1:], strict=True):
+    for lo, hi in itertools.pairwise(_BANDS):
         sel = (cyc.range >= max(lo, MIN_RANGE)) & (cyc.range < hi)
         label = f"{lo * 100:.0f}-{min(hi, 1.0) * 100:.0f} %"
         hist.append((label, float(cyc.count[sel].sum()) / years))

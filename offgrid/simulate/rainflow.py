@@ -8,6 +8,7 @@ References
 
 from __future__ import annotations
 
+import itertools
 from dataclasses import dataclass
 
 import numpy as np
@@ -83,7 +84,7 @@ def rainflow_astm_e1049(series) -> Cycles:
             else:
                 cnt.append(1.0)
                 del held[-3:-1]
-    for a, b in zip(held[:-1], held[1:], strict=True):
+    for a, b in itertools.pairwise(held):
         rng.append(abs(b - a))
         mean.append(0.5 * (a + b))
         cnt.append(0.5)
