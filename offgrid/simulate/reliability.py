@@ -138,7 +138,7 @@ def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily
                                "24 steps a day, hourly sun shape of Collares-Pereira & Rabl "
                                "(1979)"),
         "load windows, solar time (common practice, no source): " + ", ".join(
-            f"{k} {a:02d}-{b % 24:02d} h" for k, (a, b) in LOAD_WINDOWS_H.items()),
+            f"{k} {a:02d}-{(b - 1) % 24 + 1:02d} h" for k, (a, b) in LOAD_WINDOWS_H.items()),
         "the battery starts full; charge and discharge efficiency are constant",
         "cycle life: " + CYCLE_LIFE_SOURCE,
         *inp.notes,
