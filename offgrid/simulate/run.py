@@ -12,7 +12,7 @@ from pathlib import Path
 from typing import Any
 
 from offgrid.simulate.balance import SystemInputs
-from offgrid.simulate.reliability import Reliability, reliability
+from offgrid.simulate.reliability import MONTH_NAMES, Reliability, reliability
 from offgrid.simulate.tradeoff import (
     DEFAULT_TARGETS,
     TradeOff,
@@ -157,10 +157,9 @@ def summary_text(rep: SimulationReport) -> str:
     lines += [head, "=" * min(80, len(head))]
     seed = "random" if w["seed"] is None else str(w["seed"])
     lines.append(f"Weather: {w['years']} years ({w['measured_years']} measured), seed {seed}")
-    lines.append("  Aguiar, Collares-Pereira & Conde (1988) Markov matrices, "
-                 "rescaled per calendar month")
+    lines.append("  Aguiar, Collares-Pereira & Conde (1988) Markov matrices, rescaled per month")
     lines.append(f"Design: array {r.array_w:.0f} W, battery {r.capacity_wh / 1000:.2f} kWh "
-                 f"available ({r.usable_wh / 1000:.2f} kWh usable); {r.mode} balance")
+                 f"({r.usable_wh / 1000:.2f} kWh usable); {r.mode} balance")
     lines.append("")
     lines.append("Reliability")
     lines.append(f"  loss-of-load probability  {pct(r.lolp):>9}   ({r.shed_days} of {r.days} "
@@ -178,12 +177,11 @@ def summary_text(rep: SimulationReport) -> str:
     if r.lolp_measured is not None:
         lines.append(f"  LOLP in the measured year(s) alone {pct(r.lolp_measured)}")
     lines.append("")
-    lines.append("By month      " + " ".join(f"{m:>5}" for m in
-                                             ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul",
-                                              "Aug", "Sep", "Oct", "Nov", "Dec")))
-    lines.append("LOLP %        " + " ".join(f"{100 * m.lolp:5.1f}" for m in r.months))
-    lines.append("min SoC p5 %  " + " ".join(f"{100 * m.soc_min_p5:5.0f}" for m in r.months))
-    lines.append("min SoC p50 % " + " ".join(f"{100 * m.soc_min_p50:5.0f}" for m in r.months))
+    lines.append(f"{'month':<8}" + "".join(f"{m:>6}" for m in MONTH_NAMES))
+    lines.append(f"{'LOLP %':<8}" + "".join(f"{100 * m.lolp:6.1f}" for m in r.months))
+    lines.append(f"{'SoC p5':<8}" + "".join(f"{100 * m.soc_min_p5:6.0f}" for m in r.months))
+    lines.append(f"{'SoC p50':<8}" + "".join(f"{100 * m.soc_min_p50:6.0f}" for m in r.months))
+    lines.append("  (SoC: lowest state of charge of the day, %, 5th and 50th percentile)")
     lines.append("")
     wr = r.wear
     cyc = "none counted" if wr.cycle_life_years is None else f"{wr.cycle_life_years:.1f} years"
