@@ -166,3 +166,35 @@ def test_missing_months_are_refused(project):
     project.climate.inline.insolation_kwh_m2_day = [5.0] * 11
     with pytest.raises(DesignError, match="12 monthly values"):
         design(project)
+
+
+def test_soiling_from_daily_rate_and_cleaning_interval(project):
+    # mean kept over a linear build-up: 1 - rate x interval / 2 (common practice, no source)
+    project.choices.derates.soiling_rate_pct_per_day = 0.2
+    project.choices.derates.cleaning_interval_days = 20
+    d = design(project)
+    assert d.array.derates["soiling"] == pytest.approx(1 - 0.002 * 20 / 2)
+
+
+def test_auto_system_voltage_keeps_current_at_or_below_100_a(project):
+    # common practice, no source: lowest of 12/24/48 V with array power / V <= 100 A
+    project.choices.system_voltage = "auto"
+    assert design(project).battery.system_voltage_v == 12  # ~918 W / 12 V = 76 A
+    for ld in project.loads:
+        ld.hours_per_day *= 2
+    assert design(project).battery.system_voltage_v == 24  # ~1836 W / 12 V = 153 A
+    for ld in project.loads:
+        ld.hours_per_day = min(24.0, ld.hours_per_day * 2)
+    assert design(project).battery.system_voltage_v == 48
+
+
+def test_lead_acid_parallel_warning(project):
+    project.battery.capacity_ah = 100.0  # 877 Ah needs 9 strings of 100 Ah
+    codes = {n.code for n in design(project).warnings}
+    assert "lead-acid-parallel" in codes
+
+
+def test_supply_covers_demand_in_every_month(project):
+    d = design(project)
+    assert all(s >= e - 1e-6 for s, e in zip(d.array.supply_wh_day, d.loads.daily_energy_wh,
+                                             strict=True))
