@@ -76,3 +76,52 @@ def test_adapter_reproduces_the_design_supply():
     assert inp.capacity_wh == pytest.approx(
         result.battery.nominal_kwh * 1000 / result.battery.temp_factor)
     assert inp.eta_charge * inp.eta_discharge == pytest.approx(project.battery.efficiency)
+
+
+def test_worst_year_series_for_the_chart():
+    project = load_project(demo_project_path())
+    rep = simulate_project(project, demo_project_path().parent, years=4, seed=2,
+                           with_tradeoff=False)
+    r = rep.reliability
+    assert len(r.worst_year_soc_min) == 365 and 0 <= r.worst_year < 4
+    floor = 1 - result_dod(project)
+    assert min(r.worst_year_soc_min) >= floor - 1e-9
+
+
+def result_dod(project) -> float:
+    return design(project, demo_project_path().parent).battery.max_dod
+
+
+def test_hand_project_simulates(project):
+    # the invented hand-worked project of tests/conftest.py, inline climate
+    rep = simulate_project(project, None, years=2, seed=1, sweep_size=5)
+    assert 0 <= rep.reliability.lolp <= 1
+    assert rep.tradeoff is not None and len(rep.tradeoff.targets) == 2
+
+
+def test_measured_days_from_the_climate_are_used(monkeypatch):
+    from types import SimpleNamespace
+
+    import offgrid.sizing
+
+    real = offgrid.sizing.resolve_climate
+
+    def with_daily(project, base=None):
+        c = real(project, base)
+        return SimpleNamespace(**vars(c), daily=SimpleNamespace(
+            insolation_kwh_m2_day=[5.0] * 365))
+
+    monkeypatch.setattr(offgrid.sizing, "resolve_climate", with_daily)
+    project = load_project(demo_project_path())
+    rep = simulate_project(project, demo_project_path().parent, years=2, with_tradeoff=False)
+    assert rep.weather["measured_years"] == 1 and rep.weather["years"] == 3
+    assert rep.reliability.lolp_measured is not None
+
+
+def test_engine_imports_no_ui():
+    import subprocess
+    import sys
+
+    code = ("import sys\nimport offgrid.simulate.run, offgrid.commands.simulate\n"
+            "bad = [m for m in ('textual', 'rich') if m in sys.modules]\nassert not bad, bad\n")
+    subprocess.run([sys.executable, "-c", code], check=True)

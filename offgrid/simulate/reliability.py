@@ -55,6 +55,8 @@ class Reliability:
     clipped_kwh_per_year: float
     battery_loss_kwh_per_year: float
     demand_kwh_per_year: float
+    worst_year: int  # 0-based year of the series with the most shedding days (chart)
+    worst_year_soc_min: tuple[float, ...]  # its 365 daily minimum states of charge [0-1]
     lolp_measured: float | None  # the real weather years alone, if any
     lolp_end_of_life: float | None  # with the capacity at end of life, if asked
     notes: tuple[str, ...]
@@ -124,6 +126,9 @@ def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily
             soc_min_p95=float(np.percentile(dm, 95)), days_below=int((dm < thr).sum())))
     wear = battery_wear(soc_all, years, inp.chemistry, float(bal.discharge_wh[0]),
                         inp.capacity_wh)
+    per_year_shed = shed.reshape(years, DAYS_PER_YEAR).sum(axis=1)
+    per_year_low = daily_min.reshape(years, DAYS_PER_YEAR).min(axis=1)
+    worst = int(np.lexsort((per_year_low, -per_year_shed))[0])
     lolp_measured = None
     if weather.measured_years:
         lolp_measured = float(shed[: weather.measured_years * DAYS_PER_YEAR].mean())
@@ -157,7 +162,10 @@ def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily
         spilled_fraction=float(bal.spilled_wh[0]) / pv if pv > 0 else 0.0,
         clipped_kwh_per_year=float(bal.clipped_wh[0]) / 1000 / years,
         battery_loss_kwh_per_year=float(bal.losses_wh[0]) / 1000 / years,
-        demand_kwh_per_year=bal.demand_wh / 1000 / years, lolp_measured=lolp_measured,
+        demand_kwh_per_year=bal.demand_wh / 1000 / years, worst_year=worst,
+        worst_year_soc_min=tuple(float(v) for v in
+                                 daily_min.reshape(years, DAYS_PER_YEAR)[worst].round(4)),
+        lolp_measured=lolp_measured,
         lolp_end_of_life=lolp_eol, notes=notes,
         reasons=_reasons(inp, weather, bal, thr, mode, wear))
     return res
