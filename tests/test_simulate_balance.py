@@ -126,13 +126,13 @@ def test_critical_loads_served_first():
     assert b.lolp_critical[0] <= b.lolp[0]
 
 
-@pytest.mark.parametrize("seed", [1, 2, 3])
-def test_doubling_array_and_battery_never_raises_lolp(seed):
+@pytest.mark.parametrize("seed,mode", [(1, "daily"), (2, "daily"), (3, "daily"), (4, "hourly")])
+def test_doubling_array_and_battery_never_raises_lolp(seed, mode):
     rng = np.random.default_rng(seed)
     aw = rng.uniform(100, 1500, 25)
     cap = rng.uniform(0, 10000, 25)
     inp = system()
-    steps = build_steps(inp, weather(3, seed), "daily")
+    steps = build_steps(inp, weather(3 if mode == "daily" else 1, seed), mode)
     kw = dict(max_dod=0.5, eta_charge=inp.eta_charge, eta_discharge=inp.eta_discharge)
     base = run_balance(steps, aw, cap, **kw)
     double = run_balance(steps, 2 * aw, 2 * cap, **kw)

@@ -84,9 +84,14 @@ def test_unreachable_target_says_so(case):
     assert "no design of the sweep reaches" in tr.targets[0].message
 
 
+def test_target_as_percent():
+    assert check_target("1%") == pytest.approx(0.01)
+    assert check_target("0.1 %") == pytest.approx(0.001)
+
+
 @pytest.mark.parametrize("target,match", [(0, "cannot be promised"), (0.0, "cannot be promised"),
                                           (-0.01, "cannot be promised"), (1.0, "below 1"),
-                                          ("abc", "not a number")])
+                                          ("abc", "not a number"), ("0%", "cannot be promised")])
 def test_bad_targets(target, match):
     with pytest.raises(ValueError, match=match):
         check_target(target)

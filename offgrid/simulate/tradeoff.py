@@ -27,9 +27,10 @@ PRICE_KEYS = ("array_per_w", "battery_per_kwh")
 
 
 def check_target(target) -> float:
-    """A target LOLP must be a fraction strictly between 0 and 1."""
+    """A target LOLP must be a fraction strictly between 0 and 1 ("1%" is read as 0.01)."""
     try:
-        t = float(target)
+        text = str(target).strip()
+        t = float(text[:-1]) / 100.0 if text.endswith("%") else float(target)
     except (TypeError, ValueError):
         raise ValueError(f"target LOLP: {target!r} is not a number; give e.g. 0.01 "
                          "for 1 %") from None
