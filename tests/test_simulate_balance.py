@@ -64,7 +64,7 @@ def test_energy_conserved_every_step(mode):
 def hand_steps():
     # Three days, daily mode: (sun step, dark step).  PV per W of array per day and the
     # loads (critical, other) in Wh.
-    pv = np.array([[3.0, 0.0], [0.5, 0.0], [10.0, 0.0]])
+    pv = np.array([[3.0, 0.0], [0.3, 0.0], [10.0, 0.0]])
     crit = np.array([[100.0, 200.0]] * 3)
     other = np.array([[100.0, 100.0]] * 3)
     return Steps(pv, np.zeros_like(pv), crit, other, None, np.zeros(3, dtype=int), 2, "daily")
@@ -76,7 +76,8 @@ def test_short_case_worked_by_hand(designs):
     # 100 W array, 1000 Wh battery, DoD 0.5 (floor 500 Wh), charge and discharge 0.9, full.
     # Day 1 sun: P = 300, loads 200 served direct, surplus 100 spilled (battery full).
     #        dark: 300 Wh from the battery -> stored 1000 - 300/0.9 = 666.67.
-    # Day 2 sun: P = 50; battery can give (666.67 - 500) x 0.9 = 150; loads 200 served,
+    # Day 2 sun: P = 30; battery can give (666.67 - 500) x 0.9 = 150; of the 200 Wh of
+    #        loads the 100 critical are served first, 80 of the 100 other, 20 shed;
     #        stored 500.  dark: nothing available: 200 critical + 100 other shed.
     # Day 3 sun: P = 1000, 200 served, charge min(800, 500 / 0.9) = 555.56 -> full, 244.44
     #        spilled.  dark: 300 from the battery -> 666.67.
@@ -86,9 +87,11 @@ def test_short_case_worked_by_hand(designs):
     assert b.shed_days.tolist() == [1] * designs
     assert b.shed_days_critical.tolist() == [1] * designs
     assert b.lolp[0] == pytest.approx(1 / 3)
-    assert b.unmet_wh[0] == pytest.approx(300.0)
+    assert b.unmet_wh[0] == pytest.approx(320.0)
     assert b.unmet_critical_wh[0] == pytest.approx(200.0)
-    assert b.unmet_fraction[0] == pytest.approx(300 / 1500)
+    assert b.unmet_fraction[0] == pytest.approx(320 / 1500)
+    shed_sun = b.record["shed_wh"][1, 0, 0], b.record["shed_critical_wh"][1, 0, 0]
+    assert shed_sun == pytest.approx((20.0, 0.0))
     assert b.discharge_wh[0] == pytest.approx(300 + 150 + 300)
     assert b.charge_wh[0] == pytest.approx(500 / 0.9)
     assert b.spilled_wh[0] == pytest.approx(100 + 800 - 500 / 0.9)
@@ -118,8 +121,9 @@ def test_no_battery_sheds_night_loads_every_night(mode):
     assert day.unmet_fraction[0] < 0.5
 
 
-def test_critical_loads_served_first():
-    inp = system(critical_share=0.3, array_w=350.0)
+@pytest.mark.parametrize("tod", ["evening", "any"])
+def test_critical_loads_served_first(tod):
+    inp = system(critical_share=0.3, array_w=350.0, load_time_of_day=tod)
     b = simulate_inputs(inp, weather(5), mode="hourly")
     assert b.shed_days[0] > 0
     assert b.unmet_fraction_critical[0] < b.unmet_fraction[0]
