@@ -4,6 +4,7 @@ import numpy as np
 import pytest
 
 from offgrid.simulate.balance import (
+    SMALL_N,
     SimulationCancelled,
     Steps,
     build_steps,
@@ -151,9 +152,13 @@ def test_vectorised_equals_one_by_one():
     inp = system()
     w = weather(2)
     steps = build_steps(inp, w, "daily")
-    aw, cap = np.array([200.0, 700.0, 1300.0]), np.array([500.0, 3000.0, 12000.0])
+    # more designs than SMALL_N, so the numpy path runs, against plain-float runs one by one
+    aw = np.linspace(200.0, 1300.0, SMALL_N + 2)
+    cap = np.geomspace(500.0, 12000.0, SMALL_N + 2)
     many = simulate_inputs(inp, w, aw, cap, steps=steps)
-    for i in range(3):
+    few = simulate_inputs(inp, w, aw[:3], cap[:3], steps=steps)  # the one-by-one path
+    np.testing.assert_array_equal(few.shed_days, many.shed_days[:3])
+    for i in range(aw.size):
         one = simulate_inputs(inp, w, aw[i], cap[i], steps=steps)
         assert one.shed_days[0] == many.shed_days[i]
         assert one.unmet_wh[0] == pytest.approx(many.unmet_wh[i])

@@ -30,7 +30,7 @@ steps a day using the Collares-Pereira & Rabl hourly shape of the day's sun.
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field, fields, replace
 
 import numpy as np
 
@@ -46,6 +46,7 @@ from offgrid.simulate.weather import WeatherSeries, check_monthly
 SHED_TOLERANCE_WH = 1e-6  # a step counts as shedding above this unmet energy
 MAX_DESIGN_DAYS = 400_000_000  # refuse runs that would take minutes
 UNLIMITED_WH = 1e15  # stands for an infinite battery capacity
+SMALL_N = 8  # up to this many designs run one by one on plain floats
 
 
 class SimulationCancelled(Exception):
@@ -295,6 +296,17 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
         raise ValueError("design: array size and battery capacity must be 0 or more")
     unlimited = np.isinf(cap)
     cap = np.where(unlimited, UNLIMITED_WH, cap)  # an unlimited battery: a huge store
+    if 1 < n <= SMALL_N and not record:
+        # a few designs: one plain-float run each is faster than small numpy arrays
+        parts = []
+        for i in range(n):
+            sub = None if progress is None else (
+                lambda f, i=i: progress((i + f) / n))
+            parts.append(run_balance(steps, aw[i], cap[i], max_dod=max_dod,
+                                     eta_charge=eta_charge, eta_discharge=eta_discharge,
+                                     initial_soc=initial_soc, progress=sub,
+                                     cancelled=cancelled))
+        return _concat(parts, unlimited)
     scalar = n == 1
     if scalar:
         mn, mx = min, max
@@ -401,6 +413,19 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
     if rec is not None:
         out.record = {key: _stack(v, n).reshape(days, k, n) for key, v in rec.items()}
     return out
+
+
+def _concat(parts: list[Balance], unlimited: np.ndarray) -> Balance:
+    first = parts[0]
+    kw = {}
+    for f in fields(Balance):
+        v = getattr(first, f.name)
+        if isinstance(v, np.ndarray):
+            kw[f.name] = np.concatenate([getattr(p, f.name) for p in parts])
+        else:
+            kw[f.name] = v
+    kw["capacity_wh"] = np.where(unlimited, np.inf, kw["capacity_wh"])
+    return Balance(**kw)
 
 
 def _stack(values: list, n: int) -> np.ndarray:
