@@ -60,7 +60,7 @@ def main() -> None:
           f"   {901 * w30.days / t_sw:,.0f} design-days/s")
 
     print("\nscaling with designs (30 years daily, balance loop):")
-    for n in (1, 10, 100, 400, 900, 2500):
+    for n in (1, 4, 8, 10, 100, 400, 900, 2500):
         aw = np.full(n, 1800.0)
         cap = np.linspace(5000, 60000, n)
         t = best(lambda aw=aw, cap=cap: run_balance(steps30, aw, cap, **kw))
