@@ -133,6 +133,9 @@ def prices_from_args(array_price, battery_price) -> dict[str, float] | None:
     """Prices from two optional values; both or neither must be given."""
     if array_price is None and battery_price is None:
         return None
+    if array_price is None or battery_price is None:
+        raise ValueError("costs missing: give both the array price per W (--array-price) and "
+                         "the battery price per kWh (--battery-price)")
     return check_prices({"array_per_w": array_price, "battery_per_kwh": battery_price})
 
 
