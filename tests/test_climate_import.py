@@ -297,3 +297,24 @@ def test_tmy2_garbled_row(tmp_path):
     dst.write_text("\n".join(lines) + "\n")
     with pytest.raises(WeatherFileError, match="line 201: not a TMY2 data row"):
         import_weather_file(dst)
+
+
+def test_tmy2_fixed_column_reader_equals_pvlib_read_tmy2():
+    # pvlib.iotools.read_tmy2 as the reference for our faster fixed-column reader
+    from offgrid.climate.importers import _read_tmy2
+
+    path = pvlib_data() / TMY2_MIAMI
+    ours, theirs = _read_tmy2(path), _read_tmy2(path, use_pvlib=True)
+    for key in ("month", "day", "hour", "ghi_w_m2", "temp_air_c", "line"):
+        np.testing.assert_array_equal(getattr(ours, key), getattr(theirs, key), err_msg=key)
+    assert (ours.latitude_deg, ours.longitude_deg, ours.elevation_m, ours.station) == (
+        theirs.latitude_deg, theirs.longitude_deg, theirs.elevation_m, theirs.station)
+
+
+def test_tmy2_garbled_number_names_line_and_columns(tmp_path):
+    dst = tmp_path / "miami.tm2"
+    lines = (pvlib_data() / TMY2_MIAMI).read_text().splitlines()
+    lines[300] = lines[300][:17] + "x9z9" + lines[300][21:]
+    dst.write_text("\n".join(lines) + "\n")
+    with pytest.raises(WeatherFileError, match=r"line 301: GHI 'x9z9' \(characters 18-21\)"):
+        import_weather_file(dst)

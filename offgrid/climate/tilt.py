@@ -57,13 +57,13 @@ def _worst_ratio(poa, demand) -> np.ndarray:
     return ratio.min(axis=-1)
 
 
-def _search(score_fn, lo: float, hi: float) -> float:
-    """Best tilt on a 1-degree grid, refined to 0.1 degree; ties go to the lower tilt."""
-    grid = np.unique(np.concatenate([np.arange(lo, hi, 1.0), [hi]]))
-    best = float(grid[int(np.argmax(score_fn(grid)))])
-    fine = np.arange(max(lo, best - 1.0), min(hi, best + 1.0) + 1e-9, 0.1)
-    fine = np.round(fine, 6)
-    return float(fine[int(np.argmax(score_fn(fine)))])
+def _argmax_low(scores: np.ndarray, tilts: np.ndarray) -> float:
+    """Tilt of the best score; ties go to the lower tilt."""
+    return float(tilts[int(np.argmax(scores))])
+
+
+def _fine_grid(best: float, lo: float, hi: float) -> np.ndarray:
+    return np.round(np.arange(max(lo, best - 1.0), min(hi, best + 1.0) + 1e-9, 0.1), 6)
 
 
 def best_tilt(insolation_kwh_m2_day, latitude_deg: float, azimuth_deg: float | None = None,
@@ -115,9 +115,15 @@ def best_tilt(insolation_kwh_m2_day, latitude_deg: float, azimuth_deg: float | N
                            longitude_deg=longitude_deg, elevation_m=elevation_m,
                            sun=sun).poa_kwh_m2_day
 
-    lo = float(min_tilt_deg)
-    worst_tilt = _search(lambda t: _worst_ratio(poa(t), demand), lo, 90.0)
-    annual_tilt = _search(lambda t: _annual(poa(t)), lo, 90.0)
+    lo, hi = float(min_tilt_deg), 90.0
+    # one evaluation of the 1-degree grid serves both criteria, then one of both fine grids
+    coarse = np.unique(np.concatenate([np.arange(lo, hi, 1.0), [hi]]))
+    p_coarse = poa(coarse)
+    fine_w = _fine_grid(_argmax_low(_worst_ratio(p_coarse, demand), coarse), lo, hi)
+    fine_a = _fine_grid(_argmax_low(_annual(p_coarse), coarse), lo, hi)
+    p_fine = poa(np.concatenate([fine_w, fine_a]))
+    worst_tilt = _argmax_low(_worst_ratio(p_fine[:fine_w.size], demand), fine_w)
+    annual_tilt = _argmax_low(_annual(p_fine[fine_w.size:]), fine_a)
     both = poa(np.array([worst_tilt, annual_tilt]))
     p_w, p_a = both[0], both[1]
     r_w, r_a = _worst_ratio(both, demand)
