@@ -318,3 +318,13 @@ def test_tmy2_garbled_number_names_line_and_columns(tmp_path):
     dst.write_text("\n".join(lines) + "\n")
     with pytest.raises(WeatherFileError, match=r"line 301: GHI 'x9z9' \(characters 18-21\)"):
         import_weather_file(dst)
+
+
+def test_long_run_of_missing_values_names_the_line(tmp_path):
+    def edit(lines):
+        for i in range(4000, 4006):  # six hours of TMY3's missing marker -9900 in the GHI
+            lines[i] = _set_field(lines[i], 4, "-9900")
+        return lines
+
+    with pytest.raises(WeatherFileError, match=r"line 4001: .* GHI missing for 6 hour\(s\)"):
+        import_weather_file(_tmy3_copy(tmp_path, edit))

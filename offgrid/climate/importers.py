@@ -453,10 +453,16 @@ def reduce_hourly(rows: HourlyRows, source: str = "", name: str = "") -> ImportR
             "offgrid imports hourly files only"
         )
 
+    slot_line = np.zeros(n_days * 24, dtype=int)
+    slot_line[slot] = rows.line
+
     def place(flat_index: int) -> str:
+        """'FILE line N: Mon D hour H' (no line when the row itself is missing)."""
         d, h = divmod(int(flat_index), 24)
         m = int(np.searchsorted(starts, d, side="right")) - 1
-        return f"{fname}: {MONTHS[m]} {d - starts[m] + 1} hour {h + 1}"
+        line = int(slot_line[int(flat_index)])
+        where = f"{fname} line {line}" if line else fname
+        return f"{where}: {MONTHS[m]} {d - starts[m] + 1} hour {h + 1}"
 
     ghi_vals = rows.ghi_w_m2.astype(float).copy()
     temp_vals = rows.temp_air_c.astype(float).copy()
