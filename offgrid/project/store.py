@@ -79,8 +79,9 @@ def _plain(obj: Any) -> Any:
         out = {}
         for f in dataclasses.fields(obj):
             value = getattr(obj, f.name)
-            if value is None:
-                continue  # TOML has no null: a missing key means "automatic"
+            if value is None or (isinstance(value, list) and not value
+                                 and f.default_factory is not dataclasses.MISSING):
+                continue  # TOML has no null: a missing key means "automatic" (or empty)
             out[f.name] = _plain(value)
         return out
     if isinstance(obj, list | tuple):
@@ -122,10 +123,10 @@ def project_to_dict(project: Project) -> dict[str, Any]:
 
 
 def dumps_project(project: Project) -> str:
-    import tomli_w
+    from offgrid.project.toml_out import dumps
 
     head = "# offgrid project file: edit with `offgrid`, or by hand with care.\n"
-    return head + tomli_w.dumps(project_to_dict(project))
+    return head + dumps(project_to_dict(project))
 
 
 def save_project(project: Project, path: str | os.PathLike) -> Path:
