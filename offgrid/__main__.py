@@ -1,0 +1,5 @@
+"""``python -m offgrid``."""
+
+from offgrid.cli import main
+
+raise SystemExit(main())

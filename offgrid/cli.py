@@ -1,0 +1,57 @@
+"""Command line: ``offgrid`` opens the text UI; subcommands run headless.
+
+Each subcommand lives in :mod:`offgrid.commands` as a module with
+``register(subparsers)``; modules are imported only when needed so start-up
+stays quick.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+
+#: Subcommand modules under offgrid.commands, in the order ``--help`` lists them.
+COMMANDS: tuple[str, ...] = ("size",)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="offgrid",
+        description="Size stand-alone solar power systems from a load list and a site climate. "
+                    "With no subcommand, opens the text interface.",
+    )
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    for name in COMMANDS:
+        importlib.import_module(f"offgrid.commands.{name}").register(sub)
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    argv = sys.argv[1:] if argv is None else argv
+    if not argv or (argv[0] not in COMMANDS and argv[0] not in ("-h", "--help")):
+        ui = _ui_entry()
+        if ui is not None:
+            return ui(argv)
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "func", None):
+        parser.print_help()
+        return 2
+    try:
+        return int(args.func(args) or 0)
+    except KeyboardInterrupt:
+        return 130
+    except BrokenPipeError:
+        return 0
+
+
+def _ui_entry():
+    """The text UI's entry point, or None while the UI is not installed."""
+    try:
+        module = importlib.import_module("offgrid.tui.launch")
+    except ModuleNotFoundError as exc:
+        if exc.name and exc.name.startswith("offgrid.tui"):
+            return None
+        raise
+    return module.run

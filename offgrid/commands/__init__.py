@@ -1,0 +1,1 @@
+"""Subcommands of the ``offgrid`` command line, one module each."""

@@ -1,0 +1,38 @@
+"""Shared pieces of the subcommands: the PROJECT / --demo argument and error printing."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+from offgrid.project.model import Project
+
+
+def add_project_argument(parser: argparse.ArgumentParser, required: bool = True) -> None:
+    parser.add_argument("project", nargs="?", metavar="PROJECT",
+                        help="a saved project file (.toml)")
+    parser.add_argument("--demo", action="store_true",
+                        help="use the bundled demonstration project instead of PROJECT")
+
+
+def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
+    """The project named by PROJECT or --demo; raises SystemExit(2) with a message on failure."""
+    from offgrid.paths import demo_project_path
+    from offgrid.project.store import ProjectFileError, load_project
+
+    if args.demo and args.project:
+        fail("give either PROJECT or --demo, not both")
+    path = demo_project_path() if args.demo else Path(args.project) if args.project else None
+    if path is None:
+        fail("name a project file, or use --demo for the bundled demonstration project")
+    try:
+        return load_project(path), path.parent
+    except ProjectFileError as exc:
+        fail(str(exc))
+    raise AssertionError  # unreachable
+
+
+def fail(message: str, code: int = 2) -> None:
+    print(f"offgrid: {message}", file=sys.stderr)
+    raise SystemExit(code)

@@ -1,0 +1,86 @@
+"""``offgrid size``: the worst-month design of a project, as a summary or JSON."""
+
+from __future__ import annotations
+
+import argparse
+import json
+
+from offgrid.commands.common import add_project_argument, fail, open_project
+
+
+def register(sub) -> None:
+    p = sub.add_parser("size", help="size a project for its worst month and print the design",
+                       description="Size a project (or a quick design from a load list and a "
+                                   "climate) and print the design.")
+    add_project_argument(p)
+    p.add_argument("--json", action="store_true", help="print the design as JSON")
+    quick = p.add_argument_group("quick design without a project file")
+    quick.add_argument("--loads", metavar="LOADS.csv", help="load list CSV")
+    quick.add_argument("--climate", metavar="CLIMATE",
+                       help="bundled climate name or climate file (see `offgrid climate list`)")
+    quick.add_argument("--autonomy-days", type=float, metavar="N")
+    quick.add_argument("--max-dod", type=float, metavar="F", help="maximum depth of discharge 0-1")
+    quick.add_argument("--controller", choices=("pwm", "mppt"))
+    p.set_defaults(func=run)
+
+
+def quick_project(args: argparse.Namespace):
+    """A project built from --loads and --climate with default parts."""
+    from offgrid.climate.files import ClimateFileError, load_climate
+    from offgrid.project.loads_csv import LoadListError, load_loads_csv
+    from offgrid.project.model import ClimateChoice, Project, ProjectInfo, Site
+
+    if not (args.loads and args.climate):
+        fail("a quick design needs both --loads LOADS.csv and --climate CLIMATE")
+    try:
+        loads = load_loads_csv(args.loads)
+    except LoadListError as exc:
+        fail(str(exc))
+    try:
+        climate = load_climate(args.climate)
+    except ClimateFileError as exc:
+        fail(str(exc))
+    if climate.latitude_deg is None:
+        fail(f"climate '{args.climate}' has no latitude_deg: add it to the climate file")
+    site = Site(name=args.climate, latitude_deg=climate.latitude_deg,
+                longitude_deg=climate.longitude_deg or 0.0, elevation_m=climate.elevation_m or 0.0)
+    return Project(info=ProjectInfo(name=f"Quick design: {args.loads}"), site=site,
+                   climate=ClimateChoice(ref=args.climate), loads=loads)
+
+
+def apply_overrides(project, args: argparse.Namespace) -> None:
+    from offgrid.project.validate import validate_project
+
+    if args.autonomy_days is not None:
+        project.choices.autonomy_days = args.autonomy_days
+    if args.max_dod is not None:
+        project.choices.max_dod = args.max_dod
+    if args.controller:
+        project.controller.type = args.controller
+    problems = validate_project(project)
+    if problems:
+        fail("; ".join(str(p) for p in problems))
+
+
+def run(args: argparse.Namespace) -> int:
+    from offgrid.result import DesignError
+    from offgrid.sizing import design
+
+    if args.loads or args.climate:
+        if args.project or args.demo:
+            fail("give a PROJECT (or --demo), or --loads with --climate, not both")
+        project, base = quick_project(args), None
+    else:
+        project, base = open_project(args)
+    apply_overrides(project, args)
+    try:
+        result = design(project, base)
+    except DesignError as exc:
+        fail(f"cannot design: {exc}", code=3)
+    if args.json:
+        print(json.dumps(result.to_dict(), indent=2, ensure_ascii=False))
+    else:
+        from offgrid.summary import summary_text
+
+        print(summary_text(project, result))
+    return 0

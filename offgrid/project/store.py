@@ -1,0 +1,365 @@
+"""Project files: TOML in, TOML out, never losing what the user saved.
+
+* :func:`load_project` parses, converts and validates, and raises
+  :class:`ProjectFileError` listing every problem with its dotted path, the
+  line where it stands and a hint.  A file that failed to load is never written.
+* :func:`save_project` writes atomically (temporary file in the same folder,
+  fsync, rename) and keeps the previous version as ``NAME.toml.bak``.
+* Tables this version does not know are kept in ``Project.extra`` and written
+  back unchanged.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import os
+import re
+import tempfile
+import tomllib
+import types
+import typing
+from pathlib import Path
+from typing import Any, Literal, get_args, get_origin, get_type_hints
+
+from offgrid.climate.files import ClimateFileError, climate_from_dict, climate_to_dict
+from offgrid.project.loads_csv import format_months, parse_months
+from offgrid.project.model import (
+    FORMAT_NAME,
+    SCHEMA_VERSION,
+    ClimateChoice,
+    Load,
+    Project,
+)
+from offgrid.project.validate import Problem, validate_project
+
+
+class ProjectFileError(ValueError):
+    """The project file cannot be used; ``problems`` lists each with path, line and hint."""
+
+    def __init__(self, source: str, problems: list[Problem]) -> None:
+        self.source = source
+        self.problems = problems
+        lines = "\n".join(f"  {p}" for p in problems)
+        super().__init__(f"{source}: cannot load ({len(problems)} problem(s))\n{lines}")
+
+
+# ----------------------------------------------------------------------------- writing
+
+def atomic_write_text(path: str | os.PathLike, text: str, backup: bool = True) -> Path:
+    """Write ``text`` to ``path`` atomically; keep the old file as ``path + '.bak'``."""
+    target = Path(path)
+    folder = target.parent if str(target.parent) else Path(".")
+    fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
+            fh.write(text)
+            fh.flush()
+            os.fsync(fh.fileno())
+        if backup and target.exists():
+            bak = target.with_name(target.name + ".bak")
+            os.replace(target, bak)
+        os.replace(tmp, target)
+        try:
+            dfd = os.open(folder, os.O_RDONLY)
+            try:
+                os.fsync(dfd)
+            finally:
+                os.close(dfd)
+        except OSError:
+            pass
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
+    return target
+
+
+def _plain(obj: Any) -> Any:
+    if dataclasses.is_dataclass(obj):
+        out = {}
+        for f in dataclasses.fields(obj):
+            value = getattr(obj, f.name)
+            if value is None:
+                continue  # TOML has no null: a missing key means "automatic"
+            out[f.name] = _plain(value)
+        return out
+    if isinstance(obj, list | tuple):
+        return [_plain(v) for v in obj]
+    if isinstance(obj, dict):
+        return {k: _plain(v) for k, v in obj.items()}
+    return obj
+
+
+def project_to_dict(project: Project) -> dict[str, Any]:
+    """The document body, in the order it is saved."""
+    body: dict[str, Any] = {"format": FORMAT_NAME, "schema": SCHEMA_VERSION}
+    body["info"] = _plain(project.info)
+    body["site"] = _plain(project.site)
+    if project.climate.inline is not None:
+        inline = climate_to_dict(project.climate.inline)
+        inline.pop("format")
+        inline.pop("schema")
+        body["climate"] = inline
+    else:
+        body["climate"] = {"ref": project.climate.ref or ""}
+    for name in ("module", "battery", "controller", "inverter", "choices"):
+        body[name] = _plain(getattr(project, name))
+    for f in dataclasses.fields(project):
+        if f.name in body or f.name in ("loads", "extra"):
+            continue
+        value = getattr(project, f.name)
+        if value is not None:
+            body[f.name] = _plain(value)
+    loads = []
+    for ld in project.loads:
+        d = _plain(ld)
+        d["months"] = format_months(ld.months)
+        loads.append(d)
+    body["loads"] = loads
+    for key, value in project.extra.items():
+        body.setdefault(key, value)
+    return body
+
+
+def dumps_project(project: Project) -> str:
+    import tomli_w
+
+    head = "# offgrid project file: edit with `offgrid`, or by hand with care.\n"
+    return head + tomli_w.dumps(project_to_dict(project))
+
+
+def save_project(project: Project, path: str | os.PathLike) -> Path:
+    """Validate lightly (must serialise), then write atomically with a backup."""
+    return atomic_write_text(path, dumps_project(project))
+
+
+# ----------------------------------------------------------------------------- reading
+
+def _locate_lines(text: str) -> dict[str, int]:
+    """Map dotted paths (``site.latitude_deg``, ``loads[2].power_w``) to 1-based line numbers."""
+    where: dict[str, int] = {}
+    table = ""
+    counts: dict[str, int] = {}
+    header = re.compile(r"^\s*(\[\[?)\s*([A-Za-z0-9_.\-]+)\s*\]\]?")
+    keyline = re.compile(r"^\s*([A-Za-z0-9_\-]+)\s*=")
+    for n, line in enumerate(text.splitlines(), start=1):
+        m = header.match(line)
+        if m:
+            name = m.group(2)
+            if m.group(1) == "[[":
+                counts[name] = counts.get(name, 0) + 1
+                table = f"{name}[{counts[name]}]"
+            else:
+                table = name
+            where.setdefault(table, n)
+            continue
+        k = keyline.match(line)
+        if k:
+            path = f"{table}.{k.group(1)}" if table else k.group(1)
+            where.setdefault(path, n)
+    return where
+
+
+class _Reader:
+    def __init__(self) -> None:
+        self.problems: list[Problem] = []
+
+    def bad(self, path: str, message: str) -> None:
+        self.problems.append(Problem(path, message))
+
+    def convert(self, tp: Any, value: Any, path: str) -> Any:
+        origin = get_origin(tp)
+        args = get_args(tp)
+        if origin in (typing.Union, types.UnionType):
+            if value is None and type(None) in args:
+                return None
+            options = [a for a in args if a is not type(None)]
+            literal_opts = [a for a in options if get_origin(a) is Literal]
+            for lit in literal_opts:
+                if value in get_args(lit):
+                    return value
+            others = [a for a in options if get_origin(a) is not Literal]
+            if len(others) == 1:
+                return self.convert(others[0], value, path)
+            allowed = [v for lit in literal_opts for v in get_args(lit)]
+            self.bad(path, f"'{value}' is not allowed; use one of {allowed} or a number")
+            return None
+        if origin is Literal:
+            if value not in args:
+                self.bad(path, f"'{value}' must be one of: {', '.join(map(str, args))}")
+            return value
+        if tp is bool:
+            if not isinstance(value, bool):
+                self.bad(path, f"'{value}' must be true or false")
+            return bool(value)
+        if tp is float:
+            if isinstance(value, bool) or not isinstance(value, int | float):
+                self.bad(path, f"'{value}' is not a number")
+                return 0.0
+            return float(value)
+        if tp is int:
+            if isinstance(value, bool) or not isinstance(value, int | float) or value != int(value):
+                self.bad(path, f"'{value}' must be a whole number")
+                return 0
+            return int(value)
+        if tp is str:
+            if not isinstance(value, str):
+                self.bad(path, f"'{value}' must be text in quotes")
+                return str(value)
+            return value
+        if origin is list:
+            if not isinstance(value, list):
+                self.bad(path, "must be a list")
+                return []
+            return [self.convert(args[0], v, f"{path}[{i + 1}]") for i, v in enumerate(value)]
+        if origin is tuple:
+            if path.endswith(".months"):
+                try:
+                    return parse_months(value if isinstance(value, str) else
+                                        ",".join(str(v) for v in value))
+                except ValueError as exc:
+                    self.bad(path, str(exc))
+                    return ()
+            if not isinstance(value, list | tuple):
+                self.bad(path, "must be a list")
+                return ()
+            return tuple(self.convert(args[0], v, f"{path}[{i + 1}]") for i, v in
+                         enumerate(value))
+        if origin is dict or tp is dict:
+            return dict(value) if isinstance(value, dict) else {}
+        if dataclasses.is_dataclass(tp):
+            return self.build(tp, value, path)
+        return value
+
+    def build(self, cls: Any, data: Any, path: str) -> Any:
+        if not isinstance(data, dict):
+            self.bad(path, "must be a table")
+            return cls() if _all_defaults(cls) else None
+        hints = get_type_hints(cls)
+        kwargs = {}
+        known = {f.name for f in dataclasses.fields(cls)}
+        for key in data:
+            if key not in known:
+                self.bad(f"{path}.{key}",
+                         f"unknown field; known fields are {', '.join(sorted(known))}")
+        for f in dataclasses.fields(cls):
+            if f.name in data:
+                kwargs[f.name] = self.convert(hints[f.name], data[f.name], f"{path}.{f.name}")
+            elif f.default is dataclasses.MISSING and f.default_factory is dataclasses.MISSING:
+                self.bad(f"{path}.{f.name}", "required field is missing")
+                kwargs[f.name] = self.convert(hints[f.name], _zero(hints[f.name]), path)
+        return cls(**kwargs)
+
+
+def _zero(tp: Any) -> Any:
+    return {float: 0.0, int: 0, str: "", bool: False}.get(tp, [])
+
+
+def _all_defaults(cls: Any) -> bool:
+    return all(f.default is not dataclasses.MISSING or f.default_factory is not dataclasses.MISSING
+               for f in dataclasses.fields(cls))
+
+
+def project_from_dict(data: dict[str, Any], source: str = "project") -> tuple[Project,
+                                                                                list[Problem]]:
+    """Convert a parsed document to a Project; returns it with the list of problems."""
+    reader = _Reader()
+    fmt = data.get("format")
+    if fmt != FORMAT_NAME:
+        reader.bad("format", f"'{fmt}' is not an offgrid project; the first line must be "
+                             f"format = \"{FORMAT_NAME}\"")
+        return Project(), reader.problems
+    schema = data.get("schema")
+    if not isinstance(schema, int) or isinstance(schema, bool) or schema < 1:
+        reader.bad("schema", f"'{schema}' must be a whole number (this offgrid writes "
+                             f"{SCHEMA_VERSION})")
+        return Project(), reader.problems
+    if schema > SCHEMA_VERSION:
+        reader.bad("schema", f"the file is schema {schema}, newer than this offgrid reads "
+                             f"({SCHEMA_VERSION}); open it with a newer offgrid. The file was "
+                             "not changed")
+        return Project(), reader.problems
+    hints = get_type_hints(Project)
+    kwargs: dict[str, Any] = {}
+    extra: dict[str, Any] = {}
+    for key, value in data.items():
+        if key in ("format", "schema"):
+            continue
+        if key == "climate":
+            kwargs["climate"] = _read_climate(value, reader)
+        elif key == "loads":
+            if not isinstance(value, list):
+                reader.bad("loads", "must be a list of [[loads]] tables")
+                continue
+            kwargs["loads"] = [reader.build(Load, v, f"loads[{i + 1}]") for i, v in
+                               enumerate(value)]
+        elif key in hints and key != "extra":
+            kwargs[key] = reader.convert(hints[key], value, key)
+        else:
+            extra[key] = value
+    project = Project(**kwargs, extra=extra)
+    if not reader.problems:
+        reader.problems.extend(validate_project(project))
+    return project, reader.problems
+
+
+def _read_climate(value: Any, reader: _Reader) -> ClimateChoice:
+    if not isinstance(value, dict):
+        reader.bad("climate", "must be a table with `ref` or a [climate.monthly] table")
+        return ClimateChoice()
+    if "monthly" in value:
+        try:
+            return ClimateChoice(inline=climate_from_dict(value, where="climate"))
+        except ClimateFileError as exc:
+            msg = str(exc)
+            path, _, rest = msg.partition(": ")
+            reader.bad(path, rest or msg)
+            return ClimateChoice()
+    ref = value.get("ref")
+    if not isinstance(ref, str) or not ref.strip():
+        reader.bad("climate.ref", "give a bundled climate name (see `offgrid climate list`) or a "
+                                  "file path, or an inline [climate.monthly] table")
+        return ClimateChoice()
+    return ClimateChoice(ref=ref)
+
+
+def loads_project(text: str, source: str = "project") -> Project:
+    """Parse project text; raise :class:`ProjectFileError` with every problem."""
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        m = re.search(r"line (\d+)", str(exc))
+        line = int(m.group(1)) if m else None
+        raise ProjectFileError(source, [Problem("file", f"not valid TOML: {exc}; fix the "
+                                                "syntax at that line", line)]) from exc
+    project, problems = project_from_dict(data, source)
+    if problems:
+        lines = _locate_lines(text)
+        located = []
+        for p in problems:
+            line = lines.get(p.path)
+            if line is None:  # fall back to the enclosing table
+                parent = p.path.rsplit(".", 1)[0]
+                line = lines.get(parent)
+            located.append(Problem(p.path, p.message, line))
+        raise ProjectFileError(source, located)
+    return project
+
+
+def load_project(path: str | os.PathLike) -> Project:
+    p = Path(path)
+    try:
+        text = p.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ProjectFileError(str(p), [Problem("file", "does not exist; check the path")]) \
+            from None
+    except (OSError, UnicodeDecodeError) as exc:
+        raise ProjectFileError(str(p), [Problem("file", f"cannot be read: {exc}")]) from exc
+    return loads_project(text, source=str(p))
+
+
+def copy_project(project: Project) -> Project:
+    """A deep, independent copy (through the saved form, so it is exactly what would be saved)."""
+    import copy
+
+    return copy.deepcopy(project)

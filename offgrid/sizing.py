@@ -1,0 +1,521 @@
+"""The worst-month sizing pipeline: ``design(project) -> SystemDesign``.
+
+Pure: no UI, no files written.  Every figure is recorded with its reason.
+
+Chain, in order (each step its own function below):
+
+1. climate and monthly plane-of-array insolation (Liu-Jordan / Klein, :mod:`offgrid.climate.sky`);
+2. loads at the battery by month (:mod:`offgrid.loads`);
+3. design month = largest ratio of daily demand to plane-of-array insolation;
+4. array power = design-month demand / (peak sun hours x temperature x soiling x mismatch x
+   wiring x controller x battery round trip), each derate shown on its own;
+5. system voltage, modules in series x parallel;
+6. battery bank for the days of autonomy at the maximum depth of discharge, corrected for
+   temperature, ageing and discharge efficiency;
+7. charge-controller current with the code's continuous factors, next standard rating;
+8. inverter continuous and surge rating.
+"""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import numpy as np
+
+from offgrid.battery import CHEMISTRIES, capacity_temperature_factor, units_in_series
+from offgrid.climate import sky
+from offgrid.climate.files import ClimateFileError, load_climate
+from offgrid.loads import analyse_loads
+from offgrid.project.model import MonthlyClimate, Project
+from offgrid.result import (
+    ArrayResult,
+    BatteryResult,
+    ControllerResult,
+    DesignError,
+    InverterResult,
+    LoadResult,
+    Notice,
+    ReasonBook,
+    SiteResult,
+    SystemDesign,
+    fmt,
+)
+
+MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+DEFERS_TO_CODE = ("This design defers to local electrical codes and licensed practice: have it "
+                  "checked, installed and inspected by a qualified electrician.")
+#: Common charge-controller current ratings, A (common practice, no source).
+CONTROLLER_RATINGS_A = (10, 15, 20, 30, 40, 50, 60, 80, 100)
+#: Common inverter continuous ratings, W (common practice, no source).
+INVERTER_RATINGS_W = (150, 300, 500, 800, 1000, 1500, 2000, 3000, 4000, 5000, 6000, 8000,
+                      10000, 12000, 15000)
+#: Surge an inverter carries for a few seconds, as a multiple of its continuous rating.
+INVERTER_SURGE_MULTIPLE = 2.0
+#: Auto system-voltage rule: the lowest of 12/24/48 V that keeps the larger of array and
+#: inverter power at or below this current (common practice, no source).
+AUTO_VOLTAGE_MAX_CURRENT_A = 100.0
+NEC_CONTINUOUS = 1.25  # NEC 690.8(A)(1) and 690.8(B)(1), NFPA 70-2023
+MPPT_VOLTAGE_MARGIN = 1.15  # hot string Vmp / absorption voltage, MPPT (common practice)
+PWM_VOLTAGE_MARGIN = 1.05  # hot module Vmp / (absorption voltage + drop), PWM (common practice)
+
+
+def resolve_climate(project: Project, base: Path | None = None) -> MonthlyClimate:
+    """The project's climate table, inline or from a climate file."""
+    if project.climate.inline is not None:
+        return project.climate.inline
+    if project.climate.ref:
+        try:
+            return load_climate(project.climate.ref, base)
+        except ClimateFileError as exc:
+            raise DesignError("climate-missing", str(exc), "climate.ref") from exc
+    raise DesignError("climate-missing", "the project has no climate: pick a bundled climate or "
+                      "type twelve monthly values", "climate")
+
+
+def next_rating(value: float, ratings: tuple[float, ...]) -> float | None:
+    for r in ratings:
+        if r >= value - 1e-9:
+            return r
+    return None
+
+
+def _tuple(a) -> tuple[float, ...]:
+    return tuple(float(x) for x in np.asarray(a, dtype=float))
+
+
+def _check_climate(c: MonthlyClimate) -> None:
+    for key in ("insolation_kwh_m2_day", "temp_mean_c"):
+        values = getattr(c, key)
+        if len(values) != 12:
+            raise DesignError("climate-months", f"climate.{key}: needs 12 monthly values, has "
+                              f"{len(values)}", f"climate.{key}")
+        if not all(math.isfinite(v) for v in values):
+            raise DesignError("climate-months", f"climate.{key}: a month is missing or not a "
+                              "number", f"climate.{key}")
+
+
+def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook):
+    """Tilt, azimuth and monthly plane-of-array insolation."""
+    site = project.site
+    lat = site.latitude_deg
+    tilt = site.tilt_deg
+    if tilt is None:
+        tilt = max(abs(lat), project.choices.min_tilt_deg)
+        book.add("site.tilt_deg", "|latitude|, but not below the self-cleaning minimum tilt",
+                 "common practice, no source", latitude=fmt(lat, "deg"),
+                 minimum=fmt(project.choices.min_tilt_deg, "deg"))
+    else:
+        book.add("site.tilt_deg", "set by the user", "project file", tilt=fmt(tilt, "deg"))
+    azimuth = site.azimuth_deg if site.azimuth_deg is not None else sky.equator_facing_azimuth(lat)
+    book.add("site.azimuth_deg", "equator-facing unless set (clockwise from north)",
+             "common practice, no source", azimuth=fmt(azimuth, "deg"))
+    res = sky.poa_monthly_liu_jordan(climate.insolation_kwh_m2_day, lat, tilt, azimuth,
+                                     site.albedo)
+    book.add("site.poa_kwh_m2_day",
+             "H (1 - Hd/H) Rb + Hd (1 + cos tilt)/2 + H albedo (1 - cos tilt)/2 on Klein's mean "
+             "day of each month; Hd/H from the Erbs monthly correlation",
+             "Liu & Jordan (1962) isotropic sky with Klein (1977) Rb; Erbs, Klein & Duffie "
+             "(1982); Duffie & Beckman 4th ed. sec. 2.19",
+             tilt=fmt(tilt, "deg"), azimuth=fmt(azimuth, "deg"), albedo=fmt(site.albedo),
+             latitude=fmt(lat, "deg"))
+    return float(tilt), float(azimuth), res
+
+
+def cell_temperature_ross(ambient_c, irradiance_w_m2, noct_c):
+    """Cell temperature [C] from the NOCT form of Ross's model: Ta + (NOCT - 20)/800 x G.
+
+    Ross, R. G., "Interface design considerations for terrestrial solar cell modules",
+    12th IEEE PVSC, 1976; the NOCT form as in Duffie & Beckman 4th ed. eq. 23.3.3.
+    """
+    return np.asarray(ambient_c, dtype=float) + (noct_c - 20.0) / 800.0 * np.asarray(
+        irradiance_w_m2, dtype=float)
+
+
+def energy_weighted_irradiance(poa_kwh_m2_day, daylight_h):
+    """Energy-weighted mean irradiance [W/m2] of a half-sine day: pi^2 H / (8 N).
+
+    For G(t) = Gpk sin(pi t/N), H = 2 Gpk N/pi and the energy-weighted mean
+    integral(G^2)/integral(G) = pi Gpk/4 (common practice derivation, no source).
+    """
+    n = np.clip(np.asarray(daylight_h, dtype=float), 1.0, 24.0)
+    return np.pi**2 * np.asarray(poa_kwh_m2_day, dtype=float) * 1000.0 / (8.0 * n)
+
+
+def design(project: Project, base: Path | None = None) -> SystemDesign:
+    """Size the system for the worst month.  Raises :class:`DesignError` if it cannot be met."""
+    book = ReasonBook()
+    notices: list[Notice] = []
+    climate = resolve_climate(project, base)
+    _check_climate(climate)
+    choices = project.choices
+    if not project.loads or all(ld.quantity * ld.power_w * ld.hours_per_day * ld.duty_cycle == 0
+                                for ld in project.loads):
+        raise DesignError("no-loads", "the load list is empty (or every load uses 0 Wh): add the "
+                          "appliances with their power and hours per day", "loads")
+
+    # 1. sun
+    tilt, azimuth, sun = site_geometry(project, climate, book)
+    poa = np.asarray(sun["poa"])
+    horiz = np.asarray(climate.insolation_kwh_m2_day, dtype=float)
+
+    # 2. loads
+    lr = analyse_loads(project.loads, project.inverter, choices.load_growth_pct,
+                       choices.coincidence_factor, book)
+    demand = np.asarray(lr.daily_energy_wh)
+
+    # 3. design month
+    dark = (poa < 0.05) & (demand > 0)
+    if dark.any():
+        names = ", ".join(MONTHS[i] for i in np.flatnonzero(dark))
+        raise DesignError("no-sun", f"no usable sun in {names} (polar night or zero insolation) "
+                          "while loads run: a PV-only system cannot carry them; remove those "
+                          "months from the loads or add another source", "climate")
+    ratio = np.divide(demand, poa, out=np.zeros_like(demand), where=poa > 0)
+    dm = int(np.argmax(ratio))
+    book.add("site.design_month", "month with the largest ratio of daily demand to "
+             "plane-of-array insolation", "worst-month method, common practice",
+             ratio=fmt(float(ratio[dm]), "Wh per kWh/m2"), month=MONTHS[dm])
+    lr = _with_design_energy(lr, float(demand[dm]))
+    book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
+             "worst-month method", month=MONTHS[dm])
+
+    # temperatures
+    t_mean = np.asarray(climate.temp_mean_c, dtype=float)
+    t_max = np.asarray(climate.temp_max_c, dtype=float) if climate.temp_max_c else t_mean + 5.0
+    t_day = (t_mean + t_max) / 2.0
+    if climate.record_low_c is not None:
+        t_low = float(climate.record_low_c)
+        low_src = "record low of the climate file"
+    elif climate.temp_min_c:
+        t_low = float(min(climate.temp_min_c)) - 5.0
+        low_src = "coldest monthly mean minimum - 5 C (no record low given; common practice)"
+    else:
+        t_low = float(t_mean.min()) - 10.0
+        low_src = "coldest monthly mean - 10 C (no minima given; common practice)"
+        notices.append(Notice("record-low-estimated", "The climate has no record low "
+                              f"temperature; {t_low:.0f} C is assumed for the cold open-circuit "
+                              "voltage. Enter the record low for a safe string design.",
+                              "warning", "site.record_low_c"))
+
+    site = SiteResult(
+        design_month=dm + 1, tilt_deg=tilt, azimuth_deg=azimuth,
+        latitude_deg=project.site.latitude_deg, horizontal_kwh_m2_day=_tuple(horiz),
+        poa_kwh_m2_day=_tuple(poa), demand_to_sun=_tuple(ratio), temp_mean_c=_tuple(t_mean),
+        temp_day_c=_tuple(t_day), record_low_c=t_low, climate_source=climate.source)
+    book.add("site.record_low_c", "lowest temperature used for the cold open-circuit voltage",
+             low_src)
+
+    # 4-5. array
+    array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, notices,
+                                                    t_low)
+    # 6. battery
+    battery = _size_battery(project, lr, system_v, batt_abs_v, t_mean, book, notices)
+    # 8. inverter
+    inverter = _size_inverter(project, lr, system_v, book)
+
+    if lr.inverter_idle_wh > 0.2 * max(lr.daily_energy_wh):
+        notices.append(Notice("inverter-idle-large", f"The inverter's idle draw "
+                              f"({lr.inverter_idle_wh:.0f} Wh/day) is over 20 % of the daily "
+                              "demand: a smaller inverter, a search (sleep) mode or DC "
+                              "appliances would shrink the system.", "info",
+                              "loads.inverter_idle_wh"))
+    cautions = _basic_cautions(project, battery, system_v)
+    return SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
+                        inverter=inverter, warnings=tuple(notices), cautions=tuple(cautions),
+                        reasons=book.freeze())
+
+
+def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
+    from dataclasses import replace
+
+    return replace(lr, design_daily_energy_wh=value)
+
+
+def choose_system_voltage(project: Project, power_w: float, book: ReasonBook) -> int:
+    """The user's system voltage, or the auto rule (lowest that keeps DC current <= 100 A)."""
+    chosen = project.choices.system_voltage
+    unit_v = project.battery.nominal_voltage_v
+    if chosen != "auto":
+        book.add("battery.system_voltage_v", "set by the user", "project file",
+                 system_voltage=fmt(int(chosen), "V"))
+        return int(chosen)
+    for v in (12, 24, 48):
+        if power_w / v <= AUTO_VOLTAGE_MAX_CURRENT_A and units_in_series(v, unit_v):
+            break
+    else:
+        v = 48
+    book.add("battery.system_voltage_v",
+             "lowest of 12, 24, 48 V at which the larger of array and inverter power draws at most "
+             f"{AUTO_VOLTAGE_MAX_CURRENT_A:.0f} A and the battery units make the voltage",
+             "common practice, no source", power=fmt(power_w, "W"),
+             unit_voltage=fmt(unit_v, "V"))
+    return v
+
+
+def _soiling_factor(project: Project) -> tuple[float, str]:
+    d = project.choices.derates
+    if d.soiling_rate_pct_per_day is not None:
+        mean_loss = d.soiling_rate_pct_per_day / 100.0 * d.cleaning_interval_days / 2.0
+        return max(0.5, 1.0 - mean_loss), (
+            f"1 - daily rate {d.soiling_rate_pct_per_day:g} %/day x cleaning interval "
+            f"{d.cleaning_interval_days:g} d / 2 (mean of a linear build-up)")
+    return d.soiling, "fixed soiling factor"
+
+
+def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
+                book: ReasonBook, notices: list[Notice], t_low: float):
+    m = project.module
+    ctrl_spec = project.controller
+    dm = site.design_month - 1
+    poa = np.asarray(site.poa_kwh_m2_day)
+    demand = np.asarray(lr.daily_energy_wh)
+    daylight = sky.daylight_hours(site.latitude_deg)
+    g_w = energy_weighted_irradiance(poa, daylight)
+    t_cell = cell_temperature_ross(site.temp_day_c, g_w, m.noct_c)
+    gamma = m.gamma_pmax_pct_per_c / 100.0
+    alpha = m.alpha_isc_pct_per_c / 100.0
+    soiling, soil_text = _soiling_factor(project)
+    d = project.choices.derates
+    batt_rt = project.battery.efficiency
+    chem = CHEMISTRIES[project.battery.chemistry]
+
+    # A first estimate of power (MPPT chain) fixes the system voltage.
+    f_temp_mppt = 1.0 + gamma * (t_cell - 25.0)
+    rough = demand[dm] / (poa[dm] * f_temp_mppt[dm] * soiling * d.mismatch * d.wiring
+                          * ctrl_spec.efficiency * batt_rt)
+    system_v = choose_system_voltage(project, max(rough, lr.peak_ac_w * NEC_CONTINUOUS), book)
+    n_cells_sys = system_v / 2.0 if chem.lead_acid else system_v / 3.0
+    batt_abs_v = chem.absorption_v_per_cell * n_cells_sys
+    t_hot = float(np.max(site.temp_day_c)) + (m.noct_c - 20.0) / 800.0 * 1000.0
+    vmp_hot = m.vmp_v * (1.0 + gamma * (t_hot - 25.0))  # Vmp coefficient ~ gamma (from memory)
+    voc_cold = m.voc_v * (1.0 + m.beta_voc_pct_per_c / 100.0 * (t_low - 25.0))
+
+    if ctrl_spec.type == "mppt":
+        f_temp = f_temp_mppt
+        temp_text = "1 + gamma_Pmax x (cell temperature - 25 C)"
+        ns_min = max(1, math.ceil(batt_abs_v * MPPT_VOLTAGE_MARGIN / vmp_hot))
+        ns_max = math.floor(ctrl_spec.max_pv_voltage_v / voc_cold)
+        if ns_min > ns_max:
+            raise DesignError(
+                "string-window", f"no series count fits the controller: at least {ns_min} "
+                f"module(s) are needed for the hot string voltage to exceed {batt_abs_v:.1f} V "
+                f"x {MPPT_VOLTAGE_MARGIN}, but at most {ns_max} keep the cold open-circuit "
+                f"voltage ({voc_cold:.1f} V per module) under the controller's "
+                f"{ctrl_spec.max_pv_voltage_v:g} V: choose a controller with a higher input "
+                "voltage or a lower system voltage", "controller.max_pv_voltage_v")
+        ns = ns_min
+        f_op = np.ones(12)
+        book.add("array.modules_series",
+                 "smallest count whose hot Vmp exceeds the battery absorption voltage x margin, "
+                 "checked so that the cold Voc stays under the controller maximum",
+                 "common practice, no source", absorption=fmt(batt_abs_v, "V"),
+                 vmp_hot=fmt(vmp_hot, "V"), voc_cold=fmt(voc_cold, "V"),
+                 controller_max=fmt(ctrl_spec.max_pv_voltage_v, "V"), maximum=str(ns_max))
+    else:
+        # PWM: the array works at battery voltage, its current ~ Imp (1 + alpha dT).
+        f_temp = 1.0 + alpha * (t_cell - 25.0)
+        temp_text = "1 + alpha_Isc x (cell temperature - 25 C) (PWM: current-limited)"
+        ns = max(1, math.ceil(batt_abs_v * PWM_VOLTAGE_MARGIN / vmp_hot))
+        v_op_module = (system_v * 1.1 * (2.0 - d.wiring)) / ns
+        f_op_scalar = min(1.0, v_op_module * m.imp_a / m.pmax_w)
+        f_op = np.full(12, f_op_scalar)
+        book.add("array.modules_series",
+                 "smallest count whose hot Vmp exceeds the absorption voltage plus wiring drop "
+                 "(PWM)", "common practice, no source", absorption=fmt(batt_abs_v, "V"),
+                 vmp_hot=fmt(vmp_hot, "V"))
+        if ns * m.vmp_v > 1.6 * system_v:
+            notices.append(Notice(
+                "pwm-voltage-waste", f"With PWM the {ns}-module string (Vmp {ns * m.vmp_v:.0f} V)"
+                f" is pulled down to about {system_v * 1.1:.0f} V, so only {f_op_scalar:.0%} of "
+                "its power is used: choose an MPPT controller or modules made for a "
+                f"{system_v} V battery.", "warning", "array.power_w"))
+
+    derates = {
+        "temperature": float(f_temp[dm]),
+        "operating point": float(f_op[dm]),
+        "soiling": soiling,
+        "mismatch": d.mismatch,
+        "wiring": d.wiring,
+        "controller": ctrl_spec.efficiency,
+        "battery round trip": batt_rt,
+    }
+    total = float(np.prod(list(derates.values())))
+    required = float(demand[dm] / (poa[dm] * total))
+    string_w = ns * m.pmax_w
+    n_par = max(1, math.ceil(required / string_w - 1e-9))
+    power = n_par * string_w
+    monthly_total = (f_temp * f_op * soiling * d.mismatch * d.wiring * ctrl_spec.efficiency
+                     * batt_rt)
+    supply = power * poa * monthly_total
+    book.add("array.required_power_w",
+             "design-month demand / (peak sun hours x product of derates)",
+             "worst-month method; derate chain common practice",
+             demand=fmt(float(demand[dm]), "Wh/day"), peak_sun_hours=fmt(float(poa[dm]), "h"),
+             derates=fmt(total))
+    book.add("array.derates.temperature", temp_text,
+             "cell temperature: Ross (1976) NOCT model, Duffie & Beckman eq. 23.3.3",
+             cell_temperature=fmt(float(t_cell[dm]), "C"),
+             irradiance=fmt(float(g_w[dm]), "W/m2"), ambient_day=fmt(site.temp_day_c[dm], "C"),
+             noct=fmt(m.noct_c, "C"))
+    book.add("array.derates.soiling", soil_text, "common practice, no source")
+    book.add("array.power_w", "modules in series x strings in parallel x module Pmax, strings "
+             "rounded up to meet the required power", "common practice, no source",
+             required=fmt(required, "W"), series=str(ns), parallel=str(n_par),
+             module=fmt(m.pmax_w, "W"))
+    book.add("array.modules_parallel", "ceil(required power / (series x module Pmax))",
+             "common practice, no source", required=fmt(required, "W"),
+             string_power=fmt(string_w, "W"))
+    book.add("array.supply_wh_day", "array power x plane-of-array insolation x the month's "
+             "derates", "worst-month method")
+    array = ArrayResult(
+        power_w=float(power), required_power_w=required, module_power_w=m.pmax_w,
+        modules_series=ns, modules_parallel=n_par, module_count=ns * n_par, derates=derates,
+        derate_total=total, cell_temp_c=_tuple(t_cell), supply_wh_day=_tuple(supply),
+        voc_cold_v=float(voc_cold), vmp_hot_v=float(vmp_hot),
+        string_voc_cold_v=float(ns * voc_cold), string_vmp_hot_v=float(ns * vmp_hot))
+
+    # 7. controller
+    if ctrl_spec.type == "pwm":
+        req = NEC_CONTINUOUS * NEC_CONTINUOUS * m.isc_a * n_par
+        book.add("controller.required_current_a", "1.25 x 1.25 x Isc x strings in parallel",
+                 "NEC 690.8(A)(1) maximum circuit current and 690.8(B)(1) continuous factor, "
+                 "NFPA 70-2023", isc=fmt(m.isc_a, "A"), parallel=str(n_par))
+    else:
+        req = NEC_CONTINUOUS * power / system_v
+        book.add("controller.required_current_a", "1.25 x array power / battery voltage",
+                 "output current of an MPPT converter; 1.25 continuous factor as NEC 690.8(B)(1)",
+                 array=fmt(power, "W"), battery=fmt(system_v, "V"))
+    ratings = CONTROLLER_RATINGS_A
+    if ctrl_spec.max_current_a:
+        ratings = (ctrl_spec.max_current_a,)
+    top = ratings[-1]
+    count = max(1, math.ceil(req / top - 1e-9))
+    # strings must split evenly enough: each controller takes ceil(n_par / count) strings
+    per = req / count if ctrl_spec.type == "mppt" else req * math.ceil(n_par / count) / n_par
+    rating = next_rating(per, ratings) or top
+    if count > 1 and ctrl_spec.type == "pwm" and per > top:
+        count += 1
+        per = req * math.ceil(n_par / count) / n_par
+        rating = next_rating(per, ratings) or top
+    book.add("controller.current_a", "next standard rating at or above the required current "
+             "per controller", "common practice, no source", required=fmt(req, "A"),
+             controllers=str(count))
+    if count > 1:
+        notices.append(Notice("several-controllers", f"{count} charge controllers of {rating:g} A "
+                              "are needed; give each its own group of strings.", "info",
+                              "controller.current_a"))
+    ctrl = ControllerResult(type=ctrl_spec.type, required_current_a=float(req),
+                            current_a=float(rating), count=count,
+                            max_pv_voltage_v=ctrl_spec.max_pv_voltage_v,
+                            efficiency=ctrl_spec.efficiency)
+    return array, ctrl, system_v, batt_abs_v
+
+
+def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: float,
+                  t_mean: np.ndarray, book: ReasonBook, notices: list[Notice]) -> BatteryResult:
+    b = project.battery
+    choices = project.choices
+    chem = CHEMISTRIES[b.chemistry]
+    dod = choices.max_dod if choices.max_dod is not None else b.max_dod
+    series = units_in_series(system_v, b.nominal_voltage_v)
+    if series is None:
+        raise DesignError("battery-voltage", f"{b.nominal_voltage_v:g} V battery units cannot "
+                          f"make a {system_v} V system: choose units whose voltage divides "
+                          f"{system_v} V, or another system voltage", "battery.nominal_voltage_v")
+    t_batt = (project.site.battery_temp_c if project.site.battery_temp_c is not None
+              else float(np.min(t_mean)))
+    f_t = capacity_temperature_factor(b.chemistry, t_batt)
+    eta_dis = math.sqrt(b.efficiency)
+    energy = lr.max_daily_energy_wh
+    need_wh = energy * choices.autonomy_days * f_t / (dod * eta_dis * choices.ageing_factor)
+    need_ah = need_wh / system_v
+    parallel = max(1, math.ceil(need_ah / b.capacity_ah - 1e-9))
+    cap_ah = parallel * b.capacity_ah
+    nominal_kwh = cap_ah * system_v / 1000.0
+    usable_kwh = nominal_kwh * dod
+    book.add("battery.required_ah",
+             "largest monthly daily energy x days of autonomy x temperature factor / (max depth "
+             "of discharge x discharge efficiency x end-of-life capacity) / system voltage",
+             "common practice (autonomy method); temperature factor: " + chem.temp_source,
+             energy=fmt(energy, "Wh/day"), autonomy=fmt(choices.autonomy_days, "days"),
+             temperature_factor=fmt(f_t), battery_temperature=fmt(t_batt, "C"),
+             max_dod=fmt(dod), discharge_efficiency=fmt(eta_dis),
+             ageing=fmt(choices.ageing_factor), system_voltage=fmt(system_v, "V"))
+    book.add("battery.capacity_ah", "strings in parallel x unit capacity",
+             "common practice, no source", parallel=str(parallel),
+             unit=fmt(b.capacity_ah, "Ah"))
+    book.add("battery.units_series", "system voltage / unit voltage", "common practice",
+             system=fmt(system_v, "V"), unit=fmt(b.nominal_voltage_v, "V"))
+    book.add("battery.units_parallel", "ceil(required Ah / unit Ah)", "common practice",
+             required=fmt(need_ah, "Ah"), unit=fmt(b.capacity_ah, "Ah"))
+    book.add("battery.usable_kwh", "installed Ah x system voltage x max depth of discharge",
+             "common practice", capacity=fmt(cap_ah, "Ah"), max_dod=fmt(dod))
+    if chem.lead_acid and parallel > 3:
+        notices.append(Notice("lead-acid-parallel", f"{parallel} parallel strings of lead-acid "
+                              "batteries: strings share current unevenly above three; choose "
+                              "larger units (or 2 V cells) to keep three or fewer.", "warning",
+                              "battery.units_parallel"))
+    if t_batt < 5:
+        notices.append(Notice("battery-cold", f"The battery sits at about {t_batt:.0f} C: "
+                              f"capacity is raised by a factor {f_t:.2f}; insulate or move the "
+                              "battery indoors.", "warning", "battery.required_ah"))
+    return BatteryResult(
+        chemistry=b.chemistry, system_voltage_v=system_v, capacity_ah=float(cap_ah),
+        required_ah=float(need_ah), nominal_kwh=float(nominal_kwh),
+        usable_kwh=float(usable_kwh), max_dod=float(dod),
+        autonomy_days=float(choices.autonomy_days), units_series=series,
+        units_parallel=parallel, unit_count=series * parallel, temp_factor=float(f_t),
+        ageing_factor=float(choices.ageing_factor), discharge_efficiency=float(eta_dis),
+        absorption_voltage_v=float(batt_abs_v))
+
+
+def _size_inverter(project: Project, lr: LoadResult, system_v: int,
+                   book: ReasonBook) -> InverterResult:
+    inv = project.inverter
+    needed = lr.connected_ac_w > 0
+    if not needed:
+        book.add("inverter.continuous_w", "no AC loads: no inverter", "common practice")
+        return InverterResult(False, 0.0, 0.0, 0.0, 0.0, inv.efficiency, 0.0, 0.0)
+    req_cont = lr.peak_ac_w * NEC_CONTINUOUS
+    surge_running = 0.0
+    for ld in project.loads:
+        if ld.ac_dc == "ac" and ld.name == lr.largest_surge_load:
+            surge_running = ld.power_w
+            break
+    req_surge = max(lr.peak_ac_w, lr.peak_ac_w - surge_running + lr.largest_surge_w)
+    cont = max(next_rating(req_cont, INVERTER_RATINGS_W) or req_cont,
+               next_rating(req_surge / INVERTER_SURGE_MULTIPLE, INVERTER_RATINGS_W) or 0.0)
+    surge = cont * INVERTER_SURGE_MULTIPLE
+    low_v = system_v * 0.875  # 10.5 V per 12 V: low-voltage cut-off (common practice)
+    dc_current = cont / (inv.efficiency * low_v)
+    book.add("inverter.continuous_w",
+             "next standard rating at or above 1.25 x peak simultaneous AC power, raised if its "
+             f"surge ({INVERTER_SURGE_MULTIPLE:g} x continuous) is below the starting demand",
+             "common practice, no source", peak=fmt(lr.peak_ac_w, "W"),
+             required=fmt(req_cont, "W"), starting_demand=fmt(req_surge, "W"))
+    book.add("inverter.surge_w", "peak AC power - running power of the largest motor + its "
+             "starting power; the rating shown is the chosen inverter's surge",
+             "common practice, no source", largest=lr.largest_surge_load or "none",
+             starting=fmt(lr.largest_surge_w, "W"), required=fmt(req_surge, "W"))
+    book.add("inverter.dc_input_current_a", "continuous rating / (efficiency x low-voltage "
+             "cut-off)", "common practice, no source", cutoff=fmt(low_v, "V"))
+    return InverterResult(True, float(req_cont), float(cont), float(req_surge), float(surge),
+                          inv.efficiency, inv.self_consumption_w, float(dc_current))
+
+
+def _basic_cautions(project: Project, battery: BatteryResult, system_v: int) -> list[str]:
+    chem = CHEMISTRIES[project.battery.chemistry]
+    out = []
+    if chem.lead_acid:
+        out.append("Lead-acid batteries give off hydrogen while charging: ventilate the battery "
+                   "space, keep sparks and flames away, and wear eye protection.")
+    else:
+        out.append("Lithium iron phosphate must not be charged below 0 C cell temperature; use "
+                   "a battery with a management system that blocks cold charging.")
+    out.append("A battery bank can deliver thousands of amperes into a short circuit: fuse every "
+               "battery string at the terminal and insulate tools.")
+    out.append("PV modules are live whenever light falls on them: cover them or open the array "
+               "disconnect before working on the wiring.")
+    out.append(DEFERS_TO_CODE)
+    return out
