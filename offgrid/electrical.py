@@ -96,6 +96,38 @@ class ElectricalResult:
                 for w in self.wires]
 
 
+@dataclass(frozen=True)
+class StringLimits:
+    window: st.StringWindow
+    voc_cold_v: float
+    voc_rule: str
+    vmp_hot_v: float
+    hot_cell_temp_c: float
+    record_low_c: float
+    pwm_drop_v: float
+
+
+def string_limits(project, temp_day_c, record_low_c: float, absorption_v: float,
+                  params: DiodeParams | None = None) -> StringLimits:
+    """Cold Voc, hot Vmp and the series-count window of the project's module and controller.
+
+    Hot Vmp: the fitted single-diode model at 1000 W/m2 and the NOCT cell
+    temperature of the hottest month's daytime mean.  Raises DesignError when no
+    series count fits.
+    """
+    module = project.module
+    if params is None:
+        params = fit_module(module)
+    voc_cold, rule = st.voc_cold_v(module.voc_v, module.beta_voc_pct_per_c, record_low_c)
+    t_max = float(np.max(np.asarray(temp_day_c, dtype=float)))
+    hot_tc = float(cell_temperature_noct(t_max, HOT_IRRADIANCE_W_M2, module.noct_c))
+    vmp_hot = float(module_mpp(params, HOT_IRRADIANCE_W_M2, hot_tc)[0])
+    pwm_drop = project.choices.drop_limit_array_pct / 100.0 * absorption_v
+    window = st.string_window(project.controller.type, float(project.controller.max_pv_voltage_v),
+                              voc_cold, vmp_hot, absorption_v, pwm_drop)
+    return StringLimits(window, voc_cold, rule, vmp_hot, hot_tc, record_low_c, pwm_drop)
+
+
 def pwm_charging_voltage_v(system_voltage_v: float, absorption_v: float) -> float:
     """Battery voltage a PWM array works against: mean of full-rest and absorption voltage.
 
@@ -184,16 +216,13 @@ def electrical_design(project, core) -> ElectricalResult:
                value=fmt(val, unit), area=fmt(module.area_m2, "m2"))
 
     # String window.
-    record_low = float(site.record_low_c)
-    voc_cold, voc_rule = st.voc_cold_v(module.voc_v, module.beta_voc_pct_per_c, record_low)
-    hot_tc = float(cell_temperature_noct(temp_day.max(), HOT_IRRADIANCE_W_M2, module.noct_c))
-    vmp_hot = float(module_mpp(params, HOT_IRRADIANCE_W_M2, hot_tc)[0])
     ctype = project.controller.type
     vsys = float(core.battery.system_voltage_v)
     v_abs = float(core.battery.absorption_voltage_v)
-    pwm_drop = project.choices.drop_limit_array_pct / 100.0 * v_abs
-    window = st.string_window(ctype, float(project.controller.max_pv_voltage_v), voc_cold,
-                              vmp_hot, v_abs, pwm_drop)
+    lim = string_limits(project, temp_day, float(site.record_low_c), v_abs, params)
+    window, voc_cold, voc_rule = lim.window, lim.voc_cold_v, lim.voc_rule
+    vmp_hot, hot_tc, record_low, pwm_drop = lim.vmp_hot_v, lim.hot_cell_temp_c, \
+        lim.record_low_c, lim.pwm_drop_v
     controllers = max(1, int(core.controller.count))
     core_series = int(core.array.modules_series)
     if st.layout_fits(window, core_series) and core.array.modules_parallel >= 1:
@@ -430,7 +459,7 @@ def electrical_design(project, core) -> ElectricalResult:
            f"{NEC} 690.9(A); IEC 62548:2016 7.3.3", strings_per_controller=str(n_c))
 
     # Cautions.
-    cells = round(vsys / 2.0) if bat.chemistry != "lifepo4" else round(vsys / 3.2)
+    cells = round(vsys / (3.0 if bat.chemistry == "lifepo4" else 2.0))  # as sizing.py
     cautions = cau.design_cautions(cau.CautionInputs(
         max_dc_voltage_v=strings.string_voc_cold_v, system_voltage_v=vsys,
         chemistry=bat.chemistry, cells_in_series=cells,

@@ -287,43 +287,33 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     system_v = choose_system_voltage(project, max(rough, lr.peak_ac_w * NEC_CONTINUOUS), book)
     n_cells_sys = system_v / 2.0 if chem.lead_acid else system_v / 3.0
     batt_abs_v = chem.absorption_v_per_cell * n_cells_sys
-    t_hot = float(np.max(site.temp_day_c)) + (m.noct_c - 20.0) / 800.0 * 1000.0
-    vmp_hot = m.vmp_v * (1.0 + gamma * (t_hot - 25.0))  # Vmp coefficient ~ gamma (from memory)
-    voc_cold = m.voc_v * (1.0 + m.beta_voc_pct_per_c / 100.0 * (t_low - 25.0))
+    # String window (offgrid.electrical): cold Voc at the record low, hot Vmp from the fitted
+    # single-diode model; DesignError when no series count fits the controller.
+    from offgrid.electrical import string_limits
+    from offgrid.strings import choose_layout
 
+    lim = string_limits(project, site.temp_day_c, t_low, batt_abs_v)
+    window, vmp_hot, voc_cold = lim.window, lim.vmp_hot_v, lim.voc_cold_v
+    book.add("array.modules_series",
+             "MPPT: of the series counts in the string window, the layout with the fewest "
+             "modules, then the fewest strings, then the higher voltage; PWM: the smallest "
+             "count whose hot Vmp exceeds absorption + wiring drop",
+             "NEC 690.7(A) for the cold Voc limit; the rest common practice, no source",
+             absorption=fmt(batt_abs_v, "V"), vmp_hot=fmt(vmp_hot, "V"),
+             voc_cold=fmt(voc_cold, "V"), controller_max=fmt(ctrl_spec.max_pv_voltage_v, "V"),
+             window=f"{window.min_series}-{window.max_series}")
+    ns = window.min_series
     if ctrl_spec.type == "mppt":
         f_temp = f_temp_mppt
         temp_text = "1 + gamma_Pmax x (cell temperature - 25 C)"
-        ns_min = max(1, math.ceil(batt_abs_v * MPPT_VOLTAGE_MARGIN / vmp_hot))
-        ns_max = math.floor(ctrl_spec.max_pv_voltage_v / voc_cold)
-        if ns_min > ns_max:
-            raise DesignError(
-                "string-window", f"no series count fits the controller: at least {ns_min} "
-                f"module(s) are needed for the hot string voltage to exceed {batt_abs_v:.1f} V "
-                f"x {MPPT_VOLTAGE_MARGIN}, but at most {ns_max} keep the cold open-circuit "
-                f"voltage ({voc_cold:.1f} V per module) under the controller's "
-                f"{ctrl_spec.max_pv_voltage_v:g} V: choose a controller with a higher input "
-                "voltage or a lower system voltage", "controller.max_pv_voltage_v")
-        ns = ns_min
         f_op = np.ones(12)
-        book.add("array.modules_series",
-                 "smallest count whose hot Vmp exceeds the battery absorption voltage x margin, "
-                 "checked so that the cold Voc stays under the controller maximum",
-                 "common practice, no source", absorption=fmt(batt_abs_v, "V"),
-                 vmp_hot=fmt(vmp_hot, "V"), voc_cold=fmt(voc_cold, "V"),
-                 controller_max=fmt(ctrl_spec.max_pv_voltage_v, "V"), maximum=str(ns_max))
     else:
         # PWM: the array works at battery voltage, its current ~ Imp (1 + alpha dT).
         f_temp = 1.0 + alpha * (t_cell - 25.0)
         temp_text = "1 + alpha_Isc x (cell temperature - 25 C) (PWM: current-limited)"
-        ns = max(1, math.ceil(batt_abs_v * PWM_VOLTAGE_MARGIN / vmp_hot))
         v_op_module = (system_v * 1.1 * (2.0 - d.wiring)) / ns
         f_op_scalar = min(1.0, v_op_module * m.imp_a / m.pmax_w)
         f_op = np.full(12, f_op_scalar)
-        book.add("array.modules_series",
-                 "smallest count whose hot Vmp exceeds the absorption voltage plus wiring drop "
-                 "(PWM)", "common practice, no source", absorption=fmt(batt_abs_v, "V"),
-                 vmp_hot=fmt(vmp_hot, "V"))
         if ns * m.vmp_v > 1.6 * system_v:
             notices.append(Notice(
                 "pwm-voltage-waste", f"With PWM the {ns}-module string (Vmp {ns * m.vmp_v:.0f} V)"
@@ -342,8 +332,9 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     }
     total = float(np.prod(list(derates.values())))
     required = float(demand[dm] / (poa[dm] * total))
+    layout = choose_layout(window, max(1, math.ceil(required / m.pmax_w - 1e-9)), 1)
+    ns, n_par = layout.series, layout.parallel
     string_w = ns * m.pmax_w
-    n_par = max(1, math.ceil(required / string_w - 1e-9))
     power = n_par * string_w
     monthly_total = (f_temp * f_op * soiling * d.mismatch * d.wiring * ctrl_spec.efficiency
                      * batt_rt)

@@ -99,9 +99,10 @@ def string_window(controller_type: str, max_pv_voltage_v: float, voc_cold_module
     min_s = max(1, math.ceil(need / vmp_hot_module_v - 1e-9))
     if max_s < 1:
         raise DesignError(
-            "string-window", f"One module's cold Voc ({voc_cold_module_v:.1f} V at the record "
-            f"low) is above the controller's {max_pv_voltage_v:g} V maximum PV input: choose a "
-            "controller rated for a higher PV voltage.", field="controller.max_pv_voltage_v")
+            "string-window", "The controller's string window is empty, no series count fits: "
+            f"one module's cold Voc ({voc_cold_module_v:.1f} V at the record low) is above the "
+            f"controller's {max_pv_voltage_v:g} V maximum PV input. To fix: choose a controller "
+            "rated for a higher PV voltage.", field="controller.max_pv_voltage_v")
     if min_s > max_s:
         fix = (f"choose a controller with a maximum PV input of at least "
                f"{math.ceil(min_s * voc_cold_module_v)} V, a lower system voltage")
@@ -109,7 +110,7 @@ def string_window(controller_type: str, max_pv_voltage_v: float, voc_cold_module
             fix += ", or an MPPT controller"
         raise DesignError(
             "string-window",
-            f"No series count fits the controller: the battery needs a string Vmp of "
+            f"The controller's string window is empty, no series count fits: the battery needs a string Vmp of "
             f"{need:.1f} V ({need_text}) when hot, so at least {min_s} modules of "
             f"{vmp_hot_module_v:.1f} V; but at the record low each module's Voc is "
             f"{voc_cold_module_v:.1f} V, so at most {max_s} fit under {max_pv_voltage_v:g} V. "
