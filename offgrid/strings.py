@@ -113,8 +113,8 @@ def string_window(controller_type: str, max_pv_voltage_v: float, voc_cold_module
             "The controller's string window is empty, no series count fits: the battery "
             f"needs a string Vmp of {need:.1f} V ({need_text}) when hot, so at least "
             f"{min_s} modules of {vmp_hot_module_v:.1f} V; but at the record low each "
-            f"module's Voc is {voc_cold_module_v:.1f} V, so at most {max_s} fit under {max_pv_voltage_v:g} V. "
-            f"To fix: {fix}.", field="controller.max_pv_voltage_v")
+            f"module's Voc is {voc_cold_module_v:.1f} V, so at most {max_s} fit under "
+            f"{max_pv_voltage_v:g} V. To fix: {fix}.", field="controller.max_pv_voltage_v")
     return StringWindow(controller_type, max_pv_voltage_v, voc_cold_module_v, vmp_hot_module_v,
                         need, min_s, max_s)
 
