@@ -30,9 +30,9 @@ TM5_1185_SG = (1.100, 1.150, 1.200, 1.250, 1.280)
 TM5_1185_FREEZE_C = (-7.0, -15.0, -27.0, -52.0, -68.0)
 
 DEFERS_TO_CODE = (
-    "This design is a calculation aid. It defers to the local electrical code and to licensed "
-    "practice: a qualified installer must check it and do the work, and the authority having "
-    "jurisdiction has the last word.")
+    "This design defers to local electrical codes and licensed practice: it is a calculation "
+    "aid, to be checked, installed and inspected by a qualified electrician; the authority "
+    "having jurisdiction has the last word.")
 
 
 @dataclass(frozen=True)
@@ -42,7 +42,7 @@ class Caution:
     source: str = "common practice, no source"
 
     def line(self) -> str:
-        return f"{self.text} [{self.source}]"
+        return f"{self.text} [{self.source}]" if self.source else self.text
 
 
 def ventilation_airflow_m3_h(chemistry: str, cells: int, capacity_ah: float) -> float:
@@ -160,5 +160,5 @@ def design_cautions(c: CautionInputs) -> tuple[Caution, ...]:
         "are polarised: wire them the way round their marking shows. AC-rated breakers cannot "
         "break a DC arc and must not be used on DC circuits.",
         "NEC 690.9(D), 110.3(B); IEC 60947-2"))
-    out.append(Caution("defers-to-code", DEFERS_TO_CODE, "offgrid"))
+    out.append(Caution("defers-to-code", DEFERS_TO_CODE, ""))
     return tuple(out)

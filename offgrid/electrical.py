@@ -95,6 +95,80 @@ class ElectricalResult:
                  "drop_pct": w.drop_pct, "ampacity_a": w.ampacity_a, "fuse_a": w.fuse_a}
                 for w in self.wires]
 
+    def to_json(self) -> dict:
+        """Top-level JSON keys ``mpp``, ``wires`` and ``electrical`` (documented in README)."""
+        mp, f, sd, h, pr = self.mpp, self.fit, self.strings, self.harvest, self.protection
+        return {
+            "mpp": {"month": h.design_month, "irradiance_w_m2": mp.irradiance_w_m2,
+                    "cell_temp_c": mp.cell_temp_c, "vmp_v": mp.vmp_v, "imp_a": mp.imp_a,
+                    "pmp_w": mp.pmp_w, "fill_factor": mp.fill_factor, "voc_v": mp.voc_v,
+                    "isc_a": mp.isc_a, "efficiency": mp.efficiency},
+            "wires": self.wires_json(),
+            "electrical": {
+                "module_fit": {"method": f.method, "photocurrent_a": f.photocurrent_a,
+                               "saturation_current_a": f.saturation_current_a,
+                               "series_resistance_ohm": f.series_resistance_ohm,
+                               "shunt_resistance_ohm": f.shunt_resistance_ohm,
+                               "modified_ideality_v": f.modified_ideality_v,
+                               "stc_error_pct": dict(zip(("vmp", "imp", "voc", "isc"),
+                                                         f.stc_error_pct, strict=True))},
+                "strings": {"min_series": sd.window.min_series,
+                            "max_series": sd.window.max_series, "series": sd.layout.series,
+                            "parallel": sd.layout.parallel,
+                            "controllers": sd.layout.controllers,
+                            "strings_per_controller": sd.layout.strings_per_controller,
+                            "voc_cold_v": sd.voc_cold_v, "voc_cold_rule": sd.voc_cold_rule,
+                            "vmp_hot_v": sd.vmp_hot_v, "hot_cell_temp_c": sd.hot_cell_temp_c,
+                            "record_low_c": sd.record_low_c,
+                            "string_voc_cold_v": sd.string_voc_cold_v,
+                            "string_vmp_hot_v": sd.string_vmp_hot_v,
+                            "required_string_vmp_v": sd.window.required_vmp_v},
+                "harvest": {"controller_type": h.controller_type,
+                            "charging_voltage_v": h.charging_voltage_v,
+                            "pwm_vs_mppt_pct": h.pwm_vs_mppt_pct,
+                            "shortfall_pct": h.shortfall_pct,
+                            "pwm_layout": list(h.pwm_layout), "mppt_layout": list(h.mppt_layout)},
+                "protection": {
+                    "string_fuses": pr.string_fuses, "string_fuse_a": pr.string_fuse_a,
+                    "battery_fuse_a": pr.battery_fuse_a,
+                    "bank_fault_current_a": pr.bank_fault_current_a,
+                    "unit_short_circuit_a": pr.unit_short_circuit_a,
+                    "short_circuit_estimated": pr.short_circuit_estimated,
+                    "battery_string_fuses": pr.battery_string_fuses,
+                    "battery_string_fuse_a": pr.battery_string_fuse_a,
+                    "devices": [{"location": d.location, "kind": d.kind, "rating_a": d.rating_a,
+                                 "voltage_v": d.voltage_v, "count": d.count,
+                                 "interrupt_rating_a": d.interrupt_rating_a, "note": d.note,
+                                 "source": d.source} for d in pr.devices]},
+                "iv_curve": {"irradiance_w_m2": mp.irradiance_w_m2,
+                             "cell_temp_c": mp.cell_temp_c,
+                             "voltage_v": list(self.curve.voltage_v),
+                             "current_a": list(self.curve.current_a),
+                             "power_w": list(self.curve.power_w)},
+                "cautions": [{"code": c.code, "text": c.text, "source": c.source}
+                             for c in self.cautions],
+            },
+        }
+
+
+def with_electrical(core, er: ElectricalResult):
+    """The core SystemDesign with the electrical figures, notices, cautions and reasons added.
+
+    The electrical cautions replace the core's short list (they cover the same
+    ground, with figures and sources).
+    """
+    from dataclasses import replace
+
+    sd = er.strings
+    array = replace(core.array, voc_cold_v=sd.voc_cold_v, vmp_hot_v=sd.vmp_hot_v,
+                    string_voc_cold_v=sd.string_voc_cold_v,
+                    string_vmp_hot_v=sd.string_vmp_hot_v,
+                    harvest_pwm_wh_day=er.harvest.pwm_wh_day,
+                    harvest_mppt_wh_day=er.harvest.mppt_wh_day)
+    return replace(core, array=array, warnings=tuple(core.warnings) + er.notices,
+                   cautions=tuple(c.line() for c in er.cautions),
+                   reasons={**core.reasons, **er.reasons}, electrical=er)
+
 
 @dataclass(frozen=True)
 class StringLimits:
@@ -371,8 +445,9 @@ def electrical_design(project, core) -> ElectricalResult:
     pwm = run_harvest(pwm_layout)[1]
     chosen = pwm if ctype == "pwm" else mppt
     demand = float(core.loads.design_daily_energy_wh)
-    shortfall = max(0.0, 100.0 * (1.0 - chosen[m] / demand)) if demand > 0 else 0.0
-    pwm_vs = 100.0 * (pwm[m] / mppt[m] - 1.0) if mppt[m] > 0 else 0.0
+    eta_batt = float(project.battery.efficiency)
+    shortfall = max(0.0, 100.0 * (1.0 - chosen[m] * eta_batt / demand)) if demand > 0 else 0.0
+    pwm_vs = float(100.0 * (pwm[m] / mppt[m] - 1.0)) if mppt[m] > 0 else 0.0
     harvest = HarvestResult(ctype, tuple(pwm.tolist()), tuple(mppt.tolist()),
                             tuple(chosen.tolist()), v_chg, m + 1, pwm_vs, shortfall,
                             (pwm_layout.series, pwm_layout.parallel),
@@ -389,8 +464,9 @@ def electrical_design(project, core) -> ElectricalResult:
     if shortfall > 0.5:
         notices.append(Notice(
             "harvest-shortfall", f"Through the {ctype.upper()} controller the array delivers "
-            f"{chosen[m]:.0f} Wh/day in the design month, {shortfall:.0f} % below the "
-            f"{demand:.0f} Wh/day the loads need: add modules"
+            f"{chosen[m]:.0f} Wh/day in the design month; after the battery's round trip "
+            f"({eta_batt:.0%}) that is {shortfall:.0f} % below the {demand:.0f} Wh/day the "
+            "loads need: add modules"
             + (" or use an MPPT controller" if ctype == "pwm" else "") + ".",
             "warning", "array.harvest_pwm_wh_day" if ctype == "pwm" else
             "array.harvest_mppt_wh_day"))

@@ -221,9 +221,13 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                               "appliances would shrink the system.", "info",
                               "loads.inverter_idle_wh"))
     cautions = _basic_cautions(project, battery, system_v)
-    return SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
+    core = SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
                         inverter=inverter, warnings=tuple(notices), cautions=tuple(cautions),
                         reasons=book.freeze())
+    # 9. electrical design: strings, harvest both ways, cables, protection, cautions
+    from offgrid.electrical import electrical_design, with_electrical
+
+    return with_electrical(core, electrical_design(project, core))
 
 
 def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
