@@ -165,7 +165,10 @@ def with_electrical(core, er: ElectricalResult):
                     string_vmp_hot_v=sd.string_vmp_hot_v,
                     harvest_pwm_wh_day=er.harvest.pwm_wh_day,
                     harvest_mppt_wh_day=er.harvest.mppt_wh_day)
-    return replace(core, array=array, warnings=tuple(core.warnings) + er.notices,
+    codes = {n.code for n in er.notices}
+    kept = tuple(n for n in core.warnings  # the curves' PWM figure replaces the core's estimate
+                 if not (n.code == "pwm-voltage-waste" and "pwm-mismatch" in codes))
+    return replace(core, array=array, warnings=kept + er.notices,
                    cautions=tuple(c.line() for c in er.cautions),
                    reasons={**core.reasons, **er.reasons}, electrical=er)
 
@@ -198,7 +201,7 @@ def string_limits(project, temp_day_c, record_low_c: float, absorption_v: float,
     vmp_hot = float(module_mpp(params, HOT_IRRADIANCE_W_M2, hot_tc)[0])
     pwm_drop = project.choices.drop_limit_array_pct / 100.0 * absorption_v
     window = st.string_window(project.controller.type, float(project.controller.max_pv_voltage_v),
-                              voc_cold, vmp_hot, absorption_v, pwm_drop)
+                              voc_cold, vmp_hot, absorption_v, pwm_drop, module.vmp_v)
     return StringLimits(window, voc_cold, rule, vmp_hot, hot_tc, record_low_c, pwm_drop)
 
 
@@ -233,8 +236,8 @@ def _other_layout(ctype: str, layout: st.Layout, project, voc_cold: float, vmp_h
                   v_abs: float, pwm_drop: float) -> st.Layout:
     """Layout of the same modules for the controller type not chosen, for the comparison."""
     n, k = layout.module_count, layout.controllers
-    if ctype == "mppt":  # PWM: fewest modules in series that still charge when hot
-        s = max(1, math.ceil((v_abs + pwm_drop) / vmp_hot - 1e-9))
+    if ctype == "mppt":  # PWM: fewest modules in series that suit the battery (STC Vmp)
+        s = max(1, math.ceil((v_abs + pwm_drop) / project.module.vmp_v - 1e-9))
         per = math.ceil(math.ceil(n / s) / k)
         return st.Layout(s, per * k, k, per, s * per * k)
     try:
@@ -327,10 +330,22 @@ def electrical_design(project, core) -> ElectricalResult:
     rb.add("strings.max_series", "floor(controller max PV voltage / module cold Voc)",
            f"{NEC} 690.7(A)", max_pv=fmt(window.max_pv_voltage_v, "V"),
            voc_cold=fmt(voc_cold, "V"))
-    rb.add("strings.min_series", "ceil(required string Vmp / module hot Vmp); required = "
-           + ("absorption + MPPT margin" if ctype == "mppt" else "absorption + wiring drop"),
-           "common practice, no source", required=fmt(window.required_vmp_v, "V"),
-           vmp_hot=fmt(vmp_hot, "V"))
+    if ctype == "mppt":
+        rb.add("strings.min_series", "ceil((absorption + MPPT margin) / module hot Vmp)",
+               "common practice, no source", required=fmt(window.required_vmp_v, "V"),
+               vmp_hot=fmt(vmp_hot, "V"))
+    else:
+        rb.add("strings.min_series", "ceil((absorption + wiring drop) / module Vmp at STC): the "
+               "module's suitability for PWM at this battery voltage",
+               "common practice, no source", required=fmt(window.required_vmp_v, "V"),
+               vmp_stc=fmt(module.vmp_v, "V"))
+    if window.hot_vmp_short and ctype == "pwm":
+        notices.append(Notice(
+            "pwm-hot-vmp", f"In the hottest month the string's Vmp falls to "
+            f"{layout.series * vmp_hot:.1f} V, below the {window.required_vmp_v:.1f} V the "
+            "battery needs at absorption: charging slows in the midday heat (the PWM harvest "
+            "includes it). An MPPT controller with one more module in series avoids it.",
+            "info", "array.vmp_hot_v"))
 
     # Runs and their currents.
     isc, imp = module.isc_a, module.imp_a
@@ -436,10 +451,19 @@ def electrical_design(project, core) -> ElectricalResult:
     mppt_layout, pwm_layout = (layout, alt) if ctype == "mppt" else (alt, layout)
 
     def run_harvest(lay: st.Layout) -> tuple[np.ndarray, np.ndarray]:
-        hin = HarvestInputs(lay.series, lay.strings_per_controller, lay.controllers, v_chg, eff,
-                            soiling, mismatch, loop.get("string", 0.0), loop["array"],
-                            loop["charge"])
-        return harvest_wh_day(params, profile, step_h, temp_day, module.noct_c, hin)
+        # controllers with n strings each; when the strings do not share out equally, some
+        # controllers have one string fewer
+        k = lay.controllers
+        groups = {lay.parallel // k + 1: lay.parallel % k, lay.parallel // k: k - lay.parallel % k}
+        total = [np.zeros(12), np.zeros(12)]
+        for n_str, n_ctrl in groups.items():
+            if n_str < 1 or n_ctrl < 1:
+                continue
+            hin = HarvestInputs(lay.series, n_str, n_ctrl, v_chg, eff, soiling, mismatch,
+                                loop.get("string", 0.0), loop["array"], loop["charge"])
+            got = harvest_wh_day(params, profile, step_h, temp_day, module.noct_c, hin)
+            total = [total[0] + got[0], total[1] + got[1]]
+        return total[0], total[1]
 
     mppt = run_harvest(mppt_layout)[0]
     pwm = run_harvest(pwm_layout)[1]

@@ -56,8 +56,9 @@ INVERTER_SURGE_MULTIPLE = 2.0
 #: inverter power at or below this current (common practice, no source).
 AUTO_VOLTAGE_MAX_CURRENT_A = 100.0
 NEC_CONTINUOUS = 1.25  # NEC 690.8(A)(1) and 690.8(B)(1), NFPA 70-2023
-MPPT_VOLTAGE_MARGIN = 1.15  # hot string Vmp / absorption voltage, MPPT (common practice)
-PWM_VOLTAGE_MARGIN = 1.05  # hot module Vmp / (absorption voltage + drop), PWM (common practice)
+#: The chosen controller's harvest may fall this far below the demand before modules are
+#: added (the derate chain and the I-V curves are both estimates; common practice, no source).
+HARVEST_SHORTFALL_TOLERANCE_PCT = 0.5
 
 
 def resolve_climate(project: Project, base: Path | None = None) -> MonthlyClimate:
@@ -207,7 +208,9 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
              low_src)
 
     # 4-5. array
-    array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, notices,
+    k_array = len(notices)
+    arr_notices: list[Notice] = []
+    array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, arr_notices,
                                                     t_low)
     # 6. battery
     battery = _size_battery(project, lr, system_v, batt_abs_v, t_mean, book, notices)
@@ -221,13 +224,44 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                               "appliances would shrink the system.", "info",
                               "loads.inverter_idle_wh"))
     cautions = _basic_cautions(project, battery, system_v)
-    core = SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
-                        inverter=inverter, warnings=tuple(notices), cautions=tuple(cautions),
-                        reasons=book.freeze())
-    # 9. electrical design: strings, harvest both ways, cables, protection, cautions
+
+    def assemble(array, ctrl, arr_notices) -> SystemDesign:
+        return SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
+                            inverter=inverter,
+                            warnings=tuple(notices[:k_array] + arr_notices + notices[k_array:]),
+                            cautions=tuple(cautions), reasons=book.freeze())
+
+    # 9. electrical design: strings, harvest both ways from the I-V curves, cables,
+    # protection, cautions.  If the chosen controller's harvest falls short of the demand
+    # in the design month, add modules and size again (at most a few rounds).
     from offgrid.electrical import electrical_design, with_electrical
 
-    return with_electrical(core, electrical_design(project, core))
+    core = assemble(array, ctrl, arr_notices)
+    er = electrical_design(project, core)
+    first = array.module_count
+    for _ in range(4):
+        short = er.harvest.shortfall_pct
+        if short <= HARVEST_SHORTFALL_TOLERANCE_PCT:
+            break
+        need = max(core.array.module_count + 1,
+                   math.ceil(core.array.module_count / (1.0 - short / 100.0) - 1e-9))
+        arr_notices = []
+        array, ctrl, _, _ = _size_array(project, site, lr, sun, book, arr_notices, t_low,
+                                        min_modules=need)
+        core = assemble(array, ctrl, arr_notices)
+        er = electrical_design(project, core)
+    if core.array.module_count != first:
+        arr_notices.append(Notice(
+            "array-raised-for-harvest", f"The array was raised from {first} to "
+            f"{core.array.module_count} modules: through the {ctrl.type.upper()} controller "
+            "the I-V curves of the design month deliver less than the derate chain assumed.",
+            "info", "array.power_w"))
+        book.add("array.modules_parallel", "raised until the daily harvest through the chosen "
+                 "controller, after the battery round trip, covers the design-month demand",
+                 "De Soto (2006) I-V curves over the month's mean day (offgrid.harvest)",
+                 first=str(first), now=str(core.array.module_count))
+        core = assemble(array, ctrl, arr_notices)
+    return with_electrical(core, er)
 
 
 def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
@@ -268,7 +302,7 @@ def _soiling_factor(project: Project) -> tuple[float, str]:
 
 
 def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
-                book: ReasonBook, notices: list[Notice], t_low: float):
+                book: ReasonBook, notices: list[Notice], t_low: float, min_modules: int = 0):
     m = project.module
     ctrl_spec = project.controller
     dm = site.design_month - 1
@@ -336,10 +370,23 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     }
     total = float(np.prod(list(derates.values())))
     required = float(demand[dm] / (poa[dm] * total))
-    layout = choose_layout(window, max(1, math.ceil(required / m.pmax_w - 1e-9)), 1)
-    ns, n_par = layout.series, layout.parallel
-    string_w = ns * m.pmax_w
-    power = n_par * string_w
+    # Lay out the modules, then size the controllers; with more than one controller the
+    # strings must share out equally, so lay out again for that count.
+    n_need = max(1, math.ceil(required / m.pmax_w - 1e-9), min_modules)
+    n_ctrl = 1
+    for _ in range(5):
+        layout = choose_layout(window, n_need, n_ctrl)
+        ns, n_par = layout.series, layout.parallel
+        string_w = ns * m.pmax_w
+        power = n_par * string_w
+        ctrl = _size_controller(project, n_par, power, system_v, book)
+        if n_par % ctrl.count == 0:
+            break
+        n_ctrl = ctrl.count
+    else:  # pragma: no cover - the count settles in two rounds
+        raise DesignError("controller-split", f"the {n_par} strings cannot be shared equally "
+                          f"between {ctrl.count} controllers: set controller.max_current_a",
+                          "controller.max_current_a")
     monthly_total = (f_temp * f_op * soiling * d.mismatch * d.wiring * ctrl_spec.efficiency
                      * batt_rt)
     supply = power * poa * monthly_total
@@ -370,7 +417,18 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
         voc_cold_v=float(voc_cold), vmp_hot_v=float(vmp_hot),
         string_voc_cold_v=float(ns * voc_cold), string_vmp_hot_v=float(ns * vmp_hot))
 
-    # 7. controller
+    if ctrl.count > 1:
+        notices.append(Notice("several-controllers", f"{ctrl.count} charge controllers of "
+                              f"{ctrl.current_a:g} A are needed; give each its own group of "
+                              f"{n_par // ctrl.count} strings.", "info", "controller.current_a"))
+    return array, ctrl, system_v, batt_abs_v
+
+
+def _size_controller(project: Project, n_par: int, power: float, system_v: int,
+                     book: ReasonBook) -> ControllerResult:
+    """7. Charge controller: current with the code's factors, standard rating, count."""
+    m = project.module
+    ctrl_spec = project.controller
     if ctrl_spec.type == "pwm":
         req = NEC_CONTINUOUS * NEC_CONTINUOUS * m.isc_a * n_par
         book.add("controller.required_current_a", "1.25 x 1.25 x Isc x strings in parallel",
@@ -396,15 +454,11 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     book.add("controller.current_a", "next standard rating at or above the required current "
              "per controller", "common practice, no source", required=fmt(req, "A"),
              controllers=str(count))
-    if count > 1:
-        notices.append(Notice("several-controllers", f"{count} charge controllers of {rating:g} A "
-                              "are needed; give each its own group of strings.", "info",
-                              "controller.current_a"))
     ctrl = ControllerResult(type=ctrl_spec.type, required_current_a=float(req),
                             current_a=float(rating), count=count,
                             max_pv_voltage_v=ctrl_spec.max_pv_voltage_v,
                             efficiency=ctrl_spec.efficiency)
-    return array, ctrl, system_v, batt_abs_v
+    return ctrl
 
 
 def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: float,

@@ -6,8 +6,9 @@ with the module's Voc coefficient, or the factors of Table 690.7(A) when the
 datasheet has none).  The smallest keeps the hot maximum-power voltage above
 what the battery needs: for an MPPT controller its absorption voltage plus
 the controller's start-up margin, for a PWM controller the absorption
-voltage plus the wiring drop (the array is switched straight onto the
-battery).
+voltage plus the wiring drop at STC (the module's suitability; the array is
+switched straight onto the battery, and the harvest from the I-V curves shows
+what the heat takes).
 """
 
 from __future__ import annotations
@@ -68,6 +69,7 @@ class StringWindow:
     required_vmp_v: float  # string Vmp the battery side needs
     min_series: int
     max_series: int
+    hot_vmp_short: bool = False  # PWM: the smallest string's hot Vmp is below the need
 
 
 @dataclass(frozen=True)
@@ -80,9 +82,15 @@ class Layout:
 
 
 def string_window(controller_type: str, max_pv_voltage_v: float, voc_cold_module_v: float,
-                  vmp_hot_module_v: float, absorption_v: float,
-                  pwm_drop_v: float = 0.0) -> StringWindow:
-    """Smallest and largest series count; DesignError when none fits."""
+                  vmp_hot_module_v: float, absorption_v: float, pwm_drop_v: float = 0.0,
+                  vmp_stc_module_v: float | None = None) -> StringWindow:
+    """Smallest and largest series count; DesignError when none fits.
+
+    MPPT: the hot string Vmp must reach absorption + margin.  PWM: the module's
+    suitability for the battery, i.e. the string Vmp at STC must reach absorption
+    + wiring drop (with ``vmp_stc_module_v``; otherwise the hot Vmp is used);
+    ``hot_vmp_short`` then says whether the string falls below it in the heat.
+    """
     if not max_pv_voltage_v > 0:
         raise DesignError("controller-voltage", "The controller's maximum PV input voltage "
                           "must be positive.", field="controller.max_pv_voltage_v")
@@ -96,7 +104,10 @@ def string_window(controller_type: str, max_pv_voltage_v: float, voc_cold_module
         raise DesignError("controller-type", f"Controller type must be 'pwm' or 'mppt' (got "
                           f"{controller_type!r}).", field="controller.type")
     max_s = math.floor(max_pv_voltage_v / voc_cold_module_v + 1e-9)
-    min_s = max(1, math.ceil(need / vmp_hot_module_v - 1e-9))
+    basis = vmp_hot_module_v
+    if controller_type == "pwm" and vmp_stc_module_v is not None:
+        basis = vmp_stc_module_v
+    min_s = max(1, math.ceil(need / basis - 1e-9))
     if max_s < 1:
         raise DesignError(
             "string-window", "The controller's string window is empty, no series count fits: "
@@ -112,11 +123,11 @@ def string_window(controller_type: str, max_pv_voltage_v: float, voc_cold_module
             "string-window",
             "The controller's string window is empty, no series count fits: the battery "
             f"needs a string Vmp of {need:.1f} V ({need_text}) when hot, so at least "
-            f"{min_s} modules of {vmp_hot_module_v:.1f} V; but at the record low each "
+            f"{min_s} modules of {basis:.1f} V; but at the record low each "
             f"module's Voc is {voc_cold_module_v:.1f} V, so at most {max_s} fit under "
             f"{max_pv_voltage_v:g} V. To fix: {fix}.", field="controller.max_pv_voltage_v")
     return StringWindow(controller_type, max_pv_voltage_v, voc_cold_module_v, vmp_hot_module_v,
-                        need, min_s, max_s)
+                        need, min_s, max_s, min_s * vmp_hot_module_v < need - 1e-9)
 
 
 def choose_layout(window: StringWindow, modules_required: int, controllers: int) -> Layout:

@@ -147,11 +147,42 @@ def test_pwm_with_a_36_cell_module_on_12_v():
     assert "raise-system-voltage" in codes  # 12 V array cable needs a very large size
 
 
-def test_pwm_with_a_60_cell_module_on_24_v_warns(project):
+def test_pwm_with_a_60_cell_module_on_12_v_warns(project):
+    project.controller.type = "pwm"
+    project.choices.system_voltage = 12
+    d = design(project)
+    assert d.electrical.harvest.pwm_vs_mppt_pct < -40
+    codes = [n.code for n in d.warnings]
+    assert "pwm-mismatch" in codes and "pwm-voltage-waste" not in codes
+
+
+def test_pwm_60_cell_on_24_v_is_suitable_but_short_in_the_heat(project):
+    # Module suitability for PWM: STC Vmp 32.5 V >= absorption 28.8 V + 3 % drop = 29.66 V,
+    # so one in series; hot Vmp (56.25 C) 28.64 V < 29.66 V -> an info notice.
     project.controller.type = "pwm"
     d = design(project)
-    assert d.electrical.harvest.pwm_vs_mppt_pct < -20
-    assert "pwm-mismatch" in {n.code for n in d.warnings}
+    assert d.array.modules_series == 1
+    assert d.electrical.strings.window.required_vmp_v == pytest.approx(28.8 * 1.03)
+    assert "pwm-hot-vmp" in {n.code for n in d.warnings}
+    assert -25 < d.electrical.harvest.pwm_vs_mppt_pct < 0
+
+
+def test_array_is_raised_when_the_chosen_harvest_falls_short(project, monkeypatch):
+    import offgrid.electrical as el
+
+    real = el.harvest_wh_day
+
+    def weak(*args, **kw):  # a controller that delivers only 60 % of the curves' energy
+        m, p = real(*args, **kw)
+        return 0.6 * m, 0.6 * p
+
+    first = design(project).array.module_count
+    monkeypatch.setattr(el, "harvest_wh_day", weak)
+    d = design(project)
+    assert d.array.module_count > first
+    assert d.electrical.harvest.shortfall_pct <= 0.5
+    assert "array-raised-for-harvest" in {n.code for n in d.warnings}
+    assert d.controller.current_a >= d.controller.required_current_a / d.controller.count
 
 
 def test_awg_and_aluminium(project):
