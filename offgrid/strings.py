@@ -115,10 +115,11 @@ def string_window(controller_type: str, max_pv_voltage_v: float, voc_cold_module
             f"controller's {max_pv_voltage_v:g} V maximum PV input. To fix: choose a controller "
             "rated for a higher PV voltage.", field="controller.max_pv_voltage_v")
     if min_s > max_s:
-        fix = (f"choose a controller with a maximum PV input of at least "
-               f"{math.ceil(min_s * voc_cold_module_v)} V, a lower system voltage")
+        fixes = [f"choose a controller with a maximum PV input of at least "
+                 f"{math.ceil(min_s * voc_cold_module_v)} V", "a lower system voltage"]
         if controller_type == "pwm":
-            fix += ", or an MPPT controller"
+            fixes.append("an MPPT controller")
+        fix = ", ".join(fixes[:-1]) + ", or " + fixes[-1]
         raise DesignError(
             "string-window",
             "The controller's string window is empty, no series count fits: the battery "

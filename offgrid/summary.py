@@ -108,7 +108,7 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
     module += _wrap(f"model: {e.fit.method}; reproduces the datasheet at STC within "
                     f"{max(err, 0.001):.3f} %", "  ")
     lay = sd.layout
-    ctrl = f" on each of {lay.controllers} controllers" if lay.controllers > 1 else ""
+    ctrl = f"{lay.controllers} controllers; " if lay.controllers > 1 else ""
     strings = ["Strings",
                _row("Series window", f"{sd.window.min_series}-{sd.window.max_series} modules",
                     f"chosen {lay.series} x {lay.parallel} parallel"),
@@ -118,8 +118,8 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
                     "cold Voc by " + sd.voc_cold_rule.split(",")[0].replace("datasheet ", "")),
                _row("Hot Vmp", f"{sd.vmp_hot_v:.1f} V/module",
                     f"string {sd.string_vmp_hot_v:.0f} V, needs {sd.window.required_vmp_v:.1f}"),
-               _row("Strings/controller", f"{lay.strings_per_controller}{ctrl}",
-                    "string fuses" if pr.string_fuses else "no string fuses needed")]
+               _row("Strings/controller", f"{lay.strings_per_controller}",
+                    ctrl + ("string fuses" if pr.string_fuses else "no string fuses needed"))]
     harvest = ["Harvest into the battery (Wh/day), from the I-V curves",
                "     " + " ".join(f"{m:>5}" for m in MONTHS),
                "MPPT " + " ".join(f"{v:>5.0f}" for v in h.mppt_wh_day),
