@@ -393,7 +393,7 @@ def electrical_design(project, core) -> ElectricalResult:
         runs.append(wr.RunSpec(
             "inverter", "battery to inverter", i_inv, i_inv, vsys, wiring.battery_inverter_m,
             limits.drop_limit_battery_pct, battery_fuse, 1, "wiring.battery_inverter_m"))
-    for load in project.loads:
+    for n_load, load in enumerate(project.loads, start=1):
         if load.ac_dc != "dc" or not load.quantity * load.power_w > 0:
             continue
         i_load = load.quantity * load.power_w / vsys
@@ -401,7 +401,7 @@ def electrical_design(project, core) -> ElectricalResult:
         field = (f"wiring.dc_load_runs_m.{load.name}" if load.name in wiring.dc_load_runs_m
                  else "wiring.dc_load_run_m")
         runs.append(wr.RunSpec(
-            f"load:{load.name}", f"DC load '{load.name}'", i_load, i_load, vsys, length,
+            f"load{n_load}", f"DC load '{load.name}'", i_load, i_load, vsys, length,
             limits.drop_limit_load_pct, prot.standard_rating_a(1.25 * i_load), 1, field))
 
     ambient = _wire_ambient_c(project, core)
@@ -527,7 +527,7 @@ def electrical_design(project, core) -> ElectricalResult:
     bat_string_fuse = None
     if n_bat >= 2:
         total = (1.25 * float(inv.dc_input_current_a) if inv.needed else 0.0) + sum(
-            1.25 * w.current_a for w in wires if w.key.startswith("load:"))
+            1.25 * w.current_a for w in wires if w.key.startswith("load"))
         total = max(total, 1.25 * i_charge_max * controllers)
         bat_string_fuse = prot.standard_rating_a(total / n_bat)
         devices.append(prot.Device("each parallel battery string, at its positive terminal",
@@ -538,7 +538,7 @@ def electrical_design(project, core) -> ElectricalResult:
     devices.append(prot.Device("battery disconnect, readily accessible, at the battery",
                                "disconnect", None, bank_v, 1, source=f"{NEC} 706.15"))
     for w in wires:
-        if w.key.startswith("load:"):
+        if w.key.startswith("load"):
             devices.append(prot.Device(f"{w.run} circuit, at the DC distribution board",
                                        _device_kind(w.fuse_a, "fuse or breaker"), w.fuse_a,
                                        bank_v, 1, source=f"{NEC} 240.4, 240.6(A)"))

@@ -150,7 +150,7 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
                 + (f", >= {dev.interrupt_rating_a / 1000:.1f} kA" if dev.interrupt_rating_a
                    else "") + f") [{dev.source}]")
         prot += _wrap(text, "  - ")
-    if any(w.key.startswith("load:") for w in e.wires):
+    if any(w.key.startswith("load") for w in e.wires):
         prot += _wrap("each DC load circuit: the fuse or breaker of the cable table, at the DC "
                       "distribution board [NFPA 70 (NEC) 2023 240.4, 240.6(A)]", "  - ")
     return [module, strings, harvest, cables, prot]

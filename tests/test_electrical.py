@@ -244,5 +244,6 @@ def test_wiring_section_round_trips(project):
     project.wiring.battery_short_circuit_a = 3500.0
     again = loads_project(dumps_project(project))
     assert again.wiring == project.wiring
-    load = next(w for w in design(again).electrical.wires if w.key == "load:DC lights")
+    load = next(w for w in design(again).electrical.wires if w.run == "DC load 'DC lights'")
+    assert load.key == "load1"  # first line of the load list
     assert load.length_m == 22.5
