@@ -242,7 +242,7 @@ def ampacity_a(size: ConductorSize, material: str, ambient_c: float,
 class RunSpec:
     """One DC run to size."""
 
-    key: str  # short id: "string", "array", "charge", "inverter", "loadN" (N: line in the load list)
+    key: str  # "string", "array", "charge", "inverter", "loadN" (N: line of the load list)
     name: str  # for people: "modules to combiner"
     max_current_a: float  # the circuit's maximum current (NEC 690.8(A) or the load)
     operating_current_a: float  # current for the voltage drop
