@@ -74,11 +74,13 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     for extra in _extra_sections(d):
         lines.append("")
         lines += extra
-    if d.warnings:
-        lines.append("")
-        lines.append(f"Warnings ({len(d.warnings)})")
-        for n in d.warnings:
-            lines += _wrap(f"[{n.code}] {n.message}", "  - ")
+    for title, group in (("Warnings", [n for n in d.warnings if n.severity != "info"]),
+                         ("Notes", [n for n in d.warnings if n.severity == "info"])):
+        if group:
+            lines.append("")
+            lines.append(f"{title} ({len(group)})")
+            for n in group:
+                lines += _wrap(f"[{n.code}] {n.message}", "  - ")
     lines.append("")
     lines.append("Safety cautions")
     for text in d.cautions:
