@@ -56,6 +56,9 @@ INVERTER_SURGE_MULTIPLE = 2.0
 #: inverter power at or below this current (common practice, no source).
 AUTO_VOLTAGE_MAX_CURRENT_A = 100.0
 NEC_CONTINUOUS = 1.25  # NEC 690.8(A)(1) and 690.8(B)(1), NFPA 70-2023
+#: More charge controllers than this on one battery bus is refused (common practice, no
+#: source: a system that large wants a higher voltage or splitting).
+MAX_CONTROLLERS = 20
 #: The chosen controller's harvest may fall this far below the demand before modules are
 #: added (the derate chain and the I-V curves are both estimates; common practice, no source).
 HARVEST_SHORTFALL_TOLERANCE_PCT = 0.5
@@ -368,7 +371,6 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     # String window (offgrid.electrical): cold Voc at the record low, hot Vmp from the fitted
     # single-diode model; DesignError when no series count fits the controller.
     from offgrid.electrical import string_limits
-    from offgrid.strings import choose_layout
 
     lim = string_limits(project, site.temp_day_c, t_low, batt_abs_v)
     window, vmp_hot, voc_cold = lim.window, lim.vmp_hot_v, lim.voc_cold_v
@@ -410,23 +412,14 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     }
     total = float(np.prod(list(derates.values())))
     required = float(demand[dm] / (poa[dm] * total))
-    # Lay out the modules, then size the controllers; with more than one controller the
-    # strings must share out equally, so lay out again for that count.
+    # Lay out the modules and count the controllers together: each controller takes an equal
+    # share of whole strings, and its share may not ask more than its rating.
     n_need = max(1, math.ceil(required / m.pmax_w - 1e-9), min_modules)
-    n_ctrl = 1
-    for _ in range(5):
-        layout = choose_layout(window, n_need, n_ctrl)
-        ns, n_par = layout.series, layout.parallel
-        string_w = ns * m.pmax_w
-        power = n_par * string_w
-        ctrl = _size_controller(project, n_par, power, system_v, book)
-        if n_par % ctrl.count == 0:
-            break
-        n_ctrl = ctrl.count
-    else:  # pragma: no cover - the count settles in two rounds
-        raise DesignError("controller-split", f"the {n_par} strings cannot be shared equally "
-                          f"between {ctrl.count} controllers: set controller.max_current_a",
-                          "controller.max_current_a")
+    layout = _layout_with_controllers(project, window, n_need, system_v)
+    ns, n_par = layout.series, layout.parallel
+    string_w = ns * m.pmax_w
+    power = n_par * string_w
+    ctrl = _size_controller(project, n_par, power, system_v, book, layout.controllers)
     monthly_total = (f_temp * f_op * soiling * d.mismatch * d.wiring * ctrl_spec.efficiency
                      * batt_rt)
     supply = power * poa * monthly_total
@@ -464,9 +457,75 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     return array, ctrl, system_v, batt_abs_v
 
 
+def _controller_ratings(project: Project) -> tuple[float, ...]:
+    if project.controller.max_current_a:
+        return (float(project.controller.max_current_a),)
+    return CONTROLLER_RATINGS_A
+
+
+def _string_current_a(project: Project, series: int, system_v: int) -> float:
+    """Current one string asks of its controller [A] (the terms of :func:`_size_controller`)."""
+    m = project.module
+    if project.controller.type == "pwm":
+        return NEC_CONTINUOUS * NEC_CONTINUOUS * m.isc_a
+    return NEC_CONTINUOUS * series * m.pmax_w / system_v
+
+
+def _layout_with_controllers(project: Project, window, n_need: int, system_v: int):
+    """Series x parallel layout and the number of controllers sharing it equally.
+
+    The controller count rises until each controller's share of whole strings is within
+    the largest rating; DesignError when one string alone is too much for a controller or
+    when more than MAX_CONTROLLERS would be needed.
+    """
+    from dataclasses import replace
+
+    from offgrid.strings import choose_layout
+
+    m = project.module
+    top = max(_controller_ratings(project))
+    fix = ("raise the system voltage, set a larger controller rating in "
+           "controller.max_current_a, or split the loads into several systems")
+    if project.controller.type == "mppt":
+        s_fit = math.floor(top * system_v / (NEC_CONTINUOUS * m.pmax_w) + 1e-9)
+        if s_fit < window.min_series:
+            s = window.min_series
+            raise DesignError(
+                "controller-current", f"One string of {s} modules ({s * m.pmax_w:g} W, the "
+                f"fewest in series the battery voltage allows) needs "
+                f"{_string_current_a(project, s, system_v):.0f} A from its MPPT controller "
+                f"(1.25 x power / {system_v} V), more than the {top:g} A rating: {fix}.",
+                "controller.max_current_a")
+        window = replace(window, max_series=min(window.max_series, s_fit))
+    elif _string_current_a(project, 1, system_v) > top + 1e-9:
+        raise DesignError(
+            "controller-current", f"One string (Isc {m.isc_a:g} A) needs "
+            f"{_string_current_a(project, 1, system_v):.1f} A from its PWM controller (1.25 x "
+            f"1.25 x Isc, NEC 690.8), more than the {top:g} A rating: set a larger controller "
+            "rating in controller.max_current_a, or choose an MPPT controller.",
+            "controller.max_current_a")
+    n_ctrl = 1
+    while True:
+        layout = choose_layout(window, n_need, n_ctrl)
+        i_str = _string_current_a(project, layout.series, system_v)
+        if layout.strings_per_controller * i_str <= top + 1e-9:
+            return layout
+        n_ctrl = max(n_ctrl + 1, math.ceil(layout.parallel * i_str / top - 1e-9))
+        if n_ctrl > MAX_CONTROLLERS:
+            raise DesignError(
+                "controller-count", f"The array of about {n_need} modules of {m.pmax_w:g} W "
+                f"needs more than {MAX_CONTROLLERS} charge controllers of {top:g} A at "
+                f"{system_v} V, more than one battery bus should carry: {fix}.",
+                "controller.max_current_a")
+
+
 def _size_controller(project: Project, n_par: int, power: float, system_v: int,
-                     book: ReasonBook) -> ControllerResult:
-    """7. Charge controller: current with the code's factors, standard rating, count."""
+                     book: ReasonBook, count: int = 1) -> ControllerResult:
+    """7. Charge controller: current with the code's factors, standard rating, ``count`` of them.
+
+    The strings share out equally between the ``count`` controllers, so each carries
+    ``required / count``.
+    """
     m = project.module
     ctrl_spec = project.controller
     if ctrl_spec.type == "pwm":
@@ -479,26 +538,18 @@ def _size_controller(project: Project, n_par: int, power: float, system_v: int,
         book.add("controller.required_current_a", "1.25 x array power / battery voltage",
                  "output current of an MPPT converter; 1.25 continuous factor as NEC 690.8(B)(1)",
                  array=fmt(power, "W"), battery=fmt(system_v, "V"))
-    ratings = CONTROLLER_RATINGS_A
-    if ctrl_spec.max_current_a:
-        ratings = (ctrl_spec.max_current_a,)
-    top = ratings[-1]
-    count = max(1, math.ceil(req / top - 1e-9))
-    # strings must split evenly enough: each controller takes ceil(n_par / count) strings
-    per = req / count if ctrl_spec.type == "mppt" else req * math.ceil(n_par / count) / n_par
-    rating = next_rating(per, ratings) or top
-    if count > 1 and ctrl_spec.type == "pwm" and per > top:
-        count += 1
-        per = req * math.ceil(n_par / count) / n_par
-        rating = next_rating(per, ratings) or top
+    ratings = _controller_ratings(project)
+    count = max(1, int(count))
+    per = req / count
+    rating = next_rating(per, ratings) or max(ratings)
     book.add("controller.current_a", "next standard rating at or above the required current "
-             "per controller", "common practice, no source", required=fmt(req, "A"),
-             controllers=str(count))
-    ctrl = ControllerResult(type=ctrl_spec.type, required_current_a=float(req),
+             "per controller (the strings share out equally between the controllers)",
+             "common practice, no source", required=fmt(req, "A"),
+             controllers=str(count), per_controller=fmt(per, "A"))
+    return ControllerResult(type=ctrl_spec.type, required_current_a=float(req),
                             current_a=float(rating), count=count,
                             max_pv_voltage_v=ctrl_spec.max_pv_voltage_v,
                             efficiency=ctrl_spec.efficiency)
-    return ctrl
 
 
 def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: float,

@@ -216,3 +216,47 @@ def test_supply_covers_demand_in_every_month(project):
     d = design(project)
     assert all(s >= e - 1e-6 for s, e in zip(d.array.supply_wh_day, d.loads.daily_energy_wh,
                                              strict=True))
+
+
+def _bundled(loads_csv: str, climate: str):
+    from offgrid.climate.files import load_climate
+    from offgrid.paths import load_profiles_dir
+    from offgrid.project.loads_csv import load_loads_csv
+    from offgrid.project.model import ClimateChoice, Project, Site
+
+    clim = load_climate(climate)
+    return Project(site=Site(latitude_deg=clim.latitude_deg, longitude_deg=clim.longitude_deg),
+                   climate=ClimateChoice(ref=climate),
+                   loads=load_loads_csv(load_profiles_dir() / loads_csv))
+
+
+def test_many_controllers_share_the_strings_equally_within_their_rating():
+    # The water pump at the cabin on 12 V needs many MPPT controllers; before, the count and
+    # the equal sharing of strings chased each other and the design was refused.  Each
+    # controller's share must be within its rating (common practice, no source).
+    p = _bundled("water-pump.csv", "myrvik-cabin-demo")
+    p.choices.system_voltage = 12
+    d = design(p)
+    c, a = d.controller, d.array
+    assert c.count > 1 and a.modules_parallel % c.count == 0
+    assert c.required_current_a / c.count <= c.current_a
+    per_string = 1.25 * a.modules_series * a.module_power_w / 12
+    assert per_string * a.modules_parallel / c.count <= c.current_a + 1e-9
+
+
+def test_too_many_controllers_is_refused_with_the_fix(project):
+    project.choices.system_voltage = 12
+    project.loads[0].quantity = 500  # 500 x 1 kWh/day of DC lights on 12 V
+    with pytest.raises(DesignError) as exc:
+        design(project)
+    assert exc.value.code == "controller-count"
+    assert exc.value.field == "controller.max_current_a"
+    assert "raise the system voltage" in str(exc.value)
+
+
+def test_one_string_above_the_controller_rating_is_refused(project):
+    project.controller.max_current_a = 10.0  # one 300 W module at 24 V asks 15.6 A
+    with pytest.raises(DesignError) as exc:
+        design(project)
+    assert exc.value.code == "controller-current"
+    assert "controller.max_current_a" in str(exc.value)
