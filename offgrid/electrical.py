@@ -31,6 +31,14 @@ from offgrid.pv import (
 from offgrid.result import DesignError, Notice, Reason, ReasonBook, fmt
 
 NEC = "NFPA 70 (NEC) 2023"
+#: What each run's maximum current is, for its reason.
+WIRE_CURRENT_FORMULA = {
+    "string": "1.25 x Isc of one string", "array": "1.25 x Isc x strings per controller",
+    "charge": "the controller's rated output current (or its operating current if larger)",
+    "inverter": "inverter continuous rating / (efficiency x low-voltage cut-off)",
+    "load": "quantity x power / system voltage",
+}
+WIRE_CURRENT_SOURCE = {"string": f"{NEC} 690.8(A)(1)", "array": f"{NEC} 690.8(A)(1)"}
 HOT_IRRADIANCE_W_M2 = 1000.0
 LARGE_CONDUCTOR_MM2 = 50.0  # ~1/0 AWG: above this on 12/24 V, suggest a higher voltage
 
@@ -90,7 +98,7 @@ class ElectricalResult:
     reasons: dict[str, Reason]
 
     def wires_json(self) -> list[dict]:
-        return [{"run": w.run, "count": w.count, "current_a": w.current_a,
+        return [{"key": w.key, "run": w.run, "count": w.count, "current_a": w.current_a,
                  "length_m": w.length_m, "material": w.material, "size": w.size,
                  "drop_pct": w.drop_pct, "ampacity_a": w.ampacity_a, "fuse_a": w.fuse_a}
                 for w in self.wires]
@@ -284,9 +292,20 @@ def electrical_design(project, core) -> ElectricalResult:
     src_noon = ("De Soto (2006) model at the design month's solar-noon irradiance "
                 "(Collares-Pereira & Rabl profile of the monthly insolation) and NOCT cell "
                 "temperature")
+    rb.add("mpp.month", "the design month", "worst-month method", month=str(m + 1))
+    rb.add("mpp.irradiance_w_m2", "plane-of-array irradiance at solar noon of the design "
+           "month's mean day", src_noon, insolation=fmt(float(site.poa_kwh_m2_day[m]),
+                                                       "kWh/m2/day"))
+    rb.add("mpp.cell_temp_c", "daytime air temperature + (NOCT - 20 C) x irradiance / 800 W/m2",
+           "Duffie & Beckman 4th ed. eq. 23.3.3 (NOCT method)", ambient=fmt(temp_day[m], "C"),
+           irradiance=fmt(g_noon, "W/m2"), noct=fmt(module.noct_c, "C"))
+    rb.add("iv_curve", "current and power of one module at evenly spaced voltages from 0 V to "
+           "Voc, at the design month's solar-noon irradiance and cell temperature", src_noon,
+           irradiance=fmt(g_noon, "W/m2"), cell_temp=fmt(tc_noon, "C"))
     for key, val, unit in (("vmp_v", mpp.vmp_v, "V"), ("imp_a", mpp.imp_a, "A"),
                            ("pmp_w", mpp.pmp_w, "W"), ("fill_factor", mpp.fill_factor, ""),
-                           ("efficiency", mpp.efficiency, "")):
+                           ("efficiency", mpp.efficiency, ""), ("voc_v", mpp.voc_v, "V"),
+                           ("isc_a", mpp.isc_a, "A")):
         rb.add(f"mpp.{key}", "maximum power point of one module on the I-V curve; fill factor "
                "= Pmp / (Voc Isc); efficiency = Pmp / (G x area)", src_noon,
                irradiance=fmt(g_noon, "W/m2"), cell_temp=fmt(tc_noon, "C"),
@@ -327,6 +346,32 @@ def electrical_design(project, core) -> ElectricalResult:
     rb.add("controller.max_pv_voltage_v", "the controller's maximum PV input voltage (user "
            "input); the string's cold Voc must stay below it", f"{NEC} 690.7",
            string_voc_cold=fmt(strings.string_voc_cold_v, "V"))
+    for key, ref in (("voc_cold_v", "array.voc_cold_v"), ("vmp_hot_v", "array.vmp_hot_v")):
+        r = rb.freeze()[ref]
+        rb.add(f"strings.{key}", r.formula, r.source, **dict(r.inputs))
+    rb.add("strings.hot_cell_temp_c", "hottest month's daytime air temperature + (NOCT - 20 C) "
+           "x 1000 W/m2 / 800 W/m2", "Duffie & Beckman 4th ed. eq. 23.3.3 (NOCT method)",
+           ambient=fmt(float(temp_day.max()), "C"), noct=fmt(module.noct_c, "C"))
+    rb.add("strings.record_low_c", "the site's record low (as site.record_low_c)",
+           "climate file or estimate, see site.record_low_c", value=fmt(record_low, "C"))
+    rb.add("strings.string_voc_cold_v", "modules in series x module cold Voc; must stay at or "
+           "below the controller's maximum PV voltage", f"{NEC} 690.7(A)",
+           series=str(layout.series), voc_cold=fmt(voc_cold, "V"))
+    rb.add("strings.string_vmp_hot_v", "modules in series x module hot Vmp",
+           "common practice, no source", series=str(layout.series), vmp_hot=fmt(vmp_hot, "V"))
+    rb.add("strings.required_string_vmp_v", "MPPT: absorption voltage + the controller's "
+           f"{st.MPPT_MARGIN_V:g} V margin; PWM: absorption voltage + the array wiring drop",
+           "common practice, no source (check the controller's manual)",
+           absorption=fmt(v_abs, "V"))
+    rb.add("strings.series", "modules in series (see array.modules_series)",
+           "common practice, no source", window=f"{window.min_series}-{window.max_series}")
+    rb.add("strings.parallel", "strings in parallel (see array.modules_parallel)",
+           "common practice, no source")
+    rb.add("strings.controllers", "charge controllers sharing the strings (see "
+           "controller.count)", "common practice, no source")
+    rb.add("strings.strings_per_controller", "strings in parallel / controllers (equal shares)",
+           "common practice, no source", parallel=str(layout.parallel),
+           controllers=str(layout.controllers))
     rb.add("strings.max_series", "floor(controller max PV voltage / module cold Voc)",
            f"{NEC} 690.7(A)", max_pv=fmt(window.max_pv_voltage_v, "V"),
            voc_cold=fmt(voc_cold, "V"))
@@ -431,6 +476,14 @@ def electrical_design(project, core) -> ElectricalResult:
         rb.add(f"{base}.ampacity_a", "table ampacity x ambient correction, within the terminal "
                "rating", amp_table, ambient=fmt(ambient, "C"),
                insulation=fmt(wiring.insulation_temp_c, "C"))
+        rb.add(f"{base}.current_a", WIRE_CURRENT_FORMULA.get(w.key, WIRE_CURRENT_FORMULA["load"]),
+               WIRE_CURRENT_SOURCE.get(w.key, "common practice, no source"),
+               value=fmt(w.current_a, "A"))
+        spec = next(r for r in runs if r.key == w.key)
+        rb.given(f"{base}.length_m", spec.length_field or "wiring", fmt(w.length_m, "m"))
+        rb.add(f"{base}.count", "identical runs: one per string (string runs) or per "
+               "controller (array and charge runs), else one", "common practice, no source",
+               count=str(w.count))
         if w.fuse_a is not None:
             rb.add(f"{base}.fuse_a", "smallest standard rating >= 1.25 x the circuit current, not "
                    "above the conductor's ampacity", f"{NEC} 240.6(A), 690.9(B), 240.4",
@@ -478,6 +531,20 @@ def electrical_design(project, core) -> ElectricalResult:
                             (mppt_layout.series, mppt_layout.parallel))
     hsrc = ("De Soto (2006) I-V curve at each step of the month's mean day (Collares-Pereira & "
             "Rabl 1979 / Liu & Jordan profile, isotropic sky, scaled to the monthly POA)")
+    rb.add("harvest.charging_voltage_v", "battery voltage a PWM array works against: mean of "
+           "full rest (1.05 x nominal) and absorption voltage", "common practice, no source",
+           nominal=fmt(vsys, "V"), absorption=fmt(v_abs, "V"))
+    rb.add("harvest.pwm_vs_mppt_pct", "PWM harvest / MPPT harvest - 1 in the design month, each "
+           "on its own layout of the same modules", hsrc,
+           pwm=fmt(float(pwm[m]), "Wh/day"), mppt=fmt(float(mppt[m]), "Wh/day"))
+    rb.add("harvest.shortfall_pct", "1 - harvest through the chosen controller x battery "
+           "round trip / design-month demand, when positive", hsrc,
+           harvest=fmt(float(chosen[m]), "Wh/day"), round_trip=fmt(eta_batt),
+           demand=fmt(demand, "Wh/day"))
+    rb.add("harvest.pwm_layout", "series x parallel the PWM figures assume: the fewest modules "
+           "in series whose STC Vmp suits the battery", "common practice, no source")
+    rb.add("harvest.mppt_layout", "series x parallel the MPPT figures assume: a layout in the "
+           "MPPT string window", "common practice, no source")
     rb.add("array.harvest_mppt_wh_day", "sum over the day of the array's maximum power less "
            "cable I^2 R, x controller efficiency", hsrc, series=str(mppt_layout.series),
            parallel=str(mppt_layout.parallel), efficiency=fmt(eff), soiling=fmt(soiling),
@@ -554,6 +621,26 @@ def electrical_design(project, core) -> ElectricalResult:
                "current; its DC interrupting rating must exceed the bank fault current",
                f"{NEC} 240.6(A), 706.31", inverter_current=fmt(float(inv.dc_input_current_a), "A"),
                fault=fmt(fault, "A"))
+    rb.add("protection.unit_short_circuit_a", "one battery unit's prospective short-circuit "
+           "current: the datasheet value, or an estimate per Ah of capacity",
+           "datasheet" if not estimated else "estimate per Ah of capacity, from memory, no "
+           "source: take it from the datasheet", capacity=fmt(project.battery.capacity_ah, "Ah"))
+    rb.add("protection.battery_string_fuses", "one fuse per parallel battery string from two "
+           "strings up (a fault in one string is fed by all the others)",
+           "common practice, no source", strings=str(n_bat))
+    if bat_string_fuse is not None:
+        rb.add("protection.battery_string_fuse_a", "smallest standard rating >= (1.25 x the "
+               "largest current the bank delivers or takes) / parallel strings",
+               f"{NEC} 240.6(A); sharing common practice, no source", strings=str(n_bat))
+    if string_fuse is not None:
+        rb.add("protection.string_fuse_a", "smallest standard rating >= 1.56 x Isc, not above "
+               "the module's maximum series fuse", f"{NEC} 690.9(B), 240.6(A)",
+               isc=fmt(isc, "A"))
+    rb.add("protection.devices", "each device's rating as its cable's fuse; DC voltage rating "
+           "from the string cold Voc (PV side) or 1.1 x absorption voltage (battery side); "
+           "interrupting rating at least the bank fault current; the source beside each",
+           f"{NEC} 240.6(A), 690.9, 706.15", bank_voltage=fmt(bank_v, "V"),
+           string_voc_cold=fmt(strings.string_voc_cold_v, "V"), fault=fmt(fault, "A"))
     rb.add("protection.string_fuses", "string fuses from three strings in parallel per "
            "controller (or when the back-feed exceeds the module's series fuse rating)",
            f"{NEC} 690.9(A); IEC 62548:2016 7.3.3", strings_per_controller=str(n_c))

@@ -81,6 +81,28 @@ def analyse_loads(loads: list[Load], inverter: InverterSpec, growth_pct: float,
              coincidence_factor=fmt(coincidence_factor))
     book.add("loads.largest_surge_w", "largest starting power of one AC appliance",
              "common practice, no source", appliance=surge_name or "none")
+    book.add("loads.per_load_wh", "quantity x power x hours per day x duty cycle of each load "
+             "line, in the months it is used (at the appliance)", "common practice, no source")
+    book.add("loads.ac_energy_wh", "sum of the AC load lines used that month, at the "
+             "appliances", "common practice, no source", jan=fmt(float(ac[0]), "Wh/day"))
+    book.add("loads.dc_energy_wh", "sum of the DC load lines used that month, at the "
+             "appliances", "common practice, no source", jan=fmt(float(dc[0]), "Wh/day"))
+    book.add("loads.inverter_loss_wh", "AC energy / inverter efficiency - AC energy",
+             "common practice, no source", inverter_efficiency=fmt(eta))
+    book.add("loads.critical_energy_wh", "(critical DC energy + critical AC energy / inverter "
+             "efficiency) x (1 + load-growth margin); the inverter's idle draw is not included",
+             "common practice, no source", growth=fmt(growth_pct, "%"))
+    book.add("loads.max_daily_energy_wh", "largest of the twelve monthly daily energies at the "
+             "battery (it sizes the battery)", "common practice, no source",
+             value=fmt(float(at_battery.max()) if len(at_battery) else 0.0, "Wh/day"))
+    book.given("loads.growth_pct", "choices.load_growth_pct", fmt(growth_pct, "%"))
+    book.given("loads.coincidence_factor", "choices.coincidence_factor", fmt(coincidence_factor))
+    book.add("loads.connected_ac_w", "sum of quantity x power of the AC loads used in the "
+             "busiest month", "common practice, no source", value=fmt(connected_ac, "W"))
+    book.add("loads.connected_dc_w", "sum of quantity x power of the DC loads used in the "
+             "busiest month", "common practice, no source", value=fmt(connected_dc, "W"))
+    book.add("loads.peak_dc_w", "connected DC power (every DC load taken as on at once)",
+             "common practice, no source", value=fmt(connected_dc, "W"))
     return LoadResult(
         daily_energy_wh=tuple(float(x) for x in at_battery),
         ac_energy_wh=tuple(float(x) for x in ac),

@@ -65,8 +65,35 @@ class ReasonBook:
             **inputs: str) -> None:
         self._items[path] = Reason(formula, tuple(inputs.items()), source)
 
+    def given(self, path: str, field: str, value: str) -> None:
+        """A figure that repeats a project value (typed, or its default): ``field`` names it."""
+        self._items[path] = Reason(f"as set in {field} (typed, or the default)",
+                                   (("value", value),), "project file")
+
     def freeze(self) -> dict[str, Reason]:
         return dict(self._items)
+
+
+def reason_key(path: str, data: dict | None = None) -> str:
+    """The key in ``SystemDesign.reasons`` for a dotted path of ``SystemDesign.to_dict()``.
+
+    List indices are dropped (months, load lines, curve points); a cable's index becomes its
+    key (``wires[2].size`` -> ``wires.charge.size``, needs ``data``); the electrical
+    section's figures are keyed without ``electrical.`` (``electrical.strings.min_series``
+    -> ``strings.min_series``) and the module fit's parameters share ``module.fit``.
+    """
+    import re
+
+    m = re.match(r"wires\[(\d+)\]\.(.+)$", path)
+    if m and data is not None:
+        wires = data.get("wires") or []
+        i = int(m.group(1))
+        if i < len(wires) and isinstance(wires[i], dict) and "key" in wires[i]:
+            return f"wires.{wires[i]['key']}.{m.group(2)}"
+    key = re.sub(r"\[\d+\]", "", path)
+    if key.startswith("electrical.module_fit"):
+        return "module.fit"
+    return key.removeprefix("electrical.")
 
 
 @dataclass(frozen=True)
@@ -181,7 +208,18 @@ class SystemDesign:
     electrical: Any = None  # offgrid.electrical.ElectricalResult once the pipeline adds it
 
     def why(self, path: str) -> Reason | None:
-        return self.reasons.get(path)
+        """The reason for a figure: by its reason key, or by its path in :meth:`to_dict`
+        (see :func:`reason_key`), falling back to the figure it belongs to."""
+        if path in self.reasons:
+            return self.reasons[path]
+        probe = reason_key(path, self.to_dict() if path.startswith("wires[") else None)
+        while probe:
+            if probe in self.reasons:
+                return self.reasons[probe]
+            if "." not in probe:
+                return None
+            probe = probe.rsplit(".", 1)[0]
+        return None
 
     def to_dict(self) -> dict[str, Any]:
         """Plain JSON-ready dictionary (documented in README)."""

@@ -249,6 +249,17 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         temp_day_c=_tuple(t_day), record_low_c=t_low, climate_source=climate.source)
     book.add("site.record_low_c", "lowest temperature used for the cold open-circuit voltage",
              low_src)
+    book.given("site.latitude_deg", "site.latitude_deg", fmt(project.site.latitude_deg, "deg"))
+    src = climate.source or "the climate"
+    book.add("site.horizontal_kwh_m2_day", "mean daily global horizontal insolation of each "
+             "month, from the climate", src)
+    book.add("site.temp_mean_c", "mean air temperature of each month, from the climate", src)
+    book.add("site.temp_day_c", "daytime air temperature: (monthly mean + mean daily maximum)"
+             " / 2" + ("" if climate.temp_max_c else "; no maxima given, maximum taken as mean "
+                       "+ 5 C"), "common practice, no source")
+    book.add("site.demand_to_sun", "daily demand at the battery / plane-of-array insolation, "
+             "each month (Wh per kWh/m2); the largest marks the design month",
+             "worst-month method, common practice")
 
     # 4-5. array
     k_array = len(notices)
@@ -258,7 +269,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     # 6. battery
     battery = _size_battery(project, lr, system_v, batt_abs_v, t_mean, book, notices)
     # 8. inverter
-    inverter = _size_inverter(project, lr, system_v, book)
+    inverter = _size_inverter(project, lr, system_v, book, notices)
 
     if lr.inverter_idle_wh > 0.2 * max(lr.daily_energy_wh):
         notices.append(Notice("inverter-idle-large", f"The inverter's idle draw "
@@ -443,6 +454,27 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
              string_power=fmt(string_w, "W"))
     book.add("array.supply_wh_day", "array power x plane-of-array insolation x the month's "
              "derates", "worst-month method")
+    book.given("array.module_power_w", "module.pmax_w", fmt(m.pmax_w, "W"))
+    book.add("array.module_count", "modules in series x strings in parallel",
+             "common practice, no source", series=str(ns), parallel=str(n_par))
+    book.add("array.derates.operating point", "MPPT: 1; PWM: string voltage held at the "
+             "battery's charging voltage (1.1 x system voltage, plus the wiring drop) x Imp / "
+             "Pmax, at most 1", "common practice, no source",
+             battery=fmt(system_v, "V"), series=str(ns), module_imp=fmt(m.imp_a, "A"))
+    book.given("array.derates.mismatch", "choices.derates.mismatch", fmt(d.mismatch))
+    book.given("array.derates.wiring", "choices.derates.wiring", fmt(d.wiring))
+    book.given("array.derates.controller", "controller.efficiency", fmt(ctrl_spec.efficiency))
+    book.given("array.derates.battery round trip", "battery.efficiency", fmt(batt_rt))
+    book.add("array.derate_total", "product of the design month's derates",
+             "common practice, no source", derates=" x ".join(fmt(v) for v in derates.values()))
+    book.add("array.cell_temp_c", "daytime air temperature + (NOCT - 20 C) / 800 W/m2 x the "
+             "month's energy-weighted irradiance (pi^2 H / (8 daylight hours))",
+             "Ross (1976) NOCT model, Duffie & Beckman eq. 23.3.3; half-sine day, common "
+             "practice", noct=fmt(m.noct_c, "C"))
+    book.add("array.string_voc_cold_v", "modules in series x module Voc at the record low",
+             "NFPA 70 (NEC) 2023 690.7(A)", series=str(ns), voc_cold=fmt(voc_cold, "V"))
+    book.add("array.string_vmp_hot_v", "modules in series x module Vmp in the hottest month",
+             "common practice, no source", series=str(ns), vmp_hot=fmt(vmp_hot, "V"))
     array = ArrayResult(
         power_w=float(power), required_power_w=required, module_power_w=m.pmax_w,
         modules_series=ns, modules_parallel=n_par, module_count=ns * n_par, derates=derates,
@@ -546,6 +578,10 @@ def _size_controller(project: Project, n_par: int, power: float, system_v: int,
              "per controller (the strings share out equally between the controllers)",
              "common practice, no source", required=fmt(req, "A"),
              controllers=str(count), per_controller=fmt(per, "A"))
+    book.add("controller.count", "fewest controllers whose equal share of whole strings each "
+             "stays within the largest rating", "common practice, no source",
+             strings=str(n_par), largest_rating=fmt(max(ratings), "A"))
+    book.given("controller.efficiency", "controller.efficiency", fmt(ctrl_spec.efficiency))
     return ControllerResult(type=ctrl_spec.type, required_current_a=float(req),
                             current_a=float(rating), count=count,
                             max_pv_voltage_v=ctrl_spec.max_pv_voltage_v,
@@ -600,6 +636,29 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
         notices.append(Notice("battery-cold", f"The battery sits at about {t_batt:.0f} C: "
                               f"capacity is raised by a factor {f_t:.2f}; insulate or move the "
                               "battery indoors.", "warning", "battery.required_ah"))
+    book.add("battery.nominal_kwh", "installed Ah x system voltage / 1000",
+             "common practice, no source", capacity=fmt(cap_ah, "Ah"),
+             system_voltage=fmt(system_v, "V"))
+    if choices.max_dod is not None:
+        book.given("battery.max_dod", "choices.max_dod", fmt(dod))
+    else:
+        book.given("battery.max_dod", "battery.max_dod", fmt(dod))
+    book.given("battery.autonomy_days", "choices.autonomy_days",
+               fmt(choices.autonomy_days, "days"))
+    book.add("battery.unit_count", "units in series x strings in parallel",
+             "common practice, no source", series=str(series), parallel=str(parallel))
+    book.add("battery.temp_factor", "capacity needed per rated capacity at the battery's "
+             "temperature (1 at 25 C, more in the cold)", chem.temp_source,
+             battery_temperature=fmt(t_batt, "C"),
+             temperature_from="site.battery_temp_c" if project.site.battery_temp_c is not None
+             else "coldest monthly mean of the climate")
+    book.given("battery.ageing_factor", "choices.ageing_factor", fmt(choices.ageing_factor))
+    book.add("battery.discharge_efficiency", "square root of the round-trip efficiency (the "
+             "loss shared equally between charge and discharge)", "common practice, no source",
+             round_trip=fmt(b.efficiency))
+    book.add("battery.absorption_voltage_v", "absorption (charging) voltage per cell at 25 C x "
+             "cells in series", "common practice, no source (check the battery's manual)",
+             per_cell=fmt(chem.absorption_v_per_cell, "V"), chemistry=chem.label)
     return BatteryResult(
         chemistry=b.chemistry, system_voltage_v=system_v, capacity_ah=float(cap_ah),
         required_ah=float(need_ah), nominal_kwh=float(nominal_kwh),
@@ -610,12 +669,15 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
         absorption_voltage_v=float(batt_abs_v))
 
 
-def _size_inverter(project: Project, lr: LoadResult, system_v: int,
-                   book: ReasonBook) -> InverterResult:
+def _size_inverter(project: Project, lr: LoadResult, system_v: int, book: ReasonBook,
+                   notices: list[Notice] | None = None) -> InverterResult:
     inv = project.inverter
     needed = lr.connected_ac_w > 0
     if not needed:
-        book.add("inverter.continuous_w", "no AC loads: no inverter", "common practice")
+        for key in ("continuous_w", "required_continuous_w", "surge_w", "required_surge_w",
+                    "dc_input_current_a", "self_consumption_w"):
+            book.add(f"inverter.{key}", "no AC loads: no inverter", "common practice")
+        book.given("inverter.efficiency", "inverter.efficiency", fmt(inv.efficiency))
         return InverterResult(False, 0.0, 0.0, 0.0, 0.0, inv.efficiency, 0.0, 0.0)
     req_cont = lr.peak_ac_w * NEC_CONTINUOUS
     surge_running = 0.0
@@ -624,22 +686,40 @@ def _size_inverter(project: Project, lr: LoadResult, system_v: int,
             surge_running = ld.power_w
             break
     req_surge = max(lr.peak_ac_w, lr.peak_ac_w - surge_running + lr.largest_surge_w)
-    cont = max(next_rating(req_cont, INVERTER_RATINGS_W) or req_cont,
-               next_rating(req_surge / INVERTER_SURGE_MULTIPLE, INVERTER_RATINGS_W) or 0.0)
+    cont_std = next_rating(req_cont, INVERTER_RATINGS_W)
+    surge_std = next_rating(req_surge / INVERTER_SURGE_MULTIPLE, INVERTER_RATINGS_W)
+    cont = max(cont_std or req_cont, surge_std or req_surge / INVERTER_SURGE_MULTIPLE)
+    if (cont_std is None or surge_std is None) and notices is not None:
+        top = INVERTER_RATINGS_W[-1]
+        notices.append(Notice(
+            "inverter-above-ratings", f"No single inverter of the common ratings (up to "
+            f"{top / 1000:g} kW) gives {cont:.0f} W continuous and {req_surge:.0f} W surge: use "
+            f"{math.ceil(cont / top - 1e-9)} or more inverters made to share the load in "
+            "parallel, or split the AC loads; the figures shown are what they must add up to.",
+            "warning", "inverter.continuous_w"))
     surge = cont * INVERTER_SURGE_MULTIPLE
     low_v = system_v * 0.875  # 10.5 V per 12 V: low-voltage cut-off (common practice)
     dc_current = cont / (inv.efficiency * low_v)
+    book.add("inverter.required_continuous_w", "1.25 x peak simultaneous AC power",
+             "common practice, no source",
+             peak=fmt(lr.peak_ac_w, "W"))
     book.add("inverter.continuous_w",
              "next standard rating at or above 1.25 x peak simultaneous AC power, raised if its "
              f"surge ({INVERTER_SURGE_MULTIPLE:g} x continuous) is below the starting demand",
              "common practice, no source", peak=fmt(lr.peak_ac_w, "W"),
              required=fmt(req_cont, "W"), starting_demand=fmt(req_surge, "W"))
-    book.add("inverter.surge_w", "peak AC power - running power of the largest motor + its "
-             "starting power; the rating shown is the chosen inverter's surge",
-             "common practice, no source", largest=lr.largest_surge_load or "none",
-             starting=fmt(lr.largest_surge_w, "W"), required=fmt(req_surge, "W"))
+    book.add("inverter.required_surge_w", "peak AC power - running power of the largest motor "
+             "+ its starting power (at least the peak AC power)", "common practice, no source",
+             largest=lr.largest_surge_load or "none", starting=fmt(lr.largest_surge_w, "W"),
+             running=fmt(surge_running, "W"), peak=fmt(lr.peak_ac_w, "W"))
+    book.add("inverter.surge_w", f"{INVERTER_SURGE_MULTIPLE:g} x the chosen continuous rating "
+             "(a few seconds); it must cover the required surge", "common practice, no source",
+             continuous=fmt(cont, "W"), required=fmt(req_surge, "W"))
     book.add("inverter.dc_input_current_a", "continuous rating / (efficiency x low-voltage "
              "cut-off)", "common practice, no source", cutoff=fmt(low_v, "V"))
+    book.given("inverter.efficiency", "inverter.efficiency", fmt(inv.efficiency))
+    book.given("inverter.self_consumption_w", "inverter.self_consumption_w",
+               fmt(inv.self_consumption_w, "W"))
     return InverterResult(True, float(req_cont), float(cont), float(req_surge), float(surge),
                           inv.efficiency, inv.self_consumption_w, float(dc_current))
 
