@@ -312,21 +312,32 @@ def _candidates(run: RunSpec, units: str, material: str, conductor_temp_c: float
         raise DesignError(
             "wire-ampacity",
             f"The {run.name} run needs {required:.0f} A of ampacity and no listed {material} "
-            f"conductor up to {largest} carries it at {ambient_c:g} C ambient: raise the system "
-            "voltage, split the circuit (more controllers or parallel runs), or use copper.",
+            f"conductor up to {largest} carries it at {ambient_c:.0f} C ambient: raise the "
+            "system voltage or split the circuit into parallel runs"
+            + (", or use copper." if material == "aluminium" else "."),
             field=run.length_field)
     return out
 
 
+def drop_limit_field(key: str) -> str:
+    """The project field holding the voltage-drop limit of a run with this key."""
+    if key in ("string", "array"):
+        return "choices.drop_limit_array_pct"
+    if key in ("charge", "inverter"):
+        return "choices.drop_limit_battery_pct"
+    return "choices.drop_limit_load_pct"
+
+
 def _drop_error(runs: list[RunSpec], limit_pct: float, units: str) -> DesignError:
     largest = sizes_for(units)[-1].name
-    what = " and ".join(f"{r.name} ({r.length_m:g} m at {r.operating_current_a:.1f} A)"
+    what = " and ".join(f"{r.name} ({r.length_m:.1f} m at {r.operating_current_a:.1f} A)"
                         for r in runs)
     return DesignError(
         "wire-drop",
         f"The {what} cannot keep within {limit_pct:g} % voltage drop at "
-        f"{runs[0].voltage_v:.0f} V even in {largest}: shorten the run, raise the system "
-        "voltage, or relax the limit.", field=runs[-1].length_field)
+        f"{runs[0].voltage_v:.0f} V even in {largest}: shorten the run "
+        f"({runs[-1].length_field}), raise the system voltage, or relax the limit "
+        f"({drop_limit_field(runs[-1].key)}).", field=runs[-1].length_field)
 
 
 def size_conductor(run: RunSpec, units: str, material: str, conductor_temp_c: float,

@@ -121,7 +121,8 @@ def loads(draw) -> list[Load]:
     for i in range(draw(st.integers(1, 4))):
         power = draw(_mostly(st.floats(1.0, 500.0, **finite),
                              st.floats(0.0, 1_000_000.0, **finite), odds=16))
-        surge = draw(st.one_of(st.just(0.0), st.floats(power, max(power, 1.0) * 6, **finite)))
+        surge = draw(st.one_of(st.just(0.0), st.floats(power, max(power, 1.0) * 6, **finite),
+                               st.floats(power, 10_000_000.0, **finite)))
         first = draw(st.integers(1, 12))
         months = tuple(sorted({first, *draw(st.lists(st.integers(1, 12), max_size=11))}))
         out.append(Load(
