@@ -1,0 +1,378 @@
+"""Design every survey row with the single-project engine (:func:`offgrid.sizing.design`).
+
+Each row becomes an ordinary :class:`~offgrid.project.model.Project`: the shared
+site and climate, the shared (or the row's own) parts and design choices, and the
+row's loads.  Rows with identical inputs share one design (a survey of 10,000
+households usually has a few dozen distinct ones), and when many distinct rows
+remain they are designed in worker processes.  Only a compact record of each design
+is kept (:class:`RowDesign`); :func:`row_project` rebuilds the full project of any row
+for the single-project views.
+"""
+
+from __future__ import annotations
+
+import copy
+import multiprocessing
+import os
+import threading
+from concurrent.futures import ProcessPoolExecutor
+from dataclasses import dataclass
+from pathlib import Path
+
+from offgrid.climate.files import ClimateFileError, load_climate
+from offgrid.paths import load_profiles_dir
+from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
+from offgrid.project.loads_csv import LoadListError, load_loads_csv
+from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo
+from offgrid.project.store import ProjectFileError, load_project
+from offgrid.project.validate import validate_project
+from offgrid.result import DesignError, SystemDesign
+
+#: Below this many distinct designs, worker processes cost more than they save (measured
+#: start-up about 0.1 s per worker with fork; one design about 1 ms).
+PARALLEL_MIN_DESIGNS = 400
+SURVEYED_LOAD_NAME = "surveyed demand"
+
+
+@dataclass(frozen=True)
+class RowDesign:
+    """The figures of one design that planning needs (units in the names)."""
+
+    family: tuple  # rows sharing a kit must agree on these (see :func:`family_key`)
+    family_label: str
+    system_voltage_v: int
+    controller_type: str
+    module_name: str
+    module_pmax_w: float
+    modules_series: int
+    modules_parallel: int  # strings
+    module_count: int
+    array_power_w: float
+    required_power_w: float
+    battery_name: str
+    battery_chemistry: str
+    battery_unit_v: float
+    battery_unit_ah: float
+    units_series: int
+    units_parallel: int
+    unit_count: int
+    required_wh: float  # battery energy needed at the system voltage
+    nominal_wh: float
+    controller_current_a: float
+    controller_count: int
+    inverter_w: float  # 0: no inverter
+    inverter_surge_w: float
+    design_energy_wh: float  # daily energy at the battery in the design month
+    appliance_energy_wh: float  # daily appliance energy, design month, growth included
+    peak_capacity_w: float  # inverter continuous + connected DC power (for access tiers)
+    design_month: int
+    warnings: tuple[str, ...]
+    cautions: tuple[str, ...] = ()
+
+    @property
+    def string_wh(self) -> float:
+        """Nominal energy of one battery string [Wh]."""
+        return self.units_series * self.battery_unit_v * self.battery_unit_ah
+
+
+@dataclass(frozen=True)
+class RowFailure:
+    code: str
+    message: str
+
+
+def family_key(project: Project, d: SystemDesign) -> tuple[tuple, str]:
+    """Rows may share a kit only with the same system voltage, controller type, module,
+    battery unit and string layout: their DC appliances run at that voltage and a kit is
+    one bill of parts."""
+    key = (d.battery.system_voltage_v, project.controller.type, repr(project.module),
+           repr(project.battery), d.array.modules_series, d.battery.units_series)
+    label = (f"{d.battery.system_voltage_v} V {project.controller.type.upper()}, "
+             f"{project.module.name}, {project.battery.name}")
+    return key, label
+
+
+def summarise(project: Project, d: SystemDesign) -> RowDesign:
+    key, label = family_key(project, d)
+    lr = d.loads
+    dm = d.site.design_month - 1
+    growth = 1.0 + lr.growth_pct / 100.0
+    appliance = (lr.ac_energy_wh[dm] + lr.dc_energy_wh[dm]) * growth
+    inv_w = d.inverter.continuous_w if d.inverter.needed else 0.0
+    return RowDesign(
+        family=key, family_label=label, system_voltage_v=d.battery.system_voltage_v,
+        controller_type=d.controller.type, module_name=project.module.name,
+        module_pmax_w=d.array.module_power_w, modules_series=d.array.modules_series,
+        modules_parallel=d.array.modules_parallel, module_count=d.array.module_count,
+        array_power_w=d.array.power_w, required_power_w=d.array.required_power_w,
+        battery_name=project.battery.name, battery_chemistry=project.battery.chemistry,
+        battery_unit_v=project.battery.nominal_voltage_v,
+        battery_unit_ah=project.battery.capacity_ah, units_series=d.battery.units_series,
+        units_parallel=d.battery.units_parallel, unit_count=d.battery.unit_count,
+        required_wh=d.battery.required_ah * d.battery.system_voltage_v,
+        nominal_wh=d.battery.nominal_kwh * 1000.0,
+        controller_current_a=d.controller.current_a, controller_count=d.controller.count,
+        inverter_w=inv_w, inverter_surge_w=d.inverter.surge_w if d.inverter.needed else 0.0,
+        design_energy_wh=lr.design_daily_energy_wh, appliance_energy_wh=float(appliance),
+        peak_capacity_w=float(inv_w + lr.connected_dc_w), design_month=d.site.design_month,
+        warnings=tuple(n.code for n in d.warnings), cautions=d.cautions)
+
+
+# --------------------------------------------------------------------- the shared base
+
+@dataclass
+class PlanInputs:
+    """Everything resolved once per survey: the shared base project and reference caches."""
+
+    survey: Survey
+    base: Project
+    base_dir: Path | None
+    climate_ref: str
+    load_lists: dict[str, list[Load] | str]  # ref -> loads, or the error text
+    projects: dict[str, Project | str]
+
+
+def _find(ref: str, base_dir: Path | None, folder: Path, suffix: str) -> Path | None:
+    candidates = []
+    p = Path(ref).expanduser()
+    names = [p] if p.suffix else [p, p.with_name(p.name + suffix)]
+    for q in names:
+        if q.is_absolute():
+            candidates.append(q)
+        else:
+            if base_dir is not None:
+                candidates.append(base_dir / q)
+            candidates.append(folder / q)
+    for c in candidates:
+        if c.is_file():
+            return c
+    return None
+
+
+def _known(folder: Path, suffix: str) -> str:
+    names = sorted(p.stem for p in folder.glob(f"*{suffix}")) if folder.is_dir() else []
+    return ", ".join(names) or "none"
+
+
+def set_path(project: Project, path: str, value) -> None:
+    """Set ``section.field`` (e.g. ``choices.derates.soiling``) on a project."""
+    *parts, name = path.split(".")
+    obj = project
+    for part in parts:
+        obj = getattr(obj, part)
+    setattr(obj, name, value)
+
+
+def prepare(survey: Survey, climate: str | None = None, project: str | None = None
+            ) -> PlanInputs:
+    """Resolve the shared climate, site and base project; raise SurveyError if unusable."""
+    fatal: list[SurveyProblem] = []
+    lines = survey.setting_lines
+    base_dir = survey.base_dir
+    base = Project()
+    project_ref = project or survey.project
+    if project_ref:
+        path = _find(project_ref, base_dir, load_profiles_dir(), ".toml")
+        if path is None:
+            fatal.append(SurveyProblem(lines.get("project", 0), "", "project",
+                                       f"project file '{project_ref}' not found next to the "
+                                       "survey or in load_profiles/"))
+        else:
+            try:
+                base = load_project(path)
+            except ProjectFileError as exc:
+                fatal.append(SurveyProblem(lines.get("project", 0), "", "project", str(exc)))
+    base.loads = []
+    base.info = ProjectInfo(name=survey.name, demo=survey.demo)
+    climate_ref = climate or survey.climate or base.climate.ref
+    if not climate_ref and base.climate.inline is None:
+        fatal.append(SurveyProblem(0, "", "climate", "no climate: add a settings row "
+                                   "'climate,NAME' (a bundled climate or a file) or give "
+                                   "--climate"))
+    elif climate_ref:
+        try:
+            base.climate = ClimateChoice(inline=load_climate(climate_ref, base_dir))
+        except ClimateFileError as exc:
+            fatal.append(SurveyProblem(lines.get("climate", 0), "", "climate", str(exc)))
+    set_here = {k for k, _ in survey.settings}
+    for key, value in survey.settings:
+        set_path(base, key, value)
+    # The shared site is where the climate is, unless settings rows say otherwise.
+    c = base.climate.inline
+    if "site.latitude_deg" not in set_here:
+        if c is None or c.latitude_deg is None:
+            fatal.append(SurveyProblem(0, "", "site.latitude_deg", "the climate has no "
+                                       "latitude: add a settings row 'site.latitude_deg,VALUE'"))
+        else:
+            base.site.latitude_deg = c.latitude_deg
+            if "site.longitude_deg" not in set_here:
+                base.site.longitude_deg = c.longitude_deg or 0.0
+            if "site.elevation_m" not in set_here:
+                base.site.elevation_m = c.elevation_m or 0.0
+    if not base.site.name:
+        base.site.name = survey.name
+    if not fatal:
+        for p in validate_project(base):
+            fatal.append(SurveyProblem(lines.get(p.path, 0), "", p.path, p.message))
+    if fatal:
+        raise SurveyError(fatal, survey.source)
+    return PlanInputs(survey, base, base_dir, climate_ref or "", {}, {})
+
+
+def _load_list(inputs: PlanInputs, ref: str) -> list[Load] | str:
+    if ref not in inputs.load_lists:
+        folder = load_profiles_dir()
+        path = _find(ref, inputs.base_dir, folder, ".csv")
+        if path is None:
+            inputs.load_lists[ref] = (f"load list '{ref}' not found next to the survey or in "
+                                      f"load_profiles/ (bundled: {_known(folder, '.csv')})")
+        else:
+            try:
+                inputs.load_lists[ref] = load_loads_csv(path)
+            except LoadListError as exc:
+                first = "; ".join(str(p) for p in exc.problems[:3])
+                inputs.load_lists[ref] = f"load list '{ref}' has problems: {first}"
+    return inputs.load_lists[ref]
+
+
+def _row_base(inputs: PlanInputs, ref: str) -> Project | str:
+    if ref not in inputs.projects:
+        path = _find(ref, inputs.base_dir, load_profiles_dir(), ".toml")
+        if path is None:
+            inputs.projects[ref] = f"project file '{ref}' not found next to the survey or in " \
+                                   "load_profiles/"
+        else:
+            try:
+                inputs.projects[ref] = load_project(path)
+            except ProjectFileError as exc:
+                inputs.projects[ref] = str(exc).replace("\n", " ")
+    return inputs.projects[ref]
+
+
+def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
+    """The full single-system project of one row; raises ValueError naming the problem."""
+    base = inputs.base
+    p = Project(info=ProjectInfo(name=f"{inputs.survey.name}: {row.name}",
+                                 demo=inputs.survey.demo),
+                site=copy.deepcopy(base.site), climate=base.climate,
+                module=copy.deepcopy(base.module), battery=copy.deepcopy(base.battery),
+                controller=copy.deepcopy(base.controller),
+                inverter=copy.deepcopy(base.inverter), choices=copy.deepcopy(base.choices))
+    own_loads: list[Load] = []
+    if row.project:
+        rp = _row_base(inputs, row.project)
+        if isinstance(rp, str):
+            raise ValueError(f"project: {rp}")
+        for name in ("module", "battery", "controller", "inverter", "choices"):
+            setattr(p, name, copy.deepcopy(getattr(rp, name)))
+        own_loads = rp.loads
+    if row.load_list:
+        loads = _load_list(inputs, row.load_list)
+        if isinstance(loads, str):
+            raise ValueError(f"load_list: {loads}")
+        p.loads = [copy.copy(ld) for ld in loads]
+    elif row.daily_energy_wh is not None and row.peak_power_w is not None:
+        p.loads = [Load(name=SURVEYED_LOAD_NAME, quantity=1, power_w=row.peak_power_w,
+                        hours_per_day=row.daily_energy_wh / row.peak_power_w,
+                        ac_dc=row.ac_dc,  # type: ignore[arg-type]
+                        surge_w=row.surge_w)]
+        # The surveyed peak is already the power on at once: no coincidence factor.
+        p.choices.coincidence_factor = 1.0
+    else:
+        if not own_loads:
+            raise ValueError(f"project: '{row.project}' has no loads; add a load_list or "
+                             "daily_energy_wh with peak_power_w")
+        p.loads = [copy.copy(ld) for ld in own_loads]
+    for path, value in row.overrides:
+        set_path(p, path, value)
+    problems = validate_project(p)
+    if problems:
+        raise ValueError("; ".join(str(q) for q in problems[:3]))
+    return p
+
+
+# --------------------------------------------------------------------- designing
+
+def _design_one(project: Project, base_dir: Path | None) -> RowDesign | RowFailure:
+    from offgrid.sizing import design
+
+    try:
+        return summarise(project, design(project, base_dir))
+    except DesignError as exc:
+        return RowFailure(exc.code, str(exc))
+
+
+def _design_batch(batch: list[tuple[int, Project]], base_dir: Path | None
+                  ) -> list[tuple[int, RowDesign | RowFailure]]:
+    return [(i, _design_one(p, base_dir)) for i, p in batch]
+
+
+def _pool_context():
+    # fork is quick but unsafe once threads run (the text UI); spawn is always safe.
+    if "fork" in multiprocessing.get_all_start_methods() and threading.active_count() == 1:
+        return multiprocessing.get_context("fork")
+    return multiprocessing.get_context("spawn")
+
+
+def default_jobs() -> int:
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except AttributeError:  # not on Linux
+        return max(1, os.cpu_count() or 1)
+
+
+def design_projects(projects: list[Project], base_dir: Path | None, jobs: int = 1
+                    ) -> list[RowDesign | RowFailure]:
+    """Design each project; in ``jobs`` worker processes when there are many."""
+    if jobs <= 1 or len(projects) < PARALLEL_MIN_DESIGNS:
+        return [_design_one(p, base_dir) for p in projects]
+    indexed = list(enumerate(projects))
+    size = max(50, len(indexed) // (jobs * 4))
+    batches = [indexed[i:i + size] for i in range(0, len(indexed), size)]
+    out: list[RowDesign | RowFailure | None] = [None] * len(projects)
+    with ProcessPoolExecutor(max_workers=jobs, mp_context=_pool_context()) as pool:
+        for result in pool.map(_design_batch, batches, [base_dir] * len(batches)):
+            for i, r in result:
+                out[i] = r
+    return out  # type: ignore[return-value]
+
+
+@dataclass(frozen=True)
+class DesignedRows:
+    rows: tuple[SurveyRow, ...]  # the rows that built a project (count 0 rows included)
+    designs: tuple[RowDesign | RowFailure, ...]  # one per row
+    problems: tuple[SurveyProblem, ...]  # rows that could not become a project
+    distinct: int  # designs actually computed
+
+
+def design_rows(inputs: PlanInputs, jobs: int = 1) -> DesignedRows:
+    """Build and design every row; identical rows are designed once."""
+    problems: list[SurveyProblem] = []
+    keyed: dict[tuple, int] = {}
+    failed: dict[tuple, tuple[str, str]] = {}
+    projects: list[Project] = []
+    kept: list[SurveyRow] = []
+    index_of: list[int] = []
+    for row in inputs.survey.rows:
+        k = row.key()
+        if k not in keyed:
+            try:
+                projects.append(row_project(inputs, row))
+            except ValueError as exc:
+                field, _, message = str(exc).partition(": ")
+                if not message:
+                    field, message = "row", str(exc)
+                problems.append(SurveyProblem(row.line, row.id, field, message))
+                keyed[k] = -1
+                failed[k] = (field, message)
+                continue
+            keyed[k] = len(projects) - 1
+        elif keyed[k] < 0:
+            problems.append(SurveyProblem(row.line, row.id, *failed[k]))
+            continue
+        kept.append(row)
+        index_of.append(keyed[k])
+    results = design_projects(projects, inputs.base_dir, jobs)
+    return DesignedRows(tuple(kept), tuple(results[i] for i in index_of), tuple(problems),
+                        len(projects))
+
