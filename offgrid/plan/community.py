@@ -153,10 +153,11 @@ def plan_community(survey: Survey, *, kits: int | None = None,
     survey : Survey
         As read by :func:`offgrid.plan.survey.load_survey`.
     kits : int, optional
-        At most this many standard kit types.
+        At most this many standard kit types (default: up to ``k_max`` when kit types have
+        a cost, else ``DEFAULT_KITS``).
     kit_type_cost : float, optional
-        Cost of each kit type; the number of kit types is then chosen.  Default: the price
-        list's ``kit_type`` price if it has one, else ``DEFAULT_KITS`` kit types.
+        Cost of each kit type; the number of kit types is chosen to minimise the total.
+        Default: the price list's ``kit_type`` price, if it has one.
     prices : PriceList or path, optional
         Default: the survey's ``prices`` setting.  Without prices the objective is oversize.
     objective : {"cost", "oversize"}, optional
@@ -176,11 +177,11 @@ def plan_community(survey: Survey, *, kits: int | None = None,
     inputs = prepare(survey, climate=climate)
     price_list = resolve_prices(survey, prices)
     objective = objective or ("cost" if price_list is not None else "oversize")
+    if kit_type_cost is None and objective == "cost" and price_list is not None \
+            and price_list.has("kit_type"):
+        kit_type_cost = price_list.optional("kit_type")
     if kits is None and kit_type_cost is None:
-        if objective == "cost" and price_list is not None and price_list.has("kit_type"):
-            kit_type_cost = price_list.optional("kit_type")
-        else:
-            kits = DEFAULT_KITS
+        kits = DEFAULT_KITS
     designed = design_rows(inputs, jobs=default_jobs() if jobs is None else jobs)
     return assemble(inputs, designed, price_list, objective, kits, kit_type_cost, k_max,
                     curve_to)

@@ -384,10 +384,10 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     candidates : list of Candidate
         Designed rows with their counts (count 0 rows are ignored).
     k : int, optional
-        Use at most this many kit types.  Give ``k`` or ``kit_type_cost``.
+        Use at most this many kit types (default ``k_max``).
     kit_type_cost : float, optional
-        Cost of each kit type [currency]; the number of kit types is then chosen (up to
-        ``k_max``) to minimise parts cost + kit_type_cost x kit types.
+        Cost of each kit type [currency]; the number of kit types (at most ``k``) is chosen
+        to minimise parts cost + kit_type_cost x kit types.  Give ``k``, this, or both.
     prices : PriceList, optional
         Needed for the cost objective and for own systems.
     objective : {"cost", "oversize"}
@@ -437,7 +437,7 @@ def standardise(candidates: list[Candidate], k: int | None = None,
         for total in range(cap + 1):
             for kf in range(min(kk, total) + 1):
                 v = comb[total - kf] + sol.best[kf]
-                if v < new[total] - 1e-9 * max(1.0, abs(v)):
+                if math.isfinite(v) and v < new[total] - 1e-9 * max(1.0, abs(v)):
                     new[total], pick[total] = v, kf
         comb = new
         choice.append(pick)
@@ -445,26 +445,18 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     fixed_own = sum((own_cost.get(p, 0.0) + one_off) * cands[p].count
                     for p in forced_own) if objective == "cost" else 0.0
     curve_vals = comb + fixed_own
-    if k is not None:
-        finite = np.isfinite(curve_vals[:limit + 1])
-        if not finite.any():
-            need = sum(1 for f in fams if not np.isfinite(f.fac).all())
-            raise PlanError(f"{k} kit type(s) cannot serve the survey: its rows fall in "
-                            f"{len(fams)} families (system voltage, controller, module, battery "
-                            f"unit), {need} of which need a kit; use --kits {max(need, 1)} or "
-                            "more, or price own systems (a 'one_off' price) so rows may take "
-                            "their own design")
-        allowed = curve_vals[:limit + 1]
-        target = float(np.min(allowed[finite]))
-        k_used = int(np.flatnonzero(allowed <= target + 1e-9 * max(1.0, abs(target)))[0])
-        value = float(curve_vals[k_used])
-    else:
-        totals = (curve_vals + lam * np.arange(cap + 1))[:limit + 1]
-        if not np.isfinite(totals).any():
-            raise PlanError(f"no choice of up to {limit} kit types serves the survey; raise "
-                            "--max-kits or price own systems (a 'one_off' price)")
-        k_used = int(np.argmin(totals))
-        value = float(totals[k_used])
+    totals = (curve_vals + lam * np.arange(cap + 1))[:limit + 1]
+    finite = np.isfinite(totals)
+    if not finite.any():
+        need = sum(1 for f in fams if not np.isfinite(f.fac).all())
+        raise PlanError(f"{limit} kit type(s) cannot serve the survey: its rows fall in "
+                        f"{len(fams)} families (system voltage, controller, module, battery "
+                        f"unit), {need} of which need a kit; allow {max(need, 1)} or more kit "
+                        "types, or price own systems (a 'one_off' price) so rows may take "
+                        "their own design")
+    target = float(np.min(totals[finite]))
+    k_used = int(np.flatnonzero(totals <= target + 1e-9 * max(1.0, abs(target)))[0])
+    value = float(totals[k_used])
     # back-track the per-family kit counts
     per_family = [0] * len(fams)
     rest = k_used

@@ -18,6 +18,7 @@ from offgrid.plan.prices import PriceList
 class PartLine:
     category: str
     description: str
+    label: str  # short form for 80-column tables
     quantity: int
     unit_price: float | None
     cost: float | None
@@ -82,6 +83,24 @@ def part_list(parts: KitParts, prices: PriceList | None = None
     return out
 
 
+def short_label(category: str, description: str, parts: KitParts | None = None) -> str:
+    """A part's name in at most about 40 characters."""
+    if parts is not None:
+        if category == "PV module":
+            return f"PV module {parts.module_pmax_w:g} W"
+        if category == "Battery unit":
+            return (f"Battery {parts.battery_unit_v:g} V {parts.battery_unit_ah:g} Ah "
+                    f"{parts.battery_chemistry}")
+        if category == "Charge controller":
+            return f"Controller {parts.controller_type.upper()} {parts.controller_current_a:g} A"
+        if category == "Inverter":
+            return f"Inverter {parts.inverter_w:g} W"
+        if category == "Installation":
+            return "Installation of one system"
+    return {"Design": "Own-system overhead", "Kit types": "Kit type set-up"}.get(category,
+                                                                                 category)
+
+
 def procurement_totals(standard: Standardisation, candidates: list[Candidate],
                        prices: PriceList | None, labels: dict[int, str] | None = None) -> Totals:
     """Totals by part over every kit and own system of a standardisation.
@@ -93,6 +112,7 @@ def procurement_totals(standard: Standardisation, candidates: list[Candidate],
     qty: dict[tuple[str, str], int] = {}
     unit: dict[tuple[str, str], float] = {}
     order: list[tuple[str, str]] = []
+    labels_of: dict[tuple[str, str], str] = {}
 
     def add(name: str, parts: KitParts, systems: int, unit_cost: float | None) -> None:
         plist = part_list(parts, prices)
@@ -103,6 +123,7 @@ def procurement_totals(standard: Standardisation, candidates: list[Candidate],
             if key not in qty:
                 qty[key] = 0
                 order.append(key)
+                labels_of[key] = short_label(cat, desc, parts)
             qty[key] += n * systems
 
     for kit in standard.kits:
@@ -128,10 +149,11 @@ def procurement_totals(standard: Standardisation, candidates: list[Candidate],
     lines = []
     for key in order:
         price = unit.get(key) if prices is not None else None
-        lines.append(PartLine(key[0], key[1], qty[key], price,
+        lines.append(PartLine(key[0], key[1], labels_of[key], qty[key], price,
                               None if price is None else price * qty[key]))
     for cat, desc, n, price in extra:
-        lines.append(PartLine(cat, desc, n, price, None if price is None else price * n))
+        lines.append(PartLine(cat, desc, short_label(cat, desc), n, price,
+                              None if price is None else price * n))
     total = None
     if prices is not None:
         total = float(sum(line.cost for line in lines if line.cost is not None))
