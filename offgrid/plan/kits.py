@@ -27,10 +27,12 @@ community) consecutive groups lose nothing and the result is the exact optimum o
 every possible assignment; when they do not, it is exact over consecutive groups of
 the dominant-requirement order and the tests measure the gap to a full search.
 
-The largest rows may instead get their **own system** (a facility design) at their own
-parts cost plus a one-off overhead per system (design and separate purchase): the
-recursion then ends with such a suffix, still exactly.  Families share the K kit types
-through a min-plus combination.
+Any row may instead get its **own system** (a facility design) at its own parts cost
+plus a one-off overhead per system (design and separate purchase), whenever that is
+cheaper than its group's kit; rows after the last kit all take their own.  The group
+cost then sums, row by row, the cheaper of the two (O(n^3) over the distinct part
+needs of a family, which are few since rows merge by whole parts).  Families share the
+K kit types through a min-plus combination.
 
 Objectives: ``cost`` = parts cost of all kits (price list); ``oversize`` = the sum over
 systems of the mean relative oversize of array power and battery energy against the
@@ -52,8 +54,8 @@ from offgrid.sizing import INVERTER_SURGE_MULTIPLE
 Objective = str  # "cost" or "oversize"
 METHOD = ("exact dynamic programme over consecutive groups of rows ordered by their "
           "dominant requirement (largest of array W, battery Wh and inverter W, each over "
-          "the family's median); kit = part-by-part maximum of its rows; the largest rows may "
-          "take their own system")
+          "the family's median); kit = part-by-part maximum of its rows; a row takes its own "
+          "system where that is cheaper than its group's kit")
 
 
 class PlanError(ValueError):
@@ -222,7 +224,7 @@ class Candidate:
 
     index: int  # caller's row index
     design: RowDesign
-    count: int
+    count: int = 1
     kit: str = "auto"  # auto, yes (must be a kit), no (own system)
 
 
@@ -282,6 +284,9 @@ class _Family:
     inv_a: np.ndarray  # sum of count / required array W (for the oversize objective)
     inv_b: np.ndarray  # sum of count / required battery Wh
     fac: np.ndarray  # own-system cost of each point (inf: not allowed)
+    free: np.ndarray  # systems that may take their own design instead of a kit
+    forced: np.ndarray  # systems that must get a kit (kit = yes)
+    unit_own: np.ndarray  # cost of one own system, one-off overhead included (inf: none)
     ctrl_a: np.ndarray  # controller rating by strings (index S)
     ctrl_n: np.ndarray
 
@@ -324,11 +329,15 @@ def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
                           for m in mem])
         inv_b = np.array([sum(cands[p].count / cands[p].design.required_wh for p in m)
                           for m in mem])
-        fac = np.full(len(keys), np.inf)
+        free = np.array([sum(cands[p].count for p in m if cands[p].kit == "auto")
+                         for m in mem], dtype=float)
+        forced = cnt - free
+        unit_own = np.full(len(keys), np.inf)
         if objective == "cost" and math.isfinite(one_off):
-            for i, m in enumerate(mem):
-                if all(cands[p].kit == "auto" for p in m):
-                    fac[i] = sum((own_cost[p] + one_off) * cands[p].count for p in m)
+            # rows of one point have the same parts, so the same own-system cost
+            unit_own = np.array([own_cost[m[0]] + one_off for m in mem])
+        with np.errstate(invalid="ignore"):
+            fac = np.where(forced > 0, np.inf, free * unit_own)
         top = int(S.max())
         ctrl_a = np.zeros(top + 1)
         ctrl_n = np.zeros(top + 1, dtype=np.int64)
@@ -336,7 +345,8 @@ def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
             d = cands[p].design
             ctrl_a[d.modules_parallel] = max(ctrl_a[d.modules_parallel], d.controller_current_a)
             ctrl_n[d.modules_parallel] = max(ctrl_n[d.modules_parallel], d.controller_count)
-        fams.append(_Family(key, t, mem, S, P, W, cnt, inv_a, inv_b, fac, ctrl_a, ctrl_n))
+        fams.append(_Family(key, t, mem, S, P, W, cnt, inv_a, inv_b, fac, free, forced,
+                            unit_own, ctrl_a, ctrl_n))
     return fams
 
 
@@ -353,6 +363,13 @@ def _group_cost_fn(f: _Family, prices: PriceList | None, objective: Objective):
             each = _cost_arrays(prices, t.controller_type, t.battery_chemistry, pmod, ns,
                                 t.battery_unit_v * t.battery_unit_ah, us, s, p, f.ctrl_a[s],
                                 f.ctrl_n[s], w)
+            if np.isfinite(f.unit_own[: i + 1]).any():
+                # each row of the group takes the kit or its own system, whichever is
+                # cheaper: cost[j] = sum over r >= j of forced_r c_j + free_r min(c_j, own_r)
+                c = each[::-1][:, None]
+                m = f.forced[None, : i + 1] * c + f.free[None, : i + 1] * np.minimum(
+                    c, f.unit_own[None, : i + 1])
+                return np.triu(m).sum(axis=1)
             value = each * np.cumsum(f.cnt[i::-1])
         else:
             a = s * ns * pmod
@@ -362,6 +379,17 @@ def _group_cost_fn(f: _Family, prices: PriceList | None, objective: Objective):
         return value[::-1]
 
     return group_cost
+
+
+def _kit_parts(t: RowDesign, f: _Family, rows: list[RowDesign]) -> KitParts:
+    """The kit for a group: the part-by-part maximum of its rows' needs."""
+    s = max(d.modules_parallel for d in rows)
+    p = max(d.units_parallel for d in rows)
+    w = max(d.inverter_w for d in rows)
+    return KitParts(t.family_label, t.system_voltage_v, t.controller_type, t.module_name,
+                    t.module_pmax_w, t.modules_series, s, t.battery_name, t.battery_chemistry,
+                    t.battery_unit_v, t.battery_unit_ah, t.units_series, p, float(f.ctrl_a[s]),
+                    int(f.ctrl_n[s]), w, w * INVERTER_SURGE_MULTIPLE)
 
 
 def _kit_name(n: int) -> str:
@@ -442,6 +470,7 @@ def standardise(candidates: list[Candidate], k: int | None = None,
         comb = new
         choice.append(pick)
     one_off = prices.optional("one_off") if prices else 0.0
+    own_allowed = objective == "cost" and prices is not None and prices.has("one_off")
     fixed_own = sum((own_cost.get(p, 0.0) + one_off) * cands[p].count
                     for p in forced_own) if objective == "cost" else 0.0
     curve_vals = comb + fixed_own
@@ -469,25 +498,32 @@ def standardise(candidates: list[Candidate], k: int | None = None,
         groups, cut = sol.groups(kf)
         t = f.template
         for (j, i) in groups:
-            s, p, w = int(f.S[j:i].max()), int(f.P[j:i].max()), float(f.W[j:i].max())
-            parts = KitParts(t.family_label, t.system_voltage_v, t.controller_type,
-                             t.module_name, t.module_pmax_w, t.modules_series, s,
-                             t.battery_name, t.battery_chemistry, t.battery_unit_v,
-                             t.battery_unit_ah,
-                             t.units_series, p, float(f.ctrl_a[s]), int(f.ctrl_n[s]), w,
-                             w * INVERTER_SURGE_MULTIPLE)
+            members = [q for m in f.members[j:i] for q in m]
+            parts = _kit_parts(t, f, [cands[q].design for q in members])
             unit = parts_cost(prices, parts) if prices is not None else None
-            members = tuple(q for m in f.members[j:i] for q in m)
+            opt_out = []
+            if own_allowed and unit is not None:
+                opt_out = [q for q in members if cands[q].kit == "auto"
+                           and own_cost[q] + one_off < unit - 1e-9]
+            kept = [q for q in members if q not in opt_out]
             name = _kit_name(len(kits))
-            kits.append(KitChoice(name, parts, unit, members, sum(cands[q].count
-                                                                  for q in members)))
-            for q in members:
-                assign[q] = _assignment(cands[q], name, parts, unit, "standard kit")
+            if kept:
+                if opt_out:  # the kit need only serve the rows that keep it
+                    parts = _kit_parts(t, f, [cands[q].design for q in kept])
+                    unit = parts_cost(prices, parts) if prices is not None else None
+                kits.append(KitChoice(name, parts, unit, tuple(kept),
+                                      sum(cands[q].count for q in kept)))
+                for q in kept:
+                    assign[q] = _assignment(cands[q], name, parts, unit, "standard kit")
+            for q in opt_out:
+                assign[q] = _assignment(cands[q], None, parts_of(cands[q].design),
+                                        own_cost.get(q), "cheaper as its own system than in a "
+                                        "standard kit, one-off overhead included")
         for m in f.members[cut:]:
             for q in m:
                 assign[q] = _assignment(cands[q], None, parts_of(cands[q].design),
                                         own_cost.get(q), "cheaper as its own system than in any "
-                                        "standard kit, design overhead included")
+                                        "standard kit, one-off overhead included")
     for q in forced_own:
         assign[q] = _assignment(cands[q], None, parts_of(cands[q].design), own_cost.get(q),
                                 "its own system, as the survey asks (kit = no)")
@@ -501,8 +537,17 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     if prices is not None:
         parts_total = float(sum(a.unit_cost * cands[q].count for q, a in enumerate(out)
                                 if a.unit_cost is not None))
-    curve = tuple((kk, float(v) + lam * kk) for kk, v in enumerate(curve_vals)
-                  if np.isfinite(v))
+    if objective == "cost":
+        actual = (parts_total or 0.0) + one_off * sum(
+            cands[q].count for q, a in enumerate(out) if a.own_system) + lam * len(kits)
+    else:
+        actual = sum(cands[q].count * (a.oversize_array_pct + a.oversize_battery_pct) / 200.0
+                     for q, a in enumerate(out) if not a.own_system and a.kit is not None)
+    # trimming kits to the rows that keep them can only lower the recursion's figure
+    assert actual <= value + 1e-6 * max(1.0, abs(value)), (actual, value)
+    value = float(actual)
+    curve = tuple((kk, value if kk == k_used else float(v) + lam * kk)
+                  for kk, v in enumerate(curve_vals) if np.isfinite(v))
     return Standardisation(objective, METHOD, k, lam, tuple(kits), tuple(out), value,
                            parts_total, curve, len(fams))
 
