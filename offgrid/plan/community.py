@@ -206,6 +206,7 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
         totals = procurement_totals(standard, cands, prices, labels)
     by_index = {a.index: a for a in standard.assignments} if standard else {}
     kit_parts = {k.name: k.parts for k in standard.kits} if standard else {}
+    own_tiers, served_tiers = _tiers(designed, by_index, kit_parts)
     results: list[RowResult] = []
     tier_counts = {name: 0 for name in TIER_NAMES}
     warn_rows: dict[str, list[str]] = {}
@@ -217,7 +218,7 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
                                      f"[{d.code}] {d.message}", None, d, None, None, None, None,
                                      None))
             continue
-        own_tier = int(mtf2015_tier(d.peak_capacity_w, d.appliance_energy_wh))
+        own_tier = int(own_tiers[i])
         a = by_index.get(i)
         if a is None or row.count == 0:
             results.append(RowResult(row.line, row.id, row.name, row.kind, row.count,
@@ -225,16 +226,7 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
                                      "count 0: designed but not planned", d, None, own_tier,
                                      None, None, None, None))
             continue
-        parts = kit_parts.get(a.kit) if a.kit else None
-        if parts is not None:
-            scale = min(parts.array_power_w / d.required_power_w,
-                        parts.nominal_wh / d.required_wh)
-            own_scale = min(d.array_power_w / d.required_power_w, d.nominal_wh / d.required_wh)
-            energy = d.appliance_energy_wh * max(1.0, scale / own_scale)
-            capacity = parts.inverter_w + (d.peak_capacity_w - d.inverter_w)
-            served = int(mtf2015_tier(capacity, energy))
-        else:
-            served = own_tier
+        served = int(served_tiers[i])
         tier_counts[TIER_NAMES[served]] += row.count
         for code in d.warnings:
             warn_rows.setdefault(code, []).append(row.id)
@@ -271,6 +263,29 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
         tier_counts=tier_counts, notices=tuple(notices), cautions=tuple(cautions),
         reasons=book.freeze(), rows_read=survey.rows_read,
         distinct_designs=designed.distinct)
+
+
+def _tiers(designed: DesignedRows, by_index: dict, kit_parts: dict
+           ) -> tuple[np.ndarray, np.ndarray]:
+    """Access tier of each row's own design and of the system it is served by."""
+    n = len(designed.rows)
+    cap = np.zeros((2, n))
+    energy = np.zeros((2, n))
+    for i, d in enumerate(designed.designs):
+        if not isinstance(d, RowDesign):
+            continue
+        cap[:, i] = d.peak_capacity_w
+        energy[:, i] = d.appliance_energy_wh
+        a = by_index.get(i)
+        parts = kit_parts.get(a.kit) if a is not None and a.kit else None
+        if parts is not None:
+            scale = min(parts.array_power_w / d.required_power_w,
+                        parts.nominal_wh / d.required_wh)
+            own_scale = min(d.array_power_w / d.required_power_w, d.nominal_wh / d.required_wh)
+            energy[1, i] = d.appliance_energy_wh * max(1.0, scale / own_scale)
+            cap[1, i] = parts.inverter_w + (d.peak_capacity_w - d.inverter_w)
+    tiers = mtf2015_tier(cap, energy)
+    return tiers[0], tiers[1]
 
 
 def _ids(ids, limit: int = 8) -> str:

@@ -443,9 +443,13 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     cands = list(candidates)
     own_cost: dict[int, float] = {}
     if prices is not None:
+        by_parts: dict[KitParts, float] = {}
         for p, c in enumerate(cands):
             if c.count > 0:
-                own_cost[p] = parts_cost(prices, parts_of(c.design))
+                own = parts_of(c.design)
+                if own not in by_parts:
+                    by_parts[own] = parts_cost(prices, own)
+                own_cost[p] = by_parts[own]
     forced_own = [p for p, c in enumerate(cands) if c.count > 0 and c.kit == "no"]
     pos = [p for p, c in enumerate(cands) if c.count > 0 and c.kit != "no"]
     fams = _families(cands, pos, prices, objective, own_cost)
@@ -505,7 +509,8 @@ def standardise(candidates: list[Candidate], k: int | None = None,
             if own_allowed and unit is not None:
                 opt_out = [q for q in members if cands[q].kit == "auto"
                            and own_cost[q] + one_off < unit - 1e-9]
-            kept = [q for q in members if q not in opt_out]
+            out_set = set(opt_out)
+            kept = [q for q in members if q not in out_set]
             name = _kit_name(len(kits))
             if kept:
                 if opt_out:  # the kit need only serve the rows that keep it

@@ -16,14 +16,14 @@ import multiprocessing
 import os
 import threading
 from concurrent.futures import ProcessPoolExecutor
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 from offgrid.climate.files import ClimateFileError, load_climate
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.project.loads_csv import LoadListError, load_loads_csv
-from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo
+from offgrid.project.model import ClimateChoice, DesignChoices, Load, Project, ProjectInfo
 from offgrid.project.store import ProjectFileError, load_project
 from offgrid.project.validate import validate_project
 from offgrid.result import DesignError, SystemDesign
@@ -254,23 +254,23 @@ def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
     base = inputs.base
     p = Project(info=ProjectInfo(name=f"{inputs.survey.name}: {row.name}",
                                  demo=inputs.survey.demo),
-                site=copy.deepcopy(base.site), climate=base.climate,
-                module=copy.deepcopy(base.module), battery=copy.deepcopy(base.battery),
-                controller=copy.deepcopy(base.controller),
-                inverter=copy.deepcopy(base.inverter), choices=copy.deepcopy(base.choices))
+                site=replace(base.site), climate=base.climate, module=replace(base.module),
+                battery=replace(base.battery), controller=replace(base.controller),
+                inverter=replace(base.inverter), choices=_copy_choices(base.choices))
     own_loads: list[Load] = []
     if row.project:
         rp = _row_base(inputs, row.project)
         if isinstance(rp, str):
             raise ValueError(f"project: {rp}")
-        for name in ("module", "battery", "controller", "inverter", "choices"):
-            setattr(p, name, copy.deepcopy(getattr(rp, name)))
+        for name in ("module", "battery", "controller", "inverter"):
+            setattr(p, name, replace(getattr(rp, name)))
+        p.choices = _copy_choices(rp.choices)
         own_loads = rp.loads
     if row.load_list:
         loads = _load_list(inputs, row.load_list)
         if isinstance(loads, str):
             raise ValueError(f"load_list: {loads}")
-        p.loads = [copy.copy(ld) for ld in loads]
+        p.loads = [replace(ld) for ld in loads]
     elif row.daily_energy_wh is not None and row.peak_power_w is not None:
         p.loads = [Load(name=SURVEYED_LOAD_NAME, quantity=1, power_w=row.peak_power_w,
                         hours_per_day=row.daily_energy_wh / row.peak_power_w,
@@ -282,13 +282,20 @@ def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
         if not own_loads:
             raise ValueError(f"project: '{row.project}' has no loads; add a load_list or "
                              "daily_energy_wh with peak_power_w")
-        p.loads = [copy.copy(ld) for ld in own_loads]
+        p.loads = [replace(ld) for ld in own_loads]
     for path, value in row.overrides:
         set_path(p, path, value)
-    problems = validate_project(p)
-    if problems:
-        raise ValueError("; ".join(str(q) for q in problems[:3]))
+    # The shared base, project files, load lists and surveyed figures were checked when
+    # read; only a row's own override values can still be out of range.
+    if row.overrides:
+        problems = validate_project(p)
+        if problems:
+            raise ValueError("; ".join(str(q) for q in problems[:3]))
     return p
+
+
+def _copy_choices(c: DesignChoices) -> DesignChoices:
+    return replace(c, derates=replace(c.derates))
 
 
 # --------------------------------------------------------------------- designing
@@ -302,9 +309,36 @@ def _design_one(project: Project, base_dir: Path | None) -> RowDesign | RowFailu
         return RowFailure(exc.code, str(exc))
 
 
-def _design_batch(batch: list[tuple[int, Project]], base_dir: Path | None
-                  ) -> list[tuple[int, RowDesign | RowFailure]]:
-    return [(i, _design_one(p, base_dir)) for i, p in batch]
+@dataclass(frozen=True)
+class RowRejected:
+    """A row that could not become a project (bad reference or override value)."""
+
+    field: str
+    message: str
+
+
+def _build_and_design(inputs: PlanInputs, row: SurveyRow
+                      ) -> RowDesign | RowFailure | RowRejected:
+    try:
+        project = row_project(inputs, row)
+    except ValueError as exc:
+        field, _, message = str(exc).partition(": ")
+        return RowRejected(field, message) if message else RowRejected("row", str(exc))
+    return _design_one(project, inputs.base_dir)
+
+
+_WORKER_INPUTS: PlanInputs | None = None
+
+
+def _init_worker(inputs: PlanInputs) -> None:
+    global _WORKER_INPUTS
+    _WORKER_INPUTS = inputs
+
+
+def _worker_batch(batch: list[tuple[int, SurveyRow]]
+                  ) -> list[tuple[int, RowDesign | RowFailure | RowRejected]]:
+    assert _WORKER_INPUTS is not None
+    return [(i, _build_and_design(_WORKER_INPUTS, row)) for i, row in batch]
 
 
 def _pool_context():
@@ -321,20 +355,25 @@ def default_jobs() -> int:
         return max(1, os.cpu_count() or 1)
 
 
-def design_projects(projects: list[Project], base_dir: Path | None, jobs: int = 1
-                    ) -> list[RowDesign | RowFailure]:
-    """Design each project; in ``jobs`` worker processes when there are many."""
-    if jobs <= 1 or len(projects) < PARALLEL_MIN_DESIGNS:
-        return [_design_one(p, base_dir) for p in projects]
-    indexed = list(enumerate(projects))
+def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
+                   ) -> list[RowDesign | RowFailure | RowRejected]:
+    """Build and design each row; in ``jobs`` worker processes when there are many."""
+    if jobs <= 1 or len(rows) < PARALLEL_MIN_DESIGNS:
+        return [_build_and_design(inputs, r) for r in rows]
+    # the workers need the shared base and references, not the whole survey
+    light = copy.copy(inputs.survey)
+    light.rows, light.problems = [], []
+    shared = replace(inputs, survey=light, load_lists={}, projects={})
+    indexed = list(enumerate(rows))
     size = max(50, len(indexed) // (jobs * 4))
     batches = [indexed[i:i + size] for i in range(0, len(indexed), size)]
-    out: list[RowDesign | RowFailure | None] = [None] * len(projects)
-    with ProcessPoolExecutor(max_workers=jobs, mp_context=_pool_context()) as pool:
-        for result in pool.map(_design_batch, batches, [base_dir] * len(batches)):
+    out: list = [None] * len(rows)
+    with ProcessPoolExecutor(max_workers=jobs, mp_context=_pool_context(),
+                             initializer=_init_worker, initargs=(shared,)) as pool:
+        for result in pool.map(_worker_batch, batches):
             for i, r in result:
                 out[i] = r
-    return out  # type: ignore[return-value]
+    return out
 
 
 @dataclass(frozen=True)
@@ -347,32 +386,25 @@ class DesignedRows:
 
 def design_rows(inputs: PlanInputs, jobs: int = 1) -> DesignedRows:
     """Build and design every row; identical rows are designed once."""
-    problems: list[SurveyProblem] = []
     keyed: dict[tuple, int] = {}
-    failed: dict[tuple, tuple[str, str]] = {}
-    projects: list[Project] = []
-    kept: list[SurveyRow] = []
+    unique: list[SurveyRow] = []
     index_of: list[int] = []
     for row in inputs.survey.rows:
         k = row.key()
         if k not in keyed:
-            try:
-                projects.append(row_project(inputs, row))
-            except ValueError as exc:
-                field, _, message = str(exc).partition(": ")
-                if not message:
-                    field, message = "row", str(exc)
-                problems.append(SurveyProblem(row.line, row.id, field, message))
-                keyed[k] = -1
-                failed[k] = (field, message)
-                continue
-            keyed[k] = len(projects) - 1
-        elif keyed[k] < 0:
-            problems.append(SurveyProblem(row.line, row.id, *failed[k]))
-            continue
-        kept.append(row)
+            keyed[k] = len(unique)
+            unique.append(row)
         index_of.append(keyed[k])
-    results = design_projects(projects, inputs.base_dir, jobs)
-    return DesignedRows(tuple(kept), tuple(results[i] for i in index_of), tuple(problems),
-                        len(projects))
-
+    results = _design_unique(inputs, unique, jobs)
+    problems: list[SurveyProblem] = []
+    kept: list[SurveyRow] = []
+    designs: list[RowDesign | RowFailure] = []
+    for row, i in zip(inputs.survey.rows, index_of, strict=True):
+        r = results[i]
+        if isinstance(r, RowRejected):
+            problems.append(SurveyProblem(row.line, row.id, r.field, r.message))
+        else:
+            kept.append(row)
+            designs.append(r)
+    distinct = sum(1 for r in results if not isinstance(r, RowRejected))
+    return DesignedRows(tuple(kept), tuple(designs), tuple(problems), distinct)
