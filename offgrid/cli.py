@@ -12,7 +12,7 @@ import importlib
 import sys
 
 #: Subcommand modules under offgrid.commands, in the order ``--help`` lists them.
-COMMANDS: tuple[str, ...] = ("size", "simulate", "plan")
+COMMANDS: tuple[str, ...] = ("size", "climate", "simulate", "plan")
 
 
 def build_parser() -> argparse.ArgumentParser:

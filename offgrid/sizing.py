@@ -57,6 +57,7 @@ INVERTER_SURGE_MULTIPLE = 2.0
 AUTO_VOLTAGE_MAX_CURRENT_A = 100.0
 NEC_CONTINUOUS = 1.25  # NEC 690.8(A)(1) and 690.8(B)(1), NFPA 70-2023
 MPPT_VOLTAGE_MARGIN = 1.15  # hot string Vmp / absorption voltage, MPPT (common practice)
+LOW_SUN_KWH_M2_DAY = 1.5  # below it the monthly transposition is unreliable (test_climate_poa)
 PWM_VOLTAGE_MARGIN = 1.05  # hot module Vmp / (absorption voltage + drop), PWM (common practice)
 
 
@@ -95,31 +96,63 @@ def _check_climate(c: MonthlyClimate) -> None:
                               "number", f"climate.{key}")
 
 
-def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook):
-    """Tilt, azimuth and monthly plane-of-array insolation."""
+def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
+                  demand_wh_day=None, notices: list[Notice] | None = None):
+    """Tilt, azimuth and monthly plane-of-array insolation.
+
+    With no tilt set, the tilt is searched to serve the worst month of supply
+    against ``demand_wh_day`` best (:func:`offgrid.climate.tilt.best_tilt`).
+    A horizon profile on the site removes beam while the sun is behind it.
+    """
+    from offgrid.climate.poa import poa_monthly
+    from offgrid.climate.tilt import (
+        TILT_FORMULA,
+        TILT_SOURCE,
+        best_tilt,
+        describe_tilt,
+        tilt_reason_inputs,
+    )
+
     site = project.site
     lat = site.latitude_deg
-    tilt = site.tilt_deg
-    if tilt is None:
-        tilt = max(abs(lat), project.choices.min_tilt_deg)
-        book.add("site.tilt_deg", "|latitude|, but not below the self-cleaning minimum tilt",
-                 "common practice, no source", latitude=fmt(lat, "deg"),
-                 minimum=fmt(project.choices.min_tilt_deg, "deg"))
-    else:
-        book.add("site.tilt_deg", "set by the user", "project file", tilt=fmt(tilt, "deg"))
     azimuth = site.azimuth_deg if site.azimuth_deg is not None else sky.equator_facing_azimuth(lat)
     book.add("site.azimuth_deg", "equator-facing unless set (clockwise from north)",
              "common practice, no source", azimuth=fmt(azimuth, "deg"))
-    res = sky.poa_monthly_liu_jordan(climate.insolation_kwh_m2_day, lat, tilt, azimuth,
-                                     site.albedo)
-    book.add("site.poa_kwh_m2_day",
-             "H (1 - Hd/H) Rb + Hd (1 + cos tilt)/2 + H albedo (1 - cos tilt)/2 on Klein's mean "
-             "day of each month; Hd/H from the Erbs monthly correlation",
-             "Liu & Jordan (1962) isotropic sky with Klein (1977) Rb; Erbs, Klein & Duffie "
-             "(1982); Duffie & Beckman 4th ed. sec. 2.19",
-             tilt=fmt(tilt, "deg"), azimuth=fmt(azimuth, "deg"), albedo=fmt(site.albedo),
-             latitude=fmt(lat, "deg"))
-    return float(tilt), float(azimuth), res
+    horizon = list(site.horizon_deg or [])
+    tilt = site.tilt_deg
+    if tilt is None:
+        choice = best_tilt(climate.insolation_kwh_m2_day, lat, azimuth, demand_wh_day,
+                           site.albedo, project.choices.min_tilt_deg, horizon=horizon,
+                           longitude_deg=site.longitude_deg, elevation_m=site.elevation_m)
+        tilt = choice.tilt_deg
+        book.add("site.tilt_deg", TILT_FORMULA, TILT_SOURCE, **tilt_reason_inputs(choice))
+        if notices is not None:
+            notices.append(Notice("tilt-searched", describe_tilt(choice), "info",
+                                  "site.tilt_deg"))
+    else:
+        book.add("site.tilt_deg", "set by the user", "project file", tilt=fmt(tilt, "deg"))
+    res = poa_monthly(climate.insolation_kwh_m2_day, lat, tilt, azimuth, site.albedo,
+                      horizon=horizon, longitude_deg=site.longitude_deg,
+                      elevation_m=site.elevation_m)
+    inputs = {"tilt": fmt(tilt, "deg"), "azimuth": fmt(azimuth, "deg"),
+              "albedo": fmt(site.albedo), "latitude": fmt(lat, "deg")}
+    formula = ("H (1 - Hd/H) Rb + Hd (1 + cos tilt)/2 + H albedo (1 - cos tilt)/2 on Klein's "
+               "mean day of each month; Hd/H from the Erbs monthly correlation")
+    source = ("Liu & Jordan (1962) isotropic sky with Klein (1977) Rb; Erbs, Klein & Duffie "
+              "(1982); Duffie & Beckman 4th ed. sec. 2.19")
+    if horizon:
+        lost = float((res.beam_lost_kwh_m2_day * sky.DAYS_IN_MONTH).sum())
+        total = float(((res.poa_kwh_m2_day + res.beam_lost_kwh_m2_day)
+                       * sky.DAYS_IN_MONTH).sum())
+        formula += ("; beam term x the share of the plane's beam with the sun above the "
+                    "horizon profile")
+        source += "; sun positions: Reda & Andreas (2004) SPA through pvlib"
+        inputs["horizon"] = ", ".join(f"{a:g}:{e:g}" for a, e in horizon)
+        inputs["horizon loss"] = fmt(100.0 * lost / total if total > 0 else 0.0, "% a year")
+    book.add("site.poa_kwh_m2_day", formula, source, **inputs)
+    return float(tilt), float(azimuth), {"poa": res.poa_kwh_m2_day, "kt": res.kt,
+                                         "diffuse_fraction": res.diffuse_fraction, "rb": res.rb,
+                                         "horizon_factor": res.horizon_factor}
 
 
 def cell_temperature_ross(ambient_c, irradiance_w_m2, noct_c):
@@ -154,15 +187,15 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         raise DesignError("no-loads", "the load list is empty (or every load uses 0 Wh): add the "
                           "appliances with their power and hours per day", "loads")
 
-    # 1. sun
-    tilt, azimuth, sun = site_geometry(project, climate, book)
-    poa = np.asarray(sun["poa"])
-    horiz = np.asarray(climate.insolation_kwh_m2_day, dtype=float)
-
-    # 2. loads
+    # 2. loads (first: the tilt search weighs the months by their demand)
     lr = analyse_loads(project.loads, project.inverter, choices.load_growth_pct,
                        choices.coincidence_factor, book)
     demand = np.asarray(lr.daily_energy_wh)
+
+    # 1. sun
+    tilt, azimuth, sun = site_geometry(project, climate, book, demand, notices)
+    poa = np.asarray(sun["poa"])
+    horiz = np.asarray(climate.insolation_kwh_m2_day, dtype=float)
 
     # 3. design month
     dark = (poa < 0.05) & (demand > 0)
@@ -177,6 +210,13 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
              "plane-of-array insolation", "worst-month method, common practice",
              ratio=fmt(float(ratio[dm]), "Wh per kWh/m2"), month=MONTHS[dm])
     lr = _with_design_energy(lr, float(demand[dm]))
+    if horiz[dm] < LOW_SUN_KWH_M2_DAY and tilt > 15.0:
+        notices.append(Notice(
+            "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
+            f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
+            f"a {tilt:.0f} deg plane can read 20-50 % high (compared with pvlib's hourly Perez "
+            "model on TMY years at 55-65 N). Allow a margin or check with an hourly simulation.",
+            "warning", "site.poa_kwh_m2_day"))
     book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
              "worst-month method", month=MONTHS[dm])
 

@@ -39,6 +39,9 @@ class Site:
     azimuth_deg: float | None = None  # None: equator-facing (180 north of equator, 0 south)
     albedo: float = 0.2
     battery_temp_c: float | None = None  # battery room temperature; None: site monthly mean
+    # Horizon profile: (azimuth_deg clockwise from north, obstruction elevation_deg) pairs,
+    # interpolated linearly around the circle; empty: open horizon.
+    horizon_deg: list[tuple[float, float]] = field(default_factory=list)
 
 
 @dataclass
@@ -55,6 +58,17 @@ class MonthlyClimate:
     longitude_deg: float | None = None
     elevation_m: float | None = None
     demo: bool = False
+    daily: DailyClimate | None = None  # the daily series of an imported weather year, if any
+
+
+@dataclass
+class DailyClimate:
+    """One value per day of a 365-day year, 1 January first (29 February left out)."""
+
+    insolation_kwh_m2_day: list[float]
+    temp_mean_c: list[float]
+    temp_max_c: list[float]
+    temp_min_c: list[float]
 
 
 @dataclass

@@ -115,6 +115,14 @@ def validate_project(project: Project) -> list[Problem]:
     if c.ref is None and c.inline is None:
         problems.append(Problem("climate", "no climate: give `ref` (a bundled climate name or "
                                 "file) or an inline [climate.monthly] table"))
+    if project.site.horizon_deg:
+        from offgrid.climate.horizon import validate_horizon
+
+        try:
+            validate_horizon(project.site.horizon_deg)
+        except ValueError as exc:
+            problems.append(Problem("site.horizon_deg",
+                                    str(exc).removeprefix("site.horizon_deg ")))
     for i, load in enumerate(project.loads):
         for fld, msg in check_load(load):
             problems.append(Problem(f"loads[{i + 1}].{fld}", f"{msg} (load '{load.name}')"))
