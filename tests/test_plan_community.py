@@ -14,7 +14,14 @@ from offgrid.cli import main
 from offgrid.paths import load_profiles_dir
 from offgrid.plan import rows as rows_mod
 from offgrid.plan.community import demo_survey_path, plan_community, plan_file
-from offgrid.plan.rows import RowDesign, design_rows, prepare, row_project, summarise
+from offgrid.plan.rows import (
+    RowDesign,
+    community_tilt,
+    design_rows,
+    prepare,
+    row_project,
+    summarise,
+)
 from offgrid.plan.survey import load_survey, read_survey
 from offgrid.plan.text import markdown_report, rows_csv, summary_text
 from offgrid.sizing import DEFERS_TO_CODE, design
@@ -39,10 +46,34 @@ def test_demo_community_plans_every_row(demo):
 def test_each_row_is_the_single_project_design(demo):
     """Same engine: a row's record equals summarise(design(row_project(row)))."""
     inputs = prepare(load_survey(demo_survey_path()))
+    tilt = community_tilt(inputs)
+    assert tilt == demo.tilt_deg and 10.0 <= tilt <= 30.0
     by_id = {r.id: r for r in demo.rows}
     for row in inputs.survey.rows:
         project = row_project(inputs, row)
         assert summarise(project, design(project, inputs.base_dir)) == by_id[row.id].design
+
+
+def test_one_tilt_for_the_community_unless_a_row_sets_its_own():
+    """Kits share a mounting: the tilt is the engine's search for the total demand."""
+    from offgrid.loads import appliance_energy_wh
+    from offgrid.result import ReasonBook
+    from offgrid.sizing import site_geometry
+
+    text = ("climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
+            "id,count,load_list,site.tilt_deg\nA,10,primary-school,\nB,3,household-basic,"
+            "\nC,1,household-basic,35\n")
+    inputs = prepare(read_survey(text, base_dir=load_profiles_dir()))
+    lists = inputs.load_lists
+    designed = design_rows(inputs, jobs=1)
+    total = sum(appliance_energy_wh(lists[name]).sum(axis=0) * n
+                for name, n in (("primary-school", 10), ("household-basic", 4)))
+    probe = prepare(read_survey(text, base_dir=load_profiles_dir())).base
+    expect, _, _ = site_geometry(probe, probe.climate.inline, ReasonBook(), demand_wh_day=total)
+    assert inputs.base.site.tilt_deg == expect
+    row_c = next(i for i, r in enumerate(designed.rows) if r.id == "C")
+    project_c = row_project(inputs, designed.rows[row_c])
+    assert project_c.site.tilt_deg == 35.0
 
 
 def test_parallel_designs_equal_serial(monkeypatch):
@@ -65,7 +96,7 @@ def test_json_is_plain_and_finite(demo):
     assert data["format"] == "offgrid-community-plan" and data["demo"] is True
     assert len(data["rows"]) == len(demo.rows)
     assert data["tiers"]["edition"].startswith("ESMAP")
-    assert "plan.kits" in data["reasons"]
+    assert "plan.kits" in data["reasons"] and "plan.tilt" in data["reasons"]
 
 
 def test_text_views_fit_80_columns(demo):

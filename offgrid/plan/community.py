@@ -80,6 +80,7 @@ class CommunityPlan:
     reasons: dict[str, Reason] = field(default_factory=dict)
     rows_read: int = 0
     distinct_designs: int = 0
+    tilt_deg: float | None = None  # the community's one tilt (None: rows searched their own)
 
     @property
     def unmet(self) -> tuple[RowResult, ...]:
@@ -94,7 +95,7 @@ class CommunityPlan:
         out = {
             "format": "offgrid-community-plan", "schema": 1,
             "name": self.name, "demo": self.demo, "source": self.source,
-            "climate": self.climate, "rows_read": self.rows_read,
+            "climate": self.climate, "tilt_deg": self.tilt_deg, "rows_read": self.rows_read,
             "distinct_designs": self.distinct_designs, "systems": self.systems,
             "currency": self.currency, "prices": self.prices_source,
             "bad_rows": [asdict(p) for p in self.bad_rows],
@@ -256,13 +257,22 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
     if DEFERS_TO_CODE not in cautions:
         cautions.append(DEFERS_TO_CODE)
     _reasons(book, standard, prices, objective)
+    tilt = inputs.base.site.tilt_deg
+    if inputs.tilt_searched and tilt is not None:
+        book.add("plan.tilt", "standard kits share one mounting: the engine's tilt search run "
+                 "once for the survey's total appliance demand by month (rows x counts); rows "
+                 "that set site.tilt_deg keep theirs", "offgrid.sizing.site_geometry",
+                 tilt=fmt(tilt, "deg"))
+    elif tilt is not None:
+        book.add("plan.tilt", "set in the survey or its shared project", "survey settings",
+                 tilt=fmt(tilt, "deg"))
     return CommunityPlan(
         name=survey.name, demo=survey.demo, source=survey.source, climate=inputs.climate_ref,
         rows=tuple(results), bad_rows=tuple(bad_all), standard=standard, totals=totals,
         prices_source=prices.source if prices else "", currency=prices.currency if prices else "",
         tier_counts=tier_counts, notices=tuple(notices), cautions=tuple(cautions),
         reasons=book.freeze(), rows_read=survey.rows_read,
-        distinct_designs=designed.distinct)
+        distinct_designs=designed.distinct, tilt_deg=tilt)
 
 
 def _tiers(designed: DesignedRows, by_index: dict, kit_parts: dict

@@ -19,6 +19,8 @@ from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, replace
 from pathlib import Path
 
+import numpy as np
+
 from offgrid.climate.files import ClimateFileError, load_climate
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
@@ -130,6 +132,7 @@ class PlanInputs:
     climate_ref: str
     load_lists: dict[str, list[Load] | str]  # ref -> loads, or the error text
     projects: dict[str, Project | str]
+    tilt_searched: bool = False  # True once community_tilt has set the shared tilt
 
 
 def _find(ref: str, base_dir: Path | None, folder: Path, suffix: str) -> Path | None:
@@ -384,8 +387,50 @@ class DesignedRows:
     distinct: int  # designs actually computed
 
 
+def community_tilt(inputs: PlanInputs) -> float | None:
+    """Search the community's one tilt and set it on the shared site.
+
+    Standard kits share one mounting frame, so the whole community is designed at one
+    tilt: the engine's own search (:func:`offgrid.sizing.site_geometry`) run once for the
+    survey's total appliance demand by month (each row's loads x its count).  Rows that
+    set ``site.tilt_deg`` keep theirs.  Returns the tilt, or None when the site already
+    has one or no row can be read.
+    """
+    from offgrid.loads import appliance_energy_wh
+    from offgrid.result import ReasonBook
+    from offgrid.sizing import site_geometry
+
+    base = inputs.base
+    if base.site.tilt_deg is not None or inputs.tilt_searched:
+        return None
+    total = np.zeros(12)
+    for row in inputs.survey.rows:
+        if row.count <= 0:
+            continue
+        if row.daily_energy_wh is not None:
+            total += row.daily_energy_wh * row.count
+            continue
+        loads = _load_list(inputs, row.load_list) if row.load_list else None
+        if loads is None and row.project:
+            rp = _row_base(inputs, row.project)
+            loads = rp.loads if isinstance(rp, Project) else None
+        if isinstance(loads, list) and loads:
+            total += appliance_energy_wh(loads).sum(axis=0) * row.count
+    if not total.any():
+        return None
+    assert base.climate.inline is not None
+    tilt, _, _ = site_geometry(base, base.climate.inline, ReasonBook(), demand_wh_day=total)
+    base.site.tilt_deg = float(tilt)
+    inputs.tilt_searched = True
+    return float(tilt)
+
+
 def design_rows(inputs: PlanInputs, jobs: int = 1) -> DesignedRows:
-    """Build and design every row; identical rows are designed once."""
+    """Build and design every row; identical rows are designed once.
+
+    The community's tilt is searched once first (:func:`community_tilt`).
+    """
+    community_tilt(inputs)
     keyed: dict[tuple, int] = {}
     unique: list[SurveyRow] = []
     index_of: list[int] = []

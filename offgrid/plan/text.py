@@ -76,7 +76,8 @@ def summary_text(plan: CommunityPlan, show_rows: bool | None = None) -> str:
     title = plan.name + ("  (demonstration data)" if plan.demo else "")
     out += [title, "=" * min(WIDTH, len(title))]
     out.append(f"Survey   {plan.source}")
-    out.append(f"Climate  {plan.climate or '-'}")
+    tilt = f", one tilt {plan.tilt_deg:.0f} deg for every kit" if plan.tilt_deg is not None else ""
+    out.append(f"Climate  {plan.climate or '-'}{tilt}")
     if plan.prices_source:
         out.append(f"Prices   {plan.prices_source} ({plan.currency})")
     planned = sum(1 for r in plan.rows if r.status in ("kit", "own system"))
@@ -189,6 +190,9 @@ def markdown_report(plan: CommunityPlan) -> str:
         md += ["*Demonstration data: the community, the people and the prices are invented.*",
                ""]
     md += [f"- Survey: `{plan.source}`", f"- Climate: `{plan.climate}`"]
+    if plan.tilt_deg is not None:
+        md.append(f"- Tilt: {plan.tilt_deg:.0f} deg for every system (one mounting for the "
+                  "kits)")
     if plan.prices_source:
         md.append(f"- Prices: `{plan.prices_source}` ({plan.currency})")
     md.append(f"- Rows: {plan.rows_read} read, {plan.systems} systems planned, "
