@@ -167,3 +167,15 @@ def test_planning_imports_no_ui():
             "bad = [m for m in ('textual', 'rich') if m in sys.modules]\n"
             "assert not bad, bad\n")
     subprocess.run([sys.executable, "-c", code], check=True)
+
+
+def test_tables_for_the_text_ui(demo):
+    from offgrid.plan.text import kit_table, row_table, totals_table
+
+    head, rows = kit_table(demo)
+    assert len(rows) == len(demo.standard.kits) and all(len(r) == len(head) for r in rows)
+    head, rows = row_table(demo)
+    assert len(rows) == len(demo.rows) + len(demo.bad_rows)
+    head, rows = totals_table(demo)
+    assert len(rows) == len(demo.totals.lines)
+    assert all(isinstance(c, str) for r in rows for c in r)

@@ -294,3 +294,46 @@ def rows_csv(plan: CommunityPlan) -> str:
         w.writerow([p.line, p.row_id, "", "", "", "left out", "", "", "", "", "", "", "", "", "",
                     "", "", f"{p.field}: {p.message}"])
     return out.getvalue()
+
+
+# ----------------------------------------------------------------- tables for the text UI
+
+Table = tuple[tuple[str, ...], list[tuple[str, ...]]]
+
+
+def kit_table(plan: CommunityPlan) -> Table:
+    """(headers, rows) of the standard kits, as plain strings."""
+    head = ("kit", "array", "battery", "controller", "inverter", "systems",
+            f"each {plan.currency}".strip())
+    rows = []
+    if plan.standard is not None:
+        for k in plan.standard.kits:
+            p = k.parts
+            rows.append((k.name, array_text(p), battery_text(p), controller_text(p),
+                         inverter_text(p), str(k.systems), _money(k.unit_cost)))
+    return head, rows
+
+
+def row_table(plan: CommunityPlan) -> Table:
+    """(headers, rows) of every survey row: status, kit, tier and oversize."""
+    head = ("line", "id", "kind", "count", "status", "kit", "tier", "array +", "battery +")
+    rows = []
+    for r in plan.rows:
+        rows.append((str(r.line), r.id, r.kind, str(r.count), r.status, r.kit or "-",
+                     "-" if r.tier_served is None else str(r.tier_served),
+                     _pct(r.oversize_array_pct), _pct(r.oversize_battery_pct)))
+    for p in plan.bad_rows:
+        rows.append((str(p.line), p.row_id or "-", "-", "-", "left out", "-", "-", "-", "-"))
+    return head, rows
+
+
+def totals_table(plan: CommunityPlan) -> Table:
+    """(headers, rows) of the procurement totals."""
+    cur = plan.currency
+    head = ("qty", "part", f"unit {cur}".strip(), f"cost {cur}".strip())
+    rows = []
+    if plan.totals is not None:
+        for line in plan.totals.lines:
+            rows.append((str(line.quantity), line.label, _money(line.unit_price),
+                         _money(line.cost)))
+    return head, rows
