@@ -14,8 +14,10 @@ of the problem (array and battery, with the inverter as a third).  Within a fami
 the rows are put in one order by their **dominant requirement**: each need is divided
 by the family's count-weighted median need of that kind (array W, battery Wh,
 inverter W) and a row's key is the largest of these ratios, ties broken by
-(S, P, W).  The kit choice is then solved **exactly** over all partitions of that
-order into consecutive groups, by dynamic programming (the classical optimal
+(S, P, W).  The same is solved for the orders array-first (S, P, W) and battery-first
+(P, S, W), and for each K the best of the three is kept.  The kit choice is then
+solved **exactly** over all partitions of each order into consecutive groups, by
+dynamic programming (the classical optimal
 one-dimensional grouping recursion, as in Bellman's segmentation or Jenks' natural
 breaks, with an arbitrary group cost)::
 
@@ -25,7 +27,7 @@ where ``G(j, i)`` is the cost of one kit for rows ``j .. i-1`` (computed for all
 at once with running maxima).  When every row's needs grow together (a proportional
 community) consecutive groups lose nothing and the result is the exact optimum over
 every possible assignment; when they do not, it is exact over consecutive groups of
-the dominant-requirement order and the tests measure the gap to a full search.
+those orders and the tests measure the gap to a full search.
 
 Any row may instead get its **own system** (a facility design) at its own parts cost
 plus a one-off overhead per system (design and separate purchase), whenever that is
@@ -54,8 +56,9 @@ from offgrid.sizing import INVERTER_SURGE_MULTIPLE
 Objective = str  # "cost" or "oversize"
 METHOD = ("exact dynamic programme over consecutive groups of rows ordered by their "
           "dominant requirement (largest of array W, battery Wh and inverter W, each over "
-          "the family's median); kit = part-by-part maximum of its rows; a row takes its own "
-          "system where that is cheaper than its group's kit")
+          "the family's median), and again ordered array-first and battery-first, keeping "
+          "the best; kit = part-by-part maximum of its rows; a row takes its own system where "
+          "that is cheaper than its group's kit")
 
 
 class PlanError(ValueError):
@@ -296,7 +299,9 @@ class _Family:
 
 
 def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
-              objective: Objective, own_cost: dict[int, float]) -> list[_Family]:
+              objective: Objective, own_cost: dict[int, float]) -> list[list[_Family]]:
+    """Each family as its points in the dominant-requirement order, then the same points
+    ordered array-first and battery-first (each order is solved; the best is kept)."""
     by_key: dict[tuple, list[int]] = {}
     for p in pos:
         by_key.setdefault(cands[p].design.family, []).append(p)
@@ -345,9 +350,22 @@ def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
             d = cands[p].design
             ctrl_a[d.modules_parallel] = max(ctrl_a[d.modules_parallel], d.controller_current_a)
             ctrl_n[d.modules_parallel] = max(ctrl_n[d.modules_parallel], d.controller_count)
-        fams.append(_Family(key, t, mem, S, P, W, cnt, inv_a, inv_b, fac, free, forced,
-                            unit_own, ctrl_a, ctrl_n))
+        base = _Family(key, t, mem, S, P, W, cnt, inv_a, inv_b, fac, free, forced, unit_own,
+                       ctrl_a, ctrl_n)
+        variants = [base]
+        seen = {tuple(range(len(keys)))}
+        for perm in (np.lexsort((W, P, S)), np.lexsort((W, S, P))):  # array-, battery-first
+            if tuple(perm) not in seen:
+                seen.add(tuple(perm))
+                variants.append(_reorder(base, perm))
+        fams.append(variants)
     return fams
+
+
+def _reorder(f: _Family, perm: np.ndarray) -> _Family:
+    return _Family(f.key, f.template, [f.members[i] for i in perm], f.S[perm], f.P[perm],
+                   f.W[perm], f.cnt[perm], f.inv_a[perm], f.inv_b[perm], f.fac[perm],
+                   f.free[perm], f.forced[perm], f.unit_own[perm], f.ctrl_a, f.ctrl_n)
 
 
 def _group_cost_fn(f: _Family, prices: PriceList | None, objective: Objective):
@@ -455,20 +473,24 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     fams = _families(cands, pos, prices, objective, own_cost)
     limit = k if k is not None else k_max
     cap = max(limit, curve_to, 0)
-    sols = []
-    for f in fams:
-        sols.append(interval_partition(f.n, min(cap, f.n), _group_cost_fn(f, prices, objective),
-                                       f.fac))
+    sols = []  # per family: (best over the orders, order index per k, solutions)
+    for variants in fams:
+        n = variants[0].n
+        per_order = [interval_partition(n, min(cap, n), _group_cost_fn(f, prices, objective),
+                                        f.fac) for f in variants]
+        stack = np.vstack([sol.best for sol in per_order])
+        pick = np.argmin(stack, axis=0)  # first order wins ties
+        sols.append((stack[pick, np.arange(stack.shape[1])], pick, per_order))
     # min-plus combination of the families over the number of kit types
     comb = np.zeros(cap + 1)
     choice: list[np.ndarray] = []
-    for sol in sols:
-        kk = len(sol.best) - 1
+    for best_f, _, _ in sols:
+        kk = len(best_f) - 1
         new = np.full(cap + 1, np.inf)
         pick = np.zeros(cap + 1, dtype=np.int64)
         for total in range(cap + 1):
             for kf in range(min(kk, total) + 1):
-                v = comb[total - kf] + sol.best[kf]
+                v = comb[total - kf] + best_f[kf]
                 if math.isfinite(v) and v < new[total] - 1e-9 * max(1.0, abs(v)):
                     new[total], pick[total] = v, kf
         comb = new
@@ -481,7 +503,7 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     totals = (curve_vals + lam * np.arange(cap + 1))[:limit + 1]
     finite = np.isfinite(totals)
     if not finite.any():
-        need = sum(1 for f in fams if not np.isfinite(f.fac).all())
+        need = sum(1 for v in fams if not np.isfinite(v[0].fac).all())
         raise PlanError(f"{limit} kit type(s) cannot serve the survey: its rows fall in "
                         f"{len(fams)} families (system voltage, controller, module, battery "
                         f"unit), {need} of which need a kit; allow {max(need, 1)} or more kit "
@@ -498,8 +520,9 @@ def standardise(candidates: list[Candidate], k: int | None = None,
         rest -= per_family[fi]
     kits: list[KitChoice] = []
     assign: dict[int, Assignment] = {}
-    for f, sol, kf in zip(fams, sols, per_family, strict=True):
-        groups, cut = sol.groups(kf)
+    for variants, (_, pick, per_order), kf in zip(fams, sols, per_family, strict=True):
+        f = variants[int(pick[kf])]
+        groups, cut = per_order[int(pick[kf])].groups(kf)
         t = f.template
         for (j, i) in groups:
             members = [q for m in f.members[j:i] for q in m]
