@@ -225,14 +225,14 @@ def _daily_text(daily: DailyClimate) -> str:
 
 def dumps_climate(climate: MonthlyClimate, name: str = "") -> str:
     """Climate file text: a header comment, the monthly table, the daily series if any."""
-    import tomli_w
+    from offgrid.project.toml_out import dumps
 
     head = ("# DEMONSTRATION DATA: invented values for examples and tests only.\n"
             if climate.demo else "")
     head += "# offgrid climate file; the format is described in docs/climate-format.md\n"
     body = climate_to_dict(climate, name, include_daily=False)
     monthly = body.pop("monthly")
-    text = tomli_w.dumps(body) + "\n[monthly]\n"
+    text = dumps(body) + "\n[monthly]\n"
     for key, values in monthly.items():
         text += f"{key} = [{', '.join(f'{v:g}' for v in values)}]\n"
     if climate.daily is not None:

@@ -104,7 +104,7 @@ class ModuleSpec:
     voc_v: float = 39.8
     isc_a: float = 9.75
     alpha_isc_pct_per_c: float = 0.05
-    beta_voc_pct_per_c: float = -0.30
+    beta_voc_pct_per_c: float | None = -0.30  # None: not on the datasheet, NEC Table 690.7(A)
     gamma_pmax_pct_per_c: float = -0.40
     cells_in_series: int = 60
     area_m2: float = 1.63
@@ -160,6 +160,32 @@ class DesignChoices:
     drop_limit_load_pct: float = 3.0
 
 
+WireUnits = Literal["awg", "mm2"]
+ConductorMaterial = Literal["copper", "aluminium"]
+
+
+@dataclass
+class WiringChoices:
+    """DC cable runs as the installer will lay them, and the settings to size them.
+
+    Lengths are one-way (from one end of the run to the other), in metres.
+    """
+
+    units: WireUnits = "mm2"  # "awg": NEC sizes (AWG/kcmil); "mm2": IEC 60228 sizes
+    material: ConductorMaterial = "copper"
+    conductor_temp_c: float = 75.0  # conductor temperature for resistance (NEC Table 8 is at 75 C)
+    ambient_temp_c: float | None = None  # for ampacity; None: the site's hottest monthly mean
+    insulation_temp_c: int = 90  # insulation rating, 60, 75 or 90 C
+    string_run_m: float = 5.0  # modules to combiner (each string)
+    array_run_m: float = 15.0  # array or combiner to charge controller
+    controller_battery_m: float = 2.0
+    battery_inverter_m: float = 1.5
+    dc_load_run_m: float = 10.0  # each DC load circuit unless listed below
+    dc_load_runs_m: dict[str, float] = field(default_factory=dict)  # load name -> length
+    battery_short_circuit_a: float | None = None  # one battery unit, datasheet; None: estimate
+    module_max_fuse_a: float | None = None  # module's maximum series fuse, datasheet
+
+
 @dataclass
 class Project:
     info: ProjectInfo = field(default_factory=ProjectInfo)
@@ -171,6 +197,7 @@ class Project:
     controller: ControllerSpec = field(default_factory=ControllerSpec)
     inverter: InverterSpec = field(default_factory=InverterSpec)
     choices: DesignChoices = field(default_factory=DesignChoices)
+    wiring: WiringChoices = field(default_factory=WiringChoices)
     # Sections that later features own (wiring runs, prices, variants) are kept
     # verbatim so that nothing a user saved is ever dropped.
     extra: dict = field(default_factory=dict)
