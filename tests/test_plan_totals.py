@@ -5,6 +5,8 @@ Uses the bundled demonstration community (invented village, invented prices).
 
 from __future__ import annotations
 
+import math
+
 import pytest
 
 from offgrid.plan.community import demo_survey_path, plan_file
@@ -25,7 +27,12 @@ def test_line_quantities_are_sums_over_kits_and_own_systems(plan):
             expect[(cat, desc)] = expect.get((cat, desc), 0) + n * src.systems
     got = {(line.category, line.description): line.quantity for line in t.lines
            if line.category not in ("Design", "Kit types")}
-    assert got == expect
+    assert got.keys() == expect.keys()
+    for key, q in got.items():
+        if key[0] == "Cable":  # whole metres to buy
+            assert q == math.ceil(expect[key] - 1e-9)
+        else:
+            assert q == expect[key]
     modules = sum(line.quantity for line in t.lines if line.category == "PV module")
     by_rows = 0
     kits = {k.name: k.parts for k in plan.standard.kits}
@@ -39,17 +46,21 @@ def test_line_quantities_are_sums_over_kits_and_own_systems(plan):
 
 def test_costs_add_up(plan):
     t = plan.totals
+    assert not t.unpriced
     for line in t.lines:
         assert line.cost == pytest.approx(line.quantity * line.unit_price)
     assert t.total_cost == pytest.approx(sum(line.cost for line in t.lines))
-    # the same figure from the other side: every system's cost, overheads and kit types
+    # the same figure from the other side: every system's main parts, overheads, kit types
+    # (the objective the kits minimise), plus cables and protection
     s = plan.standard
     systems = sum(r.unit_cost * r.count for r in plan.rows if r.unit_cost is not None)
     own = sum(r.count for r in plan.rows if r.status == "own system")
     one_off = 400.0  # kisanga-ridge-prices.csv
-    assert t.total_cost == pytest.approx(systems + one_off * own
-                                         + s.kit_type_cost * len(s.kits))
-    assert t.total_cost == pytest.approx(s.objective_value)
+    circuits = sum(line.cost for line in t.lines if line.category in ("Cable", "Protection"))
+    assert circuits > 0
+    assert s.objective_value == pytest.approx(systems + one_off * own
+                                              + s.kit_type_cost * len(s.kits))
+    assert t.total_cost == pytest.approx(s.objective_value + circuits)
     assert t.systems == plan.systems == sum(r.count for r in plan.rows
                                             if r.status in ("kit", "own system"))
 
@@ -58,8 +69,34 @@ def test_kit_unit_cost_is_the_sum_of_its_parts(plan):
     t = plan.totals
     unit = {(line.category, line.description): line.unit_price for line in t.lines}
     for src in t.sources:
-        total = sum(unit[(cat, desc)] * n for cat, desc, n in src.per_system)
+        if src.unit_cost is None:  # the homes' own load circuits
+            continue
+        total = sum(unit[(cat, desc)] * n for cat, desc, n in src.per_system
+                    if cat not in ("Cable", "Protection"))
         assert total == pytest.approx(src.unit_cost)
+
+
+def test_cables_and_protection_come_from_the_electrical_design(plan):
+    """Cable metres = 2 conductors x one-way length x runs of each design's wires."""
+    from offgrid.plan.rows import prepare, row_project
+    from offgrid.plan.survey import load_survey
+    from offgrid.sizing import design
+
+    inputs = prepare(load_survey(demo_survey_path()))
+    inputs.base.site.tilt_deg = plan.tilt_deg
+    clinic_row = next(r for r in inputs.survey.rows if r.id == "CLINIC")
+    d = design(row_project(inputs, clinic_row), inputs.base_dir)
+    src = next(s for s in plan.totals.sources if s.name == "CLINIC")
+    cable = {desc: n for cat, desc, n in src.per_system if cat == "Cable"}
+    expect: dict[str, float] = {}
+    for w in d.electrical.wires:
+        if not w.key.startswith("load"):
+            k = f"{w.material} {w.size}"
+            expect[k] = expect.get(k, 0.0) + 2 * w.length_m * w.count
+    assert cable == pytest.approx(expect)
+    fuses = sum(n for cat, _, n in src.per_system if cat == "Protection")
+    assert fuses == sum(v.count for v in d.electrical.protection.devices
+                        if not v.location.startswith("DC load"))
 
 
 def test_price_list_errors_name_the_line():

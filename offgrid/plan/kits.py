@@ -50,7 +50,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.plan.prices import PriceList
-from offgrid.plan.rows import RowDesign
+from offgrid.plan.rows import Cable, Protection, RowDesign
 from offgrid.sizing import INVERTER_SURGE_MULTIPLE
 
 Objective = str  # "cost" or "oversize"
@@ -170,6 +170,10 @@ class KitParts:
     controller_count: int
     inverter_w: float
     inverter_surge_w: float
+    # the kit's own circuits (no DC load circuits, which belong to each home)
+    cables: tuple[Cable, ...] = ()
+    devices: tuple[Protection, ...] = ()
+    circuits_from_one_row: bool = True  # False: largest of each circuit over its rows
 
     @property
     def module_count(self) -> int:
@@ -195,7 +199,8 @@ def parts_of(d: RowDesign) -> KitParts:
                     d.battery_chemistry, d.battery_unit_v, d.battery_unit_ah, d.units_series,
                     d.units_parallel,
                     d.controller_current_a, d.controller_count, d.inverter_w,
-                    d.inverter_surge_w)
+                    d.inverter_surge_w, tuple(c for c in d.cables if not c.house),
+                    tuple(v for v in d.devices if not v.house))
 
 
 def parts_cost(prices: PriceList, parts: KitParts) -> float:
@@ -400,14 +405,39 @@ def _group_cost_fn(f: _Family, prices: PriceList | None, objective: Objective):
 
 
 def _kit_parts(t: RowDesign, f: _Family, rows: list[RowDesign]) -> KitParts:
-    """The kit for a group: the part-by-part maximum of its rows' needs."""
+    """The kit for a group: the part-by-part maximum of its rows' needs.
+
+    Its cables and protective devices are those of the row that needs the whole kit
+    (most strings, battery strings and inverter at once) when there is one; otherwise the
+    largest of each circuit over the rows, marked for a check on the kit's own design.
+    """
     s = max(d.modules_parallel for d in rows)
     p = max(d.units_parallel for d in rows)
     w = max(d.inverter_w for d in rows)
+    top = next((d for d in rows if (d.modules_parallel, d.units_parallel, d.inverter_w)
+                == (s, p, w)), None)
+    if top is not None:
+        cables = tuple(c for c in top.cables if not c.house)
+        devices = tuple(v for v in top.devices if not v.house)
+    else:
+        best_c: dict[str, Cable] = {}
+        best_v: dict[str, Protection] = {}
+        for d in rows:
+            for c in d.cables:
+                if not c.house and (c.key not in best_c or (c.area_mm2, c.metres) >
+                                    (best_c[c.key].area_mm2, best_c[c.key].metres)):
+                    best_c[c.key] = c
+            for v in d.devices:
+                old = best_v.get(v.location)
+                if not v.house and (old is None or (v.count, v.rating_a or 0.0) >
+                                    (old.count, old.rating_a or 0.0)):
+                    best_v[v.location] = v
+        cables, devices = tuple(best_c.values()), tuple(best_v.values())
     return KitParts(t.family_label, t.system_voltage_v, t.controller_type, t.module_name,
                     t.module_pmax_w, t.modules_series, s, t.battery_name, t.battery_chemistry,
                     t.battery_unit_v, t.battery_unit_ah, t.units_series, p, float(f.ctrl_a[s]),
-                    int(f.ctrl_n[s]), w, w * INVERTER_SURGE_MULTIPLE)
+                    int(f.ctrl_n[s]), w, w * INVERTER_SURGE_MULTIPLE, cables, devices,
+                    top is not None)
 
 
 def _kit_name(n: int) -> str:

@@ -14,7 +14,10 @@ Columns ``item, basis, unit_price, currency`` and an optional ``note``::
 
 Prices are per unit of capacity (W, kWh, A) so one list prices kits of any size.
 ``battery_<chemistry>`` (flooded, agm, gel, lifepo4) prices one chemistry apart from
-the general ``battery`` row.
+the general ``battery`` row.  Optional: ``cable_copper`` / ``cable_aluminium`` per metre
+per mm2 of conductor (``per_mm2_m``) or per metre of any size (``per_m``), and ``fuse``,
+``breaker`` (for a "fuse or breaker" location; ``fuse`` when absent) and ``disconnect``
+each.
 Every row names one currency.  Unknown items and bases are errors with the line.
 """
 
@@ -41,8 +44,14 @@ ITEMS: dict[str, tuple[str, ...]] = {
     "system_fixed": ("each",),
     "one_off": ("each",),
     "kit_type": ("each",),
+    "cable_copper": ("per_mm2_m", "per_m"),
+    "cable_aluminium": ("per_mm2_m", "per_m"),
+    "fuse": ("each",),
+    "breaker": ("each",),
+    "disconnect": ("each",),
 }
-OPTIONAL_ITEMS = ("system_fixed", "one_off", "kit_type")
+OPTIONAL_ITEMS = ("system_fixed", "one_off", "kit_type", "cable_copper", "cable_aluminium",
+                  "fuse", "breaker", "disconnect")
 
 
 class PriceListError(ValueError):
@@ -71,7 +80,7 @@ class PriceList:
                                  f"row '{item},{ITEMS[item][0]},PRICE,{self.currency}'")
         basis, unit = self.entries[item]
         cap = np.asarray(capacity, dtype=float)
-        each = np.full_like(cap, unit) if basis == "each" else cap * unit
+        each = np.full_like(cap, unit) if basis in ("each", "per_m") else cap * unit
         return each * np.asarray(count, dtype=float)
 
     def battery_item(self, chemistry: str) -> str:
@@ -85,7 +94,8 @@ class PriceList:
 
     def basis_text(self, item: str) -> str:
         basis, unit = self.entries[item]
-        per = {"per_w": "per W", "per_kwh": "per kWh", "per_a": "per A", "each": "each"}[basis]
+        per = {"per_w": "per W", "per_kwh": "per kWh", "per_a": "per A", "each": "each",
+               "per_m": "per m", "per_mm2_m": "per mm2 per m"}[basis]
         return f"{unit:g} {self.currency} {per}"
 
 

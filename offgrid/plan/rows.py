@@ -12,6 +12,7 @@ for the single-project views.
 from __future__ import annotations
 
 import copy
+import dataclasses
 import multiprocessing
 import os
 import threading
@@ -23,9 +24,9 @@ import numpy as np
 
 from offgrid.climate.files import ClimateFileError, load_climate
 from offgrid.paths import load_profiles_dir
-from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
+from offgrid.plan.survey import PART_SECTIONS, Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.project.loads_csv import LoadListError, load_loads_csv
-from offgrid.project.model import ClimateChoice, DesignChoices, Load, Project, ProjectInfo
+from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo
 from offgrid.project.store import ProjectFileError, load_project
 from offgrid.project.validate import validate_project
 from offgrid.result import DesignError, SystemDesign
@@ -34,6 +35,30 @@ from offgrid.result import DesignError, SystemDesign
 #: start-up about 0.1 s per worker with fork; one design about 1 ms).
 PARALLEL_MIN_DESIGNS = 400
 SURVEYED_LOAD_NAME = "surveyed demand"
+
+
+@dataclass(frozen=True)
+class Cable:
+    """One cable run of a design: metres of two-conductor cable of one size."""
+
+    key: str  # the run's key in the electrical design (string, array, charge, ...)
+    run: str
+    material: str
+    size: str
+    area_mm2: float
+    metres: float  # 2 conductors x one-way length x runs
+    house: bool  # a DC load circuit of this row (not part of a kit)
+
+
+@dataclass(frozen=True)
+class Protection:
+    """Overcurrent devices or disconnects at one location of a design."""
+
+    location: str
+    kind: str  # "fuse", "fuse or breaker", "disconnect"
+    rating_a: float | None
+    count: int
+    house: bool
 
 
 @dataclass(frozen=True)
@@ -70,6 +95,10 @@ class RowDesign:
     design_month: int
     warnings: tuple[str, ...]
     cautions: tuple[str, ...] = ()
+    # electrical design (empty when the engine gives none): system circuits and the row's
+    # own DC load circuits ("house" wiring)
+    cables: tuple[Cable, ...] = ()
+    devices: tuple[Protection, ...] = ()
 
     @property
     def string_wh(self) -> float:
@@ -117,7 +146,26 @@ def summarise(project: Project, d: SystemDesign) -> RowDesign:
         inverter_w=inv_w, inverter_surge_w=d.inverter.surge_w if d.inverter.needed else 0.0,
         design_energy_wh=lr.design_daily_energy_wh, appliance_energy_wh=float(appliance),
         peak_capacity_w=float(inv_w + lr.connected_dc_w), design_month=d.site.design_month,
-        warnings=tuple(n.code for n in d.warnings), cautions=d.cautions)
+        warnings=tuple(n.code for n in d.warnings), cautions=d.cautions,
+        cables=_cables(d), devices=_devices(d))
+
+
+def _cables(d: SystemDesign) -> tuple[Cable, ...]:
+    er = getattr(d, "electrical", None)
+    if er is None:
+        return ()
+    return tuple(Cable(w.key, w.run, w.material, w.size, float(w.area_mm2),
+                       2.0 * float(w.length_m) * int(w.count), w.key.startswith("load"))
+                 for w in er.wires)
+
+
+def _devices(d: SystemDesign) -> tuple[Protection, ...]:
+    er = getattr(d, "electrical", None)
+    if er is None:
+        return ()
+    return tuple(Protection(v.location, v.kind, None if v.rating_a is None else
+                            float(v.rating_a), int(v.count), v.location.startswith("DC load"))
+                 for v in er.protection.devices)
 
 
 # --------------------------------------------------------------------- the shared base
@@ -257,17 +305,16 @@ def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
     base = inputs.base
     p = Project(info=ProjectInfo(name=f"{inputs.survey.name}: {row.name}",
                                  demo=inputs.survey.demo),
-                site=replace(base.site), climate=base.climate, module=replace(base.module),
-                battery=replace(base.battery), controller=replace(base.controller),
-                inverter=replace(base.inverter), choices=_copy_choices(base.choices))
+                site=_copy(base.site), climate=base.climate)
+    for name in PART_SECTIONS:
+        setattr(p, name, _copy(getattr(base, name)))
     own_loads: list[Load] = []
     if row.project:
         rp = _row_base(inputs, row.project)
         if isinstance(rp, str):
             raise ValueError(f"project: {rp}")
-        for name in ("module", "battery", "controller", "inverter"):
-            setattr(p, name, replace(getattr(rp, name)))
-        p.choices = _copy_choices(rp.choices)
+        for name in PART_SECTIONS:
+            setattr(p, name, _copy(getattr(rp, name)))
         own_loads = rp.loads
     if row.load_list:
         loads = _load_list(inputs, row.load_list)
@@ -297,8 +344,19 @@ def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
     return p
 
 
-def _copy_choices(c: DesignChoices) -> DesignChoices:
-    return replace(c, derates=replace(c.derates))
+def _copy(obj):
+    """Copy of a project table: dataclasses, lists and dicts copied, values shared (much
+    quicker than copy.deepcopy for thousands of rows)."""
+    if dataclasses.is_dataclass(obj) and not isinstance(obj, type):
+        return replace(obj, **{f.name: _copy(getattr(obj, f.name))
+                               for f in dataclasses.fields(obj)
+                               if isinstance(getattr(obj, f.name), list | dict)
+                               or dataclasses.is_dataclass(getattr(obj, f.name))})
+    if isinstance(obj, list):
+        return [_copy(v) for v in obj]
+    if isinstance(obj, dict):
+        return {k: _copy(v) for k, v in obj.items()}
+    return obj
 
 
 # --------------------------------------------------------------------- designing

@@ -26,15 +26,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Literal, get_args, get_origin, get_type_hints
 
-from offgrid.project.model import (
-    BatterySpec,
-    ControllerSpec,
-    Derates,
-    DesignChoices,
-    InverterSpec,
-    ModuleSpec,
-    Site,
-)
+from offgrid.project.model import Project
 
 #: Row columns with a fixed meaning; any other column must be a project field path.
 ROW_COLUMNS = ("id", "name", "kind", "count", "load_list", "project", "daily_energy_wh",
@@ -43,11 +35,30 @@ REQUIRED_COLUMNS = ("id", "count")
 #: Settings keys with a fixed meaning; others must be project field paths.
 SETTING_KEYS = ("community", "demo", "climate", "project", "prices")
 KIT_CHOICES = ("auto", "yes", "no")
+
+
+def _sections() -> dict[str, type]:
+    """Every table of a project a setting or a row column may set, as ``section.field``:
+    the dataclass fields of :class:`Project` (and their nested tables), except the
+    document's own info, climate and loads."""
+    out: dict[str, type] = {}
+
+    def walk(prefix: str, cls: type) -> None:
+        out[prefix] = cls
+        for name, tp in get_type_hints(cls).items():
+            if dataclasses.is_dataclass(tp):
+                walk(f"{prefix}.{name}", tp)
+
+    for name, tp in get_type_hints(Project).items():
+        if dataclasses.is_dataclass(tp) and name not in ("info", "climate"):
+            walk(name, tp)
+    return out
+
+
 #: Sections of a project a setting or a row column may set, as ``section.field``.
-SECTIONS: dict[str, type] = {
-    "site": Site, "module": ModuleSpec, "battery": BatterySpec, "controller": ControllerSpec,
-    "inverter": InverterSpec, "choices": DesignChoices, "choices.derates": Derates,
-}
+SECTIONS: dict[str, type] = _sections()
+#: Sections taken whole from a row's own project file (everything but where and what).
+PART_SECTIONS: tuple[str, ...] = tuple(k for k in SECTIONS if "." not in k and k != "site")
 #: Fields a survey may not set per row (they belong to the shared site).
 SHARED_ONLY = ("site.latitude_deg", "site.longitude_deg", "site.elevation_m")
 _YES = {"yes", "y", "true", "1"}
@@ -137,9 +148,9 @@ def field_type(path: str) -> Any:
                          f"or a project field such as choices.autonomy_days (sections: "
                          f"{', '.join(SECTIONS)})")
     hints = get_type_hints(cls)
-    if name not in hints or name == "derates":
+    if name not in hints or dataclasses.is_dataclass(hints[name]):
         known = ", ".join(f"{section}.{f.name}" for f in dataclasses.fields(cls)
-                          if f.name != "derates")
+                          if not dataclasses.is_dataclass(hints[f.name]))
         raise ValueError(f"'{path}' is not a field of [{section}]; known: {known}")
     return hints[name]
 

@@ -19,6 +19,16 @@ def _money(value: float | None) -> str:
     return "-" if value is None else f"{value:,.0f}"
 
 
+def _unit_price(value: float | None) -> str:
+    if value is None:
+        return "-"
+    return f"{value:,.2f}" if value < 10 else f"{value:,.0f}"
+
+
+def _qty(line) -> str:
+    return f"{line.quantity:.0f} m" if line.unit == "m" else f"{line.quantity:.0f}"
+
+
 def _pct(value: float | None) -> str:
     return "-" if value is None else f"{value:+.0f}%"
 
@@ -148,15 +158,18 @@ def summary_text(plan: CommunityPlan, show_rows: bool | None = None) -> str:
         out.append("")
         out.append(f"Procurement totals ({t.systems} systems)")
         cur = f" {t.currency}" if t.currency else ""
-        out.append(f"  {'qty':>6}  {'part':<40} {'unit' + cur:>12} {'cost' + cur:>14}")
+        out.append(f"  {'qty':>7}  {'part':<39} {'unit' + cur:>12} {'cost' + cur:>14}")
         for line in t.lines:
-            out.append(f"  {line.quantity:>6}  {line.label[:40]:<40} "
-                       f"{_money(line.unit_price):>12} {_money(line.cost):>14}")
+            out.append(f"  {_qty(line):>7}  {line.label[:39]:<39} "
+                       f"{_unit_price(line.unit_price):>12} {_money(line.cost):>14}")
         if t.total_cost is not None:
             demo = "  (demonstration prices)" if plan.demo else ""
             out.append(f"  Capital cost: {t.total_cost:,.0f} {t.currency}{demo}")
-        out += _wrap("Cable and fuses are not yet totalled: take them from each system's "
-                     "electrical design.", "  ")
+        if t.unpriced:
+            out += _wrap(f"Not priced (no price-list row): {', '.join(t.unpriced)}.", "  ")
+        out += _wrap("Kits are compared on modules, batteries, controllers, inverters and the "
+                     "per-system price; cables and protection are added here from each "
+                     "design's electrical result.", "  ")
     if plan.unmet:
         out.append("")
         out.append(f"Cannot be met ({len(plan.unmet)} row(s))")
@@ -248,12 +261,16 @@ def markdown_report(plan: CommunityPlan) -> str:
                                                         f"cost ({t.currency or '-'})"]),
                _md_row(["---"] * 5)]
         for line in t.lines:
-            md.append(_md_row([line.category, line.description, line.quantity,
-                               _money(line.unit_price), _money(line.cost)]))
+            md.append(_md_row([line.category, line.description, _qty(line),
+                               _unit_price(line.unit_price), _money(line.cost)]))
         if t.total_cost is not None:
             md += ["", f"**Capital cost: {t.total_cost:,.0f} {t.currency}**"]
-        md += ["", "Cable and fuses are not yet totalled: take them from each system's "
-               "electrical design."]
+        if t.unpriced:
+            md += ["", f"Not priced (no price-list row): {', '.join(t.unpriced)}."]
+        md += ["", "Kits are compared on modules, batteries, controllers, inverters and the "
+               "per-system price; cables and protection are added here from each design's "
+               "electrical result. Cable is metres of two-conductor cable (2 x one-way length "
+               "x runs)."]
     if plan.unmet:
         md += ["", "## Cannot be met", ""]
         md += [f"- line {r.line} (id {r.id}): {r.reason}" for r in plan.unmet]
@@ -334,6 +351,6 @@ def totals_table(plan: CommunityPlan) -> Table:
     rows = []
     if plan.totals is not None:
         for line in plan.totals.lines:
-            rows.append((str(line.quantity), line.label, _money(line.unit_price),
+            rows.append((_qty(line), line.label, _unit_price(line.unit_price),
                          _money(line.cost)))
     return head, rows
