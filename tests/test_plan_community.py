@@ -179,3 +179,28 @@ def test_tables_for_the_text_ui(demo):
     head, rows = totals_table(demo)
     assert len(rows) == len(demo.totals.lines)
     assert all(isinstance(c, str) for r in rows for c in r)
+
+
+def test_energy_step_rounds_up_within_the_step():
+    from offgrid.plan.rows import step_up
+
+    rng = np.random.default_rng(0)
+    for v in rng.uniform(1, 20000, 500):
+        up = step_up(float(v), 1.0)
+        assert v <= up <= v * 1.01 * (1 + 1e-12)
+        assert step_up(up, 1.0) == pytest.approx(up, rel=1e-12)  # grid points stay
+    assert step_up(123.4, 0.0) == 123.4
+
+
+def test_near_equal_surveys_share_a_design_unless_the_step_is_zero():
+    text = ("climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
+            "id,count,daily_energy_wh,peak_power_w\nA,1,200,40\nB,1,200.5,40.1\nC,1,260,40\n")
+    s = read_survey(text, base_dir=load_profiles_dir())
+    assert design_rows(prepare(s), jobs=1).distinct == 2
+    assert design_rows(prepare(s, energy_step_pct=0.0), jobs=1).distinct == 3
+    plan = plan_community(s, kits=1, jobs=1)
+    for r in plan.rows:
+        surveyed = next(x for x in s.rows if x.id == r.id).daily_energy_wh
+        growth = 1.1  # the parts project's load growth
+        assert r.design.appliance_energy_wh >= surveyed * growth * (1 - 1e-9)
+        assert r.design.appliance_energy_wh <= surveyed * growth * 1.01 * (1 + 1e-9)

@@ -35,6 +35,9 @@ def register(sub) -> None:
                    "survey's 'climate' setting")
     p.add_argument("--jobs", type=int, metavar="N", help="worker processes for many distinct "
                    "rows (default: the CPUs available)")
+    p.add_argument("--energy-step", type=float, default=None, metavar="PCT",
+                   help="design surveyed energy and peak power at the next PCT %% step up, "
+                        "so near-equal rows share a design (default 1; 0: as given)")
     p.add_argument("--rows", action="store_true", help="list every row in the summary")
     p.add_argument("--json", action="store_true", help="print the plan as JSON")
     p.add_argument("--report", metavar="FILE", help="also write the plan: .md (report), "
@@ -59,13 +62,14 @@ def run(args: argparse.Namespace) -> int:
         fail("--jobs must be 1 or more")
     if args.max_kits < 1:
         fail("--max-kits must be 1 or more")
+    step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
     report = Path(args.report) if args.report else None
     if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
         fail(f"--report {report}: the file name must end in .md, .csv or .json")
     try:
         plan = plan_file(path, kits=args.kits, kit_type_cost=args.kit_cost, prices=args.prices,
                          objective=args.objective, climate=args.climate, jobs=args.jobs,
-                         k_max=args.max_kits)
+                         k_max=args.max_kits, **step)
     except (SurveyError, PlanError) as exc:
         fail(str(exc))
     if report is not None:

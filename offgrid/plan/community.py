@@ -19,6 +19,7 @@ from offgrid.paths import load_profiles_dir
 from offgrid.plan.kits import Candidate, PlanError, Standardisation, standardise
 from offgrid.plan.prices import PriceList, PriceListError, load_prices
 from offgrid.plan.rows import (
+    DEFAULT_ENERGY_STEP_PCT,
     DesignedRows,
     PlanInputs,
     RowDesign,
@@ -81,6 +82,8 @@ class CommunityPlan:
     rows_read: int = 0
     distinct_designs: int = 0
     tilt_deg: float | None = None  # the community's one tilt (None: rows searched their own)
+    energy_step_pct: float = 0.0
+    stepped_rows: int = 0  # rows given by energy and peak power, designed at the grid step
 
     @property
     def unmet(self) -> tuple[RowResult, ...]:
@@ -96,6 +99,7 @@ class CommunityPlan:
             "format": "offgrid-community-plan", "schema": 1,
             "name": self.name, "demo": self.demo, "source": self.source,
             "climate": self.climate, "tilt_deg": self.tilt_deg, "rows_read": self.rows_read,
+            "energy_step_pct": self.energy_step_pct, "stepped_rows": self.stepped_rows,
             "distinct_designs": self.distinct_designs, "systems": self.systems,
             "currency": self.currency, "prices": self.prices_source,
             "bad_rows": [asdict(p) for p in self.bad_rows],
@@ -146,7 +150,8 @@ def plan_community(survey: Survey, *, kits: int | None = None,
                    kit_type_cost: float | None = None, prices: PriceList | str | None = None,
                    objective: str | None = None, climate: str | None = None,
                    jobs: int | None = None, k_max: int = 12,
-                   curve_to: int = CURVE_KITS) -> CommunityPlan:
+                   curve_to: int = CURVE_KITS,
+                   energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT) -> CommunityPlan:
     """Plan a whole survey.
 
     Parameters
@@ -167,6 +172,9 @@ def plan_community(survey: Survey, *, kits: int | None = None,
         Overrides the survey's climate setting.
     jobs : int, optional
         Worker processes for designing many distinct rows (default: the CPUs available).
+    energy_step_pct : float
+        Rows given by daily energy and peak power are designed at the next step of a
+        geometric grid of this ratio (rounding up); 0 designs every figure as given.
 
     Raises
     ------
@@ -175,7 +183,7 @@ def plan_community(survey: Survey, *, kits: int | None = None,
     PlanError
         The standardisation cannot be done as asked.
     """
-    inputs = prepare(survey, climate=climate)
+    inputs = prepare(survey, climate=climate, energy_step_pct=energy_step_pct)
     price_list = resolve_prices(survey, prices)
     objective = objective or ("cost" if price_list is not None else "oversize")
     if kit_type_cost is None and objective == "cost" and price_list is not None \
@@ -257,6 +265,13 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
     if DEFERS_TO_CODE not in cautions:
         cautions.append(DEFERS_TO_CODE)
     _reasons(book, standard, prices, objective)
+    stepped = sum(1 for r in designed.rows if r.daily_energy_wh is not None)
+    if stepped and inputs.energy_step_pct > 0:
+        book.add("plan.energy_step", "rows given by daily energy and peak power are designed "
+                 "at the next point of the grid (1 + step)^n above each figure, so near-equal "
+                 "surveys share one design; never below the surveyed figure",
+                 "common practice, no source (survey figures are estimates)",
+                 step=fmt(inputs.energy_step_pct, "%"), rows=str(stepped))
     tilt = inputs.base.site.tilt_deg
     if inputs.tilt_searched and tilt is not None:
         book.add("plan.tilt", "standard kits share one mounting: the engine's tilt search run "
@@ -272,7 +287,8 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
         prices_source=prices.source if prices else "", currency=prices.currency if prices else "",
         tier_counts=tier_counts, notices=tuple(notices), cautions=tuple(cautions),
         reasons=book.freeze(), rows_read=survey.rows_read,
-        distinct_designs=designed.distinct, tilt_deg=tilt)
+        distinct_designs=designed.distinct, tilt_deg=tilt,
+        energy_step_pct=inputs.energy_step_pct, stepped_rows=stepped)
 
 
 def _tiers(designed: DesignedRows, by_index: dict, kit_parts: dict

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import copy
 import dataclasses
+import math
 import multiprocessing
 import os
 import threading
@@ -35,6 +36,22 @@ from offgrid.result import DesignError, SystemDesign
 #: start-up about 0.1 s per worker with fork; one design about 1 ms).
 PARALLEL_MIN_DESIGNS = 400
 SURVEYED_LOAD_NAME = "surveyed demand"
+#: Surveyed daily energy and peak power are designed at the next step of a geometric grid
+#: of this ratio (percent), always rounding up: near-equal surveys share one design.
+DEFAULT_ENERGY_STEP_PCT = 1.0
+
+
+def step_up(value: float, step_pct: float) -> float:
+    """``value`` raised to the next point of the grid (1 + step/100)^n; unchanged for 0.
+
+    Never lower than ``value`` (a design for the stepped figure meets the surveyed one).
+    """
+    if step_pct <= 0 or value <= 0:
+        return value
+    ratio = math.log1p(step_pct / 100.0)
+    n = math.ceil(math.log(value) / ratio - 1e-9)
+    out = math.exp(n * ratio)
+    return out if out >= value else value
 
 
 @dataclass(frozen=True)
@@ -181,6 +198,20 @@ class PlanInputs:
     load_lists: dict[str, list[Load] | str]  # ref -> loads, or the error text
     projects: dict[str, Project | str]
     tilt_searched: bool = False  # True once community_tilt has set the shared tilt
+    energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT
+
+    def design_key(self, row: SurveyRow) -> tuple:
+        """Rows with equal keys get one design (energy rows compared at their grid step)."""
+        if row.daily_energy_wh is None or row.peak_power_w is None:
+            return row.key()
+        e, p = self.stepped(row)
+        return (None, row.project, e, p, row.ac_dc, row.surge_w, row.overrides)
+
+    def stepped(self, row: SurveyRow) -> tuple[float, float]:
+        assert row.daily_energy_wh is not None and row.peak_power_w is not None
+        e = step_up(row.daily_energy_wh, self.energy_step_pct)
+        p = step_up(row.peak_power_w, self.energy_step_pct)
+        return min(e, 24.0 * p), p
 
 
 def _find(ref: str, base_dir: Path | None, folder: Path, suffix: str) -> Path | None:
@@ -214,8 +245,8 @@ def set_path(project: Project, path: str, value) -> None:
     setattr(obj, name, value)
 
 
-def prepare(survey: Survey, climate: str | None = None, project: str | None = None
-            ) -> PlanInputs:
+def prepare(survey: Survey, climate: str | None = None, project: str | None = None,
+            energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT) -> PlanInputs:
     """Resolve the shared climate, site and base project; raise SurveyError if unusable."""
     fatal: list[SurveyProblem] = []
     lines = survey.setting_lines
@@ -267,7 +298,12 @@ def prepare(survey: Survey, climate: str | None = None, project: str | None = No
             fatal.append(SurveyProblem(lines.get(p.path, 0), "", p.path, p.message))
     if fatal:
         raise SurveyError(fatal, survey.source)
-    return PlanInputs(survey, base, base_dir, climate_ref or "", {}, {})
+    if not 0.0 <= energy_step_pct <= 10.0:
+        raise SurveyError([SurveyProblem(0, "", "energy step", f"{energy_step_pct:g} % must "
+                                         "be 0 (design every figure as given) to 10 %")],
+                          survey.source)
+    return PlanInputs(survey, base, base_dir, climate_ref or "", {}, {},
+                      energy_step_pct=energy_step_pct)
 
 
 def _load_list(inputs: PlanInputs, ref: str) -> list[Load] | str:
@@ -322,8 +358,9 @@ def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
             raise ValueError(f"load_list: {loads}")
         p.loads = [replace(ld) for ld in loads]
     elif row.daily_energy_wh is not None and row.peak_power_w is not None:
-        p.loads = [Load(name=SURVEYED_LOAD_NAME, quantity=1, power_w=row.peak_power_w,
-                        hours_per_day=row.daily_energy_wh / row.peak_power_w,
+        energy, peak = inputs.stepped(row)
+        p.loads = [Load(name=SURVEYED_LOAD_NAME, quantity=1, power_w=peak,
+                        hours_per_day=energy / peak,
                         ac_dc=row.ac_dc,  # type: ignore[arg-type]
                         surge_w=row.surge_w)]
         # The surveyed peak is already the power on at once: no coincidence factor.
@@ -493,7 +530,7 @@ def design_rows(inputs: PlanInputs, jobs: int = 1) -> DesignedRows:
     unique: list[SurveyRow] = []
     index_of: list[int] = []
     for row in inputs.survey.rows:
-        k = row.key()
+        k = inputs.design_key(row)
         if k not in keyed:
             keyed[k] = len(unique)
             unique.append(row)

@@ -94,6 +94,10 @@ def summary_text(plan: CommunityPlan, show_rows: bool | None = None) -> str:
     out += _wrap(f"{plan.rows_read} read, {planned} planned ({plan.systems} systems), "
                  f"{len({p.line for p in plan.bad_rows})} left out, {len(plan.unmet)} cannot be "
                  f"met; {plan.distinct_designs} distinct designs", "Rows     ")
+    if plan.stepped_rows and plan.energy_step_pct > 0:
+        out += _wrap(f"{plan.stepped_rows} row(s) given by energy and peak power are designed "
+                     f"at the next {plan.energy_step_pct:g} % step up (--energy-step 0: as "
+                     "given)", "         ")
     s = plan.standard
     if s is not None:
         out.append("")
