@@ -32,9 +32,9 @@ from offgrid.project.store import ProjectFileError, load_project
 from offgrid.project.validate import validate_project
 from offgrid.result import DesignError, SystemDesign
 
-#: Below this many distinct designs, worker processes cost more than they save (measured
-#: start-up about 0.1 s per worker with fork; one design about 1 ms).
-PARALLEL_MIN_DESIGNS = 400
+#: Below this many distinct designs, worker processes cost more than they save (measured:
+#: start-up about 0.1 s per worker with fork; one design with its electrical part 15-25 ms).
+PARALLEL_MIN_DESIGNS = 40
 SURVEYED_LOAD_NAME = "surveyed demand"
 #: Surveyed daily energy and peak power are designed at the next step of a geometric grid
 #: of this ratio (percent), always rounding up: near-equal surveys share one design.
