@@ -1,0 +1,782 @@
+"""Build the report model (:class:`~offgrid.report.document.Report`) from a project and its design.
+
+Every number is taken from the :class:`~offgrid.result.SystemDesign` (through its
+``to_dict()``, the same JSON that ``offgrid size --json`` prints), formatted once
+here and tagged with its dotted path, so each format shows the same figure and a
+test can check it against the JSON.  Sections that later parts of the engine
+provide (wiring schedule, protection, I-V curves, reliability) are filled when
+the design carries them and left out otherwise.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from offgrid.project.loads_csv import format_months
+from offgrid.project.model import MonthlyClimate, Project
+from offgrid.report import charts
+from offgrid.report.bom import BomLine, bill_of_materials, field_of
+from offgrid.report.costs import LifecycleCost, lifecycle_cost, money
+from offgrid.report.document import (
+    Block,
+    Bullets,
+    Cell,
+    Chart,
+    FigureItem,
+    Figures,
+    Paragraph,
+    Report,
+    Section,
+    Table,
+)
+from offgrid.result import Reason, SystemDesign
+
+MONTHS = charts.MONTHS
+DEFERS_TO_CODE = ("This design defers to local electrical codes and licensed practice: have it "
+                  "checked, installed and inspected by a qualified electrician.")
+
+#: Section keys in report order; tests check that each is present.
+SECTION_KEYS = ("job", "climate", "loads", "design-month", "figures", "strings", "wiring",
+                "bom", "costs", "reliability", "variants", "cautions", "assumptions")
+
+#: Labels of design figures by dotted path (others get a label from the path).
+LABELS: dict[str, str] = {
+    "site.tilt_deg": "Array tilt",
+    "site.azimuth_deg": "Array azimuth",
+    "site.design_month": "Design month",
+    "site.record_low_c": "Lowest temperature for the string",
+    "site.poa_kwh_m2_day": "Array-plane insolation",
+    "loads.daily_energy_wh": "Daily energy at the battery",
+    "loads.design_daily_energy_wh": "Design-month energy at the battery",
+    "loads.max_daily_energy_wh": "Largest monthly daily energy",
+    "loads.inverter_idle_wh": "Inverter idle energy",
+    "loads.peak_ac_w": "Peak AC power at once",
+    "loads.largest_surge_w": "Largest starting power",
+    "array.required_power_w": "Array power required",
+    "array.power_w": "Array power installed",
+    "array.modules_series": "Modules in series",
+    "array.modules_parallel": "Strings in parallel",
+    "array.module_count": "Modules",
+    "array.derate_total": "Derates together",
+    "array.supply_wh_day": "Array supply to the battery",
+    "array.string_voc_cold_v": "String Voc at the lowest temperature",
+    "array.string_vmp_hot_v": "String Vmp hot",
+    "battery.system_voltage_v": "System voltage",
+    "battery.required_ah": "Battery capacity required",
+    "battery.capacity_ah": "Battery capacity installed",
+    "battery.units_series": "Battery units in series",
+    "battery.units_parallel": "Battery strings in parallel",
+    "battery.unit_count": "Battery units",
+    "battery.nominal_kwh": "Battery energy, nominal",
+    "battery.usable_kwh": "Battery energy, usable",
+    "controller.required_current_a": "Controller current required",
+    "controller.current_a": "Controller rating",
+    "controller.count": "Charge controllers",
+    "inverter.continuous_w": "Inverter continuous rating",
+    "inverter.surge_w": "Inverter surge rating",
+    "inverter.required_surge_w": "Starting demand on the inverter",
+    "inverter.dc_input_current_a": "Inverter DC input current",
+}
+
+#: Figures that have no reason of their own in the engine: the reason the report states.
+DERIVED: dict[str, Reason] = {
+    "array.module_count": Reason("modules in series x strings in parallel"),
+    "array.derate_total": Reason("product of the derates of the design month (see the "
+                                 "assumptions)"),
+    "array.string_voc_cold_v": Reason(
+        "modules in series x module Voc at the lowest temperature (Voc x (1 + beta_Voc x "
+        "(T - 25 C)))", (), "NEC 690.7(A)(1) method with the module's coefficient, NFPA 70-2023"),
+    "array.string_vmp_hot_v": Reason("modules in series x module Vmp at the hottest cell "
+                                     "temperature"),
+    "battery.unit_count": Reason("units in series x strings in parallel"),
+    "battery.nominal_kwh": Reason("installed Ah x system voltage / 1000"),
+    "controller.count": Reason("controllers needed so that none carries more than the largest "
+                               "standard rating"),
+    "loads.max_daily_energy_wh": Reason("largest of the twelve monthly daily energies at the "
+                                        "battery"),
+}
+
+#: Figures shown in the figures section, in order, beside every figure that has a reason.
+KEY_FIGURES = ("site.design_month", "site.tilt_deg", "site.azimuth_deg", "site.record_low_c",
+               "loads.design_daily_energy_wh", "loads.max_daily_energy_wh",
+               "loads.inverter_idle_wh", "loads.peak_ac_w", "loads.largest_surge_w",
+               "array.required_power_w", "array.derate_total", "array.modules_series",
+               "array.modules_parallel", "array.module_count", "array.power_w",
+               "array.string_voc_cold_v", "array.string_vmp_hot_v",
+               "battery.system_voltage_v", "battery.required_ah", "battery.units_series",
+               "battery.units_parallel", "battery.unit_count", "battery.capacity_ah",
+               "battery.nominal_kwh", "battery.usable_kwh", "controller.required_current_a",
+               "controller.current_a", "controller.count", "inverter.continuous_w",
+               "inverter.surge_w", "inverter.required_surge_w", "inverter.dc_input_current_a")
+GROUP_ORDER = ("site", "loads", "array", "battery", "controller", "inverter")
+GROUP_TITLES = {"site": "Site and sun", "loads": "Loads", "array": "Array",
+                "battery": "Battery", "controller": "Charge controller", "inverter": "Inverter"}
+
+
+# ----------------------------------------------------------------------------- formatting
+
+def unit_of(path: str) -> str:
+    """Unit from the naming convention of the design's fields (``power_w`` -> W)."""
+    name = path.rsplit(".", 1)[-1]
+    table = (("_kwh_m2_day", "kWh/m2/day"), ("_wh_day", "Wh/day"), ("_kwh", "kWh"),
+             ("_wh", "Wh/day" if path.startswith("loads.") else "Wh"), ("_ah", "Ah"),
+             ("_w", "W"), ("_v", "V"), ("_a", "A"), ("_c", "C"), ("_deg", "deg"),
+             ("_pct", "%"), ("_m", "m"), ("_days", "days"), ("_years", "years"),
+             ("_kw", "kW"), ("_ohm", "ohm"))
+    for suffix, unit in table:
+        if name.endswith(suffix):
+            return unit
+    return ""
+
+
+def digits_for(value: float, unit: str) -> int:
+    """Decimals shown for a figure of this size and unit."""
+    if unit in ("W", "Wh", "Wh/day", "Ah", "deg"):
+        return 0 if abs(value) >= 10 or float(value).is_integer() else 1
+    if unit in ("V", "A", "C", "%", "m", "days", "years"):
+        return 1 if abs(value) < 1000 else 0
+    if unit in ("kWh", "kWh/m2/day", "kW"):
+        return 2
+    if unit == "":
+        return 3 if abs(value) < 10 else 1
+    return 2
+
+
+def number_text(value: float, digits: int) -> str:
+    return f"{value:,.{digits}f}"
+
+
+def figure_cell(value: Any, path: str, unit: str | None = None) -> Cell:
+    """A design figure formatted with its unit, keeping the number and the path."""
+    unit = unit_of(path) if unit is None else unit
+    if path.endswith("design_month") and isinstance(value, int):
+        return Cell(MONTHS[value - 1], float(value), path)
+    if isinstance(value, bool):
+        return Cell("yes" if value else "no", None, path)
+    if isinstance(value, int):
+        return Cell(f"{value:,d} {unit}".strip(), float(value), path)
+    if isinstance(value, float):
+        text = number_text(value, digits_for(value, unit))
+        return Cell(f"{text} {unit}".strip(), value, path)
+    return Cell(str(value), None, path)
+
+
+def lookup(tree: dict[str, Any], path: str) -> Any:
+    """Value at a dotted path of the design's JSON, or None."""
+    node: Any = tree
+    for part in path.split("."):
+        if isinstance(node, dict) and part in node:
+            node = node[part]
+        else:
+            return None
+    return node
+
+
+def label_of(path: str) -> str:
+    if path in LABELS:
+        return LABELS[path]
+    head, _, name = path.rpartition(".")
+    words = name
+    for suffix in ("_kwh_m2_day", "_wh_day", "_kwh", "_wh", "_ah", "_w", "_v", "_a", "_c",
+                   "_deg", "_pct", "_m", "_a"):
+        if words.endswith(suffix):
+            words = words[: -len(suffix)]
+            break
+    words = words.replace("_", " ")
+    if head.startswith("array.derates"):
+        return f"Derate: {words}"
+    return words[:1].upper() + words[1:]
+
+
+def _c(text: str, value: float | None = None, path: str | None = None) -> Cell:
+    return Cell(text, value, path)
+
+
+def _num(value: float, digits: int, path: str | None = None) -> Cell:
+    return Cell(number_text(value, digits), float(value), path)
+
+
+def _month_row(label: str, values, path: str | None, digits: int = 0) -> tuple[Cell, ...]:
+    """A label and twelve monthly numbers; ``path.k`` is the JSON path of month k (0-11)."""
+    return (_c(label), *(_num(v, digits, f"{path}.{k}" if path else None)
+                         for k, v in enumerate(values)))
+
+
+# ----------------------------------------------------------------------------- inputs
+
+@dataclass(frozen=True)
+class ReportInputs:
+    """Everything a report is built from; optional parts are None when not computed."""
+
+    project: Project
+    design: SystemDesign
+    climate: MonthlyClimate | None = None
+    reliability: Any = None
+    comparison: Any = None  # VariantComparison
+    charts: bool = True
+
+
+def build_report(project: Project, design: SystemDesign, *, base: Path | None = None,
+                 climate: MonthlyClimate | None = None, reliability: Any = None,
+                 comparison: Any = None, with_charts: bool = True,
+                 with_variants: bool = True) -> Report:
+    """The report model of a designed project.
+
+    ``reliability`` is the simulation's record when it ran; ``comparison`` a
+    :class:`~offgrid.report.variants.VariantComparison` (computed here when the project
+    has variants and ``with_variants`` is true).
+    """
+    if climate is None:
+        from offgrid.sizing import resolve_climate
+
+        try:
+            climate = resolve_climate(project, base)
+        except ValueError:
+            climate = None
+    if comparison is None and with_variants and project.variants:
+        from offgrid.report.variants import compare_variants
+
+        comparison = compare_variants(project, base)
+    tree = design.to_dict()
+    bom = bill_of_materials(project, design)
+    cost = lifecycle_cost(project, design, bom, reliability)
+    ri = ReportInputs(project, design, climate, reliability, comparison, with_charts)
+    sections = [
+        _job(ri, tree),
+        _climate(ri, tree),
+        _loads(ri, tree),
+        _design_month(ri, tree),
+        _figures(ri, tree),
+        _strings(ri, tree),
+        _wiring(ri, tree),
+        _bom(ri, bom, cost),
+        _costs(ri, cost),
+        _reliability(ri),
+        _variants(ri),
+        _cautions(ri),
+        _assumptions(ri, tree),
+    ]
+    info = project.info
+    subtitle = f"Stand-alone solar power design for {project.site.name or info.name}"
+    meta = tuple((k, v) for k, v in (("Client", info.client), ("Designer", info.designer))
+                 if v)
+    return Report(title=info.name, subtitle=subtitle,
+                  sections=tuple(s for s in sections if s is not None), demo=info.demo,
+                  meta=meta)
+
+
+# ----------------------------------------------------------------------------- sections
+
+def _job(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    s = p.site
+    rows = [("Project", p.info.name), ("Client", p.info.client or "-"),
+            ("Designer", p.info.designer or "-"),
+            ("Site", s.name or "-"),
+            ("Latitude, longitude", f"{s.latitude_deg:.4f}, {s.longitude_deg:.4f} deg"),
+            ("Elevation", f"{s.elevation_m:,.0f} m")]
+    table_rows = [(_c(k), _c(v)) for k, v in rows]
+    table_rows.append((_c("Array tilt, azimuth"), _c(
+        f"{d.site.tilt_deg:.0f} deg, {d.site.azimuth_deg:.0f} deg (clockwise from north)")))
+    blocks: list[Block] = []
+    if p.info.demo:
+        blocks.append(Paragraph("Demonstration data: the project, the site, the people and the "
+                                "climate in this report are invented."))
+    blocks.append(Table("job", ("Item", "Value"), tuple(table_rows), wrap=(1,)))
+    if p.info.notes:
+        blocks.append(Paragraph(p.info.notes))
+    a, b, c, inv = d.array, d.battery, d.controller, d.inverter
+    inv_text = (f"a {inv.continuous_w:,.0f} W inverter" if inv.needed else "no inverter "
+                "(DC loads only)")
+    blocks.append(Paragraph(
+        f"The system: {a.module_count} PV modules ({a.power_w:,.0f} W), a {b.system_voltage_v} V "
+        f"battery bank of {b.unit_count} units ({b.capacity_ah:,.0f} Ah, "
+        f"{b.usable_kwh:,.2f} kWh usable), {c.count} x {c.current_a:g} A {c.type.upper()} charge "
+        f"controller{'s' if c.count > 1 else ''} and {inv_text}, sized for "
+        f"{MONTHS[d.site.design_month - 1]}, the month with the least sun for the demand."))
+    return Section("job", "The job and the site", tuple(blocks))
+
+
+def _climate(ri: ReportInputs, tree: dict) -> Section:
+    d = ri.design
+    s = d.site
+    c = ri.climate
+    cols = ["Month", "Horizontal", "Array plane", "Mean", "Day"]
+    have_max = c is not None and c.temp_max_c is not None
+    have_min = c is not None and c.temp_min_c is not None
+    if have_max:
+        cols.append("Max")
+    if have_min:
+        cols.append("Min")
+    rows = []
+    for k in range(12):
+        row = [_c(MONTHS[k]),
+               _num(s.horizontal_kwh_m2_day[k], 2, f"site.horizontal_kwh_m2_day.{k}"),
+               _num(s.poa_kwh_m2_day[k], 2, f"site.poa_kwh_m2_day.{k}"),
+               _num(s.temp_mean_c[k], 1, f"site.temp_mean_c.{k}"),
+               _num(s.temp_day_c[k], 1, f"site.temp_day_c.{k}")]
+        if have_max:
+            row.append(_num(c.temp_max_c[k], 1))
+        if have_min:
+            row.append(_num(c.temp_min_c[k], 1))
+        rows.append(tuple(row))
+    blocks: list[Block] = [Table(
+        "climate", tuple(cols), tuple(rows), ("l",) + ("r",) * (len(cols) - 1),
+        "Insolation in kWh/m2/day (mean daily, horizontal and in the array plane); "
+        "temperatures in C (day = mean of the daily mean and maximum, used for the cell "
+        "temperature).")]
+    src = s.climate_source or (c.source if c else "") or "not given"
+    blocks.append(Paragraph(f"Source of the climate: {src}"))
+    if c is not None and c.demo:
+        blocks.append(Paragraph("This climate is demonstration data, not a measurement."))
+    reason = d.reasons.get("site.poa_kwh_m2_day")
+    if reason:
+        blocks.append(Paragraph(f"Array-plane insolation: {reason.formula}. Source: "
+                                f"{reason.source}."))
+    blocks.append(Paragraph(f"Lowest temperature used for the string voltage: "
+                            f"{s.record_low_c:.1f} C ({_reason_source(d, 'site.record_low_c')})."))
+    return Section("climate", "Climate", tuple(blocks))
+
+
+def _reason_source(d: SystemDesign, path: str) -> str:
+    r = d.reasons.get(path)
+    return r.source if r else "not stated"
+
+
+def _loads(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    lr = d.loads
+    dm = d.site.design_month - 1
+    rows = []
+    for i, ld in enumerate(p.loads):
+        e = lr.per_load_wh[i][dm] if i < len(lr.per_load_wh) else 0.0
+        rows.append((_c(str(i + 1)), _c(ld.name), _c(str(ld.quantity)),
+                     _num(ld.power_w, 0 if ld.power_w >= 10 else 1), _num(ld.hours_per_day, 1),
+                     _num(ld.duty_cycle, 2), _c(ld.ac_dc.upper()),
+                     _c("yes" if ld.critical else "no"), _c(format_months(ld.months)),
+                     _num(e, 0, f"loads.per_load_wh.{i}.{dm}")))
+    blocks: list[Block] = [Table(
+        "loads", ("#", "Appliance", "Qty", "W", "h/day", "Duty", "Type", "Crit.", "Months",
+                  "Wh/day"), tuple(rows), ("r", "l", "r", "r", "r", "r", "l", "l", "l", "r"),
+        f"Energy per day at the appliance in the design month ({MONTHS[dm]}) = quantity x "
+        "power x hours per day x duty cycle.", wrap=(1,))]
+
+    # energy by month
+    mrows = []
+    for i, ld in enumerate(p.loads):
+        mrows.append(_month_row(f"{i + 1} {ld.name}", lr.per_load_wh[i],
+                                f"loads.per_load_wh.{i}"))
+    idle = [lr.inverter_idle_wh if lr.connected_ac_w > 0 else 0.0] * 12
+    growth = [b - (a + dc_ + l_ + i_) for b, a, dc_, l_, i_ in zip(
+        lr.daily_energy_wh, lr.ac_energy_wh, lr.dc_energy_wh, lr.inverter_loss_wh, idle,
+        strict=True)]
+    for label, vals, path in (
+            ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
+            ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
+            ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
+            ("Inverter idle", idle, None),
+            (f"Growth {lr.growth_pct:g} %", growth, None),
+            ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh")):
+        mrows.append(_month_row(label, vals, path))
+    blocks.append(Table("energy-by-month", ("Wh/day", *MONTHS), tuple(mrows),
+                        ("l",) + ("r",) * 12,
+                        "Daily energy by month, Wh/day: each appliance line at the appliance, "
+                        "then the totals up to the battery."))
+    reason = d.reasons.get("loads.daily_energy_wh")
+    if reason:
+        blocks.append(Paragraph(f"Energy at the battery = {reason.formula}."))
+    blocks.append(Paragraph(
+        f"Connected AC power {lr.connected_ac_w:,.0f} W, at once {lr.peak_ac_w:,.0f} W "
+        f"(coincidence factor {lr.coincidence_factor:g}); connected DC power "
+        f"{lr.connected_dc_w:,.0f} W; largest starting power {lr.largest_surge_w:,.0f} W "
+        f"({lr.largest_surge_load or 'none'}). Critical loads use "
+        f"{lr.critical_energy_wh[dm]:,.0f} Wh/day at the battery in {MONTHS[dm]}."))
+    return Section("loads", "Loads", tuple(blocks))
+
+
+def _design_month(ri: ReportInputs, tree: dict) -> Section:
+    d = ri.design
+    s, lr, a = d.site, d.loads, d.array
+    dm = s.design_month - 1
+    blocks: list[Block] = [Paragraph(
+        f"Design month: {MONTHS[dm]}. It has the largest ratio of daily demand to array-plane "
+        f"insolation ({s.demand_to_sun[dm]:,.0f} Wh per kWh/m2): "
+        f"{lr.design_daily_energy_wh:,.0f} Wh/day at the battery on "
+        f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day. The array is sized for this month; every other "
+        "month has at least as much sun for its demand.")]
+    rows = [_month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
+            _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day"),
+            _month_row("Demand/sun", s.demand_to_sun, "site.demand_to_sun")]
+    blocks.append(Table("supply-demand", ("", *MONTHS), tuple(rows), ("l",) + ("r",) * 12,
+                        "Demand and array supply at the battery; demand/sun in Wh per kWh/m2 "
+                        "of array-plane insolation."))
+    svg = charts.supply_demand_svg(lr.daily_energy_wh, a.supply_wh_day, s.design_month) \
+        if ri.charts else ""
+    text = charts.text_bars(MONTHS, (("demand", "#", lr.daily_energy_wh),
+                                     ("supply", "=", a.supply_wh_day)), 78, "Wh/day")
+    blocks.append(Chart("supply-demand", "Supply and demand by month", svg, tuple(text),
+                        f"Daily demand at the battery (bars) and array supply (line); "
+                        f"{MONTHS[dm]} is the design month."))
+    surplus = [sup - dem for sup, dem in zip(a.supply_wh_day, lr.daily_energy_wh, strict=True)]
+    low = int(np.argmin(surplus))
+    blocks.append(Paragraph(
+        f"Smallest margin: {MONTHS[low]}, supply {a.supply_wh_day[low]:,.0f} Wh/day for "
+        f"{lr.daily_energy_wh[low]:,.0f} Wh/day of demand "
+        f"({a.supply_wh_day[low] / lr.daily_energy_wh[low] - 1:+.0%})."))
+    iv = _iv_chart(ri)
+    if iv is not None:
+        blocks.append(iv)
+    return Section("design-month", "Design month", tuple(blocks))
+
+
+def _iv_chart(ri: ReportInputs) -> Chart | None:
+    """The design-month I-V and P-V curves, when the electrical design provides them."""
+    d = ri.design
+    curve = getattr(d, "iv_curve", None) or getattr(d, "curve", None)
+    mpp = getattr(d, "mpp", None)
+    if curve is None or mpp is None:
+        return None
+    v = field_of(curve, "voltage_v")
+    i = field_of(curve, "current_a")
+    if v is None or i is None or len(v) < 2:
+        return None
+    vm, im = field_of(mpp, "voltage_v", field_of(mpp, "vmp_v")), field_of(
+        mpp, "current_a", field_of(mpp, "imp_a"))
+    if vm is None or im is None:
+        return None
+    op = getattr(d, "pwm_point", None) or field_of(mpp, "pwm", None)
+    operating = None
+    if op is not None:
+        vo, io_ = field_of(op, "voltage_v"), field_of(op, "current_a")
+        if vo is not None and io_ is not None:
+            operating = (float(vo), float(io_))
+    svg = charts.iv_pv_svg(v, i, (float(vm), float(im)), operating) if ri.charts else ""
+    text = [f"Maximum power point: {float(vm):.1f} V, {float(im):.2f} A, "
+            f"{float(vm) * float(im):,.0f} W"]
+    if operating:
+        text.append(f"PWM operating point: {operating[0]:.1f} V, {operating[1]:.2f} A, "
+                    f"{operating[0] * operating[1]:,.0f} W")
+    return Chart("iv-curve", "I-V and P-V curves in the design month", svg, tuple(text),
+                 "The array's current and power against voltage at the design month's "
+                 "irradiance and cell temperature.")
+
+
+def _figures(ri: ReportInputs, tree: dict) -> Section:
+    d = ri.design
+    paths = list(KEY_FIGURES)
+    for path in d.reasons:
+        if path not in paths:
+            paths.append(path)
+    groups: dict[str, list[str]] = {}
+    for path in paths:
+        groups.setdefault(path.split(".", 1)[0], []).append(path)
+    order = [g for g in GROUP_ORDER if g in groups] + sorted(g for g in groups
+                                                              if g not in GROUP_ORDER)
+    blocks: list[Block] = [Paragraph(
+        "Each figure with the formula it comes from, the inputs it used and its source.")]
+    for g in order:
+        items = []
+        for path in groups[g]:
+            value = lookup(tree, path)
+            reason = d.reasons.get(path) or DERIVED.get(path)
+            if value is None and reason is None:
+                continue
+            if isinstance(value, list):
+                cell = Cell("by month, see the tables")
+            elif value is None:
+                cell = Cell("-")
+            else:
+                cell = figure_cell(value, path)
+            if reason is None:
+                reason = Reason("")
+            items.append(FigureItem(path, label_of(path), cell, reason.formula, reason.inputs,
+                                    reason.source if reason.formula else ""))
+        if items:
+            blocks.append(Figures(tuple(items), GROUP_TITLES.get(g, g.capitalize())))
+    return Section("figures", "Sized figures and their reasons", tuple(blocks))
+
+
+def _strings(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    a, c, b = d.array, d.controller, d.battery
+    m = p.module
+    rows = [
+        (_c("Modules in series per string"), figure_cell(a.modules_series,
+                                                         "array.modules_series")),
+        (_c("Strings in parallel"), figure_cell(a.modules_parallel, "array.modules_parallel")),
+        (_c("Module Voc / Vmp at STC"), _c(f"{m.voc_v:g} V / {m.vmp_v:g} V")),
+        (_c(f"Module Voc at {d.site.record_low_c:.1f} C"), figure_cell(a.voc_cold_v,
+                                                                       "array.voc_cold_v")),
+        (_c("String Voc, cold"), figure_cell(a.string_voc_cold_v, "array.string_voc_cold_v")),
+        (_c("Controller maximum PV voltage"), figure_cell(c.max_pv_voltage_v,
+                                                          "controller.max_pv_voltage_v")),
+        (_c("Module Vmp, hot"), figure_cell(a.vmp_hot_v, "array.vmp_hot_v")),
+        (_c("String Vmp, hot"), figure_cell(a.string_vmp_hot_v, "array.string_vmp_hot_v")),
+        (_c("Battery absorption voltage"), figure_cell(b.absorption_voltage_v,
+                                                       "battery.absorption_voltage_v")),
+    ]
+    blocks: list[Block] = [Table("strings", ("String", "Value"), tuple(rows), ("l", "r"))]
+    ok_cold = a.string_voc_cold_v < c.max_pv_voltage_v
+    blocks.append(Paragraph(
+        f"The cold string open-circuit voltage ({a.string_voc_cold_v:.1f} V) is "
+        f"{'below' if ok_cold else 'ABOVE'} the controller's maximum "
+        f"({c.max_pv_voltage_v:g} V); the hot string maximum-power voltage "
+        f"({a.string_vmp_hot_v:.1f} V) is {'above' if a.string_vmp_hot_v > b.absorption_voltage_v else 'BELOW'} "  # noqa: E501
+        f"the battery's absorption voltage ({b.absorption_voltage_v:.1f} V)."))
+    reason = d.reasons.get("array.modules_series")
+    if reason:
+        blocks.append(Paragraph(f"Series count: {reason.formula}. Source: {reason.source}."))
+    layout = []
+    shown = min(a.modules_parallel, 4)
+    chain = " - ".join(f"[M{k + 1}]" for k in range(min(a.modules_series, 8)))
+    if a.modules_series > 8:
+        chain += f" - ... ({a.modules_series} modules)"
+    for s in range(shown):
+        layout.append(f"String {s + 1}: (+) {chain} (-)")
+    if a.modules_parallel > shown:
+        layout.append(f"... {a.modules_parallel} strings in parallel in all")
+    per_ctrl = math.ceil(a.modules_parallel / c.count)
+    layout.append(f"{a.modules_parallel} string(s) into {c.count} controller(s), up to "
+                  f"{per_ctrl} per controller")
+    blocks.append(Chart("string-layout", "String layout", "", tuple(layout)))
+    return Section("strings", "String layout", tuple(blocks))
+
+
+def _wiring(ri: ReportInputs, tree: dict) -> Section:
+    d, p = ri.design, ri.project
+    wires = getattr(d, "wires", None) or ()
+    protection = getattr(d, "protection", None) or ()
+    blocks: list[Block] = []
+    if wires:
+        rows = []
+        for w in wires:
+            rows.append((
+                _c(str(field_of(w, "run", "?"))),
+                _num(float(field_of(w, "current_a", 0.0)), 1),
+                _num(float(field_of(w, "length_m", 0.0)), 1),
+                _c(str(field_of(w, "material", ""))),
+                _c(str(field_of(w, "size", ""))),
+                _num(float(field_of(w, "drop_pct", 0.0)), 2),
+                _num(float(field_of(w, "ampacity_a", 0.0)), 0),
+                _c("-" if field_of(w, "fuse_a") is None else f"{float(field_of(w, 'fuse_a')):g}"),
+            ))
+        blocks.append(Table(
+            "wiring", ("Run", "Current A", "Length m", "Material", "Size", "Drop %",
+                       "Ampacity A", "Fuse A"), tuple(rows),
+            ("l", "r", "r", "l", "l", "r", "r", "r"),
+            "One-way length; drop = 2 x length x current x resistance per metre at conductor "
+            "temperature.", wrap=(0,)))
+    else:
+        blocks.append(Paragraph(
+            "The wiring schedule is not computed for this design: size each conductor for "
+            "ampacity (1.25 x 1.25 x Isc on PV circuits, NEC 690.8) and for the voltage-drop "
+            f"limits ({p.choices.drop_limit_array_pct:g} % array, "
+            f"{p.choices.drop_limit_battery_pct:g} % battery, {p.choices.drop_limit_load_pct:g} %"
+            " loads) before building."))
+    if protection:
+        rows = []
+        for dev in protection:
+            rating = field_of(dev, "rating_a")
+            rows.append((
+                _c(str(field_of(dev, "kind", field_of(dev, "type", "device")))),
+                _c(str(field_of(dev, "location", field_of(dev, "run", "")))),
+                _c("-" if rating is None else f"{float(rating):g} A"),
+                _c(str(field_of(dev, "count", field_of(dev, "quantity", 1)))),
+                _c(str(field_of(dev, "reason", field_of(dev, "note", "")))),
+            ))
+        blocks.append(Table("protection", ("Device", "Where", "Rating", "Qty", "Why"),
+                            tuple(rows), ("l", "l", "r", "r", "l"), wrap=(1, 4)))
+    return Section("wiring", "Wiring and protection schedule", tuple(blocks))
+
+
+def _bom(ri: ReportInputs, bom: tuple[BomLine, ...], cost: LifecycleCost) -> Section:
+    cur = cost.currency
+    rows = []
+    for ln, cl in zip(bom, cost.lines, strict=True):
+        rows.append((_c(ln.key), _c(ln.description), Cell(f"{ln.quantity:g}", ln.quantity,
+                                                           ln.figure or None),
+                     _c(ln.unit), _c(money(cl.unit_price)), _c(money(cl.total))))
+    blocks: list[Block] = [Table(
+        "bom", ("Part", "Description", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
+        tuple(rows), ("l", "l", "r", "l", "r", "r"),
+        "Quantities follow from the design; the part key is what the price list refers to.",
+        wrap=(1,))]
+    follows = [f"{ln.key}: {ln.follows}" for ln in bom]
+    blocks.append(Bullets(tuple(follows)))
+    if cost.missing:
+        blocks.append(Bullets((cost.message(),), "warning"))
+    elif cost.capital is not None:
+        blocks.append(Paragraph(f"Parts {money(cost.parts, cur)}; installation "
+                                f"{money(cost.installation, cur)}; capital cost "
+                                f"{money(cost.capital, cur)}."))
+    return Section("bom", "Bill of materials", tuple(blocks))
+
+
+def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
+    e = cost.economics
+    cur = cost.currency
+    blocks: list[Block] = []
+    blocks.append(Paragraph(
+        f"Present-worth method over {e.life_years} years at a discount rate of "
+        f"{e.discount_rate_pct:g} % and price inflation of {e.inflation_pct:g} % a year "
+        "(Duffie & Beckman, Solar Engineering of Thermal Processes, 4th ed., ch. 11)."))
+    blocks.append(Bullets((
+        "PW(n) = ((1 + i) / (1 + d))^n: present worth of a payment n years ahead at today's "
+        "price",
+        "PWF(N, i, d) = 1/(d - i) x [1 - ((1 + i)/(1 + d))^N] (N/(1 + i) when i = d): present "
+        "worth of N yearly payments (eq. 11.5.1)",
+        "Lifecycle cost = capital + sum of replacements x PW(n) + yearly upkeep x PWF(N, i, d)",
+        "Cost per kWh delivered = lifecycle cost / (energy delivered per year x PWF(N, 0, d))",
+    )))
+    rows = []
+    for cl in cost.lines:
+        when = ", ".join(f"{y:g}" for y in cl.replaced_at) or "none"
+        rows.append((_c(cl.key), _num(cl.life_years, 1), _c(when),
+                     _c(money(cl.replacement_pw))))
+    blocks.append(Table("replacements", ("Part", "Life, years", "Replaced in year",
+                                         f"Present worth {cur}"), tuple(rows),
+                        ("l", "r", "l", "r"), wrap=(2,)))
+    blocks.append(Paragraph(f"Battery life {cost.battery_life_years:g} years: "
+                            f"{cost.battery_life_source}."))
+    served = "" if cost.served_fraction >= 1 else (
+        f" x {cost.served_fraction:.3f} share of demand served (simulation)")
+    energy_row = (_c("Energy delivered per year"), _c(f"{cost.energy_kwh_year:,.0f} kWh"))
+    if cost.missing:
+        blocks.append(Table("lifecycle", ("Item", "Value"), (energy_row,), ("l", "r")))
+        blocks.append(Bullets((cost.message(),), "warning"))
+        return Section("costs", "Costs over the project life", tuple(blocks))
+    rows2 = [
+        (_c("Capital cost"), Cell(money(cost.capital, cur), cost.capital, "costs.capital")),
+        (_c("Replacements, present worth"), Cell(money(cost.replacements_pw, cur),
+                                                 cost.replacements_pw, "costs.replacements_pw")),
+        (_c(f"Upkeep {money(cost.upkeep_yearly, cur)}/year x PWF {cost.pwf_upkeep:.3f}"),
+         Cell(money(cost.upkeep_pw, cur), cost.upkeep_pw, "costs.upkeep_pw")),
+        (_c("Lifecycle cost"), Cell(money(cost.lcc, cur), cost.lcc, "costs.lcc")),
+        energy_row,
+        (_c(f"Discounted energy (x PWF {cost.pwf_energy:.3f})"),
+         _c(f"{cost.energy_pw_kwh:,.0f} kWh")),
+        (_c("Cost per kWh delivered"), Cell(
+            "-" if cost.cost_per_kwh is None else f"{cost.cost_per_kwh:,.3f} {cur}/kWh",
+            cost.cost_per_kwh, "costs.cost_per_kwh")),
+    ]
+    blocks.append(Table("lifecycle", ("Item", "Value"), tuple(rows2), ("l", "r"), wrap=(0,)))
+    blocks.append(Paragraph(
+        "Energy delivered = daily AC and DC energy at the appliances by month x days in the "
+        f"month{served}. Replacements are priced at today's part price raised by inflation, "
+        "without labour; no salvage value is credited."))
+    return Section("costs", "Costs over the project life", tuple(blocks))
+
+
+def _reliability(ri: ReportInputs) -> Section | None:
+    r = ri.reliability
+    if r is None:
+        return None
+    rows = []
+    for label, attr, scale, unit, digits in (
+            ("Loss-of-load probability", "lolp", 100.0, "%", 2),
+            ("Unmet energy", "unmet_fraction", 100.0, "%", 2),
+            ("Years simulated", "years", 1.0, "", 0),
+            ("Mean state of charge", "mean_soc", 100.0, "%", 1),
+            ("Battery cycles per year", "cycles_per_year", 1.0, "", 0),
+            ("Battery life", "battery_life_years", 1.0, "years", 1)):
+        v = getattr(r, attr, None)
+        if isinstance(v, int | float) and math.isfinite(v):
+            rows.append((_c(label), Cell(f"{v * scale:,.{digits}f} {unit}".strip(), float(v),
+                                         f"reliability.{attr}")))
+    blocks: list[Block] = [Table("reliability", ("Figure", "Value"), tuple(rows), ("l", "r"))]
+    method = getattr(r, "method", None) or getattr(r, "source", None)
+    if method:
+        blocks.append(Paragraph(f"Method: {method}"))
+    hist = getattr(r, "soc_histogram", None)
+    if hist is not None and ri.charts:
+        edges, share = field_of(hist, "edges"), field_of(hist, "share_pct")
+        if edges is not None and share is not None:
+            blocks.append(Chart("soc", "State-of-charge distribution", charts.histogram_svg(
+                [100 * x for x in edges], share, "state of charge (%)")))
+    return Section("reliability", "Reliability", tuple(blocks))
+
+
+def _variants(ri: ReportInputs) -> Section | None:
+    cmp = ri.comparison
+    if cmp is None or len(cmp.columns) < 2:
+        return None
+    names = tuple(c.name for c in cmp.columns)
+    rows = []
+    for r in cmp.rows:
+        label = f"{r.label} ({r.unit})" if r.unit else r.label
+        cells = [Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None,
+                      None, dif) for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)]
+        rows.append((_c(label), *cells))
+    blocks: list[Block] = [Table("variants", ("", *names), tuple(rows),
+                                 ("l",) + ("r",) * len(names),
+                                 "* differs from the base design.",
+                                 wrap=tuple(range(len(names) + 1)))]
+    notes = []
+    for col in cmp.columns[1:]:
+        changes = "; ".join(f"{p} = {v}" for p, v in col.overrides) or "no change"
+        line = f"{col.name}: {changes}"
+        if col.note:
+            line += f" ({col.note})"
+        if col.error:
+            line += f". Not designed: {col.error}"
+        notes.append(line)
+    blocks.append(Bullets(tuple(notes)))
+    return Section("variants", "Variants side by side", tuple(blocks))
+
+
+def _cautions(ri: ReportInputs) -> Section:
+    d = ri.design
+    blocks: list[Block] = []
+    if d.warnings:
+        blocks.append(Bullets(tuple(f"{n.message} [{n.code}]" for n in d.warnings), "warning"))
+    cautions = list(d.cautions)
+    if not any("defers to local electrical code" in c for c in cautions):
+        cautions.append(DEFERS_TO_CODE)
+    blocks.append(Bullets(tuple(cautions), "caution"))
+    return Section("cautions", "Warnings and safety cautions", tuple(blocks))
+
+
+def _assumptions(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    a = d.array
+    dm = d.site.design_month - 1
+    rows = [(_c(name), _num(v, 3, f"array.derates.{name}")) for name, v in a.derates.items()]
+    rows.append((_c("together"), _num(a.derate_total, 3, "array.derate_total")))
+    blocks: list[Block] = [Table("derates", ("Derate (fraction kept)", MONTHS[dm]), tuple(rows),
+                                 ("l", "r"), f"In the design month ({MONTHS[dm]}).")]
+    ch = p.choices
+    b, m, cs, inv = p.battery, p.module, p.controller, p.inverter
+    items = [
+        ("Days of autonomy", f"{ch.autonomy_days:g}"),
+        ("Maximum depth of discharge", f"{d.battery.max_dod:.0%}"),
+        ("Load growth margin", f"{ch.load_growth_pct:g} %"),
+        ("Coincidence factor (AC)", f"{ch.coincidence_factor:g}"),
+        ("Battery end-of-life capacity", f"{ch.ageing_factor:.0%}"),
+        ("Battery temperature factor", f"{d.battery.temp_factor:.3f}"),
+        ("System voltage", f"{ch.system_voltage}"),
+        ("Minimum tilt", f"{ch.min_tilt_deg:g} deg"),
+        ("Voltage-drop limits", f"array {ch.drop_limit_array_pct:g} %, battery "
+                                f"{ch.drop_limit_battery_pct:g} %, loads "
+                                f"{ch.drop_limit_load_pct:g} %"),
+        ("PV module", f"{m.name}: {m.pmax_w:g} W, Vmp {m.vmp_v:g} V, Imp {m.imp_a:g} A, Voc "
+                      f"{m.voc_v:g} V, Isc {m.isc_a:g} A, gamma {m.gamma_pmax_pct_per_c:g} %/C, "
+                      f"beta {m.beta_voc_pct_per_c:g} %/C, NOCT {m.noct_c:g} C"),
+        ("Battery unit", f"{b.name}: {b.chemistry}, {b.nominal_voltage_v:g} V, "
+                         f"{b.capacity_ah:g} Ah, round trip {b.efficiency:.0%}"),
+        ("Charge controller", f"{cs.type.upper()}, up to {cs.max_pv_voltage_v:g} V PV, "
+                              f"efficiency {cs.efficiency:.0%}"),
+        ("Inverter", f"efficiency {inv.efficiency:.0%}, idle {inv.self_consumption_w:g} W for "
+                     f"{inv.hours_on_per_day:g} h/day"),
+        ("Albedo", f"{p.site.albedo:g}"),
+    ]
+    blocks.append(Table("assumptions", ("Assumption", "Value"),
+                        tuple((_c(k), _c(v)) for k, v in items), ("l", "l"), wrap=(1,)))
+    blocks.append(Paragraph("Figures marked 'common practice, no source' follow the usual rule "
+                            "of the trade; 'from memory' marks a value not checked against its "
+                            "published source."))
+    return Section("assumptions", "Assumptions and derates", tuple(blocks))
