@@ -99,7 +99,7 @@ def supply_demand_svg(demand_wh_day: Sequence[float], supply_wh_day: Sequence[fl
         ax.annotate("design month", (design_month - 1, top * 1.02), ha="center",
                     fontsize=8, color=GREY)
         ax.set_ylim(0, top * 1.15)
-        ax.legend(loc="lower right", ncols=2, fontsize=8)
+        ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.1), ncols=2, fontsize=8)
         return _to_svg(fig, title)
 
 

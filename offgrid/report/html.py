@@ -38,7 +38,9 @@ table { border-collapse: collapse; width: 100%; font-size: .9rem; }
 th, td { padding: .25rem .45rem; border-bottom: 1px solid var(--rule); vertical-align: top;
          text-align: left; }
 th { background: var(--band); font-weight: 600; }
-td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
+td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
+td.nw { white-space: nowrap; }
+#t-energy-by-month td:first-child, #t-supply-demand td:first-child { min-width: 9rem; }
 td.diff { background: var(--mark); font-weight: 600; }
 caption { caption-side: bottom; text-align: left; color: var(--muted); font-size: .82rem;
           padding-top: .3rem; }
@@ -67,7 +69,7 @@ footer { margin-top: 2.5rem; color: var(--muted); font-size: .8rem; }
   nav { display: none; }
   h2 { break-after: avoid; page-break-after: avoid; }
   h3 { break-after: avoid; page-break-after: avoid; }
-  table, figure, pre, .figs tr { break-inside: avoid; page-break-inside: avoid; }
+  tr, figure, pre { break-inside: avoid; page-break-inside: avoid; }
   thead { display: table-header-group; }
   .scroll { overflow: visible; }
   section { break-before: auto; }
@@ -85,6 +87,8 @@ def _td(cell: Cell, align: str, header: bool = False) -> str:
     cls = []
     if align == "r":
         cls.append("num")
+        if len(cell.text) <= 16:
+            cls.append("nw")
     if cell.mark:
         cls.append("diff")
     attrs = f' class="{" ".join(cls)}"' if cls else ""
