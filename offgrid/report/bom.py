@@ -36,7 +36,7 @@ class BomLine:
     quantity: float
     unit: str  # "each" or "m"
     follows: str  # how the quantity follows from the design (formula in words)
-    figure: str = ""  # dotted path of the design figure it follows from
+    figure: str = ""  # dotted path of the design figure equal to the quantity, if one is
 
     @property
     def kind(self) -> str:
@@ -80,7 +80,7 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
         lines.append(BomLine(
             f"inverter:{inv.continuous_w:g} W", f"Inverter, {inv.continuous_w:g} W continuous, "
             f"{inv.surge_w:g} W surge, {b.system_voltage_v} V DC input", 1.0, "each",
-            "one inverter for the AC loads", "inverter.continuous_w"))
+            "one inverter for the AC loads"))
     lines += _cable_lines(getattr(design, "wires", None) or ())
     return tuple(lines)
 
@@ -106,7 +106,7 @@ def _cable_lines(wires: Iterable[Any]) -> list[BomLine]:
         out.append(BomLine(
             f"cable:{material} {size}", f"Cable, {material}, {size}", qty, "m",
             f"{CONDUCTORS_PER_RUN} conductors x one-way length of: "
-            + ", ".join(runs[(material, size)]) + " (rounded up to the metre)", "wires"))
+            + ", ".join(runs[(material, size)]) + " (rounded up to the metre)"))
     return out
 
 
@@ -133,8 +133,7 @@ def _protection_lines(design: SystemDesign) -> list[BomLine]:
         where = ", ".join(str(field_of(d, "location", field_of(d, "run", ""))) for d in items)
         kind, _, detail = key.partition(":")
         desc = f"{kind.capitalize()} {detail}".strip()
-        out.append(BomLine(key, desc, qty, "each", f"protection schedule: {where}",
-                           "protection"))
+        out.append(BomLine(key, desc, qty, "each", f"protection schedule: {where}"))
     return out
 
 
