@@ -116,3 +116,33 @@ def test_html_prints_on_a4_and_letter_and_reads_on_a_phone(html_text):
 
 def test_html_states_the_code_deferral(html_text):
     assert "defers to local electrical codes and licensed practice" in html_text
+
+
+def _quick(csv_path):
+    from offgrid.climate.files import load_climate
+    from offgrid.project.loads_csv import load_loads_csv
+    from offgrid.project.model import ClimateChoice, Project, ProjectInfo, Site
+
+    climate = load_climate("kisanga-ridge-demo")
+    return Project(info=ProjectInfo(name=f"Demo: {csv_path.stem}", demo=True),
+                   site=Site(name="Kisanga Ridge (demo)", latitude_deg=climate.latitude_deg),
+                   climate=ClimateChoice(ref="kisanga-ridge-demo"),
+                   loads=load_loads_csv(csv_path))
+
+
+@pytest.mark.parametrize("name", ["household-kit", "primary-school", "radio-repeater",
+                                  "rural-clinic", "water-pump"])
+def test_every_demo_load_list_gives_a_complete_report(name):
+    from offgrid.paths import load_profiles_dir
+
+    project = _quick(load_profiles_dir() / f"{name}.csv")
+    html = make_report(project, None, "html", with_charts=False)
+    c = _Checker()
+    c.feed(html)
+    assert not c.errors and not c.stack
+    for key in SECTION_KEYS:
+        if key in ("reliability", "variants"):  # no simulation, no variants in these
+            continue
+        assert f'id="s-{key}"' in html, (name, key)
+    text = make_report(project, None, "txt")
+    assert max(len(line) for line in text.splitlines()) <= 80
