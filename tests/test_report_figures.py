@@ -124,3 +124,43 @@ def test_every_reason_of_the_design_is_in_the_report(demo_report):
         assert path in shown, path
         assert shown[path].formula == reason.formula
         assert shown[path].source == reason.source
+
+
+def test_reliability_figures_equal_simulate_json():
+    """With --simulate, the reliability figures are those of ``offgrid simulate --json``."""
+    import io
+    import json
+    from contextlib import redirect_stdout
+
+    from offgrid.cli import main
+    from offgrid.report import simulate_for_report
+    from offgrid.report.build import RELIABILITY_FIGURES
+
+    buf = io.StringIO()
+    with redirect_stdout(buf):
+        assert main(["simulate", "--demo", "--json", "--years", "8", "--no-sweep"]) == 0
+    data = json.loads(buf.getvalue())
+    project, base = demo()
+    study = simulate_for_report(project, base, years=8, seed=1, with_tradeoff=False)
+    report = build_report(project, design(project, base), base=base, reliability=study,
+                          with_charts=False, with_variants=False)
+    scale = {f"reliability.{a}": s for a, _, s, _, _ in RELIABILITY_FIGURES}
+    checked = 0
+    for sec in report.sections:
+        for block in sec.blocks:
+            if isinstance(block, Figures):
+                for item in block.items:
+                    if item.path in scale and item.path != "reliability.shed_days":
+                        expected = at_path(data, item.path) * scale[item.path]
+                        assert_shown_equals(item.cell.text, expected, item.path)
+                        checked += 1
+    assert checked >= 10
+    # the lifecycle cost uses the simulated battery life and served share
+    from offgrid.report.bom import bill_of_materials
+    from offgrid.report.costs import lifecycle_cost
+
+    d = design(project, base)
+    cost = lifecycle_cost(project, d, bill_of_materials(project, d), study)
+    assert cost.battery_life_years == data["reliability"]["wear"]["expected_life_years"]
+    assert cost.served_fraction == pytest.approx(1 - data["reliability"]["unmet_fraction"],
+                                                 abs=1e-6)  # the JSON rounds to 6 places

@@ -146,3 +146,18 @@ def test_every_demo_load_list_gives_a_complete_report(name):
         assert f'id="s-{key}"' in html, (name, key)
     text = make_report(project, None, "txt")
     assert max(len(line) for line in text.splitlines()) <= 80
+
+
+def test_simulated_report_has_reliability_and_its_charts():
+    project, base = demo()
+    html = make_report(project, base, "html", simulate=True, years=5, with_variants=False)
+    c = _Checker()
+    c.feed(html)
+    assert not c.errors and not c.stack
+    for key in SECTION_KEYS:
+        if key != "variants":
+            assert f'id="s-{key}"' in html, key
+    assert 'id="c-soc"' in html and 'id="c-tradeoff"' in html
+    assert c.tags.get("svg", 0) >= 3
+    assert "http:" not in html and "//" not in html
+    assert "synthetic weather" in html  # the simulation's caution is carried over

@@ -26,6 +26,14 @@ def register(sub) -> None:
     p.add_argument("--no-variants", action="store_true",
                    help="leave out the side-by-side comparison of the project's variants")
     p.add_argument("--bom", metavar="CSV", help="also write the bill of materials as CSV")
+    sim = p.add_argument_group("reliability")
+    sim.add_argument("--simulate", action="store_true",
+                     help="run the reliability simulation and include it (LOLP, state of "
+                          "charge, battery life, trade-off; about a second more)")
+    sim.add_argument("--years", default="30", metavar="N",
+                     help="with --simulate: years of weather (default 30)")
+    sim.add_argument("--seed", default="1", metavar="S",
+                     help="with --simulate: seed of the weather generator (default 1)")
     p.set_defaults(func=run)
 
 
@@ -44,6 +52,14 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.result import DesignError
 
     fmt = choose_format(args.format, args.output)
+    years, seed = 30, 1
+    if args.simulate:
+        from offgrid.simulate.weather import check_seed, check_years
+
+        try:
+            years, seed = check_years(args.years), check_seed(args.seed)
+        except ValueError as exc:
+            fail(str(exc))
     out = Path(args.output) if args.output else None
     bom_path = Path(args.bom) if args.bom else None
     if out is not None:
@@ -62,7 +78,8 @@ def run(args: argparse.Namespace) -> int:
     try:
         text = make_report(project, base, fmt, design=result,
                            with_charts=False if args.no_charts else None,
-                           with_variants=not args.no_variants)
+                           with_variants=not args.no_variants, simulate=args.simulate,
+                           years=years, seed=seed)
     except (ValueError, DesignError) as exc:
         fail(f"cannot build the report: {exc}; no report was written", code=3)
     if bom_path is not None:

@@ -37,13 +37,33 @@ def render(report, fmt: str) -> str:
     raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")
 
 
+def simulate_for_report(project: Project, base: Path | None = None, *, years: int = 30,
+                        seed: int | None = 1, with_tradeoff: bool = True):
+    """The reliability study of a project for its report (the simulation's own runner).
+
+    The trade-off's cheapest point is priced from the project's price list when the module
+    and the battery unit have prices.
+    """
+    from offgrid.report.bom import bill_of_materials
+    from offgrid.report.costs import tradeoff_prices
+    from offgrid.simulate.run import simulate_project
+    from offgrid.sizing import design as run_design
+
+    prices = tradeoff_prices(project, bill_of_materials(project, run_design(project, base)))
+    return simulate_project(project, base, years=years, seed=seed, prices=prices,
+                            with_tradeoff=with_tradeoff)
+
+
 def make_report(project: Project, base: Path | None = None, fmt: str = "html", *,
                 reliability: Any = None, with_charts: bool | None = None,
-                with_variants: bool = True, design=None) -> str:
+                with_variants: bool = True, design=None, simulate: bool = False,
+                years: int = 30, seed: int | None = 1) -> str:
     """Design ``project`` (unless ``design`` is given) and render its report.
 
-    Raises :class:`~offgrid.result.DesignError` when the project does not design.
-    Charts are drawn for HTML only unless ``with_charts`` says otherwise.
+    ``simulate`` runs the reliability study (and simulates each variant) unless a study is
+    given as ``reliability``.  Raises :class:`~offgrid.result.DesignError` when the project
+    does not design, ValueError for bad simulation settings.  Charts are drawn for HTML only
+    unless ``with_charts`` says otherwise.
     """
     from offgrid.report.build import build_report
     from offgrid.sizing import design as run_design
@@ -52,6 +72,18 @@ def make_report(project: Project, base: Path | None = None, fmt: str = "html", *
         raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")
     d = design if design is not None else run_design(project, base)
     charts = (fmt == "html") if with_charts is None else with_charts
+    comparison = None
+    if simulate:
+        if reliability is None:
+            reliability = simulate_for_report(project, base, years=years, seed=seed)
+        if with_variants and project.variants:
+            from offgrid.report.variants import compare_variants
+
+            def one(proj, _design):
+                return simulate_for_report(proj, base, years=years, seed=seed,
+                                           with_tradeoff=False).reliability
+
+            comparison = compare_variants(project, base, simulate=one)
     report = build_report(project, d, base=base, reliability=reliability, with_charts=charts,
-                          with_variants=with_variants)
+                          with_variants=with_variants, comparison=comparison)
     return render(report, fmt)

@@ -672,33 +672,138 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
     return Section("costs", "Costs over the project life", tuple(blocks))
 
 
+#: Reliability figures: attribute path in the simulation's record, label, scale, unit, digits.
+RELIABILITY_FIGURES: tuple[tuple[str, str, float, str, int], ...] = (
+    ("lolp", "Loss-of-load probability", 100.0, "%", 3),
+    ("unmet_fraction", "Unmet energy", 100.0, "%", 3),
+    ("lolp_critical", "Loss-of-load probability, critical loads", 100.0, "%", 3),
+    ("unmet_fraction_critical", "Unmet energy, critical loads", 100.0, "%", 3),
+    ("shed_days", "Days with shedding", 1.0, "days", 0),
+    ("longest_shed_run_days", "Longest run of shedding days", 1.0, "days", 0),
+    ("days_below_soc", "Days below the charge threshold", 1.0, "days", 0),
+    ("lolp_end_of_life", "Loss-of-load probability at end of battery life", 100.0, "%", 3),
+    ("lolp_measured", "Loss-of-load probability, measured years alone", 100.0, "%", 3),
+    ("wear.equivalent_full_cycles_per_year", "Equivalent full cycles per year", 1.0, "", 0),
+    ("wear.cycle_life_years", "Battery cycle life", 1.0, "years", 1),
+    ("wear.calendar_life_years", "Battery calendar life", 1.0, "years", 1),
+    ("wear.expected_life_years", "Battery expected life", 1.0, "years", 1),
+    ("pv_kwh_per_year", "PV energy to the battery bus", 1.0, "kWh/year", 0),
+    ("spilled_fraction", "PV energy spilled (battery full)", 100.0, "%", 1),
+    ("battery_loss_kwh_per_year", "Battery losses", 1.0, "kWh/year", 0),
+    ("demand_kwh_per_year", "Demand at the battery", 1.0, "kWh/year", 0),
+)
+
+
+def _attr(obj: Any, dotted: str) -> Any:
+    for part in dotted.split("."):
+        obj = getattr(obj, part, None)
+        if obj is None:
+            return None
+    return obj
+
+
 def _reliability(ri: ReportInputs) -> Section | None:
-    r = ri.reliability
-    if r is None:
+    study = ri.reliability
+    if study is None:
         return None
-    rows = []
-    for label, attr, scale, unit, digits in (
-            ("Loss-of-load probability", "lolp", 100.0, "%", 2),
-            ("Unmet energy", "unmet_fraction", 100.0, "%", 2),
-            ("Years simulated", "years", 1.0, "", 0),
-            ("Mean state of charge", "mean_soc", 100.0, "%", 1),
-            ("Battery cycles per year", "cycles_per_year", 1.0, "", 0),
-            ("Battery life", "battery_life_years", 1.0, "years", 1)):
-        v = getattr(r, attr, None)
-        if isinstance(v, int | float) and math.isfinite(v):
-            rows.append((_c(label), Cell(f"{v * scale:,.{digits}f} {unit}".strip(), float(v),
-                                         f"reliability.{attr}")))
-    blocks: list[Block] = [Table("reliability", ("Figure", "Value"), tuple(rows), ("l", "r"))]
-    method = getattr(r, "method", None) or getattr(r, "source", None)
-    if method:
-        blocks.append(Paragraph(f"Method: {method}"))
-    hist = getattr(r, "soc_histogram", None)
-    if hist is not None and ri.charts:
-        edges, share = field_of(hist, "edges"), field_of(hist, "share_pct")
-        if edges is not None and share is not None:
-            blocks.append(Chart("soc", "State-of-charge distribution", charts.histogram_svg(
-                [100 * x for x in edges], share, "state of charge (%)")))
+    rel = getattr(study, "reliability", study)
+    blocks: list[Block] = []
+    weather = getattr(study, "weather", None) or {}
+    years = getattr(rel, "years", None)
+    if years is not None:
+        seed = getattr(rel, "seed", None)
+        blocks.append(Paragraph(
+            f"Energy balance of this design, {getattr(rel, 'mode', 'daily')} steps, over "
+            f"{years} years of weather ({getattr(rel, 'measured_years', 0)} measured, the rest "
+            f"synthetic; seed {'random' if seed is None else seed}). Weather: "
+            f"{weather.get('source') or getattr(rel, 'weather_source', '')}."))
+    reasons = getattr(rel, "reasons", {}) or {}
+    items = []
+    for attr, label, scale, unit, digits in RELIABILITY_FIGURES:
+        v = _attr(rel, attr)
+        if not isinstance(v, int | float) or isinstance(v, bool) or not math.isfinite(v):
+            continue
+        shown = v * scale
+        if attr == "shed_days" and getattr(rel, "days", None):
+            text = f"{int(v):,d} of {int(rel.days):,d} days"
+        else:
+            text = f"{shown:,.{digits}f} {unit}".strip()
+        r = reasons.get(attr)
+        items.append(FigureItem(f"reliability.{attr}", label, Cell(text, float(shown),
+                                                                 f"reliability.{attr}"),
+                                r.formula if r else "", r.inputs if r else (),
+                                r.source if r else ""))
+    if items:
+        blocks.append(Figures(tuple(items), "Reliability figures"))
+    months = getattr(rel, "months", None) or ()
+    if len(months) == 12:
+        rows = [_month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
+                _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
+                _month_row("SoC p50 %", [100 * m.soc_min_p50 for m in months], None),
+                _month_row("SoC p95 %", [100 * m.soc_min_p95 for m in months], None)]
+        blocks.append(Table("reliability-months", ("", *MONTHS), tuple(rows),
+                            ("l",) + ("r",) * 12,
+                            "By month: share of days with shedding, and the 5th, 50th and 95th "
+                            "percentiles of the day's lowest state of charge."))
+        worst = getattr(rel, "worst_year_soc_min", None) or ()
+        svg = charts.soc_by_month_svg(
+            [m.soc_min_p5 for m in months], [m.soc_min_p50 for m in months],
+            [m.soc_min_p95 for m in months], worst, getattr(rel, "max_dod", None)
+            or ri.design.battery.max_dod) if ri.charts else ""
+        text = charts.text_bars(MONTHS, (("p5", "#", [100 * m.soc_min_p5 for m in months]),),
+                                78, "% lowest SoC")
+        blocks.append(Chart("soc", "State of charge through the year", svg, tuple(text),
+                            "Lowest state of charge of the day: 5th to 95th percentile by month "
+                            "(band), median (line) and the year with the most shedding (thin)."))
+    tr = getattr(study, "tradeoff", None)
+    if tr is not None:
+        blocks += _tradeoff_blocks(ri, tr)
+    notes = tuple(getattr(rel, "notes", ()) or ()) + tuple(getattr(tr, "notes", ()) or ())
+    if notes:
+        blocks.append(Bullets(notes))
     return Section("reliability", "Reliability", tuple(blocks))
+
+
+def _tradeoff_blocks(ri: ReportInputs, tr: Any) -> list[Block]:
+    blocks: list[Block] = []
+    curves = []
+    rows = []
+    messages: list[str] = []
+    for t in tr.targets:
+        pts = [p for p in t.points]
+        if pts:
+            curves.append((f"LOLP {t.target:.2%}".replace(".00%", "%"),
+                           [p.capacity_wh / 1000 for p in pts], [p.array_w / 1000 for p in pts]))
+        need = t.design_capacity_needed_wh
+        cheapest = "-"
+        if t.cheapest is not None:
+            cheapest = (f"{t.cheapest.array_w:,.0f} W, {t.cheapest.capacity_wh / 1000:,.1f} kWh")
+            if t.cheapest_cost is not None:
+                cheapest += f" ({t.cheapest_cost:,.0f} {ri.project.economics.currency})"
+        rows.append((_c(f"{t.target:.3%}"), _c("yes" if t.design_meets else "no"),
+                     _c("-" if need is None else f"{need / 1000:,.1f} kWh"), _c(cheapest)))
+        if t.message:
+            messages.append(f"LOLP {t.target:.3%}: {t.message}")
+    svg = ""
+    if ri.charts and curves:
+        svg = charts.tradeoff_svg(curves, (tr.design_capacity_wh / 1000, tr.design_array_w / 1000),
+                                  "battery capacity (kWh)", "array power (kW)")
+    blocks.append(Chart("tradeoff", "Array and battery for a target LOLP", svg,
+                        tuple(f"{c[0]}: " + ", ".join(f"{x:.1f} kWh/{y:.2f} kW" for x, y in
+                                                      list(zip(c[1], c[2], strict=True))[:4])
+                              + (" ..." if len(c[1]) > 4 else "") for c in curves),
+                        "Each line joins the array and battery sizes that just meet a target "
+                        "loss-of-load probability; the star is this design "
+                        f"(LOLP {tr.design_lolp:.3%})."))
+    blocks.append(Table("tradeoff", ("Target LOLP", "Met", "Battery needed", "Cheapest point"),
+                        tuple(rows), ("r", "l", "r", "l"),
+                        "Met: this design meets the target. Battery needed: on the curve at this "
+                        "design's array size. Cheapest point: array and battery alone, priced "
+                        "per W of module and per kWh of battery unit from the price list.",
+                        wrap=(3,)))
+    if messages:
+        blocks.append(Bullets(tuple(messages)))
+    return blocks
 
 
 def _variants(ri: ReportInputs) -> Section | None:
@@ -735,6 +840,9 @@ def _cautions(ri: ReportInputs) -> Section:
     if d.warnings:
         blocks.append(Bullets(tuple(f"{n.message} [{n.code}]" for n in d.warnings), "warning"))
     cautions = list(d.cautions)
+    for extra in getattr(ri.reliability, "cautions", ()) or ():
+        if extra not in cautions:
+            cautions.append(extra)
     if not any("defers to local electrical code" in c for c in cautions):
         cautions.append(DEFERS_TO_CODE)
     blocks.append(Bullets(tuple(cautions), "caution"))

@@ -96,8 +96,9 @@ def supply_demand_svg(demand_wh_day: Sequence[float], supply_wh_day: Sequence[fl
         ax.set_ylabel("kWh per day")
         ax.set_ylim(bottom=0)
         top = max(max(demand_wh_day), max(supply_wh_day)) / 1000.0
-        ax.annotate("design month", (design_month - 1, top * 1.02), ha="center",
-                    fontsize=8, color=GREY)
+        ax.annotate("design month", (design_month - 1, demand_wh_day[design_month - 1]
+                                     / 1000.0 + top * 0.03), ha="center", fontsize=8,
+                    color=GREY)
         ax.set_ylim(0, top * 1.15)
         ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.1), ncols=2, fontsize=8)
         return _to_svg(fig, title)
@@ -150,6 +151,33 @@ def histogram_svg(edges: Sequence[float], share: Sequence[float], xlabel: str,
                alpha=0.8, edgecolor="white")
         ax.set_xlabel(xlabel)
         ax.set_ylabel("share of time (%)")
+        return _to_svg(fig, title)
+
+
+def soc_by_month_svg(p5: Sequence[float], p50: Sequence[float], p95: Sequence[float],
+                     worst_year: Sequence[float], max_dod: float | None = None,
+                     title: str = "State of charge through the year") -> str:
+    """Band of the day's lowest state of charge by month, its median, and the worst year."""
+    plt = _plt()
+    with plt.rc_context(_STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 2.8))
+        x = [k + 0.5 for k in range(12)]
+        ax.fill_between(x, [100 * v for v in p5], [100 * v for v in p95], color=SUPPLY,
+                        alpha=0.25, step="mid", label="5th-95th percentile")
+        ax.step(x, [100 * v for v in p50], where="mid", color=SUPPLY, linewidth=1.6,
+                label="median")
+        if len(worst_year) > 1:
+            n = len(worst_year)
+            ax.plot([12.0 * k / n for k in range(n)], [100 * v for v in worst_year],
+                    color=DEMAND, linewidth=0.7, label="year with most shedding")
+        if max_dod is not None:
+            ax.axhline(100 * (1 - max_dod), color=GREY, linestyle=":", linewidth=1,
+                       label="lowest allowed")
+        ax.set_xlim(0, 12)
+        ax.set_xticks(x, MONTHS)
+        ax.set_ylim(0, 100)
+        ax.set_ylabel("lowest SoC of the day (%)")
+        ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.1), ncols=4, fontsize=7)
         return _to_svg(fig, title)
 
 

@@ -231,11 +231,13 @@ def battery_life(project: Project, reliability=None) -> tuple[float, str]:
     if e.battery_life_years is not None:
         return float(e.battery_life_years), "project file (economics.battery_life_years)"
     sim_life = None
-    if reliability is not None:
+    rel = getattr(reliability, "reliability", reliability)  # a whole study or its record
+    if rel is not None:
+        wear = getattr(rel, "wear", None)
+        sim_life = getattr(wear, "expected_life_years", None) if wear is not None else None
         for name in ("battery_life_years", "battery_life"):
-            sim_life = getattr(reliability, name, None)
-            if sim_life is not None:
-                break
+            if sim_life is None:
+                sim_life = getattr(rel, name, None)
     if isinstance(sim_life, int | float) and math.isfinite(sim_life) and sim_life > 0:
         return float(sim_life), "reliability simulation (battery wear)"
     return BATTERY_LIFE_PRESET_YEARS[project.battery.chemistry], BATTERY_LIFE_SOURCE
@@ -252,10 +254,11 @@ def delivered_energy_kwh_year(design: SystemDesign, served_fraction: float = 1.0
 
 
 def _served_fraction(reliability) -> float:
-    if reliability is None:
+    rel = getattr(reliability, "reliability", reliability)
+    if rel is None:
         return 1.0
     for name in ("unmet_fraction", "unmet_energy_fraction"):
-        v = getattr(reliability, name, None)
+        v = getattr(rel, name, None)
         if isinstance(v, int | float) and math.isfinite(v) and 0 <= v <= 1:
             return 1.0 - float(v)
     return 1.0
@@ -324,6 +327,22 @@ def lifecycle_cost(project: Project, design: SystemDesign, bom: tuple[BomLine, .
     return LifecycleCost(e.currency, tuple(lines), (), parts, install, capital, upkeep,
                          upkeep_pw, rep_pw, lcc, energy, energy * pwf_e, per_kwh, pwf_up, pwf_e,
                          e, life_b, life_src, served, reasons)
+
+
+def tradeoff_prices(project: Project, bom: tuple[BomLine, ...]) -> dict[str, float] | None:
+    """Array price per W and battery price per kWh from the price list, for the trade-off.
+
+    None unless both the module and the battery unit are priced.
+    """
+    m, b = project.module, project.battery
+    mod = next((ln for ln in bom if ln.kind == "module"), None)
+    bat = next((ln for ln in bom if ln.kind == "battery"), None)
+    pm = price_for(mod.key, project.prices) if mod else None
+    pb = price_for(bat.key, project.prices) if bat else None
+    if pm is None or pb is None:
+        return None
+    return {"array_per_w": pm / m.pmax_w,
+            "battery_per_kwh": pb / (b.nominal_voltage_v * b.capacity_ah / 1000.0)}
 
 
 def money(value: float | None, currency: str = "") -> str:
