@@ -50,6 +50,34 @@ def field_of(obj: Any, name: str, default: Any = None) -> Any:
     return getattr(obj, name, default)
 
 
+def electrical_of(design: SystemDesign) -> Any:
+    """The electrical design attached to a design (wires, protection, curves), or None."""
+    return getattr(design, "electrical", None)
+
+
+def wires_of(design: SystemDesign) -> tuple[Any, ...]:
+    er = electrical_of(design)
+    if er is not None:
+        return tuple(getattr(er, "wires", ()) or ())
+    return tuple(getattr(design, "wires", ()) or ())
+
+
+def devices_of(design: SystemDesign) -> tuple[Any, ...]:
+    er = electrical_of(design)
+    prot = getattr(er, "protection", None) if er is not None else getattr(
+        design, "protection", None)
+    if prot is None:
+        return ()
+    if isinstance(prot, list | tuple):
+        return tuple(prot)
+    return tuple(getattr(prot, "devices", ()) or ())
+
+
+def kind_key(kind: str) -> str:
+    """A device kind as a part-key word: ``'fuse or breaker' -> 'fuse-or-breaker'``."""
+    return "-".join(str(kind).lower().split())
+
+
 def _num(value: Any) -> str:
     return f"{value:g}" if isinstance(value, int | float) else str(value)
 
@@ -81,7 +109,7 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
             f"inverter:{inv.continuous_w:g} W", f"Inverter, {inv.continuous_w:g} W continuous, "
             f"{inv.surge_w:g} W surge, {b.system_voltage_v} V DC input", 1.0, "each",
             "one inverter for the AC loads"))
-    lines += _cable_lines(getattr(design, "wires", None) or ())
+    lines += _cable_lines(wires_of(design))
     return tuple(lines)
 
 
@@ -112,16 +140,16 @@ def _cable_lines(wires: Iterable[Any]) -> list[BomLine]:
 
 def _protection_lines(design: SystemDesign) -> list[BomLine]:
     """Fuses, breakers and disconnects of the protection schedule, grouped by kind and rating."""
-    devices = getattr(design, "protection", None) or ()
+    devices = devices_of(design)
     grouped: dict[str, list[Any]] = {}
     order: list[str] = []
     for d in devices:
-        kind = str(field_of(d, "kind", field_of(d, "type", "device")))
+        kind = kind_key(field_of(d, "kind", field_of(d, "type", "device")))
         rating = field_of(d, "rating_a")
         volt = field_of(d, "voltage_v")
         detail = f"{_num(rating)} A" if rating is not None else ""
         if volt:
-            detail += f" {_num(volt)} V"
+            detail += f" {math.ceil(float(volt) - 1e-9)} V"
         key = f"{kind}:{detail.strip()}" if detail.strip() else kind
         if key not in grouped:
             order.append(key)
@@ -129,12 +157,21 @@ def _protection_lines(design: SystemDesign) -> list[BomLine]:
     out = []
     for key in order:
         items = grouped[key]
-        qty = sum(float(field_of(d, "count", field_of(d, "quantity", 1)) or 1) for d in items)
+        qty = sum(_count(d) for d in items)
         where = ", ".join(str(field_of(d, "location", field_of(d, "run", ""))) for d in items)
         kind, _, detail = key.partition(":")
-        desc = f"{kind.capitalize()} {detail}".strip()
+        desc = f"{kind.replace('-', ' ').capitalize()} {detail}".strip()
+        if detail.endswith(" V"):
+            amps, _, volts = detail.rpartition(" ")[0].rpartition(" ")
+            desc = f"{kind.replace('-', ' ').capitalize()} {amps}".strip() + \
+                f", at least {volts} V DC"
         out.append(BomLine(key, desc, qty, "each", f"protection schedule: {where}"))
     return out
+
+
+def _count(device: Any) -> float:
+    n = field_of(device, "count", field_of(device, "quantity", 1))
+    return 1.0 if n is None else float(n)
 
 
 def bom_csv(lines: Iterable[BomLine], prices: dict[str, float] | None = None,

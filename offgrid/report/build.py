@@ -20,7 +20,14 @@ import numpy as np
 from offgrid.project.loads_csv import format_months
 from offgrid.project.model import MonthlyClimate, Project
 from offgrid.report import charts
-from offgrid.report.bom import BomLine, bill_of_materials, field_of
+from offgrid.report.bom import (
+    BomLine,
+    bill_of_materials,
+    devices_of,
+    electrical_of,
+    field_of,
+    wires_of,
+)
 from offgrid.report.costs import LifecycleCost, lifecycle_cost, money
 from offgrid.report.document import (
     Block,
@@ -410,13 +417,21 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
         f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day. The array is sized for this month; every other "
         "month has at least as much sun for its demand.")]
     rows = [_month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
-            _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day"),
-            _month_row("Demand/sun", s.demand_to_sun, "site.demand_to_sun")]
+            _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day")]
+    harvests = []
+    for label, attr in (("MPPT harvest", "harvest_mppt_wh_day"),
+                        ("PWM harvest", "harvest_pwm_wh_day")):
+        values = getattr(a, attr, ()) or ()
+        if len(values) == 12:
+            rows.append(_month_row(f"{label}, Wh/day", values, f"array.{attr}"))
+            harvests.append((label, values))
+    rows.append(_month_row("Demand/sun", s.demand_to_sun, "site.demand_to_sun"))
     blocks.append(Table("supply-demand", ("", *MONTHS), tuple(rows), ("l",) + ("r",) * 12,
-                        "Demand and array supply at the battery; demand/sun in Wh per kWh/m2 "
-                        "of array-plane insolation."))
-    svg = charts.supply_demand_svg(lr.daily_energy_wh, a.supply_wh_day, s.design_month) \
-        if ri.charts else ""
+                        "Demand and array supply at the battery (supply: the worst-month "
+                        "derate chain; harvest: from the I-V curves through the day, where "
+                        "computed); demand/sun in Wh per kWh/m2 of array-plane insolation."))
+    svg = charts.supply_demand_svg(lr.daily_energy_wh, a.supply_wh_day, s.design_month,
+                                   others=harvests) if ri.charts else ""
     text = charts.text_bars(MONTHS, (("demand", "#", lr.daily_energy_wh),
                                      ("supply", "=", a.supply_wh_day)), 78, "Wh/day")
     blocks.append(Chart("supply-demand", "Supply and demand by month", svg, tuple(text),
@@ -428,42 +443,63 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
         f"Smallest margin: {MONTHS[low]}, supply {a.supply_wh_day[low]:,.0f} Wh/day for "
         f"{lr.daily_energy_wh[low]:,.0f} Wh/day of demand "
         f"({a.supply_wh_day[low] / lr.daily_energy_wh[low] - 1:+.0%})."))
-    iv = _iv_chart(ri)
-    if iv is not None:
-        blocks.append(iv)
+    blocks += _iv_blocks(ri)
     return Section("design-month", "Design month", tuple(blocks))
 
 
-def _iv_chart(ri: ReportInputs) -> Chart | None:
-    """The design-month I-V and P-V curves, when the electrical design provides them."""
+def _iv_blocks(ri: ReportInputs) -> list[Block]:
+    """The design-month I-V and P-V curves with the MPP and the PWM point (electrical design)."""
     d = ri.design
-    curve = getattr(d, "iv_curve", None) or getattr(d, "curve", None)
-    mpp = getattr(d, "mpp", None)
+    er = electrical_of(d)
+    curve = getattr(er, "curve", None) if er is not None else None
+    mpp = getattr(er, "mpp", None) if er is not None else None
     if curve is None or mpp is None:
-        return None
-    v = field_of(curve, "voltage_v")
-    i = field_of(curve, "current_a")
-    if v is None or i is None or len(v) < 2:
-        return None
-    vm, im = field_of(mpp, "voltage_v", field_of(mpp, "vmp_v")), field_of(
-        mpp, "current_a", field_of(mpp, "imp_a"))
-    if vm is None or im is None:
-        return None
-    op = getattr(d, "pwm_point", None) or field_of(mpp, "pwm", None)
+        return []
+    v = np.asarray(field_of(curve, "voltage_v", ()), dtype=float)
+    i = np.asarray(field_of(curve, "current_a", ()), dtype=float)
+    if len(v) < 2 or len(v) != len(i):
+        return []
+    vm, im = float(mpp.vmp_v), float(mpp.imp_a)
+    harvest = getattr(er, "harvest", None)
+    strings = getattr(er, "strings", None)
+    series = getattr(getattr(strings, "layout", None), "series", None) or d.array.modules_series
     operating = None
-    if op is not None:
-        vo, io_ = field_of(op, "voltage_v"), field_of(op, "current_a")
-        if vo is not None and io_ is not None:
-            operating = (float(vo), float(io_))
-    svg = charts.iv_pv_svg(v, i, (float(vm), float(im)), operating) if ri.charts else ""
-    text = [f"Maximum power point: {float(vm):.1f} V, {float(im):.2f} A, "
-            f"{float(vm) * float(im):,.0f} W"]
+    v_chg = getattr(harvest, "charging_voltage_v", None)
+    if v_chg:
+        vo = float(v_chg) / series
+        if vo <= v[-1]:
+            operating = (vo, float(np.interp(vo, v, i)))
+    label = "PWM operating point" if d.controller.type == "pwm" else "PWM point (comparison)"
+    svg = charts.iv_pv_svg(v, i, (vm, im), operating, label) if ri.charts else ""
+    text = [f"Maximum power point: {vm:.1f} V, {im:.2f} A, {vm * im:,.0f} W (one module)"]
     if operating:
-        text.append(f"PWM operating point: {operating[0]:.1f} V, {operating[1]:.2f} A, "
-                    f"{operating[0] * operating[1]:,.0f} W")
-    return Chart("iv-curve", "I-V and P-V curves in the design month", svg, tuple(text),
-                 "The array's current and power against voltage at the design month's "
-                 "irradiance and cell temperature.")
+        text.append(f"{label}: {operating[0]:.1f} V, {operating[1]:.2f} A, "
+                    f"{operating[0] * operating[1]:,.0f} W (one module)")
+    month = MONTHS[d.site.design_month - 1]
+    blocks: list[Block] = [Chart(
+        "iv-curve", f"I-V and P-V curves of one module, {month} at noon", svg, tuple(text),
+        f"One module at {mpp.irradiance_w_m2:,.0f} W/m2 and {mpp.cell_temp_c:.1f} C cell "
+        "temperature (the design month's mean day at solar noon). A PWM controller holds the "
+        "array at battery voltage: the square marks that point.")]
+    rows = [(_c("Irradiance"), Cell(f"{mpp.irradiance_w_m2:,.0f} W/m2", float(
+                mpp.irradiance_w_m2), "mpp.irradiance_w_m2")),
+            (_c("Cell temperature"), Cell(f"{mpp.cell_temp_c:.1f} C", float(mpp.cell_temp_c),
+                                          "mpp.cell_temp_c")),
+            (_c("Vmp"), Cell(f"{vm:.2f} V", vm, "mpp.vmp_v")),
+            (_c("Imp"), Cell(f"{im:.2f} A", im, "mpp.imp_a")),
+            (_c("Pmp"), Cell(f"{mpp.pmp_w:,.1f} W", float(mpp.pmp_w), "mpp.pmp_w")),
+            (_c("Fill factor"), Cell(f"{mpp.fill_factor:.3f}", float(mpp.fill_factor),
+                                     "mpp.fill_factor"))]
+    if operating:
+        rows.append((_c(f"{label}, power"), _c(f"{operating[0] * operating[1]:,.1f} W "
+                                               f"({operating[0] * operating[1] / mpp.pmp_w:.0%} "
+                                               "of Pmp)")))
+    if harvest is not None and getattr(harvest, "pwm_vs_mppt_pct", None) is not None:
+        rows.append((_c("PWM harvest against MPPT, design month"), Cell(
+            f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
+            "electrical.harvest.pwm_vs_mppt_pct")))
+    blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))
+    return blocks
 
 
 def _figures(ri: ReportInputs, tree: dict) -> Section:
@@ -549,28 +585,35 @@ def _strings(ri: ReportInputs, tree: dict) -> Section:
 
 def _wiring(ri: ReportInputs, tree: dict) -> Section:
     d, p = ri.design, ri.project
-    wires = getattr(d, "wires", None) or ()
-    protection = getattr(d, "protection", None) or ()
+    wires = wires_of(d)
+    devices = devices_of(d)
     blocks: list[Block] = []
     if wires:
+        materials = {str(field_of(w, "material", "")) for w in wires}
         rows = []
-        for w in wires:
+        for k, w in enumerate(wires):
+            fuse = field_of(w, "fuse_a")
             rows.append((
                 _c(str(field_of(w, "run", "?"))),
-                _num(float(field_of(w, "current_a", 0.0)), 1),
-                _num(float(field_of(w, "length_m", 0.0)), 1),
-                _c(str(field_of(w, "material", ""))),
-                _c(str(field_of(w, "size", ""))),
-                _num(float(field_of(w, "drop_pct", 0.0)), 2),
-                _num(float(field_of(w, "ampacity_a", 0.0)), 0),
-                _c("-" if field_of(w, "fuse_a") is None else f"{float(field_of(w, 'fuse_a')):g}"),
+                Cell(str(field_of(w, "count", 1)), float(field_of(w, "count", 1)),
+                     f"wires.{k}.count"),
+                _num(float(field_of(w, "current_a", 0.0)), 1, f"wires.{k}.current_a"),
+                _num(float(field_of(w, "length_m", 0.0)), 1, f"wires.{k}.length_m"),
+                _c(str(field_of(w, "size", "")) + ("" if len(materials) == 1 else
+                                                   f" {field_of(w, 'material', '')}")),
+                _num(float(field_of(w, "drop_pct", 0.0)), 2, f"wires.{k}.drop_pct"),
+                _num(float(field_of(w, "ampacity_a", 0.0)), 0, f"wires.{k}.ampacity_a"),
+                _c("-") if fuse is None else Cell(f"{float(fuse):g}", float(fuse),
+                                                  f"wires.{k}.fuse_a"),
             ))
+        material = f"{materials.pop()} conductors; " if len(materials) == 1 else ""
         blocks.append(Table(
-            "wiring", ("Run", "Current A", "Length m", "Material", "Size", "Drop %",
-                       "Ampacity A", "Fuse A"), tuple(rows),
-            ("l", "r", "r", "l", "l", "r", "r", "r"),
-            "One-way length; drop = 2 x length x current x resistance per metre at conductor "
-            "temperature.", wrap=(0,)))
+            "wiring", ("Run", "Runs", "Current A", "Length m", "Size", "Drop %", "Ampacity A",
+                       "Fuse A"), tuple(rows), ("l", "r", "r", "r", "l", "r", "r", "r"),
+            f"{material}current: the circuit's maximum (NEC 690.8 for PV circuits); length "
+            "one-way; drop = 2 x length x current x resistance per metre at conductor "
+            "temperature; ampacity after the temperature and grouping corrections.",
+            wrap=(0,)))
     else:
         blocks.append(Paragraph(
             "The wiring schedule is not computed for this design: size each conductor for "
@@ -578,19 +621,31 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
             f"limits ({p.choices.drop_limit_array_pct:g} % array, "
             f"{p.choices.drop_limit_battery_pct:g} % battery, {p.choices.drop_limit_load_pct:g} %"
             " loads) before building."))
-    if protection:
+    if devices:
         rows = []
-        for dev in protection:
+        for dev in devices:
             rating = field_of(dev, "rating_a")
+            volt = field_of(dev, "voltage_v")
+            aic = field_of(dev, "interrupt_rating_a")
+            note = str(field_of(dev, "note", "") or "")
+            src = str(field_of(dev, "source", "") or "")
+            if aic:
+                note = f"interrupting rating at least {float(aic):,.0f} A. {note}".strip()
+            if src:
+                note = f"{note} ({src})" if note else src
             rows.append((
-                _c(str(field_of(dev, "kind", field_of(dev, "type", "device")))),
                 _c(str(field_of(dev, "location", field_of(dev, "run", "")))),
+                _c(str(field_of(dev, "kind", "device"))),
                 _c("-" if rating is None else f"{float(rating):g} A"),
-                _c(str(field_of(dev, "count", field_of(dev, "quantity", 1)))),
-                _c(str(field_of(dev, "reason", field_of(dev, "note", "")))),
+                _c("-" if not volt else f"{math.ceil(float(volt) - 1e-9)} V"),
+                _c(str(field_of(dev, "count", 1))),
+                _c(note or "-"),
             ))
-        blocks.append(Table("protection", ("Device", "Where", "Rating", "Qty", "Why"),
-                            tuple(rows), ("l", "l", "r", "r", "l"), wrap=(1, 4)))
+        blocks.append(Table("protection", ("Where", "Device", "Rating", "DC volts", "Qty",
+                                           "Notes"), tuple(rows),
+                            ("l", "l", "r", "r", "r", "l"),
+                            "DC volts: the least DC voltage rating the device must carry.",
+                            wrap=(0, 1, 5)))
     return Section("wiring", "Wiring and protection schedule", tuple(blocks))
 
 

@@ -80,7 +80,8 @@ def _to_svg(fig: Any, title: str) -> str:
 
 
 def supply_demand_svg(demand_wh_day: Sequence[float], supply_wh_day: Sequence[float],
-                      design_month: int, title: str = "Supply and demand by month") -> str:
+                      design_month: int, title: str = "Supply and demand by month",
+                      others: Sequence[tuple[str, Sequence[float]]] = ()) -> str:
     """Bars of daily demand at the battery, line of array supply; the design month marked."""
     plt = _plt()
     with plt.rc_context(_STYLE):
@@ -92,10 +93,15 @@ def supply_demand_svg(demand_wh_day: Sequence[float], supply_wh_day: Sequence[fl
         bars[design_month - 1].set_linewidth(1.2)
         ax.plot(list(x), [v / 1000.0 for v in supply_wh_day], color=SUPPLY, marker="o",
                 linewidth=1.8, markersize=4, label="Array supply to the battery")
+        for (label, values), colour, style in zip(others, (ACCENT, GREY), ("--", ":"),
+                                                  strict=False):
+            ax.plot(list(x), [v / 1000.0 for v in values], color=colour, linestyle=style,
+                    linewidth=1.4, label=label)
         ax.set_xticks(list(x), MONTHS)
         ax.set_ylabel("kWh per day")
         ax.set_ylim(bottom=0)
-        top = max(max(demand_wh_day), max(supply_wh_day)) / 1000.0
+        top = max(max(demand_wh_day), max(supply_wh_day),
+                  *(max(vals) for _, vals in others)) / 1000.0
         ax.annotate("design month", (design_month - 1, demand_wh_day[design_month - 1]
                                      / 1000.0 + top * 0.03), ha="center", fontsize=8,
                     color=GREY)
