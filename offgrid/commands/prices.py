@@ -94,13 +94,21 @@ def run(args: argparse.Namespace) -> int:
         else:
             sys.stdout.write(text)
         return 0
+    from offgrid.report.document import Cell, Table
+    from offgrid.report.text import render_table
+
     cur = project.economics.currency
     missing = []
+    rows = []
     for ln in bom:
         p = price_for(ln.key, project.prices)
         if p is None:
             missing.append(ln.key)
-        print(f"{ln.key:<28} {ln.quantity:>8g} {ln.unit:<5} {money(p, cur):>18}")
+        rows.append((Cell(ln.key), Cell(f"{ln.quantity:g}"), Cell(ln.unit), Cell(money(p)),
+                     Cell(money(None if p is None else p * ln.quantity))))
+    table = Table("prices", ("Part", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
+                  tuple(rows), ("l", "r", "l", "r", "r"), wrap=(0,))
+    print("\n".join(render_table(table)))
     if missing:
         print(f"no price for: {', '.join(missing)}", file=sys.stderr)
         return 1

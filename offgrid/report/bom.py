@@ -92,7 +92,6 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
                 f"{a.modules_series} in series x {a.modules_parallel} string(s) in parallel",
                 "array.module_count"),
     ]
-    lines += _protection_lines(design)
     lines.append(BomLine(
         f"controller:{c.type.upper()} {c.current_a:g} A", f"{c.type.upper()} charge "
         f"controller, {c.current_a:g} A, PV input up to {c.max_pv_voltage_v:g} V, "
@@ -109,6 +108,7 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
             f"inverter:{inv.continuous_w:g} W", f"Inverter, {inv.continuous_w:g} W continuous, "
             f"{inv.surge_w:g} W surge, {b.system_voltage_v} V DC input", 1.0, "each",
             "one inverter for the AC loads"))
+    lines += _protection_lines(design)
     lines += _cable_lines(wires_of(design))
     return tuple(lines)
 

@@ -88,6 +88,22 @@ LABELS: dict[str, str] = {
     "inverter.surge_w": "Inverter surge rating",
     "inverter.required_surge_w": "Starting demand on the inverter",
     "inverter.dc_input_current_a": "Inverter DC input current",
+    "controller.max_pv_voltage_v": "Controller maximum PV voltage",
+    "array.voc_cold_v": "Module Voc at the lowest temperature",
+    "array.vmp_hot_v": "Module Vmp hot",
+    "array.harvest_mppt_wh_day": "MPPT harvest",
+    "array.harvest_pwm_wh_day": "PWM harvest",
+    "module.fit": "Single-diode model of the module",
+    "mpp.vmp_v": "Vmp, one module",
+    "mpp.imp_a": "Imp, one module",
+    "mpp.pmp_w": "Pmp, one module",
+    "mpp.fill_factor": "Fill factor",
+    "mpp.efficiency": "Module efficiency",
+    "strings.max_series": "Most modules in series",
+    "strings.min_series": "Fewest modules in series",
+    "protection.bank_fault_current_a": "Battery bank fault current",
+    "protection.battery_fuse_a": "Battery fuse",
+    "protection.string_fuses": "String fuses",
 }
 
 #: Figures that have no reason of their own in the engine: the reason the report states.
@@ -120,9 +136,15 @@ KEY_FIGURES = ("site.design_month", "site.tilt_deg", "site.azimuth_deg", "site.r
                "battery.nominal_kwh", "battery.usable_kwh", "controller.required_current_a",
                "controller.current_a", "controller.count", "inverter.continuous_w",
                "inverter.surge_w", "inverter.required_surge_w", "inverter.dc_input_current_a")
-GROUP_ORDER = ("site", "loads", "array", "battery", "controller", "inverter")
+GROUP_ORDER = ("site", "loads", "module", "mpp", "array", "strings", "battery", "controller",
+               "inverter", "wires", "protection")
 GROUP_TITLES = {"site": "Site and sun", "loads": "Loads", "array": "Array",
-                "battery": "Battery", "controller": "Charge controller", "inverter": "Inverter"}
+                "battery": "Battery", "controller": "Charge controller", "inverter": "Inverter",
+                "module": "Module model", "mpp": "Maximum power point, design month",
+                "strings": "String window", "wires": "Cables",
+                "protection": "Protection"}
+WIRE_FIELDS = {"size": "conductor size", "drop_pct": "voltage drop", "ampacity_a": "ampacity",
+               "fuse_a": "fuse", "current_a": "current", "length_m": "length"}
 
 
 # ----------------------------------------------------------------------------- formatting
@@ -182,6 +204,42 @@ def lookup(tree: dict[str, Any], path: str) -> Any:
         else:
             return None
     return node
+
+
+def resolve(tree: dict[str, Any], design: SystemDesign, path: str) -> tuple[Any, str]:
+    """A reason's figure and its path in the design's JSON.
+
+    Most reasons are keyed by their JSON path; the electrical design's string-window and
+    protection figures sit under ``electrical.``, and cable runs are keyed by run name
+    (``wires.array.size``) while the JSON lists them (``wires.1.size``).
+    """
+    value = lookup(tree, path)
+    if value is not None:
+        return value, path
+    head, _, rest = path.partition(".")
+    if head == "wires" and "." in rest:
+        key, _, name = rest.partition(".")
+        for k, w in enumerate(wires_of(design)):
+            if field_of(w, "key") == key:
+                where = f"wires.{k}.{name}"
+                return lookup(tree, where), where
+    where = f"electrical.{path}"
+    value = lookup(tree, where)
+    if value is not None:
+        return value, where
+    return None, path
+
+
+def figure_label(design: SystemDesign, path: str) -> str:
+    """The label of a reason's figure; cable runs are named by their run."""
+    head, _, rest = path.partition(".")
+    if head == "wires" and "." in rest:
+        key, _, name = rest.partition(".")
+        for w in wires_of(design):
+            if field_of(w, "key") == key:
+                run = str(field_of(w, "run", key))
+                return f"{run[:1].upper()}{run[1:]}: {WIRE_FIELDS.get(name, name)}"
+    return label_of(path)
 
 
 def label_of(path: str) -> str:
@@ -463,6 +521,9 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
     harvest = getattr(er, "harvest", None)
     strings = getattr(er, "strings", None)
     series = getattr(getattr(strings, "layout", None), "series", None) or d.array.modules_series
+    pwm_layout = getattr(harvest, "pwm_layout", None)
+    if pwm_layout:  # the layout the PWM figures assume (may differ from an MPPT design's)
+        series = int(pwm_layout[0])
     operating = None
     v_chg = getattr(harvest, "charging_voltage_v", None)
     if v_chg:
@@ -474,7 +535,8 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
     text = [f"Maximum power point: {vm:.1f} V, {im:.2f} A, {vm * im:,.0f} W (one module)"]
     if operating:
         text.append(f"{label}: {operating[0]:.1f} V, {operating[1]:.2f} A, "
-                    f"{operating[0] * operating[1]:,.0f} W (one module)")
+                    f"{operating[0] * operating[1]:,.0f} W (one module of {series} in series "
+                    f"at {float(v_chg):.1f} V)")
     month = MONTHS[d.site.design_month - 1]
     blocks: list[Block] = [Chart(
         "iv-curve", f"I-V and P-V curves of one module, {month} at noon", svg, tuple(text),
@@ -518,20 +580,22 @@ def _figures(ri: ReportInputs, tree: dict) -> Section:
     for g in order:
         items = []
         for path in groups[g]:
-            value = lookup(tree, path)
+            value, where = resolve(tree, d, path)
             reason = d.reasons.get(path) or DERIVED.get(path)
             if value is None and reason is None:
                 continue
             if isinstance(value, list):
                 cell = Cell("by month, see the tables")
             elif value is None:
-                cell = Cell("-")
+                cell = Cell("see the formula")
             else:
-                cell = figure_cell(value, path)
+                cell = figure_cell(value, where)
+                if where != path and unit_of(where) != unit_of(path):
+                    cell = figure_cell(value, where, unit_of(path) or unit_of(where))
             if reason is None:
                 reason = Reason("")
-            items.append(FigureItem(path, label_of(path), cell, reason.formula, reason.inputs,
-                                    reason.source if reason.formula else ""))
+            items.append(FigureItem(path, figure_label(d, path), cell, reason.formula,
+                                    reason.inputs, reason.source if reason.formula else ""))
         if items:
             blocks.append(Figures(tuple(items), GROUP_TITLES.get(g, g.capitalize())))
     return Section("figures", "Sized figures and their reasons", tuple(blocks))
@@ -622,30 +686,30 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
             f"{p.choices.drop_limit_battery_pct:g} % battery, {p.choices.drop_limit_load_pct:g} %"
             " loads) before building."))
     if devices:
-        rows = []
+        items = []
         for dev in devices:
             rating = field_of(dev, "rating_a")
             volt = field_of(dev, "voltage_v")
             aic = field_of(dev, "interrupt_rating_a")
-            note = str(field_of(dev, "note", "") or "")
-            src = str(field_of(dev, "source", "") or "")
+            count = field_of(dev, "count", 1)
+            what = str(field_of(dev, "kind", "device"))
+            if rating is not None:
+                what = f"{float(rating):g} A {what}"
+            if volt:
+                what += f", at least {math.ceil(float(volt) - 1e-9)} V DC"
             if aic:
-                note = f"interrupting rating at least {float(aic):,.0f} A. {note}".strip()
+                what += f", interrupting at least {float(aic):,.0f} A"
+            where = str(field_of(dev, "location", field_of(dev, "run", "")))
+            text = f"{where}: {count} x {what}"
+            note = str(field_of(dev, "note", "") or "")
+            if note:
+                text += f"; {note}"
+            src = str(field_of(dev, "source", "") or "")
             if src:
-                note = f"{note} ({src})" if note else src
-            rows.append((
-                _c(str(field_of(dev, "location", field_of(dev, "run", "")))),
-                _c(str(field_of(dev, "kind", "device"))),
-                _c("-" if rating is None else f"{float(rating):g} A"),
-                _c("-" if not volt else f"{math.ceil(float(volt) - 1e-9)} V"),
-                _c(str(field_of(dev, "count", 1))),
-                _c(note or "-"),
-            ))
-        blocks.append(Table("protection", ("Where", "Device", "Rating", "DC volts", "Qty",
-                                           "Notes"), tuple(rows),
-                            ("l", "l", "r", "r", "r", "l"),
-                            "DC volts: the least DC voltage rating the device must carry.",
-                            wrap=(0, 1, 5)))
+                text += f" ({src})"
+            items.append(text)
+        blocks.append(Paragraph("Protective devices and disconnects:"))
+        blocks.append(Bullets(tuple(items)))
     return Section("wiring", "Wiring and protection schedule", tuple(blocks))
 
 

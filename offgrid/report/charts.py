@@ -54,6 +54,11 @@ _STYLE = {
 }
 
 
+def _slug(text: str) -> str:
+    """A short id prefix from a chart title: the initials of its words."""
+    return "g" + "".join(w[0] for w in re.findall(r"[a-z0-9]+", text.lower()))
+
+
 def clean_svg(svg: str) -> str:
     """SVG text fit to sit inside HTML: no prolog, DOCTYPE, metadata or namespace addresses."""
     svg = re.sub(r"<\?xml[^>]*\?>\s*", "", svg)
@@ -68,13 +73,28 @@ def clean_svg(svg: str) -> str:
     return svg.strip()
 
 
+def prefix_ids(svg: str, prefix: str) -> str:
+    """Give every id of one chart a prefix (and every reference to it), so several charts
+    can share a page without their clip paths and glyphs colliding."""
+    ids = set(re.findall(r'\bid="([^"]+)"', svg))
+    if not ids:
+        return svg
+
+    def ref(m: re.Match) -> str:
+        name = m.group(2)
+        return f"{m.group(1)}{prefix}-{name}" if name in ids else m.group(0)
+
+    svg = re.sub(r'(\bid=")([^"]+)', lambda m: f"{m.group(1)}{prefix}-{m.group(2)}", svg)
+    return re.sub(r'(url\(#|href="#)([^)"]+)', ref, svg)
+
+
 def _to_svg(fig: Any, title: str) -> str:
     plt = _plt()
     buf = io.StringIO()
     fig.savefig(buf, format="svg", bbox_inches="tight", metadata={
         "Creator": None, "Date": None, "Format": None, "Type": None})
     plt.close(fig)
-    svg = clean_svg(buf.getvalue())
+    svg = prefix_ids(clean_svg(buf.getvalue()), _slug(title))
     label = title.replace("&", "and").replace("<", "").replace(">", "").replace('"', "")
     return svg.replace("<svg", f'<svg role="img" aria-label="{label}"', 1)
 
@@ -132,17 +152,16 @@ def iv_pv_svg(voltage_v: Sequence[float], current_a: Sequence[float], mpp: tuple
         ax2.set_ylabel("power (W)", color=DEMAND)
         ax2.set_ylim(0, max(p) * 1.12)
         vm, im = mpp
-        ax.plot([vm], [im], "o", color="black", markersize=5)
+        handles = [ax.plot([vm], [im], "o", color="black", markersize=5,
+                           label=f"MPP {vm:.1f} V, {vm * im:.0f} W")[0]]
         ax2.plot([vm], [vm * im], "o", color="black", markersize=5)
-        ax2.annotate(f"MPP {vm:.1f} V, {vm * im:.0f} W", (vm, vm * im),
-                     textcoords="offset points", xytext=(-6, 8), ha="right", fontsize=8)
         if operating is not None:
             vo, io_ = operating
-            ax.plot([vo], [io_], "s", color=ACCENT, markersize=5)
+            handles.append(ax.plot([vo], [io_], "s", color=ACCENT, markersize=5,
+                                   label=f"{operating_label} {vo:.1f} V, {vo * io_:.0f} W")[0])
             ax2.plot([vo], [vo * io_], "s", color=ACCENT, markersize=5)
-            ax2.annotate(f"{operating_label} {vo:.1f} V, {vo * io_:.0f} W", (vo, vo * io_),
-                         textcoords="offset points", xytext=(6, -14), ha="left", fontsize=8,
-                         color=ACCENT)
+        ax.legend(handles=handles, loc="center left", bbox_to_anchor=(0.02, 0.6), fontsize=8,
+                  framealpha=0.9, frameon=True)
         return _to_svg(fig, title)
 
 

@@ -125,8 +125,9 @@ def _figures(f: Figures) -> str:
                 f"{_e(k.replace('_', ' '))} {_e(v)}" for k, v in item.inputs))
         if item.source:
             how.append(f"<b>Source:</b> {_e(item.source)}")
+        path = f' data-path="{_e(item.cell.path)}"' if item.cell.path else ""
         rows.append(f'<tr><th scope="row">{_e(item.label)}</th>'
-                    f'<td class="val" data-path="{_e(item.path)}">{_e(item.cell.text)}</td>'
+                    f'<td class="val"{path}>{_e(item.cell.text)}</td>'
                     f'<td class="how">{"<br>".join(how)}</td></tr>')
     out.append('<div class="scroll"><table class="figs"><thead><tr><th scope="col">Figure</th>'
                '<th class="num" scope="col">Value</th><th scope="col">How it follows</th></tr>'

@@ -152,7 +152,8 @@ def render_text(report: Report) -> str:
                 out += _figure_lines(block)
             elif isinstance(block, Chart):
                 out += _wrap(block.title)
-                out += [line[:WIDTH] for line in block.text]
+                for line in block.text:
+                    out += [line] if len(line) <= WIDTH else _wrap(line, rest="    ")
                 if block.caption:
                     out += _wrap(block.caption)
     out.append("")
