@@ -39,6 +39,9 @@ class Site:
     azimuth_deg: float | None = None  # None: equator-facing (180 north of equator, 0 south)
     albedo: float = 0.2
     battery_temp_c: float | None = None  # battery room temperature; None: site monthly mean
+    # Horizon profile: (azimuth_deg clockwise from north, obstruction elevation_deg) pairs,
+    # interpolated linearly around the circle; empty: open horizon.
+    horizon_deg: list[tuple[float, float]] = field(default_factory=list)
 
 
 @dataclass
@@ -55,6 +58,17 @@ class MonthlyClimate:
     longitude_deg: float | None = None
     elevation_m: float | None = None
     demo: bool = False
+    daily: DailyClimate | None = None  # the daily series of an imported weather year, if any
+
+
+@dataclass
+class DailyClimate:
+    """One value per day of a 365-day year, 1 January first (29 February left out)."""
+
+    insolation_kwh_m2_day: list[float]
+    temp_mean_c: list[float]
+    temp_max_c: list[float]
+    temp_min_c: list[float]
 
 
 @dataclass
@@ -90,7 +104,7 @@ class ModuleSpec:
     voc_v: float = 39.8
     isc_a: float = 9.75
     alpha_isc_pct_per_c: float = 0.05
-    beta_voc_pct_per_c: float = -0.30
+    beta_voc_pct_per_c: float | None = -0.30  # None: not on the datasheet, NEC Table 690.7(A)
     gamma_pmax_pct_per_c: float = -0.40
     cells_in_series: int = 60
     area_m2: float = 1.63
@@ -144,6 +158,32 @@ class DesignChoices:
     drop_limit_array_pct: float = 3.0
     drop_limit_battery_pct: float = 1.0
     drop_limit_load_pct: float = 3.0
+
+
+WireUnits = Literal["awg", "mm2"]
+ConductorMaterial = Literal["copper", "aluminium"]
+
+
+@dataclass
+class WiringChoices:
+    """DC cable runs as the installer will lay them, and the settings to size them.
+
+    Lengths are one-way (from one end of the run to the other), in metres.
+    """
+
+    units: WireUnits = "mm2"  # "awg": NEC sizes (AWG/kcmil); "mm2": IEC 60228 sizes
+    material: ConductorMaterial = "copper"
+    conductor_temp_c: float = 75.0  # conductor temperature for resistance (NEC Table 8 is at 75 C)
+    ambient_temp_c: float | None = None  # for ampacity; None: the site's hottest monthly mean
+    insulation_temp_c: int = 90  # insulation rating, 60, 75 or 90 C
+    string_run_m: float = 5.0  # modules to combiner (each string)
+    array_run_m: float = 15.0  # array or combiner to charge controller
+    controller_battery_m: float = 2.0
+    battery_inverter_m: float = 1.5
+    dc_load_run_m: float = 10.0  # each DC load circuit unless listed below
+    dc_load_runs_m: dict[str, float] = field(default_factory=dict)  # load name -> length
+    battery_short_circuit_a: float | None = None  # one battery unit, datasheet; None: estimate
+    module_max_fuse_a: float | None = None  # module's maximum series fuse, datasheet
 
 
 @dataclass
@@ -200,6 +240,7 @@ class Project:
     prices: list[PriceItem] = field(default_factory=list)
     economics: Economics = field(default_factory=Economics)
     variants: list[Variant] = field(default_factory=list)
+    wiring: WiringChoices = field(default_factory=WiringChoices)
     # Sections that later features own (wiring runs, prices, variants) are kept
     # verbatim so that nothing a user saved is ever dropped.
     extra: dict = field(default_factory=dict)

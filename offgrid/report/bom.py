@@ -87,7 +87,7 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
     a, b, c, inv = design.array, design.battery, design.controller, design.inverter
     m = project.module
     lines = [
-        BomLine(f"module:{m.name}", f"PV module, {m.pmax_w:g} W STC, Vmp {m.vmp_v:g} V, "
+        BomLine(f"module:{m.name}", f"PV module {m.name}, {m.pmax_w:g} W STC, Vmp {m.vmp_v:g} V, "
                 f"Voc {m.voc_v:g} V, Isc {m.isc_a:g} A", float(a.module_count), "each",
                 f"{a.modules_series} in series x {a.modules_parallel} string(s) in parallel",
                 "array.module_count"),
@@ -99,8 +99,8 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
         "charge controllers needed for the array current", "controller.count"))
     bs = project.battery
     lines.append(BomLine(
-        f"battery:{bs.name}", f"Battery unit, {bs.nominal_voltage_v:g} V {bs.capacity_ah:g} Ah "
-        f"{b.chemistry}", float(b.unit_count), "each",
+        f"battery:{bs.name}", f"Battery unit {bs.name}, {bs.nominal_voltage_v:g} V "
+        f"{bs.capacity_ah:g} Ah {b.chemistry}", float(b.unit_count), "each",
         f"{b.units_series} in series x {b.units_parallel} string(s) in parallel",
         "battery.unit_count"))
     if inv.needed:

@@ -167,7 +167,9 @@ def digits_for(value: float, unit: str) -> int:
     """Decimals shown for a figure of this size and unit."""
     if unit in ("W", "Wh", "Wh/day", "Ah", "deg"):
         return 0 if abs(value) >= 10 or float(value).is_integer() else 1
-    if unit in ("V", "A", "C", "%", "m", "days", "years"):
+    if unit == "%":
+        return 2 if abs(value) < 10 else 1
+    if unit in ("V", "A", "C", "m", "days", "years"):
         return 1 if abs(value) < 1000 else 0
     if unit in ("kWh", "kWh/m2/day", "kW"):
         return 2
@@ -201,6 +203,8 @@ def lookup(tree: dict[str, Any], path: str) -> Any:
     for part in path.split("."):
         if isinstance(node, dict) and part in node:
             node = node[part]
+        elif isinstance(node, list) and part.isdigit() and int(part) < len(node):
+            node = node[int(part)]
         else:
             return None
     return node
@@ -716,17 +720,19 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
 def _bom(ri: ReportInputs, bom: tuple[BomLine, ...], cost: LifecycleCost) -> Section:
     cur = cost.currency
     rows = []
-    for ln, cl in zip(bom, cost.lines, strict=True):
-        rows.append((_c(ln.key), _c(ln.description), Cell(f"{ln.quantity:g}", ln.quantity,
-                                                           ln.figure or None),
+    for n, (ln, cl) in enumerate(zip(bom, cost.lines, strict=True), start=1):
+        rows.append((_c(str(n)), _c(ln.description),
+                     Cell(f"{ln.quantity:g}", ln.quantity, ln.figure or None),
                      _c(ln.unit), _c(money(cl.unit_price)), _c(money(cl.total))))
     blocks: list[Block] = [Table(
-        "bom", ("Part", "Description", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
-        tuple(rows), ("l", "l", "r", "l", "r", "r"),
-        "Quantities follow from the design; the part key is what the price list refers to.",
+        "bom", ("#", "Part", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
+        tuple(rows), ("r", "l", "r", "l", "r", "r"),
+        "Quantities follow from the design; prices from the project's price list.",
         wrap=(1,))]
-    follows = [f"{ln.key}: {ln.follows}" for ln in bom]
-    blocks.append(Bullets(tuple(follows)))
+    blocks.append(Paragraph("Part keys (what the price list refers to) and how each quantity "
+                            "follows from the design:"))
+    blocks.append(Bullets(tuple(f"[{n}] {ln.key}: {ln.follows}"
+                                for n, ln in enumerate(bom, start=1))))
     if cost.missing:
         blocks.append(Bullets((cost.message(),), "warning"))
     elif cost.capital is not None:
@@ -753,13 +759,23 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
         "Cost per kWh delivered = lifecycle cost / (energy delivered per year x PWF(N, 0, d))",
     )))
     rows = []
-    for cl in cost.lines:
-        when = ", ".join(f"{y:g}" for y in cl.replaced_at) or "none"
-        rows.append((_c(cl.key), _num(cl.life_years, 1), _c(when),
+    lasting = []
+    for n, cl in enumerate(cost.lines, start=1):
+        if not cl.replaced_at:
+            lasting.append(f"{n}")
+            continue
+        when = ", ".join(f"{y:g}" for y in cl.replaced_at)
+        rows.append((_c(str(n)), _c(cl.key), _num(cl.life_years, 1), _c(when),
                      _c(money(cl.replacement_pw))))
-    blocks.append(Table("replacements", ("Part", "Life, years", "Replaced in year",
-                                         f"Present worth {cur}"), tuple(rows),
-                        ("l", "r", "l", "r"), wrap=(2,)))
+    if rows:
+        blocks.append(Table("replacements", ("#", "Part", "Life, years", "Replaced in year",
+                                             f"Present worth {cur}"), tuple(rows),
+                            ("r", "l", "r", "l", "r"),
+                            "Parts numbered as in the bill of materials.", wrap=(1, 3)))
+    if lasting:
+        blocks.append(Paragraph(
+            f"Not replaced within the {e.life_years} years (service life at least that long): "
+            f"parts {', '.join(lasting)} of the bill of materials."))
     blocks.append(Paragraph(f"Battery life {cost.battery_life_years:g} years: "
                             f"{cost.battery_life_source}."))
     served = "" if cost.served_fraction >= 1 else (
@@ -1001,6 +1017,18 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
                      f"{inv.hours_on_per_day:g} h/day"),
         ("Albedo", f"{p.site.albedo:g}"),
     ]
+    w = getattr(p, "wiring", None)
+    if w is not None:
+        ambient = ("the site's hottest monthly mean" if w.ambient_temp_c is None
+                   else f"{w.ambient_temp_c:g} C")
+        items.append(("Cables", f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
+                                f"{w.insulation_temp_c} C insulation, resistance at "
+                                f"{w.conductor_temp_c:g} C, ampacity at {ambient}"))
+        items.append(("Cable runs, one-way", f"string {w.string_run_m:g} m, array "
+                                             f"{w.array_run_m:g} m, controller to battery "
+                                             f"{w.controller_battery_m:g} m, battery to "
+                                             f"inverter {w.battery_inverter_m:g} m, DC loads "
+                                             f"{w.dc_load_run_m:g} m unless set per load"))
     blocks.append(Table("assumptions", ("Assumption", "Value"),
                         tuple((_c(k), _c(v)) for k, v in items), ("l", "l"), wrap=(1,)))
     blocks.append(Paragraph("Figures marked 'common practice, no source' follow the usual rule "
