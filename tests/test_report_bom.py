@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import csv
 import io
+import math
 
 import pytest
 
@@ -87,3 +88,26 @@ def test_bom_csv_round_trip_with_prices():
     assert rows[0]["unit price (USD)"] == "115.00"
     assert float(rows[0]["total (USD)"]) == pytest.approx(115.0 * lines[0].quantity)
     assert rows[1]["unit price (USD)"] == ""  # not priced: left blank, never 0
+
+
+def test_demo_cable_and_devices_follow_from_the_electrical_design():
+    project, base = demo()
+    d = design(project, base)
+    er = d.electrical
+    assert er is not None and er.wires and er.protection.devices
+    kinds = _by_kind(bill_of_materials(project, d))
+    expected: dict[str, float] = {}
+    for w in er.wires:
+        key = f"cable:{w.material} {w.size}"
+        expected[key] = expected.get(key, 0.0) + 2 * w.length_m * w.count
+    got = {ln.key: ln.quantity for ln in kinds["cable"]}
+    assert got == {k: float(math.ceil(v - 1e-9)) for k, v in expected.items()}
+    device_lines = [ln for ln in bill_of_materials(project, d)
+                    if ln.kind in ("fuse", "fuse-or-breaker", "disconnect", "breaker")]
+    assert sum(ln.quantity for ln in device_lines) == sum(dev.count for dev in
+                                                          er.protection.devices)
+    for ln in device_lines:
+        matching = [dev for dev in er.protection.devices
+                    if ln.key.startswith("-".join(dev.kind.split()) + ":")
+                    and (dev.rating_a is None or f":{dev.rating_a:g} A" in ln.key)]
+        assert sum(dev.count for dev in matching) >= ln.quantity

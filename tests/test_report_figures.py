@@ -112,7 +112,7 @@ def test_text_figures_equal_size_json(demo_report):
 
 def test_markdown_figures_equal_size_json(demo_report):
     data = size_json()
-    shown = _label_values(render_markdown(demo_report), r"^- \*\*(.+?): (.+?)\*\*$")
+    shown = _label_values(render_markdown(demo_report), r"^- \*\*(.+?): (.+?)\*\*\\?$")
     for path in KEY_FIGURES:
         label = LABELS[path].replace("_", "\\_")
         assert label in shown, f"markdown report lacks '{label}'"

@@ -20,19 +20,6 @@ def register(sub) -> None:
     p.set_defaults(func=run)
 
 
-def bom_text(project, design) -> str:
-    from offgrid.report.bom import bill_of_materials, bom_csv
-    from offgrid.report.costs import price_for
-
-    lines = bill_of_materials(project, design)
-    prices = {}
-    for ln in lines:
-        p = price_for(ln.key, project.prices)
-        if p is not None:
-            prices[ln.key] = p
-    return bom_csv(lines, prices, project.economics.currency)
-
-
 def run(args: argparse.Namespace) -> int:
     from offgrid.commands.output import check_writable, write_output
     from offgrid.result import DesignError
@@ -46,6 +33,8 @@ def run(args: argparse.Namespace) -> int:
         result = design(project, base)
     except DesignError as exc:
         fail(f"cannot design: {exc}; no bill of materials was written", code=3)
+    from offgrid.report.export import bom_text
+
     text = bom_text(project, result)
     if out is None:
         sys.stdout.write(text)

@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import contextlib
-import os
 import sys
 from pathlib import Path
 
@@ -16,15 +14,11 @@ def check_writable(path: Path, force: bool) -> None:
     An existing file is overwritten only with ``force`` or after a yes at a terminal;
     without a terminal, it is refused.
     """
-    folder = path.parent if str(path.parent) else Path(".")
-    if path.is_dir():
-        fail(f"{path} is a folder; give a file name with -o")
-    if not folder.is_dir():
-        fail(f"cannot write {path}: the folder {folder} does not exist; create it or choose "
-             "another path with -o")
-    if not os.access(folder, os.W_OK | os.X_OK):
-        fail(f"cannot write {path}: no permission to write in {folder}; choose another "
-             "folder with -o")
+    from offgrid.report.export import path_problem
+
+    problem = path_problem(path)
+    if problem:
+        fail(problem + " with -o" if problem.endswith(("path", "folder", "name")) else problem)
     if path.exists() and not force:
         if sys.stdin.isatty() and sys.stderr.isatty():
             print(f"offgrid: {path} exists. Overwrite it? [y/N] ", end="", file=sys.stderr,
@@ -38,14 +32,9 @@ def check_writable(path: Path, force: bool) -> None:
 
 def write_output(path: Path, text: str) -> None:
     """Write atomically (a temporary file renamed over the target): whole or not at all."""
-    from offgrid.project.store import atomic_write_text
+    from offgrid.report.export import ExportError, write_file
 
     try:
-        atomic_write_text(path, text, backup=False)
-    except OSError as exc:
-        fail(f"cannot write {path}: {exc.strerror or exc}; nothing was written")
-    # the temporary file is private (0600); a report is for sharing: use the user's umask
-    mask = os.umask(0)
-    os.umask(mask)
-    with contextlib.suppress(OSError):
-        os.chmod(path, 0o666 & ~mask)
+        write_file(path, text)
+    except ExportError as exc:
+        fail(str(exc))

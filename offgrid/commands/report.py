@@ -83,7 +83,7 @@ def run(args: argparse.Namespace) -> int:
     except (ValueError, DesignError) as exc:
         fail(f"cannot build the report: {exc}; no report was written", code=3)
     if bom_path is not None:
-        from offgrid.commands.bom import bom_text
+        from offgrid.report.export import bom_text
 
         write_output(bom_path, bom_text(project, result))
     if out is None:

@@ -32,14 +32,16 @@ def _figures(f: Figures) -> list[str]:
     if f.title:
         out += [f"### {_esc(f.title)}", ""]
     for item in f.items:
-        out.append(f"- **{_esc(item.label)}: {_esc(item.cell.text)}**")
+        lines = [f"- **{_esc(item.label)}: {_esc(item.cell.text)}**"]
         if item.formula:
-            out.append(f"  = {_esc(item.formula)}")
+            lines.append(f"  = {_esc(item.formula)}")
         if item.inputs:
-            out.append("  Inputs: " + "; ".join(f"{_esc(k.replace('_', ' '))} {_esc(v)}"
-                                                 for k, v in item.inputs))
+            lines.append("  Inputs: " + "; ".join(f"{_esc(k.replace('_', ' '))} {_esc(v)}"
+                                                   for k, v in item.inputs))
         if item.source:
-            out.append(f"  Source: {_esc(item.source)}")
+            lines.append(f"  Source: {_esc(item.source)}")
+        # a backslash at the end of a line is a hard line break (CommonMark 6.7)
+        out += [line + "\\" for line in lines[:-1]] + lines[-1:]
     return out
 
 
