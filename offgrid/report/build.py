@@ -582,6 +582,11 @@ def _figures(ri: ReportInputs, tree: dict) -> Section:
     blocks: list[Block] = [Paragraph(
         "Each figure with the formula it comes from, the inputs it used and its source.")]
     for g in order:
+        if g == "wires":
+            items = _wire_reason_items(d, groups[g])
+            if items:
+                blocks.append(Figures(tuple(items), GROUP_TITLES["wires"]))
+            continue
         items = []
         for path in groups[g]:
             value, where = resolve(tree, d, path)
@@ -603,6 +608,30 @@ def _figures(ri: ReportInputs, tree: dict) -> Section:
         if items:
             blocks.append(Figures(tuple(items), GROUP_TITLES.get(g, g.capitalize())))
     return Section("figures", "Sized figures and their reasons", tuple(blocks))
+
+
+def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
+    """Cable reasons, one item per column of the schedule: its formula and source once,
+    the inputs of every run after it (the figures themselves are in the schedule)."""
+    runs = {str(field_of(w, "key")): str(field_of(w, "run", "")) for w in wires_of(d)}
+    grouped: dict[tuple[str, str, str], list[tuple[str, Reason]]] = {}
+    for path in paths:
+        reason = d.reasons.get(path)
+        parts = path.split(".")
+        if reason is None or len(parts) != 3:
+            continue
+        key, name = parts[1], parts[2]
+        grouped.setdefault((name, reason.formula, reason.source), []).append(
+            (runs.get(key, key), reason))
+    items = []
+    for (name, formula, source), entries in grouped.items():
+        inputs = tuple((run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
+                       for run, r in entries)
+        label = WIRE_FIELDS.get(name, name)
+        items.append(FigureItem(f"wires.*.{name}", f"{label[:1].upper()}{label[1:]} of each "
+                                "run", Cell("see the schedule"), formula, inputs, source,
+                                listed=True))
+    return items
 
 
 def _strings(ri: ReportInputs, tree: dict) -> Section:

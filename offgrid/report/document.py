@@ -58,6 +58,7 @@ class FigureItem:
     formula: str = ""
     inputs: tuple[tuple[str, str], ...] = ()
     source: str = ""
+    listed: bool = False  # inputs one per line ("name: values"), e.g. one per cable run
 
 
 @dataclass(frozen=True)

@@ -120,7 +120,10 @@ def _figures(f: Figures) -> str:
         how = []
         if item.formula:
             how.append(f"= {_e(item.formula)}")
-        if item.inputs:
+        if item.inputs and item.listed:
+            how.append("<b>Inputs:</b><br>" + "<br>".join(f"{_e(k)}: {_e(v)}"
+                                                          for k, v in item.inputs))
+        elif item.inputs:
             how.append("<b>Inputs:</b> " + "; ".join(
                 f"{_e(k.replace('_', ' '))} {_e(v)}" for k, v in item.inputs))
         if item.source:

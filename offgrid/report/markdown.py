@@ -35,7 +35,10 @@ def _figures(f: Figures) -> list[str]:
         lines = [f"- **{_esc(item.label)}: {_esc(item.cell.text)}**"]
         if item.formula:
             lines.append(f"  = {_esc(item.formula)}")
-        if item.inputs:
+        if item.inputs and item.listed:
+            lines.append("  Inputs:")
+            lines += [f"  {_esc(k)}: {_esc(v)}" for k, v in item.inputs]
+        elif item.inputs:
             lines.append("  Inputs: " + "; ".join(f"{_esc(k.replace('_', ' '))} {_esc(v)}"
                                                    for k, v in item.inputs))
         if item.source:

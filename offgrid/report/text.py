@@ -114,7 +114,11 @@ def _figure_lines(fig: Figures) -> list[str]:
             lines.append(f"{head:.<{room}} {value}")
         if item.formula:
             lines += _wrap(f"= {item.formula}", lead="    ", rest="      ")
-        if item.inputs:
+        if item.inputs and item.listed:
+            lines.append("    inputs:")
+            for k, v in item.inputs:
+                lines += _wrap(f"{k}: {v}", lead="      ", rest="        ")
+        elif item.inputs:
             lines += _wrap("inputs: " + "; ".join(f"{k.replace('_', ' ')} {v}"
                                                   for k, v in item.inputs),
                            lead="    ", rest="      ")
