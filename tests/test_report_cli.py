@@ -72,8 +72,17 @@ def test_report_unwritable_path_says_so(tmp_path):
     assert not out.parent.exists()
 
 
+def test_report_path_under_a_file(tmp_path):
+    # works as root too, unlike a read-only folder (root may write anywhere)
+    blocker = tmp_path / "notes.txt"
+    blocker.write_text("not a folder", encoding="utf-8")
+    proc = offgrid("report", "--demo", "-o", str(blocker / "r.html"))
+    assert proc.returncode == 2 and "is a file, not a folder" in proc.stderr
+    assert blocker.read_text(encoding="utf-8") == "not a folder"
+
+
 @pytest.mark.skipif(hasattr(os, "geteuid") and os.geteuid() == 0,
-                    reason="root may write anywhere")
+                    reason="root may write anywhere; test_report_path_under_a_file covers CI")
 def test_report_read_only_folder(tmp_path):
     folder = tmp_path / "ro"
     folder.mkdir()

@@ -29,6 +29,9 @@ def path_problem(path: Path) -> str | None:
     folder = path.parent if str(path.parent) else Path(".")
     if path.is_dir():
         return f"{path} is a folder; give a file name"
+    if folder.exists() and not folder.is_dir():
+        return (f"cannot write {path}: {folder} is a file, not a folder; choose another "
+                "path")
     if not folder.is_dir():
         return (f"cannot write {path}: the folder {folder} does not exist; create it or "
                 "choose another path")
