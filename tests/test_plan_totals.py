@@ -112,3 +112,33 @@ def test_price_list_errors_name_the_line():
         read_prices_csv("item,basis,unit_price,currency\nmodule,per_w,-1,USD\n")
     with pytest.raises(PriceListError, match="missing column"):
         read_prices_csv("item,price\nmodule,1\n")
+
+
+def test_the_reports_per_part_price_list_is_read_too(tmp_path):
+    """A 'part, unit_price' CSV (offgrid.report's format) prices the plan by part keys."""
+    from offgrid.paths import load_profiles_dir
+    from offgrid.plan.community import plan_community
+    from offgrid.plan.survey import read_survey
+
+    prices = tmp_path / "parts.csv"
+    prices.write_text("part,unit_price,note\n"
+                      "module:Generic 36-cell 50 W (demo datasheet),30,invented test price\n"
+                      "battery,250,\ncontroller:PWM,20,\ncontroller,60,\ninverter,90,\n"
+                      "cable,0.5,\nfuse,3,\nfuse-or-breaker,9,\ndisconnect,12,\n")
+    text = ("climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
+            f"prices,{prices}\nid,count,load_list\nA,20,household-basic\nB,5,household-kit\n")
+    plan = plan_community(read_survey(text, base_dir=load_profiles_dir()), kits=2, jobs=1)
+    t = plan.totals
+    assert not t.unpriced
+    price = {"PV module": 30.0, "Battery unit": 250.0, "Charge controller": 20.0,
+             "Inverter": 90.0, "Cable": 0.5}
+    for line in t.lines:
+        if line.category in price:
+            assert line.unit_price == price[line.category]
+        elif line.category == "Protection":
+            assert line.unit_price == {"fuse": 3.0, "fuse or breaker": 9.0,
+                                       "DC disconnect": 12.0}[line.label.rsplit(" ", 2)[0]
+                                                              if "A" in line.label
+                                                              else line.label]
+    assert t.total_cost == pytest.approx(sum(line.quantity * line.unit_price
+                                             for line in t.lines))

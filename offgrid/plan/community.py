@@ -17,7 +17,7 @@ import numpy as np
 
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.kits import Candidate, PlanError, Standardisation, standardise
-from offgrid.plan.prices import PriceList, PriceListError, load_prices
+from offgrid.plan.prices import PriceList, PriceListError, from_part_prices, load_prices
 from offgrid.plan.rows import (
     DEFAULT_ENERGY_STEP_PCT,
     DesignedRows,
@@ -130,18 +130,24 @@ def _plain(value: Any) -> Any:
     return value
 
 
-def resolve_prices(survey: Survey, prices: PriceList | str | None) -> PriceList | None:
-    """The price list given, or the one the survey names; None when neither."""
+def resolve_prices(survey: Survey, prices: PriceList | str | None,
+                   inputs: PlanInputs | None = None) -> PriceList | None:
+    """The price list given, or the one the survey names, or the shared project's own
+    ``[[prices]]``; None when there is none."""
     if isinstance(prices, PriceList):
         return prices
     ref = prices or survey.prices
+    currency = inputs.base.economics.currency if inputs is not None else "USD"
     if not ref:
+        if inputs is not None and inputs.base.prices:
+            return from_part_prices(inputs.base.prices, currency,
+                                    f"the shared project's prices ({survey.project})")
         return None
     path = _find(ref, survey.base_dir, load_profiles_dir(), ".csv")
     if path is None:
         raise PlanError(f"price list '{ref}' not found next to the survey or in load_profiles/")
     try:
-        return load_prices(path)
+        return load_prices(path, currency)
     except PriceListError as exc:
         raise PlanError(str(exc)) from exc
 
@@ -184,7 +190,7 @@ def plan_community(survey: Survey, *, kits: int | None = None,
         The standardisation cannot be done as asked.
     """
     inputs = prepare(survey, climate=climate, energy_step_pct=energy_step_pct)
-    price_list = resolve_prices(survey, prices)
+    price_list = resolve_prices(survey, prices, inputs)
     objective = objective or ("cost" if price_list is not None else "oversize")
     if kit_type_cost is None and objective == "cost" and price_list is not None \
             and price_list.has("kit_type"):

@@ -206,23 +206,30 @@ def parts_of(d: RowDesign) -> KitParts:
 def parts_cost(prices: PriceList, parts: KitParts) -> float:
     """Capital cost of one bill of parts, including the per-system fixed price."""
     return float(_cost_arrays(prices, parts.controller_type, parts.battery_chemistry,
-                              parts.module_pmax_w,
-                              parts.modules_series, parts.battery_unit_v * parts.battery_unit_ah,
-                              parts.units_series, np.array([parts.strings]),
-                              np.array([parts.units_parallel]),
+                              parts.module_pmax_w, parts.modules_series,
+                              parts.battery_unit_v * parts.battery_unit_ah, parts.units_series,
+                              np.array([parts.strings]), np.array([parts.units_parallel]),
                               np.array([parts.controller_current_a]),
                               np.array([parts.controller_count]),
-                              np.array([parts.inverter_w]))[0])
+                              np.array([parts.inverter_w]), parts.module_name,
+                              parts.battery_name)[0])
 
 
 def _cost_arrays(prices: PriceList, ctype: str, chemistry: str, pmod: float, ns: int,
-                 unit_wh: float, us: int, strings, parallel, ctrl_a, ctrl_n, inv_w
-                 ) -> np.ndarray:
-    cost = prices.price("module", pmod, strings * ns)
-    cost = cost + prices.price(prices.battery_item(chemistry), unit_wh / 1000.0, parallel * us)
-    cost = cost + prices.price(f"controller_{ctype}", ctrl_a, ctrl_n)
+                 unit_wh: float, us: int, strings, parallel, ctrl_a, ctrl_n, inv_w,
+                 module_name: str = "", battery_name: str = "") -> np.ndarray:
+    tag = ctype.upper()
+    cost = prices.price("module", pmod, strings * ns, key=f"module:{module_name}")
+    cost = cost + prices.price(prices.battery_item(chemistry), unit_wh / 1000.0, parallel * us,
+                               key=f"battery:{battery_name}")
+    cost = cost + prices.price(f"controller_{ctype}", ctrl_a, ctrl_n,
+                               key=lambda a: f"controller:{tag} {a:g} A")
+    inv_w = np.asarray(inv_w, dtype=float)
     if np.any(inv_w > 0):
-        cost = cost + np.where(inv_w > 0, prices.price("inverter", np.maximum(inv_w, 1.0)), 0.0)
+        inv_cost = np.zeros_like(inv_w)
+        on = inv_w > 0
+        inv_cost[on] = prices.price("inverter", inv_w[on], key=lambda w: f"inverter:{w:g} W")
+        cost = cost + inv_cost
     return cost + prices.optional("system_fixed")
 
 
@@ -385,7 +392,7 @@ def _group_cost_fn(f: _Family, prices: PriceList | None, objective: Objective):
             assert prices is not None
             each = _cost_arrays(prices, t.controller_type, t.battery_chemistry, pmod, ns,
                                 t.battery_unit_v * t.battery_unit_ah, us, s, p, f.ctrl_a[s],
-                                f.ctrl_n[s], w)
+                                f.ctrl_n[s], w, t.module_name, t.battery_name)
             if np.isfinite(f.unit_own[: i + 1]).any():
                 # each row of the group takes the kit or its own system, whichever is
                 # cheaper: cost[j] = sum over r >= j of forced_r c_j + free_r min(c_j, own_r)

@@ -19,6 +19,11 @@ per mm2 of conductor (``per_mm2_m``) or per metre of any size (``per_m``), and `
 ``breaker`` (for a "fuse or breaker" location; ``fuse`` when absent) and ``disconnect``
 each.
 Every row names one currency.  Unknown items and bases are errors with the line.
+
+The report's per-part price list (columns ``part, unit_price``; keys such as
+``module:<name>``, ``battery:<name>``, ``controller:MPPT 50 A``, ``inverter:800 W``,
+``cable:copper 6 mm2``, ``fuse:10 A``) is read too, and a shared project's
+``[[prices]]`` are used when the survey names no price list.
 """
 
 from __future__ import annotations
@@ -65,21 +70,46 @@ class PriceList:
     source: str = ""
     demo: bool = False
     notes: dict[str, str] = field(default_factory=dict)
+    #: per-part prices in the report's format (``module:<name>``, ``controller:MPPT 50 A``,
+    #: ``cable:copper 6 mm2``, ``fuse:10 A``...), looked up first; see offgrid.report.costs
+    parts: tuple = ()
 
     def has(self, item: str) -> bool:
         return item in self.entries
 
-    def price(self, item: str, capacity, count=1):
+    def part_price(self, key: str) -> float | None:
+        """Unit price of a part by its bill-of-materials key, or None."""
+        if not self.parts:
+            return None
+        from offgrid.report.costs import price_for  # the report's key rules, one place
+
+        return price_for(key, list(self.parts))
+
+    def price(self, item: str, capacity, count=1, key=None):
         """Price of ``count`` parts of the given capacity (W, kWh or A by the item's basis).
 
-        Vectorised over ``capacity`` and ``count``.  Raises PriceListError if the item is
-        missing.
+        ``key`` (a part key, or a function of the capacity giving one) is looked up in the
+        per-part prices first.  Vectorised over ``capacity`` and ``count``.  Raises
+        PriceListError if the part has no price.
         """
+        cap = np.asarray(capacity, dtype=float)
+        if key is not None and self.parts:
+            flat = np.atleast_1d(cap)
+            found = {}
+            for v in np.unique(flat):
+                found[float(v)] = self.part_price(key(float(v)) if callable(key) else key)
+            if all(p is not None for p in found.values()):
+                each = np.array([found[float(v)] for v in flat]).reshape(cap.shape)
+                return each * np.asarray(count, dtype=float)
+            if item not in self.entries:
+                missing = next(key(v) if callable(key) else key
+                               for v, p in found.items() if p is None)
+                raise PriceListError(f"{self.source or 'price list'}: no price for "
+                                     f"'{missing}'; add it (or a '{missing.split(':')[0]}' row)")
         if item not in self.entries:
             raise PriceListError(f"{self.source or 'price list'}: no price for '{item}'; add a "
                                  f"row '{item},{ITEMS[item][0]},PRICE,{self.currency}'")
         basis, unit = self.entries[item]
-        cap = np.asarray(capacity, dtype=float)
         each = np.full_like(cap, unit) if basis in ("each", "per_m") else cap * unit
         return each * np.asarray(count, dtype=float)
 
@@ -99,10 +129,28 @@ class PriceList:
         return f"{unit:g} {self.currency} {per}"
 
 
-def read_prices_csv(text: str, source: str = "price list") -> PriceList:
-    """Parse a price list; raises :class:`PriceListError` listing every problem with its line."""
+def from_part_prices(items, currency: str, source: str) -> PriceList:
+    """A price list of per-part prices only (the report's ``part, unit_price`` format)."""
+    return PriceList({}, currency, source, "demo" in source.lower(), {}, tuple(items))
+
+
+def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
+                    ) -> PriceList:
+    """Parse a price list; raises :class:`PriceListError` listing every problem with its line.
+
+    A CSV with a ``part`` column is read as the report's per-part price list
+    (:func:`offgrid.report.costs.read_price_csv`), in ``currency``.
+    """
     reader = csv.DictReader(io.StringIO(text.lstrip("\ufeff")), skipinitialspace=True)
     header = [h.strip().lower() for h in (reader.fieldnames or [])]
+    if "part" in header and "item" not in header:
+        from offgrid.report.costs import PriceListError as ReportPriceError
+        from offgrid.report.costs import read_price_csv
+
+        try:
+            return from_part_prices(read_price_csv(text, source), currency, source)
+        except ReportPriceError as exc:
+            raise PriceListError(str(exc)) from exc
     reader.fieldnames = header
     problems: list[str] = []
     need = ("item", "basis", "unit_price", "currency")
@@ -158,10 +206,10 @@ def read_prices_csv(text: str, source: str = "price list") -> PriceList:
     return PriceList(entries, currencies.pop(), source, demo, notes)
 
 
-def load_prices(path: str | Path) -> PriceList:
+def load_prices(path: str | Path, currency: str = "USD") -> PriceList:
     p = Path(path)
     try:
         text = p.read_text(encoding="utf-8")
     except OSError as exc:
         raise PriceListError(f"cannot read price list {p}: {exc.strerror}") from exc
-    return read_prices_csv(text, str(p))
+    return read_prices_csv(text, str(p), currency)

@@ -55,9 +55,9 @@ class Totals:
     unpriced: tuple[str, ...]  # labels of lines the price list has no price for
 
 
-# (category, description, quantity, short label, unit, (price item, capacity) or None,
-#  sort key within the category)
-_Entry = tuple[str, str, float, str, str, tuple[str, float] | None, tuple]
+# (category, description, quantity, short label, unit,
+#  (price item, capacity, part key) or None, sort key within the category)
+_Entry = tuple[str, str, float, str, str, tuple[str, float, str | None] | None, tuple]
 
 
 def _cable_entries(cables, prices: PriceList | None) -> list[_Entry]:
@@ -71,7 +71,7 @@ def _cable_entries(cables, prices: PriceList | None) -> list[_Entry]:
     for (material, size), (metres, area) in merged.items():
         item = f"cable_{'aluminium' if material.startswith('alu') else 'copper'}"
         out.append(("Cable", f"{material} {size}", metres, f"Cable {material} {size}", "m",
-                    (item, area), (material, area)))
+                    (item, area, f"cable:{material} {size}"), (material, area)))
     return out
 
 
@@ -89,7 +89,9 @@ def _device_entries(devices, prices: PriceList | None) -> list[_Entry]:
             item = "breaker" if (kind == "fuse or breaker" and prices is not None
                                  and prices.has("breaker")) else "fuse"
             desc = f"{kind} {rating:g} A" if rating is not None else kind
-        out.append(("Protection", desc, float(n), desc[:40], "each", (item, 1.0),
+        key = ("disconnect" if kind == "disconnect" else
+               f"{'-'.join(kind.split())}:{rating:g} A" if rating is not None else kind)
+        out.append(("Protection", desc, float(n), desc[:40], "each", (item, 1.0, key),
                     (kind, rating or 0.0)))
     return out
 
@@ -99,30 +101,34 @@ def entries(parts: KitParts, prices: PriceList | None = None) -> list[_Entry]:
     out: list[_Entry] = [
         ("PV module", f"{parts.module_name}, {parts.module_pmax_w:g} W",
          float(parts.module_count), f"PV module {parts.module_pmax_w:g} W", "each",
-         ("module", parts.module_pmax_w), (parts.module_pmax_w,)),
+         ("module", parts.module_pmax_w, f"module:{parts.module_name}"),
+         (parts.module_pmax_w,)),
         ("Battery unit", f"{parts.battery_name}, {parts.battery_unit_v:g} V "
                          f"{parts.battery_unit_ah:g} Ah", float(parts.unit_count),
          f"Battery {parts.battery_unit_v:g} V {parts.battery_unit_ah:g} Ah "
          f"{parts.battery_chemistry}", "each",
          (prices.battery_item(parts.battery_chemistry) if prices else "battery",
-          parts.battery_unit_v * parts.battery_unit_ah / 1000.0),
+          parts.battery_unit_v * parts.battery_unit_ah / 1000.0,
+          f"battery:{parts.battery_name}"),
          (parts.battery_unit_v * parts.battery_unit_ah,)),
         ("Charge controller", f"{parts.controller_type.upper()} {parts.controller_current_a:g} A",
          float(parts.controller_count),
          f"Controller {parts.controller_type.upper()} {parts.controller_current_a:g} A", "each",
-         (f"controller_{parts.controller_type}", parts.controller_current_a),
+         (f"controller_{parts.controller_type}", parts.controller_current_a,
+          f"controller:{parts.controller_type.upper()} {parts.controller_current_a:g} A"),
          (parts.controller_type, parts.controller_current_a)),
     ]
     if parts.inverter_w > 0:
         out.append(("Inverter", f"{parts.inverter_w:g} W continuous, {parts.inverter_surge_w:g} W "
                                 "surge", 1.0, f"Inverter {parts.inverter_w:g} W", "each",
-                    ("inverter", parts.inverter_w), (parts.inverter_w,)))
+                    ("inverter", parts.inverter_w, f"inverter:{parts.inverter_w:g} W"),
+                    (parts.inverter_w,)))
     out += _cable_entries(parts.cables, prices)
     out += _device_entries(parts.devices, prices)
     if prices is not None and prices.has("system_fixed"):
         out.append(("Installation", "mounting, cable, protection and installation of one "
                                     "system", 1.0, "Installation of one system", "each",
-                    ("system_fixed", 1.0), ()))
+                    ("system_fixed", 1.0, None), ()))
     return out
 
 
@@ -132,10 +138,15 @@ def part_list(parts: KitParts, prices: PriceList | None = None
     return [(e[0], e[1], e[2]) for e in entries(parts, prices)]
 
 
-def _price(prices: PriceList | None, how: tuple[str, float] | None) -> float | None:
+def _price(prices: PriceList | None, how: tuple[str, float, str | None] | None
+           ) -> float | None:
     if prices is None or how is None:
         return None
-    item, capacity = how
+    item, capacity, key = how
+    if key is not None:
+        found = prices.part_price(key)
+        if found is not None:
+            return found
     if not prices.has(item):
         return None
     return float(prices.price(item, capacity))
