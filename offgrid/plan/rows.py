@@ -440,10 +440,14 @@ def _worker_batch(batch: list[tuple[int, SurveyRow]]
 
 
 def _pool_context():
-    # fork is quick but unsafe once threads run (the text UI); spawn is always safe.
+    """fork, when it is safe; None otherwise (then rows are designed in this process).
+
+    fork is unsafe once threads run (the text UI plans in a worker thread), and spawn
+    would re-run the program's main module in each worker.
+    """
     if "fork" in multiprocessing.get_all_start_methods() and threading.active_count() == 1:
         return multiprocessing.get_context("fork")
-    return multiprocessing.get_context("spawn")
+    return None
 
 
 def default_jobs() -> int:
@@ -456,7 +460,8 @@ def default_jobs() -> int:
 def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
                    ) -> list[RowDesign | RowFailure | RowRejected]:
     """Build and design each row; in ``jobs`` worker processes when there are many."""
-    if jobs <= 1 or len(rows) < PARALLEL_MIN_DESIGNS:
+    context = _pool_context() if jobs > 1 and len(rows) >= PARALLEL_MIN_DESIGNS else None
+    if context is None:
         return [_build_and_design(inputs, r) for r in rows]
     # the workers need the shared base and references, not the whole survey
     light = copy.copy(inputs.survey)
@@ -466,7 +471,7 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     size = max(50, len(indexed) // (jobs * 4))
     batches = [indexed[i:i + size] for i in range(0, len(indexed), size)]
     out: list = [None] * len(rows)
-    with ProcessPoolExecutor(max_workers=jobs, mp_context=_pool_context(),
+    with ProcessPoolExecutor(max_workers=jobs, mp_context=context,
                              initializer=_init_worker, initargs=(shared,)) as pool:
         for result in pool.map(_worker_batch, batches):
             for i, r in result:
