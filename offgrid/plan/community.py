@@ -360,7 +360,7 @@ def plan_file(path: str | Path, **options) -> CommunityPlan:
 
 def demo_survey_path() -> Path:
     """The bundled demonstration community (invented village of Kisanga Ridge)."""
-    return load_profiles_dir() / "kisanga-ridge-community.csv"
+    return load_profiles_dir() / "communities" / "kisanga-ridge-community.csv"
 
 
 __all__ = ["CommunityPlan", "PlanError", "RowResult", "SurveyError", "demo_survey_path",

@@ -214,7 +214,14 @@ class PlanInputs:
         return min(e, 24.0 * p), p
 
 
+def communities_dir() -> Path:
+    """Bundled community surveys, their parts projects and price lists."""
+    return load_profiles_dir() / "communities"
+
+
 def _find(ref: str, base_dir: Path | None, folder: Path, suffix: str) -> Path | None:
+    """A referenced file: next to the survey, then in ``folder``, then in the bundled
+    communities folder."""
     candidates = []
     p = Path(ref).expanduser()
     names = [p] if p.suffix else [p, p.with_name(p.name + suffix)]
@@ -225,6 +232,7 @@ def _find(ref: str, base_dir: Path | None, folder: Path, suffix: str) -> Path | 
             if base_dir is not None:
                 candidates.append(base_dir / q)
             candidates.append(folder / q)
+            candidates.append(communities_dir() / q)
     for c in candidates:
         if c.is_file():
             return c
