@@ -13,11 +13,12 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from pathlib import Path
+from typing import ClassVar
 
 from rich.text import Text
 from textual import work
 from textual.app import ComposeResult
-from textual.binding import Binding
+from textual.binding import Binding, BindingType
 from textual.containers import VerticalScroll
 from textual.message import Message
 from textual.screen import Screen
@@ -42,7 +43,7 @@ class PlanScreen(Screen):
     PlanScreen DataTable { height: 1fr; }
     """
 
-    BINDINGS = [
+    BINDINGS: ClassVar[list[BindingType]] = [
         *(Binding(str(n), f"view('{vid}')", title, id=f"plan.view.{vid}")
           for n, (vid, title) in enumerate(VIEWS, start=1)),
         Binding("plus,equals_sign", "kits(1)", "More kits", id="plan.kits_more"),
