@@ -187,6 +187,46 @@ class WiringChoices:
 
 
 @dataclass
+class PriceItem:
+    """One line of the project's price list, in ``Economics.currency`` per BOM unit.
+
+    ``part`` is a bill-of-materials key, ``kind:detail`` (``module:<module name>``,
+    ``battery:<battery name>``, ``controller:MPPT 50 A``, ``cable:copper 6 mm2``...).
+    A key of the kind alone (``cable``) prices every part of that kind that has no
+    line of its own.
+    """
+
+    part: str
+    unit_price: float
+    note: str = ""
+
+
+@dataclass
+class Economics:
+    """Inputs of the lifecycle cost; prices are in ``currency``."""
+
+    currency: str = "USD"
+    life_years: int = 20
+    discount_rate_pct: float = 8.0  # nominal yearly discount rate
+    inflation_pct: float = 0.0  # yearly rise of replacement and upkeep prices
+    om_pct_of_capital: float = 1.0  # yearly upkeep as % of the capital cost
+    installation_pct: float = 0.0  # labour and sundries as % of the parts
+    battery_life_years: float | None = None  # None: simulation, else the chemistry preset
+    module_life_years: float = 25.0
+    controller_life_years: float = 12.0
+    inverter_life_years: float = 10.0
+
+
+@dataclass
+class Variant:
+    """A design variant: a few dotted-path overrides of the project (``controller.type``)."""
+
+    name: str
+    overrides: dict = field(default_factory=dict)
+    note: str = ""
+
+
+@dataclass
 class Project:
     info: ProjectInfo = field(default_factory=ProjectInfo)
     site: Site = field(default_factory=Site)
@@ -197,6 +237,9 @@ class Project:
     controller: ControllerSpec = field(default_factory=ControllerSpec)
     inverter: InverterSpec = field(default_factory=InverterSpec)
     choices: DesignChoices = field(default_factory=DesignChoices)
+    prices: list[PriceItem] = field(default_factory=list)
+    economics: Economics = field(default_factory=Economics)
+    variants: list[Variant] = field(default_factory=list)
     wiring: WiringChoices = field(default_factory=WiringChoices)
     # Sections that later features own (wiring runs, prices, variants) are kept
     # verbatim so that nothing a user saved is ever dropped.
