@@ -31,14 +31,13 @@ from offgrid.pv import (
 from offgrid.result import DesignError, Notice, Reason, ReasonBook, fmt
 
 NEC = "NFPA 70 (NEC) 2023"
-#: What each run's maximum current is, for its reason.
-WIRE_CURRENT_FORMULA = {
+#: What each kind of run's maximum current is, for its reason.
+WIRE_CURRENT_RULE = {
     "string": "1.25 x Isc of one string", "array": "1.25 x Isc x strings per controller",
     "charge": "the controller's rated output current (or its operating current if larger)",
     "inverter": "inverter continuous rating / (efficiency x low-voltage cut-off)",
     "load": "quantity x power / system voltage",
 }
-WIRE_CURRENT_SOURCE = {"string": f"{NEC} 690.8(A)(1)", "array": f"{NEC} 690.8(A)(1)"}
 HOT_IRRADIANCE_W_M2 = 1000.0
 LARGE_CONDUCTOR_MM2 = 50.0  # ~1/0 AWG: above this on 12/24 V, suggest a higher voltage
 
@@ -299,15 +298,18 @@ def electrical_design(project, core) -> ElectricalResult:
     rb.add("mpp.cell_temp_c", "daytime air temperature + (NOCT - 20 C) x irradiance / 800 W/m2",
            "Duffie & Beckman 4th ed. eq. 23.3.3 (NOCT method)", ambient=fmt(temp_day[m], "C"),
            irradiance=fmt(g_noon, "W/m2"), noct=fmt(module.noct_c, "C"))
-    rb.add("iv_curve", "current and power of one module at evenly spaced voltages from 0 V to "
-           "Voc, at the design month's solar-noon irradiance and cell temperature", src_noon,
-           irradiance=fmt(g_noon, "W/m2"), cell_temp=fmt(tc_noon, "C"))
+    for key in ("voltage_v", "current_a", "power_w", "irradiance_w_m2", "cell_temp_c"):
+        rb.add(f"iv_curve.{key}", "one module's I-V and P-V curve: current and power at evenly "
+               "spaced voltages from 0 V to Voc, at the design month's solar-noon irradiance "
+               "and cell temperature", src_noon, irradiance=fmt(g_noon, "W/m2"),
+               cell_temp=fmt(tc_noon, "C"))
     for key, val, unit in (("vmp_v", mpp.vmp_v, "V"), ("imp_a", mpp.imp_a, "A"),
                            ("pmp_w", mpp.pmp_w, "W"), ("fill_factor", mpp.fill_factor, ""),
                            ("efficiency", mpp.efficiency, ""), ("voc_v", mpp.voc_v, "V"),
                            ("isc_a", mpp.isc_a, "A")):
-        rb.add(f"mpp.{key}", "maximum power point of one module on the I-V curve; fill factor "
-               "= Pmp / (Voc Isc); efficiency = Pmp / (G x area)", src_noon,
+        rb.add(f"mpp.{key}", "maximum power point, open-circuit voltage and short-circuit "
+               "current of one module on its I-V curve; fill factor = Pmp / (Voc Isc); "
+               "efficiency = Pmp / (G x area)", src_noon,
                irradiance=fmt(g_noon, "W/m2"), cell_temp=fmt(tc_noon, "C"),
                value=fmt(val, unit), area=fmt(module.area_m2, "m2"))
 
@@ -476,11 +478,14 @@ def electrical_design(project, core) -> ElectricalResult:
         rb.add(f"{base}.ampacity_a", "table ampacity x ambient correction, within the terminal "
                "rating", amp_table, ambient=fmt(ambient, "C"),
                insulation=fmt(wiring.insulation_temp_c, "C"))
-        rb.add(f"{base}.current_a", WIRE_CURRENT_FORMULA.get(w.key, WIRE_CURRENT_FORMULA["load"]),
-               WIRE_CURRENT_SOURCE.get(w.key, "common practice, no source"),
-               value=fmt(w.current_a, "A"))
+        kind = w.key if w.key in WIRE_CURRENT_RULE else "load"
+        rb.add(f"{base}.current_a", "the circuit's maximum current, by the rule of its kind of "
+               "run", f"{NEC} 690.8(A)(1) for PV circuits; the rest common practice, no source",
+               rule=WIRE_CURRENT_RULE[kind], value=fmt(w.current_a, "A"))
         spec = next(r for r in runs if r.key == w.key)
-        rb.given(f"{base}.length_m", spec.length_field or "wiring", fmt(w.length_m, "m"))
+        rb.add(f"{base}.length_m", "one-way length of the run as set in the project (typed, or "
+               "the default)", "project file", field=spec.length_field or "wiring",
+               value=fmt(w.length_m, "m"))
         rb.add(f"{base}.count", "identical runs: one per string (string runs) or per "
                "controller (array and charge runs), else one", "common practice, no source",
                count=str(w.count))
@@ -636,11 +641,16 @@ def electrical_design(project, core) -> ElectricalResult:
         rb.add("protection.string_fuse_a", "smallest standard rating >= 1.56 x Isc, not above "
                "the module's maximum series fuse", f"{NEC} 690.9(B), 240.6(A)",
                isc=fmt(isc, "A"))
-    rb.add("protection.devices", "each device's rating as its cable's fuse; DC voltage rating "
-           "from the string cold Voc (PV side) or 1.1 x absorption voltage (battery side); "
-           "interrupting rating at least the bank fault current; the source beside each",
-           f"{NEC} 240.6(A), 690.9, 706.15", bank_voltage=fmt(bank_v, "V"),
-           string_voc_cold=fmt(strings.string_voc_cold_v, "V"), fault=fmt(fault, "A"))
+    for key, formula in (
+            ("rating_a", "each device's rating as its cable's fuse (the source beside each)"),
+            ("voltage_v", "minimum DC voltage rating: the string cold Voc on the PV side, 1.1 x "
+                          "the absorption voltage on the battery side"),
+            ("count", "one device per string, per controller or per battery string as listed"),
+            ("interrupt_rating_a", "minimum DC interrupting rating: the bank's prospective "
+                                   "fault current")):
+        rb.add(f"protection.devices.{key}", formula, f"{NEC} 240.6(A), 690.9, 706.15",
+               bank_voltage=fmt(bank_v, "V"), string_voc_cold=fmt(strings.string_voc_cold_v, "V"),
+               fault=fmt(fault, "A"))
     rb.add("protection.string_fuses", "string fuses from three strings in parallel per "
            "controller (or when the back-feed exceeds the module's series fuse rating)",
            f"{NEC} 690.9(A); IEC 62548:2016 7.3.3", strings_per_controller=str(n_c))
