@@ -256,6 +256,11 @@ def _plain(value: Any) -> Any:
     return value
 
 
+#: DesignError codes that mean the input itself is unusable (exit code 2 on the command line,
+#: like any bad input) rather than a design that cannot be met (exit code 3).
+INPUT_ERROR_CODES = frozenset({"climate-missing", "climate-months"})
+
+
 class DesignError(ValueError):
     """The design cannot be met; the message says why and what to change."""
 

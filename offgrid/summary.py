@@ -48,8 +48,10 @@ def summary_text(project: Project, d: SystemDesign) -> str:
                       f"{b.usable_kwh:.2f} kWh usable at {b.max_dod:.0%} DoD"))
     lines.append(_row("  autonomy", f"{b.autonomy_days:g} days", f"{b.chemistry}"))
     ctrl_count = f"{c.count} x " if c.count > 1 else ""
+    needs = (f"needs {c.required_current_a / c.count:.1f} A each" if c.count > 1
+             else f"needs {c.required_current_a:.1f} A")
     lines.append(_row("Charge controller", f"{ctrl_count}{c.current_a:.0f} A {c.type.upper()}",
-                      f"needs {c.required_current_a:.1f} A"))
+                      needs))
     if inv.needed:
         lines.append(_row("Inverter", f"{inv.continuous_w:.0f} W continuous",
                           f"surge {inv.surge_w:.0f} W (needs {inv.required_surge_w:.0f} W)"))
@@ -62,7 +64,8 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     lines.append("")
     lines += _months_table("Demand at the battery", ld.daily_energy_wh, 0, "(Wh/day)")
     lines += _months_table("Array-plane insolation", s.poa_kwh_m2_day, 2, "(kWh/m2/day)")
-    lines += _months_table("Array supply", a.supply_wh_day, 0, "(Wh/day)")
+    lines += _months_table("Array supply for the loads, derate chain incl. battery round trip",
+                           a.supply_wh_day, 0, "(Wh/day)")
     lines.append("")
     lines.append(f"Loads: AC connected {ld.connected_ac_w:.0f} W, peak at once "
                  f"{ld.peak_ac_w:.0f} W (coincidence {ld.coincidence_factor:g}); DC "
@@ -122,7 +125,7 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
                     f"string {sd.string_vmp_hot_v:.0f} V, needs {sd.window.required_vmp_v:.1f}"),
                _row("Strings/controller", f"{lay.strings_per_controller}",
                     ctrl + ("string fuses" if pr.string_fuses else "no string fuses needed"))]
-    harvest = ["Harvest into the battery (Wh/day), from the I-V curves",
+    harvest = ["Harvest into the battery, from the I-V curves, before its round trip (Wh/day)",
                "     " + " ".join(f"{m:>5}" for m in MONTHS),
                "MPPT " + " ".join(f"{v:>5.0f}" for v in h.mppt_wh_day),
                "PWM  " + " ".join(f"{v:>5.0f}" for v in h.pwm_wh_day)]

@@ -72,6 +72,10 @@ def resolve_climate(ref: str, base: Path | None = None) -> Path:
     for c in candidates:
         if c.is_file():
             return c
+    for c in candidates[:-1]:
+        if c.is_dir():
+            raise ClimateFileError(f"climate '{ref}' is a folder, not a climate file: give the "
+                                   "file itself or a bundled climate name")
     names = ", ".join(bundled_climates()) or "none"
     raise ClimateFileError(
         f"climate '{ref}' not found: give a file path or one of the bundled climates ({names})"
@@ -159,13 +163,19 @@ def _number(data: dict, key: str, where: str) -> float | None:
 
 def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyClimate:
     """Read a climate file by bundled name or path."""
+    from offgrid.textfile import TextFileError, read_text
+
     path = resolve_climate(str(ref), base)
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
+        data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
+    except TextFileError as exc:
+        raise ClimateFileError(f"{path}: {exc}") from None
     except tomllib.TOMLDecodeError as exc:
-        raise ClimateFileError(f"{path}: not valid TOML ({exc})") from exc
+        raise ClimateFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from exc
     if data.get("format") != CLIMATE_FORMAT:
-        raise ClimateFileError(f"{path}: format must be '{CLIMATE_FORMAT}'")
+        raise ClimateFileError(f"{path}: not an offgrid climate file: it must start with the line "
+                               f"format = \"{CLIMATE_FORMAT}\" (import weather files with "
+                               "`offgrid climate import`)")
     schema = data.get("schema", 1)
     if not isinstance(schema, int) or schema > CLIMATE_SCHEMA:
         raise ClimateFileError(
@@ -251,9 +261,11 @@ def save_climate(climate: MonthlyClimate, path: Path, name: str = "",
 
 def climate_header(path: Path) -> dict:
     """Name, source, demo flag and coordinates of a climate file, for listings."""
+    from offgrid.textfile import TextFileError, read_text
+
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except (OSError, tomllib.TOMLDecodeError) as exc:
+        data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
+    except (TextFileError, tomllib.TOMLDecodeError) as exc:
         return {"name": path.stem, "error": str(exc)}
     return {
         "name": str(data.get("name", path.stem)),

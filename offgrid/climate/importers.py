@@ -363,8 +363,7 @@ def read_hourly(path: str | Path, kind: str | None = None) -> HourlyRows:
     EPW and TMY3 through pvlib.iotools; TMY2 from its fixed columns (see :func:`_read_tmy2`).
     """
     path = Path(path)
-    if not path.is_file():
-        raise WeatherFileError(f"{path}: no such file")
+    _need_file(path)
     kind = kind or detect_kind(path)
     if kind not in _READERS:
         raise WeatherFileError(
@@ -585,8 +584,7 @@ def read_monthly_csv(path: str | Path, unit: str | None = None) -> tuple[Monthly
     Returns the climate and the name given in the file (or "").
     """
     path = Path(path)
-    if not path.is_file():
-        raise WeatherFileError(f"{path}: no such file")
+    _need_file(path)
     text = path.read_text(encoding="utf-8-sig", errors="replace")
     meta: dict[str, str] = {}
     body: list[tuple[int, str]] = []
@@ -690,15 +688,29 @@ def read_monthly_csv(path: str | Path, unit: str | None = None) -> tuple[Monthly
 # ----------------------------------------------------------------------------- entry point
 
 
+def _need_file(path: Path) -> None:
+    if path.is_dir():
+        raise WeatherFileError(f"{path}: is a folder, not a weather file; give the file itself")
+    if not path.is_file():
+        raise WeatherFileError(f"{path}: no such file; check the folder and the file name")
+
+
 def import_weather_file(path: str | Path, kind: str | None = None, unit: str | None = None,
                         clear_sky: bool = True) -> ImportResult:
     """Import any supported file; the result carries the plausibility findings.
 
     ``unit`` applies to a monthly CSV's insolation column only.
     """
-    path = Path(path)
-    if not path.is_file():
-        raise WeatherFileError(f"{path}: no such file")
+    try:
+        return _import_weather_file(Path(path), kind, unit, clear_sky)
+    except OSError as exc:
+        raise WeatherFileError(f"{path}: cannot be read: {exc.strerror or exc}; check the "
+                               "file's permissions") from None
+
+
+def _import_weather_file(path: Path, kind: str | None, unit: str | None,
+                         clear_sky: bool) -> ImportResult:
+    _need_file(path)
     kind = kind or detect_kind(path)
     if kind == "monthly-csv":
         climate, name = read_monthly_csv(path, unit=unit)

@@ -144,6 +144,19 @@ def print_findings(findings, out=None) -> None:
             print(_wrap(f"{lead}: {fix.label} -> {vals}", indent="     "), file=out)
 
 
+#: Project field names in engine messages -> the option the user typed here.
+_OPTION_OF_FIELD = (("site.tilt_deg", "--tilt"), ("site.azimuth_deg", "--azimuth"),
+                    ("site.albedo", "--albedo"), ("choices.min_tilt_deg", "--min-tilt"),
+                    ("site.horizon_deg", "--horizon"))
+
+
+def _option_message(exc: Exception) -> str:
+    text = str(exc)
+    for field, option in _OPTION_OF_FIELD:
+        text = text.replace(field, option)
+    return text
+
+
 def _horizon(args):
     if not getattr(args, "horizon", None):
         return []
@@ -152,7 +165,7 @@ def _horizon(args):
     try:
         return parse_horizon(args.horizon)
     except ValueError as exc:
-        fail(f"--horizon: {exc}")
+        fail(f"--horizon: {str(exc).removeprefix('site.horizon_deg ')}")
     raise AssertionError
 
 
@@ -239,7 +252,7 @@ def _show_plane(args, climate, h) -> str:
         res = poa_monthly(h, lat, tilt, choice.azimuth_deg, args.albedo, horizon=horizon,
                           longitude_deg=lon, elevation_m=elev)
     except ValueError as exc:
-        fail(str(exc))
+        fail(_option_message(exc))
     print(_row("POA", res.poa_kwh_m2_day))
     if horizon:
         print(_row("lost", res.beam_lost_kwh_m2_day))
@@ -263,7 +276,7 @@ def run_tilt(args) -> int:
                       longitude_deg=climate.longitude_deg or 0.0,
                       elevation_m=climate.elevation_m or 0.0)
     except ValueError as exc:
-        fail(str(exc))
+        fail(_option_message(exc))
     print(f"{head['name']}: lat {climate.latitude_deg:g}, azimuth {c.azimuth_deg:g}")
     print(_header_row())
     print(_row(f"{c.tilt_deg:g}", c.poa_kwh_m2_day))
@@ -343,7 +356,10 @@ def run_import(args) -> int:
         fail(f"not written: {len(errors)} problem(s) to resolve first{hint}", code=1)
     if out.exists() and not args.force:
         fail(f"{out} exists: use --force to overwrite it, or --out PATH")
-    save_climate(climate, out, name=name)
+    try:
+        save_climate(climate, out, name=name)
+    except OSError as exc:
+        fail(f"{exc.filename or out}: cannot write the climate file: {exc.strerror or exc}")
     print(f"wrote {out}")
     return 0
 

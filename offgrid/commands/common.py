@@ -36,3 +36,12 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
 def fail(message: str, code: int = 2) -> None:
     print(f"offgrid: {message}", file=sys.stderr)
     raise SystemExit(code)
+
+
+def design_failed(exc, suffix: str = "") -> None:
+    """Exit for a DesignError: 2 when the input is unusable, 3 when the design cannot be met."""
+    from offgrid.result import INPUT_ERROR_CODES
+
+    if exc.code in INPUT_ERROR_CODES:
+        fail(f"{exc.field + ': ' if exc.field else ''}{exc}{suffix}", code=2)
+    fail(f"cannot design: {exc}{suffix}", code=3)

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 import json
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import add_project_argument, design_failed, fail, open_project
 
 
 def register(sub) -> None:
@@ -63,7 +63,7 @@ def run(args: argparse.Namespace) -> int:
                                prices=prices, sweep_size=sweep,
                                with_tradeoff=not args.no_sweep)
     except DesignError as exc:
-        fail(f"cannot design: {exc}", code=3)
+        design_failed(exc)
     except ValueError as exc:
         fail(str(exc))
     if args.json:

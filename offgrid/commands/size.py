@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 import json
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import add_project_argument, design_failed, fail, open_project
 
 
 def register(sub) -> None:
@@ -76,7 +76,7 @@ def run(args: argparse.Namespace) -> int:
     try:
         result = design(project, base)
     except DesignError as exc:
-        fail(f"cannot design: {exc}", code=3)
+        design_failed(exc)
     if args.json:
         print(json.dumps(result.to_dict(), indent=2, ensure_ascii=False))
     else:

@@ -30,6 +30,8 @@ class LoadProblem:
     message: str
 
     def __str__(self) -> str:
+        if not self.line:  # the whole file
+            return f"{self.field}: {self.message}"
         return f"line {self.line}, {self.field}: {self.message}"
 
 
@@ -113,9 +115,16 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     return out
 
 
+#: Required numeric cells and what to type in them.
+_REQUIRED_CELLS = {"power_w": "the running power of one unit in W",
+                   "hours_per_day": "the hours of use per day, 0-24"}
+
+
 def _num(row: dict, key: str, line: int, problems: list[LoadProblem], default: float) -> float:
     raw = (row.get(key) or "").strip()
     if raw == "":
+        if key in _REQUIRED_CELLS:
+            problems.append(LoadProblem(line, key, f"is empty; type {_REQUIRED_CELLS[key]}"))
         return default
     try:
         return float(raw.replace(",", "."))
@@ -144,8 +153,10 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
     if problems:
         raise LoadListError(problems, source)
     loads: list[Load] = []
-    for index, row in enumerate(reader, start=2):
-        line = index if reader.line_num is None else reader.line_num
+    for row in reader:
+        # the row's first line: a quoted cell may run over several lines
+        line = reader.line_num - sum(v.rstrip("\r\n").count("\n") for v in row.values()
+                                     if isinstance(v, str))
         if all(not (v or "").strip() for v in row.values() if isinstance(v, str)):
             continue
         if None in row:
@@ -153,6 +164,11 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
             continue
         start = len(problems)
         name = (row.get("name") or "").strip()
+        if any("\n" in (v or "") for v in row.values() if isinstance(v, str)):
+            problems.append(LoadProblem(line, "row", 'a quotation mark (") opens a cell and is '
+                                        "never closed, so the lines after it were read into "
+                                        "one cell: close the quote or remove it"))
+            continue
         qty = _num(row, "quantity", line, problems, 1)
         if qty != int(qty):
             problems.append(LoadProblem(line, "quantity", f"{qty} must be a whole number"))
@@ -186,12 +202,13 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
 
 
 def load_loads_csv(path: str | Path) -> list[Load]:
+    from offgrid.textfile import TextFileError, read_text
+
     p = Path(path)
     try:
-        text = p.read_text(encoding="utf-8")
-    except OSError as exc:
-        raise LoadListError([LoadProblem(0, "file", f"cannot read {p}: {exc.strerror}")], str(p)) \
-            from exc
+        text = read_text(p)
+    except TextFileError as exc:
+        raise LoadListError([LoadProblem(0, "file", str(exc))], str(p)) from None
     return read_loads_csv(text, source=str(p))
 
 

@@ -47,8 +47,16 @@ class ProjectFileError(ValueError):
 
 def atomic_write_text(path: str | os.PathLike, text: str, backup: bool = True) -> Path:
     """Write ``text`` to ``path`` atomically; keep the old file as ``path + '.bak'``."""
+    import errno
+
     target = Path(path)
     folder = target.parent if str(target.parent) else Path(".")
+    if target.is_dir():  # never move a folder aside as a "backup"
+        raise IsADirectoryError(errno.EISDIR, "is a folder, not a file: give a file name",
+                                str(target))
+    if not folder.is_dir():
+        raise FileNotFoundError(errno.ENOENT, "the folder does not exist: create it first or "
+                                "choose another", str(folder))
     fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
@@ -276,7 +284,9 @@ def project_from_dict(data: dict[str, Any], source: str = "project") -> tuple[Pr
     reader = _Reader()
     fmt = data.get("format")
     if fmt != FORMAT_NAME:
-        reader.bad("format", f"'{fmt}' is not an offgrid project; the first line must be "
+        what = ("the file has no format line" if fmt is None else
+                f"'{fmt}' is not an offgrid project")
+        reader.bad("format", f"{what}: an offgrid project starts with the line "
                              f"format = \"{FORMAT_NAME}\"")
         return Project(), reader.problems
     schema = data.get("schema")
@@ -357,15 +367,14 @@ def loads_project(text: str, source: str = "project") -> Project:
 
 
 def load_project(path: str | os.PathLike) -> Project:
+    from offgrid.textfile import TextFileError, read_text
+
     p = Path(path)
     try:
-        text = p.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise ProjectFileError(str(p), [Problem("file", "does not exist; check the path")]) \
-            from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ProjectFileError(str(p), [Problem("file", f"cannot be read: {exc}")]) from exc
-    return loads_project(text, source=str(p))
+        text = read_text(p)
+    except TextFileError as exc:
+        raise ProjectFileError(str(p), [Problem("file", str(exc))]) from None
+    return loads_project(text.removeprefix("\ufeff"), source=str(p))
 
 
 def copy_project(project: Project) -> Project:

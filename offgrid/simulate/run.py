@@ -161,8 +161,9 @@ def summary_text(rep: SimulationReport) -> str:
     seed = "random" if w["seed"] is None else str(w["seed"])
     lines.append(f"Weather: {w['years']} years ({w['measured_years']} measured), seed {seed}")
     lines.append("  Aguiar, Collares-Pereira & Conde (1988) Markov matrices, rescaled per month")
-    lines.append(f"Design: array {r.array_w:.0f} W, battery {r.capacity_wh / 1000:.2f} kWh "
-                 f"({r.usable_wh / 1000:.2f} kWh usable); {r.mode} balance")
+    lines += _wrap(f"Design: array {r.array_w:.0f} W, battery {r.capacity_wh / 1000:.2f} kWh "
+                   f"at its temperature ({r.usable_wh / 1000:.2f} kWh usable); {r.mode} "
+                   "balance", 80, "  ")
     lines.append("")
     lines.append("Reliability")
     lines.append(f"  loss-of-load probability  {pct(r.lolp):>9}   ({r.shed_days} of {r.days} "
@@ -217,7 +218,7 @@ def summary_text(rep: SimulationReport) -> str:
                     for p in shown))
             lines += _wrap("    " + t.message, 80, "    ")
     lines.append("")
-    for n in r.notes[:3]:
+    for n in r.notes:
         lines += _wrap(f"Note: {n}", 80, "  ")
     lines.append("")
     for c in rep.cautions:

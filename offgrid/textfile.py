@@ -1,0 +1,56 @@
+"""Reading the user's text files with messages a person can act on.
+
+Project files, load lists and climate files all go through :func:`read_text`, so a missing
+file, a folder given for a file, a file without read permission, a binary or non-UTF-8
+file or one far too large for its kind gets one clear sentence instead of a traceback.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+#: Larger than any project, load list or climate file offgrid writes (a climate with its
+#: 365-day series is ~50 kB): refuse rather than read a wrong file into memory.
+MAX_TEXT_BYTES = 20_000_000
+
+
+class TextFileError(ValueError):
+    """A text file cannot be read; the message says why and what to do (the path is not in it)."""
+
+
+def read_text(path: str | os.PathLike, max_bytes: int = MAX_TEXT_BYTES) -> str:
+    """The file's text, decoded as UTF-8 (a leading byte-order mark is kept).
+
+    Raises :class:`TextFileError` with the reason and the fix.
+    """
+    p = Path(path)
+    try:
+        if p.is_dir():
+            raise TextFileError("is a folder, not a file: give the path of the file itself")
+        size = p.stat().st_size
+        if size > max_bytes:
+            raise TextFileError(f"is {size / 1e6:.0f} MB, far larger than this kind of file: "
+                                "check that it is the right file")
+        data = p.read_bytes()
+    except FileNotFoundError:
+        raise TextFileError("does not exist: check the folder and the file name") from None
+    except PermissionError:
+        raise TextFileError("cannot be read: permission denied; check the file's permissions "
+                            "or copy it somewhere you can read") from None
+    except OSError as exc:
+        raise TextFileError(f"cannot be read: {exc.strerror or exc}") from None
+    if data[:2] in (b"\xff\xfe", b"\xfe\xff"):
+        raise TextFileError("is UTF-16 text (a spreadsheet's 'Unicode text'): save it with "
+                            "UTF-8 encoding (in a spreadsheet: 'CSV UTF-8'; in an editor: "
+                            "encoding UTF-8)")
+    if b"\x00" in data[:4096]:
+        raise TextFileError("is a binary file, not text: give the text file (TOML or CSV)")
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data.count(b"\n", 0, exc.start) + 1
+        raise TextFileError(
+            f"is not UTF-8 text (byte 0x{data[exc.start]:02x} on line {line}): save it with "
+            "UTF-8 encoding (in a spreadsheet: 'CSV UTF-8'; in an editor: encoding UTF-8)"
+        ) from None
