@@ -259,15 +259,19 @@ def _device_kind(rating: float | None, kind: str) -> str:
     return "fuse" if rating in prot.FUSE_ONLY_RATINGS_A else kind
 
 
-def electrical_design(project, core) -> ElectricalResult:
-    """Electrical design of the stand-alone system sized by the worst-month core."""
+def electrical_design(project, core, params: DiodeParams | None = None) -> ElectricalResult:
+    """Electrical design of the stand-alone system sized by the worst-month core.
+
+    ``params``: the module's fit when the caller has it already (else it is fitted here).
+    """
     rb = ReasonBook()
     notices: list[Notice] = []
     module = project.module
     wiring = project.wiring
     for text in validate_module(module):
         notices.append(Notice("module-cells", text, "warning", "module.cells_in_series"))
-    params = fit_module(module)
+    if params is None:
+        params = fit_module(module)
     rb.add("module.fit", "single-diode model fitted to the datasheet; reproduces Vmp, Imp, Voc, "
            "Isc at STC within 0.5 %", params.method,
            vmp_error=fmt(params.stc_error_pct[0], "%"), imp_error=fmt(params.stc_error_pct[1], "%"),

@@ -264,8 +264,11 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     # 4-5. array
     k_array = len(notices)
     arr_notices: list[Notice] = []
+    from offgrid.pv import fit_module
+
+    params = fit_module(project.module)  # once per design: the window and the curves share it
     array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, arr_notices,
-                                                    t_low)
+                                                    t_low, params=params)
     # 6. battery
     battery = _size_battery(project, lr, system_v, batt_abs_v, t_mean, book, notices)
     # 8. inverter
@@ -291,7 +294,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     from offgrid.electrical import electrical_design, with_electrical
 
     core = assemble(array, ctrl, arr_notices)
-    er = electrical_design(project, core)
+    er = electrical_design(project, core, params)
     first = array.module_count
     for _ in range(4):
         short = er.harvest.shortfall_pct
@@ -301,9 +304,9 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                    math.ceil(core.array.module_count / (1.0 - short / 100.0) - 1e-9))
         arr_notices = []
         array, ctrl, _, _ = _size_array(project, site, lr, sun, book, arr_notices, t_low,
-                                        min_modules=need)
+                                        min_modules=need, params=params)
         core = assemble(array, ctrl, arr_notices)
-        er = electrical_design(project, core)
+        er = electrical_design(project, core, params)
     if core.array.module_count != first:
         arr_notices.append(Notice(
             "array-raised-for-harvest", f"The array was raised from {first} to "
@@ -356,7 +359,8 @@ def _soiling_factor(project: Project) -> tuple[float, str]:
 
 
 def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
-                book: ReasonBook, notices: list[Notice], t_low: float, min_modules: int = 0):
+                book: ReasonBook, notices: list[Notice], t_low: float, min_modules: int = 0,
+                params=None):
     m = project.module
     ctrl_spec = project.controller
     dm = site.design_month - 1
@@ -383,7 +387,7 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     # single-diode model; DesignError when no series count fits the controller.
     from offgrid.electrical import string_limits
 
-    lim = string_limits(project, site.temp_day_c, t_low, batt_abs_v)
+    lim = string_limits(project, site.temp_day_c, t_low, batt_abs_v, params)
     window, vmp_hot, voc_cold = lim.window, lim.vmp_hot_v, lim.voc_cold_v
     book.add("array.modules_series",
              "MPPT: of the series counts in the string window, the layout with the fewest "
