@@ -49,7 +49,10 @@ def analyse_loads(loads: list[Load], inverter: InverterSpec, growth_pct: float,
     loss = ac / eta - ac
     growth = 1.0 + growth_pct / 100.0
     at_battery = (dc + ac / eta + idle) * growth
-    crit_e = e[is_crit & is_ac].sum(axis=0) / eta + e[is_crit & ~is_ac].sum(axis=0)
+    # A critical AC load keeps the inverter on: its idle draw is then critical too.
+    crit_ac = bool((is_crit & is_ac).any())
+    crit_e = (e[is_crit & is_ac].sum(axis=0) / eta + e[is_crit & ~is_ac].sum(axis=0)
+              + (idle if crit_ac else 0.0))
     crit = crit_e * growth
 
     # connected power of the busiest month (a load listed twice for two seasons counts once)
@@ -90,8 +93,9 @@ def analyse_loads(loads: list[Load], inverter: InverterSpec, growth_pct: float,
     book.add("loads.inverter_loss_wh", "AC energy / inverter efficiency - AC energy",
              "common practice, no source", inverter_efficiency=fmt(eta))
     book.add("loads.critical_energy_wh", "(critical DC energy + critical AC energy / inverter "
-             "efficiency) x (1 + load-growth margin); the inverter's idle draw is not included",
-             "common practice, no source", growth=fmt(growth_pct, "%"))
+             "efficiency + the inverter's idle draw when a critical load is AC) x (1 + "
+             "load-growth margin)", "common practice, no source", growth=fmt(growth_pct, "%"),
+             idle_counted="yes" if crit_ac else "no")
     book.add("loads.max_daily_energy_wh", "largest of the twelve monthly daily energies at the "
              "battery (it sizes the battery)", "common practice, no source",
              value=fmt(float(at_battery.max()) if len(at_battery) else 0.0, "Wh/day"))

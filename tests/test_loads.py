@@ -121,3 +121,14 @@ def test_missing_required_column():
 def test_empty_file():
     with pytest.raises(LoadListError, match="empty"):
         read_loads_csv("")
+
+
+def test_a_critical_ac_load_makes_the_inverter_idle_critical():
+    # common practice, no source: a critical AC load keeps the inverter switched on.
+    inv = InverterSpec(efficiency=0.9, self_consumption_w=10.0, hours_on_per_day=24.0)
+    ac = [Load("radio", 1, 90.0, 10.0, "ac", critical=True), Load("tv", 1, 60.0, 4.0, "ac")]
+    r = analyse_loads(ac, inv, 0.0, 1.0)
+    assert r.critical_energy_wh[0] == pytest.approx(900 / 0.9 + 240)
+    dc = [Load("light", 1, 10.0, 5.0, "dc", critical=True), Load("tv", 1, 60.0, 4.0, "ac")]
+    r = analyse_loads(dc, inv, 0.0, 1.0)
+    assert r.critical_energy_wh[0] == pytest.approx(50.0)  # the inverter may be switched off

@@ -15,7 +15,7 @@ agree on every derate):
   efficiency / the discharge efficiency;
 * loads at the battery bus per month (critical part separately), spread over
   the day by each load's time of day; the inverter's idle draw is spread
-  evenly over the day.
+  evenly over the day (and is critical when a critical load is AC).
 """
 
 from __future__ import annotations
@@ -53,6 +53,8 @@ def _profiles(project: Project, design: SystemDesign) -> tuple[np.ndarray, np.nd
             crit += at_bus[:, None] * shape
     if lr.inverter_idle_wh > 0:
         total += lr.inverter_idle_wh * window_profile("any")[None, :]
+        if any(ld.critical and ld.ac_dc == "ac" for ld in project.loads):
+            crit += lr.inverter_idle_wh * window_profile("any")[None, :]  # as loads.py
 
     def norm(a):
         s = a.sum(axis=1, keepdims=True)
