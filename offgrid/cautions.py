@@ -80,6 +80,7 @@ class CautionInputs:
     ambient_for_wires_c: float
     array_run_m: float
     strings: int
+    battery_min_source: str = "the site's record low"  # where battery_min_temp_c comes from
 
 
 def design_cautions(c: CautionInputs) -> tuple[Caution, ...]:
@@ -107,7 +108,8 @@ def design_cautions(c: CautionInputs) -> tuple[Caution, ...]:
         if c.battery_min_temp_c <= 0.0:
             out.append(Caution(
                 "electrolyte-freezing",
-                f"The battery may reach {c.battery_min_temp_c:.0f} C. At the design's deepest "
+                f"The battery may reach {c.battery_min_temp_c:.0f} C ({c.battery_min_source})."
+                " At the design's deepest "
                 f"discharge ({c.max_dod:.0%}) the electrolyte freezes near {freeze:.0f} C and "
                 f"a flat battery near {flat:.0f} C; a frozen battery cracks. Keep the bank "
                 "insulated or indoors and recharge promptly in the cold.",
@@ -116,7 +118,8 @@ def design_cautions(c: CautionInputs) -> tuple[Caution, ...]:
         out.append(Caution(
             "lfp-cold-charge",
             f"Lithium iron phosphate cells must not be charged below 0 C and this battery may "
-            f"reach {c.battery_min_temp_c:.0f} C: use a battery management system or "
+            f"reach {c.battery_min_temp_c:.0f} C ({c.battery_min_source}): use a battery "
+            "management system or "
             "controller that stops charging in the cold, or keep the battery warm.",
             "common practice, no source (some makers say +5 C)"))
     est = " (estimated; take the value from the battery datasheet)" if (

@@ -666,6 +666,9 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         chemistry=bat.chemistry, cells_in_series=cells,
         bank_capacity_ah=float(bat.capacity_ah), max_dod=float(bat.max_dod),
         battery_min_temp_c=_battery_min_temp_c(project, core), bank_fault_current_a=fault,
+        battery_min_source=("the battery room, site.battery_temp_c"
+                            if project.site.battery_temp_c is not None
+                            else "the site's record low, outdoors"),
         fault_current_estimated=estimated, ambient_for_wires_c=ambient,
         array_run_m=float(wiring.array_run_m), strings=layout.parallel))
 

@@ -637,9 +637,13 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
                               "larger units (or 2 V cells) to keep three or fewer.", "warning",
                               "battery.units_parallel"))
     if t_batt < 5:
-        notices.append(Notice("battery-cold", f"The battery sits at about {t_batt:.0f} C: "
-                              f"capacity is raised by a factor {f_t:.2f}; insulate or move the "
-                              "battery indoors.", "warning", "battery.required_ah"))
+        where = ("the battery room's temperature (site.battery_temp_c)"
+                 if project.site.battery_temp_c is not None else
+                 "the coldest monthly mean outdoors; set site.battery_temp_c for a room")
+        notices.append(Notice("battery-cold", f"The battery works at about {t_batt:.0f} C "
+                              f"({where}): its capacity is raised by a factor {f_t:.2f} for "
+                              "the cold; insulate it or move it indoors.", "warning",
+                              "battery.required_ah"))
     book.add("battery.nominal_kwh", "installed Ah x system voltage / 1000",
              "common practice, no source", capacity=fmt(cap_ah, "Ah"),
              system_voltage=fmt(system_v, "V"))
