@@ -33,7 +33,7 @@ def reason_text(label: str, value: str, reason: Reason | None, path: str | None,
     grid = Table.grid(padding=(0, 1), expand=True)
     grid.add_column(style="bold", no_wrap=True, width=9)
     grid.add_column(ratio=1)
-    grid.add_row("Figure", Text.assemble(literal(label), "  ", (value, "bold")))
+    grid.add_row("Figure", Text.assemble(literal(label), "  ", literal(value, "bold")))
     if reason is None:
         grid.add_row("", literal(extra or "The engine recorded no reason for this figure."))
         return grid

@@ -33,7 +33,8 @@ def figure_rows(d: SystemDesign) -> list[Row]:
         ("Strings in parallel", f"{a.modules_parallel}", "array.modules_parallel"),
         ("Power needed", f"{a.required_power_w:,.0f} W", "array.required_power_w"),
         ("All derates together", f"{a.derate_total:.3f}", "array.required_power_w"),
-        *[(f"  derate: {name}", f"{value:.3f}", f"array.derates.{name}")
+        *[(f"  derate: {name}", f"{value:.3f}", f"array.derates.{name}"
+           if f"array.derates.{name}" in d.reasons else "array.required_power_w")
           for name, value in a.derates.items()],
         ("Cold string Voc", f"{a.string_voc_cold_v:.1f} V", "array.modules_series"),
         ("Hot string Vmp", f"{a.string_vmp_hot_v:.1f} V", "array.modules_series"),
