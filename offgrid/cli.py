@@ -12,7 +12,7 @@ import importlib
 import sys
 
 #: Subcommand modules under offgrid.commands, in the order ``--help`` lists them.
-COMMANDS: tuple[str, ...] = ("size",)
+COMMANDS: tuple[str, ...] = ("size", "simulate")
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -29,7 +29,7 @@ def build_parser() -> argparse.ArgumentParser:
 
 def main(argv: list[str] | None = None) -> int:
     argv = sys.argv[1:] if argv is None else argv
-    if not argv or argv[0] not in COMMANDS and argv[0] not in ("-h", "--help"):
+    if not argv or (argv[0] not in COMMANDS and argv[0] not in ("-h", "--help")):
         ui = _ui_entry()
         if ui is not None:
             return ui(argv)

@@ -29,7 +29,8 @@ def appliance_energy_wh(loads: list[Load]) -> np.ndarray:
     """Daily energy of each load line in each month at the appliance [Wh/day], shape (n, 12)."""
     if not loads:
         return np.zeros((0, 12))
-    per_day = np.array([ld.quantity * ld.power_w * ld.hours_per_day * ld.duty_cycle for ld in loads])
+    per_day = np.array([ld.quantity * ld.power_w * ld.hours_per_day * ld.duty_cycle
+                        for ld in loads])
     return per_day[:, None] * month_mask(loads)
 
 

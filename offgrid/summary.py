@@ -28,9 +28,10 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     title = project.info.name
     if project.info.demo:
         title += "  (demonstration data)"
-    lines += [title, "=" * min(WIDTH, len(title))]
-    lines.append(f"Site: {project.site.name or '-'}  lat {project.site.latitude_deg:.2f}, lon "
-                 f"{project.site.longitude_deg:.2f}, tilt {s.tilt_deg:.0f} deg, azimuth "
+    lines += [title[:WIDTH], "=" * min(WIDTH, len(title))]
+    lines.append(f"Site: {project.site.name or '-'}")
+    lines.append(f"      latitude {project.site.latitude_deg:.2f}, longitude "
+                 f"{project.site.longitude_deg:.2f}; array tilt {s.tilt_deg:.0f} deg, azimuth "
                  f"{s.azimuth_deg:.0f} deg")
     dm = s.design_month - 1
     lines.append(f"Design month: {MONTHS[dm]}  ({ld.design_daily_energy_wh:.0f} Wh/day on "
@@ -67,7 +68,8 @@ def summary_text(project: Project, d: SystemDesign) -> str:
                  f"{ld.peak_ac_w:.0f} W (coincidence {ld.coincidence_factor:g}); DC "
                  f"{ld.connected_dc_w:.0f} W")
     lines.append(f"       inverter idle {ld.inverter_idle_wh:.0f} Wh/day; growth margin "
-                 f"{ld.growth_pct:g} %; largest surge {ld.largest_surge_w:.0f} W "
+                 f"{ld.growth_pct:g} %")
+    lines.append(f"       largest surge {ld.largest_surge_w:.0f} W "
                  f"({ld.largest_surge_load or 'none'})")
     for extra in _extra_sections(d):
         lines.append("")

@@ -63,7 +63,8 @@ def _month(text: str) -> int:
     try:
         m = int(text)
     except ValueError:
-        raise ValueError(f"'{text}' is not a month number; use 1-12, e.g. '1-12' or '5,6,7'") from None
+        raise ValueError(f"'{text}' is not a month number; use 1-12, e.g. '1-12' or '5,6,7'") \
+            from None
     if not 1 <= m <= 12:
         raise ValueError(f"month {m} is outside 1-12")
     return m
@@ -100,14 +101,15 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     if load.surge_w < 0 or load.surge_w > 10_000_000:
         out.append(("surge_w", f"{load.surge_w} W must be 0 (no surge) or a starting power in W"))
     elif 0 < load.surge_w < load.power_w:
-        out.append(("surge_w", f"{load.surge_w} W is below the running power {load.power_w} W; give "
-                               "the starting power of one unit, or 0 for no surge"))
+        out.append(("surge_w", f"{load.surge_w} W is below the running power {load.power_w} W; "
+                               "give the starting power of one unit, or 0 for no surge"))
     if load.ac_dc not in ("ac", "dc"):
         out.append(("ac_dc", f"'{load.ac_dc}' must be ac or dc"))
     if not load.months or any(not 1 <= m <= 12 for m in load.months):
         out.append(("months", "give the months of use, e.g. 1-12 or 5,6,7"))
     if load.time_of_day not in TIMES_OF_DAY:
-        out.append(("time_of_day", f"'{load.time_of_day}' must be one of {', '.join(TIMES_OF_DAY)}"))
+        out.append(("time_of_day",
+                    f"'{load.time_of_day}' must be one of {', '.join(TIMES_OF_DAY)}"))
     return out
 
 

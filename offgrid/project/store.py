@@ -240,7 +240,8 @@ class _Reader:
         known = {f.name for f in dataclasses.fields(cls)}
         for key in data:
             if key not in known:
-                self.bad(f"{path}.{key}", f"unknown field; known fields are {', '.join(sorted(known))}")
+                self.bad(f"{path}.{key}",
+                         f"unknown field; known fields are {', '.join(sorted(known))}")
         for f in dataclasses.fields(cls):
             if f.name in data:
                 kwargs[f.name] = self.convert(hints[f.name], data[f.name], f"{path}.{f.name}")

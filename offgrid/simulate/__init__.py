@@ -1,0 +1,1 @@
+"""Reliability simulation: synthetic weather, energy balance, battery life, trade-off."""

@@ -1,0 +1,121 @@
+"""From a project and its worst-month design to the plain simulation inputs.
+
+What is taken from the design (so the simulation and the worst-month method
+agree on every derate):
+
+* per-month yield = array supply / (array power x plane-of-array insolation),
+  with the battery round-trip derate taken back out, because the simulation
+  models charge and discharge losses itself;
+* plane-of-array / horizontal ratio per month from the site result;
+* controller output limit = rated current x controllers x system voltage,
+  kept per W of array when the sweep resizes the array;
+* battery: nominal energy divided by the design's temperature factor (the
+  capacity available at the battery's temperature), its depth-of-discharge
+  limit and discharge efficiency; the charge efficiency is the round-trip
+  efficiency / the discharge efficiency;
+* loads at the battery bus per month (critical part separately), spread over
+  the day by each load's time of day; the inverter's idle draw is spread
+  evenly over the day.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+
+from offgrid.project.model import Project
+from offgrid.result import SystemDesign
+from offgrid.simulate.balance import SystemInputs, check_inputs
+from offgrid.simulate.profiles import HOURS, window_profile
+
+#: Maximum charge current as a fraction of capacity per hour (from memory: typical makers'
+#: limits for deep-cycle batteries; lead-acid C/5 to C/4, LiFePO4 C/2).
+MAX_CHARGE_C_RATE: dict[str, float] = {"flooded": 0.2, "agm": 0.25, "gel": 0.2, "lifepo4": 0.5}
+ROUND_TRIP_DERATE = "battery round trip"
+
+
+def _profiles(project: Project, design: SystemDesign) -> tuple[np.ndarray, np.ndarray]:
+    """(total, critical) hourly shares of the battery-bus load, 12 x 24 each."""
+    lr = design.loads
+    inv_eff = project.inverter.efficiency if project.inverter.efficiency > 0 else 1.0
+    total = np.zeros((12, HOURS))
+    crit = np.zeros((12, HOURS))
+    per_load = lr.per_load_wh
+    if len(per_load) != len(project.loads):
+        raise ValueError("design: the load results do not match the project's loads; "
+                         "size the project again")
+    for load, wh in zip(project.loads, per_load, strict=True):
+        at_bus = np.asarray(wh, dtype=float) / (inv_eff if load.ac_dc == "ac" else 1.0)
+        shape = window_profile(load.time_of_day)
+        total += at_bus[:, None] * shape
+        if load.critical:
+            crit += at_bus[:, None] * shape
+    if lr.inverter_idle_wh > 0:
+        total += lr.inverter_idle_wh * window_profile("any")[None, :]
+
+    def norm(a):
+        s = a.sum(axis=1, keepdims=True)
+        flat = np.tile(window_profile("any"), (12, 1))
+        return np.divide(a, s, out=flat, where=s > 0)
+
+    return norm(total), norm(crit)
+
+
+def inputs_from_design(project: Project, design: SystemDesign, *,
+                       initial_soc: float = 1.0) -> SystemInputs:
+    """:class:`SystemInputs` for the design's own array and battery."""
+    site, arr, bat, ctl = design.site, design.array, design.battery, design.controller
+    h = np.asarray(site.horizontal_kwh_m2_day, dtype=float)
+    poa = np.asarray(site.poa_kwh_m2_day, dtype=float)
+    ratio = np.divide(poa, h, out=np.ones(12), where=h > 0)
+    rt = float(arr.derates.get(ROUND_TRIP_DERATE, 1.0)) or 1.0
+    supply = np.asarray(arr.supply_wh_day, dtype=float)
+    denom = arr.power_w * poa
+    fallback = arr.derate_total / rt
+    yf = np.divide(supply, denom, out=np.full(12, fallback), where=denom > 0) / np.where(
+        denom > 0, rt, 1.0)
+    if not np.all(np.isfinite(yf)) or np.any(yf < 0) or np.any(yf > 1.5):
+        raise ValueError("design: the array supply per month does not match its power and "
+                         "insolation; size the project again")
+    total_p, crit_p = _profiles(project, design)
+    ed = float(bat.discharge_efficiency)
+    rte = float(project.battery.efficiency)
+    if not 0 < ed <= 1 or not 0 < rte <= 1:
+        raise ValueError("battery.efficiency: must be a fraction in (0, 1]")
+    ec = min(1.0, rte / ed)
+    temp_factor = bat.temp_factor if bat.temp_factor > 0 else 1.0
+    capacity_wh = bat.nominal_kwh * 1000.0 / temp_factor
+    ctrl_w = ctl.current_a * ctl.count * bat.system_voltage_v
+    notes = (
+        "from the worst-month design: monthly derates (battery round trip left to the "
+        "simulation), plane-of-array ratio, controller rating "
+        f"{ctl.count} x {ctl.current_a:g} A at {bat.system_voltage_v} V",
+        f"battery: {bat.nominal_kwh:.2f} kWh nominal / temperature factor {temp_factor:.3f}; "
+        f"charge {ec:.3f}, discharge {ed:.3f}; max charge rate "
+        f"C/{1 / MAX_CHARGE_C_RATE.get(bat.chemistry, 0.2):.0f} (from memory)",
+    )
+    load = np.asarray(design.loads.daily_energy_wh, dtype=float)
+    crit = np.minimum(np.asarray(design.loads.critical_energy_wh, dtype=float), load)
+    return check_inputs(SystemInputs(
+        insolation_kwh_m2_day=h, latitude_deg=float(site.latitude_deg), poa_ratio=ratio,
+        yield_factor=yf, load_wh=load, critical_wh=crit, load_profile=total_p,
+        critical_profile=crit_p, array_w=float(arr.power_w), capacity_wh=float(capacity_wh),
+        max_dod=float(bat.max_dod), eta_charge=ec, eta_discharge=ed,
+        controller_w_per_w=(ctrl_w / arr.power_w) if arr.power_w > 0 and ctrl_w > 0 else None,
+        charge_c_rate=MAX_CHARGE_C_RATE.get(bat.chemistry), initial_soc=initial_soc,
+        chemistry=bat.chemistry, notes=notes))
+
+
+def measured_daily(project: Project, base: Path | None = None) -> np.ndarray | None:
+    """Real daily insolation of an imported weather year, when the climate carries one."""
+    from offgrid.sizing import resolve_climate
+
+    climate = resolve_climate(project, base)
+    daily = getattr(climate, "daily", None)
+    if daily is None:
+        return None
+    values = getattr(daily, "insolation_kwh_m2_day", None)
+    if not values:
+        return None
+    return np.asarray(values, dtype=float)

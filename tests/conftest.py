@@ -1,0 +1,54 @@
+"""Shared fixtures: small projects built in code (invented data, for tests only)."""
+
+from __future__ import annotations
+
+import pytest
+
+from offgrid.project.model import (
+    BatterySpec,
+    ClimateChoice,
+    ControllerSpec,
+    DesignChoices,
+    InverterSpec,
+    Load,
+    ModuleSpec,
+    MonthlyClimate,
+    Project,
+    ProjectInfo,
+    Site,
+)
+
+
+def hand_project() -> Project:
+    """The project of the hand-worked sizing in tests/test_sizing.py (invented)."""
+    climate = MonthlyClimate(
+        insolation_kwh_m2_day=[5.0] * 11 + [4.0],
+        temp_mean_c=[25.0] * 12,
+        temp_max_c=[25.0] * 12,
+        temp_min_c=[20.0] * 12,
+        record_low_c=5.0,
+        source="invented for a hand-worked test",
+        demo=True,
+    )
+    return Project(
+        info=ProjectInfo(name="Hand-worked case", demo=True),
+        site=Site(name="Test site", latitude_deg=10.0, longitude_deg=0.0, tilt_deg=0.0,
+                  azimuth_deg=180.0, battery_temp_c=25.0),
+        climate=ClimateChoice(inline=climate),
+        loads=[
+            Load("DC lights", 1, 100.0, 10.0, "dc"),
+            Load("AC pump", 1, 200.0, 5.0, "ac", surge_w=600.0),
+        ],
+        module=ModuleSpec(),
+        battery=BatterySpec(chemistry="agm", nominal_voltage_v=12.0, capacity_ah=200.0,
+                            max_dod=0.5, efficiency=0.85),
+        controller=ControllerSpec(type="mppt", max_pv_voltage_v=150.0, efficiency=0.97),
+        inverter=InverterSpec(efficiency=0.9, self_consumption_w=10.0, hours_on_per_day=24.0),
+        choices=DesignChoices(system_voltage=24, autonomy_days=3.0, load_growth_pct=10.0,
+                              coincidence_factor=0.7, ageing_factor=0.8),
+    )
+
+
+@pytest.fixture
+def project() -> Project:
+    return hand_project()
