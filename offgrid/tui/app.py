@@ -355,13 +355,14 @@ class OffgridApp(App):
     # ------------------------------------------------------------------ help, theme, commands
     def action_toggle_theme(self) -> None:
         self.theme = DEFAULT_THEME if self.theme == SUN_THEME else SUN_THEME
-        self.notify(f"Colours: {'sunlight (high contrast)' if self.theme == SUN_THEME else 'night'}",
-                    timeout=2)
+        sun = self.theme == SUN_THEME
+        self.notify(f"Colours: {'sunlight (high contrast)' if sun else 'night'}", timeout=2)
 
     def help_groups(self) -> list[tuple[str, list[Binding]]]:
         from offgrid.tui.screens.dialogs import Dialog
         from offgrid.tui.sections.loads import LoadsSection, LoadsTable
         from offgrid.tui.sections.place import ClimateTable, PlaceSection
+        from offgrid.tui.sections.risk import RiskSection
         from offgrid.tui.widgets.editbar import EditBar
         from offgrid.tui.widgets.fieldtable import FieldTable
 
@@ -370,7 +371,7 @@ class OffgridApp(App):
 
         work = b(WorkScreen)
         moving = [x for x in work if x.id and x.id.startswith("go.")]
-        moving = [Binding("1,2,3,4,5,6", "goto", "Go to section 1-6 (Place ... Cautions)"),
+        moving = [Binding("1,2,3,4,5,6,7", "goto", "Go to section 1-7 (Place ... Risk)"),
                   *[x for x in moving if x.id[3:] not in {s for s, _t, _w in SECTIONS}],
                   Binding("up,down,left,right", "move", "Move the cursor"),
                   Binding("pageup,pagedown", "page", "Move a page"),
@@ -384,6 +385,7 @@ class OffgridApp(App):
                                  "the typed value (in the edit box)")]),
             ("1 Place", [*b(PlaceSection), *b(ClimateTable)]),
             ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
+            ("7 Risk", b(RiskSection)),
             ("Start screen", b(StartScreen)),
             ("Dialogs", b(Dialog)),
         ]
@@ -444,6 +446,9 @@ class OffgridApp(App):
                                 "i)", in_section("loads", "import_csv"))
             yield SystemCommand("Export load list", "Write the appliances to a CSV file "
                                 "(Loads, e)", in_section("loads", "export_csv"))
+            yield SystemCommand("Run the risk check", "Simulate synthetic weather years in the "
+                                "background (Risk, g)", in_section("risk", "run"))
+            yield SystemCommand("Stop the risk check", "(Risk, x)", in_section("risk", "stop"))
         yield SystemCommand("New blank project", "Start from nothing", self.new_blank)
         yield SystemCommand("New demo project", "The Kisanga Ridge health post (invented)",
                             self.new_demo)

@@ -50,7 +50,8 @@ class Field:
         if value is None:
             text = self.auto_text
             if self.auto is not None and design is not None:
-                with contextlib.suppress(AttributeError, IndexError, KeyError, TypeError, ValueError):
+                with contextlib.suppress(AttributeError, IndexError, KeyError, TypeError,
+                                         ValueError):
                     text += f" \u2192 {self.auto(design)}"
             return text
         if self.base_kind == "choice":

@@ -8,6 +8,7 @@ and so does a crash; the next start offers it.
 
 from __future__ import annotations
 
+import contextlib
 import os
 import signal
 import sys
@@ -54,15 +55,12 @@ def run(argv: list[str]) -> int:
             os._exit(128 + signum)
 
     for sig in (signal.SIGHUP, signal.SIGTERM):
-        try:
+        # (ValueError: not the main thread; OSError: not on this platform)
+        with contextlib.suppress(ValueError, OSError):
             signal.signal(sig, hang_up)
-        except (ValueError, OSError):  # not the main thread, or not on this platform
-            pass
     try:
         app.run()
     finally:
-        try:
+        with contextlib.suppress(OSError):
             app.write_recovery_now()  # a crash or lost terminal: keep what was on screen
-        except OSError:
-            pass
     return int(app.return_code or 0)

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import json
 
+from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
+
 from offgrid.paths import demo_project_path
 from offgrid.project.store import dumps_project, load_project
 from offgrid.sizing import design
@@ -12,7 +14,6 @@ from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.recover import RecoverDialog
 from offgrid.tui.screens.work import WorkScreen
 from offgrid.tui.state import RecoveryStore
-from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
 
 
 def copy_demo(tmp_path, name="site.toml"):

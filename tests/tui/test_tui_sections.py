@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
+
 from offgrid.project.model import Load
 from offgrid.project.store import load_project
 from offgrid.sizing import design
@@ -12,7 +14,6 @@ from offgrid.tui.screens.start import StartScreen
 from offgrid.tui.screens.why import WhyDialog
 from offgrid.tui.screens.work import WorkScreen
 from offgrid.tui.widgets.editbar import EditBar
-from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
 
 # ----------------------------------------------------------------------------- start
 
@@ -127,7 +128,6 @@ async def test_place_pick_climate_and_type_months(state):
         # own months: a copy, then one month and then all twelve typed at once
         await pilot.press("m")
         await pilot.pause()
-        assert project is not app.session.project or True
         inline = app.session.project.climate.inline
         assert inline is not None and inline.insolation_kwh_m2_day[0] == 6.1
         table = work.current.months
@@ -414,8 +414,9 @@ async def test_wires_reads_runs_when_the_engine_gives_them(state):
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
         d = app.session.design
-        Wired = dataclasses.make_dataclass("Wired", [("wires", tuple, dataclasses.field(default=()))],
-                                           bases=(type(d),), frozen=True)
+        Wired = dataclasses.make_dataclass(
+            "Wired", [("wires", tuple, dataclasses.field(default=()))], bases=(type(d),),
+            frozen=True)
         fields = {f.name: getattr(d, f.name) for f in dataclasses.fields(d)}
         app.session.outcome.design = Wired(**fields, wires=(Run("Array to controller", 46.9,
                                                                 12.0, 16.0, 1.9, 63.0),))

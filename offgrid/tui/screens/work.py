@@ -15,6 +15,7 @@ from offgrid.tui.sections.cautions import CautionsSection
 from offgrid.tui.sections.loads import LoadsSection
 from offgrid.tui.sections.parts import PartsSection
 from offgrid.tui.sections.place import PlaceSection
+from offgrid.tui.sections.risk import RiskSection
 from offgrid.tui.sections.sizes import SizesSection
 from offgrid.tui.sections.wires import WiresSection
 from offgrid.tui.session import Session
@@ -64,6 +65,7 @@ class WorkScreen(Screen):
             yield SizesSection(id="sizes")
             yield WiresSection(id="wires")
             yield CautionsSection(id="cautions")
+            yield RiskSection(id="risk")
         yield Footer(compact=True)
 
     def on_mount(self) -> None:

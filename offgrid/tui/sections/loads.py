@@ -18,6 +18,7 @@ from offgrid.tui.session import EditRejected, Session
 from offgrid.tui.text import clip, from_printable, printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.monthchart import MONTHS
+from offgrid.tui.widgets.steady import SteadyTable
 
 FIXED_WIDTH = sum(c.width for c in LOAD_COLUMNS if c.key != "name") + 1
 
@@ -27,7 +28,7 @@ def short4(value: float) -> str:
     return f"{value:.0f}" if value < 9999.5 else f"{value / 1000:.0f}k"
 
 
-class LoadsTable(DataTable):
+class LoadsTable(SteadyTable):
     """One row per appliance line; the cursor moves cell by cell."""
 
     BINDINGS = [Binding("enter", "select_cursor", "Edit", id="loads.edit")]

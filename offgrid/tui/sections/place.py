@@ -20,6 +20,7 @@ from offgrid.tui.text import from_printable, printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 from offgrid.tui.widgets.monthchart import MONTHS
+from offgrid.tui.widgets.steady import SteadyTable
 
 CLIMATE_FIELDS: tuple[Field | str, ...] = (
     "Climate",
@@ -55,7 +56,7 @@ def checked_climate(climate: MonthlyClimate) -> None:
     climate_from_dict(climate_to_dict(climate), where="climate")
 
 
-class ClimateTable(DataTable):
+class ClimateTable(SteadyTable):
     """Twelve months of the climate; a cell edits one month, or type twelve values at once."""
 
     BINDINGS = [Binding("enter", "select_cursor", "Edit month", id="climate.edit")]

@@ -15,6 +15,7 @@ from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable
 from offgrid.tui.widgets.monthchart import MONTHS, MonthChart
+from offgrid.tui.widgets.steady import SteadyTable
 
 KNOWN = {"loads", "site", "array", "battery", "controller", "inverter", "warnings", "cautions",
          "reasons"}
@@ -108,7 +109,7 @@ def extra_rows(d: SystemDesign) -> list[Row]:
     return rows
 
 
-class FigureTable(DataTable):
+class FigureTable(SteadyTable):
     BINDINGS = [Binding("enter", "select_cursor", "Why", id="sizes.why", show=False)]
 
     def __init__(self, **kwargs) -> None:
@@ -132,6 +133,9 @@ class FigureTable(DataTable):
                 label, value, _path = row
                 self.add_row(Text("  " + label), Text(value, style="bold"), key=f"r{i}")
         self.move_cursor(row=min(keep, self.row_count - 1), animate=False)
+
+    def is_heading(self, row: int) -> bool:
+        return 0 <= row < len(self.rows_shown) and isinstance(self.rows_shown[row], str)
 
     def current(self) -> tuple[str, str, str | None] | None:
         if not self.rows_shown:

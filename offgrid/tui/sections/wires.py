@@ -17,6 +17,7 @@ from offgrid.result import SystemDesign
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.sections.sizes import _show_value
 from offgrid.tui.session import Session
+from offgrid.tui.widgets.steady import SteadyTable
 
 PREFERRED = ("name", "label", "run", "from_", "to", "current_a", "length_m", "material",
              "size", "size_mm2", "size_awg", "drop_v", "drop_pct", "limit_pct", "ampacity_a",
@@ -54,7 +55,7 @@ class WiresSection(Section):
 
     def compose(self) -> ComposeResult:
         yield Static(id="wires-note", classes="table-title")
-        yield DataTable(id="wires-table", cursor_type="row", zebra_stripes=True)
+        yield SteadyTable(id="wires-table", cursor_type="row", zebra_stripes=True)
 
     @property
     def table(self) -> DataTable:

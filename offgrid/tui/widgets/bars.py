@@ -16,6 +16,7 @@ SECTIONS: tuple[tuple[str, str, str], ...] = (
     ("sizes", "Sizes", "the sized system and the month-by-month balance"),
     ("wires", "Wires", "cable runs, currents and protection"),
     ("cautions", "Cautions", "warnings and safety notes"),
+    ("risk", "Risk", "how often the battery runs out, over synthetic weather years"),
 )
 
 

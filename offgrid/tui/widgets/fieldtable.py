@@ -4,15 +4,15 @@ from __future__ import annotations
 
 from rich.text import Text
 from textual.binding import Binding
-from textual.widgets import DataTable
 
 from offgrid.result import SystemDesign
 from offgrid.tui.fields import Field
 from offgrid.tui.session import get_path
 from offgrid.tui.text import literal
+from offgrid.tui.widgets.steady import SteadyTable
 
 
-class FieldTable(DataTable):
+class FieldTable(SteadyTable):
     """Rows of fields grouped under headings; the cursor skips the headings."""
 
     BINDINGS = [
@@ -45,6 +45,7 @@ class FieldTable(DataTable):
         if event.size.width != getattr(self, "_layout", 0) and self._last_fill is not None:
             self._columns(event.size.width)
             self.fill(*self._last_fill)
+        super().on_resize(event)
 
     def current_field(self) -> Field | None:
         if not self._rows or self.cursor_row is None:
@@ -77,6 +78,9 @@ class FieldTable(DataTable):
             self.add_row(Text("  " + row.label), value, Text(row.help(), style="dim"),
                          key=row.path)
         self.move_cursor(row=self._first_field(keep), animate=False)
+
+    def is_heading(self, row: int) -> bool:
+        return 0 <= row < len(self._rows) and isinstance(self._rows[row], str)
 
     def _first_field(self, start: int, step: int = 1) -> int:
         n = len(self._rows)
