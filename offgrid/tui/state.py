@@ -96,7 +96,12 @@ def _alive(pid: int) -> bool:
         return True
     except OSError:
         return False
-    return True
+    # A process that has ended but not been reaped (a zombie) still answers kill(0).
+    try:
+        stat = Path(f"/proc/{pid}/stat").read_text()
+        return stat.rsplit(")", 1)[1].split()[0] not in ("Z", "X")
+    except (OSError, IndexError):
+        return True
 
 
 class RecoveryStore:
