@@ -21,6 +21,11 @@ from offgrid.tui.sections.wires import WiresSection
 from offgrid.tui.session import Session
 from offgrid.tui.widgets.bars import SECTIONS, FileBar, Headline, SectionBar
 
+SECTION_CLASSES: dict[str, type[Section]] = {
+    "place": PlaceSection, "loads": LoadsSection, "parts": PartsSection, "sizes": SizesSection,
+    "wires": WiresSection, "cautions": CautionsSection, "risk": RiskSection,
+}
+
 #: Section-changing and other one-letter keys work while no text box has focus.
 LETTER_ACTIONS = {"goto", "next_section", "why", "save", "save_as", "open", "revert", "undo",
                   "redo", "start", "help", "toggle_theme", "quit", "commands"}
@@ -59,19 +64,26 @@ class WorkScreen(Screen):
         yield SectionBar(id="sectionbar")
         yield Headline(id="headline")
         with ContentSwitcher(initial=self.section, id="sections"):
-            yield PlaceSection(id="place")
-            yield LoadsSection(id="loads")
-            yield PartsSection(id="parts")
-            yield SizesSection(id="sizes")
-            yield WiresSection(id="wires")
-            yield CautionsSection(id="cautions")
-            yield RiskSection(id="risk")
+            yield SECTION_CLASSES[self.section](id=self.section)
         yield Footer(compact=True)
 
     def on_mount(self) -> None:
         self.session.recompute()
         self.refresh_all()
         self.action_goto(self.section)
+        # The other sections are built after the first paint: a quicker start.
+        self.call_after_refresh(self._mount_rest)
+
+    async def _mount_rest(self) -> None:
+        switcher = self.query_one(ContentSwitcher)
+        missing = [cls(id=sid) for sid, cls in SECTION_CLASSES.items() if not self._has(sid)]
+        for widget in missing:
+            widget.display = widget.id == switcher.current
+        if missing:
+            await switcher.mount_all(missing)
+
+    def _has(self, sid: str) -> bool:
+        return bool(self.query_one(ContentSwitcher).query_children(f"#{sid}"))
 
     # ------------------------------------------------------------------ state
     @property
@@ -112,6 +124,9 @@ class WorkScreen(Screen):
 
     # ------------------------------------------------------------------ navigation
     def action_goto(self, section: str) -> None:
+        if not self._has(section):  # still being built just after start: a moment later
+            self.call_after_refresh(self.action_goto, section)
+            return
         self.set_focus(None)  # (a focused input can snap the switch back otherwise)
         self.section = section
         self.query_one(ContentSwitcher).current = section
