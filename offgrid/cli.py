@@ -12,7 +12,7 @@ import importlib
 import sys
 
 #: Subcommand modules under offgrid.commands, in the order ``--help`` lists them.
-COMMANDS: tuple[str, ...] = ("size", "simulate")
+COMMANDS: tuple[str, ...] = ("size", "climate", "simulate", "report", "bom", "prices", "variants")
 
 
 def build_parser() -> argparse.ArgumentParser:

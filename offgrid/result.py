@@ -121,6 +121,9 @@ class ArrayResult:
     vmp_hot_v: float
     string_voc_cold_v: float
     string_vmp_hot_v: float
+    # Daily energy into the battery each month from the I-V curves (offgrid.electrical):
+    harvest_pwm_wh_day: tuple[float, ...] = ()
+    harvest_mppt_wh_day: tuple[float, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -175,6 +178,7 @@ class SystemDesign:
     warnings: tuple[Notice, ...]
     cautions: tuple[str, ...]
     reasons: dict[str, Reason] = field(default_factory=dict)
+    electrical: Any = None  # offgrid.electrical.ElectricalResult once the pipeline adds it
 
     def why(self, path: str) -> Reason | None:
         return self.reasons.get(path)
@@ -184,7 +188,10 @@ class SystemDesign:
         out: dict[str, Any] = {}
         for f in fields(self):
             value = getattr(self, f.name)
-            if f.name == "reasons":
+            if f.name == "electrical":
+                if value is not None:
+                    out.update(_plain(value.to_json()))
+            elif f.name == "reasons":
                 out["reasons"] = {k: r.as_dict() for k, r in sorted(value.items())}
             elif f.name == "warnings":
                 out["warnings"] = [asdict(n) for n in value]

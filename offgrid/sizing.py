@@ -56,8 +56,10 @@ INVERTER_SURGE_MULTIPLE = 2.0
 #: inverter power at or below this current (common practice, no source).
 AUTO_VOLTAGE_MAX_CURRENT_A = 100.0
 NEC_CONTINUOUS = 1.25  # NEC 690.8(A)(1) and 690.8(B)(1), NFPA 70-2023
-MPPT_VOLTAGE_MARGIN = 1.15  # hot string Vmp / absorption voltage, MPPT (common practice)
-PWM_VOLTAGE_MARGIN = 1.05  # hot module Vmp / (absorption voltage + drop), PWM (common practice)
+#: The chosen controller's harvest may fall this far below the demand before modules are
+#: added (the derate chain and the I-V curves are both estimates; common practice, no source).
+HARVEST_SHORTFALL_TOLERANCE_PCT = 0.5
+LOW_SUN_KWH_M2_DAY = 1.5  # below it the monthly transposition is unreliable (test_climate_poa)
 
 
 def resolve_climate(project: Project, base: Path | None = None) -> MonthlyClimate:
@@ -95,31 +97,63 @@ def _check_climate(c: MonthlyClimate) -> None:
                               "number", f"climate.{key}")
 
 
-def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook):
-    """Tilt, azimuth and monthly plane-of-array insolation."""
+def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
+                  demand_wh_day=None, notices: list[Notice] | None = None):
+    """Tilt, azimuth and monthly plane-of-array insolation.
+
+    With no tilt set, the tilt is searched to serve the worst month of supply
+    against ``demand_wh_day`` best (:func:`offgrid.climate.tilt.best_tilt`).
+    A horizon profile on the site removes beam while the sun is behind it.
+    """
+    from offgrid.climate.poa import poa_monthly
+    from offgrid.climate.tilt import (
+        TILT_FORMULA,
+        TILT_SOURCE,
+        best_tilt,
+        describe_tilt,
+        tilt_reason_inputs,
+    )
+
     site = project.site
     lat = site.latitude_deg
-    tilt = site.tilt_deg
-    if tilt is None:
-        tilt = max(abs(lat), project.choices.min_tilt_deg)
-        book.add("site.tilt_deg", "|latitude|, but not below the self-cleaning minimum tilt",
-                 "common practice, no source", latitude=fmt(lat, "deg"),
-                 minimum=fmt(project.choices.min_tilt_deg, "deg"))
-    else:
-        book.add("site.tilt_deg", "set by the user", "project file", tilt=fmt(tilt, "deg"))
     azimuth = site.azimuth_deg if site.azimuth_deg is not None else sky.equator_facing_azimuth(lat)
     book.add("site.azimuth_deg", "equator-facing unless set (clockwise from north)",
              "common practice, no source", azimuth=fmt(azimuth, "deg"))
-    res = sky.poa_monthly_liu_jordan(climate.insolation_kwh_m2_day, lat, tilt, azimuth,
-                                     site.albedo)
-    book.add("site.poa_kwh_m2_day",
-             "H (1 - Hd/H) Rb + Hd (1 + cos tilt)/2 + H albedo (1 - cos tilt)/2 on Klein's mean "
-             "day of each month; Hd/H from the Erbs monthly correlation",
-             "Liu & Jordan (1962) isotropic sky with Klein (1977) Rb; Erbs, Klein & Duffie "
-             "(1982); Duffie & Beckman 4th ed. sec. 2.19",
-             tilt=fmt(tilt, "deg"), azimuth=fmt(azimuth, "deg"), albedo=fmt(site.albedo),
-             latitude=fmt(lat, "deg"))
-    return float(tilt), float(azimuth), res
+    horizon = list(site.horizon_deg or [])
+    tilt = site.tilt_deg
+    if tilt is None:
+        choice = best_tilt(climate.insolation_kwh_m2_day, lat, azimuth, demand_wh_day,
+                           site.albedo, project.choices.min_tilt_deg, horizon=horizon,
+                           longitude_deg=site.longitude_deg, elevation_m=site.elevation_m)
+        tilt = choice.tilt_deg
+        book.add("site.tilt_deg", TILT_FORMULA, TILT_SOURCE, **tilt_reason_inputs(choice))
+        if notices is not None:
+            notices.append(Notice("tilt-searched", describe_tilt(choice), "info",
+                                  "site.tilt_deg"))
+    else:
+        book.add("site.tilt_deg", "set by the user", "project file", tilt=fmt(tilt, "deg"))
+    res = poa_monthly(climate.insolation_kwh_m2_day, lat, tilt, azimuth, site.albedo,
+                      horizon=horizon, longitude_deg=site.longitude_deg,
+                      elevation_m=site.elevation_m)
+    inputs = {"tilt": fmt(tilt, "deg"), "azimuth": fmt(azimuth, "deg"),
+              "albedo": fmt(site.albedo), "latitude": fmt(lat, "deg")}
+    formula = ("H (1 - Hd/H) Rb + Hd (1 + cos tilt)/2 + H albedo (1 - cos tilt)/2 on Klein's "
+               "mean day of each month; Hd/H from the Erbs monthly correlation")
+    source = ("Liu & Jordan (1962) isotropic sky with Klein (1977) Rb; Erbs, Klein & Duffie "
+              "(1982); Duffie & Beckman 4th ed. sec. 2.19")
+    if horizon:
+        lost = float((res.beam_lost_kwh_m2_day * sky.DAYS_IN_MONTH).sum())
+        total = float(((res.poa_kwh_m2_day + res.beam_lost_kwh_m2_day)
+                       * sky.DAYS_IN_MONTH).sum())
+        formula += ("; beam term x the share of the plane's beam with the sun above the "
+                    "horizon profile")
+        source += "; sun positions: Reda & Andreas (2004) SPA through pvlib"
+        inputs["horizon"] = ", ".join(f"{a:g}:{e:g}" for a, e in horizon)
+        inputs["horizon loss"] = fmt(100.0 * lost / total if total > 0 else 0.0, "% a year")
+    book.add("site.poa_kwh_m2_day", formula, source, **inputs)
+    return float(tilt), float(azimuth), {"poa": res.poa_kwh_m2_day, "kt": res.kt,
+                                         "diffuse_fraction": res.diffuse_fraction, "rb": res.rb,
+                                         "horizon_factor": res.horizon_factor}
 
 
 def cell_temperature_ross(ambient_c, irradiance_w_m2, noct_c):
@@ -154,15 +188,15 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         raise DesignError("no-loads", "the load list is empty (or every load uses 0 Wh): add the "
                           "appliances with their power and hours per day", "loads")
 
-    # 1. sun
-    tilt, azimuth, sun = site_geometry(project, climate, book)
-    poa = np.asarray(sun["poa"])
-    horiz = np.asarray(climate.insolation_kwh_m2_day, dtype=float)
-
-    # 2. loads
+    # 2. loads (first: the tilt search weighs the months by their demand)
     lr = analyse_loads(project.loads, project.inverter, choices.load_growth_pct,
                        choices.coincidence_factor, book)
     demand = np.asarray(lr.daily_energy_wh)
+
+    # 1. sun
+    tilt, azimuth, sun = site_geometry(project, climate, book, demand, notices)
+    poa = np.asarray(sun["poa"])
+    horiz = np.asarray(climate.insolation_kwh_m2_day, dtype=float)
 
     # 3. design month
     dark = (poa < 0.05) & (demand > 0)
@@ -177,6 +211,13 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
              "plane-of-array insolation", "worst-month method, common practice",
              ratio=fmt(float(ratio[dm]), "Wh per kWh/m2"), month=MONTHS[dm])
     lr = _with_design_energy(lr, float(demand[dm]))
+    if horiz[dm] < LOW_SUN_KWH_M2_DAY and tilt > 15.0:
+        notices.append(Notice(
+            "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
+            f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
+            f"a {tilt:.0f} deg plane can read 20-50 % high (compared with pvlib's hourly Perez "
+            "model on TMY years at 55-65 N). Allow a margin or check with an hourly simulation.",
+            "warning", "site.poa_kwh_m2_day"))
     book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
              "worst-month method", month=MONTHS[dm])
 
@@ -207,7 +248,9 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
              low_src)
 
     # 4-5. array
-    array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, notices,
+    k_array = len(notices)
+    arr_notices: list[Notice] = []
+    array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, arr_notices,
                                                     t_low)
     # 6. battery
     battery = _size_battery(project, lr, system_v, batt_abs_v, t_mean, book, notices)
@@ -221,9 +264,44 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                               "appliances would shrink the system.", "info",
                               "loads.inverter_idle_wh"))
     cautions = _basic_cautions(project, battery, system_v)
-    return SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
-                        inverter=inverter, warnings=tuple(notices), cautions=tuple(cautions),
-                        reasons=book.freeze())
+
+    def assemble(array, ctrl, arr_notices) -> SystemDesign:
+        return SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
+                            inverter=inverter,
+                            warnings=tuple(notices[:k_array] + arr_notices + notices[k_array:]),
+                            cautions=tuple(cautions), reasons=book.freeze())
+
+    # 9. electrical design: strings, harvest both ways from the I-V curves, cables,
+    # protection, cautions.  If the chosen controller's harvest falls short of the demand
+    # in the design month, add modules and size again (at most a few rounds).
+    from offgrid.electrical import electrical_design, with_electrical
+
+    core = assemble(array, ctrl, arr_notices)
+    er = electrical_design(project, core)
+    first = array.module_count
+    for _ in range(4):
+        short = er.harvest.shortfall_pct
+        if short <= HARVEST_SHORTFALL_TOLERANCE_PCT:
+            break
+        need = max(core.array.module_count + 1,
+                   math.ceil(core.array.module_count / (1.0 - short / 100.0) - 1e-9))
+        arr_notices = []
+        array, ctrl, _, _ = _size_array(project, site, lr, sun, book, arr_notices, t_low,
+                                        min_modules=need)
+        core = assemble(array, ctrl, arr_notices)
+        er = electrical_design(project, core)
+    if core.array.module_count != first:
+        arr_notices.append(Notice(
+            "array-raised-for-harvest", f"The array was raised from {first} to "
+            f"{core.array.module_count} modules: through the {ctrl.type.upper()} controller "
+            "the I-V curves of the design month deliver less than the derate chain assumed.",
+            "info", "array.power_w"))
+        book.add("array.modules_parallel", "raised until the daily harvest through the chosen "
+                 "controller, after the battery round trip, covers the design-month demand",
+                 "De Soto (2006) I-V curves over the month's mean day (offgrid.harvest)",
+                 first=str(first), now=str(core.array.module_count))
+        core = assemble(array, ctrl, arr_notices)
+    return with_electrical(core, er)
 
 
 def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
@@ -264,7 +342,7 @@ def _soiling_factor(project: Project) -> tuple[float, str]:
 
 
 def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
-                book: ReasonBook, notices: list[Notice], t_low: float):
+                book: ReasonBook, notices: list[Notice], t_low: float, min_modules: int = 0):
     m = project.module
     ctrl_spec = project.controller
     dm = site.design_month - 1
@@ -287,43 +365,33 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     system_v = choose_system_voltage(project, max(rough, lr.peak_ac_w * NEC_CONTINUOUS), book)
     n_cells_sys = system_v / 2.0 if chem.lead_acid else system_v / 3.0
     batt_abs_v = chem.absorption_v_per_cell * n_cells_sys
-    t_hot = float(np.max(site.temp_day_c)) + (m.noct_c - 20.0) / 800.0 * 1000.0
-    vmp_hot = m.vmp_v * (1.0 + gamma * (t_hot - 25.0))  # Vmp coefficient ~ gamma (from memory)
-    voc_cold = m.voc_v * (1.0 + m.beta_voc_pct_per_c / 100.0 * (t_low - 25.0))
+    # String window (offgrid.electrical): cold Voc at the record low, hot Vmp from the fitted
+    # single-diode model; DesignError when no series count fits the controller.
+    from offgrid.electrical import string_limits
+    from offgrid.strings import choose_layout
 
+    lim = string_limits(project, site.temp_day_c, t_low, batt_abs_v)
+    window, vmp_hot, voc_cold = lim.window, lim.vmp_hot_v, lim.voc_cold_v
+    book.add("array.modules_series",
+             "MPPT: of the series counts in the string window, the layout with the fewest "
+             "modules, then the fewest strings, then the higher voltage; PWM: the smallest "
+             "count whose hot Vmp exceeds absorption + wiring drop",
+             "NEC 690.7(A) for the cold Voc limit; the rest common practice, no source",
+             absorption=fmt(batt_abs_v, "V"), vmp_hot=fmt(vmp_hot, "V"),
+             voc_cold=fmt(voc_cold, "V"), controller_max=fmt(ctrl_spec.max_pv_voltage_v, "V"),
+             window=f"{window.min_series}-{window.max_series}")
+    ns = window.min_series
     if ctrl_spec.type == "mppt":
         f_temp = f_temp_mppt
         temp_text = "1 + gamma_Pmax x (cell temperature - 25 C)"
-        ns_min = max(1, math.ceil(batt_abs_v * MPPT_VOLTAGE_MARGIN / vmp_hot))
-        ns_max = math.floor(ctrl_spec.max_pv_voltage_v / voc_cold)
-        if ns_min > ns_max:
-            raise DesignError(
-                "string-window", f"no series count fits the controller: at least {ns_min} "
-                f"module(s) are needed for the hot string voltage to exceed {batt_abs_v:.1f} V "
-                f"x {MPPT_VOLTAGE_MARGIN}, but at most {ns_max} keep the cold open-circuit "
-                f"voltage ({voc_cold:.1f} V per module) under the controller's "
-                f"{ctrl_spec.max_pv_voltage_v:g} V: choose a controller with a higher input "
-                "voltage or a lower system voltage", "controller.max_pv_voltage_v")
-        ns = ns_min
         f_op = np.ones(12)
-        book.add("array.modules_series",
-                 "smallest count whose hot Vmp exceeds the battery absorption voltage x margin, "
-                 "checked so that the cold Voc stays under the controller maximum",
-                 "common practice, no source", absorption=fmt(batt_abs_v, "V"),
-                 vmp_hot=fmt(vmp_hot, "V"), voc_cold=fmt(voc_cold, "V"),
-                 controller_max=fmt(ctrl_spec.max_pv_voltage_v, "V"), maximum=str(ns_max))
     else:
         # PWM: the array works at battery voltage, its current ~ Imp (1 + alpha dT).
         f_temp = 1.0 + alpha * (t_cell - 25.0)
         temp_text = "1 + alpha_Isc x (cell temperature - 25 C) (PWM: current-limited)"
-        ns = max(1, math.ceil(batt_abs_v * PWM_VOLTAGE_MARGIN / vmp_hot))
         v_op_module = (system_v * 1.1 * (2.0 - d.wiring)) / ns
         f_op_scalar = min(1.0, v_op_module * m.imp_a / m.pmax_w)
         f_op = np.full(12, f_op_scalar)
-        book.add("array.modules_series",
-                 "smallest count whose hot Vmp exceeds the absorption voltage plus wiring drop "
-                 "(PWM)", "common practice, no source", absorption=fmt(batt_abs_v, "V"),
-                 vmp_hot=fmt(vmp_hot, "V"))
         if ns * m.vmp_v > 1.6 * system_v:
             notices.append(Notice(
                 "pwm-voltage-waste", f"With PWM the {ns}-module string (Vmp {ns * m.vmp_v:.0f} V)"
@@ -342,9 +410,23 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     }
     total = float(np.prod(list(derates.values())))
     required = float(demand[dm] / (poa[dm] * total))
-    string_w = ns * m.pmax_w
-    n_par = max(1, math.ceil(required / string_w - 1e-9))
-    power = n_par * string_w
+    # Lay out the modules, then size the controllers; with more than one controller the
+    # strings must share out equally, so lay out again for that count.
+    n_need = max(1, math.ceil(required / m.pmax_w - 1e-9), min_modules)
+    n_ctrl = 1
+    for _ in range(5):
+        layout = choose_layout(window, n_need, n_ctrl)
+        ns, n_par = layout.series, layout.parallel
+        string_w = ns * m.pmax_w
+        power = n_par * string_w
+        ctrl = _size_controller(project, n_par, power, system_v, book)
+        if n_par % ctrl.count == 0:
+            break
+        n_ctrl = ctrl.count
+    else:  # pragma: no cover - the count settles in two rounds
+        raise DesignError("controller-split", f"the {n_par} strings cannot be shared equally "
+                          f"between {ctrl.count} controllers: set controller.max_current_a",
+                          "controller.max_current_a")
     monthly_total = (f_temp * f_op * soiling * d.mismatch * d.wiring * ctrl_spec.efficiency
                      * batt_rt)
     supply = power * poa * monthly_total
@@ -375,7 +457,18 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
         voc_cold_v=float(voc_cold), vmp_hot_v=float(vmp_hot),
         string_voc_cold_v=float(ns * voc_cold), string_vmp_hot_v=float(ns * vmp_hot))
 
-    # 7. controller
+    if ctrl.count > 1:
+        notices.append(Notice("several-controllers", f"{ctrl.count} charge controllers of "
+                              f"{ctrl.current_a:g} A are needed; give each its own group of "
+                              f"{n_par // ctrl.count} strings.", "info", "controller.current_a"))
+    return array, ctrl, system_v, batt_abs_v
+
+
+def _size_controller(project: Project, n_par: int, power: float, system_v: int,
+                     book: ReasonBook) -> ControllerResult:
+    """7. Charge controller: current with the code's factors, standard rating, count."""
+    m = project.module
+    ctrl_spec = project.controller
     if ctrl_spec.type == "pwm":
         req = NEC_CONTINUOUS * NEC_CONTINUOUS * m.isc_a * n_par
         book.add("controller.required_current_a", "1.25 x 1.25 x Isc x strings in parallel",
@@ -401,15 +494,11 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     book.add("controller.current_a", "next standard rating at or above the required current "
              "per controller", "common practice, no source", required=fmt(req, "A"),
              controllers=str(count))
-    if count > 1:
-        notices.append(Notice("several-controllers", f"{count} charge controllers of {rating:g} A "
-                              "are needed; give each its own group of strings.", "info",
-                              "controller.current_a"))
     ctrl = ControllerResult(type=ctrl_spec.type, required_current_a=float(req),
                             current_a=float(rating), count=count,
                             max_pv_voltage_v=ctrl_spec.max_pv_voltage_v,
                             efficiency=ctrl_spec.efficiency)
-    return array, ctrl, system_v, batt_abs_v
+    return ctrl
 
 
 def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: float,

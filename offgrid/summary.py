@@ -74,11 +74,13 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     for extra in _extra_sections(d):
         lines.append("")
         lines += extra
-    if d.warnings:
-        lines.append("")
-        lines.append(f"Warnings ({len(d.warnings)})")
-        for n in d.warnings:
-            lines += _wrap(f"[{n.code}] {n.message}", "  - ")
+    for title, group in (("Warnings", [n for n in d.warnings if n.severity != "info"]),
+                         ("Notes", [n for n in d.warnings if n.severity == "info"])):
+        if group:
+            lines.append("")
+            lines.append(f"{title} ({len(group)})")
+            for n in group:
+                lines += _wrap(f"[{n.code}] {n.message}", "  - ")
     lines.append("")
     lines.append("Safety cautions")
     for text in d.cautions:
@@ -88,7 +90,72 @@ def summary_text(project: Project, d: SystemDesign) -> str:
 
 def _extra_sections(d: SystemDesign) -> list[list[str]]:
     """Sections added by later features (electrical, reliability) when present."""
-    return []
+    out: list[list[str]] = []
+    if d.electrical is not None:
+        out += _electrical_sections(d)
+    return out
+
+
+def _electrical_sections(d: SystemDesign) -> list[list[str]]:
+    e = d.electrical
+    mp, sd, h, pr = e.mpp, e.strings, e.harvest, e.protection
+    month = MONTHS[h.design_month - 1]
+    module = [f"Module at design conditions ({month} solar noon, {mp.irradiance_w_m2:.0f} W/m2, "
+              f"cell {mp.cell_temp_c:.0f} C)",
+              _row("Maximum power", f"{mp.pmp_w:.0f} W", f"Vmp {mp.vmp_v:.1f} V x Imp "
+                   f"{mp.imp_a:.2f} A"),
+              _row("Open circuit", f"{mp.voc_v:.1f} V", f"Isc {mp.isc_a:.2f} A"),
+              _row("Fill factor", f"{mp.fill_factor:.3f}", f"efficiency {mp.efficiency:.1%}")]
+    err = max(abs(x) for x in e.fit.stc_error_pct)
+    module += _wrap(f"model: {e.fit.method}; reproduces the datasheet at STC within "
+                    f"{max(err, 0.001):.3f} %", "  ")
+    lay = sd.layout
+    ctrl = f"{lay.controllers} controllers; " if lay.controllers > 1 else ""
+    strings = ["Strings",
+               _row("Series window", f"{sd.window.min_series}-{sd.window.max_series} modules",
+                    f"chosen {lay.series} x {lay.parallel} parallel"),
+               _row("Cold Voc", f"{sd.voc_cold_v:.1f} V/module",
+                    f"string {sd.string_voc_cold_v:.0f} V at {sd.record_low_c:.0f} C"),
+               _row("  controller max", f"{sd.window.max_pv_voltage_v:.0f} V",
+                    "cold Voc by " + sd.voc_cold_rule.split(",")[0].replace("datasheet ", "")),
+               _row("Hot Vmp", f"{sd.vmp_hot_v:.1f} V/module",
+                    f"string {sd.string_vmp_hot_v:.0f} V, needs {sd.window.required_vmp_v:.1f}"),
+               _row("Strings/controller", f"{lay.strings_per_controller}",
+                    ctrl + ("string fuses" if pr.string_fuses else "no string fuses needed"))]
+    harvest = ["Harvest into the battery (Wh/day), from the I-V curves",
+               "     " + " ".join(f"{m:>5}" for m in MONTHS),
+               "MPPT " + " ".join(f"{v:>5.0f}" for v in h.mppt_wh_day),
+               "PWM  " + " ".join(f"{v:>5.0f}" for v in h.pwm_wh_day)]
+    harvest += _wrap(f"PWM harvests {h.pwm_vs_mppt_pct:+.0f} % against MPPT in {month} "
+                     f"(PWM at {h.charging_voltage_v:.1f} V, {h.pwm_layout[0]} x "
+                     f"{h.pwm_layout[1]}; MPPT {h.mppt_layout[0]} x {h.mppt_layout[1]}); "
+                     f"the design uses {h.controller_type.upper()}", "  ")
+    material = e.wires[0].material if e.wires else ""
+    cables = [f"Cables ({material}; size, max current, one-way length, drop, ampacity, fuse)",
+              f"  {'run':<28}{'n':>2} {'size':>10}{'A':>7}{'m':>6}{'drop%':>7}{'amp':>6}"
+              f"{'fuse':>6}"]
+    for w in e.wires:
+        fuse = f"{w.fuse_a:g}" if w.fuse_a is not None else "-"
+        cables.append(f"  {w.run[:27]:<28}{w.count:>2} {w.size:>10}{w.current_a:>7.1f}"
+                      f"{w.length_m:>6.1f}{w.drop_pct:>7.2f}{w.ampacity_a:>6.0f}{fuse:>6}"[:WIDTH])
+    est = " (estimated)" if pr.short_circuit_estimated else ""
+    prot = ["Protection and disconnects"]
+    prot += _wrap(f"battery bank prospective fault current {pr.bank_fault_current_a / 1000:.1f} "
+                  f"kA{est}: every device at the battery needs a DC interrupting rating above it",
+                  "  ")
+    for dev in pr.devices:
+        if dev.location.startswith("DC load"):
+            continue
+        rating = f"{dev.rating_a:g} A " if dev.rating_a is not None else ""
+        count = f"{dev.count} x " if dev.count > 1 else ""
+        text = (f"{dev.location}: {count}{dev.kind} {rating}(>= {dev.voltage_v:.0f} V DC"
+                + (f", >= {dev.interrupt_rating_a / 1000:.1f} kA" if dev.interrupt_rating_a
+                   else "") + f") [{dev.source}]")
+        prot += _wrap(text, "  - ")
+    if any(w.key.startswith("load") for w in e.wires):
+        prot += _wrap("each DC load circuit: the fuse or breaker of the cable table, at the DC "
+                      "distribution board [NFPA 70 (NEC) 2023 240.4, 240.6(A)]", "  - ")
+    return [module, strings, harvest, cables, prot]
 
 
 def _wrap(text: str, lead: str) -> list[str]:

@@ -108,8 +108,8 @@ def test_measured_days_from_the_climate_are_used(monkeypatch):
 
     def with_daily(project, base=None):
         c = real(project, base)
-        return SimpleNamespace(**vars(c), daily=SimpleNamespace(
-            insolation_kwh_m2_day=[5.0] * 365))
+        return SimpleNamespace(**{**vars(c), "daily": SimpleNamespace(
+            insolation_kwh_m2_day=[5.0] * 365)})
 
     monkeypatch.setattr(offgrid.sizing, "resolve_climate", with_daily)
     project = load_project(demo_project_path())

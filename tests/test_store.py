@@ -118,3 +118,18 @@ def test_a_file_that_fails_to_load_is_left_untouched(tmp_path):
 def test_missing_file_message():
     with pytest.raises(ProjectFileError, match="does not exist"):
         load_project("/nonexistent/nowhere.toml")
+
+
+def test_names_with_markup_and_escape_sequences_are_saved_unchanged(tmp_path):
+    p = hand_project()
+    tricky = 'Fridge [bold]x[/] [link=http://x]y[/link] \x1b[31mred\x1b[0m "q" \\ tab\there'
+    p.loads[0].name = tricky
+    p.info.name = "[/]\x07bell"
+    save_project(p, tmp_path / "t.toml")
+    q = load_project(tmp_path / "t.toml")
+    assert q.loads[0].name == tricky and q.info.name == "[/]\x07bell"
+
+
+def test_saved_file_keeps_short_arrays_on_one_line():
+    text = dumps_project(hand_project())
+    assert "insolation_kwh_m2_day = [5.0, 5.0," in text

@@ -17,6 +17,14 @@ Format (schema 1)::
     temp_mean_c = [...]
     temp_max_c = [...]          # mean daily maximum
     temp_min_c = [...]          # mean daily minimum
+
+    [daily]                     # optional: one value per day of a 365-day year
+    insolation_kwh_m2_day = [...]   # daily global horizontal, 1 January first
+    temp_mean_c = [...]
+    temp_max_c = [...]
+    temp_min_c = [...]
+
+The full description is in docs/climate-format.md.
 """
 
 from __future__ import annotations
@@ -26,11 +34,16 @@ import tomllib
 from pathlib import Path
 
 from offgrid.paths import climates_dir
-from offgrid.project.model import MonthlyClimate
+from offgrid.project.model import DailyClimate, MonthlyClimate
 
 CLIMATE_FORMAT = "offgrid-climate"
 CLIMATE_SCHEMA = 1
 SUFFIX = ".toml"
+DAYS_IN_YEAR = 365
+DAILY_KEYS = ("insolation_kwh_m2_day", "temp_mean_c", "temp_max_c", "temp_min_c")
+#: Plausible bounds of the daily values (a clear high-altitude summer day reaches about 10).
+DAILY_BOUNDS = {"insolation_kwh_m2_day": (0.0, 15.0), "temp_mean_c": (-90.0, 60.0),
+                "temp_max_c": (-90.0, 65.0), "temp_min_c": (-95.0, 60.0)}
 
 
 class ClimateFileError(ValueError):
@@ -108,7 +121,31 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
     for i, t in enumerate(climate.temp_mean_c, start=1):
         if t < -70 or t > 55:
             raise ClimateFileError(f"{sub}.temp_mean_c[{i}]: {t} C is not a plausible monthly mean")
+    if "daily" in data:
+        climate.daily = daily_from_dict(data["daily"], f"{where}.daily")
     return climate
+
+
+def daily_from_dict(table: object, where: str = "daily") -> DailyClimate:
+    """The optional 365-day series (imported weather years keep it for the simulation)."""
+    if not isinstance(table, dict):
+        raise ClimateFileError(f"{where}: must be a table of 365-value lists")
+    values: dict[str, list[float]] = {}
+    for key in DAILY_KEYS:
+        series = table.get(key)
+        if not isinstance(series, list) or len(series) != DAYS_IN_YEAR:
+            got = len(series) if isinstance(series, list) else "none"
+            raise ClimateFileError(f"{where}.{key}: needs {DAYS_IN_YEAR} daily values, 1 January "
+                                   f"first, 29 February left out (got {got})")
+        lo, hi = DAILY_BOUNDS[key]
+        out = []
+        for i, v in enumerate(series, start=1):
+            if isinstance(v, bool) or not isinstance(v, int | float) or not lo <= v <= hi:
+                raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a number in {lo:g} to "
+                                       f"{hi:g}")
+            out.append(float(v))
+        values[key] = out
+    return DailyClimate(**values)
 
 
 def _number(data: dict, key: str, where: str) -> float | None:
@@ -138,7 +175,7 @@ def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyCli
     return climate_from_dict(data, where=path.name)
 
 
-def climate_to_dict(climate: MonthlyClimate, name: str = "") -> dict:
+def climate_to_dict(climate: MonthlyClimate, name: str = "", include_daily: bool = True) -> dict:
     """The file body for :func:`save_climate` (also used to embed a climate in a project)."""
     body: dict = {"format": CLIMATE_FORMAT, "schema": CLIMATE_SCHEMA}
     if name:
@@ -158,14 +195,72 @@ def climate_to_dict(climate: MonthlyClimate, name: str = "") -> dict:
         if value is not None:
             monthly[key] = list(value)
     body["monthly"] = monthly
+    if include_daily and climate.daily is not None:
+        body["daily"] = {key: list(getattr(climate.daily, key)) for key in DAILY_KEYS}
     return body
 
 
-def save_climate(climate: MonthlyClimate, path: Path, name: str = "") -> Path:
-    """Write a climate file atomically."""
-    import tomli_w
+_MONTH_LABELS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov",
+                 "Dec")
+_MONTH_DAYS = (31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31)
 
+
+def _daily_text(daily: DailyClimate) -> str:
+    """The [daily] table, one line per month, so that a person can read it."""
+    lines = ["", "[daily]",
+             "# One value per day, 1 January first, 365 days (29 February left out)."]
+    for key in DAILY_KEYS:
+        series = getattr(daily, key)
+        lines.append(f"{key} = [")
+        start = 0
+        for label, n in zip(_MONTH_LABELS, _MONTH_DAYS, strict=True):
+            for first in (0, 16):  # two lines a month: days 1-16 and 17-end
+                last = min(n, first + 16)
+                chunk = ", ".join(f"{v:g}" for v in series[start + first:start + last])
+                lines.append(f"    {chunk}, # {label} {first + 1}-{last}")
+            start += n
+        lines.append("]")
+    return "\n".join(lines) + "\n"
+
+
+def dumps_climate(climate: MonthlyClimate, name: str = "") -> str:
+    """Climate file text: a header comment, the monthly table, the daily series if any."""
+    from offgrid.project.toml_out import dumps
+
+    head = ("# DEMONSTRATION DATA: invented values for examples and tests only.\n"
+            if climate.demo else "")
+    head += "# offgrid climate file; the format is described in docs/climate-format.md\n"
+    body = climate_to_dict(climate, name, include_daily=False)
+    monthly = body.pop("monthly")
+    text = dumps(body) + "\n[monthly]\n"
+    for key, values in monthly.items():
+        text += f"{key} = [{', '.join(f'{v:g}' for v in values)}]\n"
+    if climate.daily is not None:
+        text += _daily_text(climate.daily)
+    return head + text
+
+
+def save_climate(climate: MonthlyClimate, path: Path, name: str = "",
+                 backup: bool = True) -> Path:
+    """Write a climate file atomically (the previous one kept as ``.bak`` if ``backup``)."""
     from offgrid.project.store import atomic_write_text
 
-    atomic_write_text(path, tomli_w.dumps(climate_to_dict(climate, name)))
+    atomic_write_text(path, dumps_climate(climate, name), backup=backup)
     return path
+
+
+def climate_header(path: Path) -> dict:
+    """Name, source, demo flag and coordinates of a climate file, for listings."""
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except (OSError, tomllib.TOMLDecodeError) as exc:
+        return {"name": path.stem, "error": str(exc)}
+    return {
+        "name": str(data.get("name", path.stem)),
+        "source": str(data.get("source", "")),
+        "demo": bool(data.get("demo", False)),
+        "latitude_deg": data.get("latitude_deg"),
+        "longitude_deg": data.get("longitude_deg"),
+        "elevation_m": data.get("elevation_m"),
+        "daily": "daily" in data,
+    }

@@ -39,6 +39,9 @@ class Site:
     azimuth_deg: float | None = None  # None: equator-facing (180 north of equator, 0 south)
     albedo: float = 0.2
     battery_temp_c: float | None = None  # battery room temperature; None: site monthly mean
+    # Horizon profile: (azimuth_deg clockwise from north, obstruction elevation_deg) pairs,
+    # interpolated linearly around the circle; empty: open horizon.
+    horizon_deg: list[tuple[float, float]] = field(default_factory=list)
 
 
 @dataclass
@@ -55,6 +58,17 @@ class MonthlyClimate:
     longitude_deg: float | None = None
     elevation_m: float | None = None
     demo: bool = False
+    daily: DailyClimate | None = None  # the daily series of an imported weather year, if any
+
+
+@dataclass
+class DailyClimate:
+    """One value per day of a 365-day year, 1 January first (29 February left out)."""
+
+    insolation_kwh_m2_day: list[float]
+    temp_mean_c: list[float]
+    temp_max_c: list[float]
+    temp_min_c: list[float]
 
 
 @dataclass
@@ -90,7 +104,7 @@ class ModuleSpec:
     voc_v: float = 39.8
     isc_a: float = 9.75
     alpha_isc_pct_per_c: float = 0.05
-    beta_voc_pct_per_c: float = -0.30
+    beta_voc_pct_per_c: float | None = -0.30  # None: not on the datasheet, NEC Table 690.7(A)
     gamma_pmax_pct_per_c: float = -0.40
     cells_in_series: int = 60
     area_m2: float = 1.63
@@ -146,6 +160,72 @@ class DesignChoices:
     drop_limit_load_pct: float = 3.0
 
 
+WireUnits = Literal["awg", "mm2"]
+ConductorMaterial = Literal["copper", "aluminium"]
+
+
+@dataclass
+class WiringChoices:
+    """DC cable runs as the installer will lay them, and the settings to size them.
+
+    Lengths are one-way (from one end of the run to the other), in metres.
+    """
+
+    units: WireUnits = "mm2"  # "awg": NEC sizes (AWG/kcmil); "mm2": IEC 60228 sizes
+    material: ConductorMaterial = "copper"
+    conductor_temp_c: float = 75.0  # conductor temperature for resistance (NEC Table 8 is at 75 C)
+    ambient_temp_c: float | None = None  # for ampacity; None: the site's hottest monthly mean
+    insulation_temp_c: int = 90  # insulation rating, 60, 75 or 90 C
+    string_run_m: float = 5.0  # modules to combiner (each string)
+    array_run_m: float = 15.0  # array or combiner to charge controller
+    controller_battery_m: float = 2.0
+    battery_inverter_m: float = 1.5
+    dc_load_run_m: float = 10.0  # each DC load circuit unless listed below
+    dc_load_runs_m: dict[str, float] = field(default_factory=dict)  # load name -> length
+    battery_short_circuit_a: float | None = None  # one battery unit, datasheet; None: estimate
+    module_max_fuse_a: float | None = None  # module's maximum series fuse, datasheet
+
+
+@dataclass
+class PriceItem:
+    """One line of the project's price list, in ``Economics.currency`` per BOM unit.
+
+    ``part`` is a bill-of-materials key, ``kind:detail`` (``module:<module name>``,
+    ``battery:<battery name>``, ``controller:MPPT 50 A``, ``cable:copper 6 mm2``...).
+    A key of the kind alone (``cable``) prices every part of that kind that has no
+    line of its own.
+    """
+
+    part: str
+    unit_price: float
+    note: str = ""
+
+
+@dataclass
+class Economics:
+    """Inputs of the lifecycle cost; prices are in ``currency``."""
+
+    currency: str = "USD"
+    life_years: int = 20
+    discount_rate_pct: float = 8.0  # nominal yearly discount rate
+    inflation_pct: float = 0.0  # yearly rise of replacement and upkeep prices
+    om_pct_of_capital: float = 1.0  # yearly upkeep as % of the capital cost
+    installation_pct: float = 0.0  # labour and sundries as % of the parts
+    battery_life_years: float | None = None  # None: simulation, else the chemistry preset
+    module_life_years: float = 25.0
+    controller_life_years: float = 12.0
+    inverter_life_years: float = 10.0
+
+
+@dataclass
+class Variant:
+    """A design variant: a few dotted-path overrides of the project (``controller.type``)."""
+
+    name: str
+    overrides: dict = field(default_factory=dict)
+    note: str = ""
+
+
 @dataclass
 class Project:
     info: ProjectInfo = field(default_factory=ProjectInfo)
@@ -157,6 +237,10 @@ class Project:
     controller: ControllerSpec = field(default_factory=ControllerSpec)
     inverter: InverterSpec = field(default_factory=InverterSpec)
     choices: DesignChoices = field(default_factory=DesignChoices)
+    prices: list[PriceItem] = field(default_factory=list)
+    economics: Economics = field(default_factory=Economics)
+    variants: list[Variant] = field(default_factory=list)
+    wiring: WiringChoices = field(default_factory=WiringChoices)
     # Sections that later features own (wiring runs, prices, variants) are kept
     # verbatim so that nothing a user saved is ever dropped.
     extra: dict = field(default_factory=dict)

@@ -74,13 +74,23 @@ def atomic_write_text(path: str | os.PathLike, text: str, backup: bool = True) -
     return target
 
 
+#: Written for an optional field left empty whose default is a value (e.g. a Voc coefficient
+#: not on the datasheet), so that saving and loading keeps it empty.
+NONE_WORD = "none"
+
+
 def _plain(obj: Any) -> Any:
     if dataclasses.is_dataclass(obj):
         out = {}
         for f in dataclasses.fields(obj):
             value = getattr(obj, f.name)
             if value is None:
+                if f.default is not None and f.default is not dataclasses.MISSING:
+                    out[f.name] = NONE_WORD  # None where the default is a value: say so
                 continue  # TOML has no null: a missing key means "automatic"
+            if isinstance(value, list) and not value and f.default_factory is not \
+                    dataclasses.MISSING:
+                continue  # an empty list is the default: leave it out
             out[f.name] = _plain(value)
         return out
     if isinstance(obj, list | tuple):
@@ -122,10 +132,10 @@ def project_to_dict(project: Project) -> dict[str, Any]:
 
 
 def dumps_project(project: Project) -> str:
-    import tomli_w
+    from offgrid.project.toml_out import dumps
 
     head = "# offgrid project file: edit with `offgrid`, or by hand with care.\n"
-    return head + tomli_w.dumps(project_to_dict(project))
+    return head + dumps(project_to_dict(project))
 
 
 def save_project(project: Project, path: str | os.PathLike) -> Path:
@@ -171,7 +181,7 @@ class _Reader:
         origin = get_origin(tp)
         args = get_args(tp)
         if origin in (typing.Union, types.UnionType):
-            if value is None and type(None) in args:
+            if (value is None or value == NONE_WORD) and type(None) in args:
                 return None
             options = [a for a in args if a is not type(None)]
             literal_opts = [a for a in options if get_origin(a) is Literal]

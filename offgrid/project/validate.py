@@ -71,6 +71,27 @@ RANGES: tuple[tuple[str, float, float, str], ...] = (
     ("choices.drop_limit_array_pct", 0.1, 10, "allowed voltage drop, %"),
     ("choices.drop_limit_battery_pct", 0.1, 10, "allowed voltage drop, %"),
     ("choices.drop_limit_load_pct", 0.1, 10, "allowed voltage drop, %"),
+    ("economics.life_years", 1, 100, "years the lifecycle cost covers (1-100, often 20)"),
+    ("economics.discount_rate_pct", 0, 50, "yearly discount rate, % (0-50, often 5-12)"),
+    ("economics.inflation_pct", -10, 50, "yearly price rise of replacements and upkeep, %"),
+    ("economics.om_pct_of_capital", 0, 50, "yearly upkeep as % of the capital cost (0-50)"),
+    ("economics.installation_pct", 0, 200, "labour and sundries as % of the parts (0-200)"),
+    ("economics.battery_life_years", 0.5, 50, "battery service life, years, or leave it out "
+                                              "for the simulation or the chemistry preset"),
+    ("economics.module_life_years", 1, 60, "module service life, years (about 25)"),
+    ("economics.controller_life_years", 1, 60, "charge-controller service life, years"),
+    ("economics.inverter_life_years", 1, 60, "inverter service life, years"),
+    ("wiring.conductor_temp_c", -40, 120, "conductor temperature for resistance, C (75)"),
+    ("wiring.ambient_temp_c", -50, 75, "ambient around the cables, C, or leave it out"),
+    ("wiring.string_run_m", 0.1, 1000, "one-way length of each string run, m (0.1-1000)"),
+    ("wiring.array_run_m", 0.1, 1000, "one-way length from array to controller, m (0.1-1000)"),
+    ("wiring.controller_battery_m", 0.1, 1000, "one-way length controller to battery, m"),
+    ("wiring.battery_inverter_m", 0.1, 1000, "one-way length battery to inverter, m"),
+    ("wiring.dc_load_run_m", 0.1, 1000, "one-way length of a DC load circuit, m"),
+    ("wiring.battery_short_circuit_a", 1, 200000, "one battery unit's short-circuit current "
+                                                  "from its datasheet, A, or leave it out"),
+    ("wiring.module_max_fuse_a", 1, 100, "module's maximum series fuse rating, A, or leave it "
+                                         "out"),
 )
 
 
@@ -111,11 +132,68 @@ def validate_project(project: Project) -> list[Problem]:
     if project.battery.chemistry not in ("flooded", "agm", "gel", "lifepo4"):
         problems.append(Problem("battery.chemistry", f"'{project.battery.chemistry}' must be one "
                                 "of flooded, agm, gel, lifepo4"))
+    w = project.wiring
+    if w.units not in ("awg", "mm2"):
+        problems.append(Problem("wiring.units", f"'{w.units}' must be awg or mm2"))
+    if w.material not in ("copper", "aluminium"):
+        problems.append(Problem("wiring.material", f"'{w.material}' must be copper or aluminium"))
+    if w.insulation_temp_c not in (60, 75, 90):
+        problems.append(Problem("wiring.insulation_temp_c", f"'{w.insulation_temp_c}' must be "
+                                "60, 75 or 90 (C)"))
+    for name, length in w.dc_load_runs_m.items():
+        if not isinstance(length, int | float) or not 0.1 <= length <= 1000:
+            problems.append(Problem(f"wiring.dc_load_runs_m.{name}", f"'{length}' must be a "
+                                    "one-way length in metres, 0.1-1000"))
     c = project.climate
     if c.ref is None and c.inline is None:
         problems.append(Problem("climate", "no climate: give `ref` (a bundled climate name or "
                                 "file) or an inline [climate.monthly] table"))
+    if project.site.horizon_deg:
+        from offgrid.climate.horizon import validate_horizon
+
+        try:
+            validate_horizon(project.site.horizon_deg)
+        except ValueError as exc:
+            problems.append(Problem("site.horizon_deg",
+                                    str(exc).removeprefix("site.horizon_deg ")))
     for i, load in enumerate(project.loads):
         for fld, msg in check_load(load):
             problems.append(Problem(f"loads[{i + 1}].{fld}", f"{msg} (load '{load.name}')"))
+    problems.extend(_price_and_variant_problems(project))
+    return problems
+
+
+def _price_and_variant_problems(project: Project) -> list[Problem]:
+    """Price list: a part key and a positive price each, no part twice; variants: unique names."""
+    problems: list[Problem] = []
+    seen: dict[str, int] = {}
+    for i, item in enumerate(project.prices, start=1):
+        path = f"prices[{i}]"
+        part = item.part.strip()
+        if not part:
+            problems.append(Problem(f"{path}.part", "the part key is empty; use a key from the "
+                                    "bill of materials (offgrid bom), e.g. module or battery"))
+        elif part in seen:
+            problems.append(Problem(f"{path}.part", f"'{part}' is priced twice (also "
+                                    f"prices[{seen[part]}]); keep one line"))
+        else:
+            seen[part] = i
+        price = item.unit_price
+        if isinstance(price, bool) or not isinstance(price, int | float) or price != price \
+                or price in (float("inf"), float("-inf")):
+            problems.append(Problem(f"{path}.unit_price", f"'{price}' is not a number; give the "
+                                    f"price of one unit of '{part}'"))
+        elif price <= 0:
+            problems.append(Problem(f"{path}.unit_price", f"{price:g} for '{part}': a price must "
+                                    "be above zero; remove the line if the part is not bought"))
+    names: dict[str, int] = {}
+    for i, variant in enumerate(project.variants, start=1):
+        name = variant.name.strip()
+        if not name:
+            problems.append(Problem(f"variants[{i}].name", "give the variant a short name"))
+        elif name in names:
+            problems.append(Problem(f"variants[{i}].name", f"'{name}' is used twice (also "
+                                    f"variants[{names[name]}]); names must differ"))
+        else:
+            names[name] = i
     return problems

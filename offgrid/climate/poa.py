@@ -1,0 +1,166 @@
+"""Monthly plane-of-array insolation for any tilt and azimuth, many tilts at once.
+
+The method is the Liu and Jordan isotropic transposition of monthly means with
+Klein's beam ratio Rb and the Erbs et al. monthly diffuse fraction, as in
+:func:`offgrid.climate.sky.poa_monthly_liu_jordan`; here it is vectorised over
+candidate tilts (for the tilt search), split into its beam, sky-diffuse and
+ground-reflected parts, and optionally shaded by a horizon profile
+(:mod:`offgrid.climate.horizon`).
+
+References
+----------
+.. [1] Duffie, J. A. and Beckman, W. A., Solar Engineering of Thermal Processes,
+   4th ed., Wiley, 2013, sec. 2.19 (eq. 2.19.1) and sec. 1.8 (eq. 1.6.2,
+   angle of incidence).
+.. [2] Klein, S. A., "Calculation of monthly average insolation on tilted
+   surfaces", Solar Energy 19 (1977) 325-329.
+.. [3] Erbs, D. G., Klein, S. A. and Duffie, J. A., Solar Energy 28 (1982) 293-302.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from offgrid.climate import sky
+
+_DAY_STEPS = 721  # hour-angle steps across one day, as in sky.beam_ratio_rb
+
+
+def check_site_angles(latitude_deg: float, tilt_deg=None, azimuth_deg=None) -> None:
+    """ValueError naming the field when latitude, tilt or azimuth is out of range."""
+    if not np.isfinite(latitude_deg) or abs(latitude_deg) > 90.0:
+        raise ValueError(
+            f"site.latitude_deg: {latitude_deg} is outside -90 to 90 (degrees, north positive)"
+        )
+    if tilt_deg is not None:
+        t = np.asarray(tilt_deg, dtype=float)
+        if not np.all(np.isfinite(t)) or np.any(t < 0) or np.any(t > 90):
+            raise ValueError("site.tilt_deg: must lie between 0 (flat) and 90 (vertical) degrees")
+    if azimuth_deg is not None:
+        a = np.asarray(azimuth_deg, dtype=float)
+        if not np.all(np.isfinite(a)) or np.any(a < 0) or np.any(a > 360):
+            raise ValueError(
+                "site.azimuth_deg: must lie between 0 and 360 degrees "
+                "(clockwise from north: 180 faces south, 0 faces north)"
+            )
+
+
+def _sun_terms(latitude_deg: float, azimuth_deg: float):
+    """cos(zenith) and the tilt-dependent term of cos(incidence) on Klein's mean days.
+
+    cos(theta) = cos(z) cos(b) + B sin(b), with B from Duffie & Beckman eq. 1.6.2
+    (azimuth measured from south there; ours from north).  Shapes (12, steps).
+    """
+    phi = np.radians(latitude_deg)
+    gamma = np.radians(azimuth_deg - 180.0)
+    dec = np.radians(sky.declination_cooper69(sky.KLEIN_MEAN_DAY))[:, None]
+    w = np.linspace(-np.pi, np.pi, _DAY_STEPS)[None, :]
+    cos_z = np.sin(phi) * np.sin(dec) + np.cos(phi) * np.cos(dec) * np.cos(w)
+    b_term = (
+        -np.sin(dec) * np.cos(phi) * np.cos(gamma)
+        + np.cos(dec) * np.sin(phi) * np.cos(gamma) * np.cos(w)
+        + np.cos(dec) * np.sin(gamma) * np.sin(w)
+    )
+    return cos_z, b_term
+
+
+def beam_ratio_rb_klein(latitude_deg: float, tilt_deg, azimuth_deg: float):
+    """Klein's (1977) monthly beam ratio Rb for one or many tilts [-].
+
+    Numerical day integral of max(cos theta, 0) over the integral of cos z
+    while the sun is up; equals :func:`offgrid.climate.sky.beam_ratio_rb`.
+    ``tilt_deg`` of shape (T,) gives (T, 12); a scalar gives (12,).
+    """
+    tilt = np.asarray(tilt_deg, dtype=float)
+    cos_z, b_term = _sun_terms(latitude_deg, float(azimuth_deg))
+    up = cos_z > 0
+    den = np.where(up, cos_z, 0.0).sum(axis=1)
+    b = np.radians(np.atleast_1d(tilt))[:, None, None]
+    cos_t = cos_z[None] * np.cos(b) + b_term[None] * np.sin(b)
+    num = np.where(up[None], np.maximum(cos_t, 0.0), 0.0).sum(axis=2)
+    rb = np.divide(num, den[None], out=np.zeros_like(num), where=den[None] > 1e-9)
+    return rb[0] if tilt.ndim == 0 else rb
+
+
+@dataclass(frozen=True)
+class MonthlyPoa:
+    """Monthly mean daily insolation on the plane [kWh/m2/day] and its parts.
+
+    Arrays are (12,) for one tilt or (T, 12) for T tilts.
+    """
+
+    poa_kwh_m2_day: np.ndarray
+    beam_kwh_m2_day: np.ndarray
+    diffuse_kwh_m2_day: np.ndarray
+    reflected_kwh_m2_day: np.ndarray
+    beam_lost_kwh_m2_day: np.ndarray  # beam removed by the horizon profile
+    rb: np.ndarray
+    horizon_factor: np.ndarray
+    kt: np.ndarray  # (12,)
+    diffuse_fraction: np.ndarray  # (12,)
+
+
+def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_deg: float,
+                albedo: float = 0.2, horizon=None, longitude_deg: float = 0.0,
+                elevation_m: float = 0.0, sun=None) -> MonthlyPoa:
+    """Monthly plane-of-array insolation, Liu-Jordan with Klein's Rb [1]_ [2]_ [3]_.
+
+    HT = Hb Rb f_h + Hd (1 + cos b)/2 + H rho (1 - cos b)/2, where Hd = H x
+    (Erbs monthly diffuse fraction), Hb = H - Hd and f_h the share of the
+    plane's beam that the horizon profile leaves (1 without a profile).
+
+    Parameters
+    ----------
+    insolation_kwh_m2_day : array of 12
+        Monthly mean daily global horizontal insolation [kWh/m2/day].
+    latitude_deg : float
+        Site latitude [deg], north positive.
+    tilt_deg : float or array of T
+        Plane tilt from horizontal [deg].
+    azimuth_deg : float
+        Direction the plane faces [deg], clockwise from north.
+    albedo : float
+        Ground reflectance [-].
+    horizon : list of (azimuth_deg, elevation_deg), optional
+        Horizon profile; needs ``longitude_deg`` and ``elevation_m`` for the sun positions.
+    sun : dict, optional
+        Precomputed :func:`offgrid.climate.sunpos.mean_day_sun_paths` (saves time).
+    """
+    h = np.asarray(insolation_kwh_m2_day, dtype=float)
+    if h.shape != (12,):
+        raise ValueError("climate.insolation_kwh_m2_day: needs exactly 12 monthly values")
+    if not np.all(np.isfinite(h)) or np.any(h < 0):
+        raise ValueError("climate.insolation_kwh_m2_day: values must be finite and not negative")
+    check_site_angles(latitude_deg, tilt_deg, azimuth_deg)
+    if not 0.0 <= albedo <= 1.0:
+        raise ValueError(f"site.albedo: {albedo} is outside 0-1 (fresh snow about 0.8)")
+    ws = sky.sunset_hour_angle(latitude_deg, sky.declination_cooper69(sky.KLEIN_MEAN_DAY))
+    kt = sky.clearness_index(h, latitude_deg)
+    fd = sky.erbs_monthly_diffuse_fraction(kt, ws)
+    rb = beam_ratio_rb_klein(latitude_deg, tilt_deg, azimuth_deg)
+    tilt = np.asarray(tilt_deg, dtype=float)
+    b = np.radians(tilt)[..., None] if tilt.ndim else np.radians(tilt)
+    if horizon:
+        from offgrid.climate.horizon import monthly_beam_factor
+
+        factor = monthly_beam_factor(horizon, latitude_deg, longitude_deg, elevation_m,
+                                     tilt_deg, azimuth_deg, sun=sun)
+    else:
+        factor = np.ones_like(rb)
+    beam_open = h * (1 - fd) * rb
+    beam = beam_open * factor
+    diffuse = h * fd * (1 + np.cos(b)) / 2 + 0 * rb
+    reflected = h * albedo * (1 - np.cos(b)) / 2 + 0 * rb
+    return MonthlyPoa(
+        poa_kwh_m2_day=beam + diffuse + reflected,
+        beam_kwh_m2_day=beam,
+        diffuse_kwh_m2_day=diffuse,
+        reflected_kwh_m2_day=reflected,
+        beam_lost_kwh_m2_day=beam_open - beam,
+        rb=rb,
+        horizon_factor=factor,
+        kt=kt,
+        diffuse_fraction=fd,
+    )

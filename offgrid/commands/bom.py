@@ -1,0 +1,44 @@
+"""``offgrid bom``: the bill of materials of a project as CSV, priced where the list has prices."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+from offgrid.commands.common import add_project_argument, fail, open_project
+
+
+def register(sub) -> None:
+    p = sub.add_parser("bom", help="write the bill of materials as CSV",
+                       description="Design a project and write the quantity of every part "
+                                   "(CSV), with unit prices and totals from the project's "
+                                   "price list.")
+    add_project_argument(p)
+    p.add_argument("-o", "--output", metavar="FILE", help="write the CSV to FILE")
+    p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
+    p.set_defaults(func=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    from offgrid.commands.output import check_writable, write_output
+    from offgrid.result import DesignError
+    from offgrid.sizing import design
+
+    out = Path(args.output) if args.output else None
+    if out is not None:
+        check_writable(out, args.force)
+    project, base = open_project(args)
+    try:
+        result = design(project, base)
+    except DesignError as exc:
+        fail(f"cannot design: {exc}; no bill of materials was written", code=3)
+    from offgrid.report.export import bom_text
+
+    text = bom_text(project, result)
+    if out is None:
+        sys.stdout.write(text)
+    else:
+        write_output(out, text)
+        print(f"offgrid: wrote {out}", file=sys.stderr)
+    return 0

@@ -1,0 +1,54 @@
+"""``offgrid variants``: a project's design variants side by side."""
+
+from __future__ import annotations
+
+import argparse
+import json
+
+from offgrid.commands.common import add_project_argument, fail, open_project
+
+
+def register(sub) -> None:
+    p = sub.add_parser("variants", help="compare the project's design variants side by side",
+                       description="Design the project and each of its [[variants]] and show "
+                                   "their figures, costs and differences (* marks a figure "
+                                   "that differs from the base design).")
+    add_project_argument(p)
+    p.add_argument("--json", action="store_true", help="print the comparison as JSON")
+    p.set_defaults(func=run)
+
+
+def comparison_dict(cmp) -> dict:
+    return {
+        "columns": [{"name": c.name, "note": c.note, "overrides": dict(c.overrides),
+                     "error": c.error} for c in cmp.columns],
+        "rows": [{"label": r.label, "unit": r.unit, "group": r.group, "values": list(r.values),
+                  "differs": list(r.differs)} for r in cmp.rows],
+    }
+
+
+def run(args: argparse.Namespace) -> int:
+    from offgrid.report.variants import compare_variants
+
+    project, base = open_project(args)
+    if not project.variants:
+        fail("the project has no variants: add [[variants]] tables with a name and "
+             "[variants.overrides] (for example \"controller.type\" = \"pwm\")", code=1)
+    cmp = compare_variants(project, base)
+    if args.json:
+        print(json.dumps(comparison_dict(cmp), indent=2, ensure_ascii=False))
+        return 0
+    from offgrid.report.build import build_report
+    from offgrid.report.document import Report
+    from offgrid.report.text import render_text
+    from offgrid.sizing import design
+
+    base_design = cmp.columns[0].design
+    if base_design is None:
+        fail(f"the base design fails: {cmp.columns[0].error}", code=3)
+    full = build_report(project, base_design or design(project, base), base=base,
+                        comparison=cmp, with_charts=False)
+    sec = full.section("variants")
+    print(render_text(Report(title=f"Variants of {project.info.name}", subtitle="",
+                             sections=(sec,) if sec else ())), end="")
+    return 0

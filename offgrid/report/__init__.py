@@ -1,0 +1,89 @@
+"""Design report (text, Markdown, HTML), bill of materials, costs and variants.
+
+Entry points for the command line and the text UI:
+
+* :func:`make_report` -- design a project and render its report as a string;
+* :func:`render` -- render an already built :class:`~offgrid.report.document.Report`;
+* :mod:`offgrid.report.bom`, :mod:`offgrid.report.costs`, :mod:`offgrid.report.variants`.
+
+Nothing here imports a UI library; matplotlib is imported only when a chart is drawn.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+from offgrid.project.model import Project
+
+FORMATS = ("html", "md", "txt")
+SUFFIXES = {".html": "html", ".htm": "html", ".md": "md", ".markdown": "md", ".txt": "txt"}
+
+
+def render(report, fmt: str) -> str:
+    """Render a report model in ``fmt`` (html, md or txt)."""
+    if fmt == "html":
+        from offgrid.report.html import render_html
+
+        return render_html(report)
+    if fmt == "md":
+        from offgrid.report.markdown import render_markdown
+
+        return render_markdown(report)
+    if fmt == "txt":
+        from offgrid.report.text import render_text
+
+        return render_text(report)
+    raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")
+
+
+def simulate_for_report(project: Project, base: Path | None = None, *, years: int = 30,
+                        seed: int | None = 1, with_tradeoff: bool = True):
+    """The reliability study of a project for its report (the simulation's own runner).
+
+    The trade-off's cheapest point is priced from the project's price list when the module
+    and the battery unit have prices.
+    """
+    from offgrid.report.bom import bill_of_materials
+    from offgrid.report.costs import tradeoff_prices
+    from offgrid.simulate.run import simulate_project
+    from offgrid.sizing import design as run_design
+
+    prices = tradeoff_prices(project, bill_of_materials(project, run_design(project, base)))
+    return simulate_project(project, base, years=years, seed=seed, prices=prices,
+                            with_tradeoff=with_tradeoff)
+
+
+def make_report(project: Project, base: Path | None = None, fmt: str = "html", *,
+                reliability: Any = None, with_charts: bool | None = None,
+                with_variants: bool = True, design=None, simulate: bool = False,
+                years: int = 30, seed: int | None = 1) -> str:
+    """Design ``project`` (unless ``design`` is given) and render its report.
+
+    ``simulate`` runs the reliability study (and simulates each variant) unless a study is
+    given as ``reliability``.  Raises :class:`~offgrid.result.DesignError` when the project
+    does not design, ValueError for bad simulation settings.  Charts are drawn for HTML only
+    unless ``with_charts`` says otherwise.
+    """
+    from offgrid.report.build import build_report
+    from offgrid.sizing import design as run_design
+
+    if fmt not in FORMATS:
+        raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")
+    d = design if design is not None else run_design(project, base)
+    charts = (fmt == "html") if with_charts is None else with_charts
+    comparison = None
+    if simulate:
+        if reliability is None:
+            reliability = simulate_for_report(project, base, years=years, seed=seed)
+        if with_variants and project.variants:
+            from offgrid.report.variants import compare_variants
+
+            def one(proj, _design):
+                return simulate_for_report(proj, base, years=years, seed=seed,
+                                           with_tradeoff=False).reliability
+
+            comparison = compare_variants(project, base, simulate=one)
+    report = build_report(project, d, base=base, reliability=reliability, with_charts=charts,
+                          with_variants=with_variants, comparison=comparison)
+    return render(report, fmt)

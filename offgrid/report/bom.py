@@ -1,0 +1,193 @@
+"""Bill of materials: the quantity of every part, as it follows from the design.
+
+Each line names the design figure it follows from, so a test (or a reader) can
+check it: modules = modules in series x strings in parallel, battery units =
+units in series x strings in parallel, controllers = the controller count,
+one inverter when there are AC loads, cable by material and size from the
+wiring schedule (two conductors per run, go and return, one-way length x 2,
+rounded up to the whole metre), and the protective devices of the schedule.
+
+Part keys are what the price list refers to: ``kind:detail``, the detail naming the
+part (``module:<module name>``, ``battery:<battery name>``, ``controller:MPPT 50 A``,
+``inverter:500 W``, ``cable:copper 6 mm2``, ``fuse:63 A``).  A price for the kind
+alone (``cable``) covers every part of that kind without a price of its own.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+from collections.abc import Iterable
+from dataclasses import dataclass
+from typing import Any
+
+from offgrid.project.model import Project
+from offgrid.result import SystemDesign
+
+#: Conductors per cable run: go and return of a two-wire DC or single-phase AC circuit.
+CONDUCTORS_PER_RUN = 2
+
+
+@dataclass(frozen=True)
+class BomLine:
+    key: str  # part key used by the price list
+    description: str
+    quantity: float
+    unit: str  # "each" or "m"
+    follows: str  # how the quantity follows from the design (formula in words)
+    figure: str = ""  # dotted path of the design figure equal to the quantity, if one is
+
+    @property
+    def kind(self) -> str:
+        return self.key.split(":", 1)[0]
+
+
+def field_of(obj: Any, name: str, default: Any = None) -> Any:
+    """Attribute or key ``name`` of a record that may be a dataclass or a dict."""
+    if isinstance(obj, dict):
+        return obj.get(name, default)
+    return getattr(obj, name, default)
+
+
+def electrical_of(design: SystemDesign) -> Any:
+    """The electrical design attached to a design (wires, protection, curves), or None."""
+    return getattr(design, "electrical", None)
+
+
+def wires_of(design: SystemDesign) -> tuple[Any, ...]:
+    er = electrical_of(design)
+    if er is not None:
+        return tuple(getattr(er, "wires", ()) or ())
+    return tuple(getattr(design, "wires", ()) or ())
+
+
+def devices_of(design: SystemDesign) -> tuple[Any, ...]:
+    er = electrical_of(design)
+    prot = getattr(er, "protection", None) if er is not None else getattr(
+        design, "protection", None)
+    if prot is None:
+        return ()
+    if isinstance(prot, list | tuple):
+        return tuple(prot)
+    return tuple(getattr(prot, "devices", ()) or ())
+
+
+def kind_key(kind: str) -> str:
+    """A device kind as a part-key word: ``'fuse or breaker' -> 'fuse-or-breaker'``."""
+    return "-".join(str(kind).lower().split())
+
+
+def _num(value: Any) -> str:
+    return f"{value:g}" if isinstance(value, int | float) else str(value)
+
+
+def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, ...]:
+    """Every part to buy, in the order of the energy path (array to loads)."""
+    a, b, c, inv = design.array, design.battery, design.controller, design.inverter
+    m = project.module
+    lines = [
+        BomLine(f"module:{m.name}", f"PV module {m.name}, {m.pmax_w:g} W STC, Vmp {m.vmp_v:g} V, "
+                f"Voc {m.voc_v:g} V, Isc {m.isc_a:g} A", float(a.module_count), "each",
+                f"{a.modules_series} in series x {a.modules_parallel} string(s) in parallel",
+                "array.module_count"),
+    ]
+    lines.append(BomLine(
+        f"controller:{c.type.upper()} {c.current_a:g} A", f"{c.type.upper()} charge "
+        f"controller, {c.current_a:g} A, PV input up to {c.max_pv_voltage_v:g} V, "
+        f"{b.system_voltage_v} V battery", float(c.count), "each",
+        "charge controllers needed for the array current", "controller.count"))
+    bs = project.battery
+    lines.append(BomLine(
+        f"battery:{bs.name}", f"Battery unit {bs.name}, {bs.nominal_voltage_v:g} V "
+        f"{bs.capacity_ah:g} Ah {b.chemistry}", float(b.unit_count), "each",
+        f"{b.units_series} in series x {b.units_parallel} string(s) in parallel",
+        "battery.unit_count"))
+    if inv.needed:
+        lines.append(BomLine(
+            f"inverter:{inv.continuous_w:g} W", f"Inverter, {inv.continuous_w:g} W continuous, "
+            f"{inv.surge_w:g} W surge, {b.system_voltage_v} V DC input", 1.0, "each",
+            "one inverter for the AC loads"))
+    lines += _protection_lines(design)
+    lines += _cable_lines(wires_of(design))
+    return tuple(lines)
+
+
+def _cable_lines(wires: Iterable[Any]) -> list[BomLine]:
+    """Cable by material and size: sum over runs of 2 x one-way length x number of runs."""
+    totals: dict[tuple[str, str], float] = {}
+    runs: dict[tuple[str, str], list[str]] = {}
+    for w in wires:
+        length = field_of(w, "length_m")
+        size = field_of(w, "size")
+        if length is None or size is None:
+            continue
+        material = str(field_of(w, "material", "copper"))
+        count = field_of(w, "count", 1) or 1
+        conductors = field_of(w, "conductors", CONDUCTORS_PER_RUN) or CONDUCTORS_PER_RUN
+        key = (material, str(size))
+        totals[key] = totals.get(key, 0.0) + float(length) * conductors * count
+        runs.setdefault(key, []).append(str(field_of(w, "run", "?")))
+    out = []
+    for (material, size), metres in totals.items():
+        qty = float(math.ceil(metres - 1e-9))
+        out.append(BomLine(
+            f"cable:{material} {size}", f"Cable, {material}, {size}", qty, "m",
+            f"{CONDUCTORS_PER_RUN} conductors x one-way length of: "
+            + ", ".join(runs[(material, size)]) + " (rounded up to the metre)"))
+    return out
+
+
+def _protection_lines(design: SystemDesign) -> list[BomLine]:
+    """Fuses, breakers and disconnects of the protection schedule, grouped by kind and rating."""
+    devices = devices_of(design)
+    grouped: dict[str, list[Any]] = {}
+    order: list[str] = []
+    for d in devices:
+        kind = kind_key(field_of(d, "kind", field_of(d, "type", "device")))
+        rating = field_of(d, "rating_a")
+        volt = field_of(d, "voltage_v")
+        detail = f"{_num(rating)} A" if rating is not None else ""
+        if volt:
+            detail += f" {math.ceil(float(volt) - 1e-9)} V"
+        key = f"{kind}:{detail.strip()}" if detail.strip() else kind
+        if key not in grouped:
+            order.append(key)
+        grouped.setdefault(key, []).append(d)
+    out = []
+    for key in order:
+        items = grouped[key]
+        qty = sum(_count(d) for d in items)
+        where = ", ".join(str(field_of(d, "location", field_of(d, "run", ""))) for d in items)
+        kind, _, detail = key.partition(":")
+        desc = f"{kind.replace('-', ' ').capitalize()} {detail}".strip()
+        if detail.endswith(" V"):
+            amps, _, volts = detail.rpartition(" ")[0].rpartition(" ")
+            desc = f"{kind.replace('-', ' ').capitalize()} {amps}".strip() + \
+                f", at least {volts} V DC"
+        out.append(BomLine(key, desc, qty, "each", f"protection schedule: {where}"))
+    return out
+
+
+def _count(device: Any) -> float:
+    n = field_of(device, "count", field_of(device, "quantity", 1))
+    return 1.0 if n is None else float(n)
+
+
+def bom_csv(lines: Iterable[BomLine], prices: dict[str, float] | None = None,
+            currency: str = "") -> str:
+    """The bill of materials as CSV (comma separated, header row, one part a row)."""
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    head = ["part", "description", "quantity", "unit", "follows from"]
+    if prices is not None:
+        head += [f"unit price ({currency})".replace(" ()", ""), f"total ({currency})".replace(
+            " ()", "")]
+    w.writerow(head)
+    for ln in lines:
+        row = [ln.key, ln.description, f"{ln.quantity:g}", ln.unit, ln.follows]
+        if prices is not None:
+            p = prices.get(ln.key)
+            row += (["", ""] if p is None else [f"{p:.2f}", f"{p * ln.quantity:.2f}"])
+        w.writerow(row)
+    return buf.getvalue()

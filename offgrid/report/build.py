@@ -1,0 +1,1066 @@
+"""Build the report model (:class:`~offgrid.report.document.Report`) from a project and its design.
+
+Every number is taken from the :class:`~offgrid.result.SystemDesign` (through its
+``to_dict()``, the same JSON that ``offgrid size --json`` prints), formatted once
+here and tagged with its dotted path, so each format shows the same figure and a
+test can check it against the JSON.  Sections that later parts of the engine
+provide (wiring schedule, protection, I-V curves, reliability) are filled when
+the design carries them and left out otherwise.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from offgrid.project.loads_csv import format_months
+from offgrid.project.model import MonthlyClimate, Project
+from offgrid.report import charts
+from offgrid.report.bom import (
+    BomLine,
+    bill_of_materials,
+    devices_of,
+    electrical_of,
+    field_of,
+    wires_of,
+)
+from offgrid.report.costs import LifecycleCost, lifecycle_cost, money
+from offgrid.report.document import (
+    Block,
+    Bullets,
+    Cell,
+    Chart,
+    FigureItem,
+    Figures,
+    Paragraph,
+    Report,
+    Section,
+    Table,
+)
+from offgrid.result import Reason, SystemDesign
+
+MONTHS = charts.MONTHS
+DEFERS_TO_CODE = ("This design defers to local electrical codes and licensed practice: have it "
+                  "checked, installed and inspected by a qualified electrician.")
+
+#: Section keys in report order; tests check that each is present.
+SECTION_KEYS = ("job", "climate", "loads", "design-month", "figures", "strings", "wiring",
+                "bom", "costs", "reliability", "variants", "cautions", "assumptions")
+
+#: Labels of design figures by dotted path (others get a label from the path).
+LABELS: dict[str, str] = {
+    "site.tilt_deg": "Array tilt",
+    "site.azimuth_deg": "Array azimuth",
+    "site.design_month": "Design month",
+    "site.record_low_c": "Lowest temperature for the string",
+    "site.poa_kwh_m2_day": "Array-plane insolation",
+    "loads.daily_energy_wh": "Daily energy at the battery",
+    "loads.design_daily_energy_wh": "Design-month energy at the battery",
+    "loads.max_daily_energy_wh": "Largest monthly daily energy",
+    "loads.inverter_idle_wh": "Inverter idle energy",
+    "loads.peak_ac_w": "Peak AC power at once",
+    "loads.largest_surge_w": "Largest starting power",
+    "array.required_power_w": "Array power required",
+    "array.power_w": "Array power installed",
+    "array.modules_series": "Modules in series",
+    "array.modules_parallel": "Strings in parallel",
+    "array.module_count": "Modules",
+    "array.derate_total": "Derates together",
+    "array.supply_wh_day": "Array supply to the battery",
+    "array.string_voc_cold_v": "String Voc at the lowest temperature",
+    "array.string_vmp_hot_v": "String Vmp hot",
+    "battery.system_voltage_v": "System voltage",
+    "battery.required_ah": "Battery capacity required",
+    "battery.capacity_ah": "Battery capacity installed",
+    "battery.units_series": "Battery units in series",
+    "battery.units_parallel": "Battery strings in parallel",
+    "battery.unit_count": "Battery units",
+    "battery.nominal_kwh": "Battery energy, nominal",
+    "battery.usable_kwh": "Battery energy, usable",
+    "controller.required_current_a": "Controller current required",
+    "controller.current_a": "Controller rating",
+    "controller.count": "Charge controllers",
+    "inverter.continuous_w": "Inverter continuous rating",
+    "inverter.surge_w": "Inverter surge rating",
+    "inverter.required_surge_w": "Starting demand on the inverter",
+    "inverter.dc_input_current_a": "Inverter DC input current",
+    "controller.max_pv_voltage_v": "Controller maximum PV voltage",
+    "array.voc_cold_v": "Module Voc at the lowest temperature",
+    "array.vmp_hot_v": "Module Vmp hot",
+    "array.harvest_mppt_wh_day": "MPPT harvest",
+    "array.harvest_pwm_wh_day": "PWM harvest",
+    "module.fit": "Single-diode model of the module",
+    "mpp.vmp_v": "Vmp, one module",
+    "mpp.imp_a": "Imp, one module",
+    "mpp.pmp_w": "Pmp, one module",
+    "mpp.fill_factor": "Fill factor",
+    "mpp.efficiency": "Module efficiency",
+    "strings.max_series": "Most modules in series",
+    "strings.min_series": "Fewest modules in series",
+    "protection.bank_fault_current_a": "Battery bank fault current",
+    "protection.battery_fuse_a": "Battery fuse",
+    "protection.string_fuses": "String fuses",
+}
+
+#: Figures that have no reason of their own in the engine: the reason the report states.
+DERIVED: dict[str, Reason] = {
+    "array.module_count": Reason("modules in series x strings in parallel"),
+    "array.derate_total": Reason("product of the derates of the design month (see the "
+                                 "assumptions)"),
+    "array.string_voc_cold_v": Reason(
+        "modules in series x module Voc at the lowest temperature (Voc x (1 + beta_Voc x "
+        "(T - 25 C)))", (), "NEC 690.7(A)(1) method with the module's coefficient, NFPA 70-2023"),
+    "array.string_vmp_hot_v": Reason("modules in series x module Vmp at the hottest cell "
+                                     "temperature"),
+    "battery.unit_count": Reason("units in series x strings in parallel"),
+    "battery.nominal_kwh": Reason("installed Ah x system voltage / 1000"),
+    "controller.count": Reason("controllers needed so that none carries more than the largest "
+                               "standard rating"),
+    "loads.max_daily_energy_wh": Reason("largest of the twelve monthly daily energies at the "
+                                        "battery"),
+}
+
+#: Figures shown in the figures section, in order, beside every figure that has a reason.
+KEY_FIGURES = ("site.design_month", "site.tilt_deg", "site.azimuth_deg", "site.record_low_c",
+               "loads.design_daily_energy_wh", "loads.max_daily_energy_wh",
+               "loads.inverter_idle_wh", "loads.peak_ac_w", "loads.largest_surge_w",
+               "array.required_power_w", "array.derate_total", "array.modules_series",
+               "array.modules_parallel", "array.module_count", "array.power_w",
+               "array.string_voc_cold_v", "array.string_vmp_hot_v",
+               "battery.system_voltage_v", "battery.required_ah", "battery.units_series",
+               "battery.units_parallel", "battery.unit_count", "battery.capacity_ah",
+               "battery.nominal_kwh", "battery.usable_kwh", "controller.required_current_a",
+               "controller.current_a", "controller.count", "inverter.continuous_w",
+               "inverter.surge_w", "inverter.required_surge_w", "inverter.dc_input_current_a")
+GROUP_ORDER = ("site", "loads", "module", "mpp", "array", "strings", "battery", "controller",
+               "inverter", "wires", "protection")
+GROUP_TITLES = {"site": "Site and sun", "loads": "Loads", "array": "Array",
+                "battery": "Battery", "controller": "Charge controller", "inverter": "Inverter",
+                "module": "Module model", "mpp": "Maximum power point, design month",
+                "strings": "String window", "wires": "Cables",
+                "protection": "Protection"}
+WIRE_FIELDS = {"size": "conductor size", "drop_pct": "voltage drop", "ampacity_a": "ampacity",
+               "fuse_a": "fuse", "current_a": "current", "length_m": "length"}
+
+
+# ----------------------------------------------------------------------------- formatting
+
+def unit_of(path: str) -> str:
+    """Unit from the naming convention of the design's fields (``power_w`` -> W)."""
+    name = path.rsplit(".", 1)[-1]
+    table = (("_kwh_m2_day", "kWh/m2/day"), ("_wh_day", "Wh/day"), ("_kwh", "kWh"),
+             ("_wh", "Wh/day" if path.startswith("loads.") else "Wh"), ("_ah", "Ah"),
+             ("_w", "W"), ("_v", "V"), ("_a", "A"), ("_c", "C"), ("_deg", "deg"),
+             ("_pct", "%"), ("_m", "m"), ("_days", "days"), ("_years", "years"),
+             ("_kw", "kW"), ("_ohm", "ohm"))
+    for suffix, unit in table:
+        if name.endswith(suffix):
+            return unit
+    return ""
+
+
+def digits_for(value: float, unit: str) -> int:
+    """Decimals shown for a figure of this size and unit."""
+    if unit in ("W", "Wh", "Wh/day", "Ah", "deg"):
+        return 0 if abs(value) >= 10 or float(value).is_integer() else 1
+    if unit == "%":
+        return 2 if abs(value) < 10 else 1
+    if unit in ("V", "A", "C", "m", "days", "years"):
+        return 1 if abs(value) < 1000 else 0
+    if unit in ("kWh", "kWh/m2/day", "kW"):
+        return 2
+    if unit == "":
+        return 3 if abs(value) < 10 else 1
+    return 2
+
+
+def number_text(value: float, digits: int) -> str:
+    return f"{value:,.{digits}f}"
+
+
+def figure_cell(value: Any, path: str, unit: str | None = None) -> Cell:
+    """A design figure formatted with its unit, keeping the number and the path."""
+    unit = unit_of(path) if unit is None else unit
+    if path.endswith("design_month") and isinstance(value, int):
+        return Cell(MONTHS[value - 1], float(value), path)
+    if isinstance(value, bool):
+        return Cell("yes" if value else "no", None, path)
+    if isinstance(value, int):
+        return Cell(f"{value:,d} {unit}".strip(), float(value), path)
+    if isinstance(value, float):
+        text = number_text(value, digits_for(value, unit))
+        return Cell(f"{text} {unit}".strip(), value, path)
+    return Cell(str(value), None, path)
+
+
+def lookup(tree: dict[str, Any], path: str) -> Any:
+    """Value at a dotted path of the design's JSON, or None."""
+    node: Any = tree
+    for part in path.split("."):
+        if isinstance(node, dict) and part in node:
+            node = node[part]
+        elif isinstance(node, list) and part.isdigit() and int(part) < len(node):
+            node = node[int(part)]
+        else:
+            return None
+    return node
+
+
+def resolve(tree: dict[str, Any], design: SystemDesign, path: str) -> tuple[Any, str]:
+    """A reason's figure and its path in the design's JSON.
+
+    Most reasons are keyed by their JSON path; the electrical design's string-window and
+    protection figures sit under ``electrical.``, and cable runs are keyed by run name
+    (``wires.array.size``) while the JSON lists them (``wires.1.size``).
+    """
+    value = lookup(tree, path)
+    if value is not None:
+        return value, path
+    head, _, rest = path.partition(".")
+    if head == "wires" and "." in rest:
+        key, _, name = rest.partition(".")
+        for k, w in enumerate(wires_of(design)):
+            if field_of(w, "key") == key:
+                where = f"wires.{k}.{name}"
+                return lookup(tree, where), where
+    where = f"electrical.{path}"
+    value = lookup(tree, where)
+    if value is not None:
+        return value, where
+    return None, path
+
+
+def figure_label(design: SystemDesign, path: str) -> str:
+    """The label of a reason's figure; cable runs are named by their run."""
+    head, _, rest = path.partition(".")
+    if head == "wires" and "." in rest:
+        key, _, name = rest.partition(".")
+        for w in wires_of(design):
+            if field_of(w, "key") == key:
+                run = str(field_of(w, "run", key))
+                return f"{run[:1].upper()}{run[1:]}: {WIRE_FIELDS.get(name, name)}"
+    return label_of(path)
+
+
+def label_of(path: str) -> str:
+    if path in LABELS:
+        return LABELS[path]
+    head, _, name = path.rpartition(".")
+    words = name
+    for suffix in ("_kwh_m2_day", "_wh_day", "_kwh", "_wh", "_ah", "_w", "_v", "_a", "_c",
+                   "_deg", "_pct", "_m", "_a"):
+        if words.endswith(suffix):
+            words = words[: -len(suffix)]
+            break
+    words = words.replace("_", " ")
+    if head.startswith("array.derates"):
+        return f"Derate: {words}"
+    return words[:1].upper() + words[1:]
+
+
+def _c(text: str, value: float | None = None, path: str | None = None) -> Cell:
+    return Cell(text, value, path)
+
+
+def _num(value: float, digits: int, path: str | None = None) -> Cell:
+    return Cell(number_text(value, digits), float(value), path)
+
+
+def _month_row(label: str, values, path: str | None, digits: int = 0) -> tuple[Cell, ...]:
+    """A label and twelve monthly numbers; ``path.k`` is the JSON path of month k (0-11)."""
+    return (_c(label), *(_num(v, digits, f"{path}.{k}" if path else None)
+                         for k, v in enumerate(values)))
+
+
+# ----------------------------------------------------------------------------- inputs
+
+@dataclass(frozen=True)
+class ReportInputs:
+    """Everything a report is built from; optional parts are None when not computed."""
+
+    project: Project
+    design: SystemDesign
+    climate: MonthlyClimate | None = None
+    reliability: Any = None
+    comparison: Any = None  # VariantComparison
+    charts: bool = True
+
+
+def build_report(project: Project, design: SystemDesign, *, base: Path | None = None,
+                 climate: MonthlyClimate | None = None, reliability: Any = None,
+                 comparison: Any = None, with_charts: bool = True,
+                 with_variants: bool = True) -> Report:
+    """The report model of a designed project.
+
+    ``reliability`` is the simulation's record when it ran; ``comparison`` a
+    :class:`~offgrid.report.variants.VariantComparison` (computed here when the project
+    has variants and ``with_variants`` is true).
+    """
+    if climate is None:
+        from offgrid.sizing import resolve_climate
+
+        try:
+            climate = resolve_climate(project, base)
+        except ValueError:
+            climate = None
+    if comparison is None and with_variants and project.variants:
+        from offgrid.report.variants import compare_variants
+
+        comparison = compare_variants(project, base)
+    tree = design.to_dict()
+    bom = bill_of_materials(project, design)
+    cost = lifecycle_cost(project, design, bom, reliability)
+    ri = ReportInputs(project, design, climate, reliability, comparison, with_charts)
+    sections = [
+        _job(ri, tree),
+        _climate(ri, tree),
+        _loads(ri, tree),
+        _design_month(ri, tree),
+        _figures(ri, tree),
+        _strings(ri, tree),
+        _wiring(ri, tree),
+        _bom(ri, bom, cost),
+        _costs(ri, cost),
+        _reliability(ri),
+        _variants(ri),
+        _cautions(ri),
+        _assumptions(ri, tree),
+    ]
+    info = project.info
+    subtitle = f"Stand-alone solar power design for {project.site.name or info.name}"
+    meta = tuple((k, v) for k, v in (("Client", info.client), ("Designer", info.designer))
+                 if v)
+    return Report(title=info.name, subtitle=subtitle,
+                  sections=tuple(s for s in sections if s is not None), demo=info.demo,
+                  meta=meta)
+
+
+# ----------------------------------------------------------------------------- sections
+
+def _job(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    s = p.site
+    rows = [("Project", p.info.name), ("Client", p.info.client or "-"),
+            ("Designer", p.info.designer or "-"),
+            ("Site", s.name or "-"),
+            ("Latitude, longitude", f"{s.latitude_deg:.4f}, {s.longitude_deg:.4f} deg"),
+            ("Elevation", f"{s.elevation_m:,.0f} m")]
+    table_rows = [(_c(k), _c(v)) for k, v in rows]
+    table_rows.append((_c("Array tilt, azimuth"), _c(
+        f"{d.site.tilt_deg:.0f} deg, {d.site.azimuth_deg:.0f} deg (clockwise from north)")))
+    blocks: list[Block] = []
+    if p.info.demo:
+        blocks.append(Paragraph("Demonstration data: the project, the site, the people and the "
+                                "climate in this report are invented."))
+    blocks.append(Table("job", ("Item", "Value"), tuple(table_rows), wrap=(1,)))
+    if p.info.notes:
+        blocks.append(Paragraph(p.info.notes))
+    a, b, c, inv = d.array, d.battery, d.controller, d.inverter
+    inv_text = (f"a {inv.continuous_w:,.0f} W inverter" if inv.needed else "no inverter "
+                "(DC loads only)")
+    blocks.append(Paragraph(
+        f"The system: {a.module_count} PV modules ({a.power_w:,.0f} W), a {b.system_voltage_v} V "
+        f"battery bank of {b.unit_count} units ({b.capacity_ah:,.0f} Ah, "
+        f"{b.usable_kwh:,.2f} kWh usable), {c.count} x {c.current_a:g} A {c.type.upper()} charge "
+        f"controller{'s' if c.count > 1 else ''} and {inv_text}, sized for "
+        f"{MONTHS[d.site.design_month - 1]}, the month with the least sun for the demand."))
+    return Section("job", "The job and the site", tuple(blocks))
+
+
+def _climate(ri: ReportInputs, tree: dict) -> Section:
+    d = ri.design
+    s = d.site
+    c = ri.climate
+    cols = ["Month", "Horizontal", "Array plane", "Mean", "Day"]
+    have_max = c is not None and c.temp_max_c is not None
+    have_min = c is not None and c.temp_min_c is not None
+    if have_max:
+        cols.append("Max")
+    if have_min:
+        cols.append("Min")
+    rows = []
+    for k in range(12):
+        row = [_c(MONTHS[k]),
+               _num(s.horizontal_kwh_m2_day[k], 2, f"site.horizontal_kwh_m2_day.{k}"),
+               _num(s.poa_kwh_m2_day[k], 2, f"site.poa_kwh_m2_day.{k}"),
+               _num(s.temp_mean_c[k], 1, f"site.temp_mean_c.{k}"),
+               _num(s.temp_day_c[k], 1, f"site.temp_day_c.{k}")]
+        if have_max:
+            row.append(_num(c.temp_max_c[k], 1))
+        if have_min:
+            row.append(_num(c.temp_min_c[k], 1))
+        rows.append(tuple(row))
+    blocks: list[Block] = [Table(
+        "climate", tuple(cols), tuple(rows), ("l",) + ("r",) * (len(cols) - 1),
+        "Insolation in kWh/m2/day (mean daily, horizontal and in the array plane); "
+        "temperatures in C (day = mean of the daily mean and maximum, used for the cell "
+        "temperature).")]
+    src = s.climate_source or (c.source if c else "") or "not given"
+    blocks.append(Paragraph(f"Source of the climate: {src}"))
+    if c is not None and c.demo:
+        blocks.append(Paragraph("This climate is demonstration data, not a measurement."))
+    reason = d.reasons.get("site.poa_kwh_m2_day")
+    if reason:
+        blocks.append(Paragraph(f"Array-plane insolation: {reason.formula}. Source: "
+                                f"{reason.source}."))
+    blocks.append(Paragraph(f"Lowest temperature used for the string voltage: "
+                            f"{s.record_low_c:.1f} C ({_reason_source(d, 'site.record_low_c')})."))
+    return Section("climate", "Climate", tuple(blocks))
+
+
+def _reason_source(d: SystemDesign, path: str) -> str:
+    r = d.reasons.get(path)
+    return r.source if r else "not stated"
+
+
+def _loads(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    lr = d.loads
+    dm = d.site.design_month - 1
+    rows = []
+    for i, ld in enumerate(p.loads):
+        e = lr.per_load_wh[i][dm] if i < len(lr.per_load_wh) else 0.0
+        rows.append((_c(str(i + 1)), _c(ld.name), _c(str(ld.quantity)),
+                     _num(ld.power_w, 0 if ld.power_w >= 10 else 1), _num(ld.hours_per_day, 1),
+                     _num(ld.duty_cycle, 2), _c(ld.ac_dc.upper()),
+                     _c("yes" if ld.critical else "no"), _c(format_months(ld.months)),
+                     _num(e, 0, f"loads.per_load_wh.{i}.{dm}")))
+    blocks: list[Block] = [Table(
+        "loads", ("#", "Appliance", "Qty", "W", "h/day", "Duty", "Type", "Crit.", "Months",
+                  "Wh/day"), tuple(rows), ("r", "l", "r", "r", "r", "r", "l", "l", "l", "r"),
+        f"Energy per day at the appliance in the design month ({MONTHS[dm]}) = quantity x "
+        "power x hours per day x duty cycle.", wrap=(1,))]
+
+    # energy by month
+    mrows = []
+    for i, ld in enumerate(p.loads):
+        mrows.append(_month_row(f"{i + 1} {ld.name}", lr.per_load_wh[i],
+                                f"loads.per_load_wh.{i}"))
+    idle = [lr.inverter_idle_wh if lr.connected_ac_w > 0 else 0.0] * 12
+    growth = [b - (a + dc_ + l_ + i_) for b, a, dc_, l_, i_ in zip(
+        lr.daily_energy_wh, lr.ac_energy_wh, lr.dc_energy_wh, lr.inverter_loss_wh, idle,
+        strict=True)]
+    for label, vals, path in (
+            ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
+            ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
+            ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
+            ("Inverter idle", idle, None),
+            (f"Growth {lr.growth_pct:g} %", growth, None),
+            ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh")):
+        mrows.append(_month_row(label, vals, path))
+    blocks.append(Table("energy-by-month", ("Wh/day", *MONTHS), tuple(mrows),
+                        ("l",) + ("r",) * 12,
+                        "Daily energy by month, Wh/day: each appliance line at the appliance, "
+                        "then the totals up to the battery."))
+    reason = d.reasons.get("loads.daily_energy_wh")
+    if reason:
+        blocks.append(Paragraph(f"Energy at the battery = {reason.formula}."))
+    blocks.append(Paragraph(
+        f"Connected AC power {lr.connected_ac_w:,.0f} W, at once {lr.peak_ac_w:,.0f} W "
+        f"(coincidence factor {lr.coincidence_factor:g}); connected DC power "
+        f"{lr.connected_dc_w:,.0f} W; largest starting power {lr.largest_surge_w:,.0f} W "
+        f"({lr.largest_surge_load or 'none'}). Critical loads use "
+        f"{lr.critical_energy_wh[dm]:,.0f} Wh/day at the battery in {MONTHS[dm]}."))
+    return Section("loads", "Loads", tuple(blocks))
+
+
+def _design_month(ri: ReportInputs, tree: dict) -> Section:
+    d = ri.design
+    s, lr, a = d.site, d.loads, d.array
+    dm = s.design_month - 1
+    blocks: list[Block] = [Paragraph(
+        f"Design month: {MONTHS[dm]}. It has the largest ratio of daily demand to array-plane "
+        f"insolation ({s.demand_to_sun[dm]:,.0f} Wh per kWh/m2): "
+        f"{lr.design_daily_energy_wh:,.0f} Wh/day at the battery on "
+        f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day. The array is sized for this month; every other "
+        "month has at least as much sun for its demand.")]
+    rows = [_month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
+            _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day")]
+    harvests = []
+    for label, attr in (("MPPT harvest", "harvest_mppt_wh_day"),
+                        ("PWM harvest", "harvest_pwm_wh_day")):
+        values = getattr(a, attr, ()) or ()
+        if len(values) == 12:
+            rows.append(_month_row(f"{label}, Wh/day", values, f"array.{attr}"))
+            harvests.append((label, values))
+    rows.append(_month_row("Demand/sun", s.demand_to_sun, "site.demand_to_sun"))
+    blocks.append(Table("supply-demand", ("", *MONTHS), tuple(rows), ("l",) + ("r",) * 12,
+                        "Demand and array supply at the battery (supply: the worst-month "
+                        "derate chain; harvest: from the I-V curves through the day, where "
+                        "computed); demand/sun in Wh per kWh/m2 of array-plane insolation."))
+    svg = charts.supply_demand_svg(lr.daily_energy_wh, a.supply_wh_day, s.design_month,
+                                   others=harvests) if ri.charts else ""
+    text = charts.text_bars(MONTHS, (("demand", "#", lr.daily_energy_wh),
+                                     ("supply", "=", a.supply_wh_day)), 78, "Wh/day")
+    blocks.append(Chart("supply-demand", "Supply and demand by month", svg, tuple(text),
+                        f"Daily demand at the battery (bars) and array supply (line); "
+                        f"{MONTHS[dm]} is the design month."))
+    surplus = [sup - dem for sup, dem in zip(a.supply_wh_day, lr.daily_energy_wh, strict=True)]
+    low = int(np.argmin(surplus))
+    blocks.append(Paragraph(
+        f"Smallest margin: {MONTHS[low]}, supply {a.supply_wh_day[low]:,.0f} Wh/day for "
+        f"{lr.daily_energy_wh[low]:,.0f} Wh/day of demand "
+        f"({a.supply_wh_day[low] / lr.daily_energy_wh[low] - 1:+.0%})."))
+    blocks += _iv_blocks(ri)
+    return Section("design-month", "Design month", tuple(blocks))
+
+
+def _iv_blocks(ri: ReportInputs) -> list[Block]:
+    """The design-month I-V and P-V curves with the MPP and the PWM point (electrical design)."""
+    d = ri.design
+    er = electrical_of(d)
+    curve = getattr(er, "curve", None) if er is not None else None
+    mpp = getattr(er, "mpp", None) if er is not None else None
+    if curve is None or mpp is None:
+        return []
+    v = np.asarray(field_of(curve, "voltage_v", ()), dtype=float)
+    i = np.asarray(field_of(curve, "current_a", ()), dtype=float)
+    if len(v) < 2 or len(v) != len(i):
+        return []
+    vm, im = float(mpp.vmp_v), float(mpp.imp_a)
+    harvest = getattr(er, "harvest", None)
+    strings = getattr(er, "strings", None)
+    series = getattr(getattr(strings, "layout", None), "series", None) or d.array.modules_series
+    pwm_layout = getattr(harvest, "pwm_layout", None)
+    if pwm_layout:  # the layout the PWM figures assume (may differ from an MPPT design's)
+        series = int(pwm_layout[0])
+    operating = None
+    v_chg = getattr(harvest, "charging_voltage_v", None)
+    if v_chg:
+        vo = float(v_chg) / series
+        if vo <= v[-1]:
+            operating = (vo, float(np.interp(vo, v, i)))
+    label = "PWM operating point" if d.controller.type == "pwm" else "PWM point (comparison)"
+    svg = charts.iv_pv_svg(v, i, (vm, im), operating, label) if ri.charts else ""
+    text = [f"Maximum power point: {vm:.1f} V, {im:.2f} A, {vm * im:,.0f} W (one module)"]
+    if operating:
+        text.append(f"{label}: {operating[0]:.1f} V, {operating[1]:.2f} A, "
+                    f"{operating[0] * operating[1]:,.0f} W (one module of {series} in series "
+                    f"at {float(v_chg):.1f} V)")
+    month = MONTHS[d.site.design_month - 1]
+    blocks: list[Block] = [Chart(
+        "iv-curve", f"I-V and P-V curves of one module, {month} at noon", svg, tuple(text),
+        f"One module at {mpp.irradiance_w_m2:,.0f} W/m2 and {mpp.cell_temp_c:.1f} C cell "
+        "temperature (the design month's mean day at solar noon). A PWM controller holds the "
+        "array at battery voltage: the square marks that point.")]
+    rows = [(_c("Irradiance"), Cell(f"{mpp.irradiance_w_m2:,.0f} W/m2", float(
+                mpp.irradiance_w_m2), "mpp.irradiance_w_m2")),
+            (_c("Cell temperature"), Cell(f"{mpp.cell_temp_c:.1f} C", float(mpp.cell_temp_c),
+                                          "mpp.cell_temp_c")),
+            (_c("Vmp"), Cell(f"{vm:.2f} V", vm, "mpp.vmp_v")),
+            (_c("Imp"), Cell(f"{im:.2f} A", im, "mpp.imp_a")),
+            (_c("Pmp"), Cell(f"{mpp.pmp_w:,.1f} W", float(mpp.pmp_w), "mpp.pmp_w")),
+            (_c("Fill factor"), Cell(f"{mpp.fill_factor:.3f}", float(mpp.fill_factor),
+                                     "mpp.fill_factor"))]
+    if operating:
+        rows.append((_c(f"{label}, power"), _c(f"{operating[0] * operating[1]:,.1f} W "
+                                               f"({operating[0] * operating[1] / mpp.pmp_w:.0%} "
+                                               "of Pmp)")))
+    if harvest is not None and getattr(harvest, "pwm_vs_mppt_pct", None) is not None:
+        rows.append((_c("PWM harvest against MPPT, design month"), Cell(
+            f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
+            "electrical.harvest.pwm_vs_mppt_pct")))
+    blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))
+    return blocks
+
+
+def _figures(ri: ReportInputs, tree: dict) -> Section:
+    d = ri.design
+    paths = list(KEY_FIGURES)
+    for path in d.reasons:
+        if path not in paths:
+            paths.append(path)
+    groups: dict[str, list[str]] = {}
+    for path in paths:
+        groups.setdefault(path.split(".", 1)[0], []).append(path)
+    order = [g for g in GROUP_ORDER if g in groups] + sorted(g for g in groups
+                                                              if g not in GROUP_ORDER)
+    blocks: list[Block] = [Paragraph(
+        "Each figure with the formula it comes from, the inputs it used and its source.")]
+    for g in order:
+        if g == "wires":
+            items = _wire_reason_items(d, groups[g])
+            if items:
+                blocks.append(Figures(tuple(items), GROUP_TITLES["wires"]))
+            continue
+        items = []
+        for path in groups[g]:
+            value, where = resolve(tree, d, path)
+            reason = d.reasons.get(path) or DERIVED.get(path)
+            if value is None and reason is None:
+                continue
+            if isinstance(value, list):
+                cell = Cell("by month, see the tables")
+            elif value is None:
+                cell = Cell("see the formula")
+            else:
+                cell = figure_cell(value, where)
+                if where != path and unit_of(where) != unit_of(path):
+                    cell = figure_cell(value, where, unit_of(path) or unit_of(where))
+            if reason is None:
+                reason = Reason("")
+            items.append(FigureItem(path, figure_label(d, path), cell, reason.formula,
+                                    reason.inputs, reason.source if reason.formula else ""))
+        if items:
+            blocks.append(Figures(tuple(items), GROUP_TITLES.get(g, g.capitalize())))
+    return Section("figures", "Sized figures and their reasons", tuple(blocks))
+
+
+def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
+    """Cable reasons, one item per column of the schedule: its formula and source once,
+    the inputs of every run after it (the figures themselves are in the schedule)."""
+    runs = {str(field_of(w, "key")): str(field_of(w, "run", "")) for w in wires_of(d)}
+    grouped: dict[tuple[str, str, str], list[tuple[str, Reason]]] = {}
+    for path in paths:
+        reason = d.reasons.get(path)
+        parts = path.split(".")
+        if reason is None or len(parts) != 3:
+            continue
+        key, name = parts[1], parts[2]
+        grouped.setdefault((name, reason.formula, reason.source), []).append(
+            (runs.get(key, key), reason))
+    items = []
+    for (name, formula, source), entries in grouped.items():
+        inputs = tuple((run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
+                       for run, r in entries)
+        label = WIRE_FIELDS.get(name, name)
+        items.append(FigureItem(f"wires.*.{name}", f"{label[:1].upper()}{label[1:]} of each "
+                                "run", Cell("see the schedule"), formula, inputs, source,
+                                listed=True))
+    return items
+
+
+def _strings(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    a, c, b = d.array, d.controller, d.battery
+    m = p.module
+    rows = [
+        (_c("Modules in series per string"), figure_cell(a.modules_series,
+                                                         "array.modules_series")),
+        (_c("Strings in parallel"), figure_cell(a.modules_parallel, "array.modules_parallel")),
+        (_c("Module Voc / Vmp at STC"), _c(f"{m.voc_v:g} V / {m.vmp_v:g} V")),
+        (_c(f"Module Voc at {d.site.record_low_c:.1f} C"), figure_cell(a.voc_cold_v,
+                                                                       "array.voc_cold_v")),
+        (_c("String Voc, cold"), figure_cell(a.string_voc_cold_v, "array.string_voc_cold_v")),
+        (_c("Controller maximum PV voltage"), figure_cell(c.max_pv_voltage_v,
+                                                          "controller.max_pv_voltage_v")),
+        (_c("Module Vmp, hot"), figure_cell(a.vmp_hot_v, "array.vmp_hot_v")),
+        (_c("String Vmp, hot"), figure_cell(a.string_vmp_hot_v, "array.string_vmp_hot_v")),
+        (_c("Battery absorption voltage"), figure_cell(b.absorption_voltage_v,
+                                                       "battery.absorption_voltage_v")),
+    ]
+    blocks: list[Block] = [Table("strings", ("String", "Value"), tuple(rows), ("l", "r"))]
+    ok_cold = a.string_voc_cold_v < c.max_pv_voltage_v
+    blocks.append(Paragraph(
+        f"The cold string open-circuit voltage ({a.string_voc_cold_v:.1f} V) is "
+        f"{'below' if ok_cold else 'ABOVE'} the controller's maximum "
+        f"({c.max_pv_voltage_v:g} V); the hot string maximum-power voltage "
+        f"({a.string_vmp_hot_v:.1f} V) is {'above' if a.string_vmp_hot_v > b.absorption_voltage_v else 'BELOW'} "  # noqa: E501
+        f"the battery's absorption voltage ({b.absorption_voltage_v:.1f} V)."))
+    reason = d.reasons.get("array.modules_series")
+    if reason:
+        blocks.append(Paragraph(f"Series count: {reason.formula}. Source: {reason.source}."))
+    layout = []
+    shown = min(a.modules_parallel, 4)
+    chain = " - ".join(f"[M{k + 1}]" for k in range(min(a.modules_series, 8)))
+    if a.modules_series > 8:
+        chain += f" - ... ({a.modules_series} modules)"
+    for s in range(shown):
+        layout.append(f"String {s + 1}: (+) {chain} (-)")
+    if a.modules_parallel > shown:
+        layout.append(f"... {a.modules_parallel} strings in parallel in all")
+    per_ctrl = math.ceil(a.modules_parallel / c.count)
+    layout.append(f"{a.modules_parallel} string(s) into {c.count} controller(s), up to "
+                  f"{per_ctrl} per controller")
+    blocks.append(Chart("string-layout", "String layout", "", tuple(layout)))
+    return Section("strings", "String layout", tuple(blocks))
+
+
+def _wiring(ri: ReportInputs, tree: dict) -> Section:
+    d, p = ri.design, ri.project
+    wires = wires_of(d)
+    devices = devices_of(d)
+    blocks: list[Block] = []
+    if wires:
+        materials = {str(field_of(w, "material", "")) for w in wires}
+        rows = []
+        for k, w in enumerate(wires):
+            fuse = field_of(w, "fuse_a")
+            rows.append((
+                _c(str(field_of(w, "run", "?"))),
+                Cell(str(field_of(w, "count", 1)), float(field_of(w, "count", 1)),
+                     f"wires.{k}.count"),
+                _num(float(field_of(w, "current_a", 0.0)), 1, f"wires.{k}.current_a"),
+                _num(float(field_of(w, "length_m", 0.0)), 1, f"wires.{k}.length_m"),
+                _c(str(field_of(w, "size", "")) + ("" if len(materials) == 1 else
+                                                   f" {field_of(w, 'material', '')}")),
+                _num(float(field_of(w, "drop_pct", 0.0)), 2, f"wires.{k}.drop_pct"),
+                _num(float(field_of(w, "ampacity_a", 0.0)), 0, f"wires.{k}.ampacity_a"),
+                _c("-") if fuse is None else Cell(f"{float(fuse):g}", float(fuse),
+                                                  f"wires.{k}.fuse_a"),
+            ))
+        material = f"{materials.pop()} conductors; " if len(materials) == 1 else ""
+        blocks.append(Table(
+            "wiring", ("Run", "Runs", "Current A", "Length m", "Size", "Drop %", "Ampacity A",
+                       "Fuse A"), tuple(rows), ("l", "r", "r", "r", "l", "r", "r", "r"),
+            f"{material}current: the circuit's maximum (NEC 690.8 for PV circuits); length "
+            "one-way; drop = 2 x length x current x resistance per metre at conductor "
+            "temperature; ampacity after the temperature and grouping corrections.",
+            wrap=(0,)))
+    else:
+        blocks.append(Paragraph(
+            "The wiring schedule is not computed for this design: size each conductor for "
+            "ampacity (1.25 x 1.25 x Isc on PV circuits, NEC 690.8) and for the voltage-drop "
+            f"limits ({p.choices.drop_limit_array_pct:g} % array, "
+            f"{p.choices.drop_limit_battery_pct:g} % battery, {p.choices.drop_limit_load_pct:g} %"
+            " loads) before building."))
+    if devices:
+        items = []
+        for dev in devices:
+            rating = field_of(dev, "rating_a")
+            volt = field_of(dev, "voltage_v")
+            aic = field_of(dev, "interrupt_rating_a")
+            count = field_of(dev, "count", 1)
+            what = str(field_of(dev, "kind", "device"))
+            if rating is not None:
+                what = f"{float(rating):g} A {what}"
+            if volt:
+                what += f", at least {math.ceil(float(volt) - 1e-9)} V DC"
+            if aic:
+                what += f", interrupting at least {float(aic):,.0f} A"
+            where = str(field_of(dev, "location", field_of(dev, "run", "")))
+            text = f"{where}: {count} x {what}"
+            note = str(field_of(dev, "note", "") or "")
+            if note:
+                text += f"; {note}"
+            src = str(field_of(dev, "source", "") or "")
+            if src:
+                text += f" ({src})"
+            items.append(text)
+        blocks.append(Paragraph("Protective devices and disconnects:"))
+        blocks.append(Bullets(tuple(items)))
+    return Section("wiring", "Wiring and protection schedule", tuple(blocks))
+
+
+def _bom(ri: ReportInputs, bom: tuple[BomLine, ...], cost: LifecycleCost) -> Section:
+    cur = cost.currency
+    rows = []
+    for n, (ln, cl) in enumerate(zip(bom, cost.lines, strict=True), start=1):
+        rows.append((_c(str(n)), _c(ln.description),
+                     Cell(f"{ln.quantity:g}", ln.quantity, ln.figure or None),
+                     _c(ln.unit), _c(money(cl.unit_price)), _c(money(cl.total))))
+    blocks: list[Block] = [Table(
+        "bom", ("#", "Part", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
+        tuple(rows), ("r", "l", "r", "l", "r", "r"),
+        "Quantities follow from the design; prices from the project's price list.",
+        wrap=(1,))]
+    blocks.append(Paragraph("Part keys (what the price list refers to) and how each quantity "
+                            "follows from the design:"))
+    blocks.append(Bullets(tuple(f"[{n}] {ln.key}: {ln.follows}"
+                                for n, ln in enumerate(bom, start=1))))
+    if cost.missing:
+        blocks.append(Bullets((cost.message(),), "warning"))
+    elif cost.capital is not None:
+        blocks.append(Paragraph(f"Parts {money(cost.parts, cur)}; installation "
+                                f"{money(cost.installation, cur)}; capital cost "
+                                f"{money(cost.capital, cur)}."))
+    return Section("bom", "Bill of materials", tuple(blocks))
+
+
+def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
+    e = cost.economics
+    cur = cost.currency
+    blocks: list[Block] = []
+    blocks.append(Paragraph(
+        f"Present-worth method over {e.life_years} years at a discount rate of "
+        f"{e.discount_rate_pct:g} % and price inflation of {e.inflation_pct:g} % a year "
+        "(Duffie & Beckman, Solar Engineering of Thermal Processes, 4th ed., ch. 11)."))
+    blocks.append(Bullets((
+        "PW(n) = ((1 + i) / (1 + d))^n: present worth of a payment n years ahead at today's "
+        "price",
+        "PWF(N, i, d) = 1/(d - i) x [1 - ((1 + i)/(1 + d))^N] (N/(1 + i) when i = d): present "
+        "worth of N yearly payments (eq. 11.5.1)",
+        "Lifecycle cost = capital + sum of replacements x PW(n) + yearly upkeep x PWF(N, i, d)",
+        "Cost per kWh delivered = lifecycle cost / (energy delivered per year x PWF(N, 0, d))",
+    )))
+    rows = []
+    lasting = []
+    for n, cl in enumerate(cost.lines, start=1):
+        if not cl.replaced_at:
+            lasting.append(f"{n}")
+            continue
+        when = ", ".join(f"{y:g}" for y in cl.replaced_at)
+        rows.append((_c(str(n)), _c(cl.key), _num(cl.life_years, 1), _c(when),
+                     _c(money(cl.replacement_pw))))
+    if rows:
+        blocks.append(Table("replacements", ("#", "Part", "Life, years", "Replaced in year",
+                                             f"Present worth {cur}"), tuple(rows),
+                            ("r", "l", "r", "l", "r"),
+                            "Parts numbered as in the bill of materials.", wrap=(1, 3)))
+    if lasting:
+        blocks.append(Paragraph(
+            f"Not replaced within the {e.life_years} years (service life at least that long): "
+            f"parts {', '.join(lasting)} of the bill of materials."))
+    blocks.append(Paragraph(f"Battery life {cost.battery_life_years:g} years: "
+                            f"{cost.battery_life_source}."))
+    served = "" if cost.served_fraction >= 1 else (
+        f" x {cost.served_fraction:.3f} share of demand served (simulation)")
+    energy_row = (_c("Energy delivered per year"), _c(f"{cost.energy_kwh_year:,.0f} kWh"))
+    if cost.missing:
+        blocks.append(Table("lifecycle", ("Item", "Value"), (energy_row,), ("l", "r")))
+        blocks.append(Bullets((cost.message(),), "warning"))
+        return Section("costs", "Costs over the project life", tuple(blocks))
+    rows2 = [
+        (_c("Capital cost"), Cell(money(cost.capital, cur), cost.capital, "costs.capital")),
+        (_c("Replacements, present worth"), Cell(money(cost.replacements_pw, cur),
+                                                 cost.replacements_pw, "costs.replacements_pw")),
+        (_c(f"Upkeep {money(cost.upkeep_yearly, cur)}/year x PWF {cost.pwf_upkeep:.3f}"),
+         Cell(money(cost.upkeep_pw, cur), cost.upkeep_pw, "costs.upkeep_pw")),
+        (_c("Lifecycle cost"), Cell(money(cost.lcc, cur), cost.lcc, "costs.lcc")),
+        energy_row,
+        (_c(f"Discounted energy (x PWF {cost.pwf_energy:.3f})"),
+         _c(f"{cost.energy_pw_kwh:,.0f} kWh")),
+        (_c("Cost per kWh delivered"), Cell(
+            "-" if cost.cost_per_kwh is None else f"{cost.cost_per_kwh:,.3f} {cur}/kWh",
+            cost.cost_per_kwh, "costs.cost_per_kwh")),
+    ]
+    blocks.append(Table("lifecycle", ("Item", "Value"), tuple(rows2), ("l", "r"), wrap=(0,)))
+    blocks.append(Paragraph(
+        "Energy delivered = daily AC and DC energy at the appliances by month x days in the "
+        f"month{served}. Replacements are priced at today's part price raised by inflation, "
+        "without labour; no salvage value is credited."))
+    return Section("costs", "Costs over the project life", tuple(blocks))
+
+
+#: Reliability figures: attribute path in the simulation's record, label, scale, unit, digits.
+RELIABILITY_FIGURES: tuple[tuple[str, str, float, str, int], ...] = (
+    ("lolp", "Loss-of-load probability", 100.0, "%", 3),
+    ("unmet_fraction", "Unmet energy", 100.0, "%", 3),
+    ("lolp_critical", "Loss-of-load probability, critical loads", 100.0, "%", 3),
+    ("unmet_fraction_critical", "Unmet energy, critical loads", 100.0, "%", 3),
+    ("shed_days", "Days with shedding", 1.0, "days", 0),
+    ("longest_shed_run_days", "Longest run of shedding days", 1.0, "days", 0),
+    ("days_below_soc", "Days below the charge threshold", 1.0, "days", 0),
+    ("lolp_end_of_life", "Loss-of-load probability at end of battery life", 100.0, "%", 3),
+    ("lolp_measured", "Loss-of-load probability, measured years alone", 100.0, "%", 3),
+    ("wear.equivalent_full_cycles_per_year", "Equivalent full cycles per year", 1.0, "", 0),
+    ("wear.cycle_life_years", "Battery cycle life", 1.0, "years", 1),
+    ("wear.calendar_life_years", "Battery calendar life", 1.0, "years", 1),
+    ("wear.expected_life_years", "Battery expected life", 1.0, "years", 1),
+    ("pv_kwh_per_year", "PV energy to the battery bus", 1.0, "kWh/year", 0),
+    ("spilled_fraction", "PV energy spilled (battery full)", 100.0, "%", 1),
+    ("battery_loss_kwh_per_year", "Battery losses", 1.0, "kWh/year", 0),
+    ("demand_kwh_per_year", "Demand at the battery", 1.0, "kWh/year", 0),
+)
+
+
+def _attr(obj: Any, dotted: str) -> Any:
+    for part in dotted.split("."):
+        obj = getattr(obj, part, None)
+        if obj is None:
+            return None
+    return obj
+
+
+def _reliability(ri: ReportInputs) -> Section | None:
+    study = ri.reliability
+    if study is None:
+        return None
+    rel = getattr(study, "reliability", study)
+    blocks: list[Block] = []
+    weather = getattr(study, "weather", None) or {}
+    years = getattr(rel, "years", None)
+    if years is not None:
+        seed = getattr(rel, "seed", None)
+        blocks.append(Paragraph(
+            f"Energy balance of this design, {getattr(rel, 'mode', 'daily')} steps, over "
+            f"{years} years of weather ({getattr(rel, 'measured_years', 0)} measured, the rest "
+            f"synthetic; seed {'random' if seed is None else seed}). Weather: "
+            f"{weather.get('source') or getattr(rel, 'weather_source', '')}."))
+    reasons = getattr(rel, "reasons", {}) or {}
+    items = []
+    for attr, label, scale, unit, digits in RELIABILITY_FIGURES:
+        v = _attr(rel, attr)
+        if not isinstance(v, int | float) or isinstance(v, bool) or not math.isfinite(v):
+            continue
+        shown = v * scale
+        if attr == "shed_days" and getattr(rel, "days", None):
+            text = f"{int(v):,d} of {int(rel.days):,d} days"
+        else:
+            text = f"{shown:,.{digits}f} {unit}".strip()
+        r = reasons.get(attr)
+        items.append(FigureItem(f"reliability.{attr}", label, Cell(text, float(shown),
+                                                                 f"reliability.{attr}"),
+                                r.formula if r else "", r.inputs if r else (),
+                                r.source if r else ""))
+    if items:
+        blocks.append(Figures(tuple(items), "Reliability figures"))
+    months = getattr(rel, "months", None) or ()
+    if len(months) == 12:
+        rows = [_month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
+                _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
+                _month_row("SoC p50 %", [100 * m.soc_min_p50 for m in months], None),
+                _month_row("SoC p95 %", [100 * m.soc_min_p95 for m in months], None)]
+        blocks.append(Table("reliability-months", ("", *MONTHS), tuple(rows),
+                            ("l",) + ("r",) * 12,
+                            "By month: share of days with shedding, and the 5th, 50th and 95th "
+                            "percentiles of the day's lowest state of charge."))
+        worst = getattr(rel, "worst_year_soc_min", None) or ()
+        svg = charts.soc_by_month_svg(
+            [m.soc_min_p5 for m in months], [m.soc_min_p50 for m in months],
+            [m.soc_min_p95 for m in months], worst, getattr(rel, "max_dod", None)
+            or ri.design.battery.max_dod) if ri.charts else ""
+        text = charts.text_bars(MONTHS, (("p5", "#", [100 * m.soc_min_p5 for m in months]),),
+                                78, "% lowest SoC")
+        blocks.append(Chart("soc", "State of charge through the year", svg, tuple(text),
+                            "Lowest state of charge of the day: 5th to 95th percentile by month "
+                            "(band), median (line) and the year with the most shedding (thin)."))
+    tr = getattr(study, "tradeoff", None)
+    if tr is not None:
+        blocks += _tradeoff_blocks(ri, tr)
+    notes = tuple(getattr(rel, "notes", ()) or ()) + tuple(getattr(tr, "notes", ()) or ())
+    if notes:
+        blocks.append(Bullets(notes))
+    return Section("reliability", "Reliability", tuple(blocks))
+
+
+def _tradeoff_blocks(ri: ReportInputs, tr: Any) -> list[Block]:
+    blocks: list[Block] = []
+    curves = []
+    rows = []
+    messages: list[str] = []
+    for t in tr.targets:
+        pts = [p for p in t.points]
+        if pts:
+            curves.append((f"LOLP {t.target:.2%}".replace(".00%", "%"),
+                           [p.capacity_wh / 1000 for p in pts], [p.array_w / 1000 for p in pts]))
+        need = t.design_capacity_needed_wh
+        cheapest = "-"
+        if t.cheapest is not None:
+            cheapest = (f"{t.cheapest.array_w:,.0f} W, {t.cheapest.capacity_wh / 1000:,.1f} kWh")
+            if t.cheapest_cost is not None:
+                cheapest += f" ({t.cheapest_cost:,.0f} {ri.project.economics.currency})"
+        rows.append((_c(f"{t.target:.3%}"), _c("yes" if t.design_meets else "no"),
+                     _c("-" if need is None else f"{need / 1000:,.1f} kWh"), _c(cheapest)))
+        if t.message:
+            messages.append(f"LOLP {t.target:.3%}: {t.message}")
+    svg = ""
+    if ri.charts and curves:
+        svg = charts.tradeoff_svg(curves, (tr.design_capacity_wh / 1000, tr.design_array_w / 1000),
+                                  "battery capacity (kWh)", "array power (kW)")
+    blocks.append(Chart("tradeoff", "Array and battery for a target LOLP", svg,
+                        tuple(f"{c[0]}: " + ", ".join(f"{x:.1f} kWh/{y:.2f} kW" for x, y in
+                                                      list(zip(c[1], c[2], strict=True))[:4])
+                              + (" ..." if len(c[1]) > 4 else "") for c in curves),
+                        "Each line joins the array and battery sizes that just meet a target "
+                        "loss-of-load probability; the star is this design "
+                        f"(LOLP {tr.design_lolp:.3%})."))
+    blocks.append(Table("tradeoff", ("Target LOLP", "Met", "Battery needed", "Cheapest point"),
+                        tuple(rows), ("r", "l", "r", "l"),
+                        "Met: this design meets the target. Battery needed: on the curve at this "
+                        "design's array size. Cheapest point: array and battery alone, priced "
+                        "per W of module and per kWh of battery unit from the price list.",
+                        wrap=(3,)))
+    if messages:
+        blocks.append(Bullets(tuple(messages)))
+    return blocks
+
+
+def _variants(ri: ReportInputs) -> Section | None:
+    cmp = ri.comparison
+    if cmp is None or len(cmp.columns) < 2:
+        return None
+    names = tuple(c.name for c in cmp.columns)
+    rows = []
+    for r in cmp.rows:
+        label = f"{r.label} ({r.unit})" if r.unit else r.label
+        cells = [Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None,
+                      None, dif) for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)]
+        rows.append((_c(label), *cells))
+    blocks: list[Block] = [Table("variants", ("", *names), tuple(rows),
+                                 ("l",) + ("r",) * len(names),
+                                 "* differs from the base design.",
+                                 wrap=tuple(range(len(names) + 1)))]
+    notes = []
+    for col in cmp.columns[1:]:
+        changes = "; ".join(f"{p} = {v}" for p, v in col.overrides) or "no change"
+        line = f"{col.name}: {changes}"
+        if col.note:
+            line += f" ({col.note})"
+        if col.error:
+            line += f". Not designed: {col.error}"
+        notes.append(line)
+    blocks.append(Bullets(tuple(notes)))
+    return Section("variants", "Variants side by side", tuple(blocks))
+
+
+def _cautions(ri: ReportInputs) -> Section:
+    d = ri.design
+    blocks: list[Block] = []
+    if d.warnings:
+        blocks.append(Bullets(tuple(f"{n.message} [{n.code}]" for n in d.warnings), "warning"))
+    cautions = list(d.cautions)
+    for extra in getattr(ri.reliability, "cautions", ()) or ():
+        if extra not in cautions:
+            cautions.append(extra)
+    if not any("defers to local electrical code" in c for c in cautions):
+        cautions.append(DEFERS_TO_CODE)
+    blocks.append(Bullets(tuple(cautions), "caution"))
+    return Section("cautions", "Warnings and safety cautions", tuple(blocks))
+
+
+def _assumptions(ri: ReportInputs, tree: dict) -> Section:
+    p, d = ri.project, ri.design
+    a = d.array
+    dm = d.site.design_month - 1
+    rows = [(_c(name), _num(v, 3, f"array.derates.{name}")) for name, v in a.derates.items()]
+    rows.append((_c("together"), _num(a.derate_total, 3, "array.derate_total")))
+    blocks: list[Block] = [Table("derates", ("Derate (fraction kept)", MONTHS[dm]), tuple(rows),
+                                 ("l", "r"), f"In the design month ({MONTHS[dm]}).")]
+    ch = p.choices
+    b, m, cs, inv = p.battery, p.module, p.controller, p.inverter
+    items = [
+        ("Days of autonomy", f"{ch.autonomy_days:g}"),
+        ("Maximum depth of discharge", f"{d.battery.max_dod:.0%}"),
+        ("Load growth margin", f"{ch.load_growth_pct:g} %"),
+        ("Coincidence factor (AC)", f"{ch.coincidence_factor:g}"),
+        ("Battery end-of-life capacity", f"{ch.ageing_factor:.0%}"),
+        ("Battery temperature factor", f"{d.battery.temp_factor:.3f}"),
+        ("System voltage", f"{ch.system_voltage}"),
+        ("Minimum tilt", f"{ch.min_tilt_deg:g} deg"),
+        ("Voltage-drop limits", f"array {ch.drop_limit_array_pct:g} %, battery "
+                                f"{ch.drop_limit_battery_pct:g} %, loads "
+                                f"{ch.drop_limit_load_pct:g} %"),
+        ("PV module", f"{m.name}: {m.pmax_w:g} W, Vmp {m.vmp_v:g} V, Imp {m.imp_a:g} A, Voc "
+                      f"{m.voc_v:g} V, Isc {m.isc_a:g} A, gamma {m.gamma_pmax_pct_per_c:g} %/C, "
+                      f"beta {m.beta_voc_pct_per_c:g} %/C, NOCT {m.noct_c:g} C"),
+        ("Battery unit", f"{b.name}: {b.chemistry}, {b.nominal_voltage_v:g} V, "
+                         f"{b.capacity_ah:g} Ah, round trip {b.efficiency:.0%}"),
+        ("Charge controller", f"{cs.type.upper()}, up to {cs.max_pv_voltage_v:g} V PV, "
+                              f"efficiency {cs.efficiency:.0%}"),
+        ("Inverter", f"efficiency {inv.efficiency:.0%}, idle {inv.self_consumption_w:g} W for "
+                     f"{inv.hours_on_per_day:g} h/day"),
+        ("Albedo", f"{p.site.albedo:g}"),
+    ]
+    w = getattr(p, "wiring", None)
+    if w is not None:
+        ambient = ("the site's hottest monthly mean" if w.ambient_temp_c is None
+                   else f"{w.ambient_temp_c:g} C")
+        items.append(("Cables", f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
+                                f"{w.insulation_temp_c} C insulation, resistance at "
+                                f"{w.conductor_temp_c:g} C, ampacity at {ambient}"))
+        items.append(("Cable runs, one-way", f"string {w.string_run_m:g} m, array "
+                                             f"{w.array_run_m:g} m, controller to battery "
+                                             f"{w.controller_battery_m:g} m, battery to "
+                                             f"inverter {w.battery_inverter_m:g} m, DC loads "
+                                             f"{w.dc_load_run_m:g} m unless set per load"))
+    blocks.append(Table("assumptions", ("Assumption", "Value"),
+                        tuple((_c(k), _c(v)) for k, v in items), ("l", "l"), wrap=(1,)))
+    blocks.append(Paragraph("Figures marked 'common practice, no source' follow the usual rule "
+                            "of the trade; 'from memory' marks a value not checked against its "
+                            "published source."))
+    return Section("assumptions", "Assumptions and derates", tuple(blocks))

@@ -1,0 +1,352 @@
+"""Capital cost, replacements and lifecycle cost per kWh delivered (present-worth method).
+
+Money at year ``n`` is brought to today by the single-payment present-worth
+factor, with prices rising at the inflation rate ``i`` and money discounted at
+the rate ``d``::
+
+    PW(n) = ((1 + i) / (1 + d)) ** n
+
+A yearly amount paid at the end of years 1..N, rising with ``i`` from a first
+payment A, is worth ``A x PWF(N, i, d)`` today::
+
+    PWF(N, i, d) = 1/(d - i) x [1 - ((1 + i)/(1 + d)) ** N]     (i != d)
+                 = N / (1 + i)                                  (i == d)
+
+Lifecycle cost LCC = capital + sum of replacements x PW(year) + yearly upkeep
+x PWF(N, i, d).  Cost per kWh delivered = LCC / (E x PWF(N, 0, d)): the
+lifecycle cost spread over the discounted energy delivered to the appliances.
+
+References
+----------
+Duffie, J. A. & Beckman, W. A., *Solar Engineering of Thermal Processes*, 4th ed.,
+Wiley 2013, ch. 11 (sec. 11.4 discounting and inflation, sec. 11.5 the present
+worth factor PWF, eq. 11.5.1; equation number from memory).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from offgrid.project.model import Economics, PriceItem, Project
+from offgrid.report.bom import BomLine
+from offgrid.result import Reason, SystemDesign, fmt
+
+DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
+
+#: Battery service life when neither the project nor a simulation gives one, years, at
+#: about one cycle a day to the design depth of discharge (from memory, typical figures).
+BATTERY_LIFE_PRESET_YEARS: dict[str, float] = {
+    "flooded": 7.0,
+    "agm": 5.0,
+    "gel": 8.0,
+    "lifepo4": 12.0,
+}
+BATTERY_LIFE_SOURCE = "chemistry preset, typical service life at daily cycling (from memory)"
+
+
+class PriceListError(ValueError):
+    """A price list (CSV) cannot be read; the message names the row and the column."""
+
+
+# ----------------------------------------------------------------------------- factors
+
+def present_worth_single(years, discount_rate: float, inflation: float = 0.0):
+    """Present worth of 1 (today's price) paid after ``years`` [-]: ((1+i)/(1+d))^n.
+
+    Duffie & Beckman 4th ed. sec. 11.4.  ``years`` may be an array.
+    """
+    n = np.asarray(years, dtype=float)
+    return ((1.0 + inflation) / (1.0 + discount_rate)) ** n
+
+
+def present_worth_factor(years: float, inflation: float, discount_rate: float) -> float:
+    """PWF(N, i, d) [-]: present worth of N yearly payments, the first 1, rising at ``i``.
+
+    Duffie & Beckman 4th ed. eq. 11.5.1 (from memory): 1/(d-i) [1 - ((1+i)/(1+d))^N] for
+    i != d, else N/(1+i).
+    """
+    if years < 0:
+        raise ValueError("years must not be negative")
+    if math.isclose(inflation, discount_rate, abs_tol=1e-12):
+        return years / (1.0 + inflation)
+    return (1.0 - ((1.0 + inflation) / (1.0 + discount_rate)) ** years) / (
+        discount_rate - inflation)
+
+
+def replacement_years(life_years: float, horizon_years: float) -> tuple[float, ...]:
+    """Years at which a part of ``life_years`` is replaced before the horizon ends."""
+    if life_years <= 0:
+        raise ValueError("a service life must be above zero years")
+    k = np.arange(1, int(horizon_years / life_years) + 2)
+    t = k * life_years
+    return tuple(float(x) for x in t[t < horizon_years - 1e-9])
+
+
+# ----------------------------------------------------------------------------- prices
+
+def price_keys(key: str) -> list[str]:
+    """Keys tried for a part, most specific first: ``controller:MPPT 50 A``,
+    ``controller:MPPT 50``, ``controller:MPPT``, ``controller``."""
+    kind, _, detail = key.partition(":")
+    words = detail.split()
+    keys = [f"{kind}:{' '.join(words[:n])}" for n in range(len(words), 0, -1)]
+    if detail and detail.strip() != " ".join(words):
+        keys.insert(0, key)
+    return [*keys, kind]
+
+
+def price_for(key: str, prices: list[PriceItem]) -> float | None:
+    """Unit price of a part: the most specific price-list key that matches (see price_keys)."""
+    table = {p.part.strip(): float(p.unit_price) for p in prices}
+    for k in price_keys(key):
+        if k in table:
+            return table[k]
+    return None
+
+
+def read_price_csv(text: str, source: str = "price list") -> list[PriceItem]:
+    """Price list from CSV with columns ``part`` and ``unit_price`` (``note`` optional).
+
+    Blank prices are skipped (a template not yet filled in); a price that is not a
+    number, zero or negative is refused with the row and column named.
+    """
+    reader = csv.DictReader(io.StringIO(text.lstrip("\ufeff")))
+    cols = {(c or "").strip().lower(): c for c in (reader.fieldnames or [])}
+    price_col = next((cols[c] for c in ("unit_price", "unit price", "price") if c in cols), None)
+    if "part" not in cols or price_col is None:
+        raise PriceListError(f"{source}: needs the columns 'part' and 'unit_price' (found: "
+                             f"{', '.join(reader.fieldnames or []) or 'none'})")
+    items: list[PriceItem] = []
+    seen: dict[str, int] = {}
+    for n, row in enumerate(reader, start=2):
+        part = (row.get(cols["part"]) or "").strip()
+        raw = (row.get(price_col) or "").strip()
+        if not part and not raw:
+            continue
+        if not part:
+            raise PriceListError(f"{source}: row {n}: the part column is empty")
+        if not raw:
+            continue
+        try:
+            price = float(raw.replace(",", ""))
+        except ValueError:
+            raise PriceListError(f"{source}: row {n}, unit_price: '{raw}' is not a number "
+                                 f"(part '{part}')") from None
+        if not math.isfinite(price) or price <= 0:
+            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{part}': a price "
+                                 "must be above zero; leave it blank if the part is not bought")
+        if part in seen:
+            raise PriceListError(f"{source}: row {n}: '{part}' is priced twice (also row "
+                                 f"{seen[part]})")
+        seen[part] = n
+        note = (row.get(cols["note"]) or "").strip() if "note" in cols else ""
+        items.append(PriceItem(part=part, unit_price=price, note=note))
+    return items
+
+
+def merge_prices(old: list[PriceItem], new: list[PriceItem]) -> list[PriceItem]:
+    """The old price list with the new lines replacing those of the same part."""
+    by_part = {p.part: p for p in old}
+    for p in new:
+        by_part[p.part] = p
+    return list(by_part.values())
+
+
+def price_template_csv(bom: tuple[BomLine, ...], prices: list[PriceItem]) -> str:
+    """A CSV of every BOM part with its current price (blank where none), to fill in."""
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["part", "unit_price", "unit", "description", "note"])
+    listed = set()
+    notes = {p.part: p.note for p in prices}
+    for ln in bom:
+        p = price_for(ln.key, prices)
+        w.writerow([ln.key, "" if p is None else f"{p:g}", ln.unit, ln.description,
+                    notes.get(ln.key, "")])
+        listed.add(ln.key)
+    for p in prices:  # kind-wide prices and prices of parts not in this design
+        if p.part not in listed:
+            w.writerow([p.part, f"{p.unit_price:g}", "", "", p.note])
+    return buf.getvalue()
+
+
+# ----------------------------------------------------------------------------- lifecycle
+
+@dataclass(frozen=True)
+class CostLine:
+    key: str
+    description: str
+    quantity: float
+    unit: str
+    unit_price: float | None
+    total: float | None
+    life_years: float
+    replaced_at: tuple[float, ...]  # years
+    replacement_pw: float | None  # present worth of its replacements
+
+
+@dataclass(frozen=True)
+class LifecycleCost:
+    currency: str
+    lines: tuple[CostLine, ...]
+    missing: tuple[str, ...]  # part keys without a price
+    parts: float | None
+    installation: float | None
+    capital: float | None
+    upkeep_yearly: float | None
+    upkeep_pw: float | None
+    replacements_pw: float | None
+    lcc: float | None
+    energy_kwh_year: float
+    energy_pw_kwh: float  # discounted energy over the life, kWh
+    cost_per_kwh: float | None
+    pwf_upkeep: float
+    pwf_energy: float
+    economics: Economics
+    battery_life_years: float
+    battery_life_source: str
+    served_fraction: float
+    reasons: dict[str, Reason] = field(default_factory=dict)
+
+    @property
+    def complete(self) -> bool:
+        return not self.missing
+
+    def message(self) -> str:
+        if not self.missing:
+            return ""
+        return ("no price for: " + ", ".join(self.missing) + ". Add them to the project's "
+                "[[prices]] list, or fill in `offgrid prices PROJECT --template` and load it with "
+                "`offgrid prices PROJECT --import FILE.csv`.")
+
+
+def battery_life(project: Project, reliability=None) -> tuple[float, str]:
+    """Battery service life [years] and where it came from: project, simulation or preset."""
+    e = project.economics
+    if e.battery_life_years is not None:
+        return float(e.battery_life_years), "project file (economics.battery_life_years)"
+    sim_life = None
+    rel = getattr(reliability, "reliability", reliability)  # a whole study or its record
+    if rel is not None:
+        wear = getattr(rel, "wear", None)
+        sim_life = getattr(wear, "expected_life_years", None) if wear is not None else None
+        for name in ("battery_life_years", "battery_life"):
+            if sim_life is None:
+                sim_life = getattr(rel, name, None)
+    if isinstance(sim_life, int | float) and math.isfinite(sim_life) and sim_life > 0:
+        return float(sim_life), "reliability simulation (battery wear)"
+    return BATTERY_LIFE_PRESET_YEARS[project.battery.chemistry], BATTERY_LIFE_SOURCE
+
+
+def delivered_energy_kwh_year(design: SystemDesign, served_fraction: float = 1.0) -> float:
+    """Energy delivered to the appliances in a year [kWh]: daily AC + DC by month x days.
+
+    At the appliances (no growth margin, no inverter or battery losses), times the share
+    of demand served (1 without a simulation).
+    """
+    daily = np.asarray(design.loads.ac_energy_wh) + np.asarray(design.loads.dc_energy_wh)
+    return float((daily * DAYS_IN_MONTH).sum() / 1000.0 * served_fraction)
+
+
+def _served_fraction(reliability) -> float:
+    rel = getattr(reliability, "reliability", reliability)
+    if rel is None:
+        return 1.0
+    for name in ("unmet_fraction", "unmet_energy_fraction"):
+        v = getattr(rel, name, None)
+        if isinstance(v, int | float) and math.isfinite(v) and 0 <= v <= 1:
+            return 1.0 - float(v)
+    return 1.0
+
+
+def lifecycle_cost(project: Project, design: SystemDesign, bom: tuple[BomLine, ...],
+                   reliability=None) -> LifecycleCost:
+    """Capital, replacements, upkeep and the lifecycle cost per kWh delivered."""
+    e = project.economics
+    d = e.discount_rate_pct / 100.0
+    i = e.inflation_pct / 100.0
+    n = float(e.life_years)
+    life_b, life_src = battery_life(project, reliability)
+    lives = {"module": e.module_life_years, "battery": life_b,
+             "controller": e.controller_life_years, "inverter": e.inverter_life_years}
+    lines: list[CostLine] = []
+    missing: list[str] = []
+    for ln in bom:
+        price = price_for(ln.key, project.prices)
+        life = float(lives.get(ln.kind, e.module_life_years))
+        years = replacement_years(life, n)
+        total = None if price is None else price * ln.quantity
+        rep = None if total is None else float(total * np.sum(present_worth_single(years, d, i)))
+        if price is None:
+            missing.append(ln.key)
+        lines.append(CostLine(ln.key, ln.description, ln.quantity, ln.unit, price, total, life,
+                              years, rep))
+    pwf_up = present_worth_factor(n, i, d)
+    pwf_e = present_worth_factor(n, 0.0, d)
+    served = _served_fraction(reliability)
+    energy = delivered_energy_kwh_year(design, served)
+    reasons = {
+        "costs.capital": Reason("sum of quantity x unit price over the bill of materials, plus "
+                                "installation as a share of the parts",
+                                (("installation", fmt(e.installation_pct, "%")),),
+                                "common practice, no source"),
+        "costs.replacements_pw": Reason(
+            "sum over parts and replacement years n < N of part cost x ((1 + i)/(1 + d))^n",
+            (("discount_rate", fmt(e.discount_rate_pct, "%")),
+             ("inflation", fmt(e.inflation_pct, "%")), ("life", fmt(n, "years")),
+             ("battery_life", fmt(life_b, "years"))),
+            "Duffie & Beckman 4th ed. sec. 11.4 (single-payment present worth)"),
+        "costs.upkeep_pw": Reason(
+            "yearly upkeep x PWF(N, i, d) = upkeep x 1/(d - i) [1 - ((1 + i)/(1 + d))^N]",
+            (("upkeep", fmt(e.om_pct_of_capital, "% of capital per year")),
+             ("PWF", fmt(pwf_up))), "Duffie & Beckman 4th ed. eq. 11.5.1"),
+        "costs.lcc": Reason("capital + present worth of replacements + present worth of upkeep",
+                            (), "Duffie & Beckman 4th ed. ch. 11 (life-cycle cost)"),
+        "costs.cost_per_kwh": Reason(
+            "lifecycle cost / (energy delivered per year x PWF(N, 0, d))",
+            (("energy", fmt(energy, "kWh/year")), ("PWF(N, 0, d)", fmt(pwf_e))),
+            "Duffie & Beckman 4th ed. ch. 11 (levelised over the discounted energy)"),
+    }
+    if missing:
+        return LifecycleCost(e.currency, tuple(lines), tuple(missing), None, None, None, None,
+                             None, None, None, energy, energy * pwf_e, None, pwf_up, pwf_e, e,
+                             life_b, life_src, served, reasons)
+    parts = float(sum(ln.total or 0.0 for ln in lines))
+    install = parts * e.installation_pct / 100.0
+    capital = parts + install
+    upkeep = capital * e.om_pct_of_capital / 100.0
+    upkeep_pw = upkeep * pwf_up
+    rep_pw = float(sum(ln.replacement_pw or 0.0 for ln in lines))
+    lcc = capital + rep_pw + upkeep_pw
+    per_kwh = lcc / (energy * pwf_e) if energy > 0 and pwf_e > 0 else None
+    return LifecycleCost(e.currency, tuple(lines), (), parts, install, capital, upkeep,
+                         upkeep_pw, rep_pw, lcc, energy, energy * pwf_e, per_kwh, pwf_up, pwf_e,
+                         e, life_b, life_src, served, reasons)
+
+
+def tradeoff_prices(project: Project, bom: tuple[BomLine, ...]) -> dict[str, float] | None:
+    """Array price per W and battery price per kWh from the price list, for the trade-off.
+
+    None unless both the module and the battery unit are priced.
+    """
+    m, b = project.module, project.battery
+    mod = next((ln for ln in bom if ln.kind == "module"), None)
+    bat = next((ln for ln in bom if ln.kind == "battery"), None)
+    pm = price_for(mod.key, project.prices) if mod else None
+    pb = price_for(bat.key, project.prices) if bat else None
+    if pm is None or pb is None:
+        return None
+    return {"array_per_w": pm / m.pmax_w,
+            "battery_per_kwh": pb / (b.nominal_voltage_v * b.capacity_ah / 1000.0)}
+
+
+def money(value: float | None, currency: str = "") -> str:
+    """``1234.5 -> '1,234.50 USD'``; '-' for None."""
+    if value is None:
+        return "-"
+    return f"{value:,.2f} {currency}".strip()

@@ -1,0 +1,258 @@
+"""Design variants: a few overrides of the project, designed and compared side by side.
+
+A :class:`~offgrid.project.model.Variant` holds ``overrides``: dotted paths of the
+saved project (``controller.type``, ``battery.chemistry``, ``choices.system_voltage``,
+``loads[2].hours_per_day``; list items counted from 1 as in the file) mapped to
+values.  Nested tables (TOML ``[variants.overrides.battery]``) mean the same as
+dotted keys.  :func:`apply_variant` returns a new project; :func:`compare_variants`
+designs the base project and every variant and lines their figures up, marking
+each figure that differs from the base.
+"""
+
+from __future__ import annotations
+
+import copy
+import math
+import re
+from collections.abc import Callable
+from dataclasses import dataclass, is_dataclass
+from pathlib import Path
+from typing import Any, get_type_hints
+
+from offgrid.project.model import Project, Variant
+from offgrid.result import DesignError, SystemDesign
+
+MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+_INDEX = re.compile(r"^([A-Za-z_][A-Za-z0-9_]*)\[(\d+)\]$")
+
+
+def flatten_overrides(overrides: dict[str, Any], prefix: str = "") -> list[tuple[str, Any]]:
+    """``{"battery": {"chemistry": "lifepo4"}}`` -> ``[("battery.chemistry", "lifepo4")]``."""
+    out: list[tuple[str, Any]] = []
+    for key, value in overrides.items():
+        path = f"{prefix}.{key}" if prefix else str(key)
+        if isinstance(value, dict):
+            out += flatten_overrides(value, path)
+        else:
+            out.append((path, value))
+    return out
+
+
+def _step(obj: Any, part: str, where: str) -> Any:
+    m = _INDEX.match(part)
+    name, index = (m.group(1), int(m.group(2))) if m else (part, None)
+    if not is_dataclass(obj) or not hasattr(obj, name):
+        raise ValueError(f"{where}: '{name}' is not a field here")
+    value = getattr(obj, name)
+    if index is None:
+        return value
+    if not isinstance(value, list) or not 1 <= index <= len(value):
+        size = len(value) if isinstance(value, list) else 0
+        raise ValueError(f"{where}: {name}[{index}] does not exist ({name} has {size} item(s), "
+                         "counted from 1)")
+    return value[index - 1]
+
+
+def set_path(project: Project, path: str, value: Any, where: str = "") -> None:
+    """Set the field at a dotted ``path`` of ``project`` in place, converting and checking type."""
+    from offgrid.project.store import _Reader  # the store's own type conversion
+
+    where = where or path
+    parts = path.split(".")
+    obj: Any = project
+    for part in parts[:-1]:
+        obj = _step(obj, part, where)
+    last = parts[-1]
+    if _INDEX.match(last) or not is_dataclass(obj) or not hasattr(obj, last):
+        raise ValueError(f"{where}: '{last}' is not a field that a variant can set")
+    if last in ("extra", "variants"):
+        raise ValueError(f"{where}: a variant cannot change '{last}'")
+    hint = get_type_hints(type(obj))[last]
+    reader = _Reader()
+    converted = reader.convert(hint, value, path)
+    if reader.problems:
+        raise ValueError(f"{where}: {reader.problems[0].message}")
+    setattr(obj, last, converted)
+
+
+def apply_variant(project: Project, variant: Variant) -> Project:
+    """A new project: ``project`` with the variant's overrides applied and checked.
+
+    Raises ValueError naming the variant and the path when an override does not fit.
+    """
+    from offgrid.project.validate import validate_project
+
+    out = copy.deepcopy(project)
+    out.variants = []
+    for path, value in flatten_overrides(variant.overrides):
+        set_path(out, path, value, where=f"variant '{variant.name}': {path}")
+    problems = validate_project(out)
+    if problems:
+        raise ValueError(f"variant '{variant.name}': " + "; ".join(str(p) for p in problems))
+    return out
+
+
+# ----------------------------------------------------------------------------- comparison
+
+@dataclass(frozen=True)
+class VariantColumn:
+    name: str
+    note: str
+    overrides: tuple[tuple[str, str], ...]
+    project: Project | None
+    design: SystemDesign | None
+    error: str | None  # why the variant could not be designed (or applied)
+    cost: Any = None  # LifecycleCost or None
+    reliability: Any = None
+
+
+@dataclass(frozen=True)
+class ComparisonRow:
+    label: str
+    unit: str
+    values: tuple[float | str | None, ...]  # one per column; None: not available
+    texts: tuple[str, ...]
+    differs: tuple[bool, ...]  # True where the value differs from the first column
+    group: str = "figures"  # "choices", "figures", "cost" or "reliability"
+    path: str | None = None
+
+
+@dataclass(frozen=True)
+class VariantComparison:
+    columns: tuple[VariantColumn, ...]
+    rows: tuple[ComparisonRow, ...]
+
+    def row(self, label: str) -> ComparisonRow | None:
+        return next((r for r in self.rows if r.label == label), None)
+
+
+def _get_path(obj: Any, path: str) -> Any:
+    for part in path.split("."):
+        obj = _step(obj, part, path)
+    return obj
+
+
+def _same(a: Any, b: Any) -> bool:
+    if isinstance(a, int | float) and isinstance(b, int | float):
+        return math.isclose(float(a), float(b), rel_tol=1e-9, abs_tol=1e-9)
+    return a == b
+
+
+def _show(value: Any, digits: int | None) -> str:
+    """Text of a compared value; ``digits=None`` shows numbers as typed (choices)."""
+    if value is None:
+        return "-"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, float):
+        return f"{value:g}" if digits is None else f"{value:,.{digits}f}"
+    return str(value)
+
+
+#: Figures compared: label, unit, digits, getter from (design, cost, reliability).
+FIGURE_ROWS: tuple[tuple[str, str, int, str, Callable[..., Any]], ...] = (
+    ("Design month", "", 0, "site.design_month",
+     lambda d, c, r: MONTHS[d.site.design_month - 1]),
+    ("System voltage", "V", 0, "battery.system_voltage_v", lambda d, c, r:
+     d.battery.system_voltage_v),
+    ("Array power", "W", 0, "array.power_w", lambda d, c, r: d.array.power_w),
+    ("Modules", "", 0, "array.module_count", lambda d, c, r:
+     f"{d.array.modules_series} x {d.array.modules_parallel}"),
+    ("Derates together", "", 3, "array.derate_total", lambda d, c, r: d.array.derate_total),
+    ("Battery bank", "Ah", 0, "battery.capacity_ah", lambda d, c, r: d.battery.capacity_ah),
+    ("Battery usable", "kWh", 2, "battery.usable_kwh", lambda d, c, r: d.battery.usable_kwh),
+    ("Battery units", "", 0, "battery.unit_count", lambda d, c, r: d.battery.unit_count),
+    ("Controller", "A", 0, "controller.current_a", lambda d, c, r:
+     f"{d.controller.count} x {d.controller.current_a:g} {d.controller.type.upper()}"),
+    ("Inverter", "W", 0, "inverter.continuous_w", lambda d, c, r:
+     d.inverter.continuous_w if d.inverter.needed else "none"),
+    ("Warnings", "", 0, "warnings", lambda d, c, r: len(d.warnings)),
+)
+COST_ROWS: tuple[tuple[str, int, str], ...] = (
+    ("Capital cost", 0, "capital"),
+    ("Lifecycle cost", 0, "lcc"),
+    ("Cost per kWh delivered", 3, "cost_per_kwh"),
+    ("Battery life", 1, "battery_life_years"),
+)
+RELIABILITY_ROWS: tuple[tuple[str, str, int, str], ...] = (
+    ("Loss-of-load probability", "%", 2, "lolp"),
+    ("Unmet energy", "%", 2, "unmet_fraction"),
+)
+
+
+def _row(label: str, unit: str, digits: int | None, values: list[Any], group: str,
+         path: str | None = None) -> ComparisonRow:
+    base = values[0]
+    differs = tuple(i > 0 and v is not None and not _same(v, base) for i, v in enumerate(values))
+    return ComparisonRow(label, unit, tuple(values), tuple(_show(v, digits) for v in values),
+                         differs, group, path)
+
+
+def compare_variants(project: Project, base: Path | None = None,
+                     simulate: Callable[[Project, SystemDesign], Any] | None = None,
+                     with_costs: bool = True) -> VariantComparison:
+    """Design the project and each of its variants; line up choices, figures, cost, reliability.
+
+    ``simulate(project, design)``, when given, returns a reliability record (with ``lolp``
+    and ``unmet_fraction`` as fractions) for each column.  A variant that cannot be applied
+    or designed keeps its column with the reason in ``error``.
+    """
+    from offgrid.report.bom import bill_of_materials
+    from offgrid.report.costs import lifecycle_cost
+    from offgrid.sizing import design as run_design
+
+    columns: list[VariantColumn] = []
+    entries = [Variant(name="Base design", overrides={}, note="the project as saved")]
+    entries += list(project.variants)
+    for k, v in enumerate(entries):
+        shown = tuple((p, _show(val, None)) for p, val in flatten_overrides(v.overrides))
+        try:
+            proj = project if k == 0 else apply_variant(project, v)
+        except ValueError as exc:
+            columns.append(VariantColumn(v.name, v.note, shown, None, None, str(exc)))
+            continue
+        try:
+            des = run_design(proj, base)
+        except DesignError as exc:
+            columns.append(VariantColumn(v.name, v.note, shown, proj, None, f"cannot design: "
+                                         f"{exc}"))
+            continue
+        rel = simulate(proj, des) if simulate is not None else None
+        cost = lifecycle_cost(proj, des, bill_of_materials(proj, des), rel) if with_costs \
+            else None
+        columns.append(VariantColumn(v.name, v.note, shown, proj, des, None, cost, rel))
+
+    rows: list[ComparisonRow] = []
+    paths: list[str] = []
+    for v in project.variants:
+        for p, _ in flatten_overrides(v.overrides):
+            if p not in paths:
+                paths.append(p)
+    for p in paths:
+        vals = []
+        for col in columns:
+            try:
+                vals.append(_get_path(col.project, p) if col.project is not None else None)
+            except ValueError:
+                vals.append(None)
+        rows.append(_row(p, "", None, vals, "choices", p))
+    for label, unit, digits, path, get in FIGURE_ROWS:
+        vals = [get(c.design, c.cost, c.reliability) if c.design is not None else None
+                for c in columns]
+        rows.append(_row(label, unit, digits, vals, "figures", path))
+    if with_costs:
+        currency = project.economics.currency
+        for label, digits, attr in COST_ROWS:
+            vals = [getattr(c.cost, attr) if c.cost is not None else None for c in columns]
+            unit = "years" if attr == "battery_life_years" else currency
+            if attr == "cost_per_kwh":
+                unit = f"{currency}/kWh"
+            rows.append(_row(label, unit, digits, vals, "cost"))
+    if simulate is not None:
+        for label, unit, digits, attr in RELIABILITY_ROWS:
+            vals = []
+            for c in columns:
+                v = getattr(c.reliability, attr, None) if c.reliability is not None else None
+                vals.append(float(v) * 100.0 if isinstance(v, int | float) else None)
+            rows.append(_row(label, unit, digits, vals, "reliability"))
+    return VariantComparison(tuple(columns), tuple(rows))
