@@ -180,7 +180,7 @@ PARTS_FIELDS: tuple[Field | str, ...] = (
           ("voc_v", "Voc", "float", "V"),
           ("isc_a", "Isc", "float", "A"),
           ("alpha_isc_pct_per_c", "Isc temp. coefficient", "float", "%/C"),
-          ("beta_voc_pct_per_c", "Voc temp. coefficient", "float", "%/C"),
+          ("beta_voc_pct_per_c", "Voc temp. coefficient", "auto_float", "%/C"),
           ("gamma_pmax_pct_per_c", "Pmax temp. coefficient", "float", "%/C"),
           ("cells_in_series", "Cells in series", "int", ""),
           ("area_m2", "Area", "float", "m2"),

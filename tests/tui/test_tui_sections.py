@@ -101,7 +101,8 @@ async def test_place_tilt_auto_and_value(state):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
-        assert "automatic \u2192 10 deg" in screen_text(app)
+        tilt = app.session.design.site.tilt_deg
+        assert f"automatic \u2192 {tilt:.0f} deg" in screen_text(app)
         await edit_field(pilot, "place", "site.tilt_deg", "15")
         assert app.session.project.site.tilt_deg == 15.0
         assert app.session.design.site.tilt_deg == 15.0
@@ -119,8 +120,11 @@ async def test_place_pick_climate_and_type_months(state):
         work.action_goto("place")
         await pilot.press("c")
         await pilot.pause()
-        assert isinstance(app.screen, ChoiceDialog)
-        await pilot.press("enter")  # the first bundled climate
+        dialog = app.screen
+        assert isinstance(dialog, ChoiceDialog)
+        index = [v for v, _label in dialog.options].index(("ref", "kisanga-ridge-demo"))
+        dialog.query_one("#choices").highlighted = index
+        await pilot.press("enter")
         await pilot.pause()
         project = app.session.project
         assert project.climate.ref == "kisanga-ridge-demo"
@@ -387,43 +391,66 @@ async def test_every_figure_row_has_a_reason(state):
 # ----------------------------------------------------------------------------- wires
 
 
-async def test_wires_shows_main_circuits(state):
+async def test_wires_without_electrical_design_shows_main_circuits(state):
+    import dataclasses
+
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        d = dataclasses.replace(app.session.design, electrical=None)
+        app.session.outcome.design = d
+        app.work.action_goto("wires")
+        await pilot.pause()
+        text = screen_text(app)
+        assert "Array string, cold open-circuit voltage" in text
+        assert f"{d.array.string_voc_cold_v:.1f} V" in text
+
+
+async def test_wires_runs_and_length_edit(state):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
         await pilot.press("5")
         await pilot.pause()
+        runs = app.session.design.electrical.wires
         text = screen_text(app)
-        assert "Array string, cold open-circuit voltage" in text
-        assert f"{app.session.design.array.string_voc_cold_v:.1f} V" in text
+        assert "array to controller" in text and runs[1].size in text
+        table = app.work.current.table
+        table.move_cursor(row=1, column=3)  # the array run's length
+        await pilot.press("enter")
+        await type_into(pilot, "60")
+        assert app.session.project.wiring.array_run_m == 60.0
+        longer = app.session.design.electrical.wires[1]
+        assert longer.length_m == 60.0 and longer.area_mm2 >= runs[1].area_mm2
+        table.move_cursor(row=1, column=3)
+        await pilot.press("enter")
+        await type_into(pilot, "5000")
+        assert "out of range" in screen_text(app)
+        assert app.session.project.wiring.array_run_m == 60.0
+        await pilot.press("escape")
+        table.move_cursor(row=1, column=4)  # its size: why
+        await pilot.press("w")
+        await pilot.pause()
+        assert "NEC" in screen_text(app) and "ampacity" in screen_text(app)
+        await pilot.press("escape", "p")
+        await pilot.pause()
+        assert "Fuses, breakers and disconnects" in screen_text(app)
 
 
-async def test_wires_reads_runs_when_the_engine_gives_them(state):
-    import dataclasses
-
-    @dataclasses.dataclass(frozen=True)
-    class Run:
-        name: str
-        current_a: float
-        length_m: float
-        size_mm2: float
-        drop_pct: float
-        fuse_a: float
-
+async def test_wires_dc_load_length_is_kept_by_load_name(state):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
-        d = app.session.design
-        Wired = dataclasses.make_dataclass(
-            "Wired", [("wires", tuple, dataclasses.field(default=()))], bases=(type(d),),
-            frozen=True)
-        fields = {f.name: getattr(d, f.name) for f in dataclasses.fields(d)}
-        app.session.outcome.design = Wired(**fields, wires=(Run("Array to controller", 46.9,
-                                                                12.0, 16.0, 1.9, 63.0),))
-        app.work.action_goto("wires")
+        await pilot.press("5")
         await pilot.pause()
-        text = screen_text(app)
-        assert "Array to controller" in text and "1 cable run(s)" in text
+        runs = app.session.design.electrical.wires
+        row = next(i for i, r in enumerate(runs) if r.key == "load1")
+        table = app.work.current.table
+        table.move_cursor(row=row, column=3)
+        await pilot.press("enter")
+        await type_into(pilot, "25")
+        name = app.session.project.loads[0].name
+        assert app.session.project.wiring.dc_load_runs_m == {name: 25.0}
 
 
 # ----------------------------------------------------------------------------- cautions
@@ -442,7 +469,13 @@ async def test_cautions_lists_warnings_and_safety(state):
         await pilot.pause()
         text = screen_text(app)
         assert "WARNING" in text and "parallel" in text
-        assert "defers to local electrical codes" in text
+        await pilot.press("end")
+        await pilot.pause()
+        assert "defers to local electrical codes" in screen_text(app)
+        section = app.work.current
+        index = next(i for i, (_p, n, _m) in enumerate(section._targets)
+                     if n is not None and n.code == "lead-acid-parallel")
+        section.items.highlighted = index
         await pilot.press("enter")  # to the figure concerned
         await pilot.pause()
         assert app.work.section == "sizes"
