@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
 
 from offgrid.project.model import Load
@@ -574,3 +576,67 @@ async def test_demo_design_matches_engine(state):
         expected = design(load_project(demo_project_path()))
         assert app.session.design.to_dict() == expected.to_dict()
         assert isinstance(app.session.project.loads[0], Load)
+
+
+async def wait_until(pilot, condition, seconds: float = 20.0) -> None:
+    """Let worker threads finish: pause until ``condition()`` holds."""
+    import time
+
+    end = time.monotonic() + seconds
+    while not condition() and time.monotonic() < end:
+        await pilot.pause(0.1)
+    assert condition()
+
+
+async def test_place_imports_a_weather_file_in_the_background(state, tmp_path):
+    # NREL TMY3 sample for Greensboro NC shipped with pvlib (an open dataset)
+    import pvlib
+
+    from offgrid.tui.screens.dialogs import MessageDialog
+
+    tmy3 = Path(pvlib.__file__).resolve().parent / "data" / "723170TYA.CSV"
+    app = make_app(state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        app.new_blank()
+        await pilot.pause()
+        app.work.action_goto("place")
+        await pilot.press("c")
+        await pilot.pause()
+        dialog = app.screen
+        index = [v for v, _label in dialog.options].index(("file", ""))
+        dialog.query_one("#choices").highlighted = index
+        await pilot.press("enter")
+        await pilot.pause()
+        await type_into(pilot, str(tmy3))
+        await wait_until(pilot, lambda: isinstance(app.screen, MessageDialog))
+        assert "Climate imported" in screen_text(app)
+        climate = app.session.project.climate.inline
+        assert climate is not None and len(climate.insolation_kwh_m2_day) == 12
+        assert abs(app.session.project.site.latitude_deg - 36.1) < 0.1  # from the file
+        await pilot.press("escape")
+
+
+async def test_place_climate_check_offers_a_fix(state):
+    from offgrid.tui.screens.dialogs import ChoiceDialog
+
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        # insolation typed in MJ/m2/day by mistake (x 3.6): above 12 is refused outright,
+        # so use values that fit 0-12 but exceed the site's clear-sky limit
+        await pilot.press("m")
+        await pilot.pause()
+        table = app.work.current.months
+        table.move_cursor(row=0, column=1)
+        await pilot.press("enter")
+        await type_into(pilot, " ".join(["11.5"] * 12))
+        await pilot.press("k")
+        await wait_until(pilot, lambda: isinstance(app.screen, ChoiceDialog))
+        dialog = app.screen
+        assert any(v is not None for v, _label in dialog.options), "no fix offered"
+        index = next(i for i, (v, _l) in enumerate(dialog.options) if v is not None)
+        dialog.query_one("#choices").highlighted = index
+        await pilot.press("enter")
+        await pilot.pause()
+        assert max(app.session.project.climate.inline.insolation_kwh_m2_day) < 11.5

@@ -7,6 +7,7 @@ import re
 from pathlib import Path
 
 from rich.text import Text
+from textual import work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
@@ -37,6 +38,7 @@ ROWS = (
     ("temp_min_c", "Min temp C", "mean daily minimum, C (optional: '-' clears the row)"),
 )
 ARRAY_ROW = ("poa", "On array", "sun on the tilted array, computed")
+WEATHER_SUFFIXES = (".toml", ".epw", ".csv", ".tm2", ".tmy2")
 
 
 def climate_name(project: Project) -> str:
@@ -102,6 +104,7 @@ class PlaceSection(Section):
     BINDINGS = [
         Binding("c", "choose_climate", "Climate", id="place.climate"),
         Binding("m", "own_months", "Type months", id="place.months"),
+        Binding("k", "check_climate", "Check", id="place.check"),
     ]
 
     def compose(self) -> ComposeResult:
@@ -306,7 +309,8 @@ class PlaceSection(Section):
                 options.append((("bad", name), f"{name}: cannot be read ({exc})"))
         options.append((("own", ""), "Type twelve monthly values (starts from the current "
                         "climate)"))
-        options.append((("file", ""), "A climate file of your own (.toml)..."))
+        options.append((("file", ""), "Import a weather file: EPW, TMY3, TMY2, monthly CSV, or "
+                        "an offgrid climate (.toml)..."))
         current = self.session.project.climate
         now = ("ref", current.ref) if current.ref else ("own", "") if current.inline else None
         self.app.push_screen(ChoiceDialog("Climate for this site", options, now),
@@ -323,23 +327,132 @@ class PlaceSection(Section):
         elif kind == "own":
             self.action_own_months()
         elif kind == "file":
-            self.app.push_screen(PathDialog("Climate file", suffixes=(".toml",),
-                                            note="A climate file in offgrid's format."),
-                                 self._file_chosen)
+            self.app.push_screen(PathDialog(
+                "Climate or weather file", suffixes=WEATHER_SUFFIXES,
+                note="An offgrid climate (.toml) is used as it is; an hourly weather year "
+                     "(EPW, TMY3, TMY2) or a monthly CSV is reduced to twelve months and "
+                     "checked."), self._file_chosen)
 
     def _file_chosen(self, path: Path | None) -> None:
         if path is None:
             return
-        from offgrid.climate.files import load_climate
+        from offgrid.tui.screens.dialogs import MessageDialog
+
+        path = path.resolve()
+        if path.suffix.lower() == ".toml":
+            from offgrid.climate.files import load_climate
+
+            try:
+                load_climate(path)
+            except ValueError as exc:
+                self.app.push_screen(MessageDialog("That climate file cannot be used", str(exc)))
+                return
+            self._use_ref(str(path))
+            return
+        self.app.notify(f"Importing {printable(path.name)}...", timeout=3, markup=False)
+        self._import(path)
+
+    @work(thread=True, exclusive=True, group="climate-import")
+    def _import(self, path: Path) -> None:
+        """Read and reduce a weather file (pvlib readers: slow to load, so off the UI thread)."""
+        try:
+            from offgrid.climate.importers import import_weather_file
+
+            result = import_weather_file(path)
+        except (ValueError, OSError, ImportError) as exc:
+            self.app.call_from_thread(self._import_failed, path, str(exc))
+            return
+        self.app.call_from_thread(self._imported, path, result)
+
+    def _import_failed(self, path: Path, message: str) -> None:
+        from offgrid.tui.screens.dialogs import MessageDialog
+
+        self.app.push_screen(MessageDialog(f"{printable(path.name)} was not imported",
+                                           message + "\n\nThe project was not changed."))
+
+    def _imported(self, path: Path, result) -> None:
+        from offgrid.tui.screens.dialogs import MessageDialog
+
+        climate = result.climate
+
+        def put(p: Project) -> None:
+            p.climate = ClimateChoice(inline=climate)
+            if p.site.latitude_deg == 0 and p.site.longitude_deg == 0 and \
+                    climate.latitude_deg is not None:
+                p.site.latitude_deg = climate.latitude_deg
+                p.site.longitude_deg = climate.longitude_deg or 0.0
+                p.site.elevation_m = climate.elevation_m or p.site.elevation_m
+            checked_climate(p.climate.inline)
 
         try:
-            load_climate(path.resolve())
-        except ValueError as exc:
-            from offgrid.tui.screens.dialogs import MessageDialog
-
-            self.app.push_screen(MessageDialog("That climate file cannot be used", str(exc)))
+            self.session.change(put, focus="climate")
+        except EditRejected as exc:
+            self._import_failed(path, self.problems_text(exc))
             return
-        self._use_ref(str(path.resolve()))
+        self.work.changed(f"Climate imported from {printable(path.name)}")
+        lines = [f"Twelve monthly values from {path.name} ({result.kind}) are now this "
+                 "project's own climate.", f"Source: {climate.source}"]
+        lines += [f"Note: {n}" for n in result.notes]
+        lines += [f"{f.severity.upper()}: {f.message}" for f in result.findings]
+        self.app.push_screen(MessageDialog("Climate imported", "\n".join(lines)))
+
+    # ------------------------------------------------------------------ checks
+    def action_check_climate(self) -> None:
+        climate = self._climate(self.session)
+        if climate is None:
+            self.app.notify("No climate to check yet: press c to choose one.", timeout=3)
+            return
+        self.app.notify("Checking the climate against the sun's geometry...", timeout=2)
+        site = self.session.project.site
+        self._check(climate, site.latitude_deg, site.longitude_deg, site.elevation_m)
+
+    @work(thread=True, exclusive=True, group="climate-check")
+    def _check(self, climate, lat: float, lon: float, elev: float) -> None:
+        try:
+            from offgrid.climate.checks import check_climate
+
+            findings = check_climate(climate, lat, lon, elev)
+        except (ValueError, ImportError) as exc:
+            self.app.call_from_thread(self._import_failed, Path("climate"), str(exc))
+            return
+        self.app.call_from_thread(self._checked, findings)
+
+    def _checked(self, findings) -> None:
+        from offgrid.tui.screens.dialogs import ChoiceDialog, MessageDialog
+
+        if not findings:
+            self.app.push_screen(MessageDialog("Climate check", "No problems found: the sun "
+                                               "values fit the site's clear-sky limits and the "
+                                               "temperatures agree with each other."))
+            return
+        options: list[tuple[object, str]] = []
+        for f in findings:
+            month = f" ({MONTHS[f.month - 1]})" if f.month else ""
+            options.append((None, f"{f.severity.upper()}{month}: {f.message}"))
+            for i, fix in enumerate(f.fixes):
+                options.append(((f, i), f"   fix: {fix.label}"))
+
+        def chosen(value) -> None:
+            if not value:
+                return
+            finding, i = value
+            from offgrid.climate.checks import apply_fix
+
+            def put(p: Project) -> None:
+                self._make_own(p)
+                p.climate = ClimateChoice(inline=apply_fix(p.climate.inline, finding, i))
+                checked_climate(p.climate.inline)
+
+            try:
+                self.session.change(put, focus="climate")
+            except EditRejected as exc:
+                self.app.notify(self.problems_text(exc), severity="error", markup=False)
+                return
+            self.work.changed(f"Climate fixed: {finding.fixes[i].label}")
+
+        self.app.push_screen(ChoiceDialog("Climate check: what was found (Enter on a fix "
+                                          "applies it to your own copy)", options,
+                                          note="u undoes a fix"), chosen)
 
     def _use_ref(self, ref: str) -> None:
         from offgrid.climate.files import load_climate
