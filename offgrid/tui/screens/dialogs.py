@@ -162,8 +162,9 @@ class PathDialog(Dialog):
     """Type a file path (Right arrow accepts the completion); returns the Path or None."""
 
     def __init__(self, title: str, value: str = "", suffixes: tuple[str, ...] = (".toml",),
-                 must_exist: bool = True, note: str = "") -> None:
+                 must_exist: bool = True, note: str = "", verb: str | None = None) -> None:
         super().__init__()
+        self.verb = verb or ("opens" if must_exist else "saves")
         self.title_text = title
         self.value = value
         self.suffixes = suffixes
@@ -179,8 +180,8 @@ class PathDialog(Dialog):
                         placeholder="path/to/file" + self.suffixes[0])
             yield Static(id="path-problem", classes="bad")
             yield Static(id="path-list", classes="path-list")
-            yield Static(Text(f"In {Path.cwd()}\nRight arrow completes \u00b7 Enter opens "
-                              "\u00b7 Esc back", style="dim"))
+            yield Static(Text(f"In {Path.cwd()}\nRight arrow completes \u00b7 Enter "
+                              f"{self.verb} \u00b7 Esc back", style="dim"))
 
     def on_mount(self) -> None:
         box = self.query_one(Input)

@@ -15,10 +15,10 @@ from textual.widgets.option_list import Option
 from offgrid.tui.text import printable
 
 SCENARIOS = {
-    "household-kit": "a household kit: lights, phones, TV, fan, small fridge",
+    "household-kit": "a household: lights, phones, TV, fan, fridge",
     "rural-clinic": "a health post with a vaccine refrigerator",
     "primary-school": "a primary school, closed in August",
-    "water-pump": "a borehole pump, more water in the dry season",
+    "water-pump": "a borehole pump, more in the dry season",
     "radio-repeater": "a hill-top radio repeater",
 }
 

@@ -98,16 +98,19 @@ class WorkScreen(Screen):
         self.current.show(self.session)
         self.stale = {sid for sid, _t, _w in SECTIONS if sid != self.section}
 
-    def changed(self, note: str | None = None) -> None:
-        """After an accepted edit: recompute, redraw, and arm the recovery autosave."""
+    def changed(self, note: str | None = None, tell: bool = False) -> None:
+        """After an accepted edit: recompute, redraw, and arm the recovery autosave.
+
+        ``note`` says what changed; it is shown only with ``tell`` (the headline
+        already shows the effect of an ordinary edit).
+        """
         t0 = time.perf_counter()
         self.session.recompute()
         self.refresh_all()
         self.last_change_s = time.perf_counter() - t0
         self.app.project_changed()  # type: ignore[attr-defined]
-        if note and self.session.outcome.design is None:
-            self.app.notify(f"{note}. No design yet: {self.session.outcome.error}",
-                            severity="warning", markup=False, timeout=4)
+        if note and tell:
+            self.app.notify(note, markup=False, timeout=4)
 
     def replace_session(self, session: Session) -> None:
         self.session = session

@@ -129,6 +129,7 @@ class LoadsSection(Section):
             table.move_cursor(row=min(keep.row, n - 1), column=keep.column, animate=False)
         empty = self.query_one("#loads-empty", Static)
         empty.display = n == 0
+        table.styles.height = "auto" if n == 0 else "1fr"
         empty.update(Text("No appliances yet: press a to add one, or i to import a CSV list "
                           "(bundled examples are in load_profiles/).", style="italic"))
         self._months(session)
@@ -249,7 +250,7 @@ class LoadsSection(Section):
         if row is None:
             return
         at = self.session.duplicate_load(row)
-        self.work.changed("Appliance copied")
+        self.work.changed("Appliance copied", tell=True)
         self._go(at)
 
     def action_delete(self) -> None:
@@ -258,7 +259,7 @@ class LoadsSection(Section):
             return
         name = self.session.project.loads[row].name
         self.session.delete_load(row)
-        self.work.changed(f"Deleted '{printable(name)}' (u undoes)")
+        self.work.changed(f"Deleted '{printable(name)}' (u undoes)", tell=True)
         self._go(max(0, min(row, len(self.session.project.loads) - 1)))
 
     def action_move(self, step: int) -> None:
@@ -273,6 +274,7 @@ class LoadsSection(Section):
     # ------------------------------------------------------------------ CSV
     def action_import_csv(self) -> None:
         self.app.push_screen(PathDialog("Import a load list (CSV)", suffixes=(".csv",),
+                                        verb="imports",
                                         note="Columns: name, quantity, power_w, hours_per_day, "
                                         "ac_dc, duty_cycle, surge_w, months, critical"),
                              self._import_path)
@@ -306,13 +308,14 @@ class LoadsSection(Section):
         except EditRejected as exc:
             self.app.push_screen(MessageDialog("Not imported", self.problems_text(exc)))
             return
-        self.work.changed(f"{len(loads)} appliance line(s) imported from {printable(name)}")
+        self.work.changed(f"{len(loads)} appliance line(s) imported from {printable(name)}",
+                          tell=True)
         self._go(0, 0)
 
     def action_export_csv(self) -> None:
         stem = (self.session.path.stem if self.session.path else "loads") + "-loads.csv"
         self.app.push_screen(PathDialog("Export the load list (CSV)", stem, suffixes=(".csv",),
-                                        must_exist=False), self._export_path)
+                                        must_exist=False, verb="exports"), self._export_path)
 
     def _export_path(self, path: Path | None) -> None:
         if path is None:

@@ -328,7 +328,7 @@ class PlaceSection(Section):
             self.action_own_months()
         elif kind == "file":
             self.app.push_screen(PathDialog(
-                "Climate or weather file", suffixes=WEATHER_SUFFIXES,
+                "Climate or weather file", suffixes=WEATHER_SUFFIXES, verb="reads it",
                 note="An offgrid climate (.toml) is used as it is; an hourly weather year "
                      "(EPW, TMY3, TMY2) or a monthly CSV is reduced to twelve months and "
                      "checked."), self._file_chosen)
@@ -448,7 +448,7 @@ class PlaceSection(Section):
             except EditRejected as exc:
                 self.app.notify(self.problems_text(exc), severity="error", markup=False)
                 return
-            self.work.changed(f"Climate fixed: {finding.fixes[i].label}")
+            self.work.changed(f"Climate fixed: {finding.fixes[i].label}", tell=True)
 
         self.app.push_screen(ChoiceDialog("Climate check: what was found (Enter on a fix "
                                           "applies it to your own copy)", options,
@@ -474,7 +474,7 @@ class PlaceSection(Section):
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
         note = f"Climate: {printable(ref)}" + (f"; {moved[0]}" if moved else "")
-        self.work.changed(note)
+        self.work.changed(note, tell=True)
 
     def action_own_months(self) -> None:
         try:
@@ -482,7 +482,7 @@ class PlaceSection(Section):
         except EditRejected as exc:
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
-        self.work.changed("Now using your own twelve months: edit them in the table")
+        self.work.changed("Now using your own twelve months: edit them in the table", tell=True)
         self.months.focus()
 
     # ------------------------------------------------------------------ why

@@ -70,7 +70,7 @@ class Headline(Static):
 
     DEFAULT_CSS = """
     Headline { height: 1; padding: 0 1; background: $boost; }
-    Headline.-error { background: $error 30%; }
+    Headline.-error { background: $error 30%; height: auto; max-height: 3; }
     """
 
     def show(self, session: Session) -> None:
@@ -79,6 +79,7 @@ class Headline(Static):
         text = Text(no_wrap=True, overflow="ellipsis")
         if d is None:
             self.add_class("-error")
+            text = Text(no_wrap=False, overflow="ellipsis")
             text.append("\u2717 No design: ", style="bold")
             text.append(printable(out.error or "not computed yet"))
             self.update(text)
@@ -95,7 +96,11 @@ class Headline(Static):
                 text.append(" \u2502 ")
             text.append(label)
             text.append(value, style="bold")
-        n = len(d.warnings)
+        n = sum(1 for w in d.warnings if w.severity != "info")
+        notes = len(d.warnings) - n
         text.append(" \u2502 ")
         text.append(f"{n} warning{'s' if n != 1 else ''}", style="bold" if n else "")
+        more = f" +{notes} note{'s' if notes != 1 else ''}"
+        if notes and len(text) + len(more) <= max(20, (self.size.width or 80) - 2):
+            text.append(more)
         self.update(text)

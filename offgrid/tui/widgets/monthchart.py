@@ -80,7 +80,8 @@ class MonthChart(Widget):
             out.append(f"{bar(d, full, bar_w):<{bar_w}}", style="yellow" if not is_design else
                        "bold yellow")
             out.append(f"{short_number(d):>5} ", style=style)
-            out.append(f"{ratio:>6.2f}" if d > 0 else f"{'-':>6}", style=style)
+            shown = f"{ratio:.2f}" if ratio < 99.995 else f"{ratio:.0f}"
+            out.append(f"{shown:>6}" if d > 0 else f"{'-':>6}", style=style)
             out.append(" \u25c0 design" if is_design else "", style="bold")
             if i < 11:
                 out.append("\n")
