@@ -12,7 +12,8 @@ import importlib
 import sys
 
 #: Subcommand modules under offgrid.commands, in the order ``--help`` lists them.
-COMMANDS: tuple[str, ...] = ("size", "climate", "simulate", "report", "bom", "prices", "variants")
+COMMANDS: tuple[str, ...] = ("size", "climate", "simulate", "report", "bom", "prices",
+                             "variants", "plan")
 
 
 def build_parser() -> argparse.ArgumentParser:

@@ -1,0 +1,106 @@
+"""``offgrid plan``: design a whole community survey, choose standard kits, total the parts."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+
+from offgrid.commands.common import fail
+
+
+def register(sub) -> None:
+    p = sub.add_parser(
+        "plan", help="plan a community survey: a design per row, standard kits, totals",
+        description="Design every household and facility of a community survey (CSV), choose "
+                    "a few standard kits at the least cost (or oversize), and total the parts "
+                    "for procurement. Columns: docs/community-format.md.")
+    p.add_argument("survey", nargs="?", metavar="COMMUNITY.csv", help="community survey CSV")
+    p.add_argument("--demo", action="store_true",
+                   help="plan the bundled demonstration community (invented village)")
+    how = p.add_mutually_exclusive_group()
+    how.add_argument("--kits", type=int, metavar="K", help="use at most K standard kit types")
+    how.add_argument("--kit-cost", type=float, metavar="C",
+                     help="cost of each extra kit type; the number of kit types is chosen "
+                          "(default: the price list's kit_type price, else --kits 3)")
+    p.add_argument("--max-kits", type=int, default=12, metavar="N",
+                   help="most kit types tried with --kit-cost (default 12)")
+    p.add_argument("--objective", choices=("cost", "oversize"),
+                   help="what the kits minimise (default: cost with a price list, else "
+                        "oversize)")
+    p.add_argument("--prices", metavar="PRICES.csv", help="price list (default: the survey's "
+                   "'prices' setting)")
+    p.add_argument("--climate", metavar="CLIMATE", help="climate name or file, overriding the "
+                   "survey's 'climate' setting")
+    p.add_argument("--jobs", type=int, metavar="N", help="worker processes for many distinct "
+                   "rows (default: the CPUs available)")
+    p.add_argument("--energy-step", type=float, default=None, metavar="PCT",
+                   help="design surveyed energy and peak power at the next PCT %% step up, "
+                        "so near-equal rows share a design (default 1; 0: as given)")
+    p.add_argument("--rows", action="store_true", help="list every row in the summary")
+    p.add_argument("--json", action="store_true", help="print the plan as JSON")
+    p.add_argument("--report", metavar="FILE", help="also write the plan: .md (report), "
+                   ".csv (one line per row) or .json")
+    p.set_defaults(func=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    from offgrid.plan.community import demo_survey_path, plan_file
+    from offgrid.plan.kits import PlanError
+    from offgrid.plan.survey import SurveyError
+
+    if args.demo and args.survey:
+        fail("give either COMMUNITY.csv or --demo, not both")
+    path = demo_survey_path() if args.demo else args.survey
+    if not path:
+        fail("name a community survey CSV, or use --demo for the bundled demonstration "
+             "community")
+    if args.kits is not None and args.kits < 1:
+        fail(f"--kits {args.kits}: give 1 or more kit types")
+    if args.jobs is not None and args.jobs < 1:
+        fail("--jobs must be 1 or more")
+    if args.max_kits < 1:
+        fail("--max-kits must be 1 or more")
+    step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
+    report = Path(args.report) if args.report else None
+    if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
+        fail(f"--report {report}: the file name must end in .md, .csv or .json")
+    try:
+        plan = plan_file(path, kits=args.kits, kit_type_cost=args.kit_cost, prices=args.prices,
+                         objective=args.objective, climate=args.climate, jobs=args.jobs,
+                         k_max=args.max_kits, **step)
+    except (SurveyError, PlanError) as exc:
+        fail(str(exc))
+    if report is not None:
+        write_report(plan, report)
+    if args.json:
+        print(json.dumps(plan.to_dict(), indent=2, ensure_ascii=False))
+    else:
+        from offgrid.plan.text import summary_text
+
+        print(summary_text(plan, show_rows=True if args.rows else None))
+        if report is not None:
+            print(f"\nWritten: {report}")
+    if plan.bad_rows or plan.unmet:
+        print(f"offgrid: {len({p.line for p in plan.bad_rows})} row(s) left out, "
+              f"{len(plan.unmet)} cannot be met: see the lists above", file=sys.stderr)
+        return 1
+    return 0
+
+
+def write_report(plan, path: Path) -> None:
+    from offgrid.plan.text import markdown_report, rows_csv
+    from offgrid.project.store import atomic_write_text
+
+    suffix = path.suffix.lower()
+    if suffix == ".md":
+        text = markdown_report(plan)
+    elif suffix == ".csv":
+        text = rows_csv(plan)
+    else:
+        text = json.dumps(plan.to_dict(), indent=2, ensure_ascii=False) + "\n"
+    try:
+        atomic_write_text(path, text, backup=True)
+    except OSError as exc:
+        fail(f"cannot write {path}: {exc.strerror}")
