@@ -62,6 +62,7 @@ class OffgridApp(App):
         Binding("q", "quit", "Quit", id="app.quit"),
         Binding("ctrl+q", "quit", "Quit", show=False, priority=True, id="app.quit_ctrl"),
         Binding("t", "toggle_theme", "Sunlight colours", show=False, id="app.theme"),
+        Binding("P", "plan", "Plan a community", show=False, id="app.plan"),
         Binding("ctrl+p", "command_palette", "Commands", show=False, priority=True,
                 id="app.commands"),
         Binding("colon", "command_palette", "Commands", show=False, id="app.commands_colon"),
@@ -303,6 +304,78 @@ class OffgridApp(App):
                                        f"to {where}?", [("y", "Revert", "yes"),
                                                         ("n", "Keep working", "no")]), go)
 
+    # ------------------------------------------------------------------ report, BOM, plan
+    def export_dialog(self, what: str) -> None:
+        """Ask for a file and write the report (``what='report'``) or the bill of materials."""
+        session = self.session
+        if session is None:
+            return
+        if session.design is None:
+            self.notify("No design yet, so nothing to export: see the headline.",
+                        severity="warning", timeout=4)
+            return
+        stem = suggested_name(session.title).removesuffix(".toml")
+        if what == "report":
+            start, suffixes, title = f"{stem}-report.html", (".html", ".md", ".txt"), \
+                "Export the design report (.html, .md or .txt)"
+        else:
+            start, suffixes, title = f"{stem}-bom.csv", (".csv",), \
+                "Export the bill of materials (CSV)"
+
+        def chosen(path: Path | None) -> None:
+            if path is None:
+                return
+            if path.exists():
+                self.push_screen(ConfirmDialog("Replace file?", f"{path} exists.",
+                                               [("y", "Replace it", "yes"),
+                                                ("n", "Keep it", "no")]),
+                                 lambda a: self._export(what, path, True) if a == "yes"
+                                 else None)
+            else:
+                self._export(what, path, False)
+
+        self.push_screen(PathDialog(title, start, suffixes=suffixes, must_exist=False,
+                                    verb="writes it"), chosen)
+
+    def _export(self, what: str, path: Path, force: bool) -> None:
+        import copy
+
+        session = self.session
+        project = copy.deepcopy(session.project)
+        design, base = session.design, session.base_dir
+        self.notify(f"Writing {printable(path.name)}...", markup=False, timeout=2)
+
+        def run() -> None:
+            try:
+                from offgrid.report.export import ExportError, export_bom, export_report
+            except ImportError as exc:
+                self.call_from_thread(self.notify, f"Export is not available: {exc}",
+                                      severity="error", markup=False)
+                return
+            try:
+                if what == "report":
+                    written = export_report(project, path, base, force=force, design=design)
+                else:
+                    written = export_bom(project, path, base, force=force, design=design)
+            except ExportError as exc:
+                self.call_from_thread(self.notify, f"Not written: {exc}", severity="error",
+                                      markup=False, timeout=8)
+                return
+            self.call_from_thread(self.notify, f"Written: {printable(str(written))}",
+                                  markup=False, timeout=5)
+
+        self.run_worker(run, thread=True, group="export", exclusive=True)
+
+    def open_plan(self) -> None:
+        """The community planning screen (many households, standard kits)."""
+        try:
+            from offgrid.tui.screens.plan import PlanScreen
+        except ImportError as exc:
+            self.notify(f"Community planning is not available: {exc}", severity="error",
+                        markup=False)
+            return
+        self.push_screen(PlanScreen())
+
     # ------------------------------------------------------------------ recovery
     def project_changed(self) -> None:
         """Called after every change: the recovery file is written once typing pauses."""
@@ -352,6 +425,9 @@ class OffgridApp(App):
             "Quit offgrid?", f"'{printable(session.title)}' has unsaved changes.",
             [("s", "Save and quit", "save"), ("d", "Quit without saving", "discard")]), answer)
 
+    def action_plan(self) -> None:
+        self.open_plan()
+
     # ------------------------------------------------------------------ help, theme, commands
     def action_toggle_theme(self) -> None:
         self.theme = DEFAULT_THEME if self.theme == SUN_THEME else SUN_THEME
@@ -387,8 +463,17 @@ class OffgridApp(App):
             ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
             ("7 Risk", b(RiskSection)),
             ("Start screen", b(StartScreen)),
+            *self._plan_help(),
             ("Dialogs", b(Dialog)),
         ]
+
+    def _plan_help(self) -> list[tuple[str, list[Binding]]]:
+        try:
+            from offgrid.tui.screens.plan import PlanScreen
+        except ImportError:
+            return []
+        return [("Community plan (P)", [x for x in PlanScreen.BINDINGS
+                                        if isinstance(x, Binding)])]
 
     def action_help(self) -> None:
         work = self.work
@@ -449,6 +534,12 @@ class OffgridApp(App):
             yield SystemCommand("Run the risk check", "Simulate synthetic weather years in the "
                                 "background (Risk, g)", in_section("risk", "run"))
             yield SystemCommand("Stop the risk check", "(Risk, x)", in_section("risk", "stop"))
+            yield SystemCommand("Export report", "Write the design report: HTML, Markdown or "
+                                "text (E)", lambda: self.export_dialog("report"))
+            yield SystemCommand("Export bill of materials", "Write the parts list as CSV (B)",
+                                lambda: self.export_dialog("bom"))
+        yield SystemCommand("Plan a community", "Many households from one survey: standard "
+                            "kits and totals (P)", self.open_plan)
         yield SystemCommand("New blank project", "Start from nothing", self.new_blank)
         yield SystemCommand("New demo project", "The Kisanga Ridge health post (invented)",
                             self.new_demo)

@@ -275,3 +275,54 @@ async def test_the_whole_job(state, tmp_path):
         await pilot.pause()
         assert app.session.design.to_dict() == on_screen
         assert not app.session.dirty
+
+
+async def wait_until(pilot, condition, seconds: float = 30.0) -> None:
+    import time
+
+    end = time.monotonic() + seconds
+    while not condition() and time.monotonic() < end:
+        await pilot.pause(0.1)
+    assert condition()
+
+
+async def test_export_report_and_bill_of_materials(state, tmp_path):
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await pilot.press("E")
+        await pilot.pause()
+        assert isinstance(app.screen, PathDialog)
+        report = tmp_path / "clinic-report.md"
+        await type_into(pilot, str(report))
+        await wait_until(pilot, report.exists)
+        assert "Kisanga Ridge" in report.read_text()
+        await pilot.press("B")
+        await pilot.pause()
+        bom = tmp_path / "clinic-bom.csv"
+        await type_into(pilot, str(bom))
+        await wait_until(pilot, bom.exists)
+        assert bom.read_text().count("\n") > 3
+        # an existing file is replaced only after asking
+        await pilot.press("B")
+        await pilot.pause()
+        await type_into(pilot, str(bom))
+        assert isinstance(app.screen, ConfirmDialog)
+        await pilot.press("n")
+
+
+async def test_community_plan_from_the_start_screen(state):
+    from offgrid.tui.screens.plan import PlanScreen
+    from offgrid.tui.screens.start import StartScreen
+
+    app = make_app(state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await pilot.press("p")
+        await pilot.pause()
+        assert isinstance(app.screen, PlanScreen)
+        await wait_until(pilot, lambda: app.screen.plan is not None)
+        assert "systems" in screen_text(app)
+        await pilot.press("escape")
+        await pilot.pause()
+        assert isinstance(app.screen, StartScreen)

@@ -37,6 +37,7 @@ class StartScreen(Screen):
         Binding("o", "open", "Open a file", id="start.open"),
         Binding("b", "blank", "Blank project", id="start.blank"),
         Binding("d", "demo", "Demo project", id="start.demo"),
+        Binding("p", "plan", "Plan a community", id="start.plan"),
         Binding("q", "app.quit", "Quit", id="start.quit"),
     ]
 
@@ -80,6 +81,8 @@ class StartScreen(Screen):
             about = SCENARIOS.get(f.stem, "demo load list")
             add(Text.assemble("  Demo loads: ", (f.stem, "bold"), f"  {about}"), "scenario", f)
         add(Text.assemble("  ", ("Blank project", "bold"), "  start from nothing (b)"), "blank")
+        add(Text.assemble("  ", ("Plan a community", "bold"), "  many households, standard "
+                          "kits (p)"), "plan")
         heading("Files")
         add(Text.assemble("  ", ("Open a project file...", "bold"), "  (o)"), "open")
         add(Text.assemble("  ", ("Quit", "bold"), "  (q)"), "quit")
@@ -107,6 +110,8 @@ class StartScreen(Screen):
             self.action_blank()
         elif kind == "open":
             self.action_open()
+        elif kind == "plan":
+            self.action_plan()
         elif kind == "quit":
             app.exit(0)
 
@@ -115,6 +120,9 @@ class StartScreen(Screen):
 
     def action_blank(self) -> None:
         self.app.new_blank()  # type: ignore[attr-defined]
+
+    def action_plan(self) -> None:
+        self.app.open_plan()  # type: ignore[attr-defined]
 
     def action_demo(self) -> None:
         self.app.new_demo()  # type: ignore[attr-defined]

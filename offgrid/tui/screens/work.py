@@ -27,8 +27,8 @@ SECTION_CLASSES: dict[str, type[Section]] = {
 }
 
 #: Section-changing and other one-letter keys work while no text box has focus.
-LETTER_ACTIONS = {"goto", "next_section", "why", "save", "save_as", "open", "revert", "undo",
-                  "redo", "start", "help", "toggle_theme", "quit", "commands"}
+LETTER_ACTIONS = {"goto", "next_section", "why", "save_as", "open", "revert", "undo",
+                  "redo", "start", "help", "toggle_theme", "quit", "commands", "export"}
 
 
 class WorkScreen(Screen):
@@ -50,6 +50,8 @@ class WorkScreen(Screen):
         Binding("u", "undo", "Undo", show=False, id="edit.undo"),
         Binding("U,ctrl+y", "redo", "Redo", show=False, id="edit.redo"),
         Binding("n", "start", "Start screen", show=False, id="file.start"),
+        Binding("E", "export('report')", "Export report", show=False, id="file.report"),
+        Binding("B", "export('bom')", "Export parts list", show=False, id="file.bom"),
     ]
 
     def __init__(self, session: Session, section: str = "place") -> None:
@@ -195,6 +197,9 @@ class WorkScreen(Screen):
 
     def action_revert(self) -> None:
         self.app.revert_project()  # type: ignore[attr-defined]
+
+    def action_export(self, what: str) -> None:
+        self.app.export_dialog(what)  # type: ignore[attr-defined]
 
     def action_start(self) -> None:
         self.app.to_start()  # type: ignore[attr-defined]
