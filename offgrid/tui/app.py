@@ -111,10 +111,14 @@ class OffgridApp(App):
             self._first_screen()
 
     def _first_screen(self) -> None:
-        if self.initial_session is not None:
-            self.push_screen(WorkScreen(self.initial_session, self.initial_section))
-            if self.initial_session.path is not None:
-                remember_project(self.initial_session.path, self.state)
+        session = self.initial_session
+        if session is not None:
+            self.push_screen(WorkScreen(session, self.initial_section))
+            if session.origin == "new-file":
+                self.notify(f"{printable(session.path.name)} does not exist yet: this is a new "
+                            "project; s saves it there.", markup=False, timeout=6)
+            elif session.path is not None:
+                remember_project(session.path, self.state)
         else:
             self.push_screen(StartScreen(recent_projects(self.state)))
 
@@ -554,6 +558,18 @@ class OffgridApp(App):
         yield SystemCommand("Theme", "Pick any colour theme", self.action_change_theme)
 
 
+def new_file_session(target: Path) -> Session:
+    """A blank project that will be saved as ``target`` (which does not exist yet)."""
+    from offgrid.tui.session import blank_project
+
+    project = blank_project()
+    project.info.name = target.stem.replace("-", " ").replace("_", " ").strip() or "New project"
+    session = Session.unsaved(project, origin="new-file")
+    session.baseline = session.text()
+    session.path = target.resolve()
+    return session
+
+
 def make_app(path: str | Path | None = None, *, demo: bool = False,
              session: Session | None = None, state: Path | None = None,
              check_recovery: bool = True, **kwargs) -> OffgridApp:
@@ -567,6 +583,11 @@ def make_app(path: str | Path | None = None, *, demo: bool = False,
         if demo:
             session = demo_session()
         elif path is not None:
-            session = Session.open(path)
+            target = Path(path).expanduser()
+            if not target.exists() and target.suffix.lower() == ".toml" and \
+                    target.resolve().parent.is_dir():
+                session = new_file_session(target)  # nothing is written until saved
+            else:
+                session = Session.open(target)
     orphans = RecoveryStore(state or state_dir()).orphans() if check_recovery else []
     return OffgridApp(session, state=state, orphans=orphans, **kwargs)

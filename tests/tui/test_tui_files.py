@@ -326,3 +326,60 @@ async def test_community_plan_from_the_start_screen(state):
         await pilot.press("escape")
         await pilot.pause()
         assert isinstance(app.screen, StartScreen)
+
+
+async def test_a_file_that_does_not_exist_yet_is_a_new_project(state, tmp_path):
+    target = tmp_path / "new-site.toml"
+    app = make_app(target, state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        assert not target.exists()
+        assert "new-site.toml (new file)" in screen_text(app)
+        assert app.session.project.info.name == "new site"
+        await pilot.press("c")
+        await pilot.pause()
+        await pilot.press("enter")
+        await pilot.pause()
+        await pilot.press("s")  # saves where it was asked for, no dialog
+        await pilot.pause()
+    assert load_project(target).climate.ref
+
+
+def test_launch_refuses_bad_arguments_and_unreadable_files(tmp_path, capsys):
+    from offgrid.tui.launch import run
+
+    assert run(["--demo", "x.toml"]) == 2
+    assert "usage: offgrid" in capsys.readouterr().err
+    bad = tmp_path / "bad.toml"
+    bad.write_text("format = 'offgrid-project'\nschema = 1\n[site]\nlatitude_deg = 'north'\n")
+    before = bad.read_text()
+    assert run([str(bad)]) == 2
+    err = capsys.readouterr().err
+    assert "site.latitude_deg" in err and "line 4" in err and "not changed" in err
+    assert bad.read_text() == before
+
+
+def test_ui_start_imports_neither_pvlib_nor_pandas():
+    """LIBRARY-NOTES: pvlib costs ~0.7 s and pandas ~0.35 s to import; the UI starts without."""
+    import subprocess
+    import sys
+
+    code = ("import asyncio, sys, tempfile, pathlib\n"
+            "from offgrid.tui.app import make_app\n"
+            "app = make_app(demo=True, state=pathlib.Path(tempfile.mkdtemp()))\n"
+            "async def go():\n"
+            "    async with app.run_test(size=(80, 24)) as pilot:\n"
+            "        await pilot.pause()\n"
+            "        assert app.session.design is not None\n"
+            "asyncio.run(go())\n"
+            "print(sorted(m for m in ('pvlib', 'pandas') if m in sys.modules))\n")
+    import os
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parents[2]
+    env = {**os.environ, "PYTHONPATH": os.pathsep.join(
+        [str(root), *filter(None, [os.environ.get("PYTHONPATH")])])}
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         timeout=120, cwd=root, env=env)
+    assert out.returncode == 0, out.stderr
+    assert out.stdout.strip().splitlines()[-1] == "[]"

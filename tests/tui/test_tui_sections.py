@@ -640,3 +640,86 @@ async def test_place_climate_check_offers_a_fix(state):
         await pilot.press("enter")
         await pilot.pause()
         assert max(app.session.project.climate.inline.insolation_kwh_m2_day) < 11.5
+
+
+def slow_simulation(monkeypatch, release):
+    """The real study of the demo, handed out slowly until ``release`` is set."""
+    import time
+
+    import offgrid.simulate.run as run
+    from offgrid.paths import demo_project_path
+    from offgrid.simulate.balance import SimulationCancelled
+
+    real = run.simulate_project(load_project(demo_project_path()), demo_project_path().parent,
+                                years=5, with_tradeoff=False)
+
+    def fake(project, base=None, *, progress=None, cancelled=None, **kw):
+        for i in range(1000):
+            if cancelled and cancelled():
+                raise SimulationCancelled()
+            if progress:
+                progress(min(1.0, i / 100))
+            if release.is_set():
+                return real
+            time.sleep(0.01)
+        return real
+
+    monkeypatch.setattr(run, "simulate_project", fake)
+
+
+async def test_risk_check_runs_in_the_background_while_editing(state, monkeypatch):
+    import threading
+
+    release = threading.Event()
+    slow_simulation(monkeypatch, release)
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await pilot.press("7", "g")
+        await pilot.pause()
+        risk = app.work.current
+        assert risk.running
+        assert "Simulating" in screen_text(app)
+        # the UI keeps working: edit a value while the simulation runs
+        await edit_field(pilot, "parts", "choices.autonomy_days", "4")
+        assert app.session.project.choices.autonomy_days == 4.0
+        assert risk.running
+        release.set()
+        await wait_until(pilot, lambda: not risk.running, 30)
+        assert risk.result is not None
+        app.work.action_goto("risk")
+        await pilot.pause()
+        text = screen_text(app)
+        assert "Out of date" in text and "Loss-of-load probability" in text
+        await pilot.press("w")
+        await pilot.pause()
+        assert "Source" in screen_text(app)
+
+
+async def test_risk_check_can_be_stopped(state, monkeypatch):
+    import threading
+
+    slow_simulation(monkeypatch, threading.Event())
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await pilot.press("7", "g")
+        await pilot.pause()
+        risk = app.work.current
+        assert risk.running
+        await pilot.press("x")
+        await pilot.pause(0.3)
+        assert not risk.running and risk.result is None
+        assert "Press g" in screen_text(app)
+
+
+async def test_risk_check_real_run(state):
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await pilot.press("7", "g")
+        risk = app.work.current
+        await wait_until(pilot, lambda: risk.result is not None, 60)
+        text = screen_text(app)
+        assert "Result for the design as it is now" in text
+        assert "For LOLP" in text

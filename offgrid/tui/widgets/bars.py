@@ -31,7 +31,7 @@ class FileBar(Static):
         width = max(20, self.size.width or 80) - 2
         marker = "  \u25cf unsaved" if session.dirty else ""
         if session.path is not None:
-            where = str(session.path.name)
+            where = str(session.path.name) + (" (new file)" if not session.path.exists() else "")
         elif session.origin == "demo":
             where = "demo, not saved yet"
         else:
