@@ -1,0 +1,593 @@
+"""The offgrid text UI: one app, made by :func:`make_app` for the CLI and the tests alike."""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterable
+from pathlib import Path
+
+from textual.app import App, SystemCommand
+from textual.binding import Binding
+from textual.screen import Screen
+from textual.theme import Theme
+from textual.timer import Timer
+
+from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
+from offgrid.tui.screens.help import HelpDialog
+from offgrid.tui.screens.recover import RecoverDialog
+from offgrid.tui.screens.start import StartScreen
+from offgrid.tui.screens.work import WorkScreen
+from offgrid.tui.session import EditRejected, Session
+from offgrid.tui.state import (
+    Recovery,
+    RecoveryStore,
+    discard_recovery,
+    recent_projects,
+    remember_project,
+    state_dir,
+)
+from offgrid.tui.text import printable
+from offgrid.tui.widgets.bars import SECTIONS
+
+AUTOSAVE_SECONDS = 3.0
+
+THEMES = (
+    Theme(name="offgrid-night", primary="#2a6f97", secondary="#468faf", accent="#f4a259",
+          foreground="#e8e8e8", background="#14181c", surface="#1d2329", panel="#27303a",
+          success="#7bc96f", warning="#f2c14e", error="#ef6461", dark=True),
+    # High contrast for a screen in the sun: black on white, strong pure colours.
+    Theme(name="offgrid-sunlight", primary="#000000", secondary="#003a8c", accent="#003a8c",
+          foreground="#000000", background="#ffffff", surface="#ffffff", panel="#d8d8d8",
+          boost="#ececec", success="#005a00", warning="#7a3e00", error="#b00000", dark=False,
+          luminosity_spread=0.05, text_alpha=1.0),
+)
+DEFAULT_THEME = "offgrid-night"
+SUN_THEME = "offgrid-sunlight"
+
+
+def suggested_name(title: str) -> str:
+    slug = re.sub(r"[^A-Za-z0-9]+", "-", title).strip("-").lower()
+    return (slug or "project")[:48] + ".toml"
+
+
+class OffgridApp(App):
+    """Size stand-alone solar systems at the keyboard."""
+
+    CSS_PATH = "app.tcss"
+    TITLE = "offgrid"
+    ENABLE_COMMAND_PALETTE = True
+
+    BINDINGS = [
+        Binding("question_mark,f1,h", "help", "Help", id="app.help"),
+        Binding("q", "quit", "Quit", id="app.quit"),
+        Binding("ctrl+q", "quit", "Quit", show=False, priority=True, id="app.quit_ctrl"),
+        Binding("t", "toggle_theme", "Sunlight colours", show=False, id="app.theme"),
+        Binding("P", "plan", "Plan a community", show=False, id="app.plan"),
+        Binding("ctrl+p", "command_palette", "Commands", show=False, priority=True,
+                id="app.commands"),
+        Binding("colon", "command_palette", "Commands", show=False, id="app.commands_colon"),
+    ]
+
+    def __init__(self, session: Session | None = None, *, state: Path | None = None,
+                 orphans: list[Recovery] | None = None, section: str = "place",
+                 autosave_seconds: float = AUTOSAVE_SECONDS, theme: str | None = None) -> None:
+        super().__init__()
+        self.initial_session = session
+        self.state = state or state_dir()
+        self.recovery = RecoveryStore(self.state)
+        self.orphans = list(orphans or [])
+        self.initial_section = section
+        self.autosave_seconds = autosave_seconds
+        self._autosave_timer: Timer | None = None
+        self.discarded = False
+        self.autosaves = 0
+        self._last_session: Session | None = session
+        for t in THEMES:
+            self.register_theme(t)
+        self.theme = theme or DEFAULT_THEME
+
+    # ------------------------------------------------------------------ screens
+    @property
+    def session(self) -> Session | None:
+        """The project on the work screen (after the app has ended: the last one shown)."""
+        work = self.work
+        if work is not None:
+            self._last_session = work.session
+            return work.session
+        return self._last_session
+
+    @property
+    def work(self) -> WorkScreen | None:
+        for screen in reversed(self.screen_stack):
+            if isinstance(screen, WorkScreen):
+                return screen
+        return None
+
+    def on_mount(self) -> None:
+        if self.orphans:
+            self._first_screen()
+            self.push_screen(RecoverDialog(self.orphans), self._recovery_answer)
+        else:
+            self._first_screen()
+
+    def _first_screen(self) -> None:
+        session = self.initial_session
+        if session is not None:
+            self.push_screen(WorkScreen(session, self.initial_section))
+            if session.origin == "new-file":
+                self.notify(f"{printable(session.path.name)} does not exist yet: this is a new "
+                            "project; s saves it there.", markup=False, timeout=6)
+            elif session.path is not None:
+                remember_project(session.path, self.state)
+        else:
+            self.push_screen(StartScreen(recent_projects(self.state)))
+
+    def _recovery_answer(self, answer) -> None:
+        if not answer:
+            self.notify("The recovery file is kept; it is offered again next time.",
+                        timeout=4)
+            return
+        what, item = answer
+        if what == "discard":
+            discard_recovery(item)
+            self.notify("Recovery file discarded.", timeout=3)
+            return
+        from offgrid.tui.session import recovered_session
+
+        try:
+            session = recovered_session(item.text, item.project_path, item.baseline)
+        except ValueError as exc:
+            self.push_screen(MessageDialog("The recovery file cannot be read", str(exc)))
+            return
+        self._use_session(session, check=False)
+        discard_recovery(item)
+        self.recovery.write(session.text(), session.path, session.title, session.baseline)
+        self.notify("Recovered: these changes are not saved to the project file yet (s saves).",
+                    timeout=6)
+
+    def _use_session(self, session: Session, check: bool = True) -> None:
+        """Show ``session`` on the work screen (after asking about unsaved changes)."""
+        def go(answer: str | None = "discard") -> None:
+            if answer == "save":
+                self.save_project(then=lambda: go("discard"))
+                return
+            if answer != "discard":
+                return
+            work = self.work
+            if work is not None and self.screen is work:
+                work.replace_session(session)
+            else:
+                while len(self.screen_stack) > 2:
+                    self.pop_screen()
+                self.switch_screen(WorkScreen(session, self.initial_section))
+            self.recovery.clear()
+            if session.path is not None:
+                remember_project(session.path, self.state)
+
+        if check and self.session is not None and self.session.dirty:
+            self.push_screen(self._unsaved_dialog("before opening another project"), go)
+        else:
+            go()
+
+    def _unsaved_dialog(self, when: str) -> ConfirmDialog:
+        name = printable(self.session.title if self.session else "")
+        return ConfirmDialog("Unsaved changes", f"'{name}' has changes that are not saved "
+                             f"({when}).", [("s", "Save them", "save"),
+                                            ("d", "Discard them", "discard")])
+
+    # ------------------------------------------------------------------ new / open
+    def open_path(self, path: Path) -> None:
+        from offgrid.project.store import ProjectFileError
+
+        try:
+            session = Session.open(path)
+        except ProjectFileError as exc:
+            body = "\n".join(str(p) for p in exc.problems)
+            self.push_screen(MessageDialog(f"{printable(str(path))} cannot be opened",
+                                           body + "\n\nNothing was opened and the file was "
+                                           "not changed."))
+            return
+        self._use_session(session)
+
+    def open_dialog(self) -> None:
+        def chosen(path: Path | None) -> None:
+            if path is not None:
+                self.open_path(path)
+
+        self.push_screen(PathDialog("Open a project", suffixes=(".toml",)), chosen)
+
+    def new_demo(self) -> None:
+        from offgrid.tui.session import demo_session
+
+        self._use_session(demo_session())
+
+    def new_scenario(self, csv_path: Path) -> None:
+        from offgrid.project.loads_csv import LoadListError
+        from offgrid.tui.session import scenario_session
+
+        try:
+            session = scenario_session(csv_path)
+        except (LoadListError, ValueError) as exc:
+            self.push_screen(MessageDialog("That demo list cannot be used", str(exc)))
+            return
+        self._use_session(session)
+
+    def new_blank(self) -> None:
+        from offgrid.tui.session import blank_project
+
+        session = Session.unsaved(blank_project(), origin="blank")
+        session.baseline = session.text()
+        self._use_session(session)
+
+    def to_start(self) -> None:
+        def go(answer: str | None = "discard") -> None:
+            if answer == "save":
+                self.save_project(then=lambda: go("discard"))
+                return
+            if answer == "discard":
+                self.recovery.clear()
+                self._last_session = None
+                self.switch_screen(StartScreen(recent_projects(self.state)))
+
+        if self.session is not None and self.session.dirty:
+            self.push_screen(self._unsaved_dialog("before leaving it"), go)
+        else:
+            go()
+
+    # ------------------------------------------------------------------ save / revert
+    def save_project(self, ask: bool = False, then=None) -> None:
+        session = self.session
+        if session is None:
+            return
+        if session.path is None or ask:
+            start = str(session.path) if session.path else suggested_name(session.title)
+
+            def chosen(path: Path | None) -> None:
+                if path is None:
+                    return
+                if path.suffix == "":
+                    path = path.with_suffix(".toml")
+                if path.exists() and (session.path is None or
+                                      path.resolve() != session.path):
+                    self.push_screen(ConfirmDialog(
+                        "Replace file?", f"{path} exists. Replace it? (the old one is kept as "
+                        f"{path.name}.bak)", [("y", "Replace it", "yes"), ("n", "Keep it", "no")]),
+                        lambda a: self._save_to(path, then) if a == "yes" else None)
+                else:
+                    self._save_to(path, then)
+
+            self.push_screen(PathDialog("Save as", start, must_exist=False), chosen)
+        else:
+            self._save_to(session.path, then)
+
+    def _save_to(self, path: Path, then=None) -> None:
+        session = self.session
+        if session is None:
+            return
+        try:
+            saved = session.save(path)
+        except EditRejected as exc:
+            body = "\n".join(f"{p.path}: {p.message}" for p in exc.problems)
+            self.push_screen(MessageDialog("Not saved yet", body))
+            return
+        except OSError as exc:
+            self.notify(f"Not saved: {exc.strerror or exc} ({path})", severity="error",
+                        markup=False, timeout=6)
+            return
+        self.recovery.clear()
+        remember_project(saved, self.state)
+        self.notify(f"Saved {printable(str(saved))}", markup=False, timeout=3)
+        if self.work is not None:
+            self.work.refresh_all()
+        if then is not None:
+            then()
+
+    def revert_project(self) -> None:
+        session = self.session
+        if session is None:
+            return
+
+        def go(answer: str | None) -> None:
+            if answer != "yes":
+                return
+            from offgrid.project.store import ProjectFileError
+
+            try:
+                session.revert()
+            except ProjectFileError as exc:
+                self.push_screen(MessageDialog("Cannot revert", str(exc)))
+                return
+            self.work.changed()  # type: ignore[union-attr]
+            self.notify("Reverted to the saved version (u undoes).", timeout=3)
+
+        if not session.dirty:
+            self.notify("No unsaved changes.", timeout=2)
+            return
+        where = session.path.name if session.path else "the starting state"
+        self.push_screen(ConfirmDialog("Revert?", f"Throw away the unsaved changes and go back "
+                                       f"to {where}?", [("y", "Revert", "yes"),
+                                                        ("n", "Keep working", "no")]), go)
+
+    # ------------------------------------------------------------------ report, BOM, plan
+    def export_dialog(self, what: str) -> None:
+        """Ask for a file and write the report (``what='report'``) or the bill of materials."""
+        session = self.session
+        if session is None:
+            return
+        if session.design is None:
+            self.notify("No design yet, so nothing to export: see the headline.",
+                        severity="warning", timeout=4)
+            return
+        stem = suggested_name(session.title).removesuffix(".toml")
+        if what == "report":
+            start, suffixes, title = f"{stem}-report.html", (".html", ".md", ".txt"), \
+                "Export the design report (.html, .md or .txt)"
+        else:
+            start, suffixes, title = f"{stem}-bom.csv", (".csv",), \
+                "Export the bill of materials (CSV)"
+
+        def chosen(path: Path | None) -> None:
+            if path is None:
+                return
+            if path.exists():
+                self.push_screen(ConfirmDialog("Replace file?", f"{path} exists.",
+                                               [("y", "Replace it", "yes"),
+                                                ("n", "Keep it", "no")]),
+                                 lambda a: self._export(what, path, True) if a == "yes"
+                                 else None)
+            else:
+                self._export(what, path, False)
+
+        self.push_screen(PathDialog(title, start, suffixes=suffixes, must_exist=False,
+                                    verb="writes it"), chosen)
+
+    def _export(self, what: str, path: Path, force: bool) -> None:
+        import copy
+
+        session = self.session
+        project = copy.deepcopy(session.project)
+        design, base = session.design, session.base_dir
+        self.notify(f"Writing {printable(path.name)}...", markup=False, timeout=2)
+
+        def run() -> None:
+            try:
+                from offgrid.report.export import ExportError, export_bom, export_report
+            except ImportError as exc:
+                self.call_from_thread(self.notify, f"Export is not available: {exc}",
+                                      severity="error", markup=False)
+                return
+            try:
+                if what == "report":
+                    written = export_report(project, path, base, force=force, design=design)
+                else:
+                    written = export_bom(project, path, base, force=force, design=design)
+            except ExportError as exc:
+                self.call_from_thread(self.notify, f"Not written: {exc}", severity="error",
+                                      markup=False, timeout=8)
+                return
+            self.call_from_thread(self.notify, f"Written: {printable(str(written))}",
+                                  markup=False, timeout=5)
+
+        self.run_worker(run, thread=True, group="export", exclusive=True)
+
+    def open_plan(self) -> None:
+        """The community planning screen (many households, standard kits)."""
+        try:
+            from offgrid.tui.screens.plan import PlanScreen
+        except ImportError as exc:
+            self.notify(f"Community planning is not available: {exc}", severity="error",
+                        markup=False)
+            return
+        self.push_screen(PlanScreen())
+
+    # ------------------------------------------------------------------ recovery
+    def project_changed(self) -> None:
+        """Called after every change: the recovery file is written once typing pauses."""
+        if self._autosave_timer is not None:
+            self._autosave_timer.stop()
+        self._autosave_timer = self.set_timer(self.autosave_seconds, self.autosave)
+
+    def autosave(self) -> None:
+        session = self.session
+        if session is None:
+            return
+        try:
+            if session.dirty:
+                self.recovery.write(session.text(), session.path, session.title,
+                                    session.baseline)
+                self.autosaves += 1
+            else:
+                self.recovery.clear()
+        except OSError as exc:
+            self.notify(f"Recovery file not written: {exc}", severity="warning", markup=False)
+
+    def write_recovery_now(self) -> bool:
+        """Write the recovery file at once (hang-up, crash); True if there was work to keep."""
+        session = self.session
+        if session is None or self.discarded or not session.dirty:
+            return False
+        self.recovery.write(session.text(), session.path, session.title, session.baseline)
+        return True
+
+    # ------------------------------------------------------------------ quit
+    async def action_quit(self) -> None:
+        session = self.session
+        if session is None or not session.dirty:
+            self.recovery.clear()
+            self.exit(0)
+            return
+
+        def answer(result: str | None) -> None:
+            if result == "save":
+                self.save_project(then=lambda: self.exit(0))
+            elif result == "discard":
+                self.discarded = True
+                self.recovery.clear()
+                self.exit(0)
+
+        self.push_screen(ConfirmDialog(
+            "Quit offgrid?", f"'{printable(session.title)}' has unsaved changes.",
+            [("s", "Save and quit", "save"), ("d", "Quit without saving", "discard")]), answer)
+
+    def action_plan(self) -> None:
+        self.open_plan()
+
+    # ------------------------------------------------------------------ help, theme, commands
+    def action_toggle_theme(self) -> None:
+        self.theme = DEFAULT_THEME if self.theme == SUN_THEME else SUN_THEME
+        sun = self.theme == SUN_THEME
+        self.notify(f"Colours: {'sunlight (high contrast)' if sun else 'night'}", timeout=2)
+
+    def help_groups(self) -> list[tuple[str, list[Binding]]]:
+        from offgrid.tui.screens.dialogs import Dialog
+        from offgrid.tui.sections.loads import LoadsSection, LoadsTable
+        from offgrid.tui.sections.place import ClimateTable, PlaceSection
+        from offgrid.tui.sections.risk import RiskSection
+        from offgrid.tui.widgets.editbar import EditBar
+        from offgrid.tui.widgets.fieldtable import FieldTable
+
+        def b(cls) -> list[Binding]:
+            return [x for x in cls.BINDINGS if isinstance(x, Binding)]
+
+        work = b(WorkScreen)
+        moving = [x for x in work if x.id and x.id.startswith("go.")]
+        moving = [Binding("1,2,3,4,5,6,7", "goto", "Go to section 1-7 (Place ... Risk)"),
+                  *[x for x in moving if x.id[3:] not in {s for s, _t, _w in SECTIONS}],
+                  Binding("up,down,left,right", "move", "Move the cursor"),
+                  Binding("pageup,pagedown", "page", "Move a page"),
+                  Binding("tab,shift+tab", "focus", "Next / previous table")]
+        return [
+            ("Everywhere", [*b(OffgridApp), Binding("ctrl+p", "palette", "Command list "
+                                                    "(every action)"),
+                            *[x for x in work if not x.id or not x.id.startswith("go.")]]),
+            ("Moving around", moving),
+            ("Editing a value", [*b(FieldTable), *b(EditBar), Binding("enter", "apply", "Apply "
+                                 "the typed value (in the edit box)")]),
+            ("1 Place", [*b(PlaceSection), *b(ClimateTable)]),
+            ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
+            ("7 Risk", b(RiskSection)),
+            ("Start screen", b(StartScreen)),
+            *self._plan_help(),
+            ("Dialogs", b(Dialog)),
+        ]
+
+    def _plan_help(self) -> list[tuple[str, list[Binding]]]:
+        try:
+            from offgrid.tui.screens.plan import PlanScreen
+        except ImportError:
+            return []
+        return [("Community plan (P)", [x for x in PlanScreen.BINDINGS
+                                        if isinstance(x, Binding)])]
+
+    def action_help(self) -> None:
+        work = self.work
+        first = None
+        about = ""
+        if work is not None and self.screen is work:
+            sid = work.section
+            n = [s for s, _t, _w in SECTIONS].index(sid) + 1
+            first = next((t for t, _b in self.help_groups() if t.startswith(f"{n} ")), None)
+            about = f"You are in {n} {work.current.__class__.__name__[:-7]}: " \
+                    f"{work.current.help_text}"
+        self.push_screen(HelpDialog(self.help_groups(), first, about))
+
+    def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
+        work = self.work if isinstance(screen, WorkScreen) else None
+        if work is not None:
+            for n, (sid, title, what) in enumerate(SECTIONS, start=1):
+                yield SystemCommand(f"Go to {n} {title}", what,
+                                    lambda s=sid: work.action_goto(s))
+
+            def in_section(sid: str, action: str):
+                def run() -> None:
+                    work.action_goto(sid)
+                    getattr(work.current, f"action_{action}")()
+                return run
+
+            yield SystemCommand("Why this value", "The reason for the figure under the cursor "
+                                "(w)", work.action_why)
+            yield SystemCommand("Recalculate", "Run the design again", work.changed)
+            yield SystemCommand("Save", "Save the project (s, ctrl+s)", work.action_save)
+            yield SystemCommand("Save as", "Save under a new name (S)", work.action_save_as)
+            yield SystemCommand("Open", "Open a project file (o)", work.action_open)
+            yield SystemCommand("Revert", "Back to the saved file (r)", work.action_revert)
+            yield SystemCommand("Undo", "Undo the last change (u)", work.action_undo)
+            yield SystemCommand("Redo", "Redo (U, ctrl+y)", work.action_redo)
+            yield SystemCommand("Start screen", "Recent projects, new, open (n)",
+                                work.action_start)
+            yield SystemCommand("Climate", "Pick the site's climate (Place, c)",
+                                in_section("place", "choose_climate"))
+            yield SystemCommand("Type twelve months", "Use your own monthly climate values "
+                                "(Place, m)", in_section("place", "own_months"))
+            yield SystemCommand("Add appliance", "A new line in the load list (Loads, a)",
+                                in_section("loads", "add"))
+            yield SystemCommand("Copy appliance", "Duplicate the line under the cursor "
+                                "(Loads, d)", in_section("loads", "duplicate"))
+            yield SystemCommand("Delete appliance", "Remove the line under the cursor (Loads, "
+                                "x)", in_section("loads", "delete"))
+            yield SystemCommand("Move appliance up", "(Loads, K or shift+up)",
+                                lambda: (work.action_goto("loads"),
+                                         work.current.action_move(-1)))
+            yield SystemCommand("Move appliance down", "(Loads, J or shift+down)",
+                                lambda: (work.action_goto("loads"),
+                                         work.current.action_move(1)))
+            yield SystemCommand("Import load list", "Read appliances from a CSV file (Loads, "
+                                "i)", in_section("loads", "import_csv"))
+            yield SystemCommand("Export load list", "Write the appliances to a CSV file "
+                                "(Loads, e)", in_section("loads", "export_csv"))
+            yield SystemCommand("Run the risk check", "Simulate synthetic weather years in the "
+                                "background (Risk, g)", in_section("risk", "run"))
+            yield SystemCommand("Stop the risk check", "(Risk, x)", in_section("risk", "stop"))
+            yield SystemCommand("Export report", "Write the design report: HTML, Markdown or "
+                                "text (E)", lambda: self.export_dialog("report"))
+            yield SystemCommand("Export bill of materials", "Write the parts list as CSV (B)",
+                                lambda: self.export_dialog("bom"))
+        yield SystemCommand("Plan a community", "Many households from one survey: standard "
+                            "kits and totals (P)", self.open_plan)
+        yield SystemCommand("New blank project", "Start from nothing", self.new_blank)
+        yield SystemCommand("New demo project", "The Kisanga Ridge health post (invented)",
+                            self.new_demo)
+        yield SystemCommand("Sunlight colours", "Switch to high contrast and back (t)",
+                            self.action_toggle_theme)
+        yield SystemCommand("Help", "All keys (?, h, F1)", self.action_help)
+        yield SystemCommand("Quit", "Leave offgrid, asking about unsaved changes (q, ctrl+q)",
+                            self.action_quit)
+        for cmd in super().get_system_commands(screen):
+            if cmd.title not in ("Quit", "Theme", "Keys"):
+                yield cmd
+        yield SystemCommand("Theme", "Pick any colour theme", self.action_change_theme)
+
+
+def new_file_session(target: Path) -> Session:
+    """A blank project that will be saved as ``target`` (which does not exist yet)."""
+    from offgrid.tui.session import blank_project
+
+    project = blank_project()
+    project.info.name = target.stem.replace("-", " ").replace("_", " ").strip() or "New project"
+    session = Session.unsaved(project, origin="new-file")
+    session.baseline = session.text()
+    session.path = target.resolve()
+    return session
+
+
+def make_app(path: str | Path | None = None, *, demo: bool = False,
+             session: Session | None = None, state: Path | None = None,
+             check_recovery: bool = True, **kwargs) -> OffgridApp:
+    """The app for a file, the demo, or the start screen (neither).
+
+    Raises :class:`~offgrid.project.store.ProjectFileError` if ``path`` cannot be opened.
+    """
+    from offgrid.tui.session import demo_session
+
+    if session is None:
+        if demo:
+            session = demo_session()
+        elif path is not None:
+            target = Path(path).expanduser()
+            if not target.exists() and target.suffix.lower() == ".toml" and \
+                    target.resolve().parent.is_dir():
+                session = new_file_session(target)  # nothing is written until saved
+            else:
+                session = Session.open(target)
+    orphans = RecoveryStore(state or state_dir()).orphans() if check_recovery else []
+    return OffgridApp(session, state=state, orphans=orphans, **kwargs)

@@ -1,0 +1,262 @@
+"""The editable fields of the project, as the forms show them.
+
+A :class:`Field` names a dotted path in the :class:`~offgrid.project.model.Project`,
+how to show its value, how to read what the user typed (with a message naming
+the fix when it cannot), and which engine figure explains its automatic value.
+No Textual here.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import Any
+
+from offgrid.project.validate import RANGES
+from offgrid.result import SystemDesign
+
+HINTS = {path: hint for path, _lo, _hi, hint in RANGES}
+AUTO_WORDS = ("", "auto", "automatic", "-", "none", "default")
+
+
+@dataclass(frozen=True)
+class Field:
+    path: str
+    label: str
+    kind: str = "float"  # text, float, int, choice; auto_* allow None (automatic)
+    unit: str = ""
+    hint: str = ""
+    choices: tuple[tuple[Any, str], ...] = ()
+    reason: str | None = None  # engine figure explaining the (automatic) value
+    auto: Callable[[SystemDesign], str] | None = None  # what "automatic" came to
+    auto_text: str = "automatic"
+    group_form: str | None = None  # edit together with the other fields of this group
+
+    @property
+    def allows_auto(self) -> bool:
+        return self.kind.startswith("auto_")
+
+    @property
+    def base_kind(self) -> str:
+        return self.kind.removeprefix("auto_")
+
+    def help(self) -> str:
+        return self.hint or HINTS.get(self.path, "")
+
+    # ------------------------------------------------------------------ showing
+    def show(self, value: Any, design: SystemDesign | None = None) -> str:
+        if value is None:
+            text = self.auto_text
+            if self.auto is not None and design is not None:
+                with contextlib.suppress(AttributeError, IndexError, KeyError, TypeError,
+                                         ValueError):
+                    text += f" \u2192 {self.auto(design)}"
+            return text
+        if self.base_kind == "choice":
+            for v, label in self.choices:
+                if v == value:
+                    return label
+            return str(value)
+        if self.base_kind == "text":
+            return str(value)
+        text = f"{value:g}" if isinstance(value, float) else str(value)
+        return f"{text} {self.unit}".strip()
+
+    def edit_text(self, value: Any) -> str:
+        """What the editor starts with."""
+        if value is None:
+            return "auto"
+        if self.base_kind == "text":
+            return str(value)
+        if isinstance(value, float):
+            return f"{value:g}"
+        return str(value)
+
+    # ------------------------------------------------------------------ reading
+    def parse(self, text: str) -> Any:
+        """The value typed, or ValueError with a message that says what to type."""
+        raw = text.strip()
+        if self.base_kind == "text":
+            return text
+        if self.allows_auto and raw.lower() in AUTO_WORDS:
+            return None
+        if self.base_kind == "choice":
+            for v, label in self.choices:
+                if raw.lower() in (str(v).lower(), label.lower()):
+                    return v
+            names = ", ".join(str(v) for v, _ in self.choices)
+            raise ValueError(f"'{raw}' is not one of: {names}")
+        number = parse_number(raw, self.unit, self.help())
+        if self.base_kind == "int":
+            if number != int(number):
+                raise ValueError(f"'{raw}' must be a whole number")
+            return int(number)
+        return number
+
+
+def parse_number(raw: str, unit: str = "", hint: str = "") -> float:
+    """A number typed by a person: ``12``, ``0,5`` (decimal comma), ``300 W``, ``50 %``.
+
+    A percentage given for a fraction field (unit '') is divided by 100.
+    """
+    text = raw.strip().replace("\u2212", "-")
+    percent = text.endswith("%")
+    if percent:
+        text = text[:-1].strip()
+    if unit and text.lower().endswith(unit.lower()):
+        text = text[: -len(unit)].strip()
+    if text.count(",") == 1 and "." not in text:
+        text = text.replace(",", ".")
+    try:
+        value = float(text)
+    except ValueError:
+        tail = f"; {hint}" if hint else ""
+        raise ValueError(f"'{raw}' is not a number{tail}") from None
+    if not math.isfinite(value):
+        raise ValueError(f"'{raw}' is not a finite number")
+    if percent and unit in ("", "fraction"):
+        value /= 100.0
+    return value
+
+
+def _fmt(value: float, unit: str, digits: int = 0) -> str:
+    return f"{value:.{digits}f} {unit}".strip()
+
+
+# ----------------------------------------------------------------------------- the forms
+
+PROJECT_FIELDS: tuple[Field | str, ...] = (
+    "Project",
+    Field("info.name", "Project name", "text", hint="what the file is about"),
+    Field("info.client", "Client", "text", hint="who the system is for"),
+    Field("info.designer", "Designer", "text", hint="who sized it"),
+    Field("info.notes", "Notes", "text", hint="anything worth keeping with the design"),
+    "Site",
+    Field("site.name", "Site name", "text", hint="village, building or plot"),
+    Field("site.latitude_deg", "Latitude", unit="deg"),
+    Field("site.longitude_deg", "Longitude", unit="deg"),
+    Field("site.elevation_m", "Elevation", unit="m"),
+    Field("site.tilt_deg", "Array tilt", "auto_float", unit="deg", reason="site.tilt_deg",
+          auto=lambda d: _fmt(d.site.tilt_deg, "deg"),
+          hint="degrees from horizontal; 'auto' = |latitude|, at least the minimum tilt"),
+    Field("site.azimuth_deg", "Array azimuth", "auto_float", unit="deg",
+          reason="site.azimuth_deg", auto=lambda d: _fmt(d.site.azimuth_deg, "deg"),
+          hint="degrees clockwise from north (180 = south); 'auto' faces the equator"),
+    Field("site.albedo", "Ground albedo"),
+    Field("site.battery_temp_c", "Battery room temp.", "auto_float", unit="C",
+          auto_text="coldest monthly mean",
+          hint="mean temperature where the battery stands; 'auto' = coldest monthly mean"),
+)
+
+CONTROLLER_TYPES = (("mppt", "MPPT (tracks the maximum power point)"),
+                    ("pwm", "PWM (array pulled to battery voltage)"))
+CHEMISTRY_CHOICES = (("flooded", "flooded lead-acid"), ("agm", "AGM lead-acid"),
+                     ("gel", "gel lead-acid"), ("lifepo4", "lithium iron phosphate"))
+VOLTAGE_CHOICES = (("auto", "automatic"), (12, "12 V"), (24, "24 V"), (48, "48 V"))
+
+PARTS_FIELDS: tuple[Field | str, ...] = (
+    "Design choices",
+    Field("choices.system_voltage", "System voltage", "choice", choices=VOLTAGE_CHOICES,
+          reason="battery.system_voltage_v",
+          hint="battery bank voltage; automatic keeps DC current at or below 100 A"),
+    Field("choices.autonomy_days", "Days of autonomy", unit="days", reason="battery.required_ah"),
+    Field("choices.max_dod", "Max depth of discharge", "auto_float", reason="battery.required_ah",
+          auto_text="battery's own", hint="fraction 0.05-1 (50 % is 0.5); 'auto' = the "
+          "battery unit's value"),
+    Field("choices.load_growth_pct", "Load growth margin", unit="%",
+          reason="loads.daily_energy_wh"),
+    Field("choices.coincidence_factor", "AC coincidence factor", reason="loads.peak_ac_w"),
+    Field("choices.ageing_factor", "End-of-life capacity", reason="battery.required_ah"),
+    Field("choices.min_tilt_deg", "Minimum tilt", unit="deg", reason="site.tilt_deg"),
+    "Module (datasheet, STC)",
+    *(Field(f"module.{name}", label, kind, unit=unit, group_form="module")
+      for name, label, kind, unit in (
+          ("name", "Module name", "text", ""),
+          ("pmax_w", "Pmax", "float", "W"),
+          ("vmp_v", "Vmp", "float", "V"),
+          ("imp_a", "Imp", "float", "A"),
+          ("voc_v", "Voc", "float", "V"),
+          ("isc_a", "Isc", "float", "A"),
+          ("alpha_isc_pct_per_c", "Isc temp. coefficient", "float", "%/C"),
+          ("beta_voc_pct_per_c", "Voc temp. coefficient", "auto_float", "%/C"),
+          ("gamma_pmax_pct_per_c", "Pmax temp. coefficient", "float", "%/C"),
+          ("cells_in_series", "Cells in series", "int", ""),
+          ("area_m2", "Area", "float", "m2"),
+          ("noct_c", "NOCT", "float", "C"))),
+    "Battery unit",
+    Field("battery.name", "Battery name", "text", hint="make and model, or a description"),
+    Field("battery.chemistry", "Chemistry", "choice", choices=CHEMISTRY_CHOICES,
+          hint="sets charging voltage, temperature correction and cautions"),
+    Field("battery.nominal_voltage_v", "Unit voltage", unit="V"),
+    Field("battery.capacity_ah", "Unit capacity", unit="Ah"),
+    Field("battery.max_dod", "Unit max depth of disch."),
+    Field("battery.efficiency", "Round-trip efficiency"),
+    "Charge controller",
+    Field("controller.type", "Controller type", "choice", choices=CONTROLLER_TYPES,
+          hint="MPPT converts the array's voltage; PWM connects it straight to the battery"),
+    Field("controller.max_pv_voltage_v", "Max PV input voltage", unit="V",
+          reason="array.modules_series"),
+    Field("controller.efficiency", "Controller efficiency"),
+    Field("controller.max_current_a", "Rated current", "auto_float", unit="A",
+          reason="controller.current_a", auto=lambda d: _fmt(d.controller.current_a, "A"),
+          auto_text="pick standard",
+          hint="the controller's charge current, A; 'auto' picks the next standard rating"),
+    "Inverter",
+    Field("inverter.efficiency", "Inverter efficiency", reason="loads.daily_energy_wh"),
+    Field("inverter.self_consumption_w", "Idle draw", unit="W", reason="loads.inverter_idle_wh"),
+    Field("inverter.hours_on_per_day", "Hours switched on", unit="h",
+          reason="loads.inverter_idle_wh"),
+    "Losses (fraction kept)",
+    Field("choices.derates.soiling", "Soiling", reason="array.derates.soiling"),
+    Field("choices.derates.soiling_rate_pct_per_day", "Soiling rate", "auto_float",
+          unit="%/day", auto_text="off (fixed factor above)", reason="array.derates.soiling",
+          hint="daily soiling loss, %/day; 'auto' uses the fixed soiling factor"),
+    Field("choices.derates.cleaning_interval_days", "Cleaning interval", unit="days",
+          reason="array.derates.soiling"),
+    Field("choices.derates.mismatch", "Module mismatch", reason="array.required_power_w"),
+    Field("choices.derates.wiring", "DC wiring", reason="array.required_power_w"),
+    "Voltage-drop limits",
+    Field("choices.drop_limit_array_pct", "Array to controller", unit="%"),
+    Field("choices.drop_limit_battery_pct", "Battery runs", unit="%"),
+    Field("choices.drop_limit_load_pct", "Load runs", unit="%"),
+)
+
+MODULE_FIELDS = tuple(f for f in PARTS_FIELDS if isinstance(f, Field) and f.group_form == "module")
+
+# ----------------------------------------------------------------------------- loads table
+
+@dataclass(frozen=True)
+class Column:
+    key: str
+    label: str
+    width: int
+    kind: str = "float"  # text, int, float, choice, months, figure (not editable)
+    unit: str = ""
+    choices: tuple[tuple[Any, str], ...] = ()
+    hint: str = ""
+    short: dict | None = None  # shorter cell text for some choices
+
+
+TIME_CHOICES = (("any", "any time"), ("day", "day"), ("morning", "morning"),
+                ("evening", "evening"), ("night", "night"))
+LOAD_COLUMNS: tuple[Column, ...] = (
+    Column("name", "Appliance", 20, "text", hint="what it is; any text"),
+    Column("quantity", "Qty", 4, "int", hint="how many of them, a whole number"),
+    Column("power_w", "Watts", 6, unit="W", hint="running power of one unit, W"),
+    Column("hours_per_day", "h/day", 6, unit="h", hint="hours on per day, 0-24"),
+    Column("ac_dc", "AC/DC", 6, "choice", choices=(("ac", "AC"), ("dc", "DC")),
+           hint="AC runs through the inverter; DC straight from the battery"),
+    Column("duty_cycle", "Duty", 5, hint="share of the on-time it really draws power (a fridge "
+           "compressor 0.3-0.5), 0-1"),
+    Column("surge_w", "Start", 6, unit="W", hint="starting power of one unit (motors), W; 0 if "
+           "none"),
+    Column("months", "Months", 7, "months", hint="months of use: 1-12, 5,6,7 or 11-2"),
+    Column("critical", "Must", 5, "choice", choices=((True, "yes"), (False, "no")),
+           hint="yes: must never be switched off to save energy"),
+    Column("time_of_day", "When", 6, "choice", choices=TIME_CHOICES,
+           hint="when it mostly runs (used by the hour-by-hour checks)",
+           short={"any": "any", "morning": "morn", "evening": "eve"}),
+    Column("energy", "Wh/day", 7, "figure", hint="energy at the appliance in the design month"),
+)

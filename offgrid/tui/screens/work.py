@@ -1,0 +1,205 @@
+"""The work screen: the six sections, the headline strip and the file actions."""
+
+from __future__ import annotations
+
+import time
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.screen import Screen
+from textual.widgets import ContentSwitcher, Footer, Input
+
+from offgrid.tui.screens.why import WhyDialog, find_reason
+from offgrid.tui.sections.base import Section
+from offgrid.tui.sections.cautions import CautionsSection
+from offgrid.tui.sections.loads import LoadsSection
+from offgrid.tui.sections.parts import PartsSection
+from offgrid.tui.sections.place import PlaceSection
+from offgrid.tui.sections.risk import RiskSection
+from offgrid.tui.sections.sizes import SizesSection
+from offgrid.tui.sections.wires import WiresSection
+from offgrid.tui.session import Session
+from offgrid.tui.widgets.bars import SECTIONS, FileBar, Headline, SectionBar
+
+SECTION_CLASSES: dict[str, type[Section]] = {
+    "place": PlaceSection, "loads": LoadsSection, "parts": PartsSection, "sizes": SizesSection,
+    "wires": WiresSection, "cautions": CautionsSection, "risk": RiskSection,
+}
+
+#: Section-changing and other one-letter keys work while no text box has focus.
+LETTER_ACTIONS = {"goto", "next_section", "why", "save_as", "open", "revert", "undo",
+                  "redo", "start", "help", "toggle_theme", "quit", "commands", "export"}
+
+
+class WorkScreen(Screen):
+    """Where the whole job is done."""
+
+    BINDINGS = [
+        *(Binding(str(n), f"goto('{sid}')", title, show=False, id=f"go.{sid}")
+          for n, (sid, title, _what) in enumerate(SECTIONS, start=1)),
+        Binding("right_square_bracket,greater_than_sign", "next_section(1)", "Next section",
+                show=False, id="go.next"),
+        Binding("left_square_bracket,less_than_sign", "next_section(-1)", "Previous section",
+                show=False, id="go.previous"),
+        Binding("w", "why", "Why?", id="why"),
+        Binding("s", "save", "Save", id="file.save"),
+        Binding("ctrl+s", "save", "Save", show=False, id="file.save_ctrl", priority=True),
+        Binding("S", "save_as", "Save as", show=False, id="file.save_as"),
+        Binding("o", "open", "Open", show=False, id="file.open"),
+        Binding("r", "revert", "Revert", show=False, id="file.revert"),
+        Binding("u", "undo", "Undo", show=False, id="edit.undo"),
+        Binding("U,ctrl+y", "redo", "Redo", show=False, id="edit.redo"),
+        Binding("n", "start", "Start screen", show=False, id="file.start"),
+        Binding("E", "export('report')", "Export report", show=False, id="file.report"),
+        Binding("B", "export('bom')", "Export parts list", show=False, id="file.bom"),
+    ]
+
+    def __init__(self, session: Session, section: str = "place") -> None:
+        super().__init__()
+        self.session = session
+        self.section = section
+        self.stale: set[str] = set()
+        self.last_change_s = 0.0
+
+    def compose(self) -> ComposeResult:
+        yield FileBar(id="filebar")
+        yield SectionBar(id="sectionbar")
+        yield Headline(id="headline")
+        with ContentSwitcher(initial=self.section, id="sections"):
+            yield SECTION_CLASSES[self.section](id=self.section)
+        yield Footer(compact=True)
+
+    def on_mount(self) -> None:
+        self.session.recompute()
+        self.refresh_all()
+        self.action_goto(self.section)
+        # The other sections are built after the first paint: a quicker start.
+        self.call_after_refresh(self._mount_rest)
+
+    async def _mount_rest(self) -> None:
+        switcher = self.query_one(ContentSwitcher)
+        missing = [cls(id=sid) for sid, cls in SECTION_CLASSES.items() if not self._has(sid)]
+        for widget in missing:
+            widget.display = widget.id == switcher.current
+        if missing:
+            await switcher.mount_all(missing)
+
+    def _has(self, sid: str) -> bool:
+        return bool(self.query_one(ContentSwitcher).query_children(f"#{sid}"))
+
+    # ------------------------------------------------------------------ state
+    @property
+    def current(self) -> Section:
+        return self.query_one(f"#{self.section}", Section)
+
+    def refresh_all(self) -> None:
+        """Redraw the bars and the visible section; mark the others to redraw when shown."""
+        self.query_one(FileBar).show(self.session)
+        self.query_one(Headline).show(self.session)
+        self.query_one(SectionBar).show(self.section)
+        self.current.show(self.session)
+        self.stale = {sid for sid, _t, _w in SECTIONS if sid != self.section}
+
+    def changed(self, note: str | None = None, tell: bool = False) -> None:
+        """After an accepted edit: recompute, redraw, and arm the recovery autosave.
+
+        ``note`` says what changed; it is shown only with ``tell`` (the headline
+        already shows the effect of an ordinary edit).
+        """
+        t0 = time.perf_counter()
+        self.session.recompute()
+        self.refresh_all()
+        self.last_change_s = time.perf_counter() - t0
+        self.app.project_changed()  # type: ignore[attr-defined]
+        if note and tell:
+            self.app.notify(note, markup=False, timeout=4)
+
+    def replace_session(self, session: Session) -> None:
+        self.session = session
+        session.recompute()
+        self.refresh_all()
+        focus = self.current.first_focus()
+        if focus is not None:
+            focus.focus()
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action in LETTER_ACTIONS and isinstance(self.focused, Input):
+            return None  # shown greyed; the key types into the box instead
+        return True
+
+    # ------------------------------------------------------------------ navigation
+    def action_goto(self, section: str) -> None:
+        if not self._has(section):  # still being built just after start: a moment later
+            self.call_after_refresh(self.action_goto, section)
+            return
+        self.set_focus(None)  # (a focused input can snap the switch back otherwise)
+        self.section = section
+        self.query_one(ContentSwitcher).current = section
+        if section in self.stale:
+            self.stale.discard(section)
+        self.current.show(self.session)
+        self.query_one(SectionBar).show(section)
+        focus = self.current.first_focus()
+        if focus is not None:
+            focus.focus()
+
+    def action_next_section(self, step: int) -> None:
+        ids = [sid for sid, _t, _w in SECTIONS]
+        self.action_goto(ids[(ids.index(self.section) + step) % len(ids)])
+
+    def reveal(self, path: str) -> None:
+        """Go to the section and field (or figure) that ``path`` names."""
+        order = {"site": "place", "climate": "place", "info": "place", "loads": "loads",
+                 "module": "parts", "battery": "parts", "controller": "parts",
+                 "inverter": "parts", "choices": "parts"}
+        head = path.split(".")[0].split("[")[0]
+        target = order.get(head, "sizes")
+        self.action_goto(target)
+        if not self.current.reveal(path) and target != "sizes":
+            self.action_goto("sizes")
+            self.current.reveal(path)
+
+    # ------------------------------------------------------------------ why
+    def action_why(self) -> None:
+        fig = self.current.figure()
+        if fig is None:
+            self.app.notify("Put the cursor on a figure first.", timeout=3)
+            return
+        reason = fig.reason
+        path = fig.path
+        if reason is None and self.session.design is not None:
+            path, reason = find_reason(self.session.design.reasons, fig.path)
+        self.app.push_screen(WhyDialog(fig.label, fig.value, reason, path, fig.extra))
+
+    # ------------------------------------------------------------------ edits and files
+    def action_undo(self) -> None:
+        if self.session.undo():
+            self.changed()
+            self.app.notify("Undone", timeout=2)
+        else:
+            self.app.notify("Nothing to undo", timeout=2)
+
+    def action_redo(self) -> None:
+        if self.session.redo():
+            self.changed()
+            self.app.notify("Redone", timeout=2)
+        else:
+            self.app.notify("Nothing to redo", timeout=2)
+
+    def action_save(self) -> None:
+        self.app.save_project()  # type: ignore[attr-defined]
+
+    def action_save_as(self) -> None:
+        self.app.save_project(ask=True)  # type: ignore[attr-defined]
+
+    def action_open(self) -> None:
+        self.app.open_dialog()  # type: ignore[attr-defined]
+
+    def action_revert(self) -> None:
+        self.app.revert_project()  # type: ignore[attr-defined]
+
+    def action_export(self, what: str) -> None:
+        self.app.export_dialog(what)  # type: ignore[attr-defined]
+
+    def action_start(self) -> None:
+        self.app.to_start()  # type: ignore[attr-defined]

@@ -1,0 +1,58 @@
+"""What every section of the work screen shares."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+from textual.containers import Vertical
+from textual.widget import Widget
+
+from offgrid.result import Reason
+from offgrid.tui.session import EditRejected, Session
+
+if TYPE_CHECKING:
+    from offgrid.tui.screens.work import WorkScreen
+
+
+@dataclass(frozen=True)
+class Figure:
+    """What the why key explains: a label, the value shown, and the engine figure behind it."""
+
+    label: str
+    value: str
+    path: str | None
+    reason: Reason | None = None  # a reason made here (e.g. one load's own energy)
+    extra: str = ""
+
+
+class Section(Vertical):
+    """One part of the work; sub-classes set ``section_id`` and fill :meth:`show`."""
+
+    section_id = ""
+    help_text = ""
+
+    @property
+    def work(self) -> WorkScreen:
+        return self.screen  # type: ignore[return-value]
+
+    @property
+    def session(self) -> Session:
+        return self.work.session
+
+    def show(self, session: Session) -> None:
+        """Redraw from the session (called after every change while visible)."""
+
+    def figure(self) -> Figure | None:
+        """The figure under the cursor, for the why key."""
+        return None
+
+    def first_focus(self) -> Widget | None:
+        return None
+
+    def reveal(self, path: str) -> bool:
+        """Put the cursor on the field at ``path`` if this section has it."""
+        return False
+
+    def problems_text(self, exc: EditRejected) -> str:
+        return "; ".join(p.message for p in exc.problems)

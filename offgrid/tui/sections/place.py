@@ -1,0 +1,527 @@
+"""Section 1, Place: the project, the site and its climate (pick one or type twelve months)."""
+
+from __future__ import annotations
+
+import dataclasses
+import re
+from pathlib import Path
+
+from rich.text import Text
+from textual import work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.widgets import DataTable, Static
+
+from offgrid.project.model import ClimateChoice, MonthlyClimate, Project
+from offgrid.tui.fields import PROJECT_FIELDS, Field, parse_number
+from offgrid.tui.screens.dialogs import ChoiceDialog, PathDialog
+from offgrid.tui.sections.base import Figure, Section
+from offgrid.tui.session import EditRejected, Session, get_path
+from offgrid.tui.text import from_printable, printable
+from offgrid.tui.widgets.editbar import EditBar
+from offgrid.tui.widgets.fieldtable import FieldTable
+from offgrid.tui.widgets.monthchart import MONTHS
+from offgrid.tui.widgets.steady import SteadyTable
+
+CLIMATE_FIELDS: tuple[Field | str, ...] = (
+    "Climate",
+    Field("climate", "Climate", "climate", hint="Enter or c: pick a bundled climate, a file, "
+          "or type twelve months"),
+    Field("climate.record_low_c", "Record low temperature", "auto_float", unit="C",
+          reason="site.record_low_c",
+          hint="lowest temperature expected, C: sets the cold string voltage"),
+)
+ROWS = (
+    ("insolation_kwh_m2_day", "Sun kWh/m2/d", "mean daily sun on the horizontal, kWh/m2/day"),
+    ("temp_mean_c", "Mean temp C", "monthly mean air temperature, C"),
+    ("temp_max_c", "Max temp C", "mean daily maximum, C (optional: '-' clears the row)"),
+    ("temp_min_c", "Min temp C", "mean daily minimum, C (optional: '-' clears the row)"),
+)
+ARRAY_ROW = ("poa", "On array", "sun on the tilted array, computed")
+WEATHER_SUFFIXES = (".toml", ".epw", ".csv", ".tm2", ".tmy2")
+
+
+def climate_name(project: Project) -> str:
+    c = project.climate
+    if c.inline is not None:
+        demo = " (demonstration data)" if c.inline.demo else ""
+        return "own twelve months" + demo
+    if c.ref:
+        return c.ref
+    return "none yet: press c to choose"
+
+
+def checked_climate(climate: MonthlyClimate) -> None:
+    """Raise ValueError (with the field) if the climate could not be saved and read back."""
+    from offgrid.climate.files import climate_from_dict, climate_to_dict
+
+    climate_from_dict(climate_to_dict(climate), where="climate")
+
+
+class ClimateTable(SteadyTable):
+    """Twelve months of the climate; a cell edits one month, or type twelve values at once."""
+
+    BINDINGS = [Binding("enter", "select_cursor", "Edit month", id="climate.edit")]
+
+    DEFAULT_CSS = """
+    ClimateTable { height: 7; }
+    """
+
+    def __init__(self, **kwargs) -> None:
+        super().__init__(cursor_type="cell", cell_padding=0, zebra_stripes=False, **kwargs)
+
+    def fill(self, climate: MonthlyClimate | None, poa, design_month: int | None) -> None:
+        keep = self.cursor_coordinate
+        self.clear(columns=True)
+        self.add_column(Text("Month"), width=13, key="label")
+        for i, m in enumerate(MONTHS, start=1):
+            mark = m + ("\u25c2" if design_month == i else " ")
+            style = "bold reverse" if design_month == i else "bold"
+            self.add_column(Text(mark.rjust(5), style=style), width=5, key=m)
+        rows = [*ROWS, ARRAY_ROW]
+        for key, label, _hint in rows:
+            values = poa if key == "poa" else getattr(climate, key) if climate is not None else None
+            cells = [Text(label, style="dim" if key == "poa" else "")]
+            for i in range(12):
+                if values is None or len(values) != 12:
+                    cells.append(Text("-".rjust(5), style="dim"))
+                else:
+                    digits = 2 if key in ("insolation_kwh_m2_day", "poa") else 1
+                    cells.append(Text(f"{values[i]:.{digits}f}".rjust(5),
+                                      style="dim" if key == "poa" else ""))
+            self.add_row(*cells, key=key)
+        if keep.row < self.row_count:
+            self.move_cursor(row=keep.row, column=max(1, keep.column), animate=False)
+        else:
+            self.move_cursor(row=0, column=1, animate=False)
+
+
+class PlaceSection(Section):
+    section_id = "place"
+    help_text = ("Project and site details, and the climate: pick a bundled one, a file, or "
+                 "type the twelve monthly values in the table.")
+
+    BINDINGS = [
+        Binding("c", "choose_climate", "Climate", id="place.climate"),
+        Binding("m", "own_months", "Type months", id="place.months"),
+        Binding("k", "check_climate", "Check", id="place.check"),
+    ]
+
+    def compose(self) -> ComposeResult:
+        yield FieldTable(PROJECT_FIELDS + CLIMATE_FIELDS, id="place-fields")
+        yield Static(id="climate-title", classes="table-title")
+        yield ClimateTable(id="climate-table")
+        yield EditBar(id="place-edit")
+
+    @property
+    def fields(self) -> FieldTable:
+        return self.query_one(FieldTable)
+
+    @property
+    def months(self) -> ClimateTable:
+        return self.query_one(ClimateTable)
+
+    @property
+    def editor(self) -> EditBar:
+        return self.query_one(EditBar)
+
+    def first_focus(self):
+        return self.fields
+
+    # ------------------------------------------------------------------ drawing
+    def show(self, session: Session) -> None:
+        project, design = session.project, session.design
+        special = {"climate": climate_name(project)}
+        inline = project.climate.inline
+        if inline is None:
+            special["climate.record_low_c"] = ("from the climate file" if project.climate.ref
+                                               else "-")
+        else:
+            low = inline.record_low_c
+            special["climate.record_low_c"] = (f"{low:g} C" if low is not None else
+                                               "estimated from minima")
+        self.fields.fill(project, design, {}, special)
+        climate = self._climate(session)
+        poa = design.site.poa_kwh_m2_day if design else None
+        dm = design.site.design_month if design else None
+        self.months.fill(climate, poa, dm)
+        if inline is not None:
+            title = "Monthly climate (your own values: Enter edits a month)"
+        elif project.climate.ref:
+            title = f"Monthly climate from '{printable(project.climate.ref)}' (Enter on a " \
+                    "month makes your own copy)"
+        else:
+            title = "Monthly climate: none yet (press c to pick one, or m to type your own)"
+        self.query_one("#climate-title", Static).update(Text(title, style="bold"))
+
+    def _climate(self, session: Session) -> MonthlyClimate | None:
+        c = session.project.climate
+        if c.inline is not None:
+            return c.inline
+        if c.ref:
+            try:
+                from offgrid.sizing import resolve_climate
+
+                return resolve_climate(session.project, session.base_dir)
+            except ValueError:
+                return None
+        return None
+
+    # ------------------------------------------------------------------ fields
+    def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
+        if event.data_table is not self.fields:
+            return
+        event.stop()
+        field = self.fields.current_field()
+        if field is None:
+            return
+        if field.kind == "climate":
+            self.action_choose_climate()
+            return
+        if field.path == "climate.record_low_c":
+            self._edit_record_low(field)
+            return
+        original = get_path(self.session.project, field.path)
+        text = printable(original) if field.base_kind == "text" else field.edit_text(original)
+
+        def apply(typed: str) -> str | None:
+            try:
+                value = field.parse(typed)
+                if field.base_kind == "text":
+                    value = from_printable(value, original)
+                self.session.set_value(field.path, value)
+            except EditRejected as exc:
+                return self.problems_text(exc)
+            except ValueError as exc:
+                return str(exc)
+            self.work.changed(f"{field.label} set")
+            return None
+
+        self.editor.start(field.label, text, apply, field.help(), back=self.fields)
+
+    def _edit_record_low(self, field: Field) -> None:
+        project = self.session.project
+        current = project.climate.inline.record_low_c if project.climate.inline else None
+        text = "auto" if current is None else f"{current:g}"
+
+        def apply(typed: str) -> str | None:
+            try:
+                value = field.parse(typed)
+
+                def put(p: Project) -> None:
+                    self._make_own(p)
+                    p.climate.inline.record_low_c = value
+                    checked_climate(p.climate.inline)
+
+                self.session.change(put, focus="climate")
+            except EditRejected as exc:
+                return self.problems_text(exc)
+            except ValueError as exc:
+                return str(exc)
+            self.work.changed("record low set")
+            return None
+
+        self.editor.start(field.label, text, apply, field.help() + "; setting it makes your "
+                          "own copy of the climate", back=self.fields)
+
+    # ------------------------------------------------------------------ months
+    def on_data_table_cell_selected(self, event: DataTable.CellSelected) -> None:
+        if event.data_table is not self.months:
+            return
+        event.stop()
+        row, col = event.coordinate.row, event.coordinate.column
+        if row >= len(ROWS):
+            self.app.notify("This row is computed from the climate and the tilt.", timeout=3)
+            return
+        key, label, hint = ROWS[row]
+        month = max(1, col)
+        climate = self._climate(self.session)
+        values = getattr(climate, key) if climate is not None else None
+        start = f"{values[month - 1]:g}" if values else ""
+
+        def apply(typed: str) -> str | None:
+            try:
+                self.session.change(lambda p: self._put_months(p, key, month, typed),
+                                    focus="climate")
+            except EditRejected as exc:
+                return self.problems_text(exc)
+            self.work.changed(f"{MONTHS[month - 1]} {label.lower()} set")
+            return None
+
+        what = f"{label} for {MONTHS[month - 1]} (or twelve values separated by spaces)"
+        self.editor.start(what, start, apply, hint, back=self.months)
+
+    def _make_own(self, p: Project) -> None:
+        """Turn a referenced climate into the project's own copy (same values)."""
+        if p.climate.inline is not None:
+            return
+        base = None
+        if p.climate.ref:
+            from offgrid.sizing import resolve_climate
+
+            base = resolve_climate(p, self.session.base_dir)
+        if base is None:
+            base = MonthlyClimate(insolation_kwh_m2_day=[0.0] * 12, temp_mean_c=[20.0] * 12,
+                                  source="typed by the user")
+            own = base
+        else:
+            own = dataclasses.replace(base, source=f"own copy of {p.climate.ref}: "
+                                      f"{base.source}".strip())
+        p.climate = ClimateChoice(inline=own)
+
+    def _put_months(self, p: Project, key: str, month: int, typed: str) -> None:
+        self._make_own(p)
+        climate = p.climate.inline
+        assert climate is not None
+        unit = "" if key.startswith("insolation") else "C"
+        parts = [x.rstrip(",") for x in re.split(r"[\s;]+", typed.strip()) if x]
+        if len(parts) == 1 and parts[0].count(",") >= 11:
+            parts = [x for x in parts[0].split(",") if x]
+        optional = key in ("temp_max_c", "temp_min_c")
+        if typed.strip() in ("-", "") and optional:
+            setattr(climate, key, None)
+        elif len(parts) == 12:
+            setattr(climate, key, [parse_number(s, unit) for s in parts])
+        elif len(parts) == 1:
+            values = getattr(climate, key)
+            if values is None:
+                raise ValueError("this row is empty: type all twelve values, January first, "
+                                 "separated by spaces")
+            values = list(values)
+            values[month - 1] = parse_number(parts[0], unit)
+            setattr(climate, key, values)
+        else:
+            raise ValueError(f"type one value, or all twelve (you typed {len(parts)})")
+        checked_climate(climate)
+
+    # ------------------------------------------------------------------ climate choice
+    def action_choose_climate(self) -> None:
+        from offgrid.climate.files import bundled_climates, load_climate
+
+        options: list[tuple[object, str | Text]] = []
+        for name, path in bundled_climates().items():
+            try:
+                c = load_climate(path)
+                where = (f"  lat {c.latitude_deg:g}" if c.latitude_deg is not None else "")
+                demo = "  (demonstration data)" if c.demo else ""
+                options.append((("ref", name), f"{name}{where}{demo}"))
+            except ValueError as exc:
+                options.append((("bad", name), f"{name}: cannot be read ({exc})"))
+        options.append((("own", ""), "Type twelve monthly values (starts from the current "
+                        "climate)"))
+        options.append((("file", ""), "Import a weather file: EPW, TMY3, TMY2, monthly CSV, or "
+                        "an offgrid climate (.toml)..."))
+        current = self.session.project.climate
+        now = ("ref", current.ref) if current.ref else ("own", "") if current.inline else None
+        self.app.push_screen(ChoiceDialog("Climate for this site", options, now),
+                             self._climate_chosen)
+
+    def _climate_chosen(self, choice) -> None:
+        if not choice:
+            return
+        kind, name = choice
+        if kind == "bad":
+            self.app.notify("That climate file cannot be read.", severity="error")
+        elif kind == "ref":
+            self._use_ref(name)
+        elif kind == "own":
+            self.action_own_months()
+        elif kind == "file":
+            self.app.push_screen(PathDialog(
+                "Climate or weather file", suffixes=WEATHER_SUFFIXES, verb="reads it",
+                note="An offgrid climate (.toml) is used as it is; an hourly weather year "
+                     "(EPW, TMY3, TMY2) or a monthly CSV is reduced to twelve months and "
+                     "checked."), self._file_chosen)
+
+    def _file_chosen(self, path: Path | None) -> None:
+        if path is None:
+            return
+        from offgrid.tui.screens.dialogs import MessageDialog
+
+        path = path.resolve()
+        if path.suffix.lower() == ".toml":
+            from offgrid.climate.files import load_climate
+
+            try:
+                load_climate(path)
+            except ValueError as exc:
+                self.app.push_screen(MessageDialog("That climate file cannot be used", str(exc)))
+                return
+            self._use_ref(str(path))
+            return
+        self.app.notify(f"Importing {printable(path.name)}...", timeout=3, markup=False)
+        self._import(path)
+
+    @work(thread=True, exclusive=True, group="climate-import")
+    def _import(self, path: Path) -> None:
+        """Read and reduce a weather file (pvlib readers: slow to load, so off the UI thread)."""
+        try:
+            from offgrid.climate.importers import import_weather_file
+
+            result = import_weather_file(path)
+        except (ValueError, OSError, ImportError) as exc:
+            self.app.call_from_thread(self._import_failed, path, str(exc))
+            return
+        self.app.call_from_thread(self._imported, path, result)
+
+    def _import_failed(self, path: Path, message: str) -> None:
+        from offgrid.tui.screens.dialogs import MessageDialog
+
+        self.app.push_screen(MessageDialog(f"{printable(path.name)} was not imported",
+                                           message + "\n\nThe project was not changed."))
+
+    def _imported(self, path: Path, result) -> None:
+        from offgrid.tui.screens.dialogs import MessageDialog
+
+        climate = result.climate
+
+        def put(p: Project) -> None:
+            p.climate = ClimateChoice(inline=climate)
+            if p.site.latitude_deg == 0 and p.site.longitude_deg == 0 and \
+                    climate.latitude_deg is not None:
+                p.site.latitude_deg = climate.latitude_deg
+                p.site.longitude_deg = climate.longitude_deg or 0.0
+                p.site.elevation_m = climate.elevation_m or p.site.elevation_m
+            checked_climate(p.climate.inline)
+
+        try:
+            self.session.change(put, focus="climate")
+        except EditRejected as exc:
+            self._import_failed(path, self.problems_text(exc))
+            return
+        self.work.changed(f"Climate imported from {printable(path.name)}")
+        lines = [f"Twelve monthly values from {path.name} ({result.kind}) are now this "
+                 "project's own climate.", f"Source: {climate.source}"]
+        lines += [f"Note: {n}" for n in result.notes]
+        lines += [f"{f.severity.upper()}: {f.message}" for f in result.findings]
+        self.app.push_screen(MessageDialog("Climate imported", "\n".join(lines)))
+
+    # ------------------------------------------------------------------ checks
+    def action_check_climate(self) -> None:
+        climate = self._climate(self.session)
+        if climate is None:
+            self.app.notify("No climate to check yet: press c to choose one.", timeout=3)
+            return
+        self.app.notify("Checking the climate against the sun's geometry...", timeout=2)
+        site = self.session.project.site
+        self._check(climate, site.latitude_deg, site.longitude_deg, site.elevation_m)
+
+    @work(thread=True, exclusive=True, group="climate-check")
+    def _check(self, climate, lat: float, lon: float, elev: float) -> None:
+        try:
+            from offgrid.climate.checks import check_climate
+
+            findings = check_climate(climate, lat, lon, elev)
+        except (ValueError, ImportError) as exc:
+            self.app.call_from_thread(self._import_failed, Path("climate"), str(exc))
+            return
+        self.app.call_from_thread(self._checked, findings)
+
+    def _checked(self, findings) -> None:
+        from offgrid.tui.screens.dialogs import ChoiceDialog, MessageDialog
+
+        if not findings:
+            self.app.push_screen(MessageDialog("Climate check", "No problems found: the sun "
+                                               "values fit the site's clear-sky limits and the "
+                                               "temperatures agree with each other."))
+            return
+        options: list[tuple[object, str]] = []
+        for f in findings:
+            month = f" ({MONTHS[f.month - 1]})" if f.month else ""
+            options.append((None, f"{f.severity.upper()}{month}: {f.message}"))
+            for i, fix in enumerate(f.fixes):
+                options.append(((f, i), f"   fix: {fix.label}"))
+
+        def chosen(value) -> None:
+            if not value:
+                return
+            finding, i = value
+            from offgrid.climate.checks import apply_fix
+
+            def put(p: Project) -> None:
+                self._make_own(p)
+                p.climate = ClimateChoice(inline=apply_fix(p.climate.inline, finding, i))
+                checked_climate(p.climate.inline)
+
+            try:
+                self.session.change(put, focus="climate")
+            except EditRejected as exc:
+                self.app.notify(self.problems_text(exc), severity="error", markup=False)
+                return
+            self.work.changed(f"Climate fixed: {finding.fixes[i].label}", tell=True)
+
+        self.app.push_screen(ChoiceDialog("Climate check: what was found (Enter on a fix "
+                                          "applies it to your own copy)", options,
+                                          note="u undoes a fix"), chosen)
+
+    def _use_ref(self, ref: str) -> None:
+        from offgrid.climate.files import load_climate
+
+        moved = []
+
+        def put(p: Project) -> None:
+            p.climate = ClimateChoice(ref=ref)
+            c = load_climate(ref, self.session.base_dir)
+            if p.site.latitude_deg == 0 and p.site.longitude_deg == 0 and c.latitude_deg:
+                p.site.latitude_deg = c.latitude_deg
+                p.site.longitude_deg = c.longitude_deg or 0.0
+                p.site.elevation_m = c.elevation_m or p.site.elevation_m
+                moved.append("latitude and longitude taken from the climate")
+
+        try:
+            self.session.change(put, focus="climate")
+        except EditRejected as exc:
+            self.app.notify(self.problems_text(exc), severity="error", markup=False)
+            return
+        note = f"Climate: {printable(ref)}" + (f"; {moved[0]}" if moved else "")
+        self.work.changed(note, tell=True)
+
+    def action_own_months(self) -> None:
+        try:
+            self.session.change(self._make_own, focus="climate")
+        except EditRejected as exc:
+            self.app.notify(self.problems_text(exc), severity="error", markup=False)
+            return
+        self.work.changed("Now using your own twelve months: edit them in the table", tell=True)
+        self.months.focus()
+
+    # ------------------------------------------------------------------ why
+    def figure(self) -> Figure | None:
+        d = self.session.design
+        if self.months.has_focus:
+            row, col = self.months.cursor_coordinate
+            month = max(1, col)
+            key, label, _hint = ([*ROWS, ARRAY_ROW])[row]
+            value = "-"
+            if key == "poa" and d is not None:
+                value = f"{d.site.poa_kwh_m2_day[month - 1]:.2f} kWh/m2/day"
+                return Figure(f"{MONTHS[month - 1]} sun on the array", value,
+                              "site.poa_kwh_m2_day")
+            climate = self._climate(self.session)
+            values = getattr(climate, key, None) if climate else None
+            if values:
+                value = f"{values[month - 1]:g}"
+            src = climate.source if climate else ""
+            return Figure(f"{MONTHS[month - 1]} {label}", value, "site.design_month"
+                          if d and d.site.design_month == month else None,
+                          extra=f"Climate data, typed or read from the climate file. Source: "
+                                f"{src or 'not given'}")
+        field = self.fields.current_field()
+        if field is None:
+            return None
+        try:
+            value = field.show(get_path(self.session.project, field.path), d)
+        except (AttributeError, IndexError):
+            value = climate_name(self.session.project)
+        extra = "" if field.reason else "A value you typed; the engine uses it as given."
+        return Figure(field.label, value, field.reason, extra=extra)
+
+    def reveal(self, path: str) -> bool:
+        if path.startswith("climate"):
+            self.fields.select_path("climate")
+            self.fields.focus()
+            return True
+        if self.fields.select_path(path):
+            self.fields.focus()
+            return True
+        return False

@@ -1,0 +1,227 @@
+"""Section 7, Risk: how often the battery would run out, over many synthetic weather years.
+
+The study (:func:`offgrid.simulate.run.simulate_project`) takes a few seconds, so
+it runs in a worker thread on a copy of the project, with a progress bar; the
+rest of the UI stays usable and ``x`` stops it.  Results are marked out of date
+as soon as the project changes.
+"""
+
+from __future__ import annotations
+
+import copy
+import time
+from dataclasses import dataclass
+
+from rich.text import Text
+from textual import work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.widgets import DataTable, ProgressBar, Static
+
+from offgrid.result import Reason
+from offgrid.tui.sections.base import Figure, Section
+from offgrid.tui.session import Session
+from offgrid.tui.text import printable
+from offgrid.tui.widgets.monthchart import MONTHS
+from offgrid.tui.widgets.steady import SteadyTable
+
+YEARS = 30
+
+
+@dataclass
+class RiskRun:
+    report: object  # offgrid.simulate.run.SimulationReport
+    project_text: str
+    seconds: float
+
+
+def pct(x: float | None) -> str:
+    if x is None:
+        return "-"
+    v = 100 * x
+    if v == 0:
+        return "0 %"
+    return f"{v:.3f} %" if v < 0.1 else f"{v:.2f} %" if v < 10 else f"{v:.1f} %"
+
+
+class RiskSection(Section):
+    section_id = "risk"
+    help_text = (f"Runs {YEARS} years of synthetic daily weather through the design (a few "
+                 "seconds, in the background) and reports how often loads would be shed, "
+                 "how deep the battery cycles, and the array/battery trade-off.")
+
+    BINDINGS = [
+        Binding("g", "run", "Run check", id="risk.run"),
+        Binding("x", "stop", "Stop", id="risk.stop"),
+    ]
+
+    def __init__(self, **kwargs) -> None:
+        super().__init__(**kwargs)
+        self.result: RiskRun | None = None
+        self.running = False
+        self._rows: list[tuple[str, str, Reason | None, str]] = []
+
+    def compose(self) -> ComposeResult:
+        yield Static(id="risk-status", classes="table-title")
+        yield ProgressBar(total=100, show_eta=False, id="risk-progress")
+        yield SteadyTable(id="risk-table", cursor_type="row", zebra_stripes=False)
+        yield Static(id="risk-months", classes="months-strip")
+
+    @property
+    def table(self) -> DataTable:
+        return self.query_one("#risk-table", DataTable)
+
+    def first_focus(self):
+        return self.table
+
+    # ------------------------------------------------------------------ drawing
+    def show(self, session: Session) -> None:
+        status = self.query_one("#risk-status", Static)
+        bar = self.query_one(ProgressBar)
+        bar.display = self.running
+        if self.running:
+            status.update(Text(f"Simulating {YEARS} years of weather... (x stops; you can keep "
+                               "working)", style="bold"))
+        elif self.result is None:
+            status.update(Text(f"Press g to test this design against {YEARS} years of synthetic "
+                               "weather (a few seconds, in the background).", style="bold"))
+        elif self.result.project_text != session.text():
+            status.update(Text("\u26a0 Out of date: the project changed since this run. Press g "
+                               "to run again.", style="bold reverse"))
+        else:
+            status.update(Text(f"Result for the design as it is now ({self.result.seconds:.1f} "
+                               "s). w explains a figure.", style="bold"))
+        self._fill()
+
+    def _fill(self) -> None:
+        table = self.table
+        keep = table.cursor_row or 0
+        table.clear(columns=not table.columns)
+        if not table.columns:
+            table.add_column("Figure", width=34, key="label")
+            table.add_column("Value", key="value")
+        self._rows = []
+        strip = self.query_one("#risk-months", Static)
+        if self.result is None:
+            strip.update("")
+            return
+        rep = self.result.report
+        r = rep.reliability
+        wear = r.wear
+        rs = r.reasons
+        rows = [
+            ("Loss-of-load probability", pct(r.lolp) + f"  ({r.shed_days} of {r.days} days)",
+             rs.get("lolp"), ""),
+            ("Unmet energy", pct(r.unmet_fraction), rs.get("unmet_fraction"), ""),
+            ("Critical loads: LOLP", pct(r.lolp_critical), rs.get("lolp_critical"), ""),
+            ("Longest shedding run", f"{r.longest_shed_run_days} days",
+             rs.get("longest_shed_run_days"), ""),
+            (f"Days below {r.soc_threshold:.0%} charge", f"{r.days_below_soc}",
+             rs.get("days_below_soc"), ""),
+            ("LOLP at end of battery life", pct(r.lolp_end_of_life), rs.get("lolp"),
+             "The same simulation with the battery capacity at its end-of-life fraction."),
+            ("Battery expected life", f"{wear.expected_life_years:.1f} years",
+             rs.get("wear.expected_life_years"), ""),
+            ("Full cycles per year", f"{wear.equivalent_full_cycles_per_year:.0f}",
+             rs.get("wear.equivalent_full_cycles_per_year"), ""),
+            ("PV energy spilled (battery full)", pct(r.spilled_fraction), None,
+             "Share of the controller output that the full battery could not take."),
+        ]
+        tr = rep.tradeoff
+        if tr is not None:
+            for t in tr.targets:
+                need = (f"{t.design_capacity_needed_wh / 1000:.1f} kWh battery at this array"
+                        if t.design_capacity_needed_wh else "-")
+                rows.append((f"For LOLP {pct(t.target)}", ("met; " if t.design_meets else
+                                                           "NOT met; ") + need, None,
+                             t.message))
+        for label, value, reason, extra in rows:
+            table.add_row(Text("  " + label), Text(value, style="bold"))
+            self._rows.append((label, value, reason, extra))
+        if table.row_count:
+            table.move_cursor(row=min(keep, table.row_count - 1), animate=False)
+        text = Text(no_wrap=True, overflow="crop")
+        text.append(f"{'LOLP %':<12}", style="bold")
+        for m in MONTHS:
+            text.append(f"{m:>5}", style="bold")
+        text.append(f"\n{'':<12}")
+        for ms in r.months:
+            text.append(f"{100 * ms.lolp:>5.1f}")
+        text.append(f"\n{'SoC low p5':<12}")
+        for ms in r.months:
+            text.append(f"{100 * ms.soc_min_p5:>5.0f}")
+        strip.update(text)
+
+    # ------------------------------------------------------------------ running
+    def action_run(self) -> None:
+        if self.running:
+            self.app.notify("Already running (x stops it).", timeout=2)
+            return
+        if self.session.design is None:
+            self.app.notify("No design to test yet: see the headline.", severity="warning",
+                            timeout=3)
+            return
+        self.running = True
+        self.query_one(ProgressBar).update(progress=0)
+        self.show(self.session)
+        self._simulate(copy.deepcopy(self.session.project), self.session.base_dir,
+                       self.session.text())
+
+    def action_stop(self) -> None:
+        if self.running:
+            self.workers.cancel_group(self, "risk")
+            self.running = False
+            self.app.notify("Stopped.", timeout=2)
+            self.show(self.session)
+
+    @work(thread=True, exclusive=True, group="risk")
+    def _simulate(self, project, base, text: str) -> None:
+        from textual.worker import get_current_worker
+
+        worker = get_current_worker()
+        t0 = time.perf_counter()
+        try:
+            from offgrid.simulate.balance import SimulationCancelled
+            from offgrid.simulate.run import simulate_project
+        except ImportError as exc:
+            self.app.call_from_thread(self._failed, f"the simulation is not installed ({exc})")
+            return
+        try:
+            report = simulate_project(
+                project, base, years=YEARS,
+                progress=lambda f: self.app.call_from_thread(self._progress, f),
+                cancelled=lambda: worker.is_cancelled)
+        except SimulationCancelled:
+            return
+        except Exception as exc:  # a message for the user, not a crash
+            if not worker.is_cancelled:
+                self.app.call_from_thread(self._failed, str(exc))
+            return
+        if not worker.is_cancelled:
+            run = RiskRun(report, text, time.perf_counter() - t0)
+            self.app.call_from_thread(self._done, run)
+
+    def _progress(self, fraction: float) -> None:
+        self.query_one(ProgressBar).update(progress=100 * fraction)
+
+    def _done(self, run: RiskRun) -> None:
+        self.running = False
+        self.result = run
+        if self.is_attached and self.work.session is not None:
+            self.show(self.session)
+        self.app.notify(f"Risk check done: LOLP {pct(run.report.reliability.lolp)}",
+                        timeout=4)
+
+    def _failed(self, message: str) -> None:
+        self.running = False
+        self.app.notify(f"Risk check failed: {message}", severity="error", markup=False,
+                        timeout=6)
+        if self.is_attached:
+            self.show(self.session)
+
+    # ------------------------------------------------------------------ why
+    def figure(self) -> Figure | None:
+        if not self._rows:
+            return None
+        label, value, reason, extra = self._rows[min(self.table.cursor_row, len(self._rows) - 1)]
+        return Figure(label, value, None, reason, extra=printable(extra))

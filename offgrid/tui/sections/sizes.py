@@ -1,0 +1,221 @@
+"""Section 4, Sizes: every figure of the design, and supply against demand by month."""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.widgets import DataTable
+
+from offgrid.result import SystemDesign
+from offgrid.tui.sections.base import Figure, Section
+from offgrid.tui.session import Session
+from offgrid.tui.text import printable
+from offgrid.tui.widgets.monthchart import MONTHS, MonthChart
+from offgrid.tui.widgets.steady import SteadyTable
+
+KNOWN = {"loads", "site", "array", "battery", "controller", "inverter", "warnings", "cautions",
+         "reasons", "electrical", "wires"}
+Row = str | tuple[str, str, str | None]
+
+
+def figure_rows(d: SystemDesign) -> list[Row]:
+    """Headings and (label, value, reason path) rows for every figure of the design."""
+    a, b, c, inv, ld, s = d.array, d.battery, d.controller, d.inverter, d.loads, d.site
+    dm = s.design_month - 1
+    rows: list[Row] = [
+        "Array",
+        ("Array power", f"{a.power_w:,.0f} W", "array.power_w"),
+        ("Modules", f"{a.modules_series} in series \u00d7 {a.modules_parallel} strings = "
+                    f"{a.module_count} \u00d7 {a.module_power_w:g} W", "array.modules_series"),
+        ("Strings in parallel", f"{a.modules_parallel}", "array.modules_parallel"),
+        ("Power needed", f"{a.required_power_w:,.0f} W", "array.required_power_w"),
+        ("All derates together", f"{a.derate_total:.3f}", "array.required_power_w"),
+        *[(f"  derate: {name}", f"{value:.3f}", f"array.derates.{name}"
+           if f"array.derates.{name}" in d.reasons else "array.required_power_w")
+          for name, value in a.derates.items()],
+        ("Cold string Voc", f"{a.string_voc_cold_v:.1f} V", "array.modules_series"),
+        ("Hot string Vmp", f"{a.string_vmp_hot_v:.1f} V", "array.modules_series"),
+        "Battery bank",
+        ("System voltage", f"{b.system_voltage_v} V", "battery.system_voltage_v"),
+        ("Capacity installed", f"{b.capacity_ah:,.0f} Ah", "battery.capacity_ah"),
+        ("Capacity needed", f"{b.required_ah:,.0f} Ah", "battery.required_ah"),
+        ("Energy, nominal", f"{b.nominal_kwh:.2f} kWh", "battery.capacity_ah"),
+        ("Energy, usable", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD",
+         "battery.usable_kwh"),
+        ("Units", f"{b.units_series} in series \u00d7 {b.units_parallel} strings = "
+                  f"{b.unit_count}", "battery.units_parallel"),
+        ("Days of autonomy", f"{b.autonomy_days:g} days", "battery.required_ah"),
+        ("Temperature factor", f"{b.temp_factor:.3f}", "battery.required_ah"),
+        "Charge controller",
+        ("Rating", (f"{c.count} \u00d7 " if c.count > 1 else "") +
+         f"{c.current_a:.0f} A {c.type.upper()}", "controller.current_a"),
+        ("Current needed", f"{c.required_current_a:.1f} A", "controller.required_current_a"),
+        "Inverter",
+        *((("Continuous", f"{inv.continuous_w:,.0f} W", "inverter.continuous_w"),
+           ("Surge", f"{inv.surge_w:,.0f} W (needs {inv.required_surge_w:,.0f} W)",
+            "inverter.surge_w"),
+           ("DC input current", f"{inv.dc_input_current_a:.1f} A",
+            "inverter.dc_input_current_a"))
+          if inv.needed else (("Inverter", "none: no AC loads", "inverter.continuous_w"),)),
+        "Loads and site",
+        ("Design month", MONTHS[dm], "site.design_month"),
+        ("Energy in design month", f"{ld.design_daily_energy_wh:,.0f} Wh/day",
+         "loads.design_daily_energy_wh"),
+        ("Largest month", f"{ld.max_daily_energy_wh:,.0f} Wh/day", "loads.daily_energy_wh"),
+        ("Peak AC power at once", f"{ld.peak_ac_w:,.0f} W", "loads.peak_ac_w"),
+        ("Largest starting power", f"{ld.largest_surge_w:,.0f} W "
+         f"({printable(ld.largest_surge_load) or 'none'})", "loads.largest_surge_w"),
+        ("Inverter idle energy", f"{ld.inverter_idle_wh:,.0f} Wh/day", "loads.inverter_idle_wh"),
+        ("Sun on array, design month", f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day",
+         "site.poa_kwh_m2_day"),
+        ("Tilt / azimuth", f"{s.tilt_deg:.0f} / {s.azimuth_deg:.0f} deg", "site.tilt_deg"),
+        ("Record low temperature", f"{s.record_low_c:.1f} C", "site.record_low_c"),
+    ]
+    rows += electrical_rows(d)
+    rows += extra_rows(d)
+    return rows
+
+
+def electrical_rows(d: SystemDesign) -> list[Row]:
+    """Strings, module operating point and harvest from the electrical design, if present."""
+    er = getattr(d, "electrical", None)
+    if er is None:
+        return []
+    rows: list[Row] = ["Strings and module"]
+    try:
+        w, lay, h, mp = er.strings.window, er.strings.layout, er.harvest, er.mpp
+        rows += [
+            ("Series count allowed", f"{w.min_series} to {w.max_series} modules",
+             "strings.max_series"),
+            ("Layout", f"{lay.series} in series \u00d7 {lay.parallel} strings"
+             + (f" on {lay.controllers} controllers" if lay.controllers > 1 else ""),
+             "strings.min_series"),
+            ("Module at design-month noon", f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, "
+             f"{mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)", "mpp.pmp_w"),
+            ("PWM harvest against MPPT", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
+             "array.harvest_pwm_wh_day"),
+        ]
+        if h.shortfall_pct > 0:
+            rows.append(("Harvest short of demand", f"{h.shortfall_pct:.1f} %",
+                         "array.harvest_mppt_wh_day"))
+        p = er.protection
+        rows.append(("Battery bank fault current", f"{p.bank_fault_current_a:,.0f} A",
+                     "protection.bank_fault_current_a"))
+    except AttributeError:  # an older or newer electrical record: show what we can
+        return rows[:1] + [(k, v, path) for k, v, path in rows[1:]]
+    return rows
+
+
+def _show_value(value) -> str | None:
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, int):
+        return str(value)
+    if isinstance(value, float):
+        return f"{value:,.3g}" if abs(value) < 100 else f"{value:,.0f}" if math.isfinite(
+            value) else "-"
+    if isinstance(value, str):
+        return printable(value)
+    return None
+
+
+def extra_rows(d: SystemDesign) -> list[Row]:
+    """Figures of results that later parts of the engine add (shown as they arrive)."""
+    rows: list[Row] = []
+    for f in dataclasses.fields(d):
+        if f.name in KNOWN or f.name == "wires":
+            continue
+        value = getattr(d, f.name)
+        if not dataclasses.is_dataclass(value):
+            continue
+        rows.append(f.name.replace("_", " ").capitalize())
+        for g in dataclasses.fields(value):
+            shown = _show_value(getattr(value, g.name))
+            if shown is not None:
+                rows.append((g.name.replace("_", " "), shown, f"{f.name}.{g.name}"))
+    return rows
+
+
+class FigureTable(SteadyTable):
+    BINDINGS = [Binding("enter", "select_cursor", "Why", id="sizes.why", show=False)]
+
+    def __init__(self, **kwargs) -> None:
+        super().__init__(cursor_type="row", zebra_stripes=False, **kwargs)
+        self.rows_shown: list[Row] = []
+
+    def fill(self, d: SystemDesign | None, error: str | None) -> None:
+        keep = self.cursor_row or 1
+        self.clear(columns=not self.columns)
+        if not self.columns:
+            self.add_column("Figure", width=28, key="label")
+            self.add_column("Value", key="value")
+        self.rows_shown = figure_rows(d) if d is not None else []
+        if d is None:
+            self.add_row(Text("No design", style="bold"), Text(printable(error or "")))
+            return
+        for i, row in enumerate(self.rows_shown):
+            if isinstance(row, str):
+                self.add_row(Text(row, style="bold underline"), Text(""), key=f"g{i}")
+            else:
+                label, value, _path = row
+                self.add_row(Text("  " + label), Text(value, style="bold"), key=f"r{i}")
+        self.move_cursor(row=min(keep, self.row_count - 1), animate=False)
+
+    def is_heading(self, row: int) -> bool:
+        return 0 <= row < len(self.rows_shown) and isinstance(self.rows_shown[row], str)
+
+    def current(self) -> tuple[str, str, str | None] | None:
+        if not self.rows_shown:
+            return None
+        row = self.rows_shown[min(self.cursor_row, len(self.rows_shown) - 1)]
+        return None if isinstance(row, str) else row
+
+
+class SizesSection(Section):
+    section_id = "sizes"
+    help_text = ("The sized system. Every figure has its reason: put the cursor on it and press "
+                 "w. The chart compares what the array delivers to the battery with the demand, "
+                 "month by month; the design month is the one with the least to spare.")
+
+    def compose(self) -> ComposeResult:
+        yield FigureTable(id="figures")
+        yield MonthChart(id="balance")
+
+    @property
+    def table(self) -> FigureTable:
+        return self.query_one(FigureTable)
+
+    def first_focus(self):
+        return self.table
+
+    def show(self, session: Session) -> None:
+        d = session.design
+        self.table.fill(d, session.outcome.error)
+        chart = self.query_one(MonthChart)
+        if d is None:
+            chart.show((), (), None, "No design yet: " + printable(session.outcome.error or ""))
+        else:
+            chart.show(d.array.supply_wh_day, d.loads.daily_energy_wh, d.site.design_month)
+
+    def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
+        event.stop()
+        self.work.action_why()
+
+    def figure(self) -> Figure | None:
+        row = self.table.current()
+        if row is None:
+            return None
+        label, value, path = row
+        return Figure(label, value, path)
+
+    def reveal(self, path: str) -> bool:
+        for i, row in enumerate(self.table.rows_shown):
+            if not isinstance(row, str) and row[2] == path:
+                self.table.move_cursor(row=i, animate=False)
+                self.table.focus()
+                return True
+        return False

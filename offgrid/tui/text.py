@@ -1,0 +1,63 @@
+"""Showing user text literally: no markup, no terminal control codes.
+
+Names typed by people (appliances, projects, files) may contain markup-like
+text (``[bold]``) or escape sequences.  They are saved unchanged; for display
+they go through :func:`printable` (control characters become visible symbols)
+and are wrapped in :class:`rich.text.Text`, which never parses markup.
+"""
+
+from __future__ import annotations
+
+import re
+
+from rich.text import Text
+
+# C0 controls, DEL, C1 controls, and the invisible bidirectional overrides that
+# can make text appear in a different order than it is stored.
+_HIDDEN = re.compile("[\x00-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
+
+
+def _picture(match: re.Match[str]) -> str:
+    code = ord(match.group(0))
+    if code < 0x20:
+        return chr(0x2400 + code)  # Unicode control pictures: ESC -> U+241B
+    if code == 0x7F:
+        return "\u2421"
+    return f"<U+{code:04X}>"
+
+
+def printable(text: str) -> str:
+    """``text`` with every control or direction-override character made visible."""
+    return _HIDDEN.sub(_picture, text)
+
+
+def from_printable(shown: str, original: str) -> str:
+    """The value to store after the user edited ``printable(original)`` into ``shown``.
+
+    Unchanged text keeps the original exactly (control codes and all); control
+    pictures typed or kept in an edited value go back to the characters they stand for.
+    """
+    if shown == printable(original):
+        return original
+    out = []
+    for ch in shown:
+        code = ord(ch)
+        if 0x2400 <= code < 0x2420:
+            out.append(chr(code - 0x2400))
+        elif code == 0x2421:
+            out.append("\x7f")
+        else:
+            out.append(ch)
+    return "".join(out)
+
+
+def literal(text: str, style: str = "") -> Text:
+    """A :class:`Text` that shows ``text`` exactly as typed, safe for any widget."""
+    return Text(printable(text), style=style, no_wrap=False)
+
+
+def clip(text: str, width: int) -> str:
+    """Shorten to ``width`` characters with an ellipsis."""
+    if width <= 0:
+        return ""
+    return text if len(text) <= width else text[: max(0, width - 1)] + "…"

@@ -1,0 +1,106 @@
+"""The three lines at the top of the work screen: file, sections, headline figures."""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.widgets import Static
+
+from offgrid.tui.session import Session
+from offgrid.tui.text import clip, printable
+
+SECTIONS: tuple[tuple[str, str, str], ...] = (
+    # (id, title, what you do there)
+    ("place", "Place", "project, site and climate"),
+    ("loads", "Loads", "the appliances and their use"),
+    ("parts", "Parts", "module, battery, controller, inverter, choices"),
+    ("sizes", "Sizes", "the sized system and the month-by-month balance"),
+    ("wires", "Wires", "cable runs, currents and protection"),
+    ("cautions", "Cautions", "warnings and safety notes"),
+    ("risk", "Risk", "how often the battery runs out, over synthetic weather years"),
+)
+
+
+class FileBar(Static):
+    """Project name, file and the unsaved marker."""
+
+    DEFAULT_CSS = """
+    FileBar { height: 1; background: $primary; color: $text; padding: 0 1; }
+    """
+
+    def show(self, session: Session) -> None:
+        width = max(20, self.size.width or 80) - 2
+        marker = "  \u25cf unsaved" if session.dirty else ""
+        if session.path is not None:
+            where = str(session.path.name) + (" (new file)" if not session.path.exists() else "")
+        elif session.origin == "demo":
+            where = "demo, not saved yet"
+        else:
+            where = "not saved yet"
+        demo = " (demonstration data)" if session.project.info.demo else ""
+        left = f"offgrid \u2502 {printable(session.title)}{demo}"
+        right = f"{where}{marker}"
+        room = width - len(right) - 2
+        text = Text(no_wrap=True, overflow="crop")
+        text.append(clip(left, max(10, room)), style="bold")
+        text.append(" " * max(2, width - min(len(left), max(10, room)) - len(right)))
+        text.append(right, style="bold reverse" if session.dirty else "")
+        self.update(text)
+
+
+class SectionBar(Static):
+    """The six sections with their keys; the current one stands out (also without colour)."""
+
+    DEFAULT_CSS = """
+    SectionBar { height: 1; background: $panel; }
+    """
+
+    def show(self, current: str) -> None:
+        text = Text(no_wrap=True, overflow="crop")
+        for n, (sid, title, _what) in enumerate(SECTIONS, start=1):
+            if sid == current:
+                text.append(f"\u25b8{n} {title}\u25c2", style="bold reverse")
+            else:
+                text.append(f" {n} {title} ")
+            text.append(" ")
+        self.update(text)
+
+
+class Headline(Static):
+    """Array W, battery kWh and Ah, controller A and the number of warnings, always in view."""
+
+    DEFAULT_CSS = """
+    Headline { height: 1; padding: 0 1; background: $boost; }
+    Headline.-error { background: $error 30%; height: auto; max-height: 3; }
+    """
+
+    def show(self, session: Session) -> None:
+        out = session.outcome
+        d = out.design
+        text = Text(no_wrap=True, overflow="ellipsis")
+        if d is None:
+            self.add_class("-error")
+            text = Text(no_wrap=False, overflow="ellipsis")
+            text.append("\u2717 No design: ", style="bold")
+            text.append(printable(out.error or "not computed yet"))
+            self.update(text)
+            return
+        self.remove_class("-error")
+        b, c = d.battery, d.controller
+        parts = [
+            ("Array ", f"{d.array.power_w:,.0f} W"),
+            ("Battery ", f"{b.nominal_kwh:.1f} kWh {b.capacity_ah:,.0f} Ah {b.system_voltage_v} V"),
+            ("Controller ", (f"{c.count}\u00d7" if c.count > 1 else "") + f"{c.current_a:.0f} A"),
+        ]
+        for i, (label, value) in enumerate(parts):
+            if i:
+                text.append(" \u2502 ")
+            text.append(label)
+            text.append(value, style="bold")
+        n = sum(1 for w in d.warnings if w.severity != "info")
+        notes = len(d.warnings) - n
+        text.append(" \u2502 ")
+        text.append(f"{n} warning{'s' if n != 1 else ''}", style="bold" if n else "")
+        more = f" +{notes} note{'s' if notes != 1 else ''}"
+        if notes and len(text) + len(more) <= max(20, (self.size.width or 80) - 2):
+            text.append(more)
+        self.update(text)

@@ -1,0 +1,103 @@
+"""The in-place editor: one line to type a value, the problem shown right under it.
+
+A section opens it for the field or cell under the cursor with
+:meth:`EditBar.start`, passing a function that applies the text and returns
+``None`` (accepted) or a message (rejected: the editor stays open with the
+typed text, and the project keeps its last valid value).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical
+from textual.widget import Widget
+from textual.widgets import Input, Static
+
+from offgrid.tui.text import literal
+
+Apply = Callable[[str], str | None]
+
+
+class EditBar(Vertical):
+    """Label, input and message; hidden until a field is being edited."""
+
+    DEFAULT_CSS = """
+    EditBar {
+        height: auto;
+        display: none;
+        border-top: solid $accent;
+        padding: 0 1;
+    }
+    EditBar.-open { display: block; }
+    EditBar #edit-label { height: 1; text-style: bold; }
+    EditBar Input { height: 1; border: none; padding: 0 1; background: $boost; }
+    EditBar Input:focus { border: none; background: $boost; }
+    EditBar #edit-message { height: auto; max-height: 3; color: $text-muted; }
+    EditBar #edit-message.-bad { color: $error; text-style: bold; }
+    """
+
+    BINDINGS = [
+        Binding("escape", "cancel", "Cancel edit", id="edit.cancel"),
+    ]
+
+    def __init__(self, **kwargs) -> None:
+        super().__init__(**kwargs)
+        self._apply: Apply | None = None
+        self._back: Widget | None = None
+
+    def compose(self) -> ComposeResult:
+        yield Static(id="edit-label")
+        yield Input(id="edit-input", select_on_focus=False)
+        yield Static(id="edit-message")
+
+    @property
+    def is_open(self) -> bool:
+        return self.has_class("-open")
+
+    @property
+    def input(self) -> Input:
+        return self.query_one("#edit-input", Input)
+
+    def start(self, label: str, text: str, apply: Apply, hint: str = "",
+              back: Widget | None = None) -> None:
+        """Open the editor on ``text``; ``apply`` is called with what the user enters."""
+        self._apply = apply
+        self._back = back
+        self.query_one("#edit-label", Static).update(
+            Text.assemble(literal(label), ("   Enter applies, Esc cancels", "dim")))
+        self._say(hint, bad=False)
+        self.add_class("-open")
+        box = self.input
+        box.value = text
+        box.cursor_position = len(text)
+        box.focus()
+
+    def _say(self, message: str, bad: bool) -> None:
+        msg = self.query_one("#edit-message", Static)
+        msg.set_class(bad, "-bad")
+        msg.update(literal(("\u2717 " if bad else "") + message))
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        if self._apply is None:
+            return
+        problem = self._apply(event.value)
+        if problem:
+            self._say(problem, bad=True)
+            self.app.bell()
+        else:
+            self.close()
+
+    def action_cancel(self) -> None:
+        self.close()
+
+    def close(self) -> None:
+        self.remove_class("-open")
+        self._apply = None
+        back, self._back = self._back, None
+        if back is not None and back.is_attached:
+            back.focus()

@@ -1,0 +1,177 @@
+"""The real program in a real terminal: tmux on a private socket, keys in, screen out.
+
+Skipped where tmux is not installed.  Each test starts ``python -m offgrid`` in an
+80x24 tmux window, sends keys with ``send-keys`` and polls ``capture-pane`` until
+the expected text appears.  Killing the tmux server hangs up the terminal, which
+is what a dropped SSH connection does to the program.
+"""
+
+from __future__ import annotations
+
+import os
+import shutil
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import pytest
+
+from offgrid.paths import demo_project_path
+from offgrid.project.store import load_project
+
+ROOT = Path(__file__).resolve().parents[2]
+TMUX = shutil.which("tmux")
+pytestmark = pytest.mark.skipif(TMUX is None, reason="tmux is not installed")
+
+
+class Terminal:
+    def __init__(self, name: str, state: Path, cwd: Path) -> None:
+        self.socket = f"offgrid-test-{os.getpid()}-{name}"
+        self.state = state
+        self.cwd = cwd
+
+    def tmux(self, *args: str, check: bool = True) -> str:
+        proc = subprocess.run([TMUX, "-L", self.socket, "-f", "/dev/null", *args],
+                              capture_output=True, text=True, timeout=20)
+        if check and proc.returncode != 0:
+            raise AssertionError(f"tmux {' '.join(args)}: {proc.stderr}")
+        return proc.stdout
+
+    def start(self, *argv: str, term: str = "xterm-256color", no_color: bool = False) -> None:
+        env = {
+            "TERM": term,
+            "OFFGRID_STATE_DIR": str(self.state),
+            "PYTHONPATH": str(ROOT),
+            "TEXTUAL_ANIMATIONS": "none",
+            "ESCDELAY": "25",
+            "HOME": os.environ.get("HOME", "/tmp"),
+            "PATH": os.environ.get("PATH", ""),
+        }
+        if no_color:
+            env["NO_COLOR"] = "1"
+        assign = " ".join(f"{k}='{v}'" for k, v in env.items())
+        args = " ".join(f"'{a}'" for a in argv)
+        command = f"cd '{self.cwd}' && exec env -i {assign} '{sys.executable}' -m offgrid {args}"
+        self.tmux("new-session", "-d", "-x", "80", "-y", "24", "-s", "t", command)
+
+    def keys(self, *keys: str) -> None:
+        for k in keys:
+            self.tmux("send-keys", "-t", "t", k)
+            # a key sent right after Escape would arrive as Alt+key
+            time.sleep(0.5 if k == "Escape" else 0.15)
+
+    def type(self, text: str) -> None:
+        self.tmux("send-keys", "-t", "t", "-l", text)
+        time.sleep(0.15)
+
+    def screen(self) -> str:
+        return self.tmux("capture-pane", "-t", "t", "-p", check=False)
+
+    def wait_for(self, *texts: str, timeout: float = 15.0) -> str:
+        end = time.monotonic() + timeout
+        shown = ""
+        while time.monotonic() < end:
+            shown = self.screen()
+            if all(t in shown for t in texts):
+                return shown
+            time.sleep(0.1)
+        raise AssertionError(f"never saw {texts!r} on screen:\n{shown}")
+
+    def hang_up(self) -> None:
+        self.tmux("kill-server", check=False)
+
+    def alive(self) -> bool:
+        return subprocess.run([TMUX, "-L", self.socket, "has-session", "-t", "t"],
+                              capture_output=True).returncode == 0
+
+
+@pytest.fixture
+def terminal(tmp_path, request):
+    made: list[Terminal] = []
+
+    def make(name: str = "a") -> Terminal:
+        t = Terminal(f"{request.node.name[:20]}-{name}", tmp_path / "state", tmp_path)
+        made.append(t)
+        return t
+
+    yield make
+    for t in made:
+        t.hang_up()
+
+
+def project_copy(tmp_path: Path) -> Path:
+    target = tmp_path / "clinic.toml"
+    target.write_text(demo_project_path().read_text())
+    return target
+
+
+@pytest.mark.parametrize("term,no_color", [("xterm-256color", False), ("vt100", False),
+                                           ("xterm-256color", True)],
+                         ids=["256-colours", "16-colours", "no-colour"])
+def test_edit_save_and_quit_in_a_real_terminal(terminal, tmp_path, term, no_color):
+    target = project_copy(tmp_path)
+    t = terminal()
+    t.start(str(target), term=term, no_color=no_color)
+    t.wait_for("\u25b81 Place\u25c2", "Array 1,800 W", "Battery 38.4 kWh 800 Ah 48 V")
+    t.keys("3")
+    t.wait_for("Days of autonomy")
+    t.keys("Down", "Enter")
+    t.wait_for("Enter applies, Esc cancels")
+    t.keys("BSpace")
+    t.type("5")
+    t.keys("Enter")
+    screen = t.wait_for("\u25cf unsaved", "5 days")
+    assert "Battery 38.4 kWh" not in screen  # the headline followed the edit
+    t.keys("s")
+    t.wait_for("Saved")
+    t.keys("q")
+    end = time.monotonic() + 10
+    while t.alive() and "offgrid" in t.screen() and time.monotonic() < end:
+        time.sleep(0.1)
+    assert load_project(target).choices.autonomy_days == 5.0
+
+
+def test_hang_up_then_recover_what_was_on_screen(terminal, tmp_path):
+    target = project_copy(tmp_path)
+    t = terminal("first")
+    t.start(str(target))
+    t.wait_for("Array 1,800 W")
+    t.keys("2")
+    t.wait_for("Vaccine refrig")
+    t.keys("Enter")
+    t.wait_for("Enter applies")
+    t.keys("C-u")
+    t.type("Cold box [blue] 7")
+    t.keys("Enter")
+    t.wait_for("Cold box [blue] 7", "\u25cf unsaved")
+    t.hang_up()  # the terminal goes away, as when an SSH connection drops
+    end = time.monotonic() + 10
+    while not list((tmp_path / "state").glob("recovery-*.json")) and time.monotonic() < end:
+        time.sleep(0.1)
+    assert list((tmp_path / "state").glob("recovery-*.json")), "no recovery file written"
+    assert load_project(target).loads[0].name != "Cold box [blue] 7"  # the file is untouched
+    time.sleep(0.5)  # the old process is gone
+    t2 = terminal("second")
+    t2.start()
+    t2.wait_for("Unsaved work was found", "clinic.toml")
+    t2.keys("r")
+    t2.wait_for("\u25cf unsaved")
+    t2.keys("2")
+    t2.wait_for("Cold box [blue] 7")
+    t2.keys("s")
+    t2.wait_for("Saved")
+    assert load_project(target).loads[0].name == "Cold box [blue] 7"
+
+
+def test_start_screen_and_help_in_a_real_terminal(terminal, tmp_path):
+    t = terminal()
+    t.start(term="vt100")
+    t.wait_for("New project", "Blank project")
+    t.keys("d")
+    t.wait_for("Array 1,800 W")
+    t.keys("?")
+    t.wait_for("Keys and help", "You are in 1 Place")
+    t.keys("Escape")
+    t.keys("4")
+    t.wait_for("\u25c0 design", "Supply to battery")

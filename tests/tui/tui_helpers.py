@@ -1,0 +1,39 @@
+"""Helpers for the text-UI tests: reading the screen, typing into fields."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from offgrid.tui.app import OffgridApp, make_app
+
+SIZE = (80, 24)
+
+
+def screen_text(app: OffgridApp) -> str:
+    """The characters on screen, line by line (what a person would read)."""
+    update = app.screen._compositor.render_full_update(simplify=True)
+    return "\n".join("".join(strip.text for strip in line) for line in update.strips)
+
+
+def demo_app(state: Path, **kwargs) -> OffgridApp:
+    return make_app(demo=True, state=state, **kwargs)
+
+
+async def type_into(pilot, text: str) -> None:
+    """Replace the focused box's text with ``text`` and press Enter."""
+    box = pilot.app.focused
+    box.value = text
+    await pilot.press("enter")
+    await pilot.pause()
+
+
+async def edit_field(pilot, section: str, path: str, text: str) -> None:
+    """Go to ``section``, put the cursor on field ``path``, edit it to ``text``."""
+    work = pilot.app.work
+    work.action_goto(section)
+    await pilot.pause()
+    assert work.current.reveal(path), path
+    await pilot.pause()
+    await pilot.press("enter")
+    await pilot.pause()
+    await type_into(pilot, text)
