@@ -70,10 +70,17 @@ class WorkScreen(Screen):
         yield Footer(compact=True)
 
     def on_mount(self) -> None:
+        # First paint at once (the headline says the design is coming), then the design,
+        # then the other sections: the screen answers keys sooner.
+        self.query_one(FileBar).show(self.session)
+        self.query_one(SectionBar).show(self.section)
+        self.query_one(Headline).update("Working out the design...")
+        self.call_after_refresh(self._first_design)
+
+    def _first_design(self) -> None:
         self.session.recompute()
         self.refresh_all()
         self.action_goto(self.section)
-        # The other sections are built after the first paint: a quicker start.
         self.call_after_refresh(self._mount_rest)
 
     async def _mount_rest(self) -> None:
