@@ -106,6 +106,7 @@ class WorkScreen(Screen):
         self.query_one(SectionBar).show(self.section)
         self.current.show(self.session)
         self.stale = {sid for sid, _t, _w in SECTIONS if sid != self.section}
+        self.refresh_bindings()
 
     def changed(self, note: str | None = None, tell: bool = False) -> None:
         """After an accepted edit: recompute, redraw, and arm the recovery autosave.
@@ -132,6 +133,8 @@ class WorkScreen(Screen):
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         if action in LETTER_ACTIONS and isinstance(self.focused, Input):
             return None  # shown greyed; the key types into the box instead
+        if action == "export" and self.session.design is None:
+            return None  # nothing to export until there is a design
         return True
 
     # ------------------------------------------------------------------ navigation
