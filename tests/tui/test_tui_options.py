@@ -76,9 +76,9 @@ async def test_options_show_variants_side_by_side_with_differences_marked(state)
         assert [r.differs for r in shown.rows] == [r.differs for r in expected.rows]
         modules = expected.row("Modules")
         assert modules.differs == (False, True, False)
-        assert f"{modules.texts[1]} *" in text  # the PWM column's module layout, marked
-        assert "pwm *" in text
-        assert "mppt *" not in text  # the base value is never marked
+        assert f"* {modules.texts[1]}" in text  # the PWM column's module layout, marked
+        assert "* pwm" in text
+        assert "* mppt" not in text  # the base value is never marked
 
 
 async def test_options_add_a_variant_from_a_choice_then_undo(state):
@@ -97,7 +97,7 @@ async def test_options_add_a_variant_from_a_choice_then_undo(state):
         assert flatten_overrides(variants[-1].overrides) == [("choices.system_voltage", 24)]
         row = section.result.comparison.row("System voltage")
         assert row.texts[-1] == "24" and row.differs[-1]
-        assert "24 V *" in screen_text(app)
+        assert "* 24 V" in screen_text(app)
         await pilot.press("u")
         await settle(pilot)
         assert len(app.session.project.variants) == 2
@@ -342,3 +342,27 @@ async def test_options_keys_are_in_help_and_footer(state):
         assert {b.description for b in groups["8 Options: prices (p)"]} >= {
             "Add price", "Delete price", "Import CSV"}
         assert "8 Options" in screen_text(app)
+
+
+async def test_options_with_the_risk_check(state):
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        section = await to_options(pilot)
+        assert section.result.comparison.row("Loss-of-load probability") is None
+        await pilot.press("g")
+        await settle(pilot)
+        cmp = section.result.comparison
+        assert section.result.with_risk
+        lolp = cmp.row("Loss-of-load probability")
+        # each column simulated: a probability in per cent, 0-100
+        assert all(v is not None and 0 <= v <= 100 for v in lolp.values)
+        assert all(c.reliability is not None for c in cmp.columns)
+        cursor_on(section, "Loss-of-load probability", 1)
+        await pilot.press("w")
+        await pilot.pause()
+        assert isinstance(app.screen, WhyDialog)
+        assert "synthetic weather years" in screen_text(app)
+        await pilot.press("escape")
+        await pilot.press("g")
+        await settle(pilot)
+        assert section.result.comparison.row("Loss-of-load probability") is None

@@ -39,8 +39,9 @@ from offgrid.tui.text import printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.steady import SteadyTable
 
-DIFF_MARK = " *"
+DIFF_MARK = "* "  # before the value, so a narrow column never crops it
 LABEL_WIDTH = 24
+RISK_YEARS = 30  # synthetic weather years per column, as in section 7 Risk
 KNOWN_FIELDS = {f.path: f for f in PARTS_FIELDS if isinstance(f, Field)}
 
 #: Round-trip efficiency set with a chemistry preset: typical values, from memory.
@@ -125,6 +126,7 @@ class OptionsRun:
     comparison: Any  # VariantComparison
     project_text: str
     seconds: float
+    with_risk: bool = False
 
 
 class VariantTable(SteadyTable):
@@ -175,6 +177,7 @@ class OptionsSection(Section):
 
     BINDINGS = [
         Binding("p", "toggle_prices", "Prices/options", id="options.prices"),
+        Binding("g", "toggle_risk", "Risk check on/off", id="options.risk"),
     ]
 
     def __init__(self, **kwargs) -> None:
@@ -182,6 +185,7 @@ class OptionsSection(Section):
         self.result: OptionsRun | None = None
         self.running = False
         self.showing_prices = False
+        self.with_risk = False  # also simulate every column (LOLP, unmet energy)
         self._rows: list[Any] = []  # ComparisonRow, or ("name", None)
         self._price_rows: list[tuple[str, Any]] = []  # ("price", index) / ("missing", key) ...
         self._cost: Any = None
@@ -214,7 +218,8 @@ class OptionsSection(Section):
         if self.showing_prices:
             self._fill_prices(session)
         else:
-            fresh = self.result is not None and self.result.project_text == session.text()
+            fresh = self.result is not None and self.result.project_text == session.text() \
+                and self.result.with_risk == self.with_risk
             if not fresh and not self.running:
                 self._start(session)
             self._status(session)
@@ -224,24 +229,27 @@ class OptionsSection(Section):
         status = self.query_one("#options-status", Static)
         n = len(session.project.variants)
         if self.running:
-            status.update(Text(f"Designing the base and {n} option(s)... (you can keep "
-                               "working)", style="bold"))
+            what = f", {RISK_YEARS} weather years each" if self.with_risk else ""
+            status.update(Text(f"Designing the base and {n} option(s){what}... (you can "
+                               "keep working)", style="bold"))
         elif self.result is not None and self.result.project_text != session.text():
             status.update(Text("\u26a0 Out of date: the project changed.", style="bold reverse"))
         elif not n:
             status.update(Text("No options yet: a adds one (one change against the base). "
                                "p: prices", style="bold"))
         else:
+            risk = "g: risk off" if self.with_risk else "g: risk"
             status.update(Text(f"Base and {n} option(s); * differs from the base "
-                               f"({self.result.seconds:.1f} s). p: prices" if self.result
-                               else "", style="bold"))
+                               f"({self.result.seconds:.1f} s). p: prices, {risk}"
+                               if self.result else "", style="bold"))
 
     def _start(self, session: Session) -> None:
         self.running = True
-        self._compare(copy.deepcopy(session.project), session.base_dir, session.text())
+        self._compare(copy.deepcopy(session.project), session.base_dir, session.text(),
+                      self.with_risk)
 
     @work(thread=True, exclusive=True, group="options")
-    def _compare(self, project: Project, base: Path, text: str) -> None:
+    def _compare(self, project: Project, base: Path, text: str, with_risk: bool) -> None:
         from textual.worker import get_current_worker
 
         worker = get_current_worker()
@@ -249,13 +257,23 @@ class OptionsSection(Section):
         try:
             from offgrid.report.variants import compare_variants
 
-            comparison = compare_variants(project, base)
+            simulate = None
+            if with_risk:
+                from offgrid.simulate.run import simulate_project
+
+                def simulate(proj, _design):
+                    if worker.is_cancelled:
+                        raise RuntimeError("stopped")
+                    return simulate_project(proj, base, years=RISK_YEARS,
+                                            with_tradeoff=False).reliability
+
+            comparison = compare_variants(project, base, simulate=simulate)
         except Exception as exc:  # a message for the user, not a crash
             if not worker.is_cancelled:
                 self.app.call_from_thread(self._failed, str(exc))
             return
         if not worker.is_cancelled:
-            run = OptionsRun(comparison, text, time.perf_counter() - t0)
+            run = OptionsRun(comparison, text, time.perf_counter() - t0, with_risk)
             self.app.call_from_thread(self._done, run)
 
     def _done(self, run: OptionsRun) -> None:
@@ -302,10 +320,11 @@ class OptionsSection(Section):
             label = override_label(row.label) if row.group == "choices" else row.label
             unit = f" {row.unit}" if row.unit else ""
             cells = []
-            for text, diff in zip(row.texts, row.differs, strict=True):
-                value = printable(text) + (unit if text != "-" else "")
-                cells.append(Text(value + DIFF_MARK, style="bold reverse") if diff
-                             else Text(value))
+            for text, diff, raw in zip(row.texts, row.differs, row.values, strict=True):
+                numeric = isinstance(raw, int | float) and not isinstance(raw, bool)
+                value = printable(text) + (unit if numeric else "")
+                cells.append(Text(DIFF_MARK + value, style="bold reverse") if diff
+                             else Text("  " + value))
             table.add_row(Text("  " + label), *cells)
             self._rows.append(row)
         if table.row_count:
@@ -380,6 +399,16 @@ class OptionsSection(Section):
         self.showing_prices = not self.showing_prices
         self.show(self.session)
         self.first_focus().focus()
+
+    def action_toggle_risk(self) -> None:
+        self.with_risk = not self.with_risk
+        self.app.notify(f"Options compared with {RISK_YEARS} synthetic weather years each "
+                        "(loss-of-load, unmet energy)." if self.with_risk else
+                        "Options compared without the risk check.", timeout=3)
+        if self.showing_prices:
+            self.action_toggle_prices()
+        else:
+            self.show(self.session)
 
     def _price_row(self) -> tuple[str, Any]:
         if not self._price_rows:
@@ -722,12 +751,21 @@ class OptionsSection(Section):
             reason = col.cost.reasons.get(key) if key else Reason(
                 "battery service life used for replacements", (), col.cost.battery_life_source)
             return Figure(label, value, None, reason, extra=self._cost_extra(col.cost))
+        if row.group == "reliability" and col.reliability is not None:
+            from offgrid.report.variants import RELIABILITY_ROWS
+
+            attr = next((a for lbl, _u, _d, a in RELIABILITY_ROWS if lbl == row.label), "")
+            reason = getattr(col.reliability, "reasons", {}).get(attr)
+            return Figure(label, value, None, reason, extra=f"{RISK_YEARS} synthetic weather "
+                          "years through this option's design, as in 7 Risk.")
         if row.group == "choices":
             return Figure(label, value, None, extra="A value of this option (or of the base "
                           "project); the engine uses it as given.")
         if col.design is not None:
             path, reason = find_reason(col.design.reasons, row.path)
-            return Figure(label, value, path, reason)
+            extra = ("The number of warnings and notes of this design; 6 Cautions lists "
+                     "those of the base." if row.path == "warnings" else "")
+            return Figure(label, value, path, reason, extra=extra)
         return Figure(label, value, None, extra=col.error or "")
 
     @staticmethod
