@@ -522,6 +522,8 @@ class OffgridApp(App):
                                 in_section("place", "choose_climate"))
             yield SystemCommand("Type twelve months", "Use your own monthly climate values "
                                 "(Place, m)", in_section("place", "own_months"))
+            yield SystemCommand("Horizon", "Type the hills and trees around the site (Place, "
+                                "z)", in_section("place", "horizon"))
             yield SystemCommand("Add appliance", "A new line in the load list (Loads, a)",
                                 in_section("loads", "add"))
             yield SystemCommand("Copy appliance", "Duplicate the line under the cursor "

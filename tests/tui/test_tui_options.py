@@ -366,3 +366,40 @@ async def test_options_with_the_risk_check(state):
         await pilot.press("g")
         await settle(pilot)
         assert section.result.comparison.row("Loss-of-load probability") is None
+
+
+# ----------------------------------------------------------------------------- horizon
+
+
+async def test_place_horizon_profile_is_typed_and_validated(state):
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        assert "z Horizon" in screen_text(app).splitlines()[-1]
+        array_w = app.session.design.array.power_w
+        await pilot.press("z")
+        await pilot.pause()
+        bar = app.screen.query_one("#place-edit", EditBar)
+        assert bar.is_open
+        await type_into(pilot, "90:10, 400:5")
+        assert "outside 0-360" in screen_text(app)
+        await type_into(pilot, "90:95")
+        assert "outside 0-90" in screen_text(app)
+        await type_into(pilot, "90 10")
+        assert "azimuth:elevation" in screen_text(app)
+        assert app.session.project.site.horizon_deg == []
+        # hills of 50 deg all round hide the beam for most of the day: the array grows
+        # (beam removed below the profile, climate/horizon.py; common practice, no source)
+        await type_into(pilot, "0:50, 90:50, 180:50, 270:50")
+        assert not bar.is_open
+        assert app.session.project.site.horizon_deg == [(0.0, 50.0), (90.0, 50.0),
+                                                        (180.0, 50.0), (270.0, 50.0)]
+        assert app.session.design.array.power_w > array_w
+        await pilot.press("z")
+        await pilot.pause()
+        assert app.screen.query_one("#place-edit", EditBar).input.value.startswith("0:50, 90:50")
+        await type_into(pilot, "")
+        assert app.session.project.site.horizon_deg == []
+        await pilot.press("u")
+        await pilot.pause()
+        assert len(app.session.project.site.horizon_deg) == 4
