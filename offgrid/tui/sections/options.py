@@ -372,10 +372,13 @@ class OptionsSection(Section):
                 shown = "no price" if value is None else money(value)
                 table.add_row(Text("  " + label), Text(shown, style="bold"), Text(unit), "")
                 self._price_rows.append(("cost", label))
-        n_missing = len(cost.missing) if cost is not None else 0
-        status.update(Text(f"Price list: {len(project.prices)} line(s)" +
-                           (f", {n_missing} part(s) without a price" if n_missing else
-                            ", every part priced") + ". w: formula. p: options",
+        if cost is None:
+            state = ", no design yet to price (see the headline). a adds a line"
+        elif cost.missing:
+            state = f", {len(cost.missing)} part(s) without a price. w: formula"
+        else:
+            state = ", every part priced. w: formula"
+        status.update(Text(f"Price list: {len(project.prices)} line(s){state}. p: options",
                            style="bold"))
         if table.row_count:
             table.move_cursor(row=min(keep.row, table.row_count - 1), column=keep.column,
