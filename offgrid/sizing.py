@@ -317,8 +317,59 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                  "controller, after the battery round trip, covers the design-month demand",
                  "De Soto (2006) I-V curves over the month's mean day (offgrid.harvest)",
                  first=str(first), now=str(core.array.module_count))
-        core = assemble(array, ctrl, arr_notices)
+    from dataclasses import replace
+
+    rate_notices, i_peak = _charge_rate_notices(project, array, ctrl, battery, book)
+    battery = replace(battery, peak_charge_current_a=float(i_peak),
+                      charge_c_rate=float(i_peak / battery.capacity_ah))
+    arr_notices.extend(rate_notices)
+    core = assemble(array, ctrl, arr_notices)
     return with_electrical(core, er)
+
+
+def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerResult,
+                         battery: BatteryResult, book: ReasonBook
+                         ) -> tuple[list[Notice], float]:
+    """The array's peak charge current against what the bank takes (and, for lead-acid, needs).
+
+    Peak current: MPPT, array STC power x controller efficiency / system voltage; PWM,
+    strings x Imp; at most the controllers' ratings together.
+    """
+    from offgrid.battery import MAX_CHARGE_C_RATE, MIN_LEAD_ACID_CHARGE_C_RATE
+
+    v = battery.system_voltage_v
+    if ctrl.type == "mppt":
+        i_array = array.power_w * ctrl.efficiency / v
+    else:
+        i_array = array.modules_parallel * project.module.imp_a
+    i_peak = min(i_array, ctrl.current_a * ctrl.count)
+    rate = i_peak / battery.capacity_ah
+    top = MAX_CHARGE_C_RATE.get(battery.chemistry)
+    book.add("battery.peak_charge_current_a", "MPPT: array STC power x controller efficiency / "
+             "system voltage; PWM: strings x Imp; at most the controllers' ratings together",
+             "common practice, no source", array=fmt(array.power_w, "W"),
+             controllers=f"{ctrl.count} x {ctrl.current_a:g} A")
+    book.add("battery.charge_c_rate", "peak charge current / installed capacity (per hour)",
+             "common practice, no source; limits from memory (typical makers' figures)",
+             peak_current=fmt(i_peak, "A"), capacity=fmt(battery.capacity_ah, "Ah"),
+             limit=f"C/{1 / top:.0f}" if top else "-")
+    out = []
+    if top and rate > top:
+        out.append(Notice(
+            "charge-rate-high", f"At full sun the array can push about {i_peak:.0f} A into the "
+            f"{battery.capacity_ah:.0f} Ah bank, C/{1 / rate:.1f}, more than the C/{1 / top:.0f} "
+            f"a {battery.chemistry} battery usually accepts: set the controller's charge-current "
+            "limit to at most "
+            f"{top * battery.capacity_ah:.0f} A, or choose a larger bank (check the battery's "
+            "datasheet).", "warning", "battery.charge_c_rate"))
+    if CHEMISTRIES[battery.chemistry].lead_acid and rate < MIN_LEAD_ACID_CHARGE_C_RATE:
+        out.append(Notice(
+            "charge-rate-low", f"At full sun the array charges the {battery.capacity_ah:.0f} Ah "
+            f"bank at only about {i_peak:.0f} A (C/{1 / rate:.0f}): lead-acid charged this gently "
+            "seldom reaches full charge and sulphates. A larger array, fewer days of autonomy or "
+            "a periodic full charge from another source helps.", "info",
+            "battery.charge_c_rate"))
+    return out, i_peak
 
 
 def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
@@ -636,6 +687,11 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
                               "batteries: strings share current unevenly above three; choose "
                               "larger units (or 2 V cells) to keep three or fewer.", "warning",
                               "battery.units_parallel"))
+    if parallel == 1 and cap_ah > 2.0 * need_ah:
+        notices.append(Notice("battery-oversized", f"One string of these {b.capacity_ah:g} Ah "
+                              f"units is {cap_ah / need_ah:.1f} times the {need_ah:.0f} Ah the "
+                              "design needs: smaller units would cost less and charge more "
+                              "fully.", "info", "battery.capacity_ah"))
     if t_batt < 5:
         where = ("the battery room's temperature (site.battery_temp_c)"
                  if project.site.battery_temp_c is not None else
