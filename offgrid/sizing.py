@@ -218,8 +218,9 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         notices.append(Notice(
             "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
             f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
-            f"a {tilt:.0f} deg plane can read 20-50 % high (compared with pvlib's hourly Perez "
-            "model on TMY years at 55-65 N). Allow a margin or check with an hourly simulation.",
+            f"a {tilt:.0f} deg plane can read 20-50 % high (against an hourly sky model on "
+            "typical-year weather at 55-65 N). Allow a margin of modules, or check the month "
+            "with an hourly model of the site's weather.",
             "warning", "site.poa_kwh_m2_day"))
     book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
              "worst-month method", month=MONTHS[dm])
@@ -578,17 +579,18 @@ def _layout_with_controllers(project: Project, window, n_need: int, system_v: in
         if s_fit < window.min_series:
             s = window.min_series
             raise DesignError(
-                "controller-current", f"One string of {s} modules ({s * m.pmax_w:g} W, the "
+                "controller-current", f"One string of {s} module{'s' if s > 1 else ''} "
+                f"({s * m.pmax_w:.0f} W, the "
                 f"fewest in series the battery voltage allows) needs "
                 f"{_string_current_a(project, s, system_v):.0f} A from its MPPT controller "
-                f"(1.25 x power / {system_v} V), more than the {top:g} A rating: {fix}.",
+                f"(1.25 x power / {system_v} V), more than the {top:.4g} A rating: {fix}.",
                 "controller.max_current_a")
         window = replace(window, max_series=min(window.max_series, s_fit))
     elif _string_current_a(project, 1, system_v) > top + 1e-9:
         raise DesignError(
             "controller-current", f"One string (Isc {m.isc_a:g} A) needs "
             f"{_string_current_a(project, 1, system_v):.1f} A from its PWM controller (1.25 x "
-            f"1.25 x Isc, NEC 690.8), more than the {top:g} A rating: set a larger controller "
+            f"1.25 x Isc, NEC 690.8), more than the {top:.4g} A rating: set a larger controller "
             "rating in controller.max_current_a, or choose an MPPT controller.",
             "controller.max_current_a")
     n_ctrl = 1
@@ -600,8 +602,8 @@ def _layout_with_controllers(project: Project, window, n_need: int, system_v: in
         n_ctrl = max(n_ctrl + 1, math.ceil(layout.parallel * i_str / top - 1e-9))
         if n_ctrl > MAX_CONTROLLERS:
             raise DesignError(
-                "controller-count", f"The array of about {n_need} modules of {m.pmax_w:g} W "
-                f"needs more than {MAX_CONTROLLERS} charge controllers of {top:g} A at "
+                "controller-count", f"The array of about {n_need} modules of {m.pmax_w:.0f} W "
+                f"needs more than {MAX_CONTROLLERS} charge controllers of {top:.4g} A at "
                 f"{system_v} V, more than one battery bus should carry: {fix}.",
                 "controller.max_current_a")
 
@@ -651,7 +653,7 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
     dod = choices.max_dod if choices.max_dod is not None else b.max_dod
     series = units_in_series(system_v, b.nominal_voltage_v)
     if series is None:
-        raise DesignError("battery-voltage", f"{b.nominal_voltage_v:g} V battery units cannot "
+        raise DesignError("battery-voltage", f"{b.nominal_voltage_v:.4g} V battery units cannot "
                           f"make a {system_v} V system: choose units whose voltage divides "
                           f"{system_v} V, or another system voltage", "battery.nominal_voltage_v")
     t_batt = (project.site.battery_temp_c if project.site.battery_temp_c is not None
