@@ -129,7 +129,10 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
                "     " + " ".join(f"{m:>5}" for m in MONTHS),
                "MPPT " + " ".join(f"{v:>5.0f}" for v in h.mppt_wh_day),
                "PWM  " + " ".join(f"{v:>5.0f}" for v in h.pwm_wh_day)]
-    harvest += _wrap(f"PWM harvests {h.pwm_vs_mppt_pct:+.0f} % against MPPT in {month} "
+    pct = h.pwm_vs_mppt_pct
+    compare = (f"{abs(pct):.0f} % less than" if pct < -0.5 else
+               f"{pct:.0f} % more than" if pct > 0.5 else "about the same as")
+    harvest += _wrap(f"In {month} PWM harvests {compare} MPPT, each in its own string layout "
                      f"(PWM at {h.charging_voltage_v:.1f} V, {h.pwm_layout[0]} x "
                      f"{h.pwm_layout[1]}; MPPT {h.mppt_layout[0]} x {h.mppt_layout[1]}); "
                      f"the design uses {h.controller_type.upper()}", "  ")

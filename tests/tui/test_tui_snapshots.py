@@ -44,6 +44,7 @@ def test_sunlight_theme(snap_compare, state):
 
 def test_editing_with_a_refused_value(snap_compare, state):
     async def run_before(pilot):
+        await pilot.pause()
         work = pilot.app.work
         work.current.reveal("site.latitude_deg")
         await pilot.press("enter")

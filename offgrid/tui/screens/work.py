@@ -70,10 +70,17 @@ class WorkScreen(Screen):
         yield Footer(compact=True)
 
     def on_mount(self) -> None:
+        # First paint at once (the headline says the design is coming), then the design,
+        # then the other sections: the screen answers keys sooner.
+        self.query_one(FileBar).show(self.session)
+        self.query_one(SectionBar).show(self.section)
+        self.query_one(Headline).update("Working out the design...")
+        self.call_after_refresh(self._first_design)
+
+    def _first_design(self) -> None:
         self.session.recompute()
         self.refresh_all()
         self.action_goto(self.section)
-        # The other sections are built after the first paint: a quicker start.
         self.call_after_refresh(self._mount_rest)
 
     async def _mount_rest(self) -> None:
@@ -99,6 +106,7 @@ class WorkScreen(Screen):
         self.query_one(SectionBar).show(self.section)
         self.current.show(self.session)
         self.stale = {sid for sid, _t, _w in SECTIONS if sid != self.section}
+        self.refresh_bindings()
 
     def changed(self, note: str | None = None, tell: bool = False) -> None:
         """After an accepted edit: recompute, redraw, and arm the recovery autosave.
@@ -125,6 +133,8 @@ class WorkScreen(Screen):
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         if action in LETTER_ACTIONS and isinstance(self.focused, Input):
             return None  # shown greyed; the key types into the box instead
+        if action == "export" and self.session.design is None:
+            return None  # nothing to export until there is a design
         return True
 
     # ------------------------------------------------------------------ navigation

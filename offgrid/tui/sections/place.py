@@ -148,8 +148,8 @@ class PlaceSection(Section):
         if inline is not None:
             title = "Monthly climate (your own values: Enter edits a month)"
         elif project.climate.ref:
-            title = f"Monthly climate from '{printable(project.climate.ref)}' (Enter on a " \
-                    "month makes your own copy)"
+            title = f"Climate '{printable(project.climate.ref)}' \u00b7 Enter on a month " \
+                    "edits your own copy"
         else:
             title = "Monthly climate: none yet (press c to pick one, or m to type your own)"
         self.query_one("#climate-title", Static).update(Text(title, style="bold"))

@@ -151,7 +151,7 @@ class FigureTable(SteadyTable):
         keep = self.cursor_row or 1
         self.clear(columns=not self.columns)
         if not self.columns:
-            self.add_column("Figure", width=28, key="label")
+            self.add_column("Figure", width=31, key="label")
             self.add_column("Value", key="value")
         self.rows_shown = figure_rows(d) if d is not None else []
         if d is None:

@@ -27,7 +27,14 @@ class FileBar(Static):
     FileBar { height: 1; background: $primary; color: $text; padding: 0 1; }
     """
 
+    _session: Session | None = None
+
+    def on_resize(self) -> None:
+        if self._session is not None:
+            self.show(self._session)
+
     def show(self, session: Session) -> None:
+        self._session = session
         width = max(20, self.size.width or 80) - 2
         marker = "  \u25cf unsaved" if session.dirty else ""
         if session.path is not None:
@@ -73,7 +80,14 @@ class Headline(Static):
     Headline.-error { background: $error 30%; height: auto; max-height: 3; }
     """
 
+    _session: Session | None = None
+
+    def on_resize(self) -> None:
+        if self._session is not None:
+            self.show(self._session)
+
     def show(self, session: Session) -> None:
+        self._session = session
         out = session.outcome
         d = out.design
         text = Text(no_wrap=True, overflow="ellipsis")
