@@ -153,6 +153,16 @@ def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
         source += "; sun positions: Reda & Andreas (2004) SPA through pvlib"
         inputs["horizon"] = ", ".join(f"{a:g}:{e:g}" for a, e in horizon)
         inputs["horizon loss"] = fmt(100.0 * lost / total if total > 0 else 0.0, "% a year")
+        from offgrid.climate.horizon import sky_share_blocked
+
+        hidden = sky_share_blocked(horizon)
+        if hidden > 0.10 and notices is not None:
+            notices.append(Notice(
+                "horizon-diffuse", f"The horizon profile hides about {hidden:.0%} of the sky's "
+                "diffuse light (on a level surface); only the sun's direct beam is removed "
+                "behind it, so the array-plane insolation reads high by up to about that share "
+                "of its diffuse part. Allow a margin for a deep valley or tall obstructions.",
+                "warning", "site.poa_kwh_m2_day"))
     book.add("site.poa_kwh_m2_day", formula, source, **inputs)
     return float(tilt), float(azimuth), {"poa": res.poa_kwh_m2_day, "kt": res.kt,
                                          "diffuse_fraction": res.diffuse_fraction, "rb": res.rb,
