@@ -43,6 +43,14 @@ CHEMISTRIES: dict[str, Chemistry] = {
 }
 
 
+#: Largest charge current as a fraction of capacity per hour (from memory: typical makers'
+#: limits for deep-cycle batteries; lead-acid C/5 to C/4, LiFePO4 C/2).
+MAX_CHARGE_C_RATE: dict[str, float] = {"flooded": 0.2, "agm": 0.25, "gel": 0.2, "lifepo4": 0.5}
+#: Below this charge rate a lead-acid bank seldom reaches full charge (common practice, no
+#: source: C/50, well below the C/10-C/20 usually advised).
+MIN_LEAD_ACID_CHARGE_C_RATE = 0.02
+
+
 def capacity_temperature_factor(chemistry: str, temp_c: float) -> float:
     """Capacity needed per unit of rated capacity at ``temp_c`` (1.0 at 25 C, > 1 when cold)."""
     chem = CHEMISTRIES[chemistry]

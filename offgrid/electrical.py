@@ -424,12 +424,16 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
             "string", "modules to combiner", prot.pv_max_current_a(isc, 1), i_op_str, v_array,
             wiring.string_run_m, limits.drop_limit_array_pct, string_fuse, layout.parallel,
             "wiring.string_run_m"))
-    array_fuse = prot.standard_rating_a(prot.pv_fuse_min_a(isc, n_c), fuse=False)
+    array_fuse = prot.standard_rating_a(prot.pv_fuse_min_a(isc, n_c), fuse=False,
+                                        what="PV circuit of each controller",
+                                        field="controller.max_current_a")
     runs.append(wr.RunSpec(
         "array", "array to controller", prot.pv_max_current_a(isc, n_c), n_c * i_op_str,
         v_array, wiring.array_run_m, limits.drop_limit_array_pct, array_fuse, controllers,
         "wiring.array_run_m"))
-    charge_fuse = prot.standard_rating_a(1.25 * i_charge_max, fuse=False)
+    charge_fuse = prot.standard_rating_a(1.25 * i_charge_max, fuse=False,
+                                         what="controller-to-battery circuit",
+                                         field="controller.max_current_a")
     runs.append(wr.RunSpec(
         "charge", "controller to battery", i_charge_max, i_charge_op, vsys,
         wiring.controller_battery_m, limits.drop_limit_battery_pct, charge_fuse, controllers,
@@ -440,7 +444,8 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         i_inv = float(inv.dc_input_current_a)
         if not i_inv > 0:
             i_inv = float(inv.continuous_w) / (float(inv.efficiency) * vsys)
-        battery_fuse = prot.standard_rating_a(1.25 * i_inv)
+        battery_fuse = prot.standard_rating_a(1.25 * i_inv, what="inverter circuit",
+                                              field="loads")
         runs.append(wr.RunSpec(
             "inverter", "battery to inverter", i_inv, i_inv, vsys, wiring.battery_inverter_m,
             limits.drop_limit_battery_pct, battery_fuse, 1, "wiring.battery_inverter_m"))
@@ -453,7 +458,9 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
                  else "wiring.dc_load_run_m")
         runs.append(wr.RunSpec(
             f"load{n_load}", f"DC load '{load.name}'", i_load, i_load, vsys, length,
-            limits.drop_limit_load_pct, prot.standard_rating_a(1.25 * i_load), 1, field))
+            limits.drop_limit_load_pct,
+            prot.standard_rating_a(1.25 * i_load, what=f"DC load '{load.name}' circuit",
+                                   field=f"loads[{n_load}].power_w"), 1, field))
 
     ambient = _wire_ambient_c(project, core)
     cable = (wiring.units, wiring.material, wiring.conductor_temp_c, ambient,
@@ -503,8 +510,9 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         names = ", ".join(f"{w.run} ({w.size})" for w in big)
         notices.append(Notice(
             "raise-system-voltage", f"At {vsys:.0f} V these runs need very large cables: {names}. "
-            f"A {48 if vsys == 24 else 24} V system would quarter or halve the current and the "
-            "cable size.", "warning", "battery.system_voltage_v"))
+            f"A {2 * vsys:.0f} V system halves the current, and for the same voltage drop the "
+            "cable needs about a quarter of the cross-section.", "warning",
+            "battery.system_voltage_v"))
 
     # Harvest both ways with the chosen cables; the other controller type on its own layout.
     loop = {w.key: 2.0 * w.length_m * w.resistance_ohm_km / 1000.0 for w in wires}
@@ -605,7 +613,8 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         total = (1.25 * float(inv.dc_input_current_a) if inv.needed else 0.0) + sum(
             1.25 * w.current_a for w in wires if w.key.startswith("load"))
         total = max(total, 1.25 * i_charge_max * controllers)
-        bat_string_fuse = prot.standard_rating_a(total / n_bat)
+        bat_string_fuse = prot.standard_rating_a(total / n_bat, what="battery string fuse",
+                                                 field="battery.capacity_ah")
         devices.append(prot.Device("each parallel battery string, at its positive terminal",
                                    "fuse", bat_string_fuse, bank_v, n_bat,
                                    interrupt_rating_a=fault,

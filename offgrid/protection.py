@@ -25,14 +25,22 @@ FUSE_ONLY_RATINGS_A = (1, 3, 6, 601)
 SHORT_CIRCUIT_A_PER_AH = {"flooded": 10.0, "agm": 20.0, "gel": 12.0, "lifepo4": 40.0}
 
 
-def standard_rating_a(current_a: float, fuse: bool = True) -> int:
-    """Smallest NEC 240.6(A) standard rating at or above ``current_a`` [A]."""
+def standard_rating_a(current_a: float, fuse: bool = True, what: str = "",
+                      field: str | None = None) -> int:
+    """Smallest NEC 240.6(A) standard rating at or above ``current_a`` [A].
+
+    ``what`` names the circuit and ``field`` the project value behind it, for the message
+    when no standard rating is large enough.
+    """
     ratings = sorted(STANDARD_RATINGS_A + (FUSE_ONLY_RATINGS_A if fuse else ()))
     for r in ratings:
         if r >= current_a - 1e-9:
             return r
-    raise DesignError("no-standard-rating", f"{current_a:.0f} A is above the largest standard "
-                      "overcurrent rating: split the circuit or raise the system voltage.")
+    circuit = f"The {what} needs" if what else "The circuit needs"
+    raise DesignError("no-standard-rating", f"{circuit} an overcurrent device of at least "
+                      f"{current_a:.0f} A, above the largest standard rating ({ratings[-1]} A, "
+                      "NEC 240.6(A)): raise the system voltage or split the circuit"
+                      + (f" (check {field})" if field else "") + ".", field=field)
 
 
 def pv_max_current_a(isc_a: float, strings: int) -> float:
@@ -66,12 +74,13 @@ def string_fuses_needed(strings_in_parallel: int, isc_a: float,
 
 def string_fuse_rating_a(isc_a: float, module_max_fuse_a: float | None) -> int:
     """String fuse: the standard rating at or above 1.5625 Isc, not above the module's limit."""
-    rating = standard_rating_a(pv_fuse_min_a(isc_a, 1))
+    rating = standard_rating_a(pv_fuse_min_a(isc_a, 1), what="PV string fuse",
+                               field="module.isc_a")
     if module_max_fuse_a is not None and rating > module_max_fuse_a:
         raise DesignError(
             "string-fuse", f"The string fuse must be at least {pv_fuse_min_a(isc_a, 1):.1f} A "
             f"(1.56 x Isc, NEC 690.9(B)) and the nearest standard rating is {rating} A, above "
-            f"the module's maximum series fuse of {module_max_fuse_a:g} A: check that rating on "
+            f"the module's maximum series fuse of {module_max_fuse_a:.4g} A: check that rating on "
             "the datasheet, or keep to two strings per controller.",
             field="wiring.module_max_fuse_a")
     return rating

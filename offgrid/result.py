@@ -170,6 +170,8 @@ class BatteryResult:
     ageing_factor: float
     discharge_efficiency: float
     absorption_voltage_v: float
+    peak_charge_current_a: float = 0.0  # the array's charge current at full sun
+    charge_c_rate: float = 0.0  # peak charge current / installed Ah [1/h]
 
 
 @dataclass(frozen=True)

@@ -153,6 +153,16 @@ def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
         source += "; sun positions: Reda & Andreas (2004) SPA through pvlib"
         inputs["horizon"] = ", ".join(f"{a:g}:{e:g}" for a, e in horizon)
         inputs["horizon loss"] = fmt(100.0 * lost / total if total > 0 else 0.0, "% a year")
+        from offgrid.climate.horizon import sky_share_blocked
+
+        hidden = sky_share_blocked(horizon)
+        if hidden > 0.10 and notices is not None:
+            notices.append(Notice(
+                "horizon-diffuse", f"The horizon profile hides about {hidden:.0%} of the sky's "
+                "diffuse light (on a level surface); only the sun's direct beam is removed "
+                "behind it, so the array-plane insolation reads high by up to about that share "
+                "of its diffuse part. Allow a margin for a deep valley or tall obstructions.",
+                "warning", "site.poa_kwh_m2_day"))
     book.add("site.poa_kwh_m2_day", formula, source, **inputs)
     return float(tilt), float(azimuth), {"poa": res.poa_kwh_m2_day, "kt": res.kt,
                                          "diffuse_fraction": res.diffuse_fraction, "rb": res.rb,
@@ -218,8 +228,9 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         notices.append(Notice(
             "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
             f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
-            f"a {tilt:.0f} deg plane can read 20-50 % high (compared with pvlib's hourly Perez "
-            "model on TMY years at 55-65 N). Allow a margin or check with an hourly simulation.",
+            f"a {tilt:.0f} deg plane can read 20-50 % high (against an hourly sky model on "
+            "typical-year weather at 55-65 N). Allow a margin of modules, or check the month "
+            "with an hourly model of the site's weather.",
             "warning", "site.poa_kwh_m2_day"))
     book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
              "worst-month method", month=MONTHS[dm])
@@ -317,8 +328,59 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                  "controller, after the battery round trip, covers the design-month demand",
                  "De Soto (2006) I-V curves over the month's mean day (offgrid.harvest)",
                  first=str(first), now=str(core.array.module_count))
-        core = assemble(array, ctrl, arr_notices)
+    from dataclasses import replace
+
+    rate_notices, i_peak = _charge_rate_notices(project, array, ctrl, battery, book)
+    battery = replace(battery, peak_charge_current_a=float(i_peak),
+                      charge_c_rate=float(i_peak / battery.capacity_ah))
+    arr_notices.extend(rate_notices)
+    core = assemble(array, ctrl, arr_notices)
     return with_electrical(core, er)
+
+
+def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerResult,
+                         battery: BatteryResult, book: ReasonBook
+                         ) -> tuple[list[Notice], float]:
+    """The array's peak charge current against what the bank takes (and, for lead-acid, needs).
+
+    Peak current: MPPT, array STC power x controller efficiency / system voltage; PWM,
+    strings x Imp; at most the controllers' ratings together.
+    """
+    from offgrid.battery import MAX_CHARGE_C_RATE, MIN_LEAD_ACID_CHARGE_C_RATE
+
+    v = battery.system_voltage_v
+    if ctrl.type == "mppt":
+        i_array = array.power_w * ctrl.efficiency / v
+    else:
+        i_array = array.modules_parallel * project.module.imp_a
+    i_peak = min(i_array, ctrl.current_a * ctrl.count)
+    rate = i_peak / battery.capacity_ah
+    top = MAX_CHARGE_C_RATE.get(battery.chemistry)
+    book.add("battery.peak_charge_current_a", "MPPT: array STC power x controller efficiency / "
+             "system voltage; PWM: strings x Imp; at most the controllers' ratings together",
+             "common practice, no source", array=fmt(array.power_w, "W"),
+             controllers=f"{ctrl.count} x {ctrl.current_a:g} A")
+    book.add("battery.charge_c_rate", "peak charge current / installed capacity (per hour)",
+             "common practice, no source; limits from memory (typical makers' figures)",
+             peak_current=fmt(i_peak, "A"), capacity=fmt(battery.capacity_ah, "Ah"),
+             limit=f"C/{1 / top:.0f}" if top else "-")
+    out = []
+    if top and rate > top:
+        out.append(Notice(
+            "charge-rate-high", f"At full sun the array can push about {i_peak:.0f} A into the "
+            f"{battery.capacity_ah:.0f} Ah bank, C/{1 / rate:.1f}, more than the C/{1 / top:.0f} "
+            f"a {battery.chemistry} battery usually accepts: set the controller's charge-current "
+            "limit to at most "
+            f"{top * battery.capacity_ah:.0f} A, or choose a larger bank (check the battery's "
+            "datasheet).", "warning", "battery.charge_c_rate"))
+    if CHEMISTRIES[battery.chemistry].lead_acid and rate < MIN_LEAD_ACID_CHARGE_C_RATE:
+        out.append(Notice(
+            "charge-rate-low", f"At full sun the array charges the {battery.capacity_ah:.0f} Ah "
+            f"bank at only about {i_peak:.0f} A (C/{1 / rate:.0f}): lead-acid charged this gently "
+            "seldom reaches full charge and sulphates. A larger array, fewer days of autonomy or "
+            "a periodic full charge from another source helps.", "info",
+            "battery.charge_c_rate"))
+    return out, i_peak
 
 
 def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
@@ -527,17 +589,18 @@ def _layout_with_controllers(project: Project, window, n_need: int, system_v: in
         if s_fit < window.min_series:
             s = window.min_series
             raise DesignError(
-                "controller-current", f"One string of {s} modules ({s * m.pmax_w:g} W, the "
+                "controller-current", f"One string of {s} module{'s' if s > 1 else ''} "
+                f"({s * m.pmax_w:.0f} W, the "
                 f"fewest in series the battery voltage allows) needs "
                 f"{_string_current_a(project, s, system_v):.0f} A from its MPPT controller "
-                f"(1.25 x power / {system_v} V), more than the {top:g} A rating: {fix}.",
+                f"(1.25 x power / {system_v} V), more than the {top:.4g} A rating: {fix}.",
                 "controller.max_current_a")
         window = replace(window, max_series=min(window.max_series, s_fit))
     elif _string_current_a(project, 1, system_v) > top + 1e-9:
         raise DesignError(
             "controller-current", f"One string (Isc {m.isc_a:g} A) needs "
             f"{_string_current_a(project, 1, system_v):.1f} A from its PWM controller (1.25 x "
-            f"1.25 x Isc, NEC 690.8), more than the {top:g} A rating: set a larger controller "
+            f"1.25 x Isc, NEC 690.8), more than the {top:.4g} A rating: set a larger controller "
             "rating in controller.max_current_a, or choose an MPPT controller.",
             "controller.max_current_a")
     n_ctrl = 1
@@ -549,8 +612,8 @@ def _layout_with_controllers(project: Project, window, n_need: int, system_v: in
         n_ctrl = max(n_ctrl + 1, math.ceil(layout.parallel * i_str / top - 1e-9))
         if n_ctrl > MAX_CONTROLLERS:
             raise DesignError(
-                "controller-count", f"The array of about {n_need} modules of {m.pmax_w:g} W "
-                f"needs more than {MAX_CONTROLLERS} charge controllers of {top:g} A at "
+                "controller-count", f"The array of about {n_need} modules of {m.pmax_w:.0f} W "
+                f"needs more than {MAX_CONTROLLERS} charge controllers of {top:.4g} A at "
                 f"{system_v} V, more than one battery bus should carry: {fix}.",
                 "controller.max_current_a")
 
@@ -600,7 +663,7 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
     dod = choices.max_dod if choices.max_dod is not None else b.max_dod
     series = units_in_series(system_v, b.nominal_voltage_v)
     if series is None:
-        raise DesignError("battery-voltage", f"{b.nominal_voltage_v:g} V battery units cannot "
+        raise DesignError("battery-voltage", f"{b.nominal_voltage_v:.4g} V battery units cannot "
                           f"make a {system_v} V system: choose units whose voltage divides "
                           f"{system_v} V, or another system voltage", "battery.nominal_voltage_v")
     t_batt = (project.site.battery_temp_c if project.site.battery_temp_c is not None
@@ -636,6 +699,11 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
                               "batteries: strings share current unevenly above three; choose "
                               "larger units (or 2 V cells) to keep three or fewer.", "warning",
                               "battery.units_parallel"))
+    if parallel == 1 and cap_ah > 2.0 * need_ah:
+        notices.append(Notice("battery-oversized", f"One string of these {b.capacity_ah:g} Ah "
+                              f"units is {cap_ah / need_ah:.1f} times the {need_ah:.0f} Ah the "
+                              "design needs: smaller units would cost less and charge more "
+                              "fully.", "info", "battery.capacity_ah"))
     if t_batt < 5:
         where = ("the battery room's temperature (site.battery_temp_c)"
                  if project.site.battery_temp_c is not None else

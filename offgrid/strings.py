@@ -40,7 +40,7 @@ def nec_690_7_factor(record_low_c: float) -> float:
         if record_low_c >= lower:
             return factor
     raise DesignError(
-        "record-low", f"The record low {record_low_c:g} C is below the -40 C end of NEC Table "
+        "record-low", f"The record low {record_low_c:.1f} C is below the -40 C end of NEC Table "
         "690.7(A): enter the module's Voc temperature coefficient.",
         field="module.beta_voc_pct_per_c")
 

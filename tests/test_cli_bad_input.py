@@ -175,3 +175,13 @@ def test_json_of_a_quick_design_is_plain_numbers(capsys):
     assert code == 0
     data = json.loads(capsys.readouterr().out)
     assert data["array"]["power_w"] > 0
+
+
+def test_simulate_takes_a_quick_design(capsys):
+    code = main(["simulate", "--loads", KIT, "--climate", CLIMATE, "--years", "2", "--no-sweep",
+                 "--json"])
+    assert code == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["reliability"]["lolp"] >= 0
+    code, err = run(capsys, "simulate", "--demo", "--loads", KIT, "--climate", CLIMATE)
+    assert code == 2 and "not both" in err

@@ -108,3 +108,21 @@ def test_low_winter_sun_behind_a_southern_ridge_moves_the_best_tilt():
     shaded = best_tilt(H, LAT, 180.0, horizon=ridge, longitude_deg=LON, elevation_m=ELEV)
     assert shaded.worst_month_poa_kwh_m2_day < open_.worst_month_poa_kwh_m2_day
     assert shaded.tilt_deg < open_.tilt_deg
+
+
+def test_sky_share_hidden_by_a_horizon_and_its_warning():
+    # common derivation, no source: a level surface sees sin^2(e) of an isotropic sky's
+    # diffuse light below elevation e (integral of cos(zenith) over that band).
+    import math
+
+    from offgrid.climate.horizon import sky_share_blocked
+    from offgrid.sizing import design
+    from tests.conftest import hand_project
+
+    assert sky_share_blocked([(0.0, 30.0)]) == pytest.approx(math.sin(math.radians(30)) ** 2)
+    assert sky_share_blocked([]) == 0.0
+    p = hand_project()
+    p.site.horizon_deg = [(0.0, 30.0)]
+    assert "horizon-diffuse" in {n.code for n in design(p).warnings}
+    p.site.horizon_deg = [(90.0, 10.0), (270.0, 10.0)]
+    assert "horizon-diffuse" not in {n.code for n in design(p).warnings}

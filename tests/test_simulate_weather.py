@@ -27,7 +27,7 @@ def lag1(x: np.ndarray) -> float:
 
 def test_library_is_row_stochastic_and_bins_follow_the_paper():
     # Aguiar et al. (1988) table of matrices: 10 matrices of 10 x 10; the shipped
-    # transcription's rows sum to 1 within 0.003 and are normalised on reading.
+    # copy of the published matrices' rows sum to 1 within 0.003 and are normalised on reading.
     lib = aguiar1988_library()
     assert lib.p.shape == (10, 10, 10)
     np.testing.assert_allclose(lib.p.sum(axis=2), 1.0, atol=1e-12)

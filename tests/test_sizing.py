@@ -270,3 +270,26 @@ def test_inverter_surge_is_covered_beyond_the_common_ratings(project):
     d = design(project)
     assert d.inverter.surge_w >= d.inverter.required_surge_w
     assert "inverter-above-ratings" in {n.code for n in d.warnings}
+
+
+def test_charge_current_against_the_bank(project):
+    # Limits from memory (typical makers' figures, as offgrid.battery says): lead-acid about
+    # C/5-C/4 at most; far below C/20 a lead-acid bank seldom reaches full charge.
+    d = design(project)
+    b = d.battery
+    assert b.peak_charge_current_a == pytest.approx(
+        min(d.array.power_w * d.controller.efficiency / b.system_voltage_v,
+            d.controller.current_a * d.controller.count))
+    assert b.charge_c_rate == pytest.approx(b.peak_charge_current_a / b.capacity_ah)
+    codes = {n.code for n in d.warnings}
+    assert "charge-rate-high" not in codes and "charge-rate-low" not in codes
+    project.battery.capacity_ah = 20.0  # a tiny bank behind the same array
+    project.choices.autonomy_days = 0.5
+    small = design(project)
+    assert small.battery.charge_c_rate > 0.25
+    assert "charge-rate-high" in {n.code for n in small.warnings}
+    project.battery.capacity_ah = 3000.0
+    project.choices.autonomy_days = 3.0
+    big = design(project)
+    codes = {n.code for n in big.warnings}
+    assert "battery-oversized" in codes and "charge-rate-low" in codes

@@ -131,3 +131,17 @@ def monthly_beam_factor(points, latitude_deg: float, longitude_deg: float, eleva
     kept = (weight * vis).sum(axis=2)
     out = np.divide(kept, total, out=np.ones_like(total), where=total > 1e-12)
     return out[0] if scalar else out
+
+
+def sky_share_blocked(points: Sequence[tuple[float, float]]) -> float:
+    """Share of an isotropic sky's diffuse light on a level surface that the profile hides [-].
+
+    For a level surface the part of an isotropic sky below elevation e carries
+    sin^2(e) of its diffuse irradiance (integral of cos(zenith) over the band),
+    averaged around the horizon; common derivation, no source.
+    """
+    if not points:
+        return 0.0
+    az = np.arange(0.0, 360.0, 1.0)
+    e = np.radians(np.clip(horizon_elevation_deg(points, az), 0.0, 90.0))
+    return float(np.mean(np.sin(e) ** 2))

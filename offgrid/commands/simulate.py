@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 import json
 
-from offgrid.commands.common import add_project_argument, design_failed, fail, open_project
+from offgrid.commands.common import add_project_argument, design_failed, fail
 
 
 def register(sub) -> None:
@@ -31,6 +31,9 @@ def register(sub) -> None:
                    help="sweep N array sizes x N battery sizes (default 30)")
     p.add_argument("--no-sweep", action="store_true", help="skip the trade-off sweep")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
+    from offgrid.commands.size import add_quick_arguments
+
+    add_quick_arguments(p)
     p.set_defaults(func=run)
 
 
@@ -56,7 +59,9 @@ def run(args: argparse.Namespace) -> int:
         fail(str(exc))
     sweep = _int(args.sweep, "sweep")
     targets = tuple(args.target) if args.target else DEFAULT_TARGETS
-    project, base = open_project(args)
+    from offgrid.commands.size import project_from_args
+
+    project, base = project_from_args(args)
     try:
         rep = simulate_project(project, base, years=years, seed=seed,
                                mode="hourly" if args.hourly else "daily", targets=targets,

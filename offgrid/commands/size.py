@@ -14,6 +14,12 @@ def register(sub) -> None:
                                    "climate) and print the design.")
     add_project_argument(p)
     p.add_argument("--json", action="store_true", help="print the design as JSON")
+    add_quick_arguments(p)
+    p.set_defaults(func=run)
+
+
+def add_quick_arguments(p: argparse.ArgumentParser) -> None:
+    """--loads and --climate (a quick design without a project file) and the overrides."""
     quick = p.add_argument_group("quick design without a project file")
     quick.add_argument("--loads", metavar="LOADS.csv", help="load list CSV")
     quick.add_argument("--climate", metavar="CLIMATE",
@@ -21,7 +27,18 @@ def register(sub) -> None:
     quick.add_argument("--autonomy-days", type=float, metavar="N")
     quick.add_argument("--max-dod", type=float, metavar="F", help="maximum depth of discharge 0-1")
     quick.add_argument("--controller", choices=("pwm", "mppt"))
-    p.set_defaults(func=run)
+
+
+def project_from_args(args: argparse.Namespace):
+    """(project, base folder) from PROJECT, --demo or --loads with --climate, overrides applied."""
+    if args.loads or args.climate:
+        if args.project or args.demo:
+            fail("give a PROJECT (or --demo), or --loads with --climate, not both")
+        project, base = quick_project(args), None
+    else:
+        project, base = open_project(args)
+    apply_overrides(project, args)
+    return project, base
 
 
 def quick_project(args: argparse.Namespace):
@@ -66,13 +83,7 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.result import DesignError
     from offgrid.sizing import design
 
-    if args.loads or args.climate:
-        if args.project or args.demo:
-            fail("give a PROJECT (or --demo), or --loads with --climate, not both")
-        project, base = quick_project(args), None
-    else:
-        project, base = open_project(args)
-    apply_overrides(project, args)
+    project, base = project_from_args(args)
     try:
         result = design(project, base)
     except DesignError as exc:

@@ -24,14 +24,13 @@ from pathlib import Path
 
 import numpy as np
 
+from offgrid.battery import MAX_CHARGE_C_RATE
 from offgrid.project.model import Project
 from offgrid.result import SystemDesign
 from offgrid.simulate.balance import SystemInputs, check_inputs
 from offgrid.simulate.profiles import HOURS, window_profile
 
-#: Maximum charge current as a fraction of capacity per hour (from memory: typical makers'
-#: limits for deep-cycle batteries; lead-acid C/5 to C/4, LiFePO4 C/2).
-MAX_CHARGE_C_RATE: dict[str, float] = {"flooded": 0.2, "agm": 0.25, "gel": 0.2, "lifepo4": 0.5}
+__all__ = ["MAX_CHARGE_C_RATE", "inputs_from_design", "measured_daily"]
 ROUND_TRIP_DERATE = "battery round trip"
 
 

@@ -20,6 +20,9 @@ SCENARIOS = {
     "primary-school": "a primary school, closed in August",
     "water-pump": "a borehole pump, more in the dry season",
     "radio-repeater": "a hill-top radio repeater",
+    "household-basic": "a home: three lights, phone charging, radio",
+    "household-medium": "a home: lights, phones, radio, DC TV, fan",
+    "village-shop": "a shop: drinks refrigerator, phone charging",
 }
 
 

@@ -1,0 +1,55 @@
+"""The 80-column summary shows the same figures as the JSON of the same design."""
+
+from __future__ import annotations
+
+import re
+
+import pytest
+
+from offgrid.paths import demo_project_path
+from offgrid.project.store import load_project
+from offgrid.sizing import MONTHS, design
+from offgrid.summary import summary_text
+from tests.conftest import hand_project
+
+
+def _cases():
+    pwm = hand_project()
+    pwm.controller.type = "pwm"
+    pwm.loads[0].quantity = 3  # several controllers
+    assert design(pwm).controller.count > 1
+    return {"demo": load_project(demo_project_path()), "hand": hand_project(), "pwm": pwm}
+
+
+@pytest.mark.parametrize("name", list(_cases()))
+def test_summary_figures_equal_the_json(name):
+    project = _cases()[name]
+    d = design(project)
+    j = d.to_dict()
+    text = summary_text(project, d)
+    a, b, c, inv = j["array"], j["battery"], j["controller"], j["inverter"]
+    assert f"Design month: {MONTHS[j['site']['design_month'] - 1]}" in text
+    assert re.search(rf"Array\s+{a['power_w']:.0f} W\s+{a['modules_series']} series x "
+                     rf"{a['modules_parallel']} parallel", text)
+    assert re.search(rf"Battery bank\s+{b['capacity_ah']:.0f} Ah at {b['system_voltage_v']} V\s+"
+                     rf"{b['units_series']} series x {b['units_parallel']} parallel", text)
+    count = f"{c['count']} x " if c["count"] > 1 else ""
+    assert re.search(rf"Charge controller\s+{count}{c['current_a']:.0f} A {c['type'].upper()}",
+                     text)
+    per = c["required_current_a"] / c["count"]
+    assert f"needs {per:.1f} A" in text
+    if inv["needed"]:
+        assert re.search(rf"Inverter\s+{inv['continuous_w']:.0f} W continuous", text)
+    strings = j["electrical"]["strings"]
+    assert f"chosen {strings['series']} x {strings['parallel']} parallel" in text
+    for w in j["wires"]:
+        row = [line for line in text.splitlines() if line.strip().startswith(w["run"][:27])]
+        assert row, w["run"]
+        assert w["size"] in row[0] and f"{w['drop_pct']:.2f}" in row[0], (w, row[0])
+    dm = j["site"]["design_month"] - 1
+    supply = text.split("Array supply")[1].splitlines()[2].split()
+    assert float(supply[dm]) == pytest.approx(a["supply_wh_day"][dm], abs=0.5)
+    for notice in j["warnings"]:
+        assert f"[{notice['code']}]" in text
+    flat = " ".join(text.split())
+    assert flat.endswith(" ".join(j["cautions"][-1].split()))  # the defers-to-code line
