@@ -546,9 +546,7 @@ class OffgridApp(App):
             yield SystemCommand("Add an option", "A variant of the design with one change "
                                 "(Options, a)", in_section("options", "add_variant"))
             yield SystemCommand("Price list", "Show and edit the project's prices (Options, p)",
-                                lambda: (work.action_goto("options"),
-                                         work.current.showing_prices
-                                         or work.current.action_toggle_prices()))
+                                in_section("options", "show_prices"))
             yield SystemCommand("Import prices", "Read a price list CSV (Options, prices, i)",
                                 in_section("options", "import_prices"))
             yield SystemCommand("Export report", "Write the design report: HTML, Markdown or "

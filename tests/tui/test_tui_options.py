@@ -403,3 +403,20 @@ async def test_place_horizon_profile_is_typed_and_validated(state):
         await pilot.press("u")
         await pilot.pause()
         assert len(app.session.project.site.horizon_deg) == 4
+
+
+async def test_command_list_reaches_the_price_list_and_horizon(state):
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await settle(pilot)
+        commands = {c.title: c for c in app.get_system_commands(app.screen)}
+        commands["Price list"].callback()
+        await settle(pilot)
+        section = app.work.current
+        assert isinstance(section, OptionsSection) and section.showing_prices
+        assert "Price list: 13 line(s)" in screen_text(app)
+        commands["Horizon"].callback()
+        await pilot.pause()
+        assert app.work.section == "place"
+        assert app.screen.query_one("#place-edit", EditBar).is_open

@@ -1,10 +1,12 @@
 """Section 8, Options: the project's variants beside the base design, and its price list.
 
 The comparison (:func:`offgrid.report.variants.compare_variants`) designs the base
-and every variant: about 0.13 s per column on the demo (measured: 0.39 s for three
-columns), so it runs in a worker thread on a copy of the project and the table is
-marked out of date until it is back.  ``p`` switches to the price list, which is
-edited in place; every edit goes through the Session (validation, undo).
+and every variant: measured on the demo (benchmarks/bench_options.py) 0.04 s per
+column once warm, 0.4 s for the first call (imports), 0.9 s for three columns with
+the 30-year risk check (``g``).  So it runs in a worker thread on a copy of the
+project and the table is marked out of date until it is back.  ``p`` switches to
+the price list, which is edited in place; every edit goes through the Session
+(validation, undo).
 """
 
 from __future__ import annotations
@@ -402,6 +404,10 @@ class OptionsSection(Section):
         self.showing_prices = not self.showing_prices
         self.show(self.session)
         self.first_focus().focus()
+
+    def action_show_prices(self) -> None:
+        if not self.showing_prices:
+            self.action_toggle_prices()
 
     def action_toggle_risk(self) -> None:
         self.with_risk = not self.with_risk
