@@ -332,15 +332,17 @@ async def test_options_keys_are_in_help_and_footer(state):
     async with app.run_test(size=SIZE) as pilot:
         await to_options(pilot)
         footer = screen_text(app).splitlines()[-1]
-        assert "Add option" in footer and "Delete option" in footer
+        for words in ("a Add", "x Delete", "c Add change", "p Prices", "g Risk", "w Why?",
+                      "s Save"):
+            assert words in footer, words
         await pilot.press("question_mark")
         await pilot.pause()
         assert isinstance(app.screen, HelpDialog)
         groups = dict(app.help_groups())
         words = {b.description for b in groups["8 Options"]}
-        assert {"Add option", "Delete option", "Prices/options"} <= words
-        assert {b.description for b in groups["8 Options: prices (p)"]} >= {
-            "Add price", "Delete price", "Import CSV"}
+        assert {"Add", "Delete", "Add change", "Prices", "Risk"} <= words
+        assert {b.description for b in groups["8 Options, prices (p)"]} >= {
+            "Add", "Delete", "Import"}
         assert "8 Options" in screen_text(app)
 
 
@@ -420,3 +422,25 @@ async def test_command_list_reaches_the_price_list_and_horizon(state):
         await pilot.pause()
         assert app.work.section == "place"
         assert app.screen.query_one("#place-edit", EditBar).is_open
+
+
+async def test_options_add_a_second_change_to_an_option(state):
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        section = await to_options(pilot)
+        cursor_on(section, "name", 0)
+        await pilot.press("c")  # the base takes no changes
+        await pilot.pause()
+        assert not isinstance(app.screen, ChoiceDialog)
+        cursor_on(section, "name", 1)  # PWM controller
+        await pilot.press("c")
+        await pilot.pause()
+        await pick(pilot, "voltage")
+        await pick(pilot, 24)
+        await settle(pilot)
+        v = app.session.project.variants[0]
+        assert dict(flatten_overrides(v.overrides)) == {"controller.type": "pwm",
+                                                       "choices.system_voltage": 24}
+        assert len(app.session.project.variants) == 2
+        row = section.result.comparison.row("System voltage")
+        assert row.texts[1] == "24" and row.differs[1]

@@ -136,12 +136,16 @@ class VariantTable(SteadyTable):
 
     BINDINGS = [
         Binding("enter", "select_cursor", "Edit", id="options.edit"),
-        Binding("a", "add_variant", "Add option", id="options.add"),
-        Binding("x", "delete_variant", "Delete option", id="options.delete"),
+        Binding("a", "add_variant", "Add", id="options.add"),
+        Binding("x", "delete_variant", "Delete", id="options.delete"),
+        Binding("c", "add_change", "Add change", id="options.change"),
     ]
 
     def action_add_variant(self) -> None:
         self.parent.action_add_variant()  # type: ignore[union-attr]
+
+    def action_add_change(self) -> None:
+        self.parent.action_add_change()  # type: ignore[union-attr]
 
     def action_delete_variant(self) -> None:
         self.parent.action_delete_variant()  # type: ignore[union-attr]
@@ -152,9 +156,9 @@ class PriceTable(SteadyTable):
 
     BINDINGS = [
         Binding("enter", "select_cursor", "Edit", id="prices.edit"),
-        Binding("a", "add_price", "Add price", id="prices.add"),
-        Binding("x", "delete_price", "Delete price", id="prices.delete"),
-        Binding("i", "import_prices", "Import CSV", id="prices.import"),
+        Binding("a", "add_price", "Add", id="prices.add"),
+        Binding("x", "delete_price", "Delete", id="prices.delete"),
+        Binding("i", "import_prices", "Import", id="prices.import"),
     ]
 
     def action_add_price(self) -> None:
@@ -178,8 +182,8 @@ class OptionsSection(Section):
                  "edits the value under the cursor; w explains a figure or a cost.")
 
     BINDINGS = [
-        Binding("p", "toggle_prices", "Prices/options", id="options.prices"),
-        Binding("g", "toggle_risk", "Risk check on/off", id="options.risk"),
+        Binding("p", "toggle_prices", "Prices", id="options.prices"),
+        Binding("g", "toggle_risk", "Risk", id="options.risk"),
     ]
 
     def __init__(self, **kwargs) -> None:
@@ -651,7 +655,16 @@ class OptionsSection(Section):
         self.editor.start(f"{printable(v.name)}: {override_label(path)}", text, apply,
                           f.help() if f else path, back=self.table)
 
-    def action_add_variant(self) -> None:
+    def action_add_change(self) -> None:
+        """One more change in the option under the cursor."""
+        vi = self._variant_index()
+        if vi is None:
+            self.app.notify("Put the cursor on an option's column first (a adds an option).",
+                            timeout=3)
+            return
+        self.action_add_variant(into=vi)
+
+    def action_add_variant(self, into: int | None = None) -> None:
         options = [(c.key, c.label) for c in COMMON]
 
         def picked(key) -> None:
@@ -663,15 +676,17 @@ class OptionsSection(Section):
 
                 def valued(value) -> None:
                     if value is not None:
-                        self._add(choice, value)
+                        self._add(choice, value, into)
 
                 self.app.push_screen(ChoiceDialog(choice.label, values), valued)
             else:
-                self._ask_value(choice)
+                self._ask_value(choice, into)
 
-        self.app.push_screen(ChoiceDialog("New option: what does it change?", options), picked)
+        title = "New option: what does it change?" if into is None else \
+            f"{printable(self.session.project.variants[into].name)}: add a change"
+        self.app.push_screen(ChoiceDialog(title, options), picked)
 
-    def _ask_value(self, choice: Choice) -> None:
+    def _ask_value(self, choice: Choice, into: int | None = None) -> None:
         f = KNOWN_FIELDS.get(choice.path or "")
         from offgrid.tui.session import get_path
 
@@ -683,14 +698,17 @@ class OptionsSection(Section):
                 value = parse_override(choice.path, typed)
             except ValueError as exc:
                 return str(exc)
-            return self._add(choice, value)
+            return self._add(choice, value, into)
 
         self.editor.start(f"New option: {choice.label}", start, apply,
                           f.help() if f else "", back=self.table)
 
-    def _add(self, choice: Choice, value: Any) -> str | None:
-        """Add a variant with the chosen override; None if accepted, else the problem."""
-        from offgrid.report.variants import apply_variant
+    def _add(self, choice: Choice, value: Any, into: int | None = None) -> str | None:
+        """Add a variant with the chosen override (or add it to variant ``into``).
+
+        Returns None if accepted, else the problem.
+        """
+        from offgrid.report.variants import apply_variant, flatten_overrides
 
         project = self.session.project
         if choice.path is None:
@@ -703,20 +721,31 @@ class OptionsSection(Section):
         name = unique_name([v.name for v in project.variants],
                            f"{choice.label.split(' (')[0]}: {shown}"[:40])
         variant = Variant(name=name, overrides=overrides, note="added in the options section")
+        at = len(project.variants) + 1 if into is None else into + 1
 
         def put(p: Project) -> None:
-            p.variants.append(variant)
-            apply_variant(p, variant)
+            if into is None:
+                p.variants.append(variant)
+                apply_variant(p, variant)
+                return
+            v = p.variants[into]
+            v.overrides = {**dict(flatten_overrides(v.overrides)), **overrides}
+            apply_variant(p, v)
 
         try:
-            self.session.change(put, focus=f"variants[{len(project.variants) + 1}].overrides")
+            self.session.change(put, focus=f"variants[{at}].overrides")
         except EditRejected as exc:
             problem = self.problems_text(exc)
             self.app.notify(problem, severity="error", markup=False, timeout=6)
             return problem
         self.work.changed()
-        self.app.notify(f"Option '{printable(name)}' added; Enter on its name renames it.",
-                        markup=False, timeout=4)
+        if into is None:
+            self.app.notify(f"Option '{printable(name)}' added; Enter on its name renames it.",
+                            markup=False, timeout=4)
+        else:
+            self.app.notify(f"{choice.label.split(' (')[0]}: {shown} added to "
+                            f"'{printable(project.variants[into].name)}'.", markup=False,
+                            timeout=4)
         return None
 
     def action_delete_variant(self) -> None:
