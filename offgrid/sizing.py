@@ -90,14 +90,18 @@ def _tuple(a) -> tuple[float, ...]:
 
 
 def _check_climate(c: MonthlyClimate) -> None:
+    """DesignError naming the field when the climate table is incomplete or implausible."""
+    from offgrid.climate.files import monthly_climate_problems
+
     for key in ("insolation_kwh_m2_day", "temp_mean_c"):
         values = getattr(c, key)
-        if len(values) != 12:
+        if values is None or len(values) != 12:
             raise DesignError("climate-months", f"climate.{key}: needs 12 monthly values, has "
-                              f"{len(values)}", f"climate.{key}")
-        if not all(math.isfinite(v) for v in values):
-            raise DesignError("climate-months", f"climate.{key}: a month is missing or not a "
-                              "number", f"climate.{key}")
+                              f"{0 if values is None else len(values)}", f"climate.{key}")
+    problems = monthly_climate_problems(c)
+    if problems:
+        path, message = problems[0]
+        raise DesignError("climate-months", f"{path}: {message}", path)
 
 
 def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
