@@ -514,6 +514,19 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
             "cable needs about a quarter of the cross-section.", "warning",
             "battery.system_voltage_v"))
 
+    # The derate chain's wiring factor against the cables as sized (drop % ~ power lost %).
+    cable_loss = sum(w.drop_pct for w in wires if w.key in ("string", "array", "charge")) / 100
+    chain_loss = 1.0 - float(project.choices.derates.wiring)
+    if abs(chain_loss - cable_loss) > 0.03:
+        notices.append(Notice(
+            "wiring-derate-vs-cables", f"The wiring derate ({1 - chain_loss:.2f}) allows "
+            f"{chain_loss:.0%} for cable losses, but the PV and charge cables as sized lose "
+            f"about {cable_loss:.1%} at full sun: set choices.derates.wiring to about "
+            f"{1 - cable_loss:.2f} so the derate chain and the harvest agree"
+            + (" (the array is now larger than the cables need)." if chain_loss > cable_loss
+               else " (the harvest from the I-V curves already counts the real loss)."),
+            "info", "array.derates.wiring"))
+
     # Harvest both ways with the chosen cables; the other controller type on its own layout.
     loop = {w.key: 2.0 * w.length_m * w.resistance_ohm_km / 1000.0 for w in wires}
     soiling, mismatch = _derate(core, project, "soiling"), _derate(core, project, "mismatch")
