@@ -246,16 +246,22 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     if climate.record_low_c is not None:
         t_low = float(climate.record_low_c)
         low_src = "record low of the climate file"
-    elif climate.temp_min_c:
-        t_low = float(min(climate.temp_min_c)) - 5.0
-        low_src = "coldest monthly mean minimum - 5 C (no record low given; common practice)"
     else:
-        t_low = float(t_mean.min()) - 10.0
-        low_src = "coldest monthly mean - 10 C (no minima given; common practice)"
-        notices.append(Notice("record-low-estimated", "The climate has no record low "
-                              f"temperature; {t_low:.0f} C is assumed for the cold open-circuit "
-                              "voltage. Enter the record low for a safe string design.",
-                              "warning", "site.record_low_c"))
+        if climate.temp_min_c:
+            t_low = float(min(climate.temp_min_c)) - 5.0
+            low_src = "coldest monthly mean minimum - 5 C (no record low given; common practice)"
+            basis = "the coldest monthly mean minimum - 5 C"
+        else:
+            t_low = float(t_mean.min()) - 10.0
+            low_src = "coldest monthly mean - 10 C (no minima given; common practice)"
+            basis = "the coldest monthly mean - 10 C"
+        notices.append(Notice(
+            "record-low-estimated", f"The climate has no record low temperature; {t_low:.0f} C "
+            f"({basis}) is assumed for the cold open-circuit voltage, and real record lows are "
+            "often 10-20 C colder. Enter the site's record low (the NEC 690.7(A) informational "
+            "note points to the ASHRAE extreme annual mean minimum design temperature, from "
+            "memory) so the strings stay within the controller's voltage.", "warning",
+            "site.record_low_c"))
 
     site = SiteResult(
         design_month=dm + 1, tilt_deg=tilt, azimuth_deg=azimuth,
