@@ -441,6 +441,7 @@ class OffgridApp(App):
     def help_groups(self) -> list[tuple[str, list[Binding]]]:
         from offgrid.tui.screens.dialogs import Dialog
         from offgrid.tui.sections.loads import LoadsSection, LoadsTable
+        from offgrid.tui.sections.options import OptionsSection, PriceTable, VariantTable
         from offgrid.tui.sections.place import ClimateTable, PlaceSection
         from offgrid.tui.sections.risk import RiskSection
         from offgrid.tui.widgets.editbar import EditBar
@@ -451,7 +452,7 @@ class OffgridApp(App):
 
         work = b(WorkScreen)
         moving = [x for x in work if x.id and x.id.startswith("go.")]
-        moving = [Binding("1,2,3,4,5,6,7", "goto", "Go to section 1-7 (Place ... Risk)"),
+        moving = [Binding("1,2,3,4,5,6,7,8", "goto", "Go to section 1-8 (Place ... Options)"),
                   *[x for x in moving if x.id[3:] not in {s for s, _t, _w in SECTIONS}],
                   Binding("up,down,left,right", "move", "Move the cursor"),
                   Binding("pageup,pagedown", "page", "Move a page"),
@@ -466,6 +467,8 @@ class OffgridApp(App):
             ("1 Place", [*b(PlaceSection), *b(ClimateTable)]),
             ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
             ("7 Risk", b(RiskSection)),
+            ("8 Options", [*b(OptionsSection), *b(VariantTable)]),
+            ("8 Options: prices (p)", b(PriceTable)),
             ("Start screen", b(StartScreen)),
             *self._plan_help(),
             ("Dialogs", b(Dialog)),
@@ -519,6 +522,8 @@ class OffgridApp(App):
                                 in_section("place", "choose_climate"))
             yield SystemCommand("Type twelve months", "Use your own monthly climate values "
                                 "(Place, m)", in_section("place", "own_months"))
+            yield SystemCommand("Horizon", "Type the hills and trees around the site (Place, "
+                                "z)", in_section("place", "horizon"))
             yield SystemCommand("Add appliance", "A new line in the load list (Loads, a)",
                                 in_section("loads", "add"))
             yield SystemCommand("Copy appliance", "Duplicate the line under the cursor "
@@ -538,6 +543,12 @@ class OffgridApp(App):
             yield SystemCommand("Run the risk check", "Simulate synthetic weather years in the "
                                 "background (Risk, g)", in_section("risk", "run"))
             yield SystemCommand("Stop the risk check", "(Risk, x)", in_section("risk", "stop"))
+            yield SystemCommand("Add an option", "A variant of the design with one change "
+                                "(Options, a)", in_section("options", "add_variant"))
+            yield SystemCommand("Price list", "Show and edit the project's prices (Options, p)",
+                                in_section("options", "show_prices"))
+            yield SystemCommand("Import prices", "Read a price list CSV (Options, prices, i)",
+                                in_section("options", "import_prices"))
             yield SystemCommand("Export report", "Write the design report: HTML, Markdown or "
                                 "text (E)", lambda: self.export_dialog("report"))
             yield SystemCommand("Export bill of materials", "Write the parts list as CSV (B)",

@@ -14,9 +14,10 @@ from offgrid.tui.screens.dialogs import Dialog
 GENERAL = """\
 offgrid sizes a stand-alone solar system. Work through the sections in order:
 1 Place (site and climate), 2 Loads (the appliances), 3 Parts (module, battery,
-controller, inverter, choices). 4 Sizes shows the result, 5 Wires the circuits and
-6 Cautions the warnings. The line under the sections always shows the headline
-figures; every edit recomputes them at once.
+controller, inverter, choices). 4 Sizes shows the result, 5 Wires the circuits,
+6 Cautions the warnings, 7 Risk a test against synthetic weather years, 8 Options
+the variants side by side with the price list. The line under the sections always
+shows the headline figures; every edit recomputes them at once.
 
 Editing: move with the arrow keys, Enter edits the field or cell under the cursor,
 Enter again applies, Esc cancels. A value that does not fit is refused with a

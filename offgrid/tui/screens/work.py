@@ -1,4 +1,4 @@
-"""The work screen: the six sections, the headline strip and the file actions."""
+"""The work screen: the sections, the headline strip and the file actions."""
 
 from __future__ import annotations
 
@@ -13,6 +13,7 @@ from offgrid.tui.screens.why import WhyDialog, find_reason
 from offgrid.tui.sections.base import Section
 from offgrid.tui.sections.cautions import CautionsSection
 from offgrid.tui.sections.loads import LoadsSection
+from offgrid.tui.sections.options import OptionsSection
 from offgrid.tui.sections.parts import PartsSection
 from offgrid.tui.sections.place import PlaceSection
 from offgrid.tui.sections.risk import RiskSection
@@ -24,6 +25,7 @@ from offgrid.tui.widgets.bars import SECTIONS, FileBar, Headline, SectionBar
 SECTION_CLASSES: dict[str, type[Section]] = {
     "place": PlaceSection, "loads": LoadsSection, "parts": PartsSection, "sizes": SizesSection,
     "wires": WiresSection, "cautions": CautionsSection, "risk": RiskSection,
+    "options": OptionsSection,
 }
 
 #: Section-changing and other one-letter keys work while no text box has focus.
@@ -161,7 +163,8 @@ class WorkScreen(Screen):
         """Go to the section and field (or figure) that ``path`` names."""
         order = {"site": "place", "climate": "place", "info": "place", "loads": "loads",
                  "module": "parts", "battery": "parts", "controller": "parts",
-                 "inverter": "parts", "choices": "parts"}
+                 "inverter": "parts", "choices": "parts", "prices": "options",
+                 "variants": "options", "economics": "options"}
         head = path.split(".")[0].split("[")[0]
         target = order.get(head, "sizes")
         self.action_goto(target)

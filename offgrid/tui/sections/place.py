@@ -105,6 +105,7 @@ class PlaceSection(Section):
         Binding("c", "choose_climate", "Climate", id="place.climate"),
         Binding("m", "own_months", "Type months", id="place.months"),
         Binding("k", "check_climate", "Check", id="place.check"),
+        Binding("z", "horizon", "Horizon", id="place.horizon"),
     ]
 
     def compose(self) -> ComposeResult:
@@ -475,6 +476,36 @@ class PlaceSection(Section):
             return
         note = f"Climate: {printable(ref)}" + (f"; {moved[0]}" if moved else "")
         self.work.changed(note, tell=True)
+
+    def action_horizon(self) -> None:
+        """Type the horizon profile (site.horizon_deg) as azimuth:elevation pairs."""
+        from offgrid.climate.horizon import parse_horizon
+
+        now = self.session.project.site.horizon_deg
+        text = ", ".join(f"{az:g}:{el:g}" for az, el in now)
+
+        def apply(typed: str) -> str | None:
+            try:
+                points = parse_horizon(typed)
+                self.session.set_value("site.horizon_deg", points)
+            except EditRejected as exc:
+                return self.problems_text(exc)
+            except ValueError as exc:
+                return str(exc)
+            self.work.changed()
+            if points:
+                az, el = max(points, key=lambda p: p[1])
+                said = (f"Horizon: {len(points)} point(s), highest {el:g} deg at azimuth "
+                        f"{az:g} deg.")
+            else:
+                said = "Horizon: open (no obstructions)."
+            self.app.notify(said, timeout=4)
+            return None
+
+        self.editor.start("Horizon profile: azimuth:elevation pairs, degrees", text, apply,
+                          "e.g. 90:10, 180:4, 270:12 (azimuth clockwise from north, elevation "
+                          "of the obstruction top); empty = open horizon",
+                          back=self.fields)
 
     def action_own_months(self) -> None:
         try:

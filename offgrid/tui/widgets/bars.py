@@ -17,6 +17,7 @@ SECTIONS: tuple[tuple[str, str, str], ...] = (
     ("wires", "Wires", "cable runs, currents and protection"),
     ("cautions", "Cautions", "warnings and safety notes"),
     ("risk", "Risk", "how often the battery runs out, over synthetic weather years"),
+    ("options", "Options", "variants side by side with the base, and the price list"),
 )
 
 
@@ -55,7 +56,7 @@ class FileBar(Static):
 
 
 class SectionBar(Static):
-    """The six sections with their keys; the current one stands out (also without colour)."""
+    """The sections with their keys; the current one stands out (also without colour)."""
 
     DEFAULT_CSS = """
     SectionBar { height: 1; background: $panel; }
@@ -68,7 +69,6 @@ class SectionBar(Static):
                 text.append(f"\u25b8{n} {title}\u25c2", style="bold reverse")
             else:
                 text.append(f" {n} {title} ")
-            text.append(" ")
         self.update(text)
 
 
