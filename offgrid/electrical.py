@@ -514,6 +514,19 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
             "cable needs about a quarter of the cross-section.", "warning",
             "battery.system_voltage_v"))
 
+    # The derate chain's wiring factor against the cables as sized (drop % ~ power lost %).
+    cable_loss = sum(w.drop_pct for w in wires if w.key in ("string", "array", "charge")) / 100
+    chain_loss = 1.0 - float(project.choices.derates.wiring)
+    if abs(chain_loss - cable_loss) > 0.03:
+        notices.append(Notice(
+            "wiring-derate-vs-cables", f"The wiring derate ({1 - chain_loss:.2f}) allows "
+            f"{chain_loss:.0%} for cable losses, but the PV and charge cables as sized lose "
+            f"about {cable_loss:.1%} at full sun: set choices.derates.wiring to about "
+            f"{1 - cable_loss:.2f} so the derate chain and the harvest agree"
+            + (" (the array is now larger than the cables need)." if chain_loss > cable_loss
+               else " (the harvest from the I-V curves already counts the real loss)."),
+            "info", "array.derates.wiring"))
+
     # Harvest both ways with the chosen cables; the other controller type on its own layout.
     loop = {w.key: 2.0 * w.length_m * w.resistance_ohm_km / 1000.0 for w in wires}
     soiling, mismatch = _derate(core, project, "soiling"), _derate(core, project, "mismatch")
@@ -609,10 +622,11 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
                                    source=f"{NEC} 706.31, 240.6(A)"))
     n_bat = int(bat.units_parallel)
     bat_string_fuse = None
+    # the largest current through the battery terminals: all discharge circuits, or all charge
+    total = (1.25 * float(inv.dc_input_current_a) if inv.needed else 0.0) + sum(
+        1.25 * w.current_a for w in wires if w.key.startswith("load"))
+    total = max(total, 1.25 * i_charge_max * controllers)
     if n_bat >= 2:
-        total = (1.25 * float(inv.dc_input_current_a) if inv.needed else 0.0) + sum(
-            1.25 * w.current_a for w in wires if w.key.startswith("load"))
-        total = max(total, 1.25 * i_charge_max * controllers)
         bat_string_fuse = prot.standard_rating_a(total / n_bat, what="battery string fuse",
                                                  field="battery.capacity_ah")
         devices.append(prot.Device("each parallel battery string, at its positive terminal",
@@ -620,13 +634,22 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
                                    interrupt_rating_a=fault,
                                    note="a fault in one string is fed by all the others",
                                    source="common practice, no source"))
+    disconnect_a = prot.standard_rating_a(total, fuse=False, what="battery disconnect",
+                                          field="loads")
     devices.append(prot.Device("battery disconnect, readily accessible, at the battery",
-                               "disconnect", None, bank_v, 1, source=f"{NEC} 706.15"))
+                               "disconnect", disconnect_a, bank_v, 1,
+                               note="rated for the largest current through the terminals",
+                               source=f"{NEC} 706.15"))
     for w in wires:
         if w.key.startswith("load"):
+            load = project.loads[int(w.key[4:]) - 1]
+            note = ""
+            if load.surge_w > load.power_w > 0:
+                note = (f"starts at about {load.quantity * load.surge_w / vsys:.0f} A: a "
+                        "time-delay fuse or a breaker with a motor-start curve")
             devices.append(prot.Device(f"{w.run} circuit, at the DC distribution board",
                                        _device_kind(w.fuse_a, "fuse or breaker"), w.fuse_a,
-                                       bank_v, 1, source=f"{NEC} 240.4, 240.6(A)"))
+                                       bank_v, 1, note=note, source=f"{NEC} 240.4, 240.6(A)"))
     protection = ProtectionResult(tuple(devices), fuses_needed, string_fuse, battery_fuse,
                                   unit_sc, estimated, fault, n_bat if n_bat >= 2 else 0,
                                   bat_string_fuse)

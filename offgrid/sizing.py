@@ -90,14 +90,18 @@ def _tuple(a) -> tuple[float, ...]:
 
 
 def _check_climate(c: MonthlyClimate) -> None:
+    """DesignError naming the field when the climate table is incomplete or implausible."""
+    from offgrid.climate.files import monthly_climate_problems
+
     for key in ("insolation_kwh_m2_day", "temp_mean_c"):
         values = getattr(c, key)
-        if len(values) != 12:
+        if values is None or len(values) != 12:
             raise DesignError("climate-months", f"climate.{key}: needs 12 monthly values, has "
-                              f"{len(values)}", f"climate.{key}")
-        if not all(math.isfinite(v) for v in values):
-            raise DesignError("climate-months", f"climate.{key}: a month is missing or not a "
-                              "number", f"climate.{key}")
+                              f"{0 if values is None else len(values)}", f"climate.{key}")
+    problems = monthly_climate_problems(c)
+    if problems:
+        path, message = problems[0]
+        raise DesignError("climate-months", f"{path}: {message}", path)
 
 
 def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
@@ -242,16 +246,22 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     if climate.record_low_c is not None:
         t_low = float(climate.record_low_c)
         low_src = "record low of the climate file"
-    elif climate.temp_min_c:
-        t_low = float(min(climate.temp_min_c)) - 5.0
-        low_src = "coldest monthly mean minimum - 5 C (no record low given; common practice)"
     else:
-        t_low = float(t_mean.min()) - 10.0
-        low_src = "coldest monthly mean - 10 C (no minima given; common practice)"
-        notices.append(Notice("record-low-estimated", "The climate has no record low "
-                              f"temperature; {t_low:.0f} C is assumed for the cold open-circuit "
-                              "voltage. Enter the record low for a safe string design.",
-                              "warning", "site.record_low_c"))
+        if climate.temp_min_c:
+            t_low = float(min(climate.temp_min_c)) - 5.0
+            low_src = "coldest monthly mean minimum - 5 C (no record low given; common practice)"
+            basis = "the coldest monthly mean minimum - 5 C"
+        else:
+            t_low = float(t_mean.min()) - 10.0
+            low_src = "coldest monthly mean - 10 C (no minima given; common practice)"
+            basis = "the coldest monthly mean - 10 C"
+        notices.append(Notice(
+            "record-low-estimated", f"The climate has no record low temperature; {t_low:.0f} C "
+            f"({basis}) is assumed for the cold open-circuit voltage, and real record lows are "
+            "often 10-20 C colder. Enter the site's record low (the NEC 690.7(A) informational "
+            "note points to the ASHRAE extreme annual mean minimum design temperature, from "
+            "memory) so the strings stay within the controller's voltage.", "warning",
+            "site.record_low_c"))
 
     site = SiteResult(
         design_month=dm + 1, tilt_deg=tilt, azimuth_deg=azimuth,

@@ -161,6 +161,10 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
     if any(w.key.startswith("load") for w in e.wires):
         prot += _wrap("each DC load circuit: the fuse or breaker of the cable table, at the DC "
                       "distribution board [NFPA 70 (NEC) 2023 240.4, 240.6(A)]", "  - ")
+        for dev in pr.devices:
+            if dev.location.startswith("DC load") and dev.note:
+                name = dev.location.removesuffix(" circuit, at the DC distribution board")
+                prot += _wrap(f"{name}: {dev.note}", "    ")
     return [module, strings, harvest, cables, prot]
 
 

@@ -185,3 +185,44 @@ def test_simulate_takes_a_quick_design(capsys):
     assert data["reliability"]["lolp"] >= 0
     code, err = run(capsys, "simulate", "--demo", "--loads", KIT, "--climate", CLIMATE)
     assert code == 2 and "not both" in err
+
+
+@pytest.mark.parametrize("line, expected", [
+    ("temp_max_c = [nan,20,20,20,20,20,20,20,20,20,20,20]",
+     "climate.monthly.temp_max_c[1]: 'nan' is not a number"),
+    ("insolation_kwh_m2_day = [5,5,5,5,5,5,5,5,5,5,5,inf]",
+     "climate.monthly.insolation_kwh_m2_day[12]: 'inf' is not a number"),
+    ("temp_min_c = [25,20,20,20,20,20,20,20,20,20,20,20]",
+     "climate.monthly.temp_min_c[1]: 25 C is above the month's mean"),
+])
+def test_inline_climate_values_are_checked_on_load(tmp_path, capsys, line, expected):
+    monthly = {"insolation_kwh_m2_day": "[5,5,5,5,5,5,5,5,5,5,5,5]",
+               "temp_mean_c": "[20,20,20,20,20,20,20,20,20,20,20,20]"}
+    key = line.split(" = ")[0]
+    monthly[key] = line.split(" = ")[1]
+    body = (PROJECT_HEAD + "[climate.monthly]\n"
+            + "".join(f"{k} = {v}\n" for k, v in monthly.items())
+            + '[[loads]]\nname = "lamp"\npower_w = 10\nhours_per_day = 4\n')
+    code, err = run(capsys, "size", write(tmp_path, "p.toml", body))
+    assert code == 2 and expected in err and "line " in err, err
+
+
+def test_whole_numbers_that_are_not_finite(tmp_path, capsys):
+    body = PROJECT_HEAD + "[module]\ncells_in_series = inf\n[wiring]\ninsulation_temp_c = nan\n"
+    code, err = run(capsys, "size", write(tmp_path, "p.toml", body))
+    assert code == 2 and "module.cells_in_series: 'inf' must be a whole number" in err
+    assert "wiring.insulation_temp_c" in err
+
+
+def test_design_refuses_a_climate_that_is_not_finite():
+    # The engine checks the climate it is given too (the text UI edits it in place).
+    from offgrid.project.validate import validate_project
+    from offgrid.result import DesignError
+    from offgrid.sizing import design
+
+    p = hand_project()
+    p.climate.inline.record_low_c = float("nan")
+    assert any(pr.path == "climate.record_low_c" for pr in validate_project(p))
+    with pytest.raises(DesignError) as exc:
+        design(p)
+    assert exc.value.field == "climate.record_low_c"

@@ -247,3 +247,17 @@ def test_wiring_section_round_trips(project):
     load = next(w for w in design(again).electrical.wires if w.run == "DC load 'DC lights'")
     assert load.key == "load1"  # first line of the load list
     assert load.length_m == 22.5
+
+
+def test_wiring_derate_far_from_the_sized_cables_is_noted():
+    # Drop % at the operating current ~ share of power lost in the cable (common practice).
+    from offgrid.sizing import design
+    from tests.conftest import hand_project
+
+    p = hand_project()
+    assert "wiring-derate-vs-cables" not in {n.code for n in design(p).warnings}
+    p.choices.derates.wiring = 0.8
+    d = design(p)
+    note = next(n for n in d.warnings if n.code == "wiring-derate-vs-cables")
+    loss = sum(w.drop_pct for w in d.electrical.wires if w.key in ("string", "array", "charge"))
+    assert f"{loss / 100:.1%}" in note.message and "choices.derates.wiring" in note.message

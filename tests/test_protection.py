@@ -126,3 +126,22 @@ def test_layout_choice():
     # PWM takes the smallest series count.
     wp = st.string_window("pwm", 100.0, 22.0, 17.5, 14.4, 0.4)
     assert st.choose_layout(wp, 4, 1).series == 1
+
+
+def test_battery_disconnect_is_rated_and_dc_motor_circuits_say_time_delay():
+    # NEC 706.15 disconnect: rated for the largest current through the battery terminals
+    # (1.25 x the circuits it carries; common practice, no source).  A DC motor draws its
+    # starting current through its circuit fuse (common practice, no source).
+    from offgrid.sizing import design
+    from tests.conftest import hand_project
+
+    p = hand_project()
+    p.loads[0].surge_w = 400.0  # the 100 W DC load starts like a motor
+    d = design(p)
+    pr = d.electrical.protection
+    disconnect = next(x for x in pr.devices if x.kind == "disconnect")
+    charge = next(w for w in d.electrical.wires if w.key == "charge")
+    assert disconnect.rating_a is not None
+    assert disconnect.rating_a >= 1.25 * charge.current_a * d.controller.count
+    dc = next(x for x in pr.devices if x.location.startswith("DC load 'DC lights'"))
+    assert "time-delay" in dc.note and "17 A" in dc.note  # 400 W / 24 V

@@ -293,3 +293,15 @@ def test_charge_current_against_the_bank(project):
     big = design(project)
     codes = {n.code for n in big.warnings}
     assert "battery-oversized" in codes and "charge-rate-low" in codes
+
+
+def test_record_low_estimated_from_minima_is_warned(project):
+    # The cold open-circuit voltage is a safety limit (NEC 690.7(A)): any estimate is warned.
+    project.climate.inline.record_low_c = None
+    d = design(project)
+    assert d.site.record_low_c == pytest.approx(20.0 - 5.0)  # coldest mean minimum - 5 C
+    assert "record-low-estimated" in {n.code for n in d.warnings}
+    project.climate.inline.temp_min_c = None
+    d = design(project)
+    assert d.site.record_low_c == pytest.approx(25.0 - 10.0)
+    assert "record-low-estimated" in {n.code for n in d.warnings}

@@ -116,18 +116,78 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
         elevation_m=_number(data, "elevation_m", where),
         demo=bool(data.get("demo", False)),
     )
-    for i, h in enumerate(climate.insolation_kwh_m2_day, start=1):
-        if h < 0 or h > 12:
-            raise ClimateFileError(
-                f"{sub}.insolation_kwh_m2_day[{i}]: {h} is outside 0-12 kWh/m2/day; "
-                "check the unit (MJ/m2/day divided by 3.6 gives kWh/m2/day)"
-            )
-    for i, t in enumerate(climate.temp_mean_c, start=1):
-        if t < -70 or t > 55:
-            raise ClimateFileError(f"{sub}.temp_mean_c[{i}]: {t} C is not a plausible monthly mean")
+    problems = monthly_climate_problems(climate, where, sub)
+    if problems:
+        path, message = problems[0]
+        raise ClimateFileError(f"{path}: {message}")
     if "daily" in data:
         climate.daily = daily_from_dict(data["daily"], f"{where}.daily")
     return climate
+
+
+#: Plausible ranges of a climate's values: key -> (low, high, unit, hint when out of range).
+MONTHLY_BOUNDS = {
+    "insolation_kwh_m2_day": (0.0, 12.0, "kWh/m2/day", "; check the unit (MJ/m2/day divided "
+                                                      "by 3.6 gives kWh/m2/day)"),
+    "temp_mean_c": (-70.0, 55.0, "C", " for a monthly mean"),
+    "temp_max_c": (-70.0, 65.0, "C", " for a monthly mean daily maximum"),
+    "temp_min_c": (-90.0, 55.0, "C", " for a monthly mean daily minimum"),
+}
+SITE_BOUNDS = {"latitude_deg": (-90.0, 90.0, "degrees", ", north positive"),
+               "longitude_deg": (-180.0, 180.0, "degrees", ", east positive"),
+               "elevation_m": (-430.0, 9000.0, "m", " above sea level"),
+               "record_low_c": (-90.0, 40.0, "C", " for the lowest temperature on record")}
+
+
+def _span(lo: float, hi: float) -> str:
+    return f"{lo:g}-{hi:g}" if lo >= 0 else f"{lo:g} to {hi:g}"
+
+
+def monthly_climate_problems(climate: MonthlyClimate, where: str = "climate",
+                             sub: str | None = None) -> list[tuple[str, str]]:
+    """Every problem with a climate table as (dotted path, message with the fix)."""
+    import math
+
+    sub = sub or f"{where}.monthly"
+    out: list[tuple[str, str]] = []
+    for key, (lo, hi, unit, hint) in MONTHLY_BOUNDS.items():
+        values = getattr(climate, key)
+        if values is None:
+            continue
+        if len(values) != 12:
+            out.append((f"{sub}.{key}", f"needs exactly 12 monthly values, January first (has "
+                                        f"{len(values)})"))
+            continue
+        for i, v in enumerate(values, start=1):
+            if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+                out.append((f"{sub}.{key}[{i}]", f"'{v}' is not a number: give the month's "
+                                                 f"value in {unit}"))
+            elif not lo <= v <= hi:
+                out.append((f"{sub}.{key}[{i}]", f"{v:g} is outside {_span(lo, hi)} "
+                                                 f"{unit}{hint}"))
+    if out:
+        return out
+    mean = climate.temp_mean_c
+    for key, sign, word in (("temp_max_c", 1, "below"), ("temp_min_c", -1, "above")):
+        values = getattr(climate, key)
+        for i, (v, m) in enumerate(zip(values or (), mean, strict=False), start=1):
+            if sign * (v - m) < -0.05:
+                out.append((f"{sub}.{key}[{i}]", f"{v:g} C is {word} the month's mean {m:g} C: "
+                                                 "check the columns are not swapped"))
+    for key, (lo, hi, unit, hint) in SITE_BOUNDS.items():
+        v = getattr(climate, key)
+        if v is None:
+            continue
+        if not math.isfinite(v):
+            out.append((f"{where}.{key}", f"'{v}' is not a number: give it in {unit}{hint}"))
+        elif not lo <= v <= hi:
+            out.append((f"{where}.{key}", f"{v:g} is outside {_span(lo, hi)} {unit}{hint}"))
+    low = climate.record_low_c
+    if low is not None and math.isfinite(low) and mean and low > min(mean) + 0.05:
+        out.append((f"{where}.record_low_c", f"{low:g} C is above the coldest monthly mean "
+                                             f"({min(mean):g} C): give the lowest temperature "
+                                             "on record"))
+    return out
 
 
 def daily_from_dict(table: object, where: str = "daily") -> DailyClimate:

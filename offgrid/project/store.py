@@ -216,7 +216,8 @@ class _Reader:
                 return 0.0
             return float(value)
         if tp is int:
-            if isinstance(value, bool) or not isinstance(value, int | float) or value != int(value):
+            if (isinstance(value, bool) or not isinstance(value, int | float)
+                    or (isinstance(value, float) and not value.is_integer())):
                 self.bad(path, f"'{value}' must be a whole number")
                 return 0
             return int(value)

@@ -148,6 +148,10 @@ def validate_project(project: Project) -> list[Problem]:
     if c.ref is None and c.inline is None:
         problems.append(Problem("climate", "no climate: give `ref` (a bundled climate name or "
                                 "file) or an inline [climate.monthly] table"))
+    if c.inline is not None:
+        from offgrid.climate.files import monthly_climate_problems
+
+        problems.extend(Problem(path, msg) for path, msg in monthly_climate_problems(c.inline))
     if project.site.horizon_deg:
         from offgrid.climate.horizon import validate_horizon
 
