@@ -62,7 +62,10 @@ def test_adapter_reproduces_the_design_supply():
     result = design(project, demo_project_path().parent)
     inp = inputs_from_design(project, result)
     # On days at each month's mean insolation and with no controller clipping, the daily PV
-    # equals the design's monthly array supply with the battery round trip put back in.
+    # equals the design's monthly array supply with the battery round trip put back in (the
+    # demo's I-V harvest is above the derate chain in every month).
+    assert all(h * result.array.derates["battery round trip"] >= s for h, s in zip(
+        result.array.harvest_mppt_wh_day, result.array.supply_wh_day, strict=True))
     h = np.asarray(result.site.horizontal_kwh_m2_day)
     w = WeatherSeries(h[MONTH_OF_DAY][None, :], 0, h, np.ones(12), None, "monthly means")
     steps = build_steps(inp, w, "daily")
@@ -125,3 +128,17 @@ def test_engine_imports_no_ui():
     code = ("import sys\nimport offgrid.simulate.run, offgrid.commands.simulate\n"
             "bad = [m for m in ('textual', 'rich') if m in sys.modules]\nassert not bad, bad\n")
     subprocess.run([sys.executable, "-c", code], check=True)
+
+
+def test_adapter_takes_the_lower_harvest():
+    # When the I-V curves give less than the derate chain, the simulation must not assume
+    # the chain's (higher) energy.
+    from dataclasses import replace
+
+    project = load_project(demo_project_path())
+    result = design(project, demo_project_path().parent)
+    low = tuple(0.5 * v for v in result.array.harvest_mppt_wh_day)
+    weak = replace(result, array=replace(result.array, harvest_mppt_wh_day=low))
+    inp = inputs_from_design(project, weak)
+    poa = np.asarray(result.site.poa_kwh_m2_day)
+    np.testing.assert_allclose(inp.yield_factor, np.asarray(low) / (result.array.power_w * poa))

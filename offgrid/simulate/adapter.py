@@ -3,9 +3,10 @@
 What is taken from the design (so the simulation and the worst-month method
 agree on every derate):
 
-* per-month yield = array supply / (array power x plane-of-array insolation),
-  with the battery round-trip derate taken back out, because the simulation
-  models charge and discharge losses itself;
+* per-month yield = energy into the battery / (array power x plane-of-array
+  insolation): the derate chain's supply with the battery round-trip derate taken
+  back out (the simulation models charge and discharge losses itself), or the
+  harvest through the chosen controller from the I-V curves when that is lower;
 * plane-of-array / horizontal ratio per month from the site result;
 * controller output limit = rated current x controllers x system voltage,
   kept per W of array when the sweep resizes the array;
@@ -71,11 +72,13 @@ def inputs_from_design(project: Project, design: SystemDesign, *,
     poa = np.asarray(site.poa_kwh_m2_day, dtype=float)
     ratio = np.divide(poa, h, out=np.ones(12), where=h > 0)
     rt = float(arr.derates.get(ROUND_TRIP_DERATE, 1.0)) or 1.0
-    supply = np.asarray(arr.supply_wh_day, dtype=float)
+    into_battery = np.asarray(arr.supply_wh_day, dtype=float) / rt  # derate chain
+    harvest = arr.harvest_pwm_wh_day if ctl.type == "pwm" else arr.harvest_mppt_wh_day
+    if len(harvest) == 12:  # the I-V curves' harvest, when lower, is the one to trust
+        into_battery = np.minimum(into_battery, np.asarray(harvest, dtype=float))
     denom = arr.power_w * poa
     fallback = arr.derate_total / rt
-    yf = np.divide(supply, denom, out=np.full(12, fallback), where=denom > 0) / np.where(
-        denom > 0, rt, 1.0)
+    yf = np.divide(into_battery, denom, out=np.full(12, fallback), where=denom > 0)
     if not np.all(np.isfinite(yf)) or np.any(yf < 0) or np.any(yf > 1.5):
         raise ValueError("design: the array supply per month does not match its power and "
                          "insolation; size the project again")
@@ -89,8 +92,8 @@ def inputs_from_design(project: Project, design: SystemDesign, *,
     capacity_wh = bat.nominal_kwh * 1000.0 / temp_factor
     ctrl_w = ctl.current_a * ctl.count * bat.system_voltage_v
     notes = (
-        "from the worst-month design: monthly derates (battery round trip left to the "
-        "simulation), plane-of-array ratio, controller rating "
+        "from the worst-month design: monthly derates or the I-V harvest where lower "
+        "(battery round trip left to the simulation), plane-of-array ratio, controller rating "
         f"{ctl.count} x {ctl.current_a:g} A at {bat.system_voltage_v} V",
         f"battery: {bat.nominal_kwh:.2f} kWh nominal / temperature factor {temp_factor:.3f}; "
         f"charge {ec:.3f}, discharge {ed:.3f}; max charge rate "
