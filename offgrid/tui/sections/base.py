@@ -9,7 +9,10 @@ from textual.containers import Vertical
 from textual.widget import Widget
 
 from offgrid.result import Reason
-from offgrid.tui.session import EditRejected, Session
+from offgrid.tui.fields import Field
+from offgrid.tui.session import EditRejected, Session, get_path
+from offgrid.tui.text import from_printable, printable
+from offgrid.tui.widgets.editbar import EditBar
 
 if TYPE_CHECKING:
     from offgrid.tui.screens.work import WorkScreen
@@ -56,3 +59,23 @@ class Section(Vertical):
 
     def problems_text(self, exc: EditRejected) -> str:
         return "; ".join(p.message for p in exc.problems)
+
+    def edit_field(self, field: Field, editor: EditBar, back: Widget) -> None:
+        """Open ``editor`` on one plain field; a refused value keeps the last good one."""
+        original = get_path(self.session.project, field.path)
+        text = printable(original) if field.base_kind == "text" else field.edit_text(original)
+
+        def apply(typed: str) -> str | None:
+            try:
+                value = field.parse(typed)
+                if field.base_kind == "text":
+                    value = from_printable(value, original)
+                self.session.set_value(field.path, value)
+            except EditRejected as exc:
+                return self.problems_text(exc)
+            except ValueError as exc:
+                return str(exc)
+            self.work.changed(f"{field.label} set")
+            return None
+
+        editor.start(field.label, text, apply, field.help(), back=back)

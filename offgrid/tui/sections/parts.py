@@ -10,7 +10,6 @@ from offgrid.tui.screens.dialogs import ChoiceDialog
 from offgrid.tui.screens.sheet import SheetDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session, get_path, set_path
-from offgrid.tui.text import from_printable, printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 
@@ -52,23 +51,7 @@ class PartsSection(Section):
             self._edit(field)
 
     def _edit(self, field: Field) -> None:
-        original = get_path(self.session.project, field.path)
-        text = printable(original) if field.base_kind == "text" else field.edit_text(original)
-
-        def apply(typed: str) -> str | None:
-            try:
-                value = field.parse(typed)
-                if field.base_kind == "text":
-                    value = from_printable(value, original)
-                self.session.set_value(field.path, value)
-            except EditRejected as exc:
-                return self.problems_text(exc)
-            except ValueError as exc:
-                return str(exc)
-            self.work.changed(f"{field.label} set")
-            return None
-
-        self.editor.start(field.label, text, apply, field.help(), back=self.fields)
+        self.edit_field(field, self.editor, self.fields)
 
     def _choose(self, field: Field) -> None:
         current = get_path(self.session.project, field.path)

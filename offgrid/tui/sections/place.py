@@ -17,7 +17,7 @@ from offgrid.tui.fields import PROJECT_FIELDS, Field, parse_number
 from offgrid.tui.screens.dialogs import ChoiceDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session, get_path
-from offgrid.tui.text import from_printable, printable
+from offgrid.tui.text import printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 from offgrid.tui.widgets.monthchart import MONTHS
@@ -182,23 +182,7 @@ class PlaceSection(Section):
         if field.path == "climate.record_low_c":
             self._edit_record_low(field)
             return
-        original = get_path(self.session.project, field.path)
-        text = printable(original) if field.base_kind == "text" else field.edit_text(original)
-
-        def apply(typed: str) -> str | None:
-            try:
-                value = field.parse(typed)
-                if field.base_kind == "text":
-                    value = from_printable(value, original)
-                self.session.set_value(field.path, value)
-            except EditRejected as exc:
-                return self.problems_text(exc)
-            except ValueError as exc:
-                return str(exc)
-            self.work.changed(f"{field.label} set")
-            return None
-
-        self.editor.start(field.label, text, apply, field.help(), back=self.fields)
+        self.edit_field(field, self.editor, self.fields)
 
     def _edit_record_low(self, field: Field) -> None:
         project = self.session.project
