@@ -24,6 +24,7 @@ from pathlib import Path
 import numpy as np
 
 from offgrid.battery import CHEMISTRIES, capacity_temperature_factor, units_in_series
+from offgrid.cautions import DEFERS_TO_CODE  # noqa: F401  (re-exported)
 from offgrid.climate import sky
 from offgrid.climate.files import ClimateFileError, load_climate
 from offgrid.loads import analyse_loads
@@ -43,8 +44,6 @@ from offgrid.result import (
 )
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
-DEFERS_TO_CODE = ("This design defers to local electrical codes and licensed practice: have it "
-                  "checked, installed and inspected by a qualified electrician.")
 #: Common charge-controller current ratings, A (common practice, no source).
 CONTROLLER_RATINGS_A = (10, 15, 20, 30, 40, 50, 60, 80, 100)
 #: Common inverter continuous ratings, W (common practice, no source).
@@ -301,13 +300,12 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                               "demand: a smaller inverter, a search (sleep) mode or DC "
                               "appliances would shrink the system.", "info",
                               "loads.inverter_idle_wh"))
-    cautions = _basic_cautions(project, battery, system_v)
 
     def assemble(array, ctrl, arr_notices) -> SystemDesign:
         return SystemDesign(loads=lr, site=site, array=array, battery=battery, controller=ctrl,
                             inverter=inverter,
                             warnings=tuple(notices[:k_array] + arr_notices + notices[k_array:]),
-                            cautions=tuple(cautions), reasons=book.freeze())
+                            cautions=(), reasons=book.freeze())
 
     # 9. electrical design: strings, harvest both ways from the I-V curves, cables,
     # protection, cautions.  If the chosen controller's harvest falls short of the demand
@@ -808,20 +806,3 @@ def _size_inverter(project: Project, lr: LoadResult, system_v: int, book: Reason
                fmt(inv.self_consumption_w, "W"))
     return InverterResult(True, float(req_cont), float(cont), float(req_surge), float(surge),
                           inv.efficiency, inv.self_consumption_w, float(dc_current))
-
-
-def _basic_cautions(project: Project, battery: BatteryResult, system_v: int) -> list[str]:
-    chem = CHEMISTRIES[project.battery.chemistry]
-    out = []
-    if chem.lead_acid:
-        out.append("Lead-acid batteries give off hydrogen while charging: ventilate the battery "
-                   "space, keep sparks and flames away, and wear eye protection.")
-    else:
-        out.append("Lithium iron phosphate must not be charged below 0 C cell temperature; use "
-                   "a battery with a management system that blocks cold charging.")
-    out.append("A battery bank can deliver thousands of amperes into a short circuit: fuse every "
-               "battery string at the terminal and insulate tools.")
-    out.append("PV modules are live whenever light falls on them: cover them or open the array "
-               "disconnect before working on the wiring.")
-    out.append(DEFERS_TO_CODE)
-    return out

@@ -84,3 +84,14 @@ def test_every_design_carries_the_standing_cautions_and_defers_to_code_last():
     assert all(c.source for c in out[:-1])  # every caution but the last names its source
     assert "polarised" in next(c.text for c in out if c.code == "dc-breakers")
     assert "IEC TS 62257-5" in next(c.source for c in out if c.code == "surge-protection")
+
+
+def test_every_output_states_the_deference_to_code_once():
+    # one statement, owned by offgrid.cautions, in the design, the plan and the report
+    import subprocess
+    import sys
+
+    for args in (["size", "--demo"], ["plan", "--demo"], ["report", "--demo", "--format", "txt"]):
+        out = subprocess.run([sys.executable, "-m", "offgrid", *args], capture_output=True,
+                             text=True, check=True, timeout=300).stdout
+        assert " ".join(out.split()).count("defers to local electrical codes") == 1, args

@@ -15,6 +15,7 @@ from typing import Any
 
 import numpy as np
 
+from offgrid.cautions import DEFERS_TO_CODE
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.kits import Candidate, PlanError, Standardisation, standardise
 from offgrid.plan.prices import PriceList, PriceListError, from_part_prices, load_prices
@@ -33,7 +34,6 @@ from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, load_survey
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES, mtf2015_tier, tier_reason
 from offgrid.plan.totals import Totals, procurement_totals
 from offgrid.result import Notice, Reason, ReasonBook, fmt
-from offgrid.sizing import DEFERS_TO_CODE
 
 #: Number of kit types when neither --kits nor a kit-type price is given.
 DEFAULT_KITS = 3

@@ -17,6 +17,7 @@ from typing import Any
 
 import numpy as np
 
+from offgrid.cautions import DEFERS_TO_CODE
 from offgrid.project.loads_csv import format_months
 from offgrid.project.model import MonthlyClimate, Project
 from offgrid.report import charts
@@ -44,8 +45,6 @@ from offgrid.report.document import (
 from offgrid.result import Reason, SystemDesign
 
 MONTHS = charts.MONTHS
-DEFERS_TO_CODE = ("This design defers to local electrical codes and licensed practice: have it "
-                  "checked, installed and inspected by a qualified electrician.")
 
 #: Section keys in report order; tests check that each is present.
 SECTION_KEYS = ("job", "climate", "loads", "design-month", "figures", "strings", "wiring",
