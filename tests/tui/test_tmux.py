@@ -13,6 +13,7 @@ import shutil
 import subprocess
 import sys
 import time
+import uuid
 from pathlib import Path
 
 import pytest
@@ -27,7 +28,9 @@ pytestmark = pytest.mark.skipif(TMUX is None, reason="tmux is not installed")
 
 class Terminal:
     def __init__(self, name: str, state: Path, cwd: Path) -> None:
-        self.socket = f"offgrid-test-{os.getpid()}-{name}"
+        # a fresh socket per terminal: a server killed by the previous test may still be
+        # exiting on a reused name, and a new session would attach to it and die with it
+        self.socket = f"offgrid-test-{os.getpid()}-{name}-{uuid.uuid4().hex[:8]}"
         self.state = state
         self.cwd = cwd
 
