@@ -39,6 +39,8 @@ WIRE_CURRENT_RULE = {
     "load": "quantity x power / system voltage",
 }
 HOT_IRRADIANCE_W_M2 = 1000.0
+MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov",
+               "Dec")
 LARGE_CONDUCTOR_MM2 = 50.0  # ~1/0 AWG: above this on 12/24 V, suggest a higher voltage
 
 
@@ -551,9 +553,16 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     mppt = run_harvest(mppt_layout)[0]
     pwm = run_harvest(pwm_layout)[1]
     chosen = pwm if ctype == "pwm" else mppt
-    demand = float(core.loads.design_daily_energy_wh)
+    demand_m = np.asarray(core.loads.daily_energy_wh, dtype=float)
     eta_batt = float(project.battery.efficiency)
-    shortfall = max(0.0, 100.0 * (1.0 - chosen[m] * eta_batt / demand)) if demand > 0 else 0.0
+    # The worst month of the harvest after the round trip against its demand (every month
+    # must be covered, not only the design month of the derate chain).
+    used = demand_m > 1e-6
+    got = np.divide(chosen * eta_batt, demand_m, out=np.ones(12), where=used)
+    short_m = np.where(used, 100.0 * (1.0 - got), 0.0)
+    ms = int(np.argmax(short_m))
+    shortfall = max(0.0, float(short_m[ms]))
+    demand = float(demand_m[ms])
     pwm_vs = float(100.0 * (pwm[m] / mppt[m] - 1.0)) if mppt[m] > 0 else 0.0
     harvest = HarvestResult(ctype, tuple(pwm.tolist()), tuple(mppt.tolist()),
                             tuple(chosen.tolist()), v_chg, m + 1, pwm_vs, shortfall,
@@ -568,9 +577,9 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
            "on its own layout of the same modules", hsrc,
            pwm=fmt(float(pwm[m]), "Wh/day"), mppt=fmt(float(mppt[m]), "Wh/day"))
     rb.add("harvest.shortfall_pct", "1 - harvest through the chosen controller x battery "
-           "round trip / design-month demand, when positive", hsrc,
-           harvest=fmt(float(chosen[m]), "Wh/day"), round_trip=fmt(eta_batt),
-           demand=fmt(demand, "Wh/day"))
+           "round trip / demand, in the month where it is largest, when positive", hsrc,
+           month=MONTH_NAMES[ms], harvest=fmt(float(chosen[ms]), "Wh/day"),
+           round_trip=fmt(eta_batt), demand=fmt(demand, "Wh/day"))
     rb.add("harvest.pwm_layout", "series x parallel the PWM figures assume: the fewest modules "
            "in series whose STC Vmp suits the battery", "common practice, no source")
     rb.add("harvest.mppt_layout", "series x parallel the MPPT figures assume: a layout in the "
@@ -585,7 +594,7 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     if shortfall > 0.5:
         notices.append(Notice(
             "harvest-shortfall", f"Through the {ctype.upper()} controller the array delivers "
-            f"{chosen[m]:.0f} Wh/day in the design month; after the battery's round trip "
+            f"{chosen[ms]:.0f} Wh/day in {MONTH_NAMES[ms]}; after the battery's round trip "
             f"({eta_batt:.0%}) that is {shortfall:.0f} % below the {demand:.0f} Wh/day the "
             "loads need: add modules"
             + (" or use an MPPT controller" if ctype == "pwm" else "") + ".",

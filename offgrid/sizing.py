@@ -19,6 +19,7 @@ Chain, in order (each step its own function below):
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
@@ -222,21 +223,11 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                           "while loads run: a PV-only system cannot carry them; remove those "
                           "months from the loads or add another source", "climate")
     ratio = np.divide(demand, poa, out=np.zeros_like(demand), where=poa > 0)
+    # A first design month from demand / sun alone; the array sizing below replaces it by the
+    # month whose derated supply covers its demand least (cell temperature, PWM operating
+    # point), and sizes the array on that month.
     dm = int(np.argmax(ratio))
-    book.add("site.design_month", "month with the largest ratio of daily demand to "
-             "plane-of-array insolation", "worst-month method, common practice",
-             ratio=fmt(float(ratio[dm]), "Wh per kWh/m2"), month=MONTHS[dm])
     lr = _with_design_energy(lr, float(demand[dm]))
-    if horiz[dm] < LOW_SUN_KWH_M2_DAY and tilt > 15.0:
-        notices.append(Notice(
-            "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
-            f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
-            f"a {tilt:.0f} deg plane can read 20-50 % high (against an hourly sky model on "
-            "typical-year weather at 55-65 N). Allow a margin of modules, or check the month "
-            "with an hourly model of the site's weather.",
-            "warning", "site.poa_kwh_m2_day"))
-    book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
-             "worst-month method", month=MONTHS[dm])
 
     # temperatures
     t_mean = np.asarray(climate.temp_mean_c, dtype=float)
@@ -278,7 +269,8 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
              " / 2" + ("" if climate.temp_max_c else "; no maxima given, maximum taken as mean "
                        "+ 5 C"), "common practice, no source")
     book.add("site.demand_to_sun", "daily demand at the battery / plane-of-array insolation, "
-             "each month (Wh per kWh/m2); the largest marks the design month",
+             "each month (Wh per kWh/m2); before the month's derates (the design month is the "
+             "least-covered month after them, see site.design_month)",
              "worst-month method, common practice")
 
     # 4-5. array
@@ -287,8 +279,31 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     from offgrid.pv import fit_module
 
     params = fit_module(project.module)  # once per design: the window and the curves share it
-    array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, arr_notices,
-                                                    t_low, params=params)
+    array, ctrl, system_v, batt_abs_v, dm = _size_array(project, site, lr, sun, book,
+                                                        arr_notices, t_low, params=params)
+    site = replace(site, design_month=dm + 1)
+    lr = _with_design_energy(lr, float(demand[dm]))
+    with np.errstate(over="ignore"):
+        cover = np.divide(np.asarray(array.supply_wh_day), demand, out=np.full(12, np.inf),
+                          where=demand > 0)
+    book.add("site.design_month", "the month whose supply, with every derate of that month "
+             "(cell temperature, PWM operating point, soiling ...), covers its demand least: "
+             "the largest demand / (plane-of-array insolation x the month's derate chain); the "
+             "array is sized on it, so every other month is covered too",
+             "worst-month method, common practice", month=MONTHS[dm],
+             supply_over_demand=fmt(float(cover[dm])),
+             next_least=_next_least(cover, dm))
+    if horiz[dm] < LOW_SUN_KWH_M2_DAY and tilt > 15.0:
+        notices.insert(k_array, Notice(
+            "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
+            f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
+            f"a {tilt:.0f} deg plane can read 20-50 % high (against an hourly sky model on "
+            "typical-year weather at 55-65 N). Allow a margin of modules, or check the month "
+            "with an hourly model of the site's weather.",
+            "warning", "site.poa_kwh_m2_day"))
+        k_array += 1
+    book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
+             "worst-month method", month=MONTHS[dm])
     # 6. battery
     battery = _size_battery(project, lr, system_v, batt_abs_v, t_mean, book, notices)
     # 8. inverter
@@ -309,7 +324,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
 
     # 9. electrical design: strings, harvest both ways from the I-V curves, cables,
     # protection, cautions.  If the chosen controller's harvest falls short of the demand
-    # in the design month, add modules and size again (at most a few rounds).
+    # in any month, add modules and size again (at most a few rounds).
     from offgrid.electrical import electrical_design, with_electrical
 
     core = assemble(array, ctrl, arr_notices)
@@ -322,22 +337,20 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         need = max(core.array.module_count + 1,
                    math.ceil(core.array.module_count / (1.0 - short / 100.0) - 1e-9))
         arr_notices = []
-        array, ctrl, _, _ = _size_array(project, site, lr, sun, book, arr_notices, t_low,
-                                        min_modules=need, params=params)
+        array, ctrl, _, _, _ = _size_array(project, site, lr, sun, book, arr_notices, t_low,
+                                           min_modules=need, params=params)
         core = assemble(array, ctrl, arr_notices)
         er = electrical_design(project, core, params)
     if core.array.module_count != first:
         arr_notices.append(Notice(
             "array-raised-for-harvest", f"The array was raised from {first} to "
             f"{core.array.module_count} modules: through the {ctrl.type.upper()} controller "
-            "the I-V curves of the design month deliver less than the derate chain assumed.",
+            "the I-V curves deliver less than the derate chain assumed in at least one month.",
             "info", "array.power_w"))
         book.add("array.modules_parallel", "raised until the daily harvest through the chosen "
-                 "controller, after the battery round trip, covers the design-month demand",
+                 "controller, after the battery round trip, covers every month's demand",
                  "De Soto (2006) I-V curves over the month's mean day (offgrid.harvest)",
                  first=str(first), now=str(core.array.module_count))
-    from dataclasses import replace
-
     rate_notices, i_peak = _charge_rate_notices(project, array, ctrl, battery, book)
     battery = replace(battery, peak_charge_current_a=float(i_peak),
                       charge_c_rate=float(i_peak / battery.capacity_ah))
@@ -391,9 +404,14 @@ def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerR
     return out, i_peak
 
 
-def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
-    from dataclasses import replace
+def _next_least(cover: np.ndarray, dm: int) -> str:
+    """The month next least covered after the design month, for the design month's reason."""
+    rest = np.where(np.arange(12) == dm, np.inf, cover)
+    j = int(np.argmin(rest))
+    return "-" if not np.isfinite(rest[j]) else f"{MONTHS[j]} {rest[j]:.3f}"
 
+
+def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
     return replace(lr, design_daily_energy_wh=value)
 
 
@@ -433,7 +451,6 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
                 params=None):
     m = project.module
     ctrl_spec = project.controller
-    dm = site.design_month - 1
     poa = np.asarray(site.poa_kwh_m2_day)
     demand = np.asarray(lr.daily_energy_wh)
     daylight = sky.daylight_hours(site.latitude_deg)
@@ -448,8 +465,9 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
 
     # A first estimate of power (MPPT chain) fixes the system voltage.
     f_temp_mppt = 1.0 + gamma * (t_cell - 25.0)
-    rough = demand[dm] / (poa[dm] * f_temp_mppt[dm] * soiling * d.mismatch * d.wiring
-                          * ctrl_spec.efficiency * batt_rt)
+    chain = soiling * d.mismatch * d.wiring * ctrl_spec.efficiency * batt_rt
+    rough = float(np.max(np.divide(demand, poa * f_temp_mppt * chain, out=np.zeros(12),
+                                   where=poa > 0)))
     system_v = choose_system_voltage(project, max(rough, lr.peak_ac_w * NEC_CONTINUOUS), book)
     n_cells_sys = system_v / 2.0 if chem.lead_acid else system_v / 3.0
     batt_abs_v = chem.absorption_v_per_cell * n_cells_sys
@@ -486,6 +504,11 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
                 "its power is used: choose an MPPT controller or modules made for a "
                 f"{system_v} V battery.", "warning", "array.power_w"))
 
+    # The design month: the month whose derated supply covers its demand least.
+    monthly_total = f_temp * f_op * chain
+    need_w = np.divide(demand, poa * monthly_total, out=np.zeros(12),
+                       where=(poa * monthly_total) > 0)
+    dm = int(np.argmax(need_w))
     derates = {
         "temperature": float(f_temp[dm]),
         "operating point": float(f_op[dm]),
@@ -505,12 +528,10 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     string_w = ns * m.pmax_w
     power = n_par * string_w
     ctrl = _size_controller(project, n_par, power, system_v, book, layout.controllers)
-    monthly_total = (f_temp * f_op * soiling * d.mismatch * d.wiring * ctrl_spec.efficiency
-                     * batt_rt)
     supply = power * poa * monthly_total
     book.add("array.required_power_w",
-             "design-month demand / (peak sun hours x product of derates)",
-             "worst-month method; derate chain common practice",
+             "design-month demand / (peak sun hours x product of derates), the largest of "
+             "the twelve months", "worst-month method; derate chain common practice",
              demand=fmt(float(demand[dm]), "Wh/day"), peak_sun_hours=fmt(float(poa[dm]), "h"),
              derates=fmt(total))
     book.add("array.derates.temperature", temp_text,
@@ -560,7 +581,7 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
         notices.append(Notice("several-controllers", f"{ctrl.count} charge controllers of "
                               f"{ctrl.current_a:g} A are needed; give each its own group of "
                               f"{n_par // ctrl.count} strings.", "info", "controller.current_a"))
-    return array, ctrl, system_v, batt_abs_v
+    return array, ctrl, system_v, batt_abs_v, dm
 
 
 def _controller_ratings(project: Project) -> tuple[float, ...]:
