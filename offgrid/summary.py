@@ -132,10 +132,11 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
     pct = h.pwm_vs_mppt_pct
     compare = (f"{abs(pct):.0f} % less than" if pct < -0.5 else
                f"{pct:.0f} % more than" if pct > 0.5 else "about the same as")
-    harvest += _wrap(f"In {month} PWM harvests {compare} MPPT, each in its own string layout "
-                     f"(PWM at {h.charging_voltage_v:.1f} V, {h.pwm_layout[0]} x "
-                     f"{h.pwm_layout[1]}; MPPT {h.mppt_layout[0]} x {h.mppt_layout[1]}); "
-                     f"the design uses {h.controller_type.upper()}", "  ")
+    harvest += _wrap(f"In {month} PWM harvests {compare} MPPT per module, each on its own "
+                     f"best string layout of the same modules (PWM at "
+                     f"{h.charging_voltage_v:.1f} V, {h.pwm_layout[0]} x {h.pwm_layout[1]}; MPPT "
+                     f"{h.mppt_layout[0]} x {h.mppt_layout[1]}); the design uses "
+                     f"{h.controller_type.upper()}", "  ")
     material = e.wires[0].material if e.wires else ""
     cables = [f"Cables ({material}; size, max current, one-way length, drop, ampacity, fuse)",
               f"  {'run':<28}{'n':>2} {'size':>10}{'A':>7}{'m':>6}{'drop%':>7}{'amp':>6}"

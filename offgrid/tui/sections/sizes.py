@@ -96,7 +96,7 @@ def electrical_rows(d: SystemDesign) -> list[Row]:
              "strings.min_series"),
             ("Module at design-month noon", f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, "
              f"{mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)", "mpp.pmp_w"),
-            ("PWM harvest against MPPT", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
+            ("PWM against MPPT, per module", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
              "array.harvest_pwm_wh_day"),
         ]
         if h.shortfall_pct > 0:
