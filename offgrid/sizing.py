@@ -369,7 +369,7 @@ def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerR
     """
     from offgrid.battery import MAX_CHARGE_C_RATE, MIN_LEAD_ACID_CHARGE_C_RATE
 
-    v = battery.system_voltage_v
+    v = battery.bank_voltage_v or battery.system_voltage_v
     if ctrl.type == "mppt":
         i_array = array.power_w * ctrl.efficiency / v
     else:
@@ -686,6 +686,20 @@ def _size_controller(project: Project, n_par: int, power: float, system_v: int,
 
 def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: float,
                   t_mean: np.ndarray, book: ReasonBook, notices: list[Notice]) -> BatteryResult:
+    """6. Battery bank for the days of autonomy, on the worst month of demand x cold factor.
+
+    Each month's need: demand x days / (DoD x discharge efficiency x end of life) x that
+    month's capacity-temperature factor; the bank is sized on the largest (or, with
+    ``choices.battery_largest_coldest``, on the largest demand x the coldest month's factor).
+    Ampere-hours at the bank's own nominal voltage (units in series x unit voltage).
+    """
+    from offgrid.simulate.life import (
+        CALENDAR_TEMPERATURE_SOURCE,
+        CYCLE_LIFE_SOURCE,
+        calendar_life_years,
+        cycles_to_failure,
+    )
+
     b = project.battery
     choices = project.choices
     chem = CHEMISTRIES[b.chemistry]
@@ -695,25 +709,59 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
         raise DesignError("battery-voltage", f"{b.nominal_voltage_v:.4g} V battery units cannot "
                           f"make a {system_v} V system: choose units whose voltage divides "
                           f"{system_v} V, or another system voltage", "battery.nominal_voltage_v")
-    t_batt = (project.site.battery_temp_c if project.site.battery_temp_c is not None
-              else float(np.min(t_mean)))
-    f_t = capacity_temperature_factor(b.chemistry, t_batt)
+    bank_v = series * b.nominal_voltage_v
+    room = project.site.battery_temp_c
+    t_cap = np.full(12, float(room)) if room is not None else np.asarray(t_mean, dtype=float)
+    f_m = np.array([capacity_temperature_factor(b.chemistry, t) for t in t_cap])
+    demand = np.asarray(lr.daily_energy_wh, dtype=float)
     eta_dis = math.sqrt(b.efficiency)
-    energy = lr.max_daily_energy_wh
-    need_wh = energy * choices.autonomy_days * f_t / (dod * eta_dis * choices.ageing_factor)
-    need_ah = need_wh / system_v
+    per_wh = choices.autonomy_days / (dod * eta_dis * choices.ageing_factor)
+    worst = int(np.argmax(demand * f_m))
+    worst_wh = float(demand[worst] * f_m[worst]) * per_wh
+    big, cold = int(np.argmax(demand)), int(np.argmax(f_m))
+    conservative_wh = float(demand[big] * f_m[cold]) * per_wh
+    if choices.battery_largest_coldest:
+        energy, f_t, t_batt, need_wh = float(demand[big]), float(f_m[cold]), float(t_cap[cold]), \
+            conservative_wh
+        rule = ("largest daily demand x the coldest month's temperature factor (conservative, "
+                "chosen in choices.battery_largest_coldest)")
+    else:
+        energy, f_t, t_batt, need_wh = float(demand[worst]), float(f_m[worst]), \
+            float(t_cap[worst]), worst_wh
+        rule = "the worst month of (that month's demand x that month's temperature factor)"
+    need_ah = need_wh / bank_v
     parallel = max(1, math.ceil(need_ah / b.capacity_ah - 1e-9))
     cap_ah = parallel * b.capacity_ah
-    nominal_kwh = cap_ah * system_v / 1000.0
+    nominal_kwh = cap_ah * bank_v / 1000.0
     usable_kwh = nominal_kwh * dod
+    # Ageing: the warm months (the room's warm-season temperature, else each month's mean air
+    # temperature, at least the cold-season room temperature when set).
+    warm = project.site.battery_warm_temp_c
+    if warm is not None:
+        t_age = np.full(12, float(warm))
+        age_from = "site.battery_warm_temp_c"
+    else:
+        t_age = np.asarray(t_mean, dtype=float)
+        age_from = "each month's mean air temperature"
+        if room is not None:
+            t_age = np.maximum(t_age, float(room))
+            age_from += f", at least the room's {room:g} C"
+    cal_years = calendar_life_years(b.chemistry, t_age)
     book.add("battery.required_ah",
-             "largest monthly daily energy x days of autonomy x temperature factor / (max depth "
-             "of discharge x discharge efficiency x end-of-life capacity) / system voltage",
-             "common practice (autonomy method); temperature factor: " + chem.temp_source,
+             f"{rule}: that month's daily energy x days of autonomy x temperature factor / "
+             "(max depth of discharge x discharge efficiency x end-of-life capacity) / bank "
+             "voltage", "common practice (autonomy method); temperature factor: "
+             + chem.temp_source,
              energy=fmt(energy, "Wh/day"), autonomy=fmt(choices.autonomy_days, "days"),
              temperature_factor=fmt(f_t), battery_temperature=fmt(t_batt, "C"),
              max_dod=fmt(dod), discharge_efficiency=fmt(eta_dis),
-             ageing=fmt(choices.ageing_factor), system_voltage=fmt(system_v, "V"))
+             ageing=fmt(choices.ageing_factor), bank_voltage=fmt(bank_v, "V"),
+             worst_month=f"{MONTHS[worst]}: {demand[worst]:.0f} Wh/day x {f_m[worst]:.3f} -> "
+             f"{worst_wh / bank_v:.0f} Ah" + ("" if choices.battery_largest_coldest
+                                              else " (used)"),
+             largest_x_coldest=f"{demand[big]:.0f} Wh/day ({MONTHS[big]}) x {f_m[cold]:.3f} "
+             f"({MONTHS[cold]}) -> {conservative_wh / bank_v:.0f} Ah"
+             + (" (used)" if choices.battery_largest_coldest else " (conservative option)"))
     book.add("battery.capacity_ah", "strings in parallel x unit capacity",
              "common practice, no source", parallel=str(parallel),
              unit=fmt(b.capacity_ah, "Ah"))
@@ -721,8 +769,9 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
              system=fmt(system_v, "V"), unit=fmt(b.nominal_voltage_v, "V"))
     book.add("battery.units_parallel", "ceil(required Ah / unit Ah)", "common practice",
              required=fmt(need_ah, "Ah"), unit=fmt(b.capacity_ah, "Ah"))
-    book.add("battery.usable_kwh", "installed Ah x system voltage x max depth of discharge",
-             "common practice", capacity=fmt(cap_ah, "Ah"), max_dod=fmt(dod))
+    book.add("battery.usable_kwh", "installed Ah x bank voltage x max depth of discharge",
+             "common practice", capacity=fmt(cap_ah, "Ah"), max_dod=fmt(dod),
+             bank_voltage=fmt(bank_v, "V"))
     if chem.lead_acid and parallel > 3:
         notices.append(Notice("lead-acid-parallel", f"{parallel} parallel strings of lead-acid "
                               "batteries: strings share current unevenly above three; choose "
@@ -733,17 +782,50 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
                               f"units is {cap_ah / need_ah:.1f} times the {need_ah:.0f} Ah the "
                               "design needs: smaller units would cost less and charge more "
                               "fully.", "info", "battery.capacity_ah"))
-    if t_batt < 5:
+    if t_cap[cold] < 5:
         where = ("the battery room's temperature (site.battery_temp_c)"
                  if project.site.battery_temp_c is not None else
-                 "the coldest monthly mean outdoors; set site.battery_temp_c for a room")
-        notices.append(Notice("battery-cold", f"The battery works at about {t_batt:.0f} C "
-                              f"({where}): its capacity is raised by a factor {f_t:.2f} for "
-                              "the cold; insulate it or move it indoors.", "warning",
+                 f"the mean air temperature of {MONTHS[cold]}; set site.battery_temp_c for a "
+                 "room")
+        notices.append(Notice("battery-cold", f"The battery works at about {t_cap[cold]:.0f} C "
+                              f"({where}): it then needs {f_m[cold]:.2f} times its rated "
+                              "capacity for the same energy (counted in that month's need); "
+                              "insulate it or move it indoors.", "warning",
                               "battery.required_ah"))
-    book.add("battery.nominal_kwh", "installed Ah x system voltage / 1000",
-             "common practice, no source", capacity=fmt(cap_ah, "Ah"),
-             system_voltage=fmt(system_v, "V"))
+    book.add("battery.nominal_kwh", "installed Ah x bank nominal voltage (units in series x "
+             "unit voltage) / 1000", "common practice, no source", capacity=fmt(cap_ah, "Ah"),
+             bank_voltage=fmt(bank_v, "V"))
+    book.add("battery.bank_voltage_v", "units in series x the unit's own nominal voltage",
+             "common practice, no source", series=str(series),
+             unit=fmt(b.nominal_voltage_v, "V"))
+    book.add("battery.capacity_temp_c", "battery temperature for capacity in the month the "
+             "bank is sized on: the room's (site.battery_temp_c) or that month's mean air "
+             "temperature", chem.temp_source, month=MONTHS[worst if not
+                                                          choices.battery_largest_coldest
+                                                          else cold])
+    book.add("battery.ageing_temp_c", "warmest monthly battery temperature for ageing: "
+             + age_from, "common practice, no source",
+             months=" ".join(f"{t:.0f}" for t in t_age))
+    book.add("battery.ageing_temps_c", "battery temperature for ageing, each month: "
+             + age_from, "common practice, no source")
+    book.add("battery.calendar_life_years", "float (calendar) life at 25 C / the day-weighted "
+             "mean over the months of 2^((T - 25 C) / 10 C), T the month's battery temperature "
+             "for ageing, no credit below 25 C" if chem.lead_acid else
+             "float (calendar) life of the preset, not corrected for temperature (no source "
+             "for lithium iron phosphate)", CALENDAR_TEMPERATURE_SOURCE + "; life at 25 C "
+             "from memory", at_25c=fmt(calendar_life_years(b.chemistry), "yr"),
+             warmest=fmt(float(t_age.max()), "C"))
+    if chem.lead_acid and dod > 0.8 + 1e-9:
+        n_dod = float(cycles_to_failure(b.chemistry, dod))
+        n_half = float(cycles_to_failure(b.chemistry, 0.5))
+        notices.append(Notice(
+            "lead-acid-deep-dod", f"A maximum depth of discharge of {dod:.0%} on {chem.label} "
+            f"batteries: the cycle-life curve used here gives about {n_dod:.0f} cycles to end "
+            f"of life at that depth against {n_half:.0f} at 50 % ({CYCLE_LIFE_SOURCE}), so "
+            f"a bank run that deep on many days wears out in about {n_dod / 365:.1f} years of "
+            "daily cycling. Lead-acid is usually designed for 50 % or less (common practice); "
+            "check the battery's datasheet for its cycle life.", "warning",
+            "battery.max_dod"))
     if choices.max_dod is not None:
         book.given("battery.max_dod", "choices.max_dod", fmt(dod))
     else:
@@ -756,7 +838,7 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
              "temperature (1 at 25 C, more in the cold)", chem.temp_source,
              battery_temperature=fmt(t_batt, "C"),
              temperature_from="site.battery_temp_c" if project.site.battery_temp_c is not None
-             else "coldest monthly mean of the climate")
+             else "the sizing month's mean air temperature")
     book.given("battery.ageing_factor", "choices.ageing_factor", fmt(choices.ageing_factor))
     book.add("battery.discharge_efficiency", "square root of the round-trip efficiency (the "
              "loss shared equally between charge and discharge)", "common practice, no source",
@@ -771,7 +853,10 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
         autonomy_days=float(choices.autonomy_days), units_series=series,
         units_parallel=parallel, unit_count=series * parallel, temp_factor=float(f_t),
         ageing_factor=float(choices.ageing_factor), discharge_efficiency=float(eta_dis),
-        absorption_voltage_v=float(batt_abs_v))
+        absorption_voltage_v=float(batt_abs_v), bank_voltage_v=float(bank_v),
+        capacity_temp_c=float(t_batt), ageing_temp_c=float(t_age.max()),
+        calendar_life_years=float(cal_years),
+        ageing_temps_c=_tuple(t_age))
 
 
 def _size_inverter(project: Project, lr: LoadResult, system_v: int, book: ReasonBook,

@@ -42,10 +42,15 @@ def summary_text(project: Project, d: SystemDesign) -> str:
                       f"{a.modules_parallel} parallel x {a.module_power_w:.0f} W"))
     lines.append(_row("  required", f"{a.required_power_w:.0f} W",
                       f"derates together {a.derate_total:.2f}"))
-    lines.append(_row("Battery bank", f"{b.capacity_ah:.0f} Ah at {b.system_voltage_v} V",
+    bank = (f" ({b.bank_voltage_v:g} V nominal)" if b.bank_voltage_v
+            and abs(b.bank_voltage_v - b.system_voltage_v) > 1e-9 else "")
+    lines.append(_row("Battery bank", f"{b.capacity_ah:.0f} Ah at {b.system_voltage_v} V{bank}",
                       f"{b.units_series} series x {b.units_parallel} parallel units"))
     lines.append(_row("  energy", f"{b.nominal_kwh:.2f} kWh nominal",
                       f"{b.usable_kwh:.2f} kWh usable at {b.max_dod:.0%} DoD"))
+    lines.append(_row("  temperature", f"{b.capacity_temp_c:.0f} C for capacity",
+                      f"ageing up to {b.ageing_temp_c:.0f} C: life "
+                      f"{b.calendar_life_years:.1f} yr"))
     lines.append(_row("  autonomy", f"{b.autonomy_days:g} days", f"{b.chemistry}"))
     ctrl_count = f"{c.count} x " if c.count > 1 else ""
     needs = (f"needs {c.required_current_a / c.count:.1f} A each" if c.count > 1
