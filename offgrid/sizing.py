@@ -728,7 +728,7 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
     else:
         energy, f_t, t_batt, need_wh = float(demand[worst]), float(f_m[worst]), \
             float(t_cap[worst]), worst_wh
-        rule = "the worst month of (that month's demand x that month's temperature factor)"
+        rule = "the month of the largest demand x temperature factor"
     need_ah = need_wh / bank_v
     parallel = max(1, math.ceil(need_ah / b.capacity_ah - 1e-9))
     cap_ah = parallel * b.capacity_ah
@@ -748,10 +748,9 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
             age_from += f", at least the room's {room:g} C"
     cal_years = calendar_life_years(b.chemistry, t_age)
     book.add("battery.required_ah",
-             f"{rule}: that month's daily energy x days of autonomy x temperature factor / "
-             "(max depth of discharge x discharge efficiency x end-of-life capacity) / bank "
-             "voltage", "common practice (autonomy method); temperature factor: "
-             + chem.temp_source,
+             f"{rule}: its daily energy x days of autonomy x temperature factor / (max depth "
+             "of discharge x discharge efficiency x end-of-life capacity) / bank voltage",
+             "common practice (autonomy method); temperature factor: " + chem.temp_source,
              energy=fmt(energy, "Wh/day"), autonomy=fmt(choices.autonomy_days, "days"),
              temperature_factor=fmt(f_t), battery_temperature=fmt(t_batt, "C"),
              max_dod=fmt(dod), discharge_efficiency=fmt(eta_dis),

@@ -173,7 +173,7 @@ PARTS_FIELDS: tuple[Field | str, ...] = (
           reason="loads.daily_energy_wh"),
     Field("choices.coincidence_factor", "AC coincidence factor", reason="loads.peak_ac_w"),
     Field("choices.ageing_factor", "End-of-life capacity", reason="battery.required_ah"),
-    Field("choices.battery_largest_coldest", "Bank on largest x coldest", "choice",
+    Field("choices.battery_largest_coldest", "Bank: peak x coldest", "choice",
           choices=((False, "no: worst single month"), (True, "yes: conservative")),
           reason="battery.required_ah",
           hint="yes: size the bank on the largest daily demand x the coldest month's "

@@ -298,7 +298,7 @@ async def test_parts_autonomy_changes_battery_and_why(state):
         await pilot.press("w")
         await pilot.pause()
         assert isinstance(app.screen, WhyDialog)
-        text = screen_text(app)
+        text = " ".join(screen_text(app).replace("\u2588", " ").split())
         assert "days of autonomy" in text and "IEEE" in text
 
 
