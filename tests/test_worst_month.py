@@ -146,3 +146,25 @@ def test_size_json_of_the_demo_marks_the_least_covered_month():
     data = json.loads(out.stdout)
     assert coverage_problems(data["array"]["supply_wh_day"], data["loads"]["daily_energy_wh"],
                              data["site"]["design_month"]) == []
+
+
+def test_bundled_community_rows_are_covered():
+    """Every row project of the bundled community survey (invented village), as `offgrid plan`
+    builds it, with the parts files of load_profiles/communities/."""
+    from offgrid.plan.rows import communities_dir, prepare, row_project
+    from offgrid.plan.survey import load_survey
+
+    survey = load_survey(communities_dir() / "kisanga-ridge-community.csv")
+    inputs = prepare(survey)
+    designed = 0
+    for row in survey.rows:
+        try:
+            p = row_project(inputs, row)
+        except ValueError:
+            continue
+        d = _design_or_refusal(p)
+        if d is None:
+            continue
+        designed += 1
+        assert design_coverage_problems(d) == [], row.name
+    assert designed >= len(survey.rows) // 2
