@@ -39,6 +39,8 @@ WIRE_CURRENT_RULE = {
     "load": "quantity x power / system voltage",
 }
 HOT_IRRADIANCE_W_M2 = 1000.0
+MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov",
+               "Dec")
 LARGE_CONDUCTOR_MM2 = 50.0  # ~1/0 AWG: above this on 12/24 V, suggest a higher voltage
 
 
@@ -64,7 +66,7 @@ class HarvestResult:
     chosen_wh_day: tuple[float, ...]
     charging_voltage_v: float
     design_month: int
-    pwm_vs_mppt_pct: float  # PWM harvest / MPPT harvest - 1 in the design month, %
+    pwm_vs_mppt_pct: float  # per module: PWM / MPPT harvest - 1 in the design month, %
     shortfall_pct: float  # chosen harvest below the design-month demand, % (0: none)
     pwm_layout: tuple[int, int]  # series, parallel the PWM figures assume
     mppt_layout: tuple[int, int]
@@ -535,7 +537,15 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
 
     def run_harvest(lay: st.Layout) -> tuple[np.ndarray, np.ndarray]:
         # controllers with n strings each; when the strings do not share out equally, some
-        # controllers have one string fewer
+        # controllers have one string fewer.  The other controller type's layout gets PV
+        # cables sized for the same fractional loss as the chosen layout's (string run: the
+        # same current at s_alt/s volts; array run: n_alt strings at s_alt/s volts), so the
+        # comparison is of the controllers, not of cables sized for the other one.
+        r_str, r_arr = loop.get("string", 0.0), loop["array"]
+        if lay is not layout:
+            r_str *= lay.series / layout.series
+            r_arr *= (layout.strings_per_controller * lay.series
+                      / (max(1, lay.strings_per_controller) * layout.series))
         k = lay.controllers
         groups = {lay.parallel // k + 1: lay.parallel % k, lay.parallel // k: k - lay.parallel % k}
         total = [np.zeros(12), np.zeros(12)]
@@ -543,7 +553,7 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
             if n_str < 1 or n_ctrl < 1:
                 continue
             hin = HarvestInputs(lay.series, n_str, n_ctrl, v_chg, eff, soiling, mismatch,
-                                loop.get("string", 0.0), loop["array"], loop["charge"])
+                                r_str, r_arr, loop["charge"])
             got = harvest_wh_day(params, profile, step_h, temp_day, module.noct_c, hin)
             total = [total[0] + got[0], total[1] + got[1]]
         return total[0], total[1]
@@ -551,10 +561,21 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     mppt = run_harvest(mppt_layout)[0]
     pwm = run_harvest(pwm_layout)[1]
     chosen = pwm if ctype == "pwm" else mppt
-    demand = float(core.loads.design_daily_energy_wh)
+    demand_m = np.asarray(core.loads.daily_energy_wh, dtype=float)
     eta_batt = float(project.battery.efficiency)
-    shortfall = max(0.0, 100.0 * (1.0 - chosen[m] * eta_batt / demand)) if demand > 0 else 0.0
-    pwm_vs = float(100.0 * (pwm[m] / mppt[m] - 1.0)) if mppt[m] > 0 else 0.0
+    # The worst month of the harvest after the round trip against its demand (every month
+    # must be covered, not only the design month of the derate chain).
+    used = demand_m > 1e-6
+    got = np.divide(chosen * eta_batt, demand_m, out=np.ones(12), where=used)
+    short_m = np.where(used, 100.0 * (1.0 - got), 0.0)
+    ms = int(np.argmax(short_m))
+    shortfall = max(0.0, float(short_m[ms]))
+    demand = float(demand_m[ms])
+    # Per module: each controller type on its own best layout of these modules, which may
+    # hold a different number of them (whole strings); compared per module installed.
+    n_pwm, n_mppt = pwm_layout.module_count, mppt_layout.module_count
+    per_pwm, per_mppt = pwm[m] / n_pwm, mppt[m] / n_mppt
+    pwm_vs = float(100.0 * (per_pwm / per_mppt - 1.0)) if per_mppt > 0 else 0.0
     harvest = HarvestResult(ctype, tuple(pwm.tolist()), tuple(mppt.tolist()),
                             tuple(chosen.tolist()), v_chg, m + 1, pwm_vs, shortfall,
                             (pwm_layout.series, pwm_layout.parallel),
@@ -564,13 +585,16 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     rb.add("harvest.charging_voltage_v", "battery voltage a PWM array works against: mean of "
            "full rest (1.05 x nominal) and absorption voltage", "common practice, no source",
            nominal=fmt(vsys, "V"), absorption=fmt(v_abs, "V"))
-    rb.add("harvest.pwm_vs_mppt_pct", "PWM harvest / MPPT harvest - 1 in the design month, each "
-           "on its own layout of the same modules", hsrc,
-           pwm=fmt(float(pwm[m]), "Wh/day"), mppt=fmt(float(mppt[m]), "Wh/day"))
+    rb.add("harvest.pwm_vs_mppt_pct", "per module: (PWM harvest / PWM modules) / (MPPT "
+           "harvest / MPPT modules) - 1 in the design month, each controller type on its own "
+           "best series x parallel layout of the same module (the layouts may hold different "
+           "numbers of modules), PV cables of both sized for the same fractional loss", hsrc,
+           pwm=f"{pwm[m]:.0f} Wh/day from {n_pwm} modules ({per_pwm:.1f} per module)",
+           mppt=f"{mppt[m]:.0f} Wh/day from {n_mppt} modules ({per_mppt:.1f} per module)")
     rb.add("harvest.shortfall_pct", "1 - harvest through the chosen controller x battery "
-           "round trip / design-month demand, when positive", hsrc,
-           harvest=fmt(float(chosen[m]), "Wh/day"), round_trip=fmt(eta_batt),
-           demand=fmt(demand, "Wh/day"))
+           "round trip / demand, in the month where it is largest, when positive", hsrc,
+           month=MONTH_NAMES[ms], harvest=fmt(float(chosen[ms]), "Wh/day"),
+           round_trip=fmt(eta_batt), demand=fmt(demand, "Wh/day"))
     rb.add("harvest.pwm_layout", "series x parallel the PWM figures assume: the fewest modules "
            "in series whose STC Vmp suits the battery", "common practice, no source")
     rb.add("harvest.mppt_layout", "series x parallel the MPPT figures assume: a layout in the "
@@ -585,7 +609,7 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     if shortfall > 0.5:
         notices.append(Notice(
             "harvest-shortfall", f"Through the {ctype.upper()} controller the array delivers "
-            f"{chosen[m]:.0f} Wh/day in the design month; after the battery's round trip "
+            f"{chosen[ms]:.0f} Wh/day in {MONTH_NAMES[ms]}; after the battery's round trip "
             f"({eta_batt:.0%}) that is {shortfall:.0f} % below the {demand:.0f} Wh/day the "
             "loads need: add modules"
             + (" or use an MPPT controller" if ctype == "pwm" else "") + ".",
@@ -594,7 +618,8 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     if ctype == "pwm" and pwm_vs < -20.0:
         notices.append(Notice(
             "pwm-mismatch", f"This module suits a PWM controller badly at {vsys:.0f} V: PWM "
-            f"harvests {-pwm_vs:.0f} % less than MPPT would in the design month. Use an MPPT "
+            f"harvests {-pwm_vs:.0f} % less per module than MPPT would in the design month. "
+            "Use an MPPT "
             "controller or modules whose Vmp is nearer the battery voltage.", "warning",
             "array.harvest_pwm_wh_day"))
 

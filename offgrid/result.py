@@ -172,6 +172,11 @@ class BatteryResult:
     absorption_voltage_v: float
     peak_charge_current_a: float = 0.0  # the array's charge current at full sun
     charge_c_rate: float = 0.0  # peak charge current / installed Ah [1/h]
+    bank_voltage_v: float = 0.0  # nominal: units in series x unit voltage (51.2 V for LFP)
+    capacity_temp_c: float = 25.0  # battery temperature for capacity, in the sizing month
+    ageing_temp_c: float = 25.0  # warmest monthly battery temperature for ageing
+    calendar_life_years: float = 0.0  # float life at the ageing temperatures
+    ageing_temps_c: tuple[float, ...] = ()  # the 12 monthly temperatures for ageing
 
 
 @dataclass(frozen=True)

@@ -19,6 +19,7 @@ Chain, in order (each step its own function below):
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
@@ -222,21 +223,11 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
                           "while loads run: a PV-only system cannot carry them; remove those "
                           "months from the loads or add another source", "climate")
     ratio = np.divide(demand, poa, out=np.zeros_like(demand), where=poa > 0)
+    # A first design month from demand / sun alone; the array sizing below replaces it by the
+    # month whose derated supply covers its demand least (cell temperature, PWM operating
+    # point), and sizes the array on that month.
     dm = int(np.argmax(ratio))
-    book.add("site.design_month", "month with the largest ratio of daily demand to "
-             "plane-of-array insolation", "worst-month method, common practice",
-             ratio=fmt(float(ratio[dm]), "Wh per kWh/m2"), month=MONTHS[dm])
     lr = _with_design_energy(lr, float(demand[dm]))
-    if horiz[dm] < LOW_SUN_KWH_M2_DAY and tilt > 15.0:
-        notices.append(Notice(
-            "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
-            f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
-            f"a {tilt:.0f} deg plane can read 20-50 % high (against an hourly sky model on "
-            "typical-year weather at 55-65 N). Allow a margin of modules, or check the month "
-            "with an hourly model of the site's weather.",
-            "warning", "site.poa_kwh_m2_day"))
-    book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
-             "worst-month method", month=MONTHS[dm])
 
     # temperatures
     t_mean = np.asarray(climate.temp_mean_c, dtype=float)
@@ -278,7 +269,8 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
              " / 2" + ("" if climate.temp_max_c else "; no maxima given, maximum taken as mean "
                        "+ 5 C"), "common practice, no source")
     book.add("site.demand_to_sun", "daily demand at the battery / plane-of-array insolation, "
-             "each month (Wh per kWh/m2); the largest marks the design month",
+             "each month (Wh per kWh/m2); before the month's derates (the design month is the "
+             "least-covered month after them, see site.design_month)",
              "worst-month method, common practice")
 
     # 4-5. array
@@ -287,8 +279,31 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     from offgrid.pv import fit_module
 
     params = fit_module(project.module)  # once per design: the window and the curves share it
-    array, ctrl, system_v, batt_abs_v = _size_array(project, site, lr, sun, book, arr_notices,
-                                                    t_low, params=params)
+    array, ctrl, system_v, batt_abs_v, dm = _size_array(project, site, lr, sun, book,
+                                                        arr_notices, t_low, params=params)
+    site = replace(site, design_month=dm + 1)
+    lr = _with_design_energy(lr, float(demand[dm]))
+    with np.errstate(over="ignore"):
+        cover = np.divide(np.asarray(array.supply_wh_day), demand, out=np.full(12, np.inf),
+                          where=demand > 0)
+    book.add("site.design_month", "the month whose supply, with every derate of that month "
+             "(cell temperature, PWM operating point, soiling ...), covers its demand least: "
+             "the largest demand / (plane-of-array insolation x the month's derate chain); the "
+             "array is sized on it, so every other month is covered too",
+             "worst-month method, common practice", month=MONTHS[dm],
+             supply_over_demand=fmt(float(cover[dm])),
+             next_least=_next_least(cover, dm))
+    if horiz[dm] < LOW_SUN_KWH_M2_DAY and tilt > 15.0:
+        notices.insert(k_array, Notice(
+            "low-sun-month", f"In {MONTHS[dm]}, the design month, the horizontal insolation is "
+            f"only {horiz[dm]:.2f} kWh/m2/day: in such dark months the monthly transposition to "
+            f"a {tilt:.0f} deg plane can read 20-50 % high (against an hourly sky model on "
+            "typical-year weather at 55-65 N). Allow a margin of modules, or check the month "
+            "with an hourly model of the site's weather.",
+            "warning", "site.poa_kwh_m2_day"))
+        k_array += 1
+    book.add("loads.design_daily_energy_wh", "daily energy at the battery in the design month",
+             "worst-month method", month=MONTHS[dm])
     # 6. battery
     battery = _size_battery(project, lr, system_v, batt_abs_v, t_mean, book, notices)
     # 8. inverter
@@ -309,7 +324,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
 
     # 9. electrical design: strings, harvest both ways from the I-V curves, cables,
     # protection, cautions.  If the chosen controller's harvest falls short of the demand
-    # in the design month, add modules and size again (at most a few rounds).
+    # in any month, add modules and size again (at most a few rounds).
     from offgrid.electrical import electrical_design, with_electrical
 
     core = assemble(array, ctrl, arr_notices)
@@ -322,22 +337,20 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         need = max(core.array.module_count + 1,
                    math.ceil(core.array.module_count / (1.0 - short / 100.0) - 1e-9))
         arr_notices = []
-        array, ctrl, _, _ = _size_array(project, site, lr, sun, book, arr_notices, t_low,
-                                        min_modules=need, params=params)
+        array, ctrl, _, _, _ = _size_array(project, site, lr, sun, book, arr_notices, t_low,
+                                           min_modules=need, params=params)
         core = assemble(array, ctrl, arr_notices)
         er = electrical_design(project, core, params)
     if core.array.module_count != first:
         arr_notices.append(Notice(
             "array-raised-for-harvest", f"The array was raised from {first} to "
             f"{core.array.module_count} modules: through the {ctrl.type.upper()} controller "
-            "the I-V curves of the design month deliver less than the derate chain assumed.",
+            "the I-V curves deliver less than the derate chain assumed in at least one month.",
             "info", "array.power_w"))
         book.add("array.modules_parallel", "raised until the daily harvest through the chosen "
-                 "controller, after the battery round trip, covers the design-month demand",
+                 "controller, after the battery round trip, covers every month's demand",
                  "De Soto (2006) I-V curves over the month's mean day (offgrid.harvest)",
                  first=str(first), now=str(core.array.module_count))
-    from dataclasses import replace
-
     rate_notices, i_peak = _charge_rate_notices(project, array, ctrl, battery, book)
     battery = replace(battery, peak_charge_current_a=float(i_peak),
                       charge_c_rate=float(i_peak / battery.capacity_ah))
@@ -356,7 +369,7 @@ def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerR
     """
     from offgrid.battery import MAX_CHARGE_C_RATE, MIN_LEAD_ACID_CHARGE_C_RATE
 
-    v = battery.system_voltage_v
+    v = battery.bank_voltage_v or battery.system_voltage_v
     if ctrl.type == "mppt":
         i_array = array.power_w * ctrl.efficiency / v
     else:
@@ -391,9 +404,14 @@ def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerR
     return out, i_peak
 
 
-def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
-    from dataclasses import replace
+def _next_least(cover: np.ndarray, dm: int) -> str:
+    """The month next least covered after the design month, for the design month's reason."""
+    rest = np.where(np.arange(12) == dm, np.inf, cover)
+    j = int(np.argmin(rest))
+    return "-" if not np.isfinite(rest[j]) else f"{MONTHS[j]} {rest[j]:.3f}"
 
+
+def _with_design_energy(lr: LoadResult, value: float) -> LoadResult:
     return replace(lr, design_daily_energy_wh=value)
 
 
@@ -433,7 +451,6 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
                 params=None):
     m = project.module
     ctrl_spec = project.controller
-    dm = site.design_month - 1
     poa = np.asarray(site.poa_kwh_m2_day)
     demand = np.asarray(lr.daily_energy_wh)
     daylight = sky.daylight_hours(site.latitude_deg)
@@ -448,8 +465,9 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
 
     # A first estimate of power (MPPT chain) fixes the system voltage.
     f_temp_mppt = 1.0 + gamma * (t_cell - 25.0)
-    rough = demand[dm] / (poa[dm] * f_temp_mppt[dm] * soiling * d.mismatch * d.wiring
-                          * ctrl_spec.efficiency * batt_rt)
+    chain = soiling * d.mismatch * d.wiring * ctrl_spec.efficiency * batt_rt
+    rough = float(np.max(np.divide(demand, poa * f_temp_mppt * chain, out=np.zeros(12),
+                                   where=poa > 0)))
     system_v = choose_system_voltage(project, max(rough, lr.peak_ac_w * NEC_CONTINUOUS), book)
     n_cells_sys = system_v / 2.0 if chem.lead_acid else system_v / 3.0
     batt_abs_v = chem.absorption_v_per_cell * n_cells_sys
@@ -486,6 +504,11 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
                 "its power is used: choose an MPPT controller or modules made for a "
                 f"{system_v} V battery.", "warning", "array.power_w"))
 
+    # The design month: the month whose derated supply covers its demand least.
+    monthly_total = f_temp * f_op * chain
+    need_w = np.divide(demand, poa * monthly_total, out=np.zeros(12),
+                       where=(poa * monthly_total) > 0)
+    dm = int(np.argmax(need_w))
     derates = {
         "temperature": float(f_temp[dm]),
         "operating point": float(f_op[dm]),
@@ -505,12 +528,10 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
     string_w = ns * m.pmax_w
     power = n_par * string_w
     ctrl = _size_controller(project, n_par, power, system_v, book, layout.controllers)
-    monthly_total = (f_temp * f_op * soiling * d.mismatch * d.wiring * ctrl_spec.efficiency
-                     * batt_rt)
     supply = power * poa * monthly_total
     book.add("array.required_power_w",
-             "design-month demand / (peak sun hours x product of derates)",
-             "worst-month method; derate chain common practice",
+             "design-month demand / (peak sun hours x product of derates), the largest of "
+             "the twelve months", "worst-month method; derate chain common practice",
              demand=fmt(float(demand[dm]), "Wh/day"), peak_sun_hours=fmt(float(poa[dm]), "h"),
              derates=fmt(total))
     book.add("array.derates.temperature", temp_text,
@@ -560,7 +581,7 @@ def _size_array(project: Project, site: SiteResult, lr: LoadResult, sun: dict,
         notices.append(Notice("several-controllers", f"{ctrl.count} charge controllers of "
                               f"{ctrl.current_a:g} A are needed; give each its own group of "
                               f"{n_par // ctrl.count} strings.", "info", "controller.current_a"))
-    return array, ctrl, system_v, batt_abs_v
+    return array, ctrl, system_v, batt_abs_v, dm
 
 
 def _controller_ratings(project: Project) -> tuple[float, ...]:
@@ -665,6 +686,20 @@ def _size_controller(project: Project, n_par: int, power: float, system_v: int,
 
 def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: float,
                   t_mean: np.ndarray, book: ReasonBook, notices: list[Notice]) -> BatteryResult:
+    """6. Battery bank for the days of autonomy, on the worst month of demand x cold factor.
+
+    Each month's need: demand x days / (DoD x discharge efficiency x end of life) x that
+    month's capacity-temperature factor; the bank is sized on the largest (or, with
+    ``choices.battery_largest_coldest``, on the largest demand x the coldest month's factor).
+    Ampere-hours at the bank's own nominal voltage (units in series x unit voltage).
+    """
+    from offgrid.simulate.life import (
+        CALENDAR_TEMPERATURE_SOURCE,
+        CYCLE_LIFE_SOURCE,
+        calendar_life_years,
+        cycles_to_failure,
+    )
+
     b = project.battery
     choices = project.choices
     chem = CHEMISTRIES[b.chemistry]
@@ -674,25 +709,58 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
         raise DesignError("battery-voltage", f"{b.nominal_voltage_v:.4g} V battery units cannot "
                           f"make a {system_v} V system: choose units whose voltage divides "
                           f"{system_v} V, or another system voltage", "battery.nominal_voltage_v")
-    t_batt = (project.site.battery_temp_c if project.site.battery_temp_c is not None
-              else float(np.min(t_mean)))
-    f_t = capacity_temperature_factor(b.chemistry, t_batt)
+    bank_v = series * b.nominal_voltage_v
+    room = project.site.battery_temp_c
+    t_cap = np.full(12, float(room)) if room is not None else np.asarray(t_mean, dtype=float)
+    f_m = np.array([capacity_temperature_factor(b.chemistry, t) for t in t_cap])
+    demand = np.asarray(lr.daily_energy_wh, dtype=float)
     eta_dis = math.sqrt(b.efficiency)
-    energy = lr.max_daily_energy_wh
-    need_wh = energy * choices.autonomy_days * f_t / (dod * eta_dis * choices.ageing_factor)
-    need_ah = need_wh / system_v
+    per_wh = choices.autonomy_days / (dod * eta_dis * choices.ageing_factor)
+    worst = int(np.argmax(demand * f_m))
+    worst_wh = float(demand[worst] * f_m[worst]) * per_wh
+    big, cold = int(np.argmax(demand)), int(np.argmax(f_m))
+    conservative_wh = float(demand[big] * f_m[cold]) * per_wh
+    if choices.battery_largest_coldest:
+        energy, f_t, t_batt, need_wh = float(demand[big]), float(f_m[cold]), float(t_cap[cold]), \
+            conservative_wh
+        rule = ("largest daily demand x the coldest month's temperature factor (conservative, "
+                "chosen in choices.battery_largest_coldest)")
+    else:
+        energy, f_t, t_batt, need_wh = float(demand[worst]), float(f_m[worst]), \
+            float(t_cap[worst]), worst_wh
+        rule = "the month of the largest demand x temperature factor"
+    need_ah = need_wh / bank_v
     parallel = max(1, math.ceil(need_ah / b.capacity_ah - 1e-9))
     cap_ah = parallel * b.capacity_ah
-    nominal_kwh = cap_ah * system_v / 1000.0
+    nominal_kwh = cap_ah * bank_v / 1000.0
     usable_kwh = nominal_kwh * dod
+    # Ageing: the warm months (the room's warm-season temperature, else each month's mean air
+    # temperature, at least the cold-season room temperature when set).
+    warm = project.site.battery_warm_temp_c
+    if warm is not None:
+        t_age = np.full(12, float(warm))
+        age_from = "site.battery_warm_temp_c"
+    else:
+        t_age = np.asarray(t_mean, dtype=float)
+        age_from = "each month's mean air temperature"
+        if room is not None:
+            t_age = np.maximum(t_age, float(room))
+            age_from += f", at least the room's {room:g} C"
+    cal_years = calendar_life_years(b.chemistry, t_age)
     book.add("battery.required_ah",
-             "largest monthly daily energy x days of autonomy x temperature factor / (max depth "
-             "of discharge x discharge efficiency x end-of-life capacity) / system voltage",
+             f"{rule}: its daily energy x days of autonomy x temperature factor / (max depth "
+             "of discharge x discharge efficiency x end-of-life capacity) / bank voltage",
              "common practice (autonomy method); temperature factor: " + chem.temp_source,
              energy=fmt(energy, "Wh/day"), autonomy=fmt(choices.autonomy_days, "days"),
              temperature_factor=fmt(f_t), battery_temperature=fmt(t_batt, "C"),
              max_dod=fmt(dod), discharge_efficiency=fmt(eta_dis),
-             ageing=fmt(choices.ageing_factor), system_voltage=fmt(system_v, "V"))
+             ageing=fmt(choices.ageing_factor), bank_voltage=fmt(bank_v, "V"),
+             worst_month=f"{MONTHS[worst]}: {demand[worst]:.0f} Wh/day x {f_m[worst]:.3f} -> "
+             f"{worst_wh / bank_v:.0f} Ah" + ("" if choices.battery_largest_coldest
+                                              else " (used)"),
+             largest_x_coldest=f"{demand[big]:.0f} Wh/day ({MONTHS[big]}) x {f_m[cold]:.3f} "
+             f"({MONTHS[cold]}) -> {conservative_wh / bank_v:.0f} Ah"
+             + (" (used)" if choices.battery_largest_coldest else " (conservative option)"))
     book.add("battery.capacity_ah", "strings in parallel x unit capacity",
              "common practice, no source", parallel=str(parallel),
              unit=fmt(b.capacity_ah, "Ah"))
@@ -700,8 +768,9 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
              system=fmt(system_v, "V"), unit=fmt(b.nominal_voltage_v, "V"))
     book.add("battery.units_parallel", "ceil(required Ah / unit Ah)", "common practice",
              required=fmt(need_ah, "Ah"), unit=fmt(b.capacity_ah, "Ah"))
-    book.add("battery.usable_kwh", "installed Ah x system voltage x max depth of discharge",
-             "common practice", capacity=fmt(cap_ah, "Ah"), max_dod=fmt(dod))
+    book.add("battery.usable_kwh", "installed Ah x bank voltage x max depth of discharge",
+             "common practice", capacity=fmt(cap_ah, "Ah"), max_dod=fmt(dod),
+             bank_voltage=fmt(bank_v, "V"))
     if chem.lead_acid and parallel > 3:
         notices.append(Notice("lead-acid-parallel", f"{parallel} parallel strings of lead-acid "
                               "batteries: strings share current unevenly above three; choose "
@@ -712,17 +781,50 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
                               f"units is {cap_ah / need_ah:.1f} times the {need_ah:.0f} Ah the "
                               "design needs: smaller units would cost less and charge more "
                               "fully.", "info", "battery.capacity_ah"))
-    if t_batt < 5:
+    if t_cap[cold] < 5:
         where = ("the battery room's temperature (site.battery_temp_c)"
                  if project.site.battery_temp_c is not None else
-                 "the coldest monthly mean outdoors; set site.battery_temp_c for a room")
-        notices.append(Notice("battery-cold", f"The battery works at about {t_batt:.0f} C "
-                              f"({where}): its capacity is raised by a factor {f_t:.2f} for "
-                              "the cold; insulate it or move it indoors.", "warning",
+                 f"the mean air temperature of {MONTHS[cold]}; set site.battery_temp_c for a "
+                 "room")
+        notices.append(Notice("battery-cold", f"The battery works at about {t_cap[cold]:.0f} C "
+                              f"({where}): it then needs {f_m[cold]:.2f} times its rated "
+                              "capacity for the same energy (counted in that month's need); "
+                              "insulate it or move it indoors.", "warning",
                               "battery.required_ah"))
-    book.add("battery.nominal_kwh", "installed Ah x system voltage / 1000",
-             "common practice, no source", capacity=fmt(cap_ah, "Ah"),
-             system_voltage=fmt(system_v, "V"))
+    book.add("battery.nominal_kwh", "installed Ah x bank nominal voltage (units in series x "
+             "unit voltage) / 1000", "common practice, no source", capacity=fmt(cap_ah, "Ah"),
+             bank_voltage=fmt(bank_v, "V"))
+    book.add("battery.bank_voltage_v", "units in series x the unit's own nominal voltage",
+             "common practice, no source", series=str(series),
+             unit=fmt(b.nominal_voltage_v, "V"))
+    book.add("battery.capacity_temp_c", "battery temperature for capacity in the month the "
+             "bank is sized on: the room's (site.battery_temp_c) or that month's mean air "
+             "temperature", chem.temp_source, month=MONTHS[worst if not
+                                                          choices.battery_largest_coldest
+                                                          else cold])
+    book.add("battery.ageing_temp_c", "warmest monthly battery temperature for ageing: "
+             + age_from, "common practice, no source",
+             months=" ".join(f"{t:.0f}" for t in t_age))
+    book.add("battery.ageing_temps_c", "battery temperature for ageing, each month: "
+             + age_from, "common practice, no source")
+    book.add("battery.calendar_life_years", "float (calendar) life at 25 C / the day-weighted "
+             "mean over the months of 2^((T - 25 C) / 10 C), T the month's battery temperature "
+             "for ageing, no credit below 25 C" if chem.lead_acid else
+             "float (calendar) life of the preset, not corrected for temperature (no source "
+             "for lithium iron phosphate)", CALENDAR_TEMPERATURE_SOURCE + "; life at 25 C "
+             "from memory", at_25c=fmt(calendar_life_years(b.chemistry), "yr"),
+             warmest=fmt(float(t_age.max()), "C"))
+    if chem.lead_acid and dod > 0.8 + 1e-9:
+        n_dod = float(cycles_to_failure(b.chemistry, dod))
+        n_half = float(cycles_to_failure(b.chemistry, 0.5))
+        notices.append(Notice(
+            "lead-acid-deep-dod", f"A maximum depth of discharge of {dod:.0%} on {chem.label} "
+            f"batteries: the cycle-life curve used here gives about {n_dod:.0f} cycles to end "
+            f"of life at that depth against {n_half:.0f} at 50 % ({CYCLE_LIFE_SOURCE}), so "
+            f"a bank run that deep on many days wears out in about {n_dod / 365:.1f} years of "
+            "daily cycling. Lead-acid is usually designed for 50 % or less (common practice); "
+            "check the battery's datasheet for its cycle life.", "warning",
+            "battery.max_dod"))
     if choices.max_dod is not None:
         book.given("battery.max_dod", "choices.max_dod", fmt(dod))
     else:
@@ -735,7 +837,7 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
              "temperature (1 at 25 C, more in the cold)", chem.temp_source,
              battery_temperature=fmt(t_batt, "C"),
              temperature_from="site.battery_temp_c" if project.site.battery_temp_c is not None
-             else "coldest monthly mean of the climate")
+             else "the sizing month's mean air temperature")
     book.given("battery.ageing_factor", "choices.ageing_factor", fmt(choices.ageing_factor))
     book.add("battery.discharge_efficiency", "square root of the round-trip efficiency (the "
              "loss shared equally between charge and discharge)", "common practice, no source",
@@ -750,7 +852,10 @@ def _size_battery(project: Project, lr: LoadResult, system_v: int, batt_abs_v: f
         autonomy_days=float(choices.autonomy_days), units_series=series,
         units_parallel=parallel, unit_count=series * parallel, temp_factor=float(f_t),
         ageing_factor=float(choices.ageing_factor), discharge_efficiency=float(eta_dis),
-        absorption_voltage_v=float(batt_abs_v))
+        absorption_voltage_v=float(batt_abs_v), bank_voltage_v=float(bank_v),
+        capacity_temp_c=float(t_batt), ageing_temp_c=float(t_age.max()),
+        calendar_life_years=float(cal_years),
+        ageing_temps_c=_tuple(t_age))
 
 
 def _size_inverter(project: Project, lr: LoadResult, system_v: int, book: ReasonBook,

@@ -42,10 +42,15 @@ def summary_text(project: Project, d: SystemDesign) -> str:
                       f"{a.modules_parallel} parallel x {a.module_power_w:.0f} W"))
     lines.append(_row("  required", f"{a.required_power_w:.0f} W",
                       f"derates together {a.derate_total:.2f}"))
-    lines.append(_row("Battery bank", f"{b.capacity_ah:.0f} Ah at {b.system_voltage_v} V",
+    bank = (f" ({b.bank_voltage_v:g} V nominal)" if b.bank_voltage_v
+            and abs(b.bank_voltage_v - b.system_voltage_v) > 1e-9 else "")
+    lines.append(_row("Battery bank", f"{b.capacity_ah:.0f} Ah at {b.system_voltage_v} V{bank}",
                       f"{b.units_series} series x {b.units_parallel} parallel units"))
     lines.append(_row("  energy", f"{b.nominal_kwh:.2f} kWh nominal",
                       f"{b.usable_kwh:.2f} kWh usable at {b.max_dod:.0%} DoD"))
+    lines.append(_row("  temperature", f"{b.capacity_temp_c:.0f} C for capacity",
+                      f"ageing up to {b.ageing_temp_c:.0f} C: life "
+                      f"{b.calendar_life_years:.1f} yr"))
     lines.append(_row("  autonomy", f"{b.autonomy_days:g} days", f"{b.chemistry}"))
     ctrl_count = f"{c.count} x " if c.count > 1 else ""
     needs = (f"needs {c.required_current_a / c.count:.1f} A each" if c.count > 1
@@ -132,10 +137,11 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
     pct = h.pwm_vs_mppt_pct
     compare = (f"{abs(pct):.0f} % less than" if pct < -0.5 else
                f"{pct:.0f} % more than" if pct > 0.5 else "about the same as")
-    harvest += _wrap(f"In {month} PWM harvests {compare} MPPT, each in its own string layout "
-                     f"(PWM at {h.charging_voltage_v:.1f} V, {h.pwm_layout[0]} x "
-                     f"{h.pwm_layout[1]}; MPPT {h.mppt_layout[0]} x {h.mppt_layout[1]}); "
-                     f"the design uses {h.controller_type.upper()}", "  ")
+    harvest += _wrap(f"In {month} PWM harvests {compare} MPPT per module, each on its own "
+                     f"best string layout of the same modules (PWM at "
+                     f"{h.charging_voltage_v:.1f} V, {h.pwm_layout[0]} x {h.pwm_layout[1]}; MPPT "
+                     f"{h.mppt_layout[0]} x {h.mppt_layout[1]}); the design uses "
+                     f"{h.controller_type.upper()}", "  ")
     material = e.wires[0].material if e.wires else ""
     cables = [f"Cables ({material}; size, max current, one-way length, drop, ampacity, fuse)",
               f"  {'run':<28}{'n':>2} {'size':>10}{'A':>7}{'m':>6}{'drop%':>7}{'amp':>6}"

@@ -49,17 +49,23 @@ def design_problems(d: SystemDesign) -> list[str]:
         out.append(f"array.power_w {a.power_w} below required {a.required_power_w}")
     if b.capacity_ah < b.required_ah * (1 - 1e-9):
         out.append(f"battery.capacity_ah {b.capacity_ah} below required {b.required_ah}")
-    demand = ld.daily_energy_wh[m]
-    if a.supply_wh_day[m] < demand * (1 - 1e-9):
-        out.append(f"supply {a.supply_wh_day[m]:.1f} < demand {demand:.1f} Wh/day in the design "
-                   "month")
+    cover = [sup / dem if dem > 0 else math.inf
+             for sup, dem in zip(a.supply_wh_day, ld.daily_energy_wh, strict=True)]
+    for i, c_i in enumerate(cover):
+        if c_i < 1 - 1e-9:
+            out.append(f"supply {a.supply_wh_day[i]:.1f} < demand {ld.daily_energy_wh[i]:.1f} "
+                       f"Wh/day in month {i + 1}")
+    if cover[m] > min(cover) * (1 + 1e-9):
+        out.append(f"design month {m + 1} is not the least-covered month "
+                   f"({cover.index(min(cover)) + 1})")
     if d.electrical is not None:
         h = d.electrical.harvest
-        chosen = h.chosen_wh_day[m]
         eta = a.derates["battery round trip"]
-        if chosen * eta < demand * (1 - HARVEST_TOL) and not any(
-                n.code == "harvest-shortfall" for n in d.warnings):
-            out.append(f"harvest {chosen:.1f} x {eta:.2f} < demand {demand:.1f} with no warning")
+        for chosen, dem in zip(h.chosen_wh_day, ld.daily_energy_wh, strict=True):
+            if chosen * eta < dem * (1 - HARVEST_TOL) and not any(
+                    n.code == "harvest-shortfall" for n in d.warnings):
+                out.append(f"harvest {chosen:.1f} x {eta:.2f} < demand {dem:.1f} with no "
+                           "warning")
     if c.current_a * (1 + 1e-9) < c.required_current_a / c.count:
         out.append(f"controller {c.current_a} A < required {c.required_current_a:.2f} A / "
                    f"{c.count}")

@@ -39,6 +39,9 @@ class Site:
     azimuth_deg: float | None = None  # None: equator-facing (180 north of equator, 0 south)
     albedo: float = 0.2
     battery_temp_c: float | None = None  # battery room temperature; None: site monthly mean
+    # Battery room temperature in the warm season, for ageing (calendar life); None: each
+    # month's mean air temperature (at least battery_temp_c when that is set).
+    battery_warm_temp_c: float | None = None
     # Horizon profile: (azimuth_deg clockwise from north, obstruction elevation_deg) pairs,
     # interpolated linearly around the circle; empty: open horizon.
     horizon_deg: list[tuple[float, float]] = field(default_factory=list)
@@ -153,6 +156,9 @@ class DesignChoices:
     load_growth_pct: float = 10.0
     coincidence_factor: float = 0.7
     ageing_factor: float = 0.8  # battery capacity at end of life / rated
+    # True: size the bank on the largest daily demand x the coldest month's temperature
+    # factor (conservative, the two may never meet); False: on the worst single month.
+    battery_largest_coldest: bool = False
     min_tilt_deg: float = 10.0
     derates: Derates = field(default_factory=Derates)
     drop_limit_array_pct: float = 3.0

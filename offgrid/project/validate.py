@@ -33,6 +33,8 @@ RANGES: tuple[tuple[str, float, float, str], ...] = (
     ("site.azimuth_deg", 0, 360, "degrees clockwise from north (180 = south), or leave it out"),
     ("site.albedo", 0, 1, "ground reflectance, a fraction 0-1 (0.2 for grass or soil)"),
     ("site.battery_temp_c", -40, 60, "the battery room's mean temperature in C"),
+    ("site.battery_warm_temp_c", -40, 60, "the battery room's mean temperature in the warm "
+                                          "season in C (for ageing), or leave it out"),
     ("module.pmax_w", 1, 1000, "STC maximum power of one module, W"),
     ("module.vmp_v", 0.5, 200, "STC maximum-power voltage, V"),
     ("module.imp_a", 0.01, 30, "STC maximum-power current, A"),

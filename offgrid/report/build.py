@@ -73,6 +73,11 @@ LABELS: dict[str, str] = {
     "array.string_voc_cold_v": "String Voc at the lowest temperature",
     "array.string_vmp_hot_v": "String Vmp hot",
     "battery.system_voltage_v": "System voltage",
+    "battery.bank_voltage_v": "Battery bank nominal voltage",
+    "battery.capacity_temp_c": "Battery temperature for capacity",
+    "battery.ageing_temp_c": "Battery temperature for ageing, warmest month",
+    "battery.ageing_temps_c": "Battery temperature for ageing",
+    "battery.calendar_life_years": "Battery float life at those temperatures",
     "battery.required_ah": "Battery capacity required",
     "battery.capacity_ah": "Battery capacity installed",
     "battery.units_series": "Battery units in series",
@@ -366,7 +371,7 @@ def _job(ri: ReportInputs, tree: dict) -> Section:
         f"battery bank of {b.unit_count} units ({b.capacity_ah:,.0f} Ah, "
         f"{b.usable_kwh:,.2f} kWh usable), {c.count} x {c.current_a:g} A {c.type.upper()} charge "
         f"controller{'s' if c.count > 1 else ''} and {inv_text}, sized for "
-        f"{MONTHS[d.site.design_month - 1]}, the month with the least sun for the demand."))
+        f"{MONTHS[d.site.design_month - 1]}, the month whose supply covers its demand least."))
     return Section("job", "The job and the site", tuple(blocks))
 
 
@@ -472,11 +477,11 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
     s, lr, a = d.site, d.loads, d.array
     dm = s.design_month - 1
     blocks: list[Block] = [Paragraph(
-        f"Design month: {MONTHS[dm]}. It has the largest ratio of daily demand to array-plane "
-        f"insolation ({s.demand_to_sun[dm]:,.0f} Wh per kWh/m2): "
+        f"Design month: {MONTHS[dm]}. Its supply, with that month's own derates (cell "
+        "temperature, PWM operating point ...), covers its demand least: "
         f"{lr.design_daily_energy_wh:,.0f} Wh/day at the battery on "
-        f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day. The array is sized for this month; every other "
-        "month has at least as much sun for its demand.")]
+        f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day in the array plane. The array is sized for this "
+        "month, so every other month's supply covers its demand with more to spare.")]
     rows = [_month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
             _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day")]
     harvests = []
@@ -560,7 +565,7 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
                                                f"({operating[0] * operating[1] / mpp.pmp_w:.0%} "
                                                "of Pmp)")))
     if harvest is not None and getattr(harvest, "pwm_vs_mppt_pct", None) is not None:
-        rows.append((_c("PWM harvest against MPPT, design month"), Cell(
+        rows.append((_c("PWM against MPPT per module, design month"), Cell(
             f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
             "electrical.harvest.pwm_vs_mppt_pct")))
     blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))

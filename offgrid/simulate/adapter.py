@@ -10,8 +10,10 @@ agree on every derate):
 * plane-of-array / horizontal ratio per month from the site result;
 * controller output limit = rated current x controllers x system voltage,
   kept per W of array when the sweep resizes the array;
-* battery: nominal energy divided by the design's temperature factor (the
-  capacity available at the battery's temperature), its depth-of-discharge
+* battery: nominal energy (at the bank's own nominal voltage, units in series x unit
+  voltage) divided by the design's temperature factor (the capacity available at the
+  battery's temperature), its calendar life at the warm-season temperatures, its
+  depth-of-discharge
   limit and discharge efficiency; the charge efficiency is the round-trip
   efficiency / the discharge efficiency;
 * loads at the battery bus per month (critical part separately), spread over
@@ -90,14 +92,19 @@ def inputs_from_design(project: Project, design: SystemDesign, *,
     ec = min(1.0, rte / ed)
     temp_factor = bat.temp_factor if bat.temp_factor > 0 else 1.0
     capacity_wh = bat.nominal_kwh * 1000.0 / temp_factor
-    ctrl_w = ctl.current_a * ctl.count * bat.system_voltage_v
+    bank_v = bat.bank_voltage_v or float(bat.system_voltage_v)
+    ctrl_w = ctl.current_a * ctl.count * bank_v
+    calendar = bat.calendar_life_years if bat.calendar_life_years > 0 else None
     notes = (
         "from the worst-month design: monthly derates or the I-V harvest where lower "
         "(battery round trip left to the simulation), plane-of-array ratio, controller rating "
-        f"{ctl.count} x {ctl.current_a:g} A at {bat.system_voltage_v} V",
+        f"{ctl.count} x {ctl.current_a:g} A at {bank_v:g} V",
         f"battery: {bat.nominal_kwh:.2f} kWh nominal / temperature factor {temp_factor:.3f}; "
         f"charge {ec:.3f}, discharge {ed:.3f}; max charge rate "
         f"C/{1 / MAX_CHARGE_C_RATE.get(bat.chemistry, 0.2):.0f} (from memory)",
+        f"battery temperatures: {bat.capacity_temp_c:.0f} C for capacity, up to "
+        f"{bat.ageing_temp_c:.0f} C for ageing; calendar life "
+        + (f"{calendar:.1f} years" if calendar else "preset at 25 C"),
     )
     load = np.asarray(design.loads.daily_energy_wh, dtype=float)
     crit = np.minimum(np.asarray(design.loads.critical_energy_wh, dtype=float), load)
@@ -108,7 +115,7 @@ def inputs_from_design(project: Project, design: SystemDesign, *,
         max_dod=float(bat.max_dod), eta_charge=ec, eta_discharge=ed,
         controller_w_per_w=(ctrl_w / arr.power_w) if arr.power_w > 0 and ctrl_w > 0 else None,
         charge_c_rate=MAX_CHARGE_C_RATE.get(bat.chemistry), initial_soc=initial_soc,
-        chemistry=bat.chemistry, notes=notes))
+        chemistry=bat.chemistry, notes=notes, calendar_life_years=calendar))
 
 
 def measured_daily(project: Project, base: Path | None = None) -> np.ndarray | None:

@@ -80,6 +80,7 @@ class SystemInputs:
     initial_soc: float = 1.0
     chemistry: str = "agm"
     notes: tuple[str, ...] = field(default_factory=tuple)
+    calendar_life_years: float | None = None  # at the battery's temperatures; None: at 25 C
 
 
 def profile_from_windows(windows: list[tuple[str, float]]) -> np.ndarray:

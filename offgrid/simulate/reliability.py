@@ -125,7 +125,7 @@ def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily
             soc_min_p5=float(np.percentile(dm, 5)), soc_min_p50=float(np.percentile(dm, 50)),
             soc_min_p95=float(np.percentile(dm, 95)), days_below=int((dm < thr).sum())))
     wear = battery_wear(soc_all, years, inp.chemistry, float(bal.discharge_wh[0]),
-                        inp.capacity_wh)
+                        inp.capacity_wh, inp.calendar_life_years)
     per_year_shed = shed.reshape(years, DAYS_PER_YEAR).sum(axis=1)
     per_year_low = daily_min.reshape(years, DAYS_PER_YEAR).min(axis=1)
     worst = int(np.lexsort((per_year_low, -per_year_shed))[0])
@@ -202,5 +202,8 @@ def _reasons(inp: SystemInputs, weather: WeatherSeries, bal: Balance, thr: float
              "cycles to failure at their depth",
              "ASTM E1049-85 sec. 5.4.4 (rainflow); Miner (1945); cycle life " + CYCLE_LIFE_SOURCE,
              chemistry=inp.chemistry, damage_per_year=fmt(wear.damage_per_year),
-             calendar_life=fmt(wear.calendar_life_years, "yr"))
+             calendar_life=fmt(wear.calendar_life_years, "yr"),
+             calendar_basis="at the battery's warm-season temperatures (design "
+             "battery.calendar_life_years)" if inp.calendar_life_years is not None
+             else "preset at 25 C")
     return book.freeze()

@@ -148,6 +148,10 @@ PROJECT_FIELDS: tuple[Field | str, ...] = (
     Field("site.battery_temp_c", "Battery room temp.", "auto_float", unit="C",
           auto_text="coldest monthly mean",
           hint="mean temperature where the battery stands; 'auto' = coldest monthly mean"),
+    Field("site.battery_warm_temp_c", "Battery room, warm", "auto_float", unit="C",
+          reason="battery.ageing_temp_c", auto_text="monthly means",
+          hint="mean temperature of the battery room in the warm months, for ageing; 'auto' = "
+          "each month's mean air temperature"),
 )
 
 CONTROLLER_TYPES = (("mppt", "MPPT (tracks the maximum power point)"),
@@ -169,6 +173,11 @@ PARTS_FIELDS: tuple[Field | str, ...] = (
           reason="loads.daily_energy_wh"),
     Field("choices.coincidence_factor", "AC coincidence factor", reason="loads.peak_ac_w"),
     Field("choices.ageing_factor", "End-of-life capacity", reason="battery.required_ah"),
+    Field("choices.battery_largest_coldest", "Bank: peak x coldest", "choice",
+          choices=((False, "no: worst single month"), (True, "yes: conservative")),
+          reason="battery.required_ah",
+          hint="yes: size the bank on the largest daily demand x the coldest month's "
+          "temperature factor, even if they never meet in one month"),
     Field("choices.min_tilt_deg", "Minimum tilt", unit="deg", reason="site.tilt_deg"),
     "Module (datasheet, STC)",
     *(Field(f"module.{name}", label, kind, unit=unit, group_form="module")

@@ -43,13 +43,18 @@ def figure_rows(d: SystemDesign) -> list[Row]:
         ("System voltage", f"{b.system_voltage_v} V", "battery.system_voltage_v"),
         ("Capacity installed", f"{b.capacity_ah:,.0f} Ah", "battery.capacity_ah"),
         ("Capacity needed", f"{b.required_ah:,.0f} Ah", "battery.required_ah"),
-        ("Energy, nominal", f"{b.nominal_kwh:.2f} kWh", "battery.capacity_ah"),
+        ("Energy, nominal", f"{b.nominal_kwh:.2f} kWh at {b.bank_voltage_v:g} V",
+         "battery.nominal_kwh"),
         ("Energy, usable", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD",
          "battery.usable_kwh"),
         ("Units", f"{b.units_series} in series \u00d7 {b.units_parallel} strings = "
                   f"{b.unit_count}", "battery.units_parallel"),
         ("Days of autonomy", f"{b.autonomy_days:g} days", "battery.required_ah"),
         ("Temperature factor", f"{b.temp_factor:.3f}", "battery.required_ah"),
+        ("Battery temp., capacity", f"{b.capacity_temp_c:.1f} C", "battery.capacity_temp_c"),
+        ("Battery temp., ageing", f"up to {b.ageing_temp_c:.1f} C", "battery.ageing_temp_c"),
+        ("Float life at those temps.", f"{b.calendar_life_years:.1f} years",
+         "battery.calendar_life_years"),
         "Charge controller",
         ("Rating", (f"{c.count} \u00d7 " if c.count > 1 else "") +
          f"{c.current_a:.0f} A {c.type.upper()}", "controller.current_a"),
@@ -96,7 +101,7 @@ def electrical_rows(d: SystemDesign) -> list[Row]:
              "strings.min_series"),
             ("Module at design-month noon", f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, "
              f"{mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)", "mpp.pmp_w"),
-            ("PWM harvest against MPPT", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
+            ("PWM against MPPT, per module", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
              "array.harvest_pwm_wh_day"),
         ]
         if h.shortfall_pct > 0:
