@@ -179,15 +179,17 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
     ceiling = np.full_like(total, np.inf)
     if cap:
         from offgrid.climate.clearsky import (
+            CEILING_MODEL_MARGIN,
             clearest_sky_any_plane_bound_kwh_m2,
             clearest_sky_plane_kwh_m2,
         )
 
-        bound = clearest_sky_any_plane_bound_kwh_m2(latitude_deg, elevation_m)
+        margin = 1.0 + CEILING_MODEL_MARGIN
+        bound = clearest_sky_any_plane_bound_kwh_m2(latitude_deg, elevation_m) * margin
         need = np.any(total.reshape(-1, 12) > bound, axis=0)  # months where it may bind
         if need.any():
-            ceiling = clearest_sky_plane_kwh_m2(latitude_deg, tilt_deg, azimuth_deg, rho,
-                                                elevation_m, months=need)
+            ceiling = margin * clearest_sky_plane_kwh_m2(latitude_deg, tilt_deg, azimuth_deg,
+                                                         rho, elevation_m, months=need)
     capped = total > ceiling
     scale = np.where(capped, ceiling / np.where(total > 0, total, 1.0), 1.0)
     return MonthlyPoa(
