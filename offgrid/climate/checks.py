@@ -47,7 +47,7 @@ CLEAR_SKY_MARGIN_KWH = 0.05  # rounding of typed values, kWh/m2/day (our choice)
 #: The quantity in words, for messages (the file key is in ``Finding.field``).
 SUN_WORDS = "sunshine on the horizontal"
 TINY_HORIZONTAL_KWH = 0.5  # a "tiny" monthly mean, kWh/m2/day (our choice)
-HUGE_TRANSPOSITION = 5.0  # plane over horizontal beyond which the month is flagged (our choice)
+HUGE_TRANSPOSITION = 10.0  # plane over horizontal beyond which a month is flagged (our choice)
 LOWEST_LAND_M = -430.0  # Dead Sea shore, about 430 m below sea level (from memory)
 HIGHEST_LAND_M = 8850.0  # Everest summit, about 8849 m (from memory)
 

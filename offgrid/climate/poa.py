@@ -29,6 +29,7 @@ References
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -95,6 +96,38 @@ def beam_ratio_rb_klein(latitude_deg: float, tilt_deg, azimuth_deg: float):
     num = cos_t.sum(axis=2)
     rb = np.divide(num, den[None], out=np.zeros_like(num), where=den[None] > 1e-9)
     return rb[0] if tilt.ndim == 0 else rb
+
+
+_CEILING_NODES_DEG = np.arange(0.0, 90.0 + 1e-9, 5.0)
+
+
+@functools.lru_cache(maxsize=32)
+def _ceiling_table(latitude_deg: float, azimuth_deg: float, rho: tuple[float, ...],
+                   elevation_m: float) -> np.ndarray:
+    from offgrid.climate.clearsky import CEILING_MODEL_MARGIN, clearest_sky_plane_kwh_m2
+
+    table = clearest_sky_plane_kwh_m2(latitude_deg, _CEILING_NODES_DEG, azimuth_deg,
+                                      np.asarray(rho), elevation_m, every_other_day=True)
+    table = table * (1.0 + CEILING_MODEL_MARGIN)
+    table.setflags(write=False)
+    return table  # (nodes, 12)
+
+
+def clearest_sky_ceiling(latitude_deg: float, tilt_deg, azimuth_deg: float, albedo=None,
+                         elevation_m: float = 0.0) -> np.ndarray:
+    """The plane-of-array ceiling [kWh/m2/day]: cloudless days in the clearest plausible air
+    on the plane (:func:`offgrid.climate.clearsky.clearest_sky_plane_kwh_m2`) plus the
+    model margin, computed every 5 degrees of tilt once per site and interpolated.
+    Shape (12,) for a scalar tilt, (T, 12) for T tilts."""
+    rho = tuple(float(x) for x in sky.monthly_albedo(albedo))
+    table = _ceiling_table(float(latitude_deg), float(azimuth_deg), rho, float(elevation_m))
+    tilt = np.asarray(tilt_deg, dtype=float)
+    t = np.atleast_1d(tilt)
+    idx = np.clip(np.searchsorted(_CEILING_NODES_DEG, t, side="right") - 1, 0,
+                  _CEILING_NODES_DEG.size - 2)
+    frac = ((t - _CEILING_NODES_DEG[idx]) / 5.0)[:, None]
+    out = table[idx] * (1.0 - frac) + table[idx + 1] * frac
+    return out[0] if tilt.ndim == 0 else out
 
 
 @dataclass(frozen=True)
@@ -178,18 +211,7 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
     lost = beam_open - beam
     ceiling = np.full_like(total, np.inf)
     if cap:
-        from offgrid.climate.clearsky import (
-            CEILING_MODEL_MARGIN,
-            clearest_sky_any_plane_bound_kwh_m2,
-            clearest_sky_plane_kwh_m2,
-        )
-
-        margin = 1.0 + CEILING_MODEL_MARGIN
-        bound = clearest_sky_any_plane_bound_kwh_m2(latitude_deg, elevation_m) * margin
-        need = np.any(total.reshape(-1, 12) > bound, axis=0)  # months where it may bind
-        if need.any():
-            ceiling = margin * clearest_sky_plane_kwh_m2(latitude_deg, tilt_deg, azimuth_deg,
-                                                         rho, elevation_m, months=need)
+        ceiling = clearest_sky_ceiling(latitude_deg, tilt_deg, azimuth_deg, rho, elevation_m)
     capped = total > ceiling
     scale = np.where(capped, ceiling / np.where(total > 0, total, 1.0), 1.0)
     return MonthlyPoa(
