@@ -82,3 +82,27 @@ def test_horizon_survives_the_project_file_and_is_validated():
                                                                      (180.0, 95.0)]))
     with pytest.raises(ProjectFileError, match=r"site\.horizon_deg: point 2: elevation 95"):
         loads_project(bad)
+
+
+def test_climate_albedo_used_unless_the_site_sets_one():
+    # A snow-month reflectance in the climate (Duffie & Beckman 4th ed. Example 2.19.1's
+    # months) raises the array-plane insolation of those months when the site leaves its
+    # albedo automatic; a value on the site wins.
+    from dataclasses import replace
+
+    from offgrid.project.model import ClimateChoice
+    from offgrid.sizing import design
+    from tests.conftest import hand_project
+
+    snow = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]
+    p = hand_project()
+    p.site.tilt_deg = 60.0
+    p.site.albedo = None
+    plain = design(p).site.poa_kwh_m2_day
+    p.climate = ClimateChoice(inline=replace(p.climate.inline, albedo=snow))
+    d = design(p)
+    snowy = d.site.poa_kwh_m2_day
+    assert snowy[0] > plain[0] and snowy[5] == pytest.approx(plain[5])
+    assert "0.7 Jan-Feb" in dict(d.reasons["site.poa_kwh_m2_day"].inputs)["albedo"]
+    p.site.albedo = 0.2
+    assert design(p).site.poa_kwh_m2_day[0] == pytest.approx(plain[0])
