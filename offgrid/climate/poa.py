@@ -213,7 +213,7 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
     if cap:
         ceiling = clearest_sky_ceiling(latitude_deg, tilt_deg, azimuth_deg, rho, elevation_m)
     capped = total > ceiling
-    scale = np.where(capped, ceiling / np.where(total > 0, total, 1.0), 1.0)
+    scale = np.divide(ceiling, total, out=np.ones_like(total), where=capped)
     return MonthlyPoa(
         poa_kwh_m2_day=total * scale,
         beam_kwh_m2_day=beam * scale,
