@@ -29,7 +29,7 @@ PROFILE_STEPS = 48
 
 
 def daily_poa_profile(horizontal_kwh_m2_day, poa_kwh_m2_day, latitude_deg: float,
-                      tilt_deg: float, azimuth_deg: float, albedo: float = 0.2,
+                      tilt_deg: float, azimuth_deg: float, albedo=None,
                       steps: int = PROFILE_STEPS):
     """Plane-of-array irradiance over the mean day of each month.
 
@@ -72,7 +72,8 @@ def daily_poa_profile(horizontal_kwh_m2_day, poa_kwh_m2_day, latitude_deg: float
              + np.cos(d) * np.sin(phi) * np.sin(beta) * np.cos(gamma) * np.cos(w)
              + np.cos(d) * np.sin(beta) * np.sin(gamma) * np.sin(w))
     rb = np.where(cos_z > 1e-6, np.maximum(cos_t, 0.0) / np.where(cos_z > 1e-6, cos_z, 1.0), 0.0)
-    g = beam * rb + diff * (1 + np.cos(beta)) / 2 + glob * albedo * (1 - np.cos(beta)) / 2
+    rho = sky.monthly_albedo(albedo)[:, None]  # one value or twelve; None: 0.2
+    g = beam * rb + diff * (1 + np.cos(beta)) / 2 + glob * rho * (1 - np.cos(beta)) / 2
     total = (g * step_h[:, None]).sum(axis=1) / 1000.0
     scale = np.divide(target, total, out=np.zeros_like(target), where=total > 1e-9)
     return g * scale[:, None], step_h

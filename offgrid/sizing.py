@@ -123,6 +123,8 @@ def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
 
     site = project.site
     lat = site.latitude_deg
+    # the site's reflectance wins; else the climate file's; else 0.2 (one value or twelve)
+    albedo = site.albedo if site.albedo is not None else getattr(climate, "albedo", None)
     azimuth = site.azimuth_deg if site.azimuth_deg is not None else sky.equator_facing_azimuth(lat)
     book.add("site.azimuth_deg", "equator-facing unless set (clockwise from north)",
              "common practice, no source", azimuth=fmt(azimuth, "deg"))
@@ -130,7 +132,7 @@ def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
     tilt = site.tilt_deg
     if tilt is None:
         choice = best_tilt(climate.insolation_kwh_m2_day, lat, azimuth, demand_wh_day,
-                           site.albedo, project.choices.min_tilt_deg, horizon=horizon,
+                           albedo, project.choices.min_tilt_deg, horizon=horizon,
                            longitude_deg=site.longitude_deg, elevation_m=site.elevation_m)
         tilt = choice.tilt_deg
         book.add("site.tilt_deg", TILT_FORMULA, TILT_SOURCE, **tilt_reason_inputs(choice))
@@ -139,15 +141,35 @@ def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
                                   "site.tilt_deg"))
     else:
         book.add("site.tilt_deg", "set by the user", "project file", tilt=fmt(tilt, "deg"))
-    res = poa_monthly(climate.insolation_kwh_m2_day, lat, tilt, azimuth, site.albedo,
+    res = poa_monthly(climate.insolation_kwh_m2_day, lat, tilt, azimuth, albedo,
                       horizon=horizon, longitude_deg=site.longitude_deg,
                       elevation_m=site.elevation_m)
     inputs = {"tilt": fmt(tilt, "deg"), "azimuth": fmt(azimuth, "deg"),
-              "albedo": fmt(site.albedo), "latitude": fmt(lat, "deg")}
+              "albedo": (fmt(float(res.albedo[0])) if np.all(res.albedo == res.albedo[0])
+                         else sky.describe_albedo(albedo)),
+              "latitude": fmt(lat, "deg")}
     formula = ("H (1 - Hd/H) Rb + Hd (1 + cos tilt)/2 + H albedo (1 - cos tilt)/2 on Klein's "
                "mean day of each month; Hd/H from the Erbs monthly correlation")
     source = ("Liu & Jordan (1962) isotropic sky with Klein (1977) Rb; Erbs, Klein & Duffie "
               "(1982); Duffie & Beckman 4th ed. sec. 2.19")
+    if res.capped is not None and res.capped.any():
+        from offgrid.climate.checks import MONTHS
+
+        held = [m for m in range(12) if res.capped[m]]
+        formula += ("; held at the clearest-sky insolation on the plane in "
+                    + ", ".join(MONTHS[m] for m in held))
+        source += ("; ceiling: Ineichen & Perez (2002) clear sky at the Linke turbidity of "
+                   "Ineichen (2008) with no aerosol and 0.2 cm water vapour")
+        if notices is not None:
+            notices.append(Notice(
+                "poa-capped", "In " + ", ".join(
+                    f"{MONTHS[m]} ({res.uncapped_kwh_m2_day[m]:.2f} -> "
+                    f"{res.poa_kwh_m2_day[m]:.2f} kWh/m2/day)" for m in held)
+                + " the monthly transposition gave more sun on the array than cloudless days "
+                "in the clearest plausible air could bring to it (the noon sun is low over the "
+                "horizon); the array-plane value is held at that ceiling. Treat these months "
+                "as uncertain and confirm them with measured or hourly data.",
+                "warning", "site.poa_kwh_m2_day"))
     if horizon:
         lost = float((res.beam_lost_kwh_m2_day * sky.DAYS_IN_MONTH).sum())
         total = float(((res.poa_kwh_m2_day + res.beam_lost_kwh_m2_day)

@@ -137,3 +137,27 @@ def test_tilt_with_demand(capsys):
     assert code == 0 and "azimuth 0" in out and "worst month" in out and _fits(out)
     code, _, err = run(capsys, "climate", "tilt", "tarn-station-demo", "--demand", "1 2 3")
     assert code == 2 and "give 12 values" in err
+
+
+def test_check_flags_the_low_sun_month_and_not_a_sahel_january(capsys):
+    # 64 N, December 0.1 kWh/m2/day on a 60-degree plane: multiplied about sixteen-fold
+    # by the monthly method (tests/test_sky_albedo.py).
+    code, out, _ = run(capsys, "climate", "check", "--values",
+                       "0.3 1.0 2.4 4.0 5.0 5.5 5.0 3.8 2.2 1.0 0.3 0.1", "--lat", "64",
+                       "--tilt", "60")
+    assert "[low-sun-transposition] sunshine on the horizontal in Dec" in out and _fits(out)
+    # a dry-season January of 5.6 at 12 N is ordinary (once flagged against 5.09)
+    code, out, _ = run(capsys, "climate", "check", "--values",
+                       "5.6 6.2 6.6 6.6 6.4 6.0 5.5 5.3 5.7 6.0 5.9 5.5", "--lat", "12.4",
+                       "--lon", "-1.5", "--elevation", "300")
+    assert code == 0 and "nothing to report" in out
+
+
+def test_show_takes_twelve_reflectances_and_refuses_eleven(capsys):
+    snow = "0.7 0.7 0.4 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.4"
+    code, out, _ = run(capsys, "climate", "show", "greensboro-nc-tmy3", "--tilt", "60",
+                       "--albedo", snow)
+    assert code == 0 and "POA" in out
+    code, _, err = run(capsys, "climate", "show", "greensboro-nc-tmy3", "--albedo",
+                       " ".join(["0.2"] * 11))
+    assert code == 2 and "--albedo" in err and "twelve" in err

@@ -88,3 +88,30 @@ def test_bundled_climates_are_what_the_script_makes():
         path = ROOT / "climates" / f"{stem}.toml"
         assert path.read_text(encoding="utf-8") == text, (
             f"{stem}: run `PYTHONPATH=. python scripts/make_climates.py`")
+
+
+SNOW = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]  # D&B Example 2.19.1
+
+
+@pytest.mark.parametrize("albedo", [0.25, SNOW])
+def test_albedo_in_a_climate_file_round_trips(tmp_path, albedo):
+    from dataclasses import replace
+
+    c = replace(_climate(daily=False), albedo=albedo)
+    path = save_climate(c, tmp_path / "c.toml", name="Test")
+    assert load_climate(str(path)).albedo == albedo
+    assert "albedo = " in path.read_text()
+
+
+@pytest.mark.parametrize(("albedo", "where"), [
+    ([0.2] * 5, "climate.monthly.albedo"),
+    ([*SNOW[:11], 1.2], r"climate.monthly.albedo\[12\]"),
+    ("snow", "climate.monthly.albedo"),
+])
+def test_bad_albedo_in_a_climate_file_names_the_field(albedo, where):
+    from offgrid.climate.files import climate_to_dict
+
+    body = climate_to_dict(_climate(daily=False))
+    body["monthly"]["albedo"] = albedo
+    with pytest.raises(ClimateFileError, match=where):
+        climate_from_dict(body)

@@ -82,3 +82,49 @@ def test_horizon_survives_the_project_file_and_is_validated():
                                                                      (180.0, 95.0)]))
     with pytest.raises(ProjectFileError, match=r"site\.horizon_deg: point 2: elevation 95"):
         loads_project(bad)
+
+
+def test_climate_albedo_used_unless_the_site_sets_one():
+    # A snow-month reflectance in the climate (Duffie & Beckman 4th ed. Example 2.19.1's
+    # months) raises the array-plane insolation of those months when the site leaves its
+    # albedo automatic; a value on the site wins.
+    from dataclasses import replace
+
+    from offgrid.project.model import ClimateChoice
+    from offgrid.sizing import design
+    from tests.conftest import hand_project
+
+    snow = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]
+    p = hand_project()
+    p.site.tilt_deg = 60.0
+    p.site.albedo = None
+    plain = design(p).site.poa_kwh_m2_day
+    p.climate = ClimateChoice(inline=replace(p.climate.inline, albedo=snow))
+    d = design(p)
+    snowy = d.site.poa_kwh_m2_day
+    assert snowy[0] > plain[0] and snowy[5] == pytest.approx(plain[5])
+    assert "0.7 Jan-Feb" in dict(d.reasons["site.poa_kwh_m2_day"].inputs)["albedo"]
+    p.site.albedo = 0.2
+    assert design(p).site.poa_kwh_m2_day[0] == pytest.approx(plain[0])
+
+
+def test_low_sun_month_capped_in_the_design_with_a_warning():
+    # 64 N with 0.1 kWh/m2/day in December (invented): the array-plane value is held at the
+    # clearest-sky ceiling on the plane (tests/test_sky_albedo.py) and the design says so.
+    from dataclasses import replace
+
+    from offgrid.climate.poa import clearest_sky_ceiling
+    from tests.conftest import hand_project
+
+    p = hand_project()
+    p.site.latitude_deg = 64.0
+    p.site.tilt_deg = 60.0
+    p.climate = ClimateChoice(inline=replace(
+        p.climate.inline, insolation_kwh_m2_day=[0.3, 1.0, 2.4, 4.0, 5.0, 5.5, 5.0, 3.8, 2.2,
+                                                 1.0, 0.3, 0.1]))
+    d = design(p)
+    ceiling = clearest_sky_ceiling(64.0, 60.0, 180.0, None, p.site.elevation_m)
+    assert d.site.poa_kwh_m2_day[11] == pytest.approx(ceiling[11])
+    notice = next(n for n in d.warnings if n.code == "poa-capped")
+    assert "Dec" in notice.message and notice.severity == "warning"
+    assert "held at the clearest-sky" in d.reasons["site.poa_kwh_m2_day"].formula

@@ -167,7 +167,11 @@ def projects(draw) -> Project:
     p.wiring.units = draw(st.sampled_from(("awg", "mm2")))
     p.wiring.material = draw(st.sampled_from(("copper", "aluminium")))
     p.wiring.insulation_temp_c = draw(st.sampled_from((60, 75, 90)))
+    reflectance = st.one_of(st.none(), st.floats(0.0, 1.0, **finite),
+                            st.lists(st.floats(0.0, 1.0, **finite), min_size=12, max_size=12))
+    p.site.albedo = draw(reflectance)  # one value, twelve (snow months) or automatic
     p.climate = ClimateChoice(inline=draw(climates(p.site.latitude_deg)))
+    p.climate.inline.albedo = draw(reflectance)
     p.loads = draw(loads())
     if draw(st.booleans()):
         p.wiring.dc_load_runs_m = {p.loads[0].name: draw(st.floats(0.1, 1000.0, **finite))}

@@ -92,7 +92,9 @@ def test_every_problem_is_reported_with_its_load_line():
 
 
 def test_wrong_type_and_unknown_field():
-    text = dumps_project(hand_project()).replace("albedo = 0.2", 'albedo = "high"\ncolour = 3')
+    project = hand_project()
+    project.site.albedo = 0.2
+    text = dumps_project(project).replace("albedo = 0.2", 'albedo = "high"\ncolour = 3')
     with pytest.raises(ProjectFileError) as exc:
         loads_project(text)
     paths = {p.path for p in exc.value.problems}
@@ -133,3 +135,32 @@ def test_names_with_markup_and_escape_sequences_are_saved_unchanged(tmp_path):
 def test_saved_file_keeps_short_arrays_on_one_line():
     text = dumps_project(hand_project())
     assert "insolation_kwh_m2_day = [5.0, 5.0," in text
+
+
+@pytest.mark.parametrize(("typed", "value"), [
+    ("albedo = 0.3", 0.3),
+    ("albedo = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]",
+     [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]),
+])
+def test_albedo_one_value_or_twelve_round_trips(typed, value):
+    project = hand_project()
+    project.site.albedo = 0.2
+    text = dumps_project(project).replace("albedo = 0.2", typed)
+    loaded = loads_project(text)
+    assert loaded.site.albedo == value
+    assert loads_project(dumps_project(loaded)).site.albedo == value
+
+
+@pytest.mark.parametrize(("typed", "path"), [
+    ("albedo = [0.2, 0.2, 0.2]", "site.albedo"),
+    ("albedo = [0.7, 0.7, 1.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]", "site.albedo[3]"),
+    ("albedo = -0.1", "site.albedo"),
+])
+def test_bad_albedo_names_the_field(typed, path):
+    project = hand_project()
+    project.site.albedo = 0.2
+    text = dumps_project(project).replace("albedo = 0.2", typed)
+    with pytest.raises(ProjectFileError) as exc:
+        loads_project(text)
+    problem = next(p for p in exc.value.problems if p.path == path)
+    assert "ground reflectance" in problem.message and problem.line is not None

@@ -10,8 +10,15 @@ implausible numbers: the person decides.  Checks:
   KT > 1 is impossible; above 0.8 is clearer than monthly means observed
   (from memory: the Erbs et al. (1982) monthly correlation was fitted on
   0.3 <= KT <= 0.8); below 0.3 the diffuse-fraction correlation extrapolates;
-* above pvlib's Ineichen clear-sky day with the shipped Linke turbidity
-  table (offline);
+* above the clearest plausible sky: cloudless days every day of the month in
+  the cleanest air the site can have (Ineichen-Perez clear sky at the Linke
+  turbidity of Ineichen's (2008) conversion with no aerosol and 0.2 cm of
+  water vapour, about 1.6; :mod:`offgrid.climate.clearsky`).  The
+  climatological turbidity table is a monthly mean and flagged ordinary months
+  (a Sahel January of 5.6 kWh/m2/day); this ceiling flags only values no sky
+  can give;
+* months of a very low sun where the monthly transposition multiplies a tiny
+  horizontal value many times over (:func:`check_transposition`);
 * unit slips: MJ/m2, kJ/m2, Wh/m2, J/cm2 or langleys instead of kWh/m2; monthly
   totals instead of daily means; 24-hour mean irradiance in W/m2.  A slip is
   reported with every conversion that makes the table physical, best first;
@@ -37,6 +44,10 @@ KT_LOW = 0.30  # Erbs et al. (1982) fitted range lower end
 KT_IMPLAUSIBLY_LOW = 0.10  # common practice, no source: a monthly mean this dull is a slip
 TYPICAL_KT = (0.3, 0.75)  # a converted table must look ordinary: common practice, no source
 CLEAR_SKY_MARGIN_KWH = 0.05  # rounding of typed values, kWh/m2/day (our choice)
+#: The quantity in words, for messages (the file key is in ``Finding.field``).
+SUN_WORDS = "sunshine on the horizontal"
+TINY_HORIZONTAL_KWH = 0.5  # a "tiny" monthly mean, kWh/m2/day (our choice)
+HUGE_TRANSPOSITION = 10.0  # plane over horizontal beyond which a month is flagged (our choice)
 LOWEST_LAND_M = -430.0  # Dead Sea shore, about 430 m below sea level (from memory)
 HIGHEST_LAND_M = 8850.0  # Everest summit, about 8849 m (from memory)
 
@@ -164,8 +175,8 @@ def check_insolation(values: Sequence[float], latitude_deg: float,
                      clear_sky: bool = True) -> list[Finding]:
     """Check twelve monthly mean daily horizontal insolation values [kWh/m2/day].
 
-    ``clear_sky`` compares with pvlib's Ineichen clear sky (needs the longitude
-    for the Linke turbidity table; about 20 ms once pvlib is imported).
+    ``clear_sky`` compares with the clearest plausible sky (numpy, a few ms;
+    the longitude is not needed and kept for the callers).
     """
     field = "insolation_kwh_m2_day"
     loc = check_location(latitude_deg, longitude_deg, elevation_m)
@@ -178,14 +189,20 @@ def check_insolation(values: Sequence[float], latitude_deg: float,
     kt = np.divide(h, h0, out=np.full(12, np.inf), where=h0 > 1e-6)
     kt = np.where((h0 <= 1e-6) & (h <= 1e-9), 0.0, kt)
     ceiling = None
-    if clear_sky and longitude_deg is not None:
-        from offgrid.climate.clearsky import clear_sky_daily_ineichen
+    if clear_sky:
+        from offgrid.climate.clearsky import (
+            CEILING_MODEL_MARGIN,
+            clearest_linke_turbidity,
+            clearest_sky_horizontal_kwh_m2,
+        )
 
-        ceiling = clear_sky_daily_ineichen(latitude_deg, longitude_deg, elevation_m)
+        clearest = clearest_sky_horizontal_kwh_m2(latitude_deg, elevation_m)
+        ceiling = clearest * (1.0 + CEILING_MODEL_MARGIN)
+        linke = clearest_linke_turbidity(elevation_m)
     negative = [m for m in range(12) if h[m] < 0]
     for m in negative:
-        found.append(Finding("negative", f"{field} {MONTHS[m]}: {h[m]:g} is negative", "error",
-                             field, m + 1))
+        found.append(Finding("negative", f"{SUN_WORDS} in {MONTHS[m]}: {h[m]:g} is negative",
+                             "error", field, m + 1))
     if negative:
         return found
     # Unit slips: the table as typed is not physical but a conversion makes it so.
@@ -205,7 +222,7 @@ def check_insolation(values: Sequence[float], latitude_deg: float,
             units = " or ".join(f.unit for _, f in fixes)
             found.append(Finding(
                 "unit-slip",
-                f"{field}: these values look like {units}, not kWh/m2/day "
+                f"{SUN_WORDS}: these values look like {units}, not kWh/m2/day "
                 f"({fixes[0][1].label})",
                 "error", field, None, tuple(f for _, f in fixes)))
             return found
@@ -214,39 +231,74 @@ def check_insolation(values: Sequence[float], latitude_deg: float,
         name = MONTHS[m]
         if h0[m] <= 1e-6:
             if h[m] > 1e-9:
-                found.append(Finding("polar-night", f"{field} {name}: {h[m]:g} kWh/m2/day but "
-                                     "the sun does not rise in this month at this latitude",
+                found.append(Finding("polar-night", f"{SUN_WORDS} in {name}: {h[m]:g} kWh/m2/day "
+                                     "but the sun does not rise in this month at this latitude",
                                      "error", field, m + 1))
             continue
         if kt[m] > KT_MAX_PHYSICAL:
             found.append(Finding(
                 "above-extraterrestrial",
-                f"{field} {name}: {h[m]:.2f} kWh/m2/day is more than reaches the top of the "
+                f"{SUN_WORDS} in {name}: {h[m]:.2f} kWh/m2/day is more than reaches the top of the "
                 f"atmosphere ({h0[m]:.2f}); clearness index {kt[m]:.2f}", "error", field, m + 1))
         elif round(kt[m], 2) > KT_HIGH:
             found.append(Finding(
-                "kt-high", f"{field} {name}: clearness index {kt[m]:.2f} is above {KT_HIGH}, "
-                "clearer than monthly means are observed; check the value", "warning", field,
-                m + 1))
+                "kt-high", f"{SUN_WORDS} in {name}: clearness index {kt[m]:.2f} is above "
+                f"{KT_HIGH}, clearer than monthly means are observed; check the value",
+                "warning", field, m + 1))
         elif round(kt[m], 2) < KT_IMPLAUSIBLY_LOW and h0[m] > 0.5:
             found.append(Finding(
-                "kt-very-low", f"{field} {name}: clearness index {kt[m]:.2f} is below "
+                "kt-very-low", f"{SUN_WORDS} in {name}: clearness index {kt[m]:.2f} is below "
                 f"{KT_IMPLAUSIBLY_LOW}; check the value and the unit", "warning", field, m + 1))
         elif round(kt[m], 2) < KT_LOW and h0[m] > 0.5:
             found.append(Finding(
-                "kt-low", f"{field} {name}: clearness index {kt[m]:.2f} is below {KT_LOW}, "
+                "kt-low", f"{SUN_WORDS} in {name}: clearness index {kt[m]:.2f} is below {KT_LOW}, "
                 "outside the fitted range of the monthly diffuse correlation (Erbs et al. "
                 "1982); the plane-of-array estimate is less certain", "info", field, m + 1))
         if (ceiling is not None and kt[m] <= KT_MAX_PHYSICAL
                 and h[m] > ceiling[m] + CLEAR_SKY_MARGIN_KWH):
             found.append(Finding(
                 "above-clear-sky",
-                f"{field} {name}: {h[m]:.2f} kWh/m2/day is above the clear-sky estimate "
-                f"({ceiling[m]:.2f}, Ineichen with the Linke turbidity table) for every day "
-                "of the month; check the value", "warning", field, m + 1))
-    if ceiling is None and clear_sky:
-        found.append(Finding("no-clear-sky", "no longitude given: the clear-sky comparison "
-                             "was skipped", "info", field))
+                f"{SUN_WORDS} in {name}: {h[m]:.2f} kWh/m2/day is more than a cloudless sky "
+                f"on every day of the month in the clearest plausible air would give "
+                f"({clearest[m]:.2f}; Ineichen-Perez clear sky, Linke turbidity {linke:.1f}); "
+                "check the value", "warning", field, m + 1))
+    return found
+
+
+def check_transposition(values: Sequence[float], latitude_deg: float, tilt_deg: float,
+                        azimuth_deg: float | None = None, albedo=None,
+                        elevation_m: float = 0.0) -> list[Finding]:
+    """Months of a very low sun where the monthly method multiplies a tiny horizontal value.
+
+    Flags a month whose horizontal mean is below :data:`TINY_HORIZONTAL_KWH` while
+    the Liu-Jordan plane-of-array value is more than :data:`HUGE_TRANSPOSITION`
+    times it, or where the plane value had to be held at the clearest-sky
+    ceiling on the plane (:mod:`offgrid.climate.poa`).  ``tilt_deg`` is the
+    plane's tilt [deg]; the azimuth defaults to equator-facing.
+    """
+    from offgrid.climate.poa import poa_monthly
+
+    h, found = _twelve(values, "insolation_kwh_m2_day")
+    if h is None or np.any(h < 0):
+        return found
+    az = sky.equator_facing_azimuth(latitude_deg) if azimuth_deg is None else azimuth_deg
+    res = poa_monthly(h, latitude_deg, tilt_deg, az, albedo, elevation_m=elevation_m)
+    raw = res.uncapped_kwh_m2_day
+    factor = np.divide(raw, h, out=np.zeros(12), where=h > 1e-9)
+    for m in range(12):
+        tiny = 1e-9 < h[m] < TINY_HORIZONTAL_KWH and factor[m] > HUGE_TRANSPOSITION
+        if not (tiny or res.capped[m]):
+            continue
+        held = (f"; no sky can bring more than {res.ceiling_kwh_m2_day[m]:.2f} to that plane "
+                "(cloudless days in the clearest plausible air), so the array value is held "
+                "there" if res.capped[m] else "")
+        found.append(Finding(
+            "low-sun-transposition",
+            f"{SUN_WORDS} in {MONTHS[m]}: {h[m]:.2f} kWh/m2/day becomes {raw[m]:.2f} on a "
+            f"plane tilted {float(tilt_deg):g} deg (x{factor[m]:.1f}) by the monthly "
+            f"transposition, the noon sun low over the horizon{held}; treat this "
+            "month's array figure as uncertain and check it against measured or hourly "
+            "data", "warning", "insolation_kwh_m2_day", m + 1))
     return found
 
 
@@ -308,10 +360,13 @@ def check_temperatures(temp_mean_c: Sequence[float], temp_max_c: Sequence[float]
 
 def check_climate(climate, latitude_deg: float | None = None,
                   longitude_deg: float | None = None, elevation_m: float | None = None,
-                  clear_sky: bool = True) -> list[Finding]:
+                  clear_sky: bool = True, tilt_deg: float | None = None,
+                  azimuth_deg: float | None = None, albedo=None) -> list[Finding]:
     """All checks for a :class:`offgrid.project.model.MonthlyClimate`.
 
-    The site's coordinates are used where given, else the climate's own.
+    The site's coordinates are used where given, else the climate's own.  The
+    low-sun transposition check uses ``tilt_deg`` (default: the latitude, at
+    least 10 degrees) and ``albedo`` (default: the climate's own, else 0.2).
     """
     lat = climate.latitude_deg if latitude_deg is None else latitude_deg
     lon = climate.longitude_deg if longitude_deg is None else longitude_deg
@@ -321,8 +376,14 @@ def check_climate(climate, latitude_deg: float | None = None,
         found.append(Finding("no-latitude", "latitude_deg: not given, so the insolation cannot "
                              "be checked against the sun's geometry", "warning", "latitude_deg"))
     else:
-        found += check_insolation(climate.insolation_kwh_m2_day, lat, lon,
-                                  0.0 if elev is None else elev, clear_sky=clear_sky)
+        sun = check_insolation(climate.insolation_kwh_m2_day, lat, lon,
+                               0.0 if elev is None else elev, clear_sky=clear_sky)
+        found += sun
+        if worst_severity(sun) != "error":
+            tilt = max(abs(lat), 10.0) if tilt_deg is None else tilt_deg
+            rho = getattr(climate, "albedo", None) if albedo is None else albedo
+            found += check_transposition(climate.insolation_kwh_m2_day, lat, tilt, azimuth_deg,
+                                         rho, 0.0 if elev is None else elev)
     found += check_temperatures(climate.temp_mean_c, climate.temp_max_c, climate.temp_min_c,
                                 climate.record_low_c)
     return found

@@ -17,6 +17,7 @@ Format (schema 1)::
     temp_mean_c = [...]
     temp_max_c = [...]          # mean daily maximum
     temp_min_c = [...]          # mean daily minimum
+    albedo = 0.2                # optional ground reflectance: one value or twelve (snow)
 
     [daily]                     # optional: one value per day of a 365-day year
     insolation_kwh_m2_day = [...]   # daily global horizontal, 1 January first
@@ -98,6 +99,20 @@ def _twelve(table: dict, key: str, where: str, required: bool = True) -> list[fl
     return out
 
 
+def _albedo(table: dict, where: str) -> float | list[float] | None:
+    """The optional ground reflectance: one number or twelve (checked with the others)."""
+    if "albedo" not in table:
+        return None
+    value = table["albedo"]
+    if isinstance(value, list):
+        return [v if isinstance(v, bool) or not isinstance(v, int | float) else float(v)
+                for v in value]
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise ClimateFileError(f"{where}.albedo: '{value}' is not a number; give one ground "
+                               "reflectance (0-1) or twelve, January first")
+    return float(value)
+
+
 def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
     """Build a :class:`MonthlyClimate` from a parsed table (file body or inline project table)."""
     monthly = data.get("monthly", data)
@@ -115,6 +130,7 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
         longitude_deg=_number(data, "longitude_deg", where),
         elevation_m=_number(data, "elevation_m", where),
         demo=bool(data.get("demo", False)),
+        albedo=_albedo(monthly, sub),
     )
     problems = monthly_climate_problems(climate, where, sub)
     if problems:
@@ -148,6 +164,8 @@ def monthly_climate_problems(climate: MonthlyClimate, where: str = "climate",
     """Every problem with a climate table as (dotted path, message with the fix)."""
     import math
 
+    from offgrid.climate.sky import albedo_problems
+
     sub = sub or f"{where}.monthly"
     out: list[tuple[str, str]] = []
     for key, (lo, hi, unit, hint) in MONTHLY_BOUNDS.items():
@@ -165,6 +183,7 @@ def monthly_climate_problems(climate: MonthlyClimate, where: str = "climate",
             elif not lo <= v <= hi:
                 out.append((f"{sub}.{key}[{i}]", f"{v:g} is outside {_span(lo, hi)} "
                                                  f"{unit}{hint}"))
+    out.extend(albedo_problems(getattr(climate, "albedo", None), f"{sub}.albedo"))
     if out:
         return out
     mean = climate.temp_mean_c
@@ -264,6 +283,9 @@ def climate_to_dict(climate: MonthlyClimate, name: str = "", include_daily: bool
         value = getattr(climate, key)
         if value is not None:
             monthly[key] = list(value)
+    if climate.albedo is not None:
+        monthly["albedo"] = (list(climate.albedo) if isinstance(climate.albedo, list | tuple)
+                             else climate.albedo)
     body["monthly"] = monthly
     if include_daily and climate.daily is not None:
         body["daily"] = {key: list(getattr(climate.daily, key)) for key in DAILY_KEYS}
@@ -304,6 +326,9 @@ def dumps_climate(climate: MonthlyClimate, name: str = "") -> str:
     monthly = body.pop("monthly")
     text = dumps(body) + "\n[monthly]\n"
     for key, values in monthly.items():
+        if not isinstance(values, list):
+            text += f"{key} = {values:g}\n"
+            continue
         text += f"{key} = [{', '.join(f'{v:g}' for v in values)}]\n"
     if climate.daily is not None:
         text += _daily_text(climate.daily)

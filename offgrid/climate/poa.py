@@ -7,6 +7,16 @@ candidate tilts (for the tilt search), split into its beam, sky-diffuse and
 ground-reflected parts, and optionally shaded by a horizon profile
 (:mod:`offgrid.climate.horizon`).
 
+The ground reflectance may differ by month (snow).  In months of a very low sun
+the monthly method can multiply a tiny horizontal value many times over (Klein's
+Rb grows without bound as the noon sun nears the horizon, while the Erbs diffuse
+fraction knows nothing of the air mass): the result is then held at the
+insolation that cloudless days in the clearest plausible air would bring to the
+same plane (:func:`offgrid.climate.clearsky.clearest_sky_plane_kwh_m2`).  The
+extraterrestrial insolation on the plane would not do: it has no atmosphere, so
+at a sun two degrees high it still allows the whole beam, many times what
+reaches the ground through 20 air masses.
+
 References
 ----------
 .. [1] Duffie, J. A. and Beckman, W. A., Solar Engineering of Thermal Processes,
@@ -19,6 +29,7 @@ References
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -87,6 +98,38 @@ def beam_ratio_rb_klein(latitude_deg: float, tilt_deg, azimuth_deg: float):
     return rb[0] if tilt.ndim == 0 else rb
 
 
+_CEILING_NODES_DEG = np.arange(0.0, 90.0 + 1e-9, 5.0)
+
+
+@functools.lru_cache(maxsize=32)
+def _ceiling_table(latitude_deg: float, azimuth_deg: float, rho: tuple[float, ...],
+                   elevation_m: float) -> np.ndarray:
+    from offgrid.climate.clearsky import CEILING_MODEL_MARGIN, clearest_sky_plane_kwh_m2
+
+    table = clearest_sky_plane_kwh_m2(latitude_deg, _CEILING_NODES_DEG, azimuth_deg,
+                                      np.asarray(rho), elevation_m, every_other_day=True)
+    table = table * (1.0 + CEILING_MODEL_MARGIN)
+    table.setflags(write=False)
+    return table  # (nodes, 12)
+
+
+def clearest_sky_ceiling(latitude_deg: float, tilt_deg, azimuth_deg: float, albedo=None,
+                         elevation_m: float = 0.0) -> np.ndarray:
+    """The plane-of-array ceiling [kWh/m2/day]: cloudless days in the clearest plausible air
+    on the plane (:func:`offgrid.climate.clearsky.clearest_sky_plane_kwh_m2`) plus the
+    model margin, computed every 5 degrees of tilt once per site and interpolated.
+    Shape (12,) for a scalar tilt, (T, 12) for T tilts."""
+    rho = tuple(float(x) for x in sky.monthly_albedo(albedo))
+    table = _ceiling_table(float(latitude_deg), float(azimuth_deg), rho, float(elevation_m))
+    tilt = np.asarray(tilt_deg, dtype=float)
+    t = np.atleast_1d(tilt)
+    idx = np.clip(np.searchsorted(_CEILING_NODES_DEG, t, side="right") - 1, 0,
+                  _CEILING_NODES_DEG.size - 2)
+    frac = ((t - _CEILING_NODES_DEG[idx]) / 5.0)[:, None]
+    out = table[idx] * (1.0 - frac) + table[idx + 1] * frac
+    return out[0] if tilt.ndim == 0 else out
+
+
 @dataclass(frozen=True)
 class MonthlyPoa:
     """Monthly mean daily insolation on the plane [kWh/m2/day] and its parts.
@@ -103,16 +146,24 @@ class MonthlyPoa:
     horizon_factor: np.ndarray
     kt: np.ndarray  # (12,)
     diffuse_fraction: np.ndarray  # (12,)
+    #: the clearest-sky ceiling of each month (inf where it cannot bind), where it bound,
+    #: the plane's insolation before the cap, and the ground reflectance of each month
+    ceiling_kwh_m2_day: np.ndarray | None = None
+    capped: np.ndarray | None = None
+    uncapped_kwh_m2_day: np.ndarray | None = None
+    albedo: np.ndarray | None = None
 
 
 def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_deg: float,
-                albedo: float = 0.2, horizon=None, longitude_deg: float = 0.0,
-                elevation_m: float = 0.0, sun=None) -> MonthlyPoa:
+                albedo=sky.DEFAULT_ALBEDO, horizon=None, longitude_deg: float = 0.0,
+                elevation_m: float = 0.0, sun=None, cap: bool = True) -> MonthlyPoa:
     """Monthly plane-of-array insolation, Liu-Jordan with Klein's Rb [1]_ [2]_ [3]_.
 
     HT = Hb Rb f_h + Hd (1 + cos b)/2 + H rho (1 - cos b)/2, where Hd = H x
     (Erbs monthly diffuse fraction), Hb = H - Hd and f_h the share of the
     plane's beam that the horizon profile leaves (1 without a profile).
+    With ``cap``, HT is held at the clearest-sky insolation on the same plane
+    (module docstring); the three parts are scaled alike.
 
     Parameters
     ----------
@@ -124,8 +175,9 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
         Plane tilt from horizontal [deg].
     azimuth_deg : float
         Direction the plane faces [deg], clockwise from north.
-    albedo : float
-        Ground reflectance [-].
+    albedo : float or 12 floats, optional
+        Ground reflectance [-], one value or twelve January first (snow months);
+        None: 0.2.
     horizon : list of (azimuth_deg, elevation_deg), optional
         Horizon profile; needs ``longitude_deg`` and ``elevation_m`` for the sun positions.
     sun : dict, optional
@@ -137,8 +189,7 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
     if not np.all(np.isfinite(h)) or np.any(h < 0):
         raise ValueError("climate.insolation_kwh_m2_day: values must be finite and not negative")
     check_site_angles(latitude_deg, tilt_deg, azimuth_deg)
-    if not 0.0 <= albedo <= 1.0:
-        raise ValueError(f"site.albedo: {albedo} is outside 0-1 (fresh snow about 0.8)")
+    rho = sky.monthly_albedo(albedo)
     ws = sky.sunset_hour_angle(latitude_deg, sky.declination_cooper69(sky.KLEIN_MEAN_DAY))
     kt = sky.clearness_index(h, latitude_deg)
     fd = sky.erbs_monthly_diffuse_fraction(kt, ws)
@@ -155,15 +206,26 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
     beam_open = h * (1 - fd) * rb
     beam = beam_open * factor
     diffuse = h * fd * (1 + np.cos(b)) / 2 + 0 * rb
-    reflected = h * albedo * (1 - np.cos(b)) / 2 + 0 * rb
+    reflected = h * rho * (1 - np.cos(b)) / 2 + 0 * rb
+    total = beam + diffuse + reflected
+    lost = beam_open - beam
+    ceiling = np.full_like(total, np.inf)
+    if cap:
+        ceiling = clearest_sky_ceiling(latitude_deg, tilt_deg, azimuth_deg, rho, elevation_m)
+    capped = total > ceiling
+    scale = np.divide(ceiling, total, out=np.ones_like(total), where=capped)
     return MonthlyPoa(
-        poa_kwh_m2_day=beam + diffuse + reflected,
-        beam_kwh_m2_day=beam,
-        diffuse_kwh_m2_day=diffuse,
-        reflected_kwh_m2_day=reflected,
-        beam_lost_kwh_m2_day=beam_open - beam,
+        poa_kwh_m2_day=total * scale,
+        beam_kwh_m2_day=beam * scale,
+        diffuse_kwh_m2_day=diffuse * scale,
+        reflected_kwh_m2_day=reflected * scale,
+        beam_lost_kwh_m2_day=lost * scale,
         rb=rb,
         horizon_factor=factor,
         kt=kt,
         diffuse_fraction=fd,
+        ceiling_kwh_m2_day=ceiling,
+        capped=capped,
+        uncapped_kwh_m2_day=total,
+        albedo=rho,
     )

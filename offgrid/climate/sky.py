@@ -27,6 +27,68 @@ SOLAR_CONSTANT_W_M2 = 1367.0  # Duffie & Beckman [1] sec. 1.2
 KLEIN_MEAN_DAY = np.array([17, 47, 75, 105, 135, 162, 198, 228, 258, 288, 318, 344])
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31])
 _DAY_STEPS = 721  # hour-angle steps across one day for the numerical Rb
+DEFAULT_ALBEDO = 0.2  # grass or bare soil (common practice, no source)
+ALBEDO_HINT = ("ground reflectance, a fraction 0-1: one value for the year or twelve, January "
+               "first (0.2 grass or soil; fresh snow about 0.7-0.8)")
+
+
+def albedo_problems(value, path: str = "site.albedo") -> list[tuple[str, str]]:
+    """Problems with a ground reflectance as (dotted path, message with the fix).
+
+    ``value`` is one number for every month or a list of twelve, January first;
+    ``None`` (not given) is fine.  Plain Python, no numpy: shared by the project
+    validation, the climate files and the engine.
+    """
+    import math
+
+    if value is None:
+        return []
+    if isinstance(value, list | tuple):
+        if len(value) not in (1, 12):
+            return [(path, f"has {len(value)} values; give one for the year or twelve, "
+                           "January first (ground reflectance, 0-1)")]
+        items = [(f"{path}[{i}]", v) for i, v in enumerate(value, start=1)]
+    else:
+        items = [(path, value)]
+    out = []
+    for where, v in items:
+        if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+            out.append((where, f"'{v}' is not a number; {ALBEDO_HINT}"))
+        elif not 0.0 <= v <= 1.0:
+            out.append((where, f"{v:g} is outside 0-1; {ALBEDO_HINT}"))
+    return out
+
+
+def monthly_albedo(albedo=None, path: str = "site.albedo") -> np.ndarray:
+    """Ground reflectance of each month, shape (12,) [-].
+
+    ``albedo``: ``None`` (the default 0.2), one number, or twelve values
+    January first (snow months).  ValueError naming ``path`` when out of range.
+    """
+    if albedo is None:
+        return np.full(12, DEFAULT_ALBEDO)
+    if isinstance(albedo, np.ndarray):
+        albedo = albedo.tolist()
+    problems = albedo_problems(albedo, path)
+    if problems:
+        where, message = problems[0]
+        raise ValueError(f"{where}: {message}")
+    return np.broadcast_to(np.asarray(albedo, dtype=float), (12,)).copy()
+
+
+def describe_albedo(albedo) -> str:
+    """Short text of a reflectance: ``0.2``, or ``0.7 Jan-Feb, 0.4 Mar, 0.2 Apr-Nov, 0.4 Dec``."""
+    values = monthly_albedo(albedo)
+    if np.all(values == values[0]):
+        return f"{values[0]:g}"
+    names = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+    runs, start = [], 0
+    for m in range(1, 13):
+        if m == 12 or values[m] != values[start]:
+            span = names[start] if m - 1 == start else f"{names[start]}-{names[m - 1]}"
+            runs.append(f"{values[start]:g} {span}")
+            start = m
+    return ", ".join(runs)
 
 
 def declination_cooper69(day_of_year):
@@ -127,7 +189,7 @@ def beam_ratio_rb(latitude_deg, tilt_deg, azimuth_deg, day_of_year=KLEIN_MEAN_DA
 
 
 def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg, tilt_deg, azimuth_deg,
-                           albedo=0.2):
+                           albedo=DEFAULT_ALBEDO):
     """Monthly mean daily plane-of-array insolation [kWh/m2/day].
 
     Liu and Jordan (1962) isotropic-sky transposition of monthly means with
@@ -136,9 +198,11 @@ def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg, tilt_deg, azimut
 
         HT = H (1 - Hd/H) Rb + Hd (1 + cos b) / 2 + H rho (1 - cos b) / 2
 
-    Returns a dict with ``poa``, ``kt``, ``diffuse_fraction``, ``rb`` (arrays of 12).
+    ``albedo`` is one reflectance or twelve (snow months).  Returns a dict with
+    ``poa``, ``kt``, ``diffuse_fraction``, ``rb`` (arrays of 12).
     """
     h = np.asarray(insolation_kwh_m2_day, dtype=float)
+    albedo = monthly_albedo(albedo)
     ws = sunset_hour_angle(latitude_deg, declination_cooper69(KLEIN_MEAN_DAY))
     kt = clearness_index(h, latitude_deg)
     fd = erbs_monthly_diffuse_fraction(kt, ws)

@@ -56,6 +56,9 @@ def register(sub) -> None:
     q.add_argument("--lat", type=float, help="latitude, degrees north")
     q.add_argument("--lon", type=float, help="longitude, degrees east")
     q.add_argument("--elevation", type=float, default=None, help="elevation, m")
+    q.add_argument("--tilt", type=float, default=None,
+                   help="array tilt for the low-sun check, degrees (default: the latitude, at "
+                        "least 10)")
     q.set_defaults(func=run_check)
 
     q = csub.add_parser("tilt", help="best tilt for the worst month and for the year",
@@ -79,12 +82,30 @@ def _geometry_args(q: argparse.ArgumentParser, tilt: bool = True) -> None:
     q.add_argument("--azimuth", type=float,
                    help="direction the plane faces, degrees clockwise from north "
                         "(default: towards the equator)")
-    q.add_argument("--albedo", type=float, default=0.2, help="ground reflectance (default 0.2)")
+    q.add_argument("--albedo", type=_albedo_arg, default=None, metavar="'R' or 'R1 ... R12'",
+                   help="ground reflectance, one value or twelve January first (default: the "
+                        "climate's own, else 0.2)")
     q.add_argument("--horizon", metavar="'AZ:EL ...'",
                    help="horizon profile, e.g. '90:15 135:8 180:5 270:12'")
 
 
 # ----------------------------------------------------------------------------- helpers
+
+
+def _albedo_arg(text: str) -> float | list[float]:
+    """--albedo: one reflectance or twelve, January first."""
+    from offgrid.climate.sky import albedo_problems
+
+    parts = text.replace(",", " ").replace(";", " ").split()
+    try:
+        values = [float(v) for v in parts]
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"'{text}' is not a number (or twelve)") from None
+    value: float | list[float] = values[0] if len(values) == 1 else values
+    problems = albedo_problems(value, "--albedo")
+    if problems:
+        raise argparse.ArgumentTypeError(f"{problems[0][0]}: {problems[0][1]}")
+    return value
 
 
 def _load(name: str):
@@ -233,7 +254,8 @@ def run_show(args) -> int:
         from offgrid.climate.checks import check_climate
 
         print()
-        print_findings(check_climate(climate))
+        print_findings(check_climate(climate, tilt_deg=getattr(args, "tilt", None),
+                                     albedo=args.albedo))
     return 0
 
 
@@ -246,10 +268,11 @@ def _show_plane(args, climate, h) -> str:
     lon = climate.longitude_deg or 0.0
     elev = climate.elevation_m or 0.0
     try:
-        choice = best_tilt(h, lat, args.azimuth, None, args.albedo, 10.0, horizon=horizon,
+        albedo = args.albedo if args.albedo is not None else getattr(climate, "albedo", None)
+        choice = best_tilt(h, lat, args.azimuth, None, albedo, 10.0, horizon=horizon,
                            longitude_deg=lon, elevation_m=elev)
         tilt = choice.tilt_deg if args.tilt is None else args.tilt
-        res = poa_monthly(h, lat, tilt, choice.azimuth_deg, args.albedo, horizon=horizon,
+        res = poa_monthly(h, lat, tilt, choice.azimuth_deg, albedo, horizon=horizon,
                           longitude_deg=lon, elevation_m=elev)
     except ValueError as exc:
         fail(_option_message(exc))
@@ -271,8 +294,9 @@ def run_tilt(args) -> int:
         fail(f"climate '{args.name}' has no latitude_deg")
     demand = _numbers(args.demand, "--demand") if args.demand else None
     try:
+        albedo = args.albedo if args.albedo is not None else getattr(climate, "albedo", None)
         c = best_tilt(climate.insolation_kwh_m2_day, climate.latitude_deg, args.azimuth, demand,
-                      args.albedo, args.min_tilt, horizon=_horizon(args),
+                      albedo, args.min_tilt, horizon=_horizon(args),
                       longitude_deg=climate.longitude_deg or 0.0,
                       elevation_m=climate.elevation_m or 0.0)
     except ValueError as exc:
@@ -294,6 +318,7 @@ def run_check(args) -> int:
     from offgrid.climate.checks import (
         check_climate,
         check_insolation,
+        check_transposition,
         convert_insolation,
         worst_severity,
     )
@@ -302,15 +327,20 @@ def run_check(args) -> int:
         if args.name:
             fail("give a climate NAME or --values, not both")
         if args.lat is None:
-            fail("--values needs --lat (and --lon for the clear-sky comparison)")
+            fail("--values needs --lat")
         try:
             values = convert_insolation(_numbers(args.values, "--values"), args.unit)
         except ValueError as exc:
             fail(str(exc))
         findings = check_insolation(values, args.lat, args.lon, args.elevation or 0.0)
+        if worst_severity(findings) != "error":
+            tilt = max(abs(args.lat), 10.0) if args.tilt is None else args.tilt
+            findings += check_transposition(values, args.lat, tilt, None, None,
+                                            args.elevation or 0.0)
     elif args.name:
         climate, _ = _load(args.name)
-        findings = check_climate(climate, args.lat, args.lon, args.elevation)
+        findings = check_climate(climate, args.lat, args.lon, args.elevation,
+                                 tilt_deg=args.tilt)
     else:
         fail("name a climate, or give --values with --lat")
     print_findings(findings)

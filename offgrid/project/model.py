@@ -37,7 +37,9 @@ class Site:
     elevation_m: float = 0.0
     tilt_deg: float | None = None  # None: equal to |latitude|, at least the self-cleaning minimum
     azimuth_deg: float | None = None  # None: equator-facing (180 north of equator, 0 south)
-    albedo: float = 0.2
+    # Ground reflectance: one value, twelve (January first: snow months), or None for the
+    # climate file's own, else 0.2.
+    albedo: float | list[float] | None = None
     battery_temp_c: float | None = None  # battery room temperature; None: site monthly mean
     # Battery room temperature in the warm season, for ageing (calendar life); None: each
     # month's mean air temperature (at least battery_temp_c when that is set).
@@ -62,6 +64,7 @@ class MonthlyClimate:
     elevation_m: float | None = None
     demo: bool = False
     daily: DailyClimate | None = None  # the daily series of an imported weather year, if any
+    albedo: float | list[float] | None = None  # ground reflectance: one value or twelve
 
 
 @dataclass

@@ -197,6 +197,11 @@ class _Reader:
                 if value in get_args(lit):
                     return value
             others = [a for a in options if get_origin(a) is not Literal]
+            if len(others) == 2 and {get_origin(a) for a in others} == {list, None}:
+                # one number or a list of them (site.albedo): pick by the value's shape
+                listed = next(a for a in others if get_origin(a) is list)
+                single = next(a for a in others if get_origin(a) is None)
+                return self.convert(listed if isinstance(value, list) else single, value, path)
             if len(others) == 1:
                 return self.convert(others[0], value, path)
             allowed = [v for lit in literal_opts for v in get_args(lit)]

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from offgrid.climate.sky import albedo_problems
 from offgrid.project.loads_csv import check_load
 from offgrid.project.model import Project
 
@@ -31,7 +32,6 @@ RANGES: tuple[tuple[str, float, float, str], ...] = (
     ("site.elevation_m", -430, 9000, "metres above sea level, -430 (Dead Sea shore) to 9000"),
     ("site.tilt_deg", 0, 90, "degrees from horizontal, 0-90, or leave it out for automatic"),
     ("site.azimuth_deg", 0, 360, "degrees clockwise from north (180 = south), or leave it out"),
-    ("site.albedo", 0, 1, "ground reflectance, a fraction 0-1 (0.2 for grass or soil)"),
     ("site.battery_temp_c", -40, 60, "the battery room's mean temperature in C"),
     ("site.battery_warm_temp_c", -40, 60, "the battery room's mean temperature in the warm "
                                           "season in C (for ageing), or leave it out"),
@@ -115,6 +115,8 @@ def validate_project(project: Project) -> list[Problem]:
             problems.append(Problem(path, f"'{value}' is not a number; {hint}"))
         elif not lo <= value <= hi:
             problems.append(Problem(path, f"{value:g} is out of range; {hint}"))
+    for path, message in albedo_problems(project.site.albedo, "site.albedo"):
+        problems.append(Problem(path, message))
     m = project.module
     if m.vmp_v >= m.voc_v:
         problems.append(Problem("module.vmp_v", f"Vmp {m.vmp_v:g} V must be below Voc "

@@ -1048,7 +1048,7 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
                               f"efficiency {cs.efficiency:.0%}"),
         ("Inverter", f"efficiency {inv.efficiency:.0%}, idle {inv.self_consumption_w:g} W for "
                      f"{inv.hours_on_per_day:g} h/day"),
-        ("Albedo", f"{p.site.albedo:g}"),
+        ("Albedo", _albedo_text(p.site.albedo)),
     ]
     w = getattr(p, "wiring", None)
     if w is not None:
@@ -1068,3 +1068,12 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
                             "of the trade; 'from memory' marks a value not checked against its "
                             "published source."))
     return Section("assumptions", "Assumptions and derates", tuple(blocks))
+
+
+def _albedo_text(albedo) -> str:
+    """The site's ground reflectance as typed: one value, by month, or automatic."""
+    from offgrid.climate.sky import describe_albedo
+
+    if albedo is None:
+        return "automatic (the climate file's own, else 0.2)"
+    return describe_albedo(albedo)

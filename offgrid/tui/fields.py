@@ -25,7 +25,7 @@ AUTO_WORDS = ("", "auto", "automatic", "-", "none", "default")
 class Field:
     path: str
     label: str
-    kind: str = "float"  # text, float, int, choice; auto_* allow None (automatic)
+    kind: str = "float"  # text, float, int, choice, months; auto_* allow None (automatic)
     unit: str = ""
     hint: str = ""
     choices: tuple[tuple[Any, str], ...] = ()
@@ -61,6 +61,10 @@ class Field:
             return str(value)
         if self.base_kind == "text":
             return str(value)
+        if self.base_kind == "months" and isinstance(value, list | tuple):
+            from offgrid.climate.sky import describe_albedo
+
+            return describe_albedo(list(value))
         text = f"{value:g}" if isinstance(value, float) else str(value)
         return f"{text} {self.unit}".strip()
 
@@ -70,6 +74,8 @@ class Field:
             return "auto"
         if self.base_kind == "text":
             return str(value)
+        if isinstance(value, list | tuple):
+            return " ".join(f"{v:g}" for v in value)
         if isinstance(value, float):
             return f"{value:g}"
         return str(value)
@@ -88,6 +94,8 @@ class Field:
                     return v
             names = ", ".join(str(v) for v, _ in self.choices)
             raise ValueError(f"'{raw}' is not one of: {names}")
+        if self.base_kind == "months":
+            return parse_one_or_twelve(raw, self.help())
         number = parse_number(raw, self.unit, self.help())
         if self.base_kind == "int":
             if number != int(number):
@@ -121,6 +129,20 @@ def parse_number(raw: str, unit: str = "", hint: str = "") -> float:
     return value
 
 
+def parse_one_or_twelve(raw: str, hint: str = "") -> float | list[float]:
+    """One number for the year, or twelve January first, separated by spaces or ``;``
+    (``0.7 0.7 0.4 ...``); commas separate too when there are twelve of them."""
+    parts = raw.replace(";", " ").split()
+    if len(parts) == 1 and parts[0].count(",") == 11:
+        parts = parts[0].split(",")
+    if len(parts) == 1:
+        return parse_number(parts[0], "", hint)
+    if len(parts) != 12:
+        raise ValueError(f"{len(parts)} values: give one for the year or twelve, January "
+                         "first, separated by spaces")
+    return [parse_number(p.rstrip(","), "", hint) for p in parts]
+
+
 def _fmt(value: float, unit: str, digits: int = 0) -> str:
     return f"{value:.{digits}f} {unit}".strip()
 
@@ -144,7 +166,10 @@ PROJECT_FIELDS: tuple[Field | str, ...] = (
     Field("site.azimuth_deg", "Array azimuth", "auto_float", unit="deg",
           reason="site.azimuth_deg", auto=lambda d: _fmt(d.site.azimuth_deg, "deg"),
           hint="degrees clockwise from north (180 = south); 'auto' faces the equator"),
-    Field("site.albedo", "Ground albedo"),
+    Field("site.albedo", "Ground albedo", "auto_months", auto_text="climate's, else 0.2",
+          reason="site.poa_kwh_m2_day",
+          hint="ground reflectance 0-1: one value, or twelve January first for snow months "
+               "(0.2 grass or soil, fresh snow about 0.7-0.8); 'auto' = the climate's, else 0.2"),
     Field("site.battery_temp_c", "Battery room temp.", "auto_float", unit="C",
           auto_text="coldest monthly mean",
           hint="mean temperature where the battery stands; 'auto' = coldest monthly mean"),

@@ -112,6 +112,28 @@ async def test_place_tilt_auto_and_value(state):
         assert app.session.project.site.tilt_deg is None
 
 
+async def test_place_albedo_one_value_or_twelve(state):
+    # snow-month reflectance as in Duffie & Beckman 4th ed. Example 2.19.1
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        snow = "0.7 0.7 0.4 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.4"
+        await edit_field(pilot, "place", "site.albedo", snow)
+        assert app.session.project.site.albedo == [float(v) for v in snow.split()]
+        assert "0.7 Jan-Feb" in screen_text(app)
+        await edit_field(pilot, "place", "site.albedo", "0.3")
+        assert app.session.project.site.albedo == 0.3
+        # eleven values or one out of range: refused with the fix, the last value kept
+        await edit_field(pilot, "place", "site.albedo", " ".join(["0.2"] * 11))
+        assert "twelve" in screen_text(app)
+        await type_into(pilot, "0.7 0.7 1.4 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.4")
+        assert "outside 0-1" in screen_text(app)
+        assert app.session.project.site.albedo == 0.3
+        await pilot.press("escape")
+        await edit_field(pilot, "place", "site.albedo", "auto")
+        assert app.session.project.site.albedo is None
+
+
 async def test_place_pick_climate_and_type_months(state):
     app = make_app(state=state)
     async with app.run_test(size=SIZE) as pilot:
