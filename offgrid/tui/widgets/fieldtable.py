@@ -58,6 +58,8 @@ class FieldTable(SteadyTable):
         """Show the project's values; ``special`` gives the text of non-plain rows."""
         special = special or {}
         self._last_fill = (project, design, problems, special)
+        if not self.columns:  # filled before mount (a busy machine): columns first
+            self._columns(self.size.width or 80)
         keep = self.cursor_row or 0
         self.clear()
         for i, row in enumerate(self._rows):
