@@ -72,8 +72,11 @@ def summary_text(project: Project, d: SystemDesign) -> str:
                  f"{ld.connected_dc_w:.0f} W")
     lines.append(f"       inverter idle {ld.inverter_idle_wh:.0f} Wh/day; growth margin "
                  f"{ld.growth_pct:g} %")
-    lines.append(f"       largest surge {ld.largest_surge_w:.0f} W "
-                 f"({ld.largest_surge_load or 'none'})")
+    if ld.largest_surge_load:
+        lines.append(f"       largest surge {ld.largest_surge_w:.0f} W "
+                     f"({ld.largest_surge_load}, {ld.largest_surge_ac_dc.upper()})")
+    else:
+        lines.append("       largest surge: no appliance has a starting power given")
     for extra in _extra_sections(d):
         lines.append("")
         lines += extra

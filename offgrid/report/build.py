@@ -439,7 +439,7 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
     for i, ld in enumerate(p.loads):
         mrows.append(_month_row(f"{i + 1} {ld.name}", lr.per_load_wh[i],
                                 f"loads.per_load_wh.{i}"))
-    idle = [lr.inverter_idle_wh if lr.connected_ac_w > 0 else 0.0] * 12
+    idle = list(lr.inverter_idle_by_month_wh)
     growth = [b - (a + dc_ + l_ + i_) for b, a, dc_, l_, i_ in zip(
         lr.daily_energy_wh, lr.ac_energy_wh, lr.dc_energy_wh, lr.inverter_loss_wh, idle,
         strict=True)]
@@ -447,7 +447,7 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
             ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
             ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
             ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
-            ("Inverter idle", idle, None),
+            ("Inverter idle", idle, "loads.inverter_idle_by_month_wh"),
             (f"Growth {lr.growth_pct:g} %", growth, None),
             ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh")):
         mrows.append(_month_row(label, vals, path))
@@ -461,8 +461,13 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
     blocks.append(Paragraph(
         f"Connected AC power {lr.connected_ac_w:,.0f} W, at once {lr.peak_ac_w:,.0f} W "
         f"(coincidence factor {lr.coincidence_factor:g}); connected DC power "
-        f"{lr.connected_dc_w:,.0f} W; largest starting power {lr.largest_surge_w:,.0f} W "
-        f"({lr.largest_surge_load or 'none'}). Critical loads use "
+        f"{lr.connected_dc_w:,.0f} W; "
+        + (f"largest starting power {lr.largest_surge_w:,.0f} W ({lr.largest_surge_load}, "
+           f"{lr.largest_surge_ac_dc.upper()})" if lr.largest_surge_load
+           else "no appliance has a starting power given")
+        + (f"; inverter starting need {lr.surge_need_w:,.0f} W ({lr.surge_need_load} starting "
+           "beside the other AC loads)" if lr.surge_need_load else "")
+        + ". Critical loads use "
         f"{lr.critical_energy_wh[dm]:,.0f} Wh/day at the battery in {MONTHS[dm]}."))
     return Section("loads", "Loads", tuple(blocks))
 
