@@ -371,7 +371,9 @@ def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerR
     book.add("battery.charge_c_rate", "peak charge current / installed capacity (per hour)",
              "common practice, no source; limits from memory (typical makers' figures)",
              peak_current=fmt(i_peak, "A"), capacity=fmt(battery.capacity_ah, "Ah"),
-             limit=f"C/{1 / top:.0f}" if top else "-")
+             limit=f"C/{1 / top:.0f}" if top else "-",
+             low_limit=(f"C/{1 / MIN_LEAD_ACID_CHARGE_C_RATE:.0f} (lead-acid; common practice, "
+                        "no source)" if CHEMISTRIES[battery.chemistry].lead_acid else "-"))
     out = []
     if top and rate > top:
         out.append(Notice(
