@@ -40,7 +40,8 @@ WIRE_CURRENT_RULE = {
 }
 #: What each kind of run's operating (voltage-drop) current is, for its reason.
 WIRE_DROP_CURRENT_RULE = {
-    "string": "Imp of one string (MPPT) or the module current at battery voltage (PWM), STC",
+    "string": "Imp of one string (MPPT) or the module current at the charging voltage (PWM), "
+              "at STC",
     "array": "strings per controller x the string's operating current",
     "charge": "the array's charge current at full sun, at most the controller's rating",
     "inverter": "the same as its maximum current (the inverter at its continuous rating at "
@@ -501,8 +502,8 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
                conductor_temp=fmt(wiring.conductor_temp_c, "C"),
                limit=fmt(w.drop_limit_pct, "%"))
         rb.add(f"{base}.drop_current_a", "the operating current the voltage drop is computed "
-               "with: " + WIRE_DROP_CURRENT_RULE.get(kind, WIRE_DROP_CURRENT_RULE["load"]),
-               "common practice, no source", value=fmt(w.operating_current_a, "A"))
+               "with, by the rule of its kind of run", "common practice, no source",
+               rule=WIRE_DROP_CURRENT_RULE[kind], value=fmt(w.operating_current_a, "A"))
         rb.add(f"{base}.voltage_v", "circuit voltage the drop is a percentage of: the string's "
                "operating voltage on the PV side, the system voltage on the battery side",
                "common practice, no source", value=fmt(w.voltage_v, "V"))

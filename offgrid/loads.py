@@ -141,6 +141,7 @@ def analyse_loads(loads: list[Load], inverter: InverterSpec, growth_pct: float,
 
     counted = ("every month (the project keeps the inverter on all year: "
                "inverter.on_all_year)" if on_all_year and has_ac else
+               "every month (an AC load is used in every month)" if ac_months.all() else
                f"only in the months with AC use ({_month_list(ac_months)}); the inverter is "
                "switched off in the others (inverter.on_all_year = false)" if has_ac else
                "no AC loads: no inverter")

@@ -143,7 +143,9 @@ GROUP_TITLES = {"site": "Site and sun", "loads": "Loads", "array": "Array",
                 "strings": "String window", "wires": "Cables",
                 "protection": "Protection"}
 WIRE_FIELDS = {"size": "conductor size", "drop_pct": "voltage drop", "ampacity_a": "ampacity",
-               "fuse_a": "fuse", "current_a": "current", "length_m": "length"}
+               "fuse_a": "fuse", "current_a": "maximum continuous current",
+               "drop_current_a": "operating current (voltage drop)", "length_m": "length",
+               "voltage_v": "circuit voltage", "resistance_ohm_km": "conductor resistance"}
 
 
 # ----------------------------------------------------------------------------- formatting
@@ -699,6 +701,9 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
                 Cell(str(field_of(w, "count", 1)), float(field_of(w, "count", 1)),
                      f"wires.{k}.count"),
                 _num(float(field_of(w, "current_a", 0.0)), 1, f"wires.{k}.current_a"),
+                _num(float(field_of(w, "operating_current_a", field_of(w, "drop_current_a",
+                                                                       0.0))), 1,
+                     f"wires.{k}.drop_current_a"),
                 _num(float(field_of(w, "length_m", 0.0)), 1, f"wires.{k}.length_m"),
                 _c(str(field_of(w, "size", "")) + ("" if len(materials) == 1 else
                                                    f" {field_of(w, 'material', '')}")),
@@ -709,11 +714,14 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
             ))
         material = f"{materials.pop()} conductors; " if len(materials) == 1 else ""
         blocks.append(Table(
-            "wiring", ("Run", "Runs", "Current A", "Length m", "Size", "Drop %", "Ampacity A",
-                       "Fuse A"), tuple(rows), ("l", "r", "r", "r", "l", "r", "r", "r"),
-            f"{material}current: the circuit's maximum (NEC 690.8 for PV circuits); length "
-            "one-way; drop = 2 x length x current x resistance per metre at conductor "
-            "temperature; ampacity after the temperature and grouping corrections.",
+            "wiring", ("Run", "Runs", "Max A", "Drop A", "Length m", "Size", "Drop %",
+                       "Ampacity A", "Fuse A"), tuple(rows),
+            ("l", "r", "r", "r", "r", "l", "r", "r", "r"),
+            f"{material}max A: the circuit's maximum continuous current, for ampacity and the "
+            "fuse (NEC 690.8 for PV circuits); drop A: the operating current; length "
+            "one-way; drop = 2 x length x drop A x resistance per metre at conductor "
+            "temperature / circuit voltage; ampacity after the temperature and grouping "
+            "corrections.",
             wrap=(0,)))
     else:
         blocks.append(Paragraph(
