@@ -796,8 +796,9 @@ def _size_inverter(project: Project, lr: LoadResult, system_v: int, book: Reason
              coincidence_factor=fmt(lr.coincidence_factor), peak=fmt(lr.peak_ac_w, "W"),
              value=fmt(req_surge, "W"))
     book.add("inverter.surge_w", f"{INVERTER_SURGE_MULTIPLE:g} x the chosen continuous rating "
-             "(a few seconds); it must cover the required surge", "common practice, no source",
-             continuous=fmt(cont, "W"), required=fmt(req_surge, "W"))
+             "(a few seconds); it must cover the required surge, which is the " + SURGE_FORMULA,
+             "common practice, no source", continuous=fmt(cont, "W"),
+             required=fmt(req_surge, "W"), appliance=lr.surge_need_load or "none")
     book.add("inverter.dc_input_current_a", "continuous rating / (efficiency x low-voltage "
              "cut-off)", "common practice, no source", cutoff=fmt(low_v, "V"))
     book.given("inverter.efficiency", "inverter.efficiency", fmt(inv.efficiency))

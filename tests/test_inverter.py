@@ -80,6 +80,8 @@ def test_surge_need_is_one_start_plus_what_runs_beside_it():
     why = d.why("inverter.required_surge_w")
     assert "start" in why.formula and "coincidence" in why.formula
     assert dict(why.inputs)["appliance"] == "pump"
+    # `w` on the surge rating (Sizes) states the same formula
+    assert "start" in d.why("inverter.surge_w").formula
 
 
 def test_surge_of_several_units_and_seasons():
