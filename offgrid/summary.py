@@ -70,8 +70,10 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     lines.append(f"Loads: AC connected {ld.connected_ac_w:.0f} W, peak at once "
                  f"{ld.peak_ac_w:.0f} W (coincidence {ld.coincidence_factor:g}); DC "
                  f"{ld.connected_dc_w:.0f} W")
-    lines.append(f"       inverter idle {ld.inverter_idle_wh:.0f} Wh/day; growth margin "
-                 f"{ld.growth_pct:g} %")
+    on = [MONTHS[i] for i, v in enumerate(ld.inverter_idle_by_month_wh) if v > 0]
+    when = "" if len(on) in (0, 12) else f" in {', '.join(on)} only (AC use)"
+    lines += _wrap(f"inverter idle {ld.inverter_idle_wh:.0f} Wh/day{when}; growth margin "
+                   f"{ld.growth_pct:g} %", "       ")
     if ld.largest_surge_load:
         lines.append(f"       largest surge {ld.largest_surge_w:.0f} W "
                      f"({ld.largest_surge_load}, {ld.largest_surge_ac_dc.upper()})")

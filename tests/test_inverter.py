@@ -124,6 +124,8 @@ def test_idle_rule_is_stated_in_the_reasons():
     d = design(p)
     why = dict(d.why("loads.inverter_idle_wh").inputs)
     assert "months with AC use" in why["counted"] and "Jun" in why["counted"]
+    text = summary_text(p, d)  # hand project: 10 W x 24 h = 240 Wh/day
+    assert "inverter idle 240 Wh/day in Jun, Jul, Aug only (AC use)" in text
     p.inverter.on_all_year = True
     why = dict(design(p).why("loads.inverter_idle_wh").inputs)
     assert "every month" in why["counted"]
