@@ -16,8 +16,22 @@ COMMANDS: tuple[str, ...] = ("size", "climate", "simulate", "report", "bom", "pr
                              "variants", "plan")
 
 
+class _Parser(argparse.ArgumentParser):
+    """argparse, but a bad option goes through ``fail`` (JSON too when ``--json`` is given)."""
+
+    def error(self, message: str):  # type: ignore[override]
+        import re
+
+        from offgrid.commands.common import fail
+
+        self.print_usage(sys.stderr)
+        m = re.match(r"argument ([^:/ ]+)", message)
+        fail(f"{message} (see `{self.prog} --help`)", 2, field=m.group(1) if m else None,
+             error="bad-arguments")
+
+
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog="offgrid",
         description="Size stand-alone solar power systems from a load list and a site climate. "
                     "With no subcommand, opens the text interface.",
@@ -34,6 +48,10 @@ def main(argv: list[str] | None = None) -> int:
         ui = _ui_entry()
         if ui is not None:
             return ui(argv)
+    if "--json" in argv:
+        from offgrid.commands.common import set_json_errors
+
+        set_json_errors(True)
     parser = build_parser()
     args = parser.parse_args(argv)
     if not getattr(args, "func", None):

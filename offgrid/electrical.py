@@ -38,6 +38,16 @@ WIRE_CURRENT_RULE = {
     "inverter": "inverter continuous rating / (efficiency x low-voltage cut-off)",
     "load": "quantity x power / system voltage",
 }
+#: What each kind of run's operating (voltage-drop) current is, for its reason.
+WIRE_DROP_CURRENT_RULE = {
+    "string": "Imp of one string (MPPT) or the module current at the charging voltage (PWM), "
+              "at STC",
+    "array": "strings per controller x the string's operating current",
+    "charge": "the array's charge current at full sun, at most the controller's rating",
+    "inverter": "the same as its maximum current (the inverter at its continuous rating at "
+                "the low-voltage cut-off)",
+    "load": "the same as its maximum current (quantity x power / system voltage)",
+}
 HOT_IRRADIANCE_W_M2 = 1000.0
 MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov",
                "Dec")
@@ -100,8 +110,10 @@ class ElectricalResult:
 
     def wires_json(self) -> list[dict]:
         return [{"key": w.key, "run": w.run, "count": w.count, "current_a": w.current_a,
+                 "drop_current_a": w.operating_current_a, "voltage_v": w.voltage_v,
                  "length_m": w.length_m, "material": w.material, "size": w.size,
-                 "drop_pct": w.drop_pct, "ampacity_a": w.ampacity_a, "fuse_a": w.fuse_a}
+                 "resistance_ohm_km": w.resistance_ohm_km, "drop_pct": w.drop_pct,
+                 "ampacity_a": w.ampacity_a, "fuse_a": w.fuse_a}
                 for w in self.wires]
 
     def to_json(self) -> dict:
@@ -477,23 +489,35 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     big = []
     for w in wires:
         base = f"wires.{w.key}"
+        kind = w.key if w.key in WIRE_CURRENT_RULE else "load"
         rb.add(f"{base}.size", "smallest listed size whose ampacity >= max(1.25 x max current, "
                "fuse) and whose voltage drop is within the run's limit",
                f"{NEC} 690.8(B), 215.2; {amp_table}", max_current=fmt(w.current_a, "A"),
                required_ampacity=fmt(w.required_ampacity_a, "A"), length=fmt(w.length_m, "m"),
                ambient=fmt(ambient, "C"), material=w.material)
-        rb.add(f"{base}.drop_pct", "2 x one-way length x operating current x resistance / "
-               "circuit voltage", f"{table}, corrected to conductor temperature",
-               length=fmt(w.length_m, "m"), current=fmt(w.operating_current_a, "A"),
+        rb.add(f"{base}.drop_pct", "100 x 2 x one-way length x drop current (drop_current_a, "
+               "the operating current) x resistance / circuit voltage",
+               f"{table}, corrected to conductor temperature",
+               length=fmt(w.length_m, "m"), drop_current=fmt(w.operating_current_a, "A"),
                resistance=fmt(w.resistance_ohm_km, "ohm/km"),
+               circuit_voltage=fmt(w.voltage_v, "V"),
                conductor_temp=fmt(wiring.conductor_temp_c, "C"),
                limit=fmt(w.drop_limit_pct, "%"))
+        rb.add(f"{base}.drop_current_a", "the operating current the voltage drop is computed "
+               "with, by the rule of its kind of run", "common practice, no source",
+               rule=WIRE_DROP_CURRENT_RULE[kind], value=fmt(w.operating_current_a, "A"))
+        rb.add(f"{base}.voltage_v", "circuit voltage the drop is a percentage of: the string's "
+               "operating voltage on the PV side, the system voltage on the battery side",
+               "common practice, no source", value=fmt(w.voltage_v, "V"))
+        rb.add(f"{base}.resistance_ohm_km", "conductor resistance at the conductor temperature",
+               f"{table}, corrected to conductor temperature",
+               conductor_temp=fmt(wiring.conductor_temp_c, "C"), size=w.size)
         rb.add(f"{base}.ampacity_a", "table ampacity x ambient correction, within the terminal "
                "rating", amp_table, ambient=fmt(ambient, "C"),
                insulation=fmt(wiring.insulation_temp_c, "C"))
-        kind = w.key if w.key in WIRE_CURRENT_RULE else "load"
-        rb.add(f"{base}.current_a", "the circuit's maximum current, by the rule of its kind of "
-               "run", f"{NEC} 690.8(A)(1) for PV circuits; the rest common practice, no source",
+        rb.add(f"{base}.current_a", "the circuit's maximum continuous current (for ampacity and "
+               "protection), by the rule of its kind of run",
+               f"{NEC} 690.8(A)(1) for PV circuits; the rest common practice, no source",
                rule=WIRE_CURRENT_RULE[kind], value=fmt(w.current_a, "A"))
         spec = next(r for r in runs if r.key == w.key)
         rb.add(f"{base}.length_m", "one-way length of the run as set in the project (typed, or "

@@ -102,7 +102,7 @@ class LoadResult:
     ac_energy_wh: tuple[float, ...]  # 12 months, at the appliances
     dc_energy_wh: tuple[float, ...]
     inverter_loss_wh: tuple[float, ...]
-    inverter_idle_wh: float
+    inverter_idle_wh: float  # on a day the inverter is on
     critical_energy_wh: tuple[float, ...]  # at the battery, growth included
     design_daily_energy_wh: float  # the design month's daily energy
     max_daily_energy_wh: float
@@ -110,11 +110,16 @@ class LoadResult:
     coincidence_factor: float
     connected_ac_w: float
     connected_dc_w: float
-    peak_ac_w: float  # connected AC x coincidence factor
+    peak_ac_w: float  # max(connected AC x coincidence factor, largest AC line)
     peak_dc_w: float
     largest_surge_w: float
     largest_surge_load: str
     per_load_wh: tuple[tuple[float, ...], ...]  # per load, 12 months, at the appliance
+    #: 12 months: idle draw counted (0 where no AC load is used, unless kept on all year)
+    inverter_idle_by_month_wh: tuple[float, ...] = (0.0,) * 12
+    largest_surge_ac_dc: str = ""  # "ac" or "dc": the kind of the largest-surge appliance
+    surge_need_w: float = 0.0  # one AC start + what runs beside it, W (sizes the surge)
+    surge_need_load: str = ""  # the appliance whose start sets it
 
 
 @dataclass(frozen=True)

@@ -406,7 +406,9 @@ def _charge_rate_notices(project: Project, array: ArrayResult, ctrl: ControllerR
     book.add("battery.charge_c_rate", "peak charge current / installed capacity (per hour)",
              "common practice, no source; limits from memory (typical makers' figures)",
              peak_current=fmt(i_peak, "A"), capacity=fmt(battery.capacity_ah, "Ah"),
-             limit=f"C/{1 / top:.0f}" if top else "-")
+             limit=f"C/{1 / top:.0f}" if top else "-",
+             low_limit=(f"C/{1 / MIN_LEAD_ACID_CHARGE_C_RATE:.0f} (lead-acid; common practice, "
+                        "no source)" if CHEMISTRIES[battery.chemistry].lead_acid else "-"))
     out = []
     if top and rate > top:
         out.append(Notice(
@@ -890,13 +892,10 @@ def _size_inverter(project: Project, lr: LoadResult, system_v: int, book: Reason
             book.add(f"inverter.{key}", "no AC loads: no inverter", "common practice")
         book.given("inverter.efficiency", "inverter.efficiency", fmt(inv.efficiency))
         return InverterResult(False, 0.0, 0.0, 0.0, 0.0, inv.efficiency, 0.0, 0.0)
+    from offgrid.loads import SURGE_FORMULA
+
     req_cont = lr.peak_ac_w * NEC_CONTINUOUS
-    surge_running = 0.0
-    for ld in project.loads:
-        if ld.ac_dc == "ac" and ld.name == lr.largest_surge_load:
-            surge_running = ld.power_w
-            break
-    req_surge = max(lr.peak_ac_w, lr.peak_ac_w - surge_running + lr.largest_surge_w)
+    req_surge = lr.surge_need_w
     cont_std = next_rating(req_cont, INVERTER_RATINGS_W)
     surge_std = next_rating(req_surge / INVERTER_SURGE_MULTIPLE, INVERTER_RATINGS_W)
     cont = max(cont_std or req_cont, surge_std or req_surge / INVERTER_SURGE_MULTIPLE)
@@ -911,21 +910,22 @@ def _size_inverter(project: Project, lr: LoadResult, system_v: int, book: Reason
     surge = cont * INVERTER_SURGE_MULTIPLE
     low_v = system_v * 0.875  # 10.5 V per 12 V: low-voltage cut-off (common practice)
     dc_current = cont / (inv.efficiency * low_v)
-    book.add("inverter.required_continuous_w", "1.25 x peak simultaneous AC power",
-             "common practice, no source",
-             peak=fmt(lr.peak_ac_w, "W"))
+    book.add("inverter.required_continuous_w", "1.25 x the AC power on at once (peak AC "
+             "power: the coincidence factor never below the largest single AC appliance)",
+             "common practice, no source", peak=fmt(lr.peak_ac_w, "W"))
     book.add("inverter.continuous_w",
-             "next standard rating at or above 1.25 x peak simultaneous AC power, raised if its "
-             f"surge ({INVERTER_SURGE_MULTIPLE:g} x continuous) is below the starting demand",
+             "next standard rating at or above 1.25 x peak AC power, raised until its "
+             f"surge ({INVERTER_SURGE_MULTIPLE:g} x continuous) covers the required surge",
              "common practice, no source", peak=fmt(lr.peak_ac_w, "W"),
-             required=fmt(req_cont, "W"), starting_demand=fmt(req_surge, "W"))
-    book.add("inverter.required_surge_w", "peak AC power - running power of the largest motor "
-             "+ its starting power (at least the peak AC power)", "common practice, no source",
-             largest=lr.largest_surge_load or "none", starting=fmt(lr.largest_surge_w, "W"),
-             running=fmt(surge_running, "W"), peak=fmt(lr.peak_ac_w, "W"))
+             required=fmt(req_cont, "W"), required_surge=fmt(req_surge, "W"))
+    book.add("inverter.required_surge_w", "surge need = " + SURGE_FORMULA,
+             "common practice, no source", appliance=lr.surge_need_load or "none",
+             coincidence_factor=fmt(lr.coincidence_factor), peak=fmt(lr.peak_ac_w, "W"),
+             value=fmt(req_surge, "W"))
     book.add("inverter.surge_w", f"{INVERTER_SURGE_MULTIPLE:g} x the chosen continuous rating "
-             "(a few seconds); it must cover the required surge", "common practice, no source",
-             continuous=fmt(cont, "W"), required=fmt(req_surge, "W"))
+             "(a few seconds); it must cover the required surge, which is the " + SURGE_FORMULA,
+             "common practice, no source", continuous=fmt(cont, "W"),
+             required=fmt(req_surge, "W"), appliance=lr.surge_need_load or "none")
     book.add("inverter.dc_input_current_a", "continuous rating / (efficiency x low-voltage "
              "cut-off)", "common practice, no source", cutoff=fmt(low_v, "V"))
     book.given("inverter.efficiency", "inverter.efficiency", fmt(inv.efficiency))

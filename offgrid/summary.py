@@ -75,10 +75,15 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     lines.append(f"Loads: AC connected {ld.connected_ac_w:.0f} W, peak at once "
                  f"{ld.peak_ac_w:.0f} W (coincidence {ld.coincidence_factor:g}); DC "
                  f"{ld.connected_dc_w:.0f} W")
-    lines.append(f"       inverter idle {ld.inverter_idle_wh:.0f} Wh/day; growth margin "
-                 f"{ld.growth_pct:g} %")
-    lines.append(f"       largest surge {ld.largest_surge_w:.0f} W "
-                 f"({ld.largest_surge_load or 'none'})")
+    on = [MONTHS[i] for i, v in enumerate(ld.inverter_idle_by_month_wh) if v > 0]
+    when = "" if len(on) in (0, 12) else f" in {', '.join(on)} only (AC use)"
+    lines += _wrap(f"inverter idle {ld.inverter_idle_wh:.0f} Wh/day{when}; growth margin "
+                   f"{ld.growth_pct:g} %", "       ")
+    if ld.largest_surge_load:
+        lines.append(f"       largest surge {ld.largest_surge_w:.0f} W "
+                     f"({ld.largest_surge_load}, {ld.largest_surge_ac_dc.upper()})")
+    else:
+        lines.append("       largest surge: no appliance has a starting power given")
     for extra in _extra_sections(d):
         lines.append("")
         lines += extra
@@ -143,13 +148,14 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
                      f"{h.mppt_layout[0]} x {h.mppt_layout[1]}); the design uses "
                      f"{h.controller_type.upper()}", "  ")
     material = e.wires[0].material if e.wires else ""
-    cables = [f"Cables ({material}; size, max current, one-way length, drop, ampacity, fuse)",
-              f"  {'run':<28}{'n':>2} {'size':>10}{'A':>7}{'m':>6}{'drop%':>7}{'amp':>6}"
-              f"{'fuse':>6}"]
+    cables = [f"Cables ({material}; max A for ampacity and fuse, drop A for the voltage drop)",
+              f"  {'run':<23}{'n':>2} {'size':>10}{'max A':>7}{'drop A':>7}{'m':>6}{'drop%':>6}"
+              f"{'amp':>6}{'fuse':>6}"]
     for w in e.wires:
         fuse = f"{w.fuse_a:g}" if w.fuse_a is not None else "-"
-        cables.append(f"  {w.run[:27]:<28}{w.count:>2} {w.size:>10}{w.current_a:>7.1f}"
-                      f"{w.length_m:>6.1f}{w.drop_pct:>7.2f}{w.ampacity_a:>6.0f}{fuse:>6}"[:WIDTH])
+        cables.append(f"  {w.run[:22]:<23}{w.count:>2} {w.size:>10}{w.current_a:>7.1f}"
+                      f"{w.operating_current_a:>7.1f}{w.length_m:>6.1f}{w.drop_pct:>6.2f}"
+                      f"{w.ampacity_a:>6.0f}{fuse:>6}"[:WIDTH])
     est = " (estimated)" if pr.short_circuit_estimated else ""
     prot = ["Protection and disconnects"]
     prot += _wrap(f"battery bank prospective fault current {pr.bank_fault_current_a / 1000:.1f} "

@@ -272,6 +272,7 @@ class WireChoice:
     ampacity_a: float
     required_ampacity_a: float
     fuse_a: float | None
+    voltage_v: float = 0.0  # circuit voltage the drop is a percentage of
 
 
 def check_length(length_m: float, run_name: str, field: str) -> None:
@@ -306,7 +307,8 @@ def _candidates(run: RunSpec, units: str, material: str, conductor_temp_c: float
         out.append(WireChoice(run.key, run.name, run.count, run.max_current_a,
                               run.operating_current_a, run.length_m, material, size.name,
                               size.area_mm2, r, drop, 100.0 * drop / run.voltage_v,
-                              run.drop_limit_pct, amp, required, run.fuse_a))
+                              run.drop_limit_pct, amp, required, run.fuse_a,
+                              voltage_v=run.voltage_v))
     if not out:
         largest = sizes_for(units)[-1].name
         raise DesignError(

@@ -76,7 +76,17 @@ def design_problems(d: SystemDesign) -> list[str]:
             out.append(f"inverter {inv.continuous_w} < required {inv.required_continuous_w}")
         if not inv.dc_input_current_a > 0:
             out.append("inverter.dc_input_current_a not positive")
+        if inv.continuous_w < ld.peak_ac_w * (1 - 1e-9):
+            out.append(f"inverter {inv.continuous_w} W below the AC power on at once "
+                       f"{ld.peak_ac_w} W")
+        if inv.required_surge_w < ld.peak_ac_w * (1 - 1e-9):
+            out.append("inverter surge need below the AC power on at once")
     if d.electrical is not None:
+        for w in data.get("wires", []):  # the drop recomputes from the shown figures
+            drop = 200 * w["length_m"] * w["drop_current_a"] * w["resistance_ohm_km"] / 1000
+            if not math.isclose(drop / w["voltage_v"], w["drop_pct"], rel_tol=1e-5,
+                                abs_tol=1e-4):  # JSON rounds to 6 decimals
+                out.append(f"wire {w['run']}: drop does not recompute from drop_current_a")
         for w in d.electrical.wires:
             if w.drop_pct > w.drop_limit_pct + 1e-9:
                 out.append(f"wire {w.run}: drop {w.drop_pct:.2f} % over its limit "

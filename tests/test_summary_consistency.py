@@ -43,9 +43,10 @@ def test_summary_figures_equal_the_json(name):
     strings = j["electrical"]["strings"]
     assert f"chosen {strings['series']} x {strings['parallel']} parallel" in text
     for w in j["wires"]:
-        row = [line for line in text.splitlines() if line.strip().startswith(w["run"][:27])]
+        row = [line for line in text.splitlines() if line.strip().startswith(w["run"][:22])]
         assert row, w["run"]
         assert w["size"] in row[0] and f"{w['drop_pct']:.2f}" in row[0], (w, row[0])
+        assert f"{w['current_a']:.1f}" in row[0] and f"{w['drop_current_a']:.1f}" in row[0]
     dm = j["site"]["design_month"] - 1
     supply = text.split("Array supply")[1].splitlines()[2].split()
     assert float(supply[dm]) == pytest.approx(a["supply_wh_day"][dm], abs=0.5)

@@ -29,13 +29,52 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
     try:
         return load_project(path), path.parent
     except ProjectFileError as exc:
-        fail(str(exc))
+        fail(str(exc), field=first_field(exc))
     raise AssertionError  # unreachable
 
 
-def fail(message: str, code: int = 2) -> None:
+#: Set by the command line when ``--json`` is given: a refusal is then also printed as a
+#: JSON object on stdout (see :func:`fail`).
+_JSON_ERRORS = {"on": False}
+
+
+def set_json_errors(on: bool) -> None:
+    """Print refusals as JSON on stdout too (for the subcommands given ``--json``)."""
+    _JSON_ERRORS["on"] = bool(on)
+
+
+def error_json(message: str, code: int, field: str | None = None,
+               error: str | None = None) -> dict:
+    """The refusal as JSON: ``{"error": {code, message, field, exit_code}}``."""
+    default = {2: "bad-input", 3: "cannot-design"}.get(code, "failed")
+    return {"error": {"code": error or default, "message": message, "field": field,
+                      "exit_code": code}}
+
+
+def fail(message: str, code: int = 2, field: str | None = None,
+         error: str | None = None) -> None:
+    """Print the message on stderr and exit with ``code`` (2 bad input, 3 cannot design).
+
+    With ``--json`` the same refusal is printed on stdout as :func:`error_json`; ``field``
+    names what to change (a dotted project path, a CSV column or an option), ``error`` a
+    short code (a DesignError's own code, or ``bad-input`` / ``cannot-design``).
+    """
+    if _JSON_ERRORS["on"]:
+        import json
+
+        print(json.dumps(error_json(message, code, field, error), indent=2,
+                         ensure_ascii=False))
     print(f"offgrid: {message}", file=sys.stderr)
     raise SystemExit(code)
+
+
+def first_field(exc) -> str | None:
+    """The field of the first problem of a ProjectFileError / LoadListError, if any."""
+    problems = getattr(exc, "problems", None) or []
+    if not problems:
+        return getattr(exc, "field", None)
+    first = problems[0]
+    return getattr(first, "path", None) or getattr(first, "field", None)
 
 
 def design_failed(exc, suffix: str = "") -> None:
@@ -43,5 +82,6 @@ def design_failed(exc, suffix: str = "") -> None:
     from offgrid.result import INPUT_ERROR_CODES
 
     if exc.code in INPUT_ERROR_CODES:
-        fail(f"{exc.field + ': ' if exc.field else ''}{exc}{suffix}", code=2)
-    fail(f"cannot design: {exc}{suffix}", code=3)
+        fail(f"{exc.field + ': ' if exc.field else ''}{exc}{suffix}", code=2, field=exc.field,
+             error=exc.code)
+    fail(f"cannot design: {exc}{suffix}", code=3, field=exc.field, error=exc.code)

@@ -5,7 +5,13 @@ from __future__ import annotations
 import argparse
 import json
 
-from offgrid.commands.common import add_project_argument, design_failed, fail, open_project
+from offgrid.commands.common import (
+    add_project_argument,
+    design_failed,
+    fail,
+    first_field,
+    open_project,
+)
 
 
 def register(sub) -> None:
@@ -48,17 +54,19 @@ def quick_project(args: argparse.Namespace):
     from offgrid.project.model import ClimateChoice, Project, ProjectInfo, Site
 
     if not (args.loads and args.climate):
-        fail("a quick design needs both --loads LOADS.csv and --climate CLIMATE")
+        fail("a quick design needs both --loads LOADS.csv and --climate CLIMATE",
+             field="--climate" if args.loads else "--loads")
     try:
         loads = load_loads_csv(args.loads)
     except LoadListError as exc:
-        fail(str(exc))
+        fail(str(exc), field=first_field(exc))
     try:
         climate = load_climate(args.climate)
     except ClimateFileError as exc:
-        fail(str(exc))
+        fail(str(exc), field="--climate")
     if climate.latitude_deg is None:
-        fail(f"climate '{args.climate}' has no latitude_deg: add it to the climate file")
+        fail(f"climate '{args.climate}' has no latitude_deg: add it to the climate file",
+             field="latitude_deg")
     site = Site(name=args.climate, latitude_deg=climate.latitude_deg,
                 longitude_deg=climate.longitude_deg or 0.0, elevation_m=climate.elevation_m or 0.0)
     return Project(info=ProjectInfo(name=f"Quick design: {args.loads}"), site=site,
@@ -76,7 +84,7 @@ def apply_overrides(project, args: argparse.Namespace) -> None:
         project.controller.type = args.controller
     problems = validate_project(project)
     if problems:
-        fail("; ".join(str(p) for p in problems))
+        fail("; ".join(str(p) for p in problems), field=problems[0].path)
 
 
 def run(args: argparse.Namespace) -> int:

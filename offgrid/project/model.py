@@ -140,6 +140,9 @@ class InverterSpec:
     efficiency: float = 0.90
     self_consumption_w: float = 15.0
     hours_on_per_day: float = 24.0
+    # True: the inverter stays on in months with no AC load (its idle draw counted all year);
+    # False: switched off then, idle counted only in the months with AC use.
+    on_all_year: bool = False
 
 
 @dataclass

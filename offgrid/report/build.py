@@ -148,7 +148,9 @@ GROUP_TITLES = {"site": "Site and sun", "loads": "Loads", "array": "Array",
                 "strings": "String window", "wires": "Cables",
                 "protection": "Protection"}
 WIRE_FIELDS = {"size": "conductor size", "drop_pct": "voltage drop", "ampacity_a": "ampacity",
-               "fuse_a": "fuse", "current_a": "current", "length_m": "length"}
+               "fuse_a": "fuse", "current_a": "maximum continuous current",
+               "drop_current_a": "operating current (voltage drop)", "length_m": "length",
+               "voltage_v": "circuit voltage", "resistance_ohm_km": "conductor resistance"}
 
 
 # ----------------------------------------------------------------------------- formatting
@@ -444,7 +446,7 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
     for i, ld in enumerate(p.loads):
         mrows.append(_month_row(f"{i + 1} {ld.name}", lr.per_load_wh[i],
                                 f"loads.per_load_wh.{i}"))
-    idle = [lr.inverter_idle_wh if lr.connected_ac_w > 0 else 0.0] * 12
+    idle = list(lr.inverter_idle_by_month_wh)
     growth = [b - (a + dc_ + l_ + i_) for b, a, dc_, l_, i_ in zip(
         lr.daily_energy_wh, lr.ac_energy_wh, lr.dc_energy_wh, lr.inverter_loss_wh, idle,
         strict=True)]
@@ -452,7 +454,7 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
             ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
             ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
             ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
-            ("Inverter idle", idle, None),
+            ("Inverter idle", idle, "loads.inverter_idle_by_month_wh"),
             (f"Growth {lr.growth_pct:g} %", growth, None),
             ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh")):
         mrows.append(_month_row(label, vals, path))
@@ -466,8 +468,13 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
     blocks.append(Paragraph(
         f"Connected AC power {lr.connected_ac_w:,.0f} W, at once {lr.peak_ac_w:,.0f} W "
         f"(coincidence factor {lr.coincidence_factor:g}); connected DC power "
-        f"{lr.connected_dc_w:,.0f} W; largest starting power {lr.largest_surge_w:,.0f} W "
-        f"({lr.largest_surge_load or 'none'}). Critical loads use "
+        f"{lr.connected_dc_w:,.0f} W; "
+        + (f"largest starting power {lr.largest_surge_w:,.0f} W ({lr.largest_surge_load}, "
+           f"{lr.largest_surge_ac_dc.upper()})" if lr.largest_surge_load
+           else "no appliance has a starting power given")
+        + (f"; inverter starting need {lr.surge_need_w:,.0f} W ({lr.surge_need_load} starting "
+           "beside the other AC loads)" if lr.surge_need_load else "")
+        + ". Critical loads use "
         f"{lr.critical_energy_wh[dm]:,.0f} Wh/day at the battery in {MONTHS[dm]}."))
     return Section("loads", "Loads", tuple(blocks))
 
@@ -699,6 +706,9 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
                 Cell(str(field_of(w, "count", 1)), float(field_of(w, "count", 1)),
                      f"wires.{k}.count"),
                 _num(float(field_of(w, "current_a", 0.0)), 1, f"wires.{k}.current_a"),
+                _num(float(field_of(w, "operating_current_a", field_of(w, "drop_current_a",
+                                                                       0.0))), 1,
+                     f"wires.{k}.drop_current_a"),
                 _num(float(field_of(w, "length_m", 0.0)), 1, f"wires.{k}.length_m"),
                 _c(str(field_of(w, "size", "")) + ("" if len(materials) == 1 else
                                                    f" {field_of(w, 'material', '')}")),
@@ -709,11 +719,14 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
             ))
         material = f"{materials.pop()} conductors; " if len(materials) == 1 else ""
         blocks.append(Table(
-            "wiring", ("Run", "Runs", "Current A", "Length m", "Size", "Drop %", "Ampacity A",
-                       "Fuse A"), tuple(rows), ("l", "r", "r", "r", "l", "r", "r", "r"),
-            f"{material}current: the circuit's maximum (NEC 690.8 for PV circuits); length "
-            "one-way; drop = 2 x length x current x resistance per metre at conductor "
-            "temperature; ampacity after the temperature and grouping corrections.",
+            "wiring", ("Run", "Runs", "Max A", "Drop A", "Length m", "Size", "Drop %",
+                       "Ampacity A", "Fuse A"), tuple(rows),
+            ("l", "r", "r", "r", "r", "l", "r", "r", "r"),
+            f"{material}max A: the circuit's maximum continuous current, for ampacity and the "
+            "fuse (NEC 690.8 for PV circuits); drop A: the operating current; length "
+            "one-way; drop = 2 x length x drop A x resistance per metre at conductor "
+            "temperature / circuit voltage; ampacity after the temperature and grouping "
+            "corrections.",
             wrap=(0,)))
     else:
         blocks.append(Paragraph(

@@ -53,10 +53,15 @@ def _profiles(project: Project, design: SystemDesign) -> tuple[np.ndarray, np.nd
         total += at_bus[:, None] * shape
         if load.critical:
             crit += at_bus[:, None] * shape
-    if lr.inverter_idle_wh > 0:
-        total += lr.inverter_idle_wh * window_profile("any")[None, :]
-        if any(ld.critical and ld.ac_dc == "ac" for ld in project.loads):
-            crit += lr.inverter_idle_wh * window_profile("any")[None, :]  # as loads.py
+    idle = np.asarray(lr.inverter_idle_by_month_wh, dtype=float)  # 0 where switched off
+    if idle.any():
+        total += idle[:, None] * window_profile("any")[None, :]
+        crit_ac = [ld for ld in project.loads if ld.critical and ld.ac_dc == "ac"]
+        if crit_ac:  # as loads.py: in the months a critical AC load is used
+            crit_m = np.zeros(12, dtype=bool)
+            for ld in crit_ac:
+                crit_m[[m - 1 for m in ld.months]] = True
+            crit += np.where(crit_m, idle, 0.0)[:, None] * window_profile("any")[None, :]
 
     def norm(a):
         s = a.sum(axis=1, keepdims=True)

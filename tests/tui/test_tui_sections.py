@@ -479,6 +479,43 @@ async def test_wires_runs_and_length_edit(state):
         assert "Fuses, breakers and disconnects" in screen_text(app)
 
 
+async def test_parts_inverter_on_all_year_choice(state):
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        work = app.work
+        work.action_goto("parts")
+        await pilot.pause()
+        assert work.current.reveal("inverter.on_all_year")
+        await pilot.pause()
+        assert app.session.project.inverter.on_all_year is False
+        await pilot.press("enter")
+        await pilot.pause()
+        assert isinstance(app.screen, ChoiceDialog)
+        await pilot.press("down", "enter")  # yes, all year
+        await pilot.pause()
+        assert app.session.project.inverter.on_all_year is True
+
+
+async def test_wires_show_both_currents(state):
+    # Max A: maximum continuous current (ampacity, fuse); Drop A: the operating current of
+    # the voltage drop (issue 11).  The demo's array run: 24.4 A max, 18.5 A operating.
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await pilot.press("5")
+        await pilot.pause()
+        w = app.session.design.electrical.wires[1]
+        text = screen_text(app)
+        assert "Max A" in text and "Drop A" in text
+        row = next(ln for ln in text.splitlines() if "array to controller" in ln)
+        assert f"{w.current_a:.1f}" in row and f"{w.operating_current_a:.1f}" in row
+        app.work.current.table.move_cursor(row=1, column=5)  # its Drop A: why
+        await pilot.press("w")
+        await pilot.pause()
+        assert "operating current" in screen_text(app)
+
+
 async def test_wires_dc_load_length_is_kept_by_load_name(state):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:

@@ -72,8 +72,10 @@ def figure_rows(d: SystemDesign) -> list[Row]:
          "loads.design_daily_energy_wh"),
         ("Largest month", f"{ld.max_daily_energy_wh:,.0f} Wh/day", "loads.daily_energy_wh"),
         ("Peak AC power at once", f"{ld.peak_ac_w:,.0f} W", "loads.peak_ac_w"),
-        ("Largest starting power", f"{ld.largest_surge_w:,.0f} W "
-         f"({printable(ld.largest_surge_load) or 'none'})", "loads.largest_surge_w"),
+        ("Largest starting power",
+         (f"{ld.largest_surge_w:,.0f} W ({printable(ld.largest_surge_load)}, "
+          f"{ld.largest_surge_ac_dc.upper()})" if ld.largest_surge_load else "none given"),
+         "loads.largest_surge_w"),
         ("Inverter idle energy", f"{ld.inverter_idle_wh:,.0f} Wh/day", "loads.inverter_idle_wh"),
         ("Sun on array, design month", f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day",
          "site.poa_kwh_m2_day"),

@@ -54,11 +54,14 @@ WIRING_FIELDS: tuple[Field | str, ...] = (
 
 COLUMNS = (  # key, label, width
     ("run", "Run", 26), ("count", "n", 3), ("current_a", "Max A", 7), ("length_m", "Length", 8),
-    ("size", "Size", 10), ("drop_pct", "Drop %", 7), ("drop_limit_pct", "Limit", 6),
-    ("fuse_a", "Fuse A", 7),
+    ("size", "Size", 10), ("operating_current_a", "Drop A", 7), ("drop_pct", "Drop %", 7),
+    ("drop_limit_pct", "Limit", 6), ("fuse_a", "Fuse A", 7),
 )
-REASON_OF_COLUMN = {"run": "size", "count": "size", "current_a": "size", "size": "size",
-                    "drop_pct": "drop_pct", "drop_limit_pct": "drop_pct", "fuse_a": "fuse_a"}
+#: Max A: the maximum continuous current (ampacity and fuse); Drop A: the operating current
+#: the voltage drop is computed with.
+REASON_OF_COLUMN = {"run": "size", "count": "size", "current_a": "current_a", "size": "size",
+                    "operating_current_a": "drop_current_a", "drop_pct": "drop_pct",
+                    "drop_limit_pct": "drop_pct", "fuse_a": "fuse_a"}
 
 
 def runs_of(design: SystemDesign | None) -> list[Any]:
@@ -107,9 +110,11 @@ class RunsTable(SteadyTable):
 
 class WiresSection(Section):
     section_id = "wires"
-    help_text = ("The cable runs: each with its maximum current, one-way length, the size that "
-                 "meets both ampacity and the run's voltage-drop limit, and its fuse or "
-                 "breaker. Enter on a length changes it; Tab goes to the cable settings.")
+    help_text = ("The cable runs: each with its maximum continuous current (Max A, for ampacity "
+                 "and the fuse), one-way length, the size that meets both ampacity and the "
+                 "run's voltage-drop limit, the operating current the drop is computed with "
+                 "(Drop A), and its fuse or breaker. Enter on a length changes it; Tab goes "
+                 "to the cable settings.")
 
     BINDINGS = [Binding("p", "devices", "Protection", id="wires.devices")]
 
@@ -330,7 +335,10 @@ class WiresSection(Section):
             what = REASON_OF_COLUMN.get(column, "size")
             value = getattr(run, column, "")
             shown = f"{value:.2f}" if isinstance(value, float) else str(value)
-            return Figure(f"{run.run}: {column.replace('_', ' ')}", shown,
+            label = {"current_a": "maximum continuous current (ampacity, fuse)",
+                     "operating_current_a": "operating current (voltage drop)"}.get(
+                         column, column.replace("_", " "))
+            return Figure(f"{run.run}: {label}", shown,
                           f"wires.{run.key}.{what}")
         if self._basic:
             label, value, path = self._basic[min(row, len(self._basic) - 1)]
