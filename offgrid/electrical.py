@@ -295,7 +295,7 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     m = int(site.design_month) - 1
     profile, step_h = daily_poa_profile(site.horizontal_kwh_m2_day, site.poa_kwh_m2_day,
                                         site.latitude_deg, site.tilt_deg, site.azimuth_deg,
-                                        project.site.albedo)
+                                        site.albedo or project.site.albedo)
     temp_day = np.asarray(site.temp_day_c, dtype=float)
 
     # Design-month operating point at solar noon (the middle of the profile).

@@ -104,6 +104,15 @@ def _check_climate(c: MonthlyClimate) -> None:
         raise DesignError("climate-months", f"{path}: {message}", path)
 
 
+def site_albedo(project: Project, climate: MonthlyClimate):
+    """Ground reflectance in force: the site's wins, else the climate file's, else None (0.2).
+
+    One value or twelve (January first), as given.
+    """
+    site = project.site
+    return site.albedo if site.albedo is not None else getattr(climate, "albedo", None)
+
+
 def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
                   demand_wh_day=None, notices: list[Notice] | None = None):
     """Tilt, azimuth and monthly plane-of-array insolation.
@@ -123,8 +132,7 @@ def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
 
     site = project.site
     lat = site.latitude_deg
-    # the site's reflectance wins; else the climate file's; else 0.2 (one value or twelve)
-    albedo = site.albedo if site.albedo is not None else getattr(climate, "albedo", None)
+    albedo = site_albedo(project, climate)
     azimuth = site.azimuth_deg if site.azimuth_deg is not None else sky.equator_facing_azimuth(lat)
     book.add("site.azimuth_deg", "equator-facing unless set (clockwise from north)",
              "common practice, no source", azimuth=fmt(azimuth, "deg"))
@@ -279,11 +287,18 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         design_month=dm + 1, tilt_deg=tilt, azimuth_deg=azimuth,
         latitude_deg=project.site.latitude_deg, horizontal_kwh_m2_day=_tuple(horiz),
         poa_kwh_m2_day=_tuple(poa), demand_to_sun=_tuple(ratio), temp_mean_c=_tuple(t_mean),
-        temp_day_c=_tuple(t_day), record_low_c=t_low, climate_source=climate.source)
+        temp_day_c=_tuple(t_day), record_low_c=t_low, climate_source=climate.source,
+        albedo=_tuple(sky.monthly_albedo(site_albedo(project, climate))))
     book.add("site.record_low_c", "lowest temperature used for the cold open-circuit voltage",
              low_src)
     book.given("site.latitude_deg", "site.latitude_deg", fmt(project.site.latitude_deg, "deg"))
     src = climate.source or "the climate"
+    which = ("the site's own value" if project.site.albedo is not None
+             else "the climate file's value" if getattr(climate, "albedo", None) is not None
+             else "the usual 0.2 for ground without snow")
+    book.add("site.albedo", "ground reflectance of each month: " + which,
+             "common practice, no source" if which.startswith("the usual") else "project file",
+             albedo=sky.describe_albedo(site_albedo(project, climate)))
     book.add("site.horizontal_kwh_m2_day", "mean daily global horizontal insolation of each "
              "month, from the climate", src)
     book.add("site.temp_mean_c", "mean air temperature of each month, from the climate", src)

@@ -128,3 +128,27 @@ def test_low_sun_month_capped_in_the_design_with_a_warning():
     notice = next(n for n in d.warnings if n.code == "poa-capped")
     assert "Dec" in notice.message and notice.severity == "warning"
     assert "held at the clearest-sky" in d.reasons["site.poa_kwh_m2_day"].formula
+
+
+def test_climate_albedo_reaches_the_harvest_as_the_site_value_would():
+    # The albedo in force (site, else climate, else 0.2) is one figure of the design that the
+    # I-V harvest's mean-day profile reads too: a snow-month reflectance given in the climate
+    # file gives the same harvest as the same values typed on the site.
+    from dataclasses import replace
+
+    from offgrid.project.model import ClimateChoice
+    from offgrid.sizing import design
+    from tests.conftest import hand_project
+
+    snow = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]
+    p = hand_project()
+    p.site.tilt_deg = 60.0
+    p.site.albedo = None
+    p.climate = ClimateChoice(inline=replace(p.climate.inline, albedo=snow))
+    from_climate = design(p)
+    assert from_climate.site.albedo == pytest.approx(snow)
+    assert "climate file" in from_climate.reasons["site.albedo"].formula
+    p.site.albedo = snow
+    from_site = design(p)
+    assert from_climate.array.harvest_mppt_wh_day == pytest.approx(
+        from_site.array.harvest_mppt_wh_day, rel=1e-9)

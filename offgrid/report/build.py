@@ -55,6 +55,7 @@ LABELS: dict[str, str] = {
     "site.tilt_deg": "Array tilt",
     "site.azimuth_deg": "Array azimuth",
     "site.design_month": "Design month",
+    "site.albedo": "Ground reflectance (albedo)",
     "site.record_low_c": "Lowest temperature for the string",
     "site.poa_kwh_m2_day": "Array-plane insolation",
     "loads.daily_energy_wh": "Daily energy at the battery",
