@@ -135,7 +135,7 @@ class SiteResult:
     temp_day_c: tuple[float, ...]
     record_low_c: float
     climate_source: str
-    albedo: tuple[float, ...] = ()  # ground reflectance of each month in force (site, climate or 0.2)
+    albedo: tuple[float, ...] = ()  # reflectance of each month in force
 
 
 @dataclass(frozen=True)
