@@ -7,7 +7,7 @@ says they differ, and that every edit is validated and can be undone.
 
 from __future__ import annotations
 
-from tui_helpers import SIZE, demo_app, screen_text, type_into
+from tui_helpers import SIZE, demo_app, screen_text, type_into, wait_for
 
 from offgrid.report.variants import compare_variants, flatten_overrides
 from offgrid.tui.screens.dialogs import ChoiceDialog, MessageDialog, PathDialog
@@ -376,8 +376,7 @@ async def test_options_with_the_risk_check(state):
 async def test_place_horizon_profile_is_typed_and_validated(state):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        assert "z Horizon" in screen_text(app).splitlines()[-1]
+        await wait_for(pilot, lambda: "z Horizon" in screen_text(app).splitlines()[-1])
         array_w = app.session.design.array.power_w
         await pilot.press("z")
         await pilot.pause()

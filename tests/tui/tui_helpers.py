@@ -37,3 +37,14 @@ async def edit_field(pilot, section: str, path: str, text: str) -> None:
     await pilot.press("enter")
     await pilot.pause()
     await type_into(pilot, text)
+
+
+async def wait_for(pilot, condition, timeout_s: float = 10.0) -> None:
+    """Pause until ``condition()`` holds (a busy machine paints late); fail after the timeout."""
+    import time
+
+    end = time.monotonic() + timeout_s
+    while not condition():
+        if time.monotonic() > end:
+            raise AssertionError(f"not reached within {timeout_s} s: {condition}")
+        await pilot.pause(0.05)
