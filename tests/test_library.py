@@ -290,3 +290,16 @@ def test_each_subcommand_help_shows_a_worked_example_that_parses(name):
 def test_every_listed_command_is_covered():
     covered = {n.split()[0] for n, _ in _all_commands()}
     assert covered == set(COMMANDS)
+
+
+def test_climate_import_from_standard_input(capsys, tmp_path, monkeypatch):
+    text = _monthly_csv(tmp_path).read_text()
+    code, _, err = run(capsys, "climate", "import", "-", "--name", "Piped", stdin=text,
+                       monkeypatch=monkeypatch)
+    assert code == 2 and "--kind" in err
+    code, _, err = run(capsys, "climate", "import", "-", "--kind", "monthly-csv", "--name",
+                       "Piped", stdin=text, monkeypatch=monkeypatch)
+    assert code == 0, err
+    climate = files.load_climate("piped")
+    assert climate.insolation_kwh_m2_day == MONTHLY
+    assert "standard input" in climate.source and "standard-input.csv" not in climate.source

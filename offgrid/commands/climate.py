@@ -433,7 +433,11 @@ def _import_stdin(args, import_weather_file):
     with tempfile.TemporaryDirectory(prefix="offgrid-import-") as folder:
         path = Path(folder) / f"standard-input{_KIND_SUFFIX[args.kind]}"
         path.write_bytes(data)
-        return import_weather_file(path, kind=args.kind, unit=args.unit)
+        result = import_weather_file(path, kind=args.kind, unit=args.unit)
+    from dataclasses import replace
+
+    source = result.climate.source.replace(path.name, "read from the standard input")
+    return replace(result, climate=replace(result.climate, source=source))
 
 
 def _file_stem(name: str) -> str:
