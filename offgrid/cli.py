@@ -44,6 +44,11 @@ def build_parser() -> argparse.ArgumentParser:
         description="Size stand-alone solar power systems from a load list and a site climate. "
                     "With no subcommand, opens the text interface.",
     )
+    from offgrid.commands.common import with_example
+
+    with_example(parser, "offgrid size --demo", "sizes the bundled demonstration project (an "
+                 "invented health post); `offgrid COMMAND --help` shows an example for each "
+                 "command.")
     parser.add_argument(*VERSION_FLAGS, action=_VersionAction,
                         help="print the version and exit")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
