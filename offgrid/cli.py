@@ -12,8 +12,30 @@ import importlib
 import sys
 
 #: Subcommand modules under offgrid.commands, in the order ``--help`` lists them.
-COMMANDS: tuple[str, ...] = ("size", "climate", "simulate", "report", "bom", "prices",
-                             "variants", "plan")
+COMMANDS: tuple[str, ...] = ("size", "climate", "loads", "simulate", "report", "bom",
+                             "prices", "variants", "plan")
+VERSION_FLAGS = ("--version", "-V")
+
+
+def package_version() -> str:
+    """The installed version, from the package metadata (pyproject.toml is the one place)."""
+    from importlib.metadata import PackageNotFoundError, version
+
+    try:
+        return version("offgrid")
+    except PackageNotFoundError:
+        return "unknown (not installed: run pip install . in the checkout)"
+
+
+class _VersionAction(argparse.Action):
+    """``--version``: reads the metadata only when asked (start-up stays quick)."""
+
+    def __init__(self, option_strings, dest=argparse.SUPPRESS, **kwargs) -> None:
+        super().__init__(option_strings, dest, nargs=0, default=argparse.SUPPRESS, **kwargs)
+
+    def __call__(self, parser, namespace, values, option_string=None) -> None:
+        print(f"offgrid {package_version()}")
+        parser.exit()
 
 
 class _Parser(argparse.ArgumentParser):
@@ -36,6 +58,13 @@ def build_parser() -> argparse.ArgumentParser:
         description="Size stand-alone solar power systems from a load list and a site climate. "
                     "With no subcommand, opens the text interface.",
     )
+    from offgrid.commands.common import with_example
+
+    with_example(parser, "offgrid size --demo", "sizes the bundled demonstration project (an "
+                 "invented health post); `offgrid COMMAND --help` shows an example for each "
+                 "command.")
+    parser.add_argument(*VERSION_FLAGS, action=_VersionAction,
+                        help="print the version and exit")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     for name in COMMANDS:
         importlib.import_module(f"offgrid.commands.{name}").register(sub)
@@ -44,7 +73,7 @@ def build_parser() -> argparse.ArgumentParser:
 
 def main(argv: list[str] | None = None) -> int:
     argv = sys.argv[1:] if argv is None else argv
-    if not argv or (argv[0] not in COMMANDS and argv[0] not in ("-h", "--help")):
+    if not argv or (argv[0] not in COMMANDS and argv[0] not in ("-h", "--help", *VERSION_FLAGS)):
         ui = _ui_entry()
         if ui is not None:
             return ui(argv)

@@ -19,6 +19,15 @@ from offgrid.project.model import (
 )
 
 
+@pytest.fixture(autouse=True)
+def _private_user_library(tmp_path_factory, monkeypatch):
+    """The user's library (imported climates, own load lists) in a temporary folder: no test
+    reads or writes the real ``~/.local/share/offgrid``."""
+    monkeypatch.delenv("OFFGRID_HOME", raising=False)
+    monkeypatch.delenv("OFFGRID_DATA", raising=False)
+    monkeypatch.setenv("XDG_DATA_HOME", str(tmp_path_factory.mktemp("xdg-data")))
+
+
 def hand_project() -> Project:
     """The project of the hand-worked sizing in tests/test_sizing.py (invented)."""
     climate = MonthlyClimate(

@@ -1,4 +1,5 @@
-"""Climate files of our own format (TOML), bundled in the top-level ``climates/`` folder.
+"""Climate files of our own format (TOML): bundled in the top-level ``climates/`` folder, and
+the user's own in ``offgrid.paths.user_climates_dir()`` (written by ``offgrid climate import``).
 
 Format (schema 1)::
 
@@ -30,11 +31,13 @@ The full description is in docs/climate-format.md.
 
 from __future__ import annotations
 
+import math
 import os
 import tomllib
+from dataclasses import dataclass
 from pathlib import Path
 
-from offgrid.paths import climates_dir
+from offgrid.paths import climates_dir, user_climates_dir
 from offgrid.project.model import DailyClimate, MonthlyClimate
 
 CLIMATE_FORMAT = "offgrid-climate"
@@ -59,8 +62,102 @@ def bundled_climates() -> dict[str, Path]:
     return {p.stem: p for p in sorted(folder.glob(f"*{SUFFIX}"))}
 
 
+def user_climates() -> dict[str, Path]:
+    """Names and paths of the user's own climates (a bundled name is never shadowed)."""
+    folder = user_climates_dir()
+    if not folder.is_dir():
+        return {}
+    bundled = bundled_climates()
+    return {p.stem: p for p in sorted(folder.glob(f"*{SUFFIX}"))
+            if p.is_file() and p.stem not in bundled}
+
+
+#: Mean radius of the Earth, km (IUGG, Moritz 2000, Geodetic Reference System 1980).
+EARTH_RADIUS_KM = 6371.0
+
+
+def distance_km(lat1_deg: float, lon1_deg: float, lat2_deg: float, lon2_deg: float) -> float:
+    """Great-circle distance on a sphere [km] (haversine formula)."""
+    p1, p2 = math.radians(lat1_deg), math.radians(lat2_deg)
+    dp, dl = p2 - p1, math.radians(lon2_deg - lon1_deg)
+    a = math.sin(dp / 2) ** 2 + math.cos(p1) * math.cos(p2) * math.sin(dl / 2) ** 2
+    return 2.0 * EARTH_RADIUS_KM * math.asin(min(1.0, math.sqrt(a)))
+
+
+@dataclass(frozen=True)
+class ClimateEntry:
+    """One climate of the library, for listings and pickers (read from the file's header)."""
+
+    name: str  # what a project's ``[climate] ref`` says: the file name without .toml
+    path: Path
+    origin: str  # "bundled" or "yours"
+    title: str  # the display name in the file (``name = ...``), else ``name``
+    source: str = ""
+    demo: bool = False
+    latitude_deg: float | None = None
+    longitude_deg: float | None = None
+    elevation_m: float | None = None
+    daily: bool = False
+    error: str = ""  # why the file cannot be read ("" when it can)
+    distance_km: float | None = None  # from the site given to climate_library(near=...)
+
+
+def _entry(name: str, path: Path, origin: str, near: tuple[float, float] | None) -> ClimateEntry:
+    h = climate_header(path)
+    lat, lon = h.get("latitude_deg"), h.get("longitude_deg")
+    number = (int, float)
+    ok = isinstance(lat, number) and isinstance(lon, number) and not isinstance(lat, bool)
+    dist = distance_km(near[0], near[1], float(lat), float(lon)) if near and ok else None
+    return ClimateEntry(
+        name=name, path=path, origin=origin, title=str(h.get("name") or name),
+        source=str(h.get("source", "")), demo=bool(h.get("demo", False)),
+        latitude_deg=float(lat) if ok else None, longitude_deg=float(lon) if ok else None,
+        elevation_m=h.get("elevation_m") if isinstance(h.get("elevation_m"), number) else None,
+        daily=bool(h.get("daily", False)), error=str(h.get("error", "")), distance_km=dist)
+
+
+def climate_library(near: tuple[float, float] | None = None) -> list[ClimateEntry]:
+    """Every climate known by name: the bundled ones, then the user's.
+
+    ``near`` (latitude, longitude in degrees) fills ``distance_km`` and sorts the entries by
+    distance from that point (climates without coordinates last, by name).
+    """
+    entries = [_entry(n, p, "bundled", near) for n, p in bundled_climates().items()]
+    entries += [_entry(n, p, "yours", near) for n, p in user_climates().items()]
+    if near is not None:
+        entries.sort(key=lambda e: (e.distance_km is None, e.distance_km or 0.0, e.name))
+    return entries
+
+
+def find_climate(name: str) -> Path | None:
+    """A climate by library name (``kisanga-ridge-demo``, with or without ``.toml``): the
+    bundled one, else the user's; None when there is none. File paths are not searched (use
+    :func:`resolve_climate` for what a user or a project typed)."""
+    stem = name.removesuffix(SUFFIX)
+    if not stem or "/" in stem or "\\" in stem:
+        return None
+    return bundled_climates().get(stem) or user_climates().get(stem)
+
+
+def find_climate_entry(name: str) -> ClimateEntry | None:
+    """:func:`find_climate` with the header read (display name, source, origin)."""
+    path = find_climate(name)
+    if path is None:
+        return None
+    origin = "bundled" if path.parent == climates_dir() else "yours"
+    return _entry(path.stem, path, origin, None)
+
+
+def known_climate_names() -> str:
+    """The names a project can use, for messages: bundled, then the user's marked so."""
+    names = list(bundled_climates())
+    names += [f"{n} (yours)" for n in user_climates()]
+    return ", ".join(names) or "none"
+
+
 def resolve_climate(ref: str, base: Path | None = None) -> Path:
-    """Find a climate by bundled name, or by path (relative to ``base``, the project folder)."""
+    """Find a climate by path (relative to ``base``, the project folder, then the current
+    folder), else by library name (bundled, then the user's)."""
     candidates = []
     p = Path(ref).expanduser()
     if p.is_absolute():
@@ -69,17 +166,19 @@ def resolve_climate(ref: str, base: Path | None = None) -> Path:
         if base is not None:
             candidates.append(base / p)
         candidates.append(Path.cwd() / p)
-    candidates.append(climates_dir() / (ref if ref.endswith(SUFFIX) else ref + SUFFIX))
     for c in candidates:
         if c.is_file():
             return c
-    for c in candidates[:-1]:
+    found = find_climate(ref)
+    if found is not None:
+        return found
+    for c in candidates:
         if c.is_dir():
             raise ClimateFileError(f"climate '{ref}' is a folder, not a climate file: give the "
-                                   "file itself or a bundled climate name")
-    names = ", ".join(bundled_climates()) or "none"
+                                   "file itself or a climate name")
     raise ClimateFileError(
-        f"climate '{ref}' not found: give a file path or one of the bundled climates ({names})"
+        f"climate '{ref}' not found: give a file path or one of the climates "
+        f"({known_climate_names()}); see `offgrid climate list`"
     )
 
 

@@ -6,7 +6,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import STDIO, add_project_argument, fail, open_project, with_example
 
 
 def register(sub) -> None:
@@ -15,8 +15,12 @@ def register(sub) -> None:
                                    "(CSV), with unit prices and totals from the project's "
                                    "price list.")
     add_project_argument(p)
-    p.add_argument("-o", "--output", metavar="FILE", help="write the CSV to FILE")
+    p.add_argument("-o", "--output", metavar="FILE",
+                   help="write the CSV to FILE (default, or -: the standard output)")
     p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
+    with_example(p, "offgrid bom --demo -o parts.csv",
+                 "writes the demonstration project's bill of materials to parts.csv, priced "
+                 "from its price list.")
     p.set_defaults(func=run)
 
 
@@ -25,7 +29,7 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.result import DesignError
     from offgrid.sizing import design
 
-    out = Path(args.output) if args.output else None
+    out = Path(args.output) if args.output and args.output != STDIO else None
     if out is not None:
         check_writable(out, args.force)
     project, base = open_project(args)

@@ -6,7 +6,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import fail
+from offgrid.commands.common import STDIO, fail, with_example
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 _MARK = {"error": "!!", "warning": " !", "info": " -"}
@@ -18,23 +18,34 @@ def register(sub) -> None:
                                    "of typed monthly values, and the best array tilt.")
     csub = p.add_subparsers(dest="climate_command", metavar="ACTION")
 
-    q = csub.add_parser("list", help="list the bundled climates")
+    q = csub.add_parser("list", help="list the bundled climates and yours",
+                        description="Every climate a project can name: the bundled ones and "
+                                    "those you imported (marked yours), with coordinates, kind "
+                                    "of data and source.")
+    with_example(q, "offgrid climate list", "lists the climates by the name a project uses "
+                 "([climate] ref = \"NAME\"), yours marked as yours.")
     q.set_defaults(func=run_list)
 
     q = csub.add_parser("show", help="show a climate's monthly table, checks and best tilt")
-    q.add_argument("name", metavar="NAME", help="bundled climate name or climate file")
+    q.add_argument("name", metavar="NAME", help="climate name or climate file")
     _geometry_args(q)
     q.add_argument("--no-checks", action="store_true", help="skip the plausibility checks")
+    with_example(q, "offgrid climate show greensboro-nc-tmy3 --tilt 30",
+                 "prints the monthly table of the bundled Greensboro climate with the sun on "
+                 "a plane tilted 30 degrees towards the equator, and its checks.")
     q.set_defaults(func=run_show)
 
     q = csub.add_parser("import", help="turn a weather file into a climate file",
                         description="Import an EPW, TMY3 (.csv), TMY2 (.tm2) or monthly CSV file. "
                                     "Hourly files are reduced to monthly means and keep their "
-                                    "daily totals.")
-    q.add_argument("file", metavar="FILE")
+                                    "daily totals. The climate file goes into your offgrid "
+                                    "folder, where any project can name it.")
+    q.add_argument("file", metavar="FILE", help="the weather file; - reads the standard "
+                                                "input (then --kind is needed)")
     q.add_argument("--name", help="name of the climate (default: the station's)")
     q.add_argument("--out", metavar="PATH",
-                   help="climate file to write (default: NAME.toml in the current folder)")
+                   help="climate file to write instead (default: NAME.toml in your climates "
+                        "folder, see `offgrid climate list`; - writes to the standard output)")
     q.add_argument("--kind", choices=("epw", "tmy3", "tmy2", "monthly-csv"),
                    help="file format, when the name does not tell")
     q.add_argument("--unit", metavar="UNIT",
@@ -42,13 +53,17 @@ def register(sub) -> None:
     q.add_argument("--fix", action="store_true",
                    help="apply the suggested fix of a detected unit slip")
     q.add_argument("--force", action="store_true", help="overwrite an existing file")
+    with_example(q, "offgrid climate import upper-valley.epw --name \"Upper Valley\"",
+                 "reduces the weather year to twelve months (daily totals kept), checks it and "
+                 "keeps it as upper-valley in your climates; a project then names it with "
+                 "[climate] ref = \"upper-valley\".")
     q.set_defaults(func=run_import)
 
     q = csub.add_parser("check", help="check twelve monthly insolation values against physics",
                         description="Check a climate file, or twelve typed values, for an "
                                     "impossible clearness index, values above the clear sky and "
                                     "unit slips.")
-    q.add_argument("name", nargs="?", metavar="NAME", help="bundled climate name or file")
+    q.add_argument("name", nargs="?", metavar="NAME", help="climate name or file")
     q.add_argument("--values", metavar="'V1 ... V12'",
                    help="twelve monthly mean daily horizontal insolation values, January first")
     q.add_argument("--unit", metavar="UNIT", default="kWh/m2/day",
@@ -59,19 +74,26 @@ def register(sub) -> None:
     q.add_argument("--tilt", type=float, default=None,
                    help="array tilt for the low-sun check, degrees (default: the latitude, at "
                         "least 10)")
+    with_example(q, "offgrid climate check --values \"5 5.5 6 6 5.5 5 5 5.5 6 6 5.5 5\" "
+                 "--lat -3.4 --lon 36.9", "checks twelve typed monthly values (kWh/m2/day) "
+                 "against the clear sky at that latitude and longitude.")
     q.set_defaults(func=run_check)
 
     q = csub.add_parser("tilt", help="best tilt for the worst month and for the year",
                         description="Search the tilt that serves the worst month best, beside "
                                     "the tilt for the best annual yield.")
-    q.add_argument("name", metavar="NAME", help="bundled climate name or climate file")
+    q.add_argument("name", metavar="NAME", help="climate name or climate file")
     _geometry_args(q, tilt=False)
     q.add_argument("--demand", metavar="'W1 ... W12'",
                    help="daily demand of each month, Wh/day (default: the same every month)")
     q.add_argument("--min-tilt", type=float, default=10.0,
                    help="self-cleaning minimum tilt, degrees (default 10)")
+    with_example(q, "offgrid climate tilt kisanga-ridge-demo --min-tilt 15",
+                 "the tilt that serves the worst month best (at least 15 degrees) beside the "
+                 "best annual tilt, for the invented Kisanga Ridge climate.")
     q.set_defaults(func=run_tilt)
 
+    with_example(p, "offgrid climate list", "lists the climates a project can name.")
     p.set_defaults(func=lambda args: (p.print_help(), 2)[1])
 
 
@@ -194,25 +216,28 @@ def _horizon(args):
 
 
 def run_list(args) -> int:
-    from offgrid.climate.files import bundled_climates, climate_header
+    from offgrid.climate.files import climate_library
+    from offgrid.paths import user_climates_dir
 
-    items = bundled_climates()
+    items = climate_library()
     if not items:
-        print("No bundled climates found.")
-        return 0
-    print(f"{'NAME':<34} {'LAT':>7} {'LON':>8}  DATA")
-    for stem, path in items.items():
-        h = climate_header(path)
-        if "error" in h:
-            print(f"{stem:<34} unreadable: {h['error']}")
+        print("No climates found.")
+    else:
+        print(f"{'NAME':<30} {'LAT':>7} {'LON':>8}  {'DATA':<11}  FROM")
+    for e in items:
+        if e.error:
+            print(f"{e.name:<30} unreadable ({e.origin}): {e.error}")
             continue
-        lat = f"{h['latitude_deg']:.2f}" if h["latitude_deg"] is not None else "-"
-        lon = f"{h['longitude_deg']:.2f}" if h["longitude_deg"] is not None else "-"
-        kind = "demo" if h["demo"] else ("hourly year" if h["daily"] else "monthly")
-        print(f"{stem:<34} {lat:>7} {lon:>8}  {kind}")
-        print(_wrap(h["source"], indent="    ", width=79))
+        lat = f"{e.latitude_deg:.2f}" if e.latitude_deg is not None else "-"
+        lon = f"{e.longitude_deg:.2f}" if e.longitude_deg is not None else "-"
+        kind = "demo" if e.demo else ("hourly year" if e.daily else "monthly")
+        print(f"{e.name:<30} {lat:>7} {lon:>8}  {kind:<11}  {e.origin}")
+        about = e.source if e.title == e.name else f"{e.title}: {e.source}"
+        print(_wrap(about, indent="    ", width=79))
     print("\nDemo climates are invented demonstration data.")
-    print("Show one with `offgrid climate show NAME`.")
+    print(_wrap(f"Yours are kept in {user_climates_dir()} (add one with `offgrid climate "
+                "import FILE`). A project names a climate with [climate] ref = \"NAME\"; "
+                "show one with `offgrid climate show NAME`.", indent=""))
     return 0
 
 
@@ -355,43 +380,94 @@ def run_import(args) -> int:
     from offgrid.climate.importers import WeatherFileError, import_weather_file
 
     try:
-        result = import_weather_file(args.file, kind=args.kind, unit=args.unit)
+        if args.file == STDIO:
+            result = _import_stdin(args, import_weather_file)
+        else:
+            result = import_weather_file(args.file, kind=args.kind, unit=args.unit)
     except WeatherFileError as exc:
         fail(str(exc))
     climate = result.climate
+    # with --out -, the climate file goes to the standard output and this report to stderr
+    log = sys.stderr if args.out == STDIO else sys.stdout
     findings = list(result.findings)
     fixable = [f for f in findings if f.severity == "error" and f.fixes]
     if fixable and args.fix:
         for f in fixable:
             climate = apply_fix(climate, f)
-            print(f"applied: {f.fixes[0].label}")
+            print(f"applied: {f.fixes[0].label}", file=log)
         climate = replace(climate, source=climate.source + " (unit corrected on import: "
                           + "; ".join(f.fixes[0].label for f in fixable) + ")")
         findings = check_climate(climate)
     name = args.name or result.name
-    out = Path(args.out) if args.out else Path(f"{_file_stem(name)}.toml")
+    to_stdout = args.out == STDIO
+    if args.out:
+        out = Path(args.out)
+    else:
+        from offgrid.climate.files import bundled_climates
+        from offgrid.paths import user_climates_dir
+
+        stem = _file_stem(name)
+        if stem in bundled_climates():
+            fail(f"'{stem}' is the name of a bundled climate: choose another --name (or write "
+                 "the file elsewhere with --out PATH)")
+        out = user_climates_dir() / f"{stem}.toml"
     print(f"{Path(args.file).name}: {result.kind}, lat {climate.latitude_deg}, "
-          f"lon {climate.longitude_deg}, elevation {climate.elevation_m}")
-    print(_header_row())
-    print(_row("GHI", climate.insolation_kwh_m2_day))
-    print(_row("T mean", climate.temp_mean_c, "{:6.1f}"))
-    print("GHI: kWh/m2/day horizontal; T mean: C")
+          f"lon {climate.longitude_deg}, elevation {climate.elevation_m}", file=log)
+    print(_header_row(), file=log)
+    print(_row("GHI", climate.insolation_kwh_m2_day), file=log)
+    print(_row("T mean", climate.temp_mean_c, "{:6.1f}"), file=log)
+    print("GHI: kWh/m2/day horizontal; T mean: C", file=log)
     for note in result.notes:
-        print(_wrap(f"note: {note}", indent=""))
-    print_findings(findings)
+        print(_wrap(f"note: {note}", indent=""), file=log)
+    print_findings(findings, out=log)
     errors = [f for f in findings if f.severity == "error"]
     if errors:
         hint = " (run again with --fix to apply the suggested fix)" if any(
             f.fixes for f in errors) else ""
         fail(f"not written: {len(errors)} problem(s) to resolve first{hint}", code=1)
+    if to_stdout:
+        from offgrid.climate.files import dumps_climate
+
+        sys.stdout.write(dumps_climate(climate, name=name))
+        return 0
     if out.exists() and not args.force:
         fail(f"{out} exists: use --force to overwrite it, or --out PATH")
     try:
+        if not args.out:
+            out.parent.mkdir(parents=True, exist_ok=True)
         save_climate(climate, out, name=name)
     except OSError as exc:
         fail(f"{exc.filename or out}: cannot write the climate file: {exc.strerror or exc}")
     print(f"wrote {out}")
+    if not args.out:
+        print(f"A project names it with [climate] ref = \"{out.stem}\" "
+              f"(or --climate {out.stem}).")
     return 0
+
+
+_KIND_SUFFIX = {"epw": ".epw", "tmy3": ".csv", "tmy2": ".tm2", "monthly-csv": ".csv"}
+
+
+def _import_stdin(args, import_weather_file):
+    """Import a weather file piped into ``offgrid climate import - --kind KIND``."""
+    import tempfile
+
+    if not args.kind:
+        fail("FILE '-' reads the standard input: say what it is with --kind "
+             "(epw, tmy3, tmy2 or monthly-csv)")
+    if sys.stdin is None or sys.stdin.isatty():
+        fail("FILE '-' reads the standard input: pipe or redirect the weather file into "
+             "offgrid")
+    buffer = getattr(sys.stdin, "buffer", None)
+    data = buffer.read() if buffer is not None else sys.stdin.read().encode("utf-8")
+    with tempfile.TemporaryDirectory(prefix="offgrid-import-") as folder:
+        path = Path(folder) / f"standard-input{_KIND_SUFFIX[args.kind]}"
+        path.write_bytes(data)
+        result = import_weather_file(path, kind=args.kind, unit=args.unit)
+    from dataclasses import replace
+
+    source = result.climate.source.replace(path.name, "read from the standard input")
+    return replace(result, climate=replace(result.climate, source=source))
 
 
 def _file_stem(name: str) -> str:

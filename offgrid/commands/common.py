@@ -1,4 +1,5 @@
-"""Shared pieces of the subcommands: the PROJECT / --demo argument and error printing."""
+"""Shared pieces of the subcommands: the PROJECT / --demo argument, ``-`` for the standard
+streams, the worked example under each ``--help``, and error printing."""
 
 from __future__ import annotations
 
@@ -8,10 +9,44 @@ from pathlib import Path
 
 from offgrid.project.model import Project
 
+#: What ``-`` stands for in a file argument.
+STDIO = "-"
+
+
+class ExampleFormatter(argparse.HelpFormatter):
+    """Wraps the description as usual but keeps the ``Example:`` epilog line by line."""
+
+    def _fill_text(self, text: str, width: int, indent: str) -> str:
+        if text.startswith("Example:"):
+            return "".join(indent + line for line in text.splitlines(keepends=True))
+        return super()._fill_text(text, width, indent)
+
+
+def with_example(parser: argparse.ArgumentParser, command: str, what: str) -> None:
+    """Show one worked example (``command``, then what it does) at the end of ``--help``."""
+    import textwrap
+
+    parser.formatter_class = ExampleFormatter
+    lines = textwrap.wrap(what, width=74, initial_indent="    ", subsequent_indent="    ")
+    parser.epilog = "Example:\n  " + command + "\n" + "\n".join(lines)
+
+
+def read_stdin(what: str) -> str:
+    """The standard input as text, for a ``-`` argument; fails clearly at a terminal."""
+    if sys.stdin is None or sys.stdin.isatty():
+        fail(f"{what} '-' reads the standard input: pipe or redirect the file into offgrid "
+             "(for example: offgrid size - < project.toml)")
+    try:
+        return sys.stdin.read().removeprefix("\ufeff")
+    except UnicodeDecodeError:
+        fail(f"{what} '-': the standard input is not UTF-8 text; save the file as UTF-8")
+    raise AssertionError  # unreachable
+
 
 def add_project_argument(parser: argparse.ArgumentParser, required: bool = True) -> None:
     parser.add_argument("project", nargs="?", metavar="PROJECT",
-                        help="a saved project file (.toml)")
+                        help="a saved project file (.toml); - reads it from the standard "
+                             "input")
     parser.add_argument("--demo", action="store_true",
                         help="use the bundled demonstration project instead of PROJECT")
 
@@ -23,6 +58,13 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
 
     if args.demo and args.project:
         fail("give either PROJECT or --demo, not both")
+    if args.project == STDIO:
+        from offgrid.project.store import loads_project
+
+        try:
+            return loads_project(read_stdin("PROJECT"), source="standard input"), Path.cwd()
+        except ProjectFileError as exc:
+            fail(str(exc))
     path = demo_project_path() if args.demo else Path(args.project) if args.project else None
     if path is None:
         fail("name a project file, or use --demo for the bundled demonstration project")

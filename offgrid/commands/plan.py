@@ -7,7 +7,7 @@ import json
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import fail
+from offgrid.commands.common import STDIO, fail, read_stdin, with_example
 
 
 def register(sub) -> None:
@@ -16,7 +16,9 @@ def register(sub) -> None:
         description="Design every household and facility of a community survey (CSV), choose "
                     "a few standard kits at the least cost (or oversize), and total the parts "
                     "for procurement. Columns: docs/community-format.md.")
-    p.add_argument("survey", nargs="?", metavar="COMMUNITY.csv", help="community survey CSV")
+    p.add_argument("survey", nargs="?", metavar="COMMUNITY.csv",
+                   help="community survey CSV; - reads it from the standard input (names in "
+                        "it are then looked up from the current folder)")
     p.add_argument("--demo", action="store_true",
                    help="plan the bundled demonstration community (invented village)")
     how = p.add_mutually_exclusive_group()
@@ -42,6 +44,9 @@ def register(sub) -> None:
     p.add_argument("--json", action="store_true", help="print the plan as JSON")
     p.add_argument("--report", metavar="FILE", help="also write the plan: .md (report), "
                    ".csv (one line per row) or .json")
+    with_example(p, "offgrid plan --demo --kits 3 --report plan.md",
+                 "plans the invented Kisanga Ridge village with three standard kits and "
+                 "writes the plan as Markdown to plan.md.")
     p.set_defaults(func=run)
 
 
@@ -66,6 +71,15 @@ def run(args: argparse.Namespace) -> int:
     report = Path(args.report) if args.report else None
     if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
         fail(f"--report {report}: the file name must end in .md, .csv or .json")
+    if path == STDIO:
+        from offgrid.plan.community import plan_community
+        from offgrid.plan.survey import read_survey
+
+        text = read_stdin("COMMUNITY.csv")
+
+        def plan_file(_path, **options):  # the same options, the survey from the pipe
+            return plan_community(read_survey(text, source="standard input",
+                                              base_dir=Path.cwd()), **options)
     try:
         plan = plan_file(path, kits=args.kits, kit_type_cost=args.kit_cost, prices=args.prices,
                          objective=args.objective, climate=args.climate, jobs=args.jobs,

@@ -6,7 +6,14 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import (
+    STDIO,
+    add_project_argument,
+    fail,
+    open_project,
+    read_stdin,
+    with_example,
+)
 
 
 def register(sub) -> None:
@@ -20,9 +27,15 @@ def register(sub) -> None:
     act.add_argument("--template", action="store_true",
                      help="write a CSV of every part with its current price (blank if none)")
     act.add_argument("--import", dest="import_csv", metavar="CSV",
-                     help="read prices from CSV into the project file (a backup is kept)")
-    p.add_argument("-o", "--output", metavar="FILE", help="with --template: write to FILE")
+                     help="read prices from CSV into the project file (a backup is kept; "
+                          "- reads the standard input)")
+    p.add_argument("-o", "--output", metavar="FILE",
+                   help="with --template: write to FILE (default, or -: the standard output)")
     p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
+    with_example(p, "offgrid prices site.toml --template -o prices.csv",
+                 "writes every part of site.toml's design with its price (blank if none) to "
+                 "prices.csv; fill in unit_price, then `offgrid prices site.toml --import "
+                 "prices.csv`.")
     p.set_defaults(func=run)
 
 
@@ -51,12 +64,19 @@ def run(args: argparse.Namespace) -> int:
         if args.demo:
             fail("the bundled demonstration project is read-only; save a copy and import into "
                  "that")
+        if args.project == STDIO:
+            fail("--import saves into the project file: name the file, not -")
+        if args.import_csv == STDIO and args.project is None:
+            fail("name the project file to import the prices into")
         project, _ = open_project(args)
         src = Path(args.import_csv)
-        try:
-            text = src.read_text(encoding="utf-8")
-        except (OSError, UnicodeDecodeError) as exc:
-            fail(f"cannot read {src}: {exc}")
+        if args.import_csv == STDIO:
+            text, src = read_stdin("--import"), Path("the standard input")
+        else:
+            try:
+                text = src.read_text(encoding="utf-8")
+            except (OSError, UnicodeDecodeError) as exc:
+                fail(f"cannot read {src}: {exc}")
         try:
             new = read_price_csv(text, str(src))
         except PriceListError as exc:
@@ -83,7 +103,7 @@ def run(args: argparse.Namespace) -> int:
     bom = bill_of_materials(project, d)
     if args.template:
         text = price_template_csv(bom, project.prices)
-        if args.output:
+        if args.output and args.output != STDIO:
             from offgrid.commands.output import check_writable, write_output
 
             out = Path(args.output)

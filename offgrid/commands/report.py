@@ -6,7 +6,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import STDIO, add_project_argument, fail, open_project, with_example
 
 
 def register(sub) -> None:
@@ -20,12 +20,14 @@ def register(sub) -> None:
     p.add_argument("--format", choices=("html", "md", "txt"),
                    help="report format (default: from the -o suffix; txt on the standard "
                         "output, html for a file without a known suffix)")
-    p.add_argument("-o", "--output", metavar="FILE", help="write the report to FILE")
+    p.add_argument("-o", "--output", metavar="FILE",
+                   help="write the report to FILE (default, or -: the standard output)")
     p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
     p.add_argument("--no-charts", action="store_true", help="leave the charts out (HTML)")
     p.add_argument("--no-variants", action="store_true",
                    help="leave out the side-by-side comparison of the project's variants")
-    p.add_argument("--bom", metavar="CSV", help="also write the bill of materials as CSV")
+    p.add_argument("--bom", metavar="CSV", help="also write the bill of materials as CSV "
+                                                "(- for the standard output)")
     sim = p.add_argument_group("reliability")
     sim.add_argument("--simulate", action="store_true",
                      help="run the reliability simulation and include it (LOLP, state of "
@@ -34,6 +36,9 @@ def register(sub) -> None:
                      help="with --simulate: years of weather (default 30)")
     sim.add_argument("--seed", default="1", metavar="S",
                      help="with --simulate: seed of the weather generator (default 1)")
+    with_example(p, "offgrid report --demo -o demo-report.html",
+                 "writes the demonstration project's report as one HTML file with charts "
+                 "(-o - or no -o: text on the standard output).")
     p.set_defaults(func=run)
 
 
@@ -51,6 +56,10 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.commands.output import check_writable, write_output
     from offgrid.result import DesignError
 
+    if args.output == STDIO and args.bom == STDIO:
+        fail("-o - and --bom - cannot both use the standard output: give one of them a file")
+    if args.output == STDIO:
+        args.output = None
     fmt = choose_format(args.format, args.output)
     years, seed = 30, 1
     if args.simulate:
@@ -61,7 +70,7 @@ def run(args: argparse.Namespace) -> int:
         except ValueError as exc:
             fail(str(exc))
     out = Path(args.output) if args.output else None
-    bom_path = Path(args.bom) if args.bom else None
+    bom_path = Path(args.bom) if args.bom and args.bom != STDIO else None
     if out is not None:
         check_writable(out, args.force)
     if bom_path is not None:
@@ -82,10 +91,13 @@ def run(args: argparse.Namespace) -> int:
                            years=years, seed=seed)
     except (ValueError, DesignError) as exc:
         fail(f"cannot build the report: {exc}; no report was written", code=3)
-    if bom_path is not None:
+    if bom_path is not None or args.bom == STDIO:
         from offgrid.report.export import bom_text
 
-        write_output(bom_path, bom_text(project, result))
+        if bom_path is None:
+            sys.stdout.write(bom_text(project, result))
+        else:
+            write_output(bom_path, bom_text(project, result))
     if out is None:
         sys.stdout.write(text)
         return 0

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 import json
 
-from offgrid.commands.common import add_project_argument, design_failed, fail
+from offgrid.commands.common import add_project_argument, design_failed, fail, with_example
 
 
 def register(sub) -> None:
@@ -34,6 +34,9 @@ def register(sub) -> None:
     from offgrid.commands.size import add_quick_arguments
 
     add_quick_arguments(p)
+    with_example(p, "offgrid simulate --demo --years 10 --array-price 0.6 --battery-price 180",
+                 "ten synthetic weather years of the demonstration project: LOLP, battery "
+                 "wear, and the cheapest array/battery pair at 0.6 per W and 180 per kWh.")
     p.set_defaults(func=run)
 
 

@@ -4,13 +4,17 @@ from __future__ import annotations
 
 import argparse
 import json
+from pathlib import Path
 
 from offgrid.commands.common import (
+    STDIO,
     add_project_argument,
     design_failed,
     fail,
     first_field,
     open_project,
+    read_stdin,
+    with_example,
 )
 
 
@@ -21,15 +25,21 @@ def register(sub) -> None:
     add_project_argument(p)
     p.add_argument("--json", action="store_true", help="print the design as JSON")
     add_quick_arguments(p)
+    with_example(p, "offgrid size --loads household-kit --climate kisanga-ridge-demo "
+                 "--autonomy-days 3", "sizes the bundled household load list on the invented "
+                 "Kisanga Ridge climate with three days of autonomy (--demo sizes the whole "
+                 "demonstration project; --json prints the design as JSON).")
     p.set_defaults(func=run)
 
 
 def add_quick_arguments(p: argparse.ArgumentParser) -> None:
     """--loads and --climate (a quick design without a project file) and the overrides."""
     quick = p.add_argument_group("quick design without a project file")
-    quick.add_argument("--loads", metavar="LOADS.csv", help="load list CSV")
+    quick.add_argument("--loads", metavar="LOADS.csv",
+                       help="load list CSV, or a load list's name (see `offgrid loads list`); "
+                            "- reads it from the standard input")
     quick.add_argument("--climate", metavar="CLIMATE",
-                       help="bundled climate name or climate file (see `offgrid climate list`)")
+                       help="climate name or climate file (see `offgrid climate list`)")
     quick.add_argument("--autonomy-days", type=float, metavar="N")
     quick.add_argument("--max-dod", type=float, metavar="F", help="maximum depth of discharge 0-1")
     quick.add_argument("--controller", choices=("pwm", "mppt"))
@@ -50,16 +60,12 @@ def project_from_args(args: argparse.Namespace):
 def quick_project(args: argparse.Namespace):
     """A project built from --loads and --climate with default parts."""
     from offgrid.climate.files import ClimateFileError, load_climate
-    from offgrid.project.loads_csv import LoadListError, load_loads_csv
     from offgrid.project.model import ClimateChoice, Project, ProjectInfo, Site
 
     if not (args.loads and args.climate):
         fail("a quick design needs both --loads LOADS.csv and --climate CLIMATE",
              field="--climate" if args.loads else "--loads")
-    try:
-        loads = load_loads_csv(args.loads)
-    except LoadListError as exc:
-        fail(str(exc), field=first_field(exc))
+    loads = read_load_list(args.loads)
     try:
         climate = load_climate(args.climate)
     except ClimateFileError as exc:
@@ -71,6 +77,26 @@ def quick_project(args: argparse.Namespace):
                 longitude_deg=climate.longitude_deg or 0.0, elevation_m=climate.elevation_m or 0.0)
     return Project(info=ProjectInfo(name=f"Quick design: {args.loads}"), site=site,
                    climate=ClimateChoice(ref=args.climate), loads=loads)
+
+
+def read_load_list(ref: str):
+    """The loads of ``--loads``: ``-`` (standard input), a CSV file, or a load list's name."""
+    from offgrid.paths import load_list_library, resolve_load_list
+    from offgrid.project.loads_csv import LoadListError, load_loads_csv, read_loads_csv
+
+    try:
+        if ref == STDIO:
+            return read_loads_csv(read_stdin("--loads"), source="standard input")
+        path = resolve_load_list(ref)
+        if path is None and not Path(ref).suffix and "/" not in ref:
+            names = ", ".join(n if o == "bundled" else f"{n} (yours)"
+                              for n, _p, o in load_list_library()) or "none"
+            fail(f"--loads {ref}: no such file or load list name; give a CSV file or one of "
+                 f"{names} (see `offgrid loads list`)", field="--loads")
+        return load_loads_csv(path or ref)
+    except LoadListError as exc:
+        fail(str(exc), field=first_field(exc))
+    raise AssertionError  # unreachable
 
 
 def apply_overrides(project, args: argparse.Namespace) -> None:

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 import json
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import add_project_argument, fail, open_project, with_example
 
 
 def register(sub) -> None:
@@ -15,6 +15,8 @@ def register(sub) -> None:
                                    "that differs from the base design).")
     add_project_argument(p)
     p.add_argument("--json", action="store_true", help="print the comparison as JSON")
+    with_example(p, "offgrid variants --demo", "the demonstration project's variants beside "
+                 "its base design, differing figures marked with *.")
     p.set_defaults(func=run)
 
 

@@ -51,6 +51,47 @@ def climate_name(project: Project) -> str:
     return "none yet: press c to choose"
 
 
+#: Width of a picker line (the wide dialog is 78 columns, less border, padding and scrollbar).
+PICKER_WIDTH = 70
+
+
+def climate_picker_entries(latitude_deg: float, longitude_deg: float):
+    """The climates to offer (bundled and the user's) and how they are sorted.
+
+    Nearest first from the site; a site still at 0, 0 (not set yet) sorts them by display
+    name instead. Returns ``(entries, "distance" | "name")``.
+    """
+    from offgrid.climate.files import climate_library
+
+    if latitude_deg == 0 and longitude_deg == 0:
+        return sorted(climate_library(), key=lambda e: (e.title.lower(), e.name)), "name"
+    return climate_library(near=(latitude_deg, longitude_deg)), "distance"
+
+
+def _distance_text(km: float | None) -> str:
+    if km is None:
+        return "no coordinates"
+    return f"{km:.1f} km" if km < 10 else f"{km:,.0f} km"
+
+
+def climate_option_label(entry) -> Text:
+    """Two lines: the display name with distance and origin; the source, dimmed."""
+    title = printable(entry.title)
+    if entry.demo and "demo" not in title.lower():
+        title += " (demonstration data)"
+    right = f"{_distance_text(entry.distance_km) if entry.distance_km is not None else ''}"
+    right = f"{right} \u00b7 {entry.origin}" if right else entry.origin
+    room = PICKER_WIDTH - len(right) - 2
+    if len(title) > room:
+        title = title[:room - 1] + "\u2026"
+    source = printable(entry.source or "source not given").replace("\n", " ")
+    if len(source) > PICKER_WIDTH - 2:
+        source = source[:PICKER_WIDTH - 3] + "\u2026"
+    return Text.assemble((title, "bold"), " " * (PICKER_WIDTH - len(title) - len(right)),
+                         (right, "italic" if entry.origin == "yours" else ""), "\n",
+                         ("  " + source, "dim"))
+
+
 def checked_climate(climate: MonthlyClimate) -> None:
     """Raise ValueError (with the field) if the climate could not be saved and read back."""
     from offgrid.climate.files import climate_from_dict, climate_to_dict
@@ -281,24 +322,25 @@ class PlaceSection(Section):
 
     # ------------------------------------------------------------------ climate choice
     def action_choose_climate(self) -> None:
-        from offgrid.climate.files import bundled_climates, load_climate
-
+        site = self.session.project.site
+        entries, sorted_by = climate_picker_entries(site.latitude_deg, site.longitude_deg)
         options: list[tuple[object, str | Text]] = []
-        for name, path in bundled_climates().items():
-            try:
-                c = load_climate(path)
-                where = (f"  lat {c.latitude_deg:g}" if c.latitude_deg is not None else "")
-                demo = "  (demonstration data)" if c.demo else ""
-                options.append((("ref", name), f"{name}{where}{demo}"))
-            except ValueError as exc:
-                options.append((("bad", name), f"{name}: cannot be read ({exc})"))
+        for e in entries:
+            if e.error:
+                options.append((("bad", e.name), Text(f"{printable(e.title)}: cannot be read "
+                                                      f"({printable(e.error)})")))
+            else:
+                options.append((("ref", e.name), climate_option_label(e)))
         options.append((("own", ""), "Type twelve monthly values (starts from the current "
                         "climate)"))
         options.append((("file", ""), "Import a weather file: EPW, TMY3, TMY2, monthly CSV, or "
                         "an offgrid climate (.toml)..."))
         current = self.session.project.climate
         now = ("ref", current.ref) if current.ref else ("own", "") if current.inline else None
-        self.app.push_screen(ChoiceDialog("Climate for this site", options, now),
+        note = ("nearest first from the site" if sorted_by == "distance" else
+                "by name (set the site's latitude and longitude for nearest first)")
+        note += " \u00b7 yours: from `offgrid climate import`"
+        self.app.push_screen(ChoiceDialog("Climate for this site", options, now, note=note),
                              self._climate_chosen)
 
     def _climate_chosen(self, choice) -> None:
