@@ -6,7 +6,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import add_project_argument, fail, open_project, reading_path
 
 
 def register(sub) -> None:
@@ -27,7 +27,7 @@ def run(args: argparse.Namespace) -> int:
 
     out = Path(args.output) if args.output else None
     if out is not None:
-        check_writable(out, args.force)
+        check_writable(out, args.force, reading_path(args))
     project, base = open_project(args)
     try:
         result = design(project, base)
@@ -39,6 +39,6 @@ def run(args: argparse.Namespace) -> int:
     if out is None:
         sys.stdout.write(text)
     else:
-        write_output(out, text)
+        write_output(out, text, reading_path(args))
         print(f"offgrid: wrote {out}", file=sys.stderr)
     return 0

@@ -354,6 +354,11 @@ def run_import(args) -> int:
         hint = " (run again with --fix to apply the suggested fix)" if any(
             f.fixes for f in errors) else ""
         fail(f"not written: {len(errors)} problem(s) to resolve first{hint}", code=1)
+    from offgrid.report.export import overwrite_refusal
+
+    refusal = overwrite_refusal(out)
+    if refusal:
+        fail(f"--out {refusal}")
     if out.exists() and not args.force:
         fail(f"{out} exists: use --force to overwrite it, or --out PATH")
     try:

@@ -66,6 +66,12 @@ def run(args: argparse.Namespace) -> int:
     report = Path(args.report) if args.report else None
     if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
         fail(f"--report {report}: the file name must end in .md, .csv or .json")
+    if report is not None:
+        from offgrid.report.export import overwrite_refusal
+
+        refusal = overwrite_refusal(report)
+        if refusal:
+            fail(f"--report {refusal}")
     try:
         plan = plan_file(path, kits=args.kits, kit_type_cost=args.kit_cost, prices=args.prices,
                          objective=args.objective, climate=args.climate, jobs=args.jobs,
@@ -100,6 +106,11 @@ def write_report(plan, path: Path) -> None:
         text = rows_csv(plan)
     else:
         text = json.dumps(plan.to_dict(), indent=2, ensure_ascii=False) + "\n"
+    from offgrid.report.export import overwrite_refusal
+
+    refusal = overwrite_refusal(path)
+    if refusal:
+        fail(f"--report {refusal}")
     try:
         atomic_write_text(path, text, backup=True)
     except OSError as exc:

@@ -6,7 +6,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import add_project_argument, fail, open_project
+from offgrid.commands.common import add_project_argument, fail, open_project, reading_path
 
 
 def register(sub) -> None:
@@ -63,9 +63,9 @@ def run(args: argparse.Namespace) -> int:
     out = Path(args.output) if args.output else None
     bom_path = Path(args.bom) if args.bom else None
     if out is not None:
-        check_writable(out, args.force)
+        check_writable(out, args.force, reading_path(args))
     if bom_path is not None:
-        check_writable(bom_path, args.force)
+        check_writable(bom_path, args.force, reading_path(args))
     project, base = open_project(args)
 
     from offgrid.report import make_report
@@ -85,10 +85,10 @@ def run(args: argparse.Namespace) -> int:
     if bom_path is not None:
         from offgrid.report.export import bom_text
 
-        write_output(bom_path, bom_text(project, result))
+        write_output(bom_path, bom_text(project, result), reading_path(args))
     if out is None:
         sys.stdout.write(text)
         return 0
-    write_output(out, text)
+    write_output(out, text, reading_path(args))
     print(f"offgrid: wrote {out} ({fmt}, {len(text.encode('utf-8')):,} bytes)", file=sys.stderr)
     return 0
