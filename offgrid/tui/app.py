@@ -276,7 +276,7 @@ class OffgridApp(App):
                 "since you opened or last saved it, so your changes are not saved yet. "
                 f"Overwriting keeps the other version as {path.name}.bak.",
                 [("c", "Save mine as a copy", "copy"), ("r", "Reload theirs", "reload"),
-                 ("o", "Overwrite theirs", "overwrite")]),
+                 ("o", "Overwrite theirs", "overwrite")], wide=True),
                 lambda answer: self._changed_on_disk(answer, path, then))
             return
         except EditRejected as exc:
