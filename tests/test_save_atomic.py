@@ -279,3 +279,60 @@ def test_export_functions_refuse_the_project_being_read(project_file, tmp_path):
     with pytest.raises(ExportError, match="an offgrid project file"):
         export_bom(project, project_file, tmp_path, force=True)
     assert project_file.read_bytes() == before
+
+
+def test_without_hard_links_the_backup_is_a_copy(tmp_path, monkeypatch):
+    """Some file systems (FAT, some network shares) refuse link(2): copy, never move."""
+    import errno
+
+    path = tmp_path / "p.toml"
+    save_project(hand_project(), path)
+    first = path.read_text()
+
+    def no_links(*_args, **_kwargs):
+        raise OSError(errno.EPERM, "Operation not permitted")
+
+    monkeypatch.setattr(os, "link", no_links)
+    p = hand_project()
+    p.info.name = "Second"
+    save_project(p, path)
+    assert (tmp_path / "p.toml.bak").read_text() == first
+    assert load_project(path).info.name == "Second"
+    assert sorted(os.listdir(tmp_path)) == ["p.toml", "p.toml.bak"]
+
+
+@pytest.mark.skipif(os.geteuid() != 0, reason="only root can give a file to another owner")
+def test_save_keeps_the_owner_where_allowed(tmp_path):
+    path = tmp_path / "p.toml"
+    save_project(hand_project(), path)
+    os.chown(path, 12345, 23456)
+    save_project(hand_project(), path)
+    st = os.stat(path)
+    assert (st.st_uid, st.st_gid) == (12345, 23456)
+
+
+def test_a_pipe_or_a_folder_is_never_written_as_a_project(tmp_path):
+    fifo = tmp_path / "p.toml"
+    os.mkfifo(fifo)
+    with pytest.raises(OSError, match="not a regular file"):
+        save_project(hand_project(), fifo)
+    assert stat.S_ISFIFO(os.stat(fifo).st_mode)
+    folder = tmp_path / "d.toml"
+    folder.mkdir()
+    with pytest.raises(IsADirectoryError):
+        save_project(hand_project(), folder)
+    assert sorted(os.listdir(tmp_path)) == ["d.toml", "p.toml"]
+
+
+def test_the_text_ui_session_follows_the_same_symlink_rule(tmp_path):
+    from offgrid.tui.session import Session
+
+    target = tmp_path / "real.toml"
+    save_project(hand_project(), target)
+    link = tmp_path / "link.toml"
+    link.symlink_to(target)
+    s = Session.open(link)
+    s.project.info.name = "From the UI"
+    s.save()
+    assert link.is_symlink() and load_project(target).info.name == "From the UI"
+    assert (tmp_path / "real.toml.bak").is_file() and not (tmp_path / "link.toml.bak").exists()
