@@ -222,7 +222,7 @@ def test_no_output_is_written_over_a_project_even_with_force(capsys, project_fil
     before = {f: f.read_bytes() for f in names.values()}
     code, err = _run(capsys, *(a.format(**names) for a in argv))
     assert code == 2, err
-    assert "never written over a project" in err and "not even with --force" in err
+    assert "no output is ever written over a project, even when forced" in err
     assert {f: f.read_bytes() for f in names.values()} == before
 
 
@@ -336,3 +336,17 @@ def test_the_text_ui_session_follows_the_same_symlink_rule(tmp_path):
     s.save()
     assert link.is_symlink() and load_project(target).info.name == "From the UI"
     assert (tmp_path / "real.toml.bak").is_file() and not (tmp_path / "link.toml.bak").exists()
+
+
+def test_climate_import_and_plan_report_refuse_a_project_as_output(capsys, project_file):
+    from tests.climate_support import TMY3_GREENSBORO, pvlib_data
+
+    before = project_file.read_bytes()
+    code, err = _run(capsys, "climate", "import", str(pvlib_data() / TMY3_GREENSBORO),
+                     "--out", str(project_file), "--force")
+    assert code == 2 and "no output is ever written over a project" in err
+    disguised = project_file.with_suffix(".md")  # a project under a report's name
+    disguised.write_bytes(before)
+    code, err = _run(capsys, "plan", "--demo", "--report", str(disguised))
+    assert code == 2 and "no output is ever written over a project" in err
+    assert project_file.read_bytes() == before and disguised.read_bytes() == before

@@ -78,8 +78,8 @@ def overwrite_refusal(path: str | os.PathLike, reading: str | os.PathLike | None
             same = os.path.samefile(p, reading)
     if same or is_project_file(p):
         which = "the project being read" if same else "an offgrid project file"
-        return (f"{p} is {which}: an output is never written over a project (not even with "
-                "--force); choose another file name")
+        return (f"{p} is {which}: no output is ever written over a project, even when "
+                "forced (--force, or a yes to replace it); choose another file name")
     return None
 
 
