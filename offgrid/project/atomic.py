@@ -140,7 +140,7 @@ def clean_stray_temp_files(path: str | os.PathLike) -> list[Path]:
     """Remove :func:`stray_temp_files` of ``path``; returns what was removed."""
     removed = []
     for f in stray_temp_files(path):
-        with contextlib.suppress(FileNotFoundError):
+        with contextlib.suppress(OSError):  # gone already, or not ours to remove: never fatal
             f.unlink()
             removed.append(f)
     return removed

@@ -251,9 +251,12 @@ class OffgridApp(App):
                     path = path.with_suffix(".toml")
                 if path.exists() and (session.path is None or
                                       path.resolve() != session.path):
+                    from offgrid.project.atomic import real_target
+
                     self.push_screen(ConfirmDialog(
                         "Replace file?", f"{path} exists. Replace it? (the old one is kept as "
-                        f"{path.name}.bak)", [("y", "Replace it", "yes"), ("n", "Keep it", "no")]),
+                        f"{real_target(path).name}.bak)",
+                        [("y", "Replace it", "yes"), ("n", "Keep it", "no")]),
                         lambda a: self._save_to(path, then) if a == "yes" else None)
                 else:
                     self._save_to(path, then)

@@ -214,15 +214,6 @@ class Session:
         """Problems that would make the saved file unreadable (e.g. no climate chosen)."""
         return validate_project(self.project)
 
-    def changed_on_disk(self) -> bool:
-        """True if the project's file differs from what this session last read or wrote."""
-        if self.path is None:
-            return False
-        now = fingerprint(self.path)
-        if now is None and self.disk is None:
-            return False
-        return now is None or self.disk is None or now.sha256 != self.disk.sha256
-
     def save(self, path: str | Path | None = None, overwrite: bool = False) -> Path:
         """Save atomically (with NAME.toml.bak); the session then points at that file.
 

@@ -145,6 +145,22 @@ async def test_export_keys_refuse_to_write_over_a_project(state, tmp_path):
     assert {f: f.read_bytes() for f in (target, other)} == before
 
 
+async def test_the_load_list_export_refuses_to_write_over_the_project(state, tmp_path):
+    target = copy_demo(tmp_path)
+    before = target.read_bytes()
+    app = make_app(target, state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await pilot.press("2")
+        await pilot.pause()
+        await pilot.press("e")
+        await pilot.pause()
+        assert isinstance(app.screen, PathDialog)
+        await type_into(pilot, str(target))
+        assert not isinstance(app.screen, ConfirmDialog)  # refused, not asked
+    assert target.read_bytes() == before
+
+
 async def test_the_demo_still_saves_as_a_new_file(state, tmp_path):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
