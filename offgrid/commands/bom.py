@@ -6,7 +6,14 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import STDIO, add_project_argument, fail, open_project, with_example
+from offgrid.commands.common import (
+    STDIO,
+    add_project_argument,
+    fail,
+    open_project,
+    reading_path,
+    with_example,
+)
 
 
 def register(sub) -> None:
@@ -31,7 +38,7 @@ def run(args: argparse.Namespace) -> int:
 
     out = Path(args.output) if args.output and args.output != STDIO else None
     if out is not None:
-        check_writable(out, args.force)
+        check_writable(out, args.force, reading_path(args))
     project, base = open_project(args)
     try:
         result = design(project, base)
@@ -43,6 +50,6 @@ def run(args: argparse.Namespace) -> int:
     if out is None:
         sys.stdout.write(text)
     else:
-        write_output(out, text)
+        write_output(out, text, reading_path(args))
         print(f"offgrid: wrote {out}", file=sys.stderr)
     return 0

@@ -430,6 +430,11 @@ def run_import(args) -> int:
 
         sys.stdout.write(dumps_climate(climate, name=name))
         return 0
+    from offgrid.report.export import overwrite_refusal
+
+    refusal = overwrite_refusal(out)
+    if refusal:
+        fail(f"--out {refusal}")
     if out.exists() and not args.force:
         fail(f"{out} exists: use --force to overwrite it, or --out PATH")
     try:

@@ -51,6 +51,16 @@ def add_project_argument(parser: argparse.ArgumentParser, required: bool = True)
                         help="use the bundled demonstration project instead of PROJECT")
 
 
+def reading_path(args: argparse.Namespace) -> Path | None:
+    """The project file a command reads (PROJECT, or the bundled demo), or None."""
+    from offgrid.paths import demo_project_path
+
+    if getattr(args, "demo", False):
+        return demo_project_path()
+    project = getattr(args, "project", None)
+    return Path(project) if project and project != STDIO else None  # "-": no file to guard
+
+
 def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
     """The project named by PROJECT or --demo; raises SystemExit(2) with a message on failure."""
     from offgrid.paths import demo_project_path

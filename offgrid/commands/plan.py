@@ -71,6 +71,12 @@ def run(args: argparse.Namespace) -> int:
     report = Path(args.report) if args.report else None
     if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
         fail(f"--report {report}: the file name must end in .md, .csv or .json")
+    if report is not None:
+        from offgrid.report.export import overwrite_refusal
+
+        refusal = overwrite_refusal(report)
+        if refusal:
+            fail(f"--report {refusal}")
     if path == STDIO:
         from offgrid.plan.community import plan_community
         from offgrid.plan.survey import read_survey
@@ -114,6 +120,11 @@ def write_report(plan, path: Path) -> None:
         text = rows_csv(plan)
     else:
         text = json.dumps(plan.to_dict(), indent=2, ensure_ascii=False) + "\n"
+    from offgrid.report.export import overwrite_refusal
+
+    refusal = overwrite_refusal(path)
+    if refusal:
+        fail(f"--report {refusal}")
     try:
         atomic_write_text(path, text, backup=True)
     except OSError as exc:

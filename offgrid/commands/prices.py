@@ -12,6 +12,7 @@ from offgrid.commands.common import (
     fail,
     open_project,
     read_stdin,
+    reading_path,
     with_example,
 )
 
@@ -68,6 +69,9 @@ def run(args: argparse.Namespace) -> int:
             fail("--import saves into the project file: name the file, not -")
         if args.import_csv == STDIO and args.project is None:
             fail("name the project file to import the prices into")
+        from offgrid.project.atomic import fingerprint
+
+        seen = fingerprint(args.project) if args.project else None  # before reading it
         project, _ = open_project(args)
         src = Path(args.import_csv)
         if args.import_csv == STDIO:
@@ -84,6 +88,7 @@ def run(args: argparse.Namespace) -> int:
         if not new:
             fail(f"{src} has no prices filled in; nothing was changed")
         project.prices = merge_prices(project.prices, new)
+        from offgrid.project.atomic import ChangedOnDisk, real_target
         from offgrid.project.store import save_project
         from offgrid.project.validate import validate_project
 
@@ -91,11 +96,15 @@ def run(args: argparse.Namespace) -> int:
         if problems:
             fail("; ".join(str(p) for p in problems))
         try:
-            save_project(project, args.project)
+            save_project(project, args.project, expect=seen)
+        except ChangedOnDisk:
+            fail(f"{args.project} was changed by another program while the prices were "
+                 "being read; nothing was written. Run the import again (on the new version)")
         except OSError as exc:
             fail(f"cannot save {args.project}: {exc}; the project file was not changed")
+        bak = real_target(args.project).with_name(real_target(args.project).name + ".bak")
         print(f"offgrid: {len(new)} price(s) from {src} saved in {args.project} "
-              f"(previous version kept as {args.project}.bak)", file=sys.stderr)
+              f"(previous version kept as {bak})", file=sys.stderr)
         return 0
 
     project, base = open_project(args)
@@ -107,8 +116,8 @@ def run(args: argparse.Namespace) -> int:
             from offgrid.commands.output import check_writable, write_output
 
             out = Path(args.output)
-            check_writable(out, args.force)
-            write_output(out, text)
+            check_writable(out, args.force, reading_path(args))
+            write_output(out, text, reading_path(args))
             print(f"offgrid: wrote {out}; fill in unit_price and load it with --import",
                   file=sys.stderr)
         else:

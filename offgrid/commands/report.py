@@ -6,7 +6,14 @@ import argparse
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import STDIO, add_project_argument, fail, open_project, with_example
+from offgrid.commands.common import (
+    STDIO,
+    add_project_argument,
+    fail,
+    open_project,
+    reading_path,
+    with_example,
+)
 
 
 def register(sub) -> None:
@@ -72,9 +79,9 @@ def run(args: argparse.Namespace) -> int:
     out = Path(args.output) if args.output else None
     bom_path = Path(args.bom) if args.bom and args.bom != STDIO else None
     if out is not None:
-        check_writable(out, args.force)
+        check_writable(out, args.force, reading_path(args))
     if bom_path is not None:
-        check_writable(bom_path, args.force)
+        check_writable(bom_path, args.force, reading_path(args))
     project, base = open_project(args)
 
     from offgrid.report import make_report
@@ -97,10 +104,10 @@ def run(args: argparse.Namespace) -> int:
         if bom_path is None:
             sys.stdout.write(bom_text(project, result))
         else:
-            write_output(bom_path, bom_text(project, result))
+            write_output(bom_path, bom_text(project, result), reading_path(args))
     if out is None:
         sys.stdout.write(text)
         return 0
-    write_output(out, text)
+    write_output(out, text, reading_path(args))
     print(f"offgrid: wrote {out} ({fmt}, {len(text.encode('utf-8')):,} bytes)", file=sys.stderr)
     return 0

@@ -3,8 +3,10 @@
 * :func:`load_project` parses, converts and validates, and raises
   :class:`ProjectFileError` listing every problem with its dotted path, the
   line where it stands and a hint.  A file that failed to load is never written.
-* :func:`save_project` writes atomically (temporary file in the same folder,
-  fsync, rename) and keeps the previous version as ``NAME.toml.bak``.
+* :func:`save_project` writes atomically and keeps the previous version as
+  ``NAME.toml.bak`` (:mod:`offgrid.project.atomic`: the file exists whole at every
+  moment; a symlink is kept and its target written; the mode is kept; a file changed
+  by someone else since it was read is not overwritten).
 * Tables this version does not know are kept in ``Project.extra`` and written
   back unchanged.
 """
@@ -14,7 +16,6 @@ from __future__ import annotations
 import dataclasses
 import os
 import re
-import tempfile
 import tomllib
 import types
 import typing
@@ -22,6 +23,12 @@ from pathlib import Path
 from typing import Any, Literal, get_args, get_origin, get_type_hints
 
 from offgrid.climate.files import ClimateFileError, climate_from_dict, climate_to_dict
+from offgrid.project.atomic import (  # noqa: F401  (atomic_write_text: used from here)
+    ChangedOnDisk,
+    Fingerprint,
+    atomic_write_text,
+    write_atomic,
+)
 from offgrid.project.loads_csv import format_months, parse_months
 from offgrid.project.model import (
     FORMAT_NAME,
@@ -44,43 +51,6 @@ class ProjectFileError(ValueError):
 
 
 # ----------------------------------------------------------------------------- writing
-
-def atomic_write_text(path: str | os.PathLike, text: str, backup: bool = True) -> Path:
-    """Write ``text`` to ``path`` atomically; keep the old file as ``path + '.bak'``."""
-    import errno
-
-    target = Path(path)
-    folder = target.parent if str(target.parent) else Path(".")
-    if target.is_dir():  # never move a folder aside as a "backup"
-        raise IsADirectoryError(errno.EISDIR, "is a folder, not a file: give a file name",
-                                str(target))
-    if not folder.is_dir():
-        raise FileNotFoundError(errno.ENOENT, "the folder does not exist: create it first or "
-                                "choose another", str(folder))
-    fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
-            fh.write(text)
-            fh.flush()
-            os.fsync(fh.fileno())
-        if backup and target.exists():
-            bak = target.with_name(target.name + ".bak")
-            os.replace(target, bak)
-        os.replace(tmp, target)
-        try:
-            dfd = os.open(folder, os.O_RDONLY)
-            try:
-                os.fsync(dfd)
-            finally:
-                os.close(dfd)
-        except OSError:
-            pass
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
-    return target
-
 
 #: Written for an optional field left empty whose default is a value (e.g. a Voc coefficient
 #: not on the datasheet), so that saving and loading keeps it empty.
@@ -146,9 +116,17 @@ def dumps_project(project: Project) -> str:
     return head + dumps(project_to_dict(project))
 
 
-def save_project(project: Project, path: str | os.PathLike) -> Path:
-    """Validate lightly (must serialise), then write atomically with a backup."""
-    return atomic_write_text(path, dumps_project(project))
+def save_project(project: Project, path: str | os.PathLike, *,
+                 expect: Fingerprint | Literal[False] | None = False) -> Fingerprint:
+    """Write atomically with a backup (see :mod:`offgrid.project.atomic`).
+
+    ``expect``: the file's :class:`Fingerprint` when it was read (None: there was no
+    file); if the file on disk differs, :class:`ChangedOnDisk` is raised and nothing is
+    written. ``False`` (the default) writes without that check. Returns the new
+    fingerprint, to pass as ``expect`` to the next save.
+    """
+    return write_atomic(path, dumps_project(project), expect=expect or None,
+                        check_expect=expect is not False)
 
 
 # ----------------------------------------------------------------------------- reading

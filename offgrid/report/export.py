@@ -1,8 +1,10 @@
 """Write a report or a bill of materials to a file: the entry points for the text UI.
 
 Both refuse to overwrite an existing file unless ``force`` is given (the UI asks the
-user first), check the folder before any work is done, and write atomically (a
-temporary file renamed over the target), so a failure never leaves half a file.
+user first), refuse always to write over the project being read or over any offgrid
+project file (:func:`overwrite_refusal`), check the folder before any work is done,
+and write atomically (a temporary file renamed over the target), so a failure never
+leaves half a file.
 Every failure raises :class:`ExportError` with a message that says what to do.
 """
 
@@ -40,24 +42,65 @@ def path_problem(path: Path) -> str | None:
     return None
 
 
-def write_file(path: Path, text: str) -> Path:
-    """Atomic write with the user's usual file mode; raises ExportError."""
-    from offgrid.project.store import atomic_write_text
+#: How much of a file is read to tell whether it is an offgrid project [bytes].
+PROJECT_SNIFF_BYTES = 65536
 
+
+def is_project_file(path: str | os.PathLike) -> bool:
+    """True if ``path`` is a regular file whose text declares ``format = "offgrid-project"``
+    (a project, or a project's ``.bak``)."""
+    import re
+    import stat
+
+    from offgrid.project.model import FORMAT_NAME
+
+    try:
+        with open(path, "rb") as fh:
+            if not stat.S_ISREG(os.fstat(fh.fileno()).st_mode):
+                return False
+            head = fh.read(PROJECT_SNIFF_BYTES).decode("utf-8", errors="replace")
+    except OSError:
+        return False
+    return re.search(r"(?m)^\s*format\s*=\s*[\"']" + re.escape(FORMAT_NAME) + r"[\"']",
+                     head) is not None
+
+
+def overwrite_refusal(path: str | os.PathLike, reading: str | os.PathLike | None = None
+                      ) -> str | None:
+    """Why an output must never be written to ``path``, even when forced: it is the project
+    being read (``reading``), or any offgrid project file. None when it may be written."""
+    p = Path(path)
+    if not p.exists():
+        return None
+    same = False
+    if reading is not None:
+        with contextlib.suppress(OSError):
+            same = os.path.samefile(p, reading)
+    if same or is_project_file(p):
+        which = "the project being read" if same else "an offgrid project file"
+        return (f"{p} is {which}: no output is ever written over a project, even when "
+                "forced (--force, or a yes to replace it); choose another file name")
+    return None
+
+
+def write_file(path: Path, text: str, reading: str | os.PathLike | None = None) -> Path:
+    """Atomic write (a new file gets the usual mode, 0666 less the umask; a replaced one
+    keeps its own); raises ExportError."""
+    from offgrid.project.atomic import atomic_write_text
+
+    refusal = overwrite_refusal(path, reading)
+    if refusal:
+        raise ExportError(refusal)
     try:
         atomic_write_text(path, text, backup=False)
     except OSError as exc:
         raise ExportError(f"cannot write {path}: {exc.strerror or exc}; nothing was written") \
             from exc
-    mask = os.umask(0)  # the temporary file is private (0600); a report is for sharing
-    os.umask(mask)
-    with contextlib.suppress(OSError):
-        os.chmod(path, 0o666 & ~mask)
     return path
 
 
-def _check(path: Path, force: bool) -> None:
-    problem = path_problem(path)
+def _check(path: Path, force: bool, reading: str | os.PathLike | None = None) -> None:
+    problem = path_problem(path) or overwrite_refusal(path, reading)
     if problem:
         raise ExportError(problem)
     if path.exists() and not force:
@@ -78,14 +121,16 @@ def format_for(path: Path, fmt: str | None = None) -> str:
 def export_report(project: Project, path: str | os.PathLike, base: Path | None = None, *,
                   fmt: str | None = None, force: bool = False, simulate: bool = False,
                   years: int = 30, seed: int | None = 1, reliability: Any = None,
-                  design=None) -> Path:
-    """Design ``project`` and write its report to ``path``; returns the path written."""
+                  design=None, reading: str | os.PathLike | None = None) -> Path:
+    """Design ``project`` and write its report to ``path``; returns the path written.
+
+    ``reading``: the project file it came from, never overwritten (nor any project)."""
     from offgrid.report import make_report
     from offgrid.result import DesignError
 
     target = Path(path)
     kind = format_for(target, fmt)
-    _check(target, force)
+    _check(target, force, reading)
     try:
         text = make_report(project, base, kind, design=design, simulate=simulate, years=years,
                            seed=seed, reliability=reliability)
@@ -93,7 +138,7 @@ def export_report(project: Project, path: str | os.PathLike, base: Path | None =
         raise ExportError(f"cannot design: {exc}; no report was written") from exc
     except ValueError as exc:
         raise ExportError(f"cannot build the report: {exc}; no report was written") from exc
-    return write_file(target, text)
+    return write_file(target, text, reading)
 
 
 def bom_text(project: Project, design) -> str:
@@ -111,15 +156,16 @@ def bom_text(project: Project, design) -> str:
 
 
 def export_bom(project: Project, path: str | os.PathLike, base: Path | None = None, *,
-               force: bool = False, design=None) -> Path:
+               force: bool = False, design=None,
+               reading: str | os.PathLike | None = None) -> Path:
     """Design ``project`` and write its bill of materials (CSV) to ``path``."""
     from offgrid.result import DesignError
     from offgrid.sizing import design as run_design
 
     target = Path(path)
-    _check(target, force)
+    _check(target, force, reading)
     try:
         d = design if design is not None else run_design(project, base)
     except DesignError as exc:
         raise ExportError(f"cannot design: {exc}; no bill of materials was written") from exc
-    return write_file(target, bom_text(project, d))
+    return write_file(target, bom_text(project, d), reading)

@@ -235,12 +235,14 @@ class OffgridApp(App):
             go()
 
     # ------------------------------------------------------------------ save / revert
-    def save_project(self, ask: bool = False, then=None) -> None:
+    def save_project(self, ask: bool = False, then=None, start: str | None = None,
+                     title: str = "Save as") -> None:
         session = self.session
         if session is None:
             return
         if session.path is None or ask:
-            start = str(session.path) if session.path else suggested_name(session.title)
+            if start is None:
+                start = str(session.path) if session.path else suggested_name(session.title)
 
             def chosen(path: Path | None) -> None:
                 if path is None:
@@ -249,23 +251,37 @@ class OffgridApp(App):
                     path = path.with_suffix(".toml")
                 if path.exists() and (session.path is None or
                                       path.resolve() != session.path):
+                    from offgrid.project.atomic import real_target
+
                     self.push_screen(ConfirmDialog(
                         "Replace file?", f"{path} exists. Replace it? (the old one is kept as "
-                        f"{path.name}.bak)", [("y", "Replace it", "yes"), ("n", "Keep it", "no")]),
+                        f"{real_target(path).name}.bak)",
+                        [("y", "Replace it", "yes"), ("n", "Keep it", "no")]),
                         lambda a: self._save_to(path, then) if a == "yes" else None)
                 else:
                     self._save_to(path, then)
 
-            self.push_screen(PathDialog("Save as", start, must_exist=False), chosen)
+            self.push_screen(PathDialog(title, start, must_exist=False), chosen)
         else:
             self._save_to(session.path, then)
 
-    def _save_to(self, path: Path, then=None) -> None:
+    def _save_to(self, path: Path, then=None, overwrite: bool = False) -> None:
+        from offgrid.project.atomic import ChangedOnDisk
+
         session = self.session
         if session is None:
             return
         try:
-            saved = session.save(path)
+            saved = session.save(path, overwrite=overwrite)
+        except ChangedOnDisk:
+            self.push_screen(ConfirmDialog(
+                "Changed on disk", f"{path.name} was changed by another program or window "
+                "since you opened or last saved it, so your changes are not saved yet. "
+                f"Overwriting keeps the other version as {path.name}.bak.",
+                [("c", "Save mine as a copy", "copy"), ("r", "Reload theirs", "reload"),
+                 ("o", "Overwrite theirs", "overwrite")], wide=True),
+                lambda answer: self._changed_on_disk(answer, path, then))
+            return
         except EditRejected as exc:
             body = "\n".join(f"{p.path}: {p.message}" for p in exc.problems)
             self.push_screen(MessageDialog("Not saved yet", body))
@@ -281,6 +297,32 @@ class OffgridApp(App):
             self.work.refresh_all()
         if then is not None:
             then()
+
+    def _changed_on_disk(self, answer: str | None, path: Path, then=None) -> None:
+        """What to do when the project's file changed under us (the user's answer)."""
+        session = self.session
+        if session is None:
+            return
+        if answer == "overwrite":
+            self._save_to(path, then, overwrite=True)
+        elif answer == "copy":
+            self.save_project(ask=True, then=then, start=str(free_copy_name(path)),
+                              title="Save mine as a copy")
+        elif answer == "reload":
+            from offgrid.project.store import ProjectFileError
+
+            try:
+                session.revert()
+            except ProjectFileError as exc:
+                self.push_screen(MessageDialog("Their version cannot be read", str(exc)))
+                return
+            self.recovery.clear()
+            if self.work is not None:
+                self.work.changed()
+            self.notify("Reloaded the version on disk; u brings yours back (unsaved).",
+                        timeout=5)
+        else:
+            self.notify("Not saved: the file on disk is left as it is.", timeout=4)
 
     def revert_project(self) -> None:
         session = self.session
@@ -329,6 +371,13 @@ class OffgridApp(App):
         def chosen(path: Path | None) -> None:
             if path is None:
                 return
+            from offgrid.report.export import overwrite_refusal
+
+            refusal = overwrite_refusal(path, session.path)
+            if refusal:
+                self.notify(f"Not written: {printable(refusal)}", severity="error",
+                            markup=False, timeout=8)
+                return
             if path.exists():
                 self.push_screen(ConfirmDialog("Replace file?", f"{path} exists.",
                                                [("y", "Replace it", "yes"),
@@ -346,7 +395,7 @@ class OffgridApp(App):
 
         session = self.session
         project = copy.deepcopy(session.project)
-        design, base = session.design, session.base_dir
+        design, base, reading = session.design, session.base_dir, session.path
         self.notify(f"Writing {printable(path.name)}...", markup=False, timeout=2)
 
         def run() -> None:
@@ -358,9 +407,11 @@ class OffgridApp(App):
                 return
             try:
                 if what == "report":
-                    written = export_report(project, path, base, force=force, design=design)
+                    written = export_report(project, path, base, force=force, design=design,
+                                            reading=reading)
                 else:
-                    written = export_bom(project, path, base, force=force, design=design)
+                    written = export_bom(project, path, base, force=force, design=design,
+                                         reading=reading)
             except ExportError as exc:
                 self.call_from_thread(self.notify, f"Not written: {exc}", severity="error",
                                       markup=False, timeout=8)
@@ -567,6 +618,16 @@ class OffgridApp(App):
             if cmd.title not in ("Quit", "Theme", "Keys"):
                 yield cmd
         yield SystemCommand("Theme", "Pick any colour theme", self.action_change_theme)
+
+
+def free_copy_name(path: Path) -> Path:
+    """``NAME-mine.toml`` beside ``path`` (``NAME-mine-2.toml``... if taken)."""
+    for n in range(1, 1000):
+        tail = "-mine" if n == 1 else f"-mine-{n}"
+        candidate = path.with_name(f"{path.stem}{tail}{path.suffix or '.toml'}")
+        if not candidate.exists():
+            return candidate
+    return path.with_name(f"{path.stem}-mine{path.suffix}")
 
 
 def new_file_session(target: Path) -> Session:

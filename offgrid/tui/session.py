@@ -15,6 +15,11 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from offgrid.project.atomic import (
+    Fingerprint,
+    clean_stray_temp_files,
+    fingerprint,
+)
 from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo, Site
 from offgrid.project.store import dumps_project, load_project, save_project
 from offgrid.project.validate import Problem, validate_project
@@ -66,6 +71,7 @@ class Session:
     path: Path | None = None  # None: not saved yet (new, demo or scenario)
     origin: str = "file"  # file, demo, blank, scenario, recovered
     baseline: str = ""  # saved text at the last open/save; dirty when the text differs
+    disk: Fingerprint | None = None  # the file as last read or written (None: no file)
     outcome: Outcome = field(default_factory=Outcome)
     undo_stack: list[Project] = field(default_factory=list)
     redo_stack: list[Project] = field(default_factory=list)
@@ -76,8 +82,10 @@ class Session:
     def open(cls, path: str | Path) -> Session:
         """Open a project file; raises ProjectFileError (nothing is opened) if it is unusable."""
         p = Path(path).expanduser().resolve()
+        seen = fingerprint(p)  # before reading: a change after this counts as a change
         project = load_project(p)
-        s = cls(project=project, path=p, origin="file")
+        clean_stray_temp_files(p)  # what an interrupted save of this project left
+        s = cls(project=project, path=p, origin="file", disk=seen)
         s.baseline = s.text()
         return s
 
@@ -206,8 +214,12 @@ class Session:
         """Problems that would make the saved file unreadable (e.g. no climate chosen)."""
         return validate_project(self.project)
 
-    def save(self, path: str | Path | None = None) -> Path:
-        """Save atomically (with NAME.toml.bak); the session then points at that file."""
+    def save(self, path: str | Path | None = None, overwrite: bool = False) -> Path:
+        """Save atomically (with NAME.toml.bak); the session then points at that file.
+
+        Saving to the session's own file raises :class:`ChangedOnDisk` (nothing written)
+        if another program or window changed it since it was opened or last saved,
+        unless ``overwrite``; its version is then kept as the ``.bak``."""
         target = Path(path).expanduser() if path else self.path
         if target is None:
             raise ValueError("this project has no file yet: use save as")
@@ -217,7 +229,10 @@ class Session:
         if problems:
             raise EditRejected(problems)
         target = target.resolve()
-        save_project(self.project, target)
+        own = self.path is not None and target == self.path
+        check = own and not overwrite and target.exists()  # a removed file: just write it
+        self.disk = save_project(self.project, target,
+                                 expect=self.disk if check else False)
         self.path = target
         self.origin = "file"
         self.baseline = self.text()
@@ -226,9 +241,11 @@ class Session:
     def revert(self) -> None:
         """Back to the saved file (or to the starting state of an unsaved project)."""
         if self.path is not None and self.path.exists():
+            seen = fingerprint(self.path)
             fresh = load_project(self.path)
             self.undo_stack.append(self.project)
             self.project = fresh
+            self.disk = seen
             self.baseline = self.text()
         elif self.baseline:
             from offgrid.project.store import loads_project
@@ -285,6 +302,7 @@ def recovered_session(text: str, project_path: str | None, baseline: str) -> Ses
     s = Session(project=project, path=path, origin="recovered")
     s.baseline = baseline if path is None else ""
     if path is not None and path.is_file():
+        s.disk = fingerprint(path)  # the check before saving compares with the file now
         try:
             s.baseline = dumps_project(load_project(path))
         except ValueError:

@@ -20,7 +20,7 @@ import time
 from dataclasses import dataclass
 from pathlib import Path
 
-from offgrid.project.store import atomic_write_text
+from offgrid.project.atomic import atomic_write_text
 
 RECOVERY_FORMAT = "offgrid-recovery"
 RECENT_LIMIT = 12
@@ -63,7 +63,7 @@ def remember_project(path: Path, folder: Path | None = None) -> None:
         items = [str(p) for p in recent_projects(folder) if p != path]
         items.insert(0, str(path))
         atomic_write_text(folder / "recent.json", json.dumps(items[:RECENT_LIMIT], indent=1),
-                          backup=False)
+                          backup=False, new_mode=0o600)
     except OSError:
         pass  # a read-only home must not stop the work
 
@@ -123,7 +123,8 @@ class RecoveryStore:
             "baseline": baseline,
         }
         _ensure(self.folder)
-        return atomic_write_text(self.file, json.dumps(body, ensure_ascii=False), backup=False)
+        return atomic_write_text(self.file, json.dumps(body, ensure_ascii=False), backup=False,
+                                 new_mode=0o600)  # the project's text: private
 
     def clear(self) -> None:
         with contextlib.suppress(FileNotFoundError):

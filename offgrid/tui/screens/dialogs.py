@@ -30,15 +30,17 @@ class Dialog(ModalScreen):
 class ConfirmDialog(Dialog):
     """A question with a few answers, each on a key; returns the chosen answer's id."""
 
-    def __init__(self, title: str, message: str, answers: list[tuple[str, str, str]]) -> None:
-        """``answers`` are (key, label, result); Esc returns None."""
+    def __init__(self, title: str, message: str, answers: list[tuple[str, str, str]],
+                 wide: bool = False) -> None:
+        """``answers`` are (key, label, result); Esc returns None. ``wide``: 78 columns."""
         super().__init__()
+        self.wide = wide
         self.title_text = title
         self.message = message
         self.answers = answers
 
     def compose(self) -> ComposeResult:
-        with Vertical(classes="dialog"):
+        with Vertical(classes="dialog wide" if self.wide else "dialog"):
             yield Static(Text(self.title_text, style="bold"), classes="dialog-title")
             yield Static(literal(self.message), classes="dialog-body")
             with Horizontal(classes="dialog-buttons"):

@@ -211,6 +211,12 @@ class PlanScreen(Screen):
 
         target = self.report_path or self.request.path.with_name(
             self.request.path.stem + "-plan.md")
+        from offgrid.report.export import overwrite_refusal
+
+        refusal = overwrite_refusal(target)
+        if refusal:
+            self.app.notify(f"Not written: {refusal}", severity="error", markup=False)
+            return
         try:
             atomic_write_text(target, markdown_report(self.plan))
         except OSError as exc:

@@ -322,6 +322,13 @@ class LoadsSection(Section):
             return
         if path.suffix == "":
             path = path.with_suffix(".csv")
+        from offgrid.report.export import overwrite_refusal
+
+        refusal = overwrite_refusal(path, self.session.path)
+        if refusal:
+            self.app.notify(f"Not exported: {printable(refusal)}", severity="error",
+                            markup=False, timeout=8)
+            return
 
         def write(answer: str | None = "yes") -> None:
             if answer != "yes":
