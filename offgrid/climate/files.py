@@ -76,6 +76,9 @@ def resolve_climate(ref: str, base: Path | None = None) -> Path:
         if c.is_dir():
             raise ClimateFileError(f"climate '{ref}' is a folder, not a climate file: give the "
                                    "file itself or a bundled climate name")
+        if c.exists():  # a FIFO, a device or a socket: never opened
+            raise ClimateFileError(f"climate '{ref}' is not a regular file: give a saved "
+                                   "climate file or a bundled climate name")
     names = ", ".join(bundled_climates()) or "none"
     raise ClimateFileError(
         f"climate '{ref}' not found: give a file path or one of the bundled climates ({names})"

@@ -7,6 +7,7 @@ import sys
 from pathlib import Path
 
 from offgrid.commands.common import fail
+from offgrid.numbers import finite_float
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 _MARK = {"error": "!!", "warning": " !", "info": " -"}
@@ -53,9 +54,9 @@ def register(sub) -> None:
                    help="twelve monthly mean daily horizontal insolation values, January first")
     q.add_argument("--unit", metavar="UNIT", default="kWh/m2/day",
                    help="unit the --values are in (default kWh/m2/day)")
-    q.add_argument("--lat", type=float, help="latitude, degrees north")
-    q.add_argument("--lon", type=float, help="longitude, degrees east")
-    q.add_argument("--elevation", type=float, default=None, help="elevation, m")
+    q.add_argument("--lat", type=finite_float, help="latitude, degrees north")
+    q.add_argument("--lon", type=finite_float, help="longitude, degrees east")
+    q.add_argument("--elevation", type=finite_float, default=None, help="elevation, m")
     q.set_defaults(func=run_check)
 
     q = csub.add_parser("tilt", help="best tilt for the worst month and for the year",
@@ -65,7 +66,7 @@ def register(sub) -> None:
     _geometry_args(q, tilt=False)
     q.add_argument("--demand", metavar="'W1 ... W12'",
                    help="daily demand of each month, Wh/day (default: the same every month)")
-    q.add_argument("--min-tilt", type=float, default=10.0,
+    q.add_argument("--min-tilt", type=finite_float, default=10.0,
                    help="self-cleaning minimum tilt, degrees (default 10)")
     q.set_defaults(func=run_tilt)
 
@@ -74,12 +75,13 @@ def register(sub) -> None:
 
 def _geometry_args(q: argparse.ArgumentParser, tilt: bool = True) -> None:
     if tilt:
-        q.add_argument("--tilt", type=float, help="plane tilt, degrees (default: best for the "
-                                                  "worst month)")
-    q.add_argument("--azimuth", type=float,
+        q.add_argument("--tilt", type=finite_float,
+                       help="plane tilt, degrees (default: best for the worst month)")
+    q.add_argument("--azimuth", type=finite_float,
                    help="direction the plane faces, degrees clockwise from north "
                         "(default: towards the equator)")
-    q.add_argument("--albedo", type=float, default=0.2, help="ground reflectance (default 0.2)")
+    q.add_argument("--albedo", type=finite_float, default=0.2,
+                   help="ground reflectance (default 0.2)")
     q.add_argument("--horizon", metavar="'AZ:EL ...'",
                    help="horizon profile, e.g. '90:15 135:8 180:5 270:12'")
 

@@ -8,6 +8,7 @@ import sys
 from pathlib import Path
 
 from offgrid.commands.common import fail
+from offgrid.numbers import finite_float
 
 
 def register(sub) -> None:
@@ -21,7 +22,7 @@ def register(sub) -> None:
                    help="plan the bundled demonstration community (invented village)")
     how = p.add_mutually_exclusive_group()
     how.add_argument("--kits", type=int, metavar="K", help="use at most K standard kit types")
-    how.add_argument("--kit-cost", type=float, metavar="C",
+    how.add_argument("--kit-cost", type=finite_float, metavar="C",
                      help="cost of each extra kit type; the number of kit types is chosen "
                           "(default: the price list's kit_type price, else --kits 3)")
     p.add_argument("--max-kits", type=int, default=12, metavar="N",
@@ -35,7 +36,7 @@ def register(sub) -> None:
                    "survey's 'climate' setting")
     p.add_argument("--jobs", type=int, metavar="N", help="worker processes for many distinct "
                    "rows (default: the CPUs available)")
-    p.add_argument("--energy-step", type=float, default=None, metavar="PCT",
+    p.add_argument("--energy-step", type=finite_float, default=None, metavar="PCT",
                    help="design surveyed energy and peak power at the next PCT %% step up, "
                         "so near-equal rows share a design (default 1; 0: as given)")
     p.add_argument("--rows", action="store_true", help="list every row in the summary")

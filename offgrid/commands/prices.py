@@ -40,11 +40,11 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.report.bom import bill_of_materials
     from offgrid.report.costs import (
         PriceListError,
+        load_price_csv,
         merge_prices,
         money,
         price_for,
         price_template_csv,
-        read_price_csv,
     )
 
     if args.import_csv:
@@ -54,11 +54,7 @@ def run(args: argparse.Namespace) -> int:
         project, _ = open_project(args)
         src = Path(args.import_csv)
         try:
-            text = src.read_text(encoding="utf-8")
-        except (OSError, UnicodeDecodeError) as exc:
-            fail(f"cannot read {src}: {exc}")
-        try:
-            new = read_price_csv(text, str(src))
+            new = load_price_csv(src)
         except PriceListError as exc:
             fail(str(exc))
         if not new:

@@ -6,6 +6,7 @@ import argparse
 import json
 
 from offgrid.commands.common import add_project_argument, design_failed, fail, open_project
+from offgrid.numbers import finite_float
 
 
 def register(sub) -> None:
@@ -24,8 +25,9 @@ def add_quick_arguments(p: argparse.ArgumentParser) -> None:
     quick.add_argument("--loads", metavar="LOADS.csv", help="load list CSV")
     quick.add_argument("--climate", metavar="CLIMATE",
                        help="bundled climate name or climate file (see `offgrid climate list`)")
-    quick.add_argument("--autonomy-days", type=float, metavar="N")
-    quick.add_argument("--max-dod", type=float, metavar="F", help="maximum depth of discharge 0-1")
+    quick.add_argument("--autonomy-days", type=finite_float, metavar="N")
+    quick.add_argument("--max-dod", type=finite_float, metavar="F",
+                       help="maximum depth of discharge 0-1")
     quick.add_argument("--controller", choices=("pwm", "mppt"))
 
 
