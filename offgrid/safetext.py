@@ -45,31 +45,40 @@ def visible(text: str) -> str:
     return _HIDDEN_BUT_LINES.sub(_picture, str(text))
 
 
-_MD_SPECIAL = re.compile(r"([\\`*_{}\[\]()<>#+!|~])")
+_MD_SPECIAL = re.compile(r"([\\`*_\[\]|~])")
 
 
 def markdown_text(text: str) -> str:
-    """A name as literal Markdown text: one line, no link, image, HTML or table break."""
-    return _MD_SPECIAL.sub(r"\\\1", printable(text))
+    """Text as literal Markdown: one line (controls and newlines made visible), no link or
+    image (``[`` and ``]`` escaped, CommonMark 2.4), no HTML (``<`` as ``&lt;``), no
+    emphasis, code span or table-cell break."""
+    return _MD_SPECIAL.sub(r"\\\1", printable(text)).replace("<", "&lt;")
 
 
 #: First characters that make a spreadsheet read a cell as a formula (OWASP CSV Injection).
 FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
 _QUOTED_FORMULA = re.compile(r"^'+[=+\-@\t\r]")
+_PLAIN_NUMBER = re.compile(r"[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?")
 
 
 def csv_cell(value: object) -> object:
     """A CSV cell a spreadsheet shows as text: ``=1+1`` is written ``'=1+1``.
 
-    Numbers are written as they are (a negative number is not a formula); text that
+    Numbers, and text that is only a number, are written as they are (``-5`` is no
+    formula); text that
     already begins with apostrophes before a formula character gets one more, so
     :func:`csv_uncell` gives back exactly the original.
     """
-    if not isinstance(value, str) or not value:
+    if not isinstance(value, str) or not value or _PLAIN_NUMBER.fullmatch(value):
         return value
     if value.startswith(FORMULA_STARTS) or _QUOTED_FORMULA.match(value):
         return "'" + value
     return value
+
+
+def csv_row(cells: list[object]) -> list[object]:
+    """A row for a CSV that people read: text cells :func:`printable` and :func:`csv_cell`."""
+    return [csv_cell(printable(c)) if isinstance(c, str) else c for c in cells]
 
 
 def csv_uncell(text: str) -> str:

@@ -9,6 +9,7 @@ import textwrap
 from offgrid.plan.community import CommunityPlan, RowResult
 from offgrid.plan.kits import KitParts, parts_of
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES
+from offgrid.safetext import csv_row
 
 WIDTH = 80
 #: The text summary lists every row up to this many; beyond, only the exceptions.
@@ -301,7 +302,7 @@ def rows_csv(plan: CommunityPlan) -> str:
     for r in plan.rows:
         d = r.design
         parts = kits.get(r.kit) if r.kit else (parts_of(d) if d else None)
-        w.writerow([r.line, r.id, r.name, r.kind, r.count, r.status, r.kit or "",
+        w.writerow(csv_row([r.line, r.id, r.name, r.kind, r.count, r.status, r.kit or "",
                     f"{d.required_power_w:.1f}" if d else "", f"{d.required_wh:.0f}" if d else "",
                     f"{parts.array_power_w:g}" if parts else "",
                     f"{parts.nominal_wh:.0f}" if parts else "",
@@ -310,10 +311,10 @@ def rows_csv(plan: CommunityPlan) -> str:
                     "" if r.tier_served is None else r.tier_served,
                     "" if r.oversize_array_pct is None else f"{r.oversize_array_pct:.1f}",
                     "" if r.oversize_battery_pct is None else f"{r.oversize_battery_pct:.1f}",
-                    "" if r.unit_cost is None else f"{r.unit_cost:.2f}", r.reason])
+                    "" if r.unit_cost is None else f"{r.unit_cost:.2f}", r.reason]))
     for p in plan.bad_rows:
-        w.writerow([p.line, p.row_id, "", "", "", "left out", "", "", "", "", "", "", "", "", "",
-                    "", "", f"{p.field}: {p.message}"])
+        w.writerow(csv_row([p.line, p.row_id, "", "", "", "left out", "", "", "", "", "", "", "",
+                            "", "", "", "", f"{p.field}: {p.message}"]))
     return out.getvalue()
 
 

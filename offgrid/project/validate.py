@@ -12,6 +12,7 @@ from dataclasses import dataclass
 from offgrid.numbers import MAX_PRICE, PRICE_RANGE, is_finite_number
 from offgrid.project.loads_csv import check_load
 from offgrid.project.model import Project
+from offgrid.safetext import printable
 
 
 @dataclass(frozen=True)
@@ -163,7 +164,8 @@ def validate_project(project: Project) -> list[Problem]:
                                     str(exc).removeprefix("site.horizon_deg ")))
     for i, load in enumerate(project.loads):
         for fld, msg in check_load(load):
-            problems.append(Problem(f"loads[{i + 1}].{fld}", f"{msg} (load '{load.name}')"))
+            problems.append(Problem(f"loads[{i + 1}].{fld}",
+                                    f"{msg} (load '{printable(load.name)}')"))
     problems.extend(_price_and_variant_problems(project))
     return problems
 
