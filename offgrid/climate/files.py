@@ -33,6 +33,7 @@ import os
 import tomllib
 from pathlib import Path
 
+from offgrid.numbers import is_finite_number
 from offgrid.paths import climates_dir
 from offgrid.project.model import DailyClimate, MonthlyClimate
 
@@ -97,6 +98,9 @@ def _twelve(table: dict, key: str, where: str, required: bool = True) -> list[fl
     for i, v in enumerate(values, start=1):
         if isinstance(v, bool) or not isinstance(v, int | float):
             raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a number")
+        if not is_finite_number(v):
+            raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a finite number: give "
+                                   "the month's value")
         out.append(float(v))
     return out
 
@@ -221,6 +225,8 @@ def _number(data: dict, key: str, where: str) -> float | None:
     v = data[key]
     if isinstance(v, bool) or not isinstance(v, int | float):
         raise ClimateFileError(f"{where}.{key}: '{v}' is not a number")
+    if not is_finite_number(v):
+        raise ClimateFileError(f"{where}.{key}: '{v}' is not a finite number")
     return float(v)
 
 

@@ -33,6 +33,18 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
     raise AssertionError  # unreachable
 
 
+def json_text(data) -> str:
+    """Strict JSON (RFC 8259): a NaN or infinity is never written as ``NaN``/``Infinity``."""
+    import json
+
+    try:
+        return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False)
+    except ValueError:
+        fail("a figure came out as a non-finite number; nothing was written. Please report "
+             "this with the project file", code=1)
+        raise
+
+
 def fail(message: str, code: int = 2) -> None:
     print(f"offgrid: {message}", file=sys.stderr)
     raise SystemExit(code)

@@ -3,11 +3,10 @@
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import fail
+from offgrid.commands.common import fail, json_text
 from offgrid.numbers import finite_float
 
 
@@ -76,7 +75,7 @@ def run(args: argparse.Namespace) -> int:
     if report is not None:
         write_report(plan, report)
     if args.json:
-        print(json.dumps(plan.to_dict(), indent=2, ensure_ascii=False))
+        print(json_text(plan.to_dict()))
     else:
         from offgrid.plan.text import summary_text
 
@@ -100,7 +99,7 @@ def write_report(plan, path: Path) -> None:
     elif suffix == ".csv":
         text = rows_csv(plan)
     else:
-        text = json.dumps(plan.to_dict(), indent=2, ensure_ascii=False) + "\n"
+        text = json_text(plan.to_dict()) + "\n"
     try:
         atomic_write_text(path, text, backup=True)
     except OSError as exc:

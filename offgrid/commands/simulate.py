@@ -3,9 +3,8 @@
 from __future__ import annotations
 
 import argparse
-import json
 
-from offgrid.commands.common import add_project_argument, design_failed, fail
+from offgrid.commands.common import add_project_argument, design_failed, fail, json_text
 from offgrid.numbers import finite_float
 
 
@@ -73,7 +72,7 @@ def run(args: argparse.Namespace) -> int:
     except ValueError as exc:
         fail(str(exc))
     if args.json:
-        print(json.dumps(rep.to_dict(), indent=2, ensure_ascii=False))
+        print(json_text(rep.to_dict()))
     else:
         print(summary_text(rep))
     return 0

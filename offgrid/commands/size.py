@@ -3,9 +3,14 @@
 from __future__ import annotations
 
 import argparse
-import json
 
-from offgrid.commands.common import add_project_argument, design_failed, fail, open_project
+from offgrid.commands.common import (
+    add_project_argument,
+    design_failed,
+    fail,
+    json_text,
+    open_project,
+)
 from offgrid.numbers import finite_float
 
 
@@ -91,7 +96,7 @@ def run(args: argparse.Namespace) -> int:
     except DesignError as exc:
         design_failed(exc)
     if args.json:
-        print(json.dumps(result.to_dict(), indent=2, ensure_ascii=False))
+        print(json_text(result.to_dict()))
     else:
         from offgrid.summary import summary_text
 
