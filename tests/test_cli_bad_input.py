@@ -399,3 +399,23 @@ def test_load_list_longer_than_the_limit_is_refused_while_reading(tmp_path, caps
         for i in range(MAX_LOADS + 1))
     code, err = run(capsys, "size", write(tmp_path, "many.toml", project))
     assert code == 2 and f"more than {MAX_LOADS:,} loads" in err, err
+
+
+def test_text_ui_open_and_csv_import_refuse_instead_of_crashing(tmp_path):
+    """The UI opens projects with Session.open and imports load lists with load_loads_csv:
+    a wrong type or a non-finite quantity is a message, not a crash."""
+    from offgrid.project.loads_csv import LoadListError, load_loads_csv
+    from offgrid.project.store import ProjectFileError
+    from offgrid.tui.fields import parse_number
+    from offgrid.tui.session import Session
+
+    for bad in ("months = 6", "months = true"):
+        path = write(tmp_path, "p.toml", _demo_text().replace('months = "1-12"', bad, 1))
+        with pytest.raises(ProjectFileError, match="loads\\[1\\].months"):
+            Session.open(path)
+    for cell in ("nan", "inf", "1e400"):
+        path = write(tmp_path, "l.csv", f"name,quantity,power_w,hours_per_day\nA,{cell},5,1\n")
+        with pytest.raises(LoadListError, match="line 2, quantity"):
+            load_loads_csv(path)
+        with pytest.raises(ValueError, match="finite"):
+            parse_number(cell, "W")
