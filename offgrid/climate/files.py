@@ -117,12 +117,13 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
         temp_max_c=_twelve(monthly, "temp_max_c", sub, required=False),
         temp_min_c=_twelve(monthly, "temp_min_c", sub, required=False),
         record_low_c=_number(data, "record_low_c", where),
-        source=str(data.get("source", "")),
+        source=_text(data, "source", where),
         latitude_deg=_number(data, "latitude_deg", where),
         longitude_deg=_number(data, "longitude_deg", where),
         elevation_m=_number(data, "elevation_m", where),
-        demo=bool(data.get("demo", False)),
+        demo=_flag(data, "demo", where),
     )
+    _text(data, "name", where)
     problems = monthly_climate_problems(climate, where, sub)
     if problems:
         path, message = problems[0]
@@ -230,6 +231,20 @@ def _number(data: dict, key: str, where: str) -> float | None:
     return float(v)
 
 
+def _text(data: dict, key: str, where: str) -> str:
+    v = data.get(key, "")
+    if not isinstance(v, str):
+        raise ClimateFileError(f"{where}.{key}: must be text in quotes, e.g. {key} = \"...\"")
+    return v
+
+
+def _flag(data: dict, key: str, where: str) -> bool:
+    v = data.get(key, False)
+    if not isinstance(v, bool):
+        raise ClimateFileError(f"{where}.{key}: '{v}' must be true or false")
+    return v
+
+
 def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyClimate:
     """Read a climate file by bundled name or path."""
     from offgrid.textfile import TextFileError, read_text
@@ -239,6 +254,9 @@ def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyCli
         data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
     except TextFileError as exc:
         raise ClimateFileError(f"{path}: {exc}") from None
+    except RecursionError:
+        raise ClimateFileError(f"{path}: tables or lists nested far too deep: not a climate "
+                               "file") from None
     except tomllib.TOMLDecodeError as exc:
         raise ClimateFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from exc
     if data.get("format") != CLIMATE_FORMAT:
@@ -336,9 +354,12 @@ def climate_header(path: Path) -> dict:
         data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
     except (TextFileError, tomllib.TOMLDecodeError) as exc:
         return {"name": path.stem, "error": str(exc)}
+    except RecursionError:
+        return {"name": path.stem, "error": "tables or lists nested far too deep"}
+    name, source = data.get("name", path.stem), data.get("source", "")
     return {
-        "name": str(data.get("name", path.stem)),
-        "source": str(data.get("source", "")),
+        "name": name if isinstance(name, str) else path.stem,
+        "source": source if isinstance(source, str) else "",
         "demo": bool(data.get("demo", False)),
         "latitude_deg": data.get("latitude_deg"),
         "longitude_deg": data.get("longitude_deg"),
