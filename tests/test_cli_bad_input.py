@@ -197,9 +197,9 @@ def test_simulate_takes_a_quick_design(capsys):
 
 @pytest.mark.parametrize("line, expected", [
     ("temp_max_c = [nan,20,20,20,20,20,20,20,20,20,20,20]",
-     "climate.monthly.temp_max_c[1]: 'nan' is not a number"),
+     "climate.monthly.temp_max_c[1]: 'nan' is not a finite number"),
     ("insolation_kwh_m2_day = [5,5,5,5,5,5,5,5,5,5,5,inf]",
-     "climate.monthly.insolation_kwh_m2_day[12]: 'inf' is not a number"),
+     "climate.monthly.insolation_kwh_m2_day[12]: 'inf' is not a finite number"),
     ("temp_min_c = [25,20,20,20,20,20,20,20,20,20,20,20]",
      "climate.monthly.temp_min_c[1]: 25 C is above the month's mean"),
 ])
@@ -411,7 +411,7 @@ def test_text_ui_open_and_csv_import_refuse_instead_of_crashing(tmp_path):
 
     for bad in ("months = 6", "months = true"):
         path = write(tmp_path, "p.toml", _demo_text().replace('months = "1-12"', bad, 1))
-        with pytest.raises(ProjectFileError, match="loads\\[1\\].months"):
+        with pytest.raises(ProjectFileError, match=r"loads\[1\]\.months"):
             Session.open(path)
     for cell in ("nan", "inf", "1e400"):
         path = write(tmp_path, "l.csv", f"name,quantity,power_w,hours_per_day\nA,{cell},5,1\n")
