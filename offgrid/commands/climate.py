@@ -107,10 +107,12 @@ def _load(name: str):
 
 def _numbers(text: str, what: str, count: int = 12) -> list[float]:
     parts = text.replace(",", " ").replace(";", " ").split()
+    from offgrid.numbers import NumberError, read_number
+
     try:
-        values = [float(v) for v in parts]
-    except ValueError:
-        fail(f"{what}: every value must be a number")
+        values = [read_number(v) for v in parts]
+    except NumberError as exc:
+        fail(f"{what}: every value must be a finite number: {exc}")
     if len(values) != count:
         fail(f"{what}: give {count} values, January first (got {len(values)})")
     return values
