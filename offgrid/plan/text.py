@@ -9,7 +9,7 @@ import textwrap
 from offgrid.plan.community import CommunityPlan, RowResult
 from offgrid.plan.kits import KitParts, parts_of
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES
-from offgrid.safetext import csv_row
+from offgrid.safetext import csv_row, markdown_text, visible
 
 WIDTH = 80
 #: The text summary lists every row up to this many; beyond, only the exceptions.
@@ -198,12 +198,12 @@ def summary_text(plan: CommunityPlan, show_rows: bool | None = None) -> str:
 
 
 def _md_row(cells) -> str:
-    return "| " + " | ".join(str(c).replace("|", "/") for c in cells) + " |"
+    return "| " + " | ".join(markdown_text(str(c)) for c in cells) + " |"
 
 
 def markdown_report(plan: CommunityPlan) -> str:
     """The plan as a Markdown document (kits, own systems, every row, totals, tiers)."""
-    md: list[str] = [f"# {plan.name}", ""]
+    md: list[str] = [f"# {markdown_text(plan.name)}", ""]
     if plan.demo:
         md += ["*Demonstration data: the community, the people and the prices are invented.*",
                ""]
@@ -278,16 +278,17 @@ def markdown_report(plan: CommunityPlan) -> str:
                "x runs)."]
     if plan.unmet:
         md += ["", "## Cannot be met", ""]
-        md += [f"- line {r.line} (id {r.id}): {r.reason}" for r in plan.unmet]
+        md += [f"- line {r.line} (id {markdown_text(r.id)}): {markdown_text(r.reason)}"
+               for r in plan.unmet]
     if plan.bad_rows:
         md += ["", "## Rows left out", ""]
-        md += [f"- {p}" for p in plan.bad_rows]
+        md += [f"- {markdown_text(str(p))}" for p in plan.bad_rows]
     if plan.notices:
         md += ["", "## Notices", ""]
         md += [f"- [{n.code}] {n.message}" for n in plan.notices]
     md += ["", "## Safety cautions", ""]
     md += [f"- {c}" for c in plan.cautions]
-    return "\n".join(md) + "\n"
+    return visible("\n".join(md)) + "\n"
 
 
 def rows_csv(plan: CommunityPlan) -> str:
