@@ -419,3 +419,13 @@ def test_text_ui_open_and_csv_import_refuse_instead_of_crashing(tmp_path):
             load_loads_csv(path)
         with pytest.raises(ValueError, match="finite"):
             parse_number(cell, "W")
+
+
+def test_project_file_too_large_to_parse_quickly_is_refused(tmp_path, capsys):
+    """A 3 MB array in a project took tomllib ~6 s (and 18 MB ~50 s, 780 MB) before the
+    design even started: project files are read up to MAX_PROJECT_BYTES."""
+    from offgrid.project.store import MAX_PROJECT_BYTES
+
+    body = PROJECT_HEAD + "x = [" + "1," * (MAX_PROJECT_BYTES // 2) + "]\n"
+    code, err = run(capsys, "size", write(tmp_path, "big.toml", body))
+    assert code == 2 and "far larger than this kind of file" in err, err

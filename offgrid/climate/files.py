@@ -47,6 +47,10 @@ DAILY_BOUNDS = {"insolation_kwh_m2_day": (0.0, 15.0), "temp_mean_c": (-90.0, 60.
                 "temp_max_c": (-90.0, 65.0), "temp_min_c": (-95.0, 60.0)}
 
 
+#: Largest climate file read (one with its 365-day series is about 50 kB).
+MAX_CLIMATE_BYTES = 1_000_000
+
+
 class ClimateFileError(ValueError):
     """A climate file is missing or malformed; the message names the field."""
 
@@ -251,7 +255,7 @@ def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyCli
 
     path = resolve_climate(str(ref), base)
     try:
-        data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
+        data = tomllib.loads(read_text(path, MAX_CLIMATE_BYTES).removeprefix("\ufeff"))
     except TextFileError as exc:
         raise ClimateFileError(f"{path}: {exc}") from None
     except RecursionError:
@@ -351,7 +355,7 @@ def climate_header(path: Path) -> dict:
     from offgrid.textfile import TextFileError, read_text
 
     try:
-        data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
+        data = tomllib.loads(read_text(path, MAX_CLIMATE_BYTES).removeprefix("\ufeff"))
     except (TextFileError, tomllib.TOMLDecodeError) as exc:
         return {"name": path.stem, "error": str(exc)}
     except RecursionError:

@@ -317,6 +317,10 @@ def _depth(data: Any, limit: int) -> int:
     return deepest
 
 
+#: Largest project file read: 5,000 loads with an inline climate and its daily series take
+#: about 1.2 MB; a larger TOML file would take seconds to parse for nothing.
+MAX_PROJECT_BYTES = 2_000_000
+
 #: Deepest nesting of tables and lists read from a project file (offgrid writes at most
 #: four levels; kept unknown tables may add a few).
 MAX_DEPTH = 32
@@ -406,6 +410,12 @@ def loads_project(text: str, source: str = "project") -> Project:
     too_deep = Problem("file", f"tables or lists nested more than {MAX_DEPTH} levels deep: "
                                "this is not an offgrid project; check that it is the right "
                                "file")
+    tables = len(re.findall(r"(?m)^\s*\[\[\s*loads\s*\]\]", text))
+    if tables > MAX_LOADS:  # refused before parsing: a huge file is not parsed for nothing
+        raise ProjectFileError(source, [Problem("loads", f"{tables:,} loads: more than "
+                                                f"{MAX_LOADS:,} loads in one project; a project "
+                                                "is one system, plan a community with "
+                                                "`offgrid plan`")])
     try:
         data = tomllib.loads(text)
     except RecursionError:
@@ -436,7 +446,7 @@ def load_project(path: str | os.PathLike) -> Project:
 
     p = Path(path)
     try:
-        text = read_text(p)
+        text = read_text(p, max_bytes=MAX_PROJECT_BYTES)
     except TextFileError as exc:
         raise ProjectFileError(str(p), [Problem("file", str(exc))]) from None
     return loads_project(text.removeprefix("\ufeff"), source=str(p))
