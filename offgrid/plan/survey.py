@@ -206,6 +206,10 @@ def _is_blank(cells: list[str]) -> bool:
     return all(not c.strip() for c in cells)
 
 
+#: The most rows read from one survey (identical households share a row with a count).
+MAX_ROWS = 10_000
+
+
 def read_survey(text: str, source: str = "survey", base_dir: Path | None = None) -> Survey:
     """Parse community CSV text.  Bad rows are recorded in ``Survey.problems`` and left out.
 
@@ -234,6 +238,10 @@ def read_survey(text: str, source: str = "survey", base_dir: Path | None = None)
             continue
         if fatal:
             break
+        if survey.rows_read >= MAX_ROWS:
+            raise SurveyError([SurveyProblem(line, "", "rows", f"more than {MAX_ROWS:,} rows: "
+                                             "give identical households one row with a count, "
+                                             "or split the survey by area")], source)
         survey.rows_read += 1
         row = _read_row(header, cells, line, survey.problems, seen_ids)
         if row is not None:
