@@ -154,3 +154,18 @@ def test_csv_cell_round_trips(text):
 def test_visible_keeps_lines_printable_does_not():
     assert visible("a\x1b[2Jb\nc\td") == "a\u241b[2Jb\nc\td"
     assert printable("a\nb") == "a\u240ab"
+
+
+def test_text_ui_refusing_a_project_at_start_shows_escapes_visibly(tmp_path, capsys):
+    """``offgrid FILE`` prints the load problems before any screen opens."""
+    p = hostile_project()
+    p.loads[0].hours_per_day = 30.0
+    path = tmp_path / "bad.toml"
+    save_project(p, path)
+    from offgrid.tui.launch import run as run_ui
+
+    assert run_ui([str(path)]) == 2
+    err = capsys.readouterr().err
+    assert "hours_per_day" in err and not RAW_CONTROL.search(err)
+    assert run_ui([f"--x{CLEAR}", "y"]) == 2
+    assert not RAW_CONTROL.search(capsys.readouterr().err)
