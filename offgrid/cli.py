@@ -81,17 +81,41 @@ def main(argv: list[str] | None = None) -> int:
         from offgrid.commands.common import set_json_errors
 
         set_json_errors(True)
-    parser = build_parser()
-    args = parser.parse_args(argv)
-    if not getattr(args, "func", None):
-        parser.print_help()
-        return 2
+    out, err = sys.stdout, sys.stderr
+    sys.stdout, sys.stderr = _Visible(out), _Visible(err)
     try:
+        parser = build_parser()
+        args = parser.parse_args(argv)
+        if not getattr(args, "func", None):
+            parser.print_help()
+            return 2
         return int(args.func(args) or 0)
     except KeyboardInterrupt:
         return 130
     except BrokenPipeError:
         return 0
+    finally:
+        sys.stdout, sys.stderr = out, err
+
+
+class _Visible:
+    """A text stream that shows control characters as visible escapes.
+
+    Everything a subcommand prints (summaries, reports to the screen, CSV, error messages
+    quoting a name) goes through :func:`offgrid.safetext.visible`, so a name holding a
+    terminal escape (OSC 52 clipboard, window title, clear screen) cannot reach the terminal.
+    """
+
+    def __init__(self, stream) -> None:
+        self._stream = stream
+
+    def write(self, text: str) -> int:
+        from offgrid.safetext import visible
+
+        return self._stream.write(visible(text))
+
+    def __getattr__(self, name: str):
+        return getattr(self._stream, name)
 
 
 def _ui_entry():

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from offgrid.project.model import Project
 from offgrid.result import SystemDesign
+from offgrid.safetext import printable
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 WIDTH = 80
@@ -25,7 +26,7 @@ def _months_table(title: str, values, digits: int = 0, unit: str = "") -> list[s
 def summary_text(project: Project, d: SystemDesign) -> str:
     a, b, c, inv, ld, s = d.array, d.battery, d.controller, d.inverter, d.loads, d.site
     lines: list[str] = []
-    title = project.info.name
+    title = printable(project.info.name)
     if project.info.demo:
         title += "  (demonstration data)"
     lines += [title[:WIDTH], "=" * min(WIDTH, len(title))]
@@ -98,7 +99,8 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     lines.append("Safety cautions")
     for text in d.cautions:
         lines += _wrap(text, "  ! ")
-    return "\n".join(lines)
+    # names typed by people reach the terminal with control characters made visible
+    return "\n".join(printable(line) for line in lines)
 
 
 def _extra_sections(d: SystemDesign) -> list[list[str]]:

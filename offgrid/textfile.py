@@ -8,11 +8,22 @@ file or one far too large for its kind gets one clear sentence instead of a trac
 from __future__ import annotations
 
 import os
+import stat
 from pathlib import Path
 
 #: Larger than any project, load list or climate file offgrid writes (a climate with its
 #: 365-day series is ~50 kB): refuse rather than read a wrong file into memory.
 MAX_TEXT_BYTES = 20_000_000
+
+
+def _kind(mode: int) -> str:
+    if stat.S_ISFIFO(mode):
+        return "a named pipe (FIFO)"
+    if stat.S_ISCHR(mode) or stat.S_ISBLK(mode):
+        return "a device"
+    if stat.S_ISSOCK(mode):
+        return "a socket"
+    return "not a plain file"
 
 
 class TextFileError(ValueError):
@@ -22,17 +33,30 @@ class TextFileError(ValueError):
 def read_text(path: str | os.PathLike, max_bytes: int = MAX_TEXT_BYTES) -> str:
     """The file's text, decoded as UTF-8 (a leading byte-order mark is kept).
 
-    Raises :class:`TextFileError` with the reason and the fix.
+    Only regular files are read (a FIFO or a device such as ``/dev/zero`` would block or
+    never end), and never more than ``max_bytes``.  Raises :class:`TextFileError` with
+    the reason and the fix.
     """
     p = Path(path)
     try:
-        if p.is_dir():
+        info = p.stat()  # follows links; never blocks, even on a FIFO
+        if stat.S_ISDIR(info.st_mode):
             raise TextFileError("is a folder, not a file: give the path of the file itself")
-        size = p.stat().st_size
-        if size > max_bytes:
-            raise TextFileError(f"is {size / 1e6:.0f} MB, far larger than this kind of file: "
-                                "check that it is the right file")
-        data = p.read_bytes()
+        if not stat.S_ISREG(info.st_mode):
+            raise TextFileError(f"is not a regular file (it is {_kind(info.st_mode)}): give "
+                                "the path of a saved text file")
+        if info.st_size > max_bytes:
+            raise TextFileError(f"is {info.st_size / 1e6:.0f} MB, far larger than this kind of "
+                                "file: check that it is the right file")
+        # O_NONBLOCK: if the path was swapped for a FIFO since stat, open does not wait
+        fd = os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+        with os.fdopen(fd, "rb") as fh:
+            if not stat.S_ISREG(os.fstat(fh.fileno()).st_mode):
+                raise TextFileError("is not a regular file: give the path of a saved text file")
+            data = fh.read(max_bytes + 1)
+        if len(data) > max_bytes:
+            raise TextFileError(f"is larger than {max_bytes / 1e6:.0f} MB, far larger than this "
+                                "kind of file: check that it is the right file")
     except FileNotFoundError:
         raise TextFileError("does not exist: check the folder and the file name") from None
     except PermissionError:

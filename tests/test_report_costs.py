@@ -165,17 +165,20 @@ def test_price_csv_reads_and_skips_blanks():
     text = ("part,unit_price,unit,description,note\n"
             "module:Generic,115,each,PV module,\n"
             "battery:Generic,,each,blank: not yet priced,\n"
-            "cable,\"1,250.5\",m,,bulk\n")
+            "cable,1250.5,m,,bulk\n")
     items = read_price_csv(text)
     assert [(p.part, p.unit_price, p.note) for p in items] == [
         ("module:Generic", 115.0, ""), ("cable", 1250.5, "bulk")]
+    # a thousands separator is refused, as in every other reader (offgrid.numbers)
+    with pytest.raises(PriceListError, match=r"row 2, unit_price: '1,250\.5'.*write 1500"):
+        read_price_csv('part,unit_price\ncable,"1,250.5"\n')
 
 
 @pytest.mark.parametrize(("row", "fragment"), [
     ("module,0", "above zero"),
     ("module,-5", "above zero"),
     ("module,cheap", "not a number"),
-    ("module,nan", "above zero"),
+    ("module,nan", "not a finite number"),
     (",12", "part column is empty"),
 ])
 def test_price_csv_refuses_bad_prices(row, fragment):

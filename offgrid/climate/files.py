@@ -37,6 +37,7 @@ import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
+from offgrid.numbers import is_finite_number
 from offgrid.paths import climates_dir, user_climates_dir
 from offgrid.project.model import DailyClimate, MonthlyClimate
 
@@ -48,6 +49,10 @@ DAILY_KEYS = ("insolation_kwh_m2_day", "temp_mean_c", "temp_max_c", "temp_min_c"
 #: Plausible bounds of the daily values (a clear high-altitude summer day reaches about 10).
 DAILY_BOUNDS = {"insolation_kwh_m2_day": (0.0, 15.0), "temp_mean_c": (-90.0, 60.0),
                 "temp_max_c": (-90.0, 65.0), "temp_min_c": (-95.0, 60.0)}
+
+
+#: Largest climate file read (one with its 365-day series is about 50 kB).
+MAX_CLIMATE_BYTES = 1_000_000
 
 
 class ClimateFileError(ValueError):
@@ -176,6 +181,9 @@ def resolve_climate(ref: str, base: Path | None = None) -> Path:
         if c.is_dir():
             raise ClimateFileError(f"climate '{ref}' is a folder, not a climate file: give the "
                                    "file itself or a climate name")
+        if c.exists():  # a FIFO, a device or a socket: never opened
+            raise ClimateFileError(f"climate '{ref}' is not a regular file: give a saved "
+                                   "climate file or a climate name")
     raise ClimateFileError(
         f"climate '{ref}' not found: give a file path or one of the climates "
         f"({known_climate_names()}); see `offgrid climate list`"
@@ -194,6 +202,9 @@ def _twelve(table: dict, key: str, where: str, required: bool = True) -> list[fl
     for i, v in enumerate(values, start=1):
         if isinstance(v, bool) or not isinstance(v, int | float):
             raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a number")
+        if not is_finite_number(v):
+            raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a finite number: give "
+                                   "the month's value")
         out.append(float(v))
     return out
 
@@ -224,13 +235,14 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
         temp_max_c=_twelve(monthly, "temp_max_c", sub, required=False),
         temp_min_c=_twelve(monthly, "temp_min_c", sub, required=False),
         record_low_c=_number(data, "record_low_c", where),
-        source=str(data.get("source", "")),
+        source=_text(data, "source", where),
         latitude_deg=_number(data, "latitude_deg", where),
         longitude_deg=_number(data, "longitude_deg", where),
         elevation_m=_number(data, "elevation_m", where),
-        demo=bool(data.get("demo", False)),
+        demo=_flag(data, "demo", where),
         albedo=_albedo(monthly, sub),
     )
+    _text(data, "name", where)
     problems = monthly_climate_problems(climate, where, sub)
     if problems:
         path, message = problems[0]
@@ -336,7 +348,23 @@ def _number(data: dict, key: str, where: str) -> float | None:
     v = data[key]
     if isinstance(v, bool) or not isinstance(v, int | float):
         raise ClimateFileError(f"{where}.{key}: '{v}' is not a number")
+    if not is_finite_number(v):
+        raise ClimateFileError(f"{where}.{key}: '{v}' is not a finite number")
     return float(v)
+
+
+def _text(data: dict, key: str, where: str) -> str:
+    v = data.get(key, "")
+    if not isinstance(v, str):
+        raise ClimateFileError(f"{where}.{key}: must be text in quotes, e.g. {key} = \"...\"")
+    return v
+
+
+def _flag(data: dict, key: str, where: str) -> bool:
+    v = data.get(key, False)
+    if not isinstance(v, bool):
+        raise ClimateFileError(f"{where}.{key}: '{v}' must be true or false")
+    return v
 
 
 def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyClimate:
@@ -345,9 +373,12 @@ def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyCli
 
     path = resolve_climate(str(ref), base)
     try:
-        data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
+        data = tomllib.loads(read_text(path, MAX_CLIMATE_BYTES).removeprefix("\ufeff"))
     except TextFileError as exc:
         raise ClimateFileError(f"{path}: {exc}") from None
+    except RecursionError:
+        raise ClimateFileError(f"{path}: tables or lists nested far too deep: not a climate "
+                               "file") from None
     except tomllib.TOMLDecodeError as exc:
         raise ClimateFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from exc
     if data.get("format") != CLIMATE_FORMAT:
@@ -448,12 +479,15 @@ def climate_header(path: Path) -> dict:
     from offgrid.textfile import TextFileError, read_text
 
     try:
-        data = tomllib.loads(read_text(path).removeprefix("\ufeff"))
+        data = tomllib.loads(read_text(path, MAX_CLIMATE_BYTES).removeprefix("\ufeff"))
     except (TextFileError, tomllib.TOMLDecodeError) as exc:
         return {"name": path.stem, "error": str(exc)}
+    except RecursionError:
+        return {"name": path.stem, "error": "tables or lists nested far too deep"}
+    name, source = data.get("name", path.stem), data.get("source", "")
     return {
-        "name": str(data.get("name", path.stem)),
-        "source": str(data.get("source", "")),
+        "name": name if isinstance(name, str) else path.stem,
+        "source": source if isinstance(source, str) else "",
         "demo": bool(data.get("demo", False)),
         "latitude_deg": data.get("latitude_deg"),
         "longitude_deg": data.get("longitude_deg"),

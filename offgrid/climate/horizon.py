@@ -19,6 +19,8 @@ from collections.abc import Iterable, Sequence
 
 import numpy as np
 
+from offgrid.numbers import read_number
+
 
 def parse_horizon(text: str) -> list[tuple[float, float]]:
     """Read a profile typed as ``"90:15, 135:8, 180:5"`` (azimuth:elevation pairs, degrees).
@@ -39,7 +41,7 @@ def parse_horizon(text: str) -> list[tuple[float, float]]:
                 f"horizon point {n} '{item}': write azimuth:elevation in degrees, e.g. 135:10"
             )
         try:
-            pairs.append((float(az_text), float(el_text)))
+            pairs.append((read_number(az_text), read_number(el_text)))
         except ValueError:
             raise ValueError(
                 f"horizon point {n} '{item}': both azimuth and elevation must be numbers"

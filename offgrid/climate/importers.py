@@ -691,6 +691,9 @@ def read_monthly_csv(path: str | Path, unit: str | None = None) -> tuple[Monthly
 def _need_file(path: Path) -> None:
     if path.is_dir():
         raise WeatherFileError(f"{path}: is a folder, not a weather file; give the file itself")
+    if path.exists() and not path.is_file():
+        raise WeatherFileError(f"{path}: is not a regular file (a pipe or a device); give a "
+                               "saved weather file")
     if not path.is_file():
         raise WeatherFileError(f"{path}: no such file; check the folder and the file name")
 

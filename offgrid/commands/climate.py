@@ -7,6 +7,7 @@ import sys
 from pathlib import Path
 
 from offgrid.commands.common import STDIO, fail, with_example
+from offgrid.numbers import finite_float
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 _MARK = {"error": "!!", "warning": " !", "info": " -"}
@@ -68,10 +69,10 @@ def register(sub) -> None:
                    help="twelve monthly mean daily horizontal insolation values, January first")
     q.add_argument("--unit", metavar="UNIT", default="kWh/m2/day",
                    help="unit the --values are in (default kWh/m2/day)")
-    q.add_argument("--lat", type=float, help="latitude, degrees north")
-    q.add_argument("--lon", type=float, help="longitude, degrees east")
-    q.add_argument("--elevation", type=float, default=None, help="elevation, m")
-    q.add_argument("--tilt", type=float, default=None,
+    q.add_argument("--lat", type=finite_float, help="latitude, degrees north")
+    q.add_argument("--lon", type=finite_float, help="longitude, degrees east")
+    q.add_argument("--elevation", type=finite_float, default=None, help="elevation, m")
+    q.add_argument("--tilt", type=finite_float, default=None,
                    help="array tilt for the low-sun check, degrees (default: the latitude, at "
                         "least 10)")
     with_example(q, "offgrid climate check --values \"5 5.5 6 6 5.5 5 5 5.5 6 6 5.5 5\" "
@@ -86,7 +87,7 @@ def register(sub) -> None:
     _geometry_args(q, tilt=False)
     q.add_argument("--demand", metavar="'W1 ... W12'",
                    help="daily demand of each month, Wh/day (default: the same every month)")
-    q.add_argument("--min-tilt", type=float, default=10.0,
+    q.add_argument("--min-tilt", type=finite_float, default=10.0,
                    help="self-cleaning minimum tilt, degrees (default 10)")
     with_example(q, "offgrid climate tilt kisanga-ridge-demo --min-tilt 15",
                  "the tilt that serves the worst month best (at least 15 degrees) beside the "
@@ -99,9 +100,9 @@ def register(sub) -> None:
 
 def _geometry_args(q: argparse.ArgumentParser, tilt: bool = True) -> None:
     if tilt:
-        q.add_argument("--tilt", type=float, help="plane tilt, degrees (default: best for the "
-                                                  "worst month)")
-    q.add_argument("--azimuth", type=float,
+        q.add_argument("--tilt", type=finite_float,
+                       help="plane tilt, degrees (default: best for the worst month)")
+    q.add_argument("--azimuth", type=finite_float,
                    help="direction the plane faces, degrees clockwise from north "
                         "(default: towards the equator)")
     q.add_argument("--albedo", type=_albedo_arg, default=None, metavar="'R' or 'R1 ... R12'",
@@ -148,10 +149,12 @@ def _load(name: str):
 
 def _numbers(text: str, what: str, count: int = 12) -> list[float]:
     parts = text.replace(",", " ").replace(";", " ").split()
+    from offgrid.numbers import NumberError, read_number
+
     try:
-        values = [float(v) for v in parts]
-    except ValueError:
-        fail(f"{what}: every value must be a number")
+        values = [read_number(v) for v in parts]
+    except NumberError as exc:
+        fail(f"{what}: every value must be a finite number: {exc}")
     if len(values) != count:
         fail(f"{what}: give {count} values, January first (got {len(values)})")
     return values

@@ -36,8 +36,16 @@ def read_stdin(what: str) -> str:
     if sys.stdin is None or sys.stdin.isatty():
         fail(f"{what} '-' reads the standard input: pipe or redirect the file into offgrid "
              "(for example: offgrid size - < project.toml)")
+    from offgrid.textfile import MAX_TEXT_BYTES
+
+    stream = getattr(sys.stdin, "buffer", None)
+    data = stream.read(MAX_TEXT_BYTES + 1) if stream is not None else sys.stdin.read(
+        MAX_TEXT_BYTES + 1).encode("utf-8")
+    if len(data) > MAX_TEXT_BYTES:  # /dev/zero or a runaway pipe: never read it all
+        fail(f"{what} '-': the standard input is longer than {MAX_TEXT_BYTES // 1_000_000} MB; "
+             "give the file itself")
     try:
-        return sys.stdin.read().removeprefix("\ufeff")
+        return data.decode("utf-8").removeprefix("\ufeff")
     except UnicodeDecodeError:
         fail(f"{what} '-': the standard input is not UTF-8 text; save the file as UTF-8")
     raise AssertionError  # unreachable
@@ -83,6 +91,18 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
     except ProjectFileError as exc:
         fail(str(exc), field=first_field(exc))
     raise AssertionError  # unreachable
+
+
+def json_text(data) -> str:
+    """Strict JSON (RFC 8259): a NaN or infinity is never written as ``NaN``/``Infinity``."""
+    import json
+
+    try:
+        return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False)
+    except ValueError:
+        fail("a figure came out as a non-finite number; nothing was written. Please report "
+             "this with the project file", code=1)
+        raise
 
 
 #: Set by the command line when ``--json`` is given: a refusal is then also printed as a

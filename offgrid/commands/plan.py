@@ -3,11 +3,11 @@
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 from pathlib import Path
 
-from offgrid.commands.common import STDIO, fail, read_stdin, with_example
+from offgrid.commands.common import STDIO, fail, json_text, read_stdin, with_example
+from offgrid.numbers import finite_float
 
 
 def register(sub) -> None:
@@ -23,7 +23,7 @@ def register(sub) -> None:
                    help="plan the bundled demonstration community (invented village)")
     how = p.add_mutually_exclusive_group()
     how.add_argument("--kits", type=int, metavar="K", help="use at most K standard kit types")
-    how.add_argument("--kit-cost", type=float, metavar="C",
+    how.add_argument("--kit-cost", type=finite_float, metavar="C",
                      help="cost of each extra kit type; the number of kit types is chosen "
                           "(default: the price list's kit_type price, else --kits 3)")
     p.add_argument("--max-kits", type=int, default=12, metavar="N",
@@ -37,7 +37,7 @@ def register(sub) -> None:
                    "survey's 'climate' setting")
     p.add_argument("--jobs", type=int, metavar="N", help="worker processes for many distinct "
                    "rows (default: the CPUs available)")
-    p.add_argument("--energy-step", type=float, default=None, metavar="PCT",
+    p.add_argument("--energy-step", type=finite_float, default=None, metavar="PCT",
                    help="design surveyed energy and peak power at the next PCT %% step up, "
                         "so near-equal rows share a design (default 1; 0: as given)")
     p.add_argument("--rows", action="store_true", help="list every row in the summary")
@@ -95,7 +95,7 @@ def run(args: argparse.Namespace) -> int:
     if report is not None:
         write_report(plan, report)
     if args.json:
-        print(json.dumps(plan.to_dict(), indent=2, ensure_ascii=False))
+        print(json_text(plan.to_dict()))
     else:
         from offgrid.plan.text import summary_text
 
@@ -119,7 +119,7 @@ def write_report(plan, path: Path) -> None:
     elif suffix == ".csv":
         text = rows_csv(plan)
     else:
-        text = json.dumps(plan.to_dict(), indent=2, ensure_ascii=False) + "\n"
+        text = json_text(plan.to_dict()) + "\n"
     from offgrid.report.export import overwrite_refusal
 
     refusal = overwrite_refusal(path)

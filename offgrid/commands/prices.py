@@ -54,6 +54,7 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.report.bom import bill_of_materials
     from offgrid.report.costs import (
         PriceListError,
+        load_price_csv,
         merge_prices,
         money,
         price_for,
@@ -74,15 +75,12 @@ def run(args: argparse.Namespace) -> int:
         seen = fingerprint(args.project) if args.project else None  # before reading it
         project, _ = open_project(args)
         src = Path(args.import_csv)
-        if args.import_csv == STDIO:
-            text, src = read_stdin("--import"), Path("the standard input")
-        else:
-            try:
-                text = src.read_text(encoding="utf-8")
-            except (OSError, UnicodeDecodeError) as exc:
-                fail(f"cannot read {src}: {exc}")
         try:
-            new = read_price_csv(text, str(src))
+            if args.import_csv == STDIO:
+                src = Path("the standard input")
+                new = read_price_csv(read_stdin("--import"), str(src))
+            else:
+                new = load_price_csv(src)
         except PriceListError as exc:
             fail(str(exc))
         if not new:

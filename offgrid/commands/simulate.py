@@ -3,9 +3,15 @@
 from __future__ import annotations
 
 import argparse
-import json
 
-from offgrid.commands.common import add_project_argument, design_failed, fail, with_example
+from offgrid.commands.common import (
+    add_project_argument,
+    design_failed,
+    fail,
+    json_text,
+    with_example,
+)
+from offgrid.numbers import finite_float
 
 
 def register(sub) -> None:
@@ -23,9 +29,9 @@ def register(sub) -> None:
                    help="hourly balance for the design (slower); the sweep stays daily")
     p.add_argument("--target", action="append", metavar="LOLP",
                    help="target LOLP as a fraction (repeatable; default 0.01 and 0.001)")
-    p.add_argument("--array-price", type=float, metavar="PER_W",
+    p.add_argument("--array-price", type=finite_float, metavar="PER_W",
                    help="array price per W, for the cheapest point")
-    p.add_argument("--battery-price", type=float, metavar="PER_KWH",
+    p.add_argument("--battery-price", type=finite_float, metavar="PER_KWH",
                    help="battery price per kWh, for the cheapest point")
     p.add_argument("--sweep", default="30", metavar="N",
                    help="sweep N array sizes x N battery sizes (default 30)")
@@ -75,7 +81,7 @@ def run(args: argparse.Namespace) -> int:
     except ValueError as exc:
         fail(str(exc))
     if args.json:
-        print(json.dumps(rep.to_dict(), indent=2, ensure_ascii=False))
+        print(json_text(rep.to_dict()))
     else:
         print(summary_text(rep))
     return 0

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import argparse
-import json
 from pathlib import Path
 
 from offgrid.commands.common import (
@@ -12,10 +11,12 @@ from offgrid.commands.common import (
     design_failed,
     fail,
     first_field,
+    json_text,
     open_project,
     read_stdin,
     with_example,
 )
+from offgrid.numbers import finite_float
 
 
 def register(sub) -> None:
@@ -40,8 +41,9 @@ def add_quick_arguments(p: argparse.ArgumentParser) -> None:
                             "- reads it from the standard input")
     quick.add_argument("--climate", metavar="CLIMATE",
                        help="climate name or climate file (see `offgrid climate list`)")
-    quick.add_argument("--autonomy-days", type=float, metavar="N")
-    quick.add_argument("--max-dod", type=float, metavar="F", help="maximum depth of discharge 0-1")
+    quick.add_argument("--autonomy-days", type=finite_float, metavar="N")
+    quick.add_argument("--max-dod", type=finite_float, metavar="F",
+                       help="maximum depth of discharge 0-1")
     quick.add_argument("--controller", choices=("pwm", "mppt"))
 
 
@@ -123,7 +125,7 @@ def run(args: argparse.Namespace) -> int:
     except DesignError as exc:
         design_failed(exc)
     if args.json:
-        print(json.dumps(result.to_dict(), indent=2, ensure_ascii=False))
+        print(json_text(result.to_dict()))
     else:
         from offgrid.summary import summary_text
 

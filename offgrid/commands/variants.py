@@ -3,9 +3,14 @@
 from __future__ import annotations
 
 import argparse
-import json
 
-from offgrid.commands.common import add_project_argument, fail, open_project, with_example
+from offgrid.commands.common import (
+    add_project_argument,
+    fail,
+    json_text,
+    open_project,
+    with_example,
+)
 
 
 def register(sub) -> None:
@@ -38,7 +43,7 @@ def run(args: argparse.Namespace) -> int:
              "[variants.overrides] (for example \"controller.type\" = \"pwm\")", code=1)
     cmp = compare_variants(project, base)
     if args.json:
-        print(json.dumps(comparison_dict(cmp), indent=2, ensure_ascii=False))
+        print(json_text(comparison_dict(cmp)))
         return 0
     from offgrid.report.build import build_report
     from offgrid.report.document import Report

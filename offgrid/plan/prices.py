@@ -35,6 +35,8 @@ from pathlib import Path
 
 import numpy as np
 
+from offgrid.numbers import MAX_PRICE, NumberError, read_number
+
 #: item -> allowed bases
 ITEMS: dict[str, tuple[str, ...]] = {
     "module": ("per_w", "each"),
@@ -178,12 +180,16 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
             continue
         raw = cells.get("unit_price", "")
         try:
-            price = float(raw)
-        except ValueError:
-            problems.append(f"line {line}: unit_price '{raw}' is not a number")
+            price = read_number(raw)
+        except NumberError as exc:
+            problems.append(f"line {line}: unit_price {exc}")
             continue
-        if not np.isfinite(price) or price < 0:
+        if price < 0:
             problems.append(f"line {line}: unit_price {raw} must be 0 or more")
+            continue
+        if price > MAX_PRICE:
+            problems.append(f"line {line}: unit_price {raw} is out of range; a price must be 0 "
+                            f"or more and at most {MAX_PRICE:,.0f}")
             continue
         if item in entries:
             problems.append(f"line {line}: {item} is priced twice; keep one row")
@@ -207,9 +213,11 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
 
 
 def load_prices(path: str | Path, currency: str = "USD") -> PriceList:
+    from offgrid.textfile import TextFileError, read_text
+
     p = Path(path)
     try:
-        text = p.read_text(encoding="utf-8")
-    except OSError as exc:
-        raise PriceListError(f"cannot read price list {p}: {exc.strerror}") from exc
+        text = read_text(p)
+    except TextFileError as exc:
+        raise PriceListError(f"price list {p}: {exc}") from None
     return read_prices_csv(text, str(p), currency)

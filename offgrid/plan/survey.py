@@ -26,6 +26,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Literal, get_args, get_origin, get_type_hints
 
+from offgrid.numbers import NumberError, read_number
 from offgrid.project.model import Project
 
 #: Row columns with a fixed meaning; any other column must be a project field path.
@@ -188,13 +189,7 @@ def convert_value(tp: Any, text: str) -> Any:
             return False
         raise ValueError(f"'{text}' must be yes or no")
     if tp is float:
-        try:
-            value = float(text.replace(",", "."))
-        except ValueError:
-            raise ValueError(f"'{text}' is not a number") from None
-        if value != value or value in (float("inf"), float("-inf")):
-            raise ValueError(f"'{text}' is not a finite number")
-        return value
+        return read_number(text)
     if tp is int:
         value = convert_value(float, text)
         if value != int(value):
@@ -209,6 +204,10 @@ def convert_value(tp: Any, text: str) -> Any:
 
 def _is_blank(cells: list[str]) -> bool:
     return all(not c.strip() for c in cells)
+
+
+#: The most rows read from one survey (identical households share a row with a count).
+MAX_ROWS = 10_000
 
 
 def read_survey(text: str, source: str = "survey", base_dir: Path | None = None) -> Survey:
@@ -239,6 +238,10 @@ def read_survey(text: str, source: str = "survey", base_dir: Path | None = None)
             continue
         if fatal:
             break
+        if survey.rows_read >= MAX_ROWS:
+            raise SurveyError([SurveyProblem(line, "", "rows", f"more than {MAX_ROWS:,} rows: "
+                                             "give identical households one row with a count, "
+                                             "or split the survey by area")], source)
         survey.rows_read += 1
         row = _read_row(header, cells, line, survey.problems, seen_ids)
         if row is not None:
@@ -349,10 +352,10 @@ def _read_row(header: list[str], cells: list[str], line: int, problems: list[Sur
                      "more)")
     else:
         try:
-            number = float(raw.replace(",", "."))
-        except ValueError:
+            number = read_number(raw)
+        except NumberError as exc:
             number = None
-            bad("count", f"'{raw}' is not a number; give a whole number of systems")
+            bad("count", f"{exc}; give a whole number of systems")
         if number is not None:
             if number != number or number < 0:
                 bad("count", f"{raw} is negative; give the number of systems (0 leaves the row "
@@ -420,12 +423,9 @@ def _read_row(header: list[str], cells: list[str], line: int, problems: list[Sur
 
 def _positive(raw: str, fld: str, unit: str, bad, allow_zero: bool = False) -> float | None:
     try:
-        value = float(raw.replace(",", "."))
-    except ValueError:
-        bad(fld, f"'{raw}' is not a number ({unit})")
-        return None
-    if value != value or value in (float("inf"), float("-inf")):
-        bad(fld, f"'{raw}' is not a finite number ({unit})")
+        value = read_number(raw)
+    except NumberError as exc:
+        bad(fld, f"{exc} ({unit})")
         return None
     if value < 0 or (value == 0 and not allow_zero):
         bad(fld, f"{raw} {unit} must be {'0 or more' if allow_zero else 'above 0'}")
@@ -435,13 +435,11 @@ def _positive(raw: str, fld: str, unit: str, bad, allow_zero: bool = False) -> f
 
 def load_survey(path: str | Path) -> Survey:
     """Read a community CSV file; references inside resolve relative to its folder."""
+    from offgrid.textfile import TextFileError, read_text
+
     p = Path(path)
     try:
-        text = p.read_text(encoding="utf-8")
-    except OSError as exc:
-        raise SurveyError([SurveyProblem(0, "", "file", f"cannot read {p}: {exc.strerror}")],
-                          str(p)) from exc
-    except UnicodeDecodeError as exc:
-        raise SurveyError([SurveyProblem(0, "", "file", f"{p} is not UTF-8 text: save the "
-                                         "spreadsheet as CSV UTF-8")], str(p)) from exc
+        text = read_text(p)
+    except TextFileError as exc:
+        raise SurveyError([SurveyProblem(0, "", "file", f"{p} {exc}")], str(p)) from None
     return read_survey(text, source=str(p), base_dir=p.parent)

@@ -9,6 +9,7 @@ import textwrap
 from offgrid.plan.community import CommunityPlan, RowResult
 from offgrid.plan.kits import KitParts, parts_of
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES
+from offgrid.safetext import csv_row, markdown_text, visible
 
 WIDTH = 80
 #: The text summary lists every row up to this many; beyond, only the exceptions.
@@ -197,12 +198,12 @@ def summary_text(plan: CommunityPlan, show_rows: bool | None = None) -> str:
 
 
 def _md_row(cells) -> str:
-    return "| " + " | ".join(str(c).replace("|", "/") for c in cells) + " |"
+    return "| " + " | ".join(markdown_text(str(c)) for c in cells) + " |"
 
 
 def markdown_report(plan: CommunityPlan) -> str:
     """The plan as a Markdown document (kits, own systems, every row, totals, tiers)."""
-    md: list[str] = [f"# {plan.name}", ""]
+    md: list[str] = [f"# {markdown_text(plan.name)}", ""]
     if plan.demo:
         md += ["*Demonstration data: the community, the people and the prices are invented.*",
                ""]
@@ -277,16 +278,17 @@ def markdown_report(plan: CommunityPlan) -> str:
                "x runs)."]
     if plan.unmet:
         md += ["", "## Cannot be met", ""]
-        md += [f"- line {r.line} (id {r.id}): {r.reason}" for r in plan.unmet]
+        md += [f"- line {r.line} (id {markdown_text(r.id)}): {markdown_text(r.reason)}"
+               for r in plan.unmet]
     if plan.bad_rows:
         md += ["", "## Rows left out", ""]
-        md += [f"- {p}" for p in plan.bad_rows]
+        md += [f"- {markdown_text(str(p))}" for p in plan.bad_rows]
     if plan.notices:
         md += ["", "## Notices", ""]
         md += [f"- [{n.code}] {n.message}" for n in plan.notices]
     md += ["", "## Safety cautions", ""]
     md += [f"- {c}" for c in plan.cautions]
-    return "\n".join(md) + "\n"
+    return visible("\n".join(md)) + "\n"
 
 
 def rows_csv(plan: CommunityPlan) -> str:
@@ -301,7 +303,7 @@ def rows_csv(plan: CommunityPlan) -> str:
     for r in plan.rows:
         d = r.design
         parts = kits.get(r.kit) if r.kit else (parts_of(d) if d else None)
-        w.writerow([r.line, r.id, r.name, r.kind, r.count, r.status, r.kit or "",
+        w.writerow(csv_row([r.line, r.id, r.name, r.kind, r.count, r.status, r.kit or "",
                     f"{d.required_power_w:.1f}" if d else "", f"{d.required_wh:.0f}" if d else "",
                     f"{parts.array_power_w:g}" if parts else "",
                     f"{parts.nominal_wh:.0f}" if parts else "",
@@ -310,10 +312,10 @@ def rows_csv(plan: CommunityPlan) -> str:
                     "" if r.tier_served is None else r.tier_served,
                     "" if r.oversize_array_pct is None else f"{r.oversize_array_pct:.1f}",
                     "" if r.oversize_battery_pct is None else f"{r.oversize_battery_pct:.1f}",
-                    "" if r.unit_cost is None else f"{r.unit_cost:.2f}", r.reason])
+                    "" if r.unit_cost is None else f"{r.unit_cost:.2f}", r.reason]))
     for p in plan.bad_rows:
-        w.writerow([p.line, p.row_id, "", "", "", "left out", "", "", "", "", "", "", "", "", "",
-                    "", "", f"{p.field}: {p.message}"])
+        w.writerow(csv_row([p.line, p.row_id, "", "", "", "left out", "", "", "", "", "", "", "",
+                            "", "", "", "", f"{p.field}: {p.message}"]))
     return out.getvalue()
 
 

@@ -3,7 +3,10 @@
 Columns (header required, order free): ``name, quantity, power_w, hours_per_day,
 ac_dc, duty_cycle, surge_w, months, critical``; optional ``time_of_day``
 (any, day, morning, evening, night).  ``months`` is ``1-12``, ``5,6,7`` or
-``11-2`` (wrapping); ``critical`` is yes/no.
+``11-2`` (wrapping); ``critical`` is yes/no.  Numbers are read by
+:func:`offgrid.numbers.read_number`; a name that a spreadsheet would take for a formula
+is written with a leading apostrophe (:func:`offgrid.safetext.csv_cell`) and read back
+without it.  At most :data:`MAX_LOADS` loads are read.
 """
 
 from __future__ import annotations
@@ -13,12 +16,17 @@ import io
 from dataclasses import dataclass
 from pathlib import Path
 
+from offgrid.numbers import NumberError, is_finite_number, read_number
 from offgrid.project.model import ALL_MONTHS, Load
+from offgrid.safetext import csv_cell, csv_uncell
 
 COLUMNS = ("name", "quantity", "power_w", "hours_per_day", "ac_dc", "duty_cycle", "surge_w",
            "months", "critical")
 OPTIONAL_COLUMNS = ("time_of_day",)
 TIMES_OF_DAY = ("any", "day", "morning", "evening", "night")
+#: The longest load list read (a clinic or a school has tens of loads; a whole village is
+#: planned as a community survey, not as one load list).
+MAX_LOADS = 5000
 _YES = {"yes", "y", "true", "1"}
 _NO = {"no", "n", "false", "0", ""}
 
@@ -91,7 +99,16 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     out: list[tuple[str, str]] = []
     if not load.name.strip():
         out.append(("name", "is blank; give the appliance a name"))
-    if load.quantity < 0 or load.quantity > 100000:
+    for fld in ("power_w", "hours_per_day", "duty_cycle", "surge_w"):
+        value = getattr(load, fld)
+        if not is_finite_number(value):
+            out.append((fld, f"'{value}' is not a finite number; type a number such as 0 or "
+                             "1.5"))
+    if out:
+        return out
+    if not isinstance(load.quantity, int) or isinstance(load.quantity, bool):
+        out.append(("quantity", f"'{load.quantity}' must be a whole number 0-100000"))
+    elif load.quantity < 0 or load.quantity > 100000:
         out.append(("quantity", f"{load.quantity} is not a count; use a whole number 0-100000"))
     if not 0 <= load.power_w <= 1_000_000:
         out.append(("power_w", f"{load.power_w} W is outside 0-1,000,000 W"))
@@ -100,7 +117,7 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     if not 0 <= load.duty_cycle <= 1:
         out.append(("duty_cycle", f"{load.duty_cycle} must be a fraction 0-1 (0.4 = on 40 % of the "
                                   "time)"))
-    if load.surge_w < 0 or load.surge_w > 10_000_000:
+    if not 0 <= load.surge_w <= 10_000_000:
         out.append(("surge_w", f"{load.surge_w} W must be 0 (no surge) or a starting power in W"))
     elif 0 < load.surge_w < load.power_w:
         out.append(("surge_w", f"{load.surge_w} W is below the running power {load.power_w} W; "
@@ -127,9 +144,9 @@ def _num(row: dict, key: str, line: int, problems: list[LoadProblem], default: f
             problems.append(LoadProblem(line, key, f"is empty; type {_REQUIRED_CELLS[key]}"))
         return default
     try:
-        return float(raw.replace(",", "."))
-    except ValueError:
-        problems.append(LoadProblem(line, key, f"'{raw}' is not a number"))
+        return read_number(raw)
+    except NumberError as exc:
+        problems.append(LoadProblem(line, key, str(exc)))
         return default
 
 
@@ -163,12 +180,17 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
             problems.append(LoadProblem(line, "row", "has more cells than the header has columns"))
             continue
         start = len(problems)
-        name = (row.get("name") or "").strip()
+        name = csv_uncell((row.get("name") or "").strip())
         if any("\n" in (v or "") for v in row.values() if isinstance(v, str)):
             problems.append(LoadProblem(line, "row", 'a quotation mark (") opens a cell and is '
                                         "never closed, so the lines after it were read into "
                                         "one cell: close the quote or remove it"))
             continue
+        if len(loads) >= MAX_LOADS:
+            problems.append(LoadProblem(line, "row", f"more than {MAX_LOADS:,} loads: a load "
+                                        "list is one system's appliances; split the list, or "
+                                        "plan a community with `offgrid plan`"))
+            raise LoadListError(problems, source)
         qty = _num(row, "quantity", line, problems, 1)
         if qty != int(qty):
             problems.append(LoadProblem(line, "quantity", f"{qty} must be a whole number"))
@@ -217,7 +239,8 @@ def loads_to_csv(loads: list[Load]) -> str:
     writer = csv.writer(out, lineterminator="\n")
     writer.writerow([*COLUMNS, *OPTIONAL_COLUMNS])
     for ld in loads:
-        writer.writerow([ld.name, ld.quantity, f"{ld.power_w:g}", f"{ld.hours_per_day:g}", ld.ac_dc,
-                         f"{ld.duty_cycle:g}", f"{ld.surge_w:g}", format_months(ld.months),
+        writer.writerow([csv_cell(ld.name), ld.quantity, f"{ld.power_w:g}",
+                         f"{ld.hours_per_day:g}", ld.ac_dc, f"{ld.duty_cycle:g}",
+                         f"{ld.surge_w:g}", format_months(ld.months),
                          "yes" if ld.critical else "no", ld.time_of_day])
     return out.getvalue()

@@ -23,13 +23,14 @@ from pathlib import Path
 from typing import Any, Literal, get_args, get_origin, get_type_hints
 
 from offgrid.climate.files import ClimateFileError, climate_from_dict, climate_to_dict
+from offgrid.numbers import is_finite_number
 from offgrid.project.atomic import (  # noqa: F401  (atomic_write_text: used from here)
     ChangedOnDisk,
     Fingerprint,
     atomic_write_text,
     write_atomic,
 )
-from offgrid.project.loads_csv import format_months, parse_months
+from offgrid.project.loads_csv import MAX_LOADS, format_months, parse_months
 from offgrid.project.model import (
     FORMAT_NAME,
     SCHEMA_VERSION,
@@ -191,22 +192,28 @@ class _Reader:
             return value
         if tp is bool:
             if not isinstance(value, bool):
-                self.bad(path, f"'{value}' must be true or false")
+                self.bad(path, f"'{_short(value)}' must be true or false")
             return bool(value)
         if tp is float:
             if isinstance(value, bool) or not isinstance(value, int | float):
-                self.bad(path, f"'{value}' is not a number")
+                self.bad(path, f"'{_short(value)}' is not a number")
+                return 0.0
+            if not is_finite_number(value):
+                self.bad(path, f"'{_short(value)}' is not a finite number; {_hint(path)}")
                 return 0.0
             return float(value)
         if tp is int:
             if (isinstance(value, bool) or not isinstance(value, int | float)
                     or (isinstance(value, float) and not value.is_integer())):
-                self.bad(path, f"'{value}' must be a whole number")
+                self.bad(path, f"'{_short(value)}' must be a whole number")
+                return 0
+            if abs(value) > 10 ** 15:
+                self.bad(path, f"'{_short(value)}' is far too large; {_hint(path)}")
                 return 0
             return int(value)
         if tp is str:
             if not isinstance(value, str):
-                self.bad(path, f"'{value}' must be text in quotes")
+                self.bad(path, f"'{_short(value)}' must be text in quotes")
                 return str(value)
             return value
         if origin is list:
@@ -216,6 +223,11 @@ class _Reader:
             return [self.convert(args[0], v, f"{path}[{i + 1}]") for i, v in enumerate(value)]
         if origin is tuple:
             if path.endswith(".months"):
+                if not (isinstance(value, str) or (isinstance(value, list) and all(
+                        isinstance(v, int) and not isinstance(v, bool) for v in value))):
+                    self.bad(path, f"'{_short(value)}' is not a set of months: write it in "
+                                   'quotes, e.g. months = "1-12" or months = "5,6,7"')
+                    return ()
                 try:
                     return parse_months(value if isinstance(value, str) else
                                         ",".join(str(v) for v in value))
@@ -251,6 +263,50 @@ class _Reader:
                 self.bad(f"{path}.{f.name}", "required field is missing")
                 kwargs[f.name] = self.convert(hints[f.name], _zero(hints[f.name]), path)
         return cls(**kwargs)
+
+
+def _short(value: Any) -> str:
+    """A value quoted in a message: at most 40 characters."""
+    if isinstance(value, int) and not isinstance(value, bool) and abs(value) > 10 ** 40:
+        return f"a number of {len(hex(value)) * 1.2:.0f}-odd digits"
+    text = repr(value) if isinstance(value, list | dict) else str(value)
+    return text if len(text) <= 40 else text[:37] + "..."
+
+
+def _hint(path: str) -> str:
+    """What to type at ``path``: its range from validate.RANGES, or a general hint."""
+    from offgrid.project.validate import RANGES
+
+    generic = path.split("[")[0] if "[" in path else path
+    for name, _lo, _hi, hint in RANGES:
+        if name in (path, generic):
+            return hint
+    return "type a number such as 0 or 1.5"
+
+
+def _depth(data: Any, limit: int) -> int:
+    """How deep tables and lists nest in ``data`` (iterative; stops past ``limit``)."""
+    deepest = 0
+    stack = [(data, 0)]
+    while stack:
+        obj, level = stack.pop()
+        deepest = max(deepest, level)
+        if deepest > limit:
+            return deepest
+        if isinstance(obj, dict):
+            stack.extend((v, level + 1) for v in obj.values())
+        elif isinstance(obj, list):
+            stack.extend((v, level + 1) for v in obj)
+    return deepest
+
+
+#: Largest project file read: 5,000 loads with an inline climate and its daily series take
+#: about 1.2 MB; a larger TOML file would take seconds to parse for nothing.
+MAX_PROJECT_BYTES = 2_000_000
+
+#: Deepest nesting of tables and lists read from a project file (offgrid writes at most
+#: four levels; kept unknown tables may add a few).
+MAX_DEPTH = 32
 
 
 def _zero(tp: Any) -> Any:
@@ -295,6 +351,11 @@ def project_from_dict(data: dict[str, Any], source: str = "project") -> tuple[Pr
             if not isinstance(value, list):
                 reader.bad("loads", "must be a list of [[loads]] tables")
                 continue
+            if len(value) > MAX_LOADS:
+                reader.bad("loads", f"{len(value):,} loads: more than {MAX_LOADS:,} loads in one "
+                                    "project; a project is one system, plan a community with "
+                                    "`offgrid plan`")
+                continue
             kwargs["loads"] = [reader.build(Load, v, f"loads[{i + 1}]") for i, v in
                                enumerate(value)]
         elif key in hints and key != "extra":
@@ -329,13 +390,26 @@ def _read_climate(value: Any, reader: _Reader) -> ClimateChoice:
 
 def loads_project(text: str, source: str = "project") -> Project:
     """Parse project text; raise :class:`ProjectFileError` with every problem."""
+    too_deep = Problem("file", f"tables or lists nested more than {MAX_DEPTH} levels deep: "
+                               "this is not an offgrid project; check that it is the right "
+                               "file")
+    tables = len(re.findall(r"(?m)^\s*\[\[\s*loads\s*\]\]", text))
+    if tables > MAX_LOADS:  # refused before parsing: a huge file is not parsed for nothing
+        raise ProjectFileError(source, [Problem("loads", f"{tables:,} loads: more than "
+                                                f"{MAX_LOADS:,} loads in one project; a project "
+                                                "is one system, plan a community with "
+                                                "`offgrid plan`")])
     try:
         data = tomllib.loads(text)
+    except RecursionError:
+        raise ProjectFileError(source, [too_deep]) from None
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
         line = int(m.group(1)) if m else None
         raise ProjectFileError(source, [Problem("file", f"not valid TOML: {exc}; fix the "
                                                 "syntax at that line", line)]) from exc
+    if _depth(data, MAX_DEPTH) > MAX_DEPTH:
+        raise ProjectFileError(source, [too_deep])
     project, problems = project_from_dict(data, source)
     if problems:
         lines = _locate_lines(text)
@@ -355,7 +429,7 @@ def load_project(path: str | os.PathLike) -> Project:
 
     p = Path(path)
     try:
-        text = read_text(p)
+        text = read_text(p, max_bytes=MAX_PROJECT_BYTES)
     except TextFileError as exc:
         raise ProjectFileError(str(p), [Problem("file", str(exc))]) from None
     return loads_project(text.removeprefix("\ufeff"), source=str(p))

@@ -10,8 +10,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from offgrid.climate.sky import albedo_problems
+from offgrid.numbers import MAX_PRICE, PRICE_RANGE, is_finite_number
 from offgrid.project.loads_csv import check_load
 from offgrid.project.model import Project
+from offgrid.safetext import printable
 
 
 @dataclass(frozen=True)
@@ -111,8 +113,8 @@ def validate_project(project: Project) -> list[Problem]:
         value = _get(project, path)
         if value is None:
             continue
-        if isinstance(value, bool) or not isinstance(value, int | float) or value != value:
-            problems.append(Problem(path, f"'{value}' is not a number; {hint}"))
+        if not is_finite_number(value):
+            problems.append(Problem(path, f"'{value}' is not a finite number; {hint}"))
         elif not lo <= value <= hi:
             problems.append(Problem(path, f"{value:g} is out of range; {hint}"))
     for path, message in albedo_problems(project.site.albedo, "site.albedo"):
@@ -145,7 +147,7 @@ def validate_project(project: Project) -> list[Problem]:
         problems.append(Problem("wiring.insulation_temp_c", f"'{w.insulation_temp_c}' must be "
                                 "60, 75 or 90 (C)"))
     for name, length in w.dc_load_runs_m.items():
-        if not isinstance(length, int | float) or not 0.1 <= length <= 1000:
+        if not is_finite_number(length) or not 0.1 <= length <= 1000:
             problems.append(Problem(f"wiring.dc_load_runs_m.{name}", f"'{length}' must be a "
                                     "one-way length in metres, 0.1-1000"))
     c = project.climate
@@ -166,7 +168,8 @@ def validate_project(project: Project) -> list[Problem]:
                                     str(exc).removeprefix("site.horizon_deg ")))
     for i, load in enumerate(project.loads):
         for fld, msg in check_load(load):
-            problems.append(Problem(f"loads[{i + 1}].{fld}", f"{msg} (load '{load.name}')"))
+            problems.append(Problem(f"loads[{i + 1}].{fld}",
+                                    f"{msg} (load '{printable(load.name)}')"))
     problems.extend(_price_and_variant_problems(project))
     return problems
 
@@ -187,13 +190,15 @@ def _price_and_variant_problems(project: Project) -> list[Problem]:
         else:
             seen[part] = i
         price = item.unit_price
-        if isinstance(price, bool) or not isinstance(price, int | float) or price != price \
-                or price in (float("inf"), float("-inf")):
+        if not is_finite_number(price):
             problems.append(Problem(f"{path}.unit_price", f"'{price}' is not a number; give the "
-                                    f"price of one unit of '{part}'"))
+                                    f"price of one unit of '{part}'; {PRICE_RANGE}"))
         elif price <= 0:
             problems.append(Problem(f"{path}.unit_price", f"{price:g} for '{part}': a price must "
                                     "be above zero; remove the line if the part is not bought"))
+        elif price > MAX_PRICE:
+            problems.append(Problem(f"{path}.unit_price", f"{price:g} for '{part}' is out of "
+                                    f"range; {PRICE_RANGE}"))
     names: dict[str, int] = {}
     for i, variant in enumerate(project.variants, start=1):
         name = variant.name.strip()

@@ -21,19 +21,23 @@ SUFFIXES = {".html": "html", ".htm": "html", ".md": "md", ".markdown": "md", ".t
 
 
 def render(report, fmt: str) -> str:
-    """Render a report model in ``fmt`` (html, md or txt)."""
+    """Render a report model in ``fmt`` (html, md or txt); no raw control character in it
+    (the model's text is one-line already; :func:`offgrid.safetext.visible` guards the rest,
+    such as chart labels)."""
+    from offgrid.safetext import visible
+
     if fmt == "html":
         from offgrid.report.html import render_html
 
-        return render_html(report)
+        return visible(render_html(report))
     if fmt == "md":
         from offgrid.report.markdown import render_markdown
 
-        return render_markdown(report)
+        return visible(render_markdown(report))
     if fmt == "txt":
         from offgrid.report.text import render_text
 
-        return render_text(report)
+        return visible(render_text(report))
     raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")
 
 

@@ -24,6 +24,7 @@ from typing import Any
 
 from offgrid.project.model import Project
 from offgrid.result import SystemDesign
+from offgrid.safetext import csv_row
 
 #: Conductors per cable run: go and return of a two-wire DC or single-phase AC circuit.
 CONDUCTORS_PER_RUN = 2
@@ -183,9 +184,9 @@ def bom_csv(lines: Iterable[BomLine], prices: dict[str, float] | None = None,
     if prices is not None:
         head += [f"unit price ({currency})".replace(" ()", ""), f"total ({currency})".replace(
             " ()", "")]
-    w.writerow(head)
+    w.writerow(csv_row(head))
     for ln in lines:
-        row = [ln.key, ln.description, f"{ln.quantity:g}", ln.unit, ln.follows]
+        row = csv_row([ln.key, ln.description, f"{ln.quantity:g}", ln.unit, ln.follows])
         if prices is not None:
             p = prices.get(ln.key)
             row += (["", ""] if p is None else [f"{p:.2f}", f"{p * ln.quantity:.2f}"])

@@ -29,12 +29,15 @@ import csv
 import io
 import math
 from dataclasses import dataclass, field
+from pathlib import Path
 
 import numpy as np
 
+from offgrid.numbers import MAX_PRICE, PRICE_RANGE, NumberError, read_number
 from offgrid.project.model import Economics, PriceItem, Project
 from offgrid.report.bom import BomLine
 from offgrid.result import Reason, SystemDesign, fmt
+from offgrid.safetext import csv_cell, csv_uncell, printable
 
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
 
@@ -124,7 +127,7 @@ def read_price_csv(text: str, source: str = "price list") -> list[PriceItem]:
     items: list[PriceItem] = []
     seen: dict[str, int] = {}
     for n, row in enumerate(reader, start=2):
-        part = (row.get(cols["part"]) or "").strip()
+        part = csv_uncell((row.get(cols["part"]) or "").strip())
         raw = (row.get(price_col) or "").strip()
         if not part and not raw:
             continue
@@ -133,20 +136,35 @@ def read_price_csv(text: str, source: str = "price list") -> list[PriceItem]:
         if not raw:
             continue
         try:
-            price = float(raw.replace(",", ""))
-        except ValueError:
-            raise PriceListError(f"{source}: row {n}, unit_price: '{raw}' is not a number "
-                                 f"(part '{part}')") from None
-        if not math.isfinite(price) or price <= 0:
-            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{part}': a price "
-                                 "must be above zero; leave it blank if the part is not bought")
+            price = read_number(raw)
+        except NumberError as exc:
+            raise PriceListError(f"{source}: row {n}, unit_price: {exc} (part "
+                                 f"'{printable(part)}')") from None
+        if price <= 0:
+            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{printable(part)}': "
+                                 "a price must be above zero; leave it blank if the part is not "
+                                 "bought")
+        if price > MAX_PRICE:
+            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{printable(part)}' "
+                                 f"is out of range; {PRICE_RANGE}")
         if part in seen:
             raise PriceListError(f"{source}: row {n}: '{part}' is priced twice (also row "
                                  f"{seen[part]})")
         seen[part] = n
-        note = (row.get(cols["note"]) or "").strip() if "note" in cols else ""
+        note = csv_uncell((row.get(cols["note"]) or "").strip()) if "note" in cols else ""
         items.append(PriceItem(part=part, unit_price=price, note=note))
     return items
+
+
+def load_price_csv(path: str | Path) -> list[PriceItem]:
+    """A price list file read with :func:`offgrid.textfile.read_text` (regular files only)."""
+    from offgrid.textfile import TextFileError, read_text
+
+    try:
+        text = read_text(path)
+    except TextFileError as exc:
+        raise PriceListError(f"{path}: {exc}") from None
+    return read_price_csv(text, str(path))
 
 
 def merge_prices(old: list[PriceItem], new: list[PriceItem]) -> list[PriceItem]:
@@ -166,12 +184,12 @@ def price_template_csv(bom: tuple[BomLine, ...], prices: list[PriceItem]) -> str
     notes = {p.part: p.note for p in prices}
     for ln in bom:
         p = price_for(ln.key, prices)
-        w.writerow([ln.key, "" if p is None else f"{p:g}", ln.unit, ln.description,
-                    notes.get(ln.key, "")])
+        w.writerow([csv_cell(ln.key), "" if p is None else f"{p:g}", ln.unit,
+                    csv_cell(printable(ln.description)), csv_cell(notes.get(ln.key, ""))])
         listed.add(ln.key)
     for p in prices:  # kind-wide prices and prices of parts not in this design
         if p.part not in listed:
-            w.writerow([p.part, f"{p.unit_price:g}", "", "", p.note])
+            w.writerow([csv_cell(p.part), f"{p.unit_price:g}", "", "", csv_cell(p.note)])
     return buf.getvalue()
 
 

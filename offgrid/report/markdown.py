@@ -3,11 +3,7 @@
 from __future__ import annotations
 
 from offgrid.report.document import Bullets, Chart, Figures, Paragraph, Report, Table
-
-
-def _esc(text: str) -> str:
-    return text.replace("\\", "\\\\").replace("|", "\\|").replace("*", "\\*").replace(
-        "_", "\\_").replace("<", "&lt;")
+from offgrid.safetext import markdown_text as _esc
 
 
 def _table(t: Table) -> list[str]:

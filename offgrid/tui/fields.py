@@ -9,11 +9,11 @@ No Textual here.
 from __future__ import annotations
 
 import contextlib
-import math
 from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
+from offgrid.numbers import NumberError, read_number
 from offgrid.project.validate import RANGES
 from offgrid.result import SystemDesign
 
@@ -107,7 +107,8 @@ class Field:
 def parse_number(raw: str, unit: str = "", hint: str = "") -> float:
     """A number typed by a person: ``12``, ``0,5`` (decimal comma), ``300 W``, ``50 %``.
 
-    A percentage given for a fraction field (unit '') is divided by 100.
+    The number itself is read by :func:`offgrid.numbers.read_number`, the reader of every
+    input.  A percentage given for a fraction field (unit '') is divided by 100.
     """
     text = raw.strip().replace("\u2212", "-")
     percent = text.endswith("%")
@@ -115,15 +116,11 @@ def parse_number(raw: str, unit: str = "", hint: str = "") -> float:
         text = text[:-1].strip()
     if unit and text.lower().endswith(unit.lower()):
         text = text[: -len(unit)].strip()
-    if text.count(",") == 1 and "." not in text:
-        text = text.replace(",", ".")
     try:
-        value = float(text)
-    except ValueError:
+        value = read_number(text)
+    except NumberError as exc:
         tail = f"; {hint}" if hint else ""
-        raise ValueError(f"'{raw}' is not a number{tail}") from None
-    if not math.isfinite(value):
-        raise ValueError(f"'{raw}' is not a finite number")
+        raise ValueError(f"{exc}{tail}") from None
     if percent and unit in ("", "fraction"):
         value /= 100.0
     return value

@@ -34,9 +34,11 @@ def _parse(argv: list[str]) -> tuple[str | None, bool] | str:
 
 def run(argv: list[str]) -> int:
     """Run the text UI; returns the process exit status."""
+    from offgrid.safetext import visible
+
     parsed = _parse(list(argv))
     if isinstance(parsed, str):
-        print(parsed, file=sys.stderr)
+        print(visible(parsed), file=sys.stderr)
         return 2
     path, demo = parsed
     from offgrid.project.store import ProjectFileError
@@ -45,7 +47,8 @@ def run(argv: list[str]) -> int:
     try:
         app = make_app(path, demo=demo)
     except ProjectFileError as exc:
-        print(f"offgrid: {exc}\nNothing was opened; the file was not changed.", file=sys.stderr)
+        print(visible(f"offgrid: {exc}\nNothing was opened; the file was not changed."),
+              file=sys.stderr)
         return 2
 
     def hang_up(signum, _frame) -> None:

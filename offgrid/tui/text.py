@@ -8,27 +8,9 @@ and are wrapped in :class:`rich.text.Text`, which never parses markup.
 
 from __future__ import annotations
 
-import re
-
 from rich.text import Text
 
-# C0 controls, DEL, C1 controls, and the invisible bidirectional overrides that
-# can make text appear in a different order than it is stored.
-_HIDDEN = re.compile("[\x00-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
-
-
-def _picture(match: re.Match[str]) -> str:
-    code = ord(match.group(0))
-    if code < 0x20:
-        return chr(0x2400 + code)  # Unicode control pictures: ESC -> U+241B
-    if code == 0x7F:
-        return "\u2421"
-    return f"<U+{code:04X}>"
-
-
-def printable(text: str) -> str:
-    """``text`` with every control or direction-override character made visible."""
-    return _HIDDEN.sub(_picture, text)
+from offgrid.safetext import printable  # one helper for every output
 
 
 def from_printable(shown: str, original: str) -> str:

@@ -537,11 +537,11 @@ class OptionsSection(Section):
                                         suffixes=(".csv",), verb="reads it"), chosen)
 
     def import_prices(self, path: Path) -> None:
-        from offgrid.report.costs import PriceListError, merge_prices, read_price_csv
+        from offgrid.report.costs import PriceListError, load_price_csv, merge_prices
 
         try:
-            items = read_price_csv(path.read_text(encoding="utf-8"), path.name)
-        except (OSError, UnicodeDecodeError, PriceListError) as exc:
+            items = load_price_csv(path)
+        except (OSError, PriceListError) as exc:
             self.app.push_screen(MessageDialog("That price list cannot be used",
                                                f"{exc}\n\nThe price list was not changed."))
             return
