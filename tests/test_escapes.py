@@ -169,3 +169,30 @@ def test_text_ui_refusing_a_project_at_start_shows_escapes_visibly(tmp_path, cap
     assert "hours_per_day" in err and not RAW_CONTROL.search(err)
     assert run_ui([f"--x{CLEAR}", "y"]) == 2
     assert not RAW_CONTROL.search(capsys.readouterr().err)
+
+
+def test_plan_markdown_report_escapes_links_and_row_splits():
+    # A survey row whose id carries a link, an image and a pipe, and a community name with a
+    # newline: the plan's Markdown report shows them as text (issue 12, Markdown reports).
+    from offgrid.paths import load_profiles_dir
+    from offgrid.plan.community import plan_community
+    from offgrid.plan.survey import read_survey
+    from offgrid.plan.text import markdown_report
+
+    lines = ["community,Hill | [x](javascript:alert(1)) (invented)",
+             "climate,kisanga-ridge-demo", "project,kisanga-ridge-home-parts",
+             "prices,kisanga-ridge-prices", "id,count,load_list,daily_energy_wh,peak_power_w,ac_dc",
+             "![i](http://example.invalid/p.png),1,household-basic,,,",
+             "A|B,1,,300,60,dc", "H3,1,,,,"]
+    plan = plan_community(read_survey("\n".join(lines) + "\n", base_dir=load_profiles_dir()),
+                          kits=1, jobs=1)
+    md = markdown_report(plan)
+    import re
+
+    # no bracket left unescaped before a parenthesis: no link or image can form
+    assert not re.search(r"(?<!\\)\]\(", md)
+    assert not re.search(r"(?<!\\)!(?<!\\)\[", md)
+    assert "\\[x\\]" in md  # shown as text
+    for line in md.splitlines():
+        if line.startswith("|"):  # every table row keeps its own cells
+            assert "A|B" not in line

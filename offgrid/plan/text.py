@@ -207,12 +207,12 @@ def markdown_report(plan: CommunityPlan) -> str:
     if plan.demo:
         md += ["*Demonstration data: the community, the people and the prices are invented.*",
                ""]
-    md += [f"- Survey: `{plan.source}`", f"- Climate: `{plan.climate}`"]
+    md += [f"- Survey: {markdown_text(plan.source)}", f"- Climate: {markdown_text(plan.climate)}"]
     if plan.tilt_deg is not None:
         md.append(f"- Tilt: {plan.tilt_deg:.0f} deg for every system (one mounting for the "
                   "kits)")
     if plan.prices_source:
-        md.append(f"- Prices: `{plan.prices_source}` ({plan.currency})")
+        md.append(f"- Prices: {markdown_text(plan.prices_source)} ({markdown_text(plan.currency)})")
     md.append(f"- Rows: {plan.rows_read} read, {plan.systems} systems planned, "
               f"{len({p.line for p in plan.bad_rows})} left out, {len(plan.unmet)} cannot be met")
     s = plan.standard
@@ -271,7 +271,8 @@ def markdown_report(plan: CommunityPlan) -> str:
         if t.total_cost is not None:
             md += ["", f"**Capital cost: {t.total_cost:,.0f} {t.currency}**"]
         if t.unpriced:
-            md += ["", f"Not priced (no price-list row): {', '.join(t.unpriced)}."]
+            md += ["", "Not priced (no price-list row): "
+                   + markdown_text(', '.join(t.unpriced)) + "."]
         md += ["", "Kits are compared on modules, batteries, controllers, inverters and the "
                "per-system price; cables and protection are added here from each design's "
                "electrical result. Cable is metres of two-conductor cable (2 x one-way length "
@@ -285,9 +286,9 @@ def markdown_report(plan: CommunityPlan) -> str:
         md += [f"- {markdown_text(str(p))}" for p in plan.bad_rows]
     if plan.notices:
         md += ["", "## Notices", ""]
-        md += [f"- [{n.code}] {n.message}" for n in plan.notices]
+        md += [f"- \\[{n.code}\\] {markdown_text(n.message)}" for n in plan.notices]
     md += ["", "## Safety cautions", ""]
-    md += [f"- {c}" for c in plan.cautions]
+    md += [f"- {markdown_text(c)}" for c in plan.cautions]
     return visible("\n".join(md)) + "\n"
 
 
