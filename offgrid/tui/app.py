@@ -2,15 +2,16 @@
 
 from __future__ import annotations
 
+import contextlib
 import re
 from collections.abc import Iterable
 from pathlib import Path
 
+from textual import events
 from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.screen import Screen
 from textual.theme import Theme
-from textual.timer import Timer
 
 from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.help import HelpDialog
@@ -29,7 +30,7 @@ from offgrid.tui.state import (
 from offgrid.tui.text import printable
 from offgrid.tui.widgets.bars import SECTIONS
 
-AUTOSAVE_SECONDS = 3.0
+AUTOSAVE_SECONDS = 0.0  # kept for callers; the recovery copy is written after every edit
 
 THEMES = (
     Theme(name="offgrid-night", primary="#2a6f97", secondary="#468faf", accent="#f4a259",
@@ -74,17 +75,30 @@ class OffgridApp(App):
         super().__init__()
         self.initial_session = session
         self.state = state or state_dir()
-        self.recovery = RecoveryStore(self.state)
+        from offgrid.tui.autosave import RecoveryWriter
+
+        self.recovery = RecoveryWriter(RecoveryStore(self.state), self._recovery_failed)
         self.orphans = list(orphans or [])
         self.initial_section = section
         self.autosave_seconds = autosave_seconds
-        self._autosave_timer: Timer | None = None
         self.discarded = False
         self.autosaves = 0
         self._last_session: Session | None = session
         for t in THEMES:
             self.register_theme(t)
         self.theme = theme or DEFAULT_THEME
+
+    async def on_event(self, event: events.Event) -> None:
+        # On the work screen each key is handled to the end before the next one
+        # (offgrid.tui.keys says why): no key typed after the one that opens an
+        # editor is lost or reordered.
+        if isinstance(event, events.Key) and not event.is_forwarded and \
+                isinstance(self.screen, WorkScreen):
+            from offgrid.tui.keys import handle_key_now
+
+            await handle_key_now(self, event)
+            return
+        await super().on_event(event)
 
     # ------------------------------------------------------------------ screens
     @property
@@ -382,24 +396,29 @@ class OffgridApp(App):
 
     # ------------------------------------------------------------------ recovery
     def project_changed(self) -> None:
-        """Called after every change: the recovery file is written once typing pauses."""
-        if self._autosave_timer is not None:
-            self._autosave_timer.stop()
-        self._autosave_timer = self.set_timer(self.autosave_seconds, self.autosave)
+        """Called after every applied edit: the recovery copy is handed to its writer thread.
+
+        The text is taken here (so it is exactly what is on screen); the writing is
+        done off the UI thread, and edits that come faster than writes are coalesced.
+        """
+        self.autosave()
 
     def autosave(self) -> None:
         session = self.session
         if session is None:
             return
-        try:
-            if session.dirty:
-                self.recovery.write(session.text(), session.path, session.title,
-                                    session.baseline)
-                self.autosaves += 1
-            else:
-                self.recovery.clear()
-        except OSError as exc:
-            self.notify(f"Recovery file not written: {exc}", severity="warning", markup=False)
+        text = session.text()
+        if text != session.baseline:
+            self.recovery.submit(text, session.path, session.title, session.baseline)
+            self.autosaves += 1
+        else:
+            self.recovery.clear()
+
+    def _recovery_failed(self, exc: OSError) -> None:
+        """On the writer thread: say so on the UI thread."""
+        with contextlib.suppress(RuntimeError):  # RuntimeError: the app has ended
+            self.call_from_thread(self.notify, f"Recovery file not written: {exc}",
+                                  severity="warning", markup=False)
 
     def write_recovery_now(self) -> bool:
         """Write the recovery file at once (hang-up, crash); True if there was work to keep."""

@@ -9,6 +9,7 @@ from textual.binding import Binding
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Footer, Input
 
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.why import WhyDialog, find_reason
 from offgrid.tui.sections.base import Section
 from offgrid.tui.sections.cautions import CautionsSection
@@ -130,7 +131,7 @@ class WorkScreen(Screen):
         self.refresh_all()
         focus = self.current.first_focus()
         if focus is not None:
-            focus.focus()
+            focus_now(focus)
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         if action in LETTER_ACTIONS and isinstance(self.focused, Input):
@@ -153,7 +154,7 @@ class WorkScreen(Screen):
         self.query_one(SectionBar).show(section)
         focus = self.current.first_focus()
         if focus is not None:
-            focus.focus()
+            focus_now(focus)
 
     def action_next_section(self, step: int) -> None:
         ids = [sid for sid, _t, _w in SECTIONS]

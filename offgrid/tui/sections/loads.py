@@ -12,6 +12,7 @@ from textual.widgets import DataTable, Static
 from offgrid.project.loads_csv import format_months, parse_months
 from offgrid.result import Reason, fmt
 from offgrid.tui.fields import LOAD_COLUMNS, Column, parse_number
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session
@@ -217,7 +218,8 @@ class LoadsSection(Section):
             return from_printable(typed, original)
         if column.kind == "months":
             return parse_months(typed)
-        value = parse_number(typed, column.unit, column.hint)
+        value = parse_number(typed, column.unit, column.hint,
+                             fraction=column.key == "duty_cycle")
         if column.kind == "int":
             if value != int(value):
                 raise ValueError(f"'{typed}' must be a whole number")
@@ -236,7 +238,7 @@ class LoadsSection(Section):
         self.show(self.session)
         col = self.table.cursor_column if column is None else column
         self.table.move_cursor(row=row, column=col, animate=False)
-        self.table.focus()
+        focus_now(self.table)
 
     def action_add(self) -> None:
         row = self._row()

@@ -14,6 +14,7 @@ from textual.widgets import DataTable, Static
 
 from offgrid.project.model import ClimateChoice, MonthlyClimate, Project
 from offgrid.tui.fields import PROJECT_FIELDS, Field, parse_number
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session, get_path
@@ -498,7 +499,7 @@ class PlaceSection(Section):
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
         self.work.changed("Now using your own twelve months: edit them in the table", tell=True)
-        self.months.focus()
+        focus_now(self.months)
 
     # ------------------------------------------------------------------ why
     def figure(self) -> Figure | None:
@@ -534,9 +535,9 @@ class PlaceSection(Section):
     def reveal(self, path: str) -> bool:
         if path.startswith("climate"):
             self.fields.select_path("climate")
-            self.fields.focus()
+            focus_now(self.fields)
             return True
         if self.fields.select_path(path):
-            self.fields.focus()
+            focus_now(self.fields)
             return True
         return False
