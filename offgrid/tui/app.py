@@ -513,6 +513,29 @@ class OffgridApp(App):
                     f"{work.current.help_text}"
         self.push_screen(HelpDialog(self.help_groups(), first, about))
 
+    def _field_commands(self, work: WorkScreen) -> Iterable[SystemCommand]:
+        """Every input and every figure of Sizes by its words: the palette goes there."""
+        from offgrid.tui.fields import PARTS_FIELDS, PROJECT_FIELDS
+        from offgrid.tui.sections.place import CLIMATE_FIELDS
+        from offgrid.tui.sections.sizes import figure_rows
+        from offgrid.tui.sections.wires import WIRING_FIELDS
+
+        for where, fields in (("1 Place", (*PROJECT_FIELDS, *CLIMATE_FIELDS)),
+                              ("3 Parts", PARTS_FIELDS), ("5 Wires", WIRING_FIELDS)):
+            for f in fields:
+                if isinstance(f, str):
+                    continue
+                yield SystemCommand(f"{f.label} ({where})", f"Edit: {f.help() or f.path}",
+                                    lambda p=f.path: work.reveal(p))
+        design = work.session.design
+        if design is not None:
+            for row in figure_rows(design):
+                if isinstance(row, str) or not row[2]:
+                    continue
+                label, value, path = row
+                yield SystemCommand(f"{label.strip()} (4 Sizes)", f"Figure: {value}",
+                                    lambda p=path: work.reveal(p))
+
     def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
         work = self.work if isinstance(screen, WorkScreen) else None
         if work is not None:
@@ -526,6 +549,7 @@ class OffgridApp(App):
                     getattr(work.current, f"action_{action}")()
                 return run
 
+            yield from self._field_commands(work)
             yield SystemCommand("Why this value", "The reason for the figure under the cursor "
                                 "(w)", work.action_why)
             yield SystemCommand("Recalculate", "Run the design again", work.changed)

@@ -61,3 +61,17 @@ def clip(text: str, width: int) -> str:
     if width <= 0:
         return ""
     return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+
+
+def clip_words(text: str, width: int) -> str:
+    """Shorten to ``width`` characters at a word boundary, with an ellipsis (never mid-word).
+
+    A first word longer than ``width`` is cut (nothing better fits).
+    """
+    if len(text) <= width:
+        return text
+    if width <= 1:
+        return "\u2026"[:width]
+    room = text[: width - 1]
+    cut = room.rstrip(" ,;:(").rsplit(" ", 1)[0] if " " in room else room
+    return cut.rstrip(" ,;:(") + "\u2026"

@@ -7,7 +7,7 @@ import time
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.screen import Screen
-from textual.widgets import ContentSwitcher, Footer, Input
+from textual.widgets import ContentSwitcher, Input
 
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.why import WhyDialog, find_reason
@@ -22,6 +22,7 @@ from offgrid.tui.sections.sizes import SizesSection
 from offgrid.tui.sections.wires import WiresSection
 from offgrid.tui.session import Session
 from offgrid.tui.widgets.bars import SECTIONS, FileBar, Headline, SectionBar
+from offgrid.tui.widgets.footer import KeyFooter
 
 SECTION_CLASSES: dict[str, type[Section]] = {
     "place": PlaceSection, "loads": LoadsSection, "parts": PartsSection, "sizes": SizesSection,
@@ -70,7 +71,7 @@ class WorkScreen(Screen):
         yield Headline(id="headline")
         with ContentSwitcher(initial=self.section, id="sections"):
             yield SECTION_CLASSES[self.section](id=self.section)
-        yield Footer(compact=True)
+        yield KeyFooter(compact=True)
 
     def on_mount(self) -> None:
         # First paint at once (the headline says the design is coming), then the design,
@@ -165,7 +166,8 @@ class WorkScreen(Screen):
         order = {"site": "place", "climate": "place", "info": "place", "loads": "loads",
                  "module": "parts", "battery": "parts", "controller": "parts",
                  "inverter": "parts", "choices": "parts", "prices": "options",
-                 "variants": "options", "economics": "options"}
+                 "variants": "options", "economics": "options",
+                 "wiring": "wires"}
         head = path.split(".")[0].split("[")[0]
         target = order.get(head, "sizes")
         self.action_goto(target)

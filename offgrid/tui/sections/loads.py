@@ -52,7 +52,10 @@ class LoadsTable(SteadyTable):
         if column.kind == "text":
             return Text(clip(printable(str(value)), w - 1).ljust(w))
         if column.kind == "months":
-            return Text(clip(format_months(value), w - 1).ljust(w))
+            shown = format_months(value)
+            if len(shown) > w - 1:  # the count says it all; Enter shows the months
+                shown = f"{len(value)} mo"
+            return Text(shown.ljust(w))
         if column.kind == "choice":
             for v, label in column.choices:
                 if v == value:

@@ -533,6 +533,9 @@ class PlaceSection(Section):
         return Figure(field.label, value, field.reason, extra=extra)
 
     def reveal(self, path: str) -> bool:
+        if self.fields.select_path(path):
+            focus_now(self.fields)
+            return True
         if path.startswith("climate"):
             self.fields.select_path("climate")
             focus_now(self.fields)

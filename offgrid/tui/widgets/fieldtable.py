@@ -8,7 +8,7 @@ from textual.binding import Binding
 from offgrid.result import SystemDesign
 from offgrid.tui.fields import Field
 from offgrid.tui.session import get_path
-from offgrid.tui.text import literal
+from offgrid.tui.text import clip_words, literal
 from offgrid.tui.widgets.steady import SteadyTable
 
 
@@ -35,6 +35,7 @@ class FieldTable(SteadyTable):
     def _columns(self, width: int) -> None:
         value_w = max(20, min(40, (width - 26 - 8) // 2 + 4))
         help_w = max(10, width - 26 - value_w - 7)
+        self._help_w = help_w
         self._layout = width
         self.clear(columns=True)
         self.add_column("Field", width=24, key="label")
@@ -75,7 +76,8 @@ class FieldTable(SteadyTable):
             value = literal(shown)
             if row.path in problems:
                 value = Text.assemble(("\u2717 ", "bold"), value)
-            self.add_row(Text("  " + row.label), value, Text(row.help(), style="dim"),
+            hint = clip_words(row.help(), getattr(self, "_help_w", 40))
+            self.add_row(Text("  " + row.label), value, Text(hint, style="dim"),
                          key=row.path)
         self.move_cursor(row=self._first_field(keep), animate=False)
 
