@@ -722,4 +722,4 @@ async def test_risk_check_real_run(state):
         await wait_until(pilot, lambda: risk.result is not None, 60)
         text = screen_text(app)
         assert "Result for the design as it is now" in text
-        assert "For LOLP" in text
+        assert "Reliability targets" in text and "battery needed for it" in text

@@ -11,6 +11,7 @@ from offgrid.result import Notice
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable
+from offgrid.wording import confirm_words
 
 MARK = {"error": "\u2717 ERROR", "warning": "! WARNING", "info": "i NOTE"}
 
@@ -76,7 +77,7 @@ class CautionsSection(Section):
                 self._targets.append((None, None, ""))
             for n in d.warnings:
                 tag = MARK.get(n.severity, n.severity.upper())
-                text = Text.assemble((f"{tag}  ", "bold"), printable(n.message))
+                text = Text.assemble((f"{tag}  ", "bold"), printable(confirm_words(n.message)))
                 text.append(f"  [{n.code}]", style="dim")
                 where = INPUT_FOR_NOTICE.get(n.code, n.figure)
                 if where:
@@ -87,6 +88,7 @@ class CautionsSection(Section):
             options.append(Option(Text("Safety", style="bold underline"), disabled=True))
             self._targets.append((None, None, ""))
             for caution in d.cautions:
+                caution = confirm_words(caution)
                 text = Text.assemble(("\u26a0 ", "bold"), printable(caution))
                 where = next((p for words, p in INPUT_FOR_CAUTION if words in caution), None)
                 if where:

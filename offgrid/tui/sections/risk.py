@@ -124,19 +124,25 @@ class RiskSection(Section):
              rs.get("wear.expected_life_years"), ""),
             ("Full cycles per year", f"{wear.equivalent_full_cycles_per_year:.0f}",
              rs.get("wear.equivalent_full_cycles_per_year"), ""),
-            ("PV energy spilled (battery full)", pct(r.spilled_fraction), None,
+            ("Solar not used: battery was full", pct(r.spilled_fraction), None,
              "Share of the controller output that the full battery could not take."),
         ]
         tr = rep.tradeoff
         if tr is not None:
+            rows.append(("Reliability targets", "", None, ""))  # a heading
             for t in tr.targets:
-                need = (f"{t.design_capacity_needed_wh / 1000:.1f} kWh battery at this array"
+                need = (f"{t.design_capacity_needed_wh / 1000:.1f} kWh"
                         if t.design_capacity_needed_wh else "-")
-                rows.append((f"For LOLP {pct(t.target)}", ("met; " if t.design_meets else
-                                                           "NOT met; ") + need, None,
+                rows.append((f"Loads met on {pct(1 - t.target)} of days",
+                             ("this design: yes" if t.design_meets else "this design: NO"),
+                             None, t.message))
+                rows.append(("    battery needed for it", need + " with this array", None,
                              t.message))
         for label, value, reason, extra in rows:
-            table.add_row(Text("  " + label), Text(value, style="bold"))
+            if not value and reason is None and not extra:
+                table.add_row(Text(label, style="bold underline"), Text(""))
+            else:
+                table.add_row(Text("  " + label), Text(value, style="bold"))
             self._rows.append((label, value, reason, extra))
         if table.row_count:
             table.move_cursor(row=min(keep, table.row_count - 1), animate=False)
