@@ -481,8 +481,11 @@ class OffgridApp(App):
                                                     "(every action)"),
                             *[x for x in work if not x.id or not x.id.startswith("go.")]]),
             ("Moving around", moving),
-            ("Editing a value", [*b(FieldTable), *b(EditBar), Binding("enter", "apply", "Apply "
-                                 "the typed value (in the edit box)")]),
+            ("Editing a value", [*b(FieldTable), *b(EditBar),
+                                 Binding("any key", "type", "Typing replaces the old value "
+                                         "(it opens selected)"),
+                                 Binding("left,right,home,end", "keep", "Keep the old value "
+                                         "to change part of it")]),
             ("1 Place", [*b(PlaceSection), *b(ClimateTable)]),
             ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
             ("7 Risk", b(RiskSection)),

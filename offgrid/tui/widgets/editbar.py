@@ -49,7 +49,8 @@ class EditBar(Vertical):
         Binding("escape", "cancel", "Cancel edit", id="edit.cancel"),
         # Applied while the key is handled, before the next key, so a key typed
         # right after Enter goes to the table, not into the closing box.
-        Binding("enter", "apply", "Apply", show=False, priority=True, id="edit.apply"),
+        Binding("enter", "apply", "Apply the typed value (in the edit box)", show=False,
+                priority=True, id="edit.apply"),
     ]
 
     def __init__(self, **kwargs) -> None:
