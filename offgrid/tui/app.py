@@ -46,6 +46,14 @@ DEFAULT_THEME = "offgrid-night"
 SUN_THEME = "offgrid-sunlight"
 
 
+#: Borders drawn with ASCII under TERM=vt100 or NO_COLOR (see ``plain_terminal``).
+PLAIN_CSS = """
+.dialog { border: ascii $accent; }
+.months-strip, #balance, #wiring-fields { border-top: ascii $panel; }
+EditBar { border-top: ascii $accent; }
+"""
+
+
 def suggested_name(title: str) -> str:
     slug = re.sub(r"[^A-Za-z0-9]+", "-", title).strip("-").lower()
     return (slug or "project")[:48] + ".toml"
@@ -84,6 +92,11 @@ class OffgridApp(App):
         self.discarded = False
         self.autosaves = 0
         self._last_session: Session | None = session
+        from offgrid.tui.screens.curves import plain_terminal
+
+        self.plain = plain_terminal()
+        if self.plain:  # a serial console or screen reader: ASCII lines, no colour
+            self.CSS = PLAIN_CSS
         for t in THEMES:
             self.register_theme(t)
         self.theme = theme or DEFAULT_THEME
@@ -553,6 +566,8 @@ class OffgridApp(App):
                 return run
 
             yield from self._field_commands(work)
+            yield SystemCommand("I-V curves", "The array's I-V and P-V curves: design month, "
+                                "record low, hottest month (v)", work.action_curves)
             yield SystemCommand("Why this value", "The reason for the figure under the cursor "
                                 "(w)", work.action_why)
             yield SystemCommand("Recalculate", "Run the design again", work.changed)

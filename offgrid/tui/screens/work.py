@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import asyncio
+import contextlib
 import time
 
 from textual.app import ComposeResult
@@ -31,21 +33,22 @@ SECTION_CLASSES: dict[str, type[Section]] = {
 }
 
 #: Section-changing and other one-letter keys work while no text box has focus.
-LETTER_ACTIONS = {"goto", "next_section", "why", "save_as", "open", "revert", "undo",
-                  "redo", "start", "help", "toggle_theme", "quit", "commands", "export"}
+LETTER_ACTIONS = {"curves", "go", "goto", "next_section", "why", "save_as", "open", "revert",
+                  "undo", "redo", "start", "help", "toggle_theme", "quit", "commands", "export"}
 
 
 class WorkScreen(Screen):
     """Where the whole job is done."""
 
     BINDINGS = [
-        *(Binding(str(n), f"goto('{sid}')", title, show=False, id=f"go.{sid}")
+        *(Binding(str(n), f"go('{sid}')", title, show=False, id=f"go.{sid}")
           for n, (sid, title, _what) in enumerate(SECTIONS, start=1)),
         Binding("right_square_bracket,greater_than_sign", "next_section(1)", "Next section",
                 show=False, id="go.next"),
         Binding("left_square_bracket,less_than_sign", "next_section(-1)", "Previous section",
                 show=False, id="go.previous"),
         Binding("w", "why", "Why?", id="why"),
+        Binding("v", "curves", "I-V curves", show=False, id="curves"),
         Binding("s", "save", "Save", id="file.save"),
         Binding("ctrl+s", "save", "Save", show=False, id="file.save_ctrl", priority=True),
         Binding("S", "save_as", "Save as", show=False, id="file.save_as"),
@@ -64,6 +67,7 @@ class WorkScreen(Screen):
         self.section = section
         self.stale: set[str] = set()
         self.last_change_s = 0.0
+        self._all_mounted = asyncio.Event()
 
     def compose(self) -> ComposeResult:
         yield FileBar(id="filebar")
@@ -94,6 +98,7 @@ class WorkScreen(Screen):
             widget.display = widget.id == switcher.current
         if missing:
             await switcher.mount_all(missing)
+        self._all_mounted.set()
 
     def _has(self, sid: str) -> bool:
         return bool(self.query_one(ContentSwitcher).query_children(f"#{sid}"))
@@ -142,6 +147,14 @@ class WorkScreen(Screen):
         return True
 
     # ------------------------------------------------------------------ navigation
+    async def action_go(self, section: str) -> None:
+        """A section key: just after start the other sections are still being built, so
+        wait for them here; the keys typed after this one then reach the section."""
+        if section != self.section and not self._all_mounted.is_set():
+            with contextlib.suppress(TimeoutError):
+                await asyncio.wait_for(self._all_mounted.wait(), 10.0)
+        self.action_goto(section)
+
     def action_goto(self, section: str) -> None:
         if not self._has(section):  # still being built just after start: a moment later
             self.call_after_refresh(self.action_goto, section)
@@ -157,9 +170,9 @@ class WorkScreen(Screen):
         if focus is not None:
             focus_now(focus)
 
-    def action_next_section(self, step: int) -> None:
+    async def action_next_section(self, step: int) -> None:
         ids = [sid for sid, _t, _w in SECTIONS]
-        self.action_goto(ids[(ids.index(self.section) + step) % len(ids)])
+        await self.action_go(ids[(ids.index(self.section) + step) % len(ids)])
 
     def reveal(self, path: str) -> None:
         """Go to the section and field (or figure) that ``path`` names."""
@@ -186,6 +199,18 @@ class WorkScreen(Screen):
         if reason is None and self.session.design is not None:
             path, reason = find_reason(self.session.design.reasons, fig.path)
         self.app.push_screen(WhyDialog(fig.label, fig.value, reason, path, fig.extra))
+
+    def action_curves(self) -> None:
+        """The array's I-V and P-V curves at design, cold and hot conditions."""
+        from offgrid.tui.screens.curves import CurvesDialog, array_curves
+
+        d = self.session.design
+        curves = array_curves(self.session.project, d) if d is not None else []
+        if not curves:
+            self.app.notify("No curves: the design has no electrical part yet (see Cautions).",
+                            timeout=4)
+            return
+        self.app.push_screen(CurvesDialog(curves))
 
     # ------------------------------------------------------------------ edits and files
     def action_undo(self) -> None:

@@ -45,7 +45,8 @@ class FileBar(Static):
         else:
             where = "not saved yet"
         demo = " (demonstration data)" if session.project.info.demo else ""
-        left = f"offgrid \u2502 {printable(session.title)}{demo}"
+        sep = "|" if getattr(self.app, "plain", False) else "\u2502"
+        left = f"offgrid {sep} {printable(session.title)}{demo}"
         right = f"{where}{marker}"
         room = width - len(right) - 2
         text = Text(no_wrap=True, overflow="crop")
@@ -66,7 +67,8 @@ class SectionBar(Static):
         text = Text(no_wrap=True, overflow="crop")
         for n, (sid, title, _what) in enumerate(SECTIONS, start=1):
             if sid == current:
-                text.append(f"\u25b8{n} {title}\u25c2", style="bold reverse")
+                mark = ("[", "]") if getattr(self.app, "plain", False) else ("\u25b8", "\u25c2")
+                text.append(f"{mark[0]}{n} {title}{mark[1]}", style="bold reverse")
             else:
                 text.append(f" {n} {title} ")
         self.update(text)
@@ -125,11 +127,12 @@ class Headline(Static):
         for *parts, tail in forms:
             if sum(len(lb) + len(v) + 3 for lb, v in parts) + len(tail) <= width:
                 break
+        bar = " | " if getattr(self.app, "plain", False) else " \u2502 "
         for i, (label, value) in enumerate(parts):
             if i:
-                text.append(" \u2502 ")
+                text.append(bar)
             text.append(label)
             text.append(value, style="bold")
-        text.append(" \u2502 ")
+        text.append(bar)
         text.append(tail, style="bold" if n else "")
         self.update(text)
