@@ -38,6 +38,7 @@ class FieldTable(SteadyTable):
         self._help_w = help_w
         self._layout = width
         self.clear(columns=True)
+        self._shown = None
         self.add_column("Field", width=24, key="label")
         self.add_column("Value", width=value_w, key="value")
         self.add_column("What to type", width=help_w, key="help")
@@ -56,15 +57,17 @@ class FieldTable(SteadyTable):
 
     def fill(self, project, design: SystemDesign | None, problems: dict[str, str],
              special: dict[str, str] | None = None) -> None:
-        """Show the project's values; ``special`` gives the text of non-plain rows."""
+        """Show the project's values; ``special`` gives the text of non-plain rows.
+
+        When the rows are already there only the cells whose text changed are
+        updated: a full refill made the table redraw every row after each edit.
+        """
         special = special or {}
         self._last_fill = (project, design, problems, special)
-        keep = self.cursor_row or 0
-        self.clear()
-        for i, row in enumerate(self._rows):
+        cells = []
+        for row in self._rows:
             if isinstance(row, str):
-                self.add_row(Text(row, style="bold underline"), Text(""), Text(""),
-                             key=f"group{i}")
+                cells.append(None)
                 continue
             if row.path in special:
                 shown = special[row.path]
@@ -76,9 +79,26 @@ class FieldTable(SteadyTable):
             value = literal(shown)
             if row.path in problems:
                 value = Text.assemble(("\u2717 ", "bold"), value)
+            cells.append(value)
+        shown_before = getattr(self, "_shown", None)
+        if shown_before is not None and len(shown_before) == len(cells) and \
+                self.row_count == len(cells):
+            for i, (row, value) in enumerate(zip(self._rows, cells, strict=True)):
+                if value is not None and value != shown_before[i]:
+                    self.update_cell(row.path, "value", value)
+            self._shown = cells
+            return
+        keep = self.cursor_row or 0
+        self.clear()
+        for i, (row, value) in enumerate(zip(self._rows, cells, strict=True)):
+            if isinstance(row, str):
+                self.add_row(Text(row, style="bold underline"), Text(""), Text(""),
+                             key=f"group{i}")
+                continue
             hint = clip_words(row.help(), getattr(self, "_help_w", 40))
             self.add_row(Text("  " + row.label), value, Text(hint, style="dim"),
                          key=row.path)
+        self._shown = cells
         self.move_cursor(row=self._first_field(keep), animate=False)
 
     def is_heading(self, row: int) -> bool:
