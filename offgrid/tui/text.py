@@ -73,5 +73,6 @@ def clip_words(text: str, width: int) -> str:
     if width <= 1:
         return "\u2026"[:width]
     room = text[: width - 1]
-    cut = room.rstrip(" ,;:(").rsplit(" ", 1)[0] if " " in room else room
+    at_word_end = text[width - 1] == " "  # the room ends at a word's end: keep that word
+    cut = room if at_word_end or " " not in room else room.rsplit(" ", 1)[0]
     return cut.rstrip(" ,;:(") + "\u2026"

@@ -97,3 +97,11 @@ def test_months_column_shows_the_count_when_the_list_is_long():
     months = next(c for c in LOAD_COLUMNS if c.key == "months")
     assert str(table.cell(months, (1, 2, 3, 4, 10, 11, 12))).strip() == "7 mo"
     assert str(table.cell(months, tuple(range(1, 13)))).strip() == "1-12"
+
+
+def test_clip_words_keeps_a_word_that_ends_at_the_edge():
+    from offgrid.tui.text import clip_words
+
+    assert clip_words("lowest temperature expected, C", 20) == "lowest temperature\u2026"
+    assert clip_words("what the file is about", 20) == "what the file is\u2026"
+    assert clip_words("short", 20) == "short"

@@ -59,7 +59,7 @@ def array_curves(project, design) -> list[Curve]:
         pwm = None
         if v_chg and v_chg <= v[-1]:
             pwm = (v_chg, float(np.interp(v_chg, v, i)))
-        out.append(Curve(f"{series} in series, {title}", v, i,
+        out.append(Curve(f"one string of {series}, {title}", v, i,
                          (c.point.vmp_v * series, c.point.imp_a), pwm, window))
     return out
 
