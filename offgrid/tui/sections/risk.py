@@ -120,7 +120,7 @@ class RiskSection(Section):
              rs.get("days_below_soc"), ""),
             ("LOLP at end of battery life", pct(r.lolp_end_of_life), rs.get("lolp"),
              "The same simulation with the battery capacity at its end-of-life fraction."),
-            ("Battery expected life", f"{wear.expected_life_years:.1f} years",
+            ("Battery life, simulated", f"{wear.expected_life_years:.1f} years",
              rs.get("wear.expected_life_years"), ""),
             ("Full cycles per year", f"{wear.equivalent_full_cycles_per_year:.0f}",
              rs.get("wear.equivalent_full_cycles_per_year"), ""),
