@@ -374,6 +374,13 @@ class OffgridApp(App):
         session = self.session
         project = copy.deepcopy(session.project)
         design, base = session.design, session.base_dir
+        reliability = None  # the Risk section's last run, when it was run on this design
+        work = self.work
+        if work is not None and what == "report":
+            from offgrid.tui.sections.risk import RiskSection
+
+            for risk in work.query(RiskSection):
+                reliability = risk.current_report(session)
         self.notify(f"Writing {printable(path.name)}...", markup=False, timeout=2)
 
         def run() -> None:
@@ -385,7 +392,8 @@ class OffgridApp(App):
                 return
             try:
                 if what == "report":
-                    written = export_report(project, path, base, force=force, design=design)
+                    written = export_report(project, path, base, force=force, design=design,
+                                            reliability=reliability)
                 else:
                     written = export_bom(project, path, base, force=force, design=design)
             except ExportError as exc:

@@ -9,8 +9,12 @@ as soon as the project changes.
 from __future__ import annotations
 
 import copy
+import hashlib
+import os
+import pickle
 import time
 from dataclasses import dataclass
+from pathlib import Path
 
 from rich.text import Text
 from textual import work
@@ -33,6 +37,35 @@ class RiskRun:
     report: object  # offgrid.simulate.run.SimulationReport
     project_text: str
     seconds: float
+
+
+def kept_run_file(state: Path, project_path: Path) -> Path:
+    """Where the last risk run of a project file is kept (the user's own state folder)."""
+    key = hashlib.sha1(str(Path(project_path).resolve()).encode()).hexdigest()[:16]
+    return Path(state) / f"risk-{key}.pickle"
+
+
+def keep_run(state: Path, project_path: Path, run: RiskRun) -> None:
+    """Keep ``run`` with the project it was run on (its text: the inputs), atomically."""
+    target = kept_run_file(state, project_path)
+    target.parent.mkdir(parents=True, exist_ok=True)
+    tmp = target.with_suffix(".tmp")
+    tmp.write_bytes(pickle.dumps({"path": str(Path(project_path).resolve()), "run": run}))
+    os.replace(tmp, target)
+
+
+def kept_run(state: Path, project_path: Path) -> RiskRun | None:
+    """The last run kept for this project file, or None (missing, unreadable, another file)."""
+    try:
+        # our own file in the user's state folder, written by keep_run
+        body = pickle.loads(kept_run_file(state, project_path).read_bytes())
+    except (OSError, pickle.UnpicklingError, EOFError, AttributeError, ImportError,
+            TypeError, ValueError):
+        return None
+    if not isinstance(body, dict) or body.get("path") != str(Path(project_path).resolve()):
+        return None
+    run = body.get("run")
+    return run if isinstance(run, RiskRun) else None
 
 
 def pct(x: float | None) -> str:
@@ -207,12 +240,37 @@ class RiskSection(Section):
             run = RiskRun(report, text, time.perf_counter() - t0)
             self.app.call_from_thread(self._done, run)
 
+    def _keep(self, run: RiskRun) -> None:
+        """Keep the run with the project file, so it is there on reopen (marked out of
+        date when the project has changed since)."""
+        path = self.session.path
+        if path is None:
+            return
+        try:
+            keep_run(self.app.state, path, run)  # type: ignore[attr-defined]
+        except (OSError, pickle.PicklingError, TypeError) as exc:
+            self.app.notify(f"The risk result is not kept for next time: {exc}",
+                            severity="warning", markup=False, timeout=4)
+
+    def on_mount(self) -> None:
+        path = self.work.session.path if self.work.session is not None else None
+        if self.result is None and path is not None:
+            self.result = kept_run(self.app.state, path)  # type: ignore[attr-defined]
+
+    def current_report(self, session: Session):
+        """The last run's report if it was run on the project as it is now, else None."""
+        if self.result is not None and not self.running and \
+                self.result.project_text == session.text():
+            return self.result.report
+        return None
+
     def _progress(self, fraction: float) -> None:
         self.query_one(ProgressBar).update(progress=100 * fraction)
 
     def _done(self, run: RiskRun) -> None:
         self.running = False
         self.result = run
+        self._keep(run)
         if self.is_attached and self.work.session is not None:
             self.show(self.session)
         self.app.notify(f"Risk check done: LOLP {pct(run.report.reliability.lolp)}",
