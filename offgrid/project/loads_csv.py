@@ -90,7 +90,7 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     """Problems with one load as (field, message with the fix); empty when valid."""
     out: list[tuple[str, str]] = []
     if not load.name.strip():
-        out.append(("name", "is blank; give the appliance a name"))
+        out.append(("name", "the name is blank; give the appliance a name"))
     if load.quantity < 0 or load.quantity > 100000:
         out.append(("quantity", f"{load.quantity} is not a count; use a whole number 0-100000"))
     if not 0 <= load.power_w <= 1_000_000:

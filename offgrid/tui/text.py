@@ -51,8 +51,15 @@ def from_printable(shown: str, original: str) -> str:
     return "".join(out)
 
 
-def literal(text: str, style: str = "") -> Text:
-    """A :class:`Text` that shows ``text`` exactly as typed, safe for any widget."""
+def literal(text: str, style: str = "", lines: bool = False) -> Text:
+    """A :class:`Text` that shows ``text`` exactly as typed, safe for any widget.
+
+    ``lines``: line breaks stay line breaks (a message of several lines); any other
+    control character is still shown as its picture.
+    """
+    if lines:
+        text = "\n".join(printable(line) for line in text.split("\n"))
+        return Text(text, style=style, no_wrap=False)
     return Text(printable(text), style=style, no_wrap=False)
 
 

@@ -105,3 +105,25 @@ def test_clip_words_keeps_a_word_that_ends_at_the_edge():
     assert clip_words("lowest temperature expected, C", 20) == "lowest temperature\u2026"
     assert clip_words("what the file is about", 20) == "what the file is\u2026"
     assert clip_words("short", 20) == "short"
+
+
+async def test_small_defects_line_breaks_and_blank_name(state, tmp_path):
+    from offgrid.tui.screens.dialogs import MessageDialog
+    from offgrid.tui.session import EditRejected
+
+    bad = tmp_path / "notes.toml"
+    bad.write_text("this is = = not toml\n[[[\n")
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        app.open_path(bad)
+        await pilot.pause()
+        assert isinstance(app.screen, MessageDialog)
+        assert "\u240a" not in screen_text(app)  # line breaks, not their pictures
+        await pilot.press("escape")
+        await pilot.pause()
+        try:
+            app.session.set_value("loads[2].name", "")
+        except EditRejected as exc:
+            message = exc.problems[0].message
+        assert message == "the name is blank; give the appliance a name (appliance 2)"
