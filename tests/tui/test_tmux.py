@@ -121,7 +121,9 @@ def test_edit_save_and_quit_in_a_real_terminal(terminal, tmp_path, term, no_colo
                "Battery 38.4 kWh 800 Ah 48 V")
     if plain:
         shown = t.screen()
-        assert not any(ch in shown for ch in "\u2502\u25b8\u25c2"), shown
+        t.wait_for("Jul<")  # the design month's mark in the months table
+        shown = t.screen()
+        assert not any(ch in shown for ch in "\u2502\u25b8\u25c2\u2192"), shown
     t.keys("3")
     t.wait_for("Days of autonomy")
     t.keys("Down", "Enter")

@@ -76,7 +76,8 @@ class ClimateTable(SteadyTable):
         self.clear(columns=True)
         self.add_column(Text("Month"), width=13, key="label")
         for i, m in enumerate(MONTHS, start=1):
-            mark = m + ("\u25c2" if design_month == i else " ")
+            arrow = "<" if getattr(self.app, "plain", False) else "\u25c2"
+            mark = m + (arrow if design_month == i else " ")
             style = "bold reverse" if design_month == i else "bold"
             self.add_column(Text(mark.rjust(5), style=style), width=5, key=m)
         rows = [*ROWS, ARRAY_ROW]

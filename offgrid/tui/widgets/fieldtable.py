@@ -76,6 +76,8 @@ class FieldTable(SteadyTable):
                     shown = row.show(get_path(project, row.path), design)
                 except (AttributeError, IndexError):
                     shown = "-"
+            if getattr(self.app, "plain", False):  # ASCII for a plain terminal
+                shown = shown.replace("\u2192", "->")
             value = literal(shown)
             if row.path in problems:
                 value = Text.assemble(("\u2717 ", "bold"), value)
