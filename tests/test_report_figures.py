@@ -18,6 +18,7 @@ from offgrid.report.html import render_html
 from offgrid.report.markdown import render_markdown
 from offgrid.report.text import render_text
 from offgrid.sizing import design
+from offgrid.wording import confirm_words
 from tests.report_helpers import assert_shown_equals, at_path, demo, size_json
 
 
@@ -134,7 +135,8 @@ def test_every_reason_of_the_design_is_in_the_report(demo_report):
             assert path in shown, path
             item = shown[path]
         assert item.formula == reason.formula
-        assert item.source == reason.source
+        # the report words a recalled value for the client (offgrid.wording)
+        assert item.source == confirm_words(reason.source)
 
 
 def test_reliability_figures_equal_simulate_json():

@@ -85,3 +85,19 @@ def test_variant_that_does_not_design_keeps_its_column():
     assert col.design is None and "cannot design" in col.error
     assert cmp.row("Array power").values[1] is None
     assert cmp.row("Array power").differs[1] is False
+
+
+def test_counts_and_battery_life_read_as_elsewhere():
+    """Warnings and notes counted apart as in the headline; battery life names its method."""
+    from offgrid.report.variants import battery_life_label
+
+    assert battery_life_label(["chemistry preset, typical service life"]) == \
+        "Battery life, preset"
+    assert battery_life_label(["reliability simulation (battery wear)"]) == \
+        "Battery life, simulated"
+    assert battery_life_label(["reliability simulation (battery wear)", "chemistry preset"]) \
+        == "Battery life, preset or simulated"
+    from offgrid.report.variants import FIGURE_ROWS
+
+    labels = [r[0] for r in FIGURE_ROWS]
+    assert "Warnings" in labels and "Notes" in labels

@@ -21,7 +21,7 @@ def test_text_summary(capsys):
     out = capsys.readouterr().out
     assert "demonstration data" in out
     assert "loss-of-load probability" in out
-    assert "target LOLP 1.00 %" in out
+    assert "reliability target: loads met on 99.0 % of days (LOLP 1.00 %)" in out
     assert "local electrical codes" in out
     assert max(len(line) for line in out.splitlines()) <= 80
 

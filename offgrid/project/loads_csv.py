@@ -98,7 +98,7 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     """Problems with one load as (field, message with the fix); empty when valid."""
     out: list[tuple[str, str]] = []
     if not load.name.strip():
-        out.append(("name", "is blank; give the appliance a name"))
+        out.append(("name", "the name is blank; give the appliance a name"))
     for fld in ("power_w", "hours_per_day", "duty_cycle", "surge_w"):
         value = getattr(load, fld)
         if not is_finite_number(value):

@@ -168,8 +168,9 @@ def validate_project(project: Project) -> list[Problem]:
                                     str(exc).removeprefix("site.horizon_deg ")))
     for i, load in enumerate(project.loads):
         for fld, msg in check_load(load):
-            problems.append(Problem(f"loads[{i + 1}].{fld}",
-                                    f"{msg} (load '{printable(load.name)}')"))
+            who = (f"load '{printable(load.name)}'" if load.name.strip()
+                   else f"appliance {i + 1}")
+            problems.append(Problem(f"loads[{i + 1}].{fld}", f"{msg} ({who})"))
     problems.extend(_price_and_variant_problems(project))
     return problems
 

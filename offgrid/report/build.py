@@ -341,9 +341,12 @@ def build_report(project: Project, design: SystemDesign, *, base: Path | None = 
     subtitle = f"Stand-alone solar power design for {project.site.name or info.name}"
     meta = tuple((k, v) for k, v in (("Client", info.client), ("Designer", info.designer))
                  if v)
+    from offgrid.wording import for_client
+
+    # Client words: a recalled value ('from memory' in the engine) says what to confirm.
     return Report(title=info.name, subtitle=subtitle,
-                  sections=tuple(s for s in sections if s is not None), demo=info.demo,
-                  meta=meta)
+                  sections=for_client(tuple(s for s in sections if s is not None)),
+                  demo=info.demo, meta=meta)
 
 
 # ----------------------------------------------------------------------------- sections
@@ -870,7 +873,7 @@ RELIABILITY_FIGURES: tuple[tuple[str, str, float, str, int], ...] = (
     ("wear.calendar_life_years", "Battery calendar life", 1.0, "years", 1),
     ("wear.expected_life_years", "Battery expected life", 1.0, "years", 1),
     ("pv_kwh_per_year", "PV energy to the battery bus", 1.0, "kWh/year", 0),
-    ("spilled_fraction", "PV energy spilled (battery full)", 100.0, "%", 1),
+    ("spilled_fraction", "Solar not used: battery was full", 100.0, "%", 1),
     ("battery_loss_kwh_per_year", "Battery losses", 1.0, "kWh/year", 0),
     ("demand_kwh_per_year", "Demand at the battery", 1.0, "kWh/year", 0),
 )
@@ -1079,8 +1082,9 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
     blocks.append(Table("assumptions", ("Assumption", "Value"),
                         tuple((_c(k), _c(v)) for k, v in items), ("l", "l"), wrap=(1,)))
     blocks.append(Paragraph("Figures marked 'common practice, no source' follow the usual rule "
-                            "of the trade; 'from memory' marks a value not checked against its "
-                            "published source."))
+                            "of the trade; 'confirm against ...' marks a value not yet checked "
+                            "against its published source: check it there before relying on "
+                            "it."))
     return Section("assumptions", "Assumptions and derates", tuple(blocks))
 
 

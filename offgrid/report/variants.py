@@ -166,7 +166,11 @@ FIGURE_ROWS: tuple[tuple[str, str, int, str, Callable[..., Any]], ...] = (
      f"{d.controller.count} x {d.controller.current_a:g} {d.controller.type.upper()}"),
     ("Inverter", "W", 0, "inverter.continuous_w", lambda d, c, r:
      d.inverter.continuous_w if d.inverter.needed else "none"),
-    ("Warnings", "", 0, "warnings", lambda d, c, r: len(d.warnings)),
+    # As the headline counts them: warnings, and notes (severity 'info') apart.
+    ("Warnings", "", 0, "warnings", lambda d, c, r:
+     sum(1 for w in d.warnings if w.severity != "info")),
+    ("Notes", "", 0, "warnings", lambda d, c, r:
+     sum(1 for w in d.warnings if w.severity == "info")),
 )
 COST_ROWS: tuple[tuple[str, int, str], ...] = (
     ("Capital cost", 0, "capital"),
@@ -174,6 +178,14 @@ COST_ROWS: tuple[tuple[str, int, str], ...] = (
     ("Cost per kWh delivered", 3, "cost_per_kwh"),
     ("Battery life", 1, "battery_life_years"),
 )
+def battery_life_label(sources: list[str]) -> str:
+    """'Battery life' with the method behind the figures (the same words as 7 Risk)."""
+    kinds = {"simulated" if s.startswith("reliability simulation") else
+             "typed" if s.startswith("project file") else "preset"
+             for s in sources}
+    return "Battery life" + (", " + " or ".join(sorted(kinds)) if kinds else "")
+
+
 RELIABILITY_ROWS: tuple[tuple[str, str, int, str], ...] = (
     ("Loss-of-load probability", "%", 2, "lolp"),
     ("Unmet energy", "%", 2, "unmet_fraction"),
@@ -247,6 +259,9 @@ def compare_variants(project: Project, base: Path | None = None,
             unit = "years" if attr == "battery_life_years" else currency
             if attr == "cost_per_kwh":
                 unit = f"{currency}/kWh"
+            if attr == "battery_life_years":  # say which method: preset or simulated wear
+                label = battery_life_label([c.cost.battery_life_source for c in columns
+                                            if c.cost is not None])
             rows.append(_row(label, unit, digits, vals, "cost"))
     if simulate is not None:
         for label, unit, digits, attr in RELIABILITY_ROWS:

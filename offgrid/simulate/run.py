@@ -205,7 +205,8 @@ def summary_text(rep: SimulationReport) -> str:
         lines.append(f"Trade-off ({tr.sweep.array_w.size} x {tr.sweep.capacity_wh.size} "
                      f"designs, one sweep)")
         for t in tr.targets:
-            lines.append(f"  target LOLP {pct(t.target)}:")
+            lines.append(f"  reliability target: loads met on {pct(1 - t.target)} of days "
+                         f"(LOLP {pct(t.target)}):")
             pts = list(t.points)
             if pts:
                 step = max(1, len(pts) // 6)

@@ -252,7 +252,7 @@ def tradeoff(inp: SystemInputs, weather: WeatherSeries, *, targets=DEFAULT_TARGE
                    f"kWh) has LOLP {d_lolp:.2%}: it {'meets' if meets else 'misses'} "
                    f"{t:.2%}")
             if need is not None:
-                msg += f"; at its array size the curve needs {need / 1000:.2f} kWh"
+                msg += f"; with this array the battery needed for it is {need / 1000:.2f} kWh"
             if cheap is not None:
                 c, cost = cheap
                 msg += (f"; cheapest point {c.array_w:.0f} W with {c.capacity_wh / 1000:.2f} kWh "

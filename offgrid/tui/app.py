@@ -2,15 +2,16 @@
 
 from __future__ import annotations
 
+import contextlib
 import re
 from collections.abc import Iterable
 from pathlib import Path
 
+from textual import events
 from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.screen import Screen
 from textual.theme import Theme
-from textual.timer import Timer
 
 from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.help import HelpDialog
@@ -29,7 +30,7 @@ from offgrid.tui.state import (
 from offgrid.tui.text import printable
 from offgrid.tui.widgets.bars import SECTIONS
 
-AUTOSAVE_SECONDS = 3.0
+AUTOSAVE_SECONDS = 0.0  # kept for callers; the recovery copy is written after every edit
 
 THEMES = (
     Theme(name="offgrid-night", primary="#2a6f97", secondary="#468faf", accent="#f4a259",
@@ -43,6 +44,14 @@ THEMES = (
 )
 DEFAULT_THEME = "offgrid-night"
 SUN_THEME = "offgrid-sunlight"
+
+
+#: Borders drawn with ASCII under TERM=vt100 or NO_COLOR (see ``plain_terminal``).
+PLAIN_CSS = """
+.dialog { border: ascii $accent; }
+.months-strip, #balance, #wiring-fields { border-top: ascii $panel; }
+EditBar { border-top: ascii $accent; }
+"""
 
 
 def suggested_name(title: str) -> str:
@@ -74,17 +83,35 @@ class OffgridApp(App):
         super().__init__()
         self.initial_session = session
         self.state = state or state_dir()
-        self.recovery = RecoveryStore(self.state)
+        from offgrid.tui.autosave import RecoveryWriter
+
+        self.recovery = RecoveryWriter(RecoveryStore(self.state), self._recovery_failed)
         self.orphans = list(orphans or [])
         self.initial_section = section
         self.autosave_seconds = autosave_seconds
-        self._autosave_timer: Timer | None = None
         self.discarded = False
         self.autosaves = 0
         self._last_session: Session | None = session
+        from offgrid.tui.screens.curves import plain_terminal
+
+        self.plain = plain_terminal()
+        if self.plain:  # a serial console or screen reader: ASCII lines, no colour
+            self.CSS = PLAIN_CSS
         for t in THEMES:
             self.register_theme(t)
         self.theme = theme or DEFAULT_THEME
+
+    async def on_event(self, event: events.Event) -> None:
+        # On the work screen each key is handled to the end before the next one
+        # (offgrid.tui.keys says why): no key typed after the one that opens an
+        # editor is lost or reordered.
+        if isinstance(event, events.Key) and not event.is_forwarded and \
+                isinstance(self.screen, WorkScreen):
+            from offgrid.tui.keys import handle_key_now
+
+            await handle_key_now(self, event)
+            return
+        await super().on_event(event)
 
     # ------------------------------------------------------------------ screens
     @property
@@ -396,6 +423,13 @@ class OffgridApp(App):
         session = self.session
         project = copy.deepcopy(session.project)
         design, base, reading = session.design, session.base_dir, session.path
+        reliability = None  # the Risk section's last run, when it was run on this design
+        work = self.work
+        if work is not None and what == "report":
+            from offgrid.tui.sections.risk import RiskSection
+
+            for risk in work.query(RiskSection):
+                reliability = risk.current_report(session)
         self.notify(f"Writing {printable(path.name)}...", markup=False, timeout=2)
 
         def run() -> None:
@@ -408,7 +442,7 @@ class OffgridApp(App):
             try:
                 if what == "report":
                     written = export_report(project, path, base, force=force, design=design,
-                                            reading=reading)
+                                            reading=reading, reliability=reliability)
                 else:
                     written = export_bom(project, path, base, force=force, design=design,
                                          reading=reading)
@@ -433,24 +467,29 @@ class OffgridApp(App):
 
     # ------------------------------------------------------------------ recovery
     def project_changed(self) -> None:
-        """Called after every change: the recovery file is written once typing pauses."""
-        if self._autosave_timer is not None:
-            self._autosave_timer.stop()
-        self._autosave_timer = self.set_timer(self.autosave_seconds, self.autosave)
+        """Called after every applied edit: the recovery copy is handed to its writer thread.
+
+        The text is taken here (so it is exactly what is on screen); the writing is
+        done off the UI thread, and edits that come faster than writes are coalesced.
+        """
+        self.autosave()
 
     def autosave(self) -> None:
         session = self.session
         if session is None:
             return
-        try:
-            if session.dirty:
-                self.recovery.write(session.text(), session.path, session.title,
-                                    session.baseline)
-                self.autosaves += 1
-            else:
-                self.recovery.clear()
-        except OSError as exc:
-            self.notify(f"Recovery file not written: {exc}", severity="warning", markup=False)
+        text = session.text()
+        if text != session.baseline:
+            self.recovery.submit(text, session.path, session.title, session.baseline)
+            self.autosaves += 1
+        else:
+            self.recovery.clear()
+
+    def _recovery_failed(self, exc: OSError) -> None:
+        """On the writer thread: say so on the UI thread."""
+        with contextlib.suppress(RuntimeError):  # RuntimeError: the app has ended
+            self.call_from_thread(self.notify, f"Recovery file not written: {exc}",
+                                  severity="warning", markup=False)
 
     def write_recovery_now(self) -> bool:
         """Write the recovery file at once (hang-up, crash); True if there was work to keep."""
@@ -513,8 +552,11 @@ class OffgridApp(App):
                                                     "(every action)"),
                             *[x for x in work if not x.id or not x.id.startswith("go.")]]),
             ("Moving around", moving),
-            ("Editing a value", [*b(FieldTable), *b(EditBar), Binding("enter", "apply", "Apply "
-                                 "the typed value (in the edit box)")]),
+            ("Editing a value", [*b(FieldTable), *b(EditBar),
+                                 Binding("any key", "type", "Typing replaces the old value "
+                                         "(it opens selected)"),
+                                 Binding("left,right,home,end", "keep", "Keep the old value "
+                                         "to change part of it")]),
             ("1 Place", [*b(PlaceSection), *b(ClimateTable)]),
             ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
             ("7 Risk", b(RiskSection)),
@@ -545,6 +587,29 @@ class OffgridApp(App):
                     f"{work.current.help_text}"
         self.push_screen(HelpDialog(self.help_groups(), first, about))
 
+    def _field_commands(self, work: WorkScreen) -> Iterable[SystemCommand]:
+        """Every input and every figure of Sizes by its words: the palette goes there."""
+        from offgrid.tui.fields import PARTS_FIELDS, PROJECT_FIELDS
+        from offgrid.tui.sections.place import CLIMATE_FIELDS
+        from offgrid.tui.sections.sizes import figure_rows
+        from offgrid.tui.sections.wires import WIRING_FIELDS
+
+        for where, fields in (("1 Place", (*PROJECT_FIELDS, *CLIMATE_FIELDS)),
+                              ("3 Parts", PARTS_FIELDS), ("5 Wires", WIRING_FIELDS)):
+            for f in fields:
+                if isinstance(f, str):
+                    continue
+                yield SystemCommand(f"{f.label} ({where})", f"Edit: {f.help() or f.path}",
+                                    lambda p=f.path: work.reveal(p))
+        design = work.session.design
+        if design is not None:
+            for row in figure_rows(design):
+                if isinstance(row, str) or not row[2]:
+                    continue
+                label, value, path = row
+                yield SystemCommand(f"{label.strip()} (4 Sizes)", f"Figure: {value}",
+                                    lambda p=path: work.reveal(p))
+
     def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
         work = self.work if isinstance(screen, WorkScreen) else None
         if work is not None:
@@ -558,6 +623,9 @@ class OffgridApp(App):
                     getattr(work.current, f"action_{action}")()
                 return run
 
+            yield from self._field_commands(work)
+            yield SystemCommand("I-V curves", "The array's I-V and P-V curves: design month, "
+                                "record low, hottest month (v)", work.action_curves)
             yield SystemCommand("Why this value", "The reason for the figure under the cursor "
                                 "(w)", work.action_why)
             yield SystemCommand("Recalculate", "Run the design again", work.changed)

@@ -9,6 +9,7 @@ No Textual here.
 from __future__ import annotations
 
 import contextlib
+import re
 from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
@@ -18,6 +19,8 @@ from offgrid.project.validate import RANGES
 from offgrid.result import SystemDesign
 
 HINTS = {path: hint for path, _lo, _hi, hint in RANGES}
+#: Fields whose value is a fraction 0-1: a plain number above 1 (up to 100) is a percentage.
+FRACTIONS = frozenset(path for path, lo, hi, _hint in RANGES if hi == 1 and lo >= 0)
 AUTO_WORDS = ("", "auto", "automatic", "-", "none", "default")
 
 
@@ -96,7 +99,9 @@ class Field:
             raise ValueError(f"'{raw}' is not one of: {names}")
         if self.base_kind == "months":
             return parse_one_or_twelve(raw, self.help())
-        number = parse_number(raw, self.unit, self.help())
+        if self.path in ANGLE_AXES:
+            return parse_angle(raw, ANGLE_AXES[self.path])
+        number = parse_number(raw, self.unit, self.help(), fraction=self.path in FRACTIONS)
         if self.base_kind == "int":
             if number != int(number):
                 raise ValueError(f"'{raw}' must be a whole number")
@@ -104,11 +109,13 @@ class Field:
         return number
 
 
-def parse_number(raw: str, unit: str = "", hint: str = "") -> float:
+def parse_number(raw: str, unit: str = "", hint: str = "", fraction: bool = False) -> float:
     """A number typed by a person: ``12``, ``0,5`` (decimal comma), ``300 W``, ``50 %``.
 
     The number itself is read by :func:`offgrid.numbers.read_number`, the reader of every
-    input.  A percentage given for a fraction field (unit '') is divided by 100.
+    input.  A percentage given for a fraction field (unit '') is divided by 100; for a
+    ``fraction`` field (0-1) a plain number above 1 and at most 100 is read as a
+    percentage too ("60" -> 0.6), since no fraction can be above 1.
     """
     text = raw.strip().replace("\u2212", "-")
     percent = text.endswith("%")
@@ -121,7 +128,7 @@ def parse_number(raw: str, unit: str = "", hint: str = "") -> float:
     except NumberError as exc:
         tail = f"; {hint}" if hint else ""
         raise ValueError(f"{exc}{tail}") from None
-    if percent and unit in ("", "fraction"):
+    if (percent and unit in ("", "fraction")) or (fraction and 1 < value <= 100):
         value /= 100.0
     return value
 
@@ -140,6 +147,48 @@ def parse_one_or_twelve(raw: str, hint: str = "") -> float | list[float]:
     return [parse_number(p.rstrip(","), "", hint) for p in parts]
 
 
+ANGLE_AXES = {"site.latitude_deg": "latitude", "site.longitude_deg": "longitude"}
+_HEMISPHERES = {"latitude": {"n": 1, "s": -1}, "longitude": {"e": 1, "w": -1, "o": -1}}
+_ANGLE = re.compile(
+    r"^\s*(?P<sign>[-+])?\s*(?P<deg>\d+(?:[.,]\d+)?)\s*(?:\u00b0|deg|d|\s)?\s*"
+    r"(?:(?P<min>\d+(?:[.,]\d+)?)\s*(?:'|\u2032|m|\s)?\s*)?"
+    r"(?:(?P<sec>\d+(?:[.,]\d+)?)\s*(?:\"|\u2033|''|s)?\s*)?"
+    r"(?P<hemi>[A-Za-z])?\s*$")
+
+
+def parse_angle(raw: str, axis: str) -> float:
+    """Latitude or longitude typed by a person, in decimal degrees (north and east positive).
+
+    Reads ``-12.4``, ``12.4 S``, ``12 24 S``, ``12\u00b024' S``, ``12\u00b024'36" S``;
+    longitude takes E or W. Anything else: ValueError with the forms to type.
+    """
+    limit = 90.0 if axis == "latitude" else 180.0
+    letters = "N or S" if axis == "latitude" else "E or W"
+    example = "12.4 S or 12\u00b024' S" if axis == "latitude" else "1.5 W or 1\u00b030' W"
+    bad = ValueError(f"'{raw.strip()}' is not a {axis}: type decimal degrees (-12.4) or "
+                     f"degrees, minutes and {letters} ({example})")
+    m = _ANGLE.match(raw.replace("\u2212", "-").replace("\u00ba", "\u00b0"))
+    if not m:
+        raise bad
+    hemi = (m["hemi"] or "").lower()
+    if hemi and hemi not in _HEMISPHERES[axis]:
+        raise bad
+    if hemi and m["sign"] == "-":
+        raise ValueError(f"'{raw.strip()}': give either a minus sign or {letters}, not both")
+
+    def num(x: str | None) -> float:
+        return float(x.replace(",", ".")) if x else 0.0
+
+    deg, minutes, seconds = num(m["deg"]), num(m["min"]), num(m["sec"])
+    if minutes >= 60 or seconds >= 60 or ((m["min"] or m["sec"]) and deg != int(deg)):
+        raise bad
+    value = deg + minutes / 60.0 + seconds / 3600.0
+    if value > limit:
+        raise ValueError(f"'{raw.strip()}': a {axis} is at most {limit:g} degrees")
+    sign = -1.0 if m["sign"] == "-" else float(_HEMISPHERES[axis].get(hemi, 1))
+    return round(sign * value, 6)
+
+
 def _fmt(value: float, unit: str, digits: int = 0) -> str:
     return f"{value:.{digits}f} {unit}".strip()
 
@@ -154,8 +203,10 @@ PROJECT_FIELDS: tuple[Field | str, ...] = (
     Field("info.notes", "Notes", "text", hint="anything worth keeping with the design"),
     "Site",
     Field("site.name", "Site name", "text", hint="village, building or plot"),
-    Field("site.latitude_deg", "Latitude", unit="deg"),
-    Field("site.longitude_deg", "Longitude", unit="deg"),
+    Field("site.latitude_deg", "Latitude", unit="deg",
+          hint="12.4 S, 12\u00b024' S or -12.4 (north positive)"),
+    Field("site.longitude_deg", "Longitude", unit="deg",
+          hint="1.5 W, 1\u00b030' W or -1.5 (east positive)"),
     Field("site.elevation_m", "Elevation", unit="m"),
     Field("site.tilt_deg", "Array tilt", "auto_float", unit="deg", reason="site.tilt_deg",
           auto=lambda d: _fmt(d.site.tilt_deg, "deg"),
@@ -189,8 +240,8 @@ PARTS_FIELDS: tuple[Field | str, ...] = (
           hint="battery bank voltage; automatic keeps DC current at or below 100 A"),
     Field("choices.autonomy_days", "Days of autonomy", unit="days", reason="battery.required_ah"),
     Field("choices.max_dod", "Max depth of discharge", "auto_float", reason="battery.required_ah",
-          auto_text="battery's own", hint="fraction 0.05-1 (50 % is 0.5); 'auto' = the "
-          "battery unit's value"),
+          auto_text="battery's own", hint="60 %, 60 or 0.6; 'auto' = the battery unit's "
+          "value"),
     Field("choices.load_growth_pct", "Load growth margin", unit="%",
           reason="loads.daily_energy_wh"),
     Field("choices.coincidence_factor", "AC coincidence factor", reason="loads.peak_ac_w"),
@@ -284,7 +335,7 @@ LOAD_COLUMNS: tuple[Column, ...] = (
     Column("ac_dc", "AC/DC", 6, "choice", choices=(("ac", "AC"), ("dc", "DC")),
            hint="AC runs through the inverter; DC straight from the battery"),
     Column("duty_cycle", "Duty", 5, hint="share of the on-time it really draws power (a fridge "
-           "compressor 0.3-0.5), 0-1"),
+           "compressor 0.3-0.5), 0-1 or 40 %"),
     Column("surge_w", "Start", 6, unit="W", hint="starting power of one unit (motors), W; 0 if "
            "none"),
     Column("months", "Months", 7, "months", hint="months of use: 1-12, 5,6,7 or 11-2"),

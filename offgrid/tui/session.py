@@ -179,8 +179,7 @@ class Session:
     # ------------------------------------------------------------------ loads
     def add_load(self, index: int | None = None, load: Load | None = None) -> int:
         """Insert a load (a plain new one by default) after ``index``; returns its position."""
-        new = load or Load(name="New appliance", quantity=1, power_w=10.0, hours_per_day=1.0,
-                           ac_dc="dc")
+        new = load or Load(name="New appliance", quantity=1, power_w=10.0, hours_per_day=1.0)
         at = len(self.project.loads) if index is None else index + 1
         self.change(lambda p: p.loads.insert(at, new))
         return at

@@ -33,8 +33,15 @@ def from_printable(shown: str, original: str) -> str:
     return "".join(out)
 
 
-def literal(text: str, style: str = "") -> Text:
-    """A :class:`Text` that shows ``text`` exactly as typed, safe for any widget."""
+def literal(text: str, style: str = "", lines: bool = False) -> Text:
+    """A :class:`Text` that shows ``text`` exactly as typed, safe for any widget.
+
+    ``lines``: line breaks stay line breaks (a message of several lines); any other
+    control character is still shown as its picture.
+    """
+    if lines:
+        text = "\n".join(printable(line) for line in text.split("\n"))
+        return Text(text, style=style, no_wrap=False)
     return Text(printable(text), style=style, no_wrap=False)
 
 
@@ -43,3 +50,18 @@ def clip(text: str, width: int) -> str:
     if width <= 0:
         return ""
     return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+
+
+def clip_words(text: str, width: int) -> str:
+    """Shorten to ``width`` characters at a word boundary, with an ellipsis (never mid-word).
+
+    A first word longer than ``width`` is cut (nothing better fits).
+    """
+    if len(text) <= width:
+        return text
+    if width <= 1:
+        return "\u2026"[:width]
+    room = text[: width - 1]
+    at_word_end = text[width - 1] == " "  # the room ends at a word's end: keep that word
+    cut = room if at_word_end or " " not in room else room.rsplit(" ", 1)[0]
+    return cut.rstrip(" ,;:(") + "\u2026"

@@ -87,11 +87,11 @@ async def test_place_edit_number_and_bad_input_keeps_last_value(state):
         await edit_field(pilot, "place", "site.latitude_deg", "north")
         bar = app.screen.query_one("#place-edit", EditBar)
         assert bar.is_open
-        assert "'north' is not a number" in screen_text(app)
+        assert "'north' is not a latitude: type decimal degrees" in screen_text(app)
         assert app.session.project.site.latitude_deg == -3.4
-        # out of range: the validator's hint is shown
+        # out of range: the limit is shown
         await type_into(pilot, "95")
-        assert "out of range" in screen_text(app)
+        assert "a latitude is at most 90 degrees" in screen_text(app)
         assert app.session.project.site.latitude_deg == -3.4
         await pilot.press("escape")
         await pilot.pause()
@@ -555,9 +555,10 @@ async def test_cautions_lists_warnings_and_safety(state):
         index = next(i for i, (_p, n, _m) in enumerate(section._targets)
                      if n is not None and n.code == "lead-acid-parallel")
         section.items.highlighted = index
-        await pilot.press("enter")  # to the figure concerned
+        await pilot.press("enter")  # to the input the warning is about
         await pilot.pause()
-        assert app.work.section == "sizes"
+        assert app.work.section == "parts"
+        assert app.work.current.fields.current_field().path == "battery.capacity_ah"
 
 
 async def test_no_design_is_explained_and_leads_to_the_field(state):
@@ -799,4 +800,4 @@ async def test_risk_check_real_run(state):
         await wait_until(pilot, lambda: risk.result is not None, 60)
         text = screen_text(app)
         assert "Result for the design as it is now" in text
-        assert "For LOLP" in text
+        assert "Reliability targets" in text and "battery needed for it" in text

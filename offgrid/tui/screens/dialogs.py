@@ -77,7 +77,8 @@ class MessageDialog(Dialog):
         with Vertical(classes="dialog wide"):
             yield Static(Text(self.title_text, style="bold"), classes="dialog-title")
             with VerticalScroll(classes="dialog-scroll"):
-                body = self.body if isinstance(self.body, Text) else literal(self.body)
+                body = self.body if isinstance(self.body, Text) else literal(self.body,
+                                                                             lines=True)
                 yield Static(body)
             yield Static(Text("Enter or Esc: close", style="dim"))
 

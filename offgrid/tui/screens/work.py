@@ -2,13 +2,16 @@
 
 from __future__ import annotations
 
+import asyncio
+import contextlib
 import time
 
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.screen import Screen
-from textual.widgets import ContentSwitcher, Footer, Input
+from textual.widgets import ContentSwitcher, Input
 
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.why import WhyDialog, find_reason
 from offgrid.tui.sections.base import Section
 from offgrid.tui.sections.cautions import CautionsSection
@@ -21,6 +24,7 @@ from offgrid.tui.sections.sizes import SizesSection
 from offgrid.tui.sections.wires import WiresSection
 from offgrid.tui.session import Session
 from offgrid.tui.widgets.bars import SECTIONS, FileBar, Headline, SectionBar
+from offgrid.tui.widgets.footer import KeyFooter
 
 SECTION_CLASSES: dict[str, type[Section]] = {
     "place": PlaceSection, "loads": LoadsSection, "parts": PartsSection, "sizes": SizesSection,
@@ -29,21 +33,22 @@ SECTION_CLASSES: dict[str, type[Section]] = {
 }
 
 #: Section-changing and other one-letter keys work while no text box has focus.
-LETTER_ACTIONS = {"goto", "next_section", "why", "save_as", "open", "revert", "undo",
-                  "redo", "start", "help", "toggle_theme", "quit", "commands", "export"}
+LETTER_ACTIONS = {"curves", "go", "goto", "next_section", "why", "save_as", "open", "revert",
+                  "undo", "redo", "start", "help", "toggle_theme", "quit", "commands", "export"}
 
 
 class WorkScreen(Screen):
     """Where the whole job is done."""
 
     BINDINGS = [
-        *(Binding(str(n), f"goto('{sid}')", title, show=False, id=f"go.{sid}")
+        *(Binding(str(n), f"go('{sid}')", title, show=False, id=f"go.{sid}")
           for n, (sid, title, _what) in enumerate(SECTIONS, start=1)),
         Binding("right_square_bracket,greater_than_sign", "next_section(1)", "Next section",
                 show=False, id="go.next"),
         Binding("left_square_bracket,less_than_sign", "next_section(-1)", "Previous section",
                 show=False, id="go.previous"),
         Binding("w", "why", "Why?", id="why"),
+        Binding("v", "curves", "I-V curves", show=False, id="curves"),
         Binding("s", "save", "Save", id="file.save"),
         Binding("ctrl+s", "save", "Save", show=False, id="file.save_ctrl", priority=True),
         Binding("S", "save_as", "Save as", show=False, id="file.save_as"),
@@ -62,6 +67,7 @@ class WorkScreen(Screen):
         self.section = section
         self.stale: set[str] = set()
         self.last_change_s = 0.0
+        self._all_mounted = asyncio.Event()
 
     def compose(self) -> ComposeResult:
         yield FileBar(id="filebar")
@@ -69,7 +75,7 @@ class WorkScreen(Screen):
         yield Headline(id="headline")
         with ContentSwitcher(initial=self.section, id="sections"):
             yield SECTION_CLASSES[self.section](id=self.section)
-        yield Footer(compact=True)
+        yield KeyFooter(compact=True)
 
     def on_mount(self) -> None:
         # First paint at once (the headline says the design is coming), then the design,
@@ -92,6 +98,7 @@ class WorkScreen(Screen):
             widget.display = widget.id == switcher.current
         if missing:
             await switcher.mount_all(missing)
+        self._all_mounted.set()
 
     def _has(self, sid: str) -> bool:
         return bool(self.query_one(ContentSwitcher).query_children(f"#{sid}"))
@@ -130,7 +137,7 @@ class WorkScreen(Screen):
         self.refresh_all()
         focus = self.current.first_focus()
         if focus is not None:
-            focus.focus()
+            focus_now(focus)
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         if action in LETTER_ACTIONS and isinstance(self.focused, Input):
@@ -140,6 +147,14 @@ class WorkScreen(Screen):
         return True
 
     # ------------------------------------------------------------------ navigation
+    async def action_go(self, section: str) -> None:
+        """A section key: just after start the other sections are still being built, so
+        wait for them here; the keys typed after this one then reach the section."""
+        if section != self.section and not self._all_mounted.is_set():
+            with contextlib.suppress(TimeoutError):
+                await asyncio.wait_for(self._all_mounted.wait(), 10.0)
+        self.action_goto(section)
+
     def action_goto(self, section: str) -> None:
         if not self._has(section):  # still being built just after start: a moment later
             self.call_after_refresh(self.action_goto, section)
@@ -153,18 +168,19 @@ class WorkScreen(Screen):
         self.query_one(SectionBar).show(section)
         focus = self.current.first_focus()
         if focus is not None:
-            focus.focus()
+            focus_now(focus)
 
-    def action_next_section(self, step: int) -> None:
+    async def action_next_section(self, step: int) -> None:
         ids = [sid for sid, _t, _w in SECTIONS]
-        self.action_goto(ids[(ids.index(self.section) + step) % len(ids)])
+        await self.action_go(ids[(ids.index(self.section) + step) % len(ids)])
 
     def reveal(self, path: str) -> None:
         """Go to the section and field (or figure) that ``path`` names."""
         order = {"site": "place", "climate": "place", "info": "place", "loads": "loads",
                  "module": "parts", "battery": "parts", "controller": "parts",
                  "inverter": "parts", "choices": "parts", "prices": "options",
-                 "variants": "options", "economics": "options"}
+                 "variants": "options", "economics": "options",
+                 "wiring": "wires"}
         head = path.split(".")[0].split("[")[0]
         target = order.get(head, "sizes")
         self.action_goto(target)
@@ -183,6 +199,18 @@ class WorkScreen(Screen):
         if reason is None and self.session.design is not None:
             path, reason = find_reason(self.session.design.reasons, fig.path)
         self.app.push_screen(WhyDialog(fig.label, fig.value, reason, path, fig.extra))
+
+    def action_curves(self) -> None:
+        """The array's I-V and P-V curves at design, cold and hot conditions."""
+        from offgrid.tui.screens.curves import CurvesDialog, array_curves
+
+        d = self.session.design
+        curves = array_curves(self.session.project, d) if d is not None else []
+        if not curves:
+            self.app.notify("No curves: the design has no electrical part yet (see Cautions).",
+                            timeout=4)
+            return
+        self.app.push_screen(CurvesDialog(curves))
 
     # ------------------------------------------------------------------ edits and files
     def action_undo(self) -> None:

@@ -11,8 +11,35 @@ from offgrid.result import Notice
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable
+from offgrid.wording import confirm_words
 
 MARK = {"error": "\u2717 ERROR", "warning": "! WARNING", "info": "i NOTE"}
+
+#: The input a warning asks the user to look at (where it is edited), by notice code.
+INPUT_FOR_NOTICE = {
+    "record-low-estimated": "climate.record_low_c",
+    "tilt-searched": "site.tilt_deg",
+    "low-sun-month": "site.tilt_deg",
+    "pwm-hot-vmp": "controller.type",
+    "pwm-mismatch": "controller.type",
+    "pwm-voltage-waste": "controller.type",
+    "layout-changed": "controller.max_pv_voltage_v",
+    "raise-system-voltage": "choices.system_voltage",
+    "wiring-derate-vs-cables": "choices.derates.wiring",
+    "harvest-shortfall": "controller.type",
+    "charge-rate-high": "controller.max_current_a",
+    "several-controllers": "controller.max_current_a",
+    "charge-rate-low": "battery.capacity_ah",
+    "lead-acid-parallel": "battery.capacity_ah",
+    "battery-oversized": "battery.capacity_ah",
+    "battery-cold": "site.battery_temp_c",
+    "inverter-idle-large": "inverter.self_consumption_w",
+    "module-cells": "module.cells_in_series",
+}
+#: Safety cautions that depend on one input: words in the caution -> the input.
+INPUT_FOR_CAUTION = (("at the record low", "climate.record_low_c"),
+                     ("short circuit", "wiring.battery_short_circuit_a"),
+                     ("hydrogen", "battery.chemistry"))
 
 
 class CautionsSection(Section):
@@ -50,19 +77,39 @@ class CautionsSection(Section):
                 self._targets.append((None, None, ""))
             for n in d.warnings:
                 tag = MARK.get(n.severity, n.severity.upper())
-                text = Text.assemble((f"{tag}  ", "bold"), printable(n.message))
+                text = Text.assemble((f"{tag}  ", "bold"), printable(confirm_words(n.message)))
                 text.append(f"  [{n.code}]", style="dim")
+                where = INPUT_FOR_NOTICE.get(n.code, n.figure)
+                if where:
+                    text.append(f"\n  Enter: go to {self._label(where)}", style="dim")
                 options.append(Option(text))
-                self._targets.append((n.figure, n, n.message))
+                self._targets.append((where, n, n.message))
             options.append(None)  # a separator line
             options.append(Option(Text("Safety", style="bold underline"), disabled=True))
             self._targets.append((None, None, ""))
             for caution in d.cautions:
-                options.append(Option(Text.assemble(("\u26a0 ", "bold"), printable(caution))))
-                self._targets.append((None, None, caution))
+                caution = confirm_words(caution)
+                text = Text.assemble(("\u26a0 ", "bold"), printable(caution))
+                where = next((p for words, p in INPUT_FOR_CAUTION if words in caution), None)
+                if where:
+                    text.append(f"\n  Enter: go to {self._label(where)}", style="dim")
+                options.append(Option(text))
+                self._targets.append((where, None, caution))
         ol.add_options(options)
         if ol.option_count:
             ol.highlighted = min(keep, ol.option_count - 1)
+
+    @staticmethod
+    def _label(path: str) -> str:
+        """The name of the input (or figure) at ``path`` as its section shows it."""
+        from offgrid.tui.fields import PARTS_FIELDS, PROJECT_FIELDS
+        from offgrid.tui.sections.place import CLIMATE_FIELDS
+        from offgrid.tui.sections.wires import WIRING_FIELDS
+
+        for f in (*PROJECT_FIELDS, *CLIMATE_FIELDS, *PARTS_FIELDS, *WIRING_FIELDS):
+            if not isinstance(f, str) and f.path == path:
+                return f.label.lower() if f.label[1:2].islower() else f.label
+        return path
 
     def _target(self):
         i = self.items.highlighted

@@ -12,6 +12,7 @@ from textual.widgets import DataTable, Static
 from offgrid.project.loads_csv import format_months, parse_months
 from offgrid.result import Reason, fmt
 from offgrid.tui.fields import LOAD_COLUMNS, Column, parse_number
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session
@@ -51,7 +52,10 @@ class LoadsTable(SteadyTable):
         if column.kind == "text":
             return Text(clip(printable(str(value)), w - 1).ljust(w))
         if column.kind == "months":
-            return Text(clip(format_months(value), w - 1).ljust(w))
+            shown = format_months(value)
+            if len(shown) > w - 1:  # the count says it all; Enter shows the months
+                shown = f"{len(value)} mo"
+            return Text(shown.ljust(w))
         if column.kind == "choice":
             for v, label in column.choices:
                 if v == value:
@@ -217,7 +221,8 @@ class LoadsSection(Section):
             return from_printable(typed, original)
         if column.kind == "months":
             return parse_months(typed)
-        value = parse_number(typed, column.unit, column.hint)
+        value = parse_number(typed, column.unit, column.hint,
+                             fraction=column.key == "duty_cycle")
         if column.kind == "int":
             if value != int(value):
                 raise ValueError(f"'{typed}' must be a whole number")
@@ -236,7 +241,7 @@ class LoadsSection(Section):
         self.show(self.session)
         col = self.table.cursor_column if column is None else column
         self.table.move_cursor(row=row, column=col, animate=False)
-        self.table.focus()
+        focus_now(self.table)
 
     def action_add(self) -> None:
         row = self._row()

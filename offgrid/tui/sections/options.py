@@ -33,6 +33,7 @@ from offgrid.tui.fields import (
     Field,
     parse_number,
 )
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.why import find_reason
 from offgrid.tui.sections.base import Figure, Section
@@ -407,7 +408,7 @@ class OptionsSection(Section):
         self.editor.close()
         self.showing_prices = not self.showing_prices
         self.show(self.session)
-        self.first_focus().focus()
+        focus_now(self.first_focus())
 
     def action_show_prices(self) -> None:
         if not self.showing_prices:

@@ -6,6 +6,7 @@ from textual.app import ComposeResult
 from textual.widgets import DataTable
 
 from offgrid.tui.fields import MODULE_FIELDS, PARTS_FIELDS, Field
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog
 from offgrid.tui.screens.sheet import SheetDialog
 from offgrid.tui.sections.base import Figure, Section
@@ -100,6 +101,6 @@ class PartsSection(Section):
 
     def reveal(self, path: str) -> bool:
         if self.fields.select_path(path):
-            self.fields.focus()
+            focus_now(self.fields)
             return True
         return False

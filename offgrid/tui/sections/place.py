@@ -14,6 +14,7 @@ from textual.widgets import DataTable, Static
 
 from offgrid.project.model import ClimateChoice, MonthlyClimate, Project
 from offgrid.tui.fields import PROJECT_FIELDS, Field, parse_number
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session, get_path
@@ -116,7 +117,8 @@ class ClimateTable(SteadyTable):
         self.clear(columns=True)
         self.add_column(Text("Month"), width=13, key="label")
         for i, m in enumerate(MONTHS, start=1):
-            mark = m + ("\u25c2" if design_month == i else " ")
+            arrow = "<" if getattr(self.app, "plain", False) else "\u25c2"
+            mark = m + (arrow if design_month == i else " ")
             style = "bold reverse" if design_month == i else "bold"
             self.add_column(Text(mark.rjust(5), style=style), width=5, key=m)
         rows = [*ROWS, ARRAY_ROW]
@@ -540,7 +542,7 @@ class PlaceSection(Section):
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
         self.work.changed("Now using your own twelve months: edit them in the table", tell=True)
-        self.months.focus()
+        focus_now(self.months)
 
     # ------------------------------------------------------------------ why
     def figure(self) -> Figure | None:
@@ -574,11 +576,14 @@ class PlaceSection(Section):
         return Figure(field.label, value, field.reason, extra=extra)
 
     def reveal(self, path: str) -> bool:
+        if self.fields.select_path(path):
+            focus_now(self.fields)
+            return True
         if path.startswith("climate"):
             self.fields.select_path("climate")
-            self.fields.focus()
+            focus_now(self.fields)
             return True
         if self.fields.select_path(path):
-            self.fields.focus()
+            focus_now(self.fields)
             return True
         return False

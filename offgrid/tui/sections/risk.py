@@ -9,8 +9,12 @@ as soon as the project changes.
 from __future__ import annotations
 
 import copy
+import hashlib
+import os
+import pickle
 import time
 from dataclasses import dataclass
+from pathlib import Path
 
 from rich.text import Text
 from textual import work
@@ -33,6 +37,35 @@ class RiskRun:
     report: object  # offgrid.simulate.run.SimulationReport
     project_text: str
     seconds: float
+
+
+def kept_run_file(state: Path, project_path: Path) -> Path:
+    """Where the last risk run of a project file is kept (the user's own state folder)."""
+    key = hashlib.sha1(str(Path(project_path).resolve()).encode()).hexdigest()[:16]
+    return Path(state) / f"risk-{key}.pickle"
+
+
+def keep_run(state: Path, project_path: Path, run: RiskRun) -> None:
+    """Keep ``run`` with the project it was run on (its text: the inputs), atomically."""
+    target = kept_run_file(state, project_path)
+    target.parent.mkdir(parents=True, exist_ok=True)
+    tmp = target.with_suffix(".tmp")
+    tmp.write_bytes(pickle.dumps({"path": str(Path(project_path).resolve()), "run": run}))
+    os.replace(tmp, target)
+
+
+def kept_run(state: Path, project_path: Path) -> RiskRun | None:
+    """The last run kept for this project file, or None (missing, unreadable, another file)."""
+    try:
+        # our own file in the user's state folder, written by keep_run
+        body = pickle.loads(kept_run_file(state, project_path).read_bytes())
+    except (OSError, pickle.UnpicklingError, EOFError, AttributeError, ImportError,
+            TypeError, ValueError):
+        return None
+    if not isinstance(body, dict) or body.get("path") != str(Path(project_path).resolve()):
+        return None
+    run = body.get("run")
+    return run if isinstance(run, RiskRun) else None
 
 
 def pct(x: float | None) -> str:
@@ -120,23 +153,29 @@ class RiskSection(Section):
              rs.get("days_below_soc"), ""),
             ("LOLP at end of battery life", pct(r.lolp_end_of_life), rs.get("lolp"),
              "The same simulation with the battery capacity at its end-of-life fraction."),
-            ("Battery expected life", f"{wear.expected_life_years:.1f} years",
+            ("Battery life, simulated", f"{wear.expected_life_years:.1f} years",
              rs.get("wear.expected_life_years"), ""),
             ("Full cycles per year", f"{wear.equivalent_full_cycles_per_year:.0f}",
              rs.get("wear.equivalent_full_cycles_per_year"), ""),
-            ("PV energy spilled (battery full)", pct(r.spilled_fraction), None,
+            ("Solar not used: battery was full", pct(r.spilled_fraction), None,
              "Share of the controller output that the full battery could not take."),
         ]
         tr = rep.tradeoff
         if tr is not None:
+            rows.append(("Reliability targets", "", None, ""))  # a heading
             for t in tr.targets:
-                need = (f"{t.design_capacity_needed_wh / 1000:.1f} kWh battery at this array"
+                need = (f"{t.design_capacity_needed_wh / 1000:.1f} kWh"
                         if t.design_capacity_needed_wh else "-")
-                rows.append((f"For LOLP {pct(t.target)}", ("met; " if t.design_meets else
-                                                           "NOT met; ") + need, None,
+                rows.append((f"Loads met on {pct(1 - t.target)} of days",
+                             ("this design: yes" if t.design_meets else "this design: NO"),
+                             None, t.message))
+                rows.append(("    battery needed for it", need + " with this array", None,
                              t.message))
         for label, value, reason, extra in rows:
-            table.add_row(Text("  " + label), Text(value, style="bold"))
+            if not value and reason is None and not extra:
+                table.add_row(Text(label, style="bold underline"), Text(""))
+            else:
+                table.add_row(Text("  " + label), Text(value, style="bold"))
             self._rows.append((label, value, reason, extra))
         if table.row_count:
             table.move_cursor(row=min(keep, table.row_count - 1), animate=False)
@@ -201,12 +240,37 @@ class RiskSection(Section):
             run = RiskRun(report, text, time.perf_counter() - t0)
             self.app.call_from_thread(self._done, run)
 
+    def _keep(self, run: RiskRun) -> None:
+        """Keep the run with the project file, so it is there on reopen (marked out of
+        date when the project has changed since)."""
+        path = self.session.path
+        if path is None:
+            return
+        try:
+            keep_run(self.app.state, path, run)  # type: ignore[attr-defined]
+        except (OSError, pickle.PicklingError, TypeError) as exc:
+            self.app.notify(f"The risk result is not kept for next time: {exc}",
+                            severity="warning", markup=False, timeout=4)
+
+    def on_mount(self) -> None:
+        path = self.work.session.path if self.work.session is not None else None
+        if self.result is None and path is not None:
+            self.result = kept_run(self.app.state, path)  # type: ignore[attr-defined]
+
+    def current_report(self, session: Session):
+        """The last run's report if it was run on the project as it is now, else None."""
+        if self.result is not None and not self.running and \
+                self.result.project_text == session.text():
+            return self.result.report
+        return None
+
     def _progress(self, fraction: float) -> None:
         self.query_one(ProgressBar).update(progress=100 * fraction)
 
     def _done(self, run: RiskRun) -> None:
         self.running = False
         self.result = run
+        self._keep(run)
         if self.is_attached and self.work.session is not None:
             self.show(self.session)
         self.app.notify(f"Risk check done: LOLP {pct(run.report.reliability.lolp)}",

@@ -11,6 +11,7 @@ from textual.binding import Binding
 from textual.widgets import DataTable
 
 from offgrid.result import SystemDesign
+from offgrid.tui.keys import focus_now
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable
@@ -223,6 +224,6 @@ class SizesSection(Section):
         for i, row in enumerate(self.table.rows_shown):
             if not isinstance(row, str) and row[2] == path:
                 self.table.move_cursor(row=i, animate=False)
-                self.table.focus()
+                focus_now(self.table)
                 return True
         return False

@@ -18,6 +18,7 @@ from textual.widgets import DataTable, Static
 from offgrid.project.model import Project
 from offgrid.result import SystemDesign
 from offgrid.tui.fields import Field, parse_number
+from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session, get_path
@@ -143,6 +144,12 @@ class WiresSection(Section):
 
     def first_focus(self):
         return self.table
+
+    def reveal(self, path: str) -> bool:
+        if self.fields.select_path(path):
+            focus_now(self.fields)
+            return True
+        return False
 
     # ------------------------------------------------------------------ drawing
     def show(self, session: Session) -> None:

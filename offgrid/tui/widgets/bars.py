@@ -45,7 +45,8 @@ class FileBar(Static):
         else:
             where = "not saved yet"
         demo = " (demonstration data)" if session.project.info.demo else ""
-        left = f"offgrid \u2502 {printable(session.title)}{demo}"
+        sep = "|" if getattr(self.app, "plain", False) else "\u2502"
+        left = f"offgrid {sep} {printable(session.title)}{demo}"
         right = f"{where}{marker}"
         room = width - len(right) - 2
         text = Text(no_wrap=True, overflow="crop")
@@ -66,7 +67,8 @@ class SectionBar(Static):
         text = Text(no_wrap=True, overflow="crop")
         for n, (sid, title, _what) in enumerate(SECTIONS, start=1):
             if sid == current:
-                text.append(f"\u25b8{n} {title}\u25c2", style="bold reverse")
+                mark = ("[", "]") if getattr(self.app, "plain", False) else ("\u25b8", "\u25c2")
+                text.append(f"{mark[0]}{n} {title}{mark[1]}", style="bold reverse")
             else:
                 text.append(f" {n} {title} ")
         self.update(text)
@@ -100,21 +102,37 @@ class Headline(Static):
             return
         self.remove_class("-error")
         b, c = d.battery, d.controller
-        parts = [
-            ("Array ", f"{d.array.power_w:,.0f} W"),
-            ("Battery ", f"{b.nominal_kwh:.1f} kWh {b.capacity_ah:,.0f} Ah {b.system_voltage_v} V"),
-            ("Controller ", (f"{c.count}\u00d7" if c.count > 1 else "") + f"{c.current_a:.0f} A"),
-        ]
-        for i, (label, value) in enumerate(parts):
-            if i:
-                text.append(" \u2502 ")
-            text.append(label)
-            text.append(value, style="bold")
+        width = max(20, (self.size.width or 80) - 2)
+        ctrl = (f"{c.count}\u00d7" if c.count > 1 else "") + f"{c.current_a:.0f} A"
         n = sum(1 for w in d.warnings if w.severity != "info")
         notes = len(d.warnings) - n
-        text.append(" \u2502 ")
-        text.append(f"{n} warning{'s' if n != 1 else ''}", style="bold" if n else "")
-        more = f" +{notes} note{'s' if notes != 1 else ''}"
-        if notes and len(text) + len(more) <= max(20, (self.size.width or 80) - 2):
-            text.append(more)
+        count = f"{n} warning{'s' if n != 1 else ''}"
+        more = f" +{notes} note{'s' if notes != 1 else ''}" if notes else ""
+        bank = f"{b.nominal_kwh:.1f} kWh {b.capacity_ah:,.0f} Ah {b.system_voltage_v} V"
+        # Shorter forms until the line fits: the warning count is never cut.
+        forms = [
+            (("Array ", f"{d.array.power_w:,.0f} W"),
+             ("Battery ", bank),
+             ("Controller ", ctrl), count + more),
+            (("Array ", f"{d.array.power_w:,.0f} W"),
+             ("Battery ", bank),
+             ("Controller ", ctrl), count),
+            (("PV ", f"{d.array.power_w:,.0f} W"),
+             ("Batt. ", bank),
+             ("Ctrl ", ctrl), count),
+            (("PV ", f"{d.array.power_w:,.0f} W"),
+             ("Batt. ", f"{b.capacity_ah:,.0f} Ah {b.system_voltage_v} V"),
+             ("Ctrl ", ctrl), f"{n} warn."),
+        ]
+        for *parts, tail in forms:
+            if sum(len(lb) + len(v) + 3 for lb, v in parts) + len(tail) <= width:
+                break
+        bar = " | " if getattr(self.app, "plain", False) else " \u2502 "
+        for i, (label, value) in enumerate(parts):
+            if i:
+                text.append(bar)
+            text.append(label)
+            text.append(value, style="bold")
+        text.append(bar)
+        text.append(tail, style="bold" if n else "")
         self.update(text)

@@ -1,7 +1,10 @@
 """The in-place editor: one line to type a value, the problem shown right under it.
 
 A section opens it for the field or cell under the cursor with
-:meth:`EditBar.start`, passing a function that applies the text and returns
+:meth:`EditBar.start`, which shows the old value selected: typing replaces it, an
+arrow key (or Home/End) keeps it for editing. It is opened, focused and closed at
+once, while the key that opens it is handled (see :mod:`offgrid.tui.keys`), passing
+a function that applies the text and returns
 ``None`` (accepted) or a message (rejected: the editor stays open with the
 typed text, and the project keeps its last valid value).
 """
@@ -16,7 +19,9 @@ from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widget import Widget
 from textual.widgets import Input, Static
+from textual.widgets._input import Selection
 
+from offgrid.tui.keys import focus_now
 from offgrid.tui.text import literal
 
 Apply = Callable[[str], str | None]
@@ -42,6 +47,10 @@ class EditBar(Vertical):
 
     BINDINGS = [
         Binding("escape", "cancel", "Cancel edit", id="edit.cancel"),
+        # Applied while the key is handled, before the next key, so a key typed
+        # right after Enter goes to the table, not into the closing box.
+        Binding("enter", "apply", "Apply the typed value (in the edit box)", show=False,
+                priority=True, id="edit.apply"),
     ]
 
     def __init__(self, **kwargs) -> None:
@@ -68,13 +77,15 @@ class EditBar(Vertical):
         self._apply = apply
         self._back = back
         self.query_one("#edit-label", Static).update(
-            Text.assemble(literal(label), ("   Enter applies, Esc cancels", "dim")))
+            Text.assemble(literal(label), ("   Enter applies, Esc cancels; typing "
+                                           "replaces, \u2190 \u2192 keep it", "dim")))
         self._say(hint, bad=False)
         self.add_class("-open")
+        self.styles.display = "block"  # at once: the class takes effect at the next refresh
         box = self.input
         box.value = text
-        box.cursor_position = len(text)
-        box.focus()
+        box.selection = Selection(0, len(text))
+        focus_now(box, scroll_visible=False)
 
     def _say(self, message: str, bad: bool) -> None:
         msg = self.query_one("#edit-message", Static)
@@ -83,9 +94,15 @@ class EditBar(Vertical):
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         event.stop()
+        self._submit(event.value)
+
+    def action_apply(self) -> None:
+        self._submit(self.input.value)
+
+    def _submit(self, value: str) -> None:
         if self._apply is None:
             return
-        problem = self._apply(event.value)
+        problem = self._apply(value)
         if problem:
             self._say(problem, bad=True)
             self.app.bell()
@@ -97,7 +114,8 @@ class EditBar(Vertical):
 
     def close(self) -> None:
         self.remove_class("-open")
+        self.styles.display = "none"
         self._apply = None
         back, self._back = self._back, None
         if back is not None and back.is_attached:
-            back.focus()
+            focus_now(back)

@@ -8,7 +8,7 @@ from textual.binding import Binding
 from offgrid.result import SystemDesign
 from offgrid.tui.fields import Field
 from offgrid.tui.session import get_path
-from offgrid.tui.text import literal
+from offgrid.tui.text import clip_words, literal
 from offgrid.tui.widgets.steady import SteadyTable
 
 
@@ -35,8 +35,10 @@ class FieldTable(SteadyTable):
     def _columns(self, width: int) -> None:
         value_w = max(20, min(40, (width - 26 - 8) // 2 + 4))
         help_w = max(10, width - 26 - value_w - 7)
+        self._help_w = help_w
         self._layout = width
         self.clear(columns=True)
+        self._shown = None
         self.add_column("Field", width=24, key="label")
         self.add_column("Value", width=value_w, key="value")
         self.add_column("What to type", width=help_w, key="help")
@@ -55,17 +57,19 @@ class FieldTable(SteadyTable):
 
     def fill(self, project, design: SystemDesign | None, problems: dict[str, str],
              special: dict[str, str] | None = None) -> None:
-        """Show the project's values; ``special`` gives the text of non-plain rows."""
+        """Show the project's values; ``special`` gives the text of non-plain rows.
+
+        When the rows are already there only the cells whose text changed are
+        updated: a full refill made the table redraw every row after each edit.
+        """
         special = special or {}
         self._last_fill = (project, design, problems, special)
         if not self.columns:  # filled before mount (a busy machine): columns first
             self._columns(self.size.width or 80)
-        keep = self.cursor_row or 0
-        self.clear()
-        for i, row in enumerate(self._rows):
+        cells = []
+        for row in self._rows:
             if isinstance(row, str):
-                self.add_row(Text(row, style="bold underline"), Text(""), Text(""),
-                             key=f"group{i}")
+                cells.append(None)
                 continue
             if row.path in special:
                 shown = special[row.path]
@@ -74,11 +78,31 @@ class FieldTable(SteadyTable):
                     shown = row.show(get_path(project, row.path), design)
                 except (AttributeError, IndexError):
                     shown = "-"
+            if getattr(self.app, "plain", False):  # ASCII for a plain terminal
+                shown = shown.replace("\u2192", "->")
             value = literal(shown)
             if row.path in problems:
                 value = Text.assemble(("\u2717 ", "bold"), value)
-            self.add_row(Text("  " + row.label), value, Text(row.help(), style="dim"),
+            cells.append(value)
+        shown_before = getattr(self, "_shown", None)
+        if shown_before is not None and len(shown_before) == len(cells) and \
+                self.row_count == len(cells):
+            for i, (row, value) in enumerate(zip(self._rows, cells, strict=True)):
+                if value is not None and value != shown_before[i]:
+                    self.update_cell(row.path, "value", value)
+            self._shown = cells
+            return
+        keep = self.cursor_row or 0
+        self.clear()
+        for i, (row, value) in enumerate(zip(self._rows, cells, strict=True)):
+            if isinstance(row, str):
+                self.add_row(Text(row, style="bold underline"), Text(""), Text(""),
+                             key=f"group{i}")
+                continue
+            hint = clip_words(row.help(), getattr(self, "_help_w", 40))
+            self.add_row(Text("  " + row.label), value, Text(hint, style="dim"),
                          key=row.path)
+        self._shown = cells
         self.move_cursor(row=self._first_field(keep), animate=False)
 
     def is_heading(self, row: int) -> bool:

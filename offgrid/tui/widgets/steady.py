@@ -4,6 +4,8 @@ from __future__ import annotations
 
 from textual.widgets import DataTable
 
+from offgrid.tui.keys import deliver_now
+
 
 class SteadyTable(DataTable):
     """Scrolls the cursor into view only once it has a size, keeping headings above in view.
@@ -15,6 +17,22 @@ class SteadyTable(DataTable):
 
     def is_heading(self, row: int) -> bool:
         return False
+
+    def action_select_cursor(self) -> None:
+        """Enter: the section opens its editor now, before the next key is read."""
+        self._set_hover_cursor(False)
+        if not self.show_cursor or self.cursor_type == "none" or self.row_count == 0:
+            return
+        at = self.cursor_coordinate
+        key = self.coordinate_to_cell_key(at)
+        if self.cursor_type == "cell":
+            message = DataTable.CellSelected(self, self.get_cell_at(at), coordinate=at,
+                                             cell_key=key)
+        elif self.cursor_type == "row":
+            message = DataTable.RowSelected(self, at.row, key.row_key)
+        else:
+            message = DataTable.ColumnSelected(self, at.column, key.column_key)
+        deliver_now(self, message)
 
     def _scroll_cursor_into_view(self, animate: bool = False) -> None:
         if self.size.height <= 1:

@@ -1,0 +1,148 @@
+"""End-to-end figures of the text UI in a real terminal (tmux), against a bare Textual app.
+
+    python benchmarks/bench_tui_terminal.py [--runs 5]
+
+1. Launch to headline: from starting the program in a fresh 80x24 tmux window to the
+   demo's headline ("Array 1,800 W") on screen; the bare app's figure is the time to
+   its first paint of one label. Paired runs, medians.
+2. Edit to headline: in Parts, Enter on days of autonomy, type a value, Enter; the
+   time from sending the last Enter to the headline's new battery on screen. The bare
+   app: an Input whose submitted value is shown in a label.
+Screens are polled with capture-pane every ~2 ms, so figures carry that resolution
+plus tmux's own latency. Figures go in notes, never in timed tests.
+"""
+
+from __future__ import annotations
+
+import argparse
+import shutil
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+import uuid
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+TMUX = shutil.which("tmux")
+
+BARE = '''
+from textual.app import App
+from textual.widgets import Input, Static
+class Bare(App):
+    def compose(self):
+        yield Static("bare ready", id="out")
+        yield Input(id="in")
+    def on_input_submitted(self, event):
+        self.query_one("#out", Static).update(f"got {event.value}")
+        event.input.value = ""
+Bare().run()
+'''
+
+
+class Term:
+    def __init__(self) -> None:
+        self.socket = f"bench-{uuid.uuid4().hex[:8]}"
+
+    def tmux(self, *args: str) -> str:
+        return subprocess.run([TMUX, "-L", self.socket, "-f", "/dev/null", *args],
+                              capture_output=True, text=True).stdout
+
+    def start(self, command: str) -> float:
+        t0 = time.perf_counter()
+        self.tmux("new-session", "-d", "-x", "80", "-y", "24", "-s", "t", command)
+        return t0
+
+    def wait(self, text: str, timeout: float = 30.0) -> float:
+        end = time.perf_counter() + timeout
+        while time.perf_counter() < end:
+            if text in self.tmux("capture-pane", "-t", "t", "-p"):
+                return time.perf_counter()
+            time.sleep(0.002)
+        raise TimeoutError(text)
+
+    def keys(self, *keys: str, literal: bool = False) -> float:
+        t = time.perf_counter()
+        self.tmux("send-keys", "-t", "t", *(["-l"] if literal else []), *keys)
+        return t
+
+    def close(self) -> None:
+        self.tmux("kill-server")
+
+
+def env(state: Path) -> str:
+    return (f"env OFFGRID_STATE_DIR='{state}' TEXTUAL_ANIMATIONS=none TERM=xterm-256color "
+            f"PYTHONPATH='{ROOT}' ")
+
+
+def offgrid_run(tmp: Path, edits: int) -> tuple[float, list[float]]:
+    from offgrid.paths import demo_project_path
+
+    project = tmp / "clinic.toml"
+    project.write_text(demo_project_path().read_text())
+    t = Term()
+    t0 = t.start(env(tmp / "state") + f"'{sys.executable}' -m offgrid '{project}'")
+    launch = t.wait("Array 1,800 W") - t0
+    t.keys("3")
+    t.wait("Days of autonomy")
+    t.keys("Down")
+    time.sleep(0.3)
+    out = []
+    for k in range(edits):
+        days = 4 + k % 2  # 4, 5, 4, ... each changes the battery
+        t.keys("Enter")
+        t.wait("Enter applies")
+        t.keys(str(days), literal=True)
+        time.sleep(0.15)
+        sent = t.keys("Enter")
+        out.append(t.wait(f"{days} days") - sent)
+        time.sleep(0.2)
+    t.close()
+    return launch, out
+
+
+def bare_run(tmp: Path, edits: int) -> tuple[float, list[float]]:
+    script = tmp / "bare.py"
+    script.write_text(BARE)
+    t = Term()
+    t0 = t.start(env(tmp / "state") + f"'{sys.executable}' '{script}'")
+    launch = t.wait("bare ready") - t0
+    out = []
+    for k in range(edits):
+        t.keys(f"v{k}", literal=True)
+        time.sleep(0.15)
+        sent = t.keys("Enter")
+        out.append(t.wait(f"got v{k}") - sent)
+        time.sleep(0.2)
+    t.close()
+    return launch, out
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser()
+    ap.add_argument("--runs", type=int, default=5)
+    ap.add_argument("--edits", type=int, default=10)
+    args = ap.parse_args()
+    if TMUX is None:
+        sys.exit("tmux is not installed")
+    ours_l, bare_l, ours_e, bare_e = [], [], [], []
+    for _ in range(args.runs):
+        with tempfile.TemporaryDirectory(ignore_cleanup_errors=True) as d:
+            b = bare_run(Path(d), args.edits)
+        with tempfile.TemporaryDirectory(ignore_cleanup_errors=True) as d:
+            o = offgrid_run(Path(d), args.edits)
+        bare_l.append(b[0])
+        ours_l.append(o[0])
+        bare_e += b[1]
+        ours_e += o[1]
+    ml, bl = statistics.median(ours_l), statistics.median(bare_l)
+    me, be = statistics.median(ours_e), statistics.median(bare_e)
+    print(f"launch to headline: offgrid {ml * 1000:.0f} ms, bare Textual {bl * 1000:.0f} ms, "
+          f"ratio {ml / bl:.2f} (medians of {args.runs} paired runs; target <= 1.5)")
+    print(f"edit to headline:   offgrid {me * 1000:.0f} ms, bare Textual {be * 1000:.0f} ms, "
+          f"ratio {me / be:.2f} (medians of {len(ours_e)} edits; target <= 3)")
+
+
+if __name__ == "__main__":
+    main()
