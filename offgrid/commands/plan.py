@@ -75,7 +75,7 @@ def run(args: argparse.Namespace) -> int:
     if report is not None:
         write_report(plan, report)
     if args.json:
-        print(json.dumps(plan.to_dict(), indent=2, ensure_ascii=False))
+        print(dump_json(plan.to_dict()))
     else:
         from offgrid.plan.text import summary_text
 
@@ -99,8 +99,20 @@ def write_report(plan, path: Path) -> None:
     elif suffix == ".csv":
         text = rows_csv(plan)
     else:
-        text = json.dumps(plan.to_dict(), indent=2, ensure_ascii=False) + "\n"
+        text = dump_json(plan.to_dict()) + "\n"
     try:
         atomic_write_text(path, text, backup=True)
     except OSError as exc:
         fail(f"cannot write {path}: {exc.strerror}")
+
+
+#: Above this many rows the JSON is written compact (one line): the indented form is
+#: encoded by Python's pure-Python encoder, about ten times slower than the C one.
+JSON_INDENT_MAX_ROWS = 2000
+
+
+def dump_json(data: dict) -> str:
+    """The plan as JSON text: indented for a readable plan, compact for a large one."""
+    big = len(data.get("rows") or ()) > JSON_INDENT_MAX_ROWS
+    return json.dumps(data, indent=None if big else 2, ensure_ascii=False,
+                      separators=(",", ":") if big else None)

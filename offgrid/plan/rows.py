@@ -24,6 +24,7 @@ from pathlib import Path
 import numpy as np
 
 from offgrid.climate.files import ClimateFileError, load_climate
+from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.survey import PART_SECTIONS, Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.project.loads_csv import LoadListError, load_loads_csv
@@ -444,7 +445,8 @@ def _init_worker(inputs: PlanInputs) -> None:
 def _worker_batch(batch: list[tuple[int, SurveyRow]]
                   ) -> list[tuple[int, RowDesign | RowFailure | RowRejected]]:
     assert _WORKER_INPUTS is not None
-    return [(i, _build_and_design(_WORKER_INPUTS, row)) for i, row in batch]
+    with design_memo():
+        return [(i, _build_and_design(_WORKER_INPUTS, row)) for i, row in batch]
 
 
 def _pool_context():
@@ -470,7 +472,8 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     """Build and design each row; in ``jobs`` worker processes when there are many."""
     context = _pool_context() if jobs > 1 and len(rows) >= PARALLEL_MIN_DESIGNS else None
     if context is None:
-        return [_build_and_design(inputs, r) for r in rows]
+        with design_memo():
+            return [_build_and_design(inputs, r) for r in rows]
     # the workers need the shared base and references, not the whole survey
     light = copy.copy(inputs.survey)
     light.rows, light.problems = [], []
