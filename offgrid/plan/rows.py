@@ -28,7 +28,7 @@ from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.survey import PART_SECTIONS, Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.project.loads_csv import LoadListError, load_loads_csv
-from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo
+from offgrid.project.model import ClimateChoice, Load, MonthlyClimate, Project, ProjectInfo
 from offgrid.project.store import ProjectFileError, load_project
 from offgrid.project.validate import validate_project
 from offgrid.result import DesignError, SystemDesign
@@ -255,8 +255,12 @@ def set_path(project: Project, path: str, value) -> None:
 
 
 def prepare(survey: Survey, climate: str | None = None, project: str | None = None,
-            energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT) -> PlanInputs:
-    """Resolve the shared climate, site and base project; raise SurveyError if unusable."""
+            energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT,
+            climate_table: MonthlyClimate | None = None) -> PlanInputs:
+    """Resolve the shared climate, site and base project; raise SurveyError if unusable.
+
+    ``climate_table``: a climate already read (a programme's village), used as it is.
+    """
     fatal: list[SurveyProblem] = []
     lines = survey.setting_lines
     base_dir = survey.base_dir
@@ -276,7 +280,10 @@ def prepare(survey: Survey, climate: str | None = None, project: str | None = No
     base.loads = []
     base.info = ProjectInfo(name=survey.name, demo=survey.demo)
     climate_ref = climate or survey.climate or base.climate.ref
-    if not climate_ref and base.climate.inline is None:
+    if climate_table is not None:
+        base.climate = ClimateChoice(inline=climate_table)
+        climate_ref = climate or climate_table.source or "village climate"
+    elif not climate_ref and base.climate.inline is None:
         fatal.append(SurveyProblem(0, "", "climate", "no climate: add a settings row "
                                    "'climate,NAME' (a bundled climate or a file) or give "
                                    "--climate"))
