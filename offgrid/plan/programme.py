@@ -21,7 +21,6 @@ from __future__ import annotations
 import copy
 import csv
 import math
-import multiprocessing
 from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, field, replace
 from pathlib import Path
@@ -46,8 +45,8 @@ from offgrid.plan.rows import (
     _build_and_design,
     _find,
     _pool_context,
-    community_tilt,
     communities_dir,
+    community_tilt,
     default_jobs,
     prepare,
 )
@@ -281,7 +280,7 @@ def read_combined_survey(path: Path, villages: dict[str, Village]
     vcol = -1
     unknown: dict[str, list[int]] = {}
     try:
-        fh = open(path, encoding="utf-8-sig", newline="")
+        fh = open(path, encoding="utf-8-sig", newline="")  # noqa: SIM115 (closed below)
     except OSError as exc:
         return {}, [ProgrammeProblem(src, 0, "", "survey", f"cannot read {path}: "
                                      f"{exc.strerror}")]
