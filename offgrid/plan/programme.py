@@ -264,7 +264,8 @@ def is_programme_file(path: str | Path) -> bool:
     return False
 
 
-def read_combined_survey(path: Path, villages: dict[str, Village]
+def read_combined_survey(path: Path, villages: dict[str, Village],
+                         left_out: set[str] | frozenset = frozenset()
                          ) -> tuple[dict[str, Survey], list[ProgrammeProblem]]:
     """Stream a combined survey (a community CSV with a ``village`` column) into one
     :class:`Survey` per village, sharing the file's settings.  Rows naming no or an unknown
@@ -333,6 +334,12 @@ def read_combined_survey(path: Path, villages: dict[str, Village]
     for vid, lines in unknown.items():
         shown = ", ".join(map(str, lines[:8])) + (f" and {len(lines) - 8} more"
                                                    if len(lines) > 8 else "")
+        if vid in left_out:
+            problems.append(ProgrammeProblem(src, lines[0], vid, "village", f"{len(lines)} "
+                                             f"row(s) of village '{vid}' are left out with "
+                                             "their village: correct the village's line in "
+                                             "the programme"))
+            continue
         what = f"names village '{vid}', which the programme does not list" if vid else \
             "has a blank village"
         problems.append(ProgrammeProblem(src, lines[0], vid, "village", f"{len(lines)} row(s) "
@@ -395,6 +402,9 @@ class ProgrammePlan:
     notices: tuple[str, ...]
     rows_read: int
     distinct_designs: int
+    #: the kits' inputs: one per (village, distinct design, kit flag), counts summed
+    candidates: tuple[Candidate, ...] = ()
+    candidate_village: tuple[str, ...] = ()
 
     @property
     def systems(self) -> int:
@@ -521,8 +531,9 @@ def _village_surveys(prog: Programme, left: list[ProgrammeProblem]
                                          "survey", f"combined survey '{prog.survey}' not "
                                          "found next to the programme"))
         else:
+            listed = {p.village for p in prog.problems if p.village}
             combined, problems = read_combined_survey(
-                path, {v.id: v for v in needs_combined})
+                path, {v.id: v for v in needs_combined}, listed)
             left.extend(problems)
     out = []
     for v in prog.villages:
@@ -710,7 +721,8 @@ def plan_programme(prog: Programme, *, kits: int | None = None,
                          tuple(left), tuple(standards), totals,
                          price_list.currency if price_list else "",
                          price_list.source if price_list else "", prog_tiers, tuple(cautions),
-                         tuple(notices), rows_read, distinct)
+                         tuple(notices), rows_read, distinct, tuple(cands),
+                         tuple(work[vi].village.id for vi in cand_village))
 
 
 def _village_result(w: _VillageWork, per_row: list[int], cands: list[Candidate],
