@@ -170,3 +170,50 @@ def rows_csv(plan: ProgrammePlan) -> str:
         for rid, line, count, status, kit in v.rows:
             w.writerow([v.id, rid, line, count, status, kit])
     return buf.getvalue()
+
+
+def kit_table(plan: ProgrammePlan):
+    """(headers, rows) of the programme's kits, as plain strings (the text UI)."""
+    head = ("kit", "array", "battery", "controller", "inverter", "systems",
+            f"each {plan.currency}".strip())
+    rows = [(k.name, array_text(k.parts), battery_text(k.parts), controller_text(k.parts),
+             inverter_text(k.parts), str(k.systems), _money(k.unit_cost)) for k in plan.kits]
+    return head, rows
+
+
+def village_table(plan: ProgrammePlan):
+    """(headers, rows) of the villages: systems, each kit's count, own systems, cost."""
+    names = [k.name for k in plan.kits]
+    head = ("village", "climate", "systems", "kits", "own", "left out",
+            f"cost {plan.currency}".strip())
+    rows = []
+    for v in plan.villages:
+        kits = " ".join(f"{n}:{v.kit_counts[n]}" for n in names if v.kit_counts.get(n))
+        rows.append((v.id, v.climate, str(v.systems), kits, str(v.own_systems),
+                     str(len(v.left_out)), _money(v.totals.total_cost if v.totals else None)))
+    return head, rows
+
+
+def totals_table(plan: ProgrammePlan):
+    cur = plan.currency
+    head = ("qty", "part", f"cost {cur}".strip())
+    rows = [(_qty(line), line.label, _money(line.cost))
+            for line in (plan.totals.lines if plan.totals else ())]
+    return head, rows
+
+
+def notes_text(plan: ProgrammePlan) -> str:
+    lines = [f"Kits: {SCOPE_TEXT[plan.kit_scope]}.", ""]
+    own = [f"{v.id}/{r}" for v in plan.villages for r in v.own_rows]
+    if own:
+        lines += ["Own design: " + ", ".join(own), ""]
+    unmet = [f"  {v.id}/{rid}: {msg}" for v in plan.villages for rid, msg in v.unmet]
+    if unmet:
+        lines += ["Cannot be met:", *unmet, ""]
+    if plan.left_out:
+        lines += ["Left out (the rest is planned):", *(f"  {p}" for p in plan.left_out), ""]
+    if plan.notices:
+        lines += ["Notices:", *(f"  {n}" for n in plan.notices), ""]
+    lines.append("Safety cautions:")
+    lines += [f"  ! {c}" for c in distinct_cautions(plan.cautions)]
+    return "\n".join(lines)
