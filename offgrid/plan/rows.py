@@ -352,22 +352,31 @@ def _row_base(inputs: PlanInputs, ref: str) -> Project | str:
     return inputs.projects[ref]
 
 
-def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
-    """The full single-system project of one row; raises ValueError naming the problem."""
+def row_project(inputs: PlanInputs, row: SurveyRow, shared: bool = False) -> Project:
+    """The full single-system project of one row; raises ValueError naming the problem.
+
+    ``shared``: for designing only (the engine never changes its project), a row without
+    overrides shares the base's part tables instead of copying them; only ``choices``
+    is copied (an energy row sets its coincidence factor).
+    """
     base = inputs.base
+    share = shared and not row.overrides
+    copy_ = (lambda obj: obj) if share else _copy
     p = Project(info=ProjectInfo(name=f"{inputs.survey.name}: {row.name}",
                                  demo=inputs.survey.demo),
-                site=_copy(base.site), climate=base.climate)
+                site=copy_(base.site), climate=base.climate)
     for name in PART_SECTIONS:
-        setattr(p, name, _copy(getattr(base, name)))
+        setattr(p, name, copy_(getattr(base, name)))
     own_loads: list[Load] = []
     if row.project:
         rp = _row_base(inputs, row.project)
         if isinstance(rp, str):
             raise ValueError(f"project: {rp}")
         for name in PART_SECTIONS:
-            setattr(p, name, _copy(getattr(rp, name)))
+            setattr(p, name, copy_(getattr(rp, name)))
         own_loads = rp.loads
+    if share:
+        p.choices = replace(p.choices)
     if row.load_list:
         loads = _load_list(inputs, row.load_list)
         if isinstance(loads, str):
@@ -434,7 +443,7 @@ class RowRejected:
 def _build_and_design(inputs: PlanInputs, row: SurveyRow
                       ) -> RowDesign | RowFailure | RowRejected:
     try:
-        project = row_project(inputs, row)
+        project = row_project(inputs, row, shared=True)
     except ValueError as exc:
         field, _, message = str(exc).partition(": ")
         return RowRejected(field, message) if message else RowRejected("row", str(exc))
