@@ -443,6 +443,7 @@ def module_mpp(params: DiodeParams, irradiance_w_m2, cell_temp_c):
     return np.where(lit, v, 0.0), np.where(lit, i, 0.0), np.where(lit, p, 0.0)
 
 
+@memoised
 def module_current(params: DiodeParams, voltage_v, irradiance_w_m2, cell_temp_c,
                    extra_series_ohm=0.0):
     """Current of one module held at ``voltage_v`` [A], clipped at zero, zero in the dark."""
