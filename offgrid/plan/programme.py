@@ -20,6 +20,7 @@ from __future__ import annotations
 
 import copy
 import csv
+import gc
 import math
 from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, field, replace
@@ -490,6 +491,7 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
     # keep each batch on one village so a worker's memo serves it
     size = max(50, min(400, len(tasks) // (jobs * 4) or 1))
     batches = [tasks[i:i + size] for i in range(0, len(tasks), size)]
+    gc.freeze()  # forked workers then leave the parent's objects unshared-but-untouched
     try:
         with ProcessPoolExecutor(max_workers=jobs, mp_context=context) as pool:
             for result in pool.map(_programme_batch, batches):
@@ -497,6 +499,7 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
                     work[v].results[i] = r
     finally:
         _PROGRAMME_INPUTS = []
+        gc.unfreeze()
 
 
 def _resolve_prices(prog: Programme, prices, first: PlanInputs | None) -> PriceList | None:

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import copy
 import dataclasses
+import gc
 import math
 import multiprocessing
 import os
@@ -498,11 +499,17 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     size = max(50, len(indexed) // (jobs * 4))
     batches = [indexed[i:i + size] for i in range(0, len(indexed), size)]
     out: list = [None] * len(rows)
-    with ProcessPoolExecutor(max_workers=jobs, mp_context=context,
-                             initializer=_init_worker, initargs=(shared,)) as pool:
-        for result in pool.map(_worker_batch, batches):
-            for i, r in result:
-                out[i] = r
+    # Objects made before the fork are frozen out of the garbage collector, so the
+    # workers' collections do not touch (and so copy) every page they inherit.
+    gc.freeze()
+    try:
+        with ProcessPoolExecutor(max_workers=jobs, mp_context=context,
+                                 initializer=_init_worker, initargs=(shared,)) as pool:
+            for result in pool.map(_worker_batch, batches):
+                for i, r in result:
+                    out[i] = r
+    finally:
+        gc.unfreeze()
     return out
 
 
