@@ -245,3 +245,13 @@ def test_cli_plans_a_programme_with_json_and_report(tmp_path, capsys):
 def test_summary_fits_80_columns(demo):
     assert max(len(x) for x in summary_text(demo).splitlines()) <= 80
     assert rows_csv(demo).startswith("village,id,line,count,status,kit")
+
+
+def test_one_worker_pool_for_all_villages_gives_the_same_plan(demo, monkeypatch):
+    from offgrid.plan import programme as prog_mod
+
+    monkeypatch.setattr(prog_mod, "PARALLEL_MIN_DESIGNS", 5)
+    parallel = plan_programme_file(demo_programme_path(), jobs=2)
+    assert [v.kit_counts for v in parallel.villages] == [v.kit_counts for v in demo.villages]
+    assert parallel.candidates == demo.candidates
+    assert parallel.totals == demo.totals
