@@ -70,7 +70,7 @@ def write_programme(folder: Path, villages: int, rows: int, seed: int = 5) -> Pa
             if kind[i] == 0:
                 chunk.append(f"H{i},V{vill[i]:03d},1,{LISTS[i % 4]},,\n")
             else:
-                peak = max(10, int(round(energy[i] / ratio[i] / 5.0)) * 5)
+                peak = max(10, int(np.rint(energy[i] / ratio[i] / 5.0)) * 5)
                 chunk.append(f"H{i},V{vill[i]:03d},1,,{energy[i]},{peak}\n")
             if len(chunk) >= 50_000:
                 fh.write("".join(chunk))
