@@ -255,3 +255,14 @@ def test_one_worker_pool_for_all_villages_gives_the_same_plan(demo, monkeypatch)
     assert [v.kit_counts for v in parallel.villages] == [v.kit_counts for v in demo.villages]
     assert parallel.candidates == demo.candidates
     assert parallel.totals == demo.totals
+
+
+def test_zone_kits_are_compared_and_the_plan_says_which(demo):
+    """The demo has two zones: the programme plan says whether zone kits would be cheaper,
+    and the zone plan's kits each stay within one zone."""
+    note = next(n for n in demo.notices if "climate zones" in n)
+    assert "highland" in note and "lowland" in note and ("cheaper" in note)
+    zoned = plan_programme_file(demo_programme_path(), jobs=1, kit_scope="zone")
+    zone_of = {v.id: v.zone for v in load_programme(demo_programme_path()).villages}
+    for v in zoned.villages:
+        assert all(name.startswith(zone_of[v.id] + "-") for name in v.kit_counts)

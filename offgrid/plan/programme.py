@@ -705,6 +705,11 @@ def plan_programme(prog: Programme, *, kits: int | None = None,
         for k in st.kits:
             kit_parts[k.name] = k.parts
 
+    zones = {work[vi].village.zone for vi in cand_village}
+    if kit_scope != "zone" and len(zones) > 1 and "" not in zones and objective == "cost":
+        notices.append(_zone_comparison(cands, cand_village, work, standards, kits,
+                                        kit_type_cost, price_list, k_max, kit_scope))
+
     villages: list[VillageResult] = []
     prog_tiers = {t: 0 for t in TIER_NAMES}
     cautions: list[str] = []
@@ -726,6 +731,26 @@ def plan_programme(prog: Programme, *, kits: int | None = None,
                          price_list.source if price_list else "", prog_tiers, tuple(cautions),
                          tuple(notices), rows_read, distinct, tuple(cands),
                          tuple(work[vi].village.id for vi in cand_village))
+
+
+def _zone_comparison(cands, cand_village, work, standards, kits, kit_type_cost, prices,
+                     k_max, kit_scope) -> str:
+    """Say whether kits restricted to climate zones would cost less than the scope used."""
+    by_zone: dict[str, list[Candidate]] = {}
+    for c, vi in zip(cands, cand_village, strict=True):
+        by_zone.setdefault(work[vi].village.zone, []).append(c)
+    zoned = sum(standardise(sub, k=kits, kit_type_cost=kit_type_cost, prices=prices,
+                            objective="cost", k_max=k_max).objective_value
+                for sub in by_zone.values())
+    used = sum(st.objective_value for _, st in standards)
+    if zoned < used - 1e-6:
+        verdict = (f"cheaper by {used - zoned:,.0f}: plan with --kit-scope zone to use "
+                   "them")
+    else:
+        verdict = f"not cheaper ({zoned - used:,.0f} more): the {kit_scope} kits are kept"
+    return (f"Kits restricted to the {len(by_zone)} climate zones ({', '.join(sorted(by_zone))})"
+            f" would cost {zoned:,.0f} against {used:,.0f} for the {kit_scope} kits "
+            f"(parts and kit types): {verdict}.")
 
 
 def _village_result(w: _VillageWork, per_row: list[int], cands: list[Candidate],

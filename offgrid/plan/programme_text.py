@@ -46,7 +46,7 @@ def summary_text(plan: ProgrammePlan) -> str:
                    f"{inverter_text(p):>8}")
     names = [k.name for k in plan.kits]
     out += ["", "Villages"]
-    if len(names) <= 6:
+    if len(names) <= 6 and all(len(n) <= 5 for n in names):
         head = " ".join(f"{n[:5]:>5}" for n in names)
         out.append(f"  {'id':<8} {'systems':>7} {head} {'own':>4} {'cost':>10}")
         for v in plan.villages:
