@@ -142,6 +142,9 @@ class CommunityPlan:
 _ROW_FIELDS = tuple(f.name for f in fields(RowResult) if f.name != "design")
 
 
+_N_FIELDS: dict[type, int] = {}
+
+
 def _plain(value: Any) -> Any:
     """Plain JSON values: dataclasses by their fields, tuples as lists, finite floats."""
     if isinstance(value, float):
@@ -150,10 +153,16 @@ def _plain(value: Any) -> Any:
         return round(value, 6)
     if isinstance(value, str | int | bool) or value is None:
         return value
-    if is_dataclass(value) and not isinstance(value, type):
-        return {f.name: _plain(getattr(value, f.name)) for f in fields(value)}
     if isinstance(value, dict):
         return {str(k): _plain(v) for k, v in value.items()}
+    if is_dataclass(value) and not isinstance(value, type):
+        d = getattr(value, "__dict__", None)  # field order (set by __init__), fast
+        n = _N_FIELDS.get(type(value))
+        if n is None:
+            n = _N_FIELDS[type(value)] = len(fields(value))
+        if d is not None and len(d) == n:
+            return {k: _plain(v) for k, v in d.items()}
+        return {f.name: _plain(getattr(value, f.name)) for f in fields(value)}
     if isinstance(value, list | tuple):
         return [_plain(v) for v in value]
     if isinstance(value, np.generic):
