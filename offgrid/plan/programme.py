@@ -48,6 +48,7 @@ from offgrid.plan.rows import (
     _pool_context,
     communities_dir,
     community_tilt,
+    compact,
     default_jobs,
     prepare,
 )
@@ -481,10 +482,11 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
     for w in work:
         w.results = [None] * len(w.unique)
     context = _pool_context() if jobs > 1 and len(tasks) >= PARALLEL_MIN_DESIGNS else None
+    seen: dict = {}
     if context is None:
         with design_memo():
             for v, i, row in tasks:
-                work[v].results[i] = _build_and_design(work[v].inputs, row)
+                work[v].results[i] = compact(_build_and_design(work[v].inputs, row), seen)
         return
     global _PROGRAMME_INPUTS
     _PROGRAMME_INPUTS = [_light(w.inputs) for w in work]  # inherited by the forked workers
@@ -496,7 +498,7 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
         with ProcessPoolExecutor(max_workers=jobs, mp_context=context) as pool:
             for result in pool.map(_programme_batch, batches):
                 for v, i, r in result:
-                    work[v].results[i] = r
+                    work[v].results[i] = compact(r, seen)
     finally:
         _PROGRAMME_INPUTS = []
         gc.unfreeze()

@@ -125,6 +125,19 @@ class RowDesign:
         return self.units_series * self.battery_unit_v * self.battery_unit_ah
 
 
+def compact(design, pool: dict):
+    """The same record with its tuples (cables, devices, warnings, cautions) shared with
+    equal ones already seen in ``pool``: thousands of designs repeat them, and a large
+    programme keeps every distinct design in memory."""
+    if not isinstance(design, RowDesign):
+        return design
+    parts = {}
+    for name in ("cables", "devices", "warnings", "cautions", "family"):
+        value = getattr(design, name)
+        parts[name] = pool.setdefault(value, value)
+    return replace(design, **parts)
+
+
 @dataclass(frozen=True)
 class RowFailure:
     code: str
@@ -489,8 +502,9 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     """Build and design each row; in ``jobs`` worker processes when there are many."""
     context = _pool_context() if jobs > 1 and len(rows) >= PARALLEL_MIN_DESIGNS else None
     if context is None:
+        seen: dict = {}
         with design_memo():
-            return [_build_and_design(inputs, r) for r in rows]
+            return [compact(_build_and_design(inputs, r), seen) for r in rows]
     # the workers need the shared base and references, not the whole survey
     light = copy.copy(inputs.survey)
     light.rows, light.problems = [], []
@@ -502,12 +516,13 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     # Objects made before the fork are frozen out of the garbage collector, so the
     # workers' collections do not touch (and so copy) every page they inherit.
     gc.freeze()
+    seen = {}
     try:
         with ProcessPoolExecutor(max_workers=jobs, mp_context=context,
                                  initializer=_init_worker, initargs=(shared,)) as pool:
             for result in pool.map(_worker_batch, batches):
                 for i, r in result:
-                    out[i] = r
+                    out[i] = compact(r, seen)
     finally:
         gc.unfreeze()
     return out
