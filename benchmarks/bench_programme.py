@@ -16,6 +16,26 @@ Reports wall time, CPU time of the process and its workers, peak memory (largest
 resident set of the process or a worker) and rows per second.
 
 Run: python benchmarks/bench_programme.py [--quick | --full] [--jobs N]
+
+Measured on 2 cores shared with other work (load average 3-6, so wall times are 2-4 x
+what an idle machine gives; CPU is the process's and its workers' together), December
+2026, before the last memo (module current at a held voltage) cut another ~20 %:
+
+    one community, distinct rows      rows  jobs  wall s  cpu s  peak MB
+                                      1000     1     7.4    3.0       72
+                                     10000     1    46.1   21.6      183
+                                     10000     2    65.2   24.8      193
+    (before this work: 10000 rows, jobs 2: 79 s wall; ~8.4 ms CPU per design)
+    programme               villages    rows  wall s  cpu s  peak MB  rows/s
+                                  10   10000    37.2   14.5      193     269
+                                  50   10000    34.2   18.0      193     292
+                                 200   10000    80.9   26.1      193     124
+                                  20  100000    91.8   66.4      307    1090
+                                 200  100000   318.7  165.3      573     314
+
+Time follows the distinct designs, not the rows: about 1.7-2.5 ms CPU each; each
+village's own site and climate gives it its own designs, so at a fixed number of rows
+more villages cost more. Reading costs about 40 us of CPU per survey row.
 """
 
 from __future__ import annotations
