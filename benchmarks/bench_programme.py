@@ -32,6 +32,10 @@ what an idle machine gives; CPU is the process's and its workers' together), Dec
                                  200   10000    80.9   26.1      193     124
                                   20  100000    91.8   66.4      307    1090
                                  200  100000   318.7  165.3      573     314
+    after all the memos, compacted designs and gc.freeze (load average ~5):
+                                 200 1000000   592.1  575.9     1423    1689
+    (251,939 distinct designs, ~1,260 a village; the main process peaked at 1.42 GB,
+    each of the 2 workers held ~0.3 GB of its own, so ~2.0 GB together; JSON 0.2 MB)
 
 Time follows the distinct designs, not the rows: about 1.7-2.5 ms CPU each; each
 village's own site and climate gives it its own designs, so at a fixed number of rows
