@@ -23,11 +23,13 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.climate import sky
+from offgrid.memo import memoised
 from offgrid.pv import DiodeParams, cell_temperature_noct, module_current, module_mpp
 
 PROFILE_STEPS = 48
 
 
+@memoised
 def daily_poa_profile(horizontal_kwh_m2_day, poa_kwh_m2_day, latitude_deg: float,
                       tilt_deg: float, azimuth_deg: float, albedo=None,
                       steps: int = PROFILE_STEPS):

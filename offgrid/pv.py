@@ -36,6 +36,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from offgrid.memo import memoised
 from offgrid.result import DesignError
 
 T_REF_C = 25.0
@@ -273,6 +274,7 @@ def _stc_errors(p: dict, module) -> tuple[float, float, float, float] | None:
     return tuple(100.0 * e for e in errs)
 
 
+@memoised
 def fit_module(module) -> DiodeParams:
     """Fit the single-diode model to a datasheet and check it reproduces STC.
 
@@ -432,6 +434,7 @@ def cell_temperature_noct(ambient_c, irradiance_w_m2, noct_c):
         irradiance_w_m2, dtype=float) / 800.0
 
 
+@memoised
 def module_mpp(params: DiodeParams, irradiance_w_m2, cell_temp_c):
     """(Vmp, Imp, Pmp) of one module at the conditions, zero in the dark."""
     g = np.asarray(irradiance_w_m2, dtype=float)
@@ -440,6 +443,7 @@ def module_mpp(params: DiodeParams, irradiance_w_m2, cell_temp_c):
     return np.where(lit, v, 0.0), np.where(lit, i, 0.0), np.where(lit, p, 0.0)
 
 
+@memoised
 def module_current(params: DiodeParams, voltage_v, irradiance_w_m2, cell_temp_c,
                    extra_series_ohm=0.0):
     """Current of one module held at ``voltage_v`` [A], clipped at zero, zero in the dark."""
@@ -462,6 +466,7 @@ def operating_point(params: DiodeParams, irradiance_w_m2: float, cell_temp_c: fl
                           pmp / (isc * voc), pmp / (irradiance_w_m2 * area_m2))
 
 
+@memoised
 def iv_curve(params: DiodeParams, irradiance_w_m2: float, cell_temp_c: float, area_m2: float,
              points: int = 61) -> IVCurve:
     """I-V and P-V curve of one module from 0 V to Voc at evenly spaced voltages."""

@@ -9,6 +9,7 @@ the JSON and the report all read these same records.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import asdict, dataclass, field, fields, is_dataclass
 from typing import Any, Literal
@@ -36,8 +37,12 @@ class Notice:
     figure: str | None = None
 
 
+@functools.lru_cache(maxsize=1 << 16, typed=True)
 def fmt(value: float | int | str, unit: str = "", digits: int = 3) -> str:
-    """Format an input value for a reason: ``fmt(12.345, 'V') -> '12.3 V'``."""
+    """Format an input value for a reason: ``fmt(12.345, 'V') -> '12.3 V'``.
+
+    Memoised (a pure function called hundreds of times per design; ``typed`` keeps
+    ``True`` and ``1`` apart)."""
     if isinstance(value, str):
         text = value
     elif isinstance(value, bool):

@@ -20,6 +20,7 @@ one-way length L (common practice).
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 
@@ -158,6 +159,25 @@ SMALL_CONDUCTOR_MAX_A = {("copper", "14 AWG"): 15, ("copper", "12 AWG"): 20,
                          ("aluminium", "10 AWG"): 25}
 
 
+def _by_size_name(func):
+    """Memoise a pure function of (size, other hashable arguments), keyed by the size's
+    system and name (the tables are constants; sizes hold dicts, so are not hashable)."""
+    cache: dict = {}
+
+    @functools.wraps(func)
+    def wrapper(size: ConductorSize, *args):
+        key = (size.system, size.name, *args)
+        try:
+            return cache[key]
+        except KeyError:
+            out = cache[key] = func(size, *args)
+            return out
+        except TypeError:  # an unhashable argument: compute
+            return func(size, *args)
+
+    return wrapper
+
+
 def sizes_for(units: str) -> tuple[ConductorSize, ...]:
     if units == "awg":
         return AWG_SIZES
@@ -173,6 +193,7 @@ def _check_material(material: str) -> None:
                           f"'aluminium' (got {material!r}).", field="wiring.material")
 
 
+@_by_size_name
 def resistance_ohm_per_km(size: ConductorSize, material: str, conductor_temp_c: float) -> float:
     """DC resistance of one conductor at ``conductor_temp_c`` [ohm/km].
 
@@ -213,6 +234,7 @@ def ambient_factor_formula(ambient_c: float, conductor_rating_c: float) -> float
     return math.sqrt((conductor_rating_c - ambient_c) / (conductor_rating_c - 30.0))
 
 
+@_by_size_name
 def ampacity_a(size: ConductorSize, material: str, ambient_c: float,
                insulation_c: int) -> float | None:
     """Usable ampacity [A] at the ambient temperature; None when the size cannot be used.

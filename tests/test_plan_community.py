@@ -95,6 +95,11 @@ def test_json_is_plain_and_finite(demo):
     data = json.loads(json.dumps(demo.to_dict(), allow_nan=False))
     assert data["format"] == "offgrid-community-plan" and data["demo"] is True
     assert len(data["rows"]) == len(demo.rows)
+    # schema 2: each distinct design listed once, rows name it
+    assert data["schema"] == 2 and len(data["designs"]) == demo.distinct_designs
+    ids = {r["design_id"] for r in data["rows"]}
+    assert ids == set(range(len(data["designs"])))
+    assert all(isinstance(d["family"], int) for d in data["designs"])
     assert data["tiers"]["edition"].startswith("ESMAP")
     assert "plan.kits" in data["reasons"] and "plan.tilt" in data["reasons"]
 

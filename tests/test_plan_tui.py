@@ -53,3 +53,26 @@ async def test_a_bad_survey_says_why(tmp_path):
         assert screen.plan is None
         assert "Cannot plan" in str(screen.query_one("#plan-status", Static).content)
         await pilot.press("escape")  # leaves the notes view, the screen stays
+
+
+async def test_the_planning_screen_opens_a_programme(tmp_path):
+    """The invented three-village demo programme at 80x24: kits, villages, totals, report."""
+    from offgrid.plan.programme import demo_programme_path
+
+    app = PlanApp(path=demo_programme_path(), kits=4, report_path=tmp_path / "prog.md")
+    async with app.run_test(size=(80, 24)) as pilot:
+        screen = await _planned(app, pilot)
+        assert screen.is_programme and screen.plan.demo
+        assert screen.query_one("#kits", DataTable).row_count == len(screen.plan.kits) <= 4
+        status = str(screen.query_one("#plan-status", Static).content)
+        assert "3 villages" in status and "systems" in status
+        await pilot.press("2")
+        assert screen.query_one("#rows", DataTable).row_count == 3
+        await pilot.press("3")
+        assert screen.query_one("#totals", DataTable).row_count > 5
+        await pilot.press("minus")
+        screen = await _planned(app, pilot)
+        assert screen.request.kits == 3 and len(screen.plan.kits) <= 3
+        await pilot.press("e")
+        await pilot.pause()
+        assert "## Villages" in (tmp_path / "prog.md").read_text()

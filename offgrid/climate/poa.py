@@ -35,6 +35,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.climate import sky
+from offgrid.memo import memoised
 
 _DAY_STEPS = 721  # hour-angle steps across one day, as in sky.beam_ratio_rb
 
@@ -154,6 +155,7 @@ class MonthlyPoa:
     albedo: np.ndarray | None = None
 
 
+@memoised
 def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_deg: float,
                 albedo=sky.DEFAULT_ALBEDO, horizon=None, longitude_deg: float = 0.0,
                 elevation_m: float = 0.0, sun=None, cap: bool = True) -> MonthlyPoa:

@@ -93,12 +93,13 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
     raise AssertionError  # unreachable
 
 
-def json_text(data) -> str:
+def json_text(data, indent: int | None = 2, separators: tuple[str, str] | None = None) -> str:
     """Strict JSON (RFC 8259): a NaN or infinity is never written as ``NaN``/``Infinity``."""
     import json
 
     try:
-        return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False)
+        return json.dumps(data, indent=indent, ensure_ascii=False, allow_nan=False,
+                          separators=separators)
     except ValueError:
         fail("a figure came out as a non-finite number; nothing was written. Please report "
              "this with the project file", code=1)

@@ -17,10 +17,16 @@ def register(sub) -> None:
                     "a few standard kits at the least cost (or oversize), and total the parts "
                     "for procurement. Columns: docs/community-format.md.")
     p.add_argument("survey", nargs="?", metavar="COMMUNITY.csv",
-                   help="community survey CSV; - reads it from the standard input (names in "
-                        "it are then looked up from the current folder)")
+                   help="community survey CSV, or a programme CSV of villages "
+                        "(docs/programme-format.md); - reads a survey from the standard "
+                        "input (names in it are then looked up from the current folder)")
     p.add_argument("--demo", action="store_true",
                    help="plan the bundled demonstration community (invented village)")
+    p.add_argument("--demo-programme", action="store_true",
+                   help="plan the bundled demonstration programme (three invented villages)")
+    p.add_argument("--kit-scope", choices=("programme", "village", "zone"),
+                   default="programme", help="a programme's kits: one set for all villages "
+                   "(default), each village its own, or one set per zone column value")
     how = p.add_mutually_exclusive_group()
     how.add_argument("--kits", type=int, metavar="K", help="use at most K standard kit types")
     how.add_argument("--kit-cost", type=finite_float, metavar="C",
@@ -55,9 +61,18 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.plan.kits import PlanError
     from offgrid.plan.survey import SurveyError
 
-    if args.demo and args.survey:
-        fail("give either COMMUNITY.csv or --demo, not both")
+    if sum(map(bool, (args.demo, args.demo_programme, args.survey))) > 1:
+        fail("give one of COMMUNITY.csv, PROGRAMME.csv, --demo or --demo-programme")
+    if args.demo_programme:
+        from offgrid.plan.programme import demo_programme_path
+
+        return run_programme(args, demo_programme_path())
     path = demo_survey_path() if args.demo else args.survey
+    if path and not args.demo:
+        from offgrid.plan.programme import is_programme_file
+
+        if is_programme_file(path):
+            return run_programme(args, path)
     if not path:
         fail("name a community survey CSV, or use --demo for the bundled demonstration "
              "community")
@@ -95,7 +110,7 @@ def run(args: argparse.Namespace) -> int:
     if report is not None:
         write_report(plan, report)
     if args.json:
-        print(json_text(plan.to_dict()))
+        print(dump_json(plan.to_dict()))
     else:
         from offgrid.plan.text import summary_text
 
@@ -105,6 +120,60 @@ def run(args: argparse.Namespace) -> int:
     if plan.bad_rows or plan.unmet:
         print(f"offgrid: {len({p.line for p in plan.bad_rows})} row(s) left out, "
               f"{len(plan.unmet)} cannot be met: see the lists above", file=sys.stderr)
+        return 1
+    return 0
+
+
+def _check_common(args) -> Path | None:
+    if args.kits is not None and args.kits < 1:
+        fail(f"--kits {args.kits}: give 1 or more kit types")
+    if args.jobs is not None and args.jobs < 1:
+        fail("--jobs must be 1 or more")
+    if args.max_kits < 1:
+        fail("--max-kits must be 1 or more")
+    report = Path(args.report) if args.report else None
+    if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
+        fail(f"--report {report}: the file name must end in .md, .csv or .json")
+    return report
+
+
+def run_programme(args: argparse.Namespace, path) -> int:
+    """Plan a programme of villages (``offgrid plan PROGRAMME.csv``)."""
+    from offgrid.plan.kits import PlanError
+    from offgrid.plan.programme import ProgrammeError, plan_programme_file
+    from offgrid.plan.programme_text import markdown_report, rows_csv, summary_text
+
+    report = _check_common(args)
+    if args.climate:
+        fail("--climate: a programme names each village's climate in its climate column")
+    step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
+    try:
+        plan = plan_programme_file(path, kits=args.kits, kit_type_cost=args.kit_cost,
+                                   prices=args.prices, objective=args.objective,
+                                   jobs=args.jobs, k_max=args.max_kits,
+                                   kit_scope=args.kit_scope, **step)
+    except (ProgrammeError, PlanError) as exc:
+        fail(str(exc))
+    if report is not None:
+        from offgrid.project.store import atomic_write_text
+
+        suffix = report.suffix.lower()
+        text = (markdown_report(plan) if suffix == ".md" else rows_csv(plan)
+                if suffix == ".csv" else dump_json(plan.to_dict()) + "\n")
+        try:
+            atomic_write_text(report, text, backup=True)
+        except OSError as exc:
+            fail(f"cannot write {report}: {exc.strerror}")
+    if args.json:
+        print(dump_json(plan.to_dict()))
+    else:
+        print(summary_text(plan))
+        if report is not None:
+            print(f"\nWritten: {report}")
+    unmet = sum(len(v.unmet) for v in plan.villages)
+    if plan.left_out or unmet:
+        print(f"offgrid: {len(plan.left_out)} problem(s) left out, {unmet} row(s) cannot be "
+              "met: see the lists above", file=sys.stderr)
         return 1
     return 0
 
@@ -119,7 +188,7 @@ def write_report(plan, path: Path) -> None:
     elif suffix == ".csv":
         text = rows_csv(plan)
     else:
-        text = json_text(plan.to_dict()) + "\n"
+        text = dump_json(plan.to_dict()) + "\n"
     from offgrid.report.export import overwrite_refusal
 
     refusal = overwrite_refusal(path)
@@ -129,3 +198,14 @@ def write_report(plan, path: Path) -> None:
         atomic_write_text(path, text, backup=True)
     except OSError as exc:
         fail(f"cannot write {path}: {exc.strerror}")
+
+
+#: Above this many rows the JSON is written compact (one line): the indented form is
+#: encoded by Python's pure-Python encoder, about ten times slower than the C one.
+JSON_INDENT_MAX_ROWS = 2000
+
+
+def dump_json(data: dict) -> str:
+    """The plan as JSON text: indented for a readable plan, compact for a large one."""
+    big = len(data.get("rows") or ()) > JSON_INDENT_MAX_ROWS
+    return json_text(data, indent=None if big else 2, separators=(",", ":") if big else None)

@@ -9,7 +9,7 @@ kept with status ``cannot be met`` and the engine's message.
 from __future__ import annotations
 
 import math
-from dataclasses import asdict, dataclass, field, is_dataclass
+from dataclasses import asdict, dataclass, field, fields, is_dataclass
 from pathlib import Path
 from typing import Any
 
@@ -94,18 +94,43 @@ class CommunityPlan:
         return sum(r.count for r in self.rows if r.status in ("kit", "own system"))
 
     def to_dict(self) -> dict[str, Any]:
-        """JSON-ready dictionary (see docs/community-format.md, "JSON output")."""
+        """JSON-ready dictionary (see docs/community-format.md, "JSON output").
+
+        Distinct designs are listed once under ``designs``; each row names its
+        ``design_id`` (rows of one design share it), so the size grows with the rows'
+        own fields only.  Cautions are listed once for the plan.
+        """
+        ids: dict[int, int] = {}
+        designs: list[dict[str, Any]] = []
+        families: dict[tuple, int] = {}
+        rows = []
+        for r in self.rows:
+            d = r.design
+            did = None
+            if d is not None:
+                did = ids.get(id(d))
+                if did is None:
+                    did = ids[id(d)] = len(designs)
+                    item = _plain(d)
+                    item.pop("cautions", None)
+                    item["family"] = families.setdefault(d.family, len(families))
+                    designs.append({"design_id": did, **item})
+            row = {name: _plain(getattr(r, name)) for name in _ROW_FIELDS}
+            row["design_id"] = did
+            rows.append(row)
         out = {
-            "format": "offgrid-community-plan", "schema": 1,
+            "format": "offgrid-community-plan", "schema": 2,
             "name": self.name, "demo": self.demo, "source": self.source,
             "climate": self.climate, "tilt_deg": self.tilt_deg, "rows_read": self.rows_read,
             "energy_step_pct": self.energy_step_pct, "stepped_rows": self.stepped_rows,
             "distinct_designs": self.distinct_designs, "systems": self.systems,
             "currency": self.currency, "prices": self.prices_source,
             "bad_rows": [asdict(p) for p in self.bad_rows],
-            "rows": [_plain(asdict(r)) for r in self.rows],
-            "standardisation": _plain(asdict(self.standard)) if self.standard else None,
-            "totals": _plain(asdict(self.totals)) if self.totals else None,
+            "rows": rows,
+            "designs": designs,
+            "families": [_plain(f) for f in families],
+            "standardisation": _plain(self.standard) if self.standard else None,
+            "totals": _plain(self.totals) if self.totals else None,
             "tiers": {"edition": MTF_EDITION, "systems": dict(self.tier_counts)},
             "notices": [asdict(n) for n in self.notices],
             "cautions": list(self.cautions),
@@ -114,17 +139,32 @@ class CommunityPlan:
         return out
 
 
+_ROW_FIELDS = tuple(f.name for f in fields(RowResult) if f.name != "design")
+
+
+_N_FIELDS: dict[type, int] = {}
+
+
 def _plain(value: Any) -> Any:
-    if is_dataclass(value) and not isinstance(value, type):
-        return _plain(asdict(value))
-    if isinstance(value, dict):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, list | tuple):
-        return [_plain(v) for v in value]
+    """Plain JSON values: dataclasses by their fields, tuples as lists, finite floats."""
     if isinstance(value, float):
         if not math.isfinite(value):
             raise ValueError("a plan figure is not finite")
         return round(value, 6)
+    if isinstance(value, str | int | bool) or value is None:
+        return value
+    if isinstance(value, dict):
+        return {str(k): _plain(v) for k, v in value.items()}
+    if is_dataclass(value) and not isinstance(value, type):
+        d = getattr(value, "__dict__", None)  # field order (set by __init__), fast
+        n = _N_FIELDS.get(type(value))
+        if n is None:
+            n = _N_FIELDS[type(value)] = len(fields(value))
+        if d is not None and len(d) == n:
+            return {k: _plain(v) for k, v in d.items()}
+        return {f.name: _plain(getattr(value, f.name)) for f in fields(value)}
+    if isinstance(value, list | tuple):
+        return [_plain(v) for v in value]
     if isinstance(value, np.generic):
         return _plain(value.item())
     return value

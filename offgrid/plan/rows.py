@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import copy
 import dataclasses
+import gc
 import math
 import multiprocessing
 import os
@@ -24,10 +25,11 @@ from pathlib import Path
 import numpy as np
 
 from offgrid.climate.files import ClimateFileError, load_climate
+from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.survey import PART_SECTIONS, Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.project.loads_csv import LoadListError, load_loads_csv
-from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo
+from offgrid.project.model import ClimateChoice, Load, MonthlyClimate, Project, ProjectInfo
 from offgrid.project.store import ProjectFileError, load_project
 from offgrid.project.validate import validate_project
 from offgrid.result import DesignError, SystemDesign
@@ -121,6 +123,19 @@ class RowDesign:
     def string_wh(self) -> float:
         """Nominal energy of one battery string [Wh]."""
         return self.units_series * self.battery_unit_v * self.battery_unit_ah
+
+
+def compact(design, pool: dict):
+    """The same record with its tuples (cables, devices, warnings, cautions) shared with
+    equal ones already seen in ``pool``: thousands of designs repeat them, and a large
+    programme keeps every distinct design in memory."""
+    if not isinstance(design, RowDesign):
+        return design
+    parts = {}
+    for name in ("cables", "devices", "warnings", "cautions", "family"):
+        value = getattr(design, name)
+        parts[name] = pool.setdefault(value, value)
+    return replace(design, **parts)
 
 
 @dataclass(frozen=True)
@@ -254,8 +269,12 @@ def set_path(project: Project, path: str, value) -> None:
 
 
 def prepare(survey: Survey, climate: str | None = None, project: str | None = None,
-            energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT) -> PlanInputs:
-    """Resolve the shared climate, site and base project; raise SurveyError if unusable."""
+            energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT,
+            climate_table: MonthlyClimate | None = None) -> PlanInputs:
+    """Resolve the shared climate, site and base project; raise SurveyError if unusable.
+
+    ``climate_table``: a climate already read (a programme's village), used as it is.
+    """
     fatal: list[SurveyProblem] = []
     lines = survey.setting_lines
     base_dir = survey.base_dir
@@ -275,7 +294,10 @@ def prepare(survey: Survey, climate: str | None = None, project: str | None = No
     base.loads = []
     base.info = ProjectInfo(name=survey.name, demo=survey.demo)
     climate_ref = climate or survey.climate or base.climate.ref
-    if not climate_ref and base.climate.inline is None:
+    if climate_table is not None:
+        base.climate = ClimateChoice(inline=climate_table)
+        climate_ref = climate or climate_table.source or "village climate"
+    elif not climate_ref and base.climate.inline is None:
         fatal.append(SurveyProblem(0, "", "climate", "no climate: add a settings row "
                                    "'climate,NAME' (a bundled climate or a file) or give "
                                    "--climate"))
@@ -344,22 +366,31 @@ def _row_base(inputs: PlanInputs, ref: str) -> Project | str:
     return inputs.projects[ref]
 
 
-def row_project(inputs: PlanInputs, row: SurveyRow) -> Project:
-    """The full single-system project of one row; raises ValueError naming the problem."""
+def row_project(inputs: PlanInputs, row: SurveyRow, shared: bool = False) -> Project:
+    """The full single-system project of one row; raises ValueError naming the problem.
+
+    ``shared``: for designing only (the engine never changes its project), a row without
+    overrides shares the base's part tables instead of copying them; only ``choices``
+    is copied (an energy row sets its coincidence factor).
+    """
     base = inputs.base
+    share = shared and not row.overrides
+    copy_ = (lambda obj: obj) if share else _copy
     p = Project(info=ProjectInfo(name=f"{inputs.survey.name}: {row.name}",
                                  demo=inputs.survey.demo),
-                site=_copy(base.site), climate=base.climate)
+                site=copy_(base.site), climate=base.climate)
     for name in PART_SECTIONS:
-        setattr(p, name, _copy(getattr(base, name)))
+        setattr(p, name, copy_(getattr(base, name)))
     own_loads: list[Load] = []
     if row.project:
         rp = _row_base(inputs, row.project)
         if isinstance(rp, str):
             raise ValueError(f"project: {rp}")
         for name in PART_SECTIONS:
-            setattr(p, name, _copy(getattr(rp, name)))
+            setattr(p, name, copy_(getattr(rp, name)))
         own_loads = rp.loads
+    if share:
+        p.choices = replace(p.choices)
     if row.load_list:
         loads = _load_list(inputs, row.load_list)
         if isinstance(loads, str):
@@ -426,7 +457,7 @@ class RowRejected:
 def _build_and_design(inputs: PlanInputs, row: SurveyRow
                       ) -> RowDesign | RowFailure | RowRejected:
     try:
-        project = row_project(inputs, row)
+        project = row_project(inputs, row, shared=True)
     except ValueError as exc:
         field, _, message = str(exc).partition(": ")
         return RowRejected(field, message) if message else RowRejected("row", str(exc))
@@ -444,7 +475,8 @@ def _init_worker(inputs: PlanInputs) -> None:
 def _worker_batch(batch: list[tuple[int, SurveyRow]]
                   ) -> list[tuple[int, RowDesign | RowFailure | RowRejected]]:
     assert _WORKER_INPUTS is not None
-    return [(i, _build_and_design(_WORKER_INPUTS, row)) for i, row in batch]
+    with design_memo():
+        return [(i, _build_and_design(_WORKER_INPUTS, row)) for i, row in batch]
 
 
 def _pool_context():
@@ -470,7 +502,9 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     """Build and design each row; in ``jobs`` worker processes when there are many."""
     context = _pool_context() if jobs > 1 and len(rows) >= PARALLEL_MIN_DESIGNS else None
     if context is None:
-        return [_build_and_design(inputs, r) for r in rows]
+        seen: dict = {}
+        with design_memo():
+            return [compact(_build_and_design(inputs, r), seen) for r in rows]
     # the workers need the shared base and references, not the whole survey
     light = copy.copy(inputs.survey)
     light.rows, light.problems = [], []
@@ -479,11 +513,18 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     size = max(50, len(indexed) // (jobs * 4))
     batches = [indexed[i:i + size] for i in range(0, len(indexed), size)]
     out: list = [None] * len(rows)
-    with ProcessPoolExecutor(max_workers=jobs, mp_context=context,
-                             initializer=_init_worker, initargs=(shared,)) as pool:
-        for result in pool.map(_worker_batch, batches):
-            for i, r in result:
-                out[i] = r
+    # Objects made before the fork are frozen out of the garbage collector, so the
+    # workers' collections do not touch (and so copy) every page they inherit.
+    gc.freeze()
+    seen = {}
+    try:
+        with ProcessPoolExecutor(max_workers=jobs, mp_context=context,
+                                 initializer=_init_worker, initargs=(shared,)) as pool:
+            for result in pool.map(_worker_batch, batches):
+                for i, r in result:
+                    out[i] = compact(r, seen)
+    finally:
+        gc.unfreeze()
     return out
 
 

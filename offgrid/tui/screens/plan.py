@@ -1,9 +1,13 @@
-"""The planning screen: a whole community survey, its standard kits, rows and totals.
+"""The planning screen: a community survey or a programme of villages, its standard kits,
+rows (or villages) and totals.
 
-The screen only shows: the engine (:func:`offgrid.plan.community.plan_file`) runs in a
-worker thread and the views come from :mod:`offgrid.plan.text`.  Keys:
+The screen only shows: the engine (:func:`offgrid.plan.community.plan_file`, or
+:func:`offgrid.plan.programme.plan_programme_file` for a programme file) runs in a
+worker thread and the views come from :mod:`offgrid.plan.text` and
+:mod:`offgrid.plan.programme_text`.  Keys:
 
-* ``1`` kits, ``2`` rows, ``3`` totals, ``4`` notes (rows left out, notices, cautions);
+* ``1`` kits, ``2`` rows (a programme: villages), ``3`` totals, ``4`` notes (left out,
+  notices, cautions);
 * ``+`` / ``-`` allow one kit type more or less, ``a`` lets the kit-type price choose;
 * ``o`` type another survey path, ``r`` plan again, ``e`` write the Markdown report
   next to the survey, ``Esc`` back.
@@ -75,7 +79,7 @@ class PlanScreen(Screen):
     def compose(self) -> ComposeResult:
         yield Static(Text("Community plan", style="bold"), id="plan-title")
         yield Input(str(self.request.path), id="plan-path",
-                    placeholder="community survey CSV, Enter to plan")
+                    placeholder="community survey or programme CSV, Enter to plan")
         yield Static("", id="plan-status")
         with ContentSwitcher(initial="kits", id="plan-views"):
             for vid, _title in VIEWS[:3]:
@@ -100,12 +104,20 @@ class PlanScreen(Screen):
     def run_plan(self, request: PlanRequest) -> None:
         from offgrid.plan.community import plan_file
         from offgrid.plan.kits import PlanError
+        from offgrid.plan.programme import (
+            ProgrammeError,
+            is_programme_file,
+            plan_programme_file,
+        )
         from offgrid.plan.survey import SurveyError
 
         try:
             # one process: worker processes cannot be forked safely from a UI thread
-            plan = plan_file(request.path, kits=request.kits, jobs=1)
-        except (SurveyError, PlanError, OSError) as exc:
+            if is_programme_file(request.path):
+                plan = plan_programme_file(request.path, kits=request.kits, jobs=1)
+            else:
+                plan = plan_file(request.path, kits=request.kits, jobs=1)
+        except (SurveyError, PlanError, ProgrammeError, OSError) as exc:
             self.post_message(self.Planned(None, str(exc)))
             return
         self.post_message(self.Planned(plan, None))
@@ -120,9 +132,40 @@ class PlanScreen(Screen):
         self.plan = message.plan
         self.show()
 
+    @property
+    def is_programme(self) -> bool:
+        from offgrid.plan.programme import ProgrammePlan
+
+        return isinstance(self.plan, ProgrammePlan)
+
+    def show_programme(self) -> None:
+        from offgrid.plan.programme_text import kit_table, notes_text, totals_table, village_table
+
+        plan = self.plan
+        title = f"Programme: {plan.name}" + ("  (demonstration data)" if plan.demo else "")
+        self.query_one("#plan-title", Static).update(Text(title, style="bold"))
+        cost = (f", capital cost {plan.totals.total_cost:,.0f} {plan.currency}"
+                if plan.totals and plan.totals.total_cost is not None else "")
+        unmet = sum(len(v.unmet) for v in plan.villages)
+        status = Text(f"{len(plan.villages)} villages, {plan.systems} systems, "
+                      f"{len(plan.kits)} kit type(s){cost}; ")
+        status.append(f"{len(plan.left_out)} left out, {unmet} cannot be met",
+                      style="bold red" if plan.left_out or unmet else "")
+        self.query_one("#plan-status", Static).update(status)
+        for vid, table in (("kits", kit_table(plan)), ("rows", village_table(plan)),
+                           ("totals", totals_table(plan))):
+            dt = self.query_one(f"#{vid}", DataTable)
+            dt.clear(columns=True)
+            dt.add_columns(*table[0])
+            dt.add_rows(table[1])
+        self.query_one("#plan-notes", Static).update(Text(notes_text(plan)))
+
     def show(self) -> None:
         from offgrid.plan.text import kit_table, row_table, totals_table
 
+        if self.is_programme:
+            self.show_programme()
+            return
         plan = self.plan
         title = plan.name + ("  (demonstration data)" if plan.demo else "")
         self.query_one("#plan-title", Static).update(Text(title, style="bold"))
@@ -182,6 +225,8 @@ class PlanScreen(Screen):
 
     def action_kits(self, step: int) -> None:
         base = self.request.kits
+        if base is None and self.is_programme:
+            base = max(1, len(self.plan.kits))
         if base is None:
             base = len(self.plan.standard.kits) if self.plan and self.plan.standard else 3
         self.request.kits = max(1, min(MAX_KITS, base + step))
@@ -206,6 +251,7 @@ class PlanScreen(Screen):
         self.action_view(self.view)
 
     def action_export(self) -> None:
+        from offgrid.plan.programme_text import markdown_report as programme_report
         from offgrid.plan.text import markdown_report
         from offgrid.project.store import atomic_write_text
 
@@ -218,7 +264,8 @@ class PlanScreen(Screen):
             self.app.notify(f"Not written: {refusal}", severity="error", markup=False)
             return
         try:
-            atomic_write_text(target, markdown_report(self.plan))
+            atomic_write_text(target, programme_report(self.plan) if self.is_programme
+                              else markdown_report(self.plan))
         except OSError as exc:
             self.app.notify(f"Cannot write {target}: {exc.strerror}", severity="error",
                             markup=False)

@@ -1,0 +1,156 @@
+"""Benchmark: programme planning as the command line runs it (a whole process each).
+
+Targets (issue 18): 10,000 distinct surveyed homes under 10 s through
+``offgrid plan SURVEY.csv --json`` on 2 cores; 1,000,000 household rows across 200
+villages under 5 minutes with memory under 2 GB.  Inputs are generated here (invented
+villages on the bundled invented demo climates, invented households):
+
+* ``distinct``: one community, every row its own surveyed daily energy (40-900 Wh/day)
+  and peak power, so nearly every row is its own design (the design cache's worst case);
+* ``programme``: V villages spread over the five bundled demo climates (latitude and
+  longitude jittered per village), one combined survey of N rows: a third name a bundled
+  load list, the rest a surveyed energy rounded to 10 Wh/day and a peak rounded to 5 W
+  (how survey forms record them).
+
+Reports wall time, CPU time of the process and its workers, peak memory (largest
+resident set of the process or a worker) and rows per second.
+
+Run: python benchmarks/bench_programme.py [--quick | --full] [--jobs N]
+
+Measured on 2 cores shared with other work (load average 3-6, so wall times are 2-4 x
+what an idle machine gives; CPU is the process's and its workers' together), December
+2026, before the last memo (module current at a held voltage) cut another ~20 %:
+
+    one community, distinct rows      rows  jobs  wall s  cpu s  peak MB
+                                      1000     1     7.4    3.0       72
+                                     10000     1    46.1   21.6      183
+                                     10000     2    65.2   24.8      193
+    (before this work: 10000 rows, jobs 2: 79 s wall; ~8.4 ms CPU per design)
+    programme               villages    rows  wall s  cpu s  peak MB  rows/s
+                                  10   10000    37.2   14.5      193     269
+                                  50   10000    34.2   18.0      193     292
+                                 200   10000    80.9   26.1      193     124
+                                  20  100000    91.8   66.4      307    1090
+                                 200  100000   318.7  165.3      573     314
+    after all the memos, compacted designs and gc.freeze (load average ~5):
+                                 200 1000000   592.1  575.9     1423    1689
+    (251,939 distinct designs, ~1,260 a village; the main process peaked at 1.42 GB,
+    each of the 2 workers held ~0.3 GB of its own, so ~2.0 GB together; JSON 0.2 MB)
+
+Time follows the distinct designs, not the rows: about 1.7-2.5 ms CPU each; each
+village's own site and climate gives it its own designs, so at a fixed number of rows
+more villages cost more. Reading costs about 40 us of CPU per survey row.
+"""
+
+from __future__ import annotations
+
+import os
+import resource
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+CLIMATES = (("kisanga-ridge-demo", -3.4, 36.9, 1450), ("dalli-wells-demo", 14.2, 1.6, 280),
+            ("pampa-alta-demo", -16.2, -68.6, 3850), ("tarn-station-demo", -43.6, 171.2, 620),
+            ("kisanga-ridge-demo", -3.0, 37.3, 1200))
+LISTS = ("household-basic", "household-medium", "household-kit", "village-shop")
+
+
+def write_distinct(path: Path, rows: int, seed: int = 3) -> None:
+    rng = np.random.default_rng(seed)
+    out = ["community,Distinct homes (invented)", "demo,yes", "climate,kisanga-ridge-demo",
+           "project,kisanga-ridge-home-parts", "prices,kisanga-ridge-prices",
+           "choices.load_growth_pct,10", "id,name,kind,count,daily_energy_wh,peak_power_w,ac_dc"]
+    for i in range(rows):
+        e = 40 + 860 * i / max(rows - 1, 1)
+        p = max(8.0, e / rng.uniform(3, 8))
+        out.append(f"H{i},home {i},household,1,{e:.2f},{p:.1f},{'ac' if i % 5 == 0 else 'dc'}")
+    path.write_text("\n".join(out) + "\n", encoding="utf-8")
+
+
+def write_programme(folder: Path, villages: int, rows: int, seed: int = 5) -> Path:
+    rng = np.random.default_rng(seed)
+    prog = ["programme,Benchmark programme (invented)", "demo,yes",
+            "project,kisanga-ridge-home-parts", "prices,kisanga-ridge-prices",
+            "survey,survey.csv", "id,name,latitude_deg,longitude_deg,elevation_m,climate"]
+    for v in range(villages):
+        clim, lat, lon, elev = CLIMATES[v % len(CLIMATES)]
+        prog.append(f"V{v:03d},village {v},{lat + rng.uniform(-0.5, 0.5):.3f},"
+                    f"{lon + rng.uniform(-0.5, 0.5):.3f},{elev},{clim}")
+    (folder / "programme.csv").write_text("\n".join(prog) + "\n", encoding="utf-8")
+    with open(folder / "survey.csv", "w", encoding="utf-8") as fh:
+        fh.write("community,Benchmark survey (invented)\ndemo,yes\n"
+                 "id,village,count,load_list,daily_energy_wh,peak_power_w\n")
+        vill = rng.integers(0, villages, rows)
+        kind = rng.integers(0, 3, rows)
+        energy = rng.integers(4, 91, rows) * 10
+        ratio = rng.uniform(3, 8, rows)
+        chunk = []
+        for i in range(rows):
+            if kind[i] == 0:
+                chunk.append(f"H{i},V{vill[i]:03d},1,{LISTS[i % 4]},,\n")
+            else:
+                peak = max(10, int(np.rint(energy[i] / ratio[i] / 5.0)) * 5)
+                chunk.append(f"H{i},V{vill[i]:03d},1,,{energy[i]},{peak}\n")
+            if len(chunk) >= 50_000:
+                fh.write("".join(chunk))
+                chunk = []
+        fh.write("".join(chunk))
+    return folder / "programme.csv"
+
+
+def run_cli(path: Path, jobs: int | None, extra: tuple[str, ...] = ()) -> dict:
+    cmd = [sys.executable, "-m", "offgrid", "plan", str(path), "--json", *extra]
+    if jobs:
+        cmd += ["--jobs", str(jobs)]
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
+    t = time.perf_counter()
+    res = subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True,
+                         check=False)
+    wall = time.perf_counter() - t
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    if res.returncode not in (0, 1):
+        raise SystemExit(f"offgrid plan failed: {res.stderr[-2000:]}")
+    cpu = (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
+    return {"wall_s": wall, "cpu_s": cpu, "peak_mb": after.ru_maxrss / 1024.0}
+
+
+def main() -> None:
+    quick = "--quick" in sys.argv
+    full = "--full" in sys.argv
+    jobs = None
+    if "--jobs" in sys.argv:
+        jobs = int(sys.argv[sys.argv.index("--jobs") + 1])
+    print(f"CPUs available: {len(os.sched_getaffinity(0))}; load average "
+          f"{os.getloadavg()[0]:.1f} (other work on the machine slows the wall times)")
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+        print("\nOne community, every row distinct (offgrid plan SURVEY.csv --json)")
+        print(f"  {'rows':>8} {'jobs':>4} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} "
+              f"{'rows/s':>8}")
+        for n in ((1000,) if quick else (1000, 10_000)):
+            write_distinct(folder / "distinct.csv", n)
+            for j in ((1, 2) if jobs is None else (jobs,)):
+                r = run_cli(folder / "distinct.csv", j)
+                print(f"  {n:>8} {j:>4} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
+                      f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}")
+        print("\nProgramme: villages x rows (offgrid plan PROGRAMME.csv --json)")
+        print(f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} "
+              f"{'rows/s':>8}")
+        cases = [(10, 10_000)] if quick else [(10, 10_000), (50, 10_000), (200, 10_000),
+                                              (20, 100_000), (200, 100_000)]
+        if full:
+            cases.append((200, 1_000_000))
+        for v, n in cases:
+            path = write_programme(folder, v, n)
+            r = run_cli(path, jobs)
+            print(f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
+                  f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}", flush=True)
+
+
+if __name__ == "__main__":
+    main()
