@@ -165,3 +165,30 @@ def test_load_list_csv_carries_the_run_length():
     assert read_loads_csv("name,power_w,hours_per_day\nX,5,1\n")[0].run_m is None
     with pytest.raises(ValueError, match="run_m"):
         read_loads_csv("name,power_w,hours_per_day,run_m\nX,5,1,0\n")
+
+
+def test_the_migration_note_reaches_the_text_ui_session_and_the_command_line(tmp_path):
+    import subprocess
+    import sys
+
+    from offgrid.tui.session import Session
+
+    path = tmp_path / "old.toml"
+    path.write_text(_schema_1_text())
+    session = Session.open(path)
+    assert any("Old radio" in n for n in session.notes)
+    assert session.project.loads[0].run_m == 40.0
+    proc = subprocess.run([sys.executable, "-m", "offgrid", "size", str(path)],
+                          capture_output=True, text=True, timeout=120)
+    assert proc.returncode == 0, proc.stderr
+    assert "offgrid: note:" in proc.stderr and "Old radio" in proc.stderr
+    assert path.read_text() == _schema_1_text()  # reading never rewrites the file
+
+
+def test_a_bad_schema_1_length_says_where_it_came_from():
+    text = _schema_1_text(**{"DC lights": "far"})
+    with pytest.raises(ProjectFileError) as err:
+        loads_project(text)
+    (problem,) = err.value.problems
+    assert problem.path == "loads[1].run_m"
+    assert "not a number" in problem.message and "wiring.dc_load_runs_m" in problem.message

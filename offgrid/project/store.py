@@ -320,10 +320,12 @@ def _all_defaults(cls: Any) -> bool:
                for f in dataclasses.fields(cls))
 
 
-def _migrate_schema_1(data: dict[str, Any], notes: list[str]) -> dict[str, Any]:
+def _migrate_schema_1(data: dict[str, Any], notes: list[str],
+                      moved: dict[str, str] | None = None) -> dict[str, Any]:
     """Schema 1 -> 2: each ``[wiring.dc_load_runs_m]`` entry (load name = length) moves onto
     every load of that name as ``run_m``; an entry naming no load is told in ``notes`` and
-    dropped. ``data`` is not changed; the migrated copy is returned."""
+    dropped. ``data`` is not changed; the migrated copy is returned. ``moved`` receives
+    ``loads[N].run_m`` -> the schema-1 entry it came from (for messages)."""
     from offgrid.safetext import printable
 
     wiring = data.get("wiring")
@@ -343,19 +345,23 @@ def _migrate_schema_1(data: dict[str, Any], notes: list[str]) -> dict[str, Any]:
         loads, list) else []
     if loads:
         data["loads"] = loads
-    moved = 0
+    moved = {} if moved is None else moved
+    names = 0
     for name, length in runs.items():
-        owners = [ld for ld in loads if isinstance(ld, dict) and ld.get("name") == name]
-        if not owners:
+        owners = [i for i, ld in enumerate(loads) if isinstance(ld, dict)
+                  and ld.get("name") == name and "run_m" not in ld]
+        if not owners and not any(isinstance(ld, dict) and ld.get("name") == name
+                                  for ld in loads):
             notes.append(f"wiring.dc_load_runs_m: '{printable(str(name))}' = "
                          f"{_short(length)} m names no load in this project; that length is "
                          "dropped when the project is saved (set it on the load as run_m)")
             continue
-        for ld in owners:
-            ld.setdefault("run_m", length)
-        moved += 1
-    if moved:
-        notes.append(f"schema 1 file: the cable run lengths of {moved} load name(s) now stand "
+        for i in owners:
+            loads[i]["run_m"] = length
+            moved[f"loads[{i + 1}].run_m"] = f"wiring.dc_load_runs_m.'{printable(str(name))}'"
+        names += 1
+    if names:
+        notes.append(f"schema 1 file: the cable run lengths of {names} load name(s) now stand "
                      "on the loads (run_m); saving writes schema 2")
     return data
 
@@ -386,8 +392,9 @@ def project_from_dict(data: dict[str, Any], source: str = "project",
                              f"({SCHEMA_VERSION}); open it with a newer offgrid. The file was "
                              "not changed")
         return Project(), reader.problems
+    moved: dict[str, str] = {}
     if schema == 1:
-        data = _migrate_schema_1(data, notes)
+        data = _migrate_schema_1(data, notes, moved)
     elif isinstance(data.get("wiring"), dict) and "dc_load_runs_m" in data["wiring"]:
         reader.bad("wiring.dc_load_runs_m", f"schema {schema} keeps each DC load's cable length "
                    "on the load: write run_m = LENGTH in its [[loads]] table instead")
@@ -418,7 +425,10 @@ def project_from_dict(data: dict[str, Any], source: str = "project",
     project = Project(**kwargs, extra=extra)
     if not reader.problems:
         reader.problems.extend(validate_project(project))
-    return project, reader.problems
+    problems = [Problem(p.path, f"{p.message} (moved from {moved[p.path]} of the schema-1 "
+                                "file)", p.line) if p.path in moved else p
+                for p in reader.problems]
+    return project, problems
 
 
 def _read_climate(value: Any, reader: _Reader) -> ClimateChoice:

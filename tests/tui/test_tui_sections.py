@@ -545,6 +545,9 @@ async def test_wires_dc_load_length_stays_with_the_load_when_it_is_renamed(state
         assert wire.length_m == 25.0 and "Renamed lights" in wire.run
         row_text = next(ln for ln in screen_text(app).splitlines() if "Renamed ligh" in ln)
         assert " 25.0 " in row_text  # the name is clipped to the column at 80 columns
+        app.work.current.table.move_cursor(row=row, column=3)
+        await pilot.pause()
+        assert "loads[1].run_m" in app.work.current.figure().extra  # why: the field it sets
 
 
 # ----------------------------------------------------------------------------- cautions

@@ -313,7 +313,7 @@ class WiresSection(Section):
             if column == "length_m":
                 return Figure(f"Length of {run.run}", f"{run.length_m:g} m", None,
                               extra="A one-way length you typed (or the default); Enter "
-                                    "changes it.")
+                                    f"changes it (project field {run.length_path}).")
             what = REASON_OF_COLUMN.get(column, "size")
             value = getattr(run, column, "")
             shown = f"{value:.2f}" if isinstance(value, float) else str(value)
