@@ -113,7 +113,7 @@ class ElectricalResult:
                  "drop_current_a": w.operating_current_a, "voltage_v": w.voltage_v,
                  "length_m": w.length_m, "material": w.material, "size": w.size,
                  "resistance_ohm_km": w.resistance_ohm_km, "drop_pct": w.drop_pct,
-                 "ampacity_a": w.ampacity_a, "fuse_a": w.fuse_a}
+                 "ampacity_a": w.ampacity_a, "fuse_a": w.fuse_a, "length_path": w.length_path}
                 for w in self.wires]
 
     def to_json(self) -> dict:
@@ -467,14 +467,14 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         if load.ac_dc != "dc" or not load.quantity * load.power_w > 0:
             continue
         i_load = load.quantity * load.power_w / vsys
-        length = wiring.dc_load_runs_m.get(load.name, wiring.dc_load_run_m)
-        field = (f"wiring.dc_load_runs_m.{load.name}" if load.name in wiring.dc_load_runs_m
-                 else "wiring.dc_load_run_m")
+        own = f"loads[{n_load}].run_m"
+        length = wiring.dc_load_run_m if load.run_m is None else load.run_m
+        field = "wiring.dc_load_run_m" if load.run_m is None else own
         runs.append(wr.RunSpec(
             f"load{n_load}", f"DC load '{load.name}'", i_load, i_load, vsys, length,
             limits.drop_limit_load_pct,
             prot.standard_rating_a(1.25 * i_load, what=f"DC load '{load.name}' circuit",
-                                   field=f"loads[{n_load}].power_w"), 1, field))
+                                   field=f"loads[{n_load}].power_w"), 1, field, own))
 
     ambient = _wire_ambient_c(project, core)
     cable = (wiring.units, wiring.material, wiring.conductor_temp_c, ambient,

@@ -273,7 +273,10 @@ class RunSpec:
     drop_limit_pct: float
     fuse_a: float | None  # overcurrent device rating on this run, None: none
     count: int = 1  # identical runs (one per string or per controller)
-    length_field: str = ""  # project field holding the length, for messages
+    length_field: str = ""  # project field the length was read from, for messages
+    # Project field that sets this run's length (a DC load's own ``loads[N].run_m``, even
+    # while it is absent and the default applies); empty: ``length_field``.
+    length_path: str = ""
 
 
 @dataclass(frozen=True)
@@ -295,6 +298,9 @@ class WireChoice:
     required_ampacity_a: float
     fuse_a: float | None
     voltage_v: float = 0.0  # circuit voltage the drop is a percentage of
+    # Dotted project path that sets this run's length (``wiring.array_run_m``,
+    # ``loads[3].run_m``): what a view edits to change it.
+    length_path: str = ""
 
 
 def check_length(length_m: float, run_name: str, field: str) -> None:
@@ -330,7 +336,8 @@ def _candidates(run: RunSpec, units: str, material: str, conductor_temp_c: float
                               run.operating_current_a, run.length_m, material, size.name,
                               size.area_mm2, r, drop, 100.0 * drop / run.voltage_v,
                               run.drop_limit_pct, amp, required, run.fuse_a,
-                              voltage_v=run.voltage_v))
+                              voltage_v=run.voltage_v,
+                              length_path=run.length_path or run.length_field))
     if not out:
         largest = sizes_for(units)[-1].name
         raise DesignError(

@@ -239,11 +239,11 @@ def test_missing_voc_coefficient_uses_nec_table_and_survives_a_save(project):
 
 
 def test_wiring_section_round_trips(project):
-    project.wiring.dc_load_runs_m = {"DC lights": 22.5}
+    project.loads[0].run_m = 22.5  # "DC lights"
     project.wiring.units = "awg"
     project.wiring.battery_short_circuit_a = 3500.0
     again = loads_project(dumps_project(project))
-    assert again.wiring == project.wiring
+    assert again.wiring == project.wiring and again.loads == project.loads
     load = next(w for w in design(again).electrical.wires if w.run == "DC load 'DC lights'")
     assert load.key == "load1"  # first line of the load list
     assert load.length_m == 22.5

@@ -174,7 +174,7 @@ def projects(draw) -> Project:
     p.climate.inline.albedo = draw(reflectance)
     p.loads = draw(loads())
     if draw(st.booleans()):
-        p.wiring.dc_load_runs_m = {p.loads[0].name: draw(st.floats(0.1, 1000.0, **finite))}
+        p.loads[0].run_m = draw(st.floats(0.1, 1000.0, **finite))
     p.site.horizon_deg = draw(_mostly(st.just([]), st.lists(
         st.tuples(st.floats(0.0, 359.0, **finite), st.floats(0.0, 90.0, **finite)),
         min_size=1, max_size=6, unique_by=lambda pt: round(pt[0], 6)), odds=16))

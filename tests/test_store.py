@@ -51,7 +51,7 @@ def test_unknown_tables_are_kept():
 
 
 def test_newer_schema_is_refused_clearly():
-    text = dumps_project(hand_project()).replace("schema = 1", "schema = 99")
+    text = dumps_project(hand_project()).replace("schema = 2", "schema = 99")
     with pytest.raises(ProjectFileError, match="newer than this offgrid reads"):
         loads_project(text)
 

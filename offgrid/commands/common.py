@@ -73,24 +73,32 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
     """The project named by PROJECT or --demo; raises SystemExit(2) with a message on failure."""
     from offgrid.paths import demo_project_path
     from offgrid.project.store import ProjectFileError, load_project
+    from offgrid.safetext import printable
 
     if args.demo and args.project:
         fail("give either PROJECT or --demo, not both")
+    notes: list[str] = []  # what migrating an older schema could not carry over
     if args.project == STDIO:
         from offgrid.project.store import loads_project
 
         try:
-            return loads_project(read_stdin("PROJECT"), source="standard input"), Path.cwd()
+            project = loads_project(read_stdin("PROJECT"), source="standard input",
+                                    notes=notes)
         except ProjectFileError as exc:
             fail(str(exc))
+        for note in notes:
+            print(f"offgrid: note: standard input: {note}", file=sys.stderr)
+        return project, Path.cwd()
     path = demo_project_path() if args.demo else Path(args.project) if args.project else None
     if path is None:
         fail("name a project file, or use --demo for the bundled demonstration project")
     try:
-        return load_project(path), path.parent
+        project = load_project(path, notes=notes)
     except ProjectFileError as exc:
         fail(str(exc), field=first_field(exc))
-    raise AssertionError  # unreachable
+    for note in notes:
+        print(f"offgrid: note: {printable(str(path))}: {note}", file=sys.stderr)
+    return project, path.parent
 
 
 def json_text(data, indent: int | None = 2, separators: tuple[str, str] | None = None) -> str:

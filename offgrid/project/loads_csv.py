@@ -2,7 +2,8 @@
 
 Columns (header required, order free): ``name, quantity, power_w, hours_per_day,
 ac_dc, duty_cycle, surge_w, months, critical``; optional ``time_of_day``
-(any, day, morning, evening, night).  ``months`` is ``1-12``, ``5,6,7`` or
+(any, day, morning, evening, night) and ``run_m`` (one-way length of a DC load's cable
+run in metres; empty: the project's default run).  ``months`` is ``1-12``, ``5,6,7`` or
 ``11-2`` (wrapping); ``critical`` is yes/no.  Numbers are read by
 :func:`offgrid.numbers.read_number`; a name that a spreadsheet would take for a formula
 is written with a leading apostrophe (:func:`offgrid.safetext.csv_cell`) and read back
@@ -17,12 +18,12 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from offgrid.numbers import NumberError, is_finite_number, read_number
-from offgrid.project.model import ALL_MONTHS, Load
+from offgrid.project.model import ALL_MONTHS, RUN_LENGTH_RANGE_M, Load
 from offgrid.safetext import csv_cell, csv_uncell
 
 COLUMNS = ("name", "quantity", "power_w", "hours_per_day", "ac_dc", "duty_cycle", "surge_w",
            "months", "critical")
-OPTIONAL_COLUMNS = ("time_of_day",)
+OPTIONAL_COLUMNS = ("time_of_day", "run_m")
 TIMES_OF_DAY = ("any", "day", "morning", "evening", "night")
 #: The longest load list read (a clinic or a school has tens of loads; a whole village is
 #: planned as a community survey, not as one load list).
@@ -104,6 +105,9 @@ def check_load(load: Load) -> list[tuple[str, str]]:
         if not is_finite_number(value):
             out.append((fld, f"'{value}' is not a finite number; type a number such as 0 or "
                              "1.5"))
+    if load.run_m is not None and not is_finite_number(load.run_m):
+        out.append(("run_m", f"'{load.run_m}' is not a finite number; type the one-way cable "
+                             "length in metres, or leave it empty for the default run"))
     if out:
         return out
     if not isinstance(load.quantity, int) or isinstance(load.quantity, bool):
@@ -126,6 +130,11 @@ def check_load(load: Load) -> list[tuple[str, str]]:
         out.append(("ac_dc", f"'{load.ac_dc}' must be ac or dc"))
     if not load.months or any(not 1 <= m <= 12 for m in load.months):
         out.append(("months", "give the months of use, e.g. 1-12 or 5,6,7"))
+    lo, hi = RUN_LENGTH_RANGE_M
+    if load.run_m is not None and not lo <= load.run_m <= hi:
+        out.append(("run_m", f"{load.run_m:g} m is out of range; one-way length of its DC cable "
+                             f"run, {lo:g}-{hi:g} m, or leave it empty for the default run "
+                             "(wiring.dc_load_run_m)"))
     if load.time_of_day not in TIMES_OF_DAY:
         out.append(("time_of_day",
                     f"'{load.time_of_day}' must be one of {', '.join(TIMES_OF_DAY)}"))
@@ -214,6 +223,8 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
             months=months,
             critical=crit_raw in _YES,
             time_of_day=(row.get("time_of_day") or "any").strip().lower(),  # type: ignore[arg-type]
+            run_m=(_num(row, "run_m", line, problems, 0.0)
+                   if (row.get("run_m") or "").strip() else None),
         )
         if len(problems) == start:
             problems.extend(LoadProblem(line, f, m) for f, m in check_load(load))
@@ -242,5 +253,6 @@ def loads_to_csv(loads: list[Load]) -> str:
         writer.writerow([csv_cell(ld.name), ld.quantity, f"{ld.power_w:g}",
                          f"{ld.hours_per_day:g}", ld.ac_dc, f"{ld.duty_cycle:g}",
                          f"{ld.surge_w:g}", format_months(ld.months),
-                         "yes" if ld.critical else "no", ld.time_of_day])
+                         "yes" if ld.critical else "no", ld.time_of_day,
+                         "" if ld.run_m is None else f"{ld.run_m:g}"])
     return out.getvalue()

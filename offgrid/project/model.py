@@ -11,13 +11,17 @@ from dataclasses import dataclass, field
 from typing import Literal
 
 FORMAT_NAME = "offgrid-project"
-SCHEMA_VERSION = 1
+#: 2: a DC load's cable run length stands on the load (``[[loads]] run_m``); schema 1 kept
+#: them in ``[wiring.dc_load_runs_m]`` keyed by the load's name (migrated on loading).
+SCHEMA_VERSION = 2
 
 AcDc = Literal["ac", "dc"]
 ControllerType = Literal["pwm", "mppt"]
 Chemistry = Literal["flooded", "agm", "gel", "lifepo4"]
 TimeOfDay = Literal["any", "day", "evening", "night", "morning"]
 ALL_MONTHS: tuple[int, ...] = tuple(range(1, 13))
+#: One-way length of a cable run that a project may hold, m (inclusive).
+RUN_LENGTH_RANGE_M = (0.1, 1000.0)
 
 
 @dataclass
@@ -97,6 +101,8 @@ class Load:
     months: tuple[int, ...] = ALL_MONTHS
     critical: bool = False
     time_of_day: TimeOfDay = "any"
+    # One-way length of this DC load's cable run, m; None: ``wiring.dc_load_run_m``.
+    run_m: float | None = None
 
 
 @dataclass
@@ -192,8 +198,7 @@ class WiringChoices:
     array_run_m: float = 15.0  # array or combiner to charge controller
     controller_battery_m: float = 2.0
     battery_inverter_m: float = 1.5
-    dc_load_run_m: float = 10.0  # each DC load circuit unless listed below
-    dc_load_runs_m: dict[str, float] = field(default_factory=dict)  # load name -> length
+    dc_load_run_m: float = 10.0  # each DC load circuit without its own ``Load.run_m``
     battery_short_circuit_a: float | None = None  # one battery unit, datasheet; None: estimate
     module_max_fuse_a: float | None = None  # module's maximum series fuse, datasheet
 

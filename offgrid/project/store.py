@@ -9,6 +9,8 @@
   by someone else since it was read is not overwritten).
 * Tables this version does not know are kept in ``Project.extra`` and written
   back unchanged.
+* Older schemas are migrated on reading (:func:`_migrate_schema_1`) and saved in
+  the current one; what the migration could not carry over is told in ``notes``.
 """
 
 from __future__ import annotations
@@ -318,9 +320,60 @@ def _all_defaults(cls: Any) -> bool:
                for f in dataclasses.fields(cls))
 
 
-def project_from_dict(data: dict[str, Any], source: str = "project") -> tuple[Project,
-                                                                                list[Problem]]:
-    """Convert a parsed document to a Project; returns it with the list of problems."""
+def _migrate_schema_1(data: dict[str, Any], notes: list[str],
+                      moved: dict[str, str] | None = None) -> dict[str, Any]:
+    """Schema 1 -> 2: each ``[wiring.dc_load_runs_m]`` entry (load name = length) moves onto
+    every load of that name as ``run_m``; an entry naming no load is told in ``notes`` and
+    dropped. ``data`` is not changed; the migrated copy is returned. ``moved`` receives
+    ``loads[N].run_m`` -> the schema-1 entry it came from (for messages)."""
+    from offgrid.safetext import printable
+
+    wiring = data.get("wiring")
+    if not isinstance(wiring, dict) or "dc_load_runs_m" not in wiring:
+        return data
+    data = dict(data)
+    wiring = dict(wiring)
+    runs = wiring.pop("dc_load_runs_m")
+    data["wiring"] = wiring
+    if not isinstance(runs, dict):
+        notes.append("wiring.dc_load_runs_m was not a table of load name = length; it is "
+                     "dropped when the project is saved (schema 2 keeps each load's length "
+                     "on the load, as run_m)")
+        return data
+    loads = data.get("loads")
+    loads = [dict(ld) if isinstance(ld, dict) else ld for ld in loads] if isinstance(
+        loads, list) else []
+    if loads:
+        data["loads"] = loads
+    moved = {} if moved is None else moved
+    names = 0
+    for name, length in runs.items():
+        owners = [i for i, ld in enumerate(loads) if isinstance(ld, dict)
+                  and ld.get("name") == name and "run_m" not in ld]
+        if not owners and not any(isinstance(ld, dict) and ld.get("name") == name
+                                  for ld in loads):
+            notes.append(f"wiring.dc_load_runs_m: '{printable(str(name))}' = "
+                         f"{_short(length)} m names no load in this project; that length is "
+                         "dropped when the project is saved (set it on the load as run_m)")
+            continue
+        for i in owners:
+            loads[i]["run_m"] = length
+            moved[f"loads[{i + 1}].run_m"] = f"wiring.dc_load_runs_m.'{printable(str(name))}'"
+        names += 1
+    if names:
+        notes.append(f"schema 1 file: the cable run lengths of {names} load name(s) now stand "
+                     "on the loads (run_m); saving writes schema 2")
+    return data
+
+
+def project_from_dict(data: dict[str, Any], source: str = "project",
+                      notes: list[str] | None = None) -> tuple[Project, list[Problem]]:
+    """Convert a parsed document to a Project; returns it with the list of problems.
+
+    A file of an older schema is migrated; what that could not carry over is appended to
+    ``notes`` (each a sentence naming the field).
+    """
+    notes = [] if notes is None else notes
     reader = _Reader()
     fmt = data.get("format")
     if fmt != FORMAT_NAME:
@@ -338,6 +391,13 @@ def project_from_dict(data: dict[str, Any], source: str = "project") -> tuple[Pr
         reader.bad("schema", f"the file is schema {schema}, newer than this offgrid reads "
                              f"({SCHEMA_VERSION}); open it with a newer offgrid. The file was "
                              "not changed")
+        return Project(), reader.problems
+    moved: dict[str, str] = {}
+    if schema == 1:
+        data = _migrate_schema_1(data, notes, moved)
+    elif isinstance(data.get("wiring"), dict) and "dc_load_runs_m" in data["wiring"]:
+        reader.bad("wiring.dc_load_runs_m", f"schema {schema} keeps each DC load's cable length "
+                   "on the load: write run_m = LENGTH in its [[loads]] table instead")
         return Project(), reader.problems
     hints = get_type_hints(Project)
     kwargs: dict[str, Any] = {}
@@ -365,7 +425,10 @@ def project_from_dict(data: dict[str, Any], source: str = "project") -> tuple[Pr
     project = Project(**kwargs, extra=extra)
     if not reader.problems:
         reader.problems.extend(validate_project(project))
-    return project, reader.problems
+    problems = [Problem(p.path, f"{p.message} (moved from {moved[p.path]} of the schema-1 "
+                                "file)", p.line) if p.path in moved else p
+                for p in reader.problems]
+    return project, problems
 
 
 def _read_climate(value: Any, reader: _Reader) -> ClimateChoice:
@@ -388,8 +451,12 @@ def _read_climate(value: Any, reader: _Reader) -> ClimateChoice:
     return ClimateChoice(ref=ref)
 
 
-def loads_project(text: str, source: str = "project") -> Project:
-    """Parse project text; raise :class:`ProjectFileError` with every problem."""
+def loads_project(text: str, source: str = "project", *,
+                  notes: list[str] | None = None) -> Project:
+    """Parse project text; raise :class:`ProjectFileError` with every problem.
+
+    ``notes``: a list that receives what migrating an older schema could not carry over.
+    """
     too_deep = Problem("file", f"tables or lists nested more than {MAX_DEPTH} levels deep: "
                                "this is not an offgrid project; check that it is the right "
                                "file")
@@ -410,7 +477,7 @@ def loads_project(text: str, source: str = "project") -> Project:
                                                 "syntax at that line", line)]) from exc
     if _depth(data, MAX_DEPTH) > MAX_DEPTH:
         raise ProjectFileError(source, [too_deep])
-    project, problems = project_from_dict(data, source)
+    project, problems = project_from_dict(data, source, notes)
     if problems:
         lines = _locate_lines(text)
         located = []
@@ -424,7 +491,8 @@ def loads_project(text: str, source: str = "project") -> Project:
     return project
 
 
-def load_project(path: str | os.PathLike) -> Project:
+def load_project(path: str | os.PathLike, *, notes: list[str] | None = None) -> Project:
+    """Read a project file (see :func:`loads_project`)."""
     from offgrid.textfile import TextFileError, read_text
 
     p = Path(path)
@@ -432,7 +500,7 @@ def load_project(path: str | os.PathLike) -> Project:
         text = read_text(p, max_bytes=MAX_PROJECT_BYTES)
     except TextFileError as exc:
         raise ProjectFileError(str(p), [Problem("file", str(exc))]) from None
-    return loads_project(text.removeprefix("\ufeff"), source=str(p))
+    return loads_project(text.removeprefix("\ufeff"), source=str(p), notes=notes)
 
 
 def copy_project(project: Project) -> Project:

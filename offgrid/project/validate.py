@@ -146,10 +146,6 @@ def validate_project(project: Project) -> list[Problem]:
     if w.insulation_temp_c not in (60, 75, 90):
         problems.append(Problem("wiring.insulation_temp_c", f"'{w.insulation_temp_c}' must be "
                                 "60, 75 or 90 (C)"))
-    for name, length in w.dc_load_runs_m.items():
-        if not is_finite_number(length) or not 0.1 <= length <= 1000:
-            problems.append(Problem(f"wiring.dc_load_runs_m.{name}", f"'{length}' must be a "
-                                    "one-way length in metres, 0.1-1000"))
     c = project.climate
     if c.ref is None and c.inline is None:
         problems.append(Problem("climate", "no climate: give `ref` (a bundled climate name or "

@@ -146,8 +146,15 @@ class OffgridApp(App):
                             "project; s saves it there.", markup=False, timeout=6)
             elif session.path is not None:
                 remember_project(session.path, self.state)
+            self._tell_notes(session)
         else:
             self.push_screen(StartScreen(recent_projects(self.state)))
+
+    def _tell_notes(self, session: Session) -> None:
+        """What migrating an older project file could not carry over (Session.notes)."""
+        for note in session.notes:
+            self.notify(note, title="Older project file", severity="warning", markup=False,
+                        timeout=12)
 
     def _recovery_answer(self, answer) -> None:
         if not answer:
@@ -190,6 +197,7 @@ class OffgridApp(App):
             self.recovery.clear()
             if session.path is not None:
                 remember_project(session.path, self.state)
+            self._tell_notes(session)
 
         if check and self.session is not None and self.session.dirty:
             self.push_screen(self._unsaved_dialog("before opening another project"), go)

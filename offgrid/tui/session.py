@@ -76,6 +76,8 @@ class Session:
     undo_stack: list[Project] = field(default_factory=list)
     redo_stack: list[Project] = field(default_factory=list)
     listeners: list[Callable[[], None]] = field(default_factory=list)
+    # What opening an older file's schema could not carry over (shown once on opening).
+    notes: list[str] = field(default_factory=list)
 
     # ------------------------------------------------------------------ creation
     @classmethod
@@ -83,9 +85,10 @@ class Session:
         """Open a project file; raises ProjectFileError (nothing is opened) if it is unusable."""
         p = Path(path).expanduser().resolve()
         seen = fingerprint(p)  # before reading: a change after this counts as a change
-        project = load_project(p)
+        notes: list[str] = []
+        project = load_project(p, notes=notes)
         clean_stray_temp_files(p)  # what an interrupted save of this project left
-        s = cls(project=project, path=p, origin="file", disk=seen)
+        s = cls(project=project, path=p, origin="file", disk=seen, notes=notes)
         s.baseline = s.text()
         return s
 

@@ -383,3 +383,21 @@ def test_ui_start_imports_neither_pvlib_nor_pandas():
                          timeout=120, cwd=root, env=env)
     assert out.returncode == 0, out.stderr
     assert out.stdout.strip().splitlines()[-1] == "[]"
+
+
+async def test_opening_a_schema_1_file_tells_its_orphaned_cable_length(state, tmp_path):
+    # Issue 14: a schema-1 [wiring.dc_load_runs_m] entry naming no load is told on opening.
+    from offgrid.project.store import project_to_dict
+    from offgrid.project.toml_out import dumps
+
+    body = project_to_dict(load_project(demo_project_path()))
+    body["schema"] = 1
+    body["wiring"]["dc_load_runs_m"] = {body["loads"][0]["name"]: 30.0, "Old radio": 25.0}
+    path = tmp_path / "old.toml"
+    path.write_text(dumps(body))
+    app = make_app(path=path, state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        assert app.session.project.loads[0].run_m == 30.0
+        told = [n.message for n in app._notifications]
+        assert any("Old radio" in m and "dropped" in m for m in told), told

@@ -516,7 +516,9 @@ async def test_wires_show_both_currents(state):
         assert "operating current" in screen_text(app)
 
 
-async def test_wires_dc_load_length_is_kept_by_load_name(state):
+async def test_wires_dc_load_length_stays_with_the_load_when_it_is_renamed(state):
+    # Loads own their cables (issue 14): Wires edits the run's own project path
+    # (WireChoice.length_path, loads[N].run_m); renaming the load on Loads keeps it.
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
@@ -524,12 +526,28 @@ async def test_wires_dc_load_length_is_kept_by_load_name(state):
         await pilot.pause()
         runs = app.session.design.electrical.wires
         row = next(i for i, r in enumerate(runs) if r.key == "load1")
+        assert runs[row].length_path == "loads[1].run_m"
         table = app.work.current.table
         table.move_cursor(row=row, column=3)
         await pilot.press("enter")
         await type_into(pilot, "25")
-        name = app.session.project.loads[0].name
-        assert app.session.project.wiring.dc_load_runs_m == {name: 25.0}
+        assert app.session.project.loads[0].run_m == 25.0
+        await pilot.press("2")
+        await pilot.pause()
+        app.work.current.table.move_cursor(row=0, column=0)
+        await pilot.press("enter")
+        await type_into(pilot, "Renamed lights")
+        assert app.session.project.loads[0].name == "Renamed lights"
+        assert app.session.project.loads[0].run_m == 25.0
+        await pilot.press("5")
+        await pilot.pause()
+        wire = next(r for r in app.session.design.electrical.wires if r.key == "load1")
+        assert wire.length_m == 25.0 and "Renamed lights" in wire.run
+        row_text = next(ln for ln in screen_text(app).splitlines() if "Renamed ligh" in ln)
+        assert " 25.0 " in row_text  # the name is clipped to the column at 80 columns
+        app.work.current.table.move_cursor(row=row, column=3)
+        await pilot.pause()
+        assert "loads[1].run_m" in app.work.current.figure().extra  # why: the field it sets
 
 
 # ----------------------------------------------------------------------------- cautions

@@ -1,7 +1,9 @@
 """Section 5, Wires: the cable runs with their size, voltage drop and protection.
 
 The runs come from the electrical design (``SystemDesign.electrical``).  The
-one-way length of each run is edited in place (Enter on its length); the cable
+one-way length of each run is edited in place (Enter on its length), at the project path
+the run carries (``WireChoice.length_path``: ``wiring.array_run_m``, a DC load's own
+``loads[N].run_m``); the cable
 settings (sizes in mm2 or AWG, material, insulation...) are in the table below.
 Without an electrical design the section shows the main DC figures of the sizing.
 """
@@ -15,7 +17,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
-from offgrid.project.model import Project
+from offgrid.project.model import RUN_LENGTH_RANGE_M
 from offgrid.result import SystemDesign
 from offgrid.tui.fields import Field, parse_number
 from offgrid.tui.keys import focus_now
@@ -27,10 +29,7 @@ from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 from offgrid.tui.widgets.steady import SteadyTable
 
-RUN_LENGTH_FIELD = {"string": "wiring.string_run_m", "array": "wiring.array_run_m",
-                    "charge": "wiring.controller_battery_m",
-                    "inverter": "wiring.battery_inverter_m"}
-LENGTH_LIMITS_M = (0.1, 1000.0)
+LENGTH_LIMITS_M = RUN_LENGTH_RANGE_M
 
 WIRING_FIELDS: tuple[Field | str, ...] = (
     "Cable settings",
@@ -207,15 +206,6 @@ class WiresSection(Section):
                               column=min(keep.column, len(table.columns) - 1), animate=False)
 
     # ------------------------------------------------------------------ editing
-    def _length_target(self, run) -> tuple[str, str | None]:
-        """(label, field path) of a run's length; a DC load's path names the load."""
-        key = getattr(run, "key", "")
-        if key in RUN_LENGTH_FIELD:
-            return run.run, RUN_LENGTH_FIELD[key]
-        if key.startswith("load") and key[4:].isdigit():
-            return run.run, f"load:{int(key[4:])}"
-        return getattr(run, "run", "run"), None
-
     def on_data_table_cell_selected(self, event: DataTable.CellSelected) -> None:
         if event.data_table is not self.table:
             return
@@ -228,26 +218,18 @@ class WiresSection(Section):
         if column != "length_m":
             self.work.action_why()
             return
-        label, target = self._length_target(run)
-        if target is None:
+        label, target = run.run, run.length_path
+        if not target:
             self.app.notify("This run's length cannot be set here.", timeout=3)
             return
+
         def apply(typed: str) -> str | None:
             try:
                 value = parse_number(typed, "m", "one-way length in metres")
                 lo, hi = LENGTH_LIMITS_M
                 if not lo <= value <= hi:
                     return f"{value:g} m is out of range; one-way length {lo:g}-{hi:g} m"
-                if target.startswith("load:"):
-                    index = int(target[5:]) - 1
-
-                    def put(p: Project) -> None:
-                        p.wiring.dc_load_runs_m = {**p.wiring.dc_load_runs_m,
-                                                   p.loads[index].name: value}
-
-                    self.session.change(put, focus="wiring.dc_load_runs_m")
-                else:
-                    self.session.set_value(target, value)
+                self.session.set_value(target, value)
             except EditRejected as exc:
                 return self.problems_text(exc)
             except ValueError as exc:
@@ -338,7 +320,7 @@ class WiresSection(Section):
             if column == "length_m":
                 return Figure(f"Length of {run.run}", f"{run.length_m:g} m", None,
                               extra="A one-way length you typed (or the default); Enter "
-                                    "changes it.")
+                                    f"changes it (project field {run.length_path}).")
             what = REASON_OF_COLUMN.get(column, "size")
             value = getattr(run, column, "")
             shown = f"{value:.2f}" if isinstance(value, float) else str(value)
