@@ -30,6 +30,31 @@ class TextFileError(ValueError):
     """A text file cannot be read; the message says why and what to do (the path is not in it)."""
 
 
+def open_regular(path: str | os.PathLike, max_bytes: int | None = None):
+    """Open a regular file for reading in binary, for a streaming reader.
+
+    A folder, FIFO, device or socket is refused with :class:`TextFileError` (never
+    opened in a way that blocks); so is a file over ``max_bytes`` when given.
+    """
+    p = Path(path)
+    info = p.stat()  # follows links; never blocks, even on a FIFO
+    if stat.S_ISDIR(info.st_mode):
+        raise TextFileError("is a folder, not a file: give the path of the file itself")
+    if not stat.S_ISREG(info.st_mode):
+        raise TextFileError(f"is not a regular file (it is {_kind(info.st_mode)}): give "
+                            "the path of a saved text file")
+    if max_bytes is not None and info.st_size > max_bytes:
+        raise TextFileError(f"is {info.st_size / 1e6:.0f} MB, far larger than this kind of "
+                            "file: check that it is the right file")
+    # O_NONBLOCK: if the path was swapped for a FIFO since stat, open does not wait
+    fd = os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    fh = os.fdopen(fd, "rb")
+    if not stat.S_ISREG(os.fstat(fh.fileno()).st_mode):
+        fh.close()
+        raise TextFileError("is not a regular file: give the path of a saved text file")
+    return fh
+
+
 def read_text(path: str | os.PathLike, max_bytes: int = MAX_TEXT_BYTES) -> str:
     """The file's text, decoded as UTF-8 (a leading byte-order mark is kept).
 
@@ -39,20 +64,7 @@ def read_text(path: str | os.PathLike, max_bytes: int = MAX_TEXT_BYTES) -> str:
     """
     p = Path(path)
     try:
-        info = p.stat()  # follows links; never blocks, even on a FIFO
-        if stat.S_ISDIR(info.st_mode):
-            raise TextFileError("is a folder, not a file: give the path of the file itself")
-        if not stat.S_ISREG(info.st_mode):
-            raise TextFileError(f"is not a regular file (it is {_kind(info.st_mode)}): give "
-                                "the path of a saved text file")
-        if info.st_size > max_bytes:
-            raise TextFileError(f"is {info.st_size / 1e6:.0f} MB, far larger than this kind of "
-                                "file: check that it is the right file")
-        # O_NONBLOCK: if the path was swapped for a FIFO since stat, open does not wait
-        fd = os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
-        with os.fdopen(fd, "rb") as fh:
-            if not stat.S_ISREG(os.fstat(fh.fileno()).st_mode):
-                raise TextFileError("is not a regular file: give the path of a saved text file")
+        with open_regular(p, max_bytes) as fh:
             data = fh.read(max_bytes + 1)
         if len(data) > max_bytes:
             raise TextFileError(f"is larger than {max_bytes / 1e6:.0f} MB, far larger than this "

@@ -50,7 +50,7 @@ def test_winter_limited_site_tilts_steeper_than_the_annual_optimum():
     assert 25.0 < c.annual_tilt_deg < 36.1
     assert c.worst_month_gain_pct > 0 and c.annual_loss_pct > 0
     assert c.annual_kwh_m2 < c.annual_best_kwh_m2
-    assert "worst month" in describe_tilt(c)
+    assert "least sun on the array for its demand" in describe_tilt(c)
 
 
 def test_summer_only_demand_tilts_flatter():

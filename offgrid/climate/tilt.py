@@ -157,10 +157,12 @@ def describe_tilt(choice: TiltChoice) -> str:
     month = MONTH_NAMES[choice.design_month - 1]
     held = " (held at the self-cleaning minimum)" if choice.at_minimum else ""
     return (
-        f"tilt {choice.tilt_deg:.1f} deg{held} serves the worst month ({month}) best; "
-        f"the best annual tilt is {choice.annual_tilt_deg:.1f} deg "
-        f"({choice.difference_deg:+.1f} deg): {choice.worst_month_gain_pct:.1f} % more in "
-        f"the worst month for {choice.annual_loss_pct:.1f} % less over the year"
+        f"tilt {choice.tilt_deg:.1f} deg{held} serves best the month with the least sun "
+        f"on the array for its demand ({month}); the best annual tilt is "
+        f"{choice.annual_tilt_deg:.1f} deg ({choice.difference_deg:+.1f} deg): "
+        f"{choice.worst_month_gain_pct:.1f} % more in that month for "
+        f"{choice.annual_loss_pct:.1f} % less over the year (the design month, with each "
+        "month's own derates, can differ)"
     )
 
 
@@ -171,7 +173,7 @@ def tilt_reason_inputs(choice: TiltChoice) -> dict[str, str]:
     return {
         "azimuth": fmt(choice.azimuth_deg, "deg"),
         "self-cleaning minimum": fmt(choice.min_tilt_deg, "deg"),
-        "worst month": MONTH_NAMES[choice.design_month - 1],
+        "least sun for the demand": MONTH_NAMES[choice.design_month - 1],
         "best annual tilt": fmt(choice.annual_tilt_deg, "deg"),
         "difference": fmt(choice.difference_deg, "deg"),
         "worst-month gain": fmt(choice.worst_month_gain_pct, "%"),

@@ -251,9 +251,12 @@ def load_programme(path: str | Path) -> Programme:
 def is_programme_file(path: str | Path) -> bool:
     """True when the CSV's first settings row is ``programme`` or its header has a
     latitude column (a community survey has neither)."""
-    try:
-        with open(path, encoding="utf-8-sig", errors="replace") as fh:
-            for raw in fh:
+    from offgrid.textfile import TextFileError, open_regular
+
+    try:  # a regular file only (a FIFO or /dev/zero would never end), its head only
+        with open_regular(path) as raw_fh:
+            head = raw_fh.read(_HEAD_BYTES).decode("utf-8-sig", errors="replace")
+            for raw in head.splitlines():
                 cells = [c.strip().lower() for c in raw.split(",")]
                 if not cells[0] or cells[0].startswith("#"):
                     continue
@@ -261,9 +264,13 @@ def is_programme_file(path: str | Path) -> bool:
                     return True
                 if cells[0] == "id":
                     return any(ALIASES.get(c, c) == "latitude_deg" for c in cells)
-    except OSError:
+    except (OSError, TextFileError):
         return False
     return False
+
+
+#: How much of a CSV's start :func:`is_programme_file` looks at for its settings and header.
+_HEAD_BYTES = 65_536
 
 
 def read_combined_survey(path: Path, villages: dict[str, Village],
@@ -282,8 +289,14 @@ def read_combined_survey(path: Path, villages: dict[str, Village],
     header: list[str] | None = None
     vcol = -1
     unknown: dict[str, list[int]] = {}
-    try:
-        fh = open(path, encoding="utf-8-sig", newline="")  # noqa: SIM115 (closed below)
+    import io
+
+    from offgrid.textfile import TextFileError, open_regular
+
+    try:  # streamed: a regular file only, never a FIFO or a device
+        fh = io.TextIOWrapper(open_regular(path), encoding="utf-8-sig", newline="")
+    except TextFileError as exc:
+        return {}, [ProgrammeProblem(src, 0, "", "survey", f"{path} {exc}")]
     except OSError as exc:
         return {}, [ProgrammeProblem(src, 0, "", "survey", f"cannot read {path}: "
                                      f"{exc.strerror}")]
