@@ -23,7 +23,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.climate import sky
-from offgrid.pv import DiodeParams, cell_temperature_noct, module_current, module_mpp
+from offgrid.pv import DiodeParams, cell_temperature_ross, module_current, module_mpp
 
 PROFILE_STEPS = 48
 
@@ -100,7 +100,7 @@ def harvest_wh_day(params: DiodeParams, irradiance_w_m2, step_h, ambient_c, noct
     ``irradiance_w_m2`` is (12, steps), ``step_h`` and ``ambient_c`` have 12 values.
     """
     g = np.asarray(irradiance_w_m2, dtype=float) * h.soiling
-    tc = cell_temperature_noct(np.asarray(ambient_c, dtype=float)[:, None], g, noct_c)
+    tc = cell_temperature_ross(np.asarray(ambient_c, dtype=float)[:, None], g, noct_c)
     dt = np.asarray(step_h, dtype=float)[:, None]
     n = h.strings_per_controller
 

@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from offgrid.climate import clearsky, sky
-from offgrid.climate.poa import poa_monthly
+from offgrid.climate.poa import poa_monthly, poa_monthly_liu_jordan
 
 # Duffie & Beckman, Solar Engineering of Thermal Processes, 4th ed. (2013), Example 2.19.1:
 # a south-facing surface at 60 deg in Madison, latitude 43 N, isotropic (Liu-Jordan) monthly
@@ -36,7 +36,7 @@ def test_duffie_beckman_example_2_19_1_snow_month_reflectance():
 
 
 def test_liu_jordan_helper_takes_twelve_reflectances():
-    out = sky.poa_monthly_liu_jordan(MADISON_H_MJ / MJ_PER_KWH, 43.0, 60.0, 180.0, MADISON_RHO)
+    out = poa_monthly_liu_jordan(MADISON_H_MJ / MJ_PER_KWH, 43.0, 60.0, 180.0, MADISON_RHO)
     np.testing.assert_allclose(out["poa"] * MJ_PER_KWH, MADISON_HT_MJ, rtol=0.015)
 
 

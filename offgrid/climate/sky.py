@@ -1,4 +1,4 @@
-"""Sun geometry on the mean day of each month, and monthly plane-of-array insolation.
+"""Sun geometry on the mean day of each month, clearness and the monthly diffuse fraction.
 
 All functions are vectorised over months (arrays of 12).  Angles in degrees at
 the interface, radians inside.
@@ -8,7 +8,8 @@ References
 .. [1] Duffie, J. A. and Beckman, W. A., Solar Engineering of Thermal Processes,
    4th ed., Wiley, 2013: eq. 1.6.1a (Cooper declination), 1.10.3 (monthly mean
    daily extraterrestrial radiation), table 1.6.1 (Klein's mean days),
-   sec. 2.19 (Liu and Jordan isotropic monthly transposition with Klein's Rb).
+   sec. 2.19 (Klein's Rb; the Liu and Jordan monthly transposition itself is
+   :func:`offgrid.climate.poa.poa_monthly_liu_jordan`).
 .. [2] Klein, S. A., "Calculation of monthly average insolation on tilted
    surfaces", Solar Energy 19 (1977) 325-329.
 .. [3] Erbs, D. G., Klein, S. A. and Duffie, J. A., "Estimation of the diffuse
@@ -186,30 +187,6 @@ def beam_ratio_rb(latitude_deg, tilt_deg, azimuth_deg, day_of_year=KLEIN_MEAN_DA
     num = np.where(up, np.maximum(cos_t, 0.0), 0.0).sum(axis=1)
     den = np.where(up, cos_z, 0.0).sum(axis=1)
     return np.divide(num, den, out=np.zeros_like(num), where=den > 1e-9)
-
-
-def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg, tilt_deg, azimuth_deg,
-                           albedo=DEFAULT_ALBEDO):
-    """Monthly mean daily plane-of-array insolation [kWh/m2/day].
-
-    Liu and Jordan (1962) isotropic-sky transposition of monthly means with
-    Klein's (1977) Rb and the Erbs et al. (1982) monthly diffuse fraction
-    (Duffie & Beckman sec. 2.19):
-
-        HT = H (1 - Hd/H) Rb + Hd (1 + cos b) / 2 + H rho (1 - cos b) / 2
-
-    ``albedo`` is one reflectance or twelve (snow months).  Returns a dict with
-    ``poa``, ``kt``, ``diffuse_fraction``, ``rb`` (arrays of 12).
-    """
-    h = np.asarray(insolation_kwh_m2_day, dtype=float)
-    albedo = monthly_albedo(albedo)
-    ws = sunset_hour_angle(latitude_deg, declination_cooper69(KLEIN_MEAN_DAY))
-    kt = clearness_index(h, latitude_deg)
-    fd = erbs_monthly_diffuse_fraction(kt, ws)
-    rb = beam_ratio_rb(latitude_deg, tilt_deg, azimuth_deg)
-    b = np.radians(tilt_deg)
-    poa = h * (1 - fd) * rb + h * fd * (1 + np.cos(b)) / 2 + h * albedo * (1 - np.cos(b)) / 2
-    return {"poa": poa, "kt": kt, "diffuse_fraction": fd, "rb": rb}
 
 
 def daylight_hours(latitude_deg, day_of_year=KLEIN_MEAN_DAY):
