@@ -28,8 +28,9 @@ from offgrid.battery import CHEMISTRIES, capacity_temperature_factor, units_in_s
 from offgrid.cautions import DEFERS_TO_CODE  # noqa: F401  (re-exported)
 from offgrid.climate import sky
 from offgrid.climate.files import ClimateFileError, load_climate
+from offgrid.climate.model import MonthlyClimate
 from offgrid.loads import analyse_loads
-from offgrid.project.model import MonthlyClimate, Project
+from offgrid.project.model import Project
 from offgrid.pv import cell_temperature_ross
 from offgrid.result import (
     ArrayResult,

@@ -19,8 +19,9 @@ import time
 
 import pytest
 
+from offgrid.project.atomic import atomic_write_text
 from offgrid.project.model import Load
-from offgrid.project.store import atomic_write_text, dumps_project, load_project, save_project
+from offgrid.project.store import dumps_project, load_project, save_project
 from tests.conftest import hand_project
 
 KILLS = 60

@@ -111,7 +111,7 @@ def run(args: argparse.Namespace) -> int:
 
 def write_report(plan, path: Path) -> None:
     from offgrid.plan.text import markdown_report, rows_csv
-    from offgrid.project.store import atomic_write_text
+    from offgrid.project.atomic import atomic_write_text
 
     suffix = path.suffix.lower()
     if suffix == ".md":

@@ -18,8 +18,9 @@ from typing import Any
 import numpy as np
 
 from offgrid.cautions import DEFERS_TO_CODE
+from offgrid.climate.model import MonthlyClimate
 from offgrid.project.loads_csv import format_months
-from offgrid.project.model import MonthlyClimate, Project
+from offgrid.project.model import Project
 from offgrid.report import charts
 from offgrid.report.bom import (
     BomLine,
