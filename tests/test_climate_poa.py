@@ -177,6 +177,7 @@ def test_one_liu_jordan_function_behind_the_sizing_and_the_helper():
     from offgrid.climate import poa, sky
 
     assert not hasattr(sky, "poa_monthly_liu_jordan")
+    assert not hasattr(sky, "beam_ratio_rb")  # one Klein Rb: poa.beam_ratio_rb_klein
     h = [2.4, 3.1, 4.3, 5.4, 5.6, 6.3, 6.1, 5.6, 4.4, 3.6, 2.4, 2.2]
     for tilt in (36.0, np.array([0.0, 20.0, 45.0, 90.0])):
         full = poa.poa_monthly(h, 36.1, tilt, 200.0, 0.25, cap=False)

@@ -38,7 +38,7 @@ import numpy as np
 
 from offgrid.climate import sky
 
-_DAY_STEPS = 721  # hour-angle steps across one day, as in sky.beam_ratio_rb
+_DAY_STEPS = 721  # hour-angle steps across one day for the numerical Rb
 
 
 def check_site_angles(latitude_deg: float, tilt_deg=None, azimuth_deg=None) -> None:
@@ -82,8 +82,11 @@ def _sun_terms(latitude_deg: float, azimuth_deg: float):
 def beam_ratio_rb_klein(latitude_deg: float, tilt_deg, azimuth_deg: float):
     """Klein's (1977) monthly beam ratio Rb for one or many tilts [-].
 
-    Numerical day integral of max(cos theta, 0) over the integral of cos z
-    while the sun is up; equals :func:`offgrid.climate.sky.beam_ratio_rb`.
+    Klein defines Rb on the mean day as the ratio of the day's integrals of
+    cos(incidence) (clipped at zero, sun above the horizon) to cos(zenith).  We
+    integrate numerically over the hour angle, which handles any azimuth and both
+    hemispheres; for an equator-facing plane it equals Klein's closed form
+    (Duffie & Beckman eq. 2.19.3).
     ``tilt_deg`` of shape (T,) gives (T, 12); a scalar gives (12,).
     """
     tilt = np.asarray(tilt_deg, dtype=float)
