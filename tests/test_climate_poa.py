@@ -189,3 +189,27 @@ def test_one_liu_jordan_function_behind_the_sizing_and_the_helper():
         np.testing.assert_array_equal(full.rb, one["rb"])
         np.testing.assert_array_equal(full.kt, one["kt"])
         np.testing.assert_array_equal(full.diffuse_fraction, one["diffuse_fraction"])
+
+
+def test_isotropic_sky_parts_match_pvlib():
+    # Reference library: pvlib.irradiance.isotropic (Liu & Jordan 1960 isotropic sky) and
+    # pvlib.irradiance.get_ground_diffuse (isotropic ground), pvlib 0.16.
+    irradiance = pytest.importorskip("pvlib.irradiance")
+    from offgrid.climate import poa
+
+    tilt = np.array([0.0, 15.0, 37.5, 60.0, 90.0])
+    dhi, ghi = np.array([80.0, 120.0, 200.0, 310.0, 95.0]), np.array([300, 650, 900, 1000, 410])
+    np.testing.assert_allclose(poa.sky_diffuse_isotropic(tilt, dhi),
+                               irradiance.isotropic(tilt, dhi), rtol=1e-12)
+    np.testing.assert_allclose(poa.ground_reflected_isotropic(tilt, ghi, 0.25),
+                               irradiance.get_ground_diffuse(tilt, ghi, albedo=0.25),
+                               rtol=1e-12, atol=1e-12)
+
+
+def test_one_isotropic_sky_behind_the_monthly_hourly_and_clear_sky_planes():
+    from offgrid import harvest
+    from offgrid.climate import clearsky, poa
+
+    for module in (harvest, clearsky):
+        assert module.sky_diffuse_isotropic is poa.sky_diffuse_isotropic
+        assert module.ground_reflected_isotropic is poa.ground_reflected_isotropic

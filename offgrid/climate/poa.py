@@ -27,6 +27,9 @@ References
 .. [3] Erbs, D. G., Klein, S. A. and Duffie, J. A., Solar Energy 28 (1982) 293-302.
 .. [4] Liu, B. Y. H. and Jordan, R. C., "Daily insolation on surfaces tilted
    towards the equator", ASHRAE Journal 3(10) (1962) 53-59.
+.. [5] Liu, B. Y. H. and Jordan, R. C., "The interrelationship and characteristic
+   distribution of direct, diffuse and total solar radiation", Solar Energy 4(3)
+   (1960) 1-19.
 """
 
 from __future__ import annotations
@@ -159,6 +162,47 @@ class MonthlyPoa:
     albedo: np.ndarray | None = None
 
 
+def sky_diffuse_isotropic(tilt_deg, dhi):
+    """Sky diffuse on a tilted plane under an isotropic sky [4]_ [5]_: DHI (1 + cos b) / 2.
+
+    Parameters
+    ----------
+    tilt_deg : float or array
+        Plane tilt b from horizontal [deg].
+    dhi : float or array
+        Diffuse horizontal irradiance [W/m2] or insolation [kWh/m2/day]; broadcast
+        against ``tilt_deg``.
+
+    Returns
+    -------
+    numpy.ndarray
+        Sky diffuse on the plane, in the unit of ``dhi``.  Same as
+        ``pvlib.irradiance.isotropic``.
+    """
+    return dhi * (1 + np.cos(np.radians(tilt_deg))) / 2
+
+
+def ground_reflected_isotropic(tilt_deg, ghi, albedo):
+    """Ground-reflected light on a tilted plane, isotropic ground [1]_: GHI rho (1 - cos b) / 2.
+
+    Parameters
+    ----------
+    tilt_deg : float or array
+        Plane tilt b from horizontal [deg].
+    ghi : float or array
+        Global horizontal irradiance [W/m2] or insolation [kWh/m2/day].
+    albedo : float or array
+        Ground reflectance rho [-]; broadcast against ``ghi`` and ``tilt_deg``.
+
+    Returns
+    -------
+    numpy.ndarray
+        Reflected light on the plane, in the unit of ``ghi``.  Same as
+        ``pvlib.irradiance.get_ground_diffuse``.
+    """
+    return ghi * albedo * (1 - np.cos(np.radians(tilt_deg))) / 2
+
+
 def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg: float, tilt_deg,
                            azimuth_deg: float, albedo=sky.DEFAULT_ALBEDO) -> dict:
     """Liu and Jordan isotropic transposition of monthly means [1]_ [2]_ [3]_ [4]_.
@@ -198,10 +242,10 @@ def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg: float, tilt_deg,
     fd = sky.erbs_monthly_diffuse_fraction(kt, ws)
     rb = beam_ratio_rb_klein(latitude_deg, tilt_deg, azimuth_deg)
     tilt = np.asarray(tilt_deg, dtype=float)
-    b = np.radians(tilt)[..., None] if tilt.ndim else np.radians(tilt)
+    t = tilt[..., None] if tilt.ndim else tilt  # (T, 1) against the months
     beam = h * (1 - fd) * rb
-    diffuse = h * fd * (1 + np.cos(b)) / 2 + 0 * rb
-    reflected = h * rho * (1 - np.cos(b)) / 2 + 0 * rb
+    diffuse = sky_diffuse_isotropic(t, h * fd) + 0 * rb
+    reflected = ground_reflected_isotropic(t, h, rho) + 0 * rb
     return {"poa": beam + diffuse + reflected, "beam": beam, "diffuse": diffuse,
             "reflected": reflected, "rb": rb, "kt": kt, "diffuse_fraction": fd}
 
