@@ -180,6 +180,22 @@ def test_one_ross_function_behind_sizing_harvest_and_electrical():
     assert electrical.cell_temperature_ross is pv.cell_temperature_ross
 
 
+def test_the_sizing_figure_is_the_one_ross_function():
+    # The design's monthly cell temperature (array.cell_temp_c) is exactly the one function
+    # at the day's air temperature and the energy-weighted irradiance of the month.
+    from offgrid.climate import sky
+    from offgrid.paths import demo_project_path
+    from offgrid.project.store import load_project
+    from offgrid.sizing import design, energy_weighted_irradiance
+
+    project = load_project(demo_project_path())
+    d = design(project, demo_project_path().parent)
+    g = energy_weighted_irradiance(np.asarray(d.site.poa_kwh_m2_day),
+                                   sky.daylight_hours(d.site.latitude_deg))
+    expect = pv.cell_temperature_ross(d.site.temp_day_c, g, project.module.noct_c)
+    np.testing.assert_array_equal(np.asarray(d.array.cell_temp_c), expect)
+
+
 def test_dark_gives_zero_power_and_current():
     p = pv.fit_module(ModuleSpec())
     v, i, pw = pv.module_mpp(p, np.array([0.0, 0.0]), np.array([10.0, 30.0]))
