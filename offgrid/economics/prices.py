@@ -19,11 +19,14 @@ import csv
 import io
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-from offgrid.economics.bom import BomLine
 from offgrid.numbers import MAX_PRICE, PRICE_RANGE, NumberError, read_number
 from offgrid.project.model import PriceItem
 from offgrid.safetext import csv_cell, csv_uncell, printable
+
+if TYPE_CHECKING:
+    from offgrid.economics.bom import BomLine
 
 
 class PriceListError(ValueError):
