@@ -23,12 +23,12 @@ def median_s(fn, runs: int = 5) -> float:
 
 
 def main() -> None:
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.economics.costs import lifecycle_cost
+    from offgrid.economics.variants import compare_variants
     from offgrid.paths import demo_project_path
     from offgrid.project.model import Variant
     from offgrid.project.store import load_project
-    from offgrid.report.bom import bill_of_materials
-    from offgrid.report.costs import lifecycle_cost
-    from offgrid.report.variants import compare_variants
     from offgrid.simulate.run import simulate_project
     from offgrid.sizing import design
 

@@ -21,7 +21,7 @@ from offgrid.pv import (
     DiodeParams,
     IVCurve,
     OperatingPoint,
-    cell_temperature_noct,
+    cell_temperature_ross,
     fit_module,
     iv_curve,
     module_current,
@@ -218,7 +218,7 @@ def string_limits(project, temp_day_c, record_low_c: float, absorption_v: float,
         params = fit_module(module)
     voc_cold, rule = st.voc_cold_v(module.voc_v, module.beta_voc_pct_per_c, record_low_c)
     t_max = float(np.max(np.asarray(temp_day_c, dtype=float)))
-    hot_tc = float(cell_temperature_noct(t_max, HOT_IRRADIANCE_W_M2, module.noct_c))
+    hot_tc = float(cell_temperature_ross(t_max, HOT_IRRADIANCE_W_M2, module.noct_c))
     vmp_hot = float(module_mpp(params, HOT_IRRADIANCE_W_M2, hot_tc)[0])
     pwm_drop = project.choices.drop_limit_array_pct / 100.0 * absorption_v
     window = st.string_window(project.controller.type, float(project.controller.max_pv_voltage_v),
@@ -303,7 +303,7 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     if not g_noon > 0:
         raise DesignError("no-sun", "The design month has no sunshine on the array: check the "
                           "climate data and the array tilt.", field="climate")
-    tc_noon = float(cell_temperature_noct(temp_day[m], g_noon, module.noct_c))
+    tc_noon = float(cell_temperature_ross(temp_day[m], g_noon, module.noct_c))
     curve = iv_curve(params, g_noon, tc_noon, module.area_m2)
     mpp = curve.point
     src_noon = ("De Soto (2006) model at the design month's solar-noon irradiance "

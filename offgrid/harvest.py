@@ -23,8 +23,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.climate import sky
+from offgrid.climate.poa import ground_reflected_isotropic, sky_diffuse_isotropic
 from offgrid.memo import memoised
-from offgrid.pv import DiodeParams, cell_temperature_noct, module_current, module_mpp
+from offgrid.pv import DiodeParams, cell_temperature_ross, module_current, module_mpp
 
 PROFILE_STEPS = 48
 
@@ -75,7 +76,8 @@ def daily_poa_profile(horizontal_kwh_m2_day, poa_kwh_m2_day, latitude_deg: float
              + np.cos(d) * np.sin(beta) * np.sin(gamma) * np.sin(w))
     rb = np.where(cos_z > 1e-6, np.maximum(cos_t, 0.0) / np.where(cos_z > 1e-6, cos_z, 1.0), 0.0)
     rho = sky.monthly_albedo(albedo)[:, None]  # one value or twelve; None: 0.2
-    g = beam * rb + diff * (1 + np.cos(beta)) / 2 + glob * rho * (1 - np.cos(beta)) / 2
+    g = (beam * rb + sky_diffuse_isotropic(tilt_deg, diff)
+         + ground_reflected_isotropic(tilt_deg, glob, rho))
     total = (g * step_h[:, None]).sum(axis=1) / 1000.0
     scale = np.divide(target, total, out=np.zeros_like(target), where=total > 1e-9)
     return g * scale[:, None], step_h
@@ -102,7 +104,7 @@ def harvest_wh_day(params: DiodeParams, irradiance_w_m2, step_h, ambient_c, noct
     ``irradiance_w_m2`` is (12, steps), ``step_h`` and ``ambient_c`` have 12 values.
     """
     g = np.asarray(irradiance_w_m2, dtype=float) * h.soiling
-    tc = cell_temperature_noct(np.asarray(ambient_c, dtype=float)[:, None], g, noct_c)
+    tc = cell_temperature_ross(np.asarray(ambient_c, dtype=float)[:, None], g, noct_c)
     dt = np.asarray(step_h, dtype=float)[:, None]
     n = h.strings_per_controller
 

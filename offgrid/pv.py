@@ -424,14 +424,40 @@ def max_power_point(il, i0, rs, rsh, a, tol_v=1e-10, max_iter=100):
     return v, i, p
 
 
-def cell_temperature_noct(ambient_c, irradiance_w_m2, noct_c):
-    """Cell temperature [C] by the NOCT method: Ta + (NOCT - 20) G / 800.
+def cell_temperature_ross(ambient_c, irradiance_w_m2, noct_c):
+    r"""Cell temperature from Ross's model in its NOCT form [1]_ [2]_.
 
-    Duffie & Beckman, Solar Engineering of Thermal Processes, 4th ed., eq.
-    23.3.3 without the efficiency term (NOCT: 800 W/m2, 20 C air, 1 m/s wind).
+    .. math:: T_c = T_a + \frac{NOCT - 20}{800} G
+
+    The rise over the air is proportional to the irradiance on the plane, with
+    the constant k = (NOCT - 20 C) / 800 W/m2 fixed by the nominal operating cell
+    temperature (800 W/m2, 20 C air, 1 m/s wind, open rack); the efficiency
+    term of [2]_ eq. 23.3.3 is left out.  Same as ``pvlib.temperature.ross``
+    with ``noct``.
+
+    Parameters
+    ----------
+    ambient_c : float or array
+        Air temperature [C].
+    irradiance_w_m2 : float or array
+        Irradiance on the plane of the array [W/m2]; broadcast against ``ambient_c``.
+    noct_c : float
+        Nominal operating cell temperature of the module [C].
+
+    Returns
+    -------
+    numpy.ndarray
+        Cell temperature [C].
+
+    References
+    ----------
+    .. [1] Ross, R. G., "Interface design considerations for terrestrial solar cell
+       modules", Proc. 12th IEEE Photovoltaic Specialists Conference, 1976, 801-806.
+    .. [2] Duffie, J. A. and Beckman, W. A., Solar Engineering of Thermal Processes,
+       4th ed., Wiley, 2013, eq. 23.3.3.
     """
-    return np.asarray(ambient_c, dtype=float) + (noct_c - 20.0) * np.asarray(
-        irradiance_w_m2, dtype=float) / 800.0
+    k = (noct_c - 20.0) / 800.0
+    return np.asarray(ambient_c, dtype=float) + k * np.asarray(irradiance_w_m2, dtype=float)
 
 
 @memoised

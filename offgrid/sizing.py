@@ -28,8 +28,10 @@ from offgrid.battery import CHEMISTRIES, capacity_temperature_factor, units_in_s
 from offgrid.cautions import DEFERS_TO_CODE  # noqa: F401  (re-exported)
 from offgrid.climate import sky
 from offgrid.climate.files import ClimateFileError, load_climate
+from offgrid.climate.model import MonthlyClimate
 from offgrid.loads import analyse_loads
-from offgrid.project.model import MonthlyClimate, Project
+from offgrid.project.model import Project
+from offgrid.pv import cell_temperature_ross
 from offgrid.result import (
     ArrayResult,
     BatteryResult,
@@ -201,16 +203,6 @@ def site_geometry(project: Project, climate: MonthlyClimate, book: ReasonBook,
     return float(tilt), float(azimuth), {"poa": res.poa_kwh_m2_day, "kt": res.kt,
                                          "diffuse_fraction": res.diffuse_fraction, "rb": res.rb,
                                          "horizon_factor": res.horizon_factor}
-
-
-def cell_temperature_ross(ambient_c, irradiance_w_m2, noct_c):
-    """Cell temperature [C] from the NOCT form of Ross's model: Ta + (NOCT - 20)/800 x G.
-
-    Ross, R. G., "Interface design considerations for terrestrial solar cell modules",
-    12th IEEE PVSC, 1976; the NOCT form as in Duffie & Beckman 4th ed. eq. 23.3.3.
-    """
-    return np.asarray(ambient_c, dtype=float) + (noct_c - 20.0) / 800.0 * np.asarray(
-        irradiance_w_m2, dtype=float)
 
 
 def energy_weighted_irradiance(poa_kwh_m2_day, daylight_h):

@@ -10,6 +10,8 @@ def test_engine_imports_no_ui():
     code = (
         "import sys\n"
         "import offgrid.sizing, offgrid.project.store, offgrid.summary\n"
+        "import offgrid.economics.bom, offgrid.economics.costs, offgrid.economics.prices\n"
+        "import offgrid.economics.variants\n"
         "from offgrid.paths import demo_project_path\n"
         "from offgrid.project.store import load_project\n"
         "offgrid.sizing.design(load_project(demo_project_path()))\n"

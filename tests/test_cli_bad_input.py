@@ -300,11 +300,10 @@ def test_load_csv_comma_that_cannot_be_read_without_doubt(tmp_path, capsys, cell
 
 def test_the_same_number_reader_everywhere():
     """'1,500' is refused by every reader of numbers; '0,5' is a decimal comma in all."""
-    from offgrid.plan.prices import PriceListError, read_prices_csv
+    from offgrid.economics.prices import PriceListError, read_price_csv
+    from offgrid.plan.prices import read_prices_csv
     from offgrid.plan.survey import convert_value
     from offgrid.project.loads_csv import LoadListError, read_loads_csv
-    from offgrid.report.costs import PriceListError as PartPriceError
-    from offgrid.report.costs import read_price_csv
     from offgrid.tui.fields import parse_number
 
     for reader in (parse_number, lambda t: convert_value(float, t)):
@@ -315,7 +314,7 @@ def test_the_same_number_reader_everywhere():
     with pytest.raises(LoadListError, match=r"write 1500 or 1\.5"):
         read_loads_csv('name,power_w,hours_per_day\nA,"1,500",1\n')
     assert read_price_csv('part,unit_price\nmodule,"0,5"\n')[0].unit_price == 0.5
-    with pytest.raises(PartPriceError, match=r"write 1500 or 1\.5"):
+    with pytest.raises(PriceListError, match=r"write 1500 or 1\.5"):
         read_price_csv('part,unit_price\nmodule,"1,500"\n')
     plan_head = "item,basis,unit_price,currency\n"
     assert read_prices_csv(plan_head + 'module,per_w,"0,5",USD\n').entries["module"][1] == 0.5
@@ -329,13 +328,12 @@ def test_price_too_large_or_not_finite_is_refused_with_its_range(tmp_path, capsy
     code, err = run(capsys, "variants", write(tmp_path, "p.toml", text), "--json")
     assert code == 2, err
     assert "].unit_price" in err and "Traceback" not in err, err
-    from offgrid.plan.prices import PriceListError as PlanPriceError
+    from offgrid.economics.prices import PriceListError, read_price_csv
     from offgrid.plan.prices import read_prices_csv
-    from offgrid.report.costs import PriceListError, read_price_csv
 
     with pytest.raises(PriceListError, match=r"1,000,000,000|not a finite"):
         read_price_csv(f"part,unit_price\nmodule,{price}\n")
-    with pytest.raises(PlanPriceError, match=r"1,000,000,000|not a finite"):
+    with pytest.raises(PriceListError, match=r"1,000,000,000|not a finite"):
         read_prices_csv(f"item,basis,unit_price,currency\nmodule,per_w,{price},USD\n")
 
 

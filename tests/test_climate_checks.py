@@ -22,7 +22,7 @@ from offgrid.climate.clearsky import (
     extraterrestrial_monthly_mean_kwh_m2,
 )
 from offgrid.climate.files import load_climate
-from offgrid.project.model import MonthlyClimate
+from offgrid.climate.model import MonthlyClimate
 
 # The monthly means of NREL's Greensboro TMY3 sample (pvlib data folder), as bundled.
 GREENSBORO = load_climate("greensboro-nc-tmy3")

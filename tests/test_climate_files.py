@@ -16,7 +16,7 @@ from offgrid.climate.files import (
     load_climate,
     save_climate,
 )
-from offgrid.project.model import DailyClimate, MonthlyClimate
+from offgrid.climate.model import DailyClimate, MonthlyClimate
 
 ROOT = Path(__file__).resolve().parents[1]
 

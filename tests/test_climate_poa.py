@@ -169,3 +169,47 @@ def test_bad_geometry_names_the_field():
         poa_monthly(h, 10.0, 30.0, 180.0, albedo=1.5)
     with pytest.raises(ValueError, match="12 monthly values"):
         poa_monthly([5.0] * 11, 10.0, 30.0, 180.0)
+
+
+def test_one_liu_jordan_function_behind_the_sizing_and_the_helper():
+    # One transposition: poa_monthly (sizing, tilt search, checks) without horizon or cap
+    # gives exactly the numbers of poa_monthly_liu_jordan, for one tilt and for many.
+    from offgrid.climate import poa, sky
+
+    assert not hasattr(sky, "poa_monthly_liu_jordan")
+    assert not hasattr(sky, "beam_ratio_rb")  # one Klein Rb: poa.beam_ratio_rb_klein
+    h = [2.4, 3.1, 4.3, 5.4, 5.6, 6.3, 6.1, 5.6, 4.4, 3.6, 2.4, 2.2]
+    for tilt in (36.0, np.array([0.0, 20.0, 45.0, 90.0])):
+        full = poa.poa_monthly(h, 36.1, tilt, 200.0, 0.25, cap=False)
+        one = poa.poa_monthly_liu_jordan(h, 36.1, tilt, 200.0, 0.25)
+        np.testing.assert_array_equal(full.poa_kwh_m2_day, one["poa"])
+        np.testing.assert_array_equal(full.beam_kwh_m2_day, one["beam"])
+        np.testing.assert_array_equal(full.diffuse_kwh_m2_day, one["diffuse"])
+        np.testing.assert_array_equal(full.reflected_kwh_m2_day, one["reflected"])
+        np.testing.assert_array_equal(full.rb, one["rb"])
+        np.testing.assert_array_equal(full.kt, one["kt"])
+        np.testing.assert_array_equal(full.diffuse_fraction, one["diffuse_fraction"])
+
+
+def test_isotropic_sky_parts_match_pvlib():
+    # Reference library: pvlib.irradiance.isotropic (Liu & Jordan 1960 isotropic sky) and
+    # pvlib.irradiance.get_ground_diffuse (isotropic ground), pvlib 0.16.
+    irradiance = pytest.importorskip("pvlib.irradiance")
+    from offgrid.climate import poa
+
+    tilt = np.array([0.0, 15.0, 37.5, 60.0, 90.0])
+    dhi, ghi = np.array([80.0, 120.0, 200.0, 310.0, 95.0]), np.array([300, 650, 900, 1000, 410])
+    np.testing.assert_allclose(poa.sky_diffuse_isotropic(tilt, dhi),
+                               irradiance.isotropic(tilt, dhi), rtol=1e-12)
+    np.testing.assert_allclose(poa.ground_reflected_isotropic(tilt, ghi, 0.25),
+                               irradiance.get_ground_diffuse(tilt, ghi, albedo=0.25),
+                               rtol=1e-12, atol=1e-12)
+
+
+def test_one_isotropic_sky_behind_the_monthly_hourly_and_clear_sky_planes():
+    from offgrid import harvest
+    from offgrid.climate import clearsky, poa
+
+    for module in (harvest, clearsky):
+        assert module.sky_diffuse_isotropic is poa.sky_diffuse_isotropic
+        assert module.ground_reflected_isotropic is poa.ground_reflected_isotropic

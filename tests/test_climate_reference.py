@@ -70,7 +70,7 @@ def test_vectorised_rb_equals_single_tilt_rb():
     tilts = np.array([0.0, 10.0, 33.3, 90.0])
     grid = beam_ratio_rb_klein(-23.0, tilts, 20.0)
     for i, t in enumerate(tilts):
-        np.testing.assert_allclose(grid[i], sky.beam_ratio_rb(-23.0, t, 20.0), rtol=1e-12)
+        np.testing.assert_allclose(grid[i], beam_ratio_rb_klein(-23.0, t, 20.0), rtol=1e-12)
 
 
 def test_monthly_mean_extraterrestrial_near_polar_night():

@@ -9,6 +9,7 @@ import pytest
 
 from offgrid import pv
 from offgrid.climate import sky
+from offgrid.climate.poa import poa_monthly_liu_jordan
 from offgrid.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
 from offgrid.paths import demo_project_path
 from offgrid.project.model import ModuleSpec
@@ -26,7 +27,7 @@ def _36_cell() -> ModuleSpec:
 
 def test_profile_integrates_to_the_monthly_poa():
     h = [5.6, 5.7, 5.5, 5.3, 5.0, 4.7, 4.9, 5.5, 6.2, 6.5, 6.0, 5.6]
-    poa = sky.poa_monthly_liu_jordan(h, -12.0, 15.0, 0.0)["poa"]
+    poa = poa_monthly_liu_jordan(h, -12.0, 15.0, 0.0)["poa"]
     g, dt = daily_poa_profile(h, poa, -12.0, 15.0, 0.0)
     np.testing.assert_allclose((g * dt[:, None]).sum(axis=1) / 1000.0, poa, rtol=1e-12)
     assert np.all(g >= 0)
@@ -62,7 +63,7 @@ def test_harvest_both_ways_matches_pvlib_without_cable_losses():
     # Reference: pvlib.pvsystem.singlediode (MPP) and i_from_v (PWM at battery voltage),
     # Lambert-W; ours: Bishop (1988) form, own Newton.  Same profile, same cell temperature.
     h = [5.6, 5.7, 5.5, 5.3, 5.0, 4.7, 4.9, 5.5, 6.2, 6.5, 6.0, 5.6]
-    poa = sky.poa_monthly_liu_jordan(h, -12.0, 15.0, 0.0)["poa"]
+    poa = poa_monthly_liu_jordan(h, -12.0, 15.0, 0.0)["poa"]
     g, dt = daily_poa_profile(h, poa, -12.0, 15.0, 0.0)
     amb = np.array([25.0, 25, 25, 24, 22, 20, 20, 22, 26, 28, 27, 25])
     params = pv.fit_module(ModuleSpec())

@@ -123,7 +123,7 @@ def test_bom_and_price_template_csv_neutralise_formulas(hostile, tmp_path, capsy
     code, out, err = run(capsys, "prices", str(hostile), "--template")
     assert code == 0, err
     assert "'@SUM(A1:A9)" in out
-    from offgrid.report.costs import read_price_csv
+    from offgrid.economics.prices import read_price_csv
 
     assert [p.note for p in read_price_csv(out) if p.part == "module"] == ["@SUM(A1:A9)"]
 

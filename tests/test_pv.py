@@ -149,11 +149,51 @@ def test_fill_factor_and_efficiency_at_stc():
     assert op.efficiency == pytest.approx(0.1840, abs=2e-4)
 
 
-def test_noct_cell_temperature_at_noct_conditions():
+def test_ross_cell_temperature_at_noct_conditions():
     # NOCT definition (IEC 61215: 800 W/m2, 20 C air): the cell is at NOCT.
-    assert float(pv.cell_temperature_noct(20.0, 800.0, 45.0)) == pytest.approx(45.0)
+    assert float(pv.cell_temperature_ross(20.0, 800.0, 45.0)) == pytest.approx(45.0)
     # Duffie & Beckman eq. 23.3.3 without the efficiency term: 30 + 25 x 1000/800 = 61.25 C.
-    assert float(pv.cell_temperature_noct(30.0, 1000.0, 45.0)) == pytest.approx(61.25)
+    assert float(pv.cell_temperature_ross(30.0, 1000.0, 45.0)) == pytest.approx(61.25)
+
+
+def test_ross_cell_temperature_matches_pvlib_ross_with_noct_k():
+    # Reference library: pvlib.temperature.ross (pvlib 0.16), Ross (1976) with the NOCT-derived
+    # k = (NOCT - 20) / 800 K m2/W; pvlib computes it from ``noct`` itself.
+    pvlib_temperature = pytest.importorskip("pvlib.temperature")
+    ambient = np.array([-10.0, 0.0, 25.0, 42.0])
+    g = np.array([[0.0], [200.0], [800.0], [1100.0]])
+    for noct in (41.0, 45.0, 49.5):
+        ours = pv.cell_temperature_ross(ambient, g, noct)
+        theirs = pvlib_temperature.ross(g, ambient, noct=noct)
+        np.testing.assert_allclose(ours, theirs, rtol=0, atol=1e-12)
+        k = (noct - 20.0) / 800.0
+        np.testing.assert_allclose(ours, pvlib_temperature.ross(g, ambient, k=k), atol=1e-12)
+
+
+def test_one_ross_function_behind_sizing_harvest_and_electrical():
+    # The former second copies are gone: the design steps use the one function.
+    from offgrid import electrical, harvest, sizing
+
+    assert not hasattr(pv, "cell_temperature_noct")
+    assert sizing.cell_temperature_ross is pv.cell_temperature_ross
+    assert harvest.cell_temperature_ross is pv.cell_temperature_ross
+    assert electrical.cell_temperature_ross is pv.cell_temperature_ross
+
+
+def test_the_sizing_figure_is_the_one_ross_function():
+    # The design's monthly cell temperature (array.cell_temp_c) is exactly the one function
+    # at the day's air temperature and the energy-weighted irradiance of the month.
+    from offgrid.climate import sky
+    from offgrid.paths import demo_project_path
+    from offgrid.project.store import load_project
+    from offgrid.sizing import design, energy_weighted_irradiance
+
+    project = load_project(demo_project_path())
+    d = design(project, demo_project_path().parent)
+    g = energy_weighted_irradiance(np.asarray(d.site.poa_kwh_m2_day),
+                                   sky.daylight_hours(d.site.latitude_deg))
+    expect = pv.cell_temperature_ross(d.site.temp_day_c, g, project.module.noct_c)
+    np.testing.assert_array_equal(np.asarray(d.array.cell_temp_c), expect)
 
 
 def test_dark_gives_zero_power_and_current():

@@ -169,8 +169,8 @@ def test_reliability_figures_equal_simulate_json():
                         checked += 1
     assert checked >= 10
     # the lifecycle cost uses the simulated battery life and served share
-    from offgrid.report.bom import bill_of_materials
-    from offgrid.report.costs import lifecycle_cost
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.economics.costs import lifecycle_cost
 
     d = design(project, base)
     cost = lifecycle_cost(project, d, bill_of_materials(project, d), study)

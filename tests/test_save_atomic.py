@@ -19,8 +19,9 @@ import time
 
 import pytest
 
+from offgrid.project.atomic import atomic_write_text
 from offgrid.project.model import Load
-from offgrid.project.store import atomic_write_text, dumps_project, load_project, save_project
+from offgrid.project.store import dumps_project, load_project, save_project
 from tests.conftest import hand_project
 
 KILLS = 60
@@ -237,19 +238,19 @@ def test_outputs_still_replace_ordinary_files_with_force(capsys, project_file, t
 def test_price_import_refuses_when_the_project_changed_meanwhile(capsys, project_file, tmp_path,
                                                                monkeypatch):
     """Another window saves the project while the CLI reads the price list."""
-    import offgrid.report.costs as costs
+    import offgrid.economics.prices as prices
 
     sheet = tmp_path / "quote.csv"
     sheet.write_text("part,unit_price\nmodule,99\n", encoding="utf-8")
     theirs = load_project(project_file)
     theirs.info.name = "Their edit"
-    real_read = costs.read_price_csv
+    real_read = prices.read_price_csv
 
     def read_while_they_save(*args, **kwargs):
         save_project(theirs, project_file)
         return real_read(*args, **kwargs)
 
-    monkeypatch.setattr(costs, "read_price_csv", read_while_they_save)
+    monkeypatch.setattr(prices, "read_price_csv", read_while_they_save)
     code, err = _run(capsys, "prices", str(project_file), "--import", str(sheet))
     assert code == 2
     assert "was changed by another program" in err and "nothing was written" in err

@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from offgrid.climate import clearsky, sky
-from offgrid.climate.poa import poa_monthly
+from offgrid.climate.poa import beam_ratio_rb_klein, poa_monthly, poa_monthly_liu_jordan
 
 # Duffie & Beckman, Solar Engineering of Thermal Processes, 4th ed. (2013), Example 2.19.1:
 # a south-facing surface at 60 deg in Madison, latitude 43 N, isotropic (Liu-Jordan) monthly
@@ -36,7 +36,7 @@ def test_duffie_beckman_example_2_19_1_snow_month_reflectance():
 
 
 def test_liu_jordan_helper_takes_twelve_reflectances():
-    out = sky.poa_monthly_liu_jordan(MADISON_H_MJ / MJ_PER_KWH, 43.0, 60.0, 180.0, MADISON_RHO)
+    out = poa_monthly_liu_jordan(MADISON_H_MJ / MJ_PER_KWH, 43.0, 60.0, 180.0, MADISON_RHO)
     np.testing.assert_allclose(out["poa"] * MJ_PER_KWH, MADISON_HT_MJ, rtol=0.015)
 
 
@@ -74,7 +74,7 @@ def test_extraterrestrial_on_the_plane_would_not_bind():
     # the extraterrestrial insolation on the 60-degree plane (H0 x Rb on the mean day,
     # Duffie & Beckman eqs. 1.10.3 and 2.19) is several times the uncapped value.
     h0 = sky.extraterrestrial_daily_kwh_m2(64.0, sky.KLEIN_MEAN_DAY)[11]
-    rb = sky.beam_ratio_rb(64.0, 60.0, 180.0)[11]
+    rb = beam_ratio_rb_klein(64.0, 60.0, 180.0)[11]
     h = np.array([0.3, 1.0, 2.4, 4.0, 5.0, 5.5, 5.0, 3.8, 2.2, 1.0, 0.3, 0.1])
     raw = poa_monthly(h, 64.0, 60.0, 180.0, 0.2, cap=False).poa_kwh_m2_day[11]
     assert h0 * rb > 2 * raw

@@ -362,7 +362,7 @@ def check_climate(climate, latitude_deg: float | None = None,
                   longitude_deg: float | None = None, elevation_m: float | None = None,
                   clear_sky: bool = True, tilt_deg: float | None = None,
                   azimuth_deg: float | None = None, albedo=None) -> list[Finding]:
-    """All checks for a :class:`offgrid.project.model.MonthlyClimate`.
+    """All checks for a :class:`offgrid.climate.model.MonthlyClimate`.
 
     The site's coordinates are used where given, else the climate's own.  The
     low-sun transposition check uses ``tilt_deg`` (default: the latitude, at

@@ -38,6 +38,7 @@ import functools
 import numpy as np
 
 from offgrid.climate import sky
+from offgrid.climate.poa import ground_reflected_isotropic, sky_diffuse_isotropic
 
 _MONTH_START = np.concatenate([[0], np.cumsum(sky.DAYS_IN_MONTH)])  # day-of-year offsets
 #: Three sample days per month (the 5th, 15th and 25th), day of year.
@@ -250,8 +251,9 @@ def clearest_sky_plane_kwh_m2(latitude_deg: float, tilt_deg, azimuth_deg: float,
     cos_t = np.maximum(s["cos_zenith"][None] * np.cos(b) + b_term[None] * np.sin(b), 0.0)
     month = _MONTH_OF_DAY[days - 1]
     rho_day = rho[month][None, :, None]
-    g = (s["dni"][None] * cos_t + s["dhi"][None] * (1 + np.cos(b)) / 2
-         + s["ghi"][None] * rho_day * (1 - np.cos(b)) / 2)
+    t = np.atleast_1d(tilt)[:, None, None]
+    g = (s["dni"][None] * cos_t + sky_diffuse_isotropic(t, s["dhi"][None])
+         + ground_reflected_isotropic(t, s["ghi"][None], rho_day))
     daily = g.sum(axis=2) * s["step_h"][None] / 1000.0  # (T, days)
     means = _monthly_mean(daily, days)
     res = np.where(mask[None], means, np.inf)

@@ -37,9 +37,9 @@ import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
+from offgrid.climate.model import DailyClimate, MonthlyClimate
 from offgrid.numbers import is_finite_number
 from offgrid.paths import climates_dir, user_climates_dir
-from offgrid.project.model import DailyClimate, MonthlyClimate
 
 CLIMATE_FORMAT = "offgrid-climate"
 CLIMATE_SCHEMA = 1
@@ -468,7 +468,7 @@ def dumps_climate(climate: MonthlyClimate, name: str = "") -> str:
 def save_climate(climate: MonthlyClimate, path: Path, name: str = "",
                  backup: bool = True) -> Path:
     """Write a climate file atomically (the previous one kept as ``.bak`` if ``backup``)."""
-    from offgrid.project.store import atomic_write_text
+    from offgrid.project.atomic import atomic_write_text
 
     atomic_write_text(path, dumps_climate(climate, name), backup=backup)
     return path

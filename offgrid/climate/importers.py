@@ -42,7 +42,7 @@ from offgrid.climate.checks import (
     convert_insolation,
     validate_location,
 )
-from offgrid.project.model import DailyClimate, MonthlyClimate
+from offgrid.climate.model import DailyClimate, MonthlyClimate
 
 MAX_FILLED_GAP_H = 3  # longest run of missing hours filled by interpolation (our choice)
 MAX_HOURLY_GHI_W_M2 = 1500.0  # above the solar constant plus cloud enhancement

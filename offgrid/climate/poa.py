@@ -1,11 +1,11 @@
 """Monthly plane-of-array insolation for any tilt and azimuth, many tilts at once.
 
 The method is the Liu and Jordan isotropic transposition of monthly means with
-Klein's beam ratio Rb and the Erbs et al. monthly diffuse fraction, as in
-:func:`offgrid.climate.sky.poa_monthly_liu_jordan`; here it is vectorised over
-candidate tilts (for the tilt search), split into its beam, sky-diffuse and
-ground-reflected parts, and optionally shaded by a horizon profile
-(:mod:`offgrid.climate.horizon`).
+Klein's beam ratio Rb and the Erbs et al. monthly diffuse fraction
+(:func:`poa_monthly_liu_jordan`, the one implementation of it), vectorised over
+candidate tilts (for the tilt search) and split into its beam, sky-diffuse and
+ground-reflected parts.  :func:`poa_monthly` adds the site's checks, an optional
+horizon profile (:mod:`offgrid.climate.horizon`) and the clearest-sky ceiling.
 
 The ground reflectance may differ by month (snow).  In months of a very low sun
 the monthly method can multiply a tiny horizontal value many times over (Klein's
@@ -25,6 +25,11 @@ References
 .. [2] Klein, S. A., "Calculation of monthly average insolation on tilted
    surfaces", Solar Energy 19 (1977) 325-329.
 .. [3] Erbs, D. G., Klein, S. A. and Duffie, J. A., Solar Energy 28 (1982) 293-302.
+.. [4] Liu, B. Y. H. and Jordan, R. C., "Daily insolation on surfaces tilted
+   towards the equator", ASHRAE Journal 3(10) (1962) 53-59.
+.. [5] Liu, B. Y. H. and Jordan, R. C., "The interrelationship and characteristic
+   distribution of direct, diffuse and total solar radiation", Solar Energy 4(3)
+   (1960) 1-19.
 """
 
 from __future__ import annotations
@@ -37,7 +42,7 @@ import numpy as np
 from offgrid.climate import sky
 from offgrid.memo import memoised
 
-_DAY_STEPS = 721  # hour-angle steps across one day, as in sky.beam_ratio_rb
+_DAY_STEPS = 721  # hour-angle steps across one day for the numerical Rb
 
 
 def check_site_angles(latitude_deg: float, tilt_deg=None, azimuth_deg=None) -> None:
@@ -81,8 +86,11 @@ def _sun_terms(latitude_deg: float, azimuth_deg: float):
 def beam_ratio_rb_klein(latitude_deg: float, tilt_deg, azimuth_deg: float):
     """Klein's (1977) monthly beam ratio Rb for one or many tilts [-].
 
-    Numerical day integral of max(cos theta, 0) over the integral of cos z
-    while the sun is up; equals :func:`offgrid.climate.sky.beam_ratio_rb`.
+    Klein defines Rb on the mean day as the ratio of the day's integrals of
+    cos(incidence) (clipped at zero, sun above the horizon) to cos(zenith).  We
+    integrate numerically over the hour angle, which handles any azimuth and both
+    hemispheres; for an equator-facing plane it equals Klein's closed form
+    (Duffie & Beckman eq. 2.19.3).
     ``tilt_deg`` of shape (T,) gives (T, 12); a scalar gives (12,).
     """
     tilt = np.asarray(tilt_deg, dtype=float)
@@ -155,6 +163,94 @@ class MonthlyPoa:
     albedo: np.ndarray | None = None
 
 
+def sky_diffuse_isotropic(tilt_deg, dhi):
+    """Sky diffuse on a tilted plane under an isotropic sky [4]_ [5]_: DHI (1 + cos b) / 2.
+
+    Parameters
+    ----------
+    tilt_deg : float or array
+        Plane tilt b from horizontal [deg].
+    dhi : float or array
+        Diffuse horizontal irradiance [W/m2] or insolation [kWh/m2/day]; broadcast
+        against ``tilt_deg``.
+
+    Returns
+    -------
+    numpy.ndarray
+        Sky diffuse on the plane, in the unit of ``dhi``.  Same as
+        ``pvlib.irradiance.isotropic``.
+    """
+    return dhi * (1 + np.cos(np.radians(tilt_deg))) / 2
+
+
+def ground_reflected_isotropic(tilt_deg, ghi, albedo):
+    """Ground-reflected light on a tilted plane, isotropic ground [1]_: GHI rho (1 - cos b) / 2.
+
+    Parameters
+    ----------
+    tilt_deg : float or array
+        Plane tilt b from horizontal [deg].
+    ghi : float or array
+        Global horizontal irradiance [W/m2] or insolation [kWh/m2/day].
+    albedo : float or array
+        Ground reflectance rho [-]; broadcast against ``ghi`` and ``tilt_deg``.
+
+    Returns
+    -------
+    numpy.ndarray
+        Reflected light on the plane, in the unit of ``ghi``.  Same as
+        ``pvlib.irradiance.get_ground_diffuse``.
+    """
+    return ghi * albedo * (1 - np.cos(np.radians(tilt_deg))) / 2
+
+
+def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg: float, tilt_deg,
+                           azimuth_deg: float, albedo=sky.DEFAULT_ALBEDO) -> dict:
+    """Liu and Jordan isotropic transposition of monthly means [1]_ [2]_ [3]_ [4]_.
+
+    HT = H (1 - Hd/H) Rb + Hd (1 + cos b) / 2 + H rho (1 - cos b) / 2
+
+    with Klein's (1977) monthly beam ratio Rb on the mean days and the Erbs et
+    al. (1982) monthly diffuse fraction Hd/H from the clearness index; no
+    horizon profile and no ceiling (see :func:`poa_monthly`).  Inputs are not
+    checked here.
+
+    Parameters
+    ----------
+    insolation_kwh_m2_day : array of 12
+        Monthly mean daily global horizontal insolation H [kWh/m2/day].
+    latitude_deg : float
+        Site latitude [deg], north positive.
+    tilt_deg : float or array of T
+        Plane tilt b from horizontal [deg].
+    azimuth_deg : float
+        Direction the plane faces [deg], clockwise from north (180 = south).
+    albedo : float or 12 floats, optional
+        Ground reflectance rho [-], one value or twelve January first; None: 0.2.
+
+    Returns
+    -------
+    dict
+        ``poa``, ``beam``, ``diffuse``, ``reflected``: insolation on the plane and
+        its three parts [kWh/m2/day]; ``rb`` [-]; these are (12,) for a scalar
+        tilt and (T, 12) for T tilts.  ``kt`` (clearness index) and
+        ``diffuse_fraction`` [-] are (12,).
+    """
+    h = np.asarray(insolation_kwh_m2_day, dtype=float)
+    rho = sky.monthly_albedo(albedo)
+    ws = sky.sunset_hour_angle(latitude_deg, sky.declination_cooper69(sky.KLEIN_MEAN_DAY))
+    kt = sky.clearness_index(h, latitude_deg)
+    fd = sky.erbs_monthly_diffuse_fraction(kt, ws)
+    rb = beam_ratio_rb_klein(latitude_deg, tilt_deg, azimuth_deg)
+    tilt = np.asarray(tilt_deg, dtype=float)
+    t = tilt[..., None] if tilt.ndim else tilt  # (T, 1) against the months
+    beam = h * (1 - fd) * rb
+    diffuse = sky_diffuse_isotropic(t, h * fd) + 0 * rb
+    reflected = ground_reflected_isotropic(t, h, rho) + 0 * rb
+    return {"poa": beam + diffuse + reflected, "beam": beam, "diffuse": diffuse,
+            "reflected": reflected, "rb": rb, "kt": kt, "diffuse_fraction": fd}
+
+
 @memoised
 def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_deg: float,
                 albedo=sky.DEFAULT_ALBEDO, horizon=None, longitude_deg: float = 0.0,
@@ -191,13 +287,9 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
     if not np.all(np.isfinite(h)) or np.any(h < 0):
         raise ValueError("climate.insolation_kwh_m2_day: values must be finite and not negative")
     check_site_angles(latitude_deg, tilt_deg, azimuth_deg)
+    lj = poa_monthly_liu_jordan(h, latitude_deg, tilt_deg, azimuth_deg, albedo)
     rho = sky.monthly_albedo(albedo)
-    ws = sky.sunset_hour_angle(latitude_deg, sky.declination_cooper69(sky.KLEIN_MEAN_DAY))
-    kt = sky.clearness_index(h, latitude_deg)
-    fd = sky.erbs_monthly_diffuse_fraction(kt, ws)
-    rb = beam_ratio_rb_klein(latitude_deg, tilt_deg, azimuth_deg)
-    tilt = np.asarray(tilt_deg, dtype=float)
-    b = np.radians(tilt)[..., None] if tilt.ndim else np.radians(tilt)
+    rb, kt, fd = lj["rb"], lj["kt"], lj["diffuse_fraction"]
     if horizon:
         from offgrid.climate.horizon import monthly_beam_factor
 
@@ -205,10 +297,9 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
                                      tilt_deg, azimuth_deg, sun=sun)
     else:
         factor = np.ones_like(rb)
-    beam_open = h * (1 - fd) * rb
+    beam_open = lj["beam"]
     beam = beam_open * factor
-    diffuse = h * fd * (1 + np.cos(b)) / 2 + 0 * rb
-    reflected = h * rho * (1 - np.cos(b)) / 2 + 0 * rb
+    diffuse, reflected = lj["diffuse"], lj["reflected"]
     total = beam + diffuse + reflected
     lost = beam_open - beam
     ceiling = np.full_like(total, np.inf)

@@ -1,4 +1,4 @@
-"""Sun geometry on the mean day of each month, and monthly plane-of-array insolation.
+"""Sun geometry on the mean day of each month, clearness and the monthly diffuse fraction.
 
 All functions are vectorised over months (arrays of 12).  Angles in degrees at
 the interface, radians inside.
@@ -8,7 +8,8 @@ References
 .. [1] Duffie, J. A. and Beckman, W. A., Solar Engineering of Thermal Processes,
    4th ed., Wiley, 2013: eq. 1.6.1a (Cooper declination), 1.10.3 (monthly mean
    daily extraterrestrial radiation), table 1.6.1 (Klein's mean days),
-   sec. 2.19 (Liu and Jordan isotropic monthly transposition with Klein's Rb).
+   sec. 2.19 (the monthly transposition and Klein's Rb are in
+   :mod:`offgrid.climate.poa`: ``poa_monthly_liu_jordan``, ``beam_ratio_rb_klein``).
 .. [2] Klein, S. A., "Calculation of monthly average insolation on tilted
    surfaces", Solar Energy 19 (1977) 325-329.
 .. [3] Erbs, D. G., Klein, S. A. and Duffie, J. A., "Estimation of the diffuse
@@ -26,7 +27,6 @@ SOLAR_CONSTANT_W_M2 = 1367.0  # Duffie & Beckman [1] sec. 1.2
 #: Klein (1977) recommended average day of each month, day of year [2].
 KLEIN_MEAN_DAY = np.array([17, 47, 75, 105, 135, 162, 198, 228, 258, 288, 318, 344])
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31])
-_DAY_STEPS = 721  # hour-angle steps across one day for the numerical Rb
 DEFAULT_ALBEDO = 0.2  # grass or bare soil (common practice, no source)
 ALBEDO_HINT = ("ground reflectance, a fraction 0-1: one value for the year or twelve, January "
                "first (0.2 grass or soil; fresh snow about 0.7-0.8)")
@@ -157,59 +157,6 @@ def erbs_monthly_diffuse_fraction(kt, sunset_hour_angle_deg):
     low = 1.391 - 3.560 * kt + 4.189 * kt**2 - 2.137 * kt**3
     high = 1.311 - 3.022 * kt + 3.427 * kt**2 - 1.821 * kt**3
     return np.where(ws <= 81.4, low, high)
-
-
-def beam_ratio_rb(latitude_deg, tilt_deg, azimuth_deg, day_of_year=KLEIN_MEAN_DAY):
-    """Ratio Rb of daily beam irradiation on the tilted plane to the horizontal [-].
-
-    Klein (1977) [2] defines Rb on the mean day as the ratio of the day's
-    integrals of cos(incidence) (clipped at zero, sun above the horizon) to
-    cos(zenith).  We integrate numerically over the hour angle, which handles
-    any azimuth and both hemispheres; for an equator-facing plane it equals
-    Klein's closed form.  ``azimuth_deg`` is measured clockwise from north
-    (180 = south-facing).
-    """
-    phi = np.radians(latitude_deg)
-    beta = np.radians(tilt_deg)
-    gamma = np.radians(np.asarray(azimuth_deg, dtype=float) - 180.0)  # D&B: 0 = south, west +
-    dec = np.radians(declination_cooper69(day_of_year))[:, None]
-    w = np.linspace(-np.pi, np.pi, _DAY_STEPS)[None, :]
-    cos_z = np.sin(phi) * np.sin(dec) + np.cos(phi) * np.cos(dec) * np.cos(w)
-    cos_t = (
-        np.sin(dec) * np.sin(phi) * np.cos(beta)
-        - np.sin(dec) * np.cos(phi) * np.sin(beta) * np.cos(gamma)
-        + np.cos(dec) * np.cos(phi) * np.cos(beta) * np.cos(w)
-        + np.cos(dec) * np.sin(phi) * np.sin(beta) * np.cos(gamma) * np.cos(w)
-        + np.cos(dec) * np.sin(beta) * np.sin(gamma) * np.sin(w)
-    )
-    up = cos_z > 0
-    num = np.where(up, np.maximum(cos_t, 0.0), 0.0).sum(axis=1)
-    den = np.where(up, cos_z, 0.0).sum(axis=1)
-    return np.divide(num, den, out=np.zeros_like(num), where=den > 1e-9)
-
-
-def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg, tilt_deg, azimuth_deg,
-                           albedo=DEFAULT_ALBEDO):
-    """Monthly mean daily plane-of-array insolation [kWh/m2/day].
-
-    Liu and Jordan (1962) isotropic-sky transposition of monthly means with
-    Klein's (1977) Rb and the Erbs et al. (1982) monthly diffuse fraction
-    (Duffie & Beckman sec. 2.19):
-
-        HT = H (1 - Hd/H) Rb + Hd (1 + cos b) / 2 + H rho (1 - cos b) / 2
-
-    ``albedo`` is one reflectance or twelve (snow months).  Returns a dict with
-    ``poa``, ``kt``, ``diffuse_fraction``, ``rb`` (arrays of 12).
-    """
-    h = np.asarray(insolation_kwh_m2_day, dtype=float)
-    albedo = monthly_albedo(albedo)
-    ws = sunset_hour_angle(latitude_deg, declination_cooper69(KLEIN_MEAN_DAY))
-    kt = clearness_index(h, latitude_deg)
-    fd = erbs_monthly_diffuse_fraction(kt, ws)
-    rb = beam_ratio_rb(latitude_deg, tilt_deg, azimuth_deg)
-    b = np.radians(tilt_deg)
-    poa = h * (1 - fd) * rb + h * fd * (1 + np.cos(b)) / 2 + h * albedo * (1 - np.cos(b)) / 2
-    return {"poa": poa, "kt": kt, "diffuse_fraction": fd, "rb": rb}
 
 
 def daylight_hours(latitude_deg, day_of_year=KLEIN_MEAN_DAY):

@@ -85,8 +85,8 @@ def valid_library_name(name: str, what: str = "--name") -> str:
 
 def run_add(args: argparse.Namespace) -> int:
     from offgrid.paths import load_profiles_dir, user_load_profiles_dir
+    from offgrid.project.atomic import atomic_write_text
     from offgrid.project.loads_csv import LoadListError, read_loads_csv
-    from offgrid.project.store import atomic_write_text
     from offgrid.textfile import TextFileError, read_text
 
     if args.file == STDIO:

@@ -155,7 +155,7 @@ def run_programme(args: argparse.Namespace, path) -> int:
     except (ProgrammeError, PlanError) as exc:
         fail(str(exc))
     if report is not None:
-        from offgrid.project.store import atomic_write_text
+        from offgrid.project.atomic import atomic_write_text
 
         suffix = report.suffix.lower()
         text = (markdown_report(plan) if suffix == ".md" else rows_csv(plan)
@@ -180,7 +180,7 @@ def run_programme(args: argparse.Namespace, path) -> int:
 
 def write_report(plan, path: Path) -> None:
     from offgrid.plan.text import markdown_report, rows_csv
-    from offgrid.project.store import atomic_write_text
+    from offgrid.project.atomic import atomic_write_text
 
     suffix = path.suffix.lower()
     if suffix == ".md":

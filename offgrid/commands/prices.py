@@ -51,12 +51,12 @@ def _design(project, base):
 
 
 def run(args: argparse.Namespace) -> int:
-    from offgrid.report.bom import bill_of_materials
-    from offgrid.report.costs import (
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.economics.costs import money
+    from offgrid.economics.prices import (
         PriceListError,
         load_price_csv,
         merge_prices,
-        money,
         price_for,
         price_template_csv,
         read_price_csv,

@@ -35,7 +35,7 @@ def comparison_dict(cmp) -> dict:
 
 
 def run(args: argparse.Namespace) -> int:
-    from offgrid.report.variants import compare_variants
+    from offgrid.economics.variants import compare_variants
 
     project, base = open_project(args)
     if not project.variants:

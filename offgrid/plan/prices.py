@@ -20,7 +20,7 @@ per mm2 of conductor (``per_mm2_m``) or per metre of any size (``per_m``), and `
 each.
 Every row names one currency.  Unknown items and bases are errors with the line.
 
-The report's per-part price list (columns ``part, unit_price``; keys such as
+The parts' price list (:mod:`offgrid.economics.prices`; columns ``part, unit_price``; keys such as
 ``module:<name>``, ``battery:<name>``, ``controller:MPPT 50 A``, ``inverter:800 W``,
 ``cable:copper 6 mm2``, ``fuse:10 A``) is read too, and a shared project's
 ``[[prices]]`` are used when the survey names no price list.
@@ -28,13 +28,17 @@ The report's per-part price list (columns ``part, unit_price``; keys such as
 
 from __future__ import annotations
 
-import csv
-import io
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
 
+from offgrid.economics.prices import (
+    PriceListError,
+    price_for,
+    read_price_csv,
+    read_price_table,
+)
 from offgrid.numbers import MAX_PRICE, NumberError, read_number
 
 #: item -> allowed bases
@@ -61,10 +65,6 @@ OPTIONAL_ITEMS = ("system_fixed", "one_off", "kit_type", "cable_copper", "cable_
                   "fuse", "breaker", "disconnect")
 
 
-class PriceListError(ValueError):
-    """The price list cannot be used; the message names the line and the fix."""
-
-
 @dataclass(frozen=True)
 class PriceList:
     entries: dict[str, tuple[str, float]]  # item -> (basis, unit price)
@@ -73,7 +73,7 @@ class PriceList:
     demo: bool = False
     notes: dict[str, str] = field(default_factory=dict)
     #: per-part prices in the report's format (``module:<name>``, ``controller:MPPT 50 A``,
-    #: ``cable:copper 6 mm2``, ``fuse:10 A``...), looked up first; see offgrid.report.costs
+    #: ``cable:copper 6 mm2``, ``fuse:10 A``...), looked up first; see offgrid.economics.prices
     parts: tuple = ()
 
     def has(self, item: str) -> bool:
@@ -83,8 +83,6 @@ class PriceList:
         """Unit price of a part by its bill-of-materials key, or None."""
         if not self.parts:
             return None
-        from offgrid.report.costs import price_for  # the report's key rules, one place
-
         return price_for(key, list(self.parts))
 
     def price(self, item: str, capacity, count=1, key=None):
@@ -140,20 +138,14 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
                     ) -> PriceList:
     """Parse a price list; raises :class:`PriceListError` listing every problem with its line.
 
-    A CSV with a ``part`` column is read as the report's per-part price list
-    (:func:`offgrid.report.costs.read_price_csv`), in ``currency``.
+    The plan's column map over :func:`offgrid.economics.prices.read_price_table`.  A CSV
+    with a ``part`` column is read as the parts' price list
+    (:func:`offgrid.economics.prices.read_price_csv`), in ``currency``.
     """
-    reader = csv.DictReader(io.StringIO(text.lstrip("\ufeff")), skipinitialspace=True)
-    header = [h.strip().lower() for h in (reader.fieldnames or [])]
+    table = read_price_table(text)
+    header = [h.strip().lower() for h in table.names]
     if "part" in header and "item" not in header:
-        from offgrid.report.costs import PriceListError as ReportPriceError
-        from offgrid.report.costs import read_price_csv
-
-        try:
-            return from_part_prices(read_price_csv(text, source), currency, source)
-        except ReportPriceError as exc:
-            raise PriceListError(str(exc)) from exc
-    reader.fieldnames = header
+        return from_part_prices(read_price_csv(text, source), currency, source)
     problems: list[str] = []
     need = ("item", "basis", "unit_price", "currency")
     missing = [c for c in need if c not in header]
@@ -163,10 +155,7 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
     entries: dict[str, tuple[str, float]] = {}
     notes: dict[str, str] = {}
     currencies: set[str] = set()
-    last = 1
-    for row in reader:
-        line, last = last + 1, reader.line_num
-        cells = {k: (v or "").strip() for k, v in row.items() if isinstance(k, str)}
+    for line, cells in table.records:
         if not any(cells.values()) or cells.get("item", "").startswith("#"):
             continue
         item, basis = cells.get("item", "").lower(), cells.get("basis", "").lower()

@@ -10,6 +10,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Literal
 
+from offgrid.climate.model import MonthlyClimate
+
 FORMAT_NAME = "offgrid-project"
 #: 2: a DC load's cable run length stands on the load (``[[loads]] run_m``); schema 1 kept
 #: them in ``[wiring.dc_load_runs_m]`` keyed by the load's name (migrated on loading).
@@ -51,34 +53,6 @@ class Site:
     # Horizon profile: (azimuth_deg clockwise from north, obstruction elevation_deg) pairs,
     # interpolated linearly around the circle; empty: open horizon.
     horizon_deg: list[tuple[float, float]] = field(default_factory=list)
-
-
-@dataclass
-class MonthlyClimate:
-    """Twelve monthly means for one site."""
-
-    insolation_kwh_m2_day: list[float]
-    temp_mean_c: list[float]
-    temp_max_c: list[float] | None = None
-    temp_min_c: list[float] | None = None
-    record_low_c: float | None = None
-    source: str = ""
-    latitude_deg: float | None = None
-    longitude_deg: float | None = None
-    elevation_m: float | None = None
-    demo: bool = False
-    daily: DailyClimate | None = None  # the daily series of an imported weather year, if any
-    albedo: float | list[float] | None = None  # ground reflectance: one value or twelve
-
-
-@dataclass
-class DailyClimate:
-    """One value per day of a 365-day year, 1 January first (29 February left out)."""
-
-    insolation_kwh_m2_day: list[float]
-    temp_mean_c: list[float]
-    temp_max_c: list[float]
-    temp_min_c: list[float]
 
 
 @dataclass

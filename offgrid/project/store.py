@@ -26,12 +26,7 @@ from typing import Any, Literal, get_args, get_origin, get_type_hints
 
 from offgrid.climate.files import ClimateFileError, climate_from_dict, climate_to_dict
 from offgrid.numbers import is_finite_number
-from offgrid.project.atomic import (  # noqa: F401  (atomic_write_text: used from here)
-    ChangedOnDisk,
-    Fingerprint,
-    atomic_write_text,
-    write_atomic,
-)
+from offgrid.project.atomic import Fingerprint, write_atomic
 from offgrid.project.loads_csv import MAX_LOADS, format_months, parse_months
 from offgrid.project.model import (
     FORMAT_NAME,
@@ -124,9 +119,9 @@ def save_project(project: Project, path: str | os.PathLike, *,
     """Write atomically with a backup (see :mod:`offgrid.project.atomic`).
 
     ``expect``: the file's :class:`Fingerprint` when it was read (None: there was no
-    file); if the file on disk differs, :class:`ChangedOnDisk` is raised and nothing is
-    written. ``False`` (the default) writes without that check. Returns the new
-    fingerprint, to pass as ``expect`` to the next save.
+    file); if the file on disk differs, :class:`offgrid.project.atomic.ChangedOnDisk` is
+    raised and nothing is written. ``False`` (the default) writes without that check.
+    Returns the new fingerprint, to pass as ``expect`` to the next save.
     """
     return write_atomic(path, dumps_project(project), expect=expect or None,
                         check_expect=expect is not False)

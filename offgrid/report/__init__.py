@@ -1,10 +1,12 @@
-"""Design report (text, Markdown, HTML), bill of materials, costs and variants.
+"""Design report (text, Markdown, HTML): it only renders.
 
 Entry points for the command line and the text UI:
 
 * :func:`make_report` -- design a project and render its report as a string;
-* :func:`render` -- render an already built :class:`~offgrid.report.document.Report`;
-* :mod:`offgrid.report.bom`, :mod:`offgrid.report.costs`, :mod:`offgrid.report.variants`.
+* :func:`render` -- render an already built :class:`~offgrid.report.document.Report`.
+
+The bill of materials, price lists, lifecycle cost and variants it shows are computed
+in :mod:`offgrid.economics`.
 
 Nothing here imports a UI library; matplotlib is imported only when a chart is drawn.
 """
@@ -48,8 +50,8 @@ def simulate_for_report(project: Project, base: Path | None = None, *, years: in
     The trade-off's cheapest point is priced from the project's price list when the module
     and the battery unit have prices.
     """
-    from offgrid.report.bom import bill_of_materials
-    from offgrid.report.costs import tradeoff_prices
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.economics.costs import tradeoff_prices
     from offgrid.simulate.run import simulate_project
     from offgrid.sizing import design as run_design
 
@@ -81,7 +83,7 @@ def make_report(project: Project, base: Path | None = None, fmt: str = "html", *
         if reliability is None:
             reliability = simulate_for_report(project, base, years=years, seed=seed)
         if with_variants and project.variants:
-            from offgrid.report.variants import compare_variants
+            from offgrid.economics.variants import compare_variants
 
             def one(proj, _design):
                 return simulate_for_report(proj, base, years=years, seed=seed,

@@ -18,10 +18,8 @@ from typing import Any
 import numpy as np
 
 from offgrid.cautions import DEFERS_TO_CODE
-from offgrid.project.loads_csv import format_months
-from offgrid.project.model import MonthlyClimate, Project
-from offgrid.report import charts
-from offgrid.report.bom import (
+from offgrid.climate.model import MonthlyClimate
+from offgrid.economics.bom import (
     BomLine,
     bill_of_materials,
     devices_of,
@@ -29,7 +27,10 @@ from offgrid.report.bom import (
     field_of,
     wires_of,
 )
-from offgrid.report.costs import LifecycleCost, lifecycle_cost, money
+from offgrid.economics.costs import LifecycleCost, lifecycle_cost, money
+from offgrid.project.loads_csv import format_months
+from offgrid.project.model import Project
+from offgrid.report import charts
 from offgrid.report.document import (
     Block,
     Bullets,
@@ -304,7 +305,7 @@ def build_report(project: Project, design: SystemDesign, *, base: Path | None = 
     """The report model of a designed project.
 
     ``reliability`` is the simulation's record when it ran; ``comparison`` a
-    :class:`~offgrid.report.variants.VariantComparison` (computed here when the project
+    :class:`~offgrid.economics.variants.VariantComparison` (computed here when the project
     has variants and ``with_variants`` is true).
     """
     if climate is None:
@@ -315,7 +316,7 @@ def build_report(project: Project, design: SystemDesign, *, base: Path | None = 
         except ValueError:
             climate = None
     if comparison is None and with_variants and project.variants:
-        from offgrid.report.variants import compare_variants
+        from offgrid.economics.variants import compare_variants
 
         comparison = compare_variants(project, base)
     tree = design.to_dict()

@@ -143,8 +143,8 @@ def export_report(project: Project, path: str | os.PathLike, base: Path | None =
 
 def bom_text(project: Project, design) -> str:
     """The bill of materials as CSV, priced where the price list has prices."""
-    from offgrid.report.bom import bill_of_materials, bom_csv
-    from offgrid.report.costs import price_for
+    from offgrid.economics.bom import bill_of_materials, bom_csv
+    from offgrid.economics.prices import price_for
 
     lines = bill_of_materials(project, design)
     prices = {}

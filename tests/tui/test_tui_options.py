@@ -1,6 +1,6 @@
 """Pilot tests at 80x24 for section 8, Options: variants side by side and the price list.
 
-The figures compared come from the engine (offgrid.report.variants.compare_variants);
+The figures compared come from the engine (offgrid.economics.variants.compare_variants);
 these tests check that the screen shows them, marks the differences where the engine
 says they differ, and that every edit is validated and can be undone.
 """
@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from tui_helpers import SIZE, demo_app, screen_text, type_into, wait_for
 
-from offgrid.report.variants import compare_variants, flatten_overrides
+from offgrid.economics.variants import compare_variants, flatten_overrides
 from offgrid.tui.screens.dialogs import ChoiceDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.help import HelpDialog
 from offgrid.tui.screens.why import WhyDialog

@@ -253,7 +253,7 @@ class PlanScreen(Screen):
     def action_export(self) -> None:
         from offgrid.plan.programme_text import markdown_report as programme_report
         from offgrid.plan.text import markdown_report
-        from offgrid.project.store import atomic_write_text
+        from offgrid.project.atomic import atomic_write_text
 
         target = self.report_path or self.request.path.with_name(
             self.request.path.stem + "-plan.md")

@@ -338,8 +338,8 @@ class LoadsSection(Section):
         def write(answer: str | None = "yes") -> None:
             if answer != "yes":
                 return
+            from offgrid.project.atomic import atomic_write_text
             from offgrid.project.loads_csv import loads_to_csv
-            from offgrid.project.store import atomic_write_text
 
             try:
                 atomic_write_text(path, loads_to_csv(self.session.project.loads))

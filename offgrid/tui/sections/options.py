@@ -1,6 +1,6 @@
 """Section 8, Options: the project's variants beside the base design, and its price list.
 
-The comparison (:func:`offgrid.report.variants.compare_variants`) designs the base
+The comparison (:func:`offgrid.economics.variants.compare_variants`) designs the base
 and every variant: measured on the demo (benchmarks/bench_options.py) 0.04 s per
 column once warm, 0.4 s for the first call (imports), 0.9 s for three columns with
 the 30-year risk check (``g``).  So it runs in a worker thread on a copy of the
@@ -262,7 +262,7 @@ class OptionsSection(Section):
         worker = get_current_worker()
         t0 = time.perf_counter()
         try:
-            from offgrid.report.variants import compare_variants
+            from offgrid.economics.variants import compare_variants
 
             simulate = None
             if with_risk:
@@ -367,7 +367,7 @@ class OptionsSection(Section):
                               Text(cur), "")
                 self._price_rows.append(("missing", key))
         if cost is not None:
-            from offgrid.report.costs import money
+            from offgrid.economics.costs import money
 
             table.add_row(Text("Cost of the base design",
                                style="bold underline"), "", "", "")
@@ -395,8 +395,8 @@ class OptionsSection(Section):
         d = session.design
         if d is None:
             return None
-        from offgrid.report.bom import bill_of_materials
-        from offgrid.report.costs import lifecycle_cost
+        from offgrid.economics.bom import bill_of_materials
+        from offgrid.economics.costs import lifecycle_cost
 
         try:
             return lifecycle_cost(session.project, d, bill_of_materials(session.project, d))
@@ -538,7 +538,7 @@ class OptionsSection(Section):
                                         suffixes=(".csv",), verb="reads it"), chosen)
 
     def import_prices(self, path: Path) -> None:
-        from offgrid.report.costs import PriceListError, load_price_csv, merge_prices
+        from offgrid.economics.prices import PriceListError, load_price_csv, merge_prices
 
         try:
             items = load_price_csv(path)
@@ -611,7 +611,7 @@ class OptionsSection(Section):
 
     def _set_override(self, vi: int, path: str, value: Any) -> str | None:
         """Put ``path = value`` in variant ``vi``; None if accepted, else the problem."""
-        from offgrid.report.variants import apply_variant, flatten_overrides
+        from offgrid.economics.variants import apply_variant, flatten_overrides
 
         def put(p: Project) -> None:
             v = p.variants[vi]
@@ -627,7 +627,7 @@ class OptionsSection(Section):
         return None
 
     def _edit_override(self, vi: int, path: str) -> None:
-        from offgrid.report.variants import flatten_overrides
+        from offgrid.economics.variants import flatten_overrides
 
         v = self.session.project.variants[vi]
         current = dict(flatten_overrides(v.overrides)).get(path)
@@ -709,7 +709,7 @@ class OptionsSection(Section):
 
         Returns None if accepted, else the problem.
         """
-        from offgrid.report.variants import apply_variant, flatten_overrides
+        from offgrid.economics.variants import apply_variant, flatten_overrides
 
         project = self.session.project
         if choice.path is None:
@@ -791,7 +791,7 @@ class OptionsSection(Section):
                 "battery service life used for replacements", (), col.cost.battery_life_source)
             return Figure(label, value, None, reason, extra=self._cost_extra(col.cost))
         if row.group == "reliability" and col.reliability is not None:
-            from offgrid.report.variants import RELIABILITY_ROWS
+            from offgrid.economics.variants import RELIABILITY_ROWS
 
             attr = next((a for lbl, _u, _d, a in RELIABILITY_ROWS if lbl == row.label), "")
             reason = getattr(col.reliability, "reasons", {}).get(attr)
@@ -809,7 +809,7 @@ class OptionsSection(Section):
 
     @staticmethod
     def _cost_text(cost, label: str) -> str:
-        from offgrid.report.costs import money
+        from offgrid.economics.costs import money
 
         value = {"Capital cost": cost.capital, "Lifecycle cost": cost.lcc,
                  "Cost per kWh delivered": cost.cost_per_kwh}[label]
@@ -817,7 +817,7 @@ class OptionsSection(Section):
 
     @staticmethod
     def _cost_extra(cost) -> str:
-        from offgrid.report.costs import money
+        from offgrid.economics.costs import money
 
         if cost.missing:
             return cost.message()

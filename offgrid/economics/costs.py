@@ -25,19 +25,15 @@ worth factor PWF, eq. 11.5.1; equation number from memory).
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from dataclasses import dataclass, field
-from pathlib import Path
 
 import numpy as np
 
-from offgrid.numbers import MAX_PRICE, PRICE_RANGE, NumberError, read_number
-from offgrid.project.model import Economics, PriceItem, Project
-from offgrid.report.bom import BomLine
+from offgrid.economics.bom import BomLine
+from offgrid.economics.prices import price_for
+from offgrid.project.model import Economics, Project
 from offgrid.result import Reason, SystemDesign, fmt
-from offgrid.safetext import csv_cell, csv_uncell, printable
 
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
 
@@ -50,10 +46,6 @@ BATTERY_LIFE_PRESET_YEARS: dict[str, float] = {
     "lifepo4": 12.0,
 }
 BATTERY_LIFE_SOURCE = "chemistry preset, typical service life at daily cycling (from memory)"
-
-
-class PriceListError(ValueError):
-    """A price list (CSV) cannot be read; the message names the row and the column."""
 
 
 # ----------------------------------------------------------------------------- factors
@@ -88,109 +80,6 @@ def replacement_years(life_years: float, horizon_years: float) -> tuple[float, .
     k = np.arange(1, int(horizon_years / life_years) + 2)
     t = k * life_years
     return tuple(float(x) for x in t[t < horizon_years - 1e-9])
-
-
-# ----------------------------------------------------------------------------- prices
-
-def price_keys(key: str) -> list[str]:
-    """Keys tried for a part, most specific first: ``controller:MPPT 50 A``,
-    ``controller:MPPT 50``, ``controller:MPPT``, ``controller``."""
-    kind, _, detail = key.partition(":")
-    words = detail.split()
-    keys = [f"{kind}:{' '.join(words[:n])}" for n in range(len(words), 0, -1)]
-    if detail and detail.strip() != " ".join(words):
-        keys.insert(0, key)
-    return [*keys, kind]
-
-
-def price_for(key: str, prices: list[PriceItem]) -> float | None:
-    """Unit price of a part: the most specific price-list key that matches (see price_keys)."""
-    table = {p.part.strip(): float(p.unit_price) for p in prices}
-    for k in price_keys(key):
-        if k in table:
-            return table[k]
-    return None
-
-
-def read_price_csv(text: str, source: str = "price list") -> list[PriceItem]:
-    """Price list from CSV with columns ``part`` and ``unit_price`` (``note`` optional).
-
-    Blank prices are skipped (a template not yet filled in); a price that is not a
-    number, zero or negative is refused with the row and column named.
-    """
-    reader = csv.DictReader(io.StringIO(text.lstrip("\ufeff")))
-    cols = {(c or "").strip().lower(): c for c in (reader.fieldnames or [])}
-    price_col = next((cols[c] for c in ("unit_price", "unit price", "price") if c in cols), None)
-    if "part" not in cols or price_col is None:
-        raise PriceListError(f"{source}: needs the columns 'part' and 'unit_price' (found: "
-                             f"{', '.join(reader.fieldnames or []) or 'none'})")
-    items: list[PriceItem] = []
-    seen: dict[str, int] = {}
-    for n, row in enumerate(reader, start=2):
-        part = csv_uncell((row.get(cols["part"]) or "").strip())
-        raw = (row.get(price_col) or "").strip()
-        if not part and not raw:
-            continue
-        if not part:
-            raise PriceListError(f"{source}: row {n}: the part column is empty")
-        if not raw:
-            continue
-        try:
-            price = read_number(raw)
-        except NumberError as exc:
-            raise PriceListError(f"{source}: row {n}, unit_price: {exc} (part "
-                                 f"'{printable(part)}')") from None
-        if price <= 0:
-            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{printable(part)}': "
-                                 "a price must be above zero; leave it blank if the part is not "
-                                 "bought")
-        if price > MAX_PRICE:
-            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{printable(part)}' "
-                                 f"is out of range; {PRICE_RANGE}")
-        if part in seen:
-            raise PriceListError(f"{source}: row {n}: '{part}' is priced twice (also row "
-                                 f"{seen[part]})")
-        seen[part] = n
-        note = csv_uncell((row.get(cols["note"]) or "").strip()) if "note" in cols else ""
-        items.append(PriceItem(part=part, unit_price=price, note=note))
-    return items
-
-
-def load_price_csv(path: str | Path) -> list[PriceItem]:
-    """A price list file read with :func:`offgrid.textfile.read_text` (regular files only)."""
-    from offgrid.textfile import TextFileError, read_text
-
-    try:
-        text = read_text(path)
-    except TextFileError as exc:
-        raise PriceListError(f"{path}: {exc}") from None
-    return read_price_csv(text, str(path))
-
-
-def merge_prices(old: list[PriceItem], new: list[PriceItem]) -> list[PriceItem]:
-    """The old price list with the new lines replacing those of the same part."""
-    by_part = {p.part: p for p in old}
-    for p in new:
-        by_part[p.part] = p
-    return list(by_part.values())
-
-
-def price_template_csv(bom: tuple[BomLine, ...], prices: list[PriceItem]) -> str:
-    """A CSV of every BOM part with its current price (blank where none), to fill in."""
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(["part", "unit_price", "unit", "description", "note"])
-    listed = set()
-    notes = {p.part: p.note for p in prices}
-    for ln in bom:
-        p = price_for(ln.key, prices)
-        w.writerow([csv_cell(ln.key), "" if p is None else f"{p:g}", ln.unit,
-                    csv_cell(printable(ln.description)), csv_cell(notes.get(ln.key, ""))])
-        listed.add(ln.key)
-    for p in prices:  # kind-wide prices and prices of parts not in this design
-        if p.part not in listed:
-            w.writerow([csv_cell(p.part), f"{p.unit_price:g}", "", "", csv_cell(p.note)])
-    return buf.getvalue()
 
 
 # ----------------------------------------------------------------------------- lifecycle

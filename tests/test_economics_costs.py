@@ -13,23 +13,18 @@ import dataclasses
 
 import pytest
 
-from offgrid.project.model import Economics, PriceItem
-from offgrid.project.store import ProjectFileError, loads_project
-from offgrid.report.bom import BomLine
-from offgrid.report.costs import (
+from offgrid.economics.bom import BomLine
+from offgrid.economics.costs import (
     BATTERY_LIFE_PRESET_YEARS,
-    PriceListError,
     battery_life,
     delivered_energy_kwh_year,
     lifecycle_cost,
-    merge_prices,
     present_worth_factor,
     present_worth_single,
-    price_for,
-    price_keys,
-    read_price_csv,
     replacement_years,
 )
+from offgrid.project.model import Economics, PriceItem
+from offgrid.project.store import ProjectFileError, loads_project
 from offgrid.sizing import design
 from tests.conftest import hand_project
 
@@ -147,58 +142,6 @@ def test_delivered_energy_counts_served_share():
     d = design(project)
     assert delivered_energy_kwh_year(d) == pytest.approx(730.0)
     assert delivered_energy_kwh_year(d, 0.95) == pytest.approx(693.5)
-
-
-def test_price_lookup_most_specific_first():
-    prices = [PriceItem("controller", 300.0), PriceItem("controller:PWM", 120.0),
-              PriceItem("cable:copper 6 mm2", 4.0), PriceItem("cable", 2.0)]
-    assert price_keys("controller:MPPT 50 A") == ["controller:MPPT 50 A", "controller:MPPT 50",
-                                                  "controller:MPPT", "controller"]
-    assert price_for("controller:PWM 30 A", prices) == 120.0
-    assert price_for("controller:MPPT 50 A", prices) == 300.0
-    assert price_for("cable:copper 6 mm2", prices) == 4.0
-    assert price_for("cable:copper 10 mm2", prices) == 2.0
-    assert price_for("inverter:500 W", prices) is None
-
-
-def test_price_csv_reads_and_skips_blanks():
-    text = ("part,unit_price,unit,description,note\n"
-            "module:Generic,115,each,PV module,\n"
-            "battery:Generic,,each,blank: not yet priced,\n"
-            "cable,1250.5,m,,bulk\n")
-    items = read_price_csv(text)
-    assert [(p.part, p.unit_price, p.note) for p in items] == [
-        ("module:Generic", 115.0, ""), ("cable", 1250.5, "bulk")]
-    # a thousands separator is refused, as in every other reader (offgrid.numbers)
-    with pytest.raises(PriceListError, match=r"row 2, unit_price: '1,250\.5'.*write 1500"):
-        read_price_csv('part,unit_price\ncable,"1,250.5"\n')
-
-
-@pytest.mark.parametrize(("row", "fragment"), [
-    ("module,0", "above zero"),
-    ("module,-5", "above zero"),
-    ("module,cheap", "not a number"),
-    ("module,nan", "not a finite number"),
-    (",12", "part column is empty"),
-])
-def test_price_csv_refuses_bad_prices(row, fragment):
-    with pytest.raises(PriceListError) as exc:
-        read_price_csv(f"part,unit_price\n{row}\n", "p.csv")
-    assert "p.csv: row 2" in str(exc.value) and fragment in str(exc.value)
-
-
-def test_price_csv_refuses_missing_columns_and_duplicates():
-    with pytest.raises(PriceListError, match="needs the columns"):
-        read_price_csv("item,cost\nmodule,3\n")
-    with pytest.raises(PriceListError, match="priced twice"):
-        read_price_csv("part,unit_price\nmodule,3\nmodule,4\n")
-
-
-def test_merge_prices_replaces_same_part():
-    old = [PriceItem("module", 100.0), PriceItem("cable", 2.0)]
-    new = [PriceItem("module", 90.0)]
-    assert [(p.part, p.unit_price) for p in merge_prices(old, new)] == [
-        ("module", 90.0), ("cable", 2.0)]
 
 
 def _project_text(extra: str) -> str:

@@ -8,8 +8,8 @@ import math
 
 import pytest
 
+from offgrid.economics.bom import CONDUCTORS_PER_RUN, _cable_lines, bill_of_materials, bom_csv
 from offgrid.project.model import Load
-from offgrid.report.bom import CONDUCTORS_PER_RUN, _cable_lines, bill_of_materials, bom_csv
 from offgrid.sizing import design
 from tests.conftest import hand_project
 from tests.report_helpers import demo

@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
+from offgrid.economics.variants import apply_variant, compare_variants, flatten_overrides
 from offgrid.project.model import Variant
 from offgrid.project.store import dumps_project, loads_project
-from offgrid.report.variants import apply_variant, compare_variants, flatten_overrides
 from offgrid.sizing import design
 from tests.conftest import hand_project
 from tests.report_helpers import demo
@@ -89,7 +89,7 @@ def test_variant_that_does_not_design_keeps_its_column():
 
 def test_counts_and_battery_life_read_as_elsewhere():
     """Warnings and notes counted apart as in the headline; battery life names its method."""
-    from offgrid.report.variants import battery_life_label
+    from offgrid.economics.variants import battery_life_label
 
     assert battery_life_label(["chemistry preset, typical service life"]) == \
         "Battery life, preset"
@@ -97,7 +97,7 @@ def test_counts_and_battery_life_read_as_elsewhere():
         "Battery life, simulated"
     assert battery_life_label(["reliability simulation (battery wear)", "chemistry preset"]) \
         == "Battery life, preset or simulated"
-    from offgrid.report.variants import FIGURE_ROWS
+    from offgrid.economics.variants import FIGURE_ROWS
 
     labels = [r[0] for r in FIGURE_ROWS]
     assert "Warnings" in labels and "Notes" in labels

@@ -209,8 +209,8 @@ def compare_variants(project: Project, base: Path | None = None,
     and ``unmet_fraction`` as fractions) for each column.  A variant that cannot be applied
     or designed keeps its column with the reason in ``error``.
     """
-    from offgrid.report.bom import bill_of_materials
-    from offgrid.report.costs import lifecycle_cost
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.economics.costs import lifecycle_cost
     from offgrid.sizing import design as run_design
 
     columns: list[VariantColumn] = []
