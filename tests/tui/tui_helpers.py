@@ -20,7 +20,14 @@ def demo_app(state: Path, **kwargs) -> OffgridApp:
 
 
 async def type_into(pilot, text: str) -> None:
-    """Replace the focused box's text with ``text`` and press Enter."""
+    """Replace the focused box's text with ``text`` and press Enter.
+
+    Waits for an edit box to have the focus first: on a busy machine the box that the
+    last key opened can take a moment to be focused.
+    """
+    from textual.widgets import Input
+
+    await wait_for(pilot, lambda: isinstance(pilot.app.focused, Input))
     box = pilot.app.focused
     box.value = text
     await pilot.press("enter")
