@@ -50,6 +50,7 @@ from offgrid.plan.rows import (
     community_tilt,
     compact,
     default_jobs,
+    distinct_rows,
     prepare,
 )
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
@@ -647,15 +648,7 @@ def plan_programme(prog: Programme, *, kits: int | None = None,
             left.append(ProgrammeProblem(inputs.survey.source, p.line, v.id, p.field,
                                          p.message))
         community_tilt(inputs)
-        keyed: dict[tuple, int] = {}
-        unique: list[SurveyRow] = []
-        index_of: list[int] = []
-        for row in inputs.survey.rows:
-            k = inputs.design_key(row)
-            if k not in keyed:
-                keyed[k] = len(unique)
-                unique.append(row)
-            index_of.append(keyed[k])
+        unique, index_of = distinct_rows(inputs)
         work.append(_VillageWork(v, inputs, unique, index_of))
     if not work:
         raise ProgrammeError(left or [ProgrammeProblem(prog.source, 0, "", "villages",

@@ -574,12 +574,9 @@ def community_tilt(inputs: PlanInputs) -> float | None:
     return float(tilt)
 
 
-def design_rows(inputs: PlanInputs, jobs: int = 1) -> DesignedRows:
-    """Build and design every row; identical rows are designed once.
-
-    The community's tilt is searched once first (:func:`community_tilt`).
-    """
-    community_tilt(inputs)
+def distinct_rows(inputs: PlanInputs) -> tuple[list[SurveyRow], list[int]]:
+    """The survey's rows with one design each (same :meth:`PlanInputs.design_key`), and for
+    every row the index of its distinct row."""
     keyed: dict[tuple, int] = {}
     unique: list[SurveyRow] = []
     index_of: list[int] = []
@@ -589,6 +586,16 @@ def design_rows(inputs: PlanInputs, jobs: int = 1) -> DesignedRows:
             keyed[k] = len(unique)
             unique.append(row)
         index_of.append(keyed[k])
+    return unique, index_of
+
+
+def design_rows(inputs: PlanInputs, jobs: int = 1) -> DesignedRows:
+    """Build and design every row; identical rows are designed once.
+
+    The community's tilt is searched once first (:func:`community_tilt`).
+    """
+    community_tilt(inputs)
+    unique, index_of = distinct_rows(inputs)
     results = _design_unique(inputs, unique, jobs)
     problems: list[SurveyProblem] = []
     kept: list[SurveyRow] = []
