@@ -378,6 +378,8 @@ async def test_place_horizon_profile_is_typed_and_validated(state):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
         await wait_for(pilot, lambda: "z Horizon" in screen_text(app).splitlines()[-1])
+        # every key of the Place footer whole at 80 columns, the last one too
+        assert "w Why" in screen_text(app).splitlines()[-1]
         array_w = app.session.design.array.power_w
         await pilot.press("z")
         await pilot.pause()

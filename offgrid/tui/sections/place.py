@@ -146,7 +146,7 @@ class PlaceSection(Section):
 
     BINDINGS = [
         Binding("c", "choose_climate", "Climate", id="place.climate"),
-        Binding("m", "own_months", "Type months", id="place.months"),
+        Binding("m", "own_months", "Months", id="place.months"),
         Binding("k", "check_climate", "Check", id="place.check"),
         Binding("z", "horizon", "Horizon", id="place.horizon"),
     ]
