@@ -22,3 +22,24 @@ class KeyFooter(Footer):
         first.sort(key=lambda w: FIRST.index(w.action))
         yield from first
         yield from (w for w in widgets if w not in first)
+        self.call_after_refresh(self._fit)
+
+    def on_resize(self) -> None:
+        self.call_after_refresh(self._fit)
+
+    def _fit(self) -> None:
+        """Hide the keys that would be cut at the right edge: a key is shown whole or not
+        at all (the hidden ones are in the ``?`` list)."""
+        keys = [w for w in self.children if "-command-palette" not in w.classes]
+        palette = sum(w.outer_size.width + w.styles.margin.width for w in self.children
+                      if "-command-palette" in w.classes)
+        room = self.size.width - palette
+        if room <= 0:
+            return
+        for w in keys:
+            w.display = True
+        used = 0
+        for w in keys:
+            used += w.outer_size.width + w.styles.margin.width
+            if used > room and (not isinstance(w, FooterKey) or w.action not in FIRST):
+                w.display = False
