@@ -23,8 +23,6 @@ from offgrid.economics.bom import (
     BomLine,
     bill_of_materials,
     devices_of,
-    electrical_of,
-    field_of,
     wires_of,
 )
 from offgrid.economics.costs import LifecycleCost, lifecycle_cost, money
@@ -232,7 +230,7 @@ def resolve(tree: dict[str, Any], design: SystemDesign, path: str) -> tuple[Any,
     if head == "wires" and "." in rest:
         key, _, name = rest.partition(".")
         for k, w in enumerate(wires_of(design)):
-            if field_of(w, "key") == key:
+            if w.key == key:
                 where = f"wires.{k}.{name}"
                 return lookup(tree, where), where
     where = f"electrical.{path}"
@@ -248,8 +246,8 @@ def figure_label(design: SystemDesign, path: str) -> str:
     if head == "wires" and "." in rest:
         key, _, name = rest.partition(".")
         for w in wires_of(design):
-            if field_of(w, "key") == key:
-                run = str(field_of(w, "run", key))
+            if w.key == key:
+                run = w.run
                 return f"{run[:1].upper()}{run[1:]}: {WIRE_FIELDS.get(name, name)}"
     return label_of(path)
 
@@ -497,9 +495,8 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
     rows = [_month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
             _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day")]
     harvests = []
-    for label, attr in (("MPPT harvest", "harvest_mppt_wh_day"),
-                        ("PWM harvest", "harvest_pwm_wh_day")):
-        values = getattr(a, attr, ()) or ()
+    for label, attr, values in (("MPPT harvest", "harvest_mppt_wh_day", a.harvest_mppt_wh_day),
+                                ("PWM harvest", "harvest_pwm_wh_day", a.harvest_pwm_wh_day)):
         if len(values) == 12:
             rows.append(_month_row(f"{label}, Wh/day", values, f"array.{attr}"))
             harvests.append((label, values))
@@ -528,24 +525,20 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
 def _iv_blocks(ri: ReportInputs) -> list[Block]:
     """The design-month I-V and P-V curves with the MPP and the PWM point (electrical design)."""
     d = ri.design
-    er = electrical_of(d)
-    curve = getattr(er, "curve", None) if er is not None else None
-    mpp = getattr(er, "mpp", None) if er is not None else None
-    if curve is None or mpp is None:
+    er = d.electrical
+    if er is None:
         return []
-    v = np.asarray(field_of(curve, "voltage_v", ()), dtype=float)
-    i = np.asarray(field_of(curve, "current_a", ()), dtype=float)
+    curve, mpp, harvest = er.curve, er.mpp, er.harvest
+    v = np.asarray(curve.voltage_v, dtype=float)
+    i = np.asarray(curve.current_a, dtype=float)
     if len(v) < 2 or len(v) != len(i):
         return []
     vm, im = float(mpp.vmp_v), float(mpp.imp_a)
-    harvest = getattr(er, "harvest", None)
-    strings = getattr(er, "strings", None)
-    series = getattr(getattr(strings, "layout", None), "series", None) or d.array.modules_series
-    pwm_layout = getattr(harvest, "pwm_layout", None)
-    if pwm_layout:  # the layout the PWM figures assume (may differ from an MPPT design's)
-        series = int(pwm_layout[0])
+    series = er.strings.layout.series or d.array.modules_series
+    if harvest.pwm_layout:  # the layout the PWM figures assume (may differ from an MPPT's)
+        series = int(harvest.pwm_layout[0])
     operating = None
-    v_chg = getattr(harvest, "charging_voltage_v", None)
+    v_chg = harvest.charging_voltage_v
     if v_chg:
         vo = float(v_chg) / series
         if vo <= v[-1]:
@@ -576,10 +569,9 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
         rows.append((_c(f"{label}, power"), _c(f"{operating[0] * operating[1]:,.1f} W "
                                                f"({operating[0] * operating[1] / mpp.pmp_w:.0%} "
                                                "of Pmp)")))
-    if harvest is not None and getattr(harvest, "pwm_vs_mppt_pct", None) is not None:
-        rows.append((_c("PWM against MPPT per module, design month"), Cell(
-            f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
-            "electrical.harvest.pwm_vs_mppt_pct")))
+    rows.append((_c("PWM against MPPT per module, design month"), Cell(
+        f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
+        "electrical.harvest.pwm_vs_mppt_pct")))
     blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))
     return blocks
 
@@ -629,7 +621,7 @@ def _figures(ri: ReportInputs, tree: dict) -> Section:
 def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
     """Cable reasons, one item per column of the schedule: its formula and source once,
     the inputs of every run after it (the figures themselves are in the schedule)."""
-    runs = {str(field_of(w, "key")): str(field_of(w, "run", "")) for w in wires_of(d)}
+    runs = {w.key: w.run for w in wires_of(d)}
     grouped: dict[tuple[str, str, str], list[tuple[str, Reason]]] = {}
     for path in paths:
         reason = d.reasons.get(path)
@@ -702,23 +694,19 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
     devices = devices_of(d)
     blocks: list[Block] = []
     if wires:
-        materials = {str(field_of(w, "material", "")) for w in wires}
+        materials = {w.material for w in wires}
         rows = []
         for k, w in enumerate(wires):
-            fuse = field_of(w, "fuse_a")
+            fuse = w.fuse_a
             rows.append((
-                _c(str(field_of(w, "run", "?"))),
-                Cell(str(field_of(w, "count", 1)), float(field_of(w, "count", 1)),
-                     f"wires.{k}.count"),
-                _num(float(field_of(w, "current_a", 0.0)), 1, f"wires.{k}.current_a"),
-                _num(float(field_of(w, "operating_current_a", field_of(w, "drop_current_a",
-                                                                       0.0))), 1,
-                     f"wires.{k}.drop_current_a"),
-                _num(float(field_of(w, "length_m", 0.0)), 1, f"wires.{k}.length_m"),
-                _c(str(field_of(w, "size", "")) + ("" if len(materials) == 1 else
-                                                   f" {field_of(w, 'material', '')}")),
-                _num(float(field_of(w, "drop_pct", 0.0)), 2, f"wires.{k}.drop_pct"),
-                _num(float(field_of(w, "ampacity_a", 0.0)), 0, f"wires.{k}.ampacity_a"),
+                _c(w.run),
+                Cell(str(w.count), float(w.count), f"wires.{k}.count"),
+                _num(float(w.current_a), 1, f"wires.{k}.current_a"),
+                _num(float(w.operating_current_a), 1, f"wires.{k}.drop_current_a"),
+                _num(float(w.length_m), 1, f"wires.{k}.length_m"),
+                _c(w.size + ("" if len(materials) == 1 else f" {w.material}")),
+                _num(float(w.drop_pct), 2, f"wires.{k}.drop_pct"),
+                _num(float(w.ampacity_a), 0, f"wires.{k}.ampacity_a"),
                 _c("-") if fuse is None else Cell(f"{float(fuse):g}", float(fuse),
                                                   f"wires.{k}.fuse_a"),
             ))
@@ -743,23 +731,20 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
     if devices:
         items = []
         for dev in devices:
-            rating = field_of(dev, "rating_a")
-            volt = field_of(dev, "voltage_v")
-            aic = field_of(dev, "interrupt_rating_a")
-            count = field_of(dev, "count", 1)
-            what = str(field_of(dev, "kind", "device"))
+            rating, volt, aic = dev.rating_a, dev.voltage_v, dev.interrupt_rating_a
+            count = dev.count
+            what = dev.kind
             if rating is not None:
                 what = f"{float(rating):g} A {what}"
             if volt:
                 what += f", at least {math.ceil(float(volt) - 1e-9)} V DC"
             if aic:
                 what += f", interrupting at least {float(aic):,.0f} A"
-            where = str(field_of(dev, "location", field_of(dev, "run", "")))
-            text = f"{where}: {count} x {what}"
-            note = str(field_of(dev, "note", "") or "")
+            text = f"{dev.location}: {count} x {what}"
+            note = dev.note
             if note:
                 text += f"; {note}"
-            src = str(field_of(dev, "source", "") or "")
+            src = dev.source
             if src:
                 text += f" ({src})"
             items.append(text)
