@@ -267,7 +267,8 @@ def compare_variants(project: Project, base: Path | None = None,
         for label, unit, digits, attr in RELIABILITY_ROWS:
             vals = []
             for c in columns:
-                v = getattr(c.reliability, attr, None) if c.reliability is not None else None
+                # attr: a field named in RELIABILITY_ROWS (no default: a renamed one raises)
+                v = getattr(c.reliability, attr) if c.reliability is not None else None
                 vals.append(float(v) * 100.0 if isinstance(v, int | float) else None)
             rows.append(_row(label, unit, digits, vals, "reliability"))
     return VariantComparison(tuple(columns), tuple(rows))

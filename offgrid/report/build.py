@@ -13,7 +13,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -42,6 +42,9 @@ from offgrid.report.document import (
     Table,
 )
 from offgrid.result import Reason, SystemDesign
+
+if TYPE_CHECKING:
+    from offgrid.simulate.run import SimulationReport
 
 MONTHS = charts.MONTHS
 
@@ -151,7 +154,6 @@ WIRE_FIELDS = {"size": "conductor size", "drop_pct": "voltage drop", "ampacity_a
                "fuse_a": "fuse", "current_a": "maximum continuous current",
                "drop_current_a": "operating current (voltage drop)", "length_m": "length",
                "voltage_v": "circuit voltage", "resistance_ohm_km": "conductor resistance"}
-
 
 # ----------------------------------------------------------------------------- formatting
 
@@ -291,15 +293,15 @@ class ReportInputs:
     project: Project
     design: SystemDesign
     climate: MonthlyClimate | None = None
-    reliability: Any = None
+    reliability: SimulationReport | None = None
     comparison: Any = None  # VariantComparison
     charts: bool = True
 
 
 def build_report(project: Project, design: SystemDesign, *, base: Path | None = None,
-                 climate: MonthlyClimate | None = None, reliability: Any = None,
-                 comparison: Any = None, with_charts: bool = True,
-                 with_variants: bool = True) -> Report:
+                 climate: MonthlyClimate | None = None,
+                 reliability: SimulationReport | None = None, comparison: Any = None,
+                 with_charts: bool = True, with_variants: bool = True) -> Report:
     """The report model of a designed project.
 
     ``reliability`` is the simulation's record when it ran; ``comparison`` a
@@ -866,8 +868,10 @@ RELIABILITY_FIGURES: tuple[tuple[str, str, float, str, int], ...] = (
 
 
 def _attr(obj: Any, dotted: str) -> Any:
+    """The figure at a dotted path of RELIABILITY_FIGURES (a name it lists, so no default:
+    a renamed field raises); None where the record leaves a figure out."""
     for part in dotted.split("."):
-        obj = getattr(obj, part, None)
+        obj = getattr(obj, part)
         if obj is None:
             return None
     return obj
@@ -877,25 +881,23 @@ def _reliability(ri: ReportInputs) -> Section | None:
     study = ri.reliability
     if study is None:
         return None
-    rel = getattr(study, "reliability", study)
+    rel = study.reliability
     blocks: list[Block] = []
-    weather = getattr(study, "weather", None) or {}
-    years = getattr(rel, "years", None)
-    if years is not None:
-        seed = getattr(rel, "seed", None)
-        blocks.append(Paragraph(
-            f"Energy balance of this design, {getattr(rel, 'mode', 'daily')} steps, over "
-            f"{years} years of weather ({getattr(rel, 'measured_years', 0)} measured, the rest "
-            f"synthetic; seed {'random' if seed is None else seed}). Weather: "
-            f"{weather.get('source') or getattr(rel, 'weather_source', '')}."))
-    reasons = getattr(rel, "reasons", {}) or {}
+    weather = study.weather or {}
+    seed = rel.seed
+    blocks.append(Paragraph(
+        f"Energy balance of this design, {rel.mode} steps, over "
+        f"{rel.years} years of weather ({rel.measured_years} measured, the rest "
+        f"synthetic; seed {'random' if seed is None else seed}). Weather: "
+        f"{weather.get('source') or rel.weather_source}."))
+    reasons = rel.reasons
     items = []
     for attr, label, scale, unit, digits in RELIABILITY_FIGURES:
         v = _attr(rel, attr)
         if not isinstance(v, int | float) or isinstance(v, bool) or not math.isfinite(v):
             continue
         shown = v * scale
-        if attr == "shed_days" and getattr(rel, "days", None):
+        if attr == "shed_days" and rel.days:
             text = f"{int(v):,d} of {int(rel.days):,d} days"
         else:
             text = f"{shown:,.{digits}f} {unit}".strip()
@@ -906,7 +908,7 @@ def _reliability(ri: ReportInputs) -> Section | None:
                                 r.source if r else ""))
     if items:
         blocks.append(Figures(tuple(items), "Reliability figures"))
-    months = getattr(rel, "months", None) or ()
+    months = rel.months
     if len(months) == 12:
         rows = [_month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
                 _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
@@ -916,20 +918,19 @@ def _reliability(ri: ReportInputs) -> Section | None:
                             ("l",) + ("r",) * 12,
                             "By month: share of days with shedding, and the 5th, 50th and 95th "
                             "percentiles of the day's lowest state of charge."))
-        worst = getattr(rel, "worst_year_soc_min", None) or ()
+        worst = rel.worst_year_soc_min
         svg = charts.soc_by_month_svg(
             [m.soc_min_p5 for m in months], [m.soc_min_p50 for m in months],
-            [m.soc_min_p95 for m in months], worst, getattr(rel, "max_dod", None)
-            or ri.design.battery.max_dod) if ri.charts else ""
+            [m.soc_min_p95 for m in months], worst, ri.design.battery.max_dod) if ri.charts else ""
         text = charts.text_bars(MONTHS, (("p5", "#", [100 * m.soc_min_p5 for m in months]),),
                                 78, "% lowest SoC")
         blocks.append(Chart("soc", "State of charge through the year", svg, tuple(text),
                             "Lowest state of charge of the day: 5th to 95th percentile by month "
                             "(band), median (line) and the year with the most shedding (thin)."))
-    tr = getattr(study, "tradeoff", None)
+    tr = study.tradeoff
     if tr is not None:
         blocks += _tradeoff_blocks(ri, tr)
-    notes = tuple(getattr(rel, "notes", ()) or ()) + tuple(getattr(tr, "notes", ()) or ())
+    notes = rel.notes + (tr.notes if tr is not None else ())
     if notes:
         blocks.append(Bullets(notes))
     return Section("reliability", "Reliability", tuple(blocks))
@@ -1011,7 +1012,7 @@ def _cautions(ri: ReportInputs) -> Section:
     if d.warnings:
         blocks.append(Bullets(tuple(f"{n.message} [{n.code}]" for n in d.warnings), "warning"))
     cautions = list(d.cautions)
-    for extra in getattr(ri.reliability, "cautions", ()) or ():
+    for extra in ri.reliability.cautions if ri.reliability is not None else ():
         if extra not in cautions:
             cautions.append(extra)
     if not any("defers to local electrical code" in c for c in cautions):
