@@ -557,7 +557,8 @@ class PlaceSection(Section):
                 return Figure(f"{MONTHS[month - 1]} sun on the array", value,
                               "site.poa_kwh_m2_day")
             climate = self._climate(self.session)
-            values = getattr(climate, key, None) if climate else None
+            # dynamic: a MonthlyClimate field named in ROWS ("poa", the array row, is not one)
+            values = getattr(climate, key) if climate and key != "poa" else None
             if values:
                 value = f"{values[month - 1]:g}"
             src = climate.source if climate else ""
