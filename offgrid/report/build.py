@@ -1054,18 +1054,17 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
                      f"{inv.hours_on_per_day:g} h/day"),
         ("Albedo", _albedo_text(p.site.albedo)),
     ]
-    w = getattr(p, "wiring", None)
-    if w is not None:
-        ambient = ("the site's hottest monthly mean" if w.ambient_temp_c is None
-                   else f"{w.ambient_temp_c:g} C")
-        items.append(("Cables", f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
-                                f"{w.insulation_temp_c} C insulation, resistance at "
-                                f"{w.conductor_temp_c:g} C, ampacity at {ambient}"))
-        items.append(("Cable runs, one-way", f"string {w.string_run_m:g} m, array "
-                                             f"{w.array_run_m:g} m, controller to battery "
-                                             f"{w.controller_battery_m:g} m, battery to "
-                                             f"inverter {w.battery_inverter_m:g} m, DC loads "
-                                             f"{w.dc_load_run_m:g} m unless set per load"))
+    w = p.wiring
+    ambient = ("the site's hottest monthly mean" if w.ambient_temp_c is None
+               else f"{w.ambient_temp_c:g} C")
+    items.append(("Cables", f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
+                            f"{w.insulation_temp_c} C insulation, resistance at "
+                            f"{w.conductor_temp_c:g} C, ampacity at {ambient}"))
+    items.append(("Cable runs, one-way", f"string {w.string_run_m:g} m, array "
+                                         f"{w.array_run_m:g} m, controller to battery "
+                                         f"{w.controller_battery_m:g} m, battery to "
+                                         f"inverter {w.battery_inverter_m:g} m, DC loads "
+                                         f"{w.dc_load_run_m:g} m unless set per load"))
     blocks.append(Table("assumptions", ("Assumption", "Value"),
                         tuple((_c(k), _c(v)) for k, v in items), ("l", "l"), wrap=(1,)))
     blocks.append(Paragraph("Figures marked 'common practice, no source' follow the usual rule "
