@@ -159,3 +159,25 @@ def test_a_renamed_simulation_field_fails_instead_of_the_preset_battery_life():
                                                      "expected_life_years_renamed"))
     with pytest.raises(AttributeError, match="expected_life_years"):
         lifecycle_cost(project, d, bom, renamed)
+
+
+def _auto_fields():
+    from offgrid.tui.fields import PARTS_FIELDS, PROJECT_FIELDS
+
+    return [f for f in (*PROJECT_FIELDS, *PARTS_FIELDS)
+            if not isinstance(f, str) and f.auto is not None]
+
+
+def test_an_automatic_field_shows_the_design_value_and_a_renamed_one_raises():
+    """A field left to 'auto' shows what the design chose; that figure was read under a
+    blanket suppress, so a renamed one showed the bare 'auto' text."""
+    project, base = CASES["demo"]
+    d = design(project, base)
+    fields = _auto_fields()
+    assert {f.path for f in fields} >= {"site.tilt_deg", "controller.max_current_a"}
+    for f in fields:
+        assert "\u2192" in f.show(None, d), f.path
+    tilt = next(f for f in fields if f.path == "site.tilt_deg")
+    renamed = dataclasses.replace(d, site=_renamed(d.site, "tilt_deg", "tilt_deg_renamed"))
+    with pytest.raises(AttributeError, match="tilt_deg"):
+        tilt.show(None, renamed)

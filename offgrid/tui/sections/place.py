@@ -569,10 +569,12 @@ class PlaceSection(Section):
         field = self.fields.current_field()
         if field is None:
             return None
-        try:
-            value = field.show(get_path(self.session.project, field.path), d)
+        try:  # a project path (a string) through a part that may be unset
+            typed = get_path(self.session.project, field.path)
         except (AttributeError, IndexError):
             value = climate_name(self.session.project)
+        else:
+            value = field.show(typed, d)
         extra = "" if field.reason else "A value you typed; the engine uses it as given."
         return Figure(field.label, value, field.reason, extra=extra)
 
