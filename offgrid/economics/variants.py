@@ -17,10 +17,14 @@ import re
 from collections.abc import Callable
 from dataclasses import dataclass, is_dataclass
 from pathlib import Path
-from typing import Any, get_type_hints
+from typing import TYPE_CHECKING, Any, get_type_hints
 
 from offgrid.project.model import Project, Variant
 from offgrid.result import DesignError, SystemDesign
+
+if TYPE_CHECKING:
+    from offgrid.economics.costs import LifecycleCost
+    from offgrid.simulate.reliability import Reliability
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 _INDEX = re.compile(r"^([A-Za-z_][A-Za-z0-9_]*)\[(\d+)\]$")
@@ -102,8 +106,8 @@ class VariantColumn:
     project: Project | None
     design: SystemDesign | None
     error: str | None  # why the variant could not be designed (or applied)
-    cost: Any = None  # LifecycleCost or None
-    reliability: Any = None
+    cost: LifecycleCost | None = None
+    reliability: Reliability | None = None  # the simulation's record, when it ran
 
 
 @dataclass(frozen=True)
