@@ -44,7 +44,9 @@ from offgrid.report.document import (
 from offgrid.result import Reason, SystemDesign
 
 if TYPE_CHECKING:
+    from offgrid.economics.variants import VariantComparison
     from offgrid.simulate.run import SimulationReport
+    from offgrid.simulate.tradeoff import TradeOff
 
 MONTHS = charts.MONTHS
 
@@ -294,13 +296,14 @@ class ReportInputs:
     design: SystemDesign
     climate: MonthlyClimate | None = None
     reliability: SimulationReport | None = None
-    comparison: Any = None  # VariantComparison
+    comparison: VariantComparison | None = None
     charts: bool = True
 
 
 def build_report(project: Project, design: SystemDesign, *, base: Path | None = None,
                  climate: MonthlyClimate | None = None,
-                 reliability: SimulationReport | None = None, comparison: Any = None,
+                 reliability: SimulationReport | None = None,
+                 comparison: VariantComparison | None = None,
                  with_charts: bool = True, with_variants: bool = True) -> Report:
     """The report model of a designed project.
 
@@ -936,7 +939,7 @@ def _reliability(ri: ReportInputs) -> Section | None:
     return Section("reliability", "Reliability", tuple(blocks))
 
 
-def _tradeoff_blocks(ri: ReportInputs, tr: Any) -> list[Block]:
+def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
     blocks: list[Block] = []
     curves = []
     rows = []
