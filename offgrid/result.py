@@ -12,7 +12,10 @@ from __future__ import annotations
 import functools
 import math
 from dataclasses import asdict, dataclass, field, fields, is_dataclass
-from typing import Any, Literal
+from typing import TYPE_CHECKING, Any, Literal
+
+if TYPE_CHECKING:  # typing only: offgrid.electrical imports this module
+    from offgrid.electrical import ElectricalResult
 
 Severity = Literal["info", "warning", "error"]
 
@@ -223,7 +226,9 @@ class SystemDesign:
     warnings: tuple[Notice, ...]
     cautions: tuple[str, ...]
     reasons: dict[str, Reason] = field(default_factory=dict)
-    electrical: Any = None  # offgrid.electrical.ElectricalResult once the pipeline adds it
+    #: The electrical design (strings, harvest, cables, protection); None only on the
+    #: worst-month core before :func:`offgrid.electrical.with_electrical` adds it.
+    electrical: ElectricalResult | None = None
 
     def why(self, path: str) -> Reason | None:
         """The reason for a figure: by its reason key, or by its path in :meth:`to_dict`

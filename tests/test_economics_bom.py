@@ -11,6 +11,7 @@ import pytest
 from offgrid.economics.bom import CONDUCTORS_PER_RUN, _cable_lines, bill_of_materials, bom_csv
 from offgrid.project.model import Load
 from offgrid.sizing import design
+from offgrid.wiring import WireChoice
 from tests.conftest import hand_project
 from tests.report_helpers import demo
 
@@ -60,14 +61,16 @@ def test_dc_only_project_has_no_inverter():
 
 
 def test_cable_by_size_two_conductors_per_run_rounded_up():
-    wires = [
-        {"run": "array to controller", "current_a": 20.0, "length_m": 10.0,
-         "material": "copper", "size": "6 mm2"},
-        {"run": "controller to battery", "current_a": 40.0, "length_m": 2.2,
-         "material": "copper", "size": "6 mm2"},
-        {"run": "battery to inverter", "current_a": 60.0, "length_m": 1.5,
-         "material": "copper", "size": "16 mm2"},
-    ]
+    def run(name, current_a, length_m, size):
+        return WireChoice(key=name, run=name, count=1, current_a=current_a,
+                          operating_current_a=current_a, length_m=length_m, material="copper",
+                          size=size, area_mm2=0.0, resistance_ohm_km=0.0, drop_v=0.0,
+                          drop_pct=0.0, drop_limit_pct=0.0, ampacity_a=0.0,
+                          required_ampacity_a=0.0, fuse_a=None)
+
+    wires = [run("array to controller", 20.0, 10.0, "6 mm2"),
+             run("controller to battery", 40.0, 2.2, "6 mm2"),
+             run("battery to inverter", 60.0, 1.5, "16 mm2")]
     lines = {ln.key: ln for ln in _cable_lines(wires)}
     assert CONDUCTORS_PER_RUN == 2
     assert lines["cable:copper 6 mm2"].quantity == 25  # 2 x (10 + 2.2) = 24.4 -> 25 m

@@ -25,6 +25,8 @@ from offgrid.economics.costs import (
 )
 from offgrid.project.model import Economics, PriceItem
 from offgrid.project.store import ProjectFileError, loads_project
+from offgrid.simulate.life import BatteryWear
+from offgrid.simulate.reliability import Reliability
 from offgrid.sizing import design
 from tests.conftest import hand_project
 
@@ -129,12 +131,21 @@ def test_battery_life_sources():
     life, src = battery_life(project)
     assert life == BATTERY_LIFE_PRESET_YEARS["agm"] and "preset" in src
 
-    class Sim:
-        battery_life_years = 6.3
-
-    assert battery_life(project, Sim()) == (6.3, "reliability simulation (battery wear)")
+    sim = _reliability_record(expected_life_years=6.3)
+    assert battery_life(project, sim) == (6.3, "reliability simulation (battery wear)")
     project.economics.battery_life_years = 9.0
-    assert battery_life(project, Sim())[0] == 9.0  # the user's figure wins
+    assert battery_life(project, sim)[0] == 9.0  # the user's figure wins
+
+
+def _reliability_record(expected_life_years: float) -> Reliability:
+    """A reliability record with every figure 0 but the battery's expected life."""
+    def zeros(cls, **given):
+        values = {f.name: 0 for f in dataclasses.fields(cls) if f.name != "reasons"}
+        return cls(**{**values, **given})
+
+    return zeros(Reliability, months=(), worst_year_soc_min=(), notes=(),
+                 wear=zeros(BatteryWear, cycle_hist=(),
+                            expected_life_years=expected_life_years))
 
 
 def test_delivered_energy_counts_served_share():

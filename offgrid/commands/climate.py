@@ -296,7 +296,7 @@ def _show_plane(args, climate, h) -> str:
     lon = climate.longitude_deg or 0.0
     elev = climate.elevation_m or 0.0
     try:
-        albedo = args.albedo if args.albedo is not None else getattr(climate, "albedo", None)
+        albedo = args.albedo if args.albedo is not None else climate.albedo
         choice = best_tilt(h, lat, args.azimuth, None, albedo, 10.0, horizon=horizon,
                            longitude_deg=lon, elevation_m=elev)
         tilt = choice.tilt_deg if args.tilt is None else args.tilt
@@ -322,7 +322,7 @@ def run_tilt(args) -> int:
         fail(f"climate '{args.name}' has no latitude_deg")
     demand = _numbers(args.demand, "--demand") if args.demand else None
     try:
-        albedo = args.albedo if args.albedo is not None else getattr(climate, "albedo", None)
+        albedo = args.albedo if args.albedo is not None else climate.albedo
         c = best_tilt(climate.insolation_kwh_m2_day, climate.latitude_deg, args.azimuth, demand,
                       albedo, args.min_tilt, horizon=_horizon(args),
                       longitude_deg=climate.longitude_deg or 0.0,

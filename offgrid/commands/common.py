@@ -151,6 +151,8 @@ def fail(message: str, code: int = 2, field: str | None = None,
 
 def first_field(exc) -> str | None:
     """The field of the first problem of a ProjectFileError / LoadListError, if any."""
+    # getattr stays: any exception reaches here (not a result record); the project and the
+    # load-list errors name their problem's field differently (``path`` / ``field``)
     problems = getattr(exc, "problems", None) or []
     if not problems:
         return getattr(exc, "field", None)

@@ -23,8 +23,10 @@ from dataclasses import dataclass
 from typing import Any
 
 from offgrid.project.model import Project
+from offgrid.protection import Device
 from offgrid.result import SystemDesign
 from offgrid.safetext import csv_row
+from offgrid.wiring import WireChoice
 
 #: Conductors per cable run: go and return of a two-wire DC or single-phase AC circuit.
 CONDUCTORS_PER_RUN = 2
@@ -44,34 +46,14 @@ class BomLine:
         return self.key.split(":", 1)[0]
 
 
-def field_of(obj: Any, name: str, default: Any = None) -> Any:
-    """Attribute or key ``name`` of a record that may be a dataclass or a dict."""
-    if isinstance(obj, dict):
-        return obj.get(name, default)
-    return getattr(obj, name, default)
+def wires_of(design: SystemDesign) -> tuple[WireChoice, ...]:
+    """The cable runs of a design's wiring schedule (none before the electrical step)."""
+    return design.electrical.wires if design.electrical is not None else ()
 
 
-def electrical_of(design: SystemDesign) -> Any:
-    """The electrical design attached to a design (wires, protection, curves), or None."""
-    return getattr(design, "electrical", None)
-
-
-def wires_of(design: SystemDesign) -> tuple[Any, ...]:
-    er = electrical_of(design)
-    if er is not None:
-        return tuple(getattr(er, "wires", ()) or ())
-    return tuple(getattr(design, "wires", ()) or ())
-
-
-def devices_of(design: SystemDesign) -> tuple[Any, ...]:
-    er = electrical_of(design)
-    prot = getattr(er, "protection", None) if er is not None else getattr(
-        design, "protection", None)
-    if prot is None:
-        return ()
-    if isinstance(prot, list | tuple):
-        return tuple(prot)
-    return tuple(getattr(prot, "devices", ()) or ())
+def devices_of(design: SystemDesign) -> tuple[Device, ...]:
+    """The protective devices of a design's schedule (none before the electrical step)."""
+    return design.electrical.protection.devices if design.electrical is not None else ()
 
 
 def kind_key(kind: str) -> str:
@@ -114,21 +96,14 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
     return tuple(lines)
 
 
-def _cable_lines(wires: Iterable[Any]) -> list[BomLine]:
+def _cable_lines(wires: Iterable[WireChoice]) -> list[BomLine]:
     """Cable by material and size: sum over runs of 2 x one-way length x number of runs."""
     totals: dict[tuple[str, str], float] = {}
     runs: dict[tuple[str, str], list[str]] = {}
     for w in wires:
-        length = field_of(w, "length_m")
-        size = field_of(w, "size")
-        if length is None or size is None:
-            continue
-        material = str(field_of(w, "material", "copper"))
-        count = field_of(w, "count", 1) or 1
-        conductors = field_of(w, "conductors", CONDUCTORS_PER_RUN) or CONDUCTORS_PER_RUN
-        key = (material, str(size))
-        totals[key] = totals.get(key, 0.0) + float(length) * conductors * count
-        runs.setdefault(key, []).append(str(field_of(w, "run", "?")))
+        key = (w.material, w.size)
+        totals[key] = totals.get(key, 0.0) + w.length_m * CONDUCTORS_PER_RUN * w.count
+        runs.setdefault(key, []).append(w.run)
     out = []
     for (material, size), metres in totals.items():
         qty = float(math.ceil(metres - 1e-9))
@@ -142,12 +117,12 @@ def _cable_lines(wires: Iterable[Any]) -> list[BomLine]:
 def _protection_lines(design: SystemDesign) -> list[BomLine]:
     """Fuses, breakers and disconnects of the protection schedule, grouped by kind and rating."""
     devices = devices_of(design)
-    grouped: dict[str, list[Any]] = {}
+    grouped: dict[str, list[Device]] = {}
     order: list[str] = []
     for d in devices:
-        kind = kind_key(field_of(d, "kind", field_of(d, "type", "device")))
-        rating = field_of(d, "rating_a")
-        volt = field_of(d, "voltage_v")
+        kind = kind_key(d.kind)
+        rating = d.rating_a
+        volt = d.voltage_v
         detail = f"{_num(rating)} A" if rating is not None else ""
         if volt:
             detail += f" {math.ceil(float(volt) - 1e-9)} V"
@@ -158,8 +133,8 @@ def _protection_lines(design: SystemDesign) -> list[BomLine]:
     out = []
     for key in order:
         items = grouped[key]
-        qty = sum(_count(d) for d in items)
-        where = ", ".join(str(field_of(d, "location", field_of(d, "run", ""))) for d in items)
+        qty = float(sum(d.count for d in items))
+        where = ", ".join(d.location for d in items)
         kind, _, detail = key.partition(":")
         desc = f"{kind.replace('-', ' ').capitalize()} {detail}".strip()
         if detail.endswith(" V"):
@@ -168,11 +143,6 @@ def _protection_lines(design: SystemDesign) -> list[BomLine]:
                 f", at least {volts} V DC"
         out.append(BomLine(key, desc, qty, "each", f"protection schedule: {where}"))
     return out
-
-
-def _count(device: Any) -> float:
-    n = field_of(device, "count", field_of(device, "quantity", 1))
-    return 1.0 if n is None else float(n)
 
 
 def bom_csv(lines: Iterable[BomLine], prices: dict[str, float] | None = None,

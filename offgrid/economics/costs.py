@@ -27,6 +27,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -34,6 +35,10 @@ from offgrid.economics.bom import BomLine
 from offgrid.economics.prices import price_for
 from offgrid.project.model import Economics, Project
 from offgrid.result import Reason, SystemDesign, fmt
+from offgrid.simulate.reliability import Reliability
+
+if TYPE_CHECKING:
+    from offgrid.simulate.run import SimulationReport
 
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
 
@@ -132,20 +137,22 @@ class LifecycleCost:
                 "`offgrid prices PROJECT --import FILE.csv`.")
 
 
-def battery_life(project: Project, reliability=None) -> tuple[float, str]:
+def _record(reliability: SimulationReport | Reliability | None) -> Reliability | None:
+    """The reliability record of a whole study (the report's input) or the record itself."""
+    if reliability is None or isinstance(reliability, Reliability):
+        return reliability
+    return reliability.reliability
+
+
+def battery_life(project: Project, reliability: SimulationReport | Reliability | None = None,
+                 ) -> tuple[float, str]:
     """Battery service life [years] and where it came from: project, simulation or preset."""
     e = project.economics
     if e.battery_life_years is not None:
         return float(e.battery_life_years), "project file (economics.battery_life_years)"
-    sim_life = None
-    rel = getattr(reliability, "reliability", reliability)  # a whole study or its record
-    if rel is not None:
-        wear = getattr(rel, "wear", None)
-        sim_life = getattr(wear, "expected_life_years", None) if wear is not None else None
-        for name in ("battery_life_years", "battery_life"):
-            if sim_life is None:
-                sim_life = getattr(rel, name, None)
-    if isinstance(sim_life, int | float) and math.isfinite(sim_life) and sim_life > 0:
+    rel = _record(reliability)
+    sim_life = rel.wear.expected_life_years if rel is not None else None
+    if sim_life is not None and math.isfinite(sim_life) and sim_life > 0:
         return float(sim_life), "reliability simulation (battery wear)"
     return BATTERY_LIFE_PRESET_YEARS[project.battery.chemistry], BATTERY_LIFE_SOURCE
 
@@ -160,19 +167,17 @@ def delivered_energy_kwh_year(design: SystemDesign, served_fraction: float = 1.0
     return float((daily * DAYS_IN_MONTH).sum() / 1000.0 * served_fraction)
 
 
-def _served_fraction(reliability) -> float:
-    rel = getattr(reliability, "reliability", reliability)
+def _served_fraction(reliability: SimulationReport | Reliability | None) -> float:
+    rel = _record(reliability)
     if rel is None:
         return 1.0
-    for name in ("unmet_fraction", "unmet_energy_fraction"):
-        v = getattr(rel, name, None)
-        if isinstance(v, int | float) and math.isfinite(v) and 0 <= v <= 1:
-            return 1.0 - float(v)
-    return 1.0
+    v = rel.unmet_fraction
+    return 1.0 - float(v) if math.isfinite(v) and 0 <= v <= 1 else 1.0
 
 
 def lifecycle_cost(project: Project, design: SystemDesign, bom: tuple[BomLine, ...],
-                   reliability=None) -> LifecycleCost:
+                   reliability: SimulationReport | Reliability | None = None,
+                   ) -> LifecycleCost:
     """Capital, replacements, upkeep and the lifecycle cost per kWh delivered."""
     e = project.economics
     d = e.discount_rate_pct / 100.0

@@ -17,10 +17,14 @@ import re
 from collections.abc import Callable
 from dataclasses import dataclass, is_dataclass
 from pathlib import Path
-from typing import Any, get_type_hints
+from typing import TYPE_CHECKING, Any, get_type_hints
 
 from offgrid.project.model import Project, Variant
 from offgrid.result import DesignError, SystemDesign
+
+if TYPE_CHECKING:
+    from offgrid.economics.costs import LifecycleCost
+    from offgrid.simulate.reliability import Reliability
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 _INDEX = re.compile(r"^([A-Za-z_][A-Za-z0-9_]*)\[(\d+)\]$")
@@ -102,8 +106,8 @@ class VariantColumn:
     project: Project | None
     design: SystemDesign | None
     error: str | None  # why the variant could not be designed (or applied)
-    cost: Any = None  # LifecycleCost or None
-    reliability: Any = None
+    cost: LifecycleCost | None = None
+    reliability: Reliability | None = None  # the simulation's record, when it ran
 
 
 @dataclass(frozen=True)
@@ -267,7 +271,8 @@ def compare_variants(project: Project, base: Path | None = None,
         for label, unit, digits, attr in RELIABILITY_ROWS:
             vals = []
             for c in columns:
-                v = getattr(c.reliability, attr, None) if c.reliability is not None else None
+                # attr: a field named in RELIABILITY_ROWS (no default: a renamed one raises)
+                v = getattr(c.reliability, attr) if c.reliability is not None else None
                 vals.append(float(v) * 100.0 if isinstance(v, int | float) else None)
             rows.append(_row(label, unit, digits, vals, "reliability"))
     return VariantComparison(tuple(columns), tuple(rows))

@@ -13,7 +13,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -23,8 +23,6 @@ from offgrid.economics.bom import (
     BomLine,
     bill_of_materials,
     devices_of,
-    electrical_of,
-    field_of,
     wires_of,
 )
 from offgrid.economics.costs import LifecycleCost, lifecycle_cost, money
@@ -44,6 +42,11 @@ from offgrid.report.document import (
     Table,
 )
 from offgrid.result import Reason, SystemDesign
+
+if TYPE_CHECKING:
+    from offgrid.economics.variants import VariantComparison
+    from offgrid.simulate.run import SimulationReport
+    from offgrid.simulate.tradeoff import TradeOff
 
 MONTHS = charts.MONTHS
 
@@ -154,7 +157,6 @@ WIRE_FIELDS = {"size": "conductor size", "drop_pct": "voltage drop", "ampacity_a
                "drop_current_a": "operating current (voltage drop)", "length_m": "length",
                "voltage_v": "circuit voltage", "resistance_ohm_km": "conductor resistance"}
 
-
 # ----------------------------------------------------------------------------- formatting
 
 def unit_of(path: str) -> str:
@@ -232,7 +234,7 @@ def resolve(tree: dict[str, Any], design: SystemDesign, path: str) -> tuple[Any,
     if head == "wires" and "." in rest:
         key, _, name = rest.partition(".")
         for k, w in enumerate(wires_of(design)):
-            if field_of(w, "key") == key:
+            if w.key == key:
                 where = f"wires.{k}.{name}"
                 return lookup(tree, where), where
     where = f"electrical.{path}"
@@ -248,8 +250,8 @@ def figure_label(design: SystemDesign, path: str) -> str:
     if head == "wires" and "." in rest:
         key, _, name = rest.partition(".")
         for w in wires_of(design):
-            if field_of(w, "key") == key:
-                run = str(field_of(w, "run", key))
+            if w.key == key:
+                run = w.run
                 return f"{run[:1].upper()}{run[1:]}: {WIRE_FIELDS.get(name, name)}"
     return label_of(path)
 
@@ -293,15 +295,16 @@ class ReportInputs:
     project: Project
     design: SystemDesign
     climate: MonthlyClimate | None = None
-    reliability: Any = None
-    comparison: Any = None  # VariantComparison
+    reliability: SimulationReport | None = None
+    comparison: VariantComparison | None = None
     charts: bool = True
 
 
 def build_report(project: Project, design: SystemDesign, *, base: Path | None = None,
-                 climate: MonthlyClimate | None = None, reliability: Any = None,
-                 comparison: Any = None, with_charts: bool = True,
-                 with_variants: bool = True) -> Report:
+                 climate: MonthlyClimate | None = None,
+                 reliability: SimulationReport | None = None,
+                 comparison: VariantComparison | None = None,
+                 with_charts: bool = True, with_variants: bool = True) -> Report:
     """The report model of a designed project.
 
     ``reliability`` is the simulation's record when it ran; ``comparison`` a
@@ -497,9 +500,8 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
     rows = [_month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
             _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day")]
     harvests = []
-    for label, attr in (("MPPT harvest", "harvest_mppt_wh_day"),
-                        ("PWM harvest", "harvest_pwm_wh_day")):
-        values = getattr(a, attr, ()) or ()
+    for label, attr, values in (("MPPT harvest", "harvest_mppt_wh_day", a.harvest_mppt_wh_day),
+                                ("PWM harvest", "harvest_pwm_wh_day", a.harvest_pwm_wh_day)):
         if len(values) == 12:
             rows.append(_month_row(f"{label}, Wh/day", values, f"array.{attr}"))
             harvests.append((label, values))
@@ -528,24 +530,20 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
 def _iv_blocks(ri: ReportInputs) -> list[Block]:
     """The design-month I-V and P-V curves with the MPP and the PWM point (electrical design)."""
     d = ri.design
-    er = electrical_of(d)
-    curve = getattr(er, "curve", None) if er is not None else None
-    mpp = getattr(er, "mpp", None) if er is not None else None
-    if curve is None or mpp is None:
+    er = d.electrical
+    if er is None:
         return []
-    v = np.asarray(field_of(curve, "voltage_v", ()), dtype=float)
-    i = np.asarray(field_of(curve, "current_a", ()), dtype=float)
+    curve, mpp, harvest = er.curve, er.mpp, er.harvest
+    v = np.asarray(curve.voltage_v, dtype=float)
+    i = np.asarray(curve.current_a, dtype=float)
     if len(v) < 2 or len(v) != len(i):
         return []
     vm, im = float(mpp.vmp_v), float(mpp.imp_a)
-    harvest = getattr(er, "harvest", None)
-    strings = getattr(er, "strings", None)
-    series = getattr(getattr(strings, "layout", None), "series", None) or d.array.modules_series
-    pwm_layout = getattr(harvest, "pwm_layout", None)
-    if pwm_layout:  # the layout the PWM figures assume (may differ from an MPPT design's)
-        series = int(pwm_layout[0])
+    series = er.strings.layout.series or d.array.modules_series
+    if harvest.pwm_layout:  # the layout the PWM figures assume (may differ from an MPPT's)
+        series = int(harvest.pwm_layout[0])
     operating = None
-    v_chg = getattr(harvest, "charging_voltage_v", None)
+    v_chg = harvest.charging_voltage_v
     if v_chg:
         vo = float(v_chg) / series
         if vo <= v[-1]:
@@ -576,10 +574,9 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
         rows.append((_c(f"{label}, power"), _c(f"{operating[0] * operating[1]:,.1f} W "
                                                f"({operating[0] * operating[1] / mpp.pmp_w:.0%} "
                                                "of Pmp)")))
-    if harvest is not None and getattr(harvest, "pwm_vs_mppt_pct", None) is not None:
-        rows.append((_c("PWM against MPPT per module, design month"), Cell(
-            f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
-            "electrical.harvest.pwm_vs_mppt_pct")))
+    rows.append((_c("PWM against MPPT per module, design month"), Cell(
+        f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
+        "electrical.harvest.pwm_vs_mppt_pct")))
     blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))
     return blocks
 
@@ -629,7 +626,7 @@ def _figures(ri: ReportInputs, tree: dict) -> Section:
 def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
     """Cable reasons, one item per column of the schedule: its formula and source once,
     the inputs of every run after it (the figures themselves are in the schedule)."""
-    runs = {str(field_of(w, "key")): str(field_of(w, "run", "")) for w in wires_of(d)}
+    runs = {w.key: w.run for w in wires_of(d)}
     grouped: dict[tuple[str, str, str], list[tuple[str, Reason]]] = {}
     for path in paths:
         reason = d.reasons.get(path)
@@ -702,23 +699,19 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
     devices = devices_of(d)
     blocks: list[Block] = []
     if wires:
-        materials = {str(field_of(w, "material", "")) for w in wires}
+        materials = {w.material for w in wires}
         rows = []
         for k, w in enumerate(wires):
-            fuse = field_of(w, "fuse_a")
+            fuse = w.fuse_a
             rows.append((
-                _c(str(field_of(w, "run", "?"))),
-                Cell(str(field_of(w, "count", 1)), float(field_of(w, "count", 1)),
-                     f"wires.{k}.count"),
-                _num(float(field_of(w, "current_a", 0.0)), 1, f"wires.{k}.current_a"),
-                _num(float(field_of(w, "operating_current_a", field_of(w, "drop_current_a",
-                                                                       0.0))), 1,
-                     f"wires.{k}.drop_current_a"),
-                _num(float(field_of(w, "length_m", 0.0)), 1, f"wires.{k}.length_m"),
-                _c(str(field_of(w, "size", "")) + ("" if len(materials) == 1 else
-                                                   f" {field_of(w, 'material', '')}")),
-                _num(float(field_of(w, "drop_pct", 0.0)), 2, f"wires.{k}.drop_pct"),
-                _num(float(field_of(w, "ampacity_a", 0.0)), 0, f"wires.{k}.ampacity_a"),
+                _c(w.run),
+                Cell(str(w.count), float(w.count), f"wires.{k}.count"),
+                _num(float(w.current_a), 1, f"wires.{k}.current_a"),
+                _num(float(w.operating_current_a), 1, f"wires.{k}.drop_current_a"),
+                _num(float(w.length_m), 1, f"wires.{k}.length_m"),
+                _c(w.size + ("" if len(materials) == 1 else f" {w.material}")),
+                _num(float(w.drop_pct), 2, f"wires.{k}.drop_pct"),
+                _num(float(w.ampacity_a), 0, f"wires.{k}.ampacity_a"),
                 _c("-") if fuse is None else Cell(f"{float(fuse):g}", float(fuse),
                                                   f"wires.{k}.fuse_a"),
             ))
@@ -743,23 +736,20 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
     if devices:
         items = []
         for dev in devices:
-            rating = field_of(dev, "rating_a")
-            volt = field_of(dev, "voltage_v")
-            aic = field_of(dev, "interrupt_rating_a")
-            count = field_of(dev, "count", 1)
-            what = str(field_of(dev, "kind", "device"))
+            rating, volt, aic = dev.rating_a, dev.voltage_v, dev.interrupt_rating_a
+            count = dev.count
+            what = dev.kind
             if rating is not None:
                 what = f"{float(rating):g} A {what}"
             if volt:
                 what += f", at least {math.ceil(float(volt) - 1e-9)} V DC"
             if aic:
                 what += f", interrupting at least {float(aic):,.0f} A"
-            where = str(field_of(dev, "location", field_of(dev, "run", "")))
-            text = f"{where}: {count} x {what}"
-            note = str(field_of(dev, "note", "") or "")
+            text = f"{dev.location}: {count} x {what}"
+            note = dev.note
             if note:
                 text += f"; {note}"
-            src = str(field_of(dev, "source", "") or "")
+            src = dev.source
             if src:
                 text += f" ({src})"
             items.append(text)
@@ -881,8 +871,10 @@ RELIABILITY_FIGURES: tuple[tuple[str, str, float, str, int], ...] = (
 
 
 def _attr(obj: Any, dotted: str) -> Any:
+    """The figure at a dotted path of RELIABILITY_FIGURES (a name it lists, so no default:
+    a renamed field raises); None where the record leaves a figure out."""
     for part in dotted.split("."):
-        obj = getattr(obj, part, None)
+        obj = getattr(obj, part)
         if obj is None:
             return None
     return obj
@@ -892,25 +884,23 @@ def _reliability(ri: ReportInputs) -> Section | None:
     study = ri.reliability
     if study is None:
         return None
-    rel = getattr(study, "reliability", study)
+    rel = study.reliability
     blocks: list[Block] = []
-    weather = getattr(study, "weather", None) or {}
-    years = getattr(rel, "years", None)
-    if years is not None:
-        seed = getattr(rel, "seed", None)
-        blocks.append(Paragraph(
-            f"Energy balance of this design, {getattr(rel, 'mode', 'daily')} steps, over "
-            f"{years} years of weather ({getattr(rel, 'measured_years', 0)} measured, the rest "
-            f"synthetic; seed {'random' if seed is None else seed}). Weather: "
-            f"{weather.get('source') or getattr(rel, 'weather_source', '')}."))
-    reasons = getattr(rel, "reasons", {}) or {}
+    weather = study.weather or {}
+    seed = rel.seed
+    blocks.append(Paragraph(
+        f"Energy balance of this design, {rel.mode} steps, over "
+        f"{rel.years} years of weather ({rel.measured_years} measured, the rest "
+        f"synthetic; seed {'random' if seed is None else seed}). Weather: "
+        f"{weather.get('source') or rel.weather_source}."))
+    reasons = rel.reasons
     items = []
     for attr, label, scale, unit, digits in RELIABILITY_FIGURES:
         v = _attr(rel, attr)
         if not isinstance(v, int | float) or isinstance(v, bool) or not math.isfinite(v):
             continue
         shown = v * scale
-        if attr == "shed_days" and getattr(rel, "days", None):
+        if attr == "shed_days" and rel.days:
             text = f"{int(v):,d} of {int(rel.days):,d} days"
         else:
             text = f"{shown:,.{digits}f} {unit}".strip()
@@ -921,7 +911,7 @@ def _reliability(ri: ReportInputs) -> Section | None:
                                 r.source if r else ""))
     if items:
         blocks.append(Figures(tuple(items), "Reliability figures"))
-    months = getattr(rel, "months", None) or ()
+    months = rel.months
     if len(months) == 12:
         rows = [_month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
                 _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
@@ -931,26 +921,25 @@ def _reliability(ri: ReportInputs) -> Section | None:
                             ("l",) + ("r",) * 12,
                             "By month: share of days with shedding, and the 5th, 50th and 95th "
                             "percentiles of the day's lowest state of charge."))
-        worst = getattr(rel, "worst_year_soc_min", None) or ()
+        worst = rel.worst_year_soc_min
         svg = charts.soc_by_month_svg(
             [m.soc_min_p5 for m in months], [m.soc_min_p50 for m in months],
-            [m.soc_min_p95 for m in months], worst, getattr(rel, "max_dod", None)
-            or ri.design.battery.max_dod) if ri.charts else ""
+            [m.soc_min_p95 for m in months], worst, ri.design.battery.max_dod) if ri.charts else ""
         text = charts.text_bars(MONTHS, (("p5", "#", [100 * m.soc_min_p5 for m in months]),),
                                 78, "% lowest SoC")
         blocks.append(Chart("soc", "State of charge through the year", svg, tuple(text),
                             "Lowest state of charge of the day: 5th to 95th percentile by month "
                             "(band), median (line) and the year with the most shedding (thin)."))
-    tr = getattr(study, "tradeoff", None)
+    tr = study.tradeoff
     if tr is not None:
         blocks += _tradeoff_blocks(ri, tr)
-    notes = tuple(getattr(rel, "notes", ()) or ()) + tuple(getattr(tr, "notes", ()) or ())
+    notes = rel.notes + (tr.notes if tr is not None else ())
     if notes:
         blocks.append(Bullets(notes))
     return Section("reliability", "Reliability", tuple(blocks))
 
 
-def _tradeoff_blocks(ri: ReportInputs, tr: Any) -> list[Block]:
+def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
     blocks: list[Block] = []
     curves = []
     rows = []
@@ -1026,7 +1015,7 @@ def _cautions(ri: ReportInputs) -> Section:
     if d.warnings:
         blocks.append(Bullets(tuple(f"{n.message} [{n.code}]" for n in d.warnings), "warning"))
     cautions = list(d.cautions)
-    for extra in getattr(ri.reliability, "cautions", ()) or ():
+    for extra in ri.reliability.cautions if ri.reliability is not None else ():
         if extra not in cautions:
             cautions.append(extra)
     if not any("defers to local electrical code" in c for c in cautions):
@@ -1068,18 +1057,17 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
                      f"{inv.hours_on_per_day:g} h/day"),
         ("Albedo", _albedo_text(p.site.albedo)),
     ]
-    w = getattr(p, "wiring", None)
-    if w is not None:
-        ambient = ("the site's hottest monthly mean" if w.ambient_temp_c is None
-                   else f"{w.ambient_temp_c:g} C")
-        items.append(("Cables", f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
-                                f"{w.insulation_temp_c} C insulation, resistance at "
-                                f"{w.conductor_temp_c:g} C, ampacity at {ambient}"))
-        items.append(("Cable runs, one-way", f"string {w.string_run_m:g} m, array "
-                                             f"{w.array_run_m:g} m, controller to battery "
-                                             f"{w.controller_battery_m:g} m, battery to "
-                                             f"inverter {w.battery_inverter_m:g} m, DC loads "
-                                             f"{w.dc_load_run_m:g} m unless set per load"))
+    w = p.wiring
+    ambient = ("the site's hottest monthly mean" if w.ambient_temp_c is None
+               else f"{w.ambient_temp_c:g} C")
+    items.append(("Cables", f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
+                            f"{w.insulation_temp_c} C insulation, resistance at "
+                            f"{w.conductor_temp_c:g} C, ampacity at {ambient}"))
+    items.append(("Cable runs, one-way", f"string {w.string_run_m:g} m, array "
+                                         f"{w.array_run_m:g} m, controller to battery "
+                                         f"{w.controller_battery_m:g} m, battery to "
+                                         f"inverter {w.battery_inverter_m:g} m, DC loads "
+                                         f"{w.dc_load_run_m:g} m unless set per load"))
     blocks.append(Table("assumptions", ("Assumption", "Value"),
                         tuple((_c(k), _c(v)) for k, v in items), ("l", "l"), wrap=(1,)))
     blocks.append(Paragraph("Figures marked 'common practice, no source' follow the usual rule "

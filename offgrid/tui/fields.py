@@ -8,7 +8,6 @@ No Textual here.
 
 from __future__ import annotations
 
-import contextlib
 import re
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -53,9 +52,7 @@ class Field:
         if value is None:
             text = self.auto_text
             if self.auto is not None and design is not None:
-                with contextlib.suppress(AttributeError, IndexError, KeyError, TypeError,
-                                         ValueError):
-                    text += f" \u2192 {self.auto(design)}"
+                text += f" \u2192 {self.auto(design)}"
             return text
         if self.base_kind == "choice":
             for v, label in self.choices:

@@ -35,11 +35,11 @@ def array_curves(project, design) -> list[Curve]:
     from offgrid.electrical import HOT_IRRADIANCE_W_M2
     from offgrid.pv import iv_curve
 
-    er = getattr(design, "electrical", None)
-    if er is None or er.fit is None or er.strings is None:
+    er = design.electrical
+    if er is None:
         return []
     series = int(er.strings.layout.series)
-    v_chg = float(er.harvest.charging_voltage_v) if er.harvest is not None else None
+    v_chg = float(er.harvest.charging_voltage_v)
     window = (v_chg or 0.0, float(project.controller.max_pv_voltage_v))
     area = float(project.module.area_m2)
     months = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"]

@@ -794,7 +794,7 @@ class OptionsSection(Section):
             from offgrid.economics.variants import RELIABILITY_ROWS
 
             attr = next((a for lbl, _u, _d, a in RELIABILITY_ROWS if lbl == row.label), "")
-            reason = getattr(col.reliability, "reasons", {}).get(attr)
+            reason = col.reliability.reasons.get(attr)
             return Figure(label, value, None, reason, extra=f"{RISK_YEARS} synthetic weather "
                           "years through this option's design, as in 7 Risk.")
         if row.group == "choices":

@@ -557,7 +557,8 @@ class PlaceSection(Section):
                 return Figure(f"{MONTHS[month - 1]} sun on the array", value,
                               "site.poa_kwh_m2_day")
             climate = self._climate(self.session)
-            values = getattr(climate, key, None) if climate else None
+            # dynamic: a MonthlyClimate field named in ROWS ("poa", the array row, is not one)
+            values = getattr(climate, key) if climate and key != "poa" else None
             if values:
                 value = f"{values[month - 1]:g}"
             src = climate.source if climate else ""
@@ -568,10 +569,12 @@ class PlaceSection(Section):
         field = self.fields.current_field()
         if field is None:
             return None
-        try:
-            value = field.show(get_path(self.session.project, field.path), d)
+        try:  # a project path (a string) through a part that may be unset
+            typed = get_path(self.session.project, field.path)
         except (AttributeError, IndexError):
             value = climate_name(self.session.project)
+        else:
+            value = field.show(typed, d)
         extra = "" if field.reason else "A value you typed; the engine uses it as given."
         return Figure(field.label, value, field.reason, extra=extra)
 

@@ -90,31 +90,27 @@ def figure_rows(d: SystemDesign) -> list[Row]:
 
 def electrical_rows(d: SystemDesign) -> list[Row]:
     """Strings, module operating point and harvest from the electrical design, if present."""
-    er = getattr(d, "electrical", None)
+    er = d.electrical
     if er is None:
         return []
     rows: list[Row] = ["Strings and module"]
-    try:
-        w, lay, h, mp = er.strings.window, er.strings.layout, er.harvest, er.mpp
-        rows += [
-            ("Series count allowed", f"{w.min_series} to {w.max_series} modules",
-             "strings.max_series"),
-            ("Layout", f"{lay.series} in series \u00d7 {lay.parallel} strings"
-             + (f" on {lay.controllers} controllers" if lay.controllers > 1 else ""),
-             "strings.min_series"),
-            ("Module at design-month noon", f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, "
-             f"{mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)", "mpp.pmp_w"),
-            ("PWM against MPPT, per module", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
-             "array.harvest_pwm_wh_day"),
-        ]
-        if h.shortfall_pct > 0:
-            rows.append(("Harvest short of demand", f"{h.shortfall_pct:.1f} %",
-                         "array.harvest_mppt_wh_day"))
-        p = er.protection
-        rows.append(("Battery bank fault current", f"{p.bank_fault_current_a:,.0f} A",
-                     "protection.bank_fault_current_a"))
-    except AttributeError:  # an older or newer electrical record: show what we can
-        return rows[:1] + [(k, v, path) for k, v, path in rows[1:]]
+    w, lay, h, mp = er.strings.window, er.strings.layout, er.harvest, er.mpp
+    rows += [
+        ("Series count allowed", f"{w.min_series} to {w.max_series} modules",
+         "strings.max_series"),
+        ("Layout", f"{lay.series} in series \u00d7 {lay.parallel} strings"
+         + (f" on {lay.controllers} controllers" if lay.controllers > 1 else ""),
+         "strings.min_series"),
+        ("Module at design-month noon", f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, "
+         f"{mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)", "mpp.pmp_w"),
+        ("PWM against MPPT, per module", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
+         "array.harvest_pwm_wh_day"),
+    ]
+    if h.shortfall_pct > 0:
+        rows.append(("Harvest short of demand", f"{h.shortfall_pct:.1f} %",
+                     "array.harvest_mppt_wh_day"))
+    rows.append(("Battery bank fault current", f"{er.protection.bank_fault_current_a:,.0f} A",
+                 "protection.bank_fault_current_a"))
     return rows
 
 
@@ -137,7 +133,7 @@ def extra_rows(d: SystemDesign) -> list[Row]:
     for f in dataclasses.fields(d):
         if f.name in KNOWN or f.name == "wires":
             continue
-        value = getattr(d, f.name)
+        value = getattr(d, f.name)  # dynamic: every declared field of the design record
         if not dataclasses.is_dataclass(value):
             continue
         rows.append(f.name.replace("_", " ").capitalize())

@@ -10,8 +10,6 @@ Without an electrical design the section shows the main DC figures of the sizing
 
 from __future__ import annotations
 
-from typing import Any
-
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -28,6 +26,7 @@ from offgrid.tui.text import clip, printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 from offgrid.tui.widgets.steady import SteadyTable
+from offgrid.wiring import WireChoice
 
 LENGTH_LIMITS_M = RUN_LENGTH_RANGE_M
 
@@ -64,15 +63,11 @@ REASON_OF_COLUMN = {"run": "size", "count": "size", "current_a": "current_a", "s
                     "drop_limit_pct": "drop_pct", "fuse_a": "fuse_a"}
 
 
-def runs_of(design: SystemDesign | None) -> list[Any]:
-    """The cable runs of the design, from the electrical result or a ``wires`` field."""
-    if design is None:
+def runs_of(design: SystemDesign | None) -> list[WireChoice]:
+    """The cable runs of the design's electrical result (none without one)."""
+    if design is None or design.electrical is None:
         return []
-    er = getattr(design, "electrical", None)
-    runs = getattr(er, "wires", None) if er is not None else getattr(design, "wires", None)
-    if not runs:
-        return []
-    return list(runs.values()) if isinstance(runs, dict) else list(runs)
+    return list(design.electrical.wires)
 
 
 def basic_rows(d: SystemDesign) -> list[tuple[str, str, str]]:
@@ -120,7 +115,7 @@ class WiresSection(Section):
 
     def __init__(self, **kwargs) -> None:
         super().__init__(**kwargs)
-        self._runs: list[Any] = []
+        self._runs: list[WireChoice] = []
         self._basic: list[tuple[str, str, str]] = []
 
     def compose(self) -> ComposeResult:
@@ -175,7 +170,7 @@ class WiresSection(Section):
                 cells = []
                 for key, _label, w in COLUMNS:
                     w = run_w if key == "run" else w
-                    value = getattr(r, key, None)
+                    value = getattr(r, key)  # dynamic: a WireChoice field named in COLUMNS
                     if key == "run":
                         cells.append(Text(clip(printable(str(value)), w - 1).ljust(w)))
                     elif key == "size":
@@ -190,7 +185,7 @@ class WiresSection(Section):
                     else:
                         cells.append(Text(f"{_num(value)} ".rjust(w)))
                 table.add_row(*cells, key=str(i))
-            n_dev = len(getattr(getattr(d.electrical, "protection", None), "devices", ()) or ())
+            n_dev = len(d.electrical.protection.devices) if d.electrical is not None else 0
             note.update(Text(f"{len(self._runs)} cable runs \u00b7 Enter on a length edits it "
                              f"\u00b7 p: the {n_dev} fuses and switches", style="bold"))
         else:
@@ -282,8 +277,8 @@ class WiresSection(Section):
         from offgrid.tui.screens.dialogs import MessageDialog
 
         d = self.session.design
-        er = getattr(d, "electrical", None) if d else None
-        devices = getattr(getattr(er, "protection", None), "devices", None)
+        er = d.electrical if d is not None else None
+        devices = er.protection.devices if er is not None else ()
         if not devices:
             self.app.notify("No protective devices: the electrical design is not available.",
                             timeout=3)
@@ -322,7 +317,7 @@ class WiresSection(Section):
                               extra="A one-way length you typed (or the default); Enter "
                                     f"changes it (project field {run.length_path}).")
             what = REASON_OF_COLUMN.get(column, "size")
-            value = getattr(run, column, "")
+            value = getattr(run, column)  # dynamic: a WireChoice field named in COLUMNS
             shown = f"{value:.2f}" if isinstance(value, float) else str(value)
             label = {"current_a": "maximum continuous current (ampacity, fuse)",
                      "operating_current_a": "operating current (voltage drop)"}.get(

@@ -74,10 +74,12 @@ class FieldTable(SteadyTable):
             if row.path in special:
                 shown = special[row.path]
             else:
-                try:
-                    shown = row.show(get_path(project, row.path), design)
+                try:  # a project path (a string) through a part that may be unset
+                    typed = get_path(project, row.path)
                 except (AttributeError, IndexError):
                     shown = "-"
+                else:
+                    shown = row.show(typed, design)
             if getattr(self.app, "plain", False):  # ASCII for a plain terminal
                 shown = shown.replace("\u2192", "->")
             value = literal(shown)
