@@ -32,15 +32,27 @@ def main() -> None:
     warnings.filterwarnings("ignore")
     # a cold process: Python start, pvlib import, read, reduce, checks
     sample = "import pvlib, pathlib; print(pathlib.Path(pvlib.__file__).parent / 'data')"
-    data = Path(subprocess.run([sys.executable, "-c", sample], capture_output=True, text=True,
-                               check=True).stdout.strip())
+    data = Path(
+        subprocess.run(
+            [sys.executable, "-c", sample], capture_output=True, text=True, check=True
+        ).stdout.strip()
+    )
     tmy3 = data / "723170TYA.CSV"
     cold = []
     for _ in range(3):
         t = time.perf_counter()
-        subprocess.run([sys.executable, "-W", "ignore", "-c",
-                        "from offgrid.climate.importers import import_weather_file as f; "
-                        f"f({str(tmy3)!r})"], check=True, cwd=ROOT, capture_output=True)
+        subprocess.run(
+            [
+                sys.executable,
+                "-W",
+                "ignore",
+                "-c",
+                f"from offgrid.climate.importers import import_weather_file as f; f({str(tmy3)!r})",
+            ],
+            check=True,
+            cwd=ROOT,
+            capture_output=True,
+        )
         cold.append(time.perf_counter() - t)
     print(f"TMY3 import, whole cold process (pvlib import included): best {min(cold):.2f} s")
 
@@ -61,8 +73,10 @@ def main() -> None:
             rows = read_hourly(path)
             rb, _ = _best(lambda r=rows: reduce_hourly(r), 20)
             ib, _ = _best(lambda p=path: import_weather_file(p), 3)
-            print(f"{label}: read {b * 1000:.0f} ms (median {m * 1000:.0f}), reduce "
-                  f"{rb * 1000:.1f} ms, import with checks {ib * 1000:.0f} ms (pvlib loaded)")
+            print(
+                f"{label}: read {b * 1000:.0f} ms (median {m * 1000:.0f}), reduce "
+                f"{rb * 1000:.1f} ms, import with checks {ib * 1000:.0f} ms (pvlib loaded)"
+            )
 
     import numpy as np
 
@@ -77,10 +91,11 @@ def main() -> None:
     horizon = [(90.0, 10.0), (180.0, 15.0), (270.0, 8.0)]
     kw = dict(horizon=horizon, longitude_deg=c.longitude_deg, elevation_m=c.elevation_m)
     best_tilt(c.insolation_kwh_m2_day, c.latitude_deg, None, demand, **kw)
-    b, m = _best(lambda: best_tilt(c.insolation_kwh_m2_day, c.latitude_deg, None, demand,
-                                   **kw), 10)
-    print(f"best-tilt search with a horizon profile: best {b * 1000:.1f} ms, "
-          f"median {m * 1000:.1f} ms (pvlib loaded)")
+    b, m = _best(lambda: best_tilt(c.insolation_kwh_m2_day, c.latitude_deg, None, demand, **kw), 10)
+    print(
+        f"best-tilt search with a horizon profile: best {b * 1000:.1f} ms, "
+        f"median {m * 1000:.1f} ms (pvlib loaded)"
+    )
 
 
 if __name__ == "__main__":

@@ -27,16 +27,23 @@ def main() -> None:
         design(project)
         runs.append(time.perf_counter() - t)
     print(f"imports: {t_import * 1000:.0f} ms")
-    print(f"design(): median {statistics.median(runs) * 1000:.2f} ms, "
-          f"max {max(runs) * 1000:.2f} ms over {len(runs)} runs")
+    print(
+        f"design(): median {statistics.median(runs) * 1000:.2f} ms, "
+        f"max {max(runs) * 1000:.2f} ms over {len(runs)} runs"
+    )
     whole = []
     for _ in range(5):
         t = time.perf_counter()
-        subprocess.run([sys.executable, "-m", "offgrid", "size", "--demo", "--json"], check=True,
-                       capture_output=True)
+        subprocess.run(
+            [sys.executable, "-m", "offgrid", "size", "--demo", "--json"],
+            check=True,
+            capture_output=True,
+        )
         whole.append(time.perf_counter() - t)
-    print(f"offgrid size --demo --json: best {min(whole):.2f} s, median "
-          f"{statistics.median(whole):.2f} s")
+    print(
+        f"offgrid size --demo --json: best {min(whole):.2f} s, median "
+        f"{statistics.median(whole):.2f} s"
+    )
 
 
 if __name__ == "__main__":

@@ -38,18 +38,25 @@ def main() -> None:
     med, worst = _median_ms(lambda: fit_module(project.module))
     print(f"module fit: median {med:.2f} ms, max {worst:.2f} ms")
     med, worst = _median_ms(lambda: electrical_design(project, core))
-    print(f"electrical_design() (fit, curves, window, harvest x2, cables, protection, "
-          f"cautions): median {med:.2f} ms, max {worst:.2f} ms (target < 100 ms)")
+    print(
+        f"electrical_design() (fit, curves, window, harvest x2, cables, protection, "
+        f"cautions): median {med:.2f} ms, max {worst:.2f} ms (target < 100 ms)"
+    )
     med, worst = _median_ms(lambda: design(project, demo_project_path().parent))
     print(f"design() with the electrical step: median {med:.2f} ms, max {worst:.2f} ms")
     whole = []
     for _ in range(5):
         t = time.perf_counter()
-        subprocess.run([sys.executable, "-m", "offgrid", "size", "--demo", "--json"], check=True,
-                       capture_output=True)
+        subprocess.run(
+            [sys.executable, "-m", "offgrid", "size", "--demo", "--json"],
+            check=True,
+            capture_output=True,
+        )
         whole.append(time.perf_counter() - t)
-    print(f"offgrid size --demo --json: best {min(whole):.2f} s, median "
-          f"{statistics.median(whole):.2f} s (target < 1.5 s)")
+    print(
+        f"offgrid size --demo --json: best {min(whole):.2f} s, median "
+        f"{statistics.median(whole):.2f} s (target < 1.5 s)"
+    )
 
 
 if __name__ == "__main__":

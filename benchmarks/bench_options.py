@@ -47,8 +47,9 @@ def main() -> None:
     print(f"compare_variants with 30-year risk check, {n} columns: {t:.3f} s")
 
     more = load_project(path)
-    more.variants += [Variant(name=f"Autonomy {d}", overrides={"choices.autonomy_days": d})
-                      for d in (2, 4, 5, 6)]
+    more.variants += [
+        Variant(name=f"Autonomy {d}", overrides={"choices.autonomy_days": d}) for d in (2, 4, 5, 6)
+    ]
     m = len(more.variants) + 1
     t = median_s(lambda: compare_variants(more, base), runs=3)
     print(f"compare_variants, {m} columns: {t:.3f} s ({t / m:.3f} s per column)")

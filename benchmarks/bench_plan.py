@@ -19,9 +19,11 @@ import time
 import numpy as np
 
 LISTS = ("household-basic", "household-medium", "household-kit", "village-shop")
-HEAD = ("community,Benchmark village (invented)\nclimate,kisanga-ridge-demo\n"
-        "project,kisanga-ridge-home-parts\nprices,kisanga-ridge-prices\n"
-        "id,count,load_list,daily_energy_wh,peak_power_w,ac_dc\n")
+HEAD = (
+    "community,Benchmark village (invented)\nclimate,kisanga-ridge-demo\n"
+    "project,kisanga-ridge-home-parts\nprices,kisanga-ridge-prices\n"
+    "id,count,load_list,daily_energy_wh,peak_power_w,ac_dc\n"
+)
 
 
 def make_survey(rows: int, kind: str, seed: int = 1) -> str:
@@ -60,15 +62,19 @@ def run_once(text: str, kits: int | None, jobs: int, kit_cost: float | None = No
 
 def bench_rows(sizes, jobs_list) -> None:
     print("Time against rows (read / design / standardise + totals), K = 4")
-    print(f"  {'survey':<10} {'rows':>6} {'jobs':>4} {'distinct':>8} {'read s':>7} "
-          f"{'design s':>8} {'kits s':>7} {'total s':>8}")
+    print(
+        f"  {'survey':<10} {'rows':>6} {'jobs':>4} {'distinct':>8} {'read s':>7} "
+        f"{'design s':>8} {'kits s':>7} {'total s':>8}"
+    )
     for kind in ("realistic", "distinct"):
         for n in sizes:
             text = make_survey(n, kind)
             for jobs in jobs_list:
                 r, d, k, distinct, _ = run_once(text, 4, jobs)
-                print(f"  {kind:<10} {n:>6} {jobs:>4} {distinct:>8} {r:>7.2f} {d:>8.2f} "
-                      f"{k:>7.2f} {r + d + k:>8.2f}")
+                print(
+                    f"  {kind:<10} {n:>6} {jobs:>4} {distinct:>8} {r:>7.2f} {d:>8.2f} "
+                    f"{k:>7.2f} {r + d + k:>8.2f}"
+                )
 
 
 def bench_k(rows: int) -> None:
@@ -86,12 +92,16 @@ def bench_k(rows: int) -> None:
         t = time.perf_counter()
         plan = assemble(inputs, designed, prices, "cost", k, 0.0, 12, 0)
         dt = time.perf_counter() - t
-        print(f"  K = {k:>2}: {dt:6.3f} s, {len(plan.standard.kits)} kits used, cost "
-              f"{plan.totals.total_cost:,.0f}")
+        print(
+            f"  K = {k:>2}: {dt:6.3f} s, {len(plan.standard.kits)} kits used, cost "
+            f"{plan.totals.total_cost:,.0f}"
+        )
     t = time.perf_counter()
     plan = assemble(inputs, designed, prices, "cost", None, 1200.0, 12, 0)
-    print(f"  cost per kit type 1200, up to 12: {time.perf_counter() - t:6.3f} s, "
-          f"{len(plan.standard.kits)} kits chosen")
+    print(
+        f"  cost per kit type 1200, up to 12: {time.perf_counter() - t:6.3f} s, "
+        f"{len(plan.standard.kits)} kits chosen"
+    )
 
 
 def bench_points() -> None:
@@ -101,21 +111,24 @@ def bench_points() -> None:
 
     from offgrid.plan.kits import Candidate, standardise
 
-    print("\nThe recursion alone: distinct part needs n in one family (strings, battery "
-          "strings random 1-60)")
+    print(
+        "\nThe recursion alone: distinct part needs n in one family (strings, battery "
+        "strings random 1-60)"
+    )
     rng = np.random.default_rng(4)
     for n in (50, 200, 800):
         pts = set()
         while len(pts) < n:
             pts.add((int(rng.integers(1, 61)), int(rng.integers(1, 61))))
-        cands = [Candidate(i, row(s, p), int(rng.integers(1, 30))) for i, (s, p) in
-                 enumerate(sorted(pts))]
+        cands = [
+            Candidate(i, row(s, p), int(rng.integers(1, 30)))
+            for i, (s, p) in enumerate(sorted(pts))
+        ]
         for label, prices in (("no own systems", PRICES_NO_OWN), ("own allowed", PRICES)):
             for k in (4, 12):
                 t = time.perf_counter()
                 standardise(cands, k=k, prices=prices)
-                print(f"  n = {n:>4}, K = {k:>2}, {label:<14}: "
-                      f"{time.perf_counter() - t:6.3f} s")
+                print(f"  n = {n:>4}, K = {k:>2}, {label:<14}: {time.perf_counter() - t:6.3f} s")
 
 
 def main() -> None:

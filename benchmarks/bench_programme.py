@@ -54,17 +54,27 @@ from pathlib import Path
 
 import numpy as np
 
-CLIMATES = (("kisanga-ridge-demo", -3.4, 36.9, 1450), ("dalli-wells-demo", 14.2, 1.6, 280),
-            ("pampa-alta-demo", -16.2, -68.6, 3850), ("tarn-station-demo", -43.6, 171.2, 620),
-            ("kisanga-ridge-demo", -3.0, 37.3, 1200))
+CLIMATES = (
+    ("kisanga-ridge-demo", -3.4, 36.9, 1450),
+    ("dalli-wells-demo", 14.2, 1.6, 280),
+    ("pampa-alta-demo", -16.2, -68.6, 3850),
+    ("tarn-station-demo", -43.6, 171.2, 620),
+    ("kisanga-ridge-demo", -3.0, 37.3, 1200),
+)
 LISTS = ("household-basic", "household-medium", "household-kit", "village-shop")
 
 
 def write_distinct(path: Path, rows: int, seed: int = 3) -> None:
     rng = np.random.default_rng(seed)
-    out = ["community,Distinct homes (invented)", "demo,yes", "climate,kisanga-ridge-demo",
-           "project,kisanga-ridge-home-parts", "prices,kisanga-ridge-prices",
-           "choices.load_growth_pct,10", "id,name,kind,count,daily_energy_wh,peak_power_w,ac_dc"]
+    out = [
+        "community,Distinct homes (invented)",
+        "demo,yes",
+        "climate,kisanga-ridge-demo",
+        "project,kisanga-ridge-home-parts",
+        "prices,kisanga-ridge-prices",
+        "choices.load_growth_pct,10",
+        "id,name,kind,count,daily_energy_wh,peak_power_w,ac_dc",
+    ]
     for i in range(rows):
         e = 40 + 860 * i / max(rows - 1, 1)
         p = max(8.0, e / rng.uniform(3, 8))
@@ -74,17 +84,26 @@ def write_distinct(path: Path, rows: int, seed: int = 3) -> None:
 
 def write_programme(folder: Path, villages: int, rows: int, seed: int = 5) -> Path:
     rng = np.random.default_rng(seed)
-    prog = ["programme,Benchmark programme (invented)", "demo,yes",
-            "project,kisanga-ridge-home-parts", "prices,kisanga-ridge-prices",
-            "survey,survey.csv", "id,name,latitude_deg,longitude_deg,elevation_m,climate"]
+    prog = [
+        "programme,Benchmark programme (invented)",
+        "demo,yes",
+        "project,kisanga-ridge-home-parts",
+        "prices,kisanga-ridge-prices",
+        "survey,survey.csv",
+        "id,name,latitude_deg,longitude_deg,elevation_m,climate",
+    ]
     for v in range(villages):
         clim, lat, lon, elev = CLIMATES[v % len(CLIMATES)]
-        prog.append(f"V{v:03d},village {v},{lat + rng.uniform(-0.5, 0.5):.3f},"
-                    f"{lon + rng.uniform(-0.5, 0.5):.3f},{elev},{clim}")
+        prog.append(
+            f"V{v:03d},village {v},{lat + rng.uniform(-0.5, 0.5):.3f},"
+            f"{lon + rng.uniform(-0.5, 0.5):.3f},{elev},{clim}"
+        )
     (folder / "programme.csv").write_text("\n".join(prog) + "\n", encoding="utf-8")
     with open(folder / "survey.csv", "w", encoding="utf-8") as fh:
-        fh.write("community,Benchmark survey (invented)\ndemo,yes\n"
-                 "id,village,count,load_list,daily_energy_wh,peak_power_w\n")
+        fh.write(
+            "community,Benchmark survey (invented)\ndemo,yes\n"
+            "id,village,count,load_list,daily_energy_wh,peak_power_w\n"
+        )
         vill = rng.integers(0, villages, rows)
         kind = rng.integers(0, 3, rows)
         energy = rng.integers(4, 91, rows) * 10
@@ -109,8 +128,9 @@ def run_cli(path: Path, jobs: int | None, extra: tuple[str, ...] = ()) -> dict:
         cmd += ["--jobs", str(jobs)]
     before = resource.getrusage(resource.RUSAGE_CHILDREN)
     t = time.perf_counter()
-    res = subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True,
-                         check=False)
+    res = subprocess.run(
+        cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True, check=False
+    )
     wall = time.perf_counter() - t
     after = resource.getrusage(resource.RUSAGE_CHILDREN)
     if res.returncode not in (0, 1):
@@ -125,31 +145,41 @@ def main() -> None:
     jobs = None
     if "--jobs" in sys.argv:
         jobs = int(sys.argv[sys.argv.index("--jobs") + 1])
-    print(f"CPUs available: {len(os.sched_getaffinity(0))}; load average "
-          f"{os.getloadavg()[0]:.1f} (other work on the machine slows the wall times)")
+    print(
+        f"CPUs available: {len(os.sched_getaffinity(0))}; load average "
+        f"{os.getloadavg()[0]:.1f} (other work on the machine slows the wall times)"
+    )
     with tempfile.TemporaryDirectory() as tmp:
         folder = Path(tmp)
         print("\nOne community, every row distinct (offgrid plan SURVEY.csv --json)")
-        print(f"  {'rows':>8} {'jobs':>4} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} "
-              f"{'rows/s':>8}")
-        for n in ((1000,) if quick else (1000, 10_000)):
+        print(f"  {'rows':>8} {'jobs':>4} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}")
+        for n in (1000,) if quick else (1000, 10_000):
             write_distinct(folder / "distinct.csv", n)
-            for j in ((1, 2) if jobs is None else (jobs,)):
+            for j in (1, 2) if jobs is None else (jobs,):
                 r = run_cli(folder / "distinct.csv", j)
-                print(f"  {n:>8} {j:>4} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
-                      f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}")
+                print(
+                    f"  {n:>8} {j:>4} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
+                    f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}"
+                )
         print("\nProgramme: villages x rows (offgrid plan PROGRAMME.csv --json)")
-        print(f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} "
-              f"{'rows/s':>8}")
-        cases = [(10, 10_000)] if quick else [(10, 10_000), (50, 10_000), (200, 10_000),
-                                              (20, 100_000), (200, 100_000)]
+        print(
+            f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}"
+        )
+        cases = (
+            [(10, 10_000)]
+            if quick
+            else [(10, 10_000), (50, 10_000), (200, 10_000), (20, 100_000), (200, 100_000)]
+        )
         if full:
             cases.append((200, 1_000_000))
         for v, n in cases:
             path = write_programme(folder, v, n)
             r = run_cli(path, jobs)
-            print(f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
-                  f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}", flush=True)
+            print(
+                f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
+                f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}",
+                flush=True,
+            )
 
 
 if __name__ == "__main__":

@@ -33,24 +33,46 @@ def main() -> None:
     t = time.perf_counter()
     make_report(project, path.parent, "txt")
     txt = time.perf_counter() - t
-    print(f"make_report html: first {cold:.3f} s (imports matplotlib), then median "
-          f"{statistics.median(runs):.3f} s; {len(html.encode()):,} bytes")
+    print(
+        f"make_report html: first {cold:.3f} s (imports matplotlib), then median "
+        f"{statistics.median(runs):.3f} s; {len(html.encode()):,} bytes"
+    )
     print(f"make_report txt: {txt:.3f} s")
     whole = []
     with tempfile.TemporaryDirectory() as tmp:
         out = Path(tmp) / "r.html"
         for _ in range(3):
             t = time.perf_counter()
-            subprocess.run([sys.executable, "-m", "offgrid", "report", "--demo", "-o", str(out),
-                            "--force"], check=True, capture_output=True)
+            subprocess.run(
+                [sys.executable, "-m", "offgrid", "report", "--demo", "-o", str(out), "--force"],
+                check=True,
+                capture_output=True,
+            )
             whole.append(time.perf_counter() - t)
-        print(f"offgrid report --demo -o r.html: best {min(whole):.2f} s, median "
-              f"{statistics.median(whole):.2f} s (target < 2 s)")
+        print(
+            f"offgrid report --demo -o r.html: best {min(whole):.2f} s, median "
+            f"{statistics.median(whole):.2f} s (target < 2 s)"
+        )
         t = time.perf_counter()
-        subprocess.run([sys.executable, "-m", "offgrid", "report", "--demo", "--simulate",
-                        "-o", str(out), "--force"], check=True, capture_output=True)
-        print(f"offgrid report --demo --simulate (30 years, trade-off, every variant "
-              f"simulated): {time.perf_counter() - t:.2f} s (no target)")
+        subprocess.run(
+            [
+                sys.executable,
+                "-m",
+                "offgrid",
+                "report",
+                "--demo",
+                "--simulate",
+                "-o",
+                str(out),
+                "--force",
+            ],
+            check=True,
+            capture_output=True,
+        )
+        print(
+            f"offgrid report --demo --simulate (30 years, trade-off, every variant "
+            f"simulated): {time.perf_counter() - t:.2f} s (no target)"
+        )
 
 
 if __name__ == "__main__":

@@ -30,8 +30,17 @@ def best(fn, repeat: int = 3) -> float:
 
 
 def main() -> None:
-    inp = plain_inputs(H, LAT, 1800.0, 37000.0, 4500.0, 0.7, load_time_of_day="evening",
-                       controller_w_per_w=1.4, charge_c_rate=0.2)
+    inp = plain_inputs(
+        H,
+        LAT,
+        1800.0,
+        37000.0,
+        4500.0,
+        0.7,
+        load_time_of_day="evening",
+        controller_w_per_w=1.4,
+        charge_c_rate=0.2,
+    )
     kw = dict(max_dod=inp.max_dod, eta_charge=inp.eta_charge, eta_discharge=inp.eta_discharge)
     t_w = best(lambda: synthetic_daily_insolation(H, LAT, 30, seed=1))
     w30 = synthetic_daily_insolation(H, LAT, 30, seed=1)
@@ -47,17 +56,24 @@ def main() -> None:
     print(f"one design, 30 years daily, end to end    {t1 * 1000:8.1f} ms   (target < 200 ms)")
     steps30 = build_steps(inp, w30, "daily")
     t1b = best(lambda: run_balance(steps30, 1800.0, 37000.0, **kw))
-    print(f"  balance loop alone                      {t1b * 1000:8.1f} ms   "
-          f"{w30.days / t1b:,.0f} design-days/s")
+    print(
+        f"  balance loop alone                      {t1b * 1000:8.1f} ms   "
+        f"{w30.days / t1b:,.0f} design-days/s"
+    )
     t_rel = best(lambda: reliability(inp, w30, end_of_life_scale=0.8))
     print(f"full reliability figures (record, rainflow, end-of-life run) {t_rel * 1000:6.1f} ms")
     t_h = best(lambda: run_balance(build_steps(inp, w30, "hourly"), 1800.0, 37000.0, **kw), 1)
     print(f"one design, 30 years hourly               {t_h * 1000:8.1f} ms")
 
-    t_sw = best(lambda: tradeoff(inp, w30, n_array=30, n_battery=30,
-                                 prices={"array_per_w": 0.6, "battery_per_kwh": 180}))
-    print(f"trade-off 30 x 30 (+ design), 30 years    {t_sw * 1000:8.1f} ms   (target < 3000 ms)"
-          f"   {901 * w30.days / t_sw:,.0f} design-days/s")
+    t_sw = best(
+        lambda: tradeoff(
+            inp, w30, n_array=30, n_battery=30, prices={"array_per_w": 0.6, "battery_per_kwh": 180}
+        )
+    )
+    print(
+        f"trade-off 30 x 30 (+ design), 30 years    {t_sw * 1000:8.1f} ms   (target < 3000 ms)"
+        f"   {901 * w30.days / t_sw:,.0f} design-days/s"
+    )
 
     print("\nscaling with designs (30 years daily, balance loop):")
     for n in (1, 4, 8, 10, 100, 400, 900, 2500):

@@ -48,11 +48,14 @@ def tmux_launch(runs: int = 5) -> tuple[list[float], list[float], float] | None:
         sock = f"offgrid-bench-{os.getpid()}-{i}"
 
         def t(*args, sock=sock):
-            return subprocess.run([tmux, "-L", sock, "-f", "/dev/null", *args],
-                                  capture_output=True, text=True)
+            return subprocess.run(
+                [tmux, "-L", sock, "-f", "/dev/null", *args], capture_output=True, text=True
+            )
 
-        cmd = (f"cd '{ROOT}' && exec env OFFGRID_STATE_DIR='{state}' PYTHONPATH='{ROOT}' "
-               f"TERM=xterm-256color '{sys.executable}' -m offgrid --demo")
+        cmd = (
+            f"cd '{ROOT}' && exec env OFFGRID_STATE_DIR='{state}' PYTHONPATH='{ROOT}' "
+            f"TERM=xterm-256color '{sys.executable}' -m offgrid --demo"
+        )
         t0 = time.perf_counter()
         t("new-session", "-d", "-x", "80", "-y", "24", "-s", "b", cmd)
         painted = None
@@ -86,15 +89,18 @@ def tmux_edit(edits: int = 12) -> list[float] | None:
     sock = f"offgrid-bench-edit-{os.getpid()}"
 
     def t(*args):
-        return subprocess.run([tmux, "-L", sock, "-f", "/dev/null", *args],
-                              capture_output=True, text=True)
+        return subprocess.run(
+            [tmux, "-L", sock, "-f", "/dev/null", *args], capture_output=True, text=True
+        )
 
     def screen() -> str:
         return t("capture-pane", "-t", "e", "-p").stdout
 
     state = tempfile.mkdtemp()
-    cmd = (f"cd '{ROOT}' && exec env OFFGRID_STATE_DIR='{state}' PYTHONPATH='{ROOT}' "
-           f"TERM=xterm-256color '{sys.executable}' -m offgrid --demo")
+    cmd = (
+        f"cd '{ROOT}' && exec env OFFGRID_STATE_DIR='{state}' PYTHONPATH='{ROOT}' "
+        f"TERM=xterm-256color '{sys.executable}' -m offgrid --demo"
+    )
     t("new-session", "-d", "-x", "80", "-y", "24", "-s", "e", cmd)
     end = time.perf_counter() + 20
     while "Array 1,800 W" not in screen() and time.perf_counter() < end:
@@ -174,26 +180,36 @@ def main() -> None:
         print("  tmux not installed: real-terminal launch and memory skipped")
     else:
         times, painted, memory = launched
-        print(f"  launch to first paint (sections on screen, keys answered), real terminal "
-              f"(tmux 80x24, demo): median {statistics.median(painted):.2f} s, worst "
-              f"{max(painted):.2f} s")
-        print(f"  launch to the design's headline on screen: median "
-              f"{statistics.median(times):.2f} s, worst {max(times):.2f} s over {len(times)} runs")
+        print(
+            f"  launch to first paint (sections on screen, keys answered), real terminal "
+            f"(tmux 80x24, demo): median {statistics.median(painted):.2f} s, worst "
+            f"{max(painted):.2f} s"
+        )
+        print(
+            f"  launch to the design's headline on screen: median "
+            f"{statistics.median(times):.2f} s, worst {max(times):.2f} s over {len(times)} runs"
+        )
         print(f"  resident memory, real program with the demo open: {memory:.0f} MB")
     edits = tmux_edit()
     if edits:
         v = [x * 1000 for x in edits]
-        print(f"  edit to updated headline, real terminal (Enter sent -> new battery kWh on "
-              f"screen): median {statistics.median(v):.0f} ms, worst {max(v):.0f} ms "
-              f"({len(v)} edits; includes tmux send-keys and capture polling)")
+        print(
+            f"  edit to updated headline, real terminal (Enter sent -> new battery kWh on "
+            f"screen): median {statistics.median(v):.0f} ms, worst {max(v):.0f} ms "
+            f"({len(v)} edits; includes tmux send-keys and capture polling)"
+        )
     h = asyncio.run(headless())
     print(f"  headless, import of the UI to first screen: {h['first_screen_s']:.2f} s")
-    for key, what in (("edit_s", "pilot: edit (Parts) to redrawn results, with pilot waits"),
-                      ("edit_loads_s", "pilot: edit (Loads) to redrawn results, with pilot waits"),
-                      ("recompute_redraw_s", "recompute + redraw alone")):
+    for key, what in (
+        ("edit_s", "pilot: edit (Parts) to redrawn results, with pilot waits"),
+        ("edit_loads_s", "pilot: edit (Loads) to redrawn results, with pilot waits"),
+        ("recompute_redraw_s", "recompute + redraw alone"),
+    ):
         v = [x * 1000 for x in h[key]]  # type: ignore[union-attr]
-        print(f"  {what}: median {statistics.median(v):.1f} ms, worst {max(v):.1f} ms "
-              f"({len(v)} edits)")
+        print(
+            f"  {what}: median {statistics.median(v):.1f} ms, worst {max(v):.1f} ms "
+            f"({len(v)} edits)"
+        )
     print(f"  resident memory, headless process with the demo open: {h['rss_mb']:.0f} MB")
 
 

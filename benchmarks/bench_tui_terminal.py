@@ -27,7 +27,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 TMUX = shutil.which("tmux")
 
-BARE = '''
+BARE = """
 from textual.app import App
 from textual.widgets import Input, Static
 class Bare(App):
@@ -38,7 +38,7 @@ class Bare(App):
         self.query_one("#out", Static).update(f"got {event.value}")
         event.input.value = ""
 Bare().run()
-'''
+"""
 
 
 class Term:
@@ -46,8 +46,9 @@ class Term:
         self.socket = f"bench-{uuid.uuid4().hex[:8]}"
 
     def tmux(self, *args: str) -> str:
-        return subprocess.run([TMUX, "-L", self.socket, "-f", "/dev/null", *args],
-                              capture_output=True, text=True).stdout
+        return subprocess.run(
+            [TMUX, "-L", self.socket, "-f", "/dev/null", *args], capture_output=True, text=True
+        ).stdout
 
     def start(self, command: str) -> float:
         t0 = time.perf_counter()
@@ -72,8 +73,10 @@ class Term:
 
 
 def env(state: Path) -> str:
-    return (f"env OFFGRID_STATE_DIR='{state}' TEXTUAL_ANIMATIONS=none TERM=xterm-256color "
-            f"PYTHONPATH='{ROOT}' ")
+    return (
+        f"env OFFGRID_STATE_DIR='{state}' TEXTUAL_ANIMATIONS=none TERM=xterm-256color "
+        f"PYTHONPATH='{ROOT}' "
+    )
 
 
 def offgrid_run(tmp: Path, edits: int) -> tuple[float, list[float]]:
@@ -138,10 +141,14 @@ def main() -> None:
         ours_e += o[1]
     ml, bl = statistics.median(ours_l), statistics.median(bare_l)
     me, be = statistics.median(ours_e), statistics.median(bare_e)
-    print(f"launch to headline: offgrid {ml * 1000:.0f} ms, bare Textual {bl * 1000:.0f} ms, "
-          f"ratio {ml / bl:.2f} (medians of {args.runs} paired runs; target <= 1.5)")
-    print(f"edit to headline:   offgrid {me * 1000:.0f} ms, bare Textual {be * 1000:.0f} ms, "
-          f"ratio {me / be:.2f} (medians of {len(ours_e)} edits; target <= 3)")
+    print(
+        f"launch to headline: offgrid {ml * 1000:.0f} ms, bare Textual {bl * 1000:.0f} ms, "
+        f"ratio {ml / bl:.2f} (medians of {args.runs} paired runs; target <= 1.5)"
+    )
+    print(
+        f"edit to headline:   offgrid {me * 1000:.0f} ms, bare Textual {be * 1000:.0f} ms, "
+        f"ratio {me / be:.2f} (medians of {len(ours_e)} edits; target <= 3)"
+    )
 
 
 if __name__ == "__main__":

@@ -25,21 +25,35 @@ class Chemistry:
 #: (as transcribed; divide rated capacity by the factor).  No credit above 25 C.
 _LEAD_T = (-20.0, -10.0, 0.0, 4.4, 10.0, 15.6, 20.0, 25.0, 60.0)
 _LEAD_F = (1.92, 1.65, 1.39, 1.30, 1.19, 1.11, 1.056, 1.00, 1.00)
-_LEAD_SRC = ("IEEE Std 485 Table 1 type factors (4.4-25 C, as transcribed); below 4.4 C "
-             "extended linearly, from memory")
+_LEAD_SRC = (
+    "IEEE Std 485 Table 1 type factors (4.4-25 C, as transcribed); below 4.4 C "
+    "extended linearly, from memory"
+)
 #: Lithium iron phosphate: usable capacity in the cold, from memory (no standard table).
 _LFP_T = (-20.0, -10.0, 0.0, 10.0, 25.0, 60.0)
 _LFP_F = (1.43, 1.25, 1.11, 1.04, 1.00, 1.00)
 
 CHEMISTRIES: dict[str, Chemistry] = {
-    "flooded": Chemistry("flooded", "flooded (vented) lead-acid", 2.0, 2.45, True, 0.5,
-                         _LEAD_T, _LEAD_F, _LEAD_SRC),
-    "agm": Chemistry("agm", "valve-regulated lead-acid, AGM", 2.0, 2.40, True, 0.5,
-                     _LEAD_T, _LEAD_F, _LEAD_SRC),
-    "gel": Chemistry("gel", "valve-regulated lead-acid, gel", 2.0, 2.35, True, 0.5,
-                     _LEAD_T, _LEAD_F, _LEAD_SRC),
-    "lifepo4": Chemistry("lifepo4", "lithium iron phosphate", 3.2, 3.55, False, 0.8,
-                         _LFP_T, _LFP_F, "from memory (cold capacity of LFP cells)"),
+    "flooded": Chemistry(
+        "flooded", "flooded (vented) lead-acid", 2.0, 2.45, True, 0.5, _LEAD_T, _LEAD_F, _LEAD_SRC
+    ),
+    "agm": Chemistry(
+        "agm", "valve-regulated lead-acid, AGM", 2.0, 2.40, True, 0.5, _LEAD_T, _LEAD_F, _LEAD_SRC
+    ),
+    "gel": Chemistry(
+        "gel", "valve-regulated lead-acid, gel", 2.0, 2.35, True, 0.5, _LEAD_T, _LEAD_F, _LEAD_SRC
+    ),
+    "lifepo4": Chemistry(
+        "lifepo4",
+        "lithium iron phosphate",
+        3.2,
+        3.55,
+        False,
+        0.8,
+        _LFP_T,
+        _LFP_F,
+        "from memory (cold capacity of LFP cells)",
+    ),
 }
 
 
@@ -68,7 +82,8 @@ def units_in_series(system_voltage_v: float, unit_voltage_v: float) -> int | Non
     """
     nominal_class = unit_voltage_v
     if math.isclose(unit_voltage_v % 3.2, 0, abs_tol=1e-6) or math.isclose(
-            unit_voltage_v % 3.2, 3.2, abs_tol=1e-6):
+        unit_voltage_v % 3.2, 3.2, abs_tol=1e-6
+    ):
         nominal_class = unit_voltage_v / 3.2 * 3.0  # 4 cells of 3.2 V = 12 V class
     n = system_voltage_v / nominal_class
     if n < 1 - 1e-9 or not math.isclose(n, round(n), abs_tol=1e-6):

@@ -32,7 +32,8 @@ TM5_1185_FREEZE_C = (-7.0, -15.0, -27.0, -52.0, -68.0)
 DEFERS_TO_CODE = (
     "This design defers to local electrical codes and licensed practice: it is a calculation "
     "aid, to be checked, installed and inspected by a qualified electrician; the authority "
-    "having jurisdiction has the last word.")
+    "having jurisdiction has the last word."
+)
 
 
 @dataclass(frozen=True)
@@ -86,82 +87,122 @@ class CautionInputs:
 def design_cautions(c: CautionInputs) -> tuple[Caution, ...]:
     out: list[Caution] = []
     if c.max_dc_voltage_v > ELV_DC_LIMIT_V:
-        out.append(Caution(
-            "dc-above-elv",
-            f"The PV strings reach {c.max_dc_voltage_v:.0f} V DC at the record low, above the "
-            f"{ELV_DC_LIMIT_V:.0f} V extra-low-voltage limit: a shock can kill. Only qualified "
-            "people may work on them; use touch-safe connectors, enclosures and warning labels.",
-            "IEC 61140:2016 (ELV limit 120 V ripple-free DC)"))
+        out.append(
+            Caution(
+                "dc-above-elv",
+                f"The PV strings reach {c.max_dc_voltage_v:.0f} V DC at the record low, above the "
+                f"{ELV_DC_LIMIT_V:.0f} V extra-low-voltage limit: a shock can kill. Only qualified "
+                "people may work on them; use touch-safe connectors, enclosures and warning "
+                "labels.",
+                "IEC 61140:2016 (ELV limit 120 V ripple-free DC)",
+            )
+        )
     if c.chemistry in IEC62485_IGAS_BOOST_MA_PER_AH:
         q = ventilation_airflow_m3_h(c.chemistry, c.cells_in_series, c.bank_capacity_ah)
         a = ventilation_opening_cm2(q)
-        out.append(Caution(
-            "lead-acid-ventilation",
-            f"Lead-acid batteries give off hydrogen while charging: ventilate the battery space "
-            f"with at least {q:.2f} m3/h ({c.cells_in_series} cells, {c.bank_capacity_ah:.0f} "
-            f"Ah), i.e. a free opening of at least {a:.0f} cm2 low down for inlet and the same "
-            "high up for outlet. No sparks, flames or switches above the batteries.",
-            "IEC 62485-2:2010 eq. 1 (Q = 0.05 n Igas Crt 1e-3) and A = 28 Q, from memory"))
+        out.append(
+            Caution(
+                "lead-acid-ventilation",
+                "Lead-acid batteries give off hydrogen while charging: ventilate the battery "
+                "space "
+                f"with at least {q:.2f} m3/h ({c.cells_in_series} cells, {c.bank_capacity_ah:.0f} "
+                f"Ah), i.e. a free opening of at least {a:.0f} cm2 low down for inlet and the same "
+                "high up for outlet. No sparks, flames or switches above the batteries.",
+                "IEC 62485-2:2010 eq. 1 (Q = 0.05 n Igas Crt 1e-3) and A = 28 Q, from memory",
+            )
+        )
         soc = 1.0 - c.max_dod
         freeze = electrolyte_freezing_c(soc)
         flat = electrolyte_freezing_c(0.0)
         if c.battery_min_temp_c <= 0.0:
-            out.append(Caution(
-                "electrolyte-freezing",
-                f"The battery may reach {c.battery_min_temp_c:.0f} C ({c.battery_min_source})."
-                " At the design's deepest "
-                f"discharge ({c.max_dod:.0%}) the electrolyte freezes near {freeze:.0f} C and "
-                f"a flat battery near {flat:.0f} C; a frozen battery cracks. Keep the bank "
-                "insulated or indoors and recharge promptly in the cold.",
-                "US Army TM 5-1185 Tables II and III"))
+            out.append(
+                Caution(
+                    "electrolyte-freezing",
+                    f"The battery may reach {c.battery_min_temp_c:.0f} C ({c.battery_min_source})."
+                    " At the design's deepest "
+                    f"discharge ({c.max_dod:.0%}) the electrolyte freezes near {freeze:.0f} C and "
+                    f"a flat battery near {flat:.0f} C; a frozen battery cracks. Keep the bank "
+                    "insulated or indoors and recharge promptly in the cold.",
+                    "US Army TM 5-1185 Tables II and III",
+                )
+            )
     if c.chemistry == "lifepo4" and c.battery_min_temp_c <= 0.0:
-        out.append(Caution(
-            "lfp-cold-charge",
-            f"Lithium iron phosphate cells must not be charged below 0 C and this battery may "
-            f"reach {c.battery_min_temp_c:.0f} C ({c.battery_min_source}): use a battery "
-            "management system or "
-            "controller that stops charging in the cold, or keep the battery warm.",
-            "common practice, no source (some makers say +5 C)"))
-    est = " (estimated; take the value from the battery datasheet)" if (
-        c.fault_current_estimated) else ""
-    out.append(Caution(
-        "battery-short-circuit",
-        f"The battery bank can drive about {c.bank_fault_current_a / 1000:.1f} kA into a short "
-        f"circuit{est}: fit the battery fuse next to the terminal, cover the terminals, use "
-        "insulated tools and take off rings and watches.",
-        "common practice, no source"))
+        out.append(
+            Caution(
+                "lfp-cold-charge",
+                f"Lithium iron phosphate cells must not be charged below 0 C and this battery may "
+                f"reach {c.battery_min_temp_c:.0f} C ({c.battery_min_source}): use a battery "
+                "management system or "
+                "controller that stops charging in the cold, or keep the battery warm.",
+                "common practice, no source (some makers say +5 C)",
+            )
+        )
+    est = (
+        " (estimated; take the value from the battery datasheet)"
+        if (c.fault_current_estimated)
+        else ""
+    )
+    out.append(
+        Caution(
+            "battery-short-circuit",
+            f"The battery bank can drive about {c.bank_fault_current_a / 1000:.1f} kA into a short "
+            f"circuit{est}: fit the battery fuse next to the terminal, cover the terminals, use "
+            "insulated tools and take off rings and watches.",
+            "common practice, no source",
+        )
+    )
     if c.ambient_for_wires_c >= 30.0:
-        out.append(Caution(
-            "conductor-temperature",
-            f"Cables were sized for {c.ambient_for_wires_c:.0f} C ambient. Cables in sun, on "
-            "roofs or bundled run hotter: use sunlight-resistant 90 C PV cable, keep it shaded "
-            "and separated, and re-size if the ambient is higher.",
-            "NEC 2023 310.15(B), IEC 60364-5-52"))
-    out.append(Caution(
-        "pv-live-in-daylight",
-        "PV modules are live whenever light falls on them and cannot be switched off: cover "
-        "them or open the PV disconnect before work, and never open a connector under load.",
-        "NEC 690.13; IEC 62548:2016"))
-    out.append(Caution(
-        "grounding",
-        "Bond the module frames, mounting structure and equipment enclosures to a grounding "
-        "electrode, and provide ground-fault detection for the PV array as the controller or "
-        "local code requires.",
-        "NEC 690.41, 690.43, 690.47; IEC 60364-7-712"))
-    long_run = (f" The {c.array_run_m:g} m array cable makes a large induction loop: fit surge "
-                "protection at both ends and run the two conductors together."
-                ) if c.array_run_m > 10 else ""
-    out.append(Caution(
-        "surge-protection",
-        "Nearby lightning induces surges in the array wiring: fit a DC surge protective device "
-        "rated for the string Voc at the controller input and bond it to the earthing "
-        f"system.{long_run}",
-        "IEC TS 62257-5 (protection against electrical hazards)"))
-    out.append(Caution(
-        "dc-breakers",
-        "Use only fuses and breakers rated for DC at the circuit's voltage. Many DC breakers "
-        "are polarised: wire them the way round their marking shows. AC-rated breakers cannot "
-        "break a DC arc and must not be used on DC circuits.",
-        "NEC 690.9(D), 110.3(B); IEC 60947-2"))
+        out.append(
+            Caution(
+                "conductor-temperature",
+                f"Cables were sized for {c.ambient_for_wires_c:.0f} C ambient. Cables in sun, on "
+                "roofs or bundled run hotter: use sunlight-resistant 90 C PV cable, keep it shaded "
+                "and separated, and re-size if the ambient is higher.",
+                "NEC 2023 310.15(B), IEC 60364-5-52",
+            )
+        )
+    out.append(
+        Caution(
+            "pv-live-in-daylight",
+            "PV modules are live whenever light falls on them and cannot be switched off: cover "
+            "them or open the PV disconnect before work, and never open a connector under load.",
+            "NEC 690.13; IEC 62548:2016",
+        )
+    )
+    out.append(
+        Caution(
+            "grounding",
+            "Bond the module frames, mounting structure and equipment enclosures to a grounding "
+            "electrode, and provide ground-fault detection for the PV array as the controller or "
+            "local code requires.",
+            "NEC 690.41, 690.43, 690.47; IEC 60364-7-712",
+        )
+    )
+    long_run = (
+        (
+            f" The {c.array_run_m:g} m array cable makes a large induction loop: fit surge "
+            "protection at both ends and run the two conductors together."
+        )
+        if c.array_run_m > 10
+        else ""
+    )
+    out.append(
+        Caution(
+            "surge-protection",
+            "Nearby lightning induces surges in the array wiring: fit a DC surge protective device "
+            "rated for the string Voc at the controller input and bond it to the earthing "
+            f"system.{long_run}",
+            "IEC TS 62257-5 (protection against electrical hazards)",
+        )
+    )
+    out.append(
+        Caution(
+            "dc-breakers",
+            "Use only fuses and breakers rated for DC at the circuit's voltage. Many DC breakers "
+            "are polarised: wire them the way round their marking shows. AC-rated breakers cannot "
+            "break a DC arc and must not be used on DC circuits.",
+            "NEC 690.9(D), 110.3(B); IEC 60947-2",
+        )
+    )
     out.append(Caution("defers-to-code", DEFERS_TO_CODE, ""))
     return tuple(out)

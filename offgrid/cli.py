@@ -12,8 +12,17 @@ import importlib
 import sys
 
 #: Subcommand modules under offgrid.commands, in the order ``--help`` lists them.
-COMMANDS: tuple[str, ...] = ("size", "climate", "loads", "simulate", "report", "bom",
-                             "prices", "variants", "plan")
+COMMANDS: tuple[str, ...] = (
+    "size",
+    "climate",
+    "loads",
+    "simulate",
+    "report",
+    "bom",
+    "prices",
+    "variants",
+    "plan",
+)
 VERSION_FLAGS = ("--version", "-V")
 
 
@@ -48,23 +57,30 @@ class _Parser(argparse.ArgumentParser):
 
         self.print_usage(sys.stderr)
         m = re.match(r"argument ([^:/ ]+)", message)
-        fail(f"{message} (see `{self.prog} --help`)", 2, field=m.group(1) if m else None,
-             error="bad-arguments")
+        fail(
+            f"{message} (see `{self.prog} --help`)",
+            2,
+            field=m.group(1) if m else None,
+            error="bad-arguments",
+        )
 
 
 def build_parser() -> argparse.ArgumentParser:
     parser = _Parser(
         prog="offgrid",
         description="Size stand-alone solar power systems from a load list and a site climate. "
-                    "With no subcommand, opens the text interface.",
+        "With no subcommand, opens the text interface.",
     )
     from offgrid.commands.common import with_example
 
-    with_example(parser, "offgrid size --demo", "sizes the bundled demonstration project (an "
-                 "invented health post); `offgrid COMMAND --help` shows an example for each "
-                 "command.")
-    parser.add_argument(*VERSION_FLAGS, action=_VersionAction,
-                        help="print the version and exit")
+    with_example(
+        parser,
+        "offgrid size --demo",
+        "sizes the bundled demonstration project (an "
+        "invented health post); `offgrid COMMAND --help` shows an example for each "
+        "command.",
+    )
+    parser.add_argument(*VERSION_FLAGS, action=_VersionAction, help="print the version and exit")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     for name in COMMANDS:
         importlib.import_module(f"offgrid.commands.{name}").register(sub)

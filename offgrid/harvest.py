@@ -31,9 +31,15 @@ PROFILE_STEPS = 48
 
 
 @memoised
-def daily_poa_profile(horizontal_kwh_m2_day, poa_kwh_m2_day, latitude_deg: float,
-                      tilt_deg: float, azimuth_deg: float, albedo=None,
-                      steps: int = PROFILE_STEPS):
+def daily_poa_profile(
+    horizontal_kwh_m2_day,
+    poa_kwh_m2_day,
+    latitude_deg: float,
+    tilt_deg: float,
+    azimuth_deg: float,
+    albedo=None,
+    steps: int = PROFILE_STEPS,
+):
     """Plane-of-array irradiance over the mean day of each month.
 
     Returns ``(irradiance_w_m2, step_h)``: a (12, steps) array at the midpoints
@@ -69,15 +75,20 @@ def daily_poa_profile(horizontal_kwh_m2_day, poa_kwh_m2_day, latitude_deg: float
     gamma = np.radians(azimuth_deg - 180.0)  # D&B convention: 0 = equator-facing in the north
     d = np.radians(dec)[:, None]
     cos_z = np.sin(phi) * np.sin(d) + np.cos(phi) * np.cos(d) * np.cos(w)
-    cos_t = (np.sin(d) * np.sin(phi) * np.cos(beta)
-             - np.sin(d) * np.cos(phi) * np.sin(beta) * np.cos(gamma)
-             + np.cos(d) * np.cos(phi) * np.cos(beta) * np.cos(w)
-             + np.cos(d) * np.sin(phi) * np.sin(beta) * np.cos(gamma) * np.cos(w)
-             + np.cos(d) * np.sin(beta) * np.sin(gamma) * np.sin(w))
+    cos_t = (
+        np.sin(d) * np.sin(phi) * np.cos(beta)
+        - np.sin(d) * np.cos(phi) * np.sin(beta) * np.cos(gamma)
+        + np.cos(d) * np.cos(phi) * np.cos(beta) * np.cos(w)
+        + np.cos(d) * np.sin(phi) * np.sin(beta) * np.cos(gamma) * np.cos(w)
+        + np.cos(d) * np.sin(beta) * np.sin(gamma) * np.sin(w)
+    )
     rb = np.where(cos_z > 1e-6, np.maximum(cos_t, 0.0) / np.where(cos_z > 1e-6, cos_z, 1.0), 0.0)
     rho = sky.monthly_albedo(albedo)[:, None]  # one value or twelve; None: 0.2
-    g = (beam * rb + sky_diffuse_isotropic(tilt_deg, diff)
-         + ground_reflected_isotropic(tilt_deg, glob, rho))
+    g = (
+        beam * rb
+        + sky_diffuse_isotropic(tilt_deg, diff)
+        + ground_reflected_isotropic(tilt_deg, glob, rho)
+    )
     total = (g * step_h[:, None]).sum(axis=1) / 1000.0
     scale = np.divide(target, total, out=np.zeros_like(target), where=total > 1e-9)
     return g * scale[:, None], step_h
@@ -97,8 +108,9 @@ class HarvestInputs:
     charge_loop_ohm: float  # both conductors of one controller-to-battery run
 
 
-def harvest_wh_day(params: DiodeParams, irradiance_w_m2, step_h, ambient_c, noct_c: float,
-                   h: HarvestInputs) -> tuple[np.ndarray, np.ndarray]:
+def harvest_wh_day(
+    params: DiodeParams, irradiance_w_m2, step_h, ambient_c, noct_c: float, h: HarvestInputs
+) -> tuple[np.ndarray, np.ndarray]:
     """Daily energy into the battery each month through MPPT and through PWM [Wh/day].
 
     ``irradiance_w_m2`` is (12, steps), ``step_h`` and ``ambient_c`` have 12 values.
@@ -119,8 +131,11 @@ def harvest_wh_day(params: DiodeParams, irradiance_w_m2, step_h, ambient_c, noct
         imp = np.where(low, i_floor, imp)
         pmp = np.where(low, i_floor * v_floor, pmp)
     i_str = imp * h.mismatch
-    p_in = (h.series * n * pmp * h.mismatch - n * i_str**2 * h.string_loop_ohm
-            - (n * i_str) ** 2 * h.array_loop_ohm)
+    p_in = (
+        h.series * n * pmp * h.mismatch
+        - n * i_str**2 * h.string_loop_ohm
+        - (n * i_str) ** 2 * h.array_loop_ohm
+    )
     p_out = np.maximum(p_in, 0.0) * h.controller_efficiency
     p_mppt = np.maximum(p_out - (p_out / h.battery_v) ** 2 * h.charge_loop_ohm, 0.0)
 

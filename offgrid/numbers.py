@@ -49,8 +49,9 @@ def read_number(raw: str) -> float:
         raise NumberError(f"{shown} is not a number")
     value = float(text)
     if not math.isfinite(value):
-        raise NumberError(f"{shown} is not a finite number (too large): type a number such "
-                          "as 0 or 1.5")
+        raise NumberError(
+            f"{shown} is not a finite number (too large): type a number such as 0 or 1.5"
+        )
     return value
 
 

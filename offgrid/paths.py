@@ -87,9 +87,11 @@ def load_list_library() -> list[tuple[str, Path, str]]:
     ``"yours"``; bundled first, then the user's (a user's list never hides a bundled one)."""
     bundled = _named_files(load_profiles_dir(), LOAD_LIST_SUFFIX)
     out = [(name, path, "bundled") for name, path in bundled.items()]
-    out += [(name, path, "yours") for name, path in
-            _named_files(user_load_profiles_dir(), LOAD_LIST_SUFFIX).items()
-            if name not in bundled]
+    out += [
+        (name, path, "yours")
+        for name, path in _named_files(user_load_profiles_dir(), LOAD_LIST_SUFFIX).items()
+        if name not in bundled
+    ]
     return out
 
 

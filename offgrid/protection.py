@@ -14,9 +14,46 @@ from dataclasses import dataclass
 from offgrid.result import DesignError
 
 #: NEC 2023 Table 240.6(A) standard ratings [A] (as transcribed, V).
-STANDARD_RATINGS_A = (10, 15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150,
-                      175, 200, 225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000, 1200,
-                      1600, 2000, 2500, 3000, 4000, 5000, 6000)
+STANDARD_RATINGS_A = (
+    10,
+    15,
+    20,
+    25,
+    30,
+    35,
+    40,
+    45,
+    50,
+    60,
+    70,
+    80,
+    90,
+    100,
+    110,
+    125,
+    150,
+    175,
+    200,
+    225,
+    250,
+    300,
+    350,
+    400,
+    450,
+    500,
+    600,
+    700,
+    800,
+    1000,
+    1200,
+    1600,
+    2000,
+    2500,
+    3000,
+    4000,
+    5000,
+    6000,
+)
 #: NEC 2023 240.6(A): additional standard ratings for fuses only [A].
 FUSE_ONLY_RATINGS_A = (1, 3, 6, 601)
 
@@ -25,8 +62,9 @@ FUSE_ONLY_RATINGS_A = (1, 3, 6, 601)
 SHORT_CIRCUIT_A_PER_AH = {"flooded": 10.0, "agm": 20.0, "gel": 12.0, "lifepo4": 40.0}
 
 
-def standard_rating_a(current_a: float, fuse: bool = True, what: str = "",
-                      field: str | None = None) -> int:
+def standard_rating_a(
+    current_a: float, fuse: bool = True, what: str = "", field: str | None = None
+) -> int:
     """Smallest NEC 240.6(A) standard rating at or above ``current_a`` [A].
 
     ``what`` names the circuit and ``field`` the project value behind it, for the message
@@ -37,10 +75,15 @@ def standard_rating_a(current_a: float, fuse: bool = True, what: str = "",
         if r >= current_a - 1e-9:
             return r
     circuit = f"The {what} needs" if what else "The circuit needs"
-    raise DesignError("no-standard-rating", f"{circuit} an overcurrent device of at least "
-                      f"{current_a:.0f} A, above the largest standard rating ({ratings[-1]} A, "
-                      "NEC 240.6(A)): raise the system voltage or split the circuit"
-                      + (f" (check {field})" if field else "") + ".", field=field)
+    raise DesignError(
+        "no-standard-rating",
+        f"{circuit} an overcurrent device of at least "
+        f"{current_a:.0f} A, above the largest standard rating ({ratings[-1]} A, "
+        "NEC 240.6(A)): raise the system voltage or split the circuit"
+        + (f" (check {field})" if field else "")
+        + ".",
+        field=field,
+    )
 
 
 def pv_max_current_a(isc_a: float, strings: int) -> float:
@@ -53,8 +96,9 @@ def pv_fuse_min_a(isc_a: float, strings: int) -> float:
     return 1.25 * pv_max_current_a(isc_a, strings)
 
 
-def string_fuses_needed(strings_in_parallel: int, isc_a: float,
-                        module_max_fuse_a: float | None) -> bool:
+def string_fuses_needed(
+    strings_in_parallel: int, isc_a: float, module_max_fuse_a: float | None
+) -> bool:
     """Whether each PV string needs its own fuse.
 
     NEC 690.9(A) (2020/2023): a PV source circuit needs overcurrent protection
@@ -74,26 +118,30 @@ def string_fuses_needed(strings_in_parallel: int, isc_a: float,
 
 def string_fuse_rating_a(isc_a: float, module_max_fuse_a: float | None) -> int:
     """String fuse: the standard rating at or above 1.5625 Isc, not above the module's limit."""
-    rating = standard_rating_a(pv_fuse_min_a(isc_a, 1), what="PV string fuse",
-                               field="module.isc_a")
+    rating = standard_rating_a(pv_fuse_min_a(isc_a, 1), what="PV string fuse", field="module.isc_a")
     if module_max_fuse_a is not None and rating > module_max_fuse_a:
         raise DesignError(
-            "string-fuse", f"The string fuse must be at least {pv_fuse_min_a(isc_a, 1):.1f} A "
+            "string-fuse",
+            f"The string fuse must be at least {pv_fuse_min_a(isc_a, 1):.1f} A "
             f"(1.56 x Isc, NEC 690.9(B)) and the nearest standard rating is {rating} A, above "
             f"the module's maximum series fuse of {module_max_fuse_a:.4g} A: check that rating on "
             "the datasheet, or keep to two strings per controller.",
-            field="wiring.module_max_fuse_a")
+            field="wiring.module_max_fuse_a",
+        )
     return rating
 
 
-def unit_short_circuit_a(chemistry: str, capacity_ah: float,
-                         datasheet_a: float | None) -> tuple[float, bool]:
+def unit_short_circuit_a(
+    chemistry: str, capacity_ah: float, datasheet_a: float | None
+) -> tuple[float, bool]:
     """Prospective short-circuit current of one battery unit [A], and whether estimated."""
     if datasheet_a is not None:
         if not (datasheet_a > 0 and math.isfinite(datasheet_a)):
-            raise DesignError("battery-short-circuit", "The battery unit's short-circuit current "
-                              "must be a positive number of amperes.",
-                              field="wiring.battery_short_circuit_a")
+            raise DesignError(
+                "battery-short-circuit",
+                "The battery unit's short-circuit current must be a positive number of amperes.",
+                field="wiring.battery_short_circuit_a",
+            )
         return float(datasheet_a), False
     return SHORT_CIRCUIT_A_PER_AH.get(chemistry, 20.0) * capacity_ah, True
 

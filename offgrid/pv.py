@@ -89,11 +89,13 @@ class IVCurve:
 
 # --------------------------------------------------------------------------- checks
 
+
 def validate_module(module) -> list[str]:
     """Check datasheet values; raise DesignError naming the field, return soft warnings.
 
     ``module`` is an :class:`offgrid.project.model.ModuleSpec`.
     """
+
     def bad(field: str, message: str) -> DesignError:
         return DesignError("module-datasheet", message, field=f"module.{field}")
 
@@ -104,45 +106,71 @@ def validate_module(module) -> list[str]:
     if module.cells_in_series < 1:
         raise bad("cells_in_series", "Module cells in series must be at least 1.")
     if module.vmp_v >= module.voc_v:
-        raise bad("vmp_v", f"Module Vmp ({module.vmp_v:g} V) must be below Voc "
-                  f"({module.voc_v:g} V): check the datasheet, the two may be swapped.")
+        raise bad(
+            "vmp_v",
+            f"Module Vmp ({module.vmp_v:g} V) must be below Voc "
+            f"({module.voc_v:g} V): check the datasheet, the two may be swapped.",
+        )
     if module.imp_a >= module.isc_a:
-        raise bad("imp_a", f"Module Imp ({module.imp_a:g} A) must be below Isc "
-                  f"({module.isc_a:g} A): check the datasheet, the two may be swapped.")
+        raise bad(
+            "imp_a",
+            f"Module Imp ({module.imp_a:g} A) must be below Isc "
+            f"({module.isc_a:g} A): check the datasheet, the two may be swapped.",
+        )
     p = module.vmp_v * module.imp_a
     if abs(p - module.pmax_w) > 0.02 * module.pmax_w:
-        raise bad("pmax_w", f"Module Pmax ({module.pmax_w:g} W) differs from Vmp x Imp "
-                  f"({p:.1f} W) by more than 2 %: check Pmax, Vmp and Imp on the datasheet.")
+        raise bad(
+            "pmax_w",
+            f"Module Pmax ({module.pmax_w:g} W) differs from Vmp x Imp "
+            f"({p:.1f} W) by more than 2 %: check Pmax, Vmp and Imp on the datasheet.",
+        )
     ff = p / (module.voc_v * module.isc_a)
     if not 0.5 <= ff <= 0.9:
-        raise bad("vmp_v", f"Module fill factor Vmp Imp / (Voc Isc) = {ff:.2f} is outside "
-                  "0.5-0.9, which no crystalline module has: check Vmp, Imp, Voc and Isc.")
+        raise bad(
+            "vmp_v",
+            f"Module fill factor Vmp Imp / (Voc Isc) = {ff:.2f} is outside "
+            "0.5-0.9, which no crystalline module has: check Vmp, Imp, Voc and Isc.",
+        )
     beta = module.beta_voc_pct_per_c
     if beta is not None and not -1.0 < beta < 0.0:
-        raise bad("beta_voc_pct_per_c", f"The Voc temperature coefficient must be negative, "
-                  f"about -0.25 to -0.40 %/C (got {beta:g} %/C): Voc rises in the cold.")
+        raise bad(
+            "beta_voc_pct_per_c",
+            f"The Voc temperature coefficient must be negative, "
+            f"about -0.25 to -0.40 %/C (got {beta:g} %/C): Voc rises in the cold.",
+        )
     alpha = module.alpha_isc_pct_per_c
     if not 0.0 <= alpha < 0.2:
-        raise bad("alpha_isc_pct_per_c", f"The Isc temperature coefficient must be small and "
-                  f"positive, about +0.03 to +0.07 %/C (got {alpha:g} %/C).")
+        raise bad(
+            "alpha_isc_pct_per_c",
+            f"The Isc temperature coefficient must be small and "
+            f"positive, about +0.03 to +0.07 %/C (got {alpha:g} %/C).",
+        )
     gamma = module.gamma_pmax_pct_per_c
     if gamma is not None and not -1.0 < gamma < 0.0:
-        raise bad("gamma_pmax_pct_per_c", f"The Pmax temperature coefficient must be negative, "
-                  f"about -0.3 to -0.5 %/C (got {gamma:g} %/C).")
+        raise bad(
+            "gamma_pmax_pct_per_c",
+            f"The Pmax temperature coefficient must be negative, "
+            f"about -0.3 to -0.5 %/C (got {gamma:g} %/C).",
+        )
     eff = module.pmax_w / (G_REF_W_M2 * module.area_m2)
     if not 0.03 <= eff <= 0.30:
-        raise bad("area_m2", f"Pmax / (1000 W/m2 x area) = {eff:.1%} is not a module "
-                  "efficiency: check the area (m2, not cm2 or mm2) and Pmax.")
+        raise bad(
+            "area_m2",
+            f"Pmax / (1000 W/m2 x area) = {eff:.1%} is not a module "
+            "efficiency: check the area (m2, not cm2 or mm2) and Pmax.",
+        )
     warnings = []
     voc_cell = module.voc_v / module.cells_in_series
     if not 0.45 <= voc_cell <= 0.85:
         warnings.append(
             f"Voc per cell is {voc_cell:.2f} V: {module.cells_in_series} cells in series looks "
-            "wrong for crystalline silicon (half-cut modules of 144 cells have 72 in series).")
+            "wrong for crystalline silicon (half-cut modules of 144 cells have 72 in series)."
+        )
     return warnings
 
 
 # ------------------------------------------------------------------------ the fit
+
 
 def _lambertw_of_exp(x):
     """W(exp(x)) for x > 1 by Newton on w + ln w = x."""
@@ -184,19 +212,21 @@ def _desoto_residuals(x, specs):
     a2 = a * t2 / T_REF_K
     il2 = il + 2.0 * alpha
     eg2 = EG_REF_EV * (1.0 + DEG_DT_PER_K * 2.0)
-    i02 = i0 * (t2 / T_REF_K) ** 3 * math.exp((EG_REF_EV / T_REF_K - eg2 / t2)
-                                               / BOLTZMANN_EV_PER_K)
-    return np.array([
-        isc - il + i0 * math.expm1(isc * rs / a) + isc * rs / rsh,
-        -il + i0 * math.expm1(voc / a) + voc / rsh,
-        imp - il + i0 * (e_mp - 1.0) + (vmp + imp * rs) / rsh,
-        imp - vmp * (i0 / a * e_mp + 1.0 / rsh) / (1.0 + i0 * rs / a * e_mp + rs / rsh),
-        -il2 + i02 * math.expm1(voc2 / a2) + voc2 / rsh,
-    ])
+    i02 = i0 * (t2 / T_REF_K) ** 3 * math.exp((EG_REF_EV / T_REF_K - eg2 / t2) / BOLTZMANN_EV_PER_K)
+    return np.array(
+        [
+            isc - il + i0 * math.expm1(isc * rs / a) + isc * rs / rsh,
+            -il + i0 * math.expm1(voc / a) + voc / rsh,
+            imp - il + i0 * (e_mp - 1.0) + (vmp + imp * rs) / rsh,
+            imp - vmp * (i0 / a * e_mp + 1.0 / rsh) / (1.0 + i0 * rs / a * e_mp + rs / rsh),
+            -il2 + i02 * math.expm1(voc2 / a2) + voc2 / rsh,
+        ]
+    )
 
 
-def fit_desoto2006(vmp_v, imp_a, voc_v, isc_a, alpha_isc_a_per_c, beta_voc_v_per_c,
-                   start=None, max_iter=60):
+def fit_desoto2006(
+    vmp_v, imp_a, voc_v, isc_a, alpha_isc_a_per_c, beta_voc_v_per_c, start=None, max_iter=60
+):
     """Fit the De Soto et al. (2006) [1]_ reference parameters to datasheet values.
 
     Damped Newton iteration on the five equations of [1]_ (unknowns IL, ln I0,
@@ -204,8 +234,7 @@ def fit_desoto2006(vmp_v, imp_a, voc_v, isc_a, alpha_isc_a_per_c, beta_voc_v_per
     that function, or None when the iteration does not converge to physical
     (positive) parameters.
     """
-    s = start or fit_batzelis2017(vmp_v, imp_a, voc_v, isc_a, alpha_isc_a_per_c,
-                                  beta_voc_v_per_c)
+    s = start or fit_batzelis2017(vmp_v, imp_a, voc_v, isc_a, alpha_isc_a_per_c, beta_voc_v_per_c)
     if not (s["I0"] > 0 and s["a"] > 0 and s["Rsh"] > 0):
         return None
     specs = (isc_a, voc_v, imp_a, vmp_v, beta_voc_v_per_c, alpha_isc_a_per_c)
@@ -239,8 +268,13 @@ def fit_desoto2006(vmp_v, imp_a, voc_v, isc_a, alpha_isc_a_per_c, beta_voc_v_per
         return None
     if not norm < 1e-9:
         return None
-    return {"IL": float(x[0]), "I0": math.exp(x[1]), "Rs": float(x[2]), "Rsh": float(x[3]),
-            "a": float(x[4])}
+    return {
+        "IL": float(x[0]),
+        "I0": math.exp(x[1]),
+        "Rs": float(x[2]),
+        "Rsh": float(x[3]),
+        "a": float(x[4]),
+    }
 
 
 def _fit_desoto_pvlib(module, alpha_a, beta_v):
@@ -250,12 +284,25 @@ def _fit_desoto_pvlib(module, alpha_a, beta_v):
     except ImportError:  # pragma: no cover - pvlib is a dependency
         return None
     try:
-        p, _ = fit_desoto(module.vmp_v, module.imp_a, module.voc_v, module.isc_a, alpha_a,
-                          beta_v, module.cells_in_series, root_kwargs={"method": "lm"})
+        p, _ = fit_desoto(
+            module.vmp_v,
+            module.imp_a,
+            module.voc_v,
+            module.isc_a,
+            alpha_a,
+            beta_v,
+            module.cells_in_series,
+            root_kwargs={"method": "lm"},
+        )
     except RuntimeError:
         return None
-    return {"IL": float(p["I_L_ref"]), "I0": float(p["I_o_ref"]), "Rs": float(p["R_s"]),
-            "Rsh": float(p["R_sh_ref"]), "a": float(p["a_ref"])}
+    return {
+        "IL": float(p["I_L_ref"]),
+        "I0": float(p["I_o_ref"]),
+        "Rs": float(p["R_s"]),
+        "Rsh": float(p["R_sh_ref"]),
+        "a": float(p["a_ref"]),
+    }
 
 
 def _stc_errors(p: dict, module) -> tuple[float, float, float, float] | None:
@@ -265,10 +312,13 @@ def _stc_errors(p: dict, module) -> tuple[float, float, float, float] | None:
         return None
     isc = float(current_at_voltage(0.0, p["IL"], p["I0"], p["Rs"], p["Rsh"], p["a"]))
     voc = float(open_circuit_voltage(p["IL"], p["I0"], p["Rsh"], p["a"]))
-    vmp, imp, _ = (float(v) for v in max_power_point(p["IL"], p["I0"], p["Rs"], p["Rsh"],
-                                                     p["a"]))
-    errs = (vmp / module.vmp_v - 1, imp / module.imp_a - 1, voc / module.voc_v - 1,
-            isc / module.isc_a - 1)
+    vmp, imp, _ = (float(v) for v in max_power_point(p["IL"], p["I0"], p["Rs"], p["Rsh"], p["a"]))
+    errs = (
+        vmp / module.vmp_v - 1,
+        imp / module.imp_a - 1,
+        voc / module.voc_v - 1,
+        isc / module.isc_a - 1,
+    )
     if not all(math.isfinite(e) for e in errs):
         return None
     return tuple(100.0 * e for e in errs)
@@ -292,10 +342,14 @@ def fit_module(module) -> DiodeParams:
     args = (module.vmp_v, module.imp_a, module.voc_v, module.isc_a, alpha_a, beta_v)
     start = fit_batzelis2017(*args)
     tries = (
-        ("De Soto et al. (2006) five-parameter fit, Newton from the Batzelis (2017) start",
-         lambda: fit_desoto2006(*args, start=start)),
-        ("De Soto et al. (2006) five-parameter fit (pvlib fit_desoto, Levenberg-Marquardt)",
-         lambda: _fit_desoto_pvlib(module, alpha_a, beta_v)),
+        (
+            "De Soto et al. (2006) five-parameter fit, Newton from the Batzelis (2017) start",
+            lambda: fit_desoto2006(*args, start=start),
+        ),
+        (
+            "De Soto et al. (2006) five-parameter fit (pvlib fit_desoto, Levenberg-Marquardt)",
+            lambda: _fit_desoto_pvlib(module, alpha_a, beta_v),
+        ),
         ("Batzelis (2017) explicit single-diode parameters", lambda: start),
     )
     worst = None
@@ -307,19 +361,25 @@ def fit_module(module) -> DiodeParams:
         if errs is None:
             continue
         if max(abs(e) for e in errs) <= 100 * FIT_TOLERANCE:
-            return DiodeParams(p["IL"], p["I0"], p["Rs"], p["Rsh"], p["a"], alpha_a, method,
-                               errs)
+            return DiodeParams(p["IL"], p["I0"], p["Rs"], p["Rsh"], p["a"], alpha_a, method, errs)
         worst = errs if worst is None else worst
-    detail = "" if worst is None else (
-        " (best try: Vmp {:+.2f} %, Imp {:+.2f} %, Voc {:+.2f} %, Isc {:+.2f} %)".format(*worst))
+    detail = (
+        ""
+        if worst is None
+        else (
+            " (best try: Vmp {:+.2f} %, Imp {:+.2f} %, Voc {:+.2f} %, Isc {:+.2f} %)".format(*worst)
+        )
+    )
     raise DesignError(
         "module-fit",
         "The single-diode model could not be fitted to this datasheet within 0.5 % at STC"
         f"{detail}: check Vmp, Imp, Voc, Isc and the Voc temperature coefficient.",
-        field="module.vmp_v")
+        field="module.vmp_v",
+    )
 
 
 # --------------------------------------------------------------- operating conditions
+
 
 def calcparams_desoto(params: DiodeParams, irradiance_w_m2, cell_temp_c):
     """Translate the reference parameters to irradiance and cell temperature, De Soto [1]_.
@@ -331,11 +391,13 @@ def calcparams_desoto(params: DiodeParams, irradiance_w_m2, cell_temp_c):
     """
     g = np.maximum(np.asarray(irradiance_w_m2, dtype=float), 1e-3)
     tk = np.asarray(cell_temp_c, dtype=float) + 273.15
-    il = g / G_REF_W_M2 * (params.photocurrent_a
-                           + params.alpha_isc_a_per_c * (tk - T_REF_K))
+    il = g / G_REF_W_M2 * (params.photocurrent_a + params.alpha_isc_a_per_c * (tk - T_REF_K))
     eg = EG_REF_EV * (1.0 + DEG_DT_PER_K * (tk - T_REF_K))
-    i0 = params.saturation_current_a * (tk / T_REF_K) ** 3 * np.exp(
-        EG_REF_EV / (BOLTZMANN_EV_PER_K * T_REF_K) - eg / (BOLTZMANN_EV_PER_K * tk))
+    i0 = (
+        params.saturation_current_a
+        * (tk / T_REF_K) ** 3
+        * np.exp(EG_REF_EV / (BOLTZMANN_EV_PER_K * T_REF_K) - eg / (BOLTZMANN_EV_PER_K * tk))
+    )
     rsh = params.shunt_resistance_ohm * G_REF_W_M2 / g
     a = params.modified_ideality_v * tk / T_REF_K
     rs = np.full(np.broadcast(g, tk).shape, params.series_resistance_ohm)
@@ -378,7 +440,8 @@ def current_at_voltage(voltage_v, il, i0, rs, rsh, a, tol_v=1e-10, max_iter=200)
     external series resistance (wiring) to ``rs``.
     """
     v, il, i0, rs, rsh, a = np.broadcast_arrays(
-        *(np.asarray(x, dtype=float) for x in (voltage_v, il, i0, rs, rsh, a)))
+        *(np.asarray(x, dtype=float) for x in (voltage_v, il, i0, rs, rsh, a))
+    )
     vd = v + np.maximum(il, 0.0) * rs
     for _ in range(max_iter):
         e = np.exp(vd / a)
@@ -399,7 +462,8 @@ def max_power_point(il, i0, rs, rsh, a, tol_v=1e-10, max_iter=100):
     bracketed by Vd = 0 (dP/dVd > 0) and Vd = Voc (dP/dVd < 0).
     """
     il, i0, rs, rsh, a = np.broadcast_arrays(
-        *(np.asarray(x, dtype=float) for x in (il, i0, rs, rsh, a)))
+        *(np.asarray(x, dtype=float) for x in (il, i0, rs, rsh, a))
+    )
     lo = np.zeros_like(il)
     hi = open_circuit_voltage(il, i0, rsh, a)
     vd = 0.8 * hi
@@ -470,8 +534,9 @@ def module_mpp(params: DiodeParams, irradiance_w_m2, cell_temp_c):
 
 
 @memoised
-def module_current(params: DiodeParams, voltage_v, irradiance_w_m2, cell_temp_c,
-                   extra_series_ohm=0.0):
+def module_current(
+    params: DiodeParams, voltage_v, irradiance_w_m2, cell_temp_c, extra_series_ohm=0.0
+):
     """Current of one module held at ``voltage_v`` [A], clipped at zero, zero in the dark."""
     g = np.asarray(irradiance_w_m2, dtype=float)
     il, i0, rs, rsh, a = calcparams_desoto(params, g, cell_temp_c)
@@ -479,8 +544,9 @@ def module_current(params: DiodeParams, voltage_v, irradiance_w_m2, cell_temp_c,
     return np.where(g > 0.5, np.maximum(i, 0.0), 0.0)
 
 
-def operating_point(params: DiodeParams, irradiance_w_m2: float, cell_temp_c: float,
-                    area_m2: float) -> OperatingPoint:
+def operating_point(
+    params: DiodeParams, irradiance_w_m2: float, cell_temp_c: float, area_m2: float
+) -> OperatingPoint:
     """Isc, Voc, MPP, fill factor and efficiency of one module at one condition."""
     if not irradiance_w_m2 > 0:
         raise DesignError("no-irradiance", "The design condition has no sunlight on the array.")
@@ -488,13 +554,27 @@ def operating_point(params: DiodeParams, irradiance_w_m2: float, cell_temp_c: fl
     isc = float(current_at_voltage(0.0, il, i0, rs, rsh, a))
     voc = float(open_circuit_voltage(il, i0, rsh, a))
     vmp, imp, pmp = (float(x) for x in max_power_point(il, i0, rs, rsh, a))
-    return OperatingPoint(float(irradiance_w_m2), float(cell_temp_c), isc, voc, imp, vmp, pmp,
-                          pmp / (isc * voc), pmp / (irradiance_w_m2 * area_m2))
+    return OperatingPoint(
+        float(irradiance_w_m2),
+        float(cell_temp_c),
+        isc,
+        voc,
+        imp,
+        vmp,
+        pmp,
+        pmp / (isc * voc),
+        pmp / (irradiance_w_m2 * area_m2),
+    )
 
 
 @memoised
-def iv_curve(params: DiodeParams, irradiance_w_m2: float, cell_temp_c: float, area_m2: float,
-             points: int = 61) -> IVCurve:
+def iv_curve(
+    params: DiodeParams,
+    irradiance_w_m2: float,
+    cell_temp_c: float,
+    area_m2: float,
+    points: int = 61,
+) -> IVCurve:
     """I-V and P-V curve of one module from 0 V to Voc at evenly spaced voltages."""
     op = operating_point(params, irradiance_w_m2, cell_temp_c, area_m2)
     il, i0, rs, rsh, a = calcparams_desoto(params, irradiance_w_m2, cell_temp_c)

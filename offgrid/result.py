@@ -69,14 +69,16 @@ class ReasonBook:
     def __init__(self) -> None:
         self._items: dict[str, Reason] = {}
 
-    def add(self, path: str, formula: str, source: str = "common practice, no source",
-            **inputs: str) -> None:
+    def add(
+        self, path: str, formula: str, source: str = "common practice, no source", **inputs: str
+    ) -> None:
         self._items[path] = Reason(formula, tuple(inputs.items()), source)
 
     def given(self, path: str, field: str, value: str) -> None:
         """A figure that repeats a project value (typed, or its default): ``field`` names it."""
-        self._items[path] = Reason(f"as set in {field} (typed, or the default)",
-                                   (("value", value),), "project file")
+        self._items[path] = Reason(
+            f"as set in {field} (typed, or the default)", (("value", value),), "project file"
+        )
 
     def freeze(self) -> dict[str, Reason]:
         return dict(self._items)

@@ -22,8 +22,9 @@ import re
 # C0 controls, DEL, C1 controls, and the invisible bidirectional overrides that
 # can make text appear in a different order than it is stored.
 _HIDDEN = re.compile("[\x00-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
-_HIDDEN_BUT_LINES = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e"
-                               "\u2066-\u2069]")
+_HIDDEN_BUT_LINES = re.compile(
+    "[\x00-\x08\x0b-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]"
+)
 
 
 def _picture(match: re.Match[str]) -> str:

@@ -41,11 +41,15 @@ def open_regular(path: str | os.PathLike, max_bytes: int | None = None):
     if stat.S_ISDIR(info.st_mode):
         raise TextFileError("is a folder, not a file: give the path of the file itself")
     if not stat.S_ISREG(info.st_mode):
-        raise TextFileError(f"is not a regular file (it is {_kind(info.st_mode)}): give "
-                            "the path of a saved text file")
+        raise TextFileError(
+            f"is not a regular file (it is {_kind(info.st_mode)}): give "
+            "the path of a saved text file"
+        )
     if max_bytes is not None and info.st_size > max_bytes:
-        raise TextFileError(f"is {info.st_size / 1e6:.0f} MB, far larger than this kind of "
-                            "file: check that it is the right file")
+        raise TextFileError(
+            f"is {info.st_size / 1e6:.0f} MB, far larger than this kind of "
+            "file: check that it is the right file"
+        )
     # O_NONBLOCK: if the path was swapped for a FIFO since stat, open does not wait
     fd = os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
     fh = os.fdopen(fd, "rb")
@@ -67,19 +71,25 @@ def read_text(path: str | os.PathLike, max_bytes: int = MAX_TEXT_BYTES) -> str:
         with open_regular(p, max_bytes) as fh:
             data = fh.read(max_bytes + 1)
         if len(data) > max_bytes:
-            raise TextFileError(f"is larger than {max_bytes / 1e6:.0f} MB, far larger than this "
-                                "kind of file: check that it is the right file")
+            raise TextFileError(
+                f"is larger than {max_bytes / 1e6:.0f} MB, far larger than this "
+                "kind of file: check that it is the right file"
+            )
     except FileNotFoundError:
         raise TextFileError("does not exist: check the folder and the file name") from None
     except PermissionError:
-        raise TextFileError("cannot be read: permission denied; check the file's permissions "
-                            "or copy it somewhere you can read") from None
+        raise TextFileError(
+            "cannot be read: permission denied; check the file's permissions "
+            "or copy it somewhere you can read"
+        ) from None
     except OSError as exc:
         raise TextFileError(f"cannot be read: {exc.strerror or exc}") from None
     if data[:2] in (b"\xff\xfe", b"\xfe\xff"):
-        raise TextFileError("is UTF-16 text (a spreadsheet's 'Unicode text'): save it with "
-                            "UTF-8 encoding (in a spreadsheet: 'CSV UTF-8'; in an editor: "
-                            "encoding UTF-8)")
+        raise TextFileError(
+            "is UTF-16 text (a spreadsheet's 'Unicode text'): save it with "
+            "UTF-8 encoding (in a spreadsheet: 'CSV UTF-8'; in an editor: "
+            "encoding UTF-8)"
+        )
     if b"\x00" in data[:4096]:
         raise TextFileError("is a binary file, not text: give the text file (TOML or CSV)")
     try:

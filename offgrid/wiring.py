@@ -125,9 +125,17 @@ def _build_awg() -> tuple[ConductorSize, ...]:
         else:
             name, area = _awg_label(g), awg_area_mm2(g)
         al = {} if a75 is None else {60: a60, 75: a75, 90: a90}
-        out.append(ConductorSize(
-            name, "awg", area, rcu * FT_PER_KM / 1000.0,
-            None if ral is None else ral * FT_PER_KM / 1000.0, {60: c60, 75: c75, 90: c90}, al))
+        out.append(
+            ConductorSize(
+                name,
+                "awg",
+                area,
+                rcu * FT_PER_KM / 1000.0,
+                None if ral is None else ral * FT_PER_KM / 1000.0,
+                {60: c60, 75: c75, 90: c90},
+                al,
+            )
+        )
     return tuple(out)
 
 
@@ -135,8 +143,9 @@ def _build_mm2() -> tuple[ConductorSize, ...]:
     out = []
     for mm2, rcu, ral, c70, c90, a70, a90 in _MM2_ROWS:
         al = {} if a70 is None else {70: a70, 90: a90}
-        out.append(ConductorSize(f"{mm2:g} mm2", "mm2", float(mm2), rcu, ral,
-                                 {70: c70, 90: c90}, al))
+        out.append(
+            ConductorSize(f"{mm2:g} mm2", "mm2", float(mm2), rcu, ral, {70: c70, 90: c90}, al)
+        )
     return tuple(out)
 
 
@@ -146,17 +155,31 @@ MM2_SIZES = _build_mm2()
 # NEC 2023 Table 310.15(B)(1)(1): ambient correction, 30 C base; rows by the warm end of each
 # ambient range (<=10, 11-15, ...).  75 and 90 C columns as transcribed (V); 60 C from memory.
 _NEC_AMBIENT_ROWS = (
-    (10, 1.29, 1.20, 1.15), (15, 1.22, 1.15, 1.12), (20, 1.15, 1.11, 1.08),
-    (25, 1.08, 1.05, 1.04), (30, 1.00, 1.00, 1.00), (35, 0.91, 0.94, 0.96),
-    (40, 0.82, 0.88, 0.91), (45, 0.71, 0.82, 0.87), (50, 0.58, 0.75, 0.82),
-    (55, 0.41, 0.67, 0.76), (60, None, 0.58, 0.71), (65, None, 0.47, 0.65),
-    (70, None, 0.33, 0.58), (75, None, None, 0.50), (80, None, None, 0.41),
+    (10, 1.29, 1.20, 1.15),
+    (15, 1.22, 1.15, 1.12),
+    (20, 1.15, 1.11, 1.08),
+    (25, 1.08, 1.05, 1.04),
+    (30, 1.00, 1.00, 1.00),
+    (35, 0.91, 0.94, 0.96),
+    (40, 0.82, 0.88, 0.91),
+    (45, 0.71, 0.82, 0.87),
+    (50, 0.58, 0.75, 0.82),
+    (55, 0.41, 0.67, 0.76),
+    (60, None, 0.58, 0.71),
+    (65, None, 0.47, 0.65),
+    (70, None, 0.33, 0.58),
+    (75, None, None, 0.50),
+    (80, None, None, 0.41),
 )
 # NEC 240.4(D): largest overcurrent device on small conductors, A (Cu 12 and 10 AWG as
 # transcribed, V; Cu 14 AWG and the aluminium rows from memory).
-SMALL_CONDUCTOR_MAX_A = {("copper", "14 AWG"): 15, ("copper", "12 AWG"): 20,
-                         ("copper", "10 AWG"): 30, ("aluminium", "12 AWG"): 15,
-                         ("aluminium", "10 AWG"): 25}
+SMALL_CONDUCTOR_MAX_A = {
+    ("copper", "14 AWG"): 15,
+    ("copper", "12 AWG"): 20,
+    ("copper", "10 AWG"): 30,
+    ("aluminium", "12 AWG"): 15,
+    ("aluminium", "10 AWG"): 25,
+}
 
 
 def _by_size_name(func):
@@ -183,14 +206,18 @@ def sizes_for(units: str) -> tuple[ConductorSize, ...]:
         return AWG_SIZES
     if units == "mm2":
         return MM2_SIZES
-    raise DesignError("wire-units", f"Wire units must be 'awg' or 'mm2' (got {units!r}).",
-                      field="wiring.units")
+    raise DesignError(
+        "wire-units", f"Wire units must be 'awg' or 'mm2' (got {units!r}).", field="wiring.units"
+    )
 
 
 def _check_material(material: str) -> None:
     if material not in ALPHA_75:
-        raise DesignError("wire-material", "Conductor material must be 'copper' or "
-                          f"'aluminium' (got {material!r}).", field="wiring.material")
+        raise DesignError(
+            "wire-material",
+            f"Conductor material must be 'copper' or 'aluminium' (got {material!r}).",
+            field="wiring.material",
+        )
 
 
 @_by_size_name
@@ -203,8 +230,9 @@ def resistance_ohm_per_km(size: ConductorSize, material: str, conductor_temp_c: 
     _check_material(material)
     r = size.r_copper_ohm_km if material == "copper" else size.r_aluminium_ohm_km
     if r is None:
-        raise DesignError("wire-not-listed", f"{size.name} is not listed in {material}.",
-                          field="wiring.material")
+        raise DesignError(
+            "wire-not-listed", f"{size.name} is not listed in {material}.", field="wiring.material"
+        )
     if size.system == "awg":
         return r * (1.0 + ALPHA_75[material] * (conductor_temp_c - 75.0))
     return r * (1.0 + ALPHA_20[material] * (conductor_temp_c - 20.0))
@@ -219,8 +247,11 @@ def nec_ambient_factor(ambient_c: float, insulation_c: int) -> float | None:
     """NEC 2023 Table 310.15(B)(1)(1) factor; None above the insulation's last row."""
     col = {60: 1, 75: 2, 90: 3}.get(insulation_c)
     if col is None:
-        raise DesignError("wire-insulation", "Insulation rating must be 60, 75 or 90 C for NEC "
-                          f"sizes (got {insulation_c}).", field="wiring.insulation_temp_c")
+        raise DesignError(
+            "wire-insulation",
+            f"Insulation rating must be 60, 75 or 90 C for NEC sizes (got {insulation_c}).",
+            field="wiring.insulation_temp_c",
+        )
     for row in _NEC_AMBIENT_ROWS:
         if ambient_c <= row[0]:
             return row[col]
@@ -235,8 +266,9 @@ def ambient_factor_formula(ambient_c: float, conductor_rating_c: float) -> float
 
 
 @_by_size_name
-def ampacity_a(size: ConductorSize, material: str, ambient_c: float,
-               insulation_c: int) -> float | None:
+def ampacity_a(
+    size: ConductorSize, material: str, ambient_c: float, insulation_c: int
+) -> float | None:
     """Usable ampacity [A] at the ambient temperature; None when the size cannot be used.
 
     NEC: Table 310.16 at the insulation rating times the ambient factor, not more
@@ -306,17 +338,29 @@ class WireChoice:
 def check_length(length_m: float, run_name: str, field: str) -> None:
     if not math.isfinite(length_m) or length_m < RUN_MIN_M:
         raise DesignError(
-            "run-length", f"The {run_name} run is {length_m:g} m long: type its one-way length "
-            f"in metres (at least {RUN_MIN_M:g} m).", field=field)
+            "run-length",
+            f"The {run_name} run is {length_m:g} m long: type its one-way length "
+            f"in metres (at least {RUN_MIN_M:g} m).",
+            field=field,
+        )
     if length_m > RUN_MAX_M:
         raise DesignError(
-            "run-length", f"The {run_name} run is {length_m:g} m long, more than "
+            "run-length",
+            f"The {run_name} run is {length_m:g} m long, more than "
             f"{RUN_MAX_M:g} m: check the unit is metres, or move the equipment closer; a low-"
-            "voltage DC run this long is not practical.", field=field)
+            "voltage DC run this long is not practical.",
+            field=field,
+        )
 
 
-def _candidates(run: RunSpec, units: str, material: str, conductor_temp_c: float,
-                ambient_c: float, insulation_c: int) -> list[WireChoice]:
+def _candidates(
+    run: RunSpec,
+    units: str,
+    material: str,
+    conductor_temp_c: float,
+    ambient_c: float,
+    insulation_c: int,
+) -> list[WireChoice]:
     """Every listed size that meets the run's ampacity and small-conductor rules, smallest first."""
     check_length(run.length_m, run.name, run.length_field)
     if not (run.max_current_a > 0 and math.isfinite(run.max_current_a)):
@@ -332,12 +376,28 @@ def _candidates(run: RunSpec, units: str, material: str, conductor_temp_c: float
             continue
         r = resistance_ohm_per_km(size, material, conductor_temp_c)
         drop = voltage_drop_v(run.operating_current_a, run.length_m, r)
-        out.append(WireChoice(run.key, run.name, run.count, run.max_current_a,
-                              run.operating_current_a, run.length_m, material, size.name,
-                              size.area_mm2, r, drop, 100.0 * drop / run.voltage_v,
-                              run.drop_limit_pct, amp, required, run.fuse_a,
-                              voltage_v=run.voltage_v,
-                              length_path=run.length_path or run.length_field))
+        out.append(
+            WireChoice(
+                run.key,
+                run.name,
+                run.count,
+                run.max_current_a,
+                run.operating_current_a,
+                run.length_m,
+                material,
+                size.name,
+                size.area_mm2,
+                r,
+                drop,
+                100.0 * drop / run.voltage_v,
+                run.drop_limit_pct,
+                amp,
+                required,
+                run.fuse_a,
+                voltage_v=run.voltage_v,
+                length_path=run.length_path or run.length_field,
+            )
+        )
     if not out:
         largest = sizes_for(units)[-1].name
         raise DesignError(
@@ -346,7 +406,8 @@ def _candidates(run: RunSpec, units: str, material: str, conductor_temp_c: float
             f"conductor up to {largest} carries it at {ambient_c:.0f} C ambient: raise the "
             "system voltage or split the circuit into parallel runs"
             + (", or use copper." if material == "aluminium" else "."),
-            field=run.length_field)
+            field=run.length_field,
+        )
     return out
 
 
@@ -361,18 +422,27 @@ def drop_limit_field(key: str) -> str:
 
 def _drop_error(runs: list[RunSpec], limit_pct: float, units: str) -> DesignError:
     largest = sizes_for(units)[-1].name
-    what = " and ".join(f"{r.name} ({r.length_m:.1f} m at {r.operating_current_a:.1f} A)"
-                        for r in runs)
+    what = " and ".join(
+        f"{r.name} ({r.length_m:.1f} m at {r.operating_current_a:.1f} A)" for r in runs
+    )
     return DesignError(
         "wire-drop",
         f"The {what} cannot keep within {limit_pct:g} % voltage drop at "
         f"{runs[0].voltage_v:.0f} V even in {largest}: shorten the run "
         f"({runs[-1].length_field}), raise the system voltage, or relax the limit "
-        f"({drop_limit_field(runs[-1].key)}).", field=runs[-1].length_field)
+        f"({drop_limit_field(runs[-1].key)}).",
+        field=runs[-1].length_field,
+    )
 
 
-def size_conductor(run: RunSpec, units: str, material: str, conductor_temp_c: float,
-                   ambient_c: float, insulation_c: int) -> WireChoice:
+def size_conductor(
+    run: RunSpec,
+    units: str,
+    material: str,
+    conductor_temp_c: float,
+    ambient_c: float,
+    insulation_c: int,
+) -> WireChoice:
     """Smallest listed size whose ampacity and voltage drop both meet the run's needs.
 
     The usable ampacity must be at least 1.25 x the maximum current (NEC 690.8(B),
@@ -387,17 +457,24 @@ def size_conductor(run: RunSpec, units: str, material: str, conductor_temp_c: fl
     raise _drop_error([run], run.drop_limit_pct, units)
 
 
-def size_runs_in_series(runs: list[RunSpec], limit_pct: float, units: str, material: str,
-                        conductor_temp_c: float, ambient_c: float,
-                        insulation_c: int) -> list[WireChoice]:
+def size_runs_in_series(
+    runs: list[RunSpec],
+    limit_pct: float,
+    units: str,
+    material: str,
+    conductor_temp_c: float,
+    ambient_c: float,
+    insulation_c: int,
+) -> list[WireChoice]:
     """Size runs that one current path passes in turn so that their drops add up to the limit.
 
     Each run starts at its smallest size meeting ampacity; while the summed drop
     exceeds ``limit_pct`` the run with the largest drop moves up one size
     (greedy, common practice, no source).  All runs must share one circuit voltage.
     """
-    cands = [_candidates(r, units, material, conductor_temp_c, ambient_c, insulation_c)
-             for r in runs]
+    cands = [
+        _candidates(r, units, material, conductor_temp_c, ambient_c, insulation_c) for r in runs
+    ]
     idx = [0] * len(runs)
     while sum(c[i].drop_pct for c, i in zip(cands, idx, strict=True)) > limit_pct:
         order = sorted(range(len(runs)), key=lambda k: -cands[k][idx[k]].drop_pct)

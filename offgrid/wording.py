@@ -15,7 +15,8 @@ from typing import Any
 MARK = "from memory"
 STANDARD = re.compile(
     r"\b(IEC \d{4,5}(?:-\d+)*|IEEE Std \d+|NFPA 70|NEC|ASTM [A-Z]\d+|ESMAP MTF|"
-    r"Duffie (?:&|and) Beckman|TM 5-1185)")
+    r"Duffie (?:&|and) Beckman|TM 5-1185)"
+)
 _WITH_NOTE = re.compile(r"\bfrom memory \(([^)]*)\)")
 _MARKED = re.compile(r"(?:,\s*|;\s*|\s+)?\(?\bfrom memory\b\)?(?:,\s*no source)?")
 
@@ -51,7 +52,8 @@ def for_client(obj: Any) -> Any:
     if isinstance(obj, list):
         return [for_client(x) for x in obj]
     if dataclasses.is_dataclass(obj) and not isinstance(obj, type):
-        changes = {f.name: for_client(getattr(obj, f.name)) for f in dataclasses.fields(obj)
-                   if f.init}
+        changes = {
+            f.name: for_client(getattr(obj, f.name)) for f in dataclasses.fields(obj) if f.init
+        }
         return dataclasses.replace(obj, **changes)
     return obj

@@ -66,8 +66,9 @@ def version_of(source: Path) -> str:
     return tomllib.loads((source / "pyproject.toml").read_text())["project"]["version"]
 
 
-def make_bundle(out: Path, source: Path, platform: str | None, python_version: str | None,
-                dry_run: bool = False) -> None:
+def make_bundle(
+    out: Path, source: Path, platform: str | None, python_version: str | None, dry_run: bool = False
+) -> None:
     out.mkdir(parents=True, exist_ok=True)
     if platform or python_version:
         # offgrid itself is pure Python: one wheel fits every platform
@@ -80,8 +81,7 @@ def make_bundle(out: Path, source: Path, platform: str | None, python_version: s
         with tempfile.TemporaryDirectory() as tmp:
             requirements = Path(tmp) / "requirements.txt"
             requirements.write_text("\n".join(dependencies(source)) + "\n")
-            pip("download", *target, "--dest", str(out), "-r", str(requirements),
-                dry_run=dry_run)
+            pip("download", *target, "--dest", str(out), "-r", str(requirements), dry_run=dry_run)
     else:
         pip("wheel", "--wheel-dir", str(out), str(source), dry_run=dry_run)
     if dry_run:
@@ -90,10 +90,14 @@ def make_bundle(out: Path, source: Path, platform: str | None, python_version: s
     sums = [f"{hashlib.sha256(w.read_bytes()).hexdigest()}  {w.name}" for w in wheels]
     (out / "SHA256SUMS").write_text("\n".join(sums) + "\n")
     where = " ".join(x for x in (platform, python_version and f"Python {python_version}") if x)
-    (out / "INSTALL.txt").write_text(INSTALL.format(
-        count=len(wheels), version=version_of(source),
-        target=where or f"this machine's platform, Python {sys.version_info[0]}."
-                        f"{sys.version_info[1]}"))
+    (out / "INSTALL.txt").write_text(
+        INSTALL.format(
+            count=len(wheels),
+            version=version_of(source),
+            target=where
+            or f"this machine's platform, Python {sys.version_info[0]}.{sys.version_info[1]}",
+        )
+    )
     size_mb = sum(w.stat().st_size for w in wheels) / 1e6
     print(f"{out}: {len(wheels)} wheels, {size_mb:.0f} MB; see {out / 'INSTALL.txt'}")
 
@@ -110,36 +114,71 @@ def check_bundle(out: Path) -> None:
         venv = Path(tmp) / "venv"
         subprocess.run([sys.executable, "-m", "venv", str(venv)], check=True)
         bindir = venv / ("Scripts" if sys.platform == "win32" else "bin")
-        subprocess.run([str(bindir / "python"), "-m", "pip", "install", "-q", "--no-index",
-                        "--find-links", str(out), "offgrid"], check=True)
-        subprocess.run([str(bindir / "offgrid"), "size", "--demo"], check=True, cwd=tmp,
-                       stdout=subprocess.DEVNULL)
+        subprocess.run(
+            [
+                str(bindir / "python"),
+                "-m",
+                "pip",
+                "install",
+                "-q",
+                "--no-index",
+                "--find-links",
+                str(out),
+                "offgrid",
+            ],
+            check=True,
+        )
+        subprocess.run(
+            [str(bindir / "offgrid"), "size", "--demo"],
+            check=True,
+            cwd=tmp,
+            stdout=subprocess.DEVNULL,
+        )
     print(f"{out}: checked, it installs with --no-index and sizes the demo")
 
 
 def main(argv: list[str] | None = None) -> int:
-    parser = argparse.ArgumentParser(description=__doc__.split("\n\n")[0],
-                                     epilog="Example:\n  python3 scripts/make_offline_bundle.py "
-                                            "offgrid-offline --check",
-                                     formatter_class=argparse.RawDescriptionHelpFormatter)
-    parser.add_argument("out", nargs="?", default="offgrid-offline", type=Path,
-                        help="folder to fill (default: offgrid-offline)")
-    parser.add_argument("--source", type=Path, default=ROOT,
-                        help="offgrid checkout or sdist folder (default: this checkout)")
-    parser.add_argument("--platform", help="pip platform tag of the target, e.g. win_amd64, "
-                                           "macosx_11_0_arm64, manylinux2014_x86_64")
+    parser = argparse.ArgumentParser(
+        description=__doc__.split("\n\n")[0],
+        epilog="Example:\n  python3 scripts/make_offline_bundle.py offgrid-offline --check",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    parser.add_argument(
+        "out",
+        nargs="?",
+        default="offgrid-offline",
+        type=Path,
+        help="folder to fill (default: offgrid-offline)",
+    )
+    parser.add_argument(
+        "--source",
+        type=Path,
+        default=ROOT,
+        help="offgrid checkout or sdist folder (default: this checkout)",
+    )
+    parser.add_argument(
+        "--platform",
+        help="pip platform tag of the target, e.g. win_amd64, "
+        "macosx_11_0_arm64, manylinux2014_x86_64",
+    )
     parser.add_argument("--python-version", help="Python of the target, e.g. 3.12")
-    parser.add_argument("--check", action="store_true",
-                        help="then install from the folder into a temporary venv, offline, "
-                             "and size the demo (this machine's platform only)")
+    parser.add_argument(
+        "--check",
+        action="store_true",
+        help="then install from the folder into a temporary venv, offline, "
+        "and size the demo (this machine's platform only)",
+    )
     parser.add_argument("--dry-run", action="store_true", help="print the pip commands only")
     args = parser.parse_args(argv)
     if shutil.which("git") and (args.source / ".git").exists():
-        status = subprocess.run(["git", "-C", str(args.source), "status", "--porcelain"],
-                                capture_output=True, text=True).stdout
+        status = subprocess.run(
+            ["git", "-C", str(args.source), "status", "--porcelain"], capture_output=True, text=True
+        ).stdout
         if status.strip():
-            print("note: the checkout has uncommitted changes; they go into the bundle",
-                  file=sys.stderr)
+            print(
+                "note: the checkout has uncommitted changes; they go into the bundle",
+                file=sys.stderr,
+            )
     make_bundle(args.out, args.source, args.platform, args.python_version, args.dry_run)
     if args.check and not args.dry_run:
         if args.platform or args.python_version:

@@ -37,9 +37,13 @@ def raw_tmy3(path: Path) -> dict[str, np.ndarray]:
         header = list(csv.reader(fh))[1]
     gi = header.index("GHI (W/m^2)")
     ti = header.index("Dry-bulb (C)")
-    return {"month": month, "day": day, "hour": hour,
-            "ghi": np.array([float(r[gi]) for r in rows]),
-            "temp": np.array([float(r[ti]) for r in rows])}
+    return {
+        "month": month,
+        "day": day,
+        "hour": hour,
+        "ghi": np.array([float(r[gi]) for r in rows]),
+        "temp": np.array([float(r[ti]) for r in rows]),
+    }
 
 
 def raw_tmy2(path: Path) -> dict[str, np.ndarray]:
@@ -60,8 +64,12 @@ def raw_tmy2(path: Path) -> dict[str, np.ndarray]:
 
 def monthly_from_raw(raw: dict[str, np.ndarray]) -> dict[str, np.ndarray]:
     """Monthly mean daily insolation [kWh/m2/day], mean, mean daily max and min [C]."""
-    out = {"insolation": np.zeros(12), "mean": np.zeros(12), "max": np.zeros(12),
-           "min": np.zeros(12)}
+    out = {
+        "insolation": np.zeros(12),
+        "mean": np.zeros(12),
+        "max": np.zeros(12),
+        "min": np.zeros(12),
+    }
     for m in range(1, 13):
         sel = raw["month"] == m
         out["insolation"][m - 1] = raw["ghi"][sel].sum() / 1000.0 / DAYS[m - 1]
@@ -85,19 +93,61 @@ EPW_HEADER = [
 ]
 
 
-def write_epw(path: Path, raw: dict[str, np.ndarray], lat=36.1, lon=-79.95, tz=-5.0,
-              elev=273.0, year=1990, header_lines: int = 8) -> Path:
+def write_epw(
+    path: Path,
+    raw: dict[str, np.ndarray],
+    lat=36.1,
+    lon=-79.95,
+    tz=-5.0,
+    elev=273.0,
+    year=1990,
+    header_lines: int = 8,
+) -> Path:
     """An EPW file (EnergyPlus weather format, 35 fields a row) holding ``raw``'s hours."""
     head = [h.format(lat=lat, lon=lon, tz=tz, elev=elev) for h in EPW_HEADER[:header_lines]]
     if header_lines < 8:
         head[-1] = EPW_HEADER[-1]
     rows = []
-    for mo, dy, hr, g, t in zip(raw["month"], raw["day"], raw["hour"], raw["ghi"],
-                                raw["temp"], strict=True):
-        fields = [year, mo, dy, hr, 60, "?9?9?9?9E0?9?9?9?9?9?9?9?9?9?9?9?9?9?9?9*9*9?9?9?9",
-                  f"{t:.1f}", "5.0", "70", "101300", "0", "0", "300", f"{g:.0f}", "0", "0",
-                  "0", "0", "0", "0", "180", "2.0", "5", "5", "777.7", "77777", "9",
-                  "999999999", "10", "0.1", "0", "88", "0.2", "0", "0"]
+    for mo, dy, hr, g, t in zip(
+        raw["month"], raw["day"], raw["hour"], raw["ghi"], raw["temp"], strict=True
+    ):
+        fields = [
+            year,
+            mo,
+            dy,
+            hr,
+            60,
+            "?9?9?9?9E0?9?9?9?9?9?9?9?9?9?9?9?9?9?9?9*9*9?9?9?9",
+            f"{t:.1f}",
+            "5.0",
+            "70",
+            "101300",
+            "0",
+            "0",
+            "300",
+            f"{g:.0f}",
+            "0",
+            "0",
+            "0",
+            "0",
+            "0",
+            "0",
+            "180",
+            "2.0",
+            "5",
+            "5",
+            "777.7",
+            "77777",
+            "9",
+            "999999999",
+            "10",
+            "0.1",
+            "0",
+            "88",
+            "0.2",
+            "0",
+            "0",
+        ]
         rows.append(",".join(str(f) for f in fields))
     path.write_text("\n".join(head + rows) + "\n")
     return path

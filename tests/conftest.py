@@ -41,20 +41,32 @@ def hand_project() -> Project:
     )
     return Project(
         info=ProjectInfo(name="Hand-worked case", demo=True),
-        site=Site(name="Test site", latitude_deg=10.0, longitude_deg=0.0, tilt_deg=0.0,
-                  azimuth_deg=180.0, battery_temp_c=25.0),
+        site=Site(
+            name="Test site",
+            latitude_deg=10.0,
+            longitude_deg=0.0,
+            tilt_deg=0.0,
+            azimuth_deg=180.0,
+            battery_temp_c=25.0,
+        ),
         climate=ClimateChoice(inline=climate),
         loads=[
             Load("DC lights", 1, 100.0, 10.0, "dc"),
             Load("AC pump", 1, 200.0, 5.0, "ac", surge_w=600.0),
         ],
         module=ModuleSpec(),
-        battery=BatterySpec(chemistry="agm", nominal_voltage_v=12.0, capacity_ah=200.0,
-                            max_dod=0.5, efficiency=0.85),
+        battery=BatterySpec(
+            chemistry="agm", nominal_voltage_v=12.0, capacity_ah=200.0, max_dod=0.5, efficiency=0.85
+        ),
         controller=ControllerSpec(type="mppt", max_pv_voltage_v=150.0, efficiency=0.97),
         inverter=InverterSpec(efficiency=0.9, self_consumption_w=10.0, hours_on_per_day=24.0),
-        choices=DesignChoices(system_voltage=24, autonomy_days=3.0, load_growth_pct=10.0,
-                              coincidence_factor=0.7, ageing_factor=0.8),
+        choices=DesignChoices(
+            system_voltage=24,
+            autonomy_days=3.0,
+            load_growth_pct=10.0,
+            coincidence_factor=0.7,
+            ageing_factor=0.8,
+        ),
     )
 
 

@@ -61,4 +61,5 @@ def assert_shown_equals(text: str, expected: float, where: str) -> None:
     assert got is not None, f"{where}: '{text}' shows no number"
     value, decimals = got
     assert abs(value - float(expected)) <= 0.5 * 10 ** (-decimals) + 1e-9, (
-        f"{where}: report shows '{text}', size --json has {expected}")
+        f"{where}: report shows '{text}', size --json has {expected}"
+    )

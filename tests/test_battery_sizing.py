@@ -92,10 +92,11 @@ def test_lithium_51_2_v_pack_counts_at_its_own_voltage():
     assert inputs_from_design(p, d).capacity_wh == pytest.approx(15360.0)
 
 
-@pytest.mark.parametrize("chemistry,cycles_deep,cycles_half",
-                         [("agm", 250, 600), ("gel", 450, 1000), ("flooded", 600, 1500)])
-def test_full_discharge_of_lead_acid_warns_with_its_cycle_life(chemistry, cycles_deep,
-                                                                cycles_half):
+@pytest.mark.parametrize(
+    "chemistry,cycles_deep,cycles_half",
+    [("agm", 250, 600), ("gel", 450, 1000), ("flooded", 600, 1500)],
+)
+def test_full_discharge_of_lead_acid_warns_with_its_cycle_life(chemistry, cycles_deep, cycles_half):
     # check values: the project's own cycle-life curve (offgrid.simulate.life.CYCLE_LIFE,
     # from memory) at DoD 1.0 and 0.5
     p = hand_project()
@@ -143,8 +144,9 @@ def test_warm_room_shortens_the_life_and_both_temperatures_are_shown():
     # the simulation's battery life uses it
     inp = inputs_from_design(p, d)
     assert inp.calendar_life_years == pytest.approx(3.5)
-    wear = battery_wear(np.full(365 * 2, 1.0), 2.0, inp.chemistry, 0.0, inp.capacity_wh,
-                        inp.calendar_life_years)
+    wear = battery_wear(
+        np.full(365 * 2, 1.0), 2.0, inp.chemistry, 0.0, inp.capacity_wh, inp.calendar_life_years
+    )
     assert wear.calendar_life_years == pytest.approx(3.5)
     assert wear.expected_life_years == pytest.approx(3.5)
 

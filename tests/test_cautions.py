@@ -10,10 +10,20 @@ from offgrid import cautions as cau
 
 
 def inputs(**kw) -> cau.CautionInputs:
-    base = dict(max_dc_voltage_v=90.0, system_voltage_v=48.0, chemistry="gel",
-                cells_in_series=24, bank_capacity_ah=800.0, max_dod=0.5, battery_min_temp_c=15.0,
-                bank_fault_current_a=9600.0, fault_current_estimated=True,
-                ambient_for_wires_c=25.0, array_run_m=8.0, strings=2)
+    base = dict(
+        max_dc_voltage_v=90.0,
+        system_voltage_v=48.0,
+        chemistry="gel",
+        cells_in_series=24,
+        bank_capacity_ah=800.0,
+        max_dod=0.5,
+        battery_min_temp_c=15.0,
+        bank_fault_current_a=9600.0,
+        fault_current_estimated=True,
+        ambient_for_wires_c=25.0,
+        array_run_m=8.0,
+        strings=2,
+    )
     base.update(kw)
     return cau.CautionInputs(**base)
 
@@ -65,18 +75,27 @@ def test_lithium_cold_charging_and_lead_acid_freezing_fire_only_when_cold():
 def test_conductor_temperature_and_surge_follow_the_design():
     assert "conductor-temperature" not in codes(inputs(ambient_for_wires_c=25.0))
     assert "conductor-temperature" in codes(inputs(ambient_for_wires_c=38.0))
-    short = next(c.text for c in cau.design_cautions(inputs(array_run_m=8.0))
-                 if c.code == "surge-protection")
-    long = next(c.text for c in cau.design_cautions(inputs(array_run_m=40.0))
-                if c.code == "surge-protection")
+    short = next(
+        c.text for c in cau.design_cautions(inputs(array_run_m=8.0)) if c.code == "surge-protection"
+    )
+    long = next(
+        c.text
+        for c in cau.design_cautions(inputs(array_run_m=40.0))
+        if c.code == "surge-protection"
+    )
     assert "both ends" not in short and "both ends" in long
 
 
 def test_every_design_carries_the_standing_cautions_and_defers_to_code_last():
     out = cau.design_cautions(inputs())
     have = [c.code for c in out]
-    for code in ("battery-short-circuit", "pv-live-in-daylight", "grounding", "surge-protection",
-                 "dc-breakers"):
+    for code in (
+        "battery-short-circuit",
+        "pv-live-in-daylight",
+        "grounding",
+        "surge-protection",
+        "dc-breakers",
+    ):
         assert code in have
     assert out[-1].code == "defers-to-code"
     assert "local electrical codes and licensed practice" in out[-1].text
@@ -92,6 +111,11 @@ def test_every_output_states_the_deference_to_code_once():
     import sys
 
     for args in (["size", "--demo"], ["plan", "--demo"], ["report", "--demo", "--format", "txt"]):
-        out = subprocess.run([sys.executable, "-m", "offgrid", *args], capture_output=True,
-                             text=True, check=True, timeout=300).stdout
+        out = subprocess.run(
+            [sys.executable, "-m", "offgrid", *args],
+            capture_output=True,
+            text=True,
+            check=True,
+            timeout=300,
+        ).stdout
         assert " ".join(out.split()).count("defers to local electrical codes") == 1, args

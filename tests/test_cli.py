@@ -14,17 +14,31 @@ from offgrid.project.store import save_project
 from tests.conftest import hand_project
 
 REQUIRED_KEYS = (
-    "loads.daily_energy_wh", "loads.design_daily_energy_wh", "site.design_month", "site.tilt_deg",
-    "site.poa_kwh_m2_day", "array.power_w", "array.module_power_w", "array.modules_series",
-    "array.modules_parallel", "battery.system_voltage_v", "battery.capacity_ah",
-    "battery.usable_kwh", "battery.units_series", "battery.units_parallel", "controller.type",
-    "controller.current_a", "inverter.continuous_w", "inverter.surge_w",
+    "loads.daily_energy_wh",
+    "loads.design_daily_energy_wh",
+    "site.design_month",
+    "site.tilt_deg",
+    "site.poa_kwh_m2_day",
+    "array.power_w",
+    "array.module_power_w",
+    "array.modules_series",
+    "array.modules_parallel",
+    "battery.system_voltage_v",
+    "battery.capacity_ah",
+    "battery.usable_kwh",
+    "battery.units_series",
+    "battery.units_parallel",
+    "controller.type",
+    "controller.current_a",
+    "inverter.continuous_w",
+    "inverter.surge_w",
 )
 
 
 def offgrid(*args: str, check: bool = True) -> subprocess.CompletedProcess:
-    proc = subprocess.run([sys.executable, "-m", "offgrid", *args], capture_output=True,
-                          text=True, timeout=120)
+    proc = subprocess.run(
+        [sys.executable, "-m", "offgrid", *args], capture_output=True, text=True, timeout=120
+    )
     if check:
         assert proc.returncode == 0, proc.stderr
     return proc
@@ -61,13 +75,27 @@ def test_size_project_file(tmp_path):
     assert data["array"]["power_w"] == 1200
 
 
-@pytest.mark.parametrize("name", ["household-kit", "rural-clinic", "primary-school",
-                                  "water-pump", "radio-repeater"])
+@pytest.mark.parametrize(
+    "name", ["household-kit", "rural-clinic", "primary-school", "water-pump", "radio-repeater"]
+)
 def test_quick_design_for_every_demo_load_list(name):
     csv = str(Path(load_profiles_dir()) / f"{name}.csv")
-    data = json.loads(offgrid("size", "--loads", csv, "--climate", "kisanga-ridge-demo",
-                              "--autonomy-days", "2", "--max-dod", "0.6", "--controller",
-                              "mppt", "--json").stdout)
+    data = json.loads(
+        offgrid(
+            "size",
+            "--loads",
+            csv,
+            "--climate",
+            "kisanga-ridge-demo",
+            "--autonomy-days",
+            "2",
+            "--max-dod",
+            "0.6",
+            "--controller",
+            "mppt",
+            "--json",
+        ).stdout
+    )
     assert data["array"]["power_w"] > 0 and data["battery"]["capacity_ah"] > 0
     assert data["battery"]["autonomy_days"] == 2 and data["battery"]["max_dod"] == 0.6
 

@@ -57,7 +57,9 @@ def test_without_json_stdout_stays_empty():
     assert proc.returncode == 2 and proc.stdout == ""
 
 
-@pytest.mark.parametrize("args", [("simulate", "--demo", "--years", "x", "--json"),
-                                  ("variants", "nowhere.toml", "--json")])
+@pytest.mark.parametrize(
+    "args",
+    [("simulate", "--demo", "--years", "x", "--json"), ("variants", "nowhere.toml", "--json")],
+)
 def test_other_json_subcommands_share_it(args):
     _error(offgrid(*args, check=False), 2)

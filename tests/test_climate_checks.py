@@ -39,13 +39,16 @@ def test_measured_table_passes_clean():
     assert [f for f in found if f.severity != "info"] == []
 
 
-@pytest.mark.parametrize(("typed", "unit"), [
-    (H * 3.6, "MJ/m2/day"),  # 1 kWh = 3.6 MJ (SI definition)
-    (H * sky.DAYS_IN_MONTH, "kWh/m2/month"),
-    (H / 0.024, "W/m2"),  # 24-hour mean irradiance: kWh/m2/day = W/m2 x 24 h / 1000
-    (H * 1000.0, "Wh/m2/day"),
-    (H * 3.6 * sky.DAYS_IN_MONTH, "MJ/m2/month"),
-])
+@pytest.mark.parametrize(
+    ("typed", "unit"),
+    [
+        (H * 3.6, "MJ/m2/day"),  # 1 kWh = 3.6 MJ (SI definition)
+        (H * sky.DAYS_IN_MONTH, "kWh/m2/month"),
+        (H / 0.024, "W/m2"),  # 24-hour mean irradiance: kWh/m2/day = W/m2 x 24 h / 1000
+        (H * 1000.0, "Wh/m2/day"),
+        (H * 3.6 * sky.DAYS_IN_MONTH, "MJ/m2/month"),
+    ],
+)
 def test_unit_slips_detected_with_the_right_fix_first(typed, unit):
     found = check_insolation(typed, LAT, LON, ELEV)
     slip = [f for f in found if f.code == "unit-slip"]
@@ -119,14 +122,15 @@ def test_clearest_sky_against_pvlib_horizontal():
     times = pd.date_range("2026-01-01", "2027-01-01", freq="10min", tz="UTC", inclusive="left")
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
-        sp = solarposition.get_solarposition(times, LAT, LON, altitude=ELEV,
-                                             method="nrel_numpy")
+        sp = solarposition.get_solarposition(times, LAT, LON, altitude=ELEV, method="nrel_numpy")
         zen = sp["apparent_zenith"].to_numpy()
         zz = np.where(zen < 90, zen, 89.0)
-        am = atmosphere.get_absolute_airmass(atmosphere.get_relative_airmass(zz),
-                                             atmosphere.alt2pres(ELEV))
-        extra = irradiance.get_extra_radiation(times, solar_constant=1367.0,
-                                               method="spencer").to_numpy()
+        am = atmosphere.get_absolute_airmass(
+            atmosphere.get_relative_airmass(zz), atmosphere.alt2pres(ELEV)
+        )
+        extra = irradiance.get_extra_radiation(
+            times, solar_constant=1367.0, method="spencer"
+        ).to_numpy()
         ghi = pvcs.ineichen(zz, am, clearest_linke_turbidity(ELEV), ELEV, extra)["ghi"]
     ghi = np.where(zen < 90, np.asarray(ghi), 0.0)
     month = times.month.to_numpy() - 1
@@ -183,13 +187,16 @@ def test_low_sun_transposition_flagged():
     assert check_transposition(H, LAT, 36.0) == []
 
 
-@pytest.mark.parametrize(("lat", "lon", "elev", "code"), [
-    (91.0, 0.0, 0.0, "latitude"),
-    (-90.5, 0.0, 0.0, "latitude"),
-    (10.0, 200.0, 0.0, "longitude"),
-    (10.0, 0.0, -431.0, "elevation"),  # below the Dead Sea shore, about -430 m (from memory)
-    (10.0, 0.0, 9500.0, "elevation"),
-])
+@pytest.mark.parametrize(
+    ("lat", "lon", "elev", "code"),
+    [
+        (91.0, 0.0, 0.0, "latitude"),
+        (-90.5, 0.0, 0.0, "latitude"),
+        (10.0, 200.0, 0.0, "longitude"),
+        (10.0, 0.0, -431.0, "elevation"),  # below the Dead Sea shore, about -430 m (from memory)
+        (10.0, 0.0, 9500.0, "elevation"),
+    ],
+)
 def test_impossible_coordinates(lat, lon, elev, code):
     assert [f.code for f in check_location(lat, lon, elev)] == [code]
     assert check_insolation(H, lat, lon, elev)[0].code == code
@@ -222,8 +229,13 @@ def test_temperatures():
 
 
 def test_apply_fix_returns_a_corrected_copy():
-    typed = MonthlyClimate(insolation_kwh_m2_day=list(H * 3.6), temp_mean_c=[10.0] * 12,
-                           latitude_deg=LAT, longitude_deg=LON, elevation_m=ELEV)
+    typed = MonthlyClimate(
+        insolation_kwh_m2_day=list(H * 3.6),
+        temp_mean_c=[10.0] * 12,
+        latitude_deg=LAT,
+        longitude_deg=LON,
+        elevation_m=ELEV,
+    )
     found = check_climate(typed)
     fixed = apply_fix(typed, found[0])
     np.testing.assert_allclose(fixed.insolation_kwh_m2_day, H, atol=2e-3)
@@ -231,9 +243,19 @@ def test_apply_fix_returns_a_corrected_copy():
     assert [f for f in check_climate(fixed) if f.severity != "info"] == []
 
 
-@pytest.mark.parametrize("name", ["greensboro-nc-tmy3", "sand-point-ak-tmy3", "miami-fl-tmy2",
-                                  "dalli-wells-demo", "pampa-alta-demo", "tarn-station-demo",
-                                  "myrvik-cabin-demo", "kisanga-ridge-demo"])
+@pytest.mark.parametrize(
+    "name",
+    [
+        "greensboro-nc-tmy3",
+        "sand-point-ak-tmy3",
+        "miami-fl-tmy2",
+        "dalli-wells-demo",
+        "pampa-alta-demo",
+        "tarn-station-demo",
+        "myrvik-cabin-demo",
+        "kisanga-ridge-demo",
+    ],
+)
 def test_bundled_climates_pass_the_checks(name):
     found = check_climate(load_climate(name))
     assert [f for f in found if f.severity != "info"] == [], [f.message for f in found]

@@ -24,20 +24,27 @@ LAT, LON, ELEV = 36.1, -79.95, 273.0
 
 
 def test_parse_and_sort():
-    assert parse_horizon("180:10, 90:20; 270/5 0=2") == [(0.0, 2.0), (90.0, 20.0),
-                                                         (180.0, 10.0), (270.0, 5.0)]
+    assert parse_horizon("180:10, 90:20; 270/5 0=2") == [
+        (0.0, 2.0),
+        (90.0, 20.0),
+        (180.0, 10.0),
+        (270.0, 5.0),
+    ]
     assert parse_horizon("  ") == []
 
 
-@pytest.mark.parametrize(("text", "message"), [
-    ("90:95", r"point 1: elevation 95 deg is outside 0-90"),
-    ("90:10 180:-3", r"point 2: elevation -3 deg is outside 0-90"),
-    ("400:10", r"point 1: azimuth 400 deg is outside 0-360"),
-    ("90:10 90:12", r"point 2: azimuth 90 deg repeats point 1"),
-    ("0:5 360:6", r"repeats point 1"),
-    ("90-10", r"point 1 '90-10': write azimuth:elevation"),
-    ("90:x", r"point 1 '90:x': both azimuth and elevation must be numbers"),
-])
+@pytest.mark.parametrize(
+    ("text", "message"),
+    [
+        ("90:95", r"point 1: elevation 95 deg is outside 0-90"),
+        ("90:10 180:-3", r"point 2: elevation -3 deg is outside 0-90"),
+        ("400:10", r"point 1: azimuth 400 deg is outside 0-360"),
+        ("90:10 90:12", r"point 2: azimuth 90 deg repeats point 1"),
+        ("0:5 360:6", r"repeats point 1"),
+        ("90-10", r"point 1 '90-10': write azimuth:elevation"),
+        ("90:x", r"point 1 '90:x': both azimuth and elevation must be numbers"),
+    ],
+)
 def test_bad_profiles_name_the_point(text, message):
     with pytest.raises(ValueError, match=message):
         parse_horizon(text)
@@ -66,8 +73,9 @@ def test_wall_all_round_leaves_diffuse_and_reflected_only():
     wall = [(0.0, 90.0)]
     res = poa_monthly(H, LAT, 30.0, 180.0, horizon=wall, longitude_deg=LON, elevation_m=ELEV)
     np.testing.assert_allclose(res.beam_kwh_m2_day, 0.0, atol=1e-12)
-    np.testing.assert_allclose(res.poa_kwh_m2_day,
-                               res.diffuse_kwh_m2_day + res.reflected_kwh_m2_day)
+    np.testing.assert_allclose(
+        res.poa_kwh_m2_day, res.diffuse_kwh_m2_day + res.reflected_kwh_m2_day
+    )
 
 
 def test_horizon_factor_against_an_hourly_count_with_pvlib():
@@ -77,8 +85,9 @@ def test_horizon_factor_against_an_hourly_count_with_pvlib():
     from pvlib import solarposition
 
     pts = [(119.0, 0.0), (120.0, 20.0), (180.0, 20.0), (181.0, 0.0)]
-    times = pd.date_range("2023-01-17 00:00", periods=1440, freq="1min", tz="UTC") \
-        + pd.Timedelta(minutes=-LON * 4)
+    times = pd.date_range("2023-01-17 00:00", periods=1440, freq="1min", tz="UTC") + pd.Timedelta(
+        minutes=-LON * 4
+    )
     sp = solarposition.get_solarposition(times, LAT, LON, altitude=ELEV)
     zen, az = np.radians(sp["apparent_zenith"]), np.radians(sp["azimuth"])
     b, paz = np.radians(30.0), np.radians(180.0)

@@ -65,8 +65,7 @@ def test_tmy3_monthly_means_match_direct_computation(name):
     assert len(daily.insolation_kwh_m2_day) == 365
     assert sum(daily.insolation_kwh_m2_day) == pytest.approx(raw["ghi"].sum() / 1000, rel=1e-4)
     # 1 January is the first 24 rows (TMY3 stamps hour ending: 01:00 ... 24:00)
-    assert daily.insolation_kwh_m2_day[0] == pytest.approx(raw["ghi"][:24].sum() / 1000,
-                                                           abs=6e-4)
+    assert daily.insolation_kwh_m2_day[0] == pytest.approx(raw["ghi"][:24].sum() / 1000, abs=6e-4)
 
 
 def test_tmy2_monthly_means_match_direct_computation_tenths_handled():
@@ -88,7 +87,8 @@ def test_epw_import_matches_the_same_hours_from_tmy3(tmp_path):
     _compare(result.climate, monthly_from_raw(raw))
     assert result.climate.latitude_deg == 36.1
     assert result.climate.daily.insolation_kwh_m2_day[0] == pytest.approx(
-        raw["ghi"][:24].sum() / 1000, abs=6e-4)
+        raw["ghi"][:24].sum() / 1000, abs=6e-4
+    )
 
 
 def test_epw_with_seven_header_lines_is_refused(tmp_path):
@@ -231,7 +231,7 @@ def test_leap_year_uses_29_february_in_the_means_not_in_the_daily_series(tmp_pat
     feb28 = np.flatnonzero((raw["month"] == 2) & (raw["day"] == 28))
     at = feb28[-1] + 1
     leap = {k: np.insert(v, at, v[feb28]) for k, v in raw.items()}
-    leap["day"][at:at + 24] = 29
+    leap["day"][at : at + 24] = 29
     epw = write_epw(tmp_path / "leap.epw", leap, year=1992)
     result = import_weather_file(epw, clear_sky=False)
     feb = (raw["ghi"][raw["month"] == 2].sum() + raw["ghi"][feb28].sum()) / 1000 / 29
@@ -246,7 +246,8 @@ def test_monthly_csv_with_units_in_the_header(tmp_path):
         "# latitude_deg = 12.5\n# longitude_deg = -1.5\n# elevation_m = 300\n"
         "# source = invented for a test\n"
         "month,insolation_mj_m2_day,temp_mean_c\n"
-        + "".join(f"{m},{18 + m % 3},{25 + m % 4}\n" for m in range(1, 13)))
+        + "".join(f"{m},{18 + m % 3},{25 + m % 4}\n" for m in range(1, 13))
+    )
     climate, _ = read_monthly_csv(path)
     assert climate.insolation_kwh_m2_day[0] == pytest.approx(19 / 3.6, abs=1e-3)
     assert climate.latitude_deg == 12.5 and climate.source == "invented for a test"
@@ -255,25 +256,42 @@ def test_monthly_csv_with_units_in_the_header(tmp_path):
 def test_monthly_csv_in_wrong_units_is_flagged_with_a_fix(tmp_path):
     path = tmp_path / "typed.csv"
     mj = [17.3, 19.8, 21.6, 22.5, 22.3, 21.2, 19.8, 19.4, 20.5, 20.9, 19.4, 17.6]
-    path.write_text("# latitude_deg = 12.5\n# longitude_deg = -1.5\n"
-                    "month,insolation_kwh_m2_day,temp_mean_c\n"
-                    + "".join(f"{m},{v},27\n" for m, v in enumerate(mj, start=1)))
+    path.write_text(
+        "# latitude_deg = 12.5\n# longitude_deg = -1.5\n"
+        "month,insolation_kwh_m2_day,temp_mean_c\n"
+        + "".join(f"{m},{v},27\n" for m, v in enumerate(mj, start=1))
+    )
     result = import_weather_file(path, clear_sky=False)
     slip = [f for f in result.findings if f.code == "unit-slip"]
     assert slip and slip[0].fix.unit == "MJ/m2/day"
     assert slip[0].fix.values[0] == pytest.approx(17.3 / 3.6, abs=1e-3)
 
 
-@pytest.mark.parametrize(("body", "message"), [
-    ("month,insolation_kwh_m2_day,temp_mean_c\n"
-     + "".join(f"{m},5,20\n" for m in range(1, 12)), "months missing: Dec"),
-    ("month,insolation_kwh_m2_day,temp_mean_c\n1,5,20\n1,5,20\n", r"line 3: Jan repeats line 2"),
-    ("month,insolation_kwh_m2_day,temp_mean_c\nJan,five,20\n", r"line 2: insolation_kwh_m2_day "
-                                                              "'five' is not a number"),
-    ("month,temp_mean_c\n1,20\n", "exactly one insolation column"),
-    ("# latitude_deg = 91\nmonth,insolation_kwh_m2_day,temp_mean_c\n"
-     + "".join(f"{m},5,20\n" for m in range(1, 13)), r"latitude_deg: 91.0 is outside"),
-])
+@pytest.mark.parametrize(
+    ("body", "message"),
+    [
+        (
+            "month,insolation_kwh_m2_day,temp_mean_c\n"
+            + "".join(f"{m},5,20\n" for m in range(1, 12)),
+            "months missing: Dec",
+        ),
+        (
+            "month,insolation_kwh_m2_day,temp_mean_c\n1,5,20\n1,5,20\n",
+            r"line 3: Jan repeats line 2",
+        ),
+        (
+            "month,insolation_kwh_m2_day,temp_mean_c\nJan,five,20\n",
+            r"line 2: insolation_kwh_m2_day "
+            "'five' is not a number",
+        ),
+        ("month,temp_mean_c\n1,20\n", "exactly one insolation column"),
+        (
+            "# latitude_deg = 91\nmonth,insolation_kwh_m2_day,temp_mean_c\n"
+            + "".join(f"{m},5,20\n" for m in range(1, 13)),
+            r"latitude_deg: 91.0 is outside",
+        ),
+    ],
+)
 def test_monthly_csv_bad_input(tmp_path, body, message):
     path = tmp_path / "bad.csv"
     path.write_text(body)
@@ -308,7 +326,11 @@ def test_tmy2_fixed_column_reader_equals_pvlib_read_tmy2():
     for key in ("month", "day", "hour", "ghi_w_m2", "temp_air_c", "line"):
         np.testing.assert_array_equal(getattr(ours, key), getattr(theirs, key), err_msg=key)
     assert (ours.latitude_deg, ours.longitude_deg, ours.elevation_m, ours.station) == (
-        theirs.latitude_deg, theirs.longitude_deg, theirs.elevation_m, theirs.station)
+        theirs.latitude_deg,
+        theirs.longitude_deg,
+        theirs.elevation_m,
+        theirs.station,
+    )
 
 
 def test_tmy2_garbled_number_names_line_and_columns(tmp_path):

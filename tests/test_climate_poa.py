@@ -48,10 +48,17 @@ def _hourly_year(name: str):
     if name.endswith(".tm2"):
         d, meta = iotools.read_tmy2(str(path))
         d = d.rename(columns={"GHI": "ghi", "DNI": "dni", "DHI": "dhi"})
-        stamps = pd.to_datetime({"year": 1990, "month": d["month"].to_numpy(),
-                                 "day": d["day"].to_numpy(), "hour": d["hour"].to_numpy() - 1})
+        stamps = pd.to_datetime(
+            {
+                "year": 1990,
+                "month": d["month"].to_numpy(),
+                "day": d["day"].to_numpy(),
+                "hour": d["hour"].to_numpy() - 1,
+            }
+        )
         d.index = pd.DatetimeIndex(stamps + pd.Timedelta(hours=1)).tz_localize(
-            int(meta["TZ"] * 3600))
+            int(meta["TZ"] * 3600)
+        )
     else:
         d, meta = iotools.read_tmy3(str(path), coerce_year=1990, map_variables=True)
     return d, meta
@@ -61,15 +68,24 @@ def _pvlib_monthly_poa(data, meta, tilt, azimuth, albedo=0.2):
     from pvlib import irradiance, solarposition
 
     mid = data.index - pd.Timedelta(minutes=30)  # middle of each hour-ending interval
-    sp = solarposition.get_solarposition(mid, meta["latitude"], meta["longitude"],
-                                         altitude=meta["altitude"])
+    sp = solarposition.get_solarposition(
+        mid, meta["latitude"], meta["longitude"], altitude=meta["altitude"]
+    )
     extra = irradiance.get_extra_radiation(mid).to_numpy()
     out = {}
     for model in ("perez", "haydavies"):
         tot = irradiance.get_total_irradiance(
-            tilt, azimuth, sp["apparent_zenith"].to_numpy(), sp["azimuth"].to_numpy(),
-            data["dni"].to_numpy(float), data["ghi"].to_numpy(float),
-            data["dhi"].to_numpy(float), dni_extra=extra, albedo=albedo, model=model)
+            tilt,
+            azimuth,
+            sp["apparent_zenith"].to_numpy(),
+            sp["azimuth"].to_numpy(),
+            data["dni"].to_numpy(float),
+            data["ghi"].to_numpy(float),
+            data["dhi"].to_numpy(float),
+            dni_extra=extra,
+            albedo=albedo,
+            model=model,
+        )
         # Perez gives NaN in hours with GHI = DHI = 0 and the sun up (see LIBRARY-NOTES)
         poa = np.nan_to_num(np.asarray(tot["poa_global"], dtype=float))
         month = mid.month.to_numpy()
@@ -94,8 +110,9 @@ def test_monthly_poa_against_pvlib_hourly_perez_and_haydavies(name, tilt, azimut
     data, meta = _hourly_year(name)
     climate = import_weather_file(pvlib_data() / name, clear_sky=False).climate
     tilt = abs(climate.latitude_deg) if tilt is None else tilt
-    ours = poa_monthly(climate.insolation_kwh_m2_day, climate.latitude_deg, tilt, azimuth,
-                       0.2).poa_kwh_m2_day
+    ours = poa_monthly(
+        climate.insolation_kwh_m2_day, climate.latitude_deg, tilt, azimuth, 0.2
+    ).poa_kwh_m2_day
     ref = _pvlib_monthly_poa(data, meta, tilt, azimuth)
     ghi = np.asarray(climate.insolation_kwh_m2_day)
     for model, theirs in ref.items():
@@ -119,18 +136,22 @@ def _synthetic_year(lat, lon, elevation, tz):
     factor = np.tile(np.repeat([1.0, 0.85, 0.55, 0.95, 0.3, 0.75, 1.0], 24), 53)[:8760]
     ghi = cs["ghi"].to_numpy() * factor
     split = irradiance.erbs(ghi, sun["zenith"].to_numpy(), times)
-    data = pd.DataFrame({"ghi": ghi, "dni": np.nan_to_num(split["dni"]),
-                         "dhi": np.nan_to_num(split["dhi"])},
-                        index=times + pd.Timedelta(minutes=30))
+    data = pd.DataFrame(
+        {"ghi": ghi, "dni": np.nan_to_num(split["dni"]), "dhi": np.nan_to_num(split["dhi"])},
+        index=times + pd.Timedelta(minutes=30),
+    )
     return data, {"latitude": lat, "longitude": lon, "altitude": elevation}
 
 
-@pytest.mark.parametrize(("lat", "lon", "tz", "tilt", "azimuth"), [
-    (-33.9, 18.5, "Etc/GMT-2", 34.0, 0.0),  # southern hemisphere, north-facing
-    (-33.9, 18.5, "Etc/GMT-2", 60.0, 0.0),
-    (-23.0, -47.0, "Etc/GMT+3", 20.0, 300.0),  # southern, facing north-west
-    (64.8, -147.7, "Etc/GMT+9", 60.0, 180.0),  # high latitude, north
-])
+@pytest.mark.parametrize(
+    ("lat", "lon", "tz", "tilt", "azimuth"),
+    [
+        (-33.9, 18.5, "Etc/GMT-2", 34.0, 0.0),  # southern hemisphere, north-facing
+        (-33.9, 18.5, "Etc/GMT-2", 60.0, 0.0),
+        (-23.0, -47.0, "Etc/GMT+3", 20.0, 300.0),  # southern, facing north-west
+        (64.8, -147.7, "Etc/GMT+9", 60.0, 180.0),  # high latitude, north
+    ],
+)
 def test_monthly_poa_against_pvlib_on_synthetic_years(lat, lon, tz, tilt, azimuth):
     data, meta = _synthetic_year(lat, lon, 50.0, tz)
     month = (data.index - pd.Timedelta(minutes=30)).month.to_numpy()
@@ -152,8 +173,9 @@ def test_parts_add_up_and_horizontal_plane_is_ghi():
     # a horizontal plane receives exactly the horizontal insolation (Rb = 1)
     np.testing.assert_allclose(flat.poa_kwh_m2_day, h, rtol=1e-9)
     res = poa_monthly(h, 36.1, np.array([20.0, 45.0]), 180.0, albedo=0.3)
-    np.testing.assert_allclose(res.beam_kwh_m2_day + res.diffuse_kwh_m2_day
-                               + res.reflected_kwh_m2_day, res.poa_kwh_m2_day)
+    np.testing.assert_allclose(
+        res.beam_kwh_m2_day + res.diffuse_kwh_m2_day + res.reflected_kwh_m2_day, res.poa_kwh_m2_day
+    )
     assert res.poa_kwh_m2_day.shape == (2, 12)
 
 
@@ -199,11 +221,15 @@ def test_isotropic_sky_parts_match_pvlib():
 
     tilt = np.array([0.0, 15.0, 37.5, 60.0, 90.0])
     dhi, ghi = np.array([80.0, 120.0, 200.0, 310.0, 95.0]), np.array([300, 650, 900, 1000, 410])
-    np.testing.assert_allclose(poa.sky_diffuse_isotropic(tilt, dhi),
-                               irradiance.isotropic(tilt, dhi), rtol=1e-12)
-    np.testing.assert_allclose(poa.ground_reflected_isotropic(tilt, ghi, 0.25),
-                               irradiance.get_ground_diffuse(tilt, ghi, albedo=0.25),
-                               rtol=1e-12, atol=1e-12)
+    np.testing.assert_allclose(
+        poa.sky_diffuse_isotropic(tilt, dhi), irradiance.isotropic(tilt, dhi), rtol=1e-12
+    )
+    np.testing.assert_allclose(
+        poa.ground_reflected_isotropic(tilt, ghi, 0.25),
+        irradiance.get_ground_diffuse(tilt, ghi, albedo=0.25),
+        rtol=1e-12,
+        atol=1e-12,
+    )
 
 
 def test_one_isotropic_sky_behind_the_monthly_hourly_and_clear_sky_planes():

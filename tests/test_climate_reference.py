@@ -35,8 +35,15 @@ def test_reda_andreas_2004_spa_test_case():
     # 12:30:30 local time, UTC-7, lat 39.742476, lon -105.1786, elevation 1830.14 m,
     # 820 mbar, 11 C, delta T 67 s -> topocentric zenith 50.11162 deg, azimuth 194.340241 deg.
     t = pd.DatetimeIndex([pd.Timestamp("2003-10-17 12:30:30", tz="Etc/GMT+7")])
-    sp = solar_position_spa(t, 39.742476, -105.1786, elevation_m=1830.14, pressure_hpa=820.0,
-                            temp_air_c=11.0, delta_t_s=67.0)
+    sp = solar_position_spa(
+        t,
+        39.742476,
+        -105.1786,
+        elevation_m=1830.14,
+        pressure_hpa=820.0,
+        temp_air_c=11.0,
+        delta_t_s=67.0,
+    )
     assert sp["zenith_deg"][0] == pytest.approx(50.11162, abs=1e-4)
     assert sp["azimuth_deg"][0] == pytest.approx(194.340241, abs=1e-4)
 
@@ -53,8 +60,7 @@ def test_klein_rb_matches_closed_form_equator_facing():
         ws2 = np.minimum(ws, np.arccos(np.clip(-np.tan(phi - b) * np.tan(d), -1, 1)))
         num = np.cos(phi - b) * np.cos(d) * np.sin(ws2) + ws2 * np.sin(phi - b) * np.sin(d)
         den = np.cos(phi) * np.cos(d) * np.sin(ws) + ws * np.sin(phi) * np.sin(d)
-        np.testing.assert_allclose(beam_ratio_rb_klein(lat, tilt, 180.0), num / den,
-                                   rtol=5e-3)
+        np.testing.assert_allclose(beam_ratio_rb_klein(lat, tilt, 180.0), num / den, rtol=5e-3)
 
 
 def test_klein_rb_southern_hemisphere_mirrors_northern():

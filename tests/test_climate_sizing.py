@@ -17,11 +17,19 @@ def _project(climate_name: str, **site) -> Project:
     c = load_climate(climate_name)
     return Project(
         info=ProjectInfo(name="Test household", demo=True),
-        site=Site(name=climate_name, latitude_deg=c.latitude_deg,
-                  longitude_deg=c.longitude_deg, elevation_m=c.elevation_m, **site),
+        site=Site(
+            name=climate_name,
+            latitude_deg=c.latitude_deg,
+            longitude_deg=c.longitude_deg,
+            elevation_m=c.elevation_m,
+            **site,
+        ),
         climate=ClimateChoice(ref=climate_name),
-        loads=[Load("LED lights", 4, 6.0, 5.0, "dc"), Load("Radio", 1, 15.0, 4.0, "dc"),
-               Load("Fridge", 1, 60.0, 12.0, "ac")],
+        loads=[
+            Load("LED lights", 4, 6.0, 5.0, "dc"),
+            Load("Radio", 1, 15.0, 4.0, "dc"),
+            Load("Fridge", 1, 60.0, 12.0, "ac"),
+        ],
     )
 
 
@@ -29,8 +37,14 @@ def test_tilt_left_automatic_is_searched_for_the_worst_month():
     p = _project("greensboro-nc-tmy3")
     d = design(p)
     c = load_climate("greensboro-nc-tmy3")
-    expected = best_tilt(c.insolation_kwh_m2_day, c.latitude_deg, 180.0,
-                         d.loads.daily_energy_wh, p.site.albedo, p.choices.min_tilt_deg)
+    expected = best_tilt(
+        c.insolation_kwh_m2_day,
+        c.latitude_deg,
+        180.0,
+        d.loads.daily_energy_wh,
+        p.site.albedo,
+        p.choices.min_tilt_deg,
+    )
     assert d.site.tilt_deg == expected.tilt_deg
     assert d.site.tilt_deg > abs(c.latitude_deg)  # winter-limited: steeper than latitude
     reason = d.why("site.tilt_deg")
@@ -54,8 +68,9 @@ def test_horizon_lowers_the_plane_insolation_and_is_explained():
     ridge = [(120.0, 0.0), (130.0, 25.0), (230.0, 25.0), (240.0, 0.0)]
     open_ = design(_project("greensboro-nc-tmy3", tilt_deg=40.0))
     shaded = design(_project("greensboro-nc-tmy3", tilt_deg=40.0, horizon_deg=ridge))
-    assert np.all(np.asarray(shaded.site.poa_kwh_m2_day)
-                  <= np.asarray(open_.site.poa_kwh_m2_day) + 1e-12)
+    assert np.all(
+        np.asarray(shaded.site.poa_kwh_m2_day) <= np.asarray(open_.site.poa_kwh_m2_day) + 1e-12
+    )
     assert shaded.site.poa_kwh_m2_day[11] < 0.8 * open_.site.poa_kwh_m2_day[11]
     assert shaded.array.power_w >= open_.array.power_w
     reason = dict(shaded.why("site.poa_kwh_m2_day").inputs)
@@ -78,8 +93,7 @@ def test_horizon_survives_the_project_file_and_is_validated():
     assert "horizon_deg" in text
     back = loads_project(text)
     assert [tuple(x) for x in back.site.horizon_deg] == [(90.0, 12.0), (180.0, 5.0)]
-    bad = dumps_project(_project("greensboro-nc-tmy3", horizon_deg=[(90.0, 12.0),
-                                                                     (180.0, 95.0)]))
+    bad = dumps_project(_project("greensboro-nc-tmy3", horizon_deg=[(90.0, 12.0), (180.0, 95.0)]))
     with pytest.raises(ProjectFileError, match=r"site\.horizon_deg: point 2: elevation 95"):
         loads_project(bad)
 
@@ -119,9 +133,12 @@ def test_low_sun_month_capped_in_the_design_with_a_warning():
     p = hand_project()
     p.site.latitude_deg = 64.0
     p.site.tilt_deg = 60.0
-    p.climate = ClimateChoice(inline=replace(
-        p.climate.inline, insolation_kwh_m2_day=[0.3, 1.0, 2.4, 4.0, 5.0, 5.5, 5.0, 3.8, 2.2,
-                                                 1.0, 0.3, 0.1]))
+    p.climate = ClimateChoice(
+        inline=replace(
+            p.climate.inline,
+            insolation_kwh_m2_day=[0.3, 1.0, 2.4, 4.0, 5.0, 5.5, 5.0, 3.8, 2.2, 1.0, 0.3, 0.1],
+        )
+    )
     d = design(p)
     ceiling = clearest_sky_ceiling(64.0, 60.0, 180.0, None, p.site.elevation_m)
     assert d.site.poa_kwh_m2_day[11] == pytest.approx(ceiling[11])
@@ -151,4 +168,5 @@ def test_climate_albedo_reaches_the_harvest_as_the_site_value_would():
     p.site.albedo = snow
     from_site = design(p)
     assert from_climate.array.harvest_mppt_wh_day == pytest.approx(
-        from_site.array.harvest_mppt_wh_day, rel=1e-9)
+        from_site.array.harvest_mppt_wh_day, rel=1e-9
+    )

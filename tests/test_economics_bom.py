@@ -62,15 +62,30 @@ def test_dc_only_project_has_no_inverter():
 
 def test_cable_by_size_two_conductors_per_run_rounded_up():
     def run(name, current_a, length_m, size):
-        return WireChoice(key=name, run=name, count=1, current_a=current_a,
-                          operating_current_a=current_a, length_m=length_m, material="copper",
-                          size=size, area_mm2=0.0, resistance_ohm_km=0.0, drop_v=0.0,
-                          drop_pct=0.0, drop_limit_pct=0.0, ampacity_a=0.0,
-                          required_ampacity_a=0.0, fuse_a=None)
+        return WireChoice(
+            key=name,
+            run=name,
+            count=1,
+            current_a=current_a,
+            operating_current_a=current_a,
+            length_m=length_m,
+            material="copper",
+            size=size,
+            area_mm2=0.0,
+            resistance_ohm_km=0.0,
+            drop_v=0.0,
+            drop_pct=0.0,
+            drop_limit_pct=0.0,
+            ampacity_a=0.0,
+            required_ampacity_a=0.0,
+            fuse_a=None,
+        )
 
-    wires = [run("array to controller", 20.0, 10.0, "6 mm2"),
-             run("controller to battery", 40.0, 2.2, "6 mm2"),
-             run("battery to inverter", 60.0, 1.5, "16 mm2")]
+    wires = [
+        run("array to controller", 20.0, 10.0, "6 mm2"),
+        run("controller to battery", 40.0, 2.2, "6 mm2"),
+        run("battery to inverter", 60.0, 1.5, "16 mm2"),
+    ]
     lines = {ln.key: ln for ln in _cable_lines(wires)}
     assert CONDUCTORS_PER_RUN == 2
     assert lines["cable:copper 6 mm2"].quantity == 25  # 2 x (10 + 2.2) = 24.4 -> 25 m
@@ -105,12 +120,19 @@ def test_demo_cable_and_devices_follow_from_the_electrical_design():
         expected[key] = expected.get(key, 0.0) + 2 * w.length_m * w.count
     got = {ln.key: ln.quantity for ln in kinds["cable"]}
     assert got == {k: float(math.ceil(v - 1e-9)) for k, v in expected.items()}
-    device_lines = [ln for ln in bill_of_materials(project, d)
-                    if ln.kind in ("fuse", "fuse-or-breaker", "disconnect", "breaker")]
-    assert sum(ln.quantity for ln in device_lines) == sum(dev.count for dev in
-                                                          er.protection.devices)
+    device_lines = [
+        ln
+        for ln in bill_of_materials(project, d)
+        if ln.kind in ("fuse", "fuse-or-breaker", "disconnect", "breaker")
+    ]
+    assert sum(ln.quantity for ln in device_lines) == sum(
+        dev.count for dev in er.protection.devices
+    )
     for ln in device_lines:
-        matching = [dev for dev in er.protection.devices
-                    if ln.key.startswith("-".join(dev.kind.split()) + ":")
-                    and (dev.rating_a is None or f":{dev.rating_a:g} A" in ln.key)]
+        matching = [
+            dev
+            for dev in er.protection.devices
+            if ln.key.startswith("-".join(dev.kind.split()) + ":")
+            and (dev.rating_a is None or f":{dev.rating_a:g} A" in ln.key)
+        ]
         assert sum(dev.count for dev in matching) >= ln.quantity

@@ -59,16 +59,30 @@ def test_replacement_years():
 
 def _hand_case():
     project = hand_project()
-    project.economics = Economics(currency="EUR", life_years=20, discount_rate_pct=8.0,
-                                  inflation_pct=0.0, om_pct_of_capital=1.0,
-                                  installation_pct=10.0, battery_life_years=5.0,
-                                  module_life_years=25.0, controller_life_years=12.0,
-                                  inverter_life_years=10.0)
-    project.prices = [PriceItem("module", 100.0), PriceItem("battery", 150.0),
-                      PriceItem("controller", 200.0), PriceItem("inverter", 250.0)]
-    bom = (BomLine("module:test", "", 4, "each", ""), BomLine("battery:test", "", 2, "each", ""),
-           BomLine("controller:MPPT 30 A", "", 1, "each", ""),
-           BomLine("inverter:500 W", "", 1, "each", ""))
+    project.economics = Economics(
+        currency="EUR",
+        life_years=20,
+        discount_rate_pct=8.0,
+        inflation_pct=0.0,
+        om_pct_of_capital=1.0,
+        installation_pct=10.0,
+        battery_life_years=5.0,
+        module_life_years=25.0,
+        controller_life_years=12.0,
+        inverter_life_years=10.0,
+    )
+    project.prices = [
+        PriceItem("module", 100.0),
+        PriceItem("battery", 150.0),
+        PriceItem("controller", 200.0),
+        PriceItem("inverter", 250.0),
+    ]
+    bom = (
+        BomLine("module:test", "", 4, "each", ""),
+        BomLine("battery:test", "", 2, "each", ""),
+        BomLine("controller:MPPT 30 A", "", 1, "each", ""),
+        BomLine("inverter:500 W", "", 1, "each", ""),
+    )
     return project, bom
 
 
@@ -139,13 +153,18 @@ def test_battery_life_sources():
 
 def _reliability_record(expected_life_years: float) -> Reliability:
     """A reliability record with every figure 0 but the battery's expected life."""
+
     def zeros(cls, **given):
         values = {f.name: 0 for f in dataclasses.fields(cls) if f.name != "reasons"}
         return cls(**{**values, **given})
 
-    return zeros(Reliability, months=(), worst_year_soc_min=(), notes=(),
-                 wear=zeros(BatteryWear, cycle_hist=(),
-                            expected_life_years=expected_life_years))
+    return zeros(
+        Reliability,
+        months=(),
+        worst_year_soc_min=(),
+        notes=(),
+        wear=zeros(BatteryWear, cycle_hist=(), expected_life_years=expected_life_years),
+    )
 
 
 def test_delivered_energy_counts_served_share():
@@ -161,8 +180,7 @@ def _project_text(extra: str) -> str:
     return demo_project_path().read_text(encoding="utf-8") + extra
 
 
-@pytest.mark.parametrize(("price", "fragment"), [("0.0", "above zero"),
-                                                 ("-12.0", "above zero")])
+@pytest.mark.parametrize(("price", "fragment"), [("0.0", "above zero"), ("-12.0", "above zero")])
 def test_project_file_with_bad_price_is_refused_with_line(price, fragment):
     text = _project_text(f'\n[[prices]]\npart = "fuse:10 A"\nunit_price = {price}\n')
     with pytest.raises(ProjectFileError) as exc:

@@ -24,10 +24,18 @@ from offgrid.project.model import PriceItem
 
 
 def test_price_lookup_most_specific_first():
-    prices = [PriceItem("controller", 300.0), PriceItem("controller:PWM", 120.0),
-              PriceItem("cable:copper 6 mm2", 4.0), PriceItem("cable", 2.0)]
-    assert price_keys("controller:MPPT 50 A") == ["controller:MPPT 50 A", "controller:MPPT 50",
-                                                  "controller:MPPT", "controller"]
+    prices = [
+        PriceItem("controller", 300.0),
+        PriceItem("controller:PWM", 120.0),
+        PriceItem("cable:copper 6 mm2", 4.0),
+        PriceItem("cable", 2.0),
+    ]
+    assert price_keys("controller:MPPT 50 A") == [
+        "controller:MPPT 50 A",
+        "controller:MPPT 50",
+        "controller:MPPT",
+        "controller",
+    ]
     assert price_for("controller:PWM 30 A", prices) == 120.0
     assert price_for("controller:MPPT 50 A", prices) == 300.0
     assert price_for("cable:copper 6 mm2", prices) == 4.0
@@ -36,25 +44,32 @@ def test_price_lookup_most_specific_first():
 
 
 def test_price_csv_reads_and_skips_blanks():
-    text = ("part,unit_price,unit,description,note\n"
-            "module:Generic,115,each,PV module,\n"
-            "battery:Generic,,each,blank: not yet priced,\n"
-            "cable,1250.5,m,,bulk\n")
+    text = (
+        "part,unit_price,unit,description,note\n"
+        "module:Generic,115,each,PV module,\n"
+        "battery:Generic,,each,blank: not yet priced,\n"
+        "cable,1250.5,m,,bulk\n"
+    )
     items = read_price_csv(text)
     assert [(p.part, p.unit_price, p.note) for p in items] == [
-        ("module:Generic", 115.0, ""), ("cable", 1250.5, "bulk")]
+        ("module:Generic", 115.0, ""),
+        ("cable", 1250.5, "bulk"),
+    ]
     # a thousands separator is refused, as in every other reader (offgrid.numbers)
     with pytest.raises(PriceListError, match=r"row 2, unit_price: '1,250\.5'.*write 1500"):
         read_price_csv('part,unit_price\ncable,"1,250.5"\n')
 
 
-@pytest.mark.parametrize(("row", "fragment"), [
-    ("module,0", "above zero"),
-    ("module,-5", "above zero"),
-    ("module,cheap", "not a number"),
-    ("module,nan", "not a finite number"),
-    (",12", "part column is empty"),
-])
+@pytest.mark.parametrize(
+    ("row", "fragment"),
+    [
+        ("module,0", "above zero"),
+        ("module,-5", "above zero"),
+        ("module,cheap", "not a number"),
+        ("module,nan", "not a finite number"),
+        (",12", "part column is empty"),
+    ],
+)
 def test_price_csv_refuses_bad_prices(row, fragment):
     with pytest.raises(PriceListError) as exc:
         read_price_csv(f"part,unit_price\n{row}\n", "p.csv")
@@ -72,7 +87,9 @@ def test_merge_prices_replaces_same_part():
     old = [PriceItem("module", 100.0), PriceItem("cable", 2.0)]
     new = [PriceItem("module", 90.0)]
     assert [(p.part, p.unit_price) for p in merge_prices(old, new)] == [
-        ("module", 90.0), ("cable", 2.0)]
+        ("module", 90.0),
+        ("cable", 2.0),
+    ]
 
 
 def test_one_price_list_error_for_both_layouts():
@@ -92,8 +109,10 @@ def test_both_layouts_name_the_files_own_line_after_blank_lines_and_multiline_ce
         read_price_csv(parts)
     from offgrid.plan.prices import read_prices_csv
 
-    plan = ('item,basis,unit_price,currency,note\n\nmodule,per_w,0.4,USD,"two\nlines"\n'
-            'battery,per_kwh,-1,USD,\n')
+    plan = (
+        'item,basis,unit_price,currency,note\n\nmodule,per_w,0.4,USD,"two\nlines"\n'
+        "battery,per_kwh,-1,USD,\n"
+    )
     with pytest.raises(PriceListError, match=r"line 5: unit_price -1 must be 0 or more"):
         read_prices_csv(plan)
 

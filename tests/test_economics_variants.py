@@ -21,24 +21,29 @@ def test_apply_variant_changes_only_a_copy():
 
 
 def test_nested_tables_mean_dotted_keys():
-    nested = {"battery": {"chemistry": "lifepo4", "max_dod": 0.8}, "loads[2]": {"hours_per_day":
-                                                                               2}}
-    assert flatten_overrides(nested) == [("battery.chemistry", "lifepo4"),
-                                         ("battery.max_dod", 0.8), ("loads[2].hours_per_day", 2)]
+    nested = {"battery": {"chemistry": "lifepo4", "max_dod": 0.8}, "loads[2]": {"hours_per_day": 2}}
+    assert flatten_overrides(nested) == [
+        ("battery.chemistry", "lifepo4"),
+        ("battery.max_dod", 0.8),
+        ("loads[2].hours_per_day", 2),
+    ]
     out = apply_variant(hand_project(), Variant("n", nested))
     assert out.battery.chemistry == "lifepo4"
     assert out.loads[1].hours_per_day == 2.0 and isinstance(out.loads[1].hours_per_day, float)
 
 
-@pytest.mark.parametrize(("overrides", "fragment"), [
-    ({"controller.kind": "pwm"}, "'kind' is not a field"),
-    ({"batery.chemistry": "gel"}, "'batery' is not a field"),
-    ({"controller.type": "shunt"}, "must be one of"),
-    ({"battery.capacity_ah": "big"}, "not a number"),
-    ({"loads[9].power_w": 5}, "loads[9] does not exist"),
-    ({"battery.max_dod": 2.0}, "battery.max_dod"),
-    ({"variants": []}, "cannot change"),
-])
+@pytest.mark.parametrize(
+    ("overrides", "fragment"),
+    [
+        ({"controller.kind": "pwm"}, "'kind' is not a field"),
+        ({"batery.chemistry": "gel"}, "'batery' is not a field"),
+        ({"controller.type": "shunt"}, "must be one of"),
+        ({"battery.capacity_ah": "big"}, "not a number"),
+        ({"loads[9].power_w": 5}, "loads[9] does not exist"),
+        ({"battery.max_dod": 2.0}, "battery.max_dod"),
+        ({"variants": []}, "cannot change"),
+    ],
+)
 def test_bad_override_names_variant_and_path(overrides, fragment):
     with pytest.raises(ValueError) as exc:
         apply_variant(hand_project(), Variant("Bad one", overrides))
@@ -91,12 +96,14 @@ def test_counts_and_battery_life_read_as_elsewhere():
     """Warnings and notes counted apart as in the headline; battery life names its method."""
     from offgrid.economics.variants import battery_life_label
 
-    assert battery_life_label(["chemistry preset, typical service life"]) == \
-        "Battery life, preset"
-    assert battery_life_label(["reliability simulation (battery wear)"]) == \
-        "Battery life, simulated"
-    assert battery_life_label(["reliability simulation (battery wear)", "chemistry preset"]) \
+    assert battery_life_label(["chemistry preset, typical service life"]) == "Battery life, preset"
+    assert (
+        battery_life_label(["reliability simulation (battery wear)"]) == "Battery life, simulated"
+    )
+    assert (
+        battery_life_label(["reliability simulation (battery wear)", "chemistry preset"])
         == "Battery life, preset or simulated"
+    )
     from offgrid.economics.variants import FIGURE_ROWS
 
     labels = [r[0] for r in FIGURE_ROWS]

@@ -20,9 +20,18 @@ from tests.conftest import hand_project
 
 
 def _36_cell() -> ModuleSpec:
-    return ModuleSpec(name="Generic 36-cell 100 W (invented)", pmax_w=100, vmp_v=18.0,
-                      imp_a=5.56, voc_v=22.1, isc_a=5.95, alpha_isc_pct_per_c=0.06,
-                      beta_voc_pct_per_c=-0.33, cells_in_series=36, area_m2=0.67)
+    return ModuleSpec(
+        name="Generic 36-cell 100 W (invented)",
+        pmax_w=100,
+        vmp_v=18.0,
+        imp_a=5.56,
+        voc_v=22.1,
+        isc_a=5.95,
+        alpha_isc_pct_per_c=0.06,
+        beta_voc_pct_per_c=-0.33,
+        cells_in_series=36,
+        area_m2=0.67,
+    )
 
 
 def test_profile_integrates_to_the_monthly_poa():
@@ -45,10 +54,16 @@ def _reference_harvest(params, g, dt, ambient, noct, h: HarvestInputs):
     gs = g * h.soiling
     tc = ambient[:, None] + (noct - 20.0) / 800.0 * gs
     lit = gs > 0.5
-    args = calcparams_desoto(np.where(lit, gs, 1.0).ravel(), tc.ravel(),
-                             params.alpha_isc_a_per_c, params.modified_ideality_v,
-                             params.photocurrent_a, params.saturation_current_a,
-                             params.shunt_resistance_ohm, params.series_resistance_ohm)
+    args = calcparams_desoto(
+        np.where(lit, gs, 1.0).ravel(),
+        tc.ravel(),
+        params.alpha_isc_a_per_c,
+        params.modified_ideality_v,
+        params.photocurrent_a,
+        params.saturation_current_a,
+        params.shunt_resistance_ohm,
+        params.series_resistance_ohm,
+    )
     sd = singlediode(*args, method="lambertw")  # 1-D: pvlib returns a DataFrame for 1-D
     pmp = np.where(lit, np.asarray(sd["p_mp"]).reshape(g.shape), 0.0)
     n = h.strings_per_controller * h.controllers
@@ -67,9 +82,18 @@ def test_harvest_both_ways_matches_pvlib_without_cable_losses():
     g, dt = daily_poa_profile(h, poa, -12.0, 15.0, 0.0)
     amb = np.array([25.0, 25, 25, 24, 22, 20, 20, 22, 26, 28, 27, 25])
     params = pv.fit_module(ModuleSpec())
-    hin = HarvestInputs(series=1, strings_per_controller=3, controllers=2, battery_v=27.0,
-                        controller_efficiency=0.97, soiling=0.95, mismatch=0.98,
-                        string_loop_ohm=0.0, array_loop_ohm=0.0, charge_loop_ohm=0.0)
+    hin = HarvestInputs(
+        series=1,
+        strings_per_controller=3,
+        controllers=2,
+        battery_v=27.0,
+        controller_efficiency=0.97,
+        soiling=0.95,
+        mismatch=0.98,
+        string_loop_ohm=0.0,
+        array_loop_ohm=0.0,
+        charge_loop_ohm=0.0,
+    )
     mppt, pwm = harvest_wh_day(params, g, dt, amb, 45.0, hin)
     ref_mppt, ref_pwm = _reference_harvest(params, g, dt, amb, 45.0, hin)
     np.testing.assert_allclose(mppt, ref_mppt, rtol=1e-7)
@@ -96,23 +120,39 @@ def test_demo_json_has_the_electrical_keys():
     assert a["voc_cold_v"] > 39.8 and a["vmp_hot_v"] < 32.5
     assert data["controller"]["max_pv_voltage_v"] == 150
     assert len(a["harvest_pwm_wh_day"]) == 12 and len(a["harvest_mppt_wh_day"]) == 12
-    assert all(p < m for p, m in zip(a["harvest_pwm_wh_day"], a["harvest_mppt_wh_day"],
-                                     strict=True))
+    assert all(
+        p < m for p, m in zip(a["harvest_pwm_wh_day"], a["harvest_mppt_wh_day"], strict=True)
+    )
     assert {"vmp_v", "imp_a", "pmp_w", "fill_factor"} <= set(data["mpp"])
     assert 0.6 < data["mpp"]["fill_factor"] < 0.85
     runs = {w["run"] for w in data["wires"]}
     assert {"array to controller", "controller to battery", "battery to inverter"} <= runs
     for w in data["wires"]:
-        assert {"run", "current_a", "length_m", "material", "size", "drop_pct", "ampacity_a",
-                "fuse_a"} <= set(w)
+        assert {
+            "run",
+            "current_a",
+            "length_m",
+            "material",
+            "size",
+            "drop_pct",
+            "ampacity_a",
+            "fuse_a",
+        } <= set(w)
         assert w["ampacity_a"] >= 1.25 * w["current_a"] - 1e-6
         if w["fuse_a"] is not None:
             assert w["current_a"] * 1.25 <= w["fuse_a"] + 1e-6 <= w["ampacity_a"] + 1e-6
     # the string's cold Voc stays under the controller's maximum
     assert data["electrical"]["strings"]["string_voc_cold_v"] <= 150
-    for key in ("array.voc_cold_v", "array.vmp_hot_v", "array.harvest_pwm_wh_day",
-                "array.harvest_mppt_wh_day", "mpp.pmp_w", "wires.array.size",
-                "wires.charge.drop_pct", "protection.bank_fault_current_a"):
+    for key in (
+        "array.voc_cold_v",
+        "array.vmp_hot_v",
+        "array.harvest_pwm_wh_day",
+        "array.harvest_mppt_wh_day",
+        "mpp.pmp_w",
+        "wires.array.size",
+        "wires.charge.drop_pct",
+        "protection.bank_fault_current_a",
+    ):
         assert data["reasons"][key]["source"], key
     assert data["cautions"][-1].startswith("This design defers to local electrical codes")
 
@@ -121,11 +161,14 @@ def test_hand_project_layout_and_harvest_cover_the_demand(project):
     d = design(project)
     e = d.electrical
     assert (e.strings.layout.series, e.strings.layout.parallel) == (
-        d.array.modules_series, d.array.modules_parallel)
+        d.array.modules_series,
+        d.array.modules_parallel,
+    )
     assert not e.strings.layout_changed
     dm = d.site.design_month - 1
     assert e.harvest.mppt_wh_day[dm] * project.battery.efficiency >= (
-        d.loads.design_daily_energy_wh)
+        d.loads.design_daily_energy_wh
+    )
     assert e.harvest.shortfall_pct == 0.0
 
 

@@ -34,7 +34,7 @@ def hostile_project():
     p.info.name = f"Clinic{TITLE}"
     p.site.name = f"Ridge{CLEAR}"
     p.loads[0].name = f"Lamp{OSC52}\nsecond line | [x](javascript:alert(1)) ![i](http://e/x.png)"
-    p.loads[1].name = "=HYPERLINK(\"http://e\",\"click\")"
+    p.loads[1].name = '=HYPERLINK("http://e","click")'
     p.prices = [PriceItem(part="module", unit_price=100.0, note="@SUM(A1:A9)")]
     return p
 
@@ -68,8 +68,16 @@ def test_reports_hold_no_raw_control_bytes(hostile, tmp_path, capsys, fmt):
     assert code == 0, err
     assert not RAW_CONTROL.search(out), RAW_CONTROL.search(out)
     target = tmp_path / f"r.{fmt}"
-    code, _, err = run(capsys, "report", str(hostile), "-o", str(target), "--no-charts",
-                       "--bom", str(tmp_path / f"b-{fmt}.csv"))
+    code, _, err = run(
+        capsys,
+        "report",
+        str(hostile),
+        "-o",
+        str(target),
+        "--no-charts",
+        "--bom",
+        str(tmp_path / f"b-{fmt}.csv"),
+    )
     assert code == 0, err
     text = target.read_text(encoding="utf-8")
     assert not RAW_CONTROL.search(text)
@@ -108,7 +116,7 @@ def test_load_list_export_neutralises_formulas_and_reads_back(tmp_path):
     loads[0].name = "-2+3"
     text = loads_to_csv(loads)
     cells = [row[0] for row in csv.reader(io.StringIO(text))][1:]
-    assert cells == ["'-2+3", "'=HYPERLINK(\"http://e\",\"click\")"]
+    assert cells == ["'-2+3", '\'=HYPERLINK("http://e","click")']
     back = read_loads_csv(text)
     assert [ld.name for ld in back] == [ld.name for ld in loads]
 
@@ -179,13 +187,19 @@ def test_plan_markdown_report_escapes_links_and_row_splits():
     from offgrid.plan.survey import read_survey
     from offgrid.plan.text import markdown_report
 
-    lines = ["community,Hill | [x](javascript:alert(1)) (invented)",
-             "climate,kisanga-ridge-demo", "project,kisanga-ridge-home-parts",
-             "prices,kisanga-ridge-prices", "id,count,load_list,daily_energy_wh,peak_power_w,ac_dc",
-             "![i](http://example.invalid/p.png),1,household-basic,,,",
-             "A|B,1,,300,60,dc", "H3,1,,,,"]
-    plan = plan_community(read_survey("\n".join(lines) + "\n", base_dir=load_profiles_dir()),
-                          kits=1, jobs=1)
+    lines = [
+        "community,Hill | [x](javascript:alert(1)) (invented)",
+        "climate,kisanga-ridge-demo",
+        "project,kisanga-ridge-home-parts",
+        "prices,kisanga-ridge-prices",
+        "id,count,load_list,daily_energy_wh,peak_power_w,ac_dc",
+        "![i](http://example.invalid/p.png),1,household-basic,,,",
+        "A|B,1,,300,60,dc",
+        "H3,1,,,,",
+    ]
+    plan = plan_community(
+        read_survey("\n".join(lines) + "\n", base_dir=load_profiles_dir()), kits=1, jobs=1
+    )
     md = markdown_report(plan)
     import re
 

@@ -33,9 +33,17 @@ try:
 except ImportError:  # run as a package
     from tests.design_invariants import design_problems
 
-FUZZ = settings(derandomize=True, max_examples=150, deadline=None, database=None,
-                suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much,
-                                       HealthCheck.data_too_large])
+FUZZ = settings(
+    derandomize=True,
+    max_examples=150,
+    deadline=None,
+    database=None,
+    suppress_health_check=[
+        HealthCheck.too_slow,
+        HealthCheck.filter_too_much,
+        HealthCheck.data_too_large,
+    ],
+)
 
 
 def _owner(project: Project, path: str):
@@ -51,13 +59,15 @@ def _hint(obj, name: str):
 
 
 def _optional(tp) -> bool:
-    return (typing.get_origin(tp) in (typing.Union, types.UnionType)
-            and type(None) in typing.get_args(tp))
+    return typing.get_origin(tp) in (typing.Union, types.UnionType) and type(
+        None
+    ) in typing.get_args(tp)
 
 
 def _is_int(tp) -> bool:
-    return tp is int or (_optional(tp) and int in typing.get_args(tp)
-                         and float not in typing.get_args(tp))
+    return tp is int or (
+        _optional(tp) and int in typing.get_args(tp) and float not in typing.get_args(tp)
+    )
 
 
 finite = {"allow_nan": False, "allow_infinity": False}
@@ -78,7 +88,13 @@ def modules(draw, project: Project) -> None:
     pmax = vmp * imp * draw(st.floats(0.99, 1.01, **finite))
     assume(1 <= pmax <= 1000 and vmp <= 200 and voc <= 250 and isc <= 30)
     m.cells_in_series, m.voc_v, m.vmp_v, m.isc_a, m.imp_a, m.pmax_w = (
-        in_series, voc, vmp, isc, imp, pmax)
+        in_series,
+        voc,
+        vmp,
+        isc,
+        imp,
+        pmax,
+    )
     eff = draw(st.floats(0.12, 0.23, **finite))
     m.area_m2 = min(5.0, max(0.01, pmax / (1000.0 * eff)))
     m.alpha_isc_pct_per_c = draw(st.floats(0.02, 0.08, **finite))
@@ -93,21 +109,30 @@ def climates(draw, latitude: float) -> MonthlyClimate:
         mean = draw(st.floats(0.8, 8.0, **finite))
         swing = draw(st.floats(0.0, 0.8, **finite)) * mean
         phase = 0 if latitude >= 0 else 6
-        ins = [max(0.0, mean + swing * math.cos(2 * math.pi * (i - 5 - phase) / 12))
-               for i in range(12)]
+        ins = [
+            max(0.0, mean + swing * math.cos(2 * math.pi * (i - 5 - phase) / 12)) for i in range(12)
+        ]
         t0 = draw(st.floats(-25.0, 38.0, **finite))
         t_swing = draw(st.floats(0.0, 15.0, **finite))
-        t_mean = [min(55.0, max(-70.0, t0 + t_swing * math.cos(2 * math.pi * (i - 6 - phase)
-                                                                 / 12))) for i in range(12)]
+        t_mean = [
+            min(55.0, max(-70.0, t0 + t_swing * math.cos(2 * math.pi * (i - 6 - phase) / 12)))
+            for i in range(12)
+        ]
     else:
         ins = draw(st.lists(st.floats(0.0, 12.0, **finite), min_size=12, max_size=12))
         t_mean = draw(st.lists(st.floats(-70.0, 55.0, **finite), min_size=12, max_size=12))
     t_max = draw(st.one_of(st.none(), st.just([t + 6.0 for t in t_mean])))
     t_min = draw(st.one_of(st.none(), st.just([t - 6.0 for t in t_mean])))
     low = draw(st.one_of(st.none(), st.floats(min(t_mean) - 30.0, min(t_mean), **finite)))
-    return MonthlyClimate(insolation_kwh_m2_day=ins, temp_mean_c=t_mean, temp_max_c=t_max,
-                          temp_min_c=t_min, record_low_c=low, source="fuzz (invented)",
-                          demo=True)
+    return MonthlyClimate(
+        insolation_kwh_m2_day=ins,
+        temp_mean_c=t_mean,
+        temp_max_c=t_max,
+        temp_min_c=t_min,
+        record_low_c=low,
+        source="fuzz (invented)",
+        demo=True,
+    )
 
 
 def _mostly(common, rare, odds: int = 6):
@@ -119,25 +144,36 @@ def _mostly(common, rare, odds: int = 6):
 def loads(draw) -> list[Load]:
     out = []
     for i in range(draw(st.integers(1, 4))):
-        power = draw(_mostly(st.floats(1.0, 500.0, **finite),
-                             st.floats(0.0, 1_000_000.0, **finite), odds=16))
-        surge = draw(st.one_of(st.just(0.0), st.floats(power, max(power, 1.0) * 6, **finite),
-                               st.floats(power, 10_000_000.0, **finite)))
+        power = draw(
+            _mostly(st.floats(1.0, 500.0, **finite), st.floats(0.0, 1_000_000.0, **finite), odds=16)
+        )
+        surge = draw(
+            st.one_of(
+                st.just(0.0),
+                st.floats(power, max(power, 1.0) * 6, **finite),
+                st.floats(power, 10_000_000.0, **finite),
+            )
+        )
         first = draw(st.integers(1, 12))
         months = tuple(sorted({first, *draw(st.lists(st.integers(1, 12), max_size=11))}))
-        out.append(Load(
-            name=f"load {i + 1}",
-            quantity=draw(_mostly(st.integers(1, 5), st.integers(0, 100000), odds=16)),
-            power_w=power,
-            hours_per_day=draw(_mostly(st.floats(0.5, 12.0, **finite),
-                                       st.floats(0.0, 24.0, **finite))),
-            ac_dc=draw(st.sampled_from(("ac", "dc"))),
-            duty_cycle=draw(_mostly(st.floats(0.2, 1.0, **finite), st.floats(0.0, 1.0, **finite))),
-            surge_w=min(surge, 10_000_000.0),
-            months=months,
-            critical=draw(st.booleans()),
-            time_of_day=draw(st.sampled_from(("any", "day", "morning", "evening", "night"))),
-        ))
+        out.append(
+            Load(
+                name=f"load {i + 1}",
+                quantity=draw(_mostly(st.integers(1, 5), st.integers(0, 100000), odds=16)),
+                power_w=power,
+                hours_per_day=draw(
+                    _mostly(st.floats(0.5, 12.0, **finite), st.floats(0.0, 24.0, **finite))
+                ),
+                ac_dc=draw(st.sampled_from(("ac", "dc"))),
+                duty_cycle=draw(
+                    _mostly(st.floats(0.2, 1.0, **finite), st.floats(0.0, 1.0, **finite))
+                ),
+                surge_w=min(surge, 10_000_000.0),
+                months=months,
+                critical=draw(st.booleans()),
+                time_of_day=draw(st.sampled_from(("any", "day", "morning", "evening", "night"))),
+            )
+        )
     return out
 
 
@@ -159,25 +195,40 @@ def projects(draw) -> Project:
         p.site.latitude_deg = draw(st.floats(-60.0, 65.0, **finite))
     draw(modules(p))
     p.battery.chemistry = draw(st.sampled_from(("flooded", "agm", "gel", "lifepo4")))
-    p.battery.nominal_voltage_v = draw(_mostly(
-        st.sampled_from((2.0, 6.0, 12.0) if p.battery.chemistry != "lifepo4" else (12.8,)),
-        st.one_of(st.sampled_from((24.0, 25.6, 48.0, 51.2)), st.floats(1.0, 60.0, **finite))))
+    p.battery.nominal_voltage_v = draw(
+        _mostly(
+            st.sampled_from((2.0, 6.0, 12.0) if p.battery.chemistry != "lifepo4" else (12.8,)),
+            st.one_of(st.sampled_from((24.0, 25.6, 48.0, 51.2)), st.floats(1.0, 60.0, **finite)),
+        )
+    )
     p.choices.system_voltage = draw(st.sampled_from(("auto", 12, 24, 48)))
     p.controller.type = draw(st.sampled_from(("pwm", "mppt")))
     p.wiring.units = draw(st.sampled_from(("awg", "mm2")))
     p.wiring.material = draw(st.sampled_from(("copper", "aluminium")))
     p.wiring.insulation_temp_c = draw(st.sampled_from((60, 75, 90)))
-    reflectance = st.one_of(st.none(), st.floats(0.0, 1.0, **finite),
-                            st.lists(st.floats(0.0, 1.0, **finite), min_size=12, max_size=12))
+    reflectance = st.one_of(
+        st.none(),
+        st.floats(0.0, 1.0, **finite),
+        st.lists(st.floats(0.0, 1.0, **finite), min_size=12, max_size=12),
+    )
     p.site.albedo = draw(reflectance)  # one value, twelve (snow months) or automatic
     p.climate = ClimateChoice(inline=draw(climates(p.site.latitude_deg)))
     p.climate.inline.albedo = draw(reflectance)
     p.loads = draw(loads())
     if draw(st.booleans()):
         p.loads[0].run_m = draw(st.floats(0.1, 1000.0, **finite))
-    p.site.horizon_deg = draw(_mostly(st.just([]), st.lists(
-        st.tuples(st.floats(0.0, 359.0, **finite), st.floats(0.0, 90.0, **finite)),
-        min_size=1, max_size=6, unique_by=lambda pt: round(pt[0], 6)), odds=16))
+    p.site.horizon_deg = draw(
+        _mostly(
+            st.just([]),
+            st.lists(
+                st.tuples(st.floats(0.0, 359.0, **finite), st.floats(0.0, 90.0, **finite)),
+                min_size=1,
+                max_size=6,
+                unique_by=lambda pt: round(pt[0], 6),
+            ),
+            odds=16,
+        )
+    )
     assume(not validate_project(p))
     return p
 

@@ -27,23 +27,79 @@ from offgrid.cli import main
 from offgrid.paths import climates_dir, demo_project_path, load_profiles_dir
 
 RUN_LIMIT_S = 10.0  # issue 12: no hang over 10 s
-FUZZ = settings(derandomize=True, max_examples=30, deadline=None, database=None,
-                suppress_health_check=[HealthCheck.function_scoped_fixture,
-                                       HealthCheck.too_slow])
+FUZZ = settings(
+    derandomize=True,
+    max_examples=30,
+    deadline=None,
+    database=None,
+    suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow],
+)
 NON_FINITE_WORD = re.compile(r"(?<![\w.])[-+]?(nan|inf|infinity)(?![\w])", re.IGNORECASE)
 RAW_CONTROL = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f]")
 
 #: typed values as TOML text
-TOML_VALUES = ("nan", "+nan", "inf", "-inf", "1e400", "-1e400", "1e308", "-1e308",
-               str(10 ** 30), str(10 ** 400), "0", "-1", "true", "[]", "[1, 2, 3]",
-               "[nan, inf]", "{a = 1}", '""', '"=1+1"', '"@SUM(A1)"', '"[b]x[/b]"',
-               '"\\u001b]52;c;cm0=\\u0007"', '"\\u001b[2J"', '"1,500"', '"nan"',
-               '"' + "x" * 5000 + '"', "1979-05-27", '"\\u202e"', "[" * 1000 + "]" * 1000,
-               "{a = " * 600 + "1" + "}" * 600)
+TOML_VALUES = (
+    "nan",
+    "+nan",
+    "inf",
+    "-inf",
+    "1e400",
+    "-1e400",
+    "1e308",
+    "-1e308",
+    str(10**30),
+    str(10**400),
+    "0",
+    "-1",
+    "true",
+    "[]",
+    "[1, 2, 3]",
+    "[nan, inf]",
+    "{a = 1}",
+    '""',
+    '"=1+1"',
+    '"@SUM(A1)"',
+    '"[b]x[/b]"',
+    '"\\u001b]52;c;cm0=\\u0007"',
+    '"\\u001b[2J"',
+    '"1,500"',
+    '"nan"',
+    '"' + "x" * 5000 + '"',
+    "1979-05-27",
+    '"\\u202e"',
+    "[" * 1000 + "]" * 1000,
+    "{a = " * 600 + "1" + "}" * 600,
+)
 #: typed values as CSV cells
-CELLS = ("nan", "NaN", "inf", "-inf", "Infinity", "1e400", "1e308", "-1e308", "1,500",
-         "1.500,5", "0,5", "-5", "0", "", "=1+1", "@x", "+1", "\x1b[2J", "\x1b]0;t\x07",
-         "[red]x", "abc", "yes", "99999999999999999999999", "1_000", "0x10", " 7 ", '"')
+CELLS = (
+    "nan",
+    "NaN",
+    "inf",
+    "-inf",
+    "Infinity",
+    "1e400",
+    "1e308",
+    "-1e308",
+    "1,500",
+    "1.500,5",
+    "0,5",
+    "-5",
+    "0",
+    "",
+    "=1+1",
+    "@x",
+    "+1",
+    "\x1b[2J",
+    "\x1b]0;t\x07",
+    "[red]x",
+    "abc",
+    "yes",
+    "99999999999999999999999",
+    "1_000",
+    "0x10",
+    " 7 ",
+    '"',
+)
 
 
 def _run(argv: list[str], capsys, codes=(0, 2, 3)) -> tuple[int, str, str]:
@@ -78,8 +134,9 @@ def _digest(path: Path) -> str:
 
 
 def _value_lines(text: str) -> list[int]:
-    return [i for i, line in enumerate(text.splitlines())
-            if re.match(r"^\s*[A-Za-z0-9_]+\s*=", line)]
+    return [
+        i for i, line in enumerate(text.splitlines()) if re.match(r"^\s*[A-Za-z0-9_]+\s*=", line)
+    ]
 
 
 def _replace_value(text: str, index: int, value: str) -> str:
@@ -111,8 +168,9 @@ def test_project_file_with_a_hostile_value(tmp_path_factory, capsys, line, value
 
 
 @FUZZ
-@given(row=st.integers(1, LOADS.count("\n") - 1), col=st.integers(0, 9),
-       cell=st.sampled_from(CELLS))
+@given(
+    row=st.integers(1, LOADS.count("\n") - 1), col=st.integers(0, 9), cell=st.sampled_from(CELLS)
+)
 def test_load_list_with_a_hostile_cell(tmp_path_factory, capsys, row, col, cell):
     import csv
     import io
@@ -124,19 +182,24 @@ def test_load_list_with_a_hostile_cell(tmp_path_factory, capsys, row, col, cell)
     path = tmp_path_factory.mktemp("l") / "loads.csv"
     path.write_text(buf.getvalue(), encoding="utf-8")
     before = _digest(path)
-    code, out, _ = _run(["size", "--loads", str(path), "--climate", "kisanga-ridge-demo",
-                         "--json"], capsys)
+    code, out, _ = _run(
+        ["size", "--loads", str(path), "--climate", "kisanga-ridge-demo", "--json"], capsys
+    )
     _check_output(code, out, as_json=True)
     if code == 0:
-        code, out, _ = _run(["size", "--loads", str(path), "--climate", "kisanga-ridge-demo"],
-                            capsys)
+        code, out, _ = _run(
+            ["size", "--loads", str(path), "--climate", "kisanga-ridge-demo"], capsys
+        )
         _check_output(code, out, as_json=False, typed=cell)
     assert _digest(path) == before
 
 
 @FUZZ
-@given(line=st.sampled_from(CLIMATE_LINES), value=st.sampled_from(TOML_VALUES),
-       element=st.one_of(st.none(), st.integers(0, 11)))
+@given(
+    line=st.sampled_from(CLIMATE_LINES),
+    value=st.sampled_from(TOML_VALUES),
+    element=st.one_of(st.none(), st.integers(0, 11)),
+)
 def test_climate_file_with_a_hostile_value(tmp_path_factory, capsys, line, value, element):
     text = CLIMATE
     current = text.splitlines()[line]
@@ -154,25 +217,60 @@ def test_climate_file_with_a_hostile_value(tmp_path_factory, capsys, line, value
     before = _digest(path)
     code, out, _ = _run(["climate", "show", str(path)], capsys)
     _check_output(code, out, as_json=False, typed=value)
-    code, out, _ = _run(["size", "--loads", str(load_profiles_dir() / "household-kit.csv"),
-                         "--climate", str(path), "--json"], capsys)
+    code, out, _ = _run(
+        [
+            "size",
+            "--loads",
+            str(load_profiles_dir() / "household-kit.csv"),
+            "--climate",
+            str(path),
+            "--json",
+        ],
+        capsys,
+    )
     _check_output(code, out, as_json=True)
     assert _digest(path) == before
 
 
-SURVEY_HEAD = ("community,Fuzz hamlet (invented for a test)\ndemo,yes\n"
-               "climate,kisanga-ridge-demo\n")
-SURVEY_ROWS = [["id", "name", "kind", "count", "load_list", "daily_energy_wh", "peak_power_w",
-                "ac_dc", "surge_w", "kit", "choices.autonomy_days"],
-               ["H-1", "Home", "household", "3", "", "150", "35", "", "", "", ""],
-               ["H-2", "Shop", "shop", "1", "", "400", "120", "ac", "300", "", "3"],
-               ["H-3", "Kit home", "household", "2",
-                str(load_profiles_dir() / "household-basic.csv"), "", "", "", "", "", ""]]
+SURVEY_HEAD = "community,Fuzz hamlet (invented for a test)\ndemo,yes\nclimate,kisanga-ridge-demo\n"
+SURVEY_ROWS = [
+    [
+        "id",
+        "name",
+        "kind",
+        "count",
+        "load_list",
+        "daily_energy_wh",
+        "peak_power_w",
+        "ac_dc",
+        "surge_w",
+        "kit",
+        "choices.autonomy_days",
+    ],
+    ["H-1", "Home", "household", "3", "", "150", "35", "", "", "", ""],
+    ["H-2", "Shop", "shop", "1", "", "400", "120", "ac", "300", "", "3"],
+    [
+        "H-3",
+        "Kit home",
+        "household",
+        "2",
+        str(load_profiles_dir() / "household-basic.csv"),
+        "",
+        "",
+        "",
+        "",
+        "",
+        "",
+    ],
+]
 
 
 @settings(FUZZ, max_examples=20)
-@given(row=st.integers(1, len(SURVEY_ROWS) - 1), col=st.integers(0, len(SURVEY_ROWS[0]) - 1),
-       cell=st.sampled_from(CELLS))
+@given(
+    row=st.integers(1, len(SURVEY_ROWS) - 1),
+    col=st.integers(0, len(SURVEY_ROWS[0]) - 1),
+    cell=st.sampled_from(CELLS),
+)
 def test_survey_with_a_hostile_cell(tmp_path_factory, capsys, row, col, cell):
     import csv
     import io
@@ -185,7 +283,6 @@ def test_survey_with_a_hostile_cell(tmp_path_factory, capsys, row, col, cell):
     path.write_text(SURVEY_HEAD + buf.getvalue(), encoding="utf-8")
     before = _digest(path)
     # README: plan exits 1 when rows are left out or cannot be met, the plan still printed
-    code, out, _ = _run(["plan", str(path), "--json", "--jobs", "1"], capsys,
-                        codes=(0, 1, 2, 3))
+    code, out, _ = _run(["plan", str(path), "--json", "--jobs", "1"], capsys, codes=(0, 1, 2, 3))
     _check_output(0 if code == 1 else code, out, as_json=True)
     assert _digest(path) == before

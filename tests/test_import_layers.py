@@ -13,8 +13,9 @@ import pytest
 
 
 def _run(code: str) -> None:
-    done = subprocess.run([sys.executable, "-c", textwrap.dedent(code)], capture_output=True,
-                          text=True, timeout=120)
+    done = subprocess.run(
+        [sys.executable, "-c", textwrap.dedent(code)], capture_output=True, text=True, timeout=120
+    )
     assert done.returncode == 0, done.stderr
 
 
@@ -36,8 +37,15 @@ def test_climate_files_work_without_the_project_store(tmp_path):
     """)
 
 
-@pytest.mark.parametrize("first", ["offgrid.climate.files", "offgrid.project.store",
-                                   "offgrid.climate.model", "offgrid.project.model"])
+@pytest.mark.parametrize(
+    "first",
+    [
+        "offgrid.climate.files",
+        "offgrid.project.store",
+        "offgrid.climate.model",
+        "offgrid.project.model",
+    ],
+)
 def test_each_module_imports_first_in_a_fresh_interpreter(first):
     _run(f"""
         import importlib

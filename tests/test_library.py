@@ -38,9 +38,11 @@ def run(capsys, *args, stdin: str | None = None, monkeypatch=None):
 
 def _monthly_csv(folder: Path, lat: float = -3.2, lon: float = 36.5) -> Path:
     src = folder / "typed-site.csv"
-    src.write_text(f"# latitude_deg = {lat}\n# longitude_deg = {lon}\n# elevation_m = 1200\n"
-                   "month,insolation_kwh_m2_day,temp_mean_c\n"
-                   + "".join(f"{m},{v},21\n" for m, v in enumerate(MONTHLY, start=1)))
+    src.write_text(
+        f"# latitude_deg = {lat}\n# longitude_deg = {lon}\n# elevation_m = 1200\n"
+        "month,insolation_kwh_m2_day,temp_mean_c\n"
+        + "".join(f"{m},{v},21\n" for m, v in enumerate(MONTHLY, start=1))
+    )
     return src
 
 
@@ -118,8 +120,11 @@ def test_a_project_names_a_user_climate(capsys, tmp_path):
 
     src = _monthly_csv(tmp_path)
     assert run(capsys, "climate", "import", str(src), "--name", "Typed Hill")[0] == 0
-    text = paths.demo_project_path().read_text().replace('ref = "kisanga-ridge-demo"',
-                                                         'ref = "typed-hill"')
+    text = (
+        paths.demo_project_path()
+        .read_text()
+        .replace('ref = "kisanga-ridge-demo"', 'ref = "typed-hill"')
+    )
     assert 'ref = "typed-hill"' in text
     project_file = tmp_path / "elsewhere" / "p.toml"
     project_file.parent.mkdir()
@@ -132,8 +137,9 @@ def test_a_project_names_a_user_climate(capsys, tmp_path):
 
 
 def test_find_climate_by_name_bundled_then_yours(capsys, tmp_path):
-    assert files.find_climate("kisanga-ridge-demo") == paths.climates_dir() / \
-        "kisanga-ridge-demo.toml"
+    assert (
+        files.find_climate("kisanga-ridge-demo") == paths.climates_dir() / "kisanga-ridge-demo.toml"
+    )
     assert files.find_climate("typed-hill") is None
     run(capsys, "climate", "import", str(_monthly_csv(tmp_path)), "--name", "Typed Hill")
     entry = files.find_climate_entry("typed-hill")
@@ -146,22 +152,32 @@ def test_find_climate_by_name_bundled_then_yours(capsys, tmp_path):
 
 
 def test_import_refuses_a_bundled_name_in_the_library(capsys, tmp_path):
-    code, _, err = run(capsys, "climate", "import", str(_monthly_csv(tmp_path)),
-                       "--name", "kisanga-ridge-demo")
+    code, _, err = run(
+        capsys, "climate", "import", str(_monthly_csv(tmp_path)), "--name", "kisanga-ridge-demo"
+    )
     assert code == 2 and "bundled" in err and "--name" in err
     assert not (paths.user_climates_dir() / "kisanga-ridge-demo.toml").exists()
 
 
 def test_import_to_standard_output(capsys, tmp_path):
-    code, out, _ = run(capsys, "climate", "import", str(_monthly_csv(tmp_path)), "--name",
-                       "Typed Hill", "--out", "-")
+    code, out, _ = run(
+        capsys,
+        "climate",
+        "import",
+        str(_monthly_csv(tmp_path)),
+        "--name",
+        "Typed Hill",
+        "--out",
+        "-",
+    )
     assert code == 0
-    body = out[out.index("# offgrid climate file"):]
+    body = out[out.index("# offgrid climate file") :]
     import tomllib
 
     data = tomllib.loads(body)
-    assert data["format"] == "offgrid-climate" and data["monthly"]["insolation_kwh_m2_day"] \
-        == MONTHLY
+    assert (
+        data["format"] == "offgrid-climate" and data["monthly"]["insolation_kwh_m2_day"] == MONTHLY
+    )
     assert not paths.user_climates_dir().exists()
 
 
@@ -181,22 +197,23 @@ def test_climate_entries_sorted_by_distance():
 
 def test_user_load_list_added_listed_and_named(capsys, tmp_path, monkeypatch):
     src = tmp_path / "my-shop.csv"
-    src.write_text("name,quantity,power_w,hours_per_day,ac_dc\nLight,4,9,5,dc\n"
-                   "Fridge,1,60,24,ac\n")
+    src.write_text("name,quantity,power_w,hours_per_day,ac_dc\nLight,4,9,5,dc\nFridge,1,60,24,ac\n")
     code, out, err = run(capsys, "loads", "add", str(src))
     assert code == 0, err
     assert (paths.user_load_profiles_dir() / "my-shop.csv").is_file()
     code, out, _ = run(capsys, "loads", "list")
     mine = next(ln for ln in out.splitlines() if ln.startswith("my-shop "))
     assert mine.rstrip().endswith("yours")
-    assert any(ln.startswith("household-kit ") and ln.rstrip().endswith("bundled")
-               for ln in out.splitlines())
+    assert any(
+        ln.startswith("household-kit ") and ln.rstrip().endswith("bundled")
+        for ln in out.splitlines()
+    )
     monkeypatch.chdir(tmp_path / "..")  # somewhere the file is not
-    code, out, err = run(capsys, "size", "--loads", "my-shop", "--climate",
-                         "kisanga-ridge-demo", "--json")
+    code, out, err = run(
+        capsys, "size", "--loads", "my-shop", "--climate", "kisanga-ridge-demo", "--json"
+    )
     assert code == 0, err
-    assert paths.find_load_list("household-kit") == paths.load_profiles_dir() / \
-        "household-kit.csv"
+    assert paths.find_load_list("household-kit") == paths.load_profiles_dir() / "household-kit.csv"
     assert paths.find_load_list("my-shop.csv") == paths.user_load_profiles_dir() / "my-shop.csv"
 
 
@@ -213,11 +230,27 @@ def test_bad_load_list_is_not_added(capsys, tmp_path):
 
 def test_loads_from_standard_input(capsys, monkeypatch):
     csv_text = (paths.load_profiles_dir() / "household-kit.csv").read_text()
-    code, out, err = run(capsys, "size", "--loads", "-", "--climate", "kisanga-ridge-demo",
-                         "--json", stdin=csv_text, monkeypatch=monkeypatch)
+    code, out, err = run(
+        capsys,
+        "size",
+        "--loads",
+        "-",
+        "--climate",
+        "kisanga-ridge-demo",
+        "--json",
+        stdin=csv_text,
+        monkeypatch=monkeypatch,
+    )
     assert code == 0, err
-    direct = run(capsys, "size", "--loads", str(paths.load_profiles_dir() / "household-kit.csv"),
-                 "--climate", "kisanga-ridge-demo", "--json")[1]
+    direct = run(
+        capsys,
+        "size",
+        "--loads",
+        str(paths.load_profiles_dir() / "household-kit.csv"),
+        "--climate",
+        "kisanga-ridge-demo",
+        "--json",
+    )[1]
     assert json.loads(out)["array"] == json.loads(direct)["array"]
 
 
@@ -248,8 +281,9 @@ def test_price_template_out_and_back_in_through_pipes(capsys, tmp_path, monkeypa
     first = lines[1].split(",")
     first[header.index("unit_price")] = "123.5"
     filled = "\n".join([lines[0], ",".join(first)]) + "\n"
-    code, _, err = run(capsys, "prices", str(project), "--import", "-", stdin=filled,
-                       monkeypatch=monkeypatch)
+    code, _, err = run(
+        capsys, "prices", str(project), "--import", "-", stdin=filled, monkeypatch=monkeypatch
+    )
     assert code == 0, err
     assert "123.5" in project.read_text()
 
@@ -280,7 +314,7 @@ def test_each_subcommand_help_shows_a_worked_example_that_parses(name):
     parser = dict(_all_commands())[name]
     text = parser.format_help()
     assert "Example:" in text, name
-    example = text[text.index("Example:"):].splitlines()[1].strip()
+    example = text[text.index("Example:") :].splitlines()[1].strip()
     argv = shlex.split(example.split("  #")[0])
     assert argv[0] == "offgrid" and " ".join(argv[1:]).startswith(name), example
     args = build_parser().parse_args(argv[1:])  # the example is valid syntax
@@ -295,11 +329,22 @@ def test_every_listed_command_is_covered():
 
 def test_climate_import_from_standard_input(capsys, tmp_path, monkeypatch):
     text = _monthly_csv(tmp_path).read_text()
-    code, _, err = run(capsys, "climate", "import", "-", "--name", "Piped", stdin=text,
-                       monkeypatch=monkeypatch)
+    code, _, err = run(
+        capsys, "climate", "import", "-", "--name", "Piped", stdin=text, monkeypatch=monkeypatch
+    )
     assert code == 2 and "--kind" in err
-    code, _, err = run(capsys, "climate", "import", "-", "--kind", "monthly-csv", "--name",
-                       "Piped", stdin=text, monkeypatch=monkeypatch)
+    code, _, err = run(
+        capsys,
+        "climate",
+        "import",
+        "-",
+        "--kind",
+        "monthly-csv",
+        "--name",
+        "Piped",
+        stdin=text,
+        monkeypatch=monkeypatch,
+    )
     assert code == 0, err
     climate = files.load_climate("piped")
     assert climate.insolation_kwh_m2_day == MONTHLY

@@ -88,8 +88,9 @@ def test_run_length_round_trips_and_absent_stays_absent(tmp_path):
 
 
 def test_run_length_out_of_range_names_the_load_field():
-    text = dumps_project(hand_project()).replace('name = "DC lights"',
-                                                 'name = "DC lights"\nrun_m = 5000.0', 1)
+    text = dumps_project(hand_project()).replace(
+        'name = "DC lights"', 'name = "DC lights"\nrun_m = 5000.0', 1
+    )
     with pytest.raises(ProjectFileError) as err:
         loads_project(text)
     assert [p.path for p in err.value.problems] == ["loads[1].run_m"]
@@ -151,8 +152,9 @@ def test_schema_2_file_with_the_old_table_is_refused_with_a_hint():
 
 
 def test_newer_schema_is_still_refused():
-    text = dumps_project(hand_project()).replace(f"schema = {SCHEMA_VERSION}",
-                                                 f"schema = {SCHEMA_VERSION + 1}")
+    text = dumps_project(hand_project()).replace(
+        f"schema = {SCHEMA_VERSION}", f"schema = {SCHEMA_VERSION + 1}"
+    )
     with pytest.raises(ProjectFileError, match="newer than this offgrid reads"):
         loads_project(text)
 
@@ -178,8 +180,12 @@ def test_the_migration_note_reaches_the_text_ui_session_and_the_command_line(tmp
     session = Session.open(path)
     assert any("Old radio" in n for n in session.notes)
     assert session.project.loads[0].run_m == 40.0
-    proc = subprocess.run([sys.executable, "-m", "offgrid", "size", str(path)],
-                          capture_output=True, text=True, timeout=120)
+    proc = subprocess.run(
+        [sys.executable, "-m", "offgrid", "size", str(path)],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
     assert proc.returncode == 0, proc.stderr
     assert "offgrid: note:" in proc.stderr and "Old radio" in proc.stderr
     assert path.read_text() == _schema_1_text()  # reading never rewrites the file

@@ -28,10 +28,10 @@ def test_energy_is_quantity_power_hours_duty():
 
 
 def test_months_of_use_and_split_and_idle():
-    loads = [Load("fan", 1, 50.0, 4.0, "dc", months=(3, 4, 5)),
-             Load("tv", 1, 90.0, 2.0, "ac")]
-    r = analyse_loads(loads, InverterSpec(efficiency=0.9, self_consumption_w=8,
-                                          hours_on_per_day=12), 0.0, 1.0)
+    loads = [Load("fan", 1, 50.0, 4.0, "dc", months=(3, 4, 5)), Load("tv", 1, 90.0, 2.0, "ac")]
+    r = analyse_loads(
+        loads, InverterSpec(efficiency=0.9, self_consumption_w=8, hours_on_per_day=12), 0.0, 1.0
+    )
     assert r.dc_energy_wh[0] == 0 and r.dc_energy_wh[3] == 200
     assert r.ac_energy_wh[0] == 180
     assert r.inverter_idle_wh == 96
@@ -47,14 +47,14 @@ def test_growth_margin_is_explicit():
 
 
 def test_no_ac_loads_means_no_inverter_idle():
-    r = analyse_loads([Load("light", 1, 10.0, 10.0, "dc")], InverterSpec(self_consumption_w=20),
-                      0.0, 1.0)
+    r = analyse_loads(
+        [Load("light", 1, 10.0, 10.0, "dc")], InverterSpec(self_consumption_w=20), 0.0, 1.0
+    )
     assert r.inverter_idle_wh == 0.0
 
 
 def test_peak_coincidence_and_surge():
-    loads = [Load("pump", 1, 750.0, 2.0, "ac", surge_w=2250.0),
-             Load("laptop", 2, 50.0, 4.0, "ac")]
+    loads = [Load("pump", 1, 750.0, 2.0, "ac", surge_w=2250.0), Load("laptop", 2, 50.0, 4.0, "ac")]
     r = analyse_loads(loads, InverterSpec(), 0.0, 0.8)
     # 0.8 x 850 = 680 W is below the pump alone: the peak is the pump's 750 W (the factor
     # never below the largest single appliance); its start 2250 + max(0.8 x 100, 100) W.
@@ -63,10 +63,16 @@ def test_peak_coincidence_and_surge():
     assert r.surge_need_w == pytest.approx(2350.0) and r.surge_need_load == "pump"
 
 
-@pytest.mark.parametrize(("text", "months"), [
-    ("1-12", tuple(range(1, 13))), ("5,6,7", (5, 6, 7)), ("11-2", (1, 2, 11, 12)),
-    ("all", tuple(range(1, 13))), ("3", (3,)),
-])
+@pytest.mark.parametrize(
+    ("text", "months"),
+    [
+        ("1-12", tuple(range(1, 13))),
+        ("5,6,7", (5, 6, 7)),
+        ("11-2", (1, 2, 11, 12)),
+        ("all", tuple(range(1, 13))),
+        ("3", (3,)),
+    ],
+)
 def test_parse_months(text, months):
     assert parse_months(text) == months
 
@@ -77,8 +83,10 @@ def test_format_months_round_trip():
 
 
 def test_csv_round_trip():
-    loads = [Load("A, with comma", 2, 7.5, 5, "dc", 1, 0, (1, 2, 3), True, "evening"),
-             Load("B", 1, 100, 1.5, "ac", 0.5, 300, tuple(range(1, 13)), False)]
+    loads = [
+        Load("A, with comma", 2, 7.5, 5, "dc", 1, 0, (1, 2, 3), True, "evening"),
+        Load("B", 1, 100, 1.5, "ac", 0.5, 300, tuple(range(1, 13)), False),
+    ]
     assert read_loads_csv(loads_to_csv(loads)) == loads
 
 
@@ -91,16 +99,19 @@ def test_demo_load_lists_read(name):
     assert loads and all(ld.power_w > 0 for ld in loads)
 
 
-@pytest.mark.parametrize(("row", "line_field"), [
-    ("lamp,1,-5,4,dc,1,0,1-12,no", "power_w"),
-    ("lamp,1,5,25,dc,1,0,1-12,no", "hours_per_day"),
-    ("lamp,1,5,4,dc,1.5,0,1-12,no", "duty_cycle"),
-    ("lamp,1,5,4,xx,1,0,1-12,no", "ac_dc"),
-    ("lamp,1,5,4,dc,1,0,13,no", "months"),
-    ("lamp,1,5,4,dc,1,0,1-12,maybe", "critical"),
-    ("lamp,one,5,4,dc,1,0,1-12,no", "quantity"),
-    (",1,5,4,dc,1,0,1-12,no", "name"),
-])
+@pytest.mark.parametrize(
+    ("row", "line_field"),
+    [
+        ("lamp,1,-5,4,dc,1,0,1-12,no", "power_w"),
+        ("lamp,1,5,25,dc,1,0,1-12,no", "hours_per_day"),
+        ("lamp,1,5,4,dc,1.5,0,1-12,no", "duty_cycle"),
+        ("lamp,1,5,4,xx,1,0,1-12,no", "ac_dc"),
+        ("lamp,1,5,4,dc,1,0,13,no", "months"),
+        ("lamp,1,5,4,dc,1,0,1-12,maybe", "critical"),
+        ("lamp,one,5,4,dc,1,0,1-12,no", "quantity"),
+        (",1,5,4,dc,1,0,1-12,no", "name"),
+    ],
+)
 def test_bad_rows_name_line_and_field(row, line_field):
     text = HEADER + "ok,1,5,4,dc,1,0,1-12,no\n" + row + "\n"
     with pytest.raises(LoadListError) as exc:

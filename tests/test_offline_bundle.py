@@ -26,12 +26,18 @@ def test_bundle_for_this_machine_is_one_pip_wheel_of_the_checkout(tmp_path, caps
 
 def test_bundle_for_another_platform_fetches_binary_wheels_only(tmp_path, capsys):
     out = tmp_path / "win"
-    assert _script().main([str(out), "--dry-run", "--platform", "win_amd64",
-                           "--python-version", "3.12"]) == 0
+    assert (
+        _script().main(
+            [str(out), "--dry-run", "--platform", "win_amd64", "--python-version", "3.12"]
+        )
+        == 0
+    )
     lines = [ln for ln in capsys.readouterr().out.splitlines() if ln.startswith("+ ")]
     assert lines[0].endswith(f"-m pip wheel --no-deps --wheel-dir {out} {ROOT}")
-    assert "-m pip download --only-binary=:all: --platform win_amd64 --python-version 3.12 " \
-           f"--dest {out} -r " in lines[1]
+    assert (
+        "-m pip download --only-binary=:all: --platform win_amd64 --python-version 3.12 "
+        f"--dest {out} -r " in lines[1]
+    )
 
 
 def test_install_notes_say_how_to_install_offline():

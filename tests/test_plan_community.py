@@ -60,14 +60,18 @@ def test_one_tilt_for_the_community_unless_a_row_sets_its_own():
     from offgrid.result import ReasonBook
     from offgrid.sizing import site_geometry
 
-    text = ("climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
-            "id,count,load_list,site.tilt_deg\nA,10,primary-school,\nB,3,household-basic,"
-            "\nC,1,household-basic,35\n")
+    text = (
+        "climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
+        "id,count,load_list,site.tilt_deg\nA,10,primary-school,\nB,3,household-basic,"
+        "\nC,1,household-basic,35\n"
+    )
     inputs = prepare(read_survey(text, base_dir=load_profiles_dir()))
     lists = inputs.load_lists
     designed = design_rows(inputs, jobs=1)
-    total = sum(appliance_energy_wh(lists[name]).sum(axis=0) * n
-                for name, n in (("primary-school", 10), ("household-basic", 4)))
+    total = sum(
+        appliance_energy_wh(lists[name]).sum(axis=0) * n
+        for name, n in (("primary-school", 10), ("household-basic", 4))
+    )
     probe = prepare(read_survey(text, base_dir=load_profiles_dir())).base
     expect, _, _ = site_geometry(probe, probe.climate.inline, ReasonBook(), demand_wh_day=total)
     assert inputs.base.site.tilt_deg == expect
@@ -80,8 +84,7 @@ def test_parallel_designs_equal_serial(monkeypatch):
     text = demo_survey_path().read_text()
     lines = text.splitlines()
     head = [ln for ln in lines if not ln.startswith("KAT-1")]
-    extra = [f"X-{i},extra home,household,1,,,{60 + 7 * i},{20 + i}" + ",,,,,"
-             for i in range(60)]
+    extra = [f"X-{i},extra home,household,1,,,{60 + 7 * i},{20 + i}" + ",,,,," for i in range(60)]
     s = read_survey("\n".join(head + extra) + "\n", base_dir=load_profiles_dir())
     inputs = prepare(s)
     serial = design_rows(inputs, jobs=1)
@@ -124,16 +127,20 @@ def test_cli_demo_and_reports(tmp_path, capsys):
         assert main(["plan", "--demo", "--jobs", "1", "--report", str(target)]) == 0
         assert target.stat().st_size > 500
     capsys.readouterr()
-    assert main(["plan", "--demo", "--json", "--objective", "oversize", "--kits", "6",
-                 "--jobs", "1"]) == 0
+    assert (
+        main(["plan", "--demo", "--json", "--objective", "oversize", "--kits", "6", "--jobs", "1"])
+        == 0
+    )
     data = json.loads(capsys.readouterr().out)
     assert data["standardisation"]["objective"] == "oversize"
 
 
 def test_cli_bad_rows_exit_1_and_bad_survey_exit_2(tmp_path, capsys):
     survey = tmp_path / "village.csv"
-    survey.write_text("climate,kisanga-ridge-demo\nid,count,load_list\n"
-                      "A,2,household-basic\nB,-1,household-basic\n")
+    survey.write_text(
+        "climate,kisanga-ridge-demo\nid,count,load_list\n"
+        "A,2,household-basic\nB,-1,household-basic\n"
+    )
     assert main(["plan", str(survey), "--kits", "1", "--jobs", "1"]) == 1
     captured = capsys.readouterr()
     assert "line 4 (id B), count" in captured.out
@@ -148,9 +155,13 @@ def test_ten_thousand_rows_plan():
     """A 10,000-row survey runs (its speed is measured in benchmarks/bench_plan.py)."""
     rng = np.random.default_rng(1)
     lists = ["household-basic", "household-medium", "household-kit", "village-shop"]
-    lines = ["community,Ten thousand homes (invented)", "climate,kisanga-ridge-demo",
-             "project,kisanga-ridge-home-parts", "prices,kisanga-ridge-prices",
-             "id,count,load_list,daily_energy_wh,peak_power_w,ac_dc"]
+    lines = [
+        "community,Ten thousand homes (invented)",
+        "climate,kisanga-ridge-demo",
+        "project,kisanga-ridge-home-parts",
+        "prices,kisanga-ridge-prices",
+        "id,count,load_list,daily_energy_wh,peak_power_w,ac_dc",
+    ]
     for i in range(10_000):
         if i % 3:
             lines.append(f"H{i},1,{lists[i % 4]},,,")
@@ -166,11 +177,13 @@ def test_ten_thousand_rows_plan():
 
 
 def test_planning_imports_no_ui():
-    code = ("import sys\nfrom offgrid.plan.community import plan_file, demo_survey_path\n"
-            "from offgrid.plan.text import summary_text\n"
-            "summary_text(plan_file(demo_survey_path(), jobs=1))\n"
-            "bad = [m for m in ('textual', 'rich') if m in sys.modules]\n"
-            "assert not bad, bad\n")
+    code = (
+        "import sys\nfrom offgrid.plan.community import plan_file, demo_survey_path\n"
+        "from offgrid.plan.text import summary_text\n"
+        "summary_text(plan_file(demo_survey_path(), jobs=1))\n"
+        "bad = [m for m in ('textual', 'rich') if m in sys.modules]\n"
+        "assert not bad, bad\n"
+    )
     subprocess.run([sys.executable, "-c", code], check=True)
 
 
@@ -198,8 +211,10 @@ def test_energy_step_rounds_up_within_the_step():
 
 
 def test_near_equal_surveys_share_a_design_unless_the_step_is_zero():
-    text = ("climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
-            "id,count,daily_energy_wh,peak_power_w\nA,1,200,40\nB,1,200.5,40.1\nC,1,260,40\n")
+    text = (
+        "climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
+        "id,count,daily_energy_wh,peak_power_w\nA,1,200,40\nB,1,200.5,40.1\nC,1,260,40\n"
+    )
     s = read_survey(text, base_dir=load_profiles_dir())
     assert design_rows(prepare(s), jobs=1).distinct == 2
     assert design_rows(prepare(s, energy_step_pct=0.0), jobs=1).distinct == 3

@@ -32,28 +32,59 @@ PRICES = read_prices_csv(
     "controller_mppt,per_a,6,USD,\n"
     "inverter,per_w,0.3,USD,\n"
     "system_fixed,each,40,USD,\n"
-    "one_off,each,300,USD,\n", "test prices")
+    "one_off,each,300,USD,\n",
+    "test prices",
+)
 PRICES_NO_OWN = read_prices_csv(
     "item,basis,unit_price,currency\nmodule,per_w,0.5,USD\nbattery,per_kwh,200,USD\n"
-    "controller_pwm,per_a,2,USD\ninverter,per_w,0.3,USD\n", "test prices")
+    "controller_pwm,per_a,2,USD\ninverter,per_w,0.3,USD\n",
+    "test prices",
+)
 
 
-def row(strings: int, parallel: int, inverter_w: float = 0.0, req_w: float | None = None,
-        req_wh: float | None = None, family: str = "f", voltage: int = 12) -> RowDesign:
+def row(
+    strings: int,
+    parallel: int,
+    inverter_w: float = 0.0,
+    req_w: float | None = None,
+    req_wh: float | None = None,
+    family: str = "f",
+    voltage: int = 12,
+) -> RowDesign:
     """A synthetic 12 V PWM row design: ``strings`` x 50 W modules, ``parallel`` x 640 Wh."""
     req_w = strings * 50.0 - 10.0 if req_w is None else req_w
     req_wh = parallel * 640.0 - 100.0 if req_wh is None else req_wh
     return RowDesign(
-        family=(family, voltage), family_label=f"{voltage} V PWM test family {family}",
-        system_voltage_v=voltage, controller_type="pwm", module_name="test 50 W",
-        module_pmax_w=50.0, modules_series=1, modules_parallel=strings, module_count=strings,
-        array_power_w=strings * 50.0, required_power_w=req_w, battery_name="test 12.8 V 50 Ah",
-        battery_chemistry="lifepo4", battery_unit_v=12.8, battery_unit_ah=50.0, units_series=1,
-        units_parallel=parallel, unit_count=parallel, required_wh=req_wh,
-        nominal_wh=parallel * 640.0, controller_current_a=float(10 * math.ceil(strings / 3)),
-        controller_count=1, inverter_w=inverter_w, inverter_surge_w=2 * inverter_w,
-        design_energy_wh=100.0 * strings, appliance_energy_wh=90.0 * strings,
-        peak_capacity_w=inverter_w + 20.0, design_month=6, warnings=())
+        family=(family, voltage),
+        family_label=f"{voltage} V PWM test family {family}",
+        system_voltage_v=voltage,
+        controller_type="pwm",
+        module_name="test 50 W",
+        module_pmax_w=50.0,
+        modules_series=1,
+        modules_parallel=strings,
+        module_count=strings,
+        array_power_w=strings * 50.0,
+        required_power_w=req_w,
+        battery_name="test 12.8 V 50 Ah",
+        battery_chemistry="lifepo4",
+        battery_unit_v=12.8,
+        battery_unit_ah=50.0,
+        units_series=1,
+        units_parallel=parallel,
+        unit_count=parallel,
+        required_wh=req_wh,
+        nominal_wh=parallel * 640.0,
+        controller_current_a=float(10 * math.ceil(strings / 3)),
+        controller_count=1,
+        inverter_w=inverter_w,
+        inverter_surge_w=2 * inverter_w,
+        design_energy_wh=100.0 * strings,
+        appliance_energy_wh=90.0 * strings,
+        peak_capacity_w=inverter_w + 20.0,
+        design_month=6,
+        warnings=(),
+    )
 
 
 def kit_of(rows: list[RowDesign]) -> KitParts:
@@ -63,8 +94,25 @@ def kit_of(rows: list[RowDesign]) -> KitParts:
     p = max(r.units_parallel for r in rows)
     w = max(r.inverter_w for r in rows)
     ctrl = max(r.controller_current_a for r in rows if r.modules_parallel == s)
-    return KitParts(t.family_label, t.system_voltage_v, "pwm", t.module_name, 50.0, 1, s,
-                    t.battery_name, "lifepo4", 12.8, 50.0, 1, p, ctrl, 1, w, 2 * w)
+    return KitParts(
+        t.family_label,
+        t.system_voltage_v,
+        "pwm",
+        t.module_name,
+        50.0,
+        1,
+        s,
+        t.battery_name,
+        "lifepo4",
+        12.8,
+        50.0,
+        1,
+        p,
+        ctrl,
+        1,
+        w,
+        2 * w,
+    )
 
 
 def set_partitions(items: list[int]):
@@ -76,7 +124,7 @@ def set_partitions(items: list[int]):
     for part in set_partitions(rest):
         yield [[first], *part]
         for i in range(len(part)):
-            yield [*part[:i], [first, *part[i]], *part[i + 1:]]
+            yield [*part[:i], [first, *part[i]], *part[i + 1 :]]
 
 
 def brute_cost(cands: list[Candidate], k: int, one_off: float | None, prices=PRICES) -> float:
@@ -85,21 +133,28 @@ def brute_cost(cands: list[Candidate], k: int, one_off: float | None, prices=PRI
     idx = list(range(len(cands)))
     own = {i: parts_cost(prices, kit_of([cands[i].design])) for i in idx}
     best = math.inf
-    own_sets = ([()] if one_off is None else
-                [c for r in range(len(idx) + 1) for c in itertools.combinations(idx, r)])
+    own_sets = (
+        [()]
+        if one_off is None
+        else [c for r in range(len(idx) + 1) for c in itertools.combinations(idx, r)]
+    )
     for own_set in own_sets:
         rest = [i for i in idx if i not in own_set]
         base = sum((own[i] + (one_off or 0.0)) * cands[i].count for i in own_set)
         for part in set_partitions(rest):
             if len(part) > k:
                 continue
-            total = base + sum(parts_cost(prices, kit_of([cands[i].design for i in block]))
-                               * sum(cands[i].count for i in block) for block in part)
+            total = base + sum(
+                parts_cost(prices, kit_of([cands[i].design for i in block]))
+                * sum(cands[i].count for i in block)
+                for block in part
+            )
             best = min(best, total)
     return best
 
 
 # ----------------------------------------------------------------- the recursion itself
+
 
 def test_interval_partition_matches_enumeration_of_all_cut_points():
     """Exactness of the recursion: every way of cutting n items into at most k consecutive
@@ -124,7 +179,8 @@ def test_interval_partition_matches_enumeration_of_all_cut_points():
                         cost = sum(g[a, b - 1] for a, b in itertools.pairwise(edges))
                         best = min(best, cost + tail)
             assert sol.best[k] == pytest.approx(best, rel=1e-12) or (
-                math.isinf(best) and math.isinf(sol.best[k]))
+                math.isinf(best) and math.isinf(sol.best[k])
+            )
             if math.isfinite(best):
                 groups, cut = sol.groups(k)
                 cost = sum(g[a, b - 1] for a, b in groups) + float(np.sum(fac[cut:]))
@@ -138,6 +194,7 @@ def test_interval_partition_rejects_negative_sizes():
 
 
 # ----------------------------------------------------------------- kits vs brute force
+
 
 def _proportional(rng, n: int) -> list[Candidate]:
     """Rows whose strings, battery strings and inverter all grow with one size figure."""
@@ -169,8 +226,10 @@ def test_own_systems_for_the_largest_rows_vs_brute_force(seed):
     rng = np.random.default_rng(100 + seed)
     n = int(rng.integers(2, 6))
     sizes = np.sort(rng.integers(1, 12, size=n))
-    cands = [Candidate(i, row(int(s), int(s)), 1 if s > 8 else int(rng.integers(5, 30)))
-             for i, s in enumerate(sizes)]
+    cands = [
+        Candidate(i, row(int(s), int(s)), 1 if s > 8 else int(rng.integers(5, 30)))
+        for i, s in enumerate(sizes)
+    ]
     for k in (1, 2):
         got = standardise(cands, k=k, prices=PRICES)
         brute = brute_cost(cands, k, 300.0)
@@ -184,8 +243,12 @@ def test_two_dimensional_needs_bounded_by_exhaustive_search():
     gaps = []
     for _ in range(25):
         n = int(rng.integers(2, 7))
-        cands = [Candidate(i, row(int(rng.integers(1, 7)), int(rng.integers(1, 7))),
-                           int(rng.integers(1, 15))) for i in range(n)]
+        cands = [
+            Candidate(
+                i, row(int(rng.integers(1, 7)), int(rng.integers(1, 7))), int(rng.integers(1, 15))
+            )
+            for i in range(n)
+        ]
         for k in (1, 2, 3):
             got = standardise(cands, k=k, prices=PRICES_NO_OWN).objective_value
             brute = brute_cost(cands, k, None, PRICES_NO_OWN)
@@ -207,31 +270,59 @@ def test_oversize_objective_vs_brute_force():
         cands = []
         for i in range(n):
             s = int(rng.integers(1, 8))
-            cands.append(Candidate(i, row(s, s, req_w=s * 50 * rng.uniform(0.5, 1.0),
-                                          req_wh=s * 640 * rng.uniform(0.5, 1.0)),
-                                   int(rng.integers(1, 10))))
+            cands.append(
+                Candidate(
+                    i,
+                    row(
+                        s,
+                        s,
+                        req_w=s * 50 * rng.uniform(0.5, 1.0),
+                        req_wh=s * 640 * rng.uniform(0.5, 1.0),
+                    ),
+                    int(rng.integers(1, 10)),
+                )
+            )
 
         def over(block, cands=cands):
             kit = kit_of([cands[i].design for i in block])
-            return sum(cands[i].count * ((kit.array_power_w / cands[i].design.required_power_w
-                                          + kit.nominal_wh / cands[i].design.required_wh) / 2
-                                         - 1.0) for i in block)
+            return sum(
+                cands[i].count
+                * (
+                    (
+                        kit.array_power_w / cands[i].design.required_power_w
+                        + kit.nominal_wh / cands[i].design.required_wh
+                    )
+                    / 2
+                    - 1.0
+                )
+                for i in block
+            )
 
         for k in (1, 2):
-            brute = min(sum(over(b) for b in part) for part in set_partitions(list(range(n)))
-                        if len(part) <= k)
+            brute = min(
+                sum(over(b) for b in part)
+                for part in set_partitions(list(range(n)))
+                if len(part) <= k
+            )
             got = standardise(cands, k=k, objective="oversize")
             assert got.objective_value == pytest.approx(brute, rel=1e-9)
-            total = sum(cands[a.index].count * (a.oversize_array_pct + a.oversize_battery_pct)
-                        / 200.0 for a in got.assignments)
+            total = sum(
+                cands[a.index].count * (a.oversize_array_pct + a.oversize_battery_pct) / 200.0
+                for a in got.assignments
+            )
             assert total == pytest.approx(got.objective_value, rel=1e-9)
 
 
 def test_every_kit_meets_each_assigned_row():
     rng = np.random.default_rng(5)
-    cands = [Candidate(i, row(int(rng.integers(1, 9)), int(rng.integers(1, 9)),
-                              float(rng.choice([0, 150, 300]))), int(rng.integers(1, 9)))
-             for i in range(30)]
+    cands = [
+        Candidate(
+            i,
+            row(int(rng.integers(1, 9)), int(rng.integers(1, 9)), float(rng.choice([0, 150, 300]))),
+            int(rng.integers(1, 9)),
+        )
+        for i in range(30)
+    ]
     got = standardise(cands, k=4, prices=PRICES)
     kits = {k.name: k.parts for k in got.kits}
     assert len(got.kits) <= 4
@@ -248,8 +339,8 @@ def test_every_kit_meets_each_assigned_row():
         assert parts.nominal_wh >= d.required_wh
         assert a.oversize_array_pct >= 0 and a.oversize_battery_pct >= 0
     assert sum(k.systems for k in got.kits) + sum(
-        cands[a.index].count for a in got.assignments if a.own_system) == sum(
-        c.count for c in cands)
+        cands[a.index].count for a in got.assignments if a.own_system
+    ) == sum(c.count for c in cands)
 
 
 def test_kit_type_cost_picks_the_best_number_of_kits():
@@ -260,21 +351,24 @@ def test_kit_type_cost_picks_the_best_number_of_kits():
         got = standardise(cands, kit_type_cost=lam, prices=PRICES_NO_OWN, k_max=8)
         best = min(v + lam * k for k, v in curve)
         assert got.objective_value == pytest.approx(best)
-        assert got.objective_value == pytest.approx(
-            got.parts_cost + lam * len(got.kits))
+        assert got.objective_value == pytest.approx(got.parts_cost + lam * len(got.kits))
 
 
 def test_more_kit_types_never_cost_more():
     rng = np.random.default_rng(2)
-    cands = [Candidate(i, row(int(rng.integers(1, 9)), int(rng.integers(1, 9))), 3)
-             for i in range(12)]
+    cands = [
+        Candidate(i, row(int(rng.integers(1, 9)), int(rng.integers(1, 9))), 3) for i in range(12)
+    ]
     values = [v for _, v in standardise(cands, k=6, prices=PRICES).curve]
     assert all(b <= a + 1e-9 for a, b in itertools.pairwise(values))
 
 
 def test_families_do_not_share_kits_and_share_the_k_budget():
-    cands = [Candidate(0, row(2, 2, family="a")), Candidate(1, row(3, 3, family="a")),
-             Candidate(2, row(2, 2, family="b", voltage=24))]
+    cands = [
+        Candidate(0, row(2, 2, family="a")),
+        Candidate(1, row(3, 3, family="a")),
+        Candidate(2, row(2, 2, family="b", voltage=24)),
+    ]
     got = standardise(cands, k=2, prices=PRICES_NO_OWN)
     assert len(got.kits) == 2 and got.families == 2
     for kit in got.kits:
@@ -285,8 +379,12 @@ def test_families_do_not_share_kits_and_share_the_k_budget():
 
 
 def test_survey_kit_flags_are_obeyed():
-    cands = [Candidate(0, row(1, 1), 50), Candidate(1, row(2, 2), 40),
-             Candidate(2, row(8, 8), 1, kit="no"), Candidate(3, row(12, 12), 1, kit="yes")]
+    cands = [
+        Candidate(0, row(1, 1), 50),
+        Candidate(1, row(2, 2), 40),
+        Candidate(2, row(8, 8), 1, kit="no"),
+        Candidate(3, row(12, 12), 1, kit="yes"),
+    ]
     got = standardise(cands, k=2, prices=PRICES)
     by = {a.index: a for a in got.assignments}
     assert by[2].own_system and "kit = no" in by[2].reason

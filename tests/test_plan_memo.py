@@ -14,13 +14,17 @@ from offgrid.plan.survey import read_survey
 from offgrid.pv import fit_module, module_mpp
 from offgrid.sizing import design
 
-HEAD = ("community,Memo check (invented)\nclimate,kisanga-ridge-demo\n"
-        "project,kisanga-ridge-home-parts\nid,count,daily_energy_wh,peak_power_w,ac_dc\n")
+HEAD = (
+    "community,Memo check (invented)\nclimate,kisanga-ridge-demo\n"
+    "project,kisanga-ridge-home-parts\nid,count,daily_energy_wh,peak_power_w,ac_dc\n"
+)
 
 
 def _inputs(n: int):
-    rows = "".join(f"R{i},1,{40 + 37.3 * i:.1f},{12 + 5.1 * i:.1f},{'ac' if i % 3 else 'dc'}\n"
-                   for i in range(n))
+    rows = "".join(
+        f"R{i},1,{40 + 37.3 * i:.1f},{12 + 5.1 * i:.1f},{'ac' if i % 3 else 'dc'}\n"
+        for i in range(n)
+    )
     inputs = prepare(read_survey(HEAD + rows, base_dir=load_profiles_dir()))
     community_tilt(inputs)
     return inputs

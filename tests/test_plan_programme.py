@@ -34,10 +34,12 @@ sys.path.insert(0, str(Path(__file__).parent))
 from test_plan_kits import brute_cost
 
 COMMUNITIES = load_profiles_dir() / "communities"
-PRICES_NO_OWN = ("item,basis,unit_price,currency,note\nmodule,per_w,0.42,USD,invented\n"
-                 "battery_lifepo4,per_kwh,330,USD,\nbattery,per_kwh,210,USD,\n"
-                 "controller_pwm,per_a,1.6,USD,\ncontroller_mppt,per_a,6.5,USD,\n"
-                 "inverter,per_w,0.35,USD,\nsystem_fixed,each,45,USD,\n")
+PRICES_NO_OWN = (
+    "item,basis,unit_price,currency,note\nmodule,per_w,0.42,USD,invented\n"
+    "battery_lifepo4,per_kwh,330,USD,\nbattery,per_kwh,210,USD,\n"
+    "controller_pwm,per_a,1.6,USD,\ncontroller_mppt,per_a,6.5,USD,\n"
+    "inverter,per_w,0.35,USD,\nsystem_fixed,each,45,USD,\n"
+)
 
 
 @pytest.fixture(scope="module")
@@ -74,15 +76,19 @@ def test_a_kit_serves_its_worst_household_in_any_village(demo):
     assert any(len(v) > 1 for v in villages_of_kit.values())  # kits are shared
 
 
-def _write_alone(tmp: Path, vid: str, src: Path, lat: float, lon: float, elev: float,
-                 climate: str) -> Path:
+def _write_alone(
+    tmp: Path, vid: str, src: Path, lat: float, lon: float, elev: float, climate: str
+) -> Path:
     """The village's survey planned on its own: the programme's site as settings rows."""
     lines = src.read_text(encoding="utf-8").splitlines()
     out, done = [], False
     for line in lines:
         if not done and line.lower().startswith("id,"):
-            out += [f"site.latitude_deg,{lat}", f"site.longitude_deg,{lon}",
-                    f"site.elevation_m,{elev}"]
+            out += [
+                f"site.latitude_deg,{lat}",
+                f"site.longitude_deg,{lon}",
+                f"site.elevation_m,{elev}",
+            ]
             done = True
         if line.lower().startswith("climate,"):
             line = f"climate,{climate}"
@@ -95,10 +101,15 @@ def _write_alone(tmp: Path, vid: str, src: Path, lat: float, lon: float, elev: f
 def test_kits_per_village_equal_the_villages_planned_one_by_one(tmp_path):
     for name in ("kisanga-ridge-community.csv",):
         shutil.copy(COMMUNITIES / name, tmp_path / name)
-    sites = {"V1": (-3.4, 36.9, 1450, "kisanga-ridge-demo"),
-             "V2": (14.2, 1.6, 280, "dalli-wells-demo")}
-    rows = ["programme,two villages (invented)", "prices,kisanga-ridge-prices",
-            "id,name,latitude_deg,longitude_deg,elevation_m,climate,survey"]
+    sites = {
+        "V1": (-3.4, 36.9, 1450, "kisanga-ridge-demo"),
+        "V2": (14.2, 1.6, 280, "dalli-wells-demo"),
+    }
+    rows = [
+        "programme,two villages (invented)",
+        "prices,kisanga-ridge-prices",
+        "id,name,latitude_deg,longitude_deg,elevation_m,climate,survey",
+    ]
     for vid, (lat, lon, elev, clim) in sites.items():
         rows.append(f"{vid},{vid},{lat},{lon},{elev},{clim},kisanga-ridge-community.csv")
     (tmp_path / "prog.csv").write_text("\n".join(rows) + "\n", encoding="utf-8")
@@ -106,37 +117,62 @@ def test_kits_per_village_equal_the_villages_planned_one_by_one(tmp_path):
     assert not prog.left_out
     for v in prog.villages:
         lat, lon, elev, clim = sites[v.id]
-        alone = plan_community(load_survey(_write_alone(
-            tmp_path, v.id, tmp_path / "kisanga-ridge-community.csv", lat, lon, elev, clim)),
-            jobs=1)
+        alone = plan_community(
+            load_survey(
+                _write_alone(
+                    tmp_path, v.id, tmp_path / "kisanga-ridge-community.csv", lat, lon, elev, clim
+                )
+            ),
+            jobs=1,
+        )
         assert alone.tilt_deg == pytest.approx(v.tilt_deg)
         kits_alone = sorted(((k.parts, k.systems) for k in alone.standard.kits), key=repr)
-        kits_prog = sorted(((k.parts, v.kit_counts[k.name])
-                            for _, s in prog.standards for k in s.kits
-                            if k.name.startswith(f"{v.id}-")), key=repr)
+        kits_prog = sorted(
+            (
+                (k.parts, v.kit_counts[k.name])
+                for _, s in prog.standards
+                for k in s.kits
+                if k.name.startswith(f"{v.id}-")
+            ),
+            key=repr,
+        )
         assert kits_prog == kits_alone
         own_alone = {r.id for r in alone.rows if r.status == "own system"}
         assert set(v.own_rows) == own_alone
         assert v.totals.total_cost + 1200.0 * len(kits_alone) == pytest.approx(
-            alone.totals.total_cost, rel=1e-9)
+            alone.totals.total_cost, rel=1e-9
+        )
     # and the two climates really differ: not the same kits
-    a, b = (sorted((k.parts for _, s in prog.standards for k in s.kits
-                    if k.name.startswith(f"{vid}-")), key=repr) for vid in sites)
+    a, b = (
+        sorted(
+            (k.parts for _, s in prog.standards for k in s.kits if k.name.startswith(f"{vid}-")),
+            key=repr,
+        )
+        for vid in sites
+    )
     assert a != b
 
 
 def _small(tmp_path: Path, kits_line: str = "") -> Path:
     (tmp_path / "prices.csv").write_text(PRICES_NO_OWN, encoding="utf-8")
-    survey = ["community,small (invented)", "project,kisanga-ridge-home-parts",
-              "id,village,count,daily_energy_wh,peak_power_w"]
+    survey = [
+        "community,small (invented)",
+        "project,kisanga-ridge-home-parts",
+        "id,village,count,daily_energy_wh,peak_power_w",
+    ]
     for vid, energies in (("A", (60, 150, 260)), ("B", (90, 200, 330))):
         for i, e in enumerate(energies):
             survey.append(f"{vid}{i},{vid},{2 + i},{e},{e / 5:g}")
     (tmp_path / "survey.csv").write_text("\n".join(survey) + "\n", encoding="utf-8")
-    prog = ["programme,small (invented)", "prices,prices.csv", "survey,survey.csv",
-            "id,latitude_deg,longitude_deg,elevation_m,climate",
-            "A,-3.4,36.9,1450,kisanga-ridge-demo", "B,-16.2,-68.6,3850,pampa-alta-demo",
-            kits_line]
+    prog = [
+        "programme,small (invented)",
+        "prices,prices.csv",
+        "survey,survey.csv",
+        "id,latitude_deg,longitude_deg,elevation_m,climate",
+        "A,-3.4,36.9,1450,kisanga-ridge-demo",
+        "B,-16.2,-68.6,3850,pampa-alta-demo",
+        kits_line,
+    ]
     (tmp_path / "prog.csv").write_text("\n".join(prog) + "\n", encoding="utf-8")
     return tmp_path / "prog.csv"
 
@@ -146,9 +182,10 @@ def test_programme_kit_choice_equals_brute_force(tmp_path, k):
     plan = plan_programme_file(_small(tmp_path), jobs=1, kits=k)
     cands = list(plan.candidates)
     assert len(cands) == 6 and {d.design.family for d in cands} == {cands[0].design.family}
-    (_, st), = plan.standards
-    assert st.objective_value == pytest.approx(brute_cost(cands, k, None, plan_prices(plan)),
-                                               rel=1e-9)
+    ((_, st),) = plan.standards
+    assert st.objective_value == pytest.approx(
+        brute_cost(cands, k, None, plan_prices(plan)), rel=1e-9
+    )
 
 
 def plan_prices(plan):
@@ -165,13 +202,16 @@ def test_totals_add_up_by_hand(tmp_path):
         assert v.own_systems == 0
         assert v.modules == sum(n * kits[name].module_count for name, n in v.kit_counts.items())
         assert v.systems == {"A": 2 + 3 + 4, "B": 2 + 3 + 4}[v.id]
-    total_modules = sum(ln.quantity for ln in plan.totals.lines if ln.category == "PV modules"
-                        or ln.label.startswith("PV module"))
+    total_modules = sum(
+        ln.quantity
+        for ln in plan.totals.lines
+        if ln.category == "PV modules" or ln.label.startswith("PV module")
+    )
     assert total_modules == sum(v.modules for v in plan.villages)
-    assert plan.totals.total_cost == pytest.approx(sum(v.totals.total_cost
-                                                       for v in plan.villages))
-    assert plan.totals.total_cost == pytest.approx(sum(ln.cost for ln in plan.totals.lines
-                                                          if ln.cost is not None))
+    assert plan.totals.total_cost == pytest.approx(sum(v.totals.total_cost for v in plan.villages))
+    assert plan.totals.total_cost == pytest.approx(
+        sum(ln.cost for ln in plan.totals.lines if ln.cost is not None)
+    )
     assert sum(plan.kit_counts.values()) == 18 == plan.systems
 
 
@@ -181,18 +221,28 @@ def test_bad_input_named_with_file_line_and_fix(tmp_path):
         "demo = true\nlatitude_deg = 10.0\nlongitude_deg = 0.0\n[monthly]\n"
         "insolation_kwh_m2_day = [15.0, 15, 15, 15, 15, 15, 15, 15, 15, 15, 15, 15]\n"
         "temp_mean_c = [25.0, 25, 25, 25, 25, 25, 25, 25, 25, 25, 25, 25]\n",
-        encoding="utf-8")
-    survey = ["community,bad (invented)", "project,kisanga-ridge-home-parts",
-              "id,village,count,load_list", "H1,OK,3,household-basic", "H2,NOPE,2,household-basic",
-              "H3,NOCLIM,1,household-basic", "H4,HOT,1,household-basic"]
+        encoding="utf-8",
+    )
+    survey = [
+        "community,bad (invented)",
+        "project,kisanga-ridge-home-parts",
+        "id,village,count,load_list",
+        "H1,OK,3,household-basic",
+        "H2,NOPE,2,household-basic",
+        "H3,NOCLIM,1,household-basic",
+        "H4,HOT,1,household-basic",
+    ]
     (tmp_path / "survey.csv").write_text("\n".join(survey) + "\n", encoding="utf-8")
-    prog = ["programme,bad (invented)", "survey,survey.csv",
-            "id,latitude_deg,longitude_deg,climate",
-            "OK,-3.4,36.9,kisanga-ridge-demo",       # line 4
-            "NOCOORD,,36.9,kisanga-ridge-demo",      # line 5
-            "NOCLIM,-3.4,36.9,",                     # line 6
-            "OK,-3.0,36.0,kisanga-ridge-demo",       # line 7: duplicate id
-            "HOT,10.0,0.0,hot.toml"]                 # line 8: climate fails its checks
+    prog = [
+        "programme,bad (invented)",
+        "survey,survey.csv",
+        "id,latitude_deg,longitude_deg,climate",
+        "OK,-3.4,36.9,kisanga-ridge-demo",  # line 4
+        "NOCOORD,,36.9,kisanga-ridge-demo",  # line 5
+        "NOCLIM,-3.4,36.9,",  # line 6
+        "OK,-3.0,36.0,kisanga-ridge-demo",  # line 7: duplicate id
+        "HOT,10.0,0.0,hot.toml",
+    ]  # line 8: climate fails its checks
     (tmp_path / "prog.csv").write_text("\n".join(prog) + "\n", encoding="utf-8")
     plan = plan_programme_file(tmp_path / "prog.csv", jobs=1)
     assert [v.id for v in plan.villages] == ["OK"] and plan.villages[0].systems == 3
@@ -224,8 +274,7 @@ def test_cli_plans_a_programme_with_json_and_report(tmp_path, capsys):
     assert is_programme_file(demo_programme_path())
     assert not is_programme_file(COMMUNITIES / "kisanga-ridge-community.csv")
     report = tmp_path / "prog.md"
-    assert main(["plan", str(demo_programme_path()), "--kits", "4", "--report",
-                 str(report)]) == 0
+    assert main(["plan", str(demo_programme_path()), "--kits", "4", "--report", str(report)]) == 0
     out = capsys.readouterr().out
     assert "Villages" in out and "Procurement totals" in out
     # every line fits 80 columns but one naming a file path (a temporary folder can be long)
@@ -236,8 +285,10 @@ def test_cli_plans_a_programme_with_json_and_report(tmp_path, capsys):
     data = json.loads(capsys.readouterr().out)
     assert data["format"] == "offgrid-programme-plan" and data["kit_scope"] == "zone"
     assert {k["scope"] for k in data["kits"]} == {"highland", "lowland"}
-    assert sum(data["kit_counts"].values()) + sum(v["own_systems"] for v in
-                                                  data["villages"]) == data["systems"]
+    assert (
+        sum(data["kit_counts"].values()) + sum(v["own_systems"] for v in data["villages"])
+        == data["systems"]
+    )
     csv_path = tmp_path / "rows.csv"
     assert main(["plan", "--demo-programme", "--report", str(csv_path)]) == 0
     assert csv_path.read_text(encoding="utf-8").count("\n") == 1 + 35

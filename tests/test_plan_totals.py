@@ -25,8 +25,11 @@ def test_line_quantities_are_sums_over_kits_and_own_systems(plan):
     for src in t.sources:
         for cat, desc, n in src.per_system:
             expect[(cat, desc)] = expect.get((cat, desc), 0) + n * src.systems
-    got = {(line.category, line.description): line.quantity for line in t.lines
-           if line.category not in ("Design", "Kit types")}
+    got = {
+        (line.category, line.description): line.quantity
+        for line in t.lines
+        if line.category not in ("Design", "Kit types")
+    }
     assert got.keys() == expect.keys()
     for key, q in got.items():
         if key[0] == "Cable":  # whole metres to buy
@@ -58,11 +61,15 @@ def test_costs_add_up(plan):
     one_off = 400.0  # kisanga-ridge-prices.csv
     circuits = sum(line.cost for line in t.lines if line.category in ("Cable", "Protection"))
     assert circuits > 0
-    assert s.objective_value == pytest.approx(systems + one_off * own
-                                              + s.kit_type_cost * len(s.kits))
+    assert s.objective_value == pytest.approx(
+        systems + one_off * own + s.kit_type_cost * len(s.kits)
+    )
     assert t.total_cost == pytest.approx(s.objective_value + circuits)
-    assert t.systems == plan.systems == sum(r.count for r in plan.rows
-                                            if r.status in ("kit", "own system"))
+    assert (
+        t.systems
+        == plan.systems
+        == sum(r.count for r in plan.rows if r.status in ("kit", "own system"))
+    )
 
 
 def test_kit_unit_cost_is_the_sum_of_its_parts(plan):
@@ -71,8 +78,11 @@ def test_kit_unit_cost_is_the_sum_of_its_parts(plan):
     for src in t.sources:
         if src.unit_cost is None:  # the homes' own load circuits
             continue
-        total = sum(unit[(cat, desc)] * n for cat, desc, n in src.per_system
-                    if cat not in ("Cable", "Protection"))
+        total = sum(
+            unit[(cat, desc)] * n
+            for cat, desc, n in src.per_system
+            if cat not in ("Cable", "Protection")
+        )
         assert total == pytest.approx(src.unit_cost)
 
 
@@ -95,19 +105,22 @@ def test_cables_and_protection_come_from_the_electrical_design(plan):
             expect[k] = expect.get(k, 0.0) + 2 * w.length_m * w.count
     assert cable == pytest.approx(expect)
     fuses = sum(n for cat, _, n in src.per_system if cat == "Protection")
-    assert fuses == sum(v.count for v in d.electrical.protection.devices
-                        if not v.location.startswith("DC load"))
+    assert fuses == sum(
+        v.count for v in d.electrical.protection.devices if not v.location.startswith("DC load")
+    )
 
 
 def test_price_list_errors_name_the_line():
     with pytest.raises(PriceListError, match="line 2: unknown item 'panel'"):
         read_prices_csv("item,basis,unit_price,currency\npanel,per_w,1,USD\n")
     with pytest.raises(PriceListError, match="line 3: module is priced per_w or each"):
-        read_prices_csv("item,basis,unit_price,currency\nbattery,per_kwh,1,USD\n"
-                        "module,per_kwh,1,USD\n")
+        read_prices_csv(
+            "item,basis,unit_price,currency\nbattery,per_kwh,1,USD\nmodule,per_kwh,1,USD\n"
+        )
     with pytest.raises(PriceListError, match="more than one currency"):
-        read_prices_csv("item,basis,unit_price,currency\nmodule,per_w,1,USD\n"
-                        "battery,per_kwh,1,EUR\n")
+        read_prices_csv(
+            "item,basis,unit_price,currency\nmodule,per_w,1,USD\nbattery,per_kwh,1,EUR\n"
+        )
     with pytest.raises(PriceListError, match="0 or more"):
         read_prices_csv("item,basis,unit_price,currency\nmodule,per_w,-1,USD\n")
     with pytest.raises(PriceListError, match="missing column"):
@@ -121,24 +134,34 @@ def test_the_reports_per_part_price_list_is_read_too(tmp_path):
     from offgrid.plan.survey import read_survey
 
     prices = tmp_path / "parts.csv"
-    prices.write_text("part,unit_price,note\n"
-                      "module:Generic 36-cell 50 W (demo datasheet),30,invented test price\n"
-                      "battery,250,\ncontroller:PWM,20,\ncontroller,60,\ninverter,90,\n"
-                      "cable,0.5,\nfuse,3,\nfuse-or-breaker,9,\ndisconnect,12,\n")
-    text = ("climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
-            f"prices,{prices}\nid,count,load_list\nA,20,household-basic\nB,5,household-kit\n")
+    prices.write_text(
+        "part,unit_price,note\n"
+        "module:Generic 36-cell 50 W (demo datasheet),30,invented test price\n"
+        "battery,250,\ncontroller:PWM,20,\ncontroller,60,\ninverter,90,\n"
+        "cable,0.5,\nfuse,3,\nfuse-or-breaker,9,\ndisconnect,12,\n"
+    )
+    text = (
+        "climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"
+        f"prices,{prices}\nid,count,load_list\nA,20,household-basic\nB,5,household-kit\n"
+    )
     plan = plan_community(read_survey(text, base_dir=load_profiles_dir()), kits=2, jobs=1)
     t = plan.totals
     assert not t.unpriced
-    price = {"PV module": 30.0, "Battery unit": 250.0, "Charge controller": 20.0,
-             "Inverter": 90.0, "Cable": 0.5}
+    price = {
+        "PV module": 30.0,
+        "Battery unit": 250.0,
+        "Charge controller": 20.0,
+        "Inverter": 90.0,
+        "Cable": 0.5,
+    }
     for line in t.lines:
         if line.category in price:
             assert line.unit_price == price[line.category]
         elif line.category == "Protection":
-            assert line.unit_price == {"fuse": 3.0, "fuse or breaker": 9.0,
-                                       "DC disconnect": 12.0}[line.label.rsplit(" ", 2)[0]
-                                                              if "A" in line.label
-                                                              else line.label]
-    assert t.total_cost == pytest.approx(sum(line.quantity * line.unit_price
-                                             for line in t.lines))
+            assert (
+                line.unit_price
+                == {"fuse": 3.0, "fuse or breaker": 9.0, "DC disconnect": 12.0}[
+                    line.label.rsplit(" ", 2)[0] if "A" in line.label else line.label
+                ]
+            )
+    assert t.total_cost == pytest.approx(sum(line.quantity * line.unit_price for line in t.lines))

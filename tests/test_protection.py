@@ -9,8 +9,38 @@ from offgrid import strings as st
 from offgrid.result import DesignError
 
 # NEC 2023 Table 240.6(A) (REFERENCES.md, V).
-NEC_240_6 = (10, 15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200,
-             225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000)
+NEC_240_6 = (
+    10,
+    15,
+    20,
+    25,
+    30,
+    35,
+    40,
+    45,
+    50,
+    60,
+    70,
+    80,
+    90,
+    100,
+    110,
+    125,
+    150,
+    175,
+    200,
+    225,
+    250,
+    300,
+    350,
+    400,
+    450,
+    500,
+    600,
+    700,
+    800,
+    1000,
+)
 
 
 def test_standard_ratings_are_nec_240_6a_2023():
@@ -18,10 +48,19 @@ def test_standard_ratings_are_nec_240_6a_2023():
     assert prot.FUSE_ONLY_RATINGS_A == (1, 3, 6, 601)
 
 
-@pytest.mark.parametrize("current, fuse, want", [
-    (31.0, True, 35), (100.1, True, 110), (1.2, True, 3), (1.2, False, 10), (5.0, True, 6),
-    (600.5, True, 601), (600.5, False, 700), (15.0, True, 15),
-])
+@pytest.mark.parametrize(
+    "current, fuse, want",
+    [
+        (31.0, True, 35),
+        (100.1, True, 110),
+        (1.2, True, 3),
+        (1.2, False, 10),
+        (5.0, True, 6),
+        (600.5, True, 601),
+        (600.5, False, 700),
+        (15.0, True, 15),
+    ],
+)
 def test_next_standard_rating(current, fuse, want):
     assert prot.standard_rating_a(current, fuse=fuse) == want
 
@@ -63,10 +102,34 @@ def test_bank_fault_current_sums_parallel_strings():
 
 
 # NEC Table 690.7(A) (REFERENCES.md, V): lowest expected ambient -> factor.
-NEC_690_7 = {24: 1.02, 20: 1.02, 19: 1.04, 15: 1.04, 14: 1.06, 10: 1.06, 9: 1.08, 5: 1.08,
-             4: 1.10, 0: 1.10, -1: 1.12, -5: 1.12, -6: 1.14, -10: 1.14, -11: 1.16, -15: 1.16,
-             -16: 1.18, -20: 1.18, -21: 1.20, -25: 1.20, -26: 1.21, -30: 1.21, -31: 1.23,
-             -35: 1.23, -36: 1.25, -40: 1.25}
+NEC_690_7 = {
+    24: 1.02,
+    20: 1.02,
+    19: 1.04,
+    15: 1.04,
+    14: 1.06,
+    10: 1.06,
+    9: 1.08,
+    5: 1.08,
+    4: 1.10,
+    0: 1.10,
+    -1: 1.12,
+    -5: 1.12,
+    -6: 1.14,
+    -10: 1.14,
+    -11: 1.16,
+    -15: 1.16,
+    -16: 1.18,
+    -20: 1.18,
+    -21: 1.20,
+    -25: 1.20,
+    -26: 1.21,
+    -30: 1.21,
+    -31: 1.23,
+    -35: 1.23,
+    -36: 1.25,
+    -40: 1.25,
+}
 
 
 @pytest.mark.parametrize("t", NEC_690_7)

@@ -19,33 +19,70 @@ from offgrid.result import DesignError
 # Invented datasheets spanning 36-cell to 72-cell (half-cut) modules.
 DATASHEETS = {
     "60-cell": ModuleSpec(),
-    "72-cell": ModuleSpec(pmax_w=330, vmp_v=37.6, imp_a=8.78, voc_v=45.9, isc_a=9.34,
-                          beta_voc_pct_per_c=-0.31, cells_in_series=72, area_m2=1.94),
-    "36-cell": ModuleSpec(pmax_w=100, vmp_v=18.0, imp_a=5.56, voc_v=22.1, isc_a=5.95,
-                          alpha_isc_pct_per_c=0.06, beta_voc_pct_per_c=-0.33,
-                          cells_in_series=36, area_m2=0.67),
-    "144-half-cut": ModuleSpec(pmax_w=550, vmp_v=41.5, imp_a=13.25, voc_v=49.5, isc_a=13.9,
-                               alpha_isc_pct_per_c=0.048, beta_voc_pct_per_c=-0.27,
-                               cells_in_series=72, area_m2=2.58),
+    "72-cell": ModuleSpec(
+        pmax_w=330,
+        vmp_v=37.6,
+        imp_a=8.78,
+        voc_v=45.9,
+        isc_a=9.34,
+        beta_voc_pct_per_c=-0.31,
+        cells_in_series=72,
+        area_m2=1.94,
+    ),
+    "36-cell": ModuleSpec(
+        pmax_w=100,
+        vmp_v=18.0,
+        imp_a=5.56,
+        voc_v=22.1,
+        isc_a=5.95,
+        alpha_isc_pct_per_c=0.06,
+        beta_voc_pct_per_c=-0.33,
+        cells_in_series=36,
+        area_m2=0.67,
+    ),
+    "144-half-cut": ModuleSpec(
+        pmax_w=550,
+        vmp_v=41.5,
+        imp_a=13.25,
+        voc_v=49.5,
+        isc_a=13.9,
+        alpha_isc_pct_per_c=0.048,
+        beta_voc_pct_per_c=-0.27,
+        cells_in_series=72,
+        area_m2=2.58,
+    ),
 }
 
 
 def _pvlib_desoto(module):
     from pvlib.ivtools.sdm import fit_desoto
 
-    p, _ = fit_desoto(module.vmp_v, module.imp_a, module.voc_v, module.isc_a,
-                      module.alpha_isc_pct_per_c / 100 * module.isc_a,
-                      module.beta_voc_pct_per_c / 100 * module.voc_v, module.cells_in_series,
-                      root_kwargs={"method": "lm"})
+    p, _ = fit_desoto(
+        module.vmp_v,
+        module.imp_a,
+        module.voc_v,
+        module.isc_a,
+        module.alpha_isc_pct_per_c / 100 * module.isc_a,
+        module.beta_voc_pct_per_c / 100 * module.voc_v,
+        module.cells_in_series,
+        root_kwargs={"method": "lm"},
+    )
     return p
 
 
 def _pvlib_params(params: pv.DiodeParams, g, t):
     from pvlib.pvsystem import calcparams_desoto
 
-    return calcparams_desoto(g, t, params.alpha_isc_a_per_c, params.modified_ideality_v,
-                             params.photocurrent_a, params.saturation_current_a,
-                             params.shunt_resistance_ohm, params.series_resistance_ohm)
+    return calcparams_desoto(
+        g,
+        t,
+        params.alpha_isc_a_per_c,
+        params.modified_ideality_v,
+        params.photocurrent_a,
+        params.saturation_current_a,
+        params.shunt_resistance_ohm,
+        params.series_resistance_ohm,
+    )
 
 
 @pytest.mark.parametrize("name", DATASHEETS)
@@ -55,8 +92,12 @@ def test_fit_reproduces_datasheet_at_stc_within_half_percent(name):
     m = DATASHEETS[name]
     p = pv.fit_module(m)
     op = pv.operating_point(p, 1000.0, 25.0, m.area_m2)
-    for got, want in ((op.vmp_v, m.vmp_v), (op.imp_a, m.imp_a), (op.voc_v, m.voc_v),
-                      (op.isc_a, m.isc_a)):
+    for got, want in (
+        (op.vmp_v, m.vmp_v),
+        (op.imp_a, m.imp_a),
+        (op.voc_v, m.voc_v),
+        (op.isc_a, m.isc_a),
+    ):
         assert got == pytest.approx(want, rel=0.005)
     assert max(abs(e) for e in p.stc_error_pct) <= 0.5
     assert p.method.startswith("De Soto")
@@ -84,8 +125,13 @@ def test_batzelis_start_matches_pvlib():
     a, b = m.alpha_isc_pct_per_c / 100 * m.isc_a, m.beta_voc_pct_per_c / 100 * m.voc_v
     ours = pv.fit_batzelis2017(m.vmp_v, m.imp_a, m.voc_v, m.isc_a, a, b)
     ref = fit_desoto_batzelis(m.vmp_v, m.imp_a, m.voc_v, m.isc_a, a, b)
-    for k, rk in (("IL", "I_L_ref"), ("I0", "I_o_ref"), ("Rs", "R_s"), ("Rsh", "R_sh_ref"),
-                  ("a", "a_ref")):
+    for k, rk in (
+        ("IL", "I_L_ref"),
+        ("I0", "I_o_ref"),
+        ("Rs", "R_s"),
+        ("Rsh", "R_sh_ref"),
+        ("a", "a_ref"),
+    ):
         assert ours[k] == pytest.approx(float(ref[rk]), rel=1e-9)
 
 
@@ -121,8 +167,9 @@ def test_key_points_match_pvlib_singlediode():
     np.testing.assert_allclose(vmp, ref["v_mp"], rtol=1e-6)
     np.testing.assert_allclose(imp, ref["i_mp"], rtol=1e-6)
     np.testing.assert_allclose(pv.open_circuit_voltage(il, i0, rsh, a), ref["v_oc"], rtol=1e-9)
-    np.testing.assert_allclose(pv.current_at_voltage(0.0, il, i0, rs, rsh, a), ref["i_sc"],
-                               rtol=1e-9)
+    np.testing.assert_allclose(
+        pv.current_at_voltage(0.0, il, i0, rs, rsh, a), ref["i_sc"], rtol=1e-9
+    )
 
 
 def test_curve_points_match_pvlib_i_from_v():
@@ -190,8 +237,9 @@ def test_the_sizing_figure_is_the_one_ross_function():
 
     project = load_project(demo_project_path())
     d = design(project, demo_project_path().parent)
-    g = energy_weighted_irradiance(np.asarray(d.site.poa_kwh_m2_day),
-                                   sky.daylight_hours(d.site.latitude_deg))
+    g = energy_weighted_irradiance(
+        np.asarray(d.site.poa_kwh_m2_day), sky.daylight_hours(d.site.latitude_deg)
+    )
     expect = pv.cell_temperature_ross(d.site.temp_day_c, g, project.module.noct_c)
     np.testing.assert_array_equal(np.asarray(d.array.cell_temp_c), expect)
 
@@ -209,16 +257,19 @@ def test_current_above_voc_is_clipped_for_harvest():
     assert float(pv.module_current(p, 45.0, 1000.0, 25.0)) == 0.0
 
 
-@pytest.mark.parametrize("change, field, words", [
-    ({"vmp_v": 41.0}, "module.vmp_v", "below Voc"),
-    ({"imp_a": 10.0, "pmax_w": 325.0}, "module.imp_a", "below Isc"),
-    ({"beta_voc_pct_per_c": 0.3}, "module.beta_voc_pct_per_c", "must be negative"),
-    ({"alpha_isc_pct_per_c": -0.05}, "module.alpha_isc_pct_per_c", "positive"),
-    ({"gamma_pmax_pct_per_c": 0.4}, "module.gamma_pmax_pct_per_c", "must be negative"),
-    ({"pmax_w": 350.0}, "module.pmax_w", "Vmp x Imp"),
-    ({"area_m2": 16300.0}, "module.area_m2", "m2, not cm2"),
-    ({"isc_a": 0.0}, "module.isc_a", "positive"),
-])
+@pytest.mark.parametrize(
+    "change, field, words",
+    [
+        ({"vmp_v": 41.0}, "module.vmp_v", "below Voc"),
+        ({"imp_a": 10.0, "pmax_w": 325.0}, "module.imp_a", "below Isc"),
+        ({"beta_voc_pct_per_c": 0.3}, "module.beta_voc_pct_per_c", "must be negative"),
+        ({"alpha_isc_pct_per_c": -0.05}, "module.alpha_isc_pct_per_c", "positive"),
+        ({"gamma_pmax_pct_per_c": 0.4}, "module.gamma_pmax_pct_per_c", "must be negative"),
+        ({"pmax_w": 350.0}, "module.pmax_w", "Vmp x Imp"),
+        ({"area_m2": 16300.0}, "module.area_m2", "m2, not cm2"),
+        ({"isc_a": 0.0}, "module.isc_a", "positive"),
+    ],
+)
 def test_bad_datasheet_is_refused_with_the_field_and_fix(change, field, words):
     m = ModuleSpec(**change)
     with pytest.raises(DesignError) as err:

@@ -16,8 +16,17 @@ from tests.conftest import hand_project
 def _pwm_project(ctype: str, dc_w: float):
     p = hand_project()
     p.controller.type = ctype
-    p.module = replace(p.module, name="36-cell", pmax_w=100.0, vmp_v=18.0, imp_a=5.56,
-                       voc_v=22.0, isc_a=5.9, cells_in_series=36, area_m2=0.67)
+    p.module = replace(
+        p.module,
+        name="36-cell",
+        pmax_w=100.0,
+        vmp_v=18.0,
+        imp_a=5.56,
+        voc_v=22.0,
+        isc_a=5.9,
+        cells_in_series=36,
+        area_m2=0.67,
+    )
     p.choices.system_voltage = 12
     p.loads[0].power_w = dc_w
     return p
@@ -37,7 +46,8 @@ def test_comparison_does_not_depend_on_the_array_size(ctype):
         n_pwm, n_mppt = h.pwm_layout[0] * h.pwm_layout[1], h.mppt_layout[0] * h.mppt_layout[1]
         # the figure is the per-module ratio of the shown harvests (its definition)
         assert h.pwm_vs_mppt_pct == pytest.approx(
-            100 * ((h.pwm_wh_day[m] / n_pwm) / (h.mppt_wh_day[m] / n_mppt) - 1), abs=1e-9)
+            100 * ((h.pwm_wh_day[m] / n_pwm) / (h.mppt_wh_day[m] / n_mppt) - 1), abs=1e-9
+        )
         assert "per module" in d.why("harvest.pwm_vs_mppt_pct").formula
         got.append(h.pwm_vs_mppt_pct)
     assert max(got) - min(got) < 1.0, got
@@ -52,16 +62,32 @@ def test_per_module_gap_matches_one_string_without_cables():
     h = d.electrical.harvest
     m = h.design_month - 1
     s = d.site
-    prof, step_h = daily_poa_profile(s.horizontal_kwh_m2_day, s.poa_kwh_m2_day, s.latitude_deg,
-                                     s.tilt_deg, s.azimuth_deg, p.site.albedo)
+    prof, step_h = daily_poa_profile(
+        s.horizontal_kwh_m2_day,
+        s.poa_kwh_m2_day,
+        s.latitude_deg,
+        s.tilt_deg,
+        s.azimuth_deg,
+        p.site.albedo,
+    )
     params = fit_module(p.module)
     out = {}
     for kind, series in (("pwm", h.pwm_layout[0]), ("mppt", h.mppt_layout[0])):
-        hin = HarvestInputs(series, 1, 1, h.charging_voltage_v, p.controller.efficiency,
-                            d.array.derates["soiling"], d.array.derates["mismatch"], 0.0, 0.0,
-                            0.0)
-        mppt, pwm = harvest_wh_day(params, prof, step_h, np.asarray(s.temp_day_c),
-                                   p.module.noct_c, hin)
+        hin = HarvestInputs(
+            series,
+            1,
+            1,
+            h.charging_voltage_v,
+            p.controller.efficiency,
+            d.array.derates["soiling"],
+            d.array.derates["mismatch"],
+            0.0,
+            0.0,
+            0.0,
+        )
+        mppt, pwm = harvest_wh_day(
+            params, prof, step_h, np.asarray(s.temp_day_c), p.module.noct_c, hin
+        )
         out[kind] = (pwm if kind == "pwm" else mppt)[m] / series
     ref = 100 * (out["pwm"] / out["mppt"] - 1)
     assert h.pwm_vs_mppt_pct == pytest.approx(ref, abs=1.5)

@@ -15,8 +15,17 @@ from offgrid.result import reason_key
 from offgrid.sizing import design
 from tests.conftest import hand_project
 
-SECTIONS = ("loads", "site", "array", "battery", "controller", "inverter", "mpp", "wires",
-            "electrical")
+SECTIONS = (
+    "loads",
+    "site",
+    "array",
+    "battery",
+    "controller",
+    "inverter",
+    "mpp",
+    "wires",
+    "electrical",
+)
 
 
 def _numeric_leaves(value, path):

@@ -19,10 +19,18 @@ from tests.conftest import hand_project
 
 def offgrid(*args: str, cwd=None) -> subprocess.CompletedProcess:
     env = dict(os.environ)
-    env["PYTHONPATH"] = os.pathsep.join(filter(None, [str(demo_project_path().parents[2]),
-                                                      env.get("PYTHONPATH")]))
-    return subprocess.run([sys.executable, "-m", "offgrid", *args], capture_output=True,
-                          text=True, timeout=120, stdin=subprocess.DEVNULL, cwd=cwd, env=env)
+    env["PYTHONPATH"] = os.pathsep.join(
+        filter(None, [str(demo_project_path().parents[2]), env.get("PYTHONPATH")])
+    )
+    return subprocess.run(
+        [sys.executable, "-m", "offgrid", *args],
+        capture_output=True,
+        text=True,
+        timeout=120,
+        stdin=subprocess.DEVNULL,
+        cwd=cwd,
+        env=env,
+    )
 
 
 @pytest.fixture
@@ -33,8 +41,11 @@ def demo_copy(tmp_path):
 
 
 def test_report_writes_each_format(tmp_path):
-    for name, marker in (("r.html", "<!DOCTYPE html>"), ("r.md", "# Kisanga"),
-                         ("r.txt", "KISANGA RIDGE")):
+    for name, marker in (
+        ("r.html", "<!DOCTYPE html>"),
+        ("r.md", "# Kisanga"),
+        ("r.txt", "KISANGA RIDGE"),
+    ):
         out = tmp_path / name
         proc = offgrid("report", "--demo", "-o", str(out))
         assert proc.returncode == 0, proc.stderr
@@ -81,8 +92,10 @@ def test_report_path_under_a_file(tmp_path):
     assert blocker.read_text(encoding="utf-8") == "not a folder"
 
 
-@pytest.mark.skipif(hasattr(os, "geteuid") and os.geteuid() == 0,
-                    reason="root may write anywhere; test_report_path_under_a_file covers CI")
+@pytest.mark.skipif(
+    hasattr(os, "geteuid") and os.geteuid() == 0,
+    reason="root may write anywhere; test_report_path_under_a_file covers CI",
+)
 def test_report_read_only_folder(tmp_path):
     folder = tmp_path / "ro"
     folder.mkdir()

@@ -35,8 +35,11 @@ def _paths_in(report):
             if isinstance(block, Table):
                 for row in block.rows:
                     for cell in row:
-                        if cell.path and cell.value is not None and not cell.path.startswith(
-                                ("costs.", "reliability.")):
+                        if (
+                            cell.path
+                            and cell.value is not None
+                            and not cell.path.startswith(("costs.", "reliability."))
+                        ):
                             yield cell.path, cell.value, cell.text
             elif isinstance(block, Figures):
                 for item in block.items:
@@ -123,8 +126,13 @@ def test_markdown_figures_equal_size_json(demo_report):
 def test_every_reason_of_the_design_is_in_the_report(demo_report):
     project, base = demo()
     d = design(project, base)
-    shown = {item.path: item for sec in demo_report.sections for block in sec.blocks
-             if isinstance(block, Figures) for item in block.items}
+    shown = {
+        item.path: item
+        for sec in demo_report.sections
+        for block in sec.blocks
+        if isinstance(block, Figures)
+        for item in block.items
+    }
     for path, reason in d.reasons.items():
         parts = path.split(".")
         if parts[0] == "wires" and len(parts) == 3:  # one item per schedule column
@@ -155,8 +163,14 @@ def test_reliability_figures_equal_simulate_json():
     data = json.loads(buf.getvalue())
     project, base = demo()
     study = simulate_for_report(project, base, years=8, seed=1, with_tradeoff=False)
-    report = build_report(project, design(project, base), base=base, reliability=study,
-                          with_charts=False, with_variants=False)
+    report = build_report(
+        project,
+        design(project, base),
+        base=base,
+        reliability=study,
+        with_charts=False,
+        with_variants=False,
+    )
     scale = {f"reliability.{a}": s for a, _, s, _, _ in RELIABILITY_FIGURES}
     checked = 0
     for sec in report.sections:
@@ -175,5 +189,6 @@ def test_reliability_figures_equal_simulate_json():
     d = design(project, base)
     cost = lifecycle_cost(project, d, bill_of_materials(project, d), study)
     assert cost.battery_life_years == data["reliability"]["wear"]["expected_life_years"]
-    assert cost.served_fraction == pytest.approx(1 - data["reliability"]["unmet_fraction"],
-                                                 abs=1e-6)  # the JSON rounds to 6 places
+    assert cost.served_fraction == pytest.approx(
+        1 - data["reliability"]["unmet_fraction"], abs=1e-6
+    )  # the JSON rounds to 6 places

@@ -24,8 +24,11 @@ def test_demo_text_report_matches_golden():
         GOLDEN.write_text(text, encoding="utf-8")
     expected = GOLDEN.read_text(encoding="utf-8")
     if text != expected:
-        diff = "".join(difflib.unified_diff(expected.splitlines(True), text.splitlines(True),
-                                            "golden", "now", n=1))
+        diff = "".join(
+            difflib.unified_diff(
+                expected.splitlines(True), text.splitlines(True), "golden", "now", n=1
+            )
+        )
         raise AssertionError(f"text report differs from {GOLDEN.name}:\n{diff[:4000]}")
 
 

@@ -11,8 +11,21 @@ from offgrid.report import make_report
 from offgrid.report.build import SECTION_KEYS
 from tests.report_helpers import demo
 
-VOID = {"area", "base", "br", "col", "embed", "hr", "img", "input", "link", "meta", "source",
-        "track", "wbr"}
+VOID = {
+    "area",
+    "base",
+    "br",
+    "col",
+    "embed",
+    "hr",
+    "img",
+    "input",
+    "link",
+    "meta",
+    "source",
+    "track",
+    "wbr",
+}
 
 
 class _Checker(HTMLParser):
@@ -124,14 +137,17 @@ def _quick(csv_path):
     from offgrid.project.model import ClimateChoice, Project, ProjectInfo, Site
 
     climate = load_climate("kisanga-ridge-demo")
-    return Project(info=ProjectInfo(name=f"Demo: {csv_path.stem}", demo=True),
-                   site=Site(name="Kisanga Ridge (demo)", latitude_deg=climate.latitude_deg),
-                   climate=ClimateChoice(ref="kisanga-ridge-demo"),
-                   loads=load_loads_csv(csv_path))
+    return Project(
+        info=ProjectInfo(name=f"Demo: {csv_path.stem}", demo=True),
+        site=Site(name="Kisanga Ridge (demo)", latitude_deg=climate.latitude_deg),
+        climate=ClimateChoice(ref="kisanga-ridge-demo"),
+        loads=load_loads_csv(csv_path),
+    )
 
 
-@pytest.mark.parametrize("name", ["household-kit", "primary-school", "radio-repeater",
-                                  "rural-clinic", "water-pump"])
+@pytest.mark.parametrize(
+    "name", ["household-kit", "primary-school", "radio-repeater", "rural-clinic", "water-pump"]
+)
 def test_every_demo_load_list_gives_a_complete_report(name):
     from offgrid.paths import load_profiles_dir
 

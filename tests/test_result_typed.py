@@ -26,8 +26,7 @@ def _names(cls) -> set[str]:
 
 
 def test_system_design_declares_the_electrical_result():
-    hints = typing.get_type_hints(SystemDesign,
-                                  localns={"ElectricalResult": el.ElectricalResult})
+    hints = typing.get_type_hints(SystemDesign, localns={"ElectricalResult": el.ElectricalResult})
     assert hints["electrical"] == el.ElectricalResult | None
 
 
@@ -44,16 +43,58 @@ def test_the_demo_design_carries_a_typed_electrical_result():
     assert er.protection.devices and all(isinstance(x, Device) for x in er.protection.devices)
 
 
-@pytest.mark.parametrize(("cls", "used"), [
-    # the fields the views (report, summary, text UI, bill of materials) read by name
-    (WireChoice, {"key", "run", "count", "current_a", "operating_current_a", "length_m",
-                  "material", "size", "drop_pct", "ampacity_a", "fuse_a", "length_path"}),
-    (Device, {"location", "kind", "rating_a", "voltage_v", "count", "interrupt_rating_a",
-              "note", "source"}),
-    (el.ElectricalResult, {"fit", "mpp", "curve", "strings", "harvest", "wires",
-                           "protection", "cautions", "notices", "reasons"}),
-    (el.HarvestResult, {"pwm_layout", "charging_voltage_v", "pwm_vs_mppt_pct"}),
-    (IVCurve, {"voltage_v", "current_a", "power_w"}),
-])
+@pytest.mark.parametrize(
+    ("cls", "used"),
+    [
+        # the fields the views (report, summary, text UI, bill of materials) read by name
+        (
+            WireChoice,
+            {
+                "key",
+                "run",
+                "count",
+                "current_a",
+                "operating_current_a",
+                "length_m",
+                "material",
+                "size",
+                "drop_pct",
+                "ampacity_a",
+                "fuse_a",
+                "length_path",
+            },
+        ),
+        (
+            Device,
+            {
+                "location",
+                "kind",
+                "rating_a",
+                "voltage_v",
+                "count",
+                "interrupt_rating_a",
+                "note",
+                "source",
+            },
+        ),
+        (
+            el.ElectricalResult,
+            {
+                "fit",
+                "mpp",
+                "curve",
+                "strings",
+                "harvest",
+                "wires",
+                "protection",
+                "cautions",
+                "notices",
+                "reasons",
+            },
+        ),
+        (el.HarvestResult, {"pwm_layout", "charging_voltage_v", "pwm_vs_mppt_pct"}),
+        (IVCurve, {"voltage_v", "current_a", "power_w"}),
+    ],
+)
 def test_records_have_the_fields_the_views_read(cls, used):
     assert used <= _names(cls), used - _names(cls)

@@ -30,12 +30,16 @@ KILLS = 60
 def _two_versions():
     """Two valid project texts of some size, so a write takes a while to finish."""
     a = hand_project()
-    a.loads = [Load(name=f"Lamp {i}", quantity=1, power_w=5.0 + i, hours_per_day=4.0,
-                    ac_dc="dc") for i in range(300)]
+    a.loads = [
+        Load(name=f"Lamp {i}", quantity=1, power_w=5.0 + i, hours_per_day=4.0, ac_dc="dc")
+        for i in range(300)
+    ]
     a.info.name = "Version A"
     b = hand_project()
-    b.loads = [Load(name=f"Fan {i}", quantity=2, power_w=20.0 + i, hours_per_day=6.0,
-                    ac_dc="ac") for i in range(300)]
+    b.loads = [
+        Load(name=f"Fan {i}", quantity=2, power_w=20.0 + i, hours_per_day=6.0, ac_dc="ac")
+        for i in range(300)
+    ]
     b.info.name = "Version B"
     return dumps_project(a), dumps_project(b)
 
@@ -139,8 +143,12 @@ def test_stray_temp_files_of_that_project_are_removed_on_the_next_save(tmp_path)
 
     path = tmp_path / "p.toml"
     save_project(hand_project(), path)
-    dead = subprocess.run([sys.executable, "-c", "import os; print(os.getpid())"],
-                          capture_output=True, text=True, check=True).stdout.strip()
+    dead = subprocess.run(
+        [sys.executable, "-c", "import os; print(os.getpid())"],
+        capture_output=True,
+        text=True,
+        check=True,
+    ).stdout.strip()
     ours = tmp_path / f".p.toml.{dead}.0123456789ab.offgrid-tmp"
     ours_bak = tmp_path / f".p.toml.{dead}.0123456789ab.bak.offgrid-tmp"
     live = tmp_path / f".p.toml.{os.getppid()}.0123456789ab.offgrid-tmp"  # still running
@@ -180,6 +188,7 @@ def test_a_change_on_disk_since_reading_is_refused(tmp_path):
 
 # ----------------------------------------------------------------------------- the CLI
 
+
 def _run(capsys, *argv) -> tuple[int, str]:
     from offgrid.cli import main
 
@@ -201,25 +210,26 @@ def project_file(tmp_path):
     return path
 
 
-@pytest.mark.parametrize("argv", [
-    ("report", "{p}", "-o", "{p}", "--force"),
-    ("report", "{p}", "-o", "{p}", "--format", "txt", "--force"),
-    ("report", "{p}", "--bom", "{p}", "--force"),
-    ("bom", "{p}", "-o", "{p}", "--force"),
-    ("prices", "{p}", "--template", "-o", "{p}", "--force"),
-    ("report", "{p}", "-o", "{link}", "--force"),  # the project under another name
-    ("report", "--demo", "-o", "{other}", "--force"),  # some other project
-    ("bom", "{p}", "-o", "{bak}", "--force"),  # a project's backup is a project too
-])
-def test_no_output_is_written_over_a_project_even_with_force(capsys, project_file, tmp_path,
-                                                              argv):
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ("report", "{p}", "-o", "{p}", "--force"),
+        ("report", "{p}", "-o", "{p}", "--format", "txt", "--force"),
+        ("report", "{p}", "--bom", "{p}", "--force"),
+        ("bom", "{p}", "-o", "{p}", "--force"),
+        ("prices", "{p}", "--template", "-o", "{p}", "--force"),
+        ("report", "{p}", "-o", "{link}", "--force"),  # the project under another name
+        ("report", "--demo", "-o", "{other}", "--force"),  # some other project
+        ("bom", "{p}", "-o", "{bak}", "--force"),  # a project's backup is a project too
+    ],
+)
+def test_no_output_is_written_over_a_project_even_with_force(capsys, project_file, tmp_path, argv):
     link = tmp_path / "same.toml"
     link.symlink_to(project_file)
     other = tmp_path / "other.toml"
     save_project(hand_project(), other)
     save_project(hand_project(), other)  # makes other.toml.bak
-    names = {"p": project_file, "link": link, "other": other,
-             "bak": tmp_path / "other.toml.bak"}
+    names = {"p": project_file, "link": link, "other": other, "bak": tmp_path / "other.toml.bak"}
     before = {f: f.read_bytes() for f in names.values()}
     code, err = _run(capsys, *(a.format(**names) for a in argv))
     assert code == 2, err
@@ -235,8 +245,9 @@ def test_outputs_still_replace_ordinary_files_with_force(capsys, project_file, t
     assert out.read_text().startswith("part") or "," in out.read_text()
 
 
-def test_price_import_refuses_when_the_project_changed_meanwhile(capsys, project_file, tmp_path,
-                                                               monkeypatch):
+def test_price_import_refuses_when_the_project_changed_meanwhile(
+    capsys, project_file, tmp_path, monkeypatch
+):
     """Another window saves the project while the CLI reads the price list."""
     import offgrid.economics.prices as prices
 
@@ -343,8 +354,15 @@ def test_climate_import_and_plan_report_refuse_a_project_as_output(capsys, proje
     from tests.climate_support import TMY3_GREENSBORO, pvlib_data
 
     before = project_file.read_bytes()
-    code, err = _run(capsys, "climate", "import", str(pvlib_data() / TMY3_GREENSBORO),
-                     "--out", str(project_file), "--force")
+    code, err = _run(
+        capsys,
+        "climate",
+        "import",
+        str(pvlib_data() / TMY3_GREENSBORO),
+        "--out",
+        str(project_file),
+        "--force",
+    )
     assert code == 2 and "no output is ever written over a project" in err
     disguised = project_file.with_suffix(".md")  # a project under a report's name
     disguised.write_bytes(before)

@@ -19,10 +19,21 @@ DEMO_H = [6.1, 6.3, 5.8, 4.9, 4.6, 4.5, 4.4, 4.9, 5.8, 6.0, 5.4, 5.7]  # invente
 
 
 def system(**kw):
-    base = dict(insolation_kwh_m2_day=DEMO_H, latitude_deg=-3.4, array_w=600.0,
-                capacity_wh=4000.0, load_wh=1500.0, critical_share=0.4, poa_ratio=1.02,
-                yield_factor=0.8, max_dod=0.5, round_trip_efficiency=0.85,
-                load_time_of_day="evening", controller_w_per_w=0.9, charge_c_rate=0.2)
+    base = dict(
+        insolation_kwh_m2_day=DEMO_H,
+        latitude_deg=-3.4,
+        array_w=600.0,
+        capacity_wh=4000.0,
+        load_wh=1500.0,
+        critical_share=0.4,
+        poa_ratio=1.02,
+        yield_factor=0.8,
+        max_dod=0.5,
+        round_trip_efficiency=0.85,
+        load_time_of_day="evening",
+        controller_w_per_w=0.9,
+        charge_c_rate=0.2,
+    )
     base.update(kw)
     return plain_inputs(**base)
 
@@ -51,9 +62,15 @@ def check_conservation(bal, ec, ed):
 def test_energy_conserved_every_step(mode):
     inp = system()
     w = weather()
-    designs = run_balance(build_steps(inp, w, mode), [300, 600, 1200], [1000, 4000, 9000],
-                          max_dod=0.5, eta_charge=inp.eta_charge,
-                          eta_discharge=inp.eta_discharge, record=True)
+    designs = run_balance(
+        build_steps(inp, w, mode),
+        [300, 600, 1200],
+        [1000, 4000, 9000],
+        max_dod=0.5,
+        eta_charge=inp.eta_charge,
+        eta_discharge=inp.eta_discharge,
+        record=True,
+    )
     check_conservation(designs, inp.eta_charge, inp.eta_discharge)
     one = simulate_inputs(inp, w, mode=mode, record=True)
     check_conservation(one, inp.eta_charge, inp.eta_discharge)
@@ -83,8 +100,15 @@ def test_short_case_worked_by_hand(designs):
     # Day 3 sun: P = 1000, 200 served, charge min(800, 500 / 0.9) = 555.56 -> full, 244.44
     #        spilled.  dark: 300 from the battery -> 666.67.
     aw = [100.0] * designs
-    b = run_balance(hand_steps(), aw, [1000.0] * designs, max_dod=0.5, eta_charge=0.9,
-                    eta_discharge=0.9, record=True)
+    b = run_balance(
+        hand_steps(),
+        aw,
+        [1000.0] * designs,
+        max_dod=0.5,
+        eta_charge=0.9,
+        eta_discharge=0.9,
+        record=True,
+    )
     assert b.shed_days.tolist() == [1] * designs
     assert b.shed_days_critical.tolist() == [1] * designs
     assert b.lolp[0] == pytest.approx(1 / 3)
@@ -97,8 +121,9 @@ def test_short_case_worked_by_hand(designs):
     assert b.charge_wh[0] == pytest.approx(500 / 0.9)
     assert b.spilled_wh[0] == pytest.approx(100 + 800 - 500 / 0.9)
     stored = b.record["stored_wh"][:, :, 0]
-    np.testing.assert_allclose(stored, [[1000, 1000 - 300 / 0.9], [500, 500],
-                                        [1000, 1000 - 300 / 0.9]])
+    np.testing.assert_allclose(
+        stored, [[1000, 1000 - 300 / 0.9], [500, 500], [1000, 1000 - 300 / 0.9]]
+    )
     assert b.longest_shed_run_days[0] == 1
 
 
@@ -117,8 +142,12 @@ def test_no_battery_sheds_night_loads_every_night(mode):
     assert b.lolp_critical[0] == 1.0
     assert b.unmet_fraction[0] == pytest.approx(1.0)
     # the same array with day-time loads and no battery: night loads only are the problem
-    day = simulate_inputs(system(array_w=5000.0, load_time_of_day="day", controller_w_per_w=None),
-                          weather(2), capacity_wh=0.0, mode=mode)
+    day = simulate_inputs(
+        system(array_w=5000.0, load_time_of_day="day", controller_w_per_w=None),
+        weather(2),
+        capacity_wh=0.0,
+        mode=mode,
+    )
     assert day.unmet_fraction[0] < 0.5
 
 

@@ -27,8 +27,26 @@ def test_text_summary(capsys):
 
 
 def test_json_output(capsys):
-    assert main(["simulate", "--demo", "--years", "2", "--seed", "4", "--json", "--sweep", "5",
-                 "--array-price", "0.5", "--battery-price", "150"]) == 0
+    assert (
+        main(
+            [
+                "simulate",
+                "--demo",
+                "--years",
+                "2",
+                "--seed",
+                "4",
+                "--json",
+                "--sweep",
+                "5",
+                "--array-price",
+                "0.5",
+                "--battery-price",
+                "150",
+            ]
+        )
+        == 0
+    )
     data = json.loads(capsys.readouterr().out)
     rel = data["reliability"]
     assert 0 <= rel["lolp"] <= 1 and rel["days"] == 730
@@ -38,11 +56,18 @@ def test_json_output(capsys):
     assert "lolp" in rel["reasons"]
 
 
-@pytest.mark.parametrize("argv,match", [
-    (["--years", "0"], "years"), (["--years", "-2"], "years"), (["--years", "x"], "years"),
-    (["--seed", "abc"], "seed"), (["--target", "0"], "cannot be promised"),
-    (["--array-price", "0.5"], "costs missing"), (["--sweep", "1"], "sweep"),
-])
+@pytest.mark.parametrize(
+    "argv,match",
+    [
+        (["--years", "0"], "years"),
+        (["--years", "-2"], "years"),
+        (["--years", "x"], "years"),
+        (["--seed", "abc"], "seed"),
+        (["--target", "0"], "cannot be promised"),
+        (["--array-price", "0.5"], "costs missing"),
+        (["--sweep", "1"], "sweep"),
+    ],
+)
 def test_bad_input_is_a_clear_message(argv, match, capsys):
     with pytest.raises(SystemExit) as exc:
         main(["simulate", "--demo", "--years", "1", "--sweep", "4", *argv])
@@ -64,8 +89,10 @@ def test_adapter_reproduces_the_design_supply():
     # On days at each month's mean insolation and with no controller clipping, the daily PV
     # equals the design's monthly array supply with the battery round trip put back in (the
     # demo's I-V harvest is above the derate chain in every month).
-    assert all(h * result.array.derates["battery round trip"] >= s for h, s in zip(
-        result.array.harvest_mppt_wh_day, result.array.supply_wh_day, strict=True))
+    assert all(
+        h * result.array.derates["battery round trip"] >= s
+        for h, s in zip(result.array.harvest_mppt_wh_day, result.array.supply_wh_day, strict=True)
+    )
     h = np.asarray(result.site.horizontal_kwh_m2_day)
     w = WeatherSeries(h[MONTH_OF_DAY][None, :], 0, h, np.ones(12), None, "monthly means")
     steps = build_steps(inp, w, "daily")
@@ -77,14 +104,16 @@ def test_adapter_reproduces_the_design_supply():
     np.testing.assert_allclose(inp.load_wh, result.loads.daily_energy_wh)
     np.testing.assert_allclose(inp.load_profile.sum(axis=1), 1.0)
     assert inp.capacity_wh == pytest.approx(
-        result.battery.nominal_kwh * 1000 / result.battery.temp_factor)
+        result.battery.nominal_kwh * 1000 / result.battery.temp_factor
+    )
     assert inp.eta_charge * inp.eta_discharge == pytest.approx(project.battery.efficiency)
 
 
 def test_worst_year_series_for_the_chart():
     project = load_project(demo_project_path())
-    rep = simulate_project(project, demo_project_path().parent, years=4, seed=2,
-                           with_tradeoff=False)
+    rep = simulate_project(
+        project, demo_project_path().parent, years=4, seed=2, with_tradeoff=False
+    )
     r = rep.reliability
     assert len(r.worst_year_soc_min) == 365 and 0 <= r.worst_year < 4
     floor = 1 - result_dod(project)
@@ -111,8 +140,9 @@ def test_measured_days_from_the_climate_are_used(monkeypatch):
 
     def with_daily(project, base=None):
         c = real(project, base)
-        return SimpleNamespace(**{**vars(c), "daily": SimpleNamespace(
-            insolation_kwh_m2_day=[5.0] * 365)})
+        return SimpleNamespace(
+            **{**vars(c), "daily": SimpleNamespace(insolation_kwh_m2_day=[5.0] * 365)}
+        )
 
     monkeypatch.setattr(offgrid.sizing, "resolve_climate", with_daily)
     project = load_project(demo_project_path())
@@ -125,8 +155,10 @@ def test_engine_imports_no_ui():
     import subprocess
     import sys
 
-    code = ("import sys\nimport offgrid.simulate.run, offgrid.commands.simulate\n"
-            "bad = [m for m in ('textual', 'rich') if m in sys.modules]\nassert not bad, bad\n")
+    code = (
+        "import sys\nimport offgrid.simulate.run, offgrid.commands.simulate\n"
+        "bad = [m for m in ('textual', 'rich') if m in sys.modules]\nassert not bad, bad\n"
+    )
     subprocess.run([sys.executable, "-c", code], check=True)
 
 

@@ -24,8 +24,13 @@ def test_astm_e1049_example():
     # ASTM E1049-85 Fig. 6 / Table 4 (rainflow counting example), as recalled (from memory):
     # load history -2 1 -3 5 -1 3 -4 4 -2 gives ranges 3 (0.5), 4 (1.5), 6 (0.5), 8 (1), 9 (0.5)
     x = [-2, 1, -3, 5, -1, 3, -4, 4, -2]
-    assert cycle_histogram(rainflow_astm_e1049(x)) == {3.0: 0.5, 4.0: 1.5, 6.0: 0.5, 8.0: 1.0,
-                                                       9.0: 0.5}
+    assert cycle_histogram(rainflow_astm_e1049(x)) == {
+        3.0: 0.5,
+        4.0: 1.5,
+        6.0: 0.5,
+        8.0: 1.0,
+        9.0: 0.5,
+    }
     assert cycle_histogram(rainflow_astm_e1049(x)) == reference_histogram(x)
 
 

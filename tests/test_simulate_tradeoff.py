@@ -22,8 +22,17 @@ PRICES = {"array_per_w": 0.6, "battery_per_kwh": 180.0}  # invented unit costs
 
 @pytest.fixture(scope="module")
 def case():
-    inp = plain_inputs(DEMO_H, -3.4, 600.0, 6000.0, 1500.0, 0.4, load_time_of_day="evening",
-                       controller_w_per_w=1.0, charge_c_rate=0.2)
+    inp = plain_inputs(
+        DEMO_H,
+        -3.4,
+        600.0,
+        6000.0,
+        1500.0,
+        0.4,
+        load_time_of_day="evening",
+        controller_w_per_w=1.0,
+        charge_c_rate=0.2,
+    )
     w = synthetic_daily_insolation(DEMO_H, -3.4, years=10, seed=9)
     return inp, w
 
@@ -59,8 +68,10 @@ def test_cheapest_point_and_design_position(case):
     tr = tradeoff(inp, w, prices=PRICES, n_array=10, n_battery=10)
     for t in tr.targets:
         assert t.cheapest is not None
-        costs = [PRICES["array_per_w"] * p.array_w + PRICES["battery_per_kwh"] *
-                 p.capacity_wh / 1000 for p in t.points]
+        costs = [
+            PRICES["array_per_w"] * p.array_w + PRICES["battery_per_kwh"] * p.capacity_wh / 1000
+            for p in t.points
+        ]
         assert t.cheapest_cost == pytest.approx(min(costs))
         assert "worst-month design" in t.message
         assert t.design_meets == (tr.design_lolp <= t.target)
@@ -89,18 +100,32 @@ def test_target_as_percent():
     assert check_target("0.1 %") == pytest.approx(0.001)
 
 
-@pytest.mark.parametrize("target,match", [(0, "cannot be promised"), (0.0, "cannot be promised"),
-                                          (-0.01, "cannot be promised"), (1.0, "below 1"),
-                                          ("abc", "not a number"), ("0%", "cannot be promised")])
+@pytest.mark.parametrize(
+    "target,match",
+    [
+        (0, "cannot be promised"),
+        (0.0, "cannot be promised"),
+        (-0.01, "cannot be promised"),
+        (1.0, "below 1"),
+        ("abc", "not a number"),
+        ("0%", "cannot be promised"),
+    ],
+)
 def test_bad_targets(target, match):
     with pytest.raises(ValueError, match=match):
         check_target(target)
 
 
-@pytest.mark.parametrize("prices,match", [(None, "costs missing"), ({}, "costs missing"),
-                                          ({"array_per_w": 1.0}, "battery_per_kwh"),
-                                          ({"array_per_w": "x", "battery_per_kwh": 1}, "number"),
-                                          ({"array_per_w": -1, "battery_per_kwh": 1}, "0 or more")])
+@pytest.mark.parametrize(
+    "prices,match",
+    [
+        (None, "costs missing"),
+        ({}, "costs missing"),
+        ({"array_per_w": 1.0}, "battery_per_kwh"),
+        ({"array_per_w": "x", "battery_per_kwh": 1}, "number"),
+        ({"array_per_w": -1, "battery_per_kwh": 1}, "0 or more"),
+    ],
+)
 def test_bad_prices(prices, match):
     with pytest.raises(ValueError, match=match):
         check_prices(prices)

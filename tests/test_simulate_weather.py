@@ -79,7 +79,8 @@ def test_rescaled_series_keeps_the_model_persistence():
     for m in (0, 6):
         sel = m == MONTH_OF_DAY
         assert lag1(kt[:, sel]) == pytest.approx(
-            aguiar1988_model_moments(int(mi[m]))["lag1"], abs=0.03)
+            aguiar1988_model_moments(int(mi[m]))["lag1"], abs=0.03
+        )
 
 
 def test_seed_gives_the_same_series():

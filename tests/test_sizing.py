@@ -18,12 +18,26 @@ def _pvlib_vmp(module, irradiance_w_m2, cell_temp_c):
     from pvlib.ivtools.sdm import fit_desoto
     from pvlib.pvsystem import calcparams_desoto, singlediode
 
-    p, _ = fit_desoto(module.vmp_v, module.imp_a, module.voc_v, module.isc_a,
-                      module.alpha_isc_pct_per_c / 100 * module.isc_a,
-                      module.beta_voc_pct_per_c / 100 * module.voc_v, module.cells_in_series,
-                      root_kwargs={"method": "lm"})
-    args = calcparams_desoto(irradiance_w_m2, cell_temp_c, p["alpha_sc"], p["a_ref"],
-                             p["I_L_ref"], p["I_o_ref"], p["R_sh_ref"], p["R_s"])
+    p, _ = fit_desoto(
+        module.vmp_v,
+        module.imp_a,
+        module.voc_v,
+        module.isc_a,
+        module.alpha_isc_pct_per_c / 100 * module.isc_a,
+        module.beta_voc_pct_per_c / 100 * module.voc_v,
+        module.cells_in_series,
+        root_kwargs={"method": "lm"},
+    )
+    args = calcparams_desoto(
+        irradiance_w_m2,
+        cell_temp_c,
+        p["alpha_sc"],
+        p["a_ref"],
+        p["I_L_ref"],
+        p["I_o_ref"],
+        p["R_sh_ref"],
+        p["R_s"],
+    )
     return float(singlediode(*args, method="lambertw")["v_mp"])
 
 
@@ -64,8 +78,7 @@ def test_hand_worked_sizing(project):
     #    = 29.45 V; series >= ceil((28.8 + 5) / 28.64) = 2; cold Voc at 5 C = 39.8 x 1.06 =
     #    42.19 V, at most floor(150 / 42.19) = 3 in series.  4 modules (ceil(917.9 / 300))
     #    fit best as 2 x 2.
-    assert d.array.vmp_hot_v == pytest.approx(_pvlib_vmp(project.module, 1000.0, 56.25),
-                                              rel=1e-6)
+    assert d.array.vmp_hot_v == pytest.approx(_pvlib_vmp(project.module, 1000.0, 56.25), rel=1e-6)
     assert d.array.voc_cold_v == pytest.approx(42.188, abs=1e-3)
     assert (d.array.modules_series, d.array.modules_parallel) == (2, 2)
     assert d.array.power_w == pytest.approx(1200.0)
@@ -89,10 +102,18 @@ def test_hand_worked_sizing(project):
 
 def test_every_figure_has_a_reason(project):
     d = design(project)
-    for path in ("array.power_w", "array.required_power_w", "battery.required_ah",
-                 "battery.capacity_ah", "controller.current_a", "inverter.continuous_w",
-                 "site.design_month", "site.poa_kwh_m2_day", "loads.daily_energy_wh",
-                 "battery.system_voltage_v"):
+    for path in (
+        "array.power_w",
+        "array.required_power_w",
+        "battery.required_ah",
+        "battery.capacity_ah",
+        "controller.current_a",
+        "inverter.continuous_w",
+        "site.design_month",
+        "site.poa_kwh_m2_day",
+        "loads.daily_energy_wh",
+        "battery.system_voltage_v",
+    ):
         reason = d.why(path)
         assert reason is not None, path
         assert reason.formula and reason.source
@@ -102,9 +123,17 @@ def test_pwm_controller_current_uses_continuous_factors(project):
     # NEC 690.8(A)(1): 1.25 x Isc; 690.8(B)(1): a further 1.25 (NFPA 70-2023, as transcribed
     # in shared REFERENCES.md).  With 2 strings of Isc 9.75 A: 1.5625 x 19.5 = 30.47 A.
     project.controller.type = "pwm"
-    project.module = replace(project.module, name="36-cell", pmax_w=100.0, vmp_v=18.0,
-                             imp_a=5.56, voc_v=22.0, isc_a=5.9, cells_in_series=36,
-                             area_m2=0.67)
+    project.module = replace(
+        project.module,
+        name="36-cell",
+        pmax_w=100.0,
+        vmp_v=18.0,
+        imp_a=5.56,
+        voc_v=22.0,
+        isc_a=5.9,
+        cells_in_series=36,
+        area_m2=0.67,
+    )
     project.choices.system_voltage = 12
     d = design(project)
     n_par = d.array.modules_parallel
@@ -153,6 +182,7 @@ def test_no_nan_or_inf_anywhere(project):
 
 # ------------------------------------------------------------------ bad input
 
+
 def test_empty_load_list_is_refused(project):
     project.loads = []
     with pytest.raises(DesignError, match="load list is empty") as exc:
@@ -164,8 +194,20 @@ def test_polar_night_is_refused():
     p = hand_project()
     p.site.latitude_deg = 78.0  # Arctic: no sun in December
     p.site.tilt_deg = 60.0
-    p.climate.inline.insolation_kwh_m2_day = [0.0, 0.3, 1.5, 3.5, 5.0, 5.5, 5.0, 3.2, 1.5, 0.4,
-                                              0.0, 0.0]
+    p.climate.inline.insolation_kwh_m2_day = [
+        0.0,
+        0.3,
+        1.5,
+        3.5,
+        5.0,
+        5.5,
+        5.0,
+        3.2,
+        1.5,
+        0.4,
+        0.0,
+        0.0,
+    ]
     with pytest.raises(DesignError, match="polar night") as exc:
         design(p)
     assert exc.value.code == "no-sun"
@@ -219,8 +261,9 @@ def test_lead_acid_parallel_warning(project):
 
 def test_supply_covers_demand_in_every_month(project):
     d = design(project)
-    assert all(s >= e - 1e-6 for s, e in zip(d.array.supply_wh_day, d.loads.daily_energy_wh,
-                                             strict=True))
+    assert all(
+        s >= e - 1e-6 for s, e in zip(d.array.supply_wh_day, d.loads.daily_energy_wh, strict=True)
+    )
 
 
 def _bundled(loads_csv: str, climate: str):
@@ -230,9 +273,11 @@ def _bundled(loads_csv: str, climate: str):
     from offgrid.project.model import ClimateChoice, Project, Site
 
     clim = load_climate(climate)
-    return Project(site=Site(latitude_deg=clim.latitude_deg, longitude_deg=clim.longitude_deg),
-                   climate=ClimateChoice(ref=climate),
-                   loads=load_loads_csv(load_profiles_dir() / loads_csv))
+    return Project(
+        site=Site(latitude_deg=clim.latitude_deg, longitude_deg=clim.longitude_deg),
+        climate=ClimateChoice(ref=climate),
+        loads=load_loads_csv(load_profiles_dir() / loads_csv),
+    )
 
 
 def test_many_controllers_share_the_strings_equally_within_their_rating():
@@ -283,8 +328,11 @@ def test_charge_current_against_the_bank(project):
     d = design(project)
     b = d.battery
     assert b.peak_charge_current_a == pytest.approx(
-        min(d.array.power_w * d.controller.efficiency / b.system_voltage_v,
-            d.controller.current_a * d.controller.count))
+        min(
+            d.array.power_w * d.controller.efficiency / b.system_voltage_v,
+            d.controller.current_a * d.controller.count,
+        )
+    )
     assert b.charge_c_rate == pytest.approx(b.peak_charge_current_a / b.capacity_ah)
     codes = {n.code for n in d.warnings}
     assert "charge-rate-high" not in codes and "charge-rate-low" not in codes

@@ -94,13 +94,24 @@ def test_monthly_poa_against_pvlib_hourly_isotropic_on_tmy3():
         sp = pvlib.solarposition.get_solarposition(times, meta["latitude"], meta["longitude"])
         lat = meta["latitude"]
         poa = pvlib.irradiance.get_total_irradiance(
-            abs(lat), 180.0, sp["apparent_zenith"].to_numpy(), sp["azimuth"].to_numpy(),
-            df["dni"].to_numpy(), df["ghi"].to_numpy(), df["dhi"].to_numpy(), albedo=0.2,
-            model="isotropic")
+            abs(lat),
+            180.0,
+            sp["apparent_zenith"].to_numpy(),
+            sp["azimuth"].to_numpy(),
+            df["dni"].to_numpy(),
+            df["ghi"].to_numpy(),
+            df["dhi"].to_numpy(),
+            albedo=0.2,
+            model="isotropic",
+        )
     month = df.index.month
     hours = pd.Series(1, index=df.index).groupby(month).sum().to_numpy()
-    ref = (pd.Series(np.nan_to_num(poa["poa_global"]), index=df.index).groupby(month).sum()
-           .to_numpy() / 1000 / hours * 24)
+    ref = (
+        pd.Series(np.nan_to_num(poa["poa_global"]), index=df.index).groupby(month).sum().to_numpy()
+        / 1000
+        / hours
+        * 24
+    )
     ghi = df["ghi"].groupby(month).sum().to_numpy() / 1000 / hours * 24
     ours = poa_monthly_liu_jordan(ghi, lat, abs(lat), 180.0, 0.2)["poa"]
     np.testing.assert_allclose(ours, ref, rtol=0.12)

@@ -17,10 +17,10 @@ from offgrid.climate.poa import beam_ratio_rb_klein, poa_monthly, poa_monthly_li
 # Example 2.20.1, in a second public copy. Hand check of January from the published inputs:
 # H0 13.37, KT 0.482, Hd/H 0.409 (Erbs), Rb 2.79 -> 6.44 (0.591 x 2.79 + 0.409 x 0.75
 # + 0.7 x 0.25) = 13.7 MJ/m2.
-MADISON_H_MJ = np.array([6.44, 9.89, 12.86, 16.05, 21.36, 23.04, 22.58, 20.33, 14.59, 10.48,
-                         6.37, 5.74])
-MADISON_HT_MJ = np.array([13.7, 17.2, 15.8, 14.7, 16.6, 16.5, 16.8, 17.5, 15.6, 15.2, 11.4,
-                          12.7])
+MADISON_H_MJ = np.array(
+    [6.44, 9.89, 12.86, 16.05, 21.36, 23.04, 22.58, 20.33, 14.59, 10.48, 6.37, 5.74]
+)
+MADISON_HT_MJ = np.array([13.7, 17.2, 15.8, 14.7, 16.6, 16.5, 16.8, 17.5, 15.6, 15.2, 11.4, 12.7])
 MADISON_RHO = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]
 MJ_PER_KWH = 3.6  # 1 kWh = 3.6 MJ (SI)
 
@@ -40,12 +40,15 @@ def test_liu_jordan_helper_takes_twelve_reflectances():
     np.testing.assert_allclose(out["poa"] * MJ_PER_KWH, MADISON_HT_MJ, rtol=0.015)
 
 
-@pytest.mark.parametrize(("albedo", "where"), [
-    ([0.2] * 11, "site.albedo"),
-    ([0.2] * 11 + [1.5], r"site.albedo\[12\]"),
-    (float("nan"), "site.albedo"),
-    (-0.1, "site.albedo"),
-])
+@pytest.mark.parametrize(
+    ("albedo", "where"),
+    [
+        ([0.2] * 11, "site.albedo"),
+        ([0.2] * 11 + [1.5], r"site.albedo\[12\]"),
+        (float("nan"), "site.albedo"),
+        (-0.1, "site.albedo"),
+    ],
+)
 def test_albedo_refused_with_the_field(albedo, where):
     with pytest.raises(ValueError, match=where):
         poa_monthly(np.full(12, 4.0), 43.0, 30.0, 180.0, albedo)
@@ -61,7 +64,8 @@ def test_low_sun_month_is_held_at_the_clearest_sky_on_the_plane():
     assert raw[11] / h[11] > 15
     ceiling = clearsky.clearest_sky_plane_kwh_m2(64.0, 60.0, 180.0, 0.2)
     assert res.capped[11] and res.poa_kwh_m2_day[11] == pytest.approx(
-        ceiling[11] * (1 + clearsky.CEILING_MODEL_MARGIN), rel=0.02)  # tilt-node interpolation
+        ceiling[11] * (1 + clearsky.CEILING_MODEL_MARGIN), rel=0.02
+    )  # tilt-node interpolation
     assert res.poa_kwh_m2_day[11] < 1.5
     parts = res.beam_kwh_m2_day + res.diffuse_kwh_m2_day + res.reflected_kwh_m2_day
     np.testing.assert_allclose(parts, res.poa_kwh_m2_day)
@@ -91,16 +95,19 @@ def test_ineichen_perez_matches_pvlib():
 
     zen = np.array([0.0, 30.0, 60.0, 80.0, 85.0, 88.0, 89.5])
     for elev in (0.0, 3000.0):
-        am = atmosphere.get_absolute_airmass(atmosphere.get_relative_airmass(zen),
-                                             atmosphere.alt2pres(elev))
+        am = atmosphere.get_absolute_airmass(
+            atmosphere.get_relative_airmass(zen), atmosphere.alt2pres(elev)
+        )
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
             ref = pvcs.ineichen(zen, am, 2.5, altitude=elev, dni_extra=1367.0)
-        mine_am = (clearsky.airmass_kasten_young(zen)
-                   * clearsky.pressure_standard_atmosphere_pa(elev) / 101325.0)
+        mine_am = (
+            clearsky.airmass_kasten_young(zen)
+            * clearsky.pressure_standard_atmosphere_pa(elev)
+            / 101325.0
+        )
         np.testing.assert_allclose(mine_am, am, rtol=1e-9)
-        ghi, dni, dhi = clearsky.ineichen_perez(np.cos(np.radians(zen)), mine_am, 2.5, elev,
-                                                1367.0)
+        ghi, dni, dhi = clearsky.ineichen_perez(np.cos(np.radians(zen)), mine_am, 2.5, elev, 1367.0)
         np.testing.assert_allclose(ghi, ref["ghi"], rtol=1e-9)
         np.testing.assert_allclose(dni, ref["dni"], rtol=1e-9)
         np.testing.assert_allclose(dhi, ref["dhi"], rtol=1e-9, atol=1e-9)
@@ -114,8 +121,9 @@ def test_clearest_turbidity_from_ineichen_2008():
     assert clearsky.clearest_linke_turbidity(0.0) > 1.0  # pure dry air is 1 (CIE S 017)
 
 
-@pytest.mark.parametrize(("lat", "tilt", "rtol"), [(64.0, 60.0, 0.05), (36.1, 36.0, 0.012),
-                                                    (-20.0, 20.0, 0.012)])
+@pytest.mark.parametrize(
+    ("lat", "tilt", "rtol"), [(64.0, 60.0, 0.05), (36.1, 36.0, 0.012), (-20.0, 20.0, 0.012)]
+)
 def test_clearest_sky_plane_against_pvlib(lat, tilt, rtol):
     # The same clear sky built from pvlib: SPA sun positions every 10 minutes of 2026,
     # Spencer extraterrestrial irradiance, pvlib's Ineichen at our turbidity, pvlib's
@@ -135,12 +143,14 @@ def test_clearest_sky_plane_against_pvlib(lat, tilt, rtol):
         up = zen < 90
         zz = np.where(up, zen, 89.0)
         am = atmosphere.get_absolute_airmass(atmosphere.get_relative_airmass(zz), 101325.0)
-        extra = irradiance.get_extra_radiation(times, solar_constant=1367.0,
-                                               method="spencer").to_numpy()
+        extra = irradiance.get_extra_radiation(
+            times, solar_constant=1367.0, method="spencer"
+        ).to_numpy()
         cs = pvcs.ineichen(zz, am, clearsky.clearest_linke_turbidity(0.0), 0.0, extra)
         ghi, dni, dhi = (np.where(up, np.asarray(cs[k]), 0.0) for k in ("ghi", "dni", "dhi"))
-        poa = irradiance.get_total_irradiance(tilt, az, zz, sp["azimuth"].to_numpy(), dni, ghi,
-                                              dhi, albedo=0.2, model="isotropic")["poa_global"]
+        poa = irradiance.get_total_irradiance(
+            tilt, az, zz, sp["azimuth"].to_numpy(), dni, ghi, dhi, albedo=0.2, model="isotropic"
+        )["poa_global"]
     poa = np.where(up, np.nan_to_num(np.asarray(poa)), 0.0)
     month = times.month.to_numpy() - 1
     ref = np.bincount(month, weights=poa, minlength=12) * (10 / 60) / 1000 / sky.DAYS_IN_MONTH

@@ -44,7 +44,7 @@ def test_save_keeps_a_backup_and_leaves_no_temp_files(tmp_path):
 
 
 def test_unknown_tables_are_kept():
-    text = dumps_project(hand_project()) + '\n[future_section]\nanswer = 42\n'
+    text = dumps_project(hand_project()) + "\n[future_section]\nanswer = 42\n"
     p = loads_project(text)
     assert p.extra == {"future_section": {"answer": 42}}
     assert "[future_section]" in dumps_project(p)
@@ -137,11 +137,16 @@ def test_saved_file_keeps_short_arrays_on_one_line():
     assert "insolation_kwh_m2_day = [5.0, 5.0," in text
 
 
-@pytest.mark.parametrize(("typed", "value"), [
-    ("albedo = 0.3", 0.3),
-    ("albedo = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]",
-     [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]),
-])
+@pytest.mark.parametrize(
+    ("typed", "value"),
+    [
+        ("albedo = 0.3", 0.3),
+        (
+            "albedo = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]",
+            [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4],
+        ),
+    ],
+)
 def test_albedo_one_value_or_twelve_round_trips(typed, value):
     project = hand_project()
     project.site.albedo = 0.2
@@ -151,11 +156,14 @@ def test_albedo_one_value_or_twelve_round_trips(typed, value):
     assert loads_project(dumps_project(loaded)).site.albedo == value
 
 
-@pytest.mark.parametrize(("typed", "path"), [
-    ("albedo = [0.2, 0.2, 0.2]", "site.albedo"),
-    ("albedo = [0.7, 0.7, 1.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]", "site.albedo[3]"),
-    ("albedo = -0.1", "site.albedo"),
-])
+@pytest.mark.parametrize(
+    ("typed", "path"),
+    [
+        ("albedo = [0.2, 0.2, 0.2]", "site.albedo"),
+        ("albedo = [0.7, 0.7, 1.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]", "site.albedo[3]"),
+        ("albedo = -0.1", "site.albedo"),
+    ],
+)
 def test_bad_albedo_names_the_field(typed, path):
     project = hand_project()
     project.site.albedo = 0.2

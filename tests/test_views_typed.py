@@ -39,8 +39,7 @@ def _cases():
     variant = hand_project()  # PWM controller, flooded lead-acid, DC loads only: no inverter
     variant.controller.type = "pwm"
     variant.battery.chemistry = "flooded"
-    variant.loads = [Load("DC lights", 4, 10.0, 5.0, "dc"), Load("DC fridge", 1, 60.0, 10.0,
-                                                                 "dc")]
+    variant.loads = [Load("DC lights", 4, 10.0, 5.0, "dc"), Load("DC fridge", 1, 60.0, 10.0, "dc")]
     return {"demo": (load_project(demo_path), demo_path.parent), "pwm-flooded-dc": (variant, None)}
 
 
@@ -55,7 +54,8 @@ def _views(project, base, d) -> dict[str, str]:
     rows = [r for r in figure_rows(d) if not isinstance(r, str)]
     return {
         "summary": summary_text(project, d),
-        "report-txt": render(report, "txt"), "report-md": render(report, "md"),
+        "report-txt": render(report, "txt"),
+        "report-md": render(report, "md"),
         "bom": "\n".join(f"{ln.description} {ln.quantity:g} {ln.follows}" for ln in bom),
         "cost": " ".join(f"{ln.key} {ln.quantity:g}" for ln in cost.lines),
         "sizes": "\n".join(f"{label}: {value}" for label, value, _path in rows),
@@ -102,8 +102,12 @@ def _renamed(record, old: str, new: str):
     cls = type(record)
     spec = [(new if f.name == old else f.name, f.type) for f in dataclasses.fields(cls)]
     renamed = dataclasses.make_dataclass(f"Renamed{cls.__name__}", spec, frozen=True)
-    return renamed(**{(new if f.name == old else f.name): getattr(record, f.name)
-                      for f in dataclasses.fields(cls)})
+    return renamed(
+        **{
+            (new if f.name == old else f.name): getattr(record, f.name)
+            for f in dataclasses.fields(cls)
+        }
+    )
 
 
 def _with_wires(d, old, new):
@@ -114,23 +118,31 @@ def _with_wires(d, old, new):
 
 def _with_mpp(d, old, new):
     er = d.electrical
-    return dataclasses.replace(d, electrical=dataclasses.replace(er, mpp=_renamed(er.mpp, old,
-                                                                                  new)))
+    return dataclasses.replace(
+        d, electrical=dataclasses.replace(er, mpp=_renamed(er.mpp, old, new))
+    )
 
 
 def _with_devices(d, old, new):
     er = d.electrical
     devices = tuple(_renamed(x, old, new) for x in er.protection.devices)
-    return dataclasses.replace(d, electrical=dataclasses.replace(
-        er, protection=dataclasses.replace(er.protection, devices=devices)))
+    return dataclasses.replace(
+        d,
+        electrical=dataclasses.replace(
+            er, protection=dataclasses.replace(er.protection, devices=devices)
+        ),
+    )
 
 
-@pytest.mark.parametrize(("view", "change", "old"), [
-    ("report", _with_wires, "drop_pct"),  # the report's own table read it with a default 0
-    ("bom", _with_wires, "length_m"),  # the cable line was dropped
-    ("bom", _with_devices, "count"),  # was counted as 1
-    ("sizes", _with_mpp, "pmp_w"),  # the rows were cut short
-])
+@pytest.mark.parametrize(
+    ("view", "change", "old"),
+    [
+        ("report", _with_wires, "drop_pct"),  # the report's own table read it with a default 0
+        ("bom", _with_wires, "length_m"),  # the cable line was dropped
+        ("bom", _with_devices, "count"),  # was counted as 1
+        ("sizes", _with_mpp, "pmp_w"),  # the rows were cut short
+    ],
+)
 def test_a_renamed_field_fails_instead_of_showing_a_default(view, change, old):
     project, base = CASES["demo"]
     d = change(design(project, base), old, old + "_renamed")
@@ -145,6 +157,7 @@ def test_a_renamed_field_fails_instead_of_showing_a_default(view, change, old):
 
 def test_a_renamed_simulation_field_fails_instead_of_the_preset_battery_life():
     """The simulated battery life was read with a default: renamed, the preset was used."""
+
     def zeros(cls, **given):
         values = {f.name: 0 for f in dataclasses.fields(cls) if f.name != "reasons"}
         return cls(**{**values, **given})
@@ -155,8 +168,9 @@ def test_a_renamed_simulation_field_fails_instead_of_the_preset_battery_life():
     d = design(project, base)
     bom = bill_of_materials(project, d)
     assert lifecycle_cost(project, d, bom, rel).battery_life_years == 6.3
-    renamed = dataclasses.replace(rel, wear=_renamed(wear, "expected_life_years",
-                                                     "expected_life_years_renamed"))
+    renamed = dataclasses.replace(
+        rel, wear=_renamed(wear, "expected_life_years", "expected_life_years_renamed")
+    )
     with pytest.raises(AttributeError, match="expected_life_years"):
         lifecycle_cost(project, d, bom, renamed)
 
@@ -164,8 +178,9 @@ def test_a_renamed_simulation_field_fails_instead_of_the_preset_battery_life():
 def _auto_fields():
     from offgrid.tui.fields import PARTS_FIELDS, PROJECT_FIELDS
 
-    return [f for f in (*PROJECT_FIELDS, *PARTS_FIELDS)
-            if not isinstance(f, str) and f.auto is not None]
+    return [
+        f for f in (*PROJECT_FIELDS, *PARTS_FIELDS) if not isinstance(f, str) and f.auto is not None
+    ]
 
 
 def test_an_automatic_field_shows_the_design_value_and_a_renamed_one_raises():

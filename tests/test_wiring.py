@@ -22,11 +22,20 @@ def size(name: str) -> wr.ConductorSize:
 # NFPA 70 (NEC) 2020/2023 Chapter 9 Table 8, ohm per 1000 ft at 75 C, stranded uncoated
 # (REFERENCES.md, V x2).
 TABLE8 = {
-    "14 AWG": (3.14, None), "12 AWG": (1.98, 3.25), "10 AWG": (1.24, 2.04),
-    "8 AWG": (0.778, 1.28), "6 AWG": (0.491, 0.808), "4 AWG": (0.308, 0.508),
-    "3 AWG": (0.245, 0.403), "2 AWG": (0.194, 0.319), "1 AWG": (0.154, 0.253),
-    "1/0 AWG": (0.122, 0.201), "2/0 AWG": (0.0967, 0.159), "3/0 AWG": (0.0766, 0.126),
-    "4/0 AWG": (0.0608, 0.100), "250 kcmil": (0.0515, 0.0847),
+    "14 AWG": (3.14, None),
+    "12 AWG": (1.98, 3.25),
+    "10 AWG": (1.24, 2.04),
+    "8 AWG": (0.778, 1.28),
+    "6 AWG": (0.491, 0.808),
+    "4 AWG": (0.308, 0.508),
+    "3 AWG": (0.245, 0.403),
+    "2 AWG": (0.194, 0.319),
+    "1 AWG": (0.154, 0.253),
+    "1/0 AWG": (0.122, 0.201),
+    "2/0 AWG": (0.0967, 0.159),
+    "3/0 AWG": (0.0766, 0.126),
+    "4/0 AWG": (0.0608, 0.100),
+    "250 kcmil": (0.0515, 0.0847),
 }
 
 
@@ -42,9 +51,20 @@ def test_nec_table8_resistance_at_75c(name):
 
 # IEC 60228:2004 maximum DC resistance at 20 C, ohm/km: class 5 plain copper and class 2
 # aluminium (REFERENCES.md, V x2).
-IEC60228 = {1.5: (13.3, None), 2.5: (7.98, None), 4: (4.95, None), 6: (3.30, None),
-            10: (1.91, 3.08), 16: (1.21, 1.91), 25: (0.780, 1.20), 35: (0.554, 0.868),
-            50: (0.386, 0.641), 70: (0.272, 0.443), 95: (0.206, 0.320), 120: (0.161, 0.253)}
+IEC60228 = {
+    1.5: (13.3, None),
+    2.5: (7.98, None),
+    4: (4.95, None),
+    6: (3.30, None),
+    10: (1.91, 3.08),
+    16: (1.21, 1.91),
+    25: (0.780, 1.20),
+    35: (0.554, 0.868),
+    50: (0.386, 0.641),
+    70: (0.272, 0.443),
+    95: (0.206, 0.320),
+    120: (0.161, 0.253),
+}
 
 
 @pytest.mark.parametrize("mm2", IEC60228)
@@ -83,7 +103,8 @@ def test_temperature_correction_agrees_with_iec_resistivity():
     assert r20 / solid == pytest.approx(1.02, abs=0.01)
     # IEC side: a20 = 0.00393; 4 mm2 class 5 at 75 C = 4.95 x (1 + 0.00393 x 55) = 6.0199.
     assert wr.resistance_ohm_per_km(size("4 mm2"), "copper", 75.0) == pytest.approx(
-        6.0199, abs=1e-4)
+        6.0199, abs=1e-4
+    )
 
 
 def test_voltage_drop_worked_by_hand():
@@ -98,10 +119,21 @@ def test_voltage_drop_worked_by_hand():
 
 # NEC 2023 Table 310.15(B)(1)(1), 30 C base (REFERENCES.md, V): warm end of each range ->
 # (75 C, 90 C) factors.
-NEC_AMBIENT = {10: (1.20, 1.15), 15: (1.15, 1.12), 20: (1.11, 1.08), 25: (1.05, 1.04),
-               30: (1.00, 1.00), 35: (0.94, 0.96), 40: (0.88, 0.91), 45: (0.82, 0.87),
-               50: (0.75, 0.82), 55: (0.67, 0.76), 60: (0.58, 0.71), 65: (0.47, 0.65),
-               70: (0.33, 0.58)}
+NEC_AMBIENT = {
+    10: (1.20, 1.15),
+    15: (1.15, 1.12),
+    20: (1.11, 1.08),
+    25: (1.05, 1.04),
+    30: (1.00, 1.00),
+    35: (0.94, 0.96),
+    40: (0.88, 0.91),
+    45: (0.82, 0.87),
+    50: (0.75, 0.82),
+    55: (0.67, 0.76),
+    60: (0.58, 0.71),
+    65: (0.47, 0.65),
+    70: (0.33, 0.58),
+}
 
 
 @pytest.mark.parametrize("ambient", NEC_AMBIENT)
@@ -140,9 +172,17 @@ def test_ampacity_iec_with_b52_14_factor():
 
 
 def run(**kw) -> wr.RunSpec:
-    base = dict(key="array", name="array to controller", max_current_a=12.19,
-                operating_current_a=9.23, voltage_v=65.0, length_m=15.0, drop_limit_pct=3.0,
-                fuse_a=20, length_field="wiring.array_run_m")
+    base = dict(
+        key="array",
+        name="array to controller",
+        max_current_a=12.19,
+        operating_current_a=9.23,
+        voltage_v=65.0,
+        length_m=15.0,
+        drop_limit_pct=3.0,
+        fuse_a=20,
+        length_field="wiring.array_run_m",
+    )
     base.update(kw)
     return wr.RunSpec(**base)
 
@@ -189,15 +229,20 @@ def test_run_length_out_of_range(length, words):
 
 def test_current_no_conductor_can_carry():
     with pytest.raises(DesignError, match="no listed copper conductor") as err:
-        wr.size_conductor(run(max_current_a=900.0, fuse_a=None), "awg", "copper", 75.0, 30.0,
-                          90)
+        wr.size_conductor(run(max_current_a=900.0, fuse_a=None), "awg", "copper", 75.0, 30.0, 90)
     assert err.value.code == "wire-ampacity"
     assert "raise the system voltage" in str(err.value)
 
 
 def test_drop_no_conductor_can_meet():
-    r = run(voltage_v=12.0, operating_current_a=100.0, max_current_a=100.0, fuse_a=125,
-            length_m=200.0, drop_limit_pct=1.0)
+    r = run(
+        voltage_v=12.0,
+        operating_current_a=100.0,
+        max_current_a=100.0,
+        fuse_a=125,
+        length_m=200.0,
+        drop_limit_pct=1.0,
+    )
     with pytest.raises(DesignError, match="voltage drop") as err:
         wr.size_conductor(r, "mm2", "copper", 75.0, 30.0, 90)
     assert err.value.code == "wire-drop"

@@ -10,10 +10,11 @@ from offgrid.wording import confirm_words
 
 def test_recalled_values_say_what_to_confirm():
     assert confirm_words("IEC 62485-2:2010 eq. 1 and A = 28 Q, from memory") == (
-        "IEC 62485-2:2010 eq. 1 and A = 28 Q; confirm against the current edition of "
-        "IEC 62485-2")
+        "IEC 62485-2:2010 eq. 1 and A = 28 Q; confirm against the current edition of IEC 62485-2"
+    )
     assert confirm_words("typical service life (from memory).") == (
-        "typical service life (confirm against the maker's datasheet).")
+        "typical service life (confirm against the maker's datasheet)."
+    )
     assert confirm_words("common practice, no source") == "common practice, no source"
 
 
@@ -24,7 +25,6 @@ def test_report_says_confirm_and_the_engine_keeps_from_memory():
     project = load_project(demo_project_path())
     d = design(project, demo_project_path().parent)
     assert any("from memory" in c for c in d.cautions)  # the stronger marking stays in code
-    text = render_text(build_report(project, d, base=demo_project_path().parent,
-                                    with_charts=False))
+    text = render_text(build_report(project, d, base=demo_project_path().parent, with_charts=False))
     assert "from memory" not in text
     assert "confirm against the current edition of IEC 62485-2" in text.replace("\n    ", " ")

@@ -22,9 +22,16 @@ from offgrid.sizing import design
 from tests.conftest import hand_project
 from tests.design_invariants import HARVEST_TOL
 
-LOAD_LISTS = ("household-basic.csv", "household-kit.csv", "household-medium.csv",
-              "primary-school.csv", "radio-repeater.csv", "rural-clinic.csv",
-              "village-shop.csv", "water-pump.csv")
+LOAD_LISTS = (
+    "household-basic.csv",
+    "household-kit.csv",
+    "household-medium.csv",
+    "primary-school.csv",
+    "radio-repeater.csv",
+    "rural-clinic.csv",
+    "village-shop.csv",
+    "water-pump.csv",
+)
 
 
 def _climates() -> list[str]:
@@ -37,13 +44,17 @@ def coverage_problems(supply, demand, design_month: int) -> list[str]:
     """Months whose supply is below demand, and a design month that is not the least covered."""
     s, d = np.asarray(supply, dtype=float), np.asarray(demand, dtype=float)
     used = d > 0
-    out = [f"month {i + 1}: supply {s[i]:.1f} < demand {d[i]:.1f} Wh/day"
-           for i in np.flatnonzero(used & (s < d * (1 - 1e-9)))]
+    out = [
+        f"month {i + 1}: supply {s[i]:.1f} < demand {d[i]:.1f} Wh/day"
+        for i in np.flatnonzero(used & (s < d * (1 - 1e-9)))
+    ]
     cover = np.where(used, s / np.where(used, d, 1.0), np.inf)
     least = float(cover.min())
     if cover[design_month - 1] > least * (1 + 1e-9):
-        out.append(f"design month {design_month} covers {cover[design_month - 1]:.4f}, month "
-                   f"{int(np.argmin(cover)) + 1} only {least:.4f}")
+        out.append(
+            f"design month {design_month} covers {cover[design_month - 1]:.4f}, month "
+            f"{int(np.argmin(cover)) + 1} only {least:.4f}"
+        )
     return out
 
 
@@ -89,9 +100,11 @@ def _bundled(loads_csv: str, climate: str):
     from offgrid.project.model import ClimateChoice, Project, Site
 
     clim = load_climate(climate)
-    return Project(site=Site(latitude_deg=clim.latitude_deg, longitude_deg=clim.longitude_deg),
-                   climate=ClimateChoice(ref=climate),
-                   loads=load_loads_csv(load_profiles_dir() / loads_csv))
+    return Project(
+        site=Site(latitude_deg=clim.latitude_deg, longitude_deg=clim.longitude_deg),
+        climate=ClimateChoice(ref=climate),
+        loads=load_loads_csv(load_profiles_dir() / loads_csv),
+    )
 
 
 def _design_or_refusal(p) -> SystemDesign | None:
@@ -124,8 +137,17 @@ def test_test_projects_are_covered():
     projects = [hand_project(), load_project(demo_project_path())]
     pwm = hand_project()
     pwm.controller.type = "pwm"
-    pwm.module = replace(pwm.module, name="36-cell", pmax_w=100.0, vmp_v=18.0, imp_a=5.56,
-                         voc_v=22.0, isc_a=5.9, cells_in_series=36, area_m2=0.67)
+    pwm.module = replace(
+        pwm.module,
+        name="36-cell",
+        pmax_w=100.0,
+        vmp_v=18.0,
+        imp_a=5.56,
+        voc_v=22.0,
+        isc_a=5.9,
+        cells_in_series=36,
+        area_m2=0.67,
+    )
     pwm.choices.system_voltage = 12
     projects.append(pwm)
     demo_pwm = load_project(demo_project_path())
@@ -140,12 +162,22 @@ def test_test_projects_are_covered():
 
 
 def test_size_json_of_the_demo_marks_the_least_covered_month():
-    out = subprocess.run([sys.executable, "-m", "offgrid", "size", "--demo", "--json"],
-                         capture_output=True, text=True, timeout=120)
+    out = subprocess.run(
+        [sys.executable, "-m", "offgrid", "size", "--demo", "--json"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
     assert out.returncode in (0, 1), out.stderr
     data = json.loads(out.stdout)
-    assert coverage_problems(data["array"]["supply_wh_day"], data["loads"]["daily_energy_wh"],
-                             data["site"]["design_month"]) == []
+    assert (
+        coverage_problems(
+            data["array"]["supply_wh_day"],
+            data["loads"]["daily_energy_wh"],
+            data["site"]["design_month"],
+        )
+        == []
+    )
 
 
 def test_bundled_community_rows_are_covered():

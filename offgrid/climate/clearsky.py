@@ -68,9 +68,11 @@ def linke_turbidity_ineichen2008(aod550, water_cm, elevation_m=0.0):
     with w the precipitable water [cm] and p0/p = exp(h / 8434.5).
     """
     pc = 1.0 / pressure_ratio(elevation_m)
-    return (3.91 * np.exp(0.689 * pc) * np.asarray(aod550, dtype=float)
-            + 0.376 * np.log(np.asarray(water_cm, dtype=float))
-            + (2.0 + 0.54 * pc - 0.5 * pc**2 + 0.16 * pc**3))
+    return (
+        3.91 * np.exp(0.689 * pc) * np.asarray(aod550, dtype=float)
+        + 0.376 * np.log(np.asarray(water_cm, dtype=float))
+        + (2.0 + 0.54 * pc - 0.5 * pc**2 + 0.16 * pc**3)
+    )
 
 
 def clearest_linke_turbidity(elevation_m=0.0) -> float:
@@ -94,8 +96,9 @@ def airmass_kasten_young(zenith_deg):
     return 1.0 / (np.cos(np.radians(z)) + 0.50572 * (96.07995 - z) ** -1.6364)
 
 
-def ineichen_perez(cos_zenith, airmass_absolute, linke, elevation_m=0.0,
-                   dni_extra_w_m2=sky.SOLAR_CONSTANT_W_M2):
+def ineichen_perez(
+    cos_zenith, airmass_absolute, linke, elevation_m=0.0, dni_extra_w_m2=sky.SOLAR_CONSTANT_W_M2
+):
     """Clear-sky GHI, DNI, DHI [W/m2], Ineichen & Perez (2002) [1]_ (numpy).
 
     The same formulas as ``pvlib.clearsky.ineichen`` without the Perez
@@ -118,8 +121,9 @@ def ineichen_perez(cos_zenith, airmass_absolute, linke, elevation_m=0.0,
     return np.where(up, ghi, zero), np.where(up, dni, zero), np.where(up, dhi, zero)
 
 
-def clearest_sky_days(latitude_deg: float, elevation_m: float = 0.0,
-                      days=None, steps: int = _CEILING_STEPS) -> dict:
+def clearest_sky_days(
+    latitude_deg: float, elevation_m: float = 0.0, days=None, steps: int = _CEILING_STEPS
+) -> dict:
     """Cloudless days in the clearest plausible air, numpy only.
 
     Sun geometry of each day (Spencer declination, hour angle at the midpoints of
@@ -141,9 +145,15 @@ def declination_spencer71(day_of_year):
     (within about 0.035 deg; Cooper's eq. 1.6.1a can be off by a degree, which matters when
     the noon sun is a degree or two above the horizon)."""
     b = np.radians((np.asarray(day_of_year, dtype=float) - 1.0) * 360.0 / 365.0)
-    return np.degrees(0.006918 - 0.399912 * np.cos(b) + 0.070257 * np.sin(b)
-                      - 0.006758 * np.cos(2 * b) + 0.000907 * np.sin(2 * b)
-                      - 0.002697 * np.cos(3 * b) + 0.00148 * np.sin(3 * b))
+    return np.degrees(
+        0.006918
+        - 0.399912 * np.cos(b)
+        + 0.070257 * np.sin(b)
+        - 0.006758 * np.cos(2 * b)
+        + 0.000907 * np.sin(2 * b)
+        - 0.002697 * np.cos(3 * b)
+        + 0.00148 * np.sin(3 * b)
+    )
 
 
 def refraction_saemundsson_deg(elevation_deg):
@@ -162,8 +172,9 @@ def _clearest_year(latitude_deg: float, elevation_m: float, steps: int) -> dict:
     dec = np.radians(declination_spencer71(n))[:, None]
     # the day runs while the sun's upper edge is above the horizon, refraction included
     # (true centre at -0.833 deg, the usual almanac sunrise)
-    x = ((np.sin(np.radians(-0.833)) - np.sin(phi) * np.sin(dec[:, 0]))
-         / np.maximum(np.cos(phi) * np.cos(dec[:, 0]), 1e-12))
+    x = (np.sin(np.radians(-0.833)) - np.sin(phi) * np.sin(dec[:, 0])) / np.maximum(
+        np.cos(phi) * np.cos(dec[:, 0]), 1e-12
+    )
     ws = np.arccos(np.clip(x, -1.0, 1.0))[:, None]
     w = ws * (2.0 * (np.arange(steps) + 0.5)[None, :] / steps - 1.0)
     cos_true = np.sin(phi) * np.sin(dec) + np.cos(phi) * np.cos(dec) * np.cos(w)
@@ -171,20 +182,38 @@ def _clearest_year(latitude_deg: float, elevation_m: float, steps: int) -> dict:
     elev_app = elev_true + refraction_saemundsson_deg(elev_true)
     cos_z = np.sin(np.radians(elev_app))  # apparent sun: what the beam and air mass see
     sin_true = np.sqrt(np.maximum(1.0 - cos_true**2, 0.0))
-    sin_ratio = np.divide(np.cos(np.radians(elev_app)), sin_true, out=np.ones_like(sin_true),
-                          where=sin_true > 1e-9)
-    am = airmass_kasten_young(90.0 - elev_app) * pressure_standard_atmosphere_pa(
-        elevation_m) / 101325.0
+    sin_ratio = np.divide(
+        np.cos(np.radians(elev_app)), sin_true, out=np.ones_like(sin_true), where=sin_true > 1e-9
+    )
+    am = (
+        airmass_kasten_young(90.0 - elev_app)
+        * pressure_standard_atmosphere_pa(elevation_m)
+        / 101325.0
+    )
     b = np.radians((n - 1.0) * 360.0 / 365.0)
-    e0 = (1.000110 + 0.034221 * np.cos(b) + 0.001280 * np.sin(b) + 0.000719 * np.cos(2 * b)
-          + 0.000077 * np.sin(2 * b))  # Spencer (1971), Duffie & Beckman eq. 1.4.1b
+    e0 = (
+        1.000110
+        + 0.034221 * np.cos(b)
+        + 0.001280 * np.sin(b)
+        + 0.000719 * np.cos(2 * b)
+        + 0.000077 * np.sin(2 * b)
+    )  # Spencer (1971), Duffie & Beckman eq. 1.4.1b
     i0 = sky.SOLAR_CONSTANT_W_M2 * e0[:, None]
-    ghi, dni, dhi = ineichen_perez(cos_z, am, clearest_linke_turbidity(elevation_m),
-                                   elevation_m, i0)
-    out = {"days": n.astype(int), "declination_rad": dec, "hour_angle_rad": w,
-           "cos_zenith": cos_z, "sin_zenith_ratio": sin_ratio, "ghi": ghi, "dni": dni, "dhi": dhi,
-           "step_h": 2.0 * np.degrees(ws[:, 0]) / 15.0 / steps,
-           "linke": clearest_linke_turbidity(elevation_m)}
+    ghi, dni, dhi = ineichen_perez(
+        cos_z, am, clearest_linke_turbidity(elevation_m), elevation_m, i0
+    )
+    out = {
+        "days": n.astype(int),
+        "declination_rad": dec,
+        "hour_angle_rad": w,
+        "cos_zenith": cos_z,
+        "sin_zenith_ratio": sin_ratio,
+        "ghi": ghi,
+        "dni": dni,
+        "dhi": dhi,
+        "step_h": 2.0 * np.degrees(ws[:, 0]) / 15.0 / steps,
+        "linke": clearest_linke_turbidity(elevation_m),
+    }
     for value in out.values():
         if isinstance(value, np.ndarray):
             value.setflags(write=False)  # shared by the cache
@@ -209,8 +238,9 @@ def clearest_sky_horizontal_kwh_m2(latitude_deg: float, elevation_m: float = 0.0
     return _monthly_mean(daily, s["days"])
 
 
-def clearest_sky_any_plane_bound_kwh_m2(latitude_deg: float, elevation_m: float = 0.0
-                                        ) -> np.ndarray:
+def clearest_sky_any_plane_bound_kwh_m2(
+    latitude_deg: float, elevation_m: float = 0.0
+) -> np.ndarray:
     """A bound of :func:`clearest_sky_plane_kwh_m2` for every tilt, azimuth and albedo
     [kWh/m2/day]: beam normal + sky diffuse + global (cos incidence, the view factors and
     the reflectance all at most 1).  Cheap; months below it need no exact ceiling."""
@@ -219,9 +249,15 @@ def clearest_sky_any_plane_bound_kwh_m2(latitude_deg: float, elevation_m: float 
     return _monthly_mean(daily, s["days"])
 
 
-def clearest_sky_plane_kwh_m2(latitude_deg: float, tilt_deg, azimuth_deg: float, albedo,
-                              elevation_m: float = 0.0, months=None,
-                              every_other_day: bool = False) -> np.ndarray:
+def clearest_sky_plane_kwh_m2(
+    latitude_deg: float,
+    tilt_deg,
+    azimuth_deg: float,
+    albedo,
+    elevation_m: float = 0.0,
+    months=None,
+    every_other_day: bool = False,
+) -> np.ndarray:
     """Monthly mean daily insolation on a tilted plane under the clearest plausible sky
     [kWh/m2/day]: beam DNI cos(incidence), isotropic sky diffuse DHI (1 + cos b)/2 and
     ground-reflected GHI rho (1 - cos b)/2, summed over every day of the month.
@@ -243,17 +279,22 @@ def clearest_sky_plane_kwh_m2(latitude_deg: float, tilt_deg, azimuth_deg: float,
     phi = np.radians(latitude_deg)
     gamma = np.radians(float(azimuth_deg) - 180.0)  # D&B: 0 = south, west positive
     dec, w = s["declination_rad"], s["hour_angle_rad"]
-    b_term = (-np.sin(dec) * np.cos(phi) * np.cos(gamma)
-              + np.cos(dec) * np.sin(phi) * np.cos(gamma) * np.cos(w)
-              + np.cos(dec) * np.sin(gamma) * np.sin(w))  # D&B eq. 1.6.2: cos t = cz cb + B sb
+    b_term = (
+        -np.sin(dec) * np.cos(phi) * np.cos(gamma)
+        + np.cos(dec) * np.sin(phi) * np.cos(gamma) * np.cos(w)
+        + np.cos(dec) * np.sin(gamma) * np.sin(w)
+    )  # D&B eq. 1.6.2: cos t = cz cb + B sb
     b_term = b_term * s["sin_zenith_ratio"]  # the refracted sun's horizontal component
     b = np.radians(np.atleast_1d(tilt))[:, None, None]
     cos_t = np.maximum(s["cos_zenith"][None] * np.cos(b) + b_term[None] * np.sin(b), 0.0)
     month = _MONTH_OF_DAY[days - 1]
     rho_day = rho[month][None, :, None]
     t = np.atleast_1d(tilt)[:, None, None]
-    g = (s["dni"][None] * cos_t + sky_diffuse_isotropic(t, s["dhi"][None])
-         + ground_reflected_isotropic(t, s["ghi"][None], rho_day))
+    g = (
+        s["dni"][None] * cos_t
+        + sky_diffuse_isotropic(t, s["dhi"][None])
+        + ground_reflected_isotropic(t, s["ghi"][None], rho_day)
+    )
     daily = g.sum(axis=2) * s["step_h"][None] / 1000.0  # (T, days)
     means = _monthly_mean(daily, days)
     res = np.where(mask[None], means, np.inf)
@@ -272,8 +313,9 @@ def extraterrestrial_monthly_mean_kwh_m2(latitude_deg: float) -> np.ndarray:
     return np.bincount(month, weights=h0, minlength=12) / sky.DAYS_IN_MONTH
 
 
-def clear_sky_daily_ineichen(latitude_deg: float, longitude_deg: float, elevation_m: float = 0.0,
-                             step_min: float = 10.0) -> np.ndarray:
+def clear_sky_daily_ineichen(
+    latitude_deg: float, longitude_deg: float, elevation_m: float = 0.0, step_min: float = 10.0
+) -> np.ndarray:
     """Clear-sky global horizontal insolation, monthly mean of daily totals [kWh/m2/day].
 
     Ineichen-Perez model [1]_ with the monthly Linke turbidity from pvlib's
@@ -286,8 +328,9 @@ def clear_sky_daily_ineichen(latitude_deg: float, longitude_deg: float, elevatio
 
     from offgrid.climate.sunpos import REFERENCE_YEAR, mean_day_sun_paths
 
-    sun = mean_day_sun_paths(latitude_deg, longitude_deg, elevation_m, step_min=step_min,
-                             days_of_year=SAMPLE_DAYS)
+    sun = mean_day_sun_paths(
+        latitude_deg, longitude_deg, elevation_m, step_min=step_min, days_of_year=SAMPLE_DAYS
+    )
     zen = sun["zenith_deg"]
     steps = zen.shape[1]
     noon = pd.Timestamp(f"{REFERENCE_YEAR}-01-01 12:00", tz="UTC")
@@ -296,8 +339,9 @@ def clear_sky_daily_ineichen(latitude_deg: float, longitude_deg: float, elevatio
     am_rel = atmosphere.get_relative_airmass(np.where(zen < 90, zen, np.nan))
     am_abs = atmosphere.get_absolute_airmass(am_rel, atmosphere.alt2pres(elevation_m))
     with np.errstate(divide="ignore", invalid="ignore"):  # night rows: NaN airmass, set to 0
-        cs = clearsky.ineichen(zen.ravel(), np.asarray(am_abs).ravel(),
-                               np.repeat(linke, steps), altitude=elevation_m)
+        cs = clearsky.ineichen(
+            zen.ravel(), np.asarray(am_abs).ravel(), np.repeat(linke, steps), altitude=elevation_m
+        )
     ghi = np.nan_to_num(np.asarray(cs["ghi"], dtype=float).reshape(zen.shape), nan=0.0)
     ghi = np.where(zen < 90, np.maximum(ghi, 0.0), 0.0)
     daily = ghi.sum(axis=1) * sun["step_h"] / 1000.0

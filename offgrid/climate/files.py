@@ -47,8 +47,12 @@ SUFFIX = ".toml"
 DAYS_IN_YEAR = 365
 DAILY_KEYS = ("insolation_kwh_m2_day", "temp_mean_c", "temp_max_c", "temp_min_c")
 #: Plausible bounds of the daily values (a clear high-altitude summer day reaches about 10).
-DAILY_BOUNDS = {"insolation_kwh_m2_day": (0.0, 15.0), "temp_mean_c": (-90.0, 60.0),
-                "temp_max_c": (-90.0, 65.0), "temp_min_c": (-95.0, 60.0)}
+DAILY_BOUNDS = {
+    "insolation_kwh_m2_day": (0.0, 15.0),
+    "temp_mean_c": (-90.0, 60.0),
+    "temp_max_c": (-90.0, 65.0),
+    "temp_min_c": (-95.0, 60.0),
+}
 
 
 #: Largest climate file read (one with its 365-day series is about 50 kB).
@@ -73,8 +77,11 @@ def user_climates() -> dict[str, Path]:
     if not folder.is_dir():
         return {}
     bundled = bundled_climates()
-    return {p.stem: p for p in sorted(folder.glob(f"*{SUFFIX}"))
-            if p.is_file() and p.stem not in bundled}
+    return {
+        p.stem: p
+        for p in sorted(folder.glob(f"*{SUFFIX}"))
+        if p.is_file() and p.stem not in bundled
+    }
 
 
 #: Mean radius of the Earth, km (IUGG, Moritz 2000, Geodetic Reference System 1980).
@@ -114,11 +121,19 @@ def _entry(name: str, path: Path, origin: str, near: tuple[float, float] | None)
     ok = isinstance(lat, number) and isinstance(lon, number) and not isinstance(lat, bool)
     dist = distance_km(near[0], near[1], float(lat), float(lon)) if near and ok else None
     return ClimateEntry(
-        name=name, path=path, origin=origin, title=str(h.get("name") or name),
-        source=str(h.get("source", "")), demo=bool(h.get("demo", False)),
-        latitude_deg=float(lat) if ok else None, longitude_deg=float(lon) if ok else None,
+        name=name,
+        path=path,
+        origin=origin,
+        title=str(h.get("name") or name),
+        source=str(h.get("source", "")),
+        demo=bool(h.get("demo", False)),
+        latitude_deg=float(lat) if ok else None,
+        longitude_deg=float(lon) if ok else None,
         elevation_m=h.get("elevation_m") if isinstance(h.get("elevation_m"), number) else None,
-        daily=bool(h.get("daily", False)), error=str(h.get("error", "")), distance_km=dist)
+        daily=bool(h.get("daily", False)),
+        error=str(h.get("error", "")),
+        distance_km=dist,
+    )
 
 
 def climate_library(near: tuple[float, float] | None = None) -> list[ClimateEntry]:
@@ -179,11 +194,15 @@ def resolve_climate(ref: str, base: Path | None = None) -> Path:
         return found
     for c in candidates:
         if c.is_dir():
-            raise ClimateFileError(f"climate '{ref}' is a folder, not a climate file: give the "
-                                   "file itself or a climate name")
+            raise ClimateFileError(
+                f"climate '{ref}' is a folder, not a climate file: give the "
+                "file itself or a climate name"
+            )
         if c.exists():  # a FIFO, a device or a socket: never opened
-            raise ClimateFileError(f"climate '{ref}' is not a regular file: give a saved "
-                                   "climate file or a climate name")
+            raise ClimateFileError(
+                f"climate '{ref}' is not a regular file: give a saved "
+                "climate file or a climate name"
+            )
     raise ClimateFileError(
         f"climate '{ref}' not found: give a file path or one of the climates "
         f"({known_climate_names()}); see `offgrid climate list`"
@@ -203,8 +222,9 @@ def _twelve(table: dict, key: str, where: str, required: bool = True) -> list[fl
         if isinstance(v, bool) or not isinstance(v, int | float):
             raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a number")
         if not is_finite_number(v):
-            raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a finite number: give "
-                                   "the month's value")
+            raise ClimateFileError(
+                f"{where}.{key}[{i}]: '{v}' is not a finite number: give the month's value"
+            )
         out.append(float(v))
     return out
 
@@ -215,11 +235,14 @@ def _albedo(table: dict, where: str) -> float | list[float] | None:
         return None
     value = table["albedo"]
     if isinstance(value, list):
-        return [v if isinstance(v, bool) or not isinstance(v, int | float) else float(v)
-                for v in value]
+        return [
+            v if isinstance(v, bool) or not isinstance(v, int | float) else float(v) for v in value
+        ]
     if isinstance(value, bool) or not isinstance(value, int | float):
-        raise ClimateFileError(f"{where}.albedo: '{value}' is not a number; give one ground "
-                               "reflectance (0-1) or twelve, January first")
+        raise ClimateFileError(
+            f"{where}.albedo: '{value}' is not a number; give one ground "
+            "reflectance (0-1) or twelve, January first"
+        )
     return float(value)
 
 
@@ -254,24 +277,31 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
 
 #: Plausible ranges of a climate's values: key -> (low, high, unit, hint when out of range).
 MONTHLY_BOUNDS = {
-    "insolation_kwh_m2_day": (0.0, 12.0, "kWh/m2/day", "; check the unit (MJ/m2/day divided "
-                                                      "by 3.6 gives kWh/m2/day)"),
+    "insolation_kwh_m2_day": (
+        0.0,
+        12.0,
+        "kWh/m2/day",
+        "; check the unit (MJ/m2/day divided by 3.6 gives kWh/m2/day)",
+    ),
     "temp_mean_c": (-70.0, 55.0, "C", " for a monthly mean"),
     "temp_max_c": (-70.0, 65.0, "C", " for a monthly mean daily maximum"),
     "temp_min_c": (-90.0, 55.0, "C", " for a monthly mean daily minimum"),
 }
-SITE_BOUNDS = {"latitude_deg": (-90.0, 90.0, "degrees", ", north positive"),
-               "longitude_deg": (-180.0, 180.0, "degrees", ", east positive"),
-               "elevation_m": (-430.0, 9000.0, "m", " above sea level"),
-               "record_low_c": (-90.0, 40.0, "C", " for the lowest temperature on record")}
+SITE_BOUNDS = {
+    "latitude_deg": (-90.0, 90.0, "degrees", ", north positive"),
+    "longitude_deg": (-180.0, 180.0, "degrees", ", east positive"),
+    "elevation_m": (-430.0, 9000.0, "m", " above sea level"),
+    "record_low_c": (-90.0, 40.0, "C", " for the lowest temperature on record"),
+}
 
 
 def _span(lo: float, hi: float) -> str:
     return f"{lo:g}-{hi:g}" if lo >= 0 else f"{lo:g} to {hi:g}"
 
 
-def monthly_climate_problems(climate: MonthlyClimate, where: str = "climate",
-                             sub: str | None = None) -> list[tuple[str, str]]:
+def monthly_climate_problems(
+    climate: MonthlyClimate, where: str = "climate", sub: str | None = None
+) -> list[tuple[str, str]]:
     """Every problem with a climate table as (dotted path, message with the fix)."""
     import math
 
@@ -284,16 +314,23 @@ def monthly_climate_problems(climate: MonthlyClimate, where: str = "climate",
         if values is None:
             continue
         if len(values) != 12:
-            out.append((f"{sub}.{key}", f"needs exactly 12 monthly values, January first (has "
-                                        f"{len(values)})"))
+            out.append(
+                (
+                    f"{sub}.{key}",
+                    f"needs exactly 12 monthly values, January first (has {len(values)})",
+                )
+            )
             continue
         for i, v in enumerate(values, start=1):
             if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
-                out.append((f"{sub}.{key}[{i}]", f"'{v}' is not a number: give the month's "
-                                                 f"value in {unit}"))
+                out.append(
+                    (
+                        f"{sub}.{key}[{i}]",
+                        f"'{v}' is not a number: give the month's value in {unit}",
+                    )
+                )
             elif not lo <= v <= hi:
-                out.append((f"{sub}.{key}[{i}]", f"{v:g} is outside {_span(lo, hi)} "
-                                                 f"{unit}{hint}"))
+                out.append((f"{sub}.{key}[{i}]", f"{v:g} is outside {_span(lo, hi)} {unit}{hint}"))
     out.extend(albedo_problems(getattr(climate, "albedo", None), f"{sub}.albedo"))
     if out:
         return out
@@ -302,8 +339,13 @@ def monthly_climate_problems(climate: MonthlyClimate, where: str = "climate",
         values = getattr(climate, key)
         for i, (v, m) in enumerate(zip(values or (), mean, strict=False), start=1):
             if sign * (v - m) < -0.05:
-                out.append((f"{sub}.{key}[{i}]", f"{v:g} C is {word} the month's mean {m:g} C: "
-                                                 "check the columns are not swapped"))
+                out.append(
+                    (
+                        f"{sub}.{key}[{i}]",
+                        f"{v:g} C is {word} the month's mean {m:g} C: "
+                        "check the columns are not swapped",
+                    )
+                )
     for key, (lo, hi, unit, hint) in SITE_BOUNDS.items():
         v = getattr(climate, key)
         if v is None:
@@ -314,9 +356,14 @@ def monthly_climate_problems(climate: MonthlyClimate, where: str = "climate",
             out.append((f"{where}.{key}", f"{v:g} is outside {_span(lo, hi)} {unit}{hint}"))
     low = climate.record_low_c
     if low is not None and math.isfinite(low) and mean and low > min(mean) + 0.05:
-        out.append((f"{where}.record_low_c", f"{low:g} C is above the coldest monthly mean "
-                                             f"({min(mean):g} C): give the lowest temperature "
-                                             "on record"))
+        out.append(
+            (
+                f"{where}.record_low_c",
+                f"{low:g} C is above the coldest monthly mean "
+                f"({min(mean):g} C): give the lowest temperature "
+                "on record",
+            )
+        )
     return out
 
 
@@ -329,14 +376,17 @@ def daily_from_dict(table: object, where: str = "daily") -> DailyClimate:
         series = table.get(key)
         if not isinstance(series, list) or len(series) != DAYS_IN_YEAR:
             got = len(series) if isinstance(series, list) else "none"
-            raise ClimateFileError(f"{where}.{key}: needs {DAYS_IN_YEAR} daily values, 1 January "
-                                   f"first, 29 February left out (got {got})")
+            raise ClimateFileError(
+                f"{where}.{key}: needs {DAYS_IN_YEAR} daily values, 1 January "
+                f"first, 29 February left out (got {got})"
+            )
         lo, hi = DAILY_BOUNDS[key]
         out = []
         for i, v in enumerate(series, start=1):
             if isinstance(v, bool) or not isinstance(v, int | float) or not lo <= v <= hi:
-                raise ClimateFileError(f"{where}.{key}[{i}]: '{v}' is not a number in {lo:g} to "
-                                       f"{hi:g}")
+                raise ClimateFileError(
+                    f"{where}.{key}[{i}]: '{v}' is not a number in {lo:g} to {hi:g}"
+                )
             out.append(float(v))
         values[key] = out
     return DailyClimate(**values)
@@ -356,7 +406,7 @@ def _number(data: dict, key: str, where: str) -> float | None:
 def _text(data: dict, key: str, where: str) -> str:
     v = data.get(key, "")
     if not isinstance(v, str):
-        raise ClimateFileError(f"{where}.{key}: must be text in quotes, e.g. {key} = \"...\"")
+        raise ClimateFileError(f'{where}.{key}: must be text in quotes, e.g. {key} = "..."')
     return v
 
 
@@ -377,14 +427,17 @@ def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyCli
     except TextFileError as exc:
         raise ClimateFileError(f"{path}: {exc}") from None
     except RecursionError:
-        raise ClimateFileError(f"{path}: tables or lists nested far too deep: not a climate "
-                               "file") from None
+        raise ClimateFileError(
+            f"{path}: tables or lists nested far too deep: not a climate file"
+        ) from None
     except tomllib.TOMLDecodeError as exc:
         raise ClimateFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from exc
     if data.get("format") != CLIMATE_FORMAT:
-        raise ClimateFileError(f"{path}: not an offgrid climate file: it must start with the line "
-                               f"format = \"{CLIMATE_FORMAT}\" (import weather files with "
-                               "`offgrid climate import`)")
+        raise ClimateFileError(
+            f"{path}: not an offgrid climate file: it must start with the line "
+            f'format = "{CLIMATE_FORMAT}" (import weather files with '
+            "`offgrid climate import`)"
+        )
     schema = data.get("schema", 1)
     if not isinstance(schema, int) or schema > CLIMATE_SCHEMA:
         raise ClimateFileError(
@@ -414,23 +467,26 @@ def climate_to_dict(climate: MonthlyClimate, name: str = "", include_daily: bool
         if value is not None:
             monthly[key] = list(value)
     if climate.albedo is not None:
-        monthly["albedo"] = (list(climate.albedo) if isinstance(climate.albedo, list | tuple)
-                             else climate.albedo)
+        monthly["albedo"] = (
+            list(climate.albedo) if isinstance(climate.albedo, list | tuple) else climate.albedo
+        )
     body["monthly"] = monthly
     if include_daily and climate.daily is not None:
         body["daily"] = {key: list(getattr(climate.daily, key)) for key in DAILY_KEYS}
     return body
 
 
-_MONTH_LABELS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov",
-                 "Dec")
+_MONTH_LABELS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 _MONTH_DAYS = (31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31)
 
 
 def _daily_text(daily: DailyClimate) -> str:
     """The [daily] table, one line per month, so that a person can read it."""
-    lines = ["", "[daily]",
-             "# One value per day, 1 January first, 365 days (29 February left out)."]
+    lines = [
+        "",
+        "[daily]",
+        "# One value per day, 1 January first, 365 days (29 February left out).",
+    ]
     for key in DAILY_KEYS:
         series = getattr(daily, key)
         lines.append(f"{key} = [")
@@ -438,7 +494,7 @@ def _daily_text(daily: DailyClimate) -> str:
         for label, n in zip(_MONTH_LABELS, _MONTH_DAYS, strict=True):
             for first in (0, 16):  # two lines a month: days 1-16 and 17-end
                 last = min(n, first + 16)
-                chunk = ", ".join(f"{v:g}" for v in series[start + first:start + last])
+                chunk = ", ".join(f"{v:g}" for v in series[start + first : start + last])
                 lines.append(f"    {chunk}, # {label} {first + 1}-{last}")
             start += n
         lines.append("]")
@@ -449,8 +505,11 @@ def dumps_climate(climate: MonthlyClimate, name: str = "") -> str:
     """Climate file text: a header comment, the monthly table, the daily series if any."""
     from offgrid.project.toml_out import dumps
 
-    head = ("# DEMONSTRATION DATA: invented values for examples and tests only.\n"
-            if climate.demo else "")
+    head = (
+        "# DEMONSTRATION DATA: invented values for examples and tests only.\n"
+        if climate.demo
+        else ""
+    )
     head += "# offgrid climate file; the format is described in docs/climate-format.md\n"
     body = climate_to_dict(climate, name, include_daily=False)
     monthly = body.pop("monthly")
@@ -465,8 +524,7 @@ def dumps_climate(climate: MonthlyClimate, name: str = "") -> str:
     return head + text
 
 
-def save_climate(climate: MonthlyClimate, path: Path, name: str = "",
-                 backup: bool = True) -> Path:
+def save_climate(climate: MonthlyClimate, path: Path, name: str = "", backup: bool = True) -> Path:
     """Write a climate file atomically (the previous one kept as ``.bak`` if ``backup``)."""
     from offgrid.project.atomic import atomic_write_text
 

@@ -100,8 +100,15 @@ def beam_visible(points: Sequence[tuple[float, float]], zenith_deg, azimuth_deg)
     return ((elevation > 0.0) & (elevation > limit)).astype(float)
 
 
-def monthly_beam_factor(points, latitude_deg: float, longitude_deg: float, elevation_m: float,
-                        tilt_deg, azimuth_deg, sun=None):
+def monthly_beam_factor(
+    points,
+    latitude_deg: float,
+    longitude_deg: float,
+    elevation_m: float,
+    tilt_deg,
+    azimuth_deg,
+    sun=None,
+):
     """Fraction of the plane's daily beam kept by the horizon on each month's mean day [-].
 
     factor = sum(max(cos theta, 0) * visible) / sum(max(cos theta, 0)) over the

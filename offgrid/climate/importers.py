@@ -49,8 +49,14 @@ MAX_HOURLY_GHI_W_M2 = 1500.0  # above the solar constant plus cloud enhancement
 GHI_MISSING = (9999.0, 99999.0, -9900.0, -9999.0, -999.0)  # EPW, TMY2 and TMY3 markers
 TEMP_MISSING = (99.9, 999.9, 9999.0, -9900.0, -9999.0, -999.0)
 EPW_HEADER_KEYS = (
-    "LOCATION", "DESIGN CONDITIONS", "TYPICAL/EXTREME PERIODS", "GROUND TEMPERATURES",
-    "HOLIDAYS/DAYLIGHT SAVINGS", "COMMENTS 1", "COMMENTS 2", "DATA PERIODS",
+    "LOCATION",
+    "DESIGN CONDITIONS",
+    "TYPICAL/EXTREME PERIODS",
+    "GROUND TEMPERATURES",
+    "HOLIDAYS/DAYLIGHT SAVINGS",
+    "COMMENTS 1",
+    "COMMENTS 2",
+    "DATA PERIODS",
 )
 KINDS = ("epw", "tmy3", "tmy2", "monthly-csv")
 _KIND_LABEL = {"epw": "EPW", "tmy3": "TMY3", "tmy2": "TMY2", "monthly-csv": "monthly CSV"}
@@ -177,8 +183,7 @@ def _read_tmy3(path: Path) -> HourlyRows:
         latitude_deg=float(meta["latitude"]),
         longitude_deg=float(meta["longitude"]),
         elevation_m=float(meta["altitude"]),
-        station=f"{str(meta.get('Name', '')).strip(chr(34)).strip()}, {meta.get('State', '')}"
-        .strip(", "),
+        station=_station_name(meta),
         kind="tmy3",
     )
 
@@ -235,11 +240,12 @@ def _read_tmy2(path: Path, use_pvlib: bool = False) -> HourlyRows:
         out = np.empty(len(body))
         for i, text in enumerate(body):
             try:
-                out[i] = float(text[a - 1:b])
+                out[i] = float(text[a - 1 : b])
             except ValueError:
                 raise WeatherFileError(
-                    f"{path.name} line {i + 2}: {what} '{text[a - 1:b]}' (characters {a}-{b}) "
-                    "is not a number") from None
+                    f"{path.name} line {i + 2}: {what} '{text[a - 1 : b]}' (characters {a}-{b}) "
+                    "is not a number"
+                ) from None
         return out
 
     meta = _tmy2_meta(path, lines[0])
@@ -268,11 +274,16 @@ def _tmy2_meta(path: Path, header: str) -> dict:
     except (ValueError, IndexError):
         raise WeatherFileError(
             f"{path.name} line 1: not a TMY2 station header (WBAN, city, state, time zone, "
-            "N/S degrees minutes, E/W degrees minutes, elevation)") from None
+            "N/S degrees minutes, E/W degrees minutes, elevation)"
+        ) from None
     city = " ".join(tokens[1:-9])
-    return {"latitude_deg": lat if ns == "N" else -lat,
-            "longitude_deg": -lon if ew == "W" else lon, "elevation_m": elev,
-            "station": f"{city}, {tokens[-9]}".strip(", "), "kind": "tmy2"}
+    return {
+        "latitude_deg": lat if ns == "N" else -lat,
+        "longitude_deg": -lon if ew == "W" else lon,
+        "elevation_m": elev,
+        "station": f"{city}, {tokens[-9]}".strip(", "),
+        "kind": "tmy2",
+    }
 
 
 def _read_tmy2_pvlib(path: Path) -> HourlyRows:
@@ -337,8 +348,11 @@ def _read_epw(path: Path) -> HourlyRows:
         latitude_deg=float(meta["latitude"]),
         longitude_deg=float(meta["longitude"]),
         elevation_m=float(meta["altitude"]),
-        station=", ".join(str(meta.get(k, "")).strip() for k in ("city", "country")
-                          if str(meta.get(k, "")).strip() not in ("", "-")),
+        station=", ".join(
+            str(meta.get(k, "")).strip()
+            for k in ("city", "country")
+            if str(meta.get(k, "")).strip() not in ("", "-")
+        ),
         kind="epw",
     )
 
@@ -367,13 +381,15 @@ def read_hourly(path: str | Path, kind: str | None = None) -> HourlyRows:
     kind = kind or detect_kind(path)
     if kind not in _READERS:
         raise WeatherFileError(
-            f"{path.name}: '{kind}' is not an hourly format ({', '.join(_READERS)})")
+            f"{path.name}: '{kind}' is not an hourly format ({', '.join(_READERS)})"
+        )
     rows = _READERS[kind](path)
     if len(rows.month) == 0:
         raise WeatherFileError(f"{path.name}: no data rows")
     try:
-        validate_location(rows.latitude_deg, rows.longitude_deg, rows.elevation_m,
-                          where=f"{path.name} header")
+        validate_location(
+            rows.latitude_deg, rows.longitude_deg, rows.elevation_m, where=f"{path.name} header"
+        )
     except ValueError as exc:
         raise WeatherFileError(str(exc)) from None
     return rows
@@ -418,18 +434,20 @@ def reduce_hourly(rows: HourlyRows, source: str = "", name: str = "") -> ImportR
     fname = name or rows.kind
     notes: list[str] = []
     month, day, hour = rows.month, rows.day, rows.hour
-    for arr, lo, hi, what in ((month, 1, 12, "month"), (day, 1, 31, "day"),
-                              (hour, 0, 24, "hour")):
+    for arr, lo, hi, what in ((month, 1, 12, "month"), (day, 1, 31, "day"), (hour, 0, 24, "hour")):
         bad = np.flatnonzero((arr < lo) | (arr > hi))
         if bad.size:
             i = int(bad[0])
-            raise WeatherFileError(f"{fname} line {int(rows.line[i])}: {what} {int(arr[i])} is "
-                                   f"outside {lo}-{hi}")
+            raise WeatherFileError(
+                f"{fname} line {int(rows.line[i])}: {what} {int(arr[i])} is outside {lo}-{hi}"
+            )
     if np.any(hour == 0):
         if np.any(hour == 24):
             i = int(np.flatnonzero(hour == 0)[0])
-            raise WeatherFileError(f"{fname} line {int(rows.line[i])}: hours 0 and 24 both "
-                                   "appear; the hour field must run 1-24 (or 0-23)")
+            raise WeatherFileError(
+                f"{fname} line {int(rows.line[i])}: hours 0 and 24 both "
+                "appear; the hour field must run 1-24 (or 0-23)"
+            )
         hour = hour + 1  # hour-beginning 0-23 -> hour-ending 1-24
     leap = bool(np.any((month == 2) & (day == 29)))
     starts = _month_starts(leap)
@@ -437,8 +455,10 @@ def reduce_hourly(rows: HourlyRows, source: str = "", name: str = "") -> ImportR
     over = np.flatnonzero(day > dim[month - 1])
     if over.size:
         i = int(over[0])
-        raise WeatherFileError(f"{fname} line {int(rows.line[i])}: day {int(day[i])} does not "
-                               f"exist in {MONTHS[month[i] - 1]}")
+        raise WeatherFileError(
+            f"{fname} line {int(rows.line[i])}: day {int(day[i])} does not "
+            f"exist in {MONTHS[month[i] - 1]}"
+        )
     n_days = int(starts[-1])
     doy0 = starts[month - 1] + day - 1  # 0-based day of year
     slot = doy0 * 24 + (hour - 1)
@@ -467,8 +487,9 @@ def reduce_hourly(rows: HourlyRows, source: str = "", name: str = "") -> ImportR
     temp_vals = rows.temp_air_c.astype(float).copy()
     ghi_vals[np.isin(ghi_vals, GHI_MISSING)] = np.nan
     temp_vals[np.isin(temp_vals, TEMP_MISSING)] = np.nan
-    bad = np.flatnonzero(np.isfinite(ghi_vals)
-                         & ((ghi_vals < 0) | (ghi_vals > MAX_HOURLY_GHI_W_M2)))
+    bad = np.flatnonzero(
+        np.isfinite(ghi_vals) & ((ghi_vals < 0) | (ghi_vals > MAX_HOURLY_GHI_W_M2))
+    )
     if bad.size:
         i = int(bad[0])
         raise WeatherFileError(
@@ -524,8 +545,10 @@ def reduce_hourly(rows: HourlyRows, source: str = "", name: str = "") -> ImportR
     keep = np.ones(n_days, bool)
     if leap:
         keep[starts[1] + 28] = False
-        notes.append("leap year: 29 February is in the monthly means, left out of the daily "
-                     "series (365 days)")
+        notes.append(
+            "leap year: 29 February is in the monthly means, left out of the daily "
+            "series (365 days)"
+        )
     climate = MonthlyClimate(
         insolation_kwh_m2_day=[round(float(x), 3) for x in monthly(daily_h)],
         temp_mean_c=[round(float(x), 2) for x in monthly(daily_t)],
@@ -548,8 +571,9 @@ def reduce_hourly(rows: HourlyRows, source: str = "", name: str = "") -> ImportR
         f"record_low_c {climate.record_low_c:g} C is the coldest hour of this one year; the "
         "coldest temperature on record at the site is usually lower: set it from local records"
     )
-    return ImportResult(climate=climate, kind=rows.kind, name=_slug(rows.station or fname),
-                        notes=tuple(notes))
+    return ImportResult(
+        climate=climate, kind=rows.kind, name=_slug(rows.station or fname), notes=tuple(notes)
+    )
 
 
 def _slug(text: str) -> str:
@@ -617,22 +641,25 @@ def read_monthly_csv(path: str | Path, unit: str | None = None) -> tuple[Monthly
     if "temp_mean_c" not in header:
         raise WeatherFileError(f"{path.name} line {head_line}: the header needs 'temp_mean_c'")
     cols = {h: i for i, h in enumerate(header)}
-    values: dict[str, list[float | None]] = {k: [None] * 12 for k in
-                                             (ins_cols[0], "temp_mean_c", "temp_max_c",
-                                              "temp_min_c")}
+    values: dict[str, list[float | None]] = {
+        k: [None] * 12 for k in (ins_cols[0], "temp_mean_c", "temp_max_c", "temp_min_c")
+    }
     seen: dict[int, int] = {}
     for (n, _), row in zip(body[1:], rows[1:], strict=True):
         if len(row) < len(header):
-            raise WeatherFileError(f"{path.name} line {n}: {len(row)} fields, the header has "
-                                   f"{len(header)}")
+            raise WeatherFileError(
+                f"{path.name} line {n}: {len(row)} fields, the header has {len(header)}"
+            )
         mtext = row[cols["month"]].strip().lower()
         month = _MONTH_WORDS.get(mtext[:3]) if not mtext.isdigit() else int(mtext)
         if month is None or not 1 <= month <= 12:
-            raise WeatherFileError(f"{path.name} line {n}: month '{row[cols['month']]}' is not "
-                                   "1-12 or Jan-Dec")
+            raise WeatherFileError(
+                f"{path.name} line {n}: month '{row[cols['month']]}' is not 1-12 or Jan-Dec"
+            )
         if month in seen:
-            raise WeatherFileError(f"{path.name} line {n}: {MONTHS[month - 1]} repeats line "
-                                   f"{seen[month]}")
+            raise WeatherFileError(
+                f"{path.name} line {n}: {MONTHS[month - 1]} repeats line {seen[month]}"
+            )
         seen[month] = n
         for key in values:
             if key not in cols:
@@ -641,29 +668,36 @@ def read_monthly_csv(path: str | Path, unit: str | None = None) -> tuple[Monthly
             try:
                 v = float(cell.replace(",", "."))
             except ValueError:
-                raise WeatherFileError(f"{path.name} line {n}: {key} '{cell}' is not a number"
-                                       ) from None
+                raise WeatherFileError(
+                    f"{path.name} line {n}: {key} '{cell}' is not a number"
+                ) from None
             if not np.isfinite(v):
                 raise WeatherFileError(f"{path.name} line {n}: {key} '{cell}' is not finite")
             values[key][month - 1] = v
     missing = [MONTHS[m] for m in range(12) if m + 1 not in seen]
     if missing:
-        raise WeatherFileError(f"{path.name}: months missing: {', '.join(missing)}; twelve rows "
-                               "are needed")
+        raise WeatherFileError(
+            f"{path.name}: months missing: {', '.join(missing)}; twelve rows are needed"
+        )
     meta_num: dict[str, float | None] = {}
     for key in _META_KEYS:
         if key in meta:
             try:
                 meta_num[key] = float(meta[key])
             except ValueError:
-                raise WeatherFileError(f"{path.name}: {key} '{meta[key]}' is not a number"
-                                       ) from None
+                raise WeatherFileError(
+                    f"{path.name}: {key} '{meta[key]}' is not a number"
+                ) from None
         else:
             meta_num[key] = None
     if meta_num["latitude_deg"] is not None:
         try:
-            validate_location(meta_num["latitude_deg"], meta_num["longitude_deg"],
-                              meta_num["elevation_m"], where=path.name)
+            validate_location(
+                meta_num["latitude_deg"],
+                meta_num["longitude_deg"],
+                meta_num["elevation_m"],
+                where=path.name,
+            )
         except ValueError as exc:
             raise WeatherFileError(str(exc)) from None
     ins_unit = unit or INSOLATION_COLUMNS[ins_cols[0]]
@@ -692,14 +726,16 @@ def _need_file(path: Path) -> None:
     if path.is_dir():
         raise WeatherFileError(f"{path}: is a folder, not a weather file; give the file itself")
     if path.exists() and not path.is_file():
-        raise WeatherFileError(f"{path}: is not a regular file (a pipe or a device); give a "
-                               "saved weather file")
+        raise WeatherFileError(
+            f"{path}: is not a regular file (a pipe or a device); give a saved weather file"
+        )
     if not path.is_file():
         raise WeatherFileError(f"{path}: no such file; check the folder and the file name")
 
 
-def import_weather_file(path: str | Path, kind: str | None = None, unit: str | None = None,
-                        clear_sky: bool = True) -> ImportResult:
+def import_weather_file(
+    path: str | Path, kind: str | None = None, unit: str | None = None, clear_sky: bool = True
+) -> ImportResult:
     """Import any supported file; the result carries the plausibility findings.
 
     ``unit`` applies to a monthly CSV's insolation column only.
@@ -707,18 +743,19 @@ def import_weather_file(path: str | Path, kind: str | None = None, unit: str | N
     try:
         return _import_weather_file(Path(path), kind, unit, clear_sky)
     except OSError as exc:
-        raise WeatherFileError(f"{path}: cannot be read: {exc.strerror or exc}; check the "
-                               "file's permissions") from None
+        raise WeatherFileError(
+            f"{path}: cannot be read: {exc.strerror or exc}; check the file's permissions"
+        ) from None
 
 
-def _import_weather_file(path: Path, kind: str | None, unit: str | None,
-                         clear_sky: bool) -> ImportResult:
+def _import_weather_file(
+    path: Path, kind: str | None, unit: str | None, clear_sky: bool
+) -> ImportResult:
     _need_file(path)
     kind = kind or detect_kind(path)
     if kind == "monthly-csv":
         climate, name = read_monthly_csv(path, unit=unit)
-        result = ImportResult(climate=climate, kind=kind,
-                              name=_slug(name or path.stem))
+        result = ImportResult(climate=climate, kind=kind, name=_slug(name or path.stem))
     else:
         rows = read_hourly(path, kind)
         label = _KIND_LABEL[kind]
@@ -726,5 +763,16 @@ def _import_weather_file(path: Path, kind: str | None, unit: str | None,
         source = f"{label} file {path.name}{station}, reduced by offgrid climate import"
         result = reduce_hourly(rows, source=source, name=path.name)
     findings = tuple(check_climate(result.climate, clear_sky=clear_sky))
-    return ImportResult(climate=result.climate, kind=result.kind, name=result.name,
-                        notes=result.notes, findings=findings)
+    return ImportResult(
+        climate=result.climate,
+        kind=result.kind,
+        name=result.name,
+        notes=result.notes,
+        findings=findings,
+    )
+
+
+def _station_name(meta: dict) -> str:
+    """TMY3 station as 'NAME, STATE' (quotes and stray separators removed)."""
+    name = str(meta.get("Name", "")).strip(chr(34)).strip()
+    return f"{name}, {meta.get('State', '')}".strip(", ")

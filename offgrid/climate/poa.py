@@ -111,19 +111,27 @@ _CEILING_NODES_DEG = np.arange(0.0, 90.0 + 1e-9, 5.0)
 
 
 @functools.lru_cache(maxsize=32)
-def _ceiling_table(latitude_deg: float, azimuth_deg: float, rho: tuple[float, ...],
-                   elevation_m: float) -> np.ndarray:
+def _ceiling_table(
+    latitude_deg: float, azimuth_deg: float, rho: tuple[float, ...], elevation_m: float
+) -> np.ndarray:
     from offgrid.climate.clearsky import CEILING_MODEL_MARGIN, clearest_sky_plane_kwh_m2
 
-    table = clearest_sky_plane_kwh_m2(latitude_deg, _CEILING_NODES_DEG, azimuth_deg,
-                                      np.asarray(rho), elevation_m, every_other_day=True)
+    table = clearest_sky_plane_kwh_m2(
+        latitude_deg,
+        _CEILING_NODES_DEG,
+        azimuth_deg,
+        np.asarray(rho),
+        elevation_m,
+        every_other_day=True,
+    )
     table = table * (1.0 + CEILING_MODEL_MARGIN)
     table.setflags(write=False)
     return table  # (nodes, 12)
 
 
-def clearest_sky_ceiling(latitude_deg: float, tilt_deg, azimuth_deg: float, albedo=None,
-                         elevation_m: float = 0.0) -> np.ndarray:
+def clearest_sky_ceiling(
+    latitude_deg: float, tilt_deg, azimuth_deg: float, albedo=None, elevation_m: float = 0.0
+) -> np.ndarray:
     """The plane-of-array ceiling [kWh/m2/day]: cloudless days in the clearest plausible air
     on the plane (:func:`offgrid.climate.clearsky.clearest_sky_plane_kwh_m2`) plus the
     model margin, computed every 5 degrees of tilt once per site and interpolated.
@@ -132,8 +140,9 @@ def clearest_sky_ceiling(latitude_deg: float, tilt_deg, azimuth_deg: float, albe
     table = _ceiling_table(float(latitude_deg), float(azimuth_deg), rho, float(elevation_m))
     tilt = np.asarray(tilt_deg, dtype=float)
     t = np.atleast_1d(tilt)
-    idx = np.clip(np.searchsorted(_CEILING_NODES_DEG, t, side="right") - 1, 0,
-                  _CEILING_NODES_DEG.size - 2)
+    idx = np.clip(
+        np.searchsorted(_CEILING_NODES_DEG, t, side="right") - 1, 0, _CEILING_NODES_DEG.size - 2
+    )
     frac = ((t - _CEILING_NODES_DEG[idx]) / 5.0)[:, None]
     out = table[idx] * (1.0 - frac) + table[idx + 1] * frac
     return out[0] if tilt.ndim == 0 else out
@@ -204,8 +213,13 @@ def ground_reflected_isotropic(tilt_deg, ghi, albedo):
     return ghi * albedo * (1 - np.cos(np.radians(tilt_deg))) / 2
 
 
-def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg: float, tilt_deg,
-                           azimuth_deg: float, albedo=sky.DEFAULT_ALBEDO) -> dict:
+def poa_monthly_liu_jordan(
+    insolation_kwh_m2_day,
+    latitude_deg: float,
+    tilt_deg,
+    azimuth_deg: float,
+    albedo=sky.DEFAULT_ALBEDO,
+) -> dict:
     """Liu and Jordan isotropic transposition of monthly means [1]_ [2]_ [3]_ [4]_.
 
     HT = H (1 - Hd/H) Rb + Hd (1 + cos b) / 2 + H rho (1 - cos b) / 2
@@ -247,14 +261,30 @@ def poa_monthly_liu_jordan(insolation_kwh_m2_day, latitude_deg: float, tilt_deg,
     beam = h * (1 - fd) * rb
     diffuse = sky_diffuse_isotropic(t, h * fd) + 0 * rb
     reflected = ground_reflected_isotropic(t, h, rho) + 0 * rb
-    return {"poa": beam + diffuse + reflected, "beam": beam, "diffuse": diffuse,
-            "reflected": reflected, "rb": rb, "kt": kt, "diffuse_fraction": fd}
+    return {
+        "poa": beam + diffuse + reflected,
+        "beam": beam,
+        "diffuse": diffuse,
+        "reflected": reflected,
+        "rb": rb,
+        "kt": kt,
+        "diffuse_fraction": fd,
+    }
 
 
 @memoised
-def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_deg: float,
-                albedo=sky.DEFAULT_ALBEDO, horizon=None, longitude_deg: float = 0.0,
-                elevation_m: float = 0.0, sun=None, cap: bool = True) -> MonthlyPoa:
+def poa_monthly(
+    insolation_kwh_m2_day,
+    latitude_deg: float,
+    tilt_deg,
+    azimuth_deg: float,
+    albedo=sky.DEFAULT_ALBEDO,
+    horizon=None,
+    longitude_deg: float = 0.0,
+    elevation_m: float = 0.0,
+    sun=None,
+    cap: bool = True,
+) -> MonthlyPoa:
     """Monthly plane-of-array insolation, Liu-Jordan with Klein's Rb [1]_ [2]_ [3]_.
 
     HT = Hb Rb f_h + Hd (1 + cos b)/2 + H rho (1 - cos b)/2, where Hd = H x
@@ -293,8 +323,9 @@ def poa_monthly(insolation_kwh_m2_day, latitude_deg: float, tilt_deg, azimuth_de
     if horizon:
         from offgrid.climate.horizon import monthly_beam_factor
 
-        factor = monthly_beam_factor(horizon, latitude_deg, longitude_deg, elevation_m,
-                                     tilt_deg, azimuth_deg, sun=sun)
+        factor = monthly_beam_factor(
+            horizon, latitude_deg, longitude_deg, elevation_m, tilt_deg, azimuth_deg, sun=sun
+        )
     else:
         factor = np.ones_like(rb)
     beam_open = lj["beam"]

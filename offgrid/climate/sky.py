@@ -28,8 +28,10 @@ SOLAR_CONSTANT_W_M2 = 1367.0  # Duffie & Beckman [1] sec. 1.2
 KLEIN_MEAN_DAY = np.array([17, 47, 75, 105, 135, 162, 198, 228, 258, 288, 318, 344])
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31])
 DEFAULT_ALBEDO = 0.2  # grass or bare soil (common practice, no source)
-ALBEDO_HINT = ("ground reflectance, a fraction 0-1: one value for the year or twelve, January "
-               "first (0.2 grass or soil; fresh snow about 0.7-0.8)")
+ALBEDO_HINT = (
+    "ground reflectance, a fraction 0-1: one value for the year or twelve, January "
+    "first (0.2 grass or soil; fresh snow about 0.7-0.8)"
+)
 
 
 def albedo_problems(value, path: str = "site.albedo") -> list[tuple[str, str]]:
@@ -45,8 +47,13 @@ def albedo_problems(value, path: str = "site.albedo") -> list[tuple[str, str]]:
         return []
     if isinstance(value, list | tuple):
         if len(value) not in (1, 12):
-            return [(path, f"has {len(value)} values; give one for the year or twelve, "
-                           "January first (ground reflectance, 0-1)")]
+            return [
+                (
+                    path,
+                    f"has {len(value)} values; give one for the year or twelve, "
+                    "January first (ground reflectance, 0-1)",
+                )
+            ]
         items = [(f"{path}[{i}]", v) for i, v in enumerate(value, start=1)]
     else:
         items = [(path, value)]
@@ -113,8 +120,11 @@ def extraterrestrial_daily_kwh_m2(latitude_deg, day_of_year):
     dec = np.radians(declination_cooper69(n))
     ws = np.radians(sunset_hour_angle(latitude_deg, np.degrees(dec)))
     e0 = 1.0 + 0.033 * np.cos(2.0 * np.pi * n / 365.0)
-    h0_j = (24 * 3600 / np.pi) * SOLAR_CONSTANT_W_M2 * e0 * (
-        np.cos(phi) * np.cos(dec) * np.sin(ws) + ws * np.sin(phi) * np.sin(dec)
+    h0_j = (
+        (24 * 3600 / np.pi)
+        * SOLAR_CONSTANT_W_M2
+        * e0
+        * (np.cos(phi) * np.cos(dec) * np.sin(ws) + ws * np.sin(phi) * np.sin(dec))
     )
     return np.maximum(h0_j, 0.0) / 3.6e6
 
@@ -127,8 +137,11 @@ def fao56_ra_mj_m2_day(latitude_deg, day_of_year):
     dec = 0.409 * np.sin(2 * np.pi * j / 365 - 1.39)
     ws = np.arccos(np.clip(-np.tan(phi) * np.tan(dec), -1, 1))
     gsc = 0.0820
-    return (24 * 60 / np.pi) * gsc * dr * (
-        ws * np.sin(phi) * np.sin(dec) + np.cos(phi) * np.cos(dec) * np.sin(ws)
+    return (
+        (24 * 60 / np.pi)
+        * gsc
+        * dr
+        * (ws * np.sin(phi) * np.sin(dec) + np.cos(phi) * np.cos(dec) * np.sin(ws))
     )
 
 

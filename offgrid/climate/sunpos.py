@@ -19,9 +19,15 @@ from offgrid.climate.sky import KLEIN_MEAN_DAY
 REFERENCE_YEAR = 2023
 
 
-def solar_position_spa(times, latitude_deg: float, longitude_deg: float, elevation_m: float = 0.0,
-                       pressure_hpa: float | None = None, temp_air_c: float = 12.0,
-                       delta_t_s: float = 67.0):
+def solar_position_spa(
+    times,
+    latitude_deg: float,
+    longitude_deg: float,
+    elevation_m: float = 0.0,
+    pressure_hpa: float | None = None,
+    temp_air_c: float = 12.0,
+    delta_t_s: float = 67.0,
+):
     """Apparent (refracted) zenith and azimuth of the sun [deg], Reda and Andreas (2004) [1].
 
     Parameters
@@ -50,15 +56,25 @@ def solar_position_spa(times, latitude_deg: float, longitude_deg: float, elevati
         pressure_pa = float(atmosphere.alt2pres(elevation_m))
     else:
         pressure_pa = pressure_hpa * 100.0
-    sp = solarposition.spa_python(times, latitude_deg, longitude_deg, altitude=elevation_m,
-                                  pressure=pressure_pa, temperature=temp_air_c,
-                                  delta_t=delta_t_s)
-    return {"zenith_deg": sp["apparent_zenith"].to_numpy(),
-            "azimuth_deg": sp["azimuth"].to_numpy()}
+    sp = solarposition.spa_python(
+        times,
+        latitude_deg,
+        longitude_deg,
+        altitude=elevation_m,
+        pressure=pressure_pa,
+        temperature=temp_air_c,
+        delta_t=delta_t_s,
+    )
+    return {"zenith_deg": sp["apparent_zenith"].to_numpy(), "azimuth_deg": sp["azimuth"].to_numpy()}
 
 
-def mean_day_sun_paths(latitude_deg: float, longitude_deg: float, elevation_m: float = 0.0,
-                       step_min: float = 5.0, days_of_year=KLEIN_MEAN_DAY):
+def mean_day_sun_paths(
+    latitude_deg: float,
+    longitude_deg: float,
+    elevation_m: float = 0.0,
+    step_min: float = 5.0,
+    days_of_year=KLEIN_MEAN_DAY,
+):
     """Sun positions across the mean day of each month (Klein 1977), local solar day.
 
     ``days_of_year`` may name other days (D of them).
@@ -74,8 +90,7 @@ def mean_day_sun_paths(latitude_deg: float, longitude_deg: float, elevation_m: f
     steps = round(24 * 60 / step_min)
     minutes = (np.arange(steps) + 0.5) * step_min  # interval midpoints, local solar time
     offset_min = -longitude_deg * 4.0  # local mean solar midnight, minutes after 00:00 UTC
-    day_start = np.datetime64(f"{REFERENCE_YEAR}-01-01T00:00") + (days - 1).astype(
-        "timedelta64[D]")
+    day_start = np.datetime64(f"{REFERENCE_YEAR}-01-01T00:00") + (days - 1).astype("timedelta64[D]")
     grid_min = (minutes[None, :] + offset_min) * 60.0  # seconds after 00:00 UTC of the day
     stamps = day_start[:, None] + np.round(grid_min).astype("timedelta64[s]")
     times = pd.DatetimeIndex(stamps.ravel()).tz_localize("UTC")

@@ -22,8 +22,7 @@ import numpy as np
 from offgrid.climate import sky
 from offgrid.climate.poa import poa_monthly
 
-MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov",
-               "Dec")
+MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 
 
 @dataclass(frozen=True)
@@ -66,10 +65,17 @@ def _fine_grid(best: float, lo: float, hi: float) -> np.ndarray:
     return np.round(np.arange(max(lo, best - 1.0), min(hi, best + 1.0) + 1e-9, 0.1), 6)
 
 
-def best_tilt(insolation_kwh_m2_day, latitude_deg: float, azimuth_deg: float | None = None,
-              demand_wh_day=None, albedo: float = 0.2, min_tilt_deg: float = 10.0,
-              horizon=None, longitude_deg: float = 0.0, elevation_m: float = 0.0
-              ) -> TiltChoice:
+def best_tilt(
+    insolation_kwh_m2_day,
+    latitude_deg: float,
+    azimuth_deg: float | None = None,
+    demand_wh_day=None,
+    albedo: float = 0.2,
+    min_tilt_deg: float = 10.0,
+    horizon=None,
+    longitude_deg: float = 0.0,
+    elevation_m: float = 0.0,
+) -> TiltChoice:
     """Search the tilt that maximises the worst month's supply against demand.
 
     Parameters
@@ -111,9 +117,17 @@ def best_tilt(insolation_kwh_m2_day, latitude_deg: float, azimuth_deg: float | N
         sun = mean_day_sun_paths(latitude_deg, longitude_deg, elevation_m)
 
     def poa(tilts):
-        return poa_monthly(h, latitude_deg, tilts, az, albedo, horizon=horizon,
-                           longitude_deg=longitude_deg, elevation_m=elevation_m,
-                           sun=sun).poa_kwh_m2_day
+        return poa_monthly(
+            h,
+            latitude_deg,
+            tilts,
+            az,
+            albedo,
+            horizon=horizon,
+            longitude_deg=longitude_deg,
+            elevation_m=elevation_m,
+            sun=sun,
+        ).poa_kwh_m2_day
 
     lo, hi = float(min_tilt_deg), 90.0
     # one evaluation of the 1-degree grid serves both criteria, then one of both fine grids
@@ -122,8 +136,8 @@ def best_tilt(insolation_kwh_m2_day, latitude_deg: float, azimuth_deg: float | N
     fine_w = _fine_grid(_argmax_low(_worst_ratio(p_coarse, demand), coarse), lo, hi)
     fine_a = _fine_grid(_argmax_low(_annual(p_coarse), coarse), lo, hi)
     p_fine = poa(np.concatenate([fine_w, fine_a]))
-    worst_tilt = _argmax_low(_worst_ratio(p_fine[:fine_w.size], demand), fine_w)
-    annual_tilt = _argmax_low(_annual(p_fine[fine_w.size:]), fine_a)
+    worst_tilt = _argmax_low(_worst_ratio(p_fine[: fine_w.size], demand), fine_w)
+    annual_tilt = _argmax_low(_annual(p_fine[fine_w.size :]), fine_a)
     both = poa(np.array([worst_tilt, annual_tilt]))
     p_w, p_a = both[0], both[1]
     r_w, r_a = _worst_ratio(both, demand)

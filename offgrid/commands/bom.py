@@ -17,17 +17,27 @@ from offgrid.commands.common import (
 
 
 def register(sub) -> None:
-    p = sub.add_parser("bom", help="write the bill of materials as CSV",
-                       description="Design a project and write the quantity of every part "
-                                   "(CSV), with unit prices and totals from the project's "
-                                   "price list.")
+    p = sub.add_parser(
+        "bom",
+        help="write the bill of materials as CSV",
+        description="Design a project and write the quantity of every part "
+        "(CSV), with unit prices and totals from the project's "
+        "price list.",
+    )
     add_project_argument(p)
-    p.add_argument("-o", "--output", metavar="FILE",
-                   help="write the CSV to FILE (default, or -: the standard output)")
+    p.add_argument(
+        "-o",
+        "--output",
+        metavar="FILE",
+        help="write the CSV to FILE (default, or -: the standard output)",
+    )
     p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
-    with_example(p, "offgrid bom --demo -o parts.csv",
-                 "writes the demonstration project's bill of materials to parts.csv, priced "
-                 "from its price list.")
+    with_example(
+        p,
+        "offgrid bom --demo -o parts.csv",
+        "writes the demonstration project's bill of materials to parts.csv, priced "
+        "from its price list.",
+    )
     p.set_defaults(func=run)
 
 

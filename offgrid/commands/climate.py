@@ -14,84 +14,143 @@ _MARK = {"error": "!!", "warning": " !", "info": " -"}
 
 
 def register(sub) -> None:
-    p = sub.add_parser("climate", help="list, show, check and import site climates",
-                       description="Site climates: the bundled ones, weather-file import, checks "
-                                   "of typed monthly values, and the best array tilt.")
+    p = sub.add_parser(
+        "climate",
+        help="list, show, check and import site climates",
+        description="Site climates: the bundled ones, weather-file import, checks "
+        "of typed monthly values, and the best array tilt.",
+    )
     csub = p.add_subparsers(dest="climate_command", metavar="ACTION")
 
-    q = csub.add_parser("list", help="list the bundled climates and yours",
-                        description="Every climate a project can name: the bundled ones and "
-                                    "those you imported (marked yours), with coordinates, kind "
-                                    "of data and source.")
-    with_example(q, "offgrid climate list", "lists the climates by the name a project uses "
-                 "([climate] ref = \"NAME\"), yours marked as yours.")
+    q = csub.add_parser(
+        "list",
+        help="list the bundled climates and yours",
+        description="Every climate a project can name: the bundled ones and "
+        "those you imported (marked yours), with coordinates, kind "
+        "of data and source.",
+    )
+    with_example(
+        q,
+        "offgrid climate list",
+        "lists the climates by the name a project uses "
+        '([climate] ref = "NAME"), yours marked as yours.',
+    )
     q.set_defaults(func=run_list)
 
     q = csub.add_parser("show", help="show a climate's monthly table, checks and best tilt")
     q.add_argument("name", metavar="NAME", help="climate name or climate file")
     _geometry_args(q)
     q.add_argument("--no-checks", action="store_true", help="skip the plausibility checks")
-    with_example(q, "offgrid climate show greensboro-nc-tmy3 --tilt 30",
-                 "prints the monthly table of the bundled Greensboro climate with the sun on "
-                 "a plane tilted 30 degrees towards the equator, and its checks.")
+    with_example(
+        q,
+        "offgrid climate show greensboro-nc-tmy3 --tilt 30",
+        "prints the monthly table of the bundled Greensboro climate with the sun on "
+        "a plane tilted 30 degrees towards the equator, and its checks.",
+    )
     q.set_defaults(func=run_show)
 
-    q = csub.add_parser("import", help="turn a weather file into a climate file",
-                        description="Import an EPW, TMY3 (.csv), TMY2 (.tm2) or monthly CSV file. "
-                                    "Hourly files are reduced to monthly means and keep their "
-                                    "daily totals. The climate file goes into your offgrid "
-                                    "folder, where any project can name it.")
-    q.add_argument("file", metavar="FILE", help="the weather file; - reads the standard "
-                                                "input (then --kind is needed)")
+    q = csub.add_parser(
+        "import",
+        help="turn a weather file into a climate file",
+        description="Import an EPW, TMY3 (.csv), TMY2 (.tm2) or monthly CSV file. "
+        "Hourly files are reduced to monthly means and keep their "
+        "daily totals. The climate file goes into your offgrid "
+        "folder, where any project can name it.",
+    )
+    q.add_argument(
+        "file",
+        metavar="FILE",
+        help="the weather file; - reads the standard input (then --kind is needed)",
+    )
     q.add_argument("--name", help="name of the climate (default: the station's)")
-    q.add_argument("--out", metavar="PATH",
-                   help="climate file to write instead (default: NAME.toml in your climates "
-                        "folder, see `offgrid climate list`; - writes to the standard output)")
-    q.add_argument("--kind", choices=("epw", "tmy3", "tmy2", "monthly-csv"),
-                   help="file format, when the name does not tell")
-    q.add_argument("--unit", metavar="UNIT",
-                   help="unit of a monthly CSV's insolation column, e.g. MJ/m2/day")
-    q.add_argument("--fix", action="store_true",
-                   help="apply the suggested fix of a detected unit slip")
+    q.add_argument(
+        "--out",
+        metavar="PATH",
+        help="climate file to write instead (default: NAME.toml in your climates "
+        "folder, see `offgrid climate list`; - writes to the standard output)",
+    )
+    q.add_argument(
+        "--kind",
+        choices=("epw", "tmy3", "tmy2", "monthly-csv"),
+        help="file format, when the name does not tell",
+    )
+    q.add_argument(
+        "--unit", metavar="UNIT", help="unit of a monthly CSV's insolation column, e.g. MJ/m2/day"
+    )
+    q.add_argument(
+        "--fix", action="store_true", help="apply the suggested fix of a detected unit slip"
+    )
     q.add_argument("--force", action="store_true", help="overwrite an existing file")
-    with_example(q, "offgrid climate import upper-valley.epw --name \"Upper Valley\"",
-                 "reduces the weather year to twelve months (daily totals kept), checks it and "
-                 "keeps it as upper-valley in your climates; a project then names it with "
-                 "[climate] ref = \"upper-valley\".")
+    with_example(
+        q,
+        'offgrid climate import upper-valley.epw --name "Upper Valley"',
+        "reduces the weather year to twelve months (daily totals kept), checks it and "
+        "keeps it as upper-valley in your climates; a project then names it with "
+        '[climate] ref = "upper-valley".',
+    )
     q.set_defaults(func=run_import)
 
-    q = csub.add_parser("check", help="check twelve monthly insolation values against physics",
-                        description="Check a climate file, or twelve typed values, for an "
-                                    "impossible clearness index, values above the clear sky and "
-                                    "unit slips.")
+    q = csub.add_parser(
+        "check",
+        help="check twelve monthly insolation values against physics",
+        description="Check a climate file, or twelve typed values, for an "
+        "impossible clearness index, values above the clear sky and "
+        "unit slips.",
+    )
     q.add_argument("name", nargs="?", metavar="NAME", help="climate name or file")
-    q.add_argument("--values", metavar="'V1 ... V12'",
-                   help="twelve monthly mean daily horizontal insolation values, January first")
-    q.add_argument("--unit", metavar="UNIT", default="kWh/m2/day",
-                   help="unit the --values are in (default kWh/m2/day)")
+    q.add_argument(
+        "--values",
+        metavar="'V1 ... V12'",
+        help="twelve monthly mean daily horizontal insolation values, January first",
+    )
+    q.add_argument(
+        "--unit",
+        metavar="UNIT",
+        default="kWh/m2/day",
+        help="unit the --values are in (default kWh/m2/day)",
+    )
     q.add_argument("--lat", type=finite_float, help="latitude, degrees north")
     q.add_argument("--lon", type=finite_float, help="longitude, degrees east")
     q.add_argument("--elevation", type=finite_float, default=None, help="elevation, m")
-    q.add_argument("--tilt", type=finite_float, default=None,
-                   help="array tilt for the low-sun check, degrees (default: the latitude, at "
-                        "least 10)")
-    with_example(q, "offgrid climate check --values \"5 5.5 6 6 5.5 5 5 5.5 6 6 5.5 5\" "
-                 "--lat -3.4 --lon 36.9", "checks twelve typed monthly values (kWh/m2/day) "
-                 "against the clear sky at that latitude and longitude.")
+    q.add_argument(
+        "--tilt",
+        type=finite_float,
+        default=None,
+        help="array tilt for the low-sun check, degrees (default: the latitude, at least 10)",
+    )
+    with_example(
+        q,
+        'offgrid climate check --values "5 5.5 6 6 5.5 5 5 5.5 6 6 5.5 5" --lat -3.4 --lon 36.9',
+        "checks twelve typed monthly values (kWh/m2/day) "
+        "against the clear sky at that latitude and longitude.",
+    )
     q.set_defaults(func=run_check)
 
-    q = csub.add_parser("tilt", help="best tilt for the worst month and for the year",
-                        description="Search the tilt that serves the worst month best, beside "
-                                    "the tilt for the best annual yield.")
+    q = csub.add_parser(
+        "tilt",
+        help="best tilt for the worst month and for the year",
+        description="Search the tilt that serves the worst month best, beside "
+        "the tilt for the best annual yield.",
+    )
     q.add_argument("name", metavar="NAME", help="climate name or climate file")
     _geometry_args(q, tilt=False)
-    q.add_argument("--demand", metavar="'W1 ... W12'",
-                   help="daily demand of each month, Wh/day (default: the same every month)")
-    q.add_argument("--min-tilt", type=finite_float, default=10.0,
-                   help="self-cleaning minimum tilt, degrees (default 10)")
-    with_example(q, "offgrid climate tilt kisanga-ridge-demo --min-tilt 15",
-                 "the tilt that serves the worst month best (at least 15 degrees) beside the "
-                 "best annual tilt, for the invented Kisanga Ridge climate.")
+    q.add_argument(
+        "--demand",
+        metavar="'W1 ... W12'",
+        help="daily demand of each month, Wh/day (default: the same every month)",
+    )
+    q.add_argument(
+        "--min-tilt",
+        type=finite_float,
+        default=10.0,
+        help="self-cleaning minimum tilt, degrees (default 10)",
+    )
+    with_example(
+        q,
+        "offgrid climate tilt kisanga-ridge-demo --min-tilt 15",
+        "the tilt that serves the worst month best (at least 15 degrees) beside the "
+        "best annual tilt, for the invented Kisanga Ridge climate.",
+    )
     q.set_defaults(func=run_tilt)
 
     with_example(p, "offgrid climate list", "lists the climates a project can name.")
@@ -100,16 +159,28 @@ def register(sub) -> None:
 
 def _geometry_args(q: argparse.ArgumentParser, tilt: bool = True) -> None:
     if tilt:
-        q.add_argument("--tilt", type=finite_float,
-                       help="plane tilt, degrees (default: best for the worst month)")
-    q.add_argument("--azimuth", type=finite_float,
-                   help="direction the plane faces, degrees clockwise from north "
-                        "(default: towards the equator)")
-    q.add_argument("--albedo", type=_albedo_arg, default=None, metavar="'R' or 'R1 ... R12'",
-                   help="ground reflectance, one value or twelve January first (default: the "
-                        "climate's own, else 0.2)")
-    q.add_argument("--horizon", metavar="'AZ:EL ...'",
-                   help="horizon profile, e.g. '90:15 135:8 180:5 270:12'")
+        q.add_argument(
+            "--tilt",
+            type=finite_float,
+            help="plane tilt, degrees (default: best for the worst month)",
+        )
+    q.add_argument(
+        "--azimuth",
+        type=finite_float,
+        help="direction the plane faces, degrees clockwise from north "
+        "(default: towards the equator)",
+    )
+    q.add_argument(
+        "--albedo",
+        type=_albedo_arg,
+        default=None,
+        metavar="'R' or 'R1 ... R12'",
+        help="ground reflectance, one value or twelve January first (default: the "
+        "climate's own, else 0.2)",
+    )
+    q.add_argument(
+        "--horizon", metavar="'AZ:EL ...'", help="horizon profile, e.g. '90:15 135:8 180:5 270:12'"
+    )
 
 
 # ----------------------------------------------------------------------------- helpers
@@ -171,8 +242,7 @@ def _header_row() -> str:
 def _wrap(text: str, indent: str = "   ", width: int = 79) -> str:
     import textwrap
 
-    return textwrap.fill(text, width=width, initial_indent=indent,
-                         subsequent_indent=indent + "  ")
+    return textwrap.fill(text, width=width, initial_indent=indent, subsequent_indent=indent + "  ")
 
 
 def print_findings(findings, out=None) -> None:
@@ -182,8 +252,7 @@ def print_findings(findings, out=None) -> None:
         return
     print(f"Checks ({len(findings)})", file=out)
     for f in findings:
-        print(_wrap(f"{_MARK.get(f.severity, ' -')} [{f.code}] {f.message}", indent=""),
-              file=out)
+        print(_wrap(f"{_MARK.get(f.severity, ' -')} [{f.code}] {f.message}", indent=""), file=out)
         for i, fix in enumerate(f.fixes):
             lead = "fix" if i == 0 else "or "
             vals = " ".join(f"{v:g}" for v in fix.values)
@@ -191,9 +260,13 @@ def print_findings(findings, out=None) -> None:
 
 
 #: Project field names in engine messages -> the option the user typed here.
-_OPTION_OF_FIELD = (("site.tilt_deg", "--tilt"), ("site.azimuth_deg", "--azimuth"),
-                    ("site.albedo", "--albedo"), ("choices.min_tilt_deg", "--min-tilt"),
-                    ("site.horizon_deg", "--horizon"))
+_OPTION_OF_FIELD = (
+    ("site.tilt_deg", "--tilt"),
+    ("site.azimuth_deg", "--azimuth"),
+    ("site.albedo", "--albedo"),
+    ("choices.min_tilt_deg", "--min-tilt"),
+    ("site.horizon_deg", "--horizon"),
+)
 
 
 def _option_message(exc: Exception) -> str:
@@ -238,9 +311,14 @@ def run_list(args) -> int:
         about = e.source if e.title == e.name else f"{e.title}: {e.source}"
         print(_wrap(about, indent="    ", width=79))
     print("\nDemo climates are invented demonstration data.")
-    print(_wrap(f"Yours are kept in {user_climates_dir()} (add one with `offgrid climate "
-                "import FILE`). A project names a climate with [climate] ref = \"NAME\"; "
-                "show one with `offgrid climate show NAME`.", indent=""))
+    print(
+        _wrap(
+            f"Yours are kept in {user_climates_dir()} (add one with `offgrid climate "
+            'import FILE`). A project names a climate with [climate] ref = "NAME"; '
+            "show one with `offgrid climate show NAME`.",
+            indent="",
+        )
+    )
     return 0
 
 
@@ -255,9 +333,12 @@ def run_show(args) -> int:
     print("=" * min(79, len(head["name"]) + (23 if climate.demo else 0)))
     print(_wrap(f"Source: {climate.source or 'not given'}", indent=""))
     coords = []
-    for label, value, unit in (("lat", lat, ""), ("lon", climate.longitude_deg, ""),
-                               ("elevation", climate.elevation_m, " m"),
-                               ("record low", climate.record_low_c, " C")):
+    for label, value, unit in (
+        ("lat", lat, ""),
+        ("lon", climate.longitude_deg, ""),
+        ("elevation", climate.elevation_m, " m"),
+        ("record low", climate.record_low_c, " C"),
+    ):
         if value is not None:
             coords.append(f"{label} {value:g}{unit}")
     print(", ".join(coords) or "no coordinates given")
@@ -269,8 +350,7 @@ def run_show(args) -> int:
     print(_row("GHI", h))
     if lat is not None:
         print(_row("KT", sky.clearness_index(h, lat)))
-    for label, key in (("T mean", "temp_mean_c"), ("T max", "temp_max_c"),
-                       ("T min", "temp_min_c")):
+    for label, key in (("T mean", "temp_mean_c"), ("T max", "temp_max_c"), ("T min", "temp_min_c")):
         values = getattr(climate, key)
         if values is not None:
             print(_row(label, values, "{:6.1f}"))
@@ -282,8 +362,9 @@ def run_show(args) -> int:
         from offgrid.climate.checks import check_climate
 
         print()
-        print_findings(check_climate(climate, tilt_deg=getattr(args, "tilt", None),
-                                     albedo=args.albedo))
+        print_findings(
+            check_climate(climate, tilt_deg=getattr(args, "tilt", None), albedo=args.albedo)
+        )
     return 0
 
 
@@ -297,20 +378,42 @@ def _show_plane(args, climate, h) -> str:
     elev = climate.elevation_m or 0.0
     try:
         albedo = args.albedo if args.albedo is not None else climate.albedo
-        choice = best_tilt(h, lat, args.azimuth, None, albedo, 10.0, horizon=horizon,
-                           longitude_deg=lon, elevation_m=elev)
+        choice = best_tilt(
+            h,
+            lat,
+            args.azimuth,
+            None,
+            albedo,
+            10.0,
+            horizon=horizon,
+            longitude_deg=lon,
+            elevation_m=elev,
+        )
         tilt = choice.tilt_deg if args.tilt is None else args.tilt
-        res = poa_monthly(h, lat, tilt, choice.azimuth_deg, albedo, horizon=horizon,
-                          longitude_deg=lon, elevation_m=elev)
+        res = poa_monthly(
+            h,
+            lat,
+            tilt,
+            choice.azimuth_deg,
+            albedo,
+            horizon=horizon,
+            longitude_deg=lon,
+            elevation_m=elev,
+        )
     except ValueError as exc:
         fail(_option_message(exc))
     print(_row("POA", res.poa_kwh_m2_day))
     if horizon:
         print(_row("lost", res.beam_lost_kwh_m2_day))
-    print(_wrap("GHI: horizontal, POA: in the array plane at tilt "
-                f"{tilt:g} deg, azimuth {choice.azimuth_deg:g} deg, kWh/m2/day"
-                + ("; lost: beam hidden by the horizon" if horizon else "")
-                + "; KT: clearness index; T: C", indent=""))
+    print(
+        _wrap(
+            "GHI: horizontal, POA: in the array plane at tilt "
+            f"{tilt:g} deg, azimuth {choice.azimuth_deg:g} deg, kWh/m2/day"
+            + ("; lost: beam hidden by the horizon" if horizon else "")
+            + "; KT: clearness index; T: C",
+            indent="",
+        )
+    )
     return describe_tilt(choice) + " (equal demand every month)"
 
 
@@ -323,21 +426,35 @@ def run_tilt(args) -> int:
     demand = _numbers(args.demand, "--demand") if args.demand else None
     try:
         albedo = args.albedo if args.albedo is not None else climate.albedo
-        c = best_tilt(climate.insolation_kwh_m2_day, climate.latitude_deg, args.azimuth, demand,
-                      albedo, args.min_tilt, horizon=_horizon(args),
-                      longitude_deg=climate.longitude_deg or 0.0,
-                      elevation_m=climate.elevation_m or 0.0)
+        c = best_tilt(
+            climate.insolation_kwh_m2_day,
+            climate.latitude_deg,
+            args.azimuth,
+            demand,
+            albedo,
+            args.min_tilt,
+            horizon=_horizon(args),
+            longitude_deg=climate.longitude_deg or 0.0,
+            elevation_m=climate.elevation_m or 0.0,
+        )
     except ValueError as exc:
         fail(_option_message(exc))
     print(f"{head['name']}: lat {climate.latitude_deg:g}, azimuth {c.azimuth_deg:g}")
     print(_header_row())
     print(_row(f"{c.tilt_deg:g}", c.poa_kwh_m2_day))
     print(_row(f"{c.annual_tilt_deg:g}", c.poa_annual_tilt_kwh_m2_day))
-    print(_wrap(f"kWh/m2/day in the array plane: first row at the worst-month tilt "
-                f"({c.tilt_deg:g} deg), second at the best annual tilt "
-                f"({c.annual_tilt_deg:g} deg)", indent=""))
-    print(f"annual kWh/m2: {c.annual_kwh_m2:.0f} at {c.tilt_deg:g} deg, "
-          f"{c.annual_best_kwh_m2:.0f} at {c.annual_tilt_deg:g} deg")
+    print(
+        _wrap(
+            f"kWh/m2/day in the array plane: first row at the worst-month tilt "
+            f"({c.tilt_deg:g} deg), second at the best annual tilt "
+            f"({c.annual_tilt_deg:g} deg)",
+            indent="",
+        )
+    )
+    print(
+        f"annual kWh/m2: {c.annual_kwh_m2:.0f} at {c.tilt_deg:g} deg, "
+        f"{c.annual_best_kwh_m2:.0f} at {c.annual_tilt_deg:g} deg"
+    )
     print(_wrap(describe_tilt(c), indent=""))
     return 0
 
@@ -363,12 +480,12 @@ def run_check(args) -> int:
         findings = check_insolation(values, args.lat, args.lon, args.elevation or 0.0)
         if worst_severity(findings) != "error":
             tilt = max(abs(args.lat), 10.0) if args.tilt is None else args.tilt
-            findings += check_transposition(values, args.lat, tilt, None, None,
-                                            args.elevation or 0.0)
+            findings += check_transposition(
+                values, args.lat, tilt, None, None, args.elevation or 0.0
+            )
     elif args.name:
         climate, _ = _load(args.name)
-        findings = check_climate(climate, args.lat, args.lon, args.elevation,
-                                 tilt_deg=args.tilt)
+        findings = check_climate(climate, args.lat, args.lon, args.elevation, tilt_deg=args.tilt)
     else:
         fail("name a climate, or give --values with --lat")
     print_findings(findings)
@@ -398,8 +515,13 @@ def run_import(args) -> int:
         for f in fixable:
             climate = apply_fix(climate, f)
             print(f"applied: {f.fixes[0].label}", file=log)
-        climate = replace(climate, source=climate.source + " (unit corrected on import: "
-                          + "; ".join(f.fixes[0].label for f in fixable) + ")")
+        climate = replace(
+            climate,
+            source=climate.source
+            + " (unit corrected on import: "
+            + "; ".join(f.fixes[0].label for f in fixable)
+            + ")",
+        )
         findings = check_climate(climate)
     name = args.name or result.name
     to_stdout = args.out == STDIO
@@ -411,11 +533,16 @@ def run_import(args) -> int:
 
         stem = _file_stem(name)
         if stem in bundled_climates():
-            fail(f"'{stem}' is the name of a bundled climate: choose another --name (or write "
-                 "the file elsewhere with --out PATH)")
+            fail(
+                f"'{stem}' is the name of a bundled climate: choose another --name (or write "
+                "the file elsewhere with --out PATH)"
+            )
         out = user_climates_dir() / f"{stem}.toml"
-    print(f"{Path(args.file).name}: {result.kind}, lat {climate.latitude_deg}, "
-          f"lon {climate.longitude_deg}, elevation {climate.elevation_m}", file=log)
+    print(
+        f"{Path(args.file).name}: {result.kind}, lat {climate.latitude_deg}, "
+        f"lon {climate.longitude_deg}, elevation {climate.elevation_m}",
+        file=log,
+    )
     print(_header_row(), file=log)
     print(_row("GHI", climate.insolation_kwh_m2_day), file=log)
     print(_row("T mean", climate.temp_mean_c, "{:6.1f}"), file=log)
@@ -425,8 +552,11 @@ def run_import(args) -> int:
     print_findings(findings, out=log)
     errors = [f for f in findings if f.severity == "error"]
     if errors:
-        hint = " (run again with --fix to apply the suggested fix)" if any(
-            f.fixes for f in errors) else ""
+        hint = (
+            " (run again with --fix to apply the suggested fix)"
+            if any(f.fixes for f in errors)
+            else ""
+        )
         fail(f"not written: {len(errors)} problem(s) to resolve first{hint}", code=1)
     if to_stdout:
         from offgrid.climate.files import dumps_climate
@@ -448,8 +578,7 @@ def run_import(args) -> int:
         fail(f"{exc.filename or out}: cannot write the climate file: {exc.strerror or exc}")
     print(f"wrote {out}")
     if not args.out:
-        print(f"A project names it with [climate] ref = \"{out.stem}\" "
-              f"(or --climate {out.stem}).")
+        print(f'A project names it with [climate] ref = "{out.stem}" (or --climate {out.stem}).')
     return 0
 
 
@@ -461,11 +590,12 @@ def _import_stdin(args, import_weather_file):
     import tempfile
 
     if not args.kind:
-        fail("FILE '-' reads the standard input: say what it is with --kind "
-             "(epw, tmy3, tmy2 or monthly-csv)")
+        fail(
+            "FILE '-' reads the standard input: say what it is with --kind "
+            "(epw, tmy3, tmy2 or monthly-csv)"
+        )
     if sys.stdin is None or sys.stdin.isatty():
-        fail("FILE '-' reads the standard input: pipe or redirect the weather file into "
-             "offgrid")
+        fail("FILE '-' reads the standard input: pipe or redirect the weather file into offgrid")
     buffer = getattr(sys.stdin, "buffer", None)
     data = buffer.read() if buffer is not None else sys.stdin.read().encode("utf-8")
     with tempfile.TemporaryDirectory(prefix="offgrid-import-") as folder:

@@ -34,16 +34,23 @@ def with_example(parser: argparse.ArgumentParser, command: str, what: str) -> No
 def read_stdin(what: str) -> str:
     """The standard input as text, for a ``-`` argument; fails clearly at a terminal."""
     if sys.stdin is None or sys.stdin.isatty():
-        fail(f"{what} '-' reads the standard input: pipe or redirect the file into offgrid "
-             "(for example: offgrid size - < project.toml)")
+        fail(
+            f"{what} '-' reads the standard input: pipe or redirect the file into offgrid "
+            "(for example: offgrid size - < project.toml)"
+        )
     from offgrid.textfile import MAX_TEXT_BYTES
 
     stream = getattr(sys.stdin, "buffer", None)
-    data = stream.read(MAX_TEXT_BYTES + 1) if stream is not None else sys.stdin.read(
-        MAX_TEXT_BYTES + 1).encode("utf-8")
+    data = (
+        stream.read(MAX_TEXT_BYTES + 1)
+        if stream is not None
+        else sys.stdin.read(MAX_TEXT_BYTES + 1).encode("utf-8")
+    )
     if len(data) > MAX_TEXT_BYTES:  # /dev/zero or a runaway pipe: never read it all
-        fail(f"{what} '-': the standard input is longer than {MAX_TEXT_BYTES // 1_000_000} MB; "
-             "give the file itself")
+        fail(
+            f"{what} '-': the standard input is longer than {MAX_TEXT_BYTES // 1_000_000} MB; "
+            "give the file itself"
+        )
     try:
         return data.decode("utf-8").removeprefix("\ufeff")
     except UnicodeDecodeError:
@@ -52,11 +59,17 @@ def read_stdin(what: str) -> str:
 
 
 def add_project_argument(parser: argparse.ArgumentParser, required: bool = True) -> None:
-    parser.add_argument("project", nargs="?", metavar="PROJECT",
-                        help="a saved project file (.toml); - reads it from the standard "
-                             "input")
-    parser.add_argument("--demo", action="store_true",
-                        help="use the bundled demonstration project instead of PROJECT")
+    parser.add_argument(
+        "project",
+        nargs="?",
+        metavar="PROJECT",
+        help="a saved project file (.toml); - reads it from the standard input",
+    )
+    parser.add_argument(
+        "--demo",
+        action="store_true",
+        help="use the bundled demonstration project instead of PROJECT",
+    )
 
 
 def reading_path(args: argparse.Namespace) -> Path | None:
@@ -82,8 +95,7 @@ def open_project(args: argparse.Namespace) -> tuple[Project, Path | None]:
         from offgrid.project.store import loads_project
 
         try:
-            project = loads_project(read_stdin("PROJECT"), source="standard input",
-                                    notes=notes)
+            project = loads_project(read_stdin("PROJECT"), source="standard input", notes=notes)
         except ProjectFileError as exc:
             fail(str(exc))
         for note in notes:
@@ -106,11 +118,15 @@ def json_text(data, indent: int | None = 2, separators: tuple[str, str] | None =
     import json
 
     try:
-        return json.dumps(data, indent=indent, ensure_ascii=False, allow_nan=False,
-                          separators=separators)
+        return json.dumps(
+            data, indent=indent, ensure_ascii=False, allow_nan=False, separators=separators
+        )
     except ValueError:
-        fail("a figure came out as a non-finite number; nothing was written. Please report "
-             "this with the project file", code=1)
+        fail(
+            "a figure came out as a non-finite number; nothing was written. Please report "
+            "this with the project file",
+            code=1,
+        )
         raise
 
 
@@ -124,16 +140,15 @@ def set_json_errors(on: bool) -> None:
     _JSON_ERRORS["on"] = bool(on)
 
 
-def error_json(message: str, code: int, field: str | None = None,
-               error: str | None = None) -> dict:
+def error_json(message: str, code: int, field: str | None = None, error: str | None = None) -> dict:
     """The refusal as JSON: ``{"error": {code, message, field, exit_code}}``."""
     default = {2: "bad-input", 3: "cannot-design"}.get(code, "failed")
-    return {"error": {"code": error or default, "message": message, "field": field,
-                      "exit_code": code}}
+    return {
+        "error": {"code": error or default, "message": message, "field": field, "exit_code": code}
+    }
 
 
-def fail(message: str, code: int = 2, field: str | None = None,
-         error: str | None = None) -> None:
+def fail(message: str, code: int = 2, field: str | None = None, error: str | None = None) -> None:
     """Print the message on stderr and exit with ``code`` (2 bad input, 3 cannot design).
 
     With ``--json`` the same refusal is printed on stdout as :func:`error_json`; ``field``
@@ -143,8 +158,7 @@ def fail(message: str, code: int = 2, field: str | None = None,
     if _JSON_ERRORS["on"]:
         import json
 
-        print(json.dumps(error_json(message, code, field, error), indent=2,
-                         ensure_ascii=False))
+        print(json.dumps(error_json(message, code, field, error), indent=2, ensure_ascii=False))
     print(f"offgrid: {message}", file=sys.stderr)
     raise SystemExit(code)
 
@@ -165,6 +179,10 @@ def design_failed(exc, suffix: str = "") -> None:
     from offgrid.result import INPUT_ERROR_CODES
 
     if exc.code in INPUT_ERROR_CODES:
-        fail(f"{exc.field + ': ' if exc.field else ''}{exc}{suffix}", code=2, field=exc.field,
-             error=exc.code)
+        fail(
+            f"{exc.field + ': ' if exc.field else ''}{exc}{suffix}",
+            code=2,
+            field=exc.field,
+            error=exc.code,
+        )
     fail(f"cannot design: {exc}{suffix}", code=3, field=exc.field, error=exc.code)

@@ -10,42 +10,69 @@ from offgrid.commands.common import STDIO, fail, read_stdin, with_example
 
 
 def register(sub) -> None:
-    p = sub.add_parser("loads", help="list the load lists by name; add your own",
-                       description="Load lists (CSV, columns in the README) known by name: the "
-                                   "bundled ones and your own, kept in your offgrid folder. A "
-                                   "name works wherever a load list is asked for, e.g. "
-                                   "`offgrid size --loads NAME`.")
+    p = sub.add_parser(
+        "loads",
+        help="list the load lists by name; add your own",
+        description="Load lists (CSV, columns in the README) known by name: the "
+        "bundled ones and your own, kept in your offgrid folder. A "
+        "name works wherever a load list is asked for, e.g. "
+        "`offgrid size --loads NAME`.",
+    )
     lsub = p.add_subparsers(dest="loads_command", metavar="ACTION")
 
-    q = lsub.add_parser("list", help="list the bundled load lists and yours",
-                        description="Every load list known by name, with its appliance count "
-                                    "and daily energy; yours are marked.")
-    with_example(q, "offgrid loads list", "lists the bundled load lists and your own, with "
-                 "where yours are kept.")
+    q = lsub.add_parser(
+        "list",
+        help="list the bundled load lists and yours",
+        description="Every load list known by name, with its appliance count "
+        "and daily energy; yours are marked.",
+    )
+    with_example(
+        q,
+        "offgrid loads list",
+        "lists the bundled load lists and your own, with where yours are kept.",
+    )
     q.set_defaults(func=run_list)
 
-    q = lsub.add_parser("add", help="check a load list and keep it in your library",
-                        description="Check a load-list CSV (every problem with its line) and "
-                                    "keep a copy in your offgrid folder under NAME, so that "
-                                    "any project or command can name it.")
-    q.add_argument("file", metavar="FILE", help="load-list CSV; - reads the standard input "
-                                                "(then --name is needed)")
+    q = lsub.add_parser(
+        "add",
+        help="check a load list and keep it in your library",
+        description="Check a load-list CSV (every problem with its line) and "
+        "keep a copy in your offgrid folder under NAME, so that "
+        "any project or command can name it.",
+    )
+    q.add_argument(
+        "file",
+        metavar="FILE",
+        help="load-list CSV; - reads the standard input (then --name is needed)",
+    )
     q.add_argument("--name", help="name to keep it under (default: the file name)")
     q.add_argument("--force", action="store_true", help="replace your list of that name")
-    with_example(q, "offgrid loads add survey-shop.csv --name corner-shop",
-                 "checks survey-shop.csv and keeps it as corner-shop; then "
-                 "`offgrid size --loads corner-shop --climate kisanga-ridge-demo` sizes it.")
+    with_example(
+        q,
+        "offgrid loads add survey-shop.csv --name corner-shop",
+        "checks survey-shop.csv and keeps it as corner-shop; then "
+        "`offgrid size --loads corner-shop --climate kisanga-ridge-demo` sizes it.",
+    )
     q.set_defaults(func=run_add)
 
-    q = lsub.add_parser("show", help="print a load list by name (CSV)",
-                        description="Print a load list known by name, as CSV: a start for "
-                                    "your own.")
+    q = lsub.add_parser(
+        "show",
+        help="print a load list by name (CSV)",
+        description="Print a load list known by name, as CSV: a start for your own.",
+    )
     q.add_argument("name", metavar="NAME")
-    q.add_argument("-o", "--output", metavar="FILE",
-                   help="write the CSV to FILE (default, or -: the standard output)")
+    q.add_argument(
+        "-o",
+        "--output",
+        metavar="FILE",
+        help="write the CSV to FILE (default, or -: the standard output)",
+    )
     q.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
-    with_example(q, "offgrid loads show household-kit -o my-home.csv",
-                 "copies the bundled household kit into my-home.csv, to edit as your own.")
+    with_example(
+        q,
+        "offgrid loads show household-kit -o my-home.csv",
+        "copies the bundled household kit into my-home.csv, to edit as your own.",
+    )
     q.set_defaults(func=run_show)
     with_example(p, "offgrid loads list", "lists the load lists known by name.")
     p.set_defaults(func=lambda args: (p.print_help(), 2)[1])
@@ -108,8 +135,10 @@ def run_add(args: argparse.Namespace) -> int:
         fail(f"'{name}' is a bundled load list: choose another name with --name")
     out = user_load_profiles_dir() / f"{name}.csv"
     if out.exists() and not args.force:
-        fail(f"you already have a load list '{name}' ({out}): add --force to replace it, or "
-             "choose another --name")
+        fail(
+            f"you already have a load list '{name}' ({out}): add --force to replace it, or "
+            "choose another --name"
+        )
     try:
         out.parent.mkdir(parents=True, exist_ok=True)
         atomic_write_text(out, text if text.endswith("\n") else text + "\n", backup=True)

@@ -25,8 +25,9 @@ def check_writable(path: Path, force: bool, reading: Path | None = None) -> None
         fail(refusal)
     if path.exists() and not force:
         if sys.stdin.isatty() and sys.stderr.isatty():
-            print(f"offgrid: {path} exists. Overwrite it? [y/N] ", end="", file=sys.stderr,
-                  flush=True)
+            print(
+                f"offgrid: {path} exists. Overwrite it? [y/N] ", end="", file=sys.stderr, flush=True
+            )
             answer = sys.stdin.readline().strip().lower()
             if answer not in ("y", "yes"):
                 fail(f"{path} left unchanged")

@@ -12,47 +12,93 @@ from offgrid.numbers import finite_float
 
 def register(sub) -> None:
     p = sub.add_parser(
-        "plan", help="plan a community survey: a design per row, standard kits, totals",
+        "plan",
+        help="plan a community survey: a design per row, standard kits, totals",
         description="Design every household and facility of a community survey (CSV), choose "
-                    "a few standard kits at the least cost (or oversize), and total the parts "
-                    "for procurement. Columns: docs/community-format.md.")
-    p.add_argument("survey", nargs="?", metavar="COMMUNITY.csv",
-                   help="community survey CSV, or a programme CSV of villages "
-                        "(docs/programme-format.md); - reads a survey from the standard "
-                        "input (names in it are then looked up from the current folder)")
-    p.add_argument("--demo", action="store_true",
-                   help="plan the bundled demonstration community (invented village)")
-    p.add_argument("--demo-programme", action="store_true",
-                   help="plan the bundled demonstration programme (three invented villages)")
-    p.add_argument("--kit-scope", choices=("programme", "village", "zone"),
-                   default="programme", help="a programme's kits: one set for all villages "
-                   "(default), each village its own, or one set per zone column value")
+        "a few standard kits at the least cost (or oversize), and total the parts "
+        "for procurement. Columns: docs/community-format.md.",
+    )
+    p.add_argument(
+        "survey",
+        nargs="?",
+        metavar="COMMUNITY.csv",
+        help="community survey CSV, or a programme CSV of villages "
+        "(docs/programme-format.md); - reads a survey from the standard "
+        "input (names in it are then looked up from the current folder)",
+    )
+    p.add_argument(
+        "--demo",
+        action="store_true",
+        help="plan the bundled demonstration community (invented village)",
+    )
+    p.add_argument(
+        "--demo-programme",
+        action="store_true",
+        help="plan the bundled demonstration programme (three invented villages)",
+    )
+    p.add_argument(
+        "--kit-scope",
+        choices=("programme", "village", "zone"),
+        default="programme",
+        help="a programme's kits: one set for all villages "
+        "(default), each village its own, or one set per zone column value",
+    )
     how = p.add_mutually_exclusive_group()
     how.add_argument("--kits", type=int, metavar="K", help="use at most K standard kit types")
-    how.add_argument("--kit-cost", type=finite_float, metavar="C",
-                     help="cost of each extra kit type; the number of kit types is chosen "
-                          "(default: the price list's kit_type price, else --kits 3)")
-    p.add_argument("--max-kits", type=int, default=12, metavar="N",
-                   help="most kit types tried with --kit-cost (default 12)")
-    p.add_argument("--objective", choices=("cost", "oversize"),
-                   help="what the kits minimise (default: cost with a price list, else "
-                        "oversize)")
-    p.add_argument("--prices", metavar="PRICES.csv", help="price list (default: the survey's "
-                   "'prices' setting)")
-    p.add_argument("--climate", metavar="CLIMATE", help="climate name or file, overriding the "
-                   "survey's 'climate' setting")
-    p.add_argument("--jobs", type=int, metavar="N", help="worker processes for many distinct "
-                   "rows (default: the CPUs available)")
-    p.add_argument("--energy-step", type=finite_float, default=None, metavar="PCT",
-                   help="design surveyed energy and peak power at the next PCT %% step up, "
-                        "so near-equal rows share a design (default 1; 0: as given)")
+    how.add_argument(
+        "--kit-cost",
+        type=finite_float,
+        metavar="C",
+        help="cost of each extra kit type; the number of kit types is chosen "
+        "(default: the price list's kit_type price, else --kits 3)",
+    )
+    p.add_argument(
+        "--max-kits",
+        type=int,
+        default=12,
+        metavar="N",
+        help="most kit types tried with --kit-cost (default 12)",
+    )
+    p.add_argument(
+        "--objective",
+        choices=("cost", "oversize"),
+        help="what the kits minimise (default: cost with a price list, else oversize)",
+    )
+    p.add_argument(
+        "--prices", metavar="PRICES.csv", help="price list (default: the survey's 'prices' setting)"
+    )
+    p.add_argument(
+        "--climate",
+        metavar="CLIMATE",
+        help="climate name or file, overriding the survey's 'climate' setting",
+    )
+    p.add_argument(
+        "--jobs",
+        type=int,
+        metavar="N",
+        help="worker processes for many distinct rows (default: the CPUs available)",
+    )
+    p.add_argument(
+        "--energy-step",
+        type=finite_float,
+        default=None,
+        metavar="PCT",
+        help="design surveyed energy and peak power at the next PCT %% step up, "
+        "so near-equal rows share a design (default 1; 0: as given)",
+    )
     p.add_argument("--rows", action="store_true", help="list every row in the summary")
     p.add_argument("--json", action="store_true", help="print the plan as JSON")
-    p.add_argument("--report", metavar="FILE", help="also write the plan: .md (report), "
-                   ".csv (one line per row) or .json")
-    with_example(p, "offgrid plan --demo --kits 3 --report plan.md",
-                 "plans the invented Kisanga Ridge village with three standard kits and "
-                 "writes the plan as Markdown to plan.md.")
+    p.add_argument(
+        "--report",
+        metavar="FILE",
+        help="also write the plan: .md (report), .csv (one line per row) or .json",
+    )
+    with_example(
+        p,
+        "offgrid plan --demo --kits 3 --report plan.md",
+        "plans the invented Kisanga Ridge village with three standard kits and "
+        "writes the plan as Markdown to plan.md.",
+    )
     p.set_defaults(func=run)
 
 
@@ -74,8 +120,7 @@ def run(args: argparse.Namespace) -> int:
         if is_programme_file(path):
             return run_programme(args, path)
     if not path:
-        fail("name a community survey CSV, or use --demo for the bundled demonstration "
-             "community")
+        fail("name a community survey CSV, or use --demo for the bundled demonstration community")
     if args.kits is not None and args.kits < 1:
         fail(f"--kits {args.kits}: give 1 or more kit types")
     if args.jobs is not None and args.jobs < 1:
@@ -99,12 +144,22 @@ def run(args: argparse.Namespace) -> int:
         text = read_stdin("COMMUNITY.csv")
 
         def plan_file(_path, **options):  # the same options, the survey from the pipe
-            return plan_community(read_survey(text, source="standard input",
-                                              base_dir=Path.cwd()), **options)
+            return plan_community(
+                read_survey(text, source="standard input", base_dir=Path.cwd()), **options
+            )
+
     try:
-        plan = plan_file(path, kits=args.kits, kit_type_cost=args.kit_cost, prices=args.prices,
-                         objective=args.objective, climate=args.climate, jobs=args.jobs,
-                         k_max=args.max_kits, **step)
+        plan = plan_file(
+            path,
+            kits=args.kits,
+            kit_type_cost=args.kit_cost,
+            prices=args.prices,
+            objective=args.objective,
+            climate=args.climate,
+            jobs=args.jobs,
+            k_max=args.max_kits,
+            **step,
+        )
     except (SurveyError, PlanError) as exc:
         fail(str(exc))
     if report is not None:
@@ -118,8 +173,11 @@ def run(args: argparse.Namespace) -> int:
         if report is not None:
             print(f"\nWritten: {report}")
     if plan.bad_rows or plan.unmet:
-        print(f"offgrid: {len({p.line for p in plan.bad_rows})} row(s) left out, "
-              f"{len(plan.unmet)} cannot be met: see the lists above", file=sys.stderr)
+        print(
+            f"offgrid: {len({p.line for p in plan.bad_rows})} row(s) left out, "
+            f"{len(plan.unmet)} cannot be met: see the lists above",
+            file=sys.stderr,
+        )
         return 1
     return 0
 
@@ -148,18 +206,30 @@ def run_programme(args: argparse.Namespace, path) -> int:
         fail("--climate: a programme names each village's climate in its climate column")
     step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
     try:
-        plan = plan_programme_file(path, kits=args.kits, kit_type_cost=args.kit_cost,
-                                   prices=args.prices, objective=args.objective,
-                                   jobs=args.jobs, k_max=args.max_kits,
-                                   kit_scope=args.kit_scope, **step)
+        plan = plan_programme_file(
+            path,
+            kits=args.kits,
+            kit_type_cost=args.kit_cost,
+            prices=args.prices,
+            objective=args.objective,
+            jobs=args.jobs,
+            k_max=args.max_kits,
+            kit_scope=args.kit_scope,
+            **step,
+        )
     except (ProgrammeError, PlanError) as exc:
         fail(str(exc))
     if report is not None:
         from offgrid.project.atomic import atomic_write_text
 
         suffix = report.suffix.lower()
-        text = (markdown_report(plan) if suffix == ".md" else rows_csv(plan)
-                if suffix == ".csv" else dump_json(plan.to_dict()) + "\n")
+        text = (
+            markdown_report(plan)
+            if suffix == ".md"
+            else rows_csv(plan)
+            if suffix == ".csv"
+            else dump_json(plan.to_dict()) + "\n"
+        )
         try:
             atomic_write_text(report, text, backup=True)
         except OSError as exc:
@@ -172,8 +242,11 @@ def run_programme(args: argparse.Namespace, path) -> int:
             print(f"\nWritten: {report}")
     unmet = sum(len(v.unmet) for v in plan.villages)
     if plan.left_out or unmet:
-        print(f"offgrid: {len(plan.left_out)} problem(s) left out, {unmet} row(s) cannot be "
-              "met: see the lists above", file=sys.stderr)
+        print(
+            f"offgrid: {len(plan.left_out)} problem(s) left out, {unmet} row(s) cannot be "
+            "met: see the lists above",
+            file=sys.stderr,
+        )
         return 1
     return 0
 

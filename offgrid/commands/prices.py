@@ -18,25 +18,42 @@ from offgrid.commands.common import (
 
 
 def register(sub) -> None:
-    p = sub.add_parser("prices", help="show, template or import the project's price list",
-                       description="Without options: list the parts of the design with their "
-                                   "prices and say which have none. --template writes a CSV of "
-                                   "every part to fill in; --import reads such a CSV (columns "
-                                   "part, unit_price) into the project file.")
+    p = sub.add_parser(
+        "prices",
+        help="show, template or import the project's price list",
+        description="Without options: list the parts of the design with their "
+        "prices and say which have none. --template writes a CSV of "
+        "every part to fill in; --import reads such a CSV (columns "
+        "part, unit_price) into the project file.",
+    )
     add_project_argument(p)
     act = p.add_mutually_exclusive_group()
-    act.add_argument("--template", action="store_true",
-                     help="write a CSV of every part with its current price (blank if none)")
-    act.add_argument("--import", dest="import_csv", metavar="CSV",
-                     help="read prices from CSV into the project file (a backup is kept; "
-                          "- reads the standard input)")
-    p.add_argument("-o", "--output", metavar="FILE",
-                   help="with --template: write to FILE (default, or -: the standard output)")
+    act.add_argument(
+        "--template",
+        action="store_true",
+        help="write a CSV of every part with its current price (blank if none)",
+    )
+    act.add_argument(
+        "--import",
+        dest="import_csv",
+        metavar="CSV",
+        help="read prices from CSV into the project file (a backup is kept; "
+        "- reads the standard input)",
+    )
+    p.add_argument(
+        "-o",
+        "--output",
+        metavar="FILE",
+        help="with --template: write to FILE (default, or -: the standard output)",
+    )
     p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
-    with_example(p, "offgrid prices site.toml --template -o prices.csv",
-                 "writes every part of site.toml's design with its price (blank if none) to "
-                 "prices.csv; fill in unit_price, then `offgrid prices site.toml --import "
-                 "prices.csv`.")
+    with_example(
+        p,
+        "offgrid prices site.toml --template -o prices.csv",
+        "writes every part of site.toml's design with its price (blank if none) to "
+        "prices.csv; fill in unit_price, then `offgrid prices site.toml --import "
+        "prices.csv`.",
+    )
     p.set_defaults(func=run)
 
 
@@ -64,8 +81,7 @@ def run(args: argparse.Namespace) -> int:
 
     if args.import_csv:
         if args.demo:
-            fail("the bundled demonstration project is read-only; save a copy and import into "
-                 "that")
+            fail("the bundled demonstration project is read-only; save a copy and import into that")
         if args.project == STDIO:
             fail("--import saves into the project file: name the file, not -")
         if args.import_csv == STDIO and args.project is None:
@@ -96,13 +112,18 @@ def run(args: argparse.Namespace) -> int:
         try:
             save_project(project, args.project, expect=seen)
         except ChangedOnDisk:
-            fail(f"{args.project} was changed by another program while the prices were "
-                 "being read; nothing was written. Run the import again (on the new version)")
+            fail(
+                f"{args.project} was changed by another program while the prices were "
+                "being read; nothing was written. Run the import again (on the new version)"
+            )
         except OSError as exc:
             fail(f"cannot save {args.project}: {exc}; the project file was not changed")
         bak = real_target(args.project).with_name(real_target(args.project).name + ".bak")
-        print(f"offgrid: {len(new)} price(s) from {src} saved in {args.project} "
-              f"(previous version kept as {bak})", file=sys.stderr)
+        print(
+            f"offgrid: {len(new)} price(s) from {src} saved in {args.project} "
+            f"(previous version kept as {bak})",
+            file=sys.stderr,
+        )
         return 0
 
     project, base = open_project(args)
@@ -116,8 +137,10 @@ def run(args: argparse.Namespace) -> int:
             out = Path(args.output)
             check_writable(out, args.force, reading_path(args))
             write_output(out, text, reading_path(args))
-            print(f"offgrid: wrote {out}; fill in unit_price and load it with --import",
-                  file=sys.stderr)
+            print(
+                f"offgrid: wrote {out}; fill in unit_price and load it with --import",
+                file=sys.stderr,
+            )
         else:
             sys.stdout.write(text)
         return 0
@@ -131,10 +154,22 @@ def run(args: argparse.Namespace) -> int:
         p = price_for(ln.key, project.prices)
         if p is None:
             missing.append(ln.key)
-        rows.append((Cell(ln.key), Cell(f"{ln.quantity:g}"), Cell(ln.unit), Cell(money(p)),
-                     Cell(money(None if p is None else p * ln.quantity))))
-    table = Table("prices", ("Part", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
-                  tuple(rows), ("l", "r", "l", "r", "r"), wrap=(0,))
+        rows.append(
+            (
+                Cell(ln.key),
+                Cell(f"{ln.quantity:g}"),
+                Cell(ln.unit),
+                Cell(money(p)),
+                Cell(money(None if p is None else p * ln.quantity)),
+            )
+        )
+    table = Table(
+        "prices",
+        ("Part", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
+        tuple(rows),
+        ("l", "r", "l", "r", "r"),
+        wrap=(0,),
+    )
     print("\n".join(render_table(table)))
     if missing:
         print(f"no price for: {', '.join(missing)}", file=sys.stderr)

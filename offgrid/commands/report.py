@@ -18,34 +18,60 @@ from offgrid.commands.common import (
 
 def register(sub) -> None:
     p = sub.add_parser(
-        "report", help="write the design report (HTML, Markdown or text)",
+        "report",
+        help="write the design report (HTML, Markdown or text)",
         description="Design a project and write its report: site, climate, loads, design "
-                    "month, every figure with its reason, strings, wiring, bill of materials, "
-                    "costs, variants, cautions and assumptions. Without -o the report goes to "
-                    "the standard output.")
+        "month, every figure with its reason, strings, wiring, bill of materials, "
+        "costs, variants, cautions and assumptions. Without -o the report goes to "
+        "the standard output.",
+    )
     add_project_argument(p)
-    p.add_argument("--format", choices=("html", "md", "txt"),
-                   help="report format (default: from the -o suffix; txt on the standard "
-                        "output, html for a file without a known suffix)")
-    p.add_argument("-o", "--output", metavar="FILE",
-                   help="write the report to FILE (default, or -: the standard output)")
+    p.add_argument(
+        "--format",
+        choices=("html", "md", "txt"),
+        help="report format (default: from the -o suffix; txt on the standard "
+        "output, html for a file without a known suffix)",
+    )
+    p.add_argument(
+        "-o",
+        "--output",
+        metavar="FILE",
+        help="write the report to FILE (default, or -: the standard output)",
+    )
     p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
     p.add_argument("--no-charts", action="store_true", help="leave the charts out (HTML)")
-    p.add_argument("--no-variants", action="store_true",
-                   help="leave out the side-by-side comparison of the project's variants")
-    p.add_argument("--bom", metavar="CSV", help="also write the bill of materials as CSV "
-                                                "(- for the standard output)")
+    p.add_argument(
+        "--no-variants",
+        action="store_true",
+        help="leave out the side-by-side comparison of the project's variants",
+    )
+    p.add_argument(
+        "--bom",
+        metavar="CSV",
+        help="also write the bill of materials as CSV (- for the standard output)",
+    )
     sim = p.add_argument_group("reliability")
-    sim.add_argument("--simulate", action="store_true",
-                     help="run the reliability simulation and include it (LOLP, state of "
-                          "charge, battery life, trade-off; about a second more)")
-    sim.add_argument("--years", default="30", metavar="N",
-                     help="with --simulate: years of weather (default 30)")
-    sim.add_argument("--seed", default="1", metavar="S",
-                     help="with --simulate: seed of the weather generator (default 1)")
-    with_example(p, "offgrid report --demo -o demo-report.html",
-                 "writes the demonstration project's report as one HTML file with charts "
-                 "(-o - or no -o: text on the standard output).")
+    sim.add_argument(
+        "--simulate",
+        action="store_true",
+        help="run the reliability simulation and include it (LOLP, state of "
+        "charge, battery life, trade-off; about a second more)",
+    )
+    sim.add_argument(
+        "--years", default="30", metavar="N", help="with --simulate: years of weather (default 30)"
+    )
+    sim.add_argument(
+        "--seed",
+        default="1",
+        metavar="S",
+        help="with --simulate: seed of the weather generator (default 1)",
+    )
+    with_example(
+        p,
+        "offgrid report --demo -o demo-report.html",
+        "writes the demonstration project's report as one HTML file with charts "
+        "(-o - or no -o: text on the standard output).",
+    )
     p.set_defaults(func=run)
 
 
@@ -92,10 +118,17 @@ def run(args: argparse.Namespace) -> int:
     except DesignError as exc:
         fail(f"cannot design: {exc}; no report was written", code=3)
     try:
-        text = make_report(project, base, fmt, design=result,
-                           with_charts=False if args.no_charts else None,
-                           with_variants=not args.no_variants, simulate=args.simulate,
-                           years=years, seed=seed)
+        text = make_report(
+            project,
+            base,
+            fmt,
+            design=result,
+            with_charts=False if args.no_charts else None,
+            with_variants=not args.no_variants,
+            simulate=args.simulate,
+            years=years,
+            seed=seed,
+        )
     except (ValueError, DesignError) as exc:
         fail(f"cannot build the report: {exc}; no report was written", code=3)
     if bom_path is not None or args.bom == STDIO:

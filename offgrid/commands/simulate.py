@@ -16,33 +16,61 @@ from offgrid.numbers import finite_float
 
 def register(sub) -> None:
     p = sub.add_parser(
-        "simulate", help="simulate years of weather: LOLP, battery life, array/battery trade-off",
+        "simulate",
+        help="simulate years of weather: LOLP, battery life, array/battery trade-off",
         description="Size the project for its worst month, then run its energy balance over "
-                    "synthetic daily weather (Aguiar et al. 1988 Markov matrices) and print "
-                    "the loss-of-load probability, battery wear and the array/battery curve "
-                    "for target LOLPs.")
+        "synthetic daily weather (Aguiar et al. 1988 Markov matrices) and print "
+        "the loss-of-load probability, battery wear and the array/battery curve "
+        "for target LOLPs.",
+    )
     add_project_argument(p)
     p.add_argument("--years", default="30", metavar="N", help="synthetic years (default 30)")
-    p.add_argument("--seed", default="1", metavar="S",
-                   help="seed of the weather generator, a whole number (default 1)")
-    p.add_argument("--hourly", action="store_true",
-                   help="hourly balance for the design (slower); the sweep stays daily")
-    p.add_argument("--target", action="append", metavar="LOLP",
-                   help="target LOLP as a fraction (repeatable; default 0.01 and 0.001)")
-    p.add_argument("--array-price", type=finite_float, metavar="PER_W",
-                   help="array price per W, for the cheapest point")
-    p.add_argument("--battery-price", type=finite_float, metavar="PER_KWH",
-                   help="battery price per kWh, for the cheapest point")
-    p.add_argument("--sweep", default="30", metavar="N",
-                   help="sweep N array sizes x N battery sizes (default 30)")
+    p.add_argument(
+        "--seed",
+        default="1",
+        metavar="S",
+        help="seed of the weather generator, a whole number (default 1)",
+    )
+    p.add_argument(
+        "--hourly",
+        action="store_true",
+        help="hourly balance for the design (slower); the sweep stays daily",
+    )
+    p.add_argument(
+        "--target",
+        action="append",
+        metavar="LOLP",
+        help="target LOLP as a fraction (repeatable; default 0.01 and 0.001)",
+    )
+    p.add_argument(
+        "--array-price",
+        type=finite_float,
+        metavar="PER_W",
+        help="array price per W, for the cheapest point",
+    )
+    p.add_argument(
+        "--battery-price",
+        type=finite_float,
+        metavar="PER_KWH",
+        help="battery price per kWh, for the cheapest point",
+    )
+    p.add_argument(
+        "--sweep",
+        default="30",
+        metavar="N",
+        help="sweep N array sizes x N battery sizes (default 30)",
+    )
     p.add_argument("--no-sweep", action="store_true", help="skip the trade-off sweep")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
     from offgrid.commands.size import add_quick_arguments
 
     add_quick_arguments(p)
-    with_example(p, "offgrid simulate --demo --years 10 --array-price 0.6 --battery-price 180",
-                 "ten synthetic weather years of the demonstration project: LOLP, battery "
-                 "wear, and the cheapest array/battery pair at 0.6 per W and 180 per kWh.")
+    with_example(
+        p,
+        "offgrid simulate --demo --years 10 --array-price 0.6 --battery-price 180",
+        "ten synthetic weather years of the demonstration project: LOLP, battery "
+        "wear, and the cheapest array/battery pair at 0.6 per W and 180 per kWh.",
+    )
     p.set_defaults(func=run)
 
 
@@ -72,10 +100,17 @@ def run(args: argparse.Namespace) -> int:
 
     project, base = project_from_args(args)
     try:
-        rep = simulate_project(project, base, years=years, seed=seed,
-                               mode="hourly" if args.hourly else "daily", targets=targets,
-                               prices=prices, sweep_size=sweep,
-                               with_tradeoff=not args.no_sweep)
+        rep = simulate_project(
+            project,
+            base,
+            years=years,
+            seed=seed,
+            mode="hourly" if args.hourly else "daily",
+            targets=targets,
+            prices=prices,
+            sweep_size=sweep,
+            with_tradeoff=not args.no_sweep,
+        )
     except DesignError as exc:
         design_failed(exc)
     except ValueError as exc:

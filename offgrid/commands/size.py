@@ -20,30 +20,43 @@ from offgrid.numbers import finite_float
 
 
 def register(sub) -> None:
-    p = sub.add_parser("size", help="size a project for its worst month and print the design",
-                       description="Size a project (or a quick design from a load list and a "
-                                   "climate) and print the design.")
+    p = sub.add_parser(
+        "size",
+        help="size a project for its worst month and print the design",
+        description="Size a project (or a quick design from a load list and a "
+        "climate) and print the design.",
+    )
     add_project_argument(p)
     p.add_argument("--json", action="store_true", help="print the design as JSON")
     add_quick_arguments(p)
-    with_example(p, "offgrid size --loads household-kit --climate kisanga-ridge-demo "
-                 "--autonomy-days 3", "sizes the bundled household load list on the invented "
-                 "Kisanga Ridge climate with three days of autonomy (--demo sizes the whole "
-                 "demonstration project; --json prints the design as JSON).")
+    with_example(
+        p,
+        "offgrid size --loads household-kit --climate kisanga-ridge-demo --autonomy-days 3",
+        "sizes the bundled household load list on the invented "
+        "Kisanga Ridge climate with three days of autonomy (--demo sizes the whole "
+        "demonstration project; --json prints the design as JSON).",
+    )
     p.set_defaults(func=run)
 
 
 def add_quick_arguments(p: argparse.ArgumentParser) -> None:
     """--loads and --climate (a quick design without a project file) and the overrides."""
     quick = p.add_argument_group("quick design without a project file")
-    quick.add_argument("--loads", metavar="LOADS.csv",
-                       help="load list CSV, or a load list's name (see `offgrid loads list`); "
-                            "- reads it from the standard input")
-    quick.add_argument("--climate", metavar="CLIMATE",
-                       help="climate name or climate file (see `offgrid climate list`)")
+    quick.add_argument(
+        "--loads",
+        metavar="LOADS.csv",
+        help="load list CSV, or a load list's name (see `offgrid loads list`); "
+        "- reads it from the standard input",
+    )
+    quick.add_argument(
+        "--climate",
+        metavar="CLIMATE",
+        help="climate name or climate file (see `offgrid climate list`)",
+    )
     quick.add_argument("--autonomy-days", type=finite_float, metavar="N")
-    quick.add_argument("--max-dod", type=finite_float, metavar="F",
-                       help="maximum depth of discharge 0-1")
+    quick.add_argument(
+        "--max-dod", type=finite_float, metavar="F", help="maximum depth of discharge 0-1"
+    )
     quick.add_argument("--controller", choices=("pwm", "mppt"))
 
 
@@ -65,20 +78,32 @@ def quick_project(args: argparse.Namespace):
     from offgrid.project.model import ClimateChoice, Project, ProjectInfo, Site
 
     if not (args.loads and args.climate):
-        fail("a quick design needs both --loads LOADS.csv and --climate CLIMATE",
-             field="--climate" if args.loads else "--loads")
+        fail(
+            "a quick design needs both --loads LOADS.csv and --climate CLIMATE",
+            field="--climate" if args.loads else "--loads",
+        )
     loads = read_load_list(args.loads)
     try:
         climate = load_climate(args.climate)
     except ClimateFileError as exc:
         fail(str(exc), field="--climate")
     if climate.latitude_deg is None:
-        fail(f"climate '{args.climate}' has no latitude_deg: add it to the climate file",
-             field="latitude_deg")
-    site = Site(name=args.climate, latitude_deg=climate.latitude_deg,
-                longitude_deg=climate.longitude_deg or 0.0, elevation_m=climate.elevation_m or 0.0)
-    return Project(info=ProjectInfo(name=f"Quick design: {args.loads}"), site=site,
-                   climate=ClimateChoice(ref=args.climate), loads=loads)
+        fail(
+            f"climate '{args.climate}' has no latitude_deg: add it to the climate file",
+            field="latitude_deg",
+        )
+    site = Site(
+        name=args.climate,
+        latitude_deg=climate.latitude_deg,
+        longitude_deg=climate.longitude_deg or 0.0,
+        elevation_m=climate.elevation_m or 0.0,
+    )
+    return Project(
+        info=ProjectInfo(name=f"Quick design: {args.loads}"),
+        site=site,
+        climate=ClimateChoice(ref=args.climate),
+        loads=loads,
+    )
 
 
 def read_load_list(ref: str):
@@ -91,10 +116,17 @@ def read_load_list(ref: str):
             return read_loads_csv(read_stdin("--loads"), source="standard input")
         path = resolve_load_list(ref)
         if path is None and not Path(ref).suffix and "/" not in ref:
-            names = ", ".join(n if o == "bundled" else f"{n} (yours)"
-                              for n, _p, o in load_list_library()) or "none"
-            fail(f"--loads {ref}: no such file or load list name; give a CSV file or one of "
-                 f"{names} (see `offgrid loads list`)", field="--loads")
+            names = (
+                ", ".join(
+                    n if o == "bundled" else f"{n} (yours)" for n, _p, o in load_list_library()
+                )
+                or "none"
+            )
+            fail(
+                f"--loads {ref}: no such file or load list name; give a CSV file or one of "
+                f"{names} (see `offgrid loads list`)",
+                field="--loads",
+            )
         return load_loads_csv(path or ref)
     except LoadListError as exc:
         fail(str(exc), field=first_field(exc))

@@ -70,27 +70,51 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
     a, b, c, inv = design.array, design.battery, design.controller, design.inverter
     m = project.module
     lines = [
-        BomLine(f"module:{m.name}", f"PV module {m.name}, {m.pmax_w:g} W STC, Vmp {m.vmp_v:g} V, "
-                f"Voc {m.voc_v:g} V, Isc {m.isc_a:g} A", float(a.module_count), "each",
-                f"{a.modules_series} in series x {a.modules_parallel} string(s) in parallel",
-                "array.module_count"),
+        BomLine(
+            f"module:{m.name}",
+            f"PV module {m.name}, {m.pmax_w:g} W STC, Vmp {m.vmp_v:g} V, "
+            f"Voc {m.voc_v:g} V, Isc {m.isc_a:g} A",
+            float(a.module_count),
+            "each",
+            f"{a.modules_series} in series x {a.modules_parallel} string(s) in parallel",
+            "array.module_count",
+        ),
     ]
-    lines.append(BomLine(
-        f"controller:{c.type.upper()} {c.current_a:g} A", f"{c.type.upper()} charge "
-        f"controller, {c.current_a:g} A, PV input up to {c.max_pv_voltage_v:g} V, "
-        f"{b.system_voltage_v} V battery", float(c.count), "each",
-        "charge controllers needed for the array current", "controller.count"))
+    lines.append(
+        BomLine(
+            f"controller:{c.type.upper()} {c.current_a:g} A",
+            f"{c.type.upper()} charge "
+            f"controller, {c.current_a:g} A, PV input up to {c.max_pv_voltage_v:g} V, "
+            f"{b.system_voltage_v} V battery",
+            float(c.count),
+            "each",
+            "charge controllers needed for the array current",
+            "controller.count",
+        )
+    )
     bs = project.battery
-    lines.append(BomLine(
-        f"battery:{bs.name}", f"Battery unit {bs.name}, {bs.nominal_voltage_v:g} V "
-        f"{bs.capacity_ah:g} Ah {b.chemistry}", float(b.unit_count), "each",
-        f"{b.units_series} in series x {b.units_parallel} string(s) in parallel",
-        "battery.unit_count"))
+    lines.append(
+        BomLine(
+            f"battery:{bs.name}",
+            f"Battery unit {bs.name}, {bs.nominal_voltage_v:g} V "
+            f"{bs.capacity_ah:g} Ah {b.chemistry}",
+            float(b.unit_count),
+            "each",
+            f"{b.units_series} in series x {b.units_parallel} string(s) in parallel",
+            "battery.unit_count",
+        )
+    )
     if inv.needed:
-        lines.append(BomLine(
-            f"inverter:{inv.continuous_w:g} W", f"Inverter, {inv.continuous_w:g} W continuous, "
-            f"{inv.surge_w:g} W surge, {b.system_voltage_v} V DC input", 1.0, "each",
-            "one inverter for the AC loads"))
+        lines.append(
+            BomLine(
+                f"inverter:{inv.continuous_w:g} W",
+                f"Inverter, {inv.continuous_w:g} W continuous, "
+                f"{inv.surge_w:g} W surge, {b.system_voltage_v} V DC input",
+                1.0,
+                "each",
+                "one inverter for the AC loads",
+            )
+        )
     lines += _protection_lines(design)
     lines += _cable_lines(wires_of(design))
     return tuple(lines)
@@ -107,10 +131,17 @@ def _cable_lines(wires: Iterable[WireChoice]) -> list[BomLine]:
     out = []
     for (material, size), metres in totals.items():
         qty = float(math.ceil(metres - 1e-9))
-        out.append(BomLine(
-            f"cable:{material} {size}", f"Cable, {material}, {size}", qty, "m",
-            f"{CONDUCTORS_PER_RUN} conductors x one-way length of: "
-            + ", ".join(runs[(material, size)]) + " (rounded up to the metre)"))
+        out.append(
+            BomLine(
+                f"cable:{material} {size}",
+                f"Cable, {material}, {size}",
+                qty,
+                "m",
+                f"{CONDUCTORS_PER_RUN} conductors x one-way length of: "
+                + ", ".join(runs[(material, size)])
+                + " (rounded up to the metre)",
+            )
+        )
     return out
 
 
@@ -139,26 +170,30 @@ def _protection_lines(design: SystemDesign) -> list[BomLine]:
         desc = f"{kind.replace('-', ' ').capitalize()} {detail}".strip()
         if detail.endswith(" V"):
             amps, _, volts = detail.rpartition(" ")[0].rpartition(" ")
-            desc = f"{kind.replace('-', ' ').capitalize()} {amps}".strip() + \
-                f", at least {volts} V DC"
+            desc = (
+                f"{kind.replace('-', ' ').capitalize()} {amps}".strip() + f", at least {volts} V DC"
+            )
         out.append(BomLine(key, desc, qty, "each", f"protection schedule: {where}"))
     return out
 
 
-def bom_csv(lines: Iterable[BomLine], prices: dict[str, float] | None = None,
-            currency: str = "") -> str:
+def bom_csv(
+    lines: Iterable[BomLine], prices: dict[str, float] | None = None, currency: str = ""
+) -> str:
     """The bill of materials as CSV (comma separated, header row, one part a row)."""
     buf = io.StringIO()
     w = csv.writer(buf, lineterminator="\n")
     head = ["part", "description", "quantity", "unit", "follows from"]
     if prices is not None:
-        head += [f"unit price ({currency})".replace(" ()", ""), f"total ({currency})".replace(
-            " ()", "")]
+        head += [
+            f"unit price ({currency})".replace(" ()", ""),
+            f"total ({currency})".replace(" ()", ""),
+        ]
     w.writerow(csv_row(head))
     for ln in lines:
         row = csv_row([ln.key, ln.description, f"{ln.quantity:g}", ln.unit, ln.follows])
         if prices is not None:
             p = prices.get(ln.key)
-            row += (["", ""] if p is None else [f"{p:.2f}", f"{p * ln.quantity:.2f}"])
+            row += ["", ""] if p is None else [f"{p:.2f}", f"{p * ln.quantity:.2f}"]
         w.writerow(row)
     return buf.getvalue()

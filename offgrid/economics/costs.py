@@ -55,6 +55,7 @@ BATTERY_LIFE_SOURCE = "chemistry preset, typical service life at daily cycling (
 
 # ----------------------------------------------------------------------------- factors
 
+
 def present_worth_single(years, discount_rate: float, inflation: float = 0.0):
     """Present worth of 1 (today's price) paid after ``years`` [-]: ((1+i)/(1+d))^n.
 
@@ -75,7 +76,8 @@ def present_worth_factor(years: float, inflation: float, discount_rate: float) -
     if math.isclose(inflation, discount_rate, abs_tol=1e-12):
         return years / (1.0 + inflation)
     return (1.0 - ((1.0 + inflation) / (1.0 + discount_rate)) ** years) / (
-        discount_rate - inflation)
+        discount_rate - inflation
+    )
 
 
 def replacement_years(life_years: float, horizon_years: float) -> tuple[float, ...]:
@@ -88,6 +90,7 @@ def replacement_years(life_years: float, horizon_years: float) -> tuple[float, .
 
 
 # ----------------------------------------------------------------------------- lifecycle
+
 
 @dataclass(frozen=True)
 class CostLine:
@@ -132,9 +135,11 @@ class LifecycleCost:
     def message(self) -> str:
         if not self.missing:
             return ""
-        return ("no price for: " + ", ".join(self.missing) + ". Add them to the project's "
-                "[[prices]] list, or fill in `offgrid prices PROJECT --template` and load it with "
-                "`offgrid prices PROJECT --import FILE.csv`.")
+        return (
+            "no price for: " + ", ".join(self.missing) + ". Add them to the project's "
+            "[[prices]] list, or fill in `offgrid prices PROJECT --template` and load it with "
+            "`offgrid prices PROJECT --import FILE.csv`."
+        )
 
 
 def _record(reliability: SimulationReport | Reliability | None) -> Reliability | None:
@@ -144,8 +149,10 @@ def _record(reliability: SimulationReport | Reliability | None) -> Reliability |
     return reliability.reliability
 
 
-def battery_life(project: Project, reliability: SimulationReport | Reliability | None = None,
-                 ) -> tuple[float, str]:
+def battery_life(
+    project: Project,
+    reliability: SimulationReport | Reliability | None = None,
+) -> tuple[float, str]:
     """Battery service life [years] and where it came from: project, simulation or preset."""
     e = project.economics
     if e.battery_life_years is not None:
@@ -175,17 +182,24 @@ def _served_fraction(reliability: SimulationReport | Reliability | None) -> floa
     return 1.0 - float(v) if math.isfinite(v) and 0 <= v <= 1 else 1.0
 
 
-def lifecycle_cost(project: Project, design: SystemDesign, bom: tuple[BomLine, ...],
-                   reliability: SimulationReport | Reliability | None = None,
-                   ) -> LifecycleCost:
+def lifecycle_cost(
+    project: Project,
+    design: SystemDesign,
+    bom: tuple[BomLine, ...],
+    reliability: SimulationReport | Reliability | None = None,
+) -> LifecycleCost:
     """Capital, replacements, upkeep and the lifecycle cost per kWh delivered."""
     e = project.economics
     d = e.discount_rate_pct / 100.0
     i = e.inflation_pct / 100.0
     n = float(e.life_years)
     life_b, life_src = battery_life(project, reliability)
-    lives = {"module": e.module_life_years, "battery": life_b,
-             "controller": e.controller_life_years, "inverter": e.inverter_life_years}
+    lives = {
+        "module": e.module_life_years,
+        "battery": life_b,
+        "controller": e.controller_life_years,
+        "inverter": e.inverter_life_years,
+    }
     lines: list[CostLine] = []
     missing: list[str] = []
     for ln in bom:
@@ -196,38 +210,69 @@ def lifecycle_cost(project: Project, design: SystemDesign, bom: tuple[BomLine, .
         rep = None if total is None else float(total * np.sum(present_worth_single(years, d, i)))
         if price is None:
             missing.append(ln.key)
-        lines.append(CostLine(ln.key, ln.description, ln.quantity, ln.unit, price, total, life,
-                              years, rep))
+        lines.append(
+            CostLine(ln.key, ln.description, ln.quantity, ln.unit, price, total, life, years, rep)
+        )
     pwf_up = present_worth_factor(n, i, d)
     pwf_e = present_worth_factor(n, 0.0, d)
     served = _served_fraction(reliability)
     energy = delivered_energy_kwh_year(design, served)
     reasons = {
-        "costs.capital": Reason("sum of quantity x unit price over the bill of materials, plus "
-                                "installation as a share of the parts",
-                                (("installation", fmt(e.installation_pct, "%")),),
-                                "common practice, no source"),
+        "costs.capital": Reason(
+            "sum of quantity x unit price over the bill of materials, plus "
+            "installation as a share of the parts",
+            (("installation", fmt(e.installation_pct, "%")),),
+            "common practice, no source",
+        ),
         "costs.replacements_pw": Reason(
             "sum over parts and replacement years n < N of part cost x ((1 + i)/(1 + d))^n",
-            (("discount_rate", fmt(e.discount_rate_pct, "%")),
-             ("inflation", fmt(e.inflation_pct, "%")), ("life", fmt(n, "years")),
-             ("battery_life", fmt(life_b, "years"))),
-            "Duffie & Beckman 4th ed. sec. 11.4 (single-payment present worth)"),
+            (
+                ("discount_rate", fmt(e.discount_rate_pct, "%")),
+                ("inflation", fmt(e.inflation_pct, "%")),
+                ("life", fmt(n, "years")),
+                ("battery_life", fmt(life_b, "years")),
+            ),
+            "Duffie & Beckman 4th ed. sec. 11.4 (single-payment present worth)",
+        ),
         "costs.upkeep_pw": Reason(
             "yearly upkeep x PWF(N, i, d) = upkeep x 1/(d - i) [1 - ((1 + i)/(1 + d))^N]",
-            (("upkeep", fmt(e.om_pct_of_capital, "% of capital per year")),
-             ("PWF", fmt(pwf_up))), "Duffie & Beckman 4th ed. eq. 11.5.1"),
-        "costs.lcc": Reason("capital + present worth of replacements + present worth of upkeep",
-                            (), "Duffie & Beckman 4th ed. ch. 11 (life-cycle cost)"),
+            (("upkeep", fmt(e.om_pct_of_capital, "% of capital per year")), ("PWF", fmt(pwf_up))),
+            "Duffie & Beckman 4th ed. eq. 11.5.1",
+        ),
+        "costs.lcc": Reason(
+            "capital + present worth of replacements + present worth of upkeep",
+            (),
+            "Duffie & Beckman 4th ed. ch. 11 (life-cycle cost)",
+        ),
         "costs.cost_per_kwh": Reason(
             "lifecycle cost / (energy delivered per year x PWF(N, 0, d))",
             (("energy", fmt(energy, "kWh/year")), ("PWF(N, 0, d)", fmt(pwf_e))),
-            "Duffie & Beckman 4th ed. ch. 11 (levelised over the discounted energy)"),
+            "Duffie & Beckman 4th ed. ch. 11 (levelised over the discounted energy)",
+        ),
     }
     if missing:
-        return LifecycleCost(e.currency, tuple(lines), tuple(missing), None, None, None, None,
-                             None, None, None, energy, energy * pwf_e, None, pwf_up, pwf_e, e,
-                             life_b, life_src, served, reasons)
+        return LifecycleCost(
+            e.currency,
+            tuple(lines),
+            tuple(missing),
+            None,
+            None,
+            None,
+            None,
+            None,
+            None,
+            None,
+            energy,
+            energy * pwf_e,
+            None,
+            pwf_up,
+            pwf_e,
+            e,
+            life_b,
+            life_src,
+            served,
+            reasons,
+        )
     parts = float(sum(ln.total or 0.0 for ln in lines))
     install = parts * e.installation_pct / 100.0
     capital = parts + install
@@ -236,9 +281,28 @@ def lifecycle_cost(project: Project, design: SystemDesign, bom: tuple[BomLine, .
     rep_pw = float(sum(ln.replacement_pw or 0.0 for ln in lines))
     lcc = capital + rep_pw + upkeep_pw
     per_kwh = lcc / (energy * pwf_e) if energy > 0 and pwf_e > 0 else None
-    return LifecycleCost(e.currency, tuple(lines), (), parts, install, capital, upkeep,
-                         upkeep_pw, rep_pw, lcc, energy, energy * pwf_e, per_kwh, pwf_up, pwf_e,
-                         e, life_b, life_src, served, reasons)
+    return LifecycleCost(
+        e.currency,
+        tuple(lines),
+        (),
+        parts,
+        install,
+        capital,
+        upkeep,
+        upkeep_pw,
+        rep_pw,
+        lcc,
+        energy,
+        energy * pwf_e,
+        per_kwh,
+        pwf_up,
+        pwf_e,
+        e,
+        life_b,
+        life_src,
+        served,
+        reasons,
+    )
 
 
 def tradeoff_prices(project: Project, bom: tuple[BomLine, ...]) -> dict[str, float] | None:
@@ -253,8 +317,10 @@ def tradeoff_prices(project: Project, bom: tuple[BomLine, ...]) -> dict[str, flo
     pb = price_for(bat.key, project.prices) if bat else None
     if pm is None or pb is None:
         return None
-    return {"array_per_w": pm / m.pmax_w,
-            "battery_per_kwh": pb / (b.nominal_voltage_v * b.capacity_ah / 1000.0)}
+    return {
+        "array_per_w": pm / m.pmax_w,
+        "battery_per_kwh": pb / (b.nominal_voltage_v * b.capacity_ah / 1000.0),
+    }
 
 
 def money(value: float | None, currency: str = "") -> str:

@@ -100,8 +100,10 @@ def read_price_csv(text: str, source: str = "price list") -> list[PriceItem]:
     cols = {n.strip().lower() for n in table.names}
     price_col = next((c for c in PART_PRICE_COLUMNS if c in cols), None)
     if "part" not in cols or price_col is None:
-        raise PriceListError(f"{source}: needs the columns 'part' and 'unit_price' (found: "
-                             f"{', '.join(table.names) or 'none'})")
+        raise PriceListError(
+            f"{source}: needs the columns 'part' and 'unit_price' (found: "
+            f"{', '.join(table.names) or 'none'})"
+        )
     items: list[PriceItem] = []
     seen: dict[str, int] = {}
     for n, cells in table.records:
@@ -116,18 +118,24 @@ def read_price_csv(text: str, source: str = "price list") -> list[PriceItem]:
         try:
             price = read_number(raw)
         except NumberError as exc:
-            raise PriceListError(f"{source}: row {n}, unit_price: {exc} (part "
-                                 f"'{printable(part)}')") from None
+            raise PriceListError(
+                f"{source}: row {n}, unit_price: {exc} (part '{printable(part)}')"
+            ) from None
         if price <= 0:
-            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{printable(part)}': "
-                                 "a price must be above zero; leave it blank if the part is not "
-                                 "bought")
+            raise PriceListError(
+                f"{source}: row {n}, unit_price: {raw} for '{printable(part)}': "
+                "a price must be above zero; leave it blank if the part is not "
+                "bought"
+            )
         if price > MAX_PRICE:
-            raise PriceListError(f"{source}: row {n}, unit_price: {raw} for '{printable(part)}' "
-                                 f"is out of range; {PRICE_RANGE}")
+            raise PriceListError(
+                f"{source}: row {n}, unit_price: {raw} for '{printable(part)}' "
+                f"is out of range; {PRICE_RANGE}"
+            )
         if part in seen:
-            raise PriceListError(f"{source}: row {n}: '{part}' is priced twice (also row "
-                                 f"{seen[part]})")
+            raise PriceListError(
+                f"{source}: row {n}: '{part}' is priced twice (also row {seen[part]})"
+            )
         seen[part] = n
         items.append(PriceItem(part=part, unit_price=price, note=csv_uncell(cells.get("note", ""))))
     return items
@@ -161,8 +169,15 @@ def price_template_csv(bom: tuple[BomLine, ...], prices: list[PriceItem]) -> str
     notes = {p.part: p.note for p in prices}
     for ln in bom:
         p = price_for(ln.key, prices)
-        w.writerow([csv_cell(ln.key), "" if p is None else f"{p:g}", ln.unit,
-                    csv_cell(printable(ln.description)), csv_cell(notes.get(ln.key, ""))])
+        w.writerow(
+            [
+                csv_cell(ln.key),
+                "" if p is None else f"{p:g}",
+                ln.unit,
+                csv_cell(printable(ln.description)),
+                csv_cell(notes.get(ln.key, "")),
+            ]
+        )
         listed.add(ln.key)
     for p in prices:  # kind-wide prices and prices of parts not in this design
         if p.part not in listed:

@@ -52,8 +52,9 @@ def _step(obj: Any, part: str, where: str) -> Any:
         return value
     if not isinstance(value, list) or not 1 <= index <= len(value):
         size = len(value) if isinstance(value, list) else 0
-        raise ValueError(f"{where}: {name}[{index}] does not exist ({name} has {size} item(s), "
-                         "counted from 1)")
+        raise ValueError(
+            f"{where}: {name}[{index}] does not exist ({name} has {size} item(s), counted from 1)"
+        )
     return value[index - 1]
 
 
@@ -97,6 +98,7 @@ def apply_variant(project: Project, variant: Variant) -> Project:
 
 
 # ----------------------------------------------------------------------------- comparison
+
 
 @dataclass(frozen=True)
 class VariantColumn:
@@ -155,26 +157,57 @@ def _show(value: Any, digits: int | None) -> str:
 
 #: Figures compared: label, unit, digits, getter from (design, cost, reliability).
 FIGURE_ROWS: tuple[tuple[str, str, int, str, Callable[..., Any]], ...] = (
-    ("Design month", "", 0, "site.design_month",
-     lambda d, c, r: MONTHS[d.site.design_month - 1]),
-    ("System voltage", "V", 0, "battery.system_voltage_v", lambda d, c, r:
-     d.battery.system_voltage_v),
+    ("Design month", "", 0, "site.design_month", lambda d, c, r: MONTHS[d.site.design_month - 1]),
+    (
+        "System voltage",
+        "V",
+        0,
+        "battery.system_voltage_v",
+        lambda d, c, r: d.battery.system_voltage_v,
+    ),
     ("Array power", "W", 0, "array.power_w", lambda d, c, r: d.array.power_w),
-    ("Modules", "", 0, "array.module_count", lambda d, c, r:
-     f"{d.array.modules_series} x {d.array.modules_parallel}"),
+    (
+        "Modules",
+        "",
+        0,
+        "array.module_count",
+        lambda d, c, r: f"{d.array.modules_series} x {d.array.modules_parallel}",
+    ),
     ("Derates together", "", 3, "array.derate_total", lambda d, c, r: d.array.derate_total),
     ("Battery bank", "Ah", 0, "battery.capacity_ah", lambda d, c, r: d.battery.capacity_ah),
     ("Battery usable", "kWh", 2, "battery.usable_kwh", lambda d, c, r: d.battery.usable_kwh),
     ("Battery units", "", 0, "battery.unit_count", lambda d, c, r: d.battery.unit_count),
-    ("Controller", "A", 0, "controller.current_a", lambda d, c, r:
-     f"{d.controller.count} x {d.controller.current_a:g} {d.controller.type.upper()}"),
-    ("Inverter", "W", 0, "inverter.continuous_w", lambda d, c, r:
-     d.inverter.continuous_w if d.inverter.needed else "none"),
+    (
+        "Controller",
+        "A",
+        0,
+        "controller.current_a",
+        lambda d, c, r: (
+            f"{d.controller.count} x {d.controller.current_a:g} {d.controller.type.upper()}"
+        ),
+    ),
+    (
+        "Inverter",
+        "W",
+        0,
+        "inverter.continuous_w",
+        lambda d, c, r: d.inverter.continuous_w if d.inverter.needed else "none",
+    ),
     # As the headline counts them: warnings, and notes (severity 'info') apart.
-    ("Warnings", "", 0, "warnings", lambda d, c, r:
-     sum(1 for w in d.warnings if w.severity != "info")),
-    ("Notes", "", 0, "warnings", lambda d, c, r:
-     sum(1 for w in d.warnings if w.severity == "info")),
+    (
+        "Warnings",
+        "",
+        0,
+        "warnings",
+        lambda d, c, r: sum(1 for w in d.warnings if w.severity != "info"),
+    ),
+    (
+        "Notes",
+        "",
+        0,
+        "warnings",
+        lambda d, c, r: sum(1 for w in d.warnings if w.severity == "info"),
+    ),
 )
 COST_ROWS: tuple[tuple[str, int, str], ...] = (
     ("Capital cost", 0, "capital"),
@@ -182,11 +215,18 @@ COST_ROWS: tuple[tuple[str, int, str], ...] = (
     ("Cost per kWh delivered", 3, "cost_per_kwh"),
     ("Battery life", 1, "battery_life_years"),
 )
+
+
 def battery_life_label(sources: list[str]) -> str:
     """'Battery life' with the method behind the figures (the same words as 7 Risk)."""
-    kinds = {"simulated" if s.startswith("reliability simulation") else
-             "typed" if s.startswith("project file") else "preset"
-             for s in sources}
+    kinds = {
+        "simulated"
+        if s.startswith("reliability simulation")
+        else "typed"
+        if s.startswith("project file")
+        else "preset"
+        for s in sources
+    }
     return "Battery life" + (", " + " or ".join(sorted(kinds)) if kinds else "")
 
 
@@ -196,17 +236,27 @@ RELIABILITY_ROWS: tuple[tuple[str, str, int, str], ...] = (
 )
 
 
-def _row(label: str, unit: str, digits: int | None, values: list[Any], group: str,
-         path: str | None = None) -> ComparisonRow:
+def _row(
+    label: str,
+    unit: str,
+    digits: int | None,
+    values: list[Any],
+    group: str,
+    path: str | None = None,
+) -> ComparisonRow:
     base = values[0]
     differs = tuple(i > 0 and v is not None and not _same(v, base) for i, v in enumerate(values))
-    return ComparisonRow(label, unit, tuple(values), tuple(_show(v, digits) for v in values),
-                         differs, group, path)
+    return ComparisonRow(
+        label, unit, tuple(values), tuple(_show(v, digits) for v in values), differs, group, path
+    )
 
 
-def compare_variants(project: Project, base: Path | None = None,
-                     simulate: Callable[[Project, SystemDesign], Any] | None = None,
-                     with_costs: bool = True) -> VariantComparison:
+def compare_variants(
+    project: Project,
+    base: Path | None = None,
+    simulate: Callable[[Project, SystemDesign], Any] | None = None,
+    with_costs: bool = True,
+) -> VariantComparison:
     """Design the project and each of its variants; line up choices, figures, cost, reliability.
 
     ``simulate(project, design)``, when given, returns a reliability record (with ``lolp``
@@ -230,12 +280,12 @@ def compare_variants(project: Project, base: Path | None = None,
         try:
             des = run_design(proj, base)
         except DesignError as exc:
-            columns.append(VariantColumn(v.name, v.note, shown, proj, None, f"cannot design: "
-                                         f"{exc}"))
+            columns.append(
+                VariantColumn(v.name, v.note, shown, proj, None, f"cannot design: {exc}")
+            )
             continue
         rel = simulate(proj, des) if simulate is not None else None
-        cost = lifecycle_cost(proj, des, bill_of_materials(proj, des), rel) if with_costs \
-            else None
+        cost = lifecycle_cost(proj, des, bill_of_materials(proj, des), rel) if with_costs else None
         columns.append(VariantColumn(v.name, v.note, shown, proj, des, None, cost, rel))
 
     rows: list[ComparisonRow] = []
@@ -253,8 +303,9 @@ def compare_variants(project: Project, base: Path | None = None,
                 vals.append(None)
         rows.append(_row(p, "", None, vals, "choices", p))
     for label, unit, digits, path, get in FIGURE_ROWS:
-        vals = [get(c.design, c.cost, c.reliability) if c.design is not None else None
-                for c in columns]
+        vals = [
+            get(c.design, c.cost, c.reliability) if c.design is not None else None for c in columns
+        ]
         rows.append(_row(label, unit, digits, vals, "figures", path))
     if with_costs:
         currency = project.economics.currency
@@ -264,8 +315,9 @@ def compare_variants(project: Project, base: Path | None = None,
             if attr == "cost_per_kwh":
                 unit = f"{currency}/kWh"
             if attr == "battery_life_years":  # say which method: preset or simulated wear
-                label = battery_life_label([c.cost.battery_life_source for c in columns
-                                            if c.cost is not None])
+                label = battery_life_label(
+                    [c.cost.battery_life_source for c in columns if c.cost is not None]
+                )
             rows.append(_row(label, unit, digits, vals, "cost"))
     if simulate is not None:
         for label, unit, digits, attr in RELIABILITY_ROWS:

@@ -119,12 +119,20 @@ class CommunityPlan:
             row["design_id"] = did
             rows.append(row)
         out = {
-            "format": "offgrid-community-plan", "schema": 2,
-            "name": self.name, "demo": self.demo, "source": self.source,
-            "climate": self.climate, "tilt_deg": self.tilt_deg, "rows_read": self.rows_read,
-            "energy_step_pct": self.energy_step_pct, "stepped_rows": self.stepped_rows,
-            "distinct_designs": self.distinct_designs, "systems": self.systems,
-            "currency": self.currency, "prices": self.prices_source,
+            "format": "offgrid-community-plan",
+            "schema": 2,
+            "name": self.name,
+            "demo": self.demo,
+            "source": self.source,
+            "climate": self.climate,
+            "tilt_deg": self.tilt_deg,
+            "rows_read": self.rows_read,
+            "energy_step_pct": self.energy_step_pct,
+            "stepped_rows": self.stepped_rows,
+            "distinct_designs": self.distinct_designs,
+            "systems": self.systems,
+            "currency": self.currency,
+            "prices": self.prices_source,
             "bad_rows": [asdict(p) for p in self.bad_rows],
             "rows": rows,
             "designs": designs,
@@ -170,8 +178,9 @@ def _plain(value: Any) -> Any:
     return value
 
 
-def resolve_prices(survey: Survey, prices: PriceList | str | None,
-                   inputs: PlanInputs | None = None) -> PriceList | None:
+def resolve_prices(
+    survey: Survey, prices: PriceList | str | None, inputs: PlanInputs | None = None
+) -> PriceList | None:
     """The price list given, or the one the survey names, or the shared project's own
     ``[[prices]]``; None when there is none."""
     if isinstance(prices, PriceList):
@@ -180,8 +189,9 @@ def resolve_prices(survey: Survey, prices: PriceList | str | None,
     currency = inputs.base.economics.currency if inputs is not None else "USD"
     if not ref:
         if inputs is not None and inputs.base.prices:
-            return from_part_prices(inputs.base.prices, currency,
-                                    f"the shared project's prices ({survey.project})")
+            return from_part_prices(
+                inputs.base.prices, currency, f"the shared project's prices ({survey.project})"
+            )
         return None
     path = _find(ref, survey.base_dir, load_profiles_dir(), ".csv")
     if path is None:
@@ -192,12 +202,19 @@ def resolve_prices(survey: Survey, prices: PriceList | str | None,
         raise PlanError(str(exc)) from exc
 
 
-def plan_community(survey: Survey, *, kits: int | None = None,
-                   kit_type_cost: float | None = None, prices: PriceList | str | None = None,
-                   objective: str | None = None, climate: str | None = None,
-                   jobs: int | None = None, k_max: int = 12,
-                   curve_to: int = CURVE_KITS,
-                   energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT) -> CommunityPlan:
+def plan_community(
+    survey: Survey,
+    *,
+    kits: int | None = None,
+    kit_type_cost: float | None = None,
+    prices: PriceList | str | None = None,
+    objective: str | None = None,
+    climate: str | None = None,
+    jobs: int | None = None,
+    k_max: int = 12,
+    curve_to: int = CURVE_KITS,
+    energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT,
+) -> CommunityPlan:
     """Plan a whole survey.
 
     Parameters
@@ -232,19 +249,29 @@ def plan_community(survey: Survey, *, kits: int | None = None,
     inputs = prepare(survey, climate=climate, energy_step_pct=energy_step_pct)
     price_list = resolve_prices(survey, prices, inputs)
     objective = objective or ("cost" if price_list is not None else "oversize")
-    if kit_type_cost is None and objective == "cost" and price_list is not None \
-            and price_list.has("kit_type"):
+    if (
+        kit_type_cost is None
+        and objective == "cost"
+        and price_list is not None
+        and price_list.has("kit_type")
+    ):
         kit_type_cost = price_list.optional("kit_type")
     if kits is None and kit_type_cost is None:
         kits = DEFAULT_KITS
     designed = design_rows(inputs, jobs=default_jobs() if jobs is None else jobs)
-    return assemble(inputs, designed, price_list, objective, kits, kit_type_cost, k_max,
-                    curve_to)
+    return assemble(inputs, designed, price_list, objective, kits, kit_type_cost, k_max, curve_to)
 
 
-def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | None,
-             objective: str, kits: int | None, kit_type_cost: float | None, k_max: int,
-             curve_to: int) -> CommunityPlan:
+def assemble(
+    inputs: PlanInputs,
+    designed: DesignedRows,
+    prices: PriceList | None,
+    objective: str,
+    kits: int | None,
+    kit_type_cost: float | None,
+    k_max: int,
+    curve_to: int,
+) -> CommunityPlan:
     """Standardise and total already designed rows (split out so views can re-run it)."""
     survey = inputs.survey
     book = ReasonBook()
@@ -255,8 +282,15 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
     standard = None
     totals = None
     if cands:
-        standard = standardise(cands, k=kits, kit_type_cost=kit_type_cost, prices=prices,
-                               objective=objective, k_max=k_max, curve_to=curve_to)
+        standard = standardise(
+            cands,
+            k=kits,
+            kit_type_cost=kit_type_cost,
+            prices=prices,
+            objective=objective,
+            k_max=k_max,
+            curve_to=curve_to,
+        )
         labels = {i: r.id for i, r in enumerate(designed.rows)}
         totals = procurement_totals(standard, cands, prices, labels)
     by_index = {a.index: a for a in standard.assignments} if standard else {}
@@ -268,18 +302,50 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
     cautions: list[str] = []
     for i, (row, d) in enumerate(zip(designed.rows, designed.designs, strict=True)):
         if isinstance(d, RowFailure):
-            results.append(RowResult(row.line, row.id, row.name, row.kind, row.count,
-                                     row.demand_source, "cannot be met", None,
-                                     f"[{d.code}] {d.message}", None, d, None, None, None, None,
-                                     None))
+            results.append(
+                RowResult(
+                    row.line,
+                    row.id,
+                    row.name,
+                    row.kind,
+                    row.count,
+                    row.demand_source,
+                    "cannot be met",
+                    None,
+                    f"[{d.code}] {d.message}",
+                    None,
+                    d,
+                    None,
+                    None,
+                    None,
+                    None,
+                    None,
+                )
+            )
             continue
         own_tier = int(own_tiers[i])
         a = by_index.get(i)
         if a is None or row.count == 0:
-            results.append(RowResult(row.line, row.id, row.name, row.kind, row.count,
-                                     row.demand_source, "not planned", None,
-                                     "count 0: designed but not planned", d, None, own_tier,
-                                     None, None, None, None))
+            results.append(
+                RowResult(
+                    row.line,
+                    row.id,
+                    row.name,
+                    row.kind,
+                    row.count,
+                    row.demand_source,
+                    "not planned",
+                    None,
+                    "count 0: designed but not planned",
+                    d,
+                    None,
+                    own_tier,
+                    None,
+                    None,
+                    None,
+                    None,
+                )
+            )
             continue
         served = int(served_tiers[i])
         tier_counts[TIER_NAMES[served]] += row.count
@@ -288,57 +354,119 @@ def assemble(inputs: PlanInputs, designed: DesignedRows, prices: PriceList | Non
         for text in d.cautions:
             if text not in cautions:
                 cautions.append(text)
-        results.append(RowResult(row.line, row.id, row.name, row.kind, row.count,
-                                 row.demand_source, "kit" if a.kit else "own system", a.kit,
-                                 a.reason, d, None, own_tier, served, a.oversize_array_pct,
-                                 a.oversize_battery_pct, a.unit_cost))
+        results.append(
+            RowResult(
+                row.line,
+                row.id,
+                row.name,
+                row.kind,
+                row.count,
+                row.demand_source,
+                "kit" if a.kit else "own system",
+                a.kit,
+                a.reason,
+                d,
+                None,
+                own_tier,
+                served,
+                a.oversize_array_pct,
+                a.oversize_battery_pct,
+                a.unit_cost,
+            )
+        )
     notices: list[Notice] = []
     unmet = [r for r in results if r.status == "cannot be met"]
     if unmet:
-        notices.append(Notice("rows-cannot-be-met", f"{len(unmet)} row(s) cannot be met by a "
-                              f"stand-alone PV design: {_ids(r.id for r in unmet)}; see each "
-                              "row's reason.", "error", "plan.rows"))
+        notices.append(
+            Notice(
+                "rows-cannot-be-met",
+                f"{len(unmet)} row(s) cannot be met by a "
+                f"stand-alone PV design: {_ids(r.id for r in unmet)}; see each "
+                "row's reason.",
+                "error",
+                "plan.rows",
+            )
+        )
     bad = list(designed.problems)
     bad_all = sorted([*survey.problems, *bad], key=lambda p: (p.line, p.field))
     if bad_all:
         lines = sorted({p.line for p in bad_all})
-        notices.append(Notice("bad-rows", f"{len(lines)} survey row(s) could not be read and are "
-                              f"left out (lines {_ids(map(str, lines))}); the rest is planned.",
-                              "warning", "plan.bad_rows"))
+        notices.append(
+            Notice(
+                "bad-rows",
+                f"{len(lines)} survey row(s) could not be read and are "
+                f"left out (lines {_ids(map(str, lines))}); the rest is planned.",
+                "warning",
+                "plan.bad_rows",
+            )
+        )
     for code, ids in sorted(warn_rows.items()):
-        notices.append(Notice(f"row-{code}", f"engine warning '{code}' in {len(ids)} row(s): "
-                              f"{_ids(ids)}; open a row as a project to see it.", "info", None))
+        notices.append(
+            Notice(
+                f"row-{code}",
+                f"engine warning '{code}' in {len(ids)} row(s): "
+                f"{_ids(ids)}; open a row as a project to see it.",
+                "info",
+                None,
+            )
+        )
     if DEFERS_TO_CODE not in cautions:
         cautions.append(DEFERS_TO_CODE)
     _reasons(book, standard, prices, objective)
     stepped = sum(1 for r in designed.rows if r.daily_energy_wh is not None)
     if stepped and inputs.energy_step_pct > 0:
-        book.add("plan.energy_step", "rows given by daily energy and peak power are designed "
-                 "at the next point of the grid (1 + step)^n above each figure, so near-equal "
-                 "surveys share one design; never below the surveyed figure",
-                 "common practice, no source (survey figures are estimates)",
-                 step=fmt(inputs.energy_step_pct, "%"), rows=str(stepped))
+        book.add(
+            "plan.energy_step",
+            "rows given by daily energy and peak power are designed "
+            "at the next point of the grid (1 + step)^n above each figure, so near-equal "
+            "surveys share one design; never below the surveyed figure",
+            "common practice, no source (survey figures are estimates)",
+            step=fmt(inputs.energy_step_pct, "%"),
+            rows=str(stepped),
+        )
     tilt = inputs.base.site.tilt_deg
     if inputs.tilt_searched and tilt is not None:
-        book.add("plan.tilt", "standard kits share one mounting: the engine's tilt search run "
-                 "once for the survey's total appliance demand by month (rows x counts); rows "
-                 "that set site.tilt_deg keep theirs", "offgrid.sizing.site_geometry",
-                 tilt=fmt(tilt, "deg"))
+        book.add(
+            "plan.tilt",
+            "standard kits share one mounting: the engine's tilt search run "
+            "once for the survey's total appliance demand by month (rows x counts); rows "
+            "that set site.tilt_deg keep theirs",
+            "offgrid.sizing.site_geometry",
+            tilt=fmt(tilt, "deg"),
+        )
     elif tilt is not None:
-        book.add("plan.tilt", "set in the survey or its shared project", "survey settings",
-                 tilt=fmt(tilt, "deg"))
+        book.add(
+            "plan.tilt",
+            "set in the survey or its shared project",
+            "survey settings",
+            tilt=fmt(tilt, "deg"),
+        )
     return CommunityPlan(
-        name=survey.name, demo=survey.demo, source=survey.source, climate=inputs.climate_ref,
-        rows=tuple(results), bad_rows=tuple(bad_all), standard=standard, totals=totals,
-        prices_source=prices.source if prices else "", currency=prices.currency if prices else "",
-        tier_counts=tier_counts, notices=tuple(notices), cautions=tuple(cautions),
-        reasons=book.freeze(), rows_read=survey.rows_read,
-        distinct_designs=designed.distinct, tilt_deg=tilt,
-        energy_step_pct=inputs.energy_step_pct, stepped_rows=stepped)
+        name=survey.name,
+        demo=survey.demo,
+        source=survey.source,
+        climate=inputs.climate_ref,
+        rows=tuple(results),
+        bad_rows=tuple(bad_all),
+        standard=standard,
+        totals=totals,
+        prices_source=prices.source if prices else "",
+        currency=prices.currency if prices else "",
+        tier_counts=tier_counts,
+        notices=tuple(notices),
+        cautions=tuple(cautions),
+        reasons=book.freeze(),
+        rows_read=survey.rows_read,
+        distinct_designs=designed.distinct,
+        tilt_deg=tilt,
+        energy_step_pct=inputs.energy_step_pct,
+        stepped_rows=stepped,
+    )
 
 
-def _tiers(designed: DesignedRows, by_index: dict, kit_parts: dict
-           ) -> tuple[np.ndarray, np.ndarray]:
+def _tiers(
+    designed: DesignedRows, by_index: dict, kit_parts: dict
+) -> tuple[np.ndarray, np.ndarray]:
     """Access tier of each row's own design and of the system it is served by."""
     n = len(designed.rows)
     cap = np.zeros((2, n))
@@ -351,8 +479,7 @@ def _tiers(designed: DesignedRows, by_index: dict, kit_parts: dict
         a = by_index.get(i)
         parts = kit_parts.get(a.kit) if a is not None and a.kit else None
         if parts is not None:
-            scale = min(parts.array_power_w / d.required_power_w,
-                        parts.nominal_wh / d.required_wh)
+            scale = min(parts.array_power_w / d.required_power_w, parts.nominal_wh / d.required_wh)
             own_scale = min(d.array_power_w / d.required_power_w, d.nominal_wh / d.required_wh)
             energy[1, i] = d.appliance_energy_wh * max(1.0, scale / own_scale)
             cap[1, i] = parts.inverter_w + (d.peak_capacity_w - d.inverter_w)
@@ -366,31 +493,54 @@ def _ids(ids, limit: int = 8) -> str:
     return text + (f" and {len(items) - limit} more" if len(items) > limit else "")
 
 
-def _reasons(book: ReasonBook, standard: Standardisation | None, prices: PriceList | None,
-             objective: str) -> None:
-    book.add("plan.rows", "each row designed as its own project with the single-system engine "
-             "(worst-month sizing); identical rows designed once", "offgrid.sizing.design")
+def _reasons(
+    book: ReasonBook, standard: Standardisation | None, prices: PriceList | None, objective: str
+) -> None:
+    book.add(
+        "plan.rows",
+        "each row designed as its own project with the single-system engine "
+        "(worst-month sizing); identical rows designed once",
+        "offgrid.sizing.design",
+    )
     if standard is not None:
-        target = ("parts cost of every system + cost per kit type x kit types" if
-                  objective == "cost" else "sum over systems of the mean relative oversize of "
-                  "array power and battery energy")
-        book.add("plan.kits", f"minimise {target}; {standard.method}",
-                 "optimal one-dimensional grouping by dynamic programming (Bellman 1961)",
-                 objective=objective, kit_types=str(len(standard.kits)),
-                 families=str(standard.families),
-                 limit=str(standard.k_limit) if standard.k_limit is not None else "by cost",
-                 kit_type_cost=fmt(standard.kit_type_cost))
-        book.add("plan.oversize", "kit array power / row's required array power - 1, and kit "
-                 "nominal battery energy / row's required battery energy - 1", "common practice")
+        target = (
+            "parts cost of every system + cost per kit type x kit types"
+            if objective == "cost"
+            else "sum over systems of the mean relative oversize of array power and battery energy"
+        )
+        book.add(
+            "plan.kits",
+            f"minimise {target}; {standard.method}",
+            "optimal one-dimensional grouping by dynamic programming (Bellman 1961)",
+            objective=objective,
+            kit_types=str(len(standard.kits)),
+            families=str(standard.families),
+            limit=str(standard.k_limit) if standard.k_limit is not None else "by cost",
+            kit_type_cost=fmt(standard.kit_type_cost),
+        )
+        book.add(
+            "plan.oversize",
+            "kit array power / row's required array power - 1, and kit "
+            "nominal battery energy / row's required battery energy - 1",
+            "common practice",
+        )
     formula, source = tier_reason()
     book.add("plan.tiers", formula, source)
-    book.add("plan.tiers.served", "as the row's tier, with the kit's inverter rating and the "
-             "daily energy scaled by the kit's smallest ratio of array and battery to the row's "
-             "needs", f"{MTF_EDITION} (thresholds from memory); scaling common practice")
+    book.add(
+        "plan.tiers.served",
+        "as the row's tier, with the kit's inverter rating and the "
+        "daily energy scaled by the kit's smallest ratio of array and battery to the row's "
+        "needs",
+        f"{MTF_EDITION} (thresholds from memory); scaling common practice",
+    )
     if prices is not None:
-        book.add("plan.totals.cost", "sum over part lines of quantity x unit price; "
-                 "capacity-priced parts: capacity x price per W, kWh or A", prices.source,
-                 currency=prices.currency)
+        book.add(
+            "plan.totals.cost",
+            "sum over part lines of quantity x unit price; "
+            "capacity-priced parts: capacity x price per W, kWh or A",
+            prices.source,
+            currency=prices.currency,
+        )
 
 
 def plan_file(path: str | Path, **options) -> CommunityPlan:
@@ -403,5 +553,12 @@ def demo_survey_path() -> Path:
     return load_profiles_dir() / "communities" / "kisanga-ridge-community.csv"
 
 
-__all__ = ["CommunityPlan", "PlanError", "RowResult", "SurveyError", "demo_survey_path",
-           "plan_community", "plan_file"]
+__all__ = [
+    "CommunityPlan",
+    "PlanError",
+    "RowResult",
+    "SurveyError",
+    "demo_survey_path",
+    "plan_community",
+    "plan_file",
+]

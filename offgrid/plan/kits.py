@@ -54,11 +54,13 @@ from offgrid.plan.rows import Cable, Protection, RowDesign
 from offgrid.sizing import INVERTER_SURGE_MULTIPLE
 
 Objective = str  # "cost" or "oversize"
-METHOD = ("exact dynamic programme over consecutive groups of rows ordered by their "
-          "dominant requirement (largest of array W, battery Wh and inverter W, each over "
-          "the family's median), and again ordered array-first and battery-first, keeping "
-          "the best; kit = part-by-part maximum of its rows; a row takes its own system where "
-          "that is cheaper than its group's kit")
+METHOD = (
+    "exact dynamic programme over consecutive groups of rows ordered by their "
+    "dominant requirement (largest of array W, battery Wh and inverter W, each over "
+    "the family's median), and again ordered array-first and battery-first, keeping "
+    "the best; kit = part-by-part maximum of its rows; a row takes its own system where "
+    "that is cheaper than its group's kit"
+)
 
 
 class PlanError(ValueError):
@@ -66,6 +68,7 @@ class PlanError(ValueError):
 
 
 # --------------------------------------------------------------------- the exact recursion
+
 
 @dataclass(frozen=True)
 class IntervalSolution:
@@ -95,8 +98,12 @@ class IntervalSolution:
         return out, cut if cut <= n else n
 
 
-def interval_partition(n: int, k_max: int, group_cost: Callable[[int], np.ndarray],
-                       suffix_cost: np.ndarray | None = None) -> IntervalSolution:
+def interval_partition(
+    n: int,
+    k_max: int,
+    group_cost: Callable[[int], np.ndarray],
+    suffix_cost: np.ndarray | None = None,
+) -> IntervalSolution:
     """Exact least-cost partition of items ``0..n-1`` (in this order) into at most ``k``
     consecutive groups, for every ``k <= k_max``.
 
@@ -149,6 +156,7 @@ def interval_partition(n: int, k_max: int, group_cost: Callable[[int], np.ndarra
 
 # --------------------------------------------------------------------- kits and families
 
+
 @dataclass(frozen=True)
 class KitParts:
     """One bill of parts: a standard kit or a system with its own design."""
@@ -194,36 +202,78 @@ class KitParts:
 
 def parts_of(d: RowDesign) -> KitParts:
     """The bill of parts of a row's own design."""
-    return KitParts(d.family_label, d.system_voltage_v, d.controller_type, d.module_name,
-                    d.module_pmax_w, d.modules_series, d.modules_parallel, d.battery_name,
-                    d.battery_chemistry, d.battery_unit_v, d.battery_unit_ah, d.units_series,
-                    d.units_parallel,
-                    d.controller_current_a, d.controller_count, d.inverter_w,
-                    d.inverter_surge_w, tuple(c for c in d.cables if not c.house),
-                    tuple(v for v in d.devices if not v.house))
+    return KitParts(
+        d.family_label,
+        d.system_voltage_v,
+        d.controller_type,
+        d.module_name,
+        d.module_pmax_w,
+        d.modules_series,
+        d.modules_parallel,
+        d.battery_name,
+        d.battery_chemistry,
+        d.battery_unit_v,
+        d.battery_unit_ah,
+        d.units_series,
+        d.units_parallel,
+        d.controller_current_a,
+        d.controller_count,
+        d.inverter_w,
+        d.inverter_surge_w,
+        tuple(c for c in d.cables if not c.house),
+        tuple(v for v in d.devices if not v.house),
+    )
 
 
 def parts_cost(prices: PriceList, parts: KitParts) -> float:
     """Capital cost of one bill of parts, including the per-system fixed price."""
-    return float(_cost_arrays(prices, parts.controller_type, parts.battery_chemistry,
-                              parts.module_pmax_w, parts.modules_series,
-                              parts.battery_unit_v * parts.battery_unit_ah, parts.units_series,
-                              np.array([parts.strings]), np.array([parts.units_parallel]),
-                              np.array([parts.controller_current_a]),
-                              np.array([parts.controller_count]),
-                              np.array([parts.inverter_w]), parts.module_name,
-                              parts.battery_name)[0])
+    return float(
+        _cost_arrays(
+            prices,
+            parts.controller_type,
+            parts.battery_chemistry,
+            parts.module_pmax_w,
+            parts.modules_series,
+            parts.battery_unit_v * parts.battery_unit_ah,
+            parts.units_series,
+            np.array([parts.strings]),
+            np.array([parts.units_parallel]),
+            np.array([parts.controller_current_a]),
+            np.array([parts.controller_count]),
+            np.array([parts.inverter_w]),
+            parts.module_name,
+            parts.battery_name,
+        )[0]
+    )
 
 
-def _cost_arrays(prices: PriceList, ctype: str, chemistry: str, pmod: float, ns: int,
-                 unit_wh: float, us: int, strings, parallel, ctrl_a, ctrl_n, inv_w,
-                 module_name: str = "", battery_name: str = "") -> np.ndarray:
+def _cost_arrays(
+    prices: PriceList,
+    ctype: str,
+    chemistry: str,
+    pmod: float,
+    ns: int,
+    unit_wh: float,
+    us: int,
+    strings,
+    parallel,
+    ctrl_a,
+    ctrl_n,
+    inv_w,
+    module_name: str = "",
+    battery_name: str = "",
+) -> np.ndarray:
     tag = ctype.upper()
     cost = prices.price("module", pmod, strings * ns, key=f"module:{module_name}")
-    cost = cost + prices.price(prices.battery_item(chemistry), unit_wh / 1000.0, parallel * us,
-                               key=f"battery:{battery_name}")
-    cost = cost + prices.price(f"controller_{ctype}", ctrl_a, ctrl_n,
-                               key=lambda a: f"controller:{tag} {a:g} A")
+    cost = cost + prices.price(
+        prices.battery_item(chemistry),
+        unit_wh / 1000.0,
+        parallel * us,
+        key=f"battery:{battery_name}",
+    )
+    cost = cost + prices.price(
+        f"controller_{ctype}", ctrl_a, ctrl_n, key=lambda a: f"controller:{tag} {a:g} A"
+    )
     inv_w = np.asarray(inv_w, dtype=float)
     if np.any(inv_w > 0):
         inv_cost = np.zeros_like(inv_w)
@@ -310,8 +360,13 @@ class _Family:
         return len(self.S)
 
 
-def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
-              objective: Objective, own_cost: dict[int, float]) -> list[list[_Family]]:
+def _families(
+    cands: list[Candidate],
+    pos: list[int],
+    prices: PriceList | None,
+    objective: Objective,
+    own_cost: dict[int, float],
+) -> list[list[_Family]]:
     """Each family as its points in the dominant-requirement order, then the same points
     ordered array-first and battery-first (each order is solved; the best is kept)."""
     by_key: dict[tuple, list[int]] = {}
@@ -332,22 +387,32 @@ def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
         cnt = np.array([sum(cands[p].count for p in points[k]) for k in keys], dtype=float)
         arr_w = S * t.modules_series * t.module_pmax_w
         bat_wh = P * t.string_wh
-        med = [_weighted_median(arr_w, cnt), _weighted_median(bat_wh, cnt),
-               _weighted_median(W, cnt)]
-        scaled = np.stack([arr_w / med[0] if med[0] else np.zeros_like(arr_w),
-                           bat_wh / med[1] if med[1] else np.zeros_like(bat_wh),
-                           W / med[2] if med[2] else np.zeros_like(W)])
+        med = [
+            _weighted_median(arr_w, cnt),
+            _weighted_median(bat_wh, cnt),
+            _weighted_median(W, cnt),
+        ]
+        scaled = np.stack(
+            [
+                arr_w / med[0] if med[0] else np.zeros_like(arr_w),
+                bat_wh / med[1] if med[1] else np.zeros_like(bat_wh),
+                W / med[2] if med[2] else np.zeros_like(W),
+            ]
+        )
         dominant = scaled.max(axis=0)
         order = np.lexsort((W, P, S, dominant))
         keys = [keys[i] for i in order]
         S, P, W, cnt = S[order], P[order], W[order], cnt[order]
         mem = [points[k] for k in keys]
-        inv_a = np.array([sum(cands[p].count / cands[p].design.required_power_w for p in m)
-                          for m in mem])
-        inv_b = np.array([sum(cands[p].count / cands[p].design.required_wh for p in m)
-                          for m in mem])
-        free = np.array([sum(cands[p].count for p in m if cands[p].kit == "auto")
-                         for m in mem], dtype=float)
+        inv_a = np.array(
+            [sum(cands[p].count / cands[p].design.required_power_w for p in m) for m in mem]
+        )
+        inv_b = np.array(
+            [sum(cands[p].count / cands[p].design.required_wh for p in m) for m in mem]
+        )
+        free = np.array(
+            [sum(cands[p].count for p in m if cands[p].kit == "auto") for m in mem], dtype=float
+        )
         forced = cnt - free
         unit_own = np.full(len(keys), np.inf)
         if objective == "cost" and math.isfinite(one_off):
@@ -362,8 +427,9 @@ def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
             d = cands[p].design
             ctrl_a[d.modules_parallel] = max(ctrl_a[d.modules_parallel], d.controller_current_a)
             ctrl_n[d.modules_parallel] = max(ctrl_n[d.modules_parallel], d.controller_count)
-        base = _Family(key, t, mem, S, P, W, cnt, inv_a, inv_b, fac, free, forced, unit_own,
-                       ctrl_a, ctrl_n)
+        base = _Family(
+            key, t, mem, S, P, W, cnt, inv_a, inv_b, fac, free, forced, unit_own, ctrl_a, ctrl_n
+        )
         variants = [base]
         seen = {tuple(range(len(keys)))}
         for perm in (np.lexsort((W, P, S)), np.lexsort((W, S, P))):  # array-, battery-first
@@ -375,9 +441,23 @@ def _families(cands: list[Candidate], pos: list[int], prices: PriceList | None,
 
 
 def _reorder(f: _Family, perm: np.ndarray) -> _Family:
-    return _Family(f.key, f.template, [f.members[i] for i in perm], f.S[perm], f.P[perm],
-                   f.W[perm], f.cnt[perm], f.inv_a[perm], f.inv_b[perm], f.fac[perm],
-                   f.free[perm], f.forced[perm], f.unit_own[perm], f.ctrl_a, f.ctrl_n)
+    return _Family(
+        f.key,
+        f.template,
+        [f.members[i] for i in perm],
+        f.S[perm],
+        f.P[perm],
+        f.W[perm],
+        f.cnt[perm],
+        f.inv_a[perm],
+        f.inv_b[perm],
+        f.fac[perm],
+        f.free[perm],
+        f.forced[perm],
+        f.unit_own[perm],
+        f.ctrl_a,
+        f.ctrl_n,
+    )
 
 
 def _group_cost_fn(f: _Family, prices: PriceList | None, objective: Objective):
@@ -390,22 +470,37 @@ def _group_cost_fn(f: _Family, prices: PriceList | None, objective: Objective):
         w = np.maximum.accumulate(f.W[i::-1])
         if objective == "cost":
             assert prices is not None
-            each = _cost_arrays(prices, t.controller_type, t.battery_chemistry, pmod, ns,
-                                t.battery_unit_v * t.battery_unit_ah, us, s, p, f.ctrl_a[s],
-                                f.ctrl_n[s], w, t.module_name, t.battery_name)
+            each = _cost_arrays(
+                prices,
+                t.controller_type,
+                t.battery_chemistry,
+                pmod,
+                ns,
+                t.battery_unit_v * t.battery_unit_ah,
+                us,
+                s,
+                p,
+                f.ctrl_a[s],
+                f.ctrl_n[s],
+                w,
+                t.module_name,
+                t.battery_name,
+            )
             if np.isfinite(f.unit_own[: i + 1]).any():
                 # each row of the group takes the kit or its own system, whichever is
                 # cheaper: cost[j] = sum over r >= j of forced_r c_j + free_r min(c_j, own_r)
                 c = each[::-1][:, None]
                 m = f.forced[None, : i + 1] * c + f.free[None, : i + 1] * np.minimum(
-                    c, f.unit_own[None, : i + 1])
+                    c, f.unit_own[None, : i + 1]
+                )
                 return np.triu(m).sum(axis=1)
             value = each * np.cumsum(f.cnt[i::-1])
         else:
             a = s * ns * pmod
             b = p * string_wh
-            value = (a * np.cumsum(f.inv_a[i::-1]) + b * np.cumsum(f.inv_b[i::-1])) / 2.0 \
-                - np.cumsum(f.cnt[i::-1])
+            value = (
+                a * np.cumsum(f.inv_a[i::-1]) + b * np.cumsum(f.inv_b[i::-1])
+            ) / 2.0 - np.cumsum(f.cnt[i::-1])
         return value[::-1]
 
     return group_cost
@@ -421,8 +516,9 @@ def _kit_parts(t: RowDesign, f: _Family, rows: list[RowDesign]) -> KitParts:
     s = max(d.modules_parallel for d in rows)
     p = max(d.units_parallel for d in rows)
     w = max(d.inverter_w for d in rows)
-    top = next((d for d in rows if (d.modules_parallel, d.units_parallel, d.inverter_w)
-                == (s, p, w)), None)
+    top = next(
+        (d for d in rows if (d.modules_parallel, d.units_parallel, d.inverter_w) == (s, p, w)), None
+    )
     if top is not None:
         cables = tuple(c for c in top.cables if not c.house)
         devices = tuple(v for v in top.devices if not v.house)
@@ -431,20 +527,40 @@ def _kit_parts(t: RowDesign, f: _Family, rows: list[RowDesign]) -> KitParts:
         best_v: dict[str, Protection] = {}
         for d in rows:
             for c in d.cables:
-                if not c.house and (c.key not in best_c or (c.area_mm2, c.metres) >
-                                    (best_c[c.key].area_mm2, best_c[c.key].metres)):
+                if not c.house and (
+                    c.key not in best_c
+                    or (c.area_mm2, c.metres) > (best_c[c.key].area_mm2, best_c[c.key].metres)
+                ):
                     best_c[c.key] = c
             for v in d.devices:
                 old = best_v.get(v.location)
-                if not v.house and (old is None or (v.count, v.rating_a or 0.0) >
-                                    (old.count, old.rating_a or 0.0)):
+                if not v.house and (
+                    old is None or (v.count, v.rating_a or 0.0) > (old.count, old.rating_a or 0.0)
+                ):
                     best_v[v.location] = v
         cables, devices = tuple(best_c.values()), tuple(best_v.values())
-    return KitParts(t.family_label, t.system_voltage_v, t.controller_type, t.module_name,
-                    t.module_pmax_w, t.modules_series, s, t.battery_name, t.battery_chemistry,
-                    t.battery_unit_v, t.battery_unit_ah, t.units_series, p, float(f.ctrl_a[s]),
-                    int(f.ctrl_n[s]), w, w * INVERTER_SURGE_MULTIPLE, cables, devices,
-                    top is not None)
+    return KitParts(
+        t.family_label,
+        t.system_voltage_v,
+        t.controller_type,
+        t.module_name,
+        t.module_pmax_w,
+        t.modules_series,
+        s,
+        t.battery_name,
+        t.battery_chemistry,
+        t.battery_unit_v,
+        t.battery_unit_ah,
+        t.units_series,
+        p,
+        float(f.ctrl_a[s]),
+        int(f.ctrl_n[s]),
+        w,
+        w * INVERTER_SURGE_MULTIPLE,
+        cables,
+        devices,
+        top is not None,
+    )
 
 
 def _kit_name(n: int) -> str:
@@ -456,10 +572,15 @@ def _kit_name(n: int) -> str:
     return letters
 
 
-def standardise(candidates: list[Candidate], k: int | None = None,
-                kit_type_cost: float | None = None, prices: PriceList | None = None,
-                objective: Objective = "cost", k_max: int = 12,
-                curve_to: int = 0) -> Standardisation:
+def standardise(
+    candidates: list[Candidate],
+    k: int | None = None,
+    kit_type_cost: float | None = None,
+    prices: PriceList | None = None,
+    objective: Objective = "cost",
+    k_max: int = 12,
+    curve_to: int = 0,
+) -> Standardisation:
     """Choose the standard kits (see the module docstring for the method).
 
     Parameters
@@ -483,11 +604,14 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     if objective not in ("cost", "oversize"):
         raise ValueError(f"objective '{objective}' must be cost or oversize")
     if objective == "cost" and prices is None:
-        raise PlanError("the cost objective needs a price list: give --prices FILE (or a "
-                        "'prices' setting), or choose --objective oversize")
+        raise PlanError(
+            "the cost objective needs a price list: give --prices FILE (or a "
+            "'prices' setting), or choose --objective oversize"
+        )
     if k is None and kit_type_cost is None:
-        raise PlanError("give the number of kit types (--kits K) or a cost per kit type "
-                        "(--kit-cost C)")
+        raise PlanError(
+            "give the number of kit types (--kits K) or a cost per kit type (--kit-cost C)"
+        )
     if k is not None and k < 0:
         raise PlanError(f"--kits {k}: the number of kit types must be 0 or more")
     if kit_type_cost is not None and (kit_type_cost < 0 or not math.isfinite(kit_type_cost)):
@@ -513,8 +637,10 @@ def standardise(candidates: list[Candidate], k: int | None = None,
     sols = []  # per family: (best over the orders, order index per k, solutions)
     for variants in fams:
         n = variants[0].n
-        per_order = [interval_partition(n, min(cap, n), _group_cost_fn(f, prices, objective),
-                                        f.fac) for f in variants]
+        per_order = [
+            interval_partition(n, min(cap, n), _group_cost_fn(f, prices, objective), f.fac)
+            for f in variants
+        ]
         stack = np.vstack([sol.best for sol in per_order])
         pick = np.argmin(stack, axis=0)  # first order wins ties
         sols.append((stack[pick, np.arange(stack.shape[1])], pick, per_order))
@@ -534,18 +660,23 @@ def standardise(candidates: list[Candidate], k: int | None = None,
         choice.append(pick)
     one_off = prices.optional("one_off") if prices else 0.0
     own_allowed = objective == "cost" and prices is not None and prices.has("one_off")
-    fixed_own = sum((own_cost.get(p, 0.0) + one_off) * cands[p].count
-                    for p in forced_own) if objective == "cost" else 0.0
+    fixed_own = (
+        sum((own_cost.get(p, 0.0) + one_off) * cands[p].count for p in forced_own)
+        if objective == "cost"
+        else 0.0
+    )
     curve_vals = comb + fixed_own
-    totals = (curve_vals + lam * np.arange(cap + 1))[:limit + 1]
+    totals = (curve_vals + lam * np.arange(cap + 1))[: limit + 1]
     finite = np.isfinite(totals)
     if not finite.any():
         need = sum(1 for v in fams if not np.isfinite(v[0].fac).all())
-        raise PlanError(f"{limit} kit type(s) cannot serve the survey: its rows fall in "
-                        f"{len(fams)} families (system voltage, controller, module, battery "
-                        f"unit), {need} of which need a kit; allow {max(need, 1)} or more kit "
-                        "types, or price own systems (a 'one_off' price) so rows may take "
-                        "their own design")
+        raise PlanError(
+            f"{limit} kit type(s) cannot serve the survey: its rows fall in "
+            f"{len(fams)} families (system voltage, controller, module, battery "
+            f"unit), {need} of which need a kit; allow {max(need, 1)} or more kit "
+            "types, or price own systems (a 'one_off' price) so rows may take "
+            "their own design"
+        )
     target = float(np.min(totals[finite]))
     k_used = int(np.flatnonzero(totals <= target + 1e-9 * max(1.0, abs(target)))[0])
     value = float(totals[k_used])
@@ -561,14 +692,17 @@ def standardise(candidates: list[Candidate], k: int | None = None,
         f = variants[int(pick[kf])]
         groups, cut = per_order[int(pick[kf])].groups(kf)
         t = f.template
-        for (j, i) in groups:
+        for j, i in groups:
             members = [q for m in f.members[j:i] for q in m]
             parts = _kit_parts(t, f, [cands[q].design for q in members])
             unit = parts_cost(prices, parts) if prices is not None else None
             opt_out = []
             if own_allowed and unit is not None:
-                opt_out = [q for q in members if cands[q].kit == "auto"
-                           and own_cost[q] + one_off < unit - 1e-9]
+                opt_out = [
+                    q
+                    for q in members
+                    if cands[q].kit == "auto" and own_cost[q] + one_off < unit - 1e-9
+                ]
             out_set = set(opt_out)
             kept = [q for q in members if q not in out_set]
             name = _kit_name(len(kits))
@@ -576,22 +710,36 @@ def standardise(candidates: list[Candidate], k: int | None = None,
                 if opt_out:  # the kit need only serve the rows that keep it
                     parts = _kit_parts(t, f, [cands[q].design for q in kept])
                     unit = parts_cost(prices, parts) if prices is not None else None
-                kits.append(KitChoice(name, parts, unit, tuple(kept),
-                                      sum(cands[q].count for q in kept)))
+                kits.append(
+                    KitChoice(name, parts, unit, tuple(kept), sum(cands[q].count for q in kept))
+                )
                 for q in kept:
                     assign[q] = _assignment(cands[q], name, parts, unit, "standard kit")
             for q in opt_out:
-                assign[q] = _assignment(cands[q], None, parts_of(cands[q].design),
-                                        own_cost.get(q), "cheaper as its own system than in a "
-                                        "standard kit, one-off overhead included")
+                assign[q] = _assignment(
+                    cands[q],
+                    None,
+                    parts_of(cands[q].design),
+                    own_cost.get(q),
+                    "cheaper as its own system than in a standard kit, one-off overhead included",
+                )
         for m in f.members[cut:]:
             for q in m:
-                assign[q] = _assignment(cands[q], None, parts_of(cands[q].design),
-                                        own_cost.get(q), "cheaper as its own system than in any "
-                                        "standard kit, one-off overhead included")
+                assign[q] = _assignment(
+                    cands[q],
+                    None,
+                    parts_of(cands[q].design),
+                    own_cost.get(q),
+                    "cheaper as its own system than in any standard kit, one-off overhead included",
+                )
     for q in forced_own:
-        assign[q] = _assignment(cands[q], None, parts_of(cands[q].design), own_cost.get(q),
-                                "its own system, as the survey asks (kit = no)")
+        assign[q] = _assignment(
+            cands[q],
+            None,
+            parts_of(cands[q].design),
+            own_cost.get(q),
+            "its own system, as the survey asks (kit = no)",
+        )
     out = []
     for q, c in enumerate(cands):
         if q in assign:
@@ -600,25 +748,37 @@ def standardise(candidates: list[Candidate], k: int | None = None,
             out.append(Assignment(c.index, None, False, "count 0: not planned", 0.0, 0.0, None))
     parts_total = None
     if prices is not None:
-        parts_total = float(sum(a.unit_cost * cands[q].count for q, a in enumerate(out)
-                                if a.unit_cost is not None))
+        parts_total = float(
+            sum(a.unit_cost * cands[q].count for q, a in enumerate(out) if a.unit_cost is not None)
+        )
     if objective == "cost":
-        actual = (parts_total or 0.0) + one_off * sum(
-            cands[q].count for q, a in enumerate(out) if a.own_system) + lam * len(kits)
+        actual = (
+            (parts_total or 0.0)
+            + one_off * sum(cands[q].count for q, a in enumerate(out) if a.own_system)
+            + lam * len(kits)
+        )
     else:
-        actual = sum(cands[q].count * (a.oversize_array_pct + a.oversize_battery_pct) / 200.0
-                     for q, a in enumerate(out) if not a.own_system and a.kit is not None)
+        actual = sum(
+            cands[q].count * (a.oversize_array_pct + a.oversize_battery_pct) / 200.0
+            for q, a in enumerate(out)
+            if not a.own_system and a.kit is not None
+        )
     # trimming kits to the rows that keep them can only lower the recursion's figure
     assert actual <= value + 1e-6 * max(1.0, abs(value)), (actual, value)
     value = float(actual)
-    curve = tuple((kk, value if kk == k_used else float(v) + lam * kk)
-                  for kk, v in enumerate(curve_vals) if np.isfinite(v))
-    return Standardisation(objective, METHOD, k, lam, tuple(kits), tuple(out), value,
-                           parts_total, curve, len(fams))
+    curve = tuple(
+        (kk, value if kk == k_used else float(v) + lam * kk)
+        for kk, v in enumerate(curve_vals)
+        if np.isfinite(v)
+    )
+    return Standardisation(
+        objective, METHOD, k, lam, tuple(kits), tuple(out), value, parts_total, curve, len(fams)
+    )
 
 
-def _assignment(c: Candidate, kit: str | None, parts: KitParts, unit: float | None,
-                reason: str) -> Assignment:
+def _assignment(
+    c: Candidate, kit: str | None, parts: KitParts, unit: float | None, reason: str
+) -> Assignment:
     d = c.design
     over_a = (parts.array_power_w / d.required_power_w - 1.0) * 100.0
     over_b = (parts.nominal_wh / d.required_wh - 1.0) * 100.0

@@ -61,8 +61,16 @@ ITEMS: dict[str, tuple[str, ...]] = {
     "breaker": ("each",),
     "disconnect": ("each",),
 }
-OPTIONAL_ITEMS = ("system_fixed", "one_off", "kit_type", "cable_copper", "cable_aluminium",
-                  "fuse", "breaker", "disconnect")
+OPTIONAL_ITEMS = (
+    "system_fixed",
+    "one_off",
+    "kit_type",
+    "cable_copper",
+    "cable_aluminium",
+    "fuse",
+    "breaker",
+    "disconnect",
+)
 
 
 @dataclass(frozen=True)
@@ -102,13 +110,18 @@ class PriceList:
                 each = np.array([found[float(v)] for v in flat]).reshape(cap.shape)
                 return each * np.asarray(count, dtype=float)
             if item not in self.entries:
-                missing = next(key(v) if callable(key) else key
-                               for v, p in found.items() if p is None)
-                raise PriceListError(f"{self.source or 'price list'}: no price for "
-                                     f"'{missing}'; add it (or a '{missing.split(':')[0]}' row)")
+                missing = next(
+                    key(v) if callable(key) else key for v, p in found.items() if p is None
+                )
+                raise PriceListError(
+                    f"{self.source or 'price list'}: no price for "
+                    f"'{missing}'; add it (or a '{missing.split(':')[0]}' row)"
+                )
         if item not in self.entries:
-            raise PriceListError(f"{self.source or 'price list'}: no price for '{item}'; add a "
-                                 f"row '{item},{ITEMS[item][0]},PRICE,{self.currency}'")
+            raise PriceListError(
+                f"{self.source or 'price list'}: no price for '{item}'; add a "
+                f"row '{item},{ITEMS[item][0]},PRICE,{self.currency}'"
+            )
         basis, unit = self.entries[item]
         each = np.full_like(cap, unit) if basis in ("each", "per_m") else cap * unit
         return each * np.asarray(count, dtype=float)
@@ -124,8 +137,14 @@ class PriceList:
 
     def basis_text(self, item: str) -> str:
         basis, unit = self.entries[item]
-        per = {"per_w": "per W", "per_kwh": "per kWh", "per_a": "per A", "each": "each",
-               "per_m": "per m", "per_mm2_m": "per mm2 per m"}[basis]
+        per = {
+            "per_w": "per W",
+            "per_kwh": "per kWh",
+            "per_a": "per A",
+            "each": "each",
+            "per_m": "per m",
+            "per_mm2_m": "per mm2 per m",
+        }[basis]
         return f"{unit:g} {self.currency} {per}"
 
 
@@ -134,8 +153,7 @@ def from_part_prices(items, currency: str, source: str) -> PriceList:
     return PriceList({}, currency, source, "demo" in source.lower(), {}, tuple(items))
 
 
-def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
-                    ) -> PriceList:
+def read_prices_csv(text: str, source: str = "price list", currency: str = "USD") -> PriceList:
     """Parse a price list; raises :class:`PriceListError` listing every problem with its line.
 
     The plan's column map over :func:`offgrid.economics.prices.read_price_table`.  A CSV
@@ -150,8 +168,10 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
     need = ("item", "basis", "unit_price", "currency")
     missing = [c for c in need if c not in header]
     if missing:
-        raise PriceListError(f"{source}: line 1: missing column(s) {', '.join(missing)}; the "
-                             f"header is {','.join(need)},note")
+        raise PriceListError(
+            f"{source}: line 1: missing column(s) {', '.join(missing)}; the "
+            f"header is {','.join(need)},note"
+        )
     entries: dict[str, tuple[str, float]] = {}
     notes: dict[str, str] = {}
     currencies: set[str] = set()
@@ -160,12 +180,12 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
             continue
         item, basis = cells.get("item", "").lower(), cells.get("basis", "").lower()
         if item not in ITEMS:
-            problems.append(f"line {line}: unknown item '{item}'; items are "
-                            f"{', '.join(ITEMS)}")
+            problems.append(f"line {line}: unknown item '{item}'; items are {', '.join(ITEMS)}")
             continue
         if basis not in ITEMS[item]:
-            problems.append(f"line {line}: {item} is priced {' or '.join(ITEMS[item])}, not "
-                            f"'{basis}'")
+            problems.append(
+                f"line {line}: {item} is priced {' or '.join(ITEMS[item])}, not '{basis}'"
+            )
             continue
         raw = cells.get("unit_price", "")
         try:
@@ -177,8 +197,10 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
             problems.append(f"line {line}: unit_price {raw} must be 0 or more")
             continue
         if price > MAX_PRICE:
-            problems.append(f"line {line}: unit_price {raw} is out of range; a price must be 0 "
-                            f"or more and at most {MAX_PRICE:,.0f}")
+            problems.append(
+                f"line {line}: unit_price {raw} is out of range; a price must be 0 "
+                f"or more and at most {MAX_PRICE:,.0f}"
+            )
             continue
         if item in entries:
             problems.append(f"line {line}: {item} is priced twice; keep one row")
@@ -191,8 +213,9 @@ def read_prices_csv(text: str, source: str = "price list", currency: str = "USD"
         entries[item] = (basis, price)
         notes[item] = cells.get("note", "")
     if len(currencies) > 1:
-        problems.append(f"more than one currency ({', '.join(sorted(currencies))}): convert "
-                        "the prices to one")
+        problems.append(
+            f"more than one currency ({', '.join(sorted(currencies))}): convert the prices to one"
+        )
     if problems:
         raise PriceListError(f"{source}: {len(problems)} problem(s)\n  " + "\n  ".join(problems))
     if not entries:

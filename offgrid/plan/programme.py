@@ -58,10 +58,23 @@ from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES, mtf2015_tier
 from offgrid.plan.totals import PartLine, Totals, procurement_totals
 from offgrid.project.model import MonthlyClimate
 
-VILLAGE_COLUMNS = ("id", "name", "latitude_deg", "longitude_deg", "elevation_m", "climate",
-                   "survey", "zone")
-ALIASES = {"latitude": "latitude_deg", "longitude": "longitude_deg",
-           "elevation": "elevation_m", "lat": "latitude_deg", "lon": "longitude_deg"}
+VILLAGE_COLUMNS = (
+    "id",
+    "name",
+    "latitude_deg",
+    "longitude_deg",
+    "elevation_m",
+    "climate",
+    "survey",
+    "zone",
+)
+ALIASES = {
+    "latitude": "latitude_deg",
+    "longitude": "longitude_deg",
+    "elevation": "elevation_m",
+    "lat": "latitude_deg",
+    "lon": "longitude_deg",
+}
 SETTING_KEYS = ("programme", "demo", "project", "prices", "survey")
 KIT_SCOPES = ("programme", "village", "zone")
 #: A village's climate more than this far from its coordinates is flagged (the climate
@@ -130,6 +143,7 @@ class Programme:
 
 # --------------------------------------------------------------------- reading
 
+
 def _number(raw: str) -> float | None:
     try:
         v = float(raw.replace(",", "."))
@@ -138,15 +152,15 @@ def _number(raw: str) -> float | None:
     return v if math.isfinite(v) else None
 
 
-def read_programme(text: str, source: str = "programme", base_dir: Path | None = None
-                   ) -> Programme:
+def read_programme(text: str, source: str = "programme", base_dir: Path | None = None) -> Programme:
     """Parse programme CSV text; bad village rows are recorded and left out."""
     prog = Programme(source=source, base_dir=base_dir)
     fatal: list[ProgrammeProblem] = []
 
     def bad(line: int, vid: str, fld: str, message: str, into=None) -> None:
         (prog.problems if into is None else into).append(
-            ProgrammeProblem(source, line, vid, fld, message))
+            ProgrammeProblem(source, line, vid, fld, message)
+        )
 
     reader = csv.reader(text.lstrip("\ufeff").splitlines(), skipinitialspace=True)
     header: list[str] | None = None
@@ -160,21 +174,37 @@ def read_programme(text: str, source: str = "programme", base_dir: Path | None =
                 header = [ALIASES.get(c.strip().lower(), c.strip().lower()) for c in cells]
                 for h in header:
                     if h not in VILLAGE_COLUMNS:
-                        bad(line, "", h or "header", f"unknown column; the columns are "
-                            f"{', '.join(VILLAGE_COLUMNS)}", fatal)
+                        bad(
+                            line,
+                            "",
+                            h or "header",
+                            f"unknown column; the columns are {', '.join(VILLAGE_COLUMNS)}",
+                            fatal,
+                        )
                 for need in ("id", "latitude_deg", "longitude_deg", "climate"):
                     if need not in header:
                         bad(line, "", need, "required column is missing", fatal)
                 continue
             value = cells[1].strip() if len(cells) > 1 else ""
             if key not in SETTING_KEYS:
-                bad(line, "", key, f"unknown setting; settings rows are "
-                    f"{', '.join(SETTING_KEYS)} (or the header row, first cell 'id')", fatal)
+                bad(
+                    line,
+                    "",
+                    key,
+                    f"unknown setting; settings rows are "
+                    f"{', '.join(SETTING_KEYS)} (or the header row, first cell 'id')",
+                    fatal,
+                )
             elif not value:
                 bad(line, "", key, "the setting has no value", fatal)
             elif key in prog.setting_lines:
-                bad(line, "", key, f"set twice (also on line {prog.setting_lines[key]}); keep "
-                    "one", fatal)
+                bad(
+                    line,
+                    "",
+                    key,
+                    f"set twice (also on line {prog.setting_lines[key]}); keep one",
+                    fatal,
+                )
             else:
                 prog.setting_lines[key] = line
                 if key == "programme":
@@ -192,16 +222,29 @@ def read_programme(text: str, source: str = "programme", base_dir: Path | None =
         if not vid:
             bad(line, "", "id", "is blank; give every village a unique id (e.g. V01)")
         elif vid in seen:
-            bad(line, vid, "id", f"duplicate village id '{vid}': line {seen[vid]} already "
-                "uses it (that village is planned); give this village its own id")
+            bad(
+                line,
+                vid,
+                "id",
+                f"duplicate village id '{vid}': line {seen[vid]} already "
+                "uses it (that village is planned); give this village its own id",
+            )
         coords = {}
-        for key, lo, hi in (("latitude_deg", -90.0, 90.0), ("longitude_deg", -180.0, 180.0),
-                            ("elevation_m", -450.0, 9000.0)):
+        for key, lo, hi in (
+            ("latitude_deg", -90.0, 90.0),
+            ("longitude_deg", -180.0, 180.0),
+            ("elevation_m", -450.0, 9000.0),
+        ):
             raw = values.get(key, "")
             if not raw:
                 if key != "elevation_m":
-                    bad(line, vid, key, "is blank: give the village's coordinates in decimal "
-                        "degrees (north and east positive)")
+                    bad(
+                        line,
+                        vid,
+                        key,
+                        "is blank: give the village's coordinates in decimal "
+                        "degrees (north and east positive)",
+                    )
                 continue
             v = _number(raw)
             if v is None or not lo <= v <= hi:
@@ -209,30 +252,64 @@ def read_programme(text: str, source: str = "programme", base_dir: Path | None =
             else:
                 coords[key] = v
         if not values.get("climate"):
-            bad(line, vid, "climate", "is blank: name a bundled climate, the user's own "
-                "climate or a climate file (offgrid climate list shows them)")
+            bad(
+                line,
+                vid,
+                "climate",
+                "is blank: name a bundled climate, the user's own "
+                "climate or a climate file (offgrid climate list shows them)",
+            )
         survey_ref = values.get("survey") or None
         if survey_ref is None and not prog.survey and len(prog.problems) == n_before:
-            bad(line, vid, "survey", "is blank and the programme has no combined survey: "
+            bad(
+                line,
+                vid,
+                "survey",
+                "is blank and the programme has no combined survey: "
                 "name the village's survey CSV, or add a settings row 'survey,FILE.csv' "
-                "with a village column")
+                "with a village column",
+            )
         if len(prog.problems) > n_before:
             if vid and vid not in seen:
                 seen[vid] = line
             continue
         seen[vid] = line
-        prog.villages.append(Village(line, vid, values.get("name") or vid,
-                                     coords["latitude_deg"], coords["longitude_deg"],
-                                     coords.get("elevation_m"), values["climate"], survey_ref,
-                                     values.get("zone", "")))
+        prog.villages.append(
+            Village(
+                line,
+                vid,
+                values.get("name") or vid,
+                coords["latitude_deg"],
+                coords["longitude_deg"],
+                coords.get("elevation_m"),
+                values["climate"],
+                survey_ref,
+                values.get("zone", ""),
+            )
+        )
     if header is None:
-        bad(0, "", "header", "no header row found: the first cell of the header row must be "
-            "'id' (after any settings rows)", fatal)
+        bad(
+            0,
+            "",
+            "header",
+            "no header row found: the first cell of the header row must be "
+            "'id' (after any settings rows)",
+            fatal,
+        )
     if fatal:
         raise ProgrammeError(fatal)
     if not prog.villages and not prog.problems:
-        raise ProgrammeError([ProgrammeProblem(source, 0, "", "villages", "the programme "
-                                               "lists no villages: add one row per village")])
+        raise ProgrammeError(
+            [
+                ProgrammeProblem(
+                    source,
+                    0,
+                    "",
+                    "villages",
+                    "the programme lists no villages: add one row per village",
+                )
+            ]
+        )
     return prog
 
 
@@ -241,11 +318,17 @@ def load_programme(path: str | Path) -> Programme:
     try:
         text = p.read_text(encoding="utf-8")
     except OSError as exc:
-        raise ProgrammeError([ProgrammeProblem(str(p), 0, "", "file",
-                                               f"cannot read {p}: {exc.strerror}")]) from exc
+        raise ProgrammeError(
+            [ProgrammeProblem(str(p), 0, "", "file", f"cannot read {p}: {exc.strerror}")]
+        ) from exc
     except UnicodeDecodeError as exc:
-        raise ProgrammeError([ProgrammeProblem(str(p), 0, "", "file", "not UTF-8 text: save "
-                                               "the spreadsheet as CSV UTF-8")]) from exc
+        raise ProgrammeError(
+            [
+                ProgrammeProblem(
+                    str(p), 0, "", "file", "not UTF-8 text: save the spreadsheet as CSV UTF-8"
+                )
+            ]
+        ) from exc
     return read_programme(text, source=str(p), base_dir=p.parent)
 
 
@@ -274,9 +357,9 @@ def is_programme_file(path: str | Path) -> bool:
 _HEAD_BYTES = 65_536
 
 
-def read_combined_survey(path: Path, villages: dict[str, Village],
-                         left_out: set[str] | frozenset = frozenset()
-                         ) -> tuple[dict[str, Survey], list[ProgrammeProblem]]:
+def read_combined_survey(
+    path: Path, villages: dict[str, Village], left_out: set[str] | frozenset = frozenset()
+) -> tuple[dict[str, Survey], list[ProgrammeProblem]]:
     """Stream a combined survey (a community CSV with a ``village`` column) into one
     :class:`Survey` per village, sharing the file's settings.  Rows naming no or an unknown
     village are reported with their line and left out."""
@@ -299,26 +382,32 @@ def read_combined_survey(path: Path, villages: dict[str, Village],
     except TextFileError as exc:
         return {}, [ProgrammeProblem(src, 0, "", "survey", f"{path} {exc}")]
     except OSError as exc:
-        return {}, [ProgrammeProblem(src, 0, "", "survey", f"cannot read {path}: "
-                                     f"{exc.strerror}")]
+        return {}, [ProgrammeProblem(src, 0, "", "survey", f"cannot read {path}: {exc.strerror}")]
     with fh:
         reader = csv.reader(fh, skipinitialspace=True)
         last = 0
         for cells in reader:
             line, last = last + 1, reader.line_num
-            if not cells or all(not c.strip() for c in cells) or \
-                    cells[0].strip().startswith("#"):
+            if not cells or all(not c.strip() for c in cells) or cells[0].strip().startswith("#"):
                 continue
             if header is None:
                 if cells[0].strip().lower() == "id":
                     full = [c.strip().lower() for c in cells]
                     if "village" not in full:
-                        problems.append(ProgrammeProblem(src, line, "", "village", "the "
-                                        "combined survey needs a 'village' column naming each "
-                                        "row's village id"))
+                        problems.append(
+                            ProgrammeProblem(
+                                src,
+                                line,
+                                "",
+                                "village",
+                                "the "
+                                "combined survey needs a 'village' column naming each "
+                                "row's village id",
+                            )
+                        )
                         return {}, problems
                     vcol = full.index("village")
-                    header = full[:vcol] + full[vcol + 1:]
+                    header = full[:vcol] + full[vcol + 1 :]
                     fatal.extend(sv._check_header(header, line))
                     if fatal:
                         break
@@ -326,7 +415,7 @@ def read_combined_survey(path: Path, villages: dict[str, Village],
                 sv._read_setting(cells, line, shell, settings, fatal)
                 continue
             vid = cells[vcol].strip() if vcol < len(cells) else ""
-            rest = cells[:vcol] + cells[vcol + 1:]
+            rest = cells[:vcol] + cells[vcol + 1 :]
             if vid not in villages:
                 unknown.setdefault(vid, []).append(line)
                 continue
@@ -345,32 +434,65 @@ def read_combined_survey(path: Path, villages: dict[str, Village],
     if fatal:
         return {}, problems
     if header is None:
-        problems.append(ProgrammeProblem(src, 0, "", "header", "no header row found: the first "
-                                         "cell of the header row must be 'id'"))
+        problems.append(
+            ProgrammeProblem(
+                src,
+                0,
+                "",
+                "header",
+                "no header row found: the first cell of the header row must be 'id'",
+            )
+        )
     for vid, lines in unknown.items():
-        shown = ", ".join(map(str, lines[:8])) + (f" and {len(lines) - 8} more"
-                                                   if len(lines) > 8 else "")
+        shown = ", ".join(map(str, lines[:8])) + (
+            f" and {len(lines) - 8} more" if len(lines) > 8 else ""
+        )
         if vid in left_out:
-            problems.append(ProgrammeProblem(src, lines[0], vid, "village", f"{len(lines)} "
-                                             f"row(s) of village '{vid}' are left out with "
-                                             "their village: correct the village's line in "
-                                             "the programme"))
+            problems.append(
+                ProgrammeProblem(
+                    src,
+                    lines[0],
+                    vid,
+                    "village",
+                    f"{len(lines)} "
+                    f"row(s) of village '{vid}' are left out with "
+                    "their village: correct the village's line in "
+                    "the programme",
+                )
+            )
             continue
-        what = f"names village '{vid}', which the programme does not list" if vid else \
-            "has a blank village"
-        problems.append(ProgrammeProblem(src, lines[0], vid, "village", f"{len(lines)} row(s) "
-                                         f"(lines {shown}) {what}: add the village to the "
-                                         f"programme or correct the id (known: "
-                                         f"{', '.join(list(villages)[:12])})"))
+        what = (
+            f"names village '{vid}', which the programme does not list"
+            if vid
+            else "has a blank village"
+        )
+        problems.append(
+            ProgrammeProblem(
+                src,
+                lines[0],
+                vid,
+                "village",
+                f"{len(lines)} row(s) "
+                f"(lines {shown}) {what}: add the village to the "
+                f"programme or correct the id (known: "
+                f"{', '.join(list(villages)[:12])})",
+            )
+        )
     for s in out.values():
         s.name, s.demo, s.climate, s.project, s.prices = (
-            shell.name, shell.demo, shell.climate, shell.project, shell.prices)
+            shell.name,
+            shell.demo,
+            shell.climate,
+            shell.project,
+            shell.prices,
+        )
         s.settings = tuple(settings)
         s.setting_lines = dict(shell.setting_lines)
     return out, problems
 
 
 # --------------------------------------------------------------------- results
+
 
 @dataclass(frozen=True)
 class VillageResult:
@@ -442,30 +564,73 @@ class ProgrammePlan:
         from offgrid.plan.community import _plain
 
         return {
-            "format": "offgrid-programme-plan", "schema": 1, "name": self.name,
-            "demo": self.demo, "source": self.source, "kit_scope": self.kit_scope,
-            "rows_read": self.rows_read, "distinct_designs": self.distinct_designs,
-            "systems": self.systems, "currency": self.currency, "prices": self.prices_source,
-            "kits": [{"scope": scope, "name": k.name, "systems": k.systems,
-                      "unit_cost": _plain(k.unit_cost), "parts": _plain(k.parts)}
-                     for scope, s in self.standards for k in s.kits],
+            "format": "offgrid-programme-plan",
+            "schema": 1,
+            "name": self.name,
+            "demo": self.demo,
+            "source": self.source,
+            "kit_scope": self.kit_scope,
+            "rows_read": self.rows_read,
+            "distinct_designs": self.distinct_designs,
+            "systems": self.systems,
+            "currency": self.currency,
+            "prices": self.prices_source,
+            "kits": [
+                {
+                    "scope": scope,
+                    "name": k.name,
+                    "systems": k.systems,
+                    "unit_cost": _plain(k.unit_cost),
+                    "parts": _plain(k.parts),
+                }
+                for scope, s in self.standards
+                for k in s.kits
+            ],
             "kit_counts": self.kit_counts,
-            "villages": [{key: _plain(getattr(v, key)) for key in (
-                "id", "name", "line", "latitude_deg", "longitude_deg", "elevation_m", "climate",
-                "zone", "tilt_deg", "rows_read", "distinct_designs", "systems", "kit_counts",
-                "own_systems", "own_rows", "unmet", "modules", "battery_units", "array_kw",
-                "battery_kwh", "tier_counts", "notices")}
-                | {"left_out": [str(p) for p in v.left_out],
-                   "total_cost": _plain(v.totals.total_cost) if v.totals else None}
-                for v in self.villages],
+            "villages": [
+                {
+                    key: _plain(getattr(v, key))
+                    for key in (
+                        "id",
+                        "name",
+                        "line",
+                        "latitude_deg",
+                        "longitude_deg",
+                        "elevation_m",
+                        "climate",
+                        "zone",
+                        "tilt_deg",
+                        "rows_read",
+                        "distinct_designs",
+                        "systems",
+                        "kit_counts",
+                        "own_systems",
+                        "own_rows",
+                        "unmet",
+                        "modules",
+                        "battery_units",
+                        "array_kw",
+                        "battery_kwh",
+                        "tier_counts",
+                        "notices",
+                    )
+                }
+                | {
+                    "left_out": [str(p) for p in v.left_out],
+                    "total_cost": _plain(v.totals.total_cost) if v.totals else None,
+                }
+                for v in self.villages
+            ],
             "left_out": [_plain(p) for p in self.left_out],
             "totals": _plain(self.totals) if self.totals else None,
             "tiers": {"edition": MTF_EDITION, "systems": dict(self.tier_counts)},
-            "notices": list(self.notices), "cautions": list(self.cautions),
+            "notices": list(self.notices),
+            "cautions": list(self.cautions),
         }
 
 
 # --------------------------------------------------------------------- planning
+
 
 @dataclass
 class _VillageWork:
@@ -506,7 +671,7 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
     _PROGRAMME_INPUTS = [_light(w.inputs) for w in work]  # inherited by the forked workers
     # keep each batch on one village so a worker's memo serves it
     size = max(50, min(400, len(tasks) // (jobs * 4) or 1))
-    batches = [tasks[i:i + size] for i in range(0, len(tasks), size)]
+    batches = [tasks[i : i + size] for i in range(0, len(tasks), size)]
     gc.freeze()  # forked workers then leave the parent's objects unshared-but-untouched
     try:
         with ProcessPoolExecutor(max_workers=jobs, mp_context=context) as pool:
@@ -529,8 +694,7 @@ def _resolve_prices(prog: Programme, prices, first: PlanInputs | None) -> PriceL
     if path is None and first is not None:
         path = _find(ref, first.base_dir, folder, ".csv")
     if path is None:
-        raise PlanError(f"price list '{ref}' not found next to the programme or in "
-                        "load_profiles/")
+        raise PlanError(f"price list '{ref}' not found next to the programme or in load_profiles/")
     currency = first.base.economics.currency if first is not None else "USD"
     try:
         return load_prices(path, currency)
@@ -538,21 +702,30 @@ def _resolve_prices(prog: Programme, prices, first: PlanInputs | None) -> PriceL
         raise PlanError(str(exc)) from exc
 
 
-def _village_surveys(prog: Programme, left: list[ProgrammeProblem]
-                     ) -> list[tuple[Village, Survey]]:
+def _village_surveys(prog: Programme, left: list[ProgrammeProblem]) -> list[tuple[Village, Survey]]:
     combined: dict[str, Survey] = {}
     needs_combined = [v for v in prog.villages if v.survey is None]
     if needs_combined:
-        path = _find(prog.survey or "", prog.base_dir, communities_dir(), ".csv") \
-            if prog.survey else None
+        path = (
+            _find(prog.survey or "", prog.base_dir, communities_dir(), ".csv")
+            if prog.survey
+            else None
+        )
         if path is None:
-            left.append(ProgrammeProblem(prog.source, prog.setting_lines.get("survey", 0), "",
-                                         "survey", f"combined survey '{prog.survey}' not "
-                                         "found next to the programme"))
+            left.append(
+                ProgrammeProblem(
+                    prog.source,
+                    prog.setting_lines.get("survey", 0),
+                    "",
+                    "survey",
+                    f"combined survey '{prog.survey}' not found next to the programme",
+                )
+            )
         else:
             listed = {p.village for p in prog.problems if p.village}
             combined, problems = read_combined_survey(
-                path, {v.id: v for v in needs_combined}, listed)
+                path, {v.id: v for v in needs_combined}, listed
+            )
             left.extend(problems)
     out = []
     for v in prog.villages:
@@ -560,18 +733,31 @@ def _village_surveys(prog: Programme, left: list[ProgrammeProblem]
             s = combined.get(v.id)
             if s is None:
                 if prog.survey:
-                    left.append(ProgrammeProblem(prog.source, v.line, v.id, "survey",
-                                                 "no row of the combined survey names this "
-                                                 "village: add its rows (village column) or "
-                                                 "name its own survey file"))
+                    left.append(
+                        ProgrammeProblem(
+                            prog.source,
+                            v.line,
+                            v.id,
+                            "survey",
+                            "no row of the combined survey names this "
+                            "village: add its rows (village column) or "
+                            "name its own survey file",
+                        )
+                    )
                 continue
             out.append((v, s))
             continue
         path = _find(v.survey, prog.base_dir, communities_dir(), ".csv")
         if path is None:
-            left.append(ProgrammeProblem(prog.source, v.line, v.id, "survey",
-                                         f"survey file '{v.survey}' not found next to the "
-                                         "programme: check the name"))
+            left.append(
+                ProgrammeProblem(
+                    prog.source,
+                    v.line,
+                    v.id,
+                    "survey",
+                    f"survey file '{v.survey}' not found next to the programme: check the name",
+                )
+            )
             continue
         try:
             out.append((v, sv.load_survey(path)))
@@ -581,8 +767,9 @@ def _village_surveys(prog: Programme, left: list[ProgrammeProblem]
     return out
 
 
-def _prepare_village(prog: Programme, v: Village, s: Survey, energy_step_pct: float,
-                     left: list[ProgrammeProblem]) -> PlanInputs | None:
+def _prepare_village(
+    prog: Programme, v: Village, s: Survey, energy_step_pct: float, left: list[ProgrammeProblem]
+) -> PlanInputs | None:
     try:
         climate = village_climate(v.climate, prog.base_dir)
     except ClimateFileError as exc:
@@ -591,23 +778,34 @@ def _prepare_village(prog: Programme, v: Village, s: Survey, energy_step_pct: fl
     bad = monthly_climate_problems(climate)
     if bad:
         path, message = bad[0]
-        left.append(ProgrammeProblem(prog.source, v.line, v.id, "climate",
-                                     f"'{v.climate}' fails its checks: {path}: {message}; "
-                                     "correct the climate file or name another climate"))
+        left.append(
+            ProgrammeProblem(
+                prog.source,
+                v.line,
+                v.id,
+                "climate",
+                f"'{v.climate}' fails its checks: {path}: {message}; "
+                "correct the climate file or name another climate",
+            )
+        )
         return None
-    site = {"site.latitude_deg": v.latitude_deg, "site.longitude_deg": v.longitude_deg,
-            "site.elevation_m": (v.elevation_m if v.elevation_m is not None
-                                 else climate.elevation_m or 0.0)}
+    site = {
+        "site.latitude_deg": v.latitude_deg,
+        "site.longitude_deg": v.longitude_deg,
+        "site.elevation_m": (
+            v.elevation_m if v.elevation_m is not None else climate.elevation_m or 0.0
+        ),
+    }
     s = copy.copy(s)
-    s.settings = tuple((k, val) for k, val in s.settings if k not in site) + tuple(
-        site.items())
+    s.settings = tuple((k, val) for k, val in s.settings if k not in site) + tuple(site.items())
     s.name = v.name
     s.demo = s.demo or prog.demo
     if prog.project and not s.project:
         s.project = prog.project
     try:
-        inputs = prepare(s, climate=v.climate, energy_step_pct=energy_step_pct,
-                         climate_table=climate)
+        inputs = prepare(
+            s, climate=v.climate, energy_step_pct=energy_step_pct, climate_table=climate
+        )
     except SurveyError as exc:
         for p in exc.problems:
             left.append(ProgrammeProblem(s.source, p.line, v.id, p.field, p.message))
@@ -615,11 +813,18 @@ def _prepare_village(prog: Programme, v: Village, s: Survey, energy_step_pct: fl
     return inputs
 
 
-def plan_programme(prog: Programme, *, kits: int | None = None,
-                   kit_type_cost: float | None = None, prices: PriceList | str | None = None,
-                   objective: str | None = None, jobs: int | None = None, k_max: int = 12,
-                   kit_scope: str = "programme",
-                   energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT) -> ProgrammePlan:
+def plan_programme(
+    prog: Programme,
+    *,
+    kits: int | None = None,
+    kit_type_cost: float | None = None,
+    prices: PriceList | str | None = None,
+    objective: str | None = None,
+    jobs: int | None = None,
+    k_max: int = 12,
+    kit_scope: str = "programme",
+    energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT,
+) -> ProgrammePlan:
     """Plan every village and choose the kits.
 
     ``kit_scope``: ``programme`` (one set of kits for all villages), ``village`` (each
@@ -637,28 +842,39 @@ def plan_programme(prog: Programme, *, kits: int | None = None,
         if inputs is None:
             continue
         c = inputs.base.climate.inline
-        if c is not None and c.latitude_deg is not None and (
+        if (
+            c is not None
+            and c.latitude_deg is not None
+            and (
                 abs(c.latitude_deg - v.latitude_deg) > CLIMATE_DISTANCE_WARN_DEG
-                or abs((c.longitude_deg or 0.0) - v.longitude_deg) > CLIMATE_DISTANCE_WARN_DEG):
-            notices.append(f"village {v.id}: its climate '{v.climate}' is for {c.latitude_deg:g}"
-                           f", {c.longitude_deg or 0:g}, more than "
-                           f"{CLIMATE_DISTANCE_WARN_DEG:g} deg from the village; check it is "
-                           "the right climate")
+                or abs((c.longitude_deg or 0.0) - v.longitude_deg) > CLIMATE_DISTANCE_WARN_DEG
+            )
+        ):
+            notices.append(
+                f"village {v.id}: its climate '{v.climate}' is for {c.latitude_deg:g}"
+                f", {c.longitude_deg or 0:g}, more than "
+                f"{CLIMATE_DISTANCE_WARN_DEG:g} deg from the village; check it is "
+                "the right climate"
+            )
         for p in inputs.survey.problems:
-            left.append(ProgrammeProblem(inputs.survey.source, p.line, v.id, p.field,
-                                         p.message))
+            left.append(ProgrammeProblem(inputs.survey.source, p.line, v.id, p.field, p.message))
         community_tilt(inputs)
         unique, index_of = distinct_rows(inputs)
         work.append(_VillageWork(v, inputs, unique, index_of))
     if not work:
-        raise ProgrammeError(left or [ProgrammeProblem(prog.source, 0, "", "villages",
-                                                       "no village can be planned")])
+        raise ProgrammeError(
+            left or [ProgrammeProblem(prog.source, 0, "", "villages", "no village can be planned")]
+        )
     _design_all(work, default_jobs() if jobs is None else jobs)
 
     price_list = _resolve_prices(prog, prices, work[0].inputs)
     objective = objective or ("cost" if price_list is not None else "oversize")
-    if kit_type_cost is None and objective == "cost" and price_list is not None \
-            and price_list.has("kit_type"):
+    if (
+        kit_type_cost is None
+        and objective == "cost"
+        and price_list is not None
+        and price_list.has("kit_type")
+    ):
         kit_type_cost = price_list.optional("kit_type")
     if kits is None and kit_type_cost is None:
         kits = 3
@@ -692,21 +908,30 @@ def plan_programme(prog: Programme, *, kits: int | None = None,
     scopes: dict[str, list[int]] = {}
     for ci, vi in enumerate(cand_village):
         v = work[vi].village
-        name = {"programme": "programme", "village": v.id,
-                "zone": v.zone or "(no zone)"}[kit_scope]
+        name = {"programme": "programme", "village": v.id, "zone": v.zone or "(no zone)"}[kit_scope]
         scopes.setdefault(name, []).append(ci)
     standards: list[tuple[str, Standardisation]] = []
     assign: dict[int, Any] = {}
     kit_parts: dict[str, Any] = {}
     for name, members in scopes.items():
         sub = [cands[ci] for ci in members]
-        st = standardise(sub, k=kits, kit_type_cost=kit_type_cost, prices=price_list,
-                         objective=objective, k_max=k_max)
+        st = standardise(
+            sub,
+            k=kits,
+            kit_type_cost=kit_type_cost,
+            prices=price_list,
+            objective=objective,
+            k_max=k_max,
+        )
         if kit_scope != "programme":
             prefix = f"{name}-"
-            st = replace(st, kits=tuple(replace(k, name=prefix + k.name) for k in st.kits),
-                         assignments=tuple(replace(a, kit=prefix + a.kit if a.kit else None)
-                                           for a in st.assignments))
+            st = replace(
+                st,
+                kits=tuple(replace(k, name=prefix + k.name) for k in st.kits),
+                assignments=tuple(
+                    replace(a, kit=prefix + a.kit if a.kit else None) for a in st.assignments
+                ),
+            )
         standards.append((name, st))
         for a in st.assignments:
             assign[a.index] = a
@@ -715,55 +940,106 @@ def plan_programme(prog: Programme, *, kits: int | None = None,
 
     zones = {work[vi].village.zone for vi in cand_village}
     if kit_scope != "zone" and len(zones) > 1 and "" not in zones and objective == "cost":
-        notices.append(_zone_comparison(cands, cand_village, work, standards, kits,
-                                        kit_type_cost, price_list, k_max, kit_scope))
+        notices.append(
+            _zone_comparison(
+                cands,
+                cand_village,
+                work,
+                standards,
+                kits,
+                kit_type_cost,
+                price_list,
+                k_max,
+                kit_scope,
+            )
+        )
 
     villages: list[VillageResult] = []
     prog_tiers = {t: 0 for t in TIER_NAMES}
     cautions: list[str] = []
     for vi, w in enumerate(work):
-        villages.append(_village_result(w, row_cand[vi], cands, assign, kit_parts, standards,
-                                        price_list, left, cautions, cand_label))
+        villages.append(
+            _village_result(
+                w,
+                row_cand[vi],
+                cands,
+                assign,
+                kit_parts,
+                standards,
+                price_list,
+                left,
+                cautions,
+                cand_label,
+            )
+        )
         for t, n in villages[-1].tier_counts.items():
             prog_tiers[t] += n
     if DEFERS_TO_CODE not in cautions:
         cautions.append(DEFERS_TO_CODE)
     kit_type = standards[0][1].kit_type_cost if standards else 0.0
-    totals = _sum_totals([v.totals for v in villages], sum(len(s.kits) for _, s in standards),
-                         kit_type, price_list)
+    totals = _sum_totals(
+        [v.totals for v in villages], sum(len(s.kits) for _, s in standards), kit_type, price_list
+    )
     rows_read = sum(w.inputs.survey.rows_read for w in work)
     distinct = sum(v.distinct_designs for v in villages)
-    return ProgrammePlan(prog.name, prog.demo, prog.source, kit_scope, tuple(villages),
-                         tuple(left), tuple(standards), totals,
-                         price_list.currency if price_list else "",
-                         price_list.source if price_list else "", prog_tiers, tuple(cautions),
-                         tuple(notices), rows_read, distinct, tuple(cands),
-                         tuple(work[vi].village.id for vi in cand_village))
+    return ProgrammePlan(
+        prog.name,
+        prog.demo,
+        prog.source,
+        kit_scope,
+        tuple(villages),
+        tuple(left),
+        tuple(standards),
+        totals,
+        price_list.currency if price_list else "",
+        price_list.source if price_list else "",
+        prog_tiers,
+        tuple(cautions),
+        tuple(notices),
+        rows_read,
+        distinct,
+        tuple(cands),
+        tuple(work[vi].village.id for vi in cand_village),
+    )
 
 
-def _zone_comparison(cands, cand_village, work, standards, kits, kit_type_cost, prices,
-                     k_max, kit_scope) -> str:
+def _zone_comparison(
+    cands, cand_village, work, standards, kits, kit_type_cost, prices, k_max, kit_scope
+) -> str:
     """Say whether kits restricted to climate zones would cost less than the scope used."""
     by_zone: dict[str, list[Candidate]] = {}
     for c, vi in zip(cands, cand_village, strict=True):
         by_zone.setdefault(work[vi].village.zone, []).append(c)
-    zoned = sum(standardise(sub, k=kits, kit_type_cost=kit_type_cost, prices=prices,
-                            objective="cost", k_max=k_max).objective_value
-                for sub in by_zone.values())
+    zoned = sum(
+        standardise(
+            sub, k=kits, kit_type_cost=kit_type_cost, prices=prices, objective="cost", k_max=k_max
+        ).objective_value
+        for sub in by_zone.values()
+    )
     used = sum(st.objective_value for _, st in standards)
     if zoned < used - 1e-6:
-        verdict = (f"cheaper by {used - zoned:,.0f}: plan with --kit-scope zone to use "
-                   "them")
+        verdict = f"cheaper by {used - zoned:,.0f}: plan with --kit-scope zone to use them"
     else:
         verdict = f"not cheaper ({zoned - used:,.0f} more): the {kit_scope} kits are kept"
-    return (f"Kits restricted to the {len(by_zone)} climate zones ({', '.join(sorted(by_zone))})"
-            f" would cost {zoned:,.0f} against {used:,.0f} for the {kit_scope} kits "
-            f"(parts and kit types): {verdict}.")
+    return (
+        f"Kits restricted to the {len(by_zone)} climate zones ({', '.join(sorted(by_zone))})"
+        f" would cost {zoned:,.0f} against {used:,.0f} for the {kit_scope} kits "
+        f"(parts and kit types): {verdict}."
+    )
 
 
-def _village_result(w: _VillageWork, per_row: list[int], cands: list[Candidate],
-                    assign: dict, kit_parts: dict, standards, prices, left, cautions,
-                    labels) -> VillageResult:
+def _village_result(
+    w: _VillageWork,
+    per_row: list[int],
+    cands: list[Candidate],
+    assign: dict,
+    kit_parts: dict,
+    standards,
+    prices,
+    left,
+    cautions,
+    labels,
+) -> VillageResult:
     v = w.village
     rows_out = []
     kit_counts: dict[str, int] = {}
@@ -778,8 +1054,9 @@ def _village_result(w: _VillageWork, per_row: list[int], cands: list[Candidate],
     for row, ui, ci in zip(w.inputs.survey.rows, w.index_of, per_row, strict=True):
         r = w.results[ui]
         if isinstance(r, RowRejected):
-            left.append(ProgrammeProblem(w.inputs.survey.source, row.line, v.id, r.field,
-                                         r.message))
+            left.append(
+                ProgrammeProblem(w.inputs.survey.source, row.line, v.id, r.field, r.message)
+            )
             continue
         if isinstance(r, RowFailure):
             unmet.append((row.id, f"[{r.code}] {r.message}"))
@@ -799,10 +1076,13 @@ def _village_result(w: _VillageWork, per_row: list[int], cands: list[Candidate],
             mods += row.count * parts.modules_series * parts.strings
             units += row.count * parts.units_series * parts.units_parallel
             array_w += row.count * parts.modules_series * parts.strings * parts.module_pmax_w
-            batt_wh += row.count * (parts.units_series * parts.units_parallel
-                                    * parts.battery_unit_v * parts.battery_unit_ah)
-            scale = min(parts.array_power_w / r.required_power_w,
-                        parts.nominal_wh / r.required_wh)
+            batt_wh += row.count * (
+                parts.units_series
+                * parts.units_parallel
+                * parts.battery_unit_v
+                * parts.battery_unit_ah
+            )
+            scale = min(parts.array_power_w / r.required_power_w, parts.nominal_wh / r.required_wh)
             own_scale = min(r.array_power_w / r.required_power_w, r.nominal_wh / r.required_wh)
             energy.append(r.appliance_energy_wh * max(1.0, scale / own_scale))
             cap.append(parts.inverter_w + (r.peak_capacity_w - r.inverter_w))
@@ -833,22 +1113,44 @@ def _village_result(w: _VillageWork, per_row: list[int], cands: list[Candidate],
                 n = kit_counts.get(k.name, 0)
                 if n:
                     kits_here.append(replace(k, systems=n))
-        view = replace(standards[0][1], kits=tuple(kits_here), assignments=assignments,
-                       kit_type_cost=0.0)
+        view = replace(
+            standards[0][1], kits=tuple(kits_here), assignments=assignments, kit_type_cost=0.0
+        )
         totals = procurement_totals(view, sub_c, prices, {i: labels[i] for i in mine})
-    designs = {id(w.results[i]) for i in range(len(w.unique))
-               if not isinstance(w.results[i], RowRejected)}
+    designs = {
+        id(w.results[i]) for i in range(len(w.unique)) if not isinstance(w.results[i], RowRejected)
+    }
     return VillageResult(
-        v.id, v.name, v.line, v.latitude_deg, v.longitude_deg,
-        float(w.inputs.base.site.elevation_m), w.inputs.climate_ref, v.zone,
-        w.inputs.base.site.tilt_deg, w.inputs.survey.rows_read, len(designs),
-        sum(kit_counts.values()) + own, kit_counts, own, tuple(own_rows), tuple(unmet),
-        tuple(p for p in left if p.village == v.id), mods, units, array_w / 1000.0,
-        batt_wh / 1000.0, totals, tiers, tuple(rows_out))
+        v.id,
+        v.name,
+        v.line,
+        v.latitude_deg,
+        v.longitude_deg,
+        float(w.inputs.base.site.elevation_m),
+        w.inputs.climate_ref,
+        v.zone,
+        w.inputs.base.site.tilt_deg,
+        w.inputs.survey.rows_read,
+        len(designs),
+        sum(kit_counts.values()) + own,
+        kit_counts,
+        own,
+        tuple(own_rows),
+        tuple(unmet),
+        tuple(p for p in left if p.village == v.id),
+        mods,
+        units,
+        array_w / 1000.0,
+        batt_wh / 1000.0,
+        totals,
+        tiers,
+        tuple(rows_out),
+    )
 
 
-def _sum_totals(parts: list[Totals | None], n_kits: int, kit_type_cost: float,
-                prices: PriceList | None) -> Totals | None:
+def _sum_totals(
+    parts: list[Totals | None], n_kits: int, kit_type_cost: float, prices: PriceList | None
+) -> Totals | None:
     """The programme's totals: the villages' lines summed, plus the kit types once."""
     got = [t for t in parts if t is not None]
     if not got:
@@ -865,18 +1167,34 @@ def _sum_totals(parts: list[Totals | None], n_kits: int, kit_type_cost: float,
                 item[2] += ln.cost
             else:
                 item[2] = None
-    lines = [PartLine(ln.category, ln.description, ln.label, q, ln.unit, ln.unit_price, c)
-             for ln, q, c in qty.values()]
+    lines = [
+        PartLine(ln.category, ln.description, ln.label, q, ln.unit, ln.unit_price, c)
+        for ln, q, c in qty.values()
+    ]
     if n_kits and kit_type_cost > 0:
-        lines.append(PartLine("Kit types", "setting up one standard kit type (tender, stock, "
-                              "training)", "Kit type set-up", float(n_kits), "each",
-                              kit_type_cost, kit_type_cost * n_kits))
+        lines.append(
+            PartLine(
+                "Kit types",
+                "setting up one standard kit type (tender, stock, training)",
+                "Kit type set-up",
+                float(n_kits),
+                "each",
+                kit_type_cost,
+                kit_type_cost * n_kits,
+            )
+        )
     total = None
     if prices is not None:
         total = float(sum(ln.cost for ln in lines if ln.cost is not None))
     unpriced = tuple(ln.label for ln in lines if prices is not None and ln.cost is None)
-    return Totals(tuple(lines), (), total, prices.currency if prices else "",
-                  sum(t.systems for t in got), unpriced)
+    return Totals(
+        tuple(lines),
+        (),
+        total,
+        prices.currency if prices else "",
+        sum(t.systems for t in got),
+        unpriced,
+    )
 
 
 def plan_programme_file(path: str | Path, **options) -> ProgrammePlan:
@@ -888,6 +1206,16 @@ def demo_programme_path() -> Path:
     return communities_dir() / "demo-programme.csv"
 
 
-__all__ = ["ProgrammeError", "ProgrammePlan", "ProgrammeProblem", "VillageResult",
-           "demo_programme_path", "is_programme_file", "load_programme", "plan_programme",
-           "plan_programme_file", "read_programme", "village_climate"]
+__all__ = [
+    "ProgrammeError",
+    "ProgrammePlan",
+    "ProgrammeProblem",
+    "VillageResult",
+    "demo_programme_path",
+    "is_programme_file",
+    "load_programme",
+    "plan_programme",
+    "plan_programme_file",
+    "read_programme",
+    "village_climate",
+]

@@ -148,10 +148,18 @@ def family_key(project: Project, d: SystemDesign) -> tuple[tuple, str]:
     """Rows may share a kit only with the same system voltage, controller type, module,
     battery unit and string layout: their DC appliances run at that voltage and a kit is
     one bill of parts."""
-    key = (d.battery.system_voltage_v, project.controller.type, repr(project.module),
-           repr(project.battery), d.array.modules_series, d.battery.units_series)
-    label = (f"{d.battery.system_voltage_v} V {project.controller.type.upper()}, "
-             f"{project.module.name}, {project.battery.name}")
+    key = (
+        d.battery.system_voltage_v,
+        project.controller.type,
+        repr(project.module),
+        repr(project.battery),
+        d.array.modules_series,
+        d.battery.units_series,
+    )
+    label = (
+        f"{d.battery.system_voltage_v} V {project.controller.type.upper()}, "
+        f"{project.module.name}, {project.battery.name}"
+    )
     return key, label
 
 
@@ -163,44 +171,77 @@ def summarise(project: Project, d: SystemDesign) -> RowDesign:
     appliance = (lr.ac_energy_wh[dm] + lr.dc_energy_wh[dm]) * growth
     inv_w = d.inverter.continuous_w if d.inverter.needed else 0.0
     return RowDesign(
-        family=key, family_label=label, system_voltage_v=d.battery.system_voltage_v,
-        controller_type=d.controller.type, module_name=project.module.name,
-        module_pmax_w=d.array.module_power_w, modules_series=d.array.modules_series,
-        modules_parallel=d.array.modules_parallel, module_count=d.array.module_count,
-        array_power_w=d.array.power_w, required_power_w=d.array.required_power_w,
-        battery_name=project.battery.name, battery_chemistry=project.battery.chemistry,
+        family=key,
+        family_label=label,
+        system_voltage_v=d.battery.system_voltage_v,
+        controller_type=d.controller.type,
+        module_name=project.module.name,
+        module_pmax_w=d.array.module_power_w,
+        modules_series=d.array.modules_series,
+        modules_parallel=d.array.modules_parallel,
+        module_count=d.array.module_count,
+        array_power_w=d.array.power_w,
+        required_power_w=d.array.required_power_w,
+        battery_name=project.battery.name,
+        battery_chemistry=project.battery.chemistry,
         battery_unit_v=project.battery.nominal_voltage_v,
-        battery_unit_ah=project.battery.capacity_ah, units_series=d.battery.units_series,
-        units_parallel=d.battery.units_parallel, unit_count=d.battery.unit_count,
+        battery_unit_ah=project.battery.capacity_ah,
+        units_series=d.battery.units_series,
+        units_parallel=d.battery.units_parallel,
+        unit_count=d.battery.unit_count,
         required_wh=d.battery.required_ah * d.battery.system_voltage_v,
         nominal_wh=d.battery.nominal_kwh * 1000.0,
-        controller_current_a=d.controller.current_a, controller_count=d.controller.count,
-        inverter_w=inv_w, inverter_surge_w=d.inverter.surge_w if d.inverter.needed else 0.0,
-        design_energy_wh=lr.design_daily_energy_wh, appliance_energy_wh=float(appliance),
-        peak_capacity_w=float(inv_w + lr.connected_dc_w), design_month=d.site.design_month,
-        warnings=tuple(n.code for n in d.warnings), cautions=d.cautions,
-        cables=_cables(d), devices=_devices(d))
+        controller_current_a=d.controller.current_a,
+        controller_count=d.controller.count,
+        inverter_w=inv_w,
+        inverter_surge_w=d.inverter.surge_w if d.inverter.needed else 0.0,
+        design_energy_wh=lr.design_daily_energy_wh,
+        appliance_energy_wh=float(appliance),
+        peak_capacity_w=float(inv_w + lr.connected_dc_w),
+        design_month=d.site.design_month,
+        warnings=tuple(n.code for n in d.warnings),
+        cautions=d.cautions,
+        cables=_cables(d),
+        devices=_devices(d),
+    )
 
 
 def _cables(d: SystemDesign) -> tuple[Cable, ...]:
     er = getattr(d, "electrical", None)
     if er is None:
         return ()
-    return tuple(Cable(w.key, w.run, w.material, w.size, float(w.area_mm2),
-                       2.0 * float(w.length_m) * int(w.count), w.key.startswith("load"))
-                 for w in er.wires)
+    return tuple(
+        Cable(
+            w.key,
+            w.run,
+            w.material,
+            w.size,
+            float(w.area_mm2),
+            2.0 * float(w.length_m) * int(w.count),
+            w.key.startswith("load"),
+        )
+        for w in er.wires
+    )
 
 
 def _devices(d: SystemDesign) -> tuple[Protection, ...]:
     er = getattr(d, "electrical", None)
     if er is None:
         return ()
-    return tuple(Protection(v.location, v.kind, None if v.rating_a is None else
-                            float(v.rating_a), int(v.count), v.location.startswith("DC load"))
-                 for v in er.protection.devices)
+    return tuple(
+        Protection(
+            v.location,
+            v.kind,
+            None if v.rating_a is None else float(v.rating_a),
+            int(v.count),
+            v.location.startswith("DC load"),
+        )
+        for v in er.protection.devices
+    )
 
 
 # --------------------------------------------------------------------- the shared base
+
 
 @dataclass
 class PlanInputs:
@@ -268,9 +309,13 @@ def set_path(project: Project, path: str, value) -> None:
     setattr(obj, name, value)
 
 
-def prepare(survey: Survey, climate: str | None = None, project: str | None = None,
-            energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT,
-            climate_table: MonthlyClimate | None = None) -> PlanInputs:
+def prepare(
+    survey: Survey,
+    climate: str | None = None,
+    project: str | None = None,
+    energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT,
+    climate_table: MonthlyClimate | None = None,
+) -> PlanInputs:
     """Resolve the shared climate, site and base project; raise SurveyError if unusable.
 
     ``climate_table``: a climate already read (a programme's village), used as it is.
@@ -283,9 +328,15 @@ def prepare(survey: Survey, climate: str | None = None, project: str | None = No
     if project_ref:
         path = _find(project_ref, base_dir, load_profiles_dir(), ".toml")
         if path is None:
-            fatal.append(SurveyProblem(lines.get("project", 0), "", "project",
-                                       f"project file '{project_ref}' not found next to the "
-                                       "survey or in load_profiles/"))
+            fatal.append(
+                SurveyProblem(
+                    lines.get("project", 0),
+                    "",
+                    "project",
+                    f"project file '{project_ref}' not found next to the "
+                    "survey or in load_profiles/",
+                )
+            )
         else:
             try:
                 base = load_project(path)
@@ -298,9 +349,16 @@ def prepare(survey: Survey, climate: str | None = None, project: str | None = No
         base.climate = ClimateChoice(inline=climate_table)
         climate_ref = climate or climate_table.source or "village climate"
     elif not climate_ref and base.climate.inline is None:
-        fatal.append(SurveyProblem(0, "", "climate", "no climate: add a settings row "
-                                   "'climate,NAME' (a bundled climate or a file) or give "
-                                   "--climate"))
+        fatal.append(
+            SurveyProblem(
+                0,
+                "",
+                "climate",
+                "no climate: add a settings row "
+                "'climate,NAME' (a bundled climate or a file) or give "
+                "--climate",
+            )
+        )
     elif climate_ref:
         try:
             base.climate = ClimateChoice(inline=load_climate(climate_ref, base_dir))
@@ -313,8 +371,14 @@ def prepare(survey: Survey, climate: str | None = None, project: str | None = No
     c = base.climate.inline
     if "site.latitude_deg" not in set_here:
         if c is None or c.latitude_deg is None:
-            fatal.append(SurveyProblem(0, "", "site.latitude_deg", "the climate has no "
-                                       "latitude: add a settings row 'site.latitude_deg,VALUE'"))
+            fatal.append(
+                SurveyProblem(
+                    0,
+                    "",
+                    "site.latitude_deg",
+                    "the climate has no latitude: add a settings row 'site.latitude_deg,VALUE'",
+                )
+            )
         else:
             base.site.latitude_deg = c.latitude_deg
             if "site.longitude_deg" not in set_here:
@@ -329,11 +393,20 @@ def prepare(survey: Survey, climate: str | None = None, project: str | None = No
     if fatal:
         raise SurveyError(fatal, survey.source)
     if not 0.0 <= energy_step_pct <= 10.0:
-        raise SurveyError([SurveyProblem(0, "", "energy step", f"{energy_step_pct:g} % must "
-                                         "be 0 (design every figure as given) to 10 %")],
-                          survey.source)
-    return PlanInputs(survey, base, base_dir, climate_ref or "", {}, {},
-                      energy_step_pct=energy_step_pct)
+        raise SurveyError(
+            [
+                SurveyProblem(
+                    0,
+                    "",
+                    "energy step",
+                    f"{energy_step_pct:g} % must be 0 (design every figure as given) to 10 %",
+                )
+            ],
+            survey.source,
+        )
+    return PlanInputs(
+        survey, base, base_dir, climate_ref or "", {}, {}, energy_step_pct=energy_step_pct
+    )
 
 
 def _load_list(inputs: PlanInputs, ref: str) -> list[Load] | str:
@@ -341,8 +414,10 @@ def _load_list(inputs: PlanInputs, ref: str) -> list[Load] | str:
         folder = load_profiles_dir()
         path = _find(ref, inputs.base_dir, folder, ".csv")
         if path is None:
-            inputs.load_lists[ref] = (f"load list '{ref}' not found next to the survey or in "
-                                      f"load_profiles/ (bundled: {_known(folder, '.csv')})")
+            inputs.load_lists[ref] = (
+                f"load list '{ref}' not found next to the survey or in "
+                f"load_profiles/ (bundled: {_known(folder, '.csv')})"
+            )
         else:
             try:
                 inputs.load_lists[ref] = load_loads_csv(path)
@@ -356,8 +431,9 @@ def _row_base(inputs: PlanInputs, ref: str) -> Project | str:
     if ref not in inputs.projects:
         path = _find(ref, inputs.base_dir, load_profiles_dir(), ".toml")
         if path is None:
-            inputs.projects[ref] = f"project file '{ref}' not found next to the survey or in " \
-                                   "load_profiles/"
+            inputs.projects[ref] = (
+                f"project file '{ref}' not found next to the survey or in load_profiles/"
+            )
         else:
             try:
                 inputs.projects[ref] = load_project(path)
@@ -376,9 +452,11 @@ def row_project(inputs: PlanInputs, row: SurveyRow, shared: bool = False) -> Pro
     base = inputs.base
     share = shared and not row.overrides
     copy_ = (lambda obj: obj) if share else _copy
-    p = Project(info=ProjectInfo(name=f"{inputs.survey.name}: {row.name}",
-                                 demo=inputs.survey.demo),
-                site=copy_(base.site), climate=base.climate)
+    p = Project(
+        info=ProjectInfo(name=f"{inputs.survey.name}: {row.name}", demo=inputs.survey.demo),
+        site=copy_(base.site),
+        climate=base.climate,
+    )
     for name in PART_SECTIONS:
         setattr(p, name, copy_(getattr(base, name)))
     own_loads: list[Load] = []
@@ -398,16 +476,24 @@ def row_project(inputs: PlanInputs, row: SurveyRow, shared: bool = False) -> Pro
         p.loads = [replace(ld) for ld in loads]
     elif row.daily_energy_wh is not None and row.peak_power_w is not None:
         energy, peak = inputs.stepped(row)
-        p.loads = [Load(name=SURVEYED_LOAD_NAME, quantity=1, power_w=peak,
-                        hours_per_day=energy / peak,
-                        ac_dc=row.ac_dc,  # type: ignore[arg-type]
-                        surge_w=row.surge_w)]
+        p.loads = [
+            Load(
+                name=SURVEYED_LOAD_NAME,
+                quantity=1,
+                power_w=peak,
+                hours_per_day=energy / peak,
+                ac_dc=row.ac_dc,  # type: ignore[arg-type]
+                surge_w=row.surge_w,
+            )
+        ]
         # The surveyed peak is already the power on at once: no coincidence factor.
         p.choices.coincidence_factor = 1.0
     else:
         if not own_loads:
-            raise ValueError(f"project: '{row.project}' has no loads; add a load_list or "
-                             "daily_energy_wh with peak_power_w")
+            raise ValueError(
+                f"project: '{row.project}' has no loads; add a load_list or "
+                "daily_energy_wh with peak_power_w"
+            )
         p.loads = [replace(ld) for ld in own_loads]
     for path, value in row.overrides:
         set_path(p, path, value)
@@ -424,10 +510,15 @@ def _copy(obj):
     """Copy of a project table: dataclasses, lists and dicts copied, values shared (much
     quicker than copy.deepcopy for thousands of rows)."""
     if dataclasses.is_dataclass(obj) and not isinstance(obj, type):
-        return replace(obj, **{f.name: _copy(getattr(obj, f.name))
-                               for f in dataclasses.fields(obj)
-                               if isinstance(getattr(obj, f.name), list | dict)
-                               or dataclasses.is_dataclass(getattr(obj, f.name))})
+        return replace(
+            obj,
+            **{
+                f.name: _copy(getattr(obj, f.name))
+                for f in dataclasses.fields(obj)
+                if isinstance(getattr(obj, f.name), list | dict)
+                or dataclasses.is_dataclass(getattr(obj, f.name))
+            },
+        )
     if isinstance(obj, list):
         return [_copy(v) for v in obj]
     if isinstance(obj, dict):
@@ -436,6 +527,7 @@ def _copy(obj):
 
 
 # --------------------------------------------------------------------- designing
+
 
 def _design_one(project: Project, base_dir: Path | None) -> RowDesign | RowFailure:
     from offgrid.sizing import design
@@ -454,8 +546,7 @@ class RowRejected:
     message: str
 
 
-def _build_and_design(inputs: PlanInputs, row: SurveyRow
-                      ) -> RowDesign | RowFailure | RowRejected:
+def _build_and_design(inputs: PlanInputs, row: SurveyRow) -> RowDesign | RowFailure | RowRejected:
     try:
         project = row_project(inputs, row, shared=True)
     except ValueError as exc:
@@ -472,8 +563,9 @@ def _init_worker(inputs: PlanInputs) -> None:
     _WORKER_INPUTS = inputs
 
 
-def _worker_batch(batch: list[tuple[int, SurveyRow]]
-                  ) -> list[tuple[int, RowDesign | RowFailure | RowRejected]]:
+def _worker_batch(
+    batch: list[tuple[int, SurveyRow]],
+) -> list[tuple[int, RowDesign | RowFailure | RowRejected]]:
     assert _WORKER_INPUTS is not None
     with design_memo():
         return [(i, _build_and_design(_WORKER_INPUTS, row)) for i, row in batch]
@@ -497,8 +589,9 @@ def default_jobs() -> int:
         return max(1, os.cpu_count() or 1)
 
 
-def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
-                   ) -> list[RowDesign | RowFailure | RowRejected]:
+def _design_unique(
+    inputs: PlanInputs, rows: list[SurveyRow], jobs: int
+) -> list[RowDesign | RowFailure | RowRejected]:
     """Build and design each row; in ``jobs`` worker processes when there are many."""
     context = _pool_context() if jobs > 1 and len(rows) >= PARALLEL_MIN_DESIGNS else None
     if context is None:
@@ -511,15 +604,16 @@ def _design_unique(inputs: PlanInputs, rows: list[SurveyRow], jobs: int
     shared = replace(inputs, survey=light, load_lists={}, projects={})
     indexed = list(enumerate(rows))
     size = max(50, len(indexed) // (jobs * 4))
-    batches = [indexed[i:i + size] for i in range(0, len(indexed), size)]
+    batches = [indexed[i : i + size] for i in range(0, len(indexed), size)]
     out: list = [None] * len(rows)
     # Objects made before the fork are frozen out of the garbage collector, so the
     # workers' collections do not touch (and so copy) every page they inherit.
     gc.freeze()
     seen = {}
     try:
-        with ProcessPoolExecutor(max_workers=jobs, mp_context=context,
-                                 initializer=_init_worker, initargs=(shared,)) as pool:
+        with ProcessPoolExecutor(
+            max_workers=jobs, mp_context=context, initializer=_init_worker, initargs=(shared,)
+        ) as pool:
             for result in pool.map(_worker_batch, batches):
                 for i, r in result:
                     out[i] = compact(r, seen)

@@ -30,8 +30,19 @@ from offgrid.numbers import NumberError, read_number
 from offgrid.project.model import Project
 
 #: Row columns with a fixed meaning; any other column must be a project field path.
-ROW_COLUMNS = ("id", "name", "kind", "count", "load_list", "project", "daily_energy_wh",
-               "peak_power_w", "ac_dc", "surge_w", "kit")
+ROW_COLUMNS = (
+    "id",
+    "name",
+    "kind",
+    "count",
+    "load_list",
+    "project",
+    "daily_energy_wh",
+    "peak_power_w",
+    "ac_dc",
+    "surge_w",
+    "kit",
+)
 REQUIRED_COLUMNS = ("id", "count")
 #: Settings keys with a fixed meaning; others must be project field paths.
 SETTING_KEYS = ("community", "demo", "climate", "project", "prices")
@@ -118,8 +129,15 @@ class SurveyRow:
 
     def key(self) -> tuple:
         """Identical keys give identical designs (within one survey)."""
-        return (self.load_list, self.project, self.daily_energy_wh, self.peak_power_w,
-                self.ac_dc, self.surge_w, self.overrides)
+        return (
+            self.load_list,
+            self.project,
+            self.daily_energy_wh,
+            self.peak_power_w,
+            self.ac_dc,
+            self.surge_w,
+            self.overrides,
+        )
 
 
 @dataclass
@@ -140,18 +158,24 @@ class Survey:
 
 # --------------------------------------------------------------------- field conversion
 
+
 def field_type(path: str) -> Any:
     """Type hint of a ``section.field`` path, or raise ValueError naming the known fields."""
     section, _, name = path.rpartition(".")
     cls = SECTIONS.get(section)
     if cls is None:
-        raise ValueError(f"'{path}' is not a known column: use one of {', '.join(ROW_COLUMNS)} "
-                         f"or a project field such as choices.autonomy_days (sections: "
-                         f"{', '.join(SECTIONS)})")
+        raise ValueError(
+            f"'{path}' is not a known column: use one of {', '.join(ROW_COLUMNS)} "
+            f"or a project field such as choices.autonomy_days (sections: "
+            f"{', '.join(SECTIONS)})"
+        )
     hints = get_type_hints(cls)
     if name not in hints or dataclasses.is_dataclass(hints[name]):
-        known = ", ".join(f"{section}.{f.name}" for f in dataclasses.fields(cls)
-                          if not dataclasses.is_dataclass(hints[f.name]))
+        known = ", ".join(
+            f"{section}.{f.name}"
+            for f in dataclasses.fields(cls)
+            if not dataclasses.is_dataclass(hints[f.name])
+        )
         raise ValueError(f"'{path}' is not a field of [{section}]; known: {known}")
     return hints[name]
 
@@ -172,8 +196,9 @@ def convert_value(tp: Any, text: str) -> Any:
                 return convert_value(others[0], text)
             except ValueError:
                 if literal_values:
-                    raise ValueError(f"'{text}' must be a number or one of "
-                                     f"{', '.join(map(str, literal_values))}") from None
+                    raise ValueError(
+                        f"'{text}' must be a number or one of {', '.join(map(str, literal_values))}"
+                    ) from None
                 raise
         raise ValueError(f"'{text}' is not allowed")
     if origin is Literal:
@@ -201,6 +226,7 @@ def convert_value(tp: Any, text: str) -> Any:
 
 
 # --------------------------------------------------------------------- reading
+
 
 def _is_blank(cells: list[str]) -> bool:
     return all(not c.strip() for c in cells)
@@ -239,23 +265,48 @@ def read_survey(text: str, source: str = "survey", base_dir: Path | None = None)
         if fatal:
             break
         if survey.rows_read >= MAX_ROWS:
-            raise SurveyError([SurveyProblem(line, "", "rows", f"more than {MAX_ROWS:,} rows: "
-                                             "give identical households one row with a count, "
-                                             "or split the survey by area")], source)
+            raise SurveyError(
+                [
+                    SurveyProblem(
+                        line,
+                        "",
+                        "rows",
+                        f"more than {MAX_ROWS:,} rows: "
+                        "give identical households one row with a count, "
+                        "or split the survey by area",
+                    )
+                ],
+                source,
+            )
         survey.rows_read += 1
         row = _read_row(header, cells, line, survey.problems, seen_ids)
         if row is not None:
             survey.rows.append(row)
     if header is None:
-        fatal.append(SurveyProblem(0, "", "header", "no header row found: the first cell of the "
-                                   "header row must be 'id' (after any key,value settings rows)"))
+        fatal.append(
+            SurveyProblem(
+                0,
+                "",
+                "header",
+                "no header row found: the first cell of the "
+                "header row must be 'id' (after any key,value settings rows)",
+            )
+        )
     survey.settings = tuple(settings)
     if fatal:
         raise SurveyError(fatal, source)
     if not survey.rows_read:
-        raise SurveyError([SurveyProblem(header_line, "", "rows", "the survey has a header but "
-                                         "no rows: add one row per household or facility")],
-                          source)
+        raise SurveyError(
+            [
+                SurveyProblem(
+                    header_line,
+                    "",
+                    "rows",
+                    "the survey has a header but no rows: add one row per household or facility",
+                )
+            ],
+            source,
+        )
     return survey
 
 
@@ -264,8 +315,11 @@ def _check_header(header: list[str], line: int) -> list[SurveyProblem]:
     seen: set[str] = set()
     for h in header:
         if not h:
-            problems.append(SurveyProblem(line, "", "header", "a column has no name; name it or "
-                                          "delete the empty column"))
+            problems.append(
+                SurveyProblem(
+                    line, "", "header", "a column has no name; name it or delete the empty column"
+                )
+            )
             continue
         if h in seen:
             problems.append(SurveyProblem(line, "", h, "column appears twice; keep one"))
@@ -277,35 +331,69 @@ def _check_header(header: list[str], line: int) -> list[SurveyProblem]:
         except ValueError as exc:
             problems.append(SurveyProblem(line, "", h, str(exc)))
         if h in SHARED_ONLY:
-            problems.append(SurveyProblem(line, "", h, "the site is shared by the whole survey: "
-                                          "set it once as a settings row before the header"))
+            problems.append(
+                SurveyProblem(
+                    line,
+                    "",
+                    h,
+                    "the site is shared by the whole survey: "
+                    "set it once as a settings row before the header",
+                )
+            )
     for c in REQUIRED_COLUMNS:
         if c not in header:
             problems.append(SurveyProblem(line, "", c, "required column is missing"))
     if not {"load_list", "project", "daily_energy_wh"} & set(header):
-        problems.append(SurveyProblem(line, "", "header", "no demand column: add load_list, "
-                                      "project, or daily_energy_wh with peak_power_w"))
+        problems.append(
+            SurveyProblem(
+                line,
+                "",
+                "header",
+                "no demand column: add load_list, project, or daily_energy_wh with peak_power_w",
+            )
+        )
     if ("daily_energy_wh" in header) != ("peak_power_w" in header):
-        problems.append(SurveyProblem(line, "", "header", "daily_energy_wh and peak_power_w go "
-                                      "together: add the missing one"))
+        problems.append(
+            SurveyProblem(
+                line,
+                "",
+                "header",
+                "daily_energy_wh and peak_power_w go together: add the missing one",
+            )
+        )
     return problems
 
 
-def _read_setting(cells: list[str], line: int, survey: Survey,
-                  settings: list[tuple[str, Any]], fatal: list[SurveyProblem]) -> None:
+def _read_setting(
+    cells: list[str],
+    line: int,
+    survey: Survey,
+    settings: list[tuple[str, Any]],
+    fatal: list[SurveyProblem],
+) -> None:
     key = cells[0].strip()
     value = cells[1].strip() if len(cells) > 1 else ""
     if any(c.strip() for c in cells[2:]):
-        fatal.append(SurveyProblem(line, "", key, "a settings row has two cells, key and value; "
-                                   "if this is the header, its first cell must be 'id'"))
+        fatal.append(
+            SurveyProblem(
+                line,
+                "",
+                key,
+                "a settings row has two cells, key and value; "
+                "if this is the header, its first cell must be 'id'",
+            )
+        )
         return
     low = key.lower()
     if value == "":
         fatal.append(SurveyProblem(line, "", key, "the setting has no value"))
         return
     if low in survey.setting_lines:
-        fatal.append(SurveyProblem(line, "", key, f"set twice (also on line "
-                                   f"{survey.setting_lines[low]}); keep one"))
+        fatal.append(
+            SurveyProblem(
+                line, "", key, f"set twice (also on line {survey.setting_lines[low]}); keep one"
+            )
+        )
         return
     survey.setting_lines[low] = line
     if low == "community":
@@ -320,16 +408,30 @@ def _read_setting(cells: list[str], line: int, survey: Survey,
         try:
             settings.append((low, convert_value(field_type(low), value)))
         except ValueError as exc:
-            fatal.append(SurveyProblem(line, "", key, f"{exc} (settings keys: "
-                                       f"{', '.join(SETTING_KEYS)}, or section.field)"))
+            fatal.append(
+                SurveyProblem(
+                    line,
+                    "",
+                    key,
+                    f"{exc} (settings keys: {', '.join(SETTING_KEYS)}, or section.field)",
+                )
+            )
 
 
-def _read_row(header: list[str], cells: list[str], line: int, problems: list[SurveyProblem],
-              seen_ids: dict[str, int]) -> SurveyRow | None:
-    if len(cells) > len(header) and any(c.strip() for c in cells[len(header):]):
+def _read_row(
+    header: list[str],
+    cells: list[str],
+    line: int,
+    problems: list[SurveyProblem],
+    seen_ids: dict[str, int],
+) -> SurveyRow | None:
+    if len(cells) > len(header) and any(c.strip() for c in cells[len(header) :]):
         rid = cells[0].strip() if cells else ""
-        problems.append(SurveyProblem(line, rid, "row", f"has {len(cells)} cells but the header "
-                                      f"has {len(header)} columns"))
+        problems.append(
+            SurveyProblem(
+                line, rid, "row", f"has {len(cells)} cells but the header has {len(header)} columns"
+            )
+        )
         return None
     values = {h: (cells[i].strip() if i < len(cells) else "") for i, h in enumerate(header)}
     rid = values.get("id", "")
@@ -341,15 +443,17 @@ def _read_row(header: list[str], cells: list[str], line: int, problems: list[Sur
     if not rid:
         bad("id", "is blank; give every row a unique id (e.g. H-001)")
     elif rid in seen_ids:
-        bad("id", f"duplicate id '{rid}': line {seen_ids[rid]} already uses it (that row is "
-                  "planned); give this row its own id")
+        bad(
+            "id",
+            f"duplicate id '{rid}': line {seen_ids[rid]} already uses it (that row is "
+            "planned); give this row its own id",
+        )
     else:
         seen_ids[rid] = line
     count = 0
     raw = values.get("count", "")
     if raw == "":
-        bad("count", "is blank; give the number of identical households or facilities (1 or "
-                     "more)")
+        bad("count", "is blank; give the number of identical households or facilities (1 or more)")
     else:
         try:
             number = read_number(raw)
@@ -358,8 +462,9 @@ def _read_row(header: list[str], cells: list[str], line: int, problems: list[Sur
             bad("count", f"{exc}; give a whole number of systems")
         if number is not None:
             if number != number or number < 0:
-                bad("count", f"{raw} is negative; give the number of systems (0 leaves the row "
-                             "out)")
+                bad(
+                    "count", f"{raw} is negative; give the number of systems (0 leaves the row out)"
+                )
             elif number != int(number):
                 bad("count", f"{raw} must be a whole number of systems")
             elif number > 1_000_000:
@@ -379,14 +484,18 @@ def _read_row(header: list[str], cells: list[str], line: int, problems: list[Sur
             energy = _positive(energy_raw, "daily_energy_wh", "Wh/day", bad)
             peak = _positive(peak_raw, "peak_power_w", "W", bad)
             if energy is not None and peak is not None and energy > 24 * peak:
-                bad("daily_energy_wh", f"{energy:g} Wh/day is more than 24 h at the peak power "
-                                       f"{peak:g} W; check both figures")
+                bad(
+                    "daily_energy_wh",
+                    f"{energy:g} Wh/day is more than 24 h at the peak power "
+                    f"{peak:g} W; check both figures",
+                )
         if load_list:
-            bad("load_list", "give either a load list or daily_energy_wh with peak_power_w, "
-                             "not both")
+            bad(
+                "load_list",
+                "give either a load list or daily_energy_wh with peak_power_w, not both",
+            )
     elif not load_list and not project:
-        bad("demand", "blank: give a load_list, a project, or daily_energy_wh with "
-                      "peak_power_w")
+        bad("demand", "blank: give a load_list, a project, or daily_energy_wh with peak_power_w")
     ac_dc = (values.get("ac_dc") or "dc").lower()
     if ac_dc not in ("ac", "dc"):
         bad("ac_dc", f"'{ac_dc}' must be ac or dc")
@@ -399,8 +508,11 @@ def _read_row(header: list[str], cells: list[str], line: int, problems: list[Sur
         if energy_raw == "":
             bad("surge_w", "applies only to rows given by daily_energy_wh and peak_power_w")
         elif peak is not None and 0 < surge < peak:
-            bad("surge_w", f"{surge:g} W is below the peak power {peak:g} W; give the starting "
-                           "power, or 0 for none")
+            bad(
+                "surge_w",
+                f"{surge:g} W is below the peak power {peak:g} W; give the starting "
+                "power, or 0 for none",
+            )
     kit = (values.get("kit") or "auto").lower()
     if kit not in KIT_CHOICES:
         bad("kit", f"'{kit}' must be auto, yes (always a standard kit) or no (its own system)")
@@ -414,11 +526,21 @@ def _read_row(header: list[str], cells: list[str], line: int, problems: list[Sur
             bad(h, str(exc))
     if len(problems) > start:
         return None
-    return SurveyRow(line=line, id=rid, name=values.get("name", "") or rid,
-                     kind=(values.get("kind") or "household").lower(), count=count,
-                     load_list=load_list, project=project, daily_energy_wh=energy,
-                     peak_power_w=peak, ac_dc=ac_dc, surge_w=surge, kit=kit,
-                     overrides=tuple(sorted(overrides)))
+    return SurveyRow(
+        line=line,
+        id=rid,
+        name=values.get("name", "") or rid,
+        kind=(values.get("kind") or "household").lower(),
+        count=count,
+        load_list=load_list,
+        project=project,
+        daily_energy_wh=energy,
+        peak_power_w=peak,
+        ac_dc=ac_dc,
+        surge_w=surge,
+        kit=kit,
+        overrides=tuple(sorted(overrides)),
+    )
 
 
 def _positive(raw: str, fld: str, unit: str, bad, allow_zero: bool = False) -> float | None:

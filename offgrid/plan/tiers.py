@@ -63,16 +63,20 @@ def mtf2015_tier(peak_capacity_w, daily_energy_wh):
     ----------
     .. [1] Bhatia & Angelou (2015), see the module docstring.
     """
-    return np.minimum(mtf2015_capacity_tier(peak_capacity_w),
-                      mtf2015_energy_tier(daily_energy_wh))
+    return np.minimum(mtf2015_capacity_tier(peak_capacity_w), mtf2015_energy_tier(daily_energy_wh))
 
 
 def tier_reason() -> tuple[str, str]:
     """Formula in words and source text for the reason book."""
-    mins = ", ".join(f"Tier {i + 1} {p:g} W / {e:g} Wh" for i, (p, e) in
-                     enumerate(zip(MTF2015_MIN_CAPACITY_W, MTF2015_MIN_DAILY_ENERGY_WH,
-                                   strict=True)))
-    return (f"the highest tier whose minimum peak capacity and minimum daily energy are both "
-            f"met ({mins}); peak capacity = inverter continuous rating + connected DC power; "
-            "daily energy = design-month appliance energy with the growth margin",
-            f"{MTF_EDITION}, capacity attribute (thresholds from memory)")
+    mins = ", ".join(
+        f"Tier {i + 1} {p:g} W / {e:g} Wh"
+        for i, (p, e) in enumerate(
+            zip(MTF2015_MIN_CAPACITY_W, MTF2015_MIN_DAILY_ENERGY_WH, strict=True)
+        )
+    )
+    return (
+        f"the highest tier whose minimum peak capacity and minimum daily energy are both "
+        f"met ({mins}); peak capacity = inverter continuous rating + connected DC power; "
+        "daily energy = design-month appliance energy with the growth margin",
+        f"{MTF_EDITION}, capacity attribute (thresholds from memory)",
+    )

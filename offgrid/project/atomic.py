@@ -36,8 +36,9 @@ from pathlib import Path
 #: Our temporary files: ``.NAME.PID.RANDOM.offgrid-tmp`` (the new text, or a backup
 #: about to be renamed into place).
 TEMP_SUFFIX = ".offgrid-tmp"
-TEMP_RE = re.compile(r"^\.(?P<name>.+)\.(?P<pid>\d+)\.[0-9a-f]{12}(?:\.bak)?"
-                     + re.escape(TEMP_SUFFIX) + "$")
+TEMP_RE = re.compile(
+    r"^\.(?P<name>.+)\.(?P<pid>\d+)\.[0-9a-f]{12}(?:\.bak)?" + re.escape(TEMP_SUFFIX) + "$"
+)
 #: Temporary files of earlier offgrid versions (``tempfile.mkstemp`` names); removed once
 #: older than :data:`LEGACY_AGE_S`, since they carry no process number.
 LEGACY_RE = re.compile(r"^\.(?P<name>.+)\.[a-z0-9_]{8}\.tmp$")
@@ -184,9 +185,15 @@ def _backup(target: Path) -> None:
         raise
 
 
-def write_atomic(path: str | os.PathLike, text: str, backup: bool = True, *,
-                 expect: Fingerprint | None = None, new_mode: int | None = None,
-                 check_expect: bool = False) -> Fingerprint:
+def write_atomic(
+    path: str | os.PathLike,
+    text: str,
+    backup: bool = True,
+    *,
+    expect: Fingerprint | None = None,
+    new_mode: int | None = None,
+    check_expect: bool = False,
+) -> Fingerprint:
     """Write ``text`` (UTF-8, ``\\n`` line ends) to ``path`` whole; see the module notes.
 
     ``backup``: keep the previous file as ``NAME.bak``. ``check_expect``: refuse with
@@ -197,18 +204,25 @@ def write_atomic(path: str | os.PathLike, text: str, backup: bool = True, *,
     target = real_target(path)
     folder = target.parent if str(target.parent) else Path(".")
     if target.is_dir():
-        raise IsADirectoryError(errno.EISDIR, "is a folder, not a file: give a file name",
-                                str(target))
+        raise IsADirectoryError(
+            errno.EISDIR, "is a folder, not a file: give a file name", str(target)
+        )
     if not folder.is_dir():
-        raise FileNotFoundError(errno.ENOENT, "the folder does not exist: create it first or "
-                                "choose another", str(folder))
+        raise FileNotFoundError(
+            errno.ENOENT,
+            "the folder does not exist: create it first or choose another",
+            str(folder),
+        )
     try:
         old = os.stat(target)
     except FileNotFoundError:
         old = None
     if old is not None and not stat.S_ISREG(old.st_mode):
-        raise OSError(errno.EINVAL, "is not a regular file (a device or a pipe?): choose "
-                      "another name", str(target))
+        raise OSError(
+            errno.EINVAL,
+            "is not a regular file (a device or a pipe?): choose another name",
+            str(target),
+        )
     clean_stray_temp_files(target)
     if old is not None:
         mode = stat.S_IMODE(old.st_mode)
@@ -248,8 +262,9 @@ def write_atomic(path: str | os.PathLike, text: str, backup: bool = True, *,
     return Fingerprint(st.st_mtime_ns, st.st_size, hashlib.sha256(data).hexdigest())
 
 
-def atomic_write_text(path: str | os.PathLike, text: str, backup: bool = True, *,
-                      new_mode: int | None = None) -> Path:
+def atomic_write_text(
+    path: str | os.PathLike, text: str, backup: bool = True, *, new_mode: int | None = None
+) -> Path:
     """:func:`write_atomic` without the change check; returns ``path`` as given."""
     write_atomic(path, text, backup, new_mode=new_mode)
     return Path(path)

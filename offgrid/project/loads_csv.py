@@ -21,8 +21,17 @@ from offgrid.numbers import NumberError, is_finite_number, read_number
 from offgrid.project.model import ALL_MONTHS, RUN_LENGTH_RANGE_M, Load
 from offgrid.safetext import csv_cell, csv_uncell
 
-COLUMNS = ("name", "quantity", "power_w", "hours_per_day", "ac_dc", "duty_cycle", "surge_w",
-           "months", "critical")
+COLUMNS = (
+    "name",
+    "quantity",
+    "power_w",
+    "hours_per_day",
+    "ac_dc",
+    "duty_cycle",
+    "surge_w",
+    "months",
+    "critical",
+)
 OPTIONAL_COLUMNS = ("time_of_day", "run_m")
 TIMES_OF_DAY = ("any", "day", "morning", "evening", "night")
 #: The longest load list read (a clinic or a school has tens of loads; a whole village is
@@ -74,8 +83,9 @@ def _month(text: str) -> int:
     try:
         m = int(text)
     except ValueError:
-        raise ValueError(f"'{text}' is not a month number; use 1-12, e.g. '1-12' or '5,6,7'") \
-            from None
+        raise ValueError(
+            f"'{text}' is not a month number; use 1-12, e.g. '1-12' or '5,6,7'"
+        ) from None
     if not 1 <= m <= 12:
         raise ValueError(f"month {m} is outside 1-12")
     return m
@@ -103,11 +113,15 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     for fld in ("power_w", "hours_per_day", "duty_cycle", "surge_w"):
         value = getattr(load, fld)
         if not is_finite_number(value):
-            out.append((fld, f"'{value}' is not a finite number; type a number such as 0 or "
-                             "1.5"))
+            out.append((fld, f"'{value}' is not a finite number; type a number such as 0 or 1.5"))
     if load.run_m is not None and not is_finite_number(load.run_m):
-        out.append(("run_m", f"'{load.run_m}' is not a finite number; type the one-way cable "
-                             "length in metres, or leave it empty for the default run"))
+        out.append(
+            (
+                "run_m",
+                f"'{load.run_m}' is not a finite number; type the one-way cable "
+                "length in metres, or leave it empty for the default run",
+            )
+        )
     if out:
         return out
     if not isinstance(load.quantity, int) or isinstance(load.quantity, bool):
@@ -119,31 +133,45 @@ def check_load(load: Load) -> list[tuple[str, str]]:
     if not 0 <= load.hours_per_day <= 24:
         out.append(("hours_per_day", f"{load.hours_per_day} h is outside 0-24 hours per day"))
     if not 0 <= load.duty_cycle <= 1:
-        out.append(("duty_cycle", f"{load.duty_cycle} must be a fraction 0-1 (0.4 = on 40 % of the "
-                                  "time)"))
+        out.append(
+            ("duty_cycle", f"{load.duty_cycle} must be a fraction 0-1 (0.4 = on 40 % of the time)")
+        )
     if not 0 <= load.surge_w <= 10_000_000:
         out.append(("surge_w", f"{load.surge_w} W must be 0 (no surge) or a starting power in W"))
     elif 0 < load.surge_w < load.power_w:
-        out.append(("surge_w", f"{load.surge_w} W is below the running power {load.power_w} W; "
-                               "give the starting power of one unit, or 0 for no surge"))
+        out.append(
+            (
+                "surge_w",
+                f"{load.surge_w} W is below the running power {load.power_w} W; "
+                "give the starting power of one unit, or 0 for no surge",
+            )
+        )
     if load.ac_dc not in ("ac", "dc"):
         out.append(("ac_dc", f"'{load.ac_dc}' must be ac or dc"))
     if not load.months or any(not 1 <= m <= 12 for m in load.months):
         out.append(("months", "give the months of use, e.g. 1-12 or 5,6,7"))
     lo, hi = RUN_LENGTH_RANGE_M
     if load.run_m is not None and not lo <= load.run_m <= hi:
-        out.append(("run_m", f"{load.run_m:g} m is out of range; one-way length of its DC cable "
-                             f"run, {lo:g}-{hi:g} m, or leave it empty for the default run "
-                             "(wiring.dc_load_run_m)"))
+        out.append(
+            (
+                "run_m",
+                f"{load.run_m:g} m is out of range; one-way length of its DC cable "
+                f"run, {lo:g}-{hi:g} m, or leave it empty for the default run "
+                "(wiring.dc_load_run_m)",
+            )
+        )
     if load.time_of_day not in TIMES_OF_DAY:
-        out.append(("time_of_day",
-                    f"'{load.time_of_day}' must be one of {', '.join(TIMES_OF_DAY)}"))
+        out.append(
+            ("time_of_day", f"'{load.time_of_day}' must be one of {', '.join(TIMES_OF_DAY)}")
+        )
     return out
 
 
 #: Required numeric cells and what to type in them.
-_REQUIRED_CELLS = {"power_w": "the running power of one unit in W",
-                   "hours_per_day": "the hours of use per day, 0-24"}
+_REQUIRED_CELLS = {
+    "power_w": "the running power of one unit in W",
+    "hours_per_day": "the hours of use per day, 0-24",
+}
 
 
 def _num(row: dict, key: str, line: int, problems: list[LoadProblem], default: float) -> float:
@@ -166,14 +194,28 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
     header = [h.strip().lower() for h in (reader.fieldnames or [])]
     reader.fieldnames = header
     if not header:
-        raise LoadListError([LoadProblem(1, "header", "the file is empty; the first line must name "
-                                         f"the columns: {', '.join(COLUMNS)}")], source)
+        raise LoadListError(
+            [
+                LoadProblem(
+                    1,
+                    "header",
+                    "the file is empty; the first line must name "
+                    f"the columns: {', '.join(COLUMNS)}",
+                )
+            ],
+            source,
+        )
     unknown = [h for h in header if h not in COLUMNS + OPTIONAL_COLUMNS]
     missing = [c for c in ("name", "power_w", "hours_per_day") if c not in header]
     for h in unknown:
         hint = " (use watts: power_w)" if h in ("power", "watts", "power_kw", "kw") else ""
-        problems.append(LoadProblem(1, h, f"unknown column{hint}; known columns are "
-                                    f"{', '.join(COLUMNS + OPTIONAL_COLUMNS)}"))
+        problems.append(
+            LoadProblem(
+                1,
+                h,
+                f"unknown column{hint}; known columns are {', '.join(COLUMNS + OPTIONAL_COLUMNS)}",
+            )
+        )
     for c in missing:
         problems.append(LoadProblem(1, c, "required column is missing"))
     if problems:
@@ -181,8 +223,9 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
     loads: list[Load] = []
     for row in reader:
         # the row's first line: a quoted cell may run over several lines
-        line = reader.line_num - sum(v.rstrip("\r\n").count("\n") for v in row.values()
-                                     if isinstance(v, str))
+        line = reader.line_num - sum(
+            v.rstrip("\r\n").count("\n") for v in row.values() if isinstance(v, str)
+        )
         if all(not (v or "").strip() for v in row.values() if isinstance(v, str)):
             continue
         if None in row:
@@ -191,14 +234,26 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
         start = len(problems)
         name = csv_uncell((row.get("name") or "").strip())
         if any("\n" in (v or "") for v in row.values() if isinstance(v, str)):
-            problems.append(LoadProblem(line, "row", 'a quotation mark (") opens a cell and is '
-                                        "never closed, so the lines after it were read into "
-                                        "one cell: close the quote or remove it"))
+            problems.append(
+                LoadProblem(
+                    line,
+                    "row",
+                    'a quotation mark (") opens a cell and is '
+                    "never closed, so the lines after it were read into "
+                    "one cell: close the quote or remove it",
+                )
+            )
             continue
         if len(loads) >= MAX_LOADS:
-            problems.append(LoadProblem(line, "row", f"more than {MAX_LOADS:,} loads: a load "
-                                        "list is one system's appliances; split the list, or "
-                                        "plan a community with `offgrid plan`"))
+            problems.append(
+                LoadProblem(
+                    line,
+                    "row",
+                    f"more than {MAX_LOADS:,} loads: a load "
+                    "list is one system's appliances; split the list, or "
+                    "plan a community with `offgrid plan`",
+                )
+            )
             raise LoadListError(problems, source)
         qty = _num(row, "quantity", line, problems, 1)
         if qty != int(qty):
@@ -223,8 +278,11 @@ def read_loads_csv(text: str, source: str = "load list") -> list[Load]:
             months=months,
             critical=crit_raw in _YES,
             time_of_day=(row.get("time_of_day") or "any").strip().lower(),  # type: ignore[arg-type]
-            run_m=(_num(row, "run_m", line, problems, 0.0)
-                   if (row.get("run_m") or "").strip() else None),
+            run_m=(
+                _num(row, "run_m", line, problems, 0.0)
+                if (row.get("run_m") or "").strip()
+                else None
+            ),
         )
         if len(problems) == start:
             problems.extend(LoadProblem(line, f, m) for f, m in check_load(load))
@@ -250,9 +308,19 @@ def loads_to_csv(loads: list[Load]) -> str:
     writer = csv.writer(out, lineterminator="\n")
     writer.writerow([*COLUMNS, *OPTIONAL_COLUMNS])
     for ld in loads:
-        writer.writerow([csv_cell(ld.name), ld.quantity, f"{ld.power_w:g}",
-                         f"{ld.hours_per_day:g}", ld.ac_dc, f"{ld.duty_cycle:g}",
-                         f"{ld.surge_w:g}", format_months(ld.months),
-                         "yes" if ld.critical else "no", ld.time_of_day,
-                         "" if ld.run_m is None else f"{ld.run_m:g}"])
+        writer.writerow(
+            [
+                csv_cell(ld.name),
+                ld.quantity,
+                f"{ld.power_w:g}",
+                f"{ld.hours_per_day:g}",
+                ld.ac_dc,
+                f"{ld.duty_cycle:g}",
+                f"{ld.surge_w:g}",
+                format_months(ld.months),
+                "yes" if ld.critical else "no",
+                ld.time_of_day,
+                "" if ld.run_m is None else f"{ld.run_m:g}",
+            ]
+        )
     return out.getvalue()

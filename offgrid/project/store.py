@@ -64,8 +64,11 @@ def _plain(obj: Any) -> Any:
                 if f.default is not None and f.default is not dataclasses.MISSING:
                     out[f.name] = NONE_WORD  # None where the default is a value: say so
                 continue  # TOML has no null: a missing key means "automatic"
-            if isinstance(value, list) and not value and f.default_factory is not \
-                    dataclasses.MISSING:
+            if (
+                isinstance(value, list)
+                and not value
+                and f.default_factory is not dataclasses.MISSING
+            ):
                 continue  # an empty list is the default: leave it out
             out[f.name] = _plain(value)
         return out
@@ -114,8 +117,12 @@ def dumps_project(project: Project) -> str:
     return head + dumps(project_to_dict(project))
 
 
-def save_project(project: Project, path: str | os.PathLike, *,
-                 expect: Fingerprint | Literal[False] | None = False) -> Fingerprint:
+def save_project(
+    project: Project,
+    path: str | os.PathLike,
+    *,
+    expect: Fingerprint | Literal[False] | None = False,
+) -> Fingerprint:
     """Write atomically with a backup (see :mod:`offgrid.project.atomic`).
 
     ``expect``: the file's :class:`Fingerprint` when it was read (None: there was no
@@ -123,11 +130,13 @@ def save_project(project: Project, path: str | os.PathLike, *,
     raised and nothing is written. ``False`` (the default) writes without that check.
     Returns the new fingerprint, to pass as ``expect`` to the next save.
     """
-    return write_atomic(path, dumps_project(project), expect=expect or None,
-                        check_expect=expect is not False)
+    return write_atomic(
+        path, dumps_project(project), expect=expect or None, check_expect=expect is not False
+    )
 
 
 # ----------------------------------------------------------------------------- reading
+
 
 def _locate_lines(text: str) -> dict[str, int]:
     """Map dotted paths (``site.latitude_deg``, ``loads[2].power_w``) to 1-based line numbers."""
@@ -200,11 +209,14 @@ class _Reader:
                 return 0.0
             return float(value)
         if tp is int:
-            if (isinstance(value, bool) or not isinstance(value, int | float)
-                    or (isinstance(value, float) and not value.is_integer())):
+            if (
+                isinstance(value, bool)
+                or not isinstance(value, int | float)
+                or (isinstance(value, float) and not value.is_integer())
+            ):
                 self.bad(path, f"'{_short(value)}' must be a whole number")
                 return 0
-            if abs(value) > 10 ** 15:
+            if abs(value) > 10**15:
                 self.bad(path, f"'{_short(value)}' is far too large; {_hint(path)}")
                 return 0
             return int(value)
@@ -220,22 +232,30 @@ class _Reader:
             return [self.convert(args[0], v, f"{path}[{i + 1}]") for i, v in enumerate(value)]
         if origin is tuple:
             if path.endswith(".months"):
-                if not (isinstance(value, str) or (isinstance(value, list) and all(
-                        isinstance(v, int) and not isinstance(v, bool) for v in value))):
-                    self.bad(path, f"'{_short(value)}' is not a set of months: write it in "
-                                   'quotes, e.g. months = "1-12" or months = "5,6,7"')
+                if not (
+                    isinstance(value, str)
+                    or (
+                        isinstance(value, list)
+                        and all(isinstance(v, int) and not isinstance(v, bool) for v in value)
+                    )
+                ):
+                    self.bad(
+                        path,
+                        f"'{_short(value)}' is not a set of months: write it in "
+                        'quotes, e.g. months = "1-12" or months = "5,6,7"',
+                    )
                     return ()
                 try:
-                    return parse_months(value if isinstance(value, str) else
-                                        ",".join(str(v) for v in value))
+                    return parse_months(
+                        value if isinstance(value, str) else ",".join(str(v) for v in value)
+                    )
                 except ValueError as exc:
                     self.bad(path, str(exc))
                     return ()
             if not isinstance(value, list | tuple):
                 self.bad(path, "must be a list")
                 return ()
-            return tuple(self.convert(args[0], v, f"{path}[{i + 1}]") for i, v in
-                         enumerate(value))
+            return tuple(self.convert(args[0], v, f"{path}[{i + 1}]") for i, v in enumerate(value))
         if origin is dict or tp is dict:
             return dict(value) if isinstance(value, dict) else {}
         if dataclasses.is_dataclass(tp):
@@ -251,8 +271,9 @@ class _Reader:
         known = {f.name for f in dataclasses.fields(cls)}
         for key in data:
             if key not in known:
-                self.bad(f"{path}.{key}",
-                         f"unknown field; known fields are {', '.join(sorted(known))}")
+                self.bad(
+                    f"{path}.{key}", f"unknown field; known fields are {', '.join(sorted(known))}"
+                )
         for f in dataclasses.fields(cls):
             if f.name in data:
                 kwargs[f.name] = self.convert(hints[f.name], data[f.name], f"{path}.{f.name}")
@@ -264,7 +285,7 @@ class _Reader:
 
 def _short(value: Any) -> str:
     """A value quoted in a message: at most 40 characters."""
-    if isinstance(value, int) and not isinstance(value, bool) and abs(value) > 10 ** 40:
+    if isinstance(value, int) and not isinstance(value, bool) and abs(value) > 10**40:
         return f"a number of {len(hex(value)) * 1.2:.0f}-odd digits"
     text = repr(value) if isinstance(value, list | dict) else str(value)
     return text if len(text) <= 40 else text[:37] + "..."
@@ -311,12 +332,15 @@ def _zero(tp: Any) -> Any:
 
 
 def _all_defaults(cls: Any) -> bool:
-    return all(f.default is not dataclasses.MISSING or f.default_factory is not dataclasses.MISSING
-               for f in dataclasses.fields(cls))
+    return all(
+        f.default is not dataclasses.MISSING or f.default_factory is not dataclasses.MISSING
+        for f in dataclasses.fields(cls)
+    )
 
 
-def _migrate_schema_1(data: dict[str, Any], notes: list[str],
-                      moved: dict[str, str] | None = None) -> dict[str, Any]:
+def _migrate_schema_1(
+    data: dict[str, Any], notes: list[str], moved: dict[str, str] | None = None
+) -> dict[str, Any]:
     """Schema 1 -> 2: each ``[wiring.dc_load_runs_m]`` entry (load name = length) moves onto
     every load of that name as ``run_m``; an entry naming no load is told in ``notes`` and
     dropped. ``data`` is not changed; the migrated copy is returned. ``moved`` receives
@@ -331,38 +355,50 @@ def _migrate_schema_1(data: dict[str, Any], notes: list[str],
     runs = wiring.pop("dc_load_runs_m")
     data["wiring"] = wiring
     if not isinstance(runs, dict):
-        notes.append("wiring.dc_load_runs_m was not a table of load name = length; it is "
-                     "dropped when the project is saved (schema 2 keeps each load's length "
-                     "on the load, as run_m)")
+        notes.append(
+            "wiring.dc_load_runs_m was not a table of load name = length; it is "
+            "dropped when the project is saved (schema 2 keeps each load's length "
+            "on the load, as run_m)"
+        )
         return data
     loads = data.get("loads")
-    loads = [dict(ld) if isinstance(ld, dict) else ld for ld in loads] if isinstance(
-        loads, list) else []
+    loads = (
+        [dict(ld) if isinstance(ld, dict) else ld for ld in loads]
+        if isinstance(loads, list)
+        else []
+    )
     if loads:
         data["loads"] = loads
     moved = {} if moved is None else moved
     names = 0
     for name, length in runs.items():
-        owners = [i for i, ld in enumerate(loads) if isinstance(ld, dict)
-                  and ld.get("name") == name and "run_m" not in ld]
-        if not owners and not any(isinstance(ld, dict) and ld.get("name") == name
-                                  for ld in loads):
-            notes.append(f"wiring.dc_load_runs_m: '{printable(str(name))}' = "
-                         f"{_short(length)} m names no load in this project; that length is "
-                         "dropped when the project is saved (set it on the load as run_m)")
+        owners = [
+            i
+            for i, ld in enumerate(loads)
+            if isinstance(ld, dict) and ld.get("name") == name and "run_m" not in ld
+        ]
+        if not owners and not any(isinstance(ld, dict) and ld.get("name") == name for ld in loads):
+            notes.append(
+                f"wiring.dc_load_runs_m: '{printable(str(name))}' = "
+                f"{_short(length)} m names no load in this project; that length is "
+                "dropped when the project is saved (set it on the load as run_m)"
+            )
             continue
         for i in owners:
             loads[i]["run_m"] = length
             moved[f"loads[{i + 1}].run_m"] = f"wiring.dc_load_runs_m.'{printable(str(name))}'"
         names += 1
     if names:
-        notes.append(f"schema 1 file: the cable run lengths of {names} load name(s) now stand "
-                     "on the loads (run_m); saving writes schema 2")
+        notes.append(
+            f"schema 1 file: the cable run lengths of {names} load name(s) now stand "
+            "on the loads (run_m); saving writes schema 2"
+        )
     return data
 
 
-def project_from_dict(data: dict[str, Any], source: str = "project",
-                      notes: list[str] | None = None) -> tuple[Project, list[Problem]]:
+def project_from_dict(
+    data: dict[str, Any], source: str = "project", notes: list[str] | None = None
+) -> tuple[Project, list[Problem]]:
     """Convert a parsed document to a Project; returns it with the list of problems.
 
     A file of an older schema is migrated; what that could not carry over is appended to
@@ -372,27 +408,36 @@ def project_from_dict(data: dict[str, Any], source: str = "project",
     reader = _Reader()
     fmt = data.get("format")
     if fmt != FORMAT_NAME:
-        what = ("the file has no format line" if fmt is None else
-                f"'{fmt}' is not an offgrid project")
-        reader.bad("format", f"{what}: an offgrid project starts with the line "
-                             f"format = \"{FORMAT_NAME}\"")
+        what = (
+            "the file has no format line" if fmt is None else f"'{fmt}' is not an offgrid project"
+        )
+        reader.bad(
+            "format", f'{what}: an offgrid project starts with the line format = "{FORMAT_NAME}"'
+        )
         return Project(), reader.problems
     schema = data.get("schema")
     if not isinstance(schema, int) or isinstance(schema, bool) or schema < 1:
-        reader.bad("schema", f"'{schema}' must be a whole number (this offgrid writes "
-                             f"{SCHEMA_VERSION})")
+        reader.bad(
+            "schema", f"'{schema}' must be a whole number (this offgrid writes {SCHEMA_VERSION})"
+        )
         return Project(), reader.problems
     if schema > SCHEMA_VERSION:
-        reader.bad("schema", f"the file is schema {schema}, newer than this offgrid reads "
-                             f"({SCHEMA_VERSION}); open it with a newer offgrid. The file was "
-                             "not changed")
+        reader.bad(
+            "schema",
+            f"the file is schema {schema}, newer than this offgrid reads "
+            f"({SCHEMA_VERSION}); open it with a newer offgrid. The file was "
+            "not changed",
+        )
         return Project(), reader.problems
     moved: dict[str, str] = {}
     if schema == 1:
         data = _migrate_schema_1(data, notes, moved)
     elif isinstance(data.get("wiring"), dict) and "dc_load_runs_m" in data["wiring"]:
-        reader.bad("wiring.dc_load_runs_m", f"schema {schema} keeps each DC load's cable length "
-                   "on the load: write run_m = LENGTH in its [[loads]] table instead")
+        reader.bad(
+            "wiring.dc_load_runs_m",
+            f"schema {schema} keeps each DC load's cable length "
+            "on the load: write run_m = LENGTH in its [[loads]] table instead",
+        )
         return Project(), reader.problems
     hints = get_type_hints(Project)
     kwargs: dict[str, Any] = {}
@@ -407,12 +452,16 @@ def project_from_dict(data: dict[str, Any], source: str = "project",
                 reader.bad("loads", "must be a list of [[loads]] tables")
                 continue
             if len(value) > MAX_LOADS:
-                reader.bad("loads", f"{len(value):,} loads: more than {MAX_LOADS:,} loads in one "
-                                    "project; a project is one system, plan a community with "
-                                    "`offgrid plan`")
+                reader.bad(
+                    "loads",
+                    f"{len(value):,} loads: more than {MAX_LOADS:,} loads in one "
+                    "project; a project is one system, plan a community with "
+                    "`offgrid plan`",
+                )
                 continue
-            kwargs["loads"] = [reader.build(Load, v, f"loads[{i + 1}]") for i, v in
-                               enumerate(value)]
+            kwargs["loads"] = [
+                reader.build(Load, v, f"loads[{i + 1}]") for i, v in enumerate(value)
+            ]
         elif key in hints and key != "extra":
             kwargs[key] = reader.convert(hints[key], value, key)
         else:
@@ -420,9 +469,12 @@ def project_from_dict(data: dict[str, Any], source: str = "project",
     project = Project(**kwargs, extra=extra)
     if not reader.problems:
         reader.problems.extend(validate_project(project))
-    problems = [Problem(p.path, f"{p.message} (moved from {moved[p.path]} of the schema-1 "
-                                "file)", p.line) if p.path in moved else p
-                for p in reader.problems]
+    problems = [
+        Problem(p.path, f"{p.message} (moved from {moved[p.path]} of the schema-1 file)", p.line)
+        if p.path in moved
+        else p
+        for p in reader.problems
+    ]
     return project, problems
 
 
@@ -440,27 +492,40 @@ def _read_climate(value: Any, reader: _Reader) -> ClimateChoice:
             return ClimateChoice()
     ref = value.get("ref")
     if not isinstance(ref, str) or not ref.strip():
-        reader.bad("climate.ref", "give a bundled climate name (see `offgrid climate list`) or a "
-                                  "file path, or an inline [climate.monthly] table")
+        reader.bad(
+            "climate.ref",
+            "give a bundled climate name (see `offgrid climate list`) or a "
+            "file path, or an inline [climate.monthly] table",
+        )
         return ClimateChoice()
     return ClimateChoice(ref=ref)
 
 
-def loads_project(text: str, source: str = "project", *,
-                  notes: list[str] | None = None) -> Project:
+def loads_project(text: str, source: str = "project", *, notes: list[str] | None = None) -> Project:
     """Parse project text; raise :class:`ProjectFileError` with every problem.
 
     ``notes``: a list that receives what migrating an older schema could not carry over.
     """
-    too_deep = Problem("file", f"tables or lists nested more than {MAX_DEPTH} levels deep: "
-                               "this is not an offgrid project; check that it is the right "
-                               "file")
+    too_deep = Problem(
+        "file",
+        f"tables or lists nested more than {MAX_DEPTH} levels deep: "
+        "this is not an offgrid project; check that it is the right "
+        "file",
+    )
     tables = len(re.findall(r"(?m)^\s*\[\[\s*loads\s*\]\]", text))
     if tables > MAX_LOADS:  # refused before parsing: a huge file is not parsed for nothing
-        raise ProjectFileError(source, [Problem("loads", f"{tables:,} loads: more than "
-                                                f"{MAX_LOADS:,} loads in one project; a project "
-                                                "is one system, plan a community with "
-                                                "`offgrid plan`")])
+        raise ProjectFileError(
+            source,
+            [
+                Problem(
+                    "loads",
+                    f"{tables:,} loads: more than "
+                    f"{MAX_LOADS:,} loads in one project; a project "
+                    "is one system, plan a community with "
+                    "`offgrid plan`",
+                )
+            ],
+        )
     try:
         data = tomllib.loads(text)
     except RecursionError:
@@ -468,8 +533,9 @@ def loads_project(text: str, source: str = "project", *,
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
         line = int(m.group(1)) if m else None
-        raise ProjectFileError(source, [Problem("file", f"not valid TOML: {exc}; fix the "
-                                                "syntax at that line", line)]) from exc
+        raise ProjectFileError(
+            source, [Problem("file", f"not valid TOML: {exc}; fix the syntax at that line", line)]
+        ) from exc
     if _depth(data, MAX_DEPTH) > MAX_DEPTH:
         raise ProjectFileError(source, [too_deep])
     project, problems = project_from_dict(data, source, notes)

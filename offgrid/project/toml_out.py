@@ -13,8 +13,7 @@ import re
 from typing import Any
 
 _BARE = re.compile(r"^[A-Za-z0-9_-]+$")
-_ESC = {'"': '\\"', "\\": "\\\\", "\b": "\\b", "\t": "\\t", "\n": "\\n", "\f": "\\f",
-        "\r": "\\r"}
+_ESC = {'"': '\\"', "\\": "\\\\", "\b": "\\b", "\t": "\\t", "\n": "\\n", "\f": "\\f", "\r": "\\r"}
 _LINE = 96  # arrays longer than this are broken one item per line
 
 

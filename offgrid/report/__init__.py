@@ -43,8 +43,14 @@ def render(report, fmt: str) -> str:
     raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")
 
 
-def simulate_for_report(project: Project, base: Path | None = None, *, years: int = 30,
-                        seed: int | None = 1, with_tradeoff: bool = True):
+def simulate_for_report(
+    project: Project,
+    base: Path | None = None,
+    *,
+    years: int = 30,
+    seed: int | None = 1,
+    with_tradeoff: bool = True,
+):
     """The reliability study of a project for its report (the simulation's own runner).
 
     The trade-off's cheapest point is priced from the project's price list when the module
@@ -56,14 +62,24 @@ def simulate_for_report(project: Project, base: Path | None = None, *, years: in
     from offgrid.sizing import design as run_design
 
     prices = tradeoff_prices(project, bill_of_materials(project, run_design(project, base)))
-    return simulate_project(project, base, years=years, seed=seed, prices=prices,
-                            with_tradeoff=with_tradeoff)
+    return simulate_project(
+        project, base, years=years, seed=seed, prices=prices, with_tradeoff=with_tradeoff
+    )
 
 
-def make_report(project: Project, base: Path | None = None, fmt: str = "html", *,
-                reliability: Any = None, with_charts: bool | None = None,
-                with_variants: bool = True, design=None, simulate: bool = False,
-                years: int = 30, seed: int | None = 1) -> str:
+def make_report(
+    project: Project,
+    base: Path | None = None,
+    fmt: str = "html",
+    *,
+    reliability: Any = None,
+    with_charts: bool | None = None,
+    with_variants: bool = True,
+    design=None,
+    simulate: bool = False,
+    years: int = 30,
+    seed: int | None = 1,
+) -> str:
     """Design ``project`` (unless ``design`` is given) and render its report.
 
     ``simulate`` runs the reliability study (and simulates each variant) unless a study is
@@ -86,10 +102,18 @@ def make_report(project: Project, base: Path | None = None, fmt: str = "html", *
             from offgrid.economics.variants import compare_variants
 
             def one(proj, _design):
-                return simulate_for_report(proj, base, years=years, seed=seed,
-                                           with_tradeoff=False).reliability
+                return simulate_for_report(
+                    proj, base, years=years, seed=seed, with_tradeoff=False
+                ).reliability
 
             comparison = compare_variants(project, base, simulate=one)
-    report = build_report(project, d, base=base, reliability=reliability, with_charts=charts,
-                          with_variants=with_variants, comparison=comparison)
+    report = build_report(
+        project,
+        d,
+        base=base,
+        reliability=reliability,
+        with_charts=charts,
+        with_variants=with_variants,
+        comparison=comparison,
+    )
     return render(report, fmt)

@@ -51,8 +51,21 @@ if TYPE_CHECKING:
 MONTHS = charts.MONTHS
 
 #: Section keys in report order; tests check that each is present.
-SECTION_KEYS = ("job", "climate", "loads", "design-month", "figures", "strings", "wiring",
-                "bom", "costs", "reliability", "variants", "cautions", "assumptions")
+SECTION_KEYS = (
+    "job",
+    "climate",
+    "loads",
+    "design-month",
+    "figures",
+    "strings",
+    "wiring",
+    "bom",
+    "costs",
+    "reliability",
+    "variants",
+    "cautions",
+    "assumptions",
+)
 
 #: Labels of design figures by dotted path (others get a label from the path).
 LABELS: dict[str, str] = {
@@ -118,55 +131,125 @@ LABELS: dict[str, str] = {
 #: Figures that have no reason of their own in the engine: the reason the report states.
 DERIVED: dict[str, Reason] = {
     "array.module_count": Reason("modules in series x strings in parallel"),
-    "array.derate_total": Reason("product of the derates of the design month (see the "
-                                 "assumptions)"),
+    "array.derate_total": Reason(
+        "product of the derates of the design month (see the assumptions)"
+    ),
     "array.string_voc_cold_v": Reason(
         "modules in series x module Voc at the lowest temperature (Voc x (1 + beta_Voc x "
-        "(T - 25 C)))", (), "NEC 690.7(A)(1) method with the module's coefficient, NFPA 70-2023"),
-    "array.string_vmp_hot_v": Reason("modules in series x module Vmp at the hottest cell "
-                                     "temperature"),
+        "(T - 25 C)))",
+        (),
+        "NEC 690.7(A)(1) method with the module's coefficient, NFPA 70-2023",
+    ),
+    "array.string_vmp_hot_v": Reason(
+        "modules in series x module Vmp at the hottest cell temperature"
+    ),
     "battery.unit_count": Reason("units in series x strings in parallel"),
     "battery.nominal_kwh": Reason("installed Ah x system voltage / 1000"),
-    "controller.count": Reason("controllers needed so that none carries more than the largest "
-                               "standard rating"),
-    "loads.max_daily_energy_wh": Reason("largest of the twelve monthly daily energies at the "
-                                        "battery"),
+    "controller.count": Reason(
+        "controllers needed so that none carries more than the largest standard rating"
+    ),
+    "loads.max_daily_energy_wh": Reason(
+        "largest of the twelve monthly daily energies at the battery"
+    ),
 }
 
 #: Figures shown in the figures section, in order, beside every figure that has a reason.
-KEY_FIGURES = ("site.design_month", "site.tilt_deg", "site.azimuth_deg", "site.record_low_c",
-               "loads.design_daily_energy_wh", "loads.max_daily_energy_wh",
-               "loads.inverter_idle_wh", "loads.peak_ac_w", "loads.largest_surge_w",
-               "array.required_power_w", "array.derate_total", "array.modules_series",
-               "array.modules_parallel", "array.module_count", "array.power_w",
-               "array.string_voc_cold_v", "array.string_vmp_hot_v",
-               "battery.system_voltage_v", "battery.required_ah", "battery.units_series",
-               "battery.units_parallel", "battery.unit_count", "battery.capacity_ah",
-               "battery.nominal_kwh", "battery.usable_kwh", "controller.required_current_a",
-               "controller.current_a", "controller.count", "inverter.continuous_w",
-               "inverter.surge_w", "inverter.required_surge_w", "inverter.dc_input_current_a")
-GROUP_ORDER = ("site", "loads", "module", "mpp", "array", "strings", "battery", "controller",
-               "inverter", "wires", "protection")
-GROUP_TITLES = {"site": "Site and sun", "loads": "Loads", "array": "Array",
-                "battery": "Battery", "controller": "Charge controller", "inverter": "Inverter",
-                "module": "Module model", "mpp": "Maximum power point, design month",
-                "strings": "String window", "wires": "Cables",
-                "protection": "Protection"}
-WIRE_FIELDS = {"size": "conductor size", "drop_pct": "voltage drop", "ampacity_a": "ampacity",
-               "fuse_a": "fuse", "current_a": "maximum continuous current",
-               "drop_current_a": "operating current (voltage drop)", "length_m": "length",
-               "voltage_v": "circuit voltage", "resistance_ohm_km": "conductor resistance"}
+KEY_FIGURES = (
+    "site.design_month",
+    "site.tilt_deg",
+    "site.azimuth_deg",
+    "site.record_low_c",
+    "loads.design_daily_energy_wh",
+    "loads.max_daily_energy_wh",
+    "loads.inverter_idle_wh",
+    "loads.peak_ac_w",
+    "loads.largest_surge_w",
+    "array.required_power_w",
+    "array.derate_total",
+    "array.modules_series",
+    "array.modules_parallel",
+    "array.module_count",
+    "array.power_w",
+    "array.string_voc_cold_v",
+    "array.string_vmp_hot_v",
+    "battery.system_voltage_v",
+    "battery.required_ah",
+    "battery.units_series",
+    "battery.units_parallel",
+    "battery.unit_count",
+    "battery.capacity_ah",
+    "battery.nominal_kwh",
+    "battery.usable_kwh",
+    "controller.required_current_a",
+    "controller.current_a",
+    "controller.count",
+    "inverter.continuous_w",
+    "inverter.surge_w",
+    "inverter.required_surge_w",
+    "inverter.dc_input_current_a",
+)
+GROUP_ORDER = (
+    "site",
+    "loads",
+    "module",
+    "mpp",
+    "array",
+    "strings",
+    "battery",
+    "controller",
+    "inverter",
+    "wires",
+    "protection",
+)
+GROUP_TITLES = {
+    "site": "Site and sun",
+    "loads": "Loads",
+    "array": "Array",
+    "battery": "Battery",
+    "controller": "Charge controller",
+    "inverter": "Inverter",
+    "module": "Module model",
+    "mpp": "Maximum power point, design month",
+    "strings": "String window",
+    "wires": "Cables",
+    "protection": "Protection",
+}
+WIRE_FIELDS = {
+    "size": "conductor size",
+    "drop_pct": "voltage drop",
+    "ampacity_a": "ampacity",
+    "fuse_a": "fuse",
+    "current_a": "maximum continuous current",
+    "drop_current_a": "operating current (voltage drop)",
+    "length_m": "length",
+    "voltage_v": "circuit voltage",
+    "resistance_ohm_km": "conductor resistance",
+}
 
 # ----------------------------------------------------------------------------- formatting
+
 
 def unit_of(path: str) -> str:
     """Unit from the naming convention of the design's fields (``power_w`` -> W)."""
     name = path.rsplit(".", 1)[-1]
-    table = (("_kwh_m2_day", "kWh/m2/day"), ("_wh_day", "Wh/day"), ("_kwh", "kWh"),
-             ("_wh", "Wh/day" if path.startswith("loads.") else "Wh"), ("_ah", "Ah"),
-             ("_w", "W"), ("_v", "V"), ("_a", "A"), ("_c", "C"), ("_deg", "deg"),
-             ("_pct", "%"), ("_m", "m"), ("_days", "days"), ("_years", "years"),
-             ("_kw", "kW"), ("_ohm", "ohm"))
+    table = (
+        ("_kwh_m2_day", "kWh/m2/day"),
+        ("_wh_day", "Wh/day"),
+        ("_kwh", "kWh"),
+        ("_wh", "Wh/day" if path.startswith("loads.") else "Wh"),
+        ("_ah", "Ah"),
+        ("_w", "W"),
+        ("_v", "V"),
+        ("_a", "A"),
+        ("_c", "C"),
+        ("_deg", "deg"),
+        ("_pct", "%"),
+        ("_m", "m"),
+        ("_days", "days"),
+        ("_years", "years"),
+        ("_kw", "kW"),
+        ("_ohm", "ohm"),
+    )
     for suffix, unit in table:
         if name.endswith(suffix):
             return unit
@@ -261,8 +344,21 @@ def label_of(path: str) -> str:
         return LABELS[path]
     head, _, name = path.rpartition(".")
     words = name
-    for suffix in ("_kwh_m2_day", "_wh_day", "_kwh", "_wh", "_ah", "_w", "_v", "_a", "_c",
-                   "_deg", "_pct", "_m", "_a"):
+    for suffix in (
+        "_kwh_m2_day",
+        "_wh_day",
+        "_kwh",
+        "_wh",
+        "_ah",
+        "_w",
+        "_v",
+        "_a",
+        "_c",
+        "_deg",
+        "_pct",
+        "_m",
+        "_a",
+    ):
         if words.endswith(suffix):
             words = words[: -len(suffix)]
             break
@@ -282,11 +378,14 @@ def _num(value: float, digits: int, path: str | None = None) -> Cell:
 
 def _month_row(label: str, values, path: str | None, digits: int = 0) -> tuple[Cell, ...]:
     """A label and twelve monthly numbers; ``path.k`` is the JSON path of month k (0-11)."""
-    return (_c(label), *(_num(v, digits, f"{path}.{k}" if path else None)
-                         for k, v in enumerate(values)))
+    return (
+        _c(label),
+        *(_num(v, digits, f"{path}.{k}" if path else None) for k, v in enumerate(values)),
+    )
 
 
 # ----------------------------------------------------------------------------- inputs
+
 
 @dataclass(frozen=True)
 class ReportInputs:
@@ -300,11 +399,17 @@ class ReportInputs:
     charts: bool = True
 
 
-def build_report(project: Project, design: SystemDesign, *, base: Path | None = None,
-                 climate: MonthlyClimate | None = None,
-                 reliability: SimulationReport | None = None,
-                 comparison: VariantComparison | None = None,
-                 with_charts: bool = True, with_variants: bool = True) -> Report:
+def build_report(
+    project: Project,
+    design: SystemDesign,
+    *,
+    base: Path | None = None,
+    climate: MonthlyClimate | None = None,
+    reliability: SimulationReport | None = None,
+    comparison: VariantComparison | None = None,
+    with_charts: bool = True,
+    with_variants: bool = True,
+) -> Report:
     """The report model of a designed project.
 
     ``reliability`` is the simulation's record when it ran; ``comparison`` a
@@ -343,45 +448,66 @@ def build_report(project: Project, design: SystemDesign, *, base: Path | None = 
     ]
     info = project.info
     subtitle = f"Stand-alone solar power design for {project.site.name or info.name}"
-    meta = tuple((k, v) for k, v in (("Client", info.client), ("Designer", info.designer))
-                 if v)
+    meta = tuple((k, v) for k, v in (("Client", info.client), ("Designer", info.designer)) if v)
     from offgrid.wording import for_client
 
     # Client words: a recalled value ('from memory' in the engine) says what to confirm.
-    return Report(title=info.name, subtitle=subtitle,
-                  sections=for_client(tuple(s for s in sections if s is not None)),
-                  demo=info.demo, meta=meta)
+    return Report(
+        title=info.name,
+        subtitle=subtitle,
+        sections=for_client(tuple(s for s in sections if s is not None)),
+        demo=info.demo,
+        meta=meta,
+    )
 
 
 # ----------------------------------------------------------------------------- sections
 
+
 def _job(ri: ReportInputs, tree: dict) -> Section:
     p, d = ri.project, ri.design
     s = p.site
-    rows = [("Project", p.info.name), ("Client", p.info.client or "-"),
-            ("Designer", p.info.designer or "-"),
-            ("Site", s.name or "-"),
-            ("Latitude, longitude", f"{s.latitude_deg:.4f}, {s.longitude_deg:.4f} deg"),
-            ("Elevation", f"{s.elevation_m:,.0f} m")]
+    rows = [
+        ("Project", p.info.name),
+        ("Client", p.info.client or "-"),
+        ("Designer", p.info.designer or "-"),
+        ("Site", s.name or "-"),
+        ("Latitude, longitude", f"{s.latitude_deg:.4f}, {s.longitude_deg:.4f} deg"),
+        ("Elevation", f"{s.elevation_m:,.0f} m"),
+    ]
     table_rows = [(_c(k), _c(v)) for k, v in rows]
-    table_rows.append((_c("Array tilt, azimuth"), _c(
-        f"{d.site.tilt_deg:.0f} deg, {d.site.azimuth_deg:.0f} deg (clockwise from north)")))
+    table_rows.append(
+        (
+            _c("Array tilt, azimuth"),
+            _c(f"{d.site.tilt_deg:.0f} deg, {d.site.azimuth_deg:.0f} deg (clockwise from north)"),
+        )
+    )
     blocks: list[Block] = []
     if p.info.demo:
-        blocks.append(Paragraph("Demonstration data: the project, the site, the people and the "
-                                "climate in this report are invented."))
+        blocks.append(
+            Paragraph(
+                "Demonstration data: the project, the site, the people and the "
+                "climate in this report are invented."
+            )
+        )
     blocks.append(Table("job", ("Item", "Value"), tuple(table_rows), wrap=(1,)))
     if p.info.notes:
         blocks.append(Paragraph(p.info.notes))
     a, b, c, inv = d.array, d.battery, d.controller, d.inverter
-    inv_text = (f"a {inv.continuous_w:,.0f} W inverter" if inv.needed else "no inverter "
-                "(DC loads only)")
-    blocks.append(Paragraph(
-        f"The system: {a.module_count} PV modules ({a.power_w:,.0f} W), a {b.system_voltage_v} V "
-        f"battery bank of {b.unit_count} units ({b.capacity_ah:,.0f} Ah, "
-        f"{b.usable_kwh:,.2f} kWh usable), {c.count} x {c.current_a:g} A {c.type.upper()} charge "
-        f"controller{'s' if c.count > 1 else ''} and {inv_text}, sized for "
-        f"{MONTHS[d.site.design_month - 1]}, the month whose supply covers its demand least."))
+    inv_text = (
+        f"a {inv.continuous_w:,.0f} W inverter" if inv.needed else "no inverter (DC loads only)"
+    )
+    blocks.append(
+        Paragraph(
+            f"The system: {a.module_count} PV modules ({a.power_w:,.0f} W), a {b.system_voltage_v} "
+            "V "
+            f"battery bank of {b.unit_count} units ({b.capacity_ah:,.0f} Ah, "
+            f"{b.usable_kwh:,.2f} kWh usable), {c.count} x {c.current_a:g} A {c.type.upper()} "
+            "charge "
+            f"controller{'s' if c.count > 1 else ''} and {inv_text}, sized for "
+            f"{MONTHS[d.site.design_month - 1]}, the month whose supply covers its demand least."
+        )
+    )
     return Section("job", "The job and the site", tuple(blocks))
 
 
@@ -398,31 +524,44 @@ def _climate(ri: ReportInputs, tree: dict) -> Section:
         cols.append("Min")
     rows = []
     for k in range(12):
-        row = [_c(MONTHS[k]),
-               _num(s.horizontal_kwh_m2_day[k], 2, f"site.horizontal_kwh_m2_day.{k}"),
-               _num(s.poa_kwh_m2_day[k], 2, f"site.poa_kwh_m2_day.{k}"),
-               _num(s.temp_mean_c[k], 1, f"site.temp_mean_c.{k}"),
-               _num(s.temp_day_c[k], 1, f"site.temp_day_c.{k}")]
+        row = [
+            _c(MONTHS[k]),
+            _num(s.horizontal_kwh_m2_day[k], 2, f"site.horizontal_kwh_m2_day.{k}"),
+            _num(s.poa_kwh_m2_day[k], 2, f"site.poa_kwh_m2_day.{k}"),
+            _num(s.temp_mean_c[k], 1, f"site.temp_mean_c.{k}"),
+            _num(s.temp_day_c[k], 1, f"site.temp_day_c.{k}"),
+        ]
         if have_max:
             row.append(_num(c.temp_max_c[k], 1))
         if have_min:
             row.append(_num(c.temp_min_c[k], 1))
         rows.append(tuple(row))
-    blocks: list[Block] = [Table(
-        "climate", tuple(cols), tuple(rows), ("l",) + ("r",) * (len(cols) - 1),
-        "Insolation in kWh/m2/day (mean daily, horizontal and in the array plane); "
-        "temperatures in C (day = mean of the daily mean and maximum, used for the cell "
-        "temperature).")]
+    blocks: list[Block] = [
+        Table(
+            "climate",
+            tuple(cols),
+            tuple(rows),
+            ("l",) + ("r",) * (len(cols) - 1),
+            "Insolation in kWh/m2/day (mean daily, horizontal and in the array plane); "
+            "temperatures in C (day = mean of the daily mean and maximum, used for the cell "
+            "temperature).",
+        )
+    ]
     src = s.climate_source or (c.source if c else "") or "not given"
     blocks.append(Paragraph(f"Source of the climate: {src}"))
     if c is not None and c.demo:
         blocks.append(Paragraph("This climate is demonstration data, not a measurement."))
     reason = d.reasons.get("site.poa_kwh_m2_day")
     if reason:
-        blocks.append(Paragraph(f"Array-plane insolation: {reason.formula}. Source: "
-                                f"{reason.source}."))
-    blocks.append(Paragraph(f"Lowest temperature used for the string voltage: "
-                            f"{s.record_low_c:.1f} C ({_reason_source(d, 'site.record_low_c')})."))
+        blocks.append(
+            Paragraph(f"Array-plane insolation: {reason.formula}. Source: {reason.source}.")
+        )
+    blocks.append(
+        Paragraph(
+            f"Lowest temperature used for the string voltage: "
+            f"{s.record_low_c:.1f} C ({_reason_source(d, 'site.record_low_c')})."
+        )
+    )
     return Section("climate", "Climate", tuple(blocks))
 
 
@@ -438,52 +577,91 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
     rows = []
     for i, ld in enumerate(p.loads):
         e = lr.per_load_wh[i][dm] if i < len(lr.per_load_wh) else 0.0
-        rows.append((_c(str(i + 1)), _c(ld.name), _c(str(ld.quantity)),
-                     _num(ld.power_w, 0 if ld.power_w >= 10 else 1), _num(ld.hours_per_day, 1),
-                     _num(ld.duty_cycle, 2), _c(ld.ac_dc.upper()),
-                     _c("yes" if ld.critical else "no"), _c(format_months(ld.months)),
-                     _num(e, 0, f"loads.per_load_wh.{i}.{dm}")))
-    blocks: list[Block] = [Table(
-        "loads", ("#", "Appliance", "Qty", "W", "h/day", "Duty", "Type", "Crit.", "Months",
-                  "Wh/day"), tuple(rows), ("r", "l", "r", "r", "r", "r", "l", "l", "l", "r"),
-        f"Energy per day at the appliance in the design month ({MONTHS[dm]}) = quantity x "
-        "power x hours per day x duty cycle.", wrap=(1,))]
+        rows.append(
+            (
+                _c(str(i + 1)),
+                _c(ld.name),
+                _c(str(ld.quantity)),
+                _num(ld.power_w, 0 if ld.power_w >= 10 else 1),
+                _num(ld.hours_per_day, 1),
+                _num(ld.duty_cycle, 2),
+                _c(ld.ac_dc.upper()),
+                _c("yes" if ld.critical else "no"),
+                _c(format_months(ld.months)),
+                _num(e, 0, f"loads.per_load_wh.{i}.{dm}"),
+            )
+        )
+    blocks: list[Block] = [
+        Table(
+            "loads",
+            ("#", "Appliance", "Qty", "W", "h/day", "Duty", "Type", "Crit.", "Months", "Wh/day"),
+            tuple(rows),
+            ("r", "l", "r", "r", "r", "r", "l", "l", "l", "r"),
+            f"Energy per day at the appliance in the design month ({MONTHS[dm]}) = quantity x "
+            "power x hours per day x duty cycle.",
+            wrap=(1,),
+        )
+    ]
 
     # energy by month
     mrows = []
     for i, ld in enumerate(p.loads):
-        mrows.append(_month_row(f"{i + 1} {ld.name}", lr.per_load_wh[i],
-                                f"loads.per_load_wh.{i}"))
+        mrows.append(_month_row(f"{i + 1} {ld.name}", lr.per_load_wh[i], f"loads.per_load_wh.{i}"))
     idle = list(lr.inverter_idle_by_month_wh)
-    growth = [b - (a + dc_ + l_ + i_) for b, a, dc_, l_, i_ in zip(
-        lr.daily_energy_wh, lr.ac_energy_wh, lr.dc_energy_wh, lr.inverter_loss_wh, idle,
-        strict=True)]
+    growth = [
+        b - (a + dc_ + l_ + i_)
+        for b, a, dc_, l_, i_ in zip(
+            lr.daily_energy_wh,
+            lr.ac_energy_wh,
+            lr.dc_energy_wh,
+            lr.inverter_loss_wh,
+            idle,
+            strict=True,
+        )
+    ]
     for label, vals, path in (
-            ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
-            ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
-            ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
-            ("Inverter idle", idle, "loads.inverter_idle_by_month_wh"),
-            (f"Growth {lr.growth_pct:g} %", growth, None),
-            ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh")):
+        ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
+        ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
+        ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
+        ("Inverter idle", idle, "loads.inverter_idle_by_month_wh"),
+        (f"Growth {lr.growth_pct:g} %", growth, None),
+        ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh"),
+    ):
         mrows.append(_month_row(label, vals, path))
-    blocks.append(Table("energy-by-month", ("Wh/day", *MONTHS), tuple(mrows),
-                        ("l",) + ("r",) * 12,
-                        "Daily energy by month, Wh/day: each appliance line at the appliance, "
-                        "then the totals up to the battery."))
+    blocks.append(
+        Table(
+            "energy-by-month",
+            ("Wh/day", *MONTHS),
+            tuple(mrows),
+            ("l",) + ("r",) * 12,
+            "Daily energy by month, Wh/day: each appliance line at the appliance, "
+            "then the totals up to the battery.",
+        )
+    )
     reason = d.reasons.get("loads.daily_energy_wh")
     if reason:
         blocks.append(Paragraph(f"Energy at the battery = {reason.formula}."))
-    blocks.append(Paragraph(
-        f"Connected AC power {lr.connected_ac_w:,.0f} W, at once {lr.peak_ac_w:,.0f} W "
-        f"(coincidence factor {lr.coincidence_factor:g}); connected DC power "
-        f"{lr.connected_dc_w:,.0f} W; "
-        + (f"largest starting power {lr.largest_surge_w:,.0f} W ({lr.largest_surge_load}, "
-           f"{lr.largest_surge_ac_dc.upper()})" if lr.largest_surge_load
-           else "no appliance has a starting power given")
-        + (f"; inverter starting need {lr.surge_need_w:,.0f} W ({lr.surge_need_load} starting "
-           "beside the other AC loads)" if lr.surge_need_load else "")
-        + ". Critical loads use "
-        f"{lr.critical_energy_wh[dm]:,.0f} Wh/day at the battery in {MONTHS[dm]}."))
+    blocks.append(
+        Paragraph(
+            f"Connected AC power {lr.connected_ac_w:,.0f} W, at once {lr.peak_ac_w:,.0f} W "
+            f"(coincidence factor {lr.coincidence_factor:g}); connected DC power "
+            f"{lr.connected_dc_w:,.0f} W; "
+            + (
+                f"largest starting power {lr.largest_surge_w:,.0f} W ({lr.largest_surge_load}, "
+                f"{lr.largest_surge_ac_dc.upper()})"
+                if lr.largest_surge_load
+                else "no appliance has a starting power given"
+            )
+            + (
+                f"; inverter starting need {lr.surge_need_w:,.0f} W ({lr.surge_need_load} starting "
+                "beside the other AC loads)"
+                if lr.surge_need_load
+                else ""
+            )
+            + ". Critical loads use "
+            f"{lr.critical_energy_wh[dm]:,.0f} Wh/day at the battery in {MONTHS[dm]}."
+        )
+    )
     return Section("loads", "Loads", tuple(blocks))
 
 
@@ -491,38 +669,72 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
     d = ri.design
     s, lr, a = d.site, d.loads, d.array
     dm = s.design_month - 1
-    blocks: list[Block] = [Paragraph(
-        f"Design month: {MONTHS[dm]}. Its supply, with that month's own derates (cell "
-        "temperature, PWM operating point ...), covers its demand least: "
-        f"{lr.design_daily_energy_wh:,.0f} Wh/day at the battery on "
-        f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day in the array plane. The array is sized for this "
-        "month, so every other month's supply covers its demand with more to spare.")]
-    rows = [_month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
-            _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day")]
+    blocks: list[Block] = [
+        Paragraph(
+            f"Design month: {MONTHS[dm]}. Its supply, with that month's own derates (cell "
+            "temperature, PWM operating point ...), covers its demand least: "
+            f"{lr.design_daily_energy_wh:,.0f} Wh/day at the battery on "
+            f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day in the array plane. The array is sized for "
+            "this "
+            "month, so every other month's supply covers its demand with more to spare."
+        )
+    ]
+    rows = [
+        _month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
+        _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day"),
+    ]
     harvests = []
-    for label, attr, values in (("MPPT harvest", "harvest_mppt_wh_day", a.harvest_mppt_wh_day),
-                                ("PWM harvest", "harvest_pwm_wh_day", a.harvest_pwm_wh_day)):
+    for label, attr, values in (
+        ("MPPT harvest", "harvest_mppt_wh_day", a.harvest_mppt_wh_day),
+        ("PWM harvest", "harvest_pwm_wh_day", a.harvest_pwm_wh_day),
+    ):
         if len(values) == 12:
             rows.append(_month_row(f"{label}, Wh/day", values, f"array.{attr}"))
             harvests.append((label, values))
     rows.append(_month_row("Demand/sun", s.demand_to_sun, "site.demand_to_sun"))
-    blocks.append(Table("supply-demand", ("", *MONTHS), tuple(rows), ("l",) + ("r",) * 12,
-                        "Demand and array supply at the battery (supply: the worst-month "
-                        "derate chain; harvest: from the I-V curves through the day, where "
-                        "computed); demand/sun in Wh per kWh/m2 of array-plane insolation."))
-    svg = charts.supply_demand_svg(lr.daily_energy_wh, a.supply_wh_day, s.design_month,
-                                   others=harvests) if ri.charts else ""
-    text = charts.text_bars(MONTHS, (("demand", "#", lr.daily_energy_wh),
-                                     ("supply", "=", a.supply_wh_day)), 78, "Wh/day")
-    blocks.append(Chart("supply-demand", "Supply and demand by month", svg, tuple(text),
-                        f"Daily demand at the battery (bars) and array supply (line); "
-                        f"{MONTHS[dm]} is the design month."))
+    blocks.append(
+        Table(
+            "supply-demand",
+            ("", *MONTHS),
+            tuple(rows),
+            ("l",) + ("r",) * 12,
+            "Demand and array supply at the battery (supply: the worst-month "
+            "derate chain; harvest: from the I-V curves through the day, where "
+            "computed); demand/sun in Wh per kWh/m2 of array-plane insolation.",
+        )
+    )
+    svg = (
+        charts.supply_demand_svg(
+            lr.daily_energy_wh, a.supply_wh_day, s.design_month, others=harvests
+        )
+        if ri.charts
+        else ""
+    )
+    text = charts.text_bars(
+        MONTHS,
+        (("demand", "#", lr.daily_energy_wh), ("supply", "=", a.supply_wh_day)),
+        78,
+        "Wh/day",
+    )
+    blocks.append(
+        Chart(
+            "supply-demand",
+            "Supply and demand by month",
+            svg,
+            tuple(text),
+            f"Daily demand at the battery (bars) and array supply (line); "
+            f"{MONTHS[dm]} is the design month.",
+        )
+    )
     surplus = [sup - dem for sup, dem in zip(a.supply_wh_day, lr.daily_energy_wh, strict=True)]
     low = int(np.argmin(surplus))
-    blocks.append(Paragraph(
-        f"Smallest margin: {MONTHS[low]}, supply {a.supply_wh_day[low]:,.0f} Wh/day for "
-        f"{lr.daily_energy_wh[low]:,.0f} Wh/day of demand "
-        f"({a.supply_wh_day[low] / lr.daily_energy_wh[low] - 1:+.0%})."))
+    blocks.append(
+        Paragraph(
+            f"Smallest margin: {MONTHS[low]}, supply {a.supply_wh_day[low]:,.0f} Wh/day for "
+            f"{lr.daily_energy_wh[low]:,.0f} Wh/day of demand "
+            f"({a.supply_wh_day[low] / lr.daily_energy_wh[low] - 1:+.0%})."
+        )
+    )
     blocks += _iv_blocks(ri)
     return Section("design-month", "Design month", tuple(blocks))
 
@@ -552,31 +764,65 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
     svg = charts.iv_pv_svg(v, i, (vm, im), operating, label) if ri.charts else ""
     text = [f"Maximum power point: {vm:.1f} V, {im:.2f} A, {vm * im:,.0f} W (one module)"]
     if operating:
-        text.append(f"{label}: {operating[0]:.1f} V, {operating[1]:.2f} A, "
-                    f"{operating[0] * operating[1]:,.0f} W (one module of {series} in series "
-                    f"at {float(v_chg):.1f} V)")
+        text.append(
+            f"{label}: {operating[0]:.1f} V, {operating[1]:.2f} A, "
+            f"{operating[0] * operating[1]:,.0f} W (one module of {series} in series "
+            f"at {float(v_chg):.1f} V)"
+        )
     month = MONTHS[d.site.design_month - 1]
-    blocks: list[Block] = [Chart(
-        "iv-curve", f"I-V and P-V curves of one module, {month} at noon", svg, tuple(text),
-        f"One module at {mpp.irradiance_w_m2:,.0f} W/m2 and {mpp.cell_temp_c:.1f} C cell "
-        "temperature (the design month's mean day at solar noon). A PWM controller holds the "
-        "array at battery voltage: the square marks that point.")]
-    rows = [(_c("Irradiance"), Cell(f"{mpp.irradiance_w_m2:,.0f} W/m2", float(
-                mpp.irradiance_w_m2), "mpp.irradiance_w_m2")),
-            (_c("Cell temperature"), Cell(f"{mpp.cell_temp_c:.1f} C", float(mpp.cell_temp_c),
-                                          "mpp.cell_temp_c")),
-            (_c("Vmp"), Cell(f"{vm:.2f} V", vm, "mpp.vmp_v")),
-            (_c("Imp"), Cell(f"{im:.2f} A", im, "mpp.imp_a")),
-            (_c("Pmp"), Cell(f"{mpp.pmp_w:,.1f} W", float(mpp.pmp_w), "mpp.pmp_w")),
-            (_c("Fill factor"), Cell(f"{mpp.fill_factor:.3f}", float(mpp.fill_factor),
-                                     "mpp.fill_factor"))]
+    blocks: list[Block] = [
+        Chart(
+            "iv-curve",
+            f"I-V and P-V curves of one module, {month} at noon",
+            svg,
+            tuple(text),
+            f"One module at {mpp.irradiance_w_m2:,.0f} W/m2 and {mpp.cell_temp_c:.1f} C cell "
+            "temperature (the design month's mean day at solar noon). A PWM controller holds the "
+            "array at battery voltage: the square marks that point.",
+        )
+    ]
+    rows = [
+        (
+            _c("Irradiance"),
+            Cell(
+                f"{mpp.irradiance_w_m2:,.0f} W/m2",
+                float(mpp.irradiance_w_m2),
+                "mpp.irradiance_w_m2",
+            ),
+        ),
+        (
+            _c("Cell temperature"),
+            Cell(f"{mpp.cell_temp_c:.1f} C", float(mpp.cell_temp_c), "mpp.cell_temp_c"),
+        ),
+        (_c("Vmp"), Cell(f"{vm:.2f} V", vm, "mpp.vmp_v")),
+        (_c("Imp"), Cell(f"{im:.2f} A", im, "mpp.imp_a")),
+        (_c("Pmp"), Cell(f"{mpp.pmp_w:,.1f} W", float(mpp.pmp_w), "mpp.pmp_w")),
+        (
+            _c("Fill factor"),
+            Cell(f"{mpp.fill_factor:.3f}", float(mpp.fill_factor), "mpp.fill_factor"),
+        ),
+    ]
     if operating:
-        rows.append((_c(f"{label}, power"), _c(f"{operating[0] * operating[1]:,.1f} W "
-                                               f"({operating[0] * operating[1] / mpp.pmp_w:.0%} "
-                                               "of Pmp)")))
-    rows.append((_c("PWM against MPPT per module, design month"), Cell(
-        f"{harvest.pwm_vs_mppt_pct:+.1f} %", float(harvest.pwm_vs_mppt_pct),
-        "electrical.harvest.pwm_vs_mppt_pct")))
+        rows.append(
+            (
+                _c(f"{label}, power"),
+                _c(
+                    f"{operating[0] * operating[1]:,.1f} W "
+                    f"({operating[0] * operating[1] / mpp.pmp_w:.0%} "
+                    "of Pmp)"
+                ),
+            )
+        )
+    rows.append(
+        (
+            _c("PWM against MPPT per module, design month"),
+            Cell(
+                f"{harvest.pwm_vs_mppt_pct:+.1f} %",
+                float(harvest.pwm_vs_mppt_pct),
+                "electrical.harvest.pwm_vs_mppt_pct",
+            ),
+        )
+    )
     blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))
     return blocks
 
@@ -590,10 +836,12 @@ def _figures(ri: ReportInputs, tree: dict) -> Section:
     groups: dict[str, list[str]] = {}
     for path in paths:
         groups.setdefault(path.split(".", 1)[0], []).append(path)
-    order = [g for g in GROUP_ORDER if g in groups] + sorted(g for g in groups
-                                                              if g not in GROUP_ORDER)
-    blocks: list[Block] = [Paragraph(
-        "Each figure with the formula it comes from, the inputs it used and its source.")]
+    order = [g for g in GROUP_ORDER if g in groups] + sorted(
+        g for g in groups if g not in GROUP_ORDER
+    )
+    blocks: list[Block] = [
+        Paragraph("Each figure with the formula it comes from, the inputs it used and its source.")
+    ]
     for g in order:
         if g == "wires":
             items = _wire_reason_items(d, groups[g])
@@ -616,8 +864,16 @@ def _figures(ri: ReportInputs, tree: dict) -> Section:
                     cell = figure_cell(value, where, unit_of(path) or unit_of(where))
             if reason is None:
                 reason = Reason("")
-            items.append(FigureItem(path, figure_label(d, path), cell, reason.formula,
-                                    reason.inputs, reason.source if reason.formula else ""))
+            items.append(
+                FigureItem(
+                    path,
+                    figure_label(d, path),
+                    cell,
+                    reason.formula,
+                    reason.inputs,
+                    reason.source if reason.formula else "",
+                )
+            )
         if items:
             blocks.append(Figures(tuple(items), GROUP_TITLES.get(g, g.capitalize())))
     return Section("figures", "Sized figures and their reasons", tuple(blocks))
@@ -635,15 +891,26 @@ def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
             continue
         key, name = parts[1], parts[2]
         grouped.setdefault((name, reason.formula, reason.source), []).append(
-            (runs.get(key, key), reason))
+            (runs.get(key, key), reason)
+        )
     items = []
     for (name, formula, source), entries in grouped.items():
-        inputs = tuple((run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
-                       for run, r in entries)
+        inputs = tuple(
+            (run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
+            for run, r in entries
+        )
         label = WIRE_FIELDS.get(name, name)
-        items.append(FigureItem(f"wires.*.{name}", f"{label[:1].upper()}{label[1:]} of each "
-                                "run", Cell("see the schedule"), formula, inputs, source,
-                                listed=True))
+        items.append(
+            FigureItem(
+                f"wires.*.{name}",
+                f"{label[:1].upper()}{label[1:]} of each run",
+                Cell("see the schedule"),
+                formula,
+                inputs,
+                source,
+                listed=True,
+            )
+        )
     return items
 
 
@@ -652,28 +919,36 @@ def _strings(ri: ReportInputs, tree: dict) -> Section:
     a, c, b = d.array, d.controller, d.battery
     m = p.module
     rows = [
-        (_c("Modules in series per string"), figure_cell(a.modules_series,
-                                                         "array.modules_series")),
+        (_c("Modules in series per string"), figure_cell(a.modules_series, "array.modules_series")),
         (_c("Strings in parallel"), figure_cell(a.modules_parallel, "array.modules_parallel")),
         (_c("Module Voc / Vmp at STC"), _c(f"{m.voc_v:g} V / {m.vmp_v:g} V")),
-        (_c(f"Module Voc at {d.site.record_low_c:.1f} C"), figure_cell(a.voc_cold_v,
-                                                                       "array.voc_cold_v")),
+        (
+            _c(f"Module Voc at {d.site.record_low_c:.1f} C"),
+            figure_cell(a.voc_cold_v, "array.voc_cold_v"),
+        ),
         (_c("String Voc, cold"), figure_cell(a.string_voc_cold_v, "array.string_voc_cold_v")),
-        (_c("Controller maximum PV voltage"), figure_cell(c.max_pv_voltage_v,
-                                                          "controller.max_pv_voltage_v")),
+        (
+            _c("Controller maximum PV voltage"),
+            figure_cell(c.max_pv_voltage_v, "controller.max_pv_voltage_v"),
+        ),
         (_c("Module Vmp, hot"), figure_cell(a.vmp_hot_v, "array.vmp_hot_v")),
         (_c("String Vmp, hot"), figure_cell(a.string_vmp_hot_v, "array.string_vmp_hot_v")),
-        (_c("Battery absorption voltage"), figure_cell(b.absorption_voltage_v,
-                                                       "battery.absorption_voltage_v")),
+        (
+            _c("Battery absorption voltage"),
+            figure_cell(b.absorption_voltage_v, "battery.absorption_voltage_v"),
+        ),
     ]
     blocks: list[Block] = [Table("strings", ("String", "Value"), tuple(rows), ("l", "r"))]
     ok_cold = a.string_voc_cold_v < c.max_pv_voltage_v
-    blocks.append(Paragraph(
-        f"The cold string open-circuit voltage ({a.string_voc_cold_v:.1f} V) is "
-        f"{'below' if ok_cold else 'ABOVE'} the controller's maximum "
-        f"({c.max_pv_voltage_v:g} V); the hot string maximum-power voltage "
-        f"({a.string_vmp_hot_v:.1f} V) is {'above' if a.string_vmp_hot_v > b.absorption_voltage_v else 'BELOW'} "  # noqa: E501
-        f"the battery's absorption voltage ({b.absorption_voltage_v:.1f} V)."))
+    blocks.append(
+        Paragraph(
+            f"The cold string open-circuit voltage ({a.string_voc_cold_v:.1f} V) is "
+            f"{'below' if ok_cold else 'ABOVE'} the controller's maximum "
+            f"({c.max_pv_voltage_v:g} V); the hot string maximum-power voltage "
+            f"({a.string_vmp_hot_v:.1f} V) is {'above' if a.string_vmp_hot_v > b.absorption_voltage_v else 'BELOW'} "  # noqa: E501
+            f"the battery's absorption voltage ({b.absorption_voltage_v:.1f} V)."
+        )
+    )
     reason = d.reasons.get("array.modules_series")
     if reason:
         blocks.append(Paragraph(f"Series count: {reason.formula}. Source: {reason.source}."))
@@ -687,8 +962,10 @@ def _strings(ri: ReportInputs, tree: dict) -> Section:
     if a.modules_parallel > shown:
         layout.append(f"... {a.modules_parallel} strings in parallel in all")
     per_ctrl = math.ceil(a.modules_parallel / c.count)
-    layout.append(f"{a.modules_parallel} string(s) into {c.count} controller(s), up to "
-                  f"{per_ctrl} per controller")
+    layout.append(
+        f"{a.modules_parallel} string(s) into {c.count} controller(s), up to "
+        f"{per_ctrl} per controller"
+    )
     blocks.append(Chart("string-layout", "String layout", "", tuple(layout)))
     return Section("strings", "String layout", tuple(blocks))
 
@@ -703,36 +980,57 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
         rows = []
         for k, w in enumerate(wires):
             fuse = w.fuse_a
-            rows.append((
-                _c(w.run),
-                Cell(str(w.count), float(w.count), f"wires.{k}.count"),
-                _num(float(w.current_a), 1, f"wires.{k}.current_a"),
-                _num(float(w.operating_current_a), 1, f"wires.{k}.drop_current_a"),
-                _num(float(w.length_m), 1, f"wires.{k}.length_m"),
-                _c(w.size + ("" if len(materials) == 1 else f" {w.material}")),
-                _num(float(w.drop_pct), 2, f"wires.{k}.drop_pct"),
-                _num(float(w.ampacity_a), 0, f"wires.{k}.ampacity_a"),
-                _c("-") if fuse is None else Cell(f"{float(fuse):g}", float(fuse),
-                                                  f"wires.{k}.fuse_a"),
-            ))
+            rows.append(
+                (
+                    _c(w.run),
+                    Cell(str(w.count), float(w.count), f"wires.{k}.count"),
+                    _num(float(w.current_a), 1, f"wires.{k}.current_a"),
+                    _num(float(w.operating_current_a), 1, f"wires.{k}.drop_current_a"),
+                    _num(float(w.length_m), 1, f"wires.{k}.length_m"),
+                    _c(w.size + ("" if len(materials) == 1 else f" {w.material}")),
+                    _num(float(w.drop_pct), 2, f"wires.{k}.drop_pct"),
+                    _num(float(w.ampacity_a), 0, f"wires.{k}.ampacity_a"),
+                    _c("-")
+                    if fuse is None
+                    else Cell(f"{float(fuse):g}", float(fuse), f"wires.{k}.fuse_a"),
+                )
+            )
         material = f"{materials.pop()} conductors; " if len(materials) == 1 else ""
-        blocks.append(Table(
-            "wiring", ("Run", "Runs", "Max A", "Drop A", "Length m", "Size", "Drop %",
-                       "Ampacity A", "Fuse A"), tuple(rows),
-            ("l", "r", "r", "r", "r", "l", "r", "r", "r"),
-            f"{material}max A: the circuit's maximum continuous current, for ampacity and the "
-            "fuse (NEC 690.8 for PV circuits); drop A: the operating current; length "
-            "one-way; drop = 2 x length x drop A x resistance per metre at conductor "
-            "temperature / circuit voltage; ampacity after the temperature and grouping "
-            "corrections.",
-            wrap=(0,)))
+        blocks.append(
+            Table(
+                "wiring",
+                (
+                    "Run",
+                    "Runs",
+                    "Max A",
+                    "Drop A",
+                    "Length m",
+                    "Size",
+                    "Drop %",
+                    "Ampacity A",
+                    "Fuse A",
+                ),
+                tuple(rows),
+                ("l", "r", "r", "r", "r", "l", "r", "r", "r"),
+                f"{material}max A: the circuit's maximum continuous current, for ampacity and the "
+                "fuse (NEC 690.8 for PV circuits); drop A: the operating current; length "
+                "one-way; drop = 2 x length x drop A x resistance per metre at conductor "
+                "temperature / circuit voltage; ampacity after the temperature and grouping "
+                "corrections.",
+                wrap=(0,),
+            )
+        )
     else:
-        blocks.append(Paragraph(
-            "The wiring schedule is not computed for this design: size each conductor for "
-            "ampacity (1.25 x 1.25 x Isc on PV circuits, NEC 690.8) and for the voltage-drop "
-            f"limits ({p.choices.drop_limit_array_pct:g} % array, "
-            f"{p.choices.drop_limit_battery_pct:g} % battery, {p.choices.drop_limit_load_pct:g} %"
-            " loads) before building."))
+        blocks.append(
+            Paragraph(
+                "The wiring schedule is not computed for this design: size each conductor for "
+                "ampacity (1.25 x 1.25 x Isc on PV circuits, NEC 690.8) and for the voltage-drop "
+                f"limits ({p.choices.drop_limit_array_pct:g} % array, "
+                f"{p.choices.drop_limit_battery_pct:g} % battery, "
+                f"{p.choices.drop_limit_load_pct:g} %"
+                " loads) before building."
+            )
+        )
     if devices:
         items = []
         for dev in devices:
@@ -762,24 +1060,45 @@ def _bom(ri: ReportInputs, bom: tuple[BomLine, ...], cost: LifecycleCost) -> Sec
     cur = cost.currency
     rows = []
     for n, (ln, cl) in enumerate(zip(bom, cost.lines, strict=True), start=1):
-        rows.append((_c(str(n)), _c(ln.description),
-                     Cell(f"{ln.quantity:g}", ln.quantity, ln.figure or None),
-                     _c(ln.unit), _c(money(cl.unit_price)), _c(money(cl.total))))
-    blocks: list[Block] = [Table(
-        "bom", ("#", "Part", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
-        tuple(rows), ("r", "l", "r", "l", "r", "r"),
-        "Quantities follow from the design; prices from the project's price list.",
-        wrap=(1,))]
-    blocks.append(Paragraph("Part keys (what the price list refers to) and how each quantity "
-                            "follows from the design:"))
-    blocks.append(Bullets(tuple(f"[{n}] {ln.key}: {ln.follows}"
-                                for n, ln in enumerate(bom, start=1))))
+        rows.append(
+            (
+                _c(str(n)),
+                _c(ln.description),
+                Cell(f"{ln.quantity:g}", ln.quantity, ln.figure or None),
+                _c(ln.unit),
+                _c(money(cl.unit_price)),
+                _c(money(cl.total)),
+            )
+        )
+    blocks: list[Block] = [
+        Table(
+            "bom",
+            ("#", "Part", "Qty", "Unit", f"Price {cur}", f"Total {cur}"),
+            tuple(rows),
+            ("r", "l", "r", "l", "r", "r"),
+            "Quantities follow from the design; prices from the project's price list.",
+            wrap=(1,),
+        )
+    ]
+    blocks.append(
+        Paragraph(
+            "Part keys (what the price list refers to) and how each quantity "
+            "follows from the design:"
+        )
+    )
+    blocks.append(
+        Bullets(tuple(f"[{n}] {ln.key}: {ln.follows}" for n, ln in enumerate(bom, start=1)))
+    )
     if cost.missing:
         blocks.append(Bullets((cost.message(),), "warning"))
     elif cost.capital is not None:
-        blocks.append(Paragraph(f"Parts {money(cost.parts, cur)}; installation "
-                                f"{money(cost.installation, cur)}; capital cost "
-                                f"{money(cost.capital, cur)}."))
+        blocks.append(
+            Paragraph(
+                f"Parts {money(cost.parts, cur)}; installation "
+                f"{money(cost.installation, cur)}; capital cost "
+                f"{money(cost.capital, cur)}."
+            )
+        )
     return Section("bom", "Bill of materials", tuple(blocks))
 
 
@@ -787,18 +1106,29 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
     e = cost.economics
     cur = cost.currency
     blocks: list[Block] = []
-    blocks.append(Paragraph(
-        f"Present-worth method over {e.life_years} years at a discount rate of "
-        f"{e.discount_rate_pct:g} % and price inflation of {e.inflation_pct:g} % a year "
-        "(Duffie & Beckman, Solar Engineering of Thermal Processes, 4th ed., ch. 11)."))
-    blocks.append(Bullets((
-        "PW(n) = ((1 + i) / (1 + d))^n: present worth of a payment n years ahead at today's "
-        "price",
-        "PWF(N, i, d) = 1/(d - i) x [1 - ((1 + i)/(1 + d))^N] (N/(1 + i) when i = d): present "
-        "worth of N yearly payments (eq. 11.5.1)",
-        "Lifecycle cost = capital + sum of replacements x PW(n) + yearly upkeep x PWF(N, i, d)",
-        "Cost per kWh delivered = lifecycle cost / (energy delivered per year x PWF(N, 0, d))",
-    )))
+    blocks.append(
+        Paragraph(
+            f"Present-worth method over {e.life_years} years at a discount rate of "
+            f"{e.discount_rate_pct:g} % and price inflation of {e.inflation_pct:g} % a year "
+            "(Duffie & Beckman, Solar Engineering of Thermal Processes, 4th ed., ch. 11)."
+        )
+    )
+    blocks.append(
+        Bullets(
+            (
+                "PW(n) = ((1 + i) / (1 + d))^n: present worth of a payment n years ahead at "
+                "today's "
+                "price",
+                "PWF(N, i, d) = 1/(d - i) x [1 - ((1 + i)/(1 + d))^N] (N/(1 + i) when i = d): "
+                "present "
+                "worth of N yearly payments (eq. 11.5.1)",
+                "Lifecycle cost = capital + sum of replacements x PW(n) + yearly upkeep x PWF(N, "
+                "i, d)",
+                "Cost per kWh delivered = lifecycle cost / (energy delivered per year x PWF(N, 0, "
+                "d))",
+            )
+        )
+    )
     rows = []
     lasting = []
     for n, cl in enumerate(cost.lines, start=1):
@@ -806,21 +1136,35 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
             lasting.append(f"{n}")
             continue
         when = ", ".join(f"{y:g}" for y in cl.replaced_at)
-        rows.append((_c(str(n)), _c(cl.key), _num(cl.life_years, 1), _c(when),
-                     _c(money(cl.replacement_pw))))
+        rows.append(
+            (_c(str(n)), _c(cl.key), _num(cl.life_years, 1), _c(when), _c(money(cl.replacement_pw)))
+        )
     if rows:
-        blocks.append(Table("replacements", ("#", "Part", "Life, years", "Replaced in year",
-                                             f"Present worth {cur}"), tuple(rows),
-                            ("r", "l", "r", "l", "r"),
-                            "Parts numbered as in the bill of materials.", wrap=(1, 3)))
+        blocks.append(
+            Table(
+                "replacements",
+                ("#", "Part", "Life, years", "Replaced in year", f"Present worth {cur}"),
+                tuple(rows),
+                ("r", "l", "r", "l", "r"),
+                "Parts numbered as in the bill of materials.",
+                wrap=(1, 3),
+            )
+        )
     if lasting:
-        blocks.append(Paragraph(
-            f"Not replaced within the {e.life_years} years (service life at least that long): "
-            f"parts {', '.join(lasting)} of the bill of materials."))
-    blocks.append(Paragraph(f"Battery life {cost.battery_life_years:g} years: "
-                            f"{cost.battery_life_source}."))
-    served = "" if cost.served_fraction >= 1 else (
-        f" x {cost.served_fraction:.3f} share of demand served (simulation)")
+        blocks.append(
+            Paragraph(
+                f"Not replaced within the {e.life_years} years (service life at least that long): "
+                f"parts {', '.join(lasting)} of the bill of materials."
+            )
+        )
+    blocks.append(
+        Paragraph(f"Battery life {cost.battery_life_years:g} years: {cost.battery_life_source}.")
+    )
+    served = (
+        ""
+        if cost.served_fraction >= 1
+        else (f" x {cost.served_fraction:.3f} share of demand served (simulation)")
+    )
     energy_row = (_c("Energy delivered per year"), _c(f"{cost.energy_kwh_year:,.0f} kWh"))
     if cost.missing:
         blocks.append(Table("lifecycle", ("Item", "Value"), (energy_row,), ("l", "r")))
@@ -828,23 +1172,37 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
         return Section("costs", "Costs over the project life", tuple(blocks))
     rows2 = [
         (_c("Capital cost"), Cell(money(cost.capital, cur), cost.capital, "costs.capital")),
-        (_c("Replacements, present worth"), Cell(money(cost.replacements_pw, cur),
-                                                 cost.replacements_pw, "costs.replacements_pw")),
-        (_c(f"Upkeep {money(cost.upkeep_yearly, cur)}/year x PWF {cost.pwf_upkeep:.3f}"),
-         Cell(money(cost.upkeep_pw, cur), cost.upkeep_pw, "costs.upkeep_pw")),
+        (
+            _c("Replacements, present worth"),
+            Cell(money(cost.replacements_pw, cur), cost.replacements_pw, "costs.replacements_pw"),
+        ),
+        (
+            _c(f"Upkeep {money(cost.upkeep_yearly, cur)}/year x PWF {cost.pwf_upkeep:.3f}"),
+            Cell(money(cost.upkeep_pw, cur), cost.upkeep_pw, "costs.upkeep_pw"),
+        ),
         (_c("Lifecycle cost"), Cell(money(cost.lcc, cur), cost.lcc, "costs.lcc")),
         energy_row,
-        (_c(f"Discounted energy (x PWF {cost.pwf_energy:.3f})"),
-         _c(f"{cost.energy_pw_kwh:,.0f} kWh")),
-        (_c("Cost per kWh delivered"), Cell(
-            "-" if cost.cost_per_kwh is None else f"{cost.cost_per_kwh:,.3f} {cur}/kWh",
-            cost.cost_per_kwh, "costs.cost_per_kwh")),
+        (
+            _c(f"Discounted energy (x PWF {cost.pwf_energy:.3f})"),
+            _c(f"{cost.energy_pw_kwh:,.0f} kWh"),
+        ),
+        (
+            _c("Cost per kWh delivered"),
+            Cell(
+                "-" if cost.cost_per_kwh is None else f"{cost.cost_per_kwh:,.3f} {cur}/kWh",
+                cost.cost_per_kwh,
+                "costs.cost_per_kwh",
+            ),
+        ),
     ]
     blocks.append(Table("lifecycle", ("Item", "Value"), tuple(rows2), ("l", "r"), wrap=(0,)))
-    blocks.append(Paragraph(
-        "Energy delivered = daily AC and DC energy at the appliances by month x days in the "
-        f"month{served}. Replacements are priced at today's part price raised by inflation, "
-        "without labour; no salvage value is credited."))
+    blocks.append(
+        Paragraph(
+            "Energy delivered = daily AC and DC energy at the appliances by month x days in the "
+            f"month{served}. Replacements are priced at today's part price raised by inflation, "
+            "without labour; no salvage value is credited."
+        )
+    )
     return Section("costs", "Costs over the project life", tuple(blocks))
 
 
@@ -888,11 +1246,14 @@ def _reliability(ri: ReportInputs) -> Section | None:
     blocks: list[Block] = []
     weather = study.weather or {}
     seed = rel.seed
-    blocks.append(Paragraph(
-        f"Energy balance of this design, {rel.mode} steps, over "
-        f"{rel.years} years of weather ({rel.measured_years} measured, the rest "
-        f"synthetic; seed {'random' if seed is None else seed}). Weather: "
-        f"{weather.get('source') or rel.weather_source}."))
+    blocks.append(
+        Paragraph(
+            f"Energy balance of this design, {rel.mode} steps, over "
+            f"{rel.years} years of weather ({rel.measured_years} measured, the rest "
+            f"synthetic; seed {'random' if seed is None else seed}). Weather: "
+            f"{weather.get('source') or rel.weather_source}."
+        )
+    )
     reasons = rel.reasons
     items = []
     for attr, label, scale, unit, digits in RELIABILITY_FIGURES:
@@ -905,31 +1266,61 @@ def _reliability(ri: ReportInputs) -> Section | None:
         else:
             text = f"{shown:,.{digits}f} {unit}".strip()
         r = reasons.get(attr)
-        items.append(FigureItem(f"reliability.{attr}", label, Cell(text, float(shown),
-                                                                 f"reliability.{attr}"),
-                                r.formula if r else "", r.inputs if r else (),
-                                r.source if r else ""))
+        items.append(
+            FigureItem(
+                f"reliability.{attr}",
+                label,
+                Cell(text, float(shown), f"reliability.{attr}"),
+                r.formula if r else "",
+                r.inputs if r else (),
+                r.source if r else "",
+            )
+        )
     if items:
         blocks.append(Figures(tuple(items), "Reliability figures"))
     months = rel.months
     if len(months) == 12:
-        rows = [_month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
-                _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
-                _month_row("SoC p50 %", [100 * m.soc_min_p50 for m in months], None),
-                _month_row("SoC p95 %", [100 * m.soc_min_p95 for m in months], None)]
-        blocks.append(Table("reliability-months", ("", *MONTHS), tuple(rows),
-                            ("l",) + ("r",) * 12,
-                            "By month: share of days with shedding, and the 5th, 50th and 95th "
-                            "percentiles of the day's lowest state of charge."))
+        rows = [
+            _month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
+            _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
+            _month_row("SoC p50 %", [100 * m.soc_min_p50 for m in months], None),
+            _month_row("SoC p95 %", [100 * m.soc_min_p95 for m in months], None),
+        ]
+        blocks.append(
+            Table(
+                "reliability-months",
+                ("", *MONTHS),
+                tuple(rows),
+                ("l",) + ("r",) * 12,
+                "By month: share of days with shedding, and the 5th, 50th and 95th "
+                "percentiles of the day's lowest state of charge.",
+            )
+        )
         worst = rel.worst_year_soc_min
-        svg = charts.soc_by_month_svg(
-            [m.soc_min_p5 for m in months], [m.soc_min_p50 for m in months],
-            [m.soc_min_p95 for m in months], worst, ri.design.battery.max_dod) if ri.charts else ""
-        text = charts.text_bars(MONTHS, (("p5", "#", [100 * m.soc_min_p5 for m in months]),),
-                                78, "% lowest SoC")
-        blocks.append(Chart("soc", "State of charge through the year", svg, tuple(text),
-                            "Lowest state of charge of the day: 5th to 95th percentile by month "
-                            "(band), median (line) and the year with the most shedding (thin)."))
+        svg = (
+            charts.soc_by_month_svg(
+                [m.soc_min_p5 for m in months],
+                [m.soc_min_p50 for m in months],
+                [m.soc_min_p95 for m in months],
+                worst,
+                ri.design.battery.max_dod,
+            )
+            if ri.charts
+            else ""
+        )
+        text = charts.text_bars(
+            MONTHS, (("p5", "#", [100 * m.soc_min_p5 for m in months]),), 78, "% lowest SoC"
+        )
+        blocks.append(
+            Chart(
+                "soc",
+                "State of charge through the year",
+                svg,
+                tuple(text),
+                "Lowest state of charge of the day: 5th to 95th percentile by month "
+                "(band), median (line) and the year with the most shedding (thin).",
+            )
+        )
     tr = study.tradeoff
     if tr is not None:
         blocks += _tradeoff_blocks(ri, tr)
@@ -947,35 +1338,67 @@ def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
     for t in tr.targets:
         pts = [p for p in t.points]
         if pts:
-            curves.append((f"LOLP {t.target:.2%}".replace(".00%", "%"),
-                           [p.capacity_wh / 1000 for p in pts], [p.array_w / 1000 for p in pts]))
+            curves.append(
+                (
+                    f"LOLP {t.target:.2%}".replace(".00%", "%"),
+                    [p.capacity_wh / 1000 for p in pts],
+                    [p.array_w / 1000 for p in pts],
+                )
+            )
         need = t.design_capacity_needed_wh
         cheapest = "-"
         if t.cheapest is not None:
-            cheapest = (f"{t.cheapest.array_w:,.0f} W, {t.cheapest.capacity_wh / 1000:,.1f} kWh")
+            cheapest = f"{t.cheapest.array_w:,.0f} W, {t.cheapest.capacity_wh / 1000:,.1f} kWh"
             if t.cheapest_cost is not None:
                 cheapest += f" ({t.cheapest_cost:,.0f} {ri.project.economics.currency})"
-        rows.append((_c(f"{t.target:.3%}"), _c("yes" if t.design_meets else "no"),
-                     _c("-" if need is None else f"{need / 1000:,.1f} kWh"), _c(cheapest)))
+        rows.append(
+            (
+                _c(f"{t.target:.3%}"),
+                _c("yes" if t.design_meets else "no"),
+                _c("-" if need is None else f"{need / 1000:,.1f} kWh"),
+                _c(cheapest),
+            )
+        )
         if t.message:
             messages.append(f"LOLP {t.target:.3%}: {t.message}")
     svg = ""
     if ri.charts and curves:
-        svg = charts.tradeoff_svg(curves, (tr.design_capacity_wh / 1000, tr.design_array_w / 1000),
-                                  "battery capacity (kWh)", "array power (kW)")
-    blocks.append(Chart("tradeoff", "Array and battery for a target LOLP", svg,
-                        tuple(f"{c[0]}: " + ", ".join(f"{x:.1f} kWh/{y:.2f} kW" for x, y in
-                                                      list(zip(c[1], c[2], strict=True))[:4])
-                              + (" ..." if len(c[1]) > 4 else "") for c in curves),
-                        "Each line joins the array and battery sizes that just meet a target "
-                        "loss-of-load probability; the star is this design "
-                        f"(LOLP {tr.design_lolp:.3%})."))
-    blocks.append(Table("tradeoff", ("Target LOLP", "Met", "Battery needed", "Cheapest point"),
-                        tuple(rows), ("r", "l", "r", "l"),
-                        "Met: this design meets the target. Battery needed: on the curve at this "
-                        "design's array size. Cheapest point: array and battery alone, priced "
-                        "per W of module and per kWh of battery unit from the price list.",
-                        wrap=(3,)))
+        svg = charts.tradeoff_svg(
+            curves,
+            (tr.design_capacity_wh / 1000, tr.design_array_w / 1000),
+            "battery capacity (kWh)",
+            "array power (kW)",
+        )
+    blocks.append(
+        Chart(
+            "tradeoff",
+            "Array and battery for a target LOLP",
+            svg,
+            tuple(
+                f"{c[0]}: "
+                + ", ".join(
+                    f"{x:.1f} kWh/{y:.2f} kW" for x, y in list(zip(c[1], c[2], strict=True))[:4]
+                )
+                + (" ..." if len(c[1]) > 4 else "")
+                for c in curves
+            ),
+            "Each line joins the array and battery sizes that just meet a target "
+            "loss-of-load probability; the star is this design "
+            f"(LOLP {tr.design_lolp:.3%}).",
+        )
+    )
+    blocks.append(
+        Table(
+            "tradeoff",
+            ("Target LOLP", "Met", "Battery needed", "Cheapest point"),
+            tuple(rows),
+            ("r", "l", "r", "l"),
+            "Met: this design meets the target. Battery needed: on the curve at this "
+            "design's array size. Cheapest point: array and battery alone, priced "
+            "per W of module and per kWh of battery unit from the price list.",
+            wrap=(3,),
+        )
+    )
     if messages:
         blocks.append(Bullets(tuple(messages)))
     return blocks
@@ -989,13 +1412,21 @@ def _variants(ri: ReportInputs) -> Section | None:
     rows = []
     for r in cmp.rows:
         label = f"{r.label} ({r.unit})" if r.unit else r.label
-        cells = [Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None,
-                      None, dif) for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)]
+        cells = [
+            Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None, None, dif)
+            for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)
+        ]
         rows.append((_c(label), *cells))
-    blocks: list[Block] = [Table("variants", ("", *names), tuple(rows),
-                                 ("l",) + ("r",) * len(names),
-                                 "* differs from the base design.",
-                                 wrap=tuple(range(len(names) + 1)))]
+    blocks: list[Block] = [
+        Table(
+            "variants",
+            ("", *names),
+            tuple(rows),
+            ("l",) + ("r",) * len(names),
+            "* differs from the base design.",
+            wrap=tuple(range(len(names) + 1)),
+        )
+    ]
     notes = []
     for col in cmp.columns[1:]:
         changes = "; ".join(f"{p} = {v}" for p, v in col.overrides) or "no change"
@@ -1030,8 +1461,15 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
     dm = d.site.design_month - 1
     rows = [(_c(name), _num(v, 3, f"array.derates.{name}")) for name, v in a.derates.items()]
     rows.append((_c("together"), _num(a.derate_total, 3, "array.derate_total")))
-    blocks: list[Block] = [Table("derates", ("Derate (fraction kept)", MONTHS[dm]), tuple(rows),
-                                 ("l", "r"), f"In the design month ({MONTHS[dm]}).")]
+    blocks: list[Block] = [
+        Table(
+            "derates",
+            ("Derate (fraction kept)", MONTHS[dm]),
+            tuple(rows),
+            ("l", "r"),
+            f"In the design month ({MONTHS[dm]}).",
+        )
+    ]
     ch = p.choices
     b, m, cs, inv = p.battery, p.module, p.controller, p.inverter
     items = [
@@ -1043,37 +1481,74 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
         ("Battery temperature factor", f"{d.battery.temp_factor:.3f}"),
         ("System voltage", f"{ch.system_voltage}"),
         ("Minimum tilt", f"{ch.min_tilt_deg:g} deg"),
-        ("Voltage-drop limits", f"array {ch.drop_limit_array_pct:g} %, battery "
-                                f"{ch.drop_limit_battery_pct:g} %, loads "
-                                f"{ch.drop_limit_load_pct:g} %"),
-        ("PV module", f"{m.name}: {m.pmax_w:g} W, Vmp {m.vmp_v:g} V, Imp {m.imp_a:g} A, Voc "
-                      f"{m.voc_v:g} V, Isc {m.isc_a:g} A, gamma {m.gamma_pmax_pct_per_c:g} %/C, "
-                      f"beta {m.beta_voc_pct_per_c:g} %/C, NOCT {m.noct_c:g} C"),
-        ("Battery unit", f"{b.name}: {b.chemistry}, {b.nominal_voltage_v:g} V, "
-                         f"{b.capacity_ah:g} Ah, round trip {b.efficiency:.0%}"),
-        ("Charge controller", f"{cs.type.upper()}, up to {cs.max_pv_voltage_v:g} V PV, "
-                              f"efficiency {cs.efficiency:.0%}"),
-        ("Inverter", f"efficiency {inv.efficiency:.0%}, idle {inv.self_consumption_w:g} W for "
-                     f"{inv.hours_on_per_day:g} h/day"),
+        (
+            "Voltage-drop limits",
+            f"array {ch.drop_limit_array_pct:g} %, battery "
+            f"{ch.drop_limit_battery_pct:g} %, loads "
+            f"{ch.drop_limit_load_pct:g} %",
+        ),
+        (
+            "PV module",
+            f"{m.name}: {m.pmax_w:g} W, Vmp {m.vmp_v:g} V, Imp {m.imp_a:g} A, Voc "
+            f"{m.voc_v:g} V, Isc {m.isc_a:g} A, gamma {m.gamma_pmax_pct_per_c:g} %/C, "
+            f"beta {m.beta_voc_pct_per_c:g} %/C, NOCT {m.noct_c:g} C",
+        ),
+        (
+            "Battery unit",
+            f"{b.name}: {b.chemistry}, {b.nominal_voltage_v:g} V, "
+            f"{b.capacity_ah:g} Ah, round trip {b.efficiency:.0%}",
+        ),
+        (
+            "Charge controller",
+            f"{cs.type.upper()}, up to {cs.max_pv_voltage_v:g} V PV, "
+            f"efficiency {cs.efficiency:.0%}",
+        ),
+        (
+            "Inverter",
+            f"efficiency {inv.efficiency:.0%}, idle {inv.self_consumption_w:g} W for "
+            f"{inv.hours_on_per_day:g} h/day",
+        ),
         ("Albedo", _albedo_text(p.site.albedo)),
     ]
     w = p.wiring
-    ambient = ("the site's hottest monthly mean" if w.ambient_temp_c is None
-               else f"{w.ambient_temp_c:g} C")
-    items.append(("Cables", f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
-                            f"{w.insulation_temp_c} C insulation, resistance at "
-                            f"{w.conductor_temp_c:g} C, ampacity at {ambient}"))
-    items.append(("Cable runs, one-way", f"string {w.string_run_m:g} m, array "
-                                         f"{w.array_run_m:g} m, controller to battery "
-                                         f"{w.controller_battery_m:g} m, battery to "
-                                         f"inverter {w.battery_inverter_m:g} m, DC loads "
-                                         f"{w.dc_load_run_m:g} m unless set per load"))
-    blocks.append(Table("assumptions", ("Assumption", "Value"),
-                        tuple((_c(k), _c(v)) for k, v in items), ("l", "l"), wrap=(1,)))
-    blocks.append(Paragraph("Figures marked 'common practice, no source' follow the usual rule "
-                            "of the trade; 'confirm against ...' marks a value not yet checked "
-                            "against its published source: check it there before relying on "
-                            "it."))
+    ambient = (
+        "the site's hottest monthly mean" if w.ambient_temp_c is None else f"{w.ambient_temp_c:g} C"
+    )
+    items.append(
+        (
+            "Cables",
+            f"{w.material}, {'AWG' if w.units == 'awg' else 'mm2'} sizes, "
+            f"{w.insulation_temp_c} C insulation, resistance at "
+            f"{w.conductor_temp_c:g} C, ampacity at {ambient}",
+        )
+    )
+    items.append(
+        (
+            "Cable runs, one-way",
+            f"string {w.string_run_m:g} m, array "
+            f"{w.array_run_m:g} m, controller to battery "
+            f"{w.controller_battery_m:g} m, battery to "
+            f"inverter {w.battery_inverter_m:g} m, DC loads "
+            f"{w.dc_load_run_m:g} m unless set per load",
+        )
+    )
+    blocks.append(
+        Table(
+            "assumptions",
+            ("Assumption", "Value"),
+            tuple((_c(k), _c(v)) for k, v in items),
+            ("l", "l"),
+            wrap=(1,),
+        )
+    )
+    blocks.append(
+        Paragraph(
+            "Figures marked 'common practice, no source' follow the usual rule "
+            "of the trade; 'confirm against ...' marks a value not yet checked "
+            "against its published source: check it there before relying on "
+            "it."
+        )
+    )
     return Section("assumptions", "Assumptions and derates", tuple(blocks))
 
 

@@ -25,9 +25,14 @@ def _visible_text(obj: object, names: tuple[str, ...]) -> None:
         if isinstance(value, str):
             new: object = printable(value)
         elif isinstance(value, tuple):
-            new = tuple(printable(v) if isinstance(v, str) else
-                        tuple(printable(x) for x in v) if isinstance(v, tuple) else v
-                        for v in value)
+            new = tuple(
+                printable(v)
+                if isinstance(v, str)
+                else tuple(printable(x) for x in v)
+                if isinstance(v, tuple)
+                else v
+                for v in value
+            )
         else:
             continue
         object.__setattr__(obj, f.name, new)

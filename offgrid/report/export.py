@@ -32,11 +32,12 @@ def path_problem(path: Path) -> str | None:
     if path.is_dir():
         return f"{path} is a folder; give a file name"
     if folder.exists() and not folder.is_dir():
-        return (f"cannot write {path}: {folder} is a file, not a folder; choose another "
-                "path")
+        return f"cannot write {path}: {folder} is a file, not a folder; choose another path"
     if not folder.is_dir():
-        return (f"cannot write {path}: the folder {folder} does not exist; create it or "
-                "choose another path")
+        return (
+            f"cannot write {path}: the folder {folder} does not exist; create it or "
+            "choose another path"
+        )
     if not os.access(folder, os.W_OK | os.X_OK):
         return f"cannot write {path}: no permission to write in {folder}; choose another folder"
     return None
@@ -61,12 +62,15 @@ def is_project_file(path: str | os.PathLike) -> bool:
             head = fh.read(PROJECT_SNIFF_BYTES).decode("utf-8", errors="replace")
     except OSError:
         return False
-    return re.search(r"(?m)^\s*format\s*=\s*[\"']" + re.escape(FORMAT_NAME) + r"[\"']",
-                     head) is not None
+    return (
+        re.search(r"(?m)^\s*format\s*=\s*[\"']" + re.escape(FORMAT_NAME) + r"[\"']", head)
+        is not None
+    )
 
 
-def overwrite_refusal(path: str | os.PathLike, reading: str | os.PathLike | None = None
-                      ) -> str | None:
+def overwrite_refusal(
+    path: str | os.PathLike, reading: str | os.PathLike | None = None
+) -> str | None:
     """Why an output must never be written to ``path``, even when forced: it is the project
     being read (``reading``), or any offgrid project file. None when it may be written."""
     p = Path(path)
@@ -78,8 +82,10 @@ def overwrite_refusal(path: str | os.PathLike, reading: str | os.PathLike | None
             same = os.path.samefile(p, reading)
     if same or is_project_file(p):
         which = "the project being read" if same else "an offgrid project file"
-        return (f"{p} is {which}: no output is ever written over a project, even when "
-                "forced (--force, or a yes to replace it); choose another file name")
+        return (
+            f"{p} is {which}: no output is ever written over a project, even when "
+            "forced (--force, or a yes to replace it); choose another file name"
+        )
     return None
 
 
@@ -94,8 +100,9 @@ def write_file(path: Path, text: str, reading: str | os.PathLike | None = None) 
     try:
         atomic_write_text(path, text, backup=False)
     except OSError as exc:
-        raise ExportError(f"cannot write {path}: {exc.strerror or exc}; nothing was written") \
-            from exc
+        raise ExportError(
+            f"cannot write {path}: {exc.strerror or exc}; nothing was written"
+        ) from exc
     return path
 
 
@@ -118,10 +125,20 @@ def format_for(path: Path, fmt: str | None = None) -> str:
     return SUFFIXES.get(path.suffix.lower(), "html")
 
 
-def export_report(project: Project, path: str | os.PathLike, base: Path | None = None, *,
-                  fmt: str | None = None, force: bool = False, simulate: bool = False,
-                  years: int = 30, seed: int | None = 1, reliability: Any = None,
-                  design=None, reading: str | os.PathLike | None = None) -> Path:
+def export_report(
+    project: Project,
+    path: str | os.PathLike,
+    base: Path | None = None,
+    *,
+    fmt: str | None = None,
+    force: bool = False,
+    simulate: bool = False,
+    years: int = 30,
+    seed: int | None = 1,
+    reliability: Any = None,
+    design=None,
+    reading: str | os.PathLike | None = None,
+) -> Path:
     """Design ``project`` and write its report to ``path``; returns the path written.
 
     ``reading``: the project file it came from, never overwritten (nor any project)."""
@@ -132,8 +149,16 @@ def export_report(project: Project, path: str | os.PathLike, base: Path | None =
     kind = format_for(target, fmt)
     _check(target, force, reading)
     try:
-        text = make_report(project, base, kind, design=design, simulate=simulate, years=years,
-                           seed=seed, reliability=reliability)
+        text = make_report(
+            project,
+            base,
+            kind,
+            design=design,
+            simulate=simulate,
+            years=years,
+            seed=seed,
+            reliability=reliability,
+        )
     except DesignError as exc:
         raise ExportError(f"cannot design: {exc}; no report was written") from exc
     except ValueError as exc:
@@ -155,9 +180,15 @@ def bom_text(project: Project, design) -> str:
     return bom_csv(lines, prices, project.economics.currency)
 
 
-def export_bom(project: Project, path: str | os.PathLike, base: Path | None = None, *,
-               force: bool = False, design=None,
-               reading: str | os.PathLike | None = None) -> Path:
+def export_bom(
+    project: Project,
+    path: str | os.PathLike,
+    base: Path | None = None,
+    *,
+    force: bool = False,
+    design=None,
+    reading: str | os.PathLike | None = None,
+) -> Path:
     """Design ``project`` and write its bill of materials (CSV) to ``path``."""
     from offgrid.result import DesignError
     from offgrid.sizing import design as run_design

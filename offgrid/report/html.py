@@ -100,15 +100,18 @@ def _td(cell: Cell, align: str, header: bool = False) -> str:
 
 def _table(t: Table) -> str:
     num = ' class="num"'
-    head = "".join(f'<th{num if t.alignment(i) == "r" else ""} scope="col">{_e(c)}</th>'
-                   for i, c in enumerate(t.columns))
+    head = "".join(
+        f'<th{num if t.alignment(i) == "r" else ""} scope="col">{_e(c)}</th>'
+        for i, c in enumerate(t.columns)
+    )
     body = []
     for row in t.rows:
-        body.append("<tr>" + "".join(_td(c, t.alignment(i)) for i, c in enumerate(row))
-                    + "</tr>")
+        body.append("<tr>" + "".join(_td(c, t.alignment(i)) for i, c in enumerate(row)) + "</tr>")
     cap = f"<caption>{_e(t.caption)}</caption>" if t.caption else ""
-    return (f'<div class="scroll"><table id="t-{_e(t.key)}">{cap}<thead><tr>{head}</tr></thead>'
-            f"<tbody>{''.join(body)}</tbody></table></div>")
+    return (
+        f'<div class="scroll"><table id="t-{_e(t.key)}">{cap}<thead><tr>{head}</tr></thead>'
+        f"<tbody>{''.join(body)}</tbody></table></div>"
+    )
 
 
 def _figures(f: Figures) -> str:
@@ -121,20 +124,27 @@ def _figures(f: Figures) -> str:
         if item.formula:
             how.append(f"= {_e(item.formula)}")
         if item.inputs and item.listed:
-            how.append("<b>Inputs:</b><br>" + "<br>".join(f"{_e(k)}: {_e(v)}"
-                                                          for k, v in item.inputs))
+            how.append(
+                "<b>Inputs:</b><br>" + "<br>".join(f"{_e(k)}: {_e(v)}" for k, v in item.inputs)
+            )
         elif item.inputs:
-            how.append("<b>Inputs:</b> " + "; ".join(
-                f"{_e(k.replace('_', ' '))} {_e(v)}" for k, v in item.inputs))
+            how.append(
+                "<b>Inputs:</b> "
+                + "; ".join(f"{_e(k.replace('_', ' '))} {_e(v)}" for k, v in item.inputs)
+            )
         if item.source:
             how.append(f"<b>Source:</b> {_e(item.source)}")
         path = f' data-path="{_e(item.cell.path)}"' if item.cell.path else ""
-        rows.append(f'<tr><th scope="row">{_e(item.label)}</th>'
-                    f'<td class="val"{path}>{_e(item.cell.text)}</td>'
-                    f'<td class="how">{"<br>".join(how)}</td></tr>')
-    out.append('<div class="scroll"><table class="figs"><thead><tr><th scope="col">Figure</th>'
-               '<th class="num" scope="col">Value</th><th scope="col">How it follows</th></tr>'
-               f"</thead><tbody>{''.join(rows)}</tbody></table></div>")
+        rows.append(
+            f'<tr><th scope="row">{_e(item.label)}</th>'
+            f'<td class="val"{path}>{_e(item.cell.text)}</td>'
+            f'<td class="how">{"<br>".join(how)}</td></tr>'
+        )
+    out.append(
+        '<div class="scroll"><table class="figs"><thead><tr><th scope="col">Figure</th>'
+        '<th class="num" scope="col">Value</th><th scope="col">How it follows</th></tr>'
+        f"</thead><tbody>{''.join(rows)}</tbody></table></div>"
+    )
     return "".join(out)
 
 
@@ -148,11 +158,21 @@ def _chart(c: Chart) -> str:
 
 def render_html(report: Report) -> str:
     """The report as one self-contained HTML5 document."""
-    parts = ["<!DOCTYPE html>", '<html lang="en">', "<head>", '<meta charset="utf-8">',
-             '<meta name="viewport" content="width=device-width, initial-scale=1">',
-             f"<title>{_e(report.title)}: design report</title>", f"<style>{CSS}</style>",
-             "</head>", "<body>", "<main>", "<header>", f"<h1>{_e(report.title)}</h1>",
-             f'<p class="subtitle">{_e(report.subtitle)}</p>']
+    parts = [
+        "<!DOCTYPE html>",
+        '<html lang="en">',
+        "<head>",
+        '<meta charset="utf-8">',
+        '<meta name="viewport" content="width=device-width, initial-scale=1">',
+        f"<title>{_e(report.title)}: design report</title>",
+        f"<style>{CSS}</style>",
+        "</head>",
+        "<body>",
+        "<main>",
+        "<header>",
+        f"<h1>{_e(report.title)}</h1>",
+        f'<p class="subtitle">{_e(report.subtitle)}</p>',
+    ]
     if report.demo:
         parts.append('<p class="demo">Demonstration data (invented scenario)</p>')
     for k, v in report.meta:
@@ -169,8 +189,9 @@ def render_html(report: Report) -> str:
                 parts.append(f"<p>{_e(block.text)}</p>")
             elif isinstance(block, Bullets):
                 cls = f' class="{block.kind}"' if block.kind != "plain" else ""
-                parts.append(f"<ul{cls}>" + "".join(f"<li>{_e(i)}</li>" for i in block.items)
-                             + "</ul>")
+                parts.append(
+                    f"<ul{cls}>" + "".join(f"<li>{_e(i)}</li>" for i in block.items) + "</ul>"
+                )
             elif isinstance(block, Table):
                 parts.append(_table(block))
             elif isinstance(block, Figures):
@@ -178,7 +199,9 @@ def render_html(report: Report) -> str:
             elif isinstance(block, Chart):
                 parts.append(_chart(block))
         parts.append("</section>")
-    parts.append("<footer>Made with offgrid. This design defers to local electrical codes and "
-                 "licensed practice.</footer>")
+    parts.append(
+        "<footer>Made with offgrid. This design defers to local electrical codes and "
+        "licensed practice.</footer>"
+    )
     parts += ["</main>", "</body>", "</html>", ""]
     return "\n".join(parts)

@@ -8,8 +8,11 @@ from offgrid.safetext import markdown_text as _esc
 
 def _table(t: Table) -> list[str]:
     head = "| " + " | ".join(_esc(c) or " " for c in t.columns) + " |"
-    rule = "|" + "|".join("---:" if t.alignment(i) == "r" else ":---"
-                          for i in range(len(t.columns))) + "|"
+    rule = (
+        "|"
+        + "|".join("---:" if t.alignment(i) == "r" else ":---" for i in range(len(t.columns)))
+        + "|"
+    )
     rows = []
     for row in t.rows:
         cells = []
@@ -35,8 +38,10 @@ def _figures(f: Figures) -> list[str]:
             lines.append("  Inputs:")
             lines += [f"  {_esc(k)}: {_esc(v)}" for k, v in item.inputs]
         elif item.inputs:
-            lines.append("  Inputs: " + "; ".join(f"{_esc(k.replace('_', ' '))} {_esc(v)}"
-                                                   for k, v in item.inputs))
+            lines.append(
+                "  Inputs: "
+                + "; ".join(f"{_esc(k.replace('_', ' '))} {_esc(v)}" for k, v in item.inputs)
+            )
         if item.source:
             lines.append(f"  Source: {_esc(item.source)}")
         # a backslash at the end of a line is a hard line break (CommonMark 6.7)
@@ -59,8 +64,9 @@ def render_markdown(report: Report) -> str:
             if isinstance(block, Paragraph):
                 out.append(_esc(block.text))
             elif isinstance(block, Bullets):
-                lead = {"plain": "- ", "caution": "- **Caution:** ",
-                        "warning": "- **Warning:** "}[block.kind]
+                lead = {"plain": "- ", "caution": "- **Caution:** ", "warning": "- **Warning:** "}[
+                    block.kind
+                ]
                 out += [lead + _esc(item) for item in block.items]
             elif isinstance(block, Table):
                 out += _table(block)

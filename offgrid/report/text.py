@@ -19,8 +19,9 @@ GAP = 2  # spaces between table columns
 
 def _wrap(text: str, width: int = WIDTH, lead: str = "", rest: str | None = None) -> list[str]:
     rest = lead if rest is None else rest
-    return textwrap.wrap(text, width, initial_indent=lead, subsequent_indent=rest,
-                         break_on_hyphens=False) or [lead.rstrip()]
+    return textwrap.wrap(
+        text, width, initial_indent=lead, subsequent_indent=rest, break_on_hyphens=False
+    ) or [lead.rstrip()]
 
 
 def _widths(table: Table, cols: list[int]) -> list[int]:
@@ -41,8 +42,7 @@ def _render_rows(table: Table, cols: list[int], widths: list[int]) -> list[str]:
             parts.append(text.rjust(w) if table.alignment(c) == "r" else text.ljust(w))
         return (" " * GAP).join(parts).rstrip()
 
-    out = [line([table.columns[c] for c in cols]),
-           (" " * GAP).join("-" * w for w in widths)]
+    out = [line([table.columns[c] for c in cols]), (" " * GAP).join("-" * w for w in widths)]
     for row in table.rows:
         wrapped = []
         for k, c in enumerate(cols):
@@ -64,7 +64,7 @@ def _column_groups(table: Table, widths: list[int], width: int):
     rest = list(range(1, len(widths)))
     for n in range(2, len(rest) + 1):
         size = -(-len(rest) // n)
-        groups = [rest[k:k + size] for k in range(0, len(rest), size)]
+        groups = [rest[k : k + size] for k in range(0, len(rest), size)]
         need = max(sum(widths[c] for c in g) + GAP * len(g) for g in groups)
         first = min(widths[0], width - need)
         if first >= min(12, widths[0]):
@@ -119,9 +119,11 @@ def _figure_lines(fig: Figures) -> list[str]:
             for k, v in item.inputs:
                 lines += _wrap(f"{k}: {v}", lead="      ", rest="        ")
         elif item.inputs:
-            lines += _wrap("inputs: " + "; ".join(f"{k.replace('_', ' ')} {v}"
-                                                  for k, v in item.inputs),
-                           lead="    ", rest="      ")
+            lines += _wrap(
+                "inputs: " + "; ".join(f"{k.replace('_', ' ')} {v}" for k, v in item.inputs),
+                lead="    ",
+                rest="      ",
+            )
         if item.source:
             lines += _wrap(f"source: {item.source}", lead="    ", rest="      ")
     return lines

@@ -45,8 +45,9 @@ def _profiles(project: Project, design: SystemDesign) -> tuple[np.ndarray, np.nd
     crit = np.zeros((12, HOURS))
     per_load = lr.per_load_wh
     if len(per_load) != len(project.loads):
-        raise ValueError("design: the load results do not match the project's loads; "
-                         "size the project again")
+        raise ValueError(
+            "design: the load results do not match the project's loads; size the project again"
+        )
     for load, wh in zip(project.loads, per_load, strict=True):
         at_bus = np.asarray(wh, dtype=float) / (inv_eff if load.ac_dc == "ac" else 1.0)
         shape = window_profile(load.time_of_day)
@@ -71,8 +72,9 @@ def _profiles(project: Project, design: SystemDesign) -> tuple[np.ndarray, np.nd
     return norm(total), norm(crit)
 
 
-def inputs_from_design(project: Project, design: SystemDesign, *,
-                       initial_soc: float = 1.0) -> SystemInputs:
+def inputs_from_design(
+    project: Project, design: SystemDesign, *, initial_soc: float = 1.0
+) -> SystemInputs:
     """:class:`SystemInputs` for the design's own array and battery."""
     site, arr, bat, ctl = design.site, design.array, design.battery, design.controller
     h = np.asarray(site.horizontal_kwh_m2_day, dtype=float)
@@ -87,8 +89,10 @@ def inputs_from_design(project: Project, design: SystemDesign, *,
     fallback = arr.derate_total / rt
     yf = np.divide(into_battery, denom, out=np.full(12, fallback), where=denom > 0)
     if not np.all(np.isfinite(yf)) or np.any(yf < 0) or np.any(yf > 1.5):
-        raise ValueError("design: the array supply per month does not match its power and "
-                         "insolation; size the project again")
+        raise ValueError(
+            "design: the array supply per month does not match its power and "
+            "insolation; size the project again"
+        )
     total_p, crit_p = _profiles(project, design)
     ed = float(bat.discharge_efficiency)
     rte = float(project.battery.efficiency)
@@ -113,14 +117,29 @@ def inputs_from_design(project: Project, design: SystemDesign, *,
     )
     load = np.asarray(design.loads.daily_energy_wh, dtype=float)
     crit = np.minimum(np.asarray(design.loads.critical_energy_wh, dtype=float), load)
-    return check_inputs(SystemInputs(
-        insolation_kwh_m2_day=h, latitude_deg=float(site.latitude_deg), poa_ratio=ratio,
-        yield_factor=yf, load_wh=load, critical_wh=crit, load_profile=total_p,
-        critical_profile=crit_p, array_w=float(arr.power_w), capacity_wh=float(capacity_wh),
-        max_dod=float(bat.max_dod), eta_charge=ec, eta_discharge=ed,
-        controller_w_per_w=(ctrl_w / arr.power_w) if arr.power_w > 0 and ctrl_w > 0 else None,
-        charge_c_rate=MAX_CHARGE_C_RATE.get(bat.chemistry), initial_soc=initial_soc,
-        chemistry=bat.chemistry, notes=notes, calendar_life_years=calendar))
+    return check_inputs(
+        SystemInputs(
+            insolation_kwh_m2_day=h,
+            latitude_deg=float(site.latitude_deg),
+            poa_ratio=ratio,
+            yield_factor=yf,
+            load_wh=load,
+            critical_wh=crit,
+            load_profile=total_p,
+            critical_profile=crit_p,
+            array_w=float(arr.power_w),
+            capacity_wh=float(capacity_wh),
+            max_dod=float(bat.max_dod),
+            eta_charge=ec,
+            eta_discharge=ed,
+            controller_w_per_w=(ctrl_w / arr.power_w) if arr.power_w > 0 and ctrl_w > 0 else None,
+            charge_c_rate=MAX_CHARGE_C_RATE.get(bat.chemistry),
+            initial_soc=initial_soc,
+            chemistry=bat.chemistry,
+            notes=notes,
+            calendar_life_years=calendar,
+        )
+    )
 
 
 def measured_daily(project: Project, base: Path | None = None) -> np.ndarray | None:

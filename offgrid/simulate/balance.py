@@ -94,18 +94,33 @@ def profile_from_windows(windows: list[tuple[str, float]]) -> np.ndarray:
     return prof / total
 
 
-def plain_inputs(insolation_kwh_m2_day, latitude_deg: float, array_w: float,
-                 capacity_wh: float, load_wh, critical_share=0.0, *, poa_ratio=1.0,
-                 yield_factor=0.75, max_dod=0.5, round_trip_efficiency=0.85,
-                 eta_discharge=None, load_time_of_day: str = "any",
-                 critical_time_of_day: str | None = None, controller_w_per_w=None,
-                 charge_c_rate=None, initial_soc=1.0, chemistry="agm") -> SystemInputs:
+def plain_inputs(
+    insolation_kwh_m2_day,
+    latitude_deg: float,
+    array_w: float,
+    capacity_wh: float,
+    load_wh,
+    critical_share=0.0,
+    *,
+    poa_ratio=1.0,
+    yield_factor=0.75,
+    max_dod=0.5,
+    round_trip_efficiency=0.85,
+    eta_discharge=None,
+    load_time_of_day: str = "any",
+    critical_time_of_day: str | None = None,
+    controller_w_per_w=None,
+    charge_c_rate=None,
+    initial_soc=1.0,
+    chemistry="agm",
+) -> SystemInputs:
     """Build :class:`SystemInputs` from plain numbers (scalars broadcast to 12 months).
 
     ``critical_share`` is the critical fraction of the daily load [0-1].  The
     round-trip efficiency is split evenly (sqrt each way) unless ``eta_discharge``
     is given.
     """
+
     def months(v, name):
         return check_monthly(np.broadcast_to(np.asarray(v, dtype=float), (12,)).copy(), name)
 
@@ -119,23 +134,34 @@ def plain_inputs(insolation_kwh_m2_day, latitude_deg: float, array_w: float,
         raise ValueError("battery efficiency: round-trip efficiency must be in (0, 1]")
     ed = float(np.sqrt(rte)) if eta_discharge is None else float(eta_discharge)
     if not 0 < ed <= 1 or rte / ed > 1 + 1e-9:
-        raise ValueError("battery efficiency: discharge efficiency must be in "
-                         "[round-trip, 1]")
+        raise ValueError("battery efficiency: discharge efficiency must be in [round-trip, 1]")
     crit_tod = critical_time_of_day or load_time_of_day
     lp = window_profile(load_time_of_day)
     cp = window_profile(crit_tod)
     crit = load * share
-    total_prof = (crit[:, None] * cp + (load - crit)[:, None] * lp)
-    tp = np.divide(total_prof, load[:, None], out=np.tile(lp, (12, 1)),
-                   where=load[:, None] > 0)
-    return check_inputs(SystemInputs(
-        insolation_kwh_m2_day=h, latitude_deg=float(latitude_deg),
-        poa_ratio=months(poa_ratio, "plane-of-array ratio"),
-        yield_factor=months(yield_factor, "array yield factor"),
-        load_wh=load, critical_wh=crit, load_profile=tp, critical_profile=np.tile(cp, (12, 1)),
-        array_w=float(array_w), capacity_wh=float(capacity_wh), max_dod=float(max_dod),
-        eta_charge=min(1.0, rte / ed), eta_discharge=ed, controller_w_per_w=controller_w_per_w,
-        charge_c_rate=charge_c_rate, initial_soc=float(initial_soc), chemistry=chemistry))
+    total_prof = crit[:, None] * cp + (load - crit)[:, None] * lp
+    tp = np.divide(total_prof, load[:, None], out=np.tile(lp, (12, 1)), where=load[:, None] > 0)
+    return check_inputs(
+        SystemInputs(
+            insolation_kwh_m2_day=h,
+            latitude_deg=float(latitude_deg),
+            poa_ratio=months(poa_ratio, "plane-of-array ratio"),
+            yield_factor=months(yield_factor, "array yield factor"),
+            load_wh=load,
+            critical_wh=crit,
+            load_profile=tp,
+            critical_profile=np.tile(cp, (12, 1)),
+            array_w=float(array_w),
+            capacity_wh=float(capacity_wh),
+            max_dod=float(max_dod),
+            eta_charge=min(1.0, rte / ed),
+            eta_discharge=ed,
+            controller_w_per_w=controller_w_per_w,
+            charge_c_rate=charge_c_rate,
+            initial_soc=float(initial_soc),
+            chemistry=chemistry,
+        )
+    )
 
 
 def check_inputs(inp: SystemInputs) -> SystemInputs:
@@ -246,8 +272,9 @@ class Balance:
 
     @property
     def unmet_fraction(self) -> np.ndarray:
-        return self.unmet_wh / self.demand_wh if self.demand_wh > 0 else np.zeros_like(
-            self.unmet_wh)
+        return (
+            self.unmet_wh / self.demand_wh if self.demand_wh > 0 else np.zeros_like(self.unmet_wh)
+        )
 
     @property
     def unmet_fraction_critical(self) -> np.ndarray:
@@ -258,14 +285,24 @@ class Balance:
     @property
     def losses_wh(self) -> np.ndarray:
         """Charge and discharge losses of the battery [Wh]."""
-        return (self.charge_wh * (1 - self.eta_charge)
-                + self.discharge_wh * (1 / self.eta_discharge - 1))
+        return self.charge_wh * (1 - self.eta_charge) + self.discharge_wh * (
+            1 / self.eta_discharge - 1
+        )
 
 
-def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charge: float,
-                eta_discharge: float, initial_soc: float = 1.0, record: bool = False,
-                progress: Callable[[float], None] | None = None,
-                cancelled: Callable[[], bool] | None = None) -> Balance:
+def run_balance(
+    steps: Steps,
+    array_w,
+    capacity_wh,
+    *,
+    max_dod: float,
+    eta_charge: float,
+    eta_discharge: float,
+    initial_soc: float = 1.0,
+    record: bool = False,
+    progress: Callable[[float], None] | None = None,
+    cancelled: Callable[[], bool] | None = None,
+) -> Balance:
     """Run the energy balance for designs (array_w[i], capacity_wh[i]).
 
     Parameters
@@ -291,8 +328,9 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
     n = aw.size
     days, k = steps.pv_wh_per_w.shape
     if n * days > MAX_DESIGN_DAYS:
-        raise ValueError(f"simulation too large: {n} designs x {days} days; use fewer "
-                         "years or a coarser sweep")
+        raise ValueError(
+            f"simulation too large: {n} designs x {days} days; use fewer years or a coarser sweep"
+        )
     if np.any(aw < 0) or np.any(cap < 0) or not np.all(np.isfinite(aw)):
         raise ValueError("design: array size and battery capacity must be 0 or more")
     unlimited = np.isinf(cap)
@@ -301,12 +339,20 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
         # a few designs: one plain-float run each is faster than small numpy arrays
         parts = []
         for i in range(n):
-            sub = None if progress is None else (
-                lambda f, i=i: progress((i + f) / n))
-            parts.append(run_balance(steps, aw[i], cap[i], max_dod=max_dod,
-                                     eta_charge=eta_charge, eta_discharge=eta_discharge,
-                                     initial_soc=initial_soc, progress=sub,
-                                     cancelled=cancelled))
+            sub = None if progress is None else (lambda f, i=i: progress((i + f) / n))
+            parts.append(
+                run_balance(
+                    steps,
+                    aw[i],
+                    cap[i],
+                    max_dod=max_dod,
+                    eta_charge=eta_charge,
+                    eta_discharge=eta_discharge,
+                    initial_soc=initial_soc,
+                    progress=sub,
+                    cancelled=cancelled,
+                )
+            )
         return _concat(parts, unlimited)
     scalar = n == 1
     if scalar:
@@ -330,8 +376,19 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
     lo_l = steps.other_wh.tolist()
     cc_l = None if steps.charge_cap_per_wh is None else steps.charge_cap_per_wh.tolist()
     rec: dict[str, list] | None = (
-        {"stored_wh": [], "pv_wh": [], "served_wh": [], "discharge_wh": [], "charge_wh": [],
-         "spilled_wh": [], "shed_wh": [], "shed_critical_wh": []} if record else None)
+        {
+            "stored_wh": [],
+            "pv_wh": [],
+            "served_wh": [],
+            "discharge_wh": [],
+            "charge_wh": [],
+            "spilled_wh": [],
+            "shed_wh": [],
+            "shed_critical_wh": [],
+        }
+        if record
+        else None
+    )
     tol = SHED_TOLERANCE_WH
     for d in range(days):
         if (progress is not None or cancelled is not None) and d % 365 == 0:
@@ -403,14 +460,27 @@ def run_balance(steps: Steps, array_w, capacity_wh, *, max_dod: float, eta_charg
 
     demand = float(steps.critical_wh.sum() + steps.other_wh.sum())
     out = Balance(
-        array_w=aw.copy(), capacity_wh=np.where(unlimited, np.inf, cap), days=days,
-        shed_days=arr(shed_days), shed_days_critical=arr(shed_days_c),
-        longest_shed_run_days=arr(longest), longest_shed_run_days_critical=arr(longest_c),
-        demand_wh=demand, demand_critical_wh=float(steps.critical_wh.sum()),
-        unmet_wh=arr(unmet), unmet_critical_wh=arr(unmet_c), pv_wh=arr(tot_pv),
-        clipped_wh=aw * float(steps.clipped_wh_per_w.sum()), discharge_wh=arr(tot_draw),
-        charge_wh=arr(tot_cin), spilled_wh=arr(tot_spill), stored_start_wh=arr(e_start),
-        stored_end_wh=arr(e), eta_charge=ec, eta_discharge=ed)
+        array_w=aw.copy(),
+        capacity_wh=np.where(unlimited, np.inf, cap),
+        days=days,
+        shed_days=arr(shed_days),
+        shed_days_critical=arr(shed_days_c),
+        longest_shed_run_days=arr(longest),
+        longest_shed_run_days_critical=arr(longest_c),
+        demand_wh=demand,
+        demand_critical_wh=float(steps.critical_wh.sum()),
+        unmet_wh=arr(unmet),
+        unmet_critical_wh=arr(unmet_c),
+        pv_wh=arr(tot_pv),
+        clipped_wh=aw * float(steps.clipped_wh_per_w.sum()),
+        discharge_wh=arr(tot_draw),
+        charge_wh=arr(tot_cin),
+        spilled_wh=arr(tot_spill),
+        stored_start_wh=arr(e_start),
+        stored_end_wh=arr(e),
+        eta_charge=ec,
+        eta_discharge=ed,
+    )
     if rec is not None:
         out.record = {key: _stack(v, n).reshape(days, k, n) for key, v in rec.items()}
     return out
@@ -435,9 +505,19 @@ def _stack(values: list, n: int) -> np.ndarray:
     return np.vstack([np.broadcast_to(np.asarray(v, dtype=float), (n,)) for v in values])
 
 
-def simulate_inputs(inp: SystemInputs, weather: WeatherSeries, array_w=None, capacity_wh=None,
-                    *, mode: str = "daily", record: bool = False, capacity_scale: float = 1.0,
-                    progress=None, cancelled=None, steps: Steps | None = None) -> Balance:
+def simulate_inputs(
+    inp: SystemInputs,
+    weather: WeatherSeries,
+    array_w=None,
+    capacity_wh=None,
+    *,
+    mode: str = "daily",
+    record: bool = False,
+    capacity_scale: float = 1.0,
+    progress=None,
+    cancelled=None,
+    steps: Steps | None = None,
+) -> Balance:
     """Run :func:`run_balance` on :class:`SystemInputs` (defaults: the reference design).
 
     ``capacity_scale`` multiplies the nominal capacity (e.g. the end-of-life ageing factor).
@@ -445,10 +525,18 @@ def simulate_inputs(inp: SystemInputs, weather: WeatherSeries, array_w=None, cap
     steps = steps if steps is not None else build_steps(inp, weather, mode)
     aw = inp.array_w if array_w is None else array_w
     cap = inp.capacity_wh if capacity_wh is None else capacity_wh
-    return run_balance(steps, aw, np.asarray(cap, dtype=float) * capacity_scale,
-                       max_dod=inp.max_dod, eta_charge=inp.eta_charge,
-                       eta_discharge=inp.eta_discharge, initial_soc=inp.initial_soc,
-                       record=record, progress=progress, cancelled=cancelled)
+    return run_balance(
+        steps,
+        aw,
+        np.asarray(cap, dtype=float) * capacity_scale,
+        max_dod=inp.max_dod,
+        eta_charge=inp.eta_charge,
+        eta_discharge=inp.eta_discharge,
+        initial_soc=inp.initial_soc,
+        record=record,
+        progress=progress,
+        cancelled=cancelled,
+    )
 
 
 def with_design(inp: SystemInputs, array_w: float, capacity_wh: float) -> SystemInputs:

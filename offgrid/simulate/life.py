@@ -24,8 +24,10 @@ import numpy as np
 
 from offgrid.simulate.rainflow import Cycles, rainflow_astm_e1049
 
-CYCLE_LIFE_SOURCE = ("from memory: typical deep-cycle curves of each chemistry, cycles to "
-                     "80 % capacity at 20-25 C; not from a standard")
+CYCLE_LIFE_SOURCE = (
+    "from memory: typical deep-cycle curves of each chemistry, cycles to "
+    "80 % capacity at 20-25 C; not from a standard"
+)
 _DOD = (0.1, 0.2, 0.3, 0.5, 0.8, 1.0)
 #: Cycles to end of life at each depth of discharge in ``_DOD`` (from memory).
 CYCLE_LIFE: dict[str, tuple[float, ...]] = {
@@ -35,15 +37,16 @@ CYCLE_LIFE: dict[str, tuple[float, ...]] = {
     "lifepo4": (15000, 10000, 8000, 5000, 3500, 2500),
 }
 #: Float (calendar) life at 25 C, years (from memory, typical of makers' figures).
-CALENDAR_LIFE_YEARS: dict[str, float] = {"flooded": 12.0, "agm": 7.0, "gel": 10.0,
-                                         "lifepo4": 15.0}
+CALENDAR_LIFE_YEARS: dict[str, float] = {"flooded": 12.0, "agm": 7.0, "gel": 10.0, "lifepo4": 15.0}
 #: Lead-acid float (calendar) life halves for each this many C of battery temperature above
 #: 25 C (common practice, no source: the rule of thumb is quoted as 8-10 C; 10 C taken).
 #: No credit below 25 C; lithium iron phosphate is not corrected (no source).
 CALENDAR_HALVING_C = 10.0
-CALENDAR_TEMPERATURE_SOURCE = ("lead-acid float life halves per 10 C above 25 C (common "
-                               "practice, no source; quoted as 8-10 C), month by month "
-                               "(Miner-type sum of the monthly ageing rates)")
+CALENDAR_TEMPERATURE_SOURCE = (
+    "lead-acid float life halves per 10 C above 25 C (common "
+    "practice, no source; quoted as 8-10 C), month by month "
+    "(Miner-type sum of the monthly ageing rates)"
+)
 _DAYS = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
 MIN_RANGE = 1e-4  # cycles shallower than 0.01 % of capacity do no counted damage
 
@@ -60,16 +63,17 @@ def calendar_life_years(chemistry: str, temps_c=None) -> float:
         return base
     t = np.asarray(temps_c, dtype=float)
     rate = 2.0 ** (np.maximum(t - 25.0, 0.0) / CALENDAR_HALVING_C)
-    mean = float(np.average(rate, weights=_DAYS)) if rate.shape == (12,) else float(
-        np.mean(rate))
+    mean = float(np.average(rate, weights=_DAYS)) if rate.shape == (12,) else float(np.mean(rate))
     return base / mean
 
 
 def cycle_life_curve(chemistry: str) -> tuple[np.ndarray, np.ndarray]:
     """(depth of discharge [0-1], cycles to end of life) of a chemistry preset."""
     if chemistry not in CYCLE_LIFE:
-        raise ValueError(f"battery chemistry: {chemistry!r} has no cycle-life curve; use one "
-                         f"of {', '.join(CYCLE_LIFE)}")
+        raise ValueError(
+            f"battery chemistry: {chemistry!r} has no cycle-life curve; use one "
+            f"of {', '.join(CYCLE_LIFE)}"
+        )
     return np.array(_DOD), np.array(CYCLE_LIFE[chemistry], dtype=float)
 
 
@@ -108,8 +112,14 @@ class BatteryWear:
 _BANDS = (0.0, 0.1, 0.2, 0.3, 0.5, 0.8, 1.0001)
 
 
-def battery_wear(soc_series, years: float, chemistry: str, discharge_wh: float,
-                 capacity_wh: float, calendar_years: float | None = None) -> BatteryWear:
+def battery_wear(
+    soc_series,
+    years: float,
+    chemistry: str,
+    discharge_wh: float,
+    capacity_wh: float,
+    calendar_years: float | None = None,
+) -> BatteryWear:
     """Rainflow count of a state-of-charge series [0-1] and the life it implies.
 
     Expected life = min(calendar life, years / Miner damage), the calendar life at the
@@ -133,9 +143,13 @@ def battery_wear(soc_series, years: float, chemistry: str, discharge_wh: float,
         hist.append((label, float(cyc.count[sel].sum()) / years))
     efc = discharge_wh / capacity_wh / years if capacity_wh > 0 else 0.0
     return BatteryWear(
-        cycles_counted=cyc.total, damage_per_year=per_year, cycle_life_years=cycle_years,
-        calendar_life_years=cal, expected_life_years=life,
+        cycles_counted=cyc.total,
+        damage_per_year=per_year,
+        cycle_life_years=cycle_years,
+        calendar_life_years=cal,
+        expected_life_years=life,
         throughput_kwh_per_year=discharge_wh / 1000.0 / years,
         equivalent_full_cycles_per_year=efc,
         deepest_cycle=float(cyc.range.max()) if cyc.range.size else 0.0,
-        cycle_hist=tuple(hist))
+        cycle_hist=tuple(hist),
+    )

@@ -56,8 +56,7 @@ def collares_pereira_rabl_rt(latitude_deg: float, day_of_year=KLEIN_MEAN_DAY) ->
 def window_profile(time_of_day: str) -> np.ndarray:
     """Share of a load's daily energy in each hour: even over its window [-], shape (24,)."""
     if time_of_day not in LOAD_WINDOWS_H:
-        raise ValueError(f"time of day: {time_of_day!r} is not one of "
-                         f"{', '.join(LOAD_WINDOWS_H)}")
+        raise ValueError(f"time of day: {time_of_day!r} is not one of {', '.join(LOAD_WINDOWS_H)}")
     start, end = LOAD_WINDOWS_H[time_of_day]
     prof = np.zeros(HOURS)
     prof[np.arange(start, end) % HOURS] = 1.0

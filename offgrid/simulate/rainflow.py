@@ -94,7 +94,6 @@ def rainflow_astm_e1049(series) -> Cycles:
 def cycle_histogram(cycles: Cycles, ndigits: int = 9) -> dict[float, float]:
     """Counts summed per range rounded to ``ndigits`` (for comparing counts)."""
     out: dict[float, float] = {}
-    for r, c in zip(np.round(cycles.range, ndigits).tolist(), cycles.count.tolist(),
-                    strict=True):
+    for r, c in zip(np.round(cycles.range, ndigits).tolist(), cycles.count.tolist(), strict=True):
         out[r] = out.get(r, 0.0) + c
     return dict(sorted(out.items()))

@@ -13,8 +13,7 @@ from offgrid.simulate.life import CYCLE_LIFE_SOURCE, BatteryWear, battery_wear
 from offgrid.simulate.profiles import LOAD_WINDOWS_H
 from offgrid.simulate.weather import DAYS_PER_YEAR, MONTH_OF_DAY, WeatherSeries
 
-MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov",
-               "Dec")
+MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 _SRC_BAL = "offgrid.simulate.balance (step energy balance, module notes)"
 
 
@@ -96,9 +95,16 @@ def soc_series(balance: Balance, initial_soc: float) -> tuple[np.ndarray, np.nda
     return np.concatenate(([initial_soc], soc.ravel())), daily_min
 
 
-def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily",
-                soc_threshold: float | None = None, end_of_life_scale: float | None = None,
-                progress=None, cancelled=None) -> Reliability:
+def reliability(
+    inp: SystemInputs,
+    weather: WeatherSeries,
+    *,
+    mode: str = "daily",
+    soc_threshold: float | None = None,
+    end_of_life_scale: float | None = None,
+    progress=None,
+    cancelled=None,
+) -> Reliability:
     """Simulate the reference design of ``inp`` and collect every reliability figure.
 
     ``soc_threshold`` (default: halfway between full and the DoD floor) sets the
@@ -110,8 +116,9 @@ def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily
     if not 0 <= thr <= 1:
         raise ValueError(f"state-of-charge threshold: {thr} must be 0-1")
     steps = build_steps(inp, weather, mode)
-    bal = simulate_inputs(inp, weather, steps=steps, record=True, progress=progress,
-                          cancelled=cancelled)
+    bal = simulate_inputs(
+        inp, weather, steps=steps, record=True, progress=progress, cancelled=cancelled
+    )
     years = weather.years
     soc_all, daily_min = soc_series(bal, inp.initial_soc)
     shed = bal.record["shed_wh"][:, :, 0].sum(axis=1) > 1e-6
@@ -120,12 +127,24 @@ def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily
     for m in range(12):
         sel = month == m
         dm = daily_min[sel]
-        months.append(MonthStats(
-            month=m + 1, lolp=float(shed[sel].mean()),
-            soc_min_p5=float(np.percentile(dm, 5)), soc_min_p50=float(np.percentile(dm, 50)),
-            soc_min_p95=float(np.percentile(dm, 95)), days_below=int((dm < thr).sum())))
-    wear = battery_wear(soc_all, years, inp.chemistry, float(bal.discharge_wh[0]),
-                        inp.capacity_wh, inp.calendar_life_years)
+        months.append(
+            MonthStats(
+                month=m + 1,
+                lolp=float(shed[sel].mean()),
+                soc_min_p5=float(np.percentile(dm, 5)),
+                soc_min_p50=float(np.percentile(dm, 50)),
+                soc_min_p95=float(np.percentile(dm, 95)),
+                days_below=int((dm < thr).sum()),
+            )
+        )
+    wear = battery_wear(
+        soc_all,
+        years,
+        inp.chemistry,
+        float(bal.discharge_wh[0]),
+        inp.capacity_wh,
+        inp.calendar_life_years,
+    )
     per_year_shed = shed.reshape(years, DAYS_PER_YEAR).sum(axis=1)
     per_year_low = daily_min.reshape(years, DAYS_PER_YEAR).min(axis=1)
     worst = int(np.lexsort((per_year_low, -per_year_shed))[0])
@@ -138,72 +157,137 @@ def reliability(inp: SystemInputs, weather: WeatherSeries, *, mode: str = "daily
         lolp_eol = float(eol.lolp[0])
     pv = float(bal.pv_wh[0])
     notes = (
-        f"{mode} balance: " + ("two steps a day (hours with sun, then hours without), so "
-                               "loads after dark draw on the battery" if mode == "daily" else
-                               "24 steps a day, hourly sun shape of Collares-Pereira & Rabl "
-                               "(1979)"),
-        "load windows, solar time (common practice, no source): " + ", ".join(
-            f"{k} {a:02d}-{(b - 1) % 24 + 1:02d} h" for k, (a, b) in LOAD_WINDOWS_H.items()),
+        f"{mode} balance: "
+        + (
+            "two steps a day (hours with sun, then hours without), so "
+            "loads after dark draw on the battery"
+            if mode == "daily"
+            else "24 steps a day, hourly sun shape of Collares-Pereira & Rabl (1979)"
+        ),
+        "load windows, solar time (common practice, no source): "
+        + ", ".join(
+            f"{k} {a:02d}-{(b - 1) % 24 + 1:02d} h" for k, (a, b) in LOAD_WINDOWS_H.items()
+        ),
         "the battery starts full; charge and discharge efficiency are constant",
         "cycle life: " + CYCLE_LIFE_SOURCE,
         *inp.notes,
     )
     res = Reliability(
-        mode=mode, years=years, measured_years=weather.measured_years, seed=weather.seed,
-        days=bal.days, weather_source=weather.source, array_w=inp.array_w,
-        capacity_wh=inp.capacity_wh, usable_wh=inp.capacity_wh * inp.max_dod,
-        lolp=float(bal.lolp[0]), unmet_fraction=float(bal.unmet_fraction[0]),
+        mode=mode,
+        years=years,
+        measured_years=weather.measured_years,
+        seed=weather.seed,
+        days=bal.days,
+        weather_source=weather.source,
+        array_w=inp.array_w,
+        capacity_wh=inp.capacity_wh,
+        usable_wh=inp.capacity_wh * inp.max_dod,
+        lolp=float(bal.lolp[0]),
+        unmet_fraction=float(bal.unmet_fraction[0]),
         lolp_critical=float(bal.lolp_critical[0]),
         unmet_fraction_critical=float(bal.unmet_fraction_critical[0]),
-        shed_days=int(bal.shed_days[0]), longest_shed_run_days=int(bal.longest_shed_run_days[0]),
+        shed_days=int(bal.shed_days[0]),
+        longest_shed_run_days=int(bal.longest_shed_run_days[0]),
         longest_shed_run_days_critical=int(bal.longest_shed_run_days_critical[0]),
-        soc_threshold=thr, days_below_soc=int((daily_min < thr).sum()), months=tuple(months),
-        wear=wear, pv_kwh_per_year=pv / 1000 / years,
+        soc_threshold=thr,
+        days_below_soc=int((daily_min < thr).sum()),
+        months=tuple(months),
+        wear=wear,
+        pv_kwh_per_year=pv / 1000 / years,
         spilled_fraction=float(bal.spilled_wh[0]) / pv if pv > 0 else 0.0,
         clipped_kwh_per_year=float(bal.clipped_wh[0]) / 1000 / years,
         battery_loss_kwh_per_year=float(bal.losses_wh[0]) / 1000 / years,
-        demand_kwh_per_year=bal.demand_wh / 1000 / years, worst_year=worst,
-        worst_year_soc_min=tuple(float(v) for v in
-                                 daily_min.reshape(years, DAYS_PER_YEAR)[worst].round(4)),
+        demand_kwh_per_year=bal.demand_wh / 1000 / years,
+        worst_year=worst,
+        worst_year_soc_min=tuple(
+            float(v) for v in daily_min.reshape(years, DAYS_PER_YEAR)[worst].round(4)
+        ),
         lolp_measured=lolp_measured,
-        lolp_end_of_life=lolp_eol, notes=notes,
-        reasons=_reasons(inp, weather, bal, thr, mode, wear))
+        lolp_end_of_life=lolp_eol,
+        notes=notes,
+        reasons=_reasons(inp, weather, bal, thr, mode, wear),
+    )
     return res
 
 
-def _reasons(inp: SystemInputs, weather: WeatherSeries, bal: Balance, thr: float, mode: str,
-             wear: BatteryWear) -> dict[str, Reason]:
+def _reasons(
+    inp: SystemInputs,
+    weather: WeatherSeries,
+    bal: Balance,
+    thr: float,
+    mode: str,
+    wear: BatteryWear,
+) -> dict[str, Reason]:
     book = ReasonBook()
     days = fmt(bal.days, "days")
-    common = {"weather": weather.source, "years": fmt(weather.years), "mode": mode,
-              "array": fmt(inp.array_w, "W"), "battery": fmt(inp.capacity_wh / 1000, "kWh"),
-              "max DoD": fmt(inp.max_dod)}
-    book.add("lolp", "days with any load shed / days simulated", _SRC_BAL,
-             shed_days=fmt(int(bal.shed_days[0]), "days"), days=days, **common)
-    book.add("unmet_fraction", "energy shed / energy demanded at the battery bus", _SRC_BAL,
-             shed=fmt(float(bal.unmet_wh[0]) / 1000, "kWh"),
-             demand=fmt(bal.demand_wh / 1000, "kWh"))
-    book.add("lolp_critical", "days with any critical load shed / days simulated; critical "
-             "loads are served first and shed last", _SRC_BAL,
-             shed_days=fmt(int(bal.shed_days_critical[0]), "days"), days=days)
-    book.add("unmet_fraction_critical", "critical energy shed / critical energy demanded",
-             _SRC_BAL, shed=fmt(float(bal.unmet_critical_wh[0]) / 1000, "kWh"),
-             demand=fmt(bal.demand_critical_wh / 1000, "kWh"))
-    book.add("longest_shed_run_days", "longest run of consecutive days with shedding",
-             _SRC_BAL, days=days)
-    book.add("days_below_soc", "days whose lowest state of charge fell below the threshold",
-             _SRC_BAL, threshold=fmt(thr))
-    book.add("wear.equivalent_full_cycles_per_year",
-             "energy delivered by the battery / nominal capacity / years", _SRC_BAL,
-             throughput=fmt(wear.throughput_kwh_per_year, "kWh/yr"),
-             capacity=fmt(inp.capacity_wh / 1000, "kWh"))
-    book.add("wear.expected_life_years",
-             "min(calendar life, years / Miner damage); damage = sum of rainflow cycles / "
-             "cycles to failure at their depth",
-             "ASTM E1049-85 sec. 5.4.4 (rainflow); Miner (1945); cycle life " + CYCLE_LIFE_SOURCE,
-             chemistry=inp.chemistry, damage_per_year=fmt(wear.damage_per_year),
-             calendar_life=fmt(wear.calendar_life_years, "yr"),
-             calendar_basis="at the battery's warm-season temperatures (design "
-             "battery.calendar_life_years)" if inp.calendar_life_years is not None
-             else "preset at 25 C")
+    common = {
+        "weather": weather.source,
+        "years": fmt(weather.years),
+        "mode": mode,
+        "array": fmt(inp.array_w, "W"),
+        "battery": fmt(inp.capacity_wh / 1000, "kWh"),
+        "max DoD": fmt(inp.max_dod),
+    }
+    book.add(
+        "lolp",
+        "days with any load shed / days simulated",
+        _SRC_BAL,
+        shed_days=fmt(int(bal.shed_days[0]), "days"),
+        days=days,
+        **common,
+    )
+    book.add(
+        "unmet_fraction",
+        "energy shed / energy demanded at the battery bus",
+        _SRC_BAL,
+        shed=fmt(float(bal.unmet_wh[0]) / 1000, "kWh"),
+        demand=fmt(bal.demand_wh / 1000, "kWh"),
+    )
+    book.add(
+        "lolp_critical",
+        "days with any critical load shed / days simulated; critical "
+        "loads are served first and shed last",
+        _SRC_BAL,
+        shed_days=fmt(int(bal.shed_days_critical[0]), "days"),
+        days=days,
+    )
+    book.add(
+        "unmet_fraction_critical",
+        "critical energy shed / critical energy demanded",
+        _SRC_BAL,
+        shed=fmt(float(bal.unmet_critical_wh[0]) / 1000, "kWh"),
+        demand=fmt(bal.demand_critical_wh / 1000, "kWh"),
+    )
+    book.add(
+        "longest_shed_run_days",
+        "longest run of consecutive days with shedding",
+        _SRC_BAL,
+        days=days,
+    )
+    book.add(
+        "days_below_soc",
+        "days whose lowest state of charge fell below the threshold",
+        _SRC_BAL,
+        threshold=fmt(thr),
+    )
+    book.add(
+        "wear.equivalent_full_cycles_per_year",
+        "energy delivered by the battery / nominal capacity / years",
+        _SRC_BAL,
+        throughput=fmt(wear.throughput_kwh_per_year, "kWh/yr"),
+        capacity=fmt(inp.capacity_wh / 1000, "kWh"),
+    )
+    book.add(
+        "wear.expected_life_years",
+        "min(calendar life, years / Miner damage); damage = sum of rainflow cycles / "
+        "cycles to failure at their depth",
+        "ASTM E1049-85 sec. 5.4.4 (rainflow); Miner (1945); cycle life " + CYCLE_LIFE_SOURCE,
+        chemistry=inp.chemistry,
+        damage_per_year=fmt(wear.damage_per_year),
+        calendar_life=fmt(wear.calendar_life_years, "yr"),
+        calendar_basis="at the battery's warm-season temperatures (design "
+        "battery.calendar_life_years)"
+        if inp.calendar_life_years is not None
+        else "preset at 25 C",
+    )
     return book.freeze()

@@ -60,16 +60,18 @@ class SimulationReport:
 
 
 def weather_summary(w: WeatherSeries) -> dict[str, Any]:
-    syn = w.insolation_kwh_m2_day[w.measured_years:]
+    syn = w.insolation_kwh_m2_day[w.measured_years :]
     achieved = [float(syn[:, m == MONTH_OF_DAY].mean()) for m in range(12)]
     return {
-        "source": w.source, "years": w.years, "measured_years": w.measured_years,
+        "source": w.source,
+        "years": w.years,
+        "measured_years": w.measured_years,
         "seed": w.seed,
         "target_kwh_m2_day": [round(float(v), 4) for v in w.target_kwh_m2_day],
         "synthetic_mean_kwh_m2_day": [round(v, 4) for v in achieved],
         "rescale_factor": [round(float(v), 4) for v in w.scale_factor],
         "rescaling": "one factor per calendar month over all synthetic years, so the long-run "
-                     "mean equals the monthly mean; daily KT capped at 0.90",
+        "mean equals the monthly mean; daily KT capped at 0.90",
     }
 
 
@@ -79,32 +81,73 @@ def _phase(progress: Callable[[float], None] | None, lo: float, hi: float):
     return lambda f: progress(lo + (hi - lo) * f)
 
 
-def study(inp: SystemInputs, weather: WeatherSeries, *, title: str = "", demo: bool = False,
-          mode: str = "daily", targets=DEFAULT_TARGETS, prices: Mapping[str, Any] | None = None,
-          sweep_size: int = 30, end_of_life_scale: float | None = None,
-          with_tradeoff: bool = True, progress=None, cancelled=None) -> SimulationReport:
+def study(
+    inp: SystemInputs,
+    weather: WeatherSeries,
+    *,
+    title: str = "",
+    demo: bool = False,
+    mode: str = "daily",
+    targets=DEFAULT_TARGETS,
+    prices: Mapping[str, Any] | None = None,
+    sweep_size: int = 30,
+    end_of_life_scale: float | None = None,
+    with_tradeoff: bool = True,
+    progress=None,
+    cancelled=None,
+) -> SimulationReport:
     """Reliability of the reference design and, optionally, the trade-off sweep."""
     for t in targets:
         check_target(t)
     if prices is not None:
         check_prices(prices)
-    rel = reliability(inp, weather, mode=mode, end_of_life_scale=end_of_life_scale,
-                      progress=_phase(progress, 0.0, 0.2), cancelled=cancelled)
+    rel = reliability(
+        inp,
+        weather,
+        mode=mode,
+        end_of_life_scale=end_of_life_scale,
+        progress=_phase(progress, 0.0, 0.2),
+        cancelled=cancelled,
+    )
     tr = None
     if with_tradeoff:
-        tr = tradeoff(inp, weather, targets=targets, prices=prices, n_array=sweep_size,
-                      n_battery=sweep_size, mode="daily",
-                      progress=_phase(progress, 0.2, 1.0), cancelled=cancelled)
-    return SimulationReport(title=title, demo=demo, weather=weather_summary(weather),
-                            reliability=rel, tradeoff=tr, end_of_life_scale=end_of_life_scale,
-                            cautions=CAUTIONS)
+        tr = tradeoff(
+            inp,
+            weather,
+            targets=targets,
+            prices=prices,
+            n_array=sweep_size,
+            n_battery=sweep_size,
+            mode="daily",
+            progress=_phase(progress, 0.2, 1.0),
+            cancelled=cancelled,
+        )
+    return SimulationReport(
+        title=title,
+        demo=demo,
+        weather=weather_summary(weather),
+        reliability=rel,
+        tradeoff=tr,
+        end_of_life_scale=end_of_life_scale,
+        cautions=CAUTIONS,
+    )
 
 
-def simulate_project(project, base: Path | None = None, *, years=DEFAULT_YEARS, seed=1,
-                     mode: str = "daily", targets=DEFAULT_TARGETS,
-                     prices: Mapping[str, Any] | None = None, sweep_size: int = 30,
-                     with_tradeoff: bool = True, use_measured: bool = True, progress=None,
-                     cancelled=None) -> SimulationReport:
+def simulate_project(
+    project,
+    base: Path | None = None,
+    *,
+    years=DEFAULT_YEARS,
+    seed=1,
+    mode: str = "daily",
+    targets=DEFAULT_TARGETS,
+    prices: Mapping[str, Any] | None = None,
+    sweep_size: int = 30,
+    with_tradeoff: bool = True,
+    use_measured: bool = True,
+    progress=None,
+    cancelled=None,
+) -> SimulationReport:
     """Size the project for its worst month, then simulate that design.
 
     Raises ValueError (or DesignError) with a message naming the field and the fix.
@@ -121,12 +164,23 @@ def simulate_project(project, base: Path | None = None, *, years=DEFAULT_YEARS, 
     result = design(project, base)
     inp = inputs_from_design(project, result)
     measured = measured_daily(project, base) if use_measured else None
-    weather = synthetic_daily_insolation(inp.insolation_kwh_m2_day, inp.latitude_deg, years,
-                                         seed=seed, measured_kwh_m2_day=measured)
-    return study(inp, weather, title=project.info.name, demo=bool(project.info.demo),
-                 mode=mode, targets=targets, prices=prices, sweep_size=sweep_size,
-                 end_of_life_scale=float(result.battery.ageing_factor),
-                 with_tradeoff=with_tradeoff, progress=progress, cancelled=cancelled)
+    weather = synthetic_daily_insolation(
+        inp.insolation_kwh_m2_day, inp.latitude_deg, years, seed=seed, measured_kwh_m2_day=measured
+    )
+    return study(
+        inp,
+        weather,
+        title=project.info.name,
+        demo=bool(project.info.demo),
+        mode=mode,
+        targets=targets,
+        prices=prices,
+        sweep_size=sweep_size,
+        end_of_life_scale=float(result.battery.ageing_factor),
+        with_tradeoff=with_tradeoff,
+        progress=progress,
+        cancelled=cancelled,
+    )
 
 
 def prices_from_args(array_price, battery_price) -> dict[str, float] | None:
@@ -134,8 +188,10 @@ def prices_from_args(array_price, battery_price) -> dict[str, float] | None:
     if array_price is None and battery_price is None:
         return None
     if array_price is None or battery_price is None:
-        raise ValueError("costs missing: give both the array price per W (--array-price) and "
-                         "the battery price per kWh (--battery-price)")
+        raise ValueError(
+            "costs missing: give both the array price per W (--array-price) and "
+            "the battery price per kWh (--battery-price)"
+        )
     return check_prices({"array_per_w": array_price, "battery_per_kwh": battery_price})
 
 
@@ -161,23 +217,37 @@ def summary_text(rep: SimulationReport) -> str:
     seed = "random" if w["seed"] is None else str(w["seed"])
     lines.append(f"Weather: {w['years']} years ({w['measured_years']} measured), seed {seed}")
     lines.append("  Aguiar, Collares-Pereira & Conde (1988) Markov matrices, rescaled per month")
-    lines += _wrap(f"Design: array {r.array_w:.0f} W, battery {r.capacity_wh / 1000:.2f} kWh "
-                   f"at its temperature ({r.usable_wh / 1000:.2f} kWh usable); {r.mode} "
-                   "balance", 80, "  ")
+    lines += _wrap(
+        f"Design: array {r.array_w:.0f} W, battery {r.capacity_wh / 1000:.2f} kWh "
+        f"at its temperature ({r.usable_wh / 1000:.2f} kWh usable); {r.mode} "
+        "balance",
+        80,
+        "  ",
+    )
     lines.append("")
     lines.append("Reliability")
-    lines.append(f"  loss-of-load probability  {pct(r.lolp):>9}   ({r.shed_days} of {r.days} "
-                 "days with shedding)")
+    lines.append(
+        f"  loss-of-load probability  {pct(r.lolp):>9}   ({r.shed_days} of {r.days} "
+        "days with shedding)"
+    )
     lines.append(f"  unmet energy              {pct(r.unmet_fraction):>9}")
-    lines.append(f"  critical loads: LOLP      {pct(r.lolp_critical):>9}   unmet "
-                 f"{pct(r.unmet_fraction_critical)}")
-    lines.append(f"  longest shedding run      {r.longest_shed_run_days:>6} days  "
-                 f"(critical {r.longest_shed_run_days_critical} days)")
-    lines.append(f"  days below {r.soc_threshold:.0%} charge     {r.days_below_soc:>6} "
-                 f"({pct(r.days_below_soc / r.days)})")
+    lines.append(
+        f"  critical loads: LOLP      {pct(r.lolp_critical):>9}   unmet "
+        f"{pct(r.unmet_fraction_critical)}"
+    )
+    lines.append(
+        f"  longest shedding run      {r.longest_shed_run_days:>6} days  "
+        f"(critical {r.longest_shed_run_days_critical} days)"
+    )
+    lines.append(
+        f"  days below {r.soc_threshold:.0%} charge     {r.days_below_soc:>6} "
+        f"({pct(r.days_below_soc / r.days)})"
+    )
     if r.lolp_end_of_life is not None:
-        lines.append(f"  LOLP at end of battery life ({rep.end_of_life_scale:.0%} capacity) "
-                     f"{pct(r.lolp_end_of_life)}")
+        lines.append(
+            f"  LOLP at end of battery life ({rep.end_of_life_scale:.0%} capacity) "
+            f"{pct(r.lolp_end_of_life)}"
+        )
     if r.lolp_measured is not None:
         lines.append(f"  LOLP in the measured year(s) alone {pct(r.lolp_measured)}")
     lines.append("")
@@ -190,23 +260,33 @@ def summary_text(rep: SimulationReport) -> str:
     wr = r.wear
     cyc = "none counted" if wr.cycle_life_years is None else f"{wr.cycle_life_years:.1f} years"
     lines.append("Battery")
-    lines.append(f"  throughput {wr.throughput_kwh_per_year:.0f} kWh/year = "
-                 f"{wr.equivalent_full_cycles_per_year:.0f} equivalent full cycles/year")
-    lines.append(f"  rainflow (ASTM E1049) + Miner: cycle life {cyc}; calendar "
-                 f"{wr.calendar_life_years:.0f} years")
-    lines.append(f"  expected life {wr.expected_life_years:.1f} years (cycle-life curve "
-                 "from memory)")
-    lines.append(f"  energy: PV {r.pv_kwh_per_year:.0f} kWh/yr, spilled "
-                 f"{pct(r.spilled_fraction)}, battery losses "
-                 f"{r.battery_loss_kwh_per_year:.0f} kWh/yr")
+    lines.append(
+        f"  throughput {wr.throughput_kwh_per_year:.0f} kWh/year = "
+        f"{wr.equivalent_full_cycles_per_year:.0f} equivalent full cycles/year"
+    )
+    lines.append(
+        f"  rainflow (ASTM E1049) + Miner: cycle life {cyc}; calendar "
+        f"{wr.calendar_life_years:.0f} years"
+    )
+    lines.append(
+        f"  expected life {wr.expected_life_years:.1f} years (cycle-life curve from memory)"
+    )
+    lines.append(
+        f"  energy: PV {r.pv_kwh_per_year:.0f} kWh/yr, spilled "
+        f"{pct(r.spilled_fraction)}, battery losses "
+        f"{r.battery_loss_kwh_per_year:.0f} kWh/yr"
+    )
     if rep.tradeoff is not None:
         tr = rep.tradeoff
         lines.append("")
-        lines.append(f"Trade-off ({tr.sweep.array_w.size} x {tr.sweep.capacity_wh.size} "
-                     f"designs, one sweep)")
+        lines.append(
+            f"Trade-off ({tr.sweep.array_w.size} x {tr.sweep.capacity_wh.size} designs, one sweep)"
+        )
         for t in tr.targets:
-            lines.append(f"  reliability target: loads met on {pct(1 - t.target)} of days "
-                         f"(LOLP {pct(t.target)}):")
+            lines.append(
+                f"  reliability target: loads met on {pct(1 - t.target)} of days "
+                f"(LOLP {pct(t.target)}):"
+            )
             pts = list(t.points)
             if pts:
                 step = max(1, len(pts) // 6)
@@ -214,9 +294,15 @@ def summary_text(rep: SimulationReport) -> str:
                 if shown[-1] is not pts[-1]:
                     shown.append(pts[-1])
                 lines.append("    array W     " + " ".join(f"{p.array_w:7.0f}" for p in shown))
-                lines.append("    battery kWh " + " ".join(
-                    f"{('<=' if p.at_grid_edge else '') + format(p.capacity_wh / 1000, '.2f'):>7}"
-                    for p in shown))
+                lines.append(
+                    "    battery kWh "
+                    + " ".join(
+                        format(
+                            ("<=" if p.at_grid_edge else "") + f"{p.capacity_wh / 1000:.2f}", ">7"
+                        )
+                        for p in shown
+                    )
+                )
             lines += _wrap("    " + t.message, 80, "    ")
     lines.append("")
     for n in r.notes:

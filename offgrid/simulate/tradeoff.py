@@ -32,23 +32,28 @@ def check_target(target) -> float:
         text = str(target).strip()
         t = float(text[:-1]) / 100.0 if text.endswith("%") else float(target)
     except (TypeError, ValueError):
-        raise ValueError(f"target LOLP: {target!r} is not a number; give e.g. 0.01 "
-                         "for 1 %") from None
+        raise ValueError(
+            f"target LOLP: {target!r} is not a number; give e.g. 0.01 for 1 %"
+        ) from None
     if not np.isfinite(t) or t >= 1:
         raise ValueError(f"target LOLP: {target!r} must be below 1 (a fraction: 0.01 = 1 %)")
     if t <= 0:
-        raise ValueError("target LOLP: 0 cannot be promised by an array and battery of "
-                         "finite size in a random climate; give a positive fraction such "
-                         "as 0.001 (0.1 %)")
+        raise ValueError(
+            "target LOLP: 0 cannot be promised by an array and battery of "
+            "finite size in a random climate; give a positive fraction such "
+            "as 0.001 (0.1 %)"
+        )
     return t
 
 
 def check_prices(prices: Mapping[str, Any] | None) -> dict[str, float]:
     """Unit costs: ``{"array_per_w": ..., "battery_per_kwh": ...}`` (any one currency)."""
     if not prices:
-        raise ValueError("costs missing: give the array price per W and the battery price "
-                         "per kWh (prices={'array_per_w': 0.5, 'battery_per_kwh': 200}, or "
-                         "--array-price and --battery-price)")
+        raise ValueError(
+            "costs missing: give the array price per W and the battery price "
+            "per kWh (prices={'array_per_w': 0.5, 'battery_per_kwh': 200}, or "
+            "--array-price and --battery-price)"
+        )
     out: dict[str, float] = {}
     for key in PRICE_KEYS:
         if key not in prices or prices[key] is None:
@@ -75,9 +80,18 @@ class Sweep:
     days: int
 
 
-def sweep(inp: SystemInputs, weather: WeatherSeries, array_w, capacity_wh, *,
-          mode: str = "daily", extra=None, progress=None, cancelled=None,
-          steps=None) -> tuple[Sweep, Any]:
+def sweep(
+    inp: SystemInputs,
+    weather: WeatherSeries,
+    array_w,
+    capacity_wh,
+    *,
+    mode: str = "daily",
+    extra=None,
+    progress=None,
+    cancelled=None,
+    steps=None,
+) -> tuple[Sweep, Any]:
     """Run every (array, battery) pair of the grid in one vectorised balance.
 
     ``extra`` is an optional (array_w, capacity_wh) pair run in the same call
@@ -87,8 +101,11 @@ def sweep(inp: SystemInputs, weather: WeatherSeries, array_w, capacity_wh, *,
     cap = np.asarray(capacity_wh, dtype=float).ravel()
     if aw.size == 0 or cap.size == 0 or aw.size * cap.size > MAX_GRID**2:
         raise ValueError(f"sweep: need 1 to {MAX_GRID} values on each axis")
-    if np.any(aw <= 0) or np.any(cap < 0) or not (np.all(np.isfinite(aw)) and
-                                                   np.all(np.isfinite(cap))):
+    if (
+        np.any(aw <= 0)
+        or np.any(cap < 0)
+        or not (np.all(np.isfinite(aw)) and np.all(np.isfinite(cap)))
+    ):
         raise ValueError("sweep: array sizes must be positive and battery sizes 0 or more")
     a2, c2 = np.meshgrid(aw, cap, indexing="ij")
     a_all, c_all = a2.ravel(), c2.ravel()
@@ -96,17 +113,34 @@ def sweep(inp: SystemInputs, weather: WeatherSeries, array_w, capacity_wh, *,
         a_all = np.append(a_all, float(extra[0]))
         c_all = np.append(c_all, float(extra[1]))
     steps = steps if steps is not None else build_steps(inp, weather, mode)
-    bal = run_balance(steps, a_all, c_all, max_dod=inp.max_dod, eta_charge=inp.eta_charge,
-                      eta_discharge=inp.eta_discharge, initial_soc=inp.initial_soc,
-                      progress=progress, cancelled=cancelled)
+    bal = run_balance(
+        steps,
+        a_all,
+        c_all,
+        max_dod=inp.max_dod,
+        eta_charge=inp.eta_charge,
+        eta_discharge=inp.eta_discharge,
+        initial_soc=inp.initial_soc,
+        progress=progress,
+        cancelled=cancelled,
+    )
     n = aw.size * cap.size
     shape = (aw.size, cap.size)
-    sw = Sweep(aw, cap, bal.lolp[:n].reshape(shape), bal.lolp_critical[:n].reshape(shape),
-               bal.unmet_fraction[:n].reshape(shape), bal.days)
+    sw = Sweep(
+        aw,
+        cap,
+        bal.lolp[:n].reshape(shape),
+        bal.lolp_critical[:n].reshape(shape),
+        bal.unmet_fraction[:n].reshape(shape),
+        bal.days,
+    )
     extra_out = None
     if extra is not None:
-        extra_out = {"lolp": float(bal.lolp[n]), "lolp_critical": float(bal.lolp_critical[n]),
-                     "unmet_fraction": float(bal.unmet_fraction[n])}
+        extra_out = {
+            "lolp": float(bal.lolp[n]),
+            "lolp_critical": float(bal.lolp_critical[n]),
+            "unmet_fraction": float(bal.unmet_fraction[n]),
+        }
     return sw, extra_out
 
 
@@ -143,8 +177,9 @@ def point_cost(array_w: float, capacity_wh: float, prices: Mapping[str, Any]) ->
     return p["array_per_w"] * array_w + p["battery_per_kwh"] * capacity_wh / 1000.0
 
 
-def cheapest_point(points: list[CurvePoint], prices: Mapping[str, Any] | None
-                   ) -> tuple[CurvePoint, float] | None:
+def cheapest_point(
+    points: list[CurvePoint], prices: Mapping[str, Any] | None
+) -> tuple[CurvePoint, float] | None:
     """Cheapest point of a curve under unit costs; None when the curve is empty."""
     p = check_prices(prices)
     if not points:
@@ -193,22 +228,37 @@ class TradeOff:
             "capacity_wh": self.sweep.capacity_wh.round(3).tolist(),
             "lolp": self.sweep.lolp.round(6).tolist(),
             "days": self.sweep.days,
-            "design": {"array_w": self.design_array_w, "capacity_wh": self.design_capacity_wh,
-                       "lolp": self.design_lolp},
+            "design": {
+                "array_w": self.design_array_w,
+                "capacity_wh": self.design_capacity_wh,
+                "lolp": self.design_lolp,
+            },
             "prices": self.prices,
-            "targets": [{
-                "target_lolp": t.target,
-                "curve": [{"array_w": round(p.array_w, 3), "capacity_wh": round(p.capacity_wh, 3),
-                           "at_grid_edge": p.at_grid_edge} for p in t.points],
-                "cheapest": None if t.cheapest is None else {
-                    "array_w": round(t.cheapest.array_w, 3),
-                    "capacity_wh": round(t.cheapest.capacity_wh, 3),
-                    "cost": round(t.cheapest_cost, 2)},
-                "design_meets": t.design_meets,
-                "design_capacity_needed_wh": t.design_capacity_needed_wh,
-                "design_cost": t.design_cost,
-                "message": t.message,
-            } for t in self.targets],
+            "targets": [
+                {
+                    "target_lolp": t.target,
+                    "curve": [
+                        {
+                            "array_w": round(p.array_w, 3),
+                            "capacity_wh": round(p.capacity_wh, 3),
+                            "at_grid_edge": p.at_grid_edge,
+                        }
+                        for p in t.points
+                    ],
+                    "cheapest": None
+                    if t.cheapest is None
+                    else {
+                        "array_w": round(t.cheapest.array_w, 3),
+                        "capacity_wh": round(t.cheapest.capacity_wh, 3),
+                        "cost": round(t.cheapest_cost, 2),
+                    },
+                    "design_meets": t.design_meets,
+                    "design_capacity_needed_wh": t.design_capacity_needed_wh,
+                    "design_cost": t.design_cost,
+                    "message": t.message,
+                }
+                for t in self.targets
+            ],
             "notes": list(self.notes),
         }
 
@@ -221,21 +271,45 @@ def default_grid(reference: float, factors: tuple[float, float], n: int) -> np.n
     return reference * np.geomspace(factors[0], factors[1], n)
 
 
-def tradeoff(inp: SystemInputs, weather: WeatherSeries, *, targets=DEFAULT_TARGETS,
-             prices: Mapping[str, Any] | None = None, n_array: int = 30, n_battery: int = 30,
-             array_w=None, capacity_wh=None, mode: str = "daily", progress=None,
-             cancelled=None) -> TradeOff:
+def tradeoff(
+    inp: SystemInputs,
+    weather: WeatherSeries,
+    *,
+    targets=DEFAULT_TARGETS,
+    prices: Mapping[str, Any] | None = None,
+    n_array: int = 30,
+    n_battery: int = 30,
+    array_w=None,
+    capacity_wh=None,
+    mode: str = "daily",
+    progress=None,
+    cancelled=None,
+) -> TradeOff:
     """The target-LOLP curves, their cheapest points and where the reference design sits."""
     tgs = tuple(check_target(t) for t in targets)
     if not tgs:
         raise ValueError("target LOLP: give at least one target, e.g. 0.01")
     pr = check_prices(prices) if prices is not None else None
-    aw = (default_grid(inp.array_w, ARRAY_FACTORS, n_array) if array_w is None
-          else np.asarray(array_w, dtype=float))
-    cw = (default_grid(inp.capacity_wh, BATTERY_FACTORS, n_battery) if capacity_wh is None
-          else np.asarray(capacity_wh, dtype=float))
-    sw, design = sweep(inp, weather, aw, cw, mode=mode, extra=(inp.array_w, inp.capacity_wh),
-                       progress=progress, cancelled=cancelled)
+    aw = (
+        default_grid(inp.array_w, ARRAY_FACTORS, n_array)
+        if array_w is None
+        else np.asarray(array_w, dtype=float)
+    )
+    cw = (
+        default_grid(inp.capacity_wh, BATTERY_FACTORS, n_battery)
+        if capacity_wh is None
+        else np.asarray(capacity_wh, dtype=float)
+    )
+    sw, design = sweep(
+        inp,
+        weather,
+        aw,
+        cw,
+        mode=mode,
+        extra=(inp.array_w, inp.capacity_wh),
+        progress=progress,
+        cancelled=cancelled,
+    )
     d_lolp = design["lolp"]
     out = []
     for t in tgs:
@@ -245,26 +319,46 @@ def tradeoff(inp: SystemInputs, weather: WeatherSeries, *, targets=DEFAULT_TARGE
         meets = d_lolp <= t + 1e-12
         d_cost = point_cost(inp.array_w, inp.capacity_wh, pr) if pr is not None else None
         if not pts:
-            msg = (f"no design of the sweep reaches LOLP {t:.2%}; the best has "
-                   f"{float(sw.lolp.min()):.2%}: widen the sweep or lower the load")
+            msg = (
+                f"no design of the sweep reaches LOLP {t:.2%}; the best has "
+                f"{float(sw.lolp.min()):.2%}: widen the sweep or lower the load"
+            )
         else:
-            msg = (f"the worst-month design ({inp.array_w:.0f} W, {inp.capacity_wh / 1000:.2f} "
-                   f"kWh) has LOLP {d_lolp:.2%}: it {'meets' if meets else 'misses'} "
-                   f"{t:.2%}")
+            msg = (
+                f"the worst-month design ({inp.array_w:.0f} W, {inp.capacity_wh / 1000:.2f} "
+                f"kWh) has LOLP {d_lolp:.2%}: it {'meets' if meets else 'misses'} "
+                f"{t:.2%}"
+            )
             if need is not None:
                 msg += f"; with this array the battery needed for it is {need / 1000:.2f} kWh"
             if cheap is not None:
                 c, cost = cheap
-                msg += (f"; cheapest point {c.array_w:.0f} W with {c.capacity_wh / 1000:.2f} kWh "
-                        f"costs {cost:,.0f} (the design {d_cost:,.0f})")
+                msg += (
+                    f"; cheapest point {c.array_w:.0f} W with {c.capacity_wh / 1000:.2f} kWh "
+                    f"costs {cost:,.0f} (the design {d_cost:,.0f})"
+                )
             elif pr is None:
                 msg += "; give prices to find the cheapest point"
         if weather.days * t < 10:
-            msg += (f" (only {weather.days * t:.1f} shedding days allowed in {weather.days} "
-                    "days: simulate more years for a firmer answer)")
-        out.append(TargetResult(t, tuple(pts), None if cheap is None else cheap[0],
-                                None if cheap is None else cheap[1], meets, need, d_cost, msg))
-    notes = ("one vectorised run over all designs of the grid, sharing the weather",
-             "the controller is resized with the array (limit per W of array kept)",
-             "capacity meeting the target interpolated linearly in LOLP between grid points")
+            msg += (
+                f" (only {weather.days * t:.1f} shedding days allowed in {weather.days} "
+                "days: simulate more years for a firmer answer)"
+            )
+        out.append(
+            TargetResult(
+                t,
+                tuple(pts),
+                None if cheap is None else cheap[0],
+                None if cheap is None else cheap[1],
+                meets,
+                need,
+                d_cost,
+                msg,
+            )
+        )
+    notes = (
+        "one vectorised run over all designs of the grid, sharing the weather",
+        "the controller is resized with the array (limit per W of array kept)",
+        "capacity meeting the target interpolated linearly in LOLP between grid points",
+    )
     return TradeOff(sw, inp.array_w, inp.capacity_wh, d_lolp, tuple(out), pr, notes)

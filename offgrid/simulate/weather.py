@@ -43,8 +43,10 @@ MATRIX_FILE = Path(__file__).resolve().parents[1] / "data" / "aguiar1988_markov_
 #: Month (0-11) of each day of a 365-day year.
 MONTH_OF_DAY = np.repeat(np.arange(12), DAYS_IN_MONTH)
 MAX_YEARS = 1000
-SOURCE = ("Aguiar, Collares-Pereira & Conde (1988), Solar Energy 40(3) 269-279: "
-          "library of daily-KT Markov transition matrices")
+SOURCE = (
+    "Aguiar, Collares-Pereira & Conde (1988), Solar Energy 40(3) 269-279: "
+    "library of daily-KT Markov transition matrices"
+)
 
 
 @dataclass(frozen=True)
@@ -235,15 +237,18 @@ def check_measured(measured) -> np.ndarray:
     """Real daily totals: a multiple of 365 values, 1 January first, 29 February left out."""
     a = np.asarray(measured, dtype=float).reshape(-1)
     if a.size == 0 or a.size % DAYS_PER_YEAR:
-        raise ValueError(f"daily insolation: need 365 values per year (1 January first, "
-                         f"29 February left out), got {a.size}")
+        raise ValueError(
+            f"daily insolation: need 365 values per year (1 January first, "
+            f"29 February left out), got {a.size}"
+        )
     if not np.all(np.isfinite(a)) or np.any(a < 0) or np.any(a > 15):
         raise ValueError("daily insolation: values must be 0-15 kWh/m2/day; check the units")
     return a.reshape(-1, DAYS_PER_YEAR)
 
 
-def synthetic_daily_insolation(insolation_kwh_m2_day, latitude_deg: float, years: int = 30,
-                               seed=None, measured_kwh_m2_day=None) -> WeatherSeries:
+def synthetic_daily_insolation(
+    insolation_kwh_m2_day, latitude_deg: float, years: int = 30, seed=None, measured_kwh_m2_day=None
+) -> WeatherSeries:
     """Years of daily horizontal insolation reproducing the monthly means.
 
     Parameters
@@ -304,6 +309,11 @@ def synthetic_daily_insolation(insolation_kwh_m2_day, latitude_deg: float, years
         measured_years = real.shape[0]
         h = np.vstack([real, h])
     source = SOURCE + (f"; first {measured_years} year(s) measured" if measured_years else "")
-    return WeatherSeries(insolation_kwh_m2_day=h, measured_years=measured_years,
-                         target_kwh_m2_day=target, scale_factor=factor, seed=seed_value,
-                         source=source)
+    return WeatherSeries(
+        insolation_kwh_m2_day=h,
+        measured_years=measured_years,
+        target_kwh_m2_day=target,
+        scale_factor=factor,
+        seed=seed_value,
+        source=source,
+    )

@@ -33,14 +33,38 @@ from offgrid.tui.widgets.bars import SECTIONS
 AUTOSAVE_SECONDS = 0.0  # kept for callers; the recovery copy is written after every edit
 
 THEMES = (
-    Theme(name="offgrid-night", primary="#2a6f97", secondary="#468faf", accent="#f4a259",
-          foreground="#e8e8e8", background="#14181c", surface="#1d2329", panel="#27303a",
-          success="#7bc96f", warning="#f2c14e", error="#ef6461", dark=True),
+    Theme(
+        name="offgrid-night",
+        primary="#2a6f97",
+        secondary="#468faf",
+        accent="#f4a259",
+        foreground="#e8e8e8",
+        background="#14181c",
+        surface="#1d2329",
+        panel="#27303a",
+        success="#7bc96f",
+        warning="#f2c14e",
+        error="#ef6461",
+        dark=True,
+    ),
     # High contrast for a screen in the sun: black on white, strong pure colours.
-    Theme(name="offgrid-sunlight", primary="#000000", secondary="#003a8c", accent="#003a8c",
-          foreground="#000000", background="#ffffff", surface="#ffffff", panel="#d8d8d8",
-          boost="#ececec", success="#005a00", warning="#7a3e00", error="#b00000", dark=False,
-          luminosity_spread=0.05, text_alpha=1.0),
+    Theme(
+        name="offgrid-sunlight",
+        primary="#000000",
+        secondary="#003a8c",
+        accent="#003a8c",
+        foreground="#000000",
+        background="#ffffff",
+        surface="#ffffff",
+        panel="#d8d8d8",
+        boost="#ececec",
+        success="#005a00",
+        warning="#7a3e00",
+        error="#b00000",
+        dark=False,
+        luminosity_spread=0.05,
+        text_alpha=1.0,
+    ),
 )
 DEFAULT_THEME = "offgrid-night"
 SUN_THEME = "offgrid-sunlight"
@@ -72,14 +96,22 @@ class OffgridApp(App):
         Binding("ctrl+q", "quit", "Quit", show=False, priority=True, id="app.quit_ctrl"),
         Binding("t", "toggle_theme", "Sunlight colours", show=False, id="app.theme"),
         Binding("P", "plan", "Plan a community", show=False, id="app.plan"),
-        Binding("ctrl+p", "command_palette", "Commands", show=False, priority=True,
-                id="app.commands"),
+        Binding(
+            "ctrl+p", "command_palette", "Commands", show=False, priority=True, id="app.commands"
+        ),
         Binding("colon", "command_palette", "Commands", show=False, id="app.commands_colon"),
     ]
 
-    def __init__(self, session: Session | None = None, *, state: Path | None = None,
-                 orphans: list[Recovery] | None = None, section: str = "place",
-                 autosave_seconds: float = AUTOSAVE_SECONDS, theme: str | None = None) -> None:
+    def __init__(
+        self,
+        session: Session | None = None,
+        *,
+        state: Path | None = None,
+        orphans: list[Recovery] | None = None,
+        section: str = "place",
+        autosave_seconds: float = AUTOSAVE_SECONDS,
+        theme: str | None = None,
+    ) -> None:
         super().__init__()
         self.initial_session = session
         self.state = state or state_dir()
@@ -105,8 +137,11 @@ class OffgridApp(App):
         # On the work screen each key is handled to the end before the next one
         # (offgrid.tui.keys says why): no key typed after the one that opens an
         # editor is lost or reordered.
-        if isinstance(event, events.Key) and not event.is_forwarded and \
-                isinstance(self.screen, WorkScreen):
+        if (
+            isinstance(event, events.Key)
+            and not event.is_forwarded
+            and isinstance(self.screen, WorkScreen)
+        ):
             from offgrid.tui.keys import handle_key_now
 
             await handle_key_now(self, event)
@@ -142,8 +177,12 @@ class OffgridApp(App):
         if session is not None:
             self.push_screen(WorkScreen(session, self.initial_section))
             if session.origin == "new-file":
-                self.notify(f"{printable(session.path.name)} does not exist yet: this is a new "
-                            "project; s saves it there.", markup=False, timeout=6)
+                self.notify(
+                    f"{printable(session.path.name)} does not exist yet: this is a new "
+                    "project; s saves it there.",
+                    markup=False,
+                    timeout=6,
+                )
             elif session.path is not None:
                 remember_project(session.path, self.state)
             self._tell_notes(session)
@@ -153,13 +192,13 @@ class OffgridApp(App):
     def _tell_notes(self, session: Session) -> None:
         """What migrating an older project file could not carry over (Session.notes)."""
         for note in session.notes:
-            self.notify(note, title="Older project file", severity="warning", markup=False,
-                        timeout=12)
+            self.notify(
+                note, title="Older project file", severity="warning", markup=False, timeout=12
+            )
 
     def _recovery_answer(self, answer) -> None:
         if not answer:
-            self.notify("The recovery file is kept; it is offered again next time.",
-                        timeout=4)
+            self.notify("The recovery file is kept; it is offered again next time.", timeout=4)
             return
         what, item = answer
         if what == "discard":
@@ -176,11 +215,13 @@ class OffgridApp(App):
         self._use_session(session, check=False)
         discard_recovery(item)
         self.recovery.write(session.text(), session.path, session.title, session.baseline)
-        self.notify("Recovered: these changes are not saved to the project file yet (s saves).",
-                    timeout=6)
+        self.notify(
+            "Recovered: these changes are not saved to the project file yet (s saves).", timeout=6
+        )
 
     def _use_session(self, session: Session, check: bool = True) -> None:
         """Show ``session`` on the work screen (after asking about unsaved changes)."""
+
         def go(answer: str | None = "discard") -> None:
             if answer == "save":
                 self.save_project(then=lambda: go("discard"))
@@ -206,9 +247,11 @@ class OffgridApp(App):
 
     def _unsaved_dialog(self, when: str) -> ConfirmDialog:
         name = printable(self.session.title if self.session else "")
-        return ConfirmDialog("Unsaved changes", f"'{name}' has changes that are not saved "
-                             f"({when}).", [("s", "Save them", "save"),
-                                            ("d", "Discard them", "discard")])
+        return ConfirmDialog(
+            "Unsaved changes",
+            f"'{name}' has changes that are not saved ({when}).",
+            [("s", "Save them", "save"), ("d", "Discard them", "discard")],
+        )
 
     # ------------------------------------------------------------------ new / open
     def open_path(self, path: Path) -> None:
@@ -218,9 +261,12 @@ class OffgridApp(App):
             session = Session.open(path)
         except ProjectFileError as exc:
             body = "\n".join(str(p) for p in exc.problems)
-            self.push_screen(MessageDialog(f"{printable(str(path))} cannot be opened",
-                                           body + "\n\nNothing was opened and the file was "
-                                           "not changed."))
+            self.push_screen(
+                MessageDialog(
+                    f"{printable(str(path))} cannot be opened",
+                    body + "\n\nNothing was opened and the file was not changed.",
+                )
+            )
             return
         self._use_session(session)
 
@@ -270,8 +316,9 @@ class OffgridApp(App):
             go()
 
     # ------------------------------------------------------------------ save / revert
-    def save_project(self, ask: bool = False, then=None, start: str | None = None,
-                     title: str = "Save as") -> None:
+    def save_project(
+        self, ask: bool = False, then=None, start: str | None = None, title: str = "Save as"
+    ) -> None:
         session = self.session
         if session is None:
             return
@@ -284,15 +331,18 @@ class OffgridApp(App):
                     return
                 if path.suffix == "":
                     path = path.with_suffix(".toml")
-                if path.exists() and (session.path is None or
-                                      path.resolve() != session.path):
+                if path.exists() and (session.path is None or path.resolve() != session.path):
                     from offgrid.project.atomic import real_target
 
-                    self.push_screen(ConfirmDialog(
-                        "Replace file?", f"{path} exists. Replace it? (the old one is kept as "
-                        f"{real_target(path).name}.bak)",
-                        [("y", "Replace it", "yes"), ("n", "Keep it", "no")]),
-                        lambda a: self._save_to(path, then) if a == "yes" else None)
+                    self.push_screen(
+                        ConfirmDialog(
+                            "Replace file?",
+                            f"{path} exists. Replace it? (the old one is kept as "
+                            f"{real_target(path).name}.bak)",
+                            [("y", "Replace it", "yes"), ("n", "Keep it", "no")],
+                        ),
+                        lambda a: self._save_to(path, then) if a == "yes" else None,
+                    )
                 else:
                     self._save_to(path, then)
 
@@ -309,21 +359,33 @@ class OffgridApp(App):
         try:
             saved = session.save(path, overwrite=overwrite)
         except ChangedOnDisk:
-            self.push_screen(ConfirmDialog(
-                "Changed on disk", f"{path.name} was changed by another program or window "
-                "since you opened or last saved it, so your changes are not saved yet. "
-                f"Overwriting keeps the other version as {path.name}.bak.",
-                [("c", "Save mine as a copy", "copy"), ("r", "Reload theirs", "reload"),
-                 ("o", "Overwrite theirs", "overwrite")], wide=True),
-                lambda answer: self._changed_on_disk(answer, path, then))
+            self.push_screen(
+                ConfirmDialog(
+                    "Changed on disk",
+                    f"{path.name} was changed by another program or window "
+                    "since you opened or last saved it, so your changes are not saved yet. "
+                    f"Overwriting keeps the other version as {path.name}.bak.",
+                    [
+                        ("c", "Save mine as a copy", "copy"),
+                        ("r", "Reload theirs", "reload"),
+                        ("o", "Overwrite theirs", "overwrite"),
+                    ],
+                    wide=True,
+                ),
+                lambda answer: self._changed_on_disk(answer, path, then),
+            )
             return
         except EditRejected as exc:
             body = "\n".join(f"{p.path}: {p.message}" for p in exc.problems)
             self.push_screen(MessageDialog("Not saved yet", body))
             return
         except OSError as exc:
-            self.notify(f"Not saved: {exc.strerror or exc} ({path})", severity="error",
-                        markup=False, timeout=6)
+            self.notify(
+                f"Not saved: {exc.strerror or exc} ({path})",
+                severity="error",
+                markup=False,
+                timeout=6,
+            )
             return
         self.recovery.clear()
         remember_project(saved, self.state)
@@ -341,8 +403,9 @@ class OffgridApp(App):
         if answer == "overwrite":
             self._save_to(path, then, overwrite=True)
         elif answer == "copy":
-            self.save_project(ask=True, then=then, start=str(free_copy_name(path)),
-                              title="Save mine as a copy")
+            self.save_project(
+                ask=True, then=then, start=str(free_copy_name(path)), title="Save mine as a copy"
+            )
         elif answer == "reload":
             from offgrid.project.store import ProjectFileError
 
@@ -354,8 +417,7 @@ class OffgridApp(App):
             self.recovery.clear()
             if self.work is not None:
                 self.work.changed()
-            self.notify("Reloaded the version on disk; u brings yours back (unsaved).",
-                        timeout=5)
+            self.notify("Reloaded the version on disk; u brings yours back (unsaved).", timeout=5)
         else:
             self.notify("Not saved: the file on disk is left as it is.", timeout=4)
 
@@ -381,9 +443,14 @@ class OffgridApp(App):
             self.notify("No unsaved changes.", timeout=2)
             return
         where = session.path.name if session.path else "the starting state"
-        self.push_screen(ConfirmDialog("Revert?", f"Throw away the unsaved changes and go back "
-                                       f"to {where}?", [("y", "Revert", "yes"),
-                                                        ("n", "Keep working", "no")]), go)
+        self.push_screen(
+            ConfirmDialog(
+                "Revert?",
+                f"Throw away the unsaved changes and go back to {where}?",
+                [("y", "Revert", "yes"), ("n", "Keep working", "no")],
+            ),
+            go,
+        )
 
     # ------------------------------------------------------------------ report, BOM, plan
     def export_dialog(self, what: str) -> None:
@@ -392,16 +459,25 @@ class OffgridApp(App):
         if session is None:
             return
         if session.design is None:
-            self.notify("No design yet, so nothing to export: see the headline.",
-                        severity="warning", timeout=4)
+            self.notify(
+                "No design yet, so nothing to export: see the headline.",
+                severity="warning",
+                timeout=4,
+            )
             return
         stem = suggested_name(session.title).removesuffix(".toml")
         if what == "report":
-            start, suffixes, title = f"{stem}-report.html", (".html", ".md", ".txt"), \
-                "Export the design report (.html, .md or .txt)"
+            start, suffixes, title = (
+                f"{stem}-report.html",
+                (".html", ".md", ".txt"),
+                "Export the design report (.html, .md or .txt)",
+            )
         else:
-            start, suffixes, title = f"{stem}-bom.csv", (".csv",), \
-                "Export the bill of materials (CSV)"
+            start, suffixes, title = (
+                f"{stem}-bom.csv",
+                (".csv",),
+                "Export the bill of materials (CSV)",
+            )
 
         def chosen(path: Path | None) -> None:
             if path is None:
@@ -410,20 +486,25 @@ class OffgridApp(App):
 
             refusal = overwrite_refusal(path, session.path)
             if refusal:
-                self.notify(f"Not written: {printable(refusal)}", severity="error",
-                            markup=False, timeout=8)
+                self.notify(
+                    f"Not written: {printable(refusal)}", severity="error", markup=False, timeout=8
+                )
                 return
             if path.exists():
-                self.push_screen(ConfirmDialog("Replace file?", f"{path} exists.",
-                                               [("y", "Replace it", "yes"),
-                                                ("n", "Keep it", "no")]),
-                                 lambda a: self._export(what, path, True) if a == "yes"
-                                 else None)
+                self.push_screen(
+                    ConfirmDialog(
+                        "Replace file?",
+                        f"{path} exists.",
+                        [("y", "Replace it", "yes"), ("n", "Keep it", "no")],
+                    ),
+                    lambda a: self._export(what, path, True) if a == "yes" else None,
+                )
             else:
                 self._export(what, path, False)
 
-        self.push_screen(PathDialog(title, start, suffixes=suffixes, must_exist=False,
-                                    verb="writes it"), chosen)
+        self.push_screen(
+            PathDialog(title, start, suffixes=suffixes, must_exist=False, verb="writes it"), chosen
+        )
 
     def _export(self, what: str, path: Path, force: bool) -> None:
         import copy
@@ -444,22 +525,33 @@ class OffgridApp(App):
             try:
                 from offgrid.report.export import ExportError, export_bom, export_report
             except ImportError as exc:
-                self.call_from_thread(self.notify, f"Export is not available: {exc}",
-                                      severity="error", markup=False)
+                self.call_from_thread(
+                    self.notify, f"Export is not available: {exc}", severity="error", markup=False
+                )
                 return
             try:
                 if what == "report":
-                    written = export_report(project, path, base, force=force, design=design,
-                                            reading=reading, reliability=reliability)
+                    written = export_report(
+                        project,
+                        path,
+                        base,
+                        force=force,
+                        design=design,
+                        reading=reading,
+                        reliability=reliability,
+                    )
                 else:
-                    written = export_bom(project, path, base, force=force, design=design,
-                                         reading=reading)
+                    written = export_bom(
+                        project, path, base, force=force, design=design, reading=reading
+                    )
             except ExportError as exc:
-                self.call_from_thread(self.notify, f"Not written: {exc}", severity="error",
-                                      markup=False, timeout=8)
+                self.call_from_thread(
+                    self.notify, f"Not written: {exc}", severity="error", markup=False, timeout=8
+                )
                 return
-            self.call_from_thread(self.notify, f"Written: {printable(str(written))}",
-                                  markup=False, timeout=5)
+            self.call_from_thread(
+                self.notify, f"Written: {printable(str(written))}", markup=False, timeout=5
+            )
 
         self.run_worker(run, thread=True, group="export", exclusive=True)
 
@@ -468,8 +560,9 @@ class OffgridApp(App):
         try:
             from offgrid.tui.screens.plan import PlanScreen
         except ImportError as exc:
-            self.notify(f"Community planning is not available: {exc}", severity="error",
-                        markup=False)
+            self.notify(
+                f"Community planning is not available: {exc}", severity="error", markup=False
+            )
             return
         self.push_screen(PlanScreen())
 
@@ -496,8 +589,9 @@ class OffgridApp(App):
     def _recovery_failed(self, exc: OSError) -> None:
         """On the writer thread: say so on the UI thread."""
         with contextlib.suppress(RuntimeError):  # RuntimeError: the app has ended
-            self.call_from_thread(self.notify, f"Recovery file not written: {exc}",
-                                  severity="warning", markup=False)
+            self.call_from_thread(
+                self.notify, f"Recovery file not written: {exc}", severity="warning", markup=False
+            )
 
     def write_recovery_now(self) -> bool:
         """Write the recovery file at once (hang-up, crash); True if there was work to keep."""
@@ -523,9 +617,14 @@ class OffgridApp(App):
                 self.recovery.clear()
                 self.exit(0)
 
-        self.push_screen(ConfirmDialog(
-            "Quit offgrid?", f"'{printable(session.title)}' has unsaved changes.",
-            [("s", "Save and quit", "save"), ("d", "Quit without saving", "discard")]), answer)
+        self.push_screen(
+            ConfirmDialog(
+                "Quit offgrid?",
+                f"'{printable(session.title)}' has unsaved changes.",
+                [("s", "Save and quit", "save"), ("d", "Quit without saving", "discard")],
+            ),
+            answer,
+        )
 
     def action_plan(self) -> None:
         self.open_plan()
@@ -550,21 +649,34 @@ class OffgridApp(App):
 
         work = b(WorkScreen)
         moving = [x for x in work if x.id and x.id.startswith("go.")]
-        moving = [Binding("1,2,3,4,5,6,7,8", "goto", "Go to section 1-8 (Place ... Options)"),
-                  *[x for x in moving if x.id[3:] not in {s for s, _t, _w in SECTIONS}],
-                  Binding("up,down,left,right", "move", "Move the cursor"),
-                  Binding("pageup,pagedown", "page", "Move a page"),
-                  Binding("tab,shift+tab", "focus", "Next / previous table")]
+        moving = [
+            Binding("1,2,3,4,5,6,7,8", "goto", "Go to section 1-8 (Place ... Options)"),
+            *[x for x in moving if x.id[3:] not in {s for s, _t, _w in SECTIONS}],
+            Binding("up,down,left,right", "move", "Move the cursor"),
+            Binding("pageup,pagedown", "page", "Move a page"),
+            Binding("tab,shift+tab", "focus", "Next / previous table"),
+        ]
         return [
-            ("Everywhere", [*b(OffgridApp), Binding("ctrl+p", "palette", "Command list "
-                                                    "(every action)"),
-                            *[x for x in work if not x.id or not x.id.startswith("go.")]]),
+            (
+                "Everywhere",
+                [
+                    *b(OffgridApp),
+                    Binding("ctrl+p", "palette", "Command list (every action)"),
+                    *[x for x in work if not x.id or not x.id.startswith("go.")],
+                ],
+            ),
             ("Moving around", moving),
-            ("Editing a value", [*b(FieldTable), *b(EditBar),
-                                 Binding("any key", "type", "Typing replaces the old value "
-                                         "(it opens selected)"),
-                                 Binding("left,right,home,end", "keep", "Keep the old value "
-                                         "to change part of it")]),
+            (
+                "Editing a value",
+                [
+                    *b(FieldTable),
+                    *b(EditBar),
+                    Binding("any key", "type", "Typing replaces the old value (it opens selected)"),
+                    Binding(
+                        "left,right,home,end", "keep", "Keep the old value to change part of it"
+                    ),
+                ],
+            ),
             ("1 Place", [*b(PlaceSection), *b(ClimateTable)]),
             ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
             ("7 Risk", b(RiskSection)),
@@ -580,8 +692,7 @@ class OffgridApp(App):
             from offgrid.tui.screens.plan import PlanScreen
         except ImportError:
             return []
-        return [("Community plan (P)", [x for x in PlanScreen.BINDINGS
-                                        if isinstance(x, Binding)])]
+        return [("Community plan (P)", [x for x in PlanScreen.BINDINGS if isinstance(x, Binding)])]
 
     def action_help(self) -> None:
         work = self.work
@@ -591,8 +702,9 @@ class OffgridApp(App):
             sid = work.section
             n = [s for s, _t, _w in SECTIONS].index(sid) + 1
             first = next((t for t, _b in self.help_groups() if t.startswith(f"{n} ")), None)
-            about = f"You are in {n} {work.current.__class__.__name__[:-7]}: " \
-                    f"{work.current.help_text}"
+            about = (
+                f"You are in {n} {work.current.__class__.__name__[:-7]}: {work.current.help_text}"
+            )
         self.push_screen(HelpDialog(self.help_groups(), first, about))
 
     def _field_commands(self, work: WorkScreen) -> Iterable[SystemCommand]:
@@ -602,40 +714,51 @@ class OffgridApp(App):
         from offgrid.tui.sections.sizes import figure_rows
         from offgrid.tui.sections.wires import WIRING_FIELDS
 
-        for where, fields in (("1 Place", (*PROJECT_FIELDS, *CLIMATE_FIELDS)),
-                              ("3 Parts", PARTS_FIELDS), ("5 Wires", WIRING_FIELDS)):
+        for where, fields in (
+            ("1 Place", (*PROJECT_FIELDS, *CLIMATE_FIELDS)),
+            ("3 Parts", PARTS_FIELDS),
+            ("5 Wires", WIRING_FIELDS),
+        ):
             for f in fields:
                 if isinstance(f, str):
                     continue
-                yield SystemCommand(f"{f.label} ({where})", f"Edit: {f.help() or f.path}",
-                                    lambda p=f.path: work.reveal(p))
+                yield SystemCommand(
+                    f"{f.label} ({where})",
+                    f"Edit: {f.help() or f.path}",
+                    lambda p=f.path: work.reveal(p),
+                )
         design = work.session.design
         if design is not None:
             for row in figure_rows(design):
                 if isinstance(row, str) or not row[2]:
                     continue
                 label, value, path = row
-                yield SystemCommand(f"{label.strip()} (4 Sizes)", f"Figure: {value}",
-                                    lambda p=path: work.reveal(p))
+                yield SystemCommand(
+                    f"{label.strip()} (4 Sizes)", f"Figure: {value}", lambda p=path: work.reveal(p)
+                )
 
     def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
         work = self.work if isinstance(screen, WorkScreen) else None
         if work is not None:
             for n, (sid, title, what) in enumerate(SECTIONS, start=1):
-                yield SystemCommand(f"Go to {n} {title}", what,
-                                    lambda s=sid: work.action_goto(s))
+                yield SystemCommand(f"Go to {n} {title}", what, lambda s=sid: work.action_goto(s))
 
             def in_section(sid: str, action: str):
                 def run() -> None:
                     work.action_goto(sid)
                     getattr(work.current, f"action_{action}")()
+
                 return run
 
             yield from self._field_commands(work)
-            yield SystemCommand("I-V curves", "The array's I-V and P-V curves: design month, "
-                                "record low, hottest month (v)", work.action_curves)
-            yield SystemCommand("Why this value", "The reason for the figure under the cursor "
-                                "(w)", work.action_why)
+            yield SystemCommand(
+                "I-V curves",
+                "The array's I-V and P-V curves: design month, record low, hottest month (v)",
+                work.action_curves,
+            )
+            yield SystemCommand(
+                "Why this value", "The reason for the figure under the cursor (w)", work.action_why
+            )
             yield SystemCommand("Recalculate", "Run the design again", work.changed)
             yield SystemCommand("Save", "Save the project (s, ctrl+s)", work.action_save)
             yield SystemCommand("Save as", "Save under a new name (S)", work.action_save_as)
@@ -643,53 +766,104 @@ class OffgridApp(App):
             yield SystemCommand("Revert", "Back to the saved file (r)", work.action_revert)
             yield SystemCommand("Undo", "Undo the last change (u)", work.action_undo)
             yield SystemCommand("Redo", "Redo (U, ctrl+y)", work.action_redo)
-            yield SystemCommand("Start screen", "Recent projects, new, open (n)",
-                                work.action_start)
-            yield SystemCommand("Climate", "Pick the site's climate (Place, c)",
-                                in_section("place", "choose_climate"))
-            yield SystemCommand("Type twelve months", "Use your own monthly climate values "
-                                "(Place, m)", in_section("place", "own_months"))
-            yield SystemCommand("Horizon", "Type the hills and trees around the site (Place, "
-                                "z)", in_section("place", "horizon"))
-            yield SystemCommand("Add appliance", "A new line in the load list (Loads, a)",
-                                in_section("loads", "add"))
-            yield SystemCommand("Copy appliance", "Duplicate the line under the cursor "
-                                "(Loads, d)", in_section("loads", "duplicate"))
-            yield SystemCommand("Delete appliance", "Remove the line under the cursor (Loads, "
-                                "x)", in_section("loads", "delete"))
-            yield SystemCommand("Move appliance up", "(Loads, K or shift+up)",
-                                lambda: (work.action_goto("loads"),
-                                         work.current.action_move(-1)))
-            yield SystemCommand("Move appliance down", "(Loads, J or shift+down)",
-                                lambda: (work.action_goto("loads"),
-                                         work.current.action_move(1)))
-            yield SystemCommand("Import load list", "Read appliances from a CSV file (Loads, "
-                                "i)", in_section("loads", "import_csv"))
-            yield SystemCommand("Export load list", "Write the appliances to a CSV file "
-                                "(Loads, e)", in_section("loads", "export_csv"))
-            yield SystemCommand("Run the risk check", "Simulate synthetic weather years in the "
-                                "background (Risk, g)", in_section("risk", "run"))
+            yield SystemCommand("Start screen", "Recent projects, new, open (n)", work.action_start)
+            yield SystemCommand(
+                "Climate",
+                "Pick the site's climate (Place, c)",
+                in_section("place", "choose_climate"),
+            )
+            yield SystemCommand(
+                "Type twelve months",
+                "Use your own monthly climate values (Place, m)",
+                in_section("place", "own_months"),
+            )
+            yield SystemCommand(
+                "Horizon",
+                "Type the hills and trees around the site (Place, z)",
+                in_section("place", "horizon"),
+            )
+            yield SystemCommand(
+                "Add appliance",
+                "A new line in the load list (Loads, a)",
+                in_section("loads", "add"),
+            )
+            yield SystemCommand(
+                "Copy appliance",
+                "Duplicate the line under the cursor (Loads, d)",
+                in_section("loads", "duplicate"),
+            )
+            yield SystemCommand(
+                "Delete appliance",
+                "Remove the line under the cursor (Loads, x)",
+                in_section("loads", "delete"),
+            )
+            yield SystemCommand(
+                "Move appliance up",
+                "(Loads, K or shift+up)",
+                lambda: (work.action_goto("loads"), work.current.action_move(-1)),
+            )
+            yield SystemCommand(
+                "Move appliance down",
+                "(Loads, J or shift+down)",
+                lambda: (work.action_goto("loads"), work.current.action_move(1)),
+            )
+            yield SystemCommand(
+                "Import load list",
+                "Read appliances from a CSV file (Loads, i)",
+                in_section("loads", "import_csv"),
+            )
+            yield SystemCommand(
+                "Export load list",
+                "Write the appliances to a CSV file (Loads, e)",
+                in_section("loads", "export_csv"),
+            )
+            yield SystemCommand(
+                "Run the risk check",
+                "Simulate synthetic weather years in the background (Risk, g)",
+                in_section("risk", "run"),
+            )
             yield SystemCommand("Stop the risk check", "(Risk, x)", in_section("risk", "stop"))
-            yield SystemCommand("Add an option", "A variant of the design with one change "
-                                "(Options, a)", in_section("options", "add_variant"))
-            yield SystemCommand("Price list", "Show and edit the project's prices (Options, p)",
-                                in_section("options", "show_prices"))
-            yield SystemCommand("Import prices", "Read a price list CSV (Options, prices, i)",
-                                in_section("options", "import_prices"))
-            yield SystemCommand("Export report", "Write the design report: HTML, Markdown or "
-                                "text (E)", lambda: self.export_dialog("report"))
-            yield SystemCommand("Export bill of materials", "Write the parts list as CSV (B)",
-                                lambda: self.export_dialog("bom"))
-        yield SystemCommand("Plan a community", "Many households from one survey: standard "
-                            "kits and totals (P)", self.open_plan)
+            yield SystemCommand(
+                "Add an option",
+                "A variant of the design with one change (Options, a)",
+                in_section("options", "add_variant"),
+            )
+            yield SystemCommand(
+                "Price list",
+                "Show and edit the project's prices (Options, p)",
+                in_section("options", "show_prices"),
+            )
+            yield SystemCommand(
+                "Import prices",
+                "Read a price list CSV (Options, prices, i)",
+                in_section("options", "import_prices"),
+            )
+            yield SystemCommand(
+                "Export report",
+                "Write the design report: HTML, Markdown or text (E)",
+                lambda: self.export_dialog("report"),
+            )
+            yield SystemCommand(
+                "Export bill of materials",
+                "Write the parts list as CSV (B)",
+                lambda: self.export_dialog("bom"),
+            )
+        yield SystemCommand(
+            "Plan a community",
+            "Many households from one survey: standard kits and totals (P)",
+            self.open_plan,
+        )
         yield SystemCommand("New blank project", "Start from nothing", self.new_blank)
-        yield SystemCommand("New demo project", "The Kisanga Ridge health post (invented)",
-                            self.new_demo)
-        yield SystemCommand("Sunlight colours", "Switch to high contrast and back (t)",
-                            self.action_toggle_theme)
+        yield SystemCommand(
+            "New demo project", "The Kisanga Ridge health post (invented)", self.new_demo
+        )
+        yield SystemCommand(
+            "Sunlight colours", "Switch to high contrast and back (t)", self.action_toggle_theme
+        )
         yield SystemCommand("Help", "All keys (?, h, F1)", self.action_help)
-        yield SystemCommand("Quit", "Leave offgrid, asking about unsaved changes (q, ctrl+q)",
-                            self.action_quit)
+        yield SystemCommand(
+            "Quit", "Leave offgrid, asking about unsaved changes (q, ctrl+q)", self.action_quit
+        )
         for cmd in super().get_system_commands(screen):
             if cmd.title not in ("Quit", "Theme", "Keys"):
                 yield cmd
@@ -718,9 +892,15 @@ def new_file_session(target: Path) -> Session:
     return session
 
 
-def make_app(path: str | Path | None = None, *, demo: bool = False,
-             session: Session | None = None, state: Path | None = None,
-             check_recovery: bool = True, **kwargs) -> OffgridApp:
+def make_app(
+    path: str | Path | None = None,
+    *,
+    demo: bool = False,
+    session: Session | None = None,
+    state: Path | None = None,
+    check_recovery: bool = True,
+    **kwargs,
+) -> OffgridApp:
     """The app for a file, the demo, or the start screen (neither).
 
     Raises :class:`~offgrid.project.store.ProjectFileError` if ``path`` cannot be opened.
@@ -732,8 +912,11 @@ def make_app(path: str | Path | None = None, *, demo: bool = False,
             session = demo_session()
         elif path is not None:
             target = Path(path).expanduser()
-            if not target.exists() and target.suffix.lower() == ".toml" and \
-                    target.resolve().parent.is_dir():
+            if (
+                not target.exists()
+                and target.suffix.lower() == ".toml"
+                and target.resolve().parent.is_dir()
+            ):
                 session = new_file_session(target)  # nothing is written until saved
             else:
                 session = Session.open(target)

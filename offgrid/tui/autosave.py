@@ -20,8 +20,9 @@ Job = tuple[str, Path | None, str, str]  # text, project path, title, baseline
 class RecoveryWriter:
     """Coalescing writer of one :class:`RecoveryStore`; other attributes are the store's."""
 
-    def __init__(self, store: RecoveryStore,
-                 on_error: Callable[[OSError], None] | None = None) -> None:
+    def __init__(
+        self, store: RecoveryStore, on_error: Callable[[OSError], None] | None = None
+    ) -> None:
         self.store = store
         self.on_error = on_error
         self.writes = 0
@@ -35,8 +36,9 @@ class RecoveryWriter:
         with self._cond:
             self._pending = (text, path, title, baseline)
             if self._thread is None or not self._thread.is_alive():
-                self._thread = threading.Thread(target=self._run, name="offgrid-recovery",
-                                                daemon=True)
+                self._thread = threading.Thread(
+                    target=self._run, name="offgrid-recovery", daemon=True
+                )
                 self._thread.start()
             self._cond.notify_all()
 
@@ -62,8 +64,7 @@ class RecoveryWriter:
     def flush(self, timeout_s: float = 2.0) -> bool:
         """Wait until everything given has been written; False on timeout."""
         with self._cond:
-            return self._cond.wait_for(lambda: self._pending is None and not self._busy,
-                                       timeout_s)
+            return self._cond.wait_for(lambda: self._pending is None and not self._busy, timeout_s)
 
     def _run(self) -> None:
         while True:

@@ -47,8 +47,10 @@ def run(argv: list[str]) -> int:
     try:
         app = make_app(path, demo=demo)
     except ProjectFileError as exc:
-        print(visible(f"offgrid: {exc}\nNothing was opened; the file was not changed."),
-              file=sys.stderr)
+        print(
+            visible(f"offgrid: {exc}\nNothing was opened; the file was not changed."),
+            file=sys.stderr,
+        )
         return 2
 
     def hang_up(signum, _frame) -> None:

@@ -152,8 +152,11 @@ class Session:
         except (ValueError, TypeError, IndexError) as exc:
             self.project = before
             raise EditRejected([Problem(focus or "value", str(exc))]) from exc
-        new = [p for p in validate_project(self.project)
-               if p.path not in old or (focus is not None and p.path == focus)]
+        new = [
+            p
+            for p in validate_project(self.project)
+            if p.path not in old or (focus is not None and p.path == focus)
+        ]
         if new:
             self.project = before
             raise EditRejected(new)
@@ -233,8 +236,7 @@ class Session:
         target = target.resolve()
         own = self.path is not None and target == self.path
         check = own and not overwrite and target.exists()  # a removed file: just write it
-        self.disk = save_project(self.project, target,
-                                 expect=self.disk if check else False)
+        self.disk = save_project(self.project, target, expect=self.disk if check else False)
         self.path = target
         self.origin = "file"
         self.baseline = self.text()
@@ -258,8 +260,9 @@ class Session:
 
 def blank_project() -> Project:
     """A new empty project: the user picks a climate and adds loads."""
-    return Project(info=ProjectInfo(name="New project"), site=Site(name=""),
-                   climate=ClimateChoice())
+    return Project(
+        info=ProjectInfo(name="New project"), site=Site(name=""), climate=ClimateChoice()
+    )
 
 
 def demo_session() -> Session:
@@ -281,12 +284,20 @@ def scenario_session(csv_path: Path, climate_ref: str = "kisanga-ridge-demo") ->
     climate = load_climate(climate_ref)
     title = csv_path.stem.replace("-", " ").capitalize()
     project = Project(
-        info=ProjectInfo(name=f"{title} (demo)", demo=True,
-                         notes="Demonstration data: invented scenario, not a survey."),
-        site=Site(name=f"{title} site (demo)", latitude_deg=climate.latitude_deg or 0.0,
-                  longitude_deg=climate.longitude_deg or 0.0,
-                  elevation_m=climate.elevation_m or 0.0),
-        climate=ClimateChoice(ref=climate_ref), loads=loads)
+        info=ProjectInfo(
+            name=f"{title} (demo)",
+            demo=True,
+            notes="Demonstration data: invented scenario, not a survey.",
+        ),
+        site=Site(
+            name=f"{title} site (demo)",
+            latitude_deg=climate.latitude_deg or 0.0,
+            longitude_deg=climate.longitude_deg or 0.0,
+            elevation_m=climate.elevation_m or 0.0,
+        ),
+        climate=ClimateChoice(ref=climate_ref),
+        loads=loads,
+    )
     s = Session.unsaved(project, origin="scenario")
     s.baseline = s.text()
     return s

@@ -42,6 +42,7 @@ def _ensure(folder: Path) -> Path:
 
 # ----------------------------------------------------------------------------- recent files
 
+
 def recent_projects(folder: Path | None = None) -> list[Path]:
     """Recently used project files that still exist, newest first."""
     f = (folder or state_dir()) / "recent.json"
@@ -62,13 +63,18 @@ def remember_project(path: Path, folder: Path | None = None) -> None:
         _ensure(folder)
         items = [str(p) for p in recent_projects(folder) if p != path]
         items.insert(0, str(path))
-        atomic_write_text(folder / "recent.json", json.dumps(items[:RECENT_LIMIT], indent=1),
-                          backup=False, new_mode=0o600)
+        atomic_write_text(
+            folder / "recent.json",
+            json.dumps(items[:RECENT_LIMIT], indent=1),
+            backup=False,
+            new_mode=0o600,
+        )
     except OSError:
         pass  # a read-only home must not stop the work
 
 
 # ----------------------------------------------------------------------------- recovery
+
 
 @dataclass(frozen=True)
 class Recovery:
@@ -123,8 +129,9 @@ class RecoveryStore:
             "baseline": baseline,
         }
         _ensure(self.folder)
-        return atomic_write_text(self.file, json.dumps(body, ensure_ascii=False), backup=False,
-                                 new_mode=0o600)  # the project's text: private
+        return atomic_write_text(
+            self.file, json.dumps(body, ensure_ascii=False), backup=False, new_mode=0o600
+        )  # the project's text: private
 
     def clear(self) -> None:
         with contextlib.suppress(FileNotFoundError):
@@ -148,9 +155,15 @@ def read_recovery(f: Path) -> Recovery | None:
         body = json.loads(f.read_text(encoding="utf-8"))
         if body.get("format") != RECOVERY_FORMAT:
             return None
-        return Recovery(file=f, pid=int(body["pid"]), saved_at=float(body["saved_at"]),
-                        project_path=body.get("project_path"), title=str(body.get("title", "")),
-                        text=str(body["text"]), baseline=str(body.get("baseline", "")))
+        return Recovery(
+            file=f,
+            pid=int(body["pid"]),
+            saved_at=float(body["saved_at"]),
+            project_path=body.get("project_path"),
+            title=str(body.get("title", "")),
+            text=str(body["text"]),
+            baseline=str(body.get("baseline", "")),
+        )
     except (OSError, ValueError, KeyError, TypeError):
         return None
 

@@ -35,8 +35,12 @@ class Terminal:
         self.cwd = cwd
 
     def tmux(self, *args: str, check: bool = True) -> str:
-        proc = subprocess.run([TMUX, "-L", self.socket, "-f", "/dev/null", *args],
-                              capture_output=True, text=True, timeout=20)
+        proc = subprocess.run(
+            [TMUX, "-L", self.socket, "-f", "/dev/null", *args],
+            capture_output=True,
+            text=True,
+            timeout=20,
+        )
         if check and proc.returncode != 0:
             raise AssertionError(f"tmux {' '.join(args)}: {proc.stderr}")
         return proc.stdout
@@ -85,8 +89,12 @@ class Terminal:
         self.tmux("kill-server", check=False)
 
     def alive(self) -> bool:
-        return subprocess.run([TMUX, "-L", self.socket, "has-session", "-t", "t"],
-                              capture_output=True).returncode == 0
+        return (
+            subprocess.run(
+                [TMUX, "-L", self.socket, "has-session", "-t", "t"], capture_output=True
+            ).returncode
+            == 0
+        )
 
 
 @pytest.fixture
@@ -109,16 +117,21 @@ def project_copy(tmp_path: Path) -> Path:
     return target
 
 
-@pytest.mark.parametrize("term,no_color", [("xterm-256color", False), ("vt100", False),
-                                           ("xterm-256color", True)],
-                         ids=["256-colours", "16-colours", "no-colour"])
+@pytest.mark.parametrize(
+    "term,no_color",
+    [("xterm-256color", False), ("vt100", False), ("xterm-256color", True)],
+    ids=["256-colours", "16-colours", "no-colour"],
+)
 def test_edit_save_and_quit_in_a_real_terminal(terminal, tmp_path, term, no_color):
     target = project_copy(tmp_path)
     t = terminal()
     t.start(str(target), term=term, no_color=no_color)
     plain = term == "vt100" or no_color  # ASCII only: a serial console, a screen reader
-    t.wait_for("[1 Place]" if plain else "\u25b81 Place\u25c2", "Array 1,800 W",
-               "Battery 38.4 kWh 800 Ah 48 V")
+    t.wait_for(
+        "[1 Place]" if plain else "\u25b81 Place\u25c2",
+        "Array 1,800 W",
+        "Battery 38.4 kWh 800 Ah 48 V",
+    )
     if plain:
         shown = t.screen()
         t.wait_for("Nov<")  # the design month's mark in the months table

@@ -14,9 +14,10 @@ from offgrid.tui.sections.place import climate_picker_entries
 def _import_user_climate(tmp_path) -> None:
     # invented monthly values for a made-up site next to the demo site (-3.4, 36.9)
     src = tmp_path / "near.csv"
-    src.write_text("# latitude_deg = -3.3\n# longitude_deg = 36.8\n"
-                   "month,insolation_kwh_m2_day,temp_mean_c\n"
-                   + "".join(f"{m},5.5,20\n" for m in range(1, 13)))
+    src.write_text(
+        "# latitude_deg = -3.3\n# longitude_deg = 36.8\n"
+        "month,insolation_kwh_m2_day,temp_mean_c\n" + "".join(f"{m},5.5,20\n" for m in range(1, 13))
+    )
     assert main(["climate", "import", str(src), "--name", "Ridge Top Survey"]) == 0
 
 

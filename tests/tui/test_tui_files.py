@@ -364,23 +364,28 @@ def test_ui_start_imports_neither_pvlib_nor_pandas():
     import subprocess
     import sys
 
-    code = ("import asyncio, sys, tempfile, pathlib\n"
-            "from offgrid.tui.app import make_app\n"
-            "app = make_app(demo=True, state=pathlib.Path(tempfile.mkdtemp()))\n"
-            "async def go():\n"
-            "    async with app.run_test(size=(80, 24)) as pilot:\n"
-            "        await pilot.pause()\n"
-            "        assert app.session.design is not None\n"
-            "asyncio.run(go())\n"
-            "print(sorted(m for m in ('pvlib', 'pandas') if m in sys.modules))\n")
+    code = (
+        "import asyncio, sys, tempfile, pathlib\n"
+        "from offgrid.tui.app import make_app\n"
+        "app = make_app(demo=True, state=pathlib.Path(tempfile.mkdtemp()))\n"
+        "async def go():\n"
+        "    async with app.run_test(size=(80, 24)) as pilot:\n"
+        "        await pilot.pause()\n"
+        "        assert app.session.design is not None\n"
+        "asyncio.run(go())\n"
+        "print(sorted(m for m in ('pvlib', 'pandas') if m in sys.modules))\n"
+    )
     import os
     from pathlib import Path
 
     root = Path(__file__).resolve().parents[2]
-    env = {**os.environ, "PYTHONPATH": os.pathsep.join(
-        [str(root), *filter(None, [os.environ.get("PYTHONPATH")])])}
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         timeout=120, cwd=root, env=env)
+    env = {
+        **os.environ,
+        "PYTHONPATH": os.pathsep.join([str(root), *filter(None, [os.environ.get("PYTHONPATH")])]),
+    }
+    out = subprocess.run(
+        [sys.executable, "-c", code], capture_output=True, text=True, timeout=120, cwd=root, env=env
+    )
     assert out.returncode == 0, out.stderr
     assert out.stdout.strip().splitlines()[-1] == "[]"
 

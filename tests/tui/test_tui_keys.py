@@ -104,11 +104,13 @@ async def test_percent_and_hemisphere_forms_typed_at_once(state):
             assert app.session.project.choices.max_dod == want, typed
         app.work.action_goto("place")
         await pilot.pause()
-        for path, typed, want in (("site.latitude_deg", "12 N", 12.0),
-                                  ("site.latitude_deg", "12\u00b024' N", 12.4),
-                                  ("site.latitude_deg", "8 30 S", -8.5),
-                                  ("site.longitude_deg", "1 W", -1.0),
-                                  ("site.longitude_deg", "36.8 E", 36.8)):
+        for path, typed, want in (
+            ("site.latitude_deg", "12 N", 12.0),
+            ("site.latitude_deg", "12\u00b024' N", 12.4),
+            ("site.latitude_deg", "8 30 S", -8.5),
+            ("site.longitude_deg", "1 W", -1.0),
+            ("site.longitude_deg", "36.8 E", 36.8),
+        ):
             assert app.work.current.reveal(path)
             burst(app, ["enter", *chars(typed), "enter"])
             await pilot.pause()

@@ -29,8 +29,11 @@ async def test_every_warning_code_leads_to_an_editable_input():
     from offgrid.tui.sections.place import CLIMATE_FIELDS
     from offgrid.tui.sections.wires import WIRING_FIELDS
 
-    editable = {f.path for f in (*PROJECT_FIELDS, *CLIMATE_FIELDS, *PARTS_FIELDS,
-                                 *WIRING_FIELDS) if not isinstance(f, str)}
+    editable = {
+        f.path
+        for f in (*PROJECT_FIELDS, *CLIMATE_FIELDS, *PARTS_FIELDS, *WIRING_FIELDS)
+        if not isinstance(f, str)
+    }
     for code, path in [*INPUT_FOR_NOTICE.items(), *INPUT_FOR_CAUTION]:
         assert path in editable, (code, path)
 
@@ -41,9 +44,11 @@ async def test_command_palette_finds_fields_and_figures_by_their_words(state):
     app = demo_app(state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
-        for words, section, path in (("record low", "place", "climate.record_low_c"),
-                                     ("days of autonomy", "parts", "choices.autonomy_days"),
-                                     ("battery room temp", "place", "site.battery_temp_c")):
+        for words, section, path in (
+            ("record low", "place", "climate.record_low_c"),
+            ("days of autonomy", "parts", "choices.autonomy_days"),
+            ("battery room temp", "place", "site.battery_temp_c"),
+        ):
             await pilot.press("ctrl+p")
             await pilot.pause()
             assert isinstance(app.screen, CommandPalette)

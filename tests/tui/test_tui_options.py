@@ -67,8 +67,13 @@ async def test_options_show_variants_side_by_side_with_differences_marked(state)
     async with app.run_test(size=SIZE) as pilot:
         section = await to_options(pilot)
         text = screen_text(app)
-        for words in ("8 Options", "Base design", "PWM controller", "Lithium bank",
-                      "* differs from the base"):
+        for words in (
+            "8 Options",
+            "Base design",
+            "PWM controller",
+            "Lithium bank",
+            "* differs from the base",
+        ):
             assert words in text, words
         # the marks follow the engine's own comparison of the same project
         expected = compare_variants(app.session.project, app.session.base_dir)
@@ -141,7 +146,8 @@ async def test_options_number_override_is_validated_and_edited_in_place(state):
         await settle(pilot)
         assert not bar.is_open
         assert dict(flatten_overrides(app.session.project.variants[-1].overrides)) == {
-            "choices.autonomy_days": 5.0}
+            "choices.autonomy_days": 5.0
+        }
         base_ah = section.result.comparison.row("Battery bank").values[0]
         assert section.result.comparison.row("Battery bank").values[-1] > base_ah
         # edit the override of that column in place
@@ -152,7 +158,8 @@ async def test_options_number_override_is_validated_and_edited_in_place(state):
         await type_into(pilot, "4")
         await settle(pilot)
         assert dict(flatten_overrides(app.session.project.variants[-1].overrides)) == {
-            "choices.autonomy_days": 4.0}
+            "choices.autonomy_days": 4.0
+        }
 
 
 async def test_options_rename_and_delete(state):
@@ -333,8 +340,15 @@ async def test_options_keys_are_in_help_and_footer(state):
         await to_options(pilot)
         footer = screen_text(app).splitlines()[-1]
         # ? and q first; the section's own keys after them (w, s and the rest are in ?)
-        for words in ("? Help", "q Quit", "a Add", "x Delete", "c Add change", "p Prices",
-                      "g Risk"):
+        for words in (
+            "? Help",
+            "q Quit",
+            "a Add",
+            "x Delete",
+            "c Add change",
+            "p Prices",
+            "g Risk",
+        ):
             assert words in footer, words
         await pilot.press("question_mark")
         await pilot.pause()
@@ -343,7 +357,10 @@ async def test_options_keys_are_in_help_and_footer(state):
         words = {b.description for b in groups["8 Options"]}
         assert {"Add", "Delete", "Add change", "Prices", "Risk"} <= words
         assert {b.description for b in groups["8 Options, prices (p)"]} >= {
-            "Add", "Delete", "Import"}
+            "Add",
+            "Delete",
+            "Import",
+        }
         assert "8 Options" in screen_text(app)
 
 
@@ -396,8 +413,12 @@ async def test_place_horizon_profile_is_typed_and_validated(state):
         # (beam removed below the profile, climate/horizon.py; common practice, no source)
         await type_into(pilot, "0:50, 90:50, 180:50, 270:50")
         assert not bar.is_open
-        assert app.session.project.site.horizon_deg == [(0.0, 50.0), (90.0, 50.0),
-                                                        (180.0, 50.0), (270.0, 50.0)]
+        assert app.session.project.site.horizon_deg == [
+            (0.0, 50.0),
+            (90.0, 50.0),
+            (180.0, 50.0),
+            (270.0, 50.0),
+        ]
         assert app.session.design.array.power_w > array_w
         await pilot.press("z")
         await pilot.pause()
@@ -441,8 +462,10 @@ async def test_options_add_a_second_change_to_an_option(state):
         await pick(pilot, 24)
         await settle(pilot)
         v = app.session.project.variants[0]
-        assert dict(flatten_overrides(v.overrides)) == {"controller.type": "pwm",
-                                                       "choices.system_voltage": 24}
+        assert dict(flatten_overrides(v.overrides)) == {
+            "controller.type": "pwm",
+            "choices.system_voltage": 24,
+        }
         assert len(app.session.project.variants) == 2
         row = section.result.comparison.row("System voltage")
         assert row.texts[1] == "24" and row.differs[1]

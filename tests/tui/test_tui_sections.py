@@ -26,8 +26,13 @@ async def test_start_screen_offers_recent_new_and_open(state, tmp_path):
         await pilot.pause()
         assert isinstance(app.screen, StartScreen)
         text = screen_text(app)
-        for words in ("New project", "Demo: Kisanga Ridge health post", "Blank project",
-                      "Open a project file", "household-kit"):
+        for words in (
+            "New project",
+            "Demo: Kisanga Ridge health post",
+            "Blank project",
+            "Open a project file",
+            "household-kit",
+        ):
             assert words in text, words
         await pilot.press("d")
         await pilot.pause()
@@ -41,8 +46,11 @@ async def test_start_screen_scenario_and_blank(state):
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
         screen = app.screen
-        index = next(i for i, (k, v) in enumerate(screen.choices)
-                     if k == "scenario" and v.stem == "household-kit")
+        index = next(
+            i
+            for i, (k, v) in enumerate(screen.choices)
+            if k == "scenario" and v.stem == "household-kit"
+        )
         screen.query_one("#start-list").highlighted = index
         await pilot.press("enter")
         await pilot.pause()
@@ -352,8 +360,13 @@ async def test_parts_module_datasheet_edited_as_a_whole(state):
         await edit_field_choice(pilot, "module.pmax_w")
         assert isinstance(app.screen, SheetDialog)
         sheet = app.screen
-        values = {"module.pmax_w": "400", "module.vmp_v": "41", "module.imp_a": "9.76",
-                  "module.voc_v": "49.5", "module.isc_a": "10.3"}
+        values = {
+            "module.pmax_w": "400",
+            "module.vmp_v": "41",
+            "module.imp_a": "9.76",
+            "module.voc_v": "49.5",
+            "module.isc_a": "10.3",
+        }
         for i, f in enumerate(sheet.fields):
             if f.path in values:
                 sheet.query_one(f"#in{i}").value = values[f.path]
@@ -570,8 +583,11 @@ async def test_cautions_lists_warnings_and_safety(state):
         await pilot.pause()
         assert "defers to local electrical codes" in screen_text(app)
         section = app.work.current
-        index = next(i for i, (_p, n, _m) in enumerate(section._targets)
-                     if n is not None and n.code == "lead-acid-parallel")
+        index = next(
+            i
+            for i, (_p, n, _m) in enumerate(section._targets)
+            if n is not None and n.code == "lead-acid-parallel"
+        )
         section.items.highlighted = index
         await pilot.press("enter")  # to the input the warning is about
         await pilot.pause()
@@ -619,10 +635,27 @@ async def test_command_palette_reaches_the_actions(state):
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
         titles = [c.title for c in app.get_system_commands(app.work)]
-        for needed in ("Save", "Save as", "Open", "Revert", "Undo", "Redo", "Why this value",
-                       "Add appliance", "Copy appliance", "Delete appliance", "Import load list",
-                       "Export load list", "Climate", "Type twelve months", "Go to 4 Sizes",
-                       "Sunlight colours", "Help", "Quit", "Start screen"):
+        for needed in (
+            "Save",
+            "Save as",
+            "Open",
+            "Revert",
+            "Undo",
+            "Redo",
+            "Why this value",
+            "Add appliance",
+            "Copy appliance",
+            "Delete appliance",
+            "Import load list",
+            "Export load list",
+            "Climate",
+            "Type twelve months",
+            "Go to 4 Sizes",
+            "Sunlight colours",
+            "Help",
+            "Quit",
+            "Start screen",
+        ):
             assert needed in titles, needed
         await pilot.press("ctrl+p")
         await pilot.pause()
@@ -746,8 +779,9 @@ def slow_simulation(monkeypatch, release):
     from offgrid.paths import demo_project_path
     from offgrid.simulate.balance import SimulationCancelled
 
-    real = run.simulate_project(load_project(demo_project_path()), demo_project_path().parent,
-                                years=5, with_tradeoff=False)
+    real = run.simulate_project(
+        load_project(demo_project_path()), demo_project_path().parent, years=5, with_tradeoff=False
+    )
 
     def fake(project, base=None, *, progress=None, cancelled=None, **kw):
         for i in range(1000):

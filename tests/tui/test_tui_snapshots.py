@@ -15,8 +15,11 @@ def demo(state):
     return make_app(demo=True, state=state, check_recovery=False)
 
 
-@pytest.mark.parametrize("keys", [[], ["2"], ["3"], ["4"], ["5"], ["6"], ["7"]],
-                         ids=["place", "loads", "parts", "sizes", "wires", "cautions", "risk"])
+@pytest.mark.parametrize(
+    "keys",
+    [[], ["2"], ["3"], ["4"], ["5"], ["6"], ["7"]],
+    ids=["place", "loads", "parts", "sizes", "wires", "cautions", "risk"],
+)
 def test_sections_80x24(snap_compare, state, keys):
     assert snap_compare(demo(state), press=keys, terminal_size=SMALL)
 

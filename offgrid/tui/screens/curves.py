@@ -44,12 +44,21 @@ def array_curves(project, design) -> list[Curve]:
     area = float(project.module.area_m2)
     months = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"]
     conditions = (
-        (f"design month ({months[design.site.design_month - 1]}) at noon",
-         er.mpp.irradiance_w_m2, er.mpp.cell_temp_c),
-        (f"cold: record low {er.strings.record_low_c:.0f} C, full sun",
-         COLD_IRRADIANCE_W_M2, er.strings.record_low_c),
-        (f"hot: hottest month, cell {er.strings.hot_cell_temp_c:.0f} C",
-         HOT_IRRADIANCE_W_M2, er.strings.hot_cell_temp_c),
+        (
+            f"design month ({months[design.site.design_month - 1]}) at noon",
+            er.mpp.irradiance_w_m2,
+            er.mpp.cell_temp_c,
+        ),
+        (
+            f"cold: record low {er.strings.record_low_c:.0f} C, full sun",
+            COLD_IRRADIANCE_W_M2,
+            er.strings.record_low_c,
+        ),
+        (
+            f"hot: hottest month, cell {er.strings.hot_cell_temp_c:.0f} C",
+            HOT_IRRADIANCE_W_M2,
+            er.strings.hot_cell_temp_c,
+        ),
     )
     out = []
     for title, g, tc in conditions:
@@ -59,19 +68,31 @@ def array_curves(project, design) -> list[Curve]:
         pwm = None
         if v_chg and v_chg <= v[-1]:
             pwm = (v_chg, float(np.interp(v_chg, v, i)))
-        out.append(Curve(f"one string of {series}, {title}", v, i,
-                         (c.point.vmp_v * series, c.point.imp_a), pwm, window))
+        out.append(
+            Curve(
+                f"one string of {series}, {title}",
+                v,
+                i,
+                (c.point.vmp_v * series, c.point.imp_a),
+                pwm,
+                window,
+            )
+        )
     return out
 
 
 def curve_facts(curve: Curve) -> str:
     vm, im = curve.mpp
-    text = (f"M  maximum power {vm * im:,.0f} W at {vm:.1f} V, {im:.2f} A;  "
-            f"open circuit {curve.voltage_v[-1]:.1f} V")
+    text = (
+        f"M  maximum power {vm * im:,.0f} W at {vm:.1f} V, {im:.2f} A;  "
+        f"open circuit {curve.voltage_v[-1]:.1f} V"
+    )
     if curve.pwm is not None:
         vo, io = curve.pwm
-        text += (f"\nP  PWM at the charging voltage {vo:.1f} V: {vo * io:,.0f} W "
-                 f"({vo * io / (vm * im):.0%} of maximum power)")
+        text += (
+            f"\nP  PWM at the charging voltage {vo:.1f} V: {vo * io:,.0f} W "
+            f"({vo * io / (vm * im):.0%} of maximum power)"
+        )
     else:
         text += "\nP  the charging voltage is above this curve's open circuit: PWM gives nothing"
     lo, hi = curve.window_v
@@ -104,8 +125,11 @@ class CurvesDialog(Dialog):
             yield Static(id="curves-title", classes="dialog-title")
             yield Static(id="curves-plot")
             yield Static(id="curves-facts")
-            yield Static(Text("1 design  2 cold  3 hot  (or left/right)   Enter, v or Esc: "
-                              "close", style="dim"))
+            yield Static(
+                Text(
+                    "1 design  2 cold  3 hot  (or left/right)   Enter, v or Esc: close", style="dim"
+                )
+            )
 
     def on_mount(self) -> None:
         self._draw()
@@ -117,12 +141,14 @@ class CurvesDialog(Dialog):
         c = self.curves[self.index]
         g = "*" if self.plain else "\u2022"
         d = "." if self.plain else "\u00b7"
-        self.query_one("#curves-title", Static).update(Text.assemble(
-            (f"{self.index + 1}/3 I-V ({g}) and P-V ({d}): ", "bold"), c.title))
+        self.query_one("#curves-title", Static).update(
+            Text.assemble((f"{self.index + 1}/3 I-V ({g}) and P-V ({d}): ", "bold"), c.title)
+        )
         width = max(40, min(100, (self.size.width or 80) - 8))
         height = max(6, min(16, (self.size.height or 24) - 14))
         self.query_one("#curves-plot", Static).update(
-            Text("\n".join(draw(c, width, height, self.plain))))
+            Text("\n".join(draw(c, width, height, self.plain)))
+        )
         self.query_one("#curves-facts", Static).update(Text(curve_facts(c)))
 
     def action_show(self, index: int) -> None:

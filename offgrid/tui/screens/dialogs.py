@@ -30,8 +30,9 @@ class Dialog(ModalScreen):
 class ConfirmDialog(Dialog):
     """A question with a few answers, each on a key; returns the chosen answer's id."""
 
-    def __init__(self, title: str, message: str, answers: list[tuple[str, str, str]],
-                 wide: bool = False) -> None:
+    def __init__(
+        self, title: str, message: str, answers: list[tuple[str, str, str]], wide: bool = False
+    ) -> None:
         """``answers`` are (key, label, result); Esc returns None. ``wide``: 78 columns."""
         super().__init__()
         self.wide = wide
@@ -77,8 +78,7 @@ class MessageDialog(Dialog):
         with Vertical(classes="dialog wide"):
             yield Static(Text(self.title_text, style="bold"), classes="dialog-title")
             with VerticalScroll(classes="dialog-scroll"):
-                body = self.body if isinstance(self.body, Text) else literal(self.body,
-                                                                             lines=True)
+                body = self.body if isinstance(self.body, Text) else literal(self.body, lines=True)
                 yield Static(body)
             yield Static(Text("Enter or Esc: close", style="dim"))
 
@@ -89,8 +89,9 @@ class MessageDialog(Dialog):
 class ChoiceDialog(Dialog):
     """Pick one of a list; returns the value of the chosen option, None on Esc."""
 
-    def __init__(self, title: str, options: list[tuple[Any, str | Text]],
-                 current: Any = None, note: str = "") -> None:
+    def __init__(
+        self, title: str, options: list[tuple[Any, str | Text]], current: Any = None, note: str = ""
+    ) -> None:
         super().__init__()
         self.title_text = title
         self.options = options
@@ -154,7 +155,7 @@ def matching_paths(value: str, suffixes: tuple[str, ...], limit: int = 50) -> li
         if p.is_dir() or p.suffix.lower() in suffixes:
             shown = os.path.join(folder, p.name) if folder else p.name
             if value.startswith("~"):
-                shown = "~" + shown[len(os.path.expanduser("~")):]
+                shown = "~" + shown[len(os.path.expanduser("~")) :]
             out.append(shown + ("/" if p.is_dir() else ""))
         if len(out) >= limit:
             break
@@ -164,8 +165,15 @@ def matching_paths(value: str, suffixes: tuple[str, ...], limit: int = 50) -> li
 class PathDialog(Dialog):
     """Type a file path (Right arrow accepts the completion); returns the Path or None."""
 
-    def __init__(self, title: str, value: str = "", suffixes: tuple[str, ...] = (".toml",),
-                 must_exist: bool = True, note: str = "", verb: str | None = None) -> None:
+    def __init__(
+        self,
+        title: str,
+        value: str = "",
+        suffixes: tuple[str, ...] = (".toml",),
+        must_exist: bool = True,
+        note: str = "",
+        verb: str | None = None,
+    ) -> None:
         super().__init__()
         self.verb = verb or ("opens" if must_exist else "saves")
         self.title_text = title
@@ -179,12 +187,21 @@ class PathDialog(Dialog):
             yield Static(Text(self.title_text, style="bold"), classes="dialog-title")
             if self.note:
                 yield Static(literal(self.note), classes="dialog-body")
-            yield Input(self.value, id="path", suggester=PathSuggester(self.suffixes),
-                        placeholder="path/to/file" + self.suffixes[0])
+            yield Input(
+                self.value,
+                id="path",
+                suggester=PathSuggester(self.suffixes),
+                placeholder="path/to/file" + self.suffixes[0],
+            )
             yield Static(id="path-problem", classes="bad")
             yield Static(id="path-list", classes="path-list")
-            yield Static(Text(f"In {Path.cwd()}\nRight arrow completes \u00b7 Enter "
-                              f"{self.verb} \u00b7 Esc back", style="dim"))
+            yield Static(
+                Text(
+                    f"In {Path.cwd()}\nRight arrow completes \u00b7 Enter "
+                    f"{self.verb} \u00b7 Esc back",
+                    style="dim",
+                )
+            )
 
     def on_mount(self) -> None:
         box = self.query_one(Input)

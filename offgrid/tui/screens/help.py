@@ -37,8 +37,9 @@ def key_rows(app, bindings: list[Binding]) -> list[tuple[str, str]]:
         if not b.description or b.action in seen:
             continue
         seen.add(b.action)
-        keys = ", ".join(app.get_key_display(Binding(k.strip(), b.action))
-                         for k in b.key.split(","))
+        keys = ", ".join(
+            app.get_key_display(Binding(k.strip(), b.action)) for k in b.key.split(",")
+        )
         rows.append((keys, b.description))
     return rows
 
@@ -64,8 +65,9 @@ class HelpDialog(Dialog):
 
     BINDINGS = [Binding("question_mark,f1,h", "close", "Close", id="help.close")]
 
-    def __init__(self, groups: list[tuple[str, list[Binding]]], first: str | None = None,
-                 about: str = "") -> None:
+    def __init__(
+        self, groups: list[tuple[str, list[Binding]]], first: str | None = None, about: str = ""
+    ) -> None:
         super().__init__()
         self.groups = groups
         self.first = first
@@ -80,8 +82,9 @@ class HelpDialog(Dialog):
                     yield Static("")
                 yield Static(help_table(self.app, self.groups, self.first))
                 yield Static(Text(GENERAL))
-            yield Static(Text("\u2191\u2193 PgUp PgDn scroll \u00b7 Esc, ? or h: close",
-                              style="dim"))
+            yield Static(
+                Text("\u2191\u2193 PgUp PgDn scroll \u00b7 Esc, ? or h: close", style="dim")
+            )
 
     def on_mount(self) -> None:
         self.query_one(VerticalScroll).focus()

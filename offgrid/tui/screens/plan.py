@@ -48,8 +48,10 @@ class PlanScreen(Screen):
     """
 
     BINDINGS: ClassVar[list[BindingType]] = [
-        *(Binding(str(n), f"view('{vid}')", title, id=f"plan.view.{vid}")
-          for n, (vid, title) in enumerate(VIEWS, start=1)),
+        *(
+            Binding(str(n), f"view('{vid}')", title, id=f"plan.view.{vid}")
+            for n, (vid, title) in enumerate(VIEWS, start=1)
+        ),
         Binding("plus,equals_sign", "kits(1)", "More kits", id="plan.kits_more"),
         Binding("minus", "kits(-1)", "Fewer", id="plan.kits_fewer"),
         Binding("a", "kits_auto", "Kits by price", show=False, id="plan.kits_auto"),
@@ -65,8 +67,12 @@ class PlanScreen(Screen):
             self.plan = plan
             self.error = error
 
-    def __init__(self, path: Path | str | None = None, kits: int | None = None,
-                 report_path: Path | None = None) -> None:
+    def __init__(
+        self,
+        path: Path | str | None = None,
+        kits: int | None = None,
+        report_path: Path | None = None,
+    ) -> None:
         super().__init__()
         from offgrid.plan.community import demo_survey_path
 
@@ -78,8 +84,11 @@ class PlanScreen(Screen):
     # ------------------------------------------------------------------ layout
     def compose(self) -> ComposeResult:
         yield Static(Text("Community plan", style="bold"), id="plan-title")
-        yield Input(str(self.request.path), id="plan-path",
-                    placeholder="community survey or programme CSV, Enter to plan")
+        yield Input(
+            str(self.request.path),
+            id="plan-path",
+            placeholder="community survey or programme CSV, Enter to plan",
+        )
         yield Static("", id="plan-status")
         with ContentSwitcher(initial="kits", id="plan-views"):
             for vid, _title in VIEWS[:3]:
@@ -97,7 +106,8 @@ class PlanScreen(Screen):
         k = self.request.kits
         how = f"at most {k} kit type(s)" if k else "kit types chosen by price"
         self.query_one("#plan-status", Static).update(
-            Text(f"Planning {self.request.path.name} ({how})...", style="italic"))
+            Text(f"Planning {self.request.path.name} ({how})...", style="italic")
+        )
         self.run_plan(self.request)
 
     @work(thread=True, exclusive=True)
@@ -125,7 +135,8 @@ class PlanScreen(Screen):
     def on_plan_screen_planned(self, message: Planned) -> None:
         if message.error is not None:
             self.query_one("#plan-status", Static).update(
-                Text(f"Cannot plan: {message.error.splitlines()[0]}", style="bold red"))
+                Text(f"Cannot plan: {message.error.splitlines()[0]}", style="bold red")
+            )
             self.query_one("#plan-notes", Static).update(Text(message.error))
             self.action_view("notes")
             return
@@ -144,16 +155,26 @@ class PlanScreen(Screen):
         plan = self.plan
         title = f"Programme: {plan.name}" + ("  (demonstration data)" if plan.demo else "")
         self.query_one("#plan-title", Static).update(Text(title, style="bold"))
-        cost = (f", capital cost {plan.totals.total_cost:,.0f} {plan.currency}"
-                if plan.totals and plan.totals.total_cost is not None else "")
+        cost = (
+            f", capital cost {plan.totals.total_cost:,.0f} {plan.currency}"
+            if plan.totals and plan.totals.total_cost is not None
+            else ""
+        )
         unmet = sum(len(v.unmet) for v in plan.villages)
-        status = Text(f"{len(plan.villages)} villages, {plan.systems} systems, "
-                      f"{len(plan.kits)} kit type(s){cost}; ")
-        status.append(f"{len(plan.left_out)} left out, {unmet} cannot be met",
-                      style="bold red" if plan.left_out or unmet else "")
+        status = Text(
+            f"{len(plan.villages)} villages, {plan.systems} systems, "
+            f"{len(plan.kits)} kit type(s){cost}; "
+        )
+        status.append(
+            f"{len(plan.left_out)} left out, {unmet} cannot be met",
+            style="bold red" if plan.left_out or unmet else "",
+        )
         self.query_one("#plan-status", Static).update(status)
-        for vid, table in (("kits", kit_table(plan)), ("rows", village_table(plan)),
-                           ("totals", totals_table(plan))):
+        for vid, table in (
+            ("kits", kit_table(plan)),
+            ("rows", village_table(plan)),
+            ("totals", totals_table(plan)),
+        ):
             dt = self.query_one(f"#{vid}", DataTable)
             dt.clear(columns=True)
             dt.add_columns(*table[0])
@@ -171,15 +192,23 @@ class PlanScreen(Screen):
         self.query_one("#plan-title", Static).update(Text(title, style="bold"))
         s = plan.standard
         kits = len(s.kits) if s else 0
-        cost = (f", capital cost {plan.totals.total_cost:,.0f} {plan.currency}"
-                if plan.totals and plan.totals.total_cost is not None else "")
+        cost = (
+            f", capital cost {plan.totals.total_cost:,.0f} {plan.currency}"
+            if plan.totals and plan.totals.total_cost is not None
+            else ""
+        )
         left = len({p.line for p in plan.bad_rows})
         status = Text(f"{plan.systems} systems, {kits} kit type(s){cost}; ")
-        status.append(f"{left} row(s) left out, {len(plan.unmet)} cannot be met",
-                      style="bold red" if left or plan.unmet else "")
+        status.append(
+            f"{left} row(s) left out, {len(plan.unmet)} cannot be met",
+            style="bold red" if left or plan.unmet else "",
+        )
         self.query_one("#plan-status", Static).update(status)
-        for vid, table in (("kits", kit_table(plan)), ("rows", row_table(plan)),
-                           ("totals", totals_table(plan))):
+        for vid, table in (
+            ("kits", kit_table(plan)),
+            ("rows", row_table(plan)),
+            ("totals", totals_table(plan)),
+        ):
             dt = self.query_one(f"#{vid}", DataTable)
             dt.clear(columns=True)
             dt.add_columns(*table[0])
@@ -256,7 +285,8 @@ class PlanScreen(Screen):
         from offgrid.project.atomic import atomic_write_text
 
         target = self.report_path or self.request.path.with_name(
-            self.request.path.stem + "-plan.md")
+            self.request.path.stem + "-plan.md"
+        )
         from offgrid.report.export import overwrite_refusal
 
         refusal = overwrite_refusal(target)
@@ -264,11 +294,14 @@ class PlanScreen(Screen):
             self.app.notify(f"Not written: {refusal}", severity="error", markup=False)
             return
         try:
-            atomic_write_text(target, programme_report(self.plan) if self.is_programme
-                              else markdown_report(self.plan))
+            atomic_write_text(
+                target,
+                programme_report(self.plan) if self.is_programme else markdown_report(self.plan),
+            )
         except OSError as exc:
-            self.app.notify(f"Cannot write {target}: {exc.strerror}", severity="error",
-                            markup=False)
+            self.app.notify(
+                f"Cannot write {target}: {exc.strerror}", severity="error", markup=False
+            )
             return
         self.app.notify(f"Report written: {target}", markup=False, timeout=4)
 

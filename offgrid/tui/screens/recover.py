@@ -30,18 +30,32 @@ class RecoverDialog(Dialog):
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog wide", id="recover"):
             yield Static(Text("Unsaved work was found", style="bold"), classes="dialog-title")
-            yield Static(Text("An earlier session ended before its changes were saved (a "
-                              "dropped connection or a crash). Bring them back?"),
-                         classes="dialog-body")
+            yield Static(
+                Text(
+                    "An earlier session ended before its changes were saved (a "
+                    "dropped connection or a crash). Bring them back?"
+                ),
+                classes="dialog-body",
+            )
             options = []
             for item in self.items:
                 where = item.project_path or "never saved"
-                options.append(Option(Text.assemble(
-                    (printable(item.title or "Untitled"), "bold"),
-                    f"\n  {printable(where)}\n  last change {item.age_text}")))
+                options.append(
+                    Option(
+                        Text.assemble(
+                            (printable(item.title or "Untitled"), "bold"),
+                            f"\n  {printable(where)}\n  last change {item.age_text}",
+                        )
+                    )
+                )
             yield OptionList(*options, id="recover-list")
-            yield Static(Text("r or Enter: recover \u00b7 x: discard it \u00b7 Esc: decide "
-                              "later (it is kept)", style="dim"))
+            yield Static(
+                Text(
+                    "r or Enter: recover \u00b7 x: discard it \u00b7 Esc: decide "
+                    "later (it is kept)",
+                    style="dim",
+                )
+            )
 
     def on_mount(self) -> None:
         ol = self.query_one(OptionList)

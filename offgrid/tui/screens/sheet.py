@@ -26,8 +26,14 @@ class SheetDialog(Dialog):
         Binding("up", "focus_previous", "Previous", show=False, id="sheet.previous"),
     ]
 
-    def __init__(self, title: str, fields: tuple[Field, ...], project, apply: ApplyAll,
-                 focus: str | None = None) -> None:
+    def __init__(
+        self,
+        title: str,
+        fields: tuple[Field, ...],
+        project,
+        apply: ApplyAll,
+        focus: str | None = None,
+    ) -> None:
         super().__init__()
         self.title_text = title
         self.fields = fields
@@ -45,12 +51,12 @@ class SheetDialog(Dialog):
                     text = printable(value) if f.base_kind == "text" else f.edit_text(value)
                     with Horizontal(classes="sheet-row"):
                         yield Label(f.label, classes="sheet-label")
-                        yield Input(text, id=f"in{i}", classes="sheet-input",
-                                    select_on_focus=False)
+                        yield Input(text, id=f"in{i}", classes="sheet-input", select_on_focus=False)
                         yield Label(f.unit, classes="sheet-unit")
             yield Static(id="sheet-problem", classes="bad")
-            yield Static(Text("\u2191\u2193 move \u00b7 Enter applies all \u00b7 Esc cancels",
-                              style="dim"))
+            yield Static(
+                Text("\u2191\u2193 move \u00b7 Enter applies all \u00b7 Esc cancels", style="dim")
+            )
 
     def on_mount(self) -> None:
         for i, f in enumerate(self.fields):
@@ -92,8 +98,7 @@ class SheetDialog(Dialog):
         for path, message in problems.items():
             if not any(f.path == path for f in self.fields):
                 lines.append(f"\u2717 {path}: {message}")
-        self.query_one("#sheet-problem", Static).update(literal("\n".join(lines),
-                                                                style="bold"))
+        self.query_one("#sheet-problem", Static).update(literal("\n".join(lines), style="bold"))
         self.app.bell()
         if first is not None:
             first.focus()

@@ -51,13 +51,18 @@ class StartScreen(Screen):
 
     def compose(self) -> ComposeResult:
         with Vertical(id="start"):
-            yield Static(Text.assemble(("offgrid", "bold"), "  sizing stand-alone solar systems"),
-                         id="start-title")
-            yield Static(Text("Choose with \u2191\u2193 and Enter, or press a key shown below.",
-                              style="dim"))
+            yield Static(
+                Text.assemble(("offgrid", "bold"), "  sizing stand-alone solar systems"),
+                id="start-title",
+            )
+            yield Static(
+                Text("Choose with \u2191\u2193 and Enter, or press a key shown below.", style="dim")
+            )
             yield OptionList(*self._options(), id="start-list")
-            yield Static(Text("Designs defer to local electrical codes and licensed practice.",
-                              style="dim"), id="start-note")
+            yield Static(
+                Text("Designs defer to local electrical codes and licensed practice.", style="dim"),
+                id="start-note",
+            )
         yield Footer(compact=True)
 
     def _options(self) -> list[Option | None]:
@@ -75,17 +80,30 @@ class StartScreen(Screen):
         if self.recent:
             heading("Recent projects")
             for p in self.recent[:6]:
-                add(Text.assemble("  ", (printable(p.name), "bold"), "  ",
-                                  (printable(str(p.parent)), "dim")), "file", p)
+                add(
+                    Text.assemble(
+                        "  ", (printable(p.name), "bold"), "  ", (printable(str(p.parent)), "dim")
+                    ),
+                    "file",
+                    p,
+                )
         heading("New project")
-        add(Text.assemble("  ", ("Demo: Kisanga Ridge health post", "bold"),
-                          "  complete example (d)"), "demo")
+        add(
+            Text.assemble(
+                "  ", ("Demo: Kisanga Ridge health post", "bold"), "  complete example (d)"
+            ),
+            "demo",
+        )
         for f in scenario_files():
             about = SCENARIOS.get(f.stem, "demo load list")
             add(Text.assemble("  Demo loads: ", (f.stem, "bold"), f"  {about}"), "scenario", f)
         add(Text.assemble("  ", ("Blank project", "bold"), "  start from nothing (b)"), "blank")
-        add(Text.assemble("  ", ("Plan a community", "bold"), "  many households, standard "
-                          "kits (p)"), "plan")
+        add(
+            Text.assemble(
+                "  ", ("Plan a community", "bold"), "  many households, standard kits (p)"
+            ),
+            "plan",
+        )
         heading("Files")
         add(Text.assemble("  ", ("Open a project file...", "bold"), "  (o)"), "open")
         add(Text.assemble("  ", ("Quit", "bold"), "  (q)"), "quit")

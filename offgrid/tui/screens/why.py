@@ -28,8 +28,9 @@ def find_reason(reasons: dict[str, Reason], path: str | None) -> tuple[str | Non
     return None, None
 
 
-def reason_text(label: str, value: str, reason: Reason | None, path: str | None,
-                extra: str = "") -> Table:
+def reason_text(
+    label: str, value: str, reason: Reason | None, path: str | None, extra: str = ""
+) -> Table:
     grid = Table.grid(padding=(0, 1), expand=True)
     grid.add_column(style="bold", no_wrap=True, width=9)
     grid.add_column(ratio=1)
@@ -60,18 +61,25 @@ class WhyDialog(Dialog):
         Binding("enter,w", "close", "Close", id="why.close"),
     ]
 
-    def __init__(self, label: str, value: str, reason: Reason | None, path: str | None,
-                 extra: str = "") -> None:
+    def __init__(
+        self, label: str, value: str, reason: Reason | None, path: str | None, extra: str = ""
+    ) -> None:
         super().__init__()
-        self.label, self.value, self.reason, self.path, self.extra = (label, value, reason,
-                                                                     path, extra)
+        self.label, self.value, self.reason, self.path, self.extra = (
+            label,
+            value,
+            reason,
+            path,
+            extra,
+        )
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog wide", id="why"):
             yield Static(Text("Why this value", style="bold"), classes="dialog-title")
             with VerticalScroll(classes="dialog-scroll"):
-                yield Static(reason_text(self.label, self.value, self.reason, self.path,
-                                         self.extra))
+                yield Static(
+                    reason_text(self.label, self.value, self.reason, self.path, self.extra)
+                )
             yield Static(Text("Enter, w or Esc: close", style="dim"))
 
     def on_mount(self) -> None:

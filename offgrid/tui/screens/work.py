@@ -27,26 +27,59 @@ from offgrid.tui.widgets.bars import SECTIONS, FileBar, Headline, SectionBar
 from offgrid.tui.widgets.footer import KeyFooter
 
 SECTION_CLASSES: dict[str, type[Section]] = {
-    "place": PlaceSection, "loads": LoadsSection, "parts": PartsSection, "sizes": SizesSection,
-    "wires": WiresSection, "cautions": CautionsSection, "risk": RiskSection,
+    "place": PlaceSection,
+    "loads": LoadsSection,
+    "parts": PartsSection,
+    "sizes": SizesSection,
+    "wires": WiresSection,
+    "cautions": CautionsSection,
+    "risk": RiskSection,
     "options": OptionsSection,
 }
 
 #: Section-changing and other one-letter keys work while no text box has focus.
-LETTER_ACTIONS = {"curves", "go", "goto", "next_section", "why", "save_as", "open", "revert",
-                  "undo", "redo", "start", "help", "toggle_theme", "quit", "commands", "export"}
+LETTER_ACTIONS = {
+    "curves",
+    "go",
+    "goto",
+    "next_section",
+    "why",
+    "save_as",
+    "open",
+    "revert",
+    "undo",
+    "redo",
+    "start",
+    "help",
+    "toggle_theme",
+    "quit",
+    "commands",
+    "export",
+}
 
 
 class WorkScreen(Screen):
     """Where the whole job is done."""
 
     BINDINGS = [
-        *(Binding(str(n), f"go('{sid}')", title, show=False, id=f"go.{sid}")
-          for n, (sid, title, _what) in enumerate(SECTIONS, start=1)),
-        Binding("right_square_bracket,greater_than_sign", "next_section(1)", "Next section",
-                show=False, id="go.next"),
-        Binding("left_square_bracket,less_than_sign", "next_section(-1)", "Previous section",
-                show=False, id="go.previous"),
+        *(
+            Binding(str(n), f"go('{sid}')", title, show=False, id=f"go.{sid}")
+            for n, (sid, title, _what) in enumerate(SECTIONS, start=1)
+        ),
+        Binding(
+            "right_square_bracket,greater_than_sign",
+            "next_section(1)",
+            "Next section",
+            show=False,
+            id="go.next",
+        ),
+        Binding(
+            "left_square_bracket,less_than_sign",
+            "next_section(-1)",
+            "Previous section",
+            show=False,
+            id="go.previous",
+        ),
         Binding("w", "why", "Why?", id="why"),
         Binding("v", "curves", "I-V curves", show=False, id="curves"),
         Binding("s", "save", "Save", id="file.save"),
@@ -176,11 +209,21 @@ class WorkScreen(Screen):
 
     def reveal(self, path: str) -> None:
         """Go to the section and field (or figure) that ``path`` names."""
-        order = {"site": "place", "climate": "place", "info": "place", "loads": "loads",
-                 "module": "parts", "battery": "parts", "controller": "parts",
-                 "inverter": "parts", "choices": "parts", "prices": "options",
-                 "variants": "options", "economics": "options",
-                 "wiring": "wires"}
+        order = {
+            "site": "place",
+            "climate": "place",
+            "info": "place",
+            "loads": "loads",
+            "module": "parts",
+            "battery": "parts",
+            "controller": "parts",
+            "inverter": "parts",
+            "choices": "parts",
+            "prices": "options",
+            "variants": "options",
+            "economics": "options",
+            "wiring": "wires",
+        }
         head = path.split(".")[0].split("[")[0]
         target = order.get(head, "sizes")
         self.action_goto(target)
@@ -207,8 +250,9 @@ class WorkScreen(Screen):
         d = self.session.design
         curves = array_curves(self.session.project, d) if d is not None else []
         if not curves:
-            self.app.notify("No curves: the design has no electrical part yet (see Cautions).",
-                            timeout=4)
+            self.app.notify(
+                "No curves: the design has no electrical part yet (see Cautions).", timeout=4
+            )
             return
         self.app.push_screen(CurvesDialog(curves))
 

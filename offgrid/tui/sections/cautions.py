@@ -37,15 +37,19 @@ INPUT_FOR_NOTICE = {
     "module-cells": "module.cells_in_series",
 }
 #: Safety cautions that depend on one input: words in the caution -> the input.
-INPUT_FOR_CAUTION = (("at the record low", "climate.record_low_c"),
-                     ("short circuit", "wiring.battery_short_circuit_a"),
-                     ("hydrogen", "battery.chemistry"))
+INPUT_FOR_CAUTION = (
+    ("at the record low", "climate.record_low_c"),
+    ("short circuit", "wiring.battery_short_circuit_a"),
+    ("hydrogen", "battery.chemistry"),
+)
 
 
 class CautionsSection(Section):
     section_id = "cautions"
-    help_text = ("Warnings about this design (Enter goes to the figure concerned, w explains "
-                 "it) and the safety cautions that apply to every installation like it.")
+    help_text = (
+        "Warnings about this design (Enter goes to the figure concerned, w explains "
+        "it) and the safety cautions that apply to every installation like it."
+    )
 
     def compose(self) -> ComposeResult:
         yield OptionList(id="cautions-list")
@@ -131,5 +135,4 @@ class CautionsSection(Section):
         path, notice, message = target
         if notice is None and path is None:
             return Figure("Caution", "", None, extra=message or "Nothing to explain here.")
-        return Figure(notice.code if notice else "No design", message[:60], path,
-                      extra=message)
+        return Figure(notice.code if notice else "No design", message[:60], path, extra=message)

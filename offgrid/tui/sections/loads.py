@@ -43,8 +43,7 @@ class LoadsTable(SteadyTable):
         self.clear(columns=True)
         for c in LOAD_COLUMNS:
             w = self.name_width if c.key == "name" else c.width
-            label = (c.label.ljust(w) if c.kind in ("text", "months")
-                     else c.label.rjust(w - 1) + " ")
+            label = c.label.ljust(w) if c.kind in ("text", "months") else c.label.rjust(w - 1) + " "
             self.add_column(Text(label, style="bold"), width=w, key=c.key)
 
     def cell(self, column: Column, value) -> Text:
@@ -67,9 +66,11 @@ class LoadsTable(SteadyTable):
 
 class LoadsSection(Section):
     section_id = "loads"
-    help_text = ("The appliances: Enter edits the cell under the cursor. The strip below shows "
-                 "the energy month by month, for all loads at the battery and for the "
-                 "appliance under the cursor.")
+    help_text = (
+        "The appliances: Enter edits the cell under the cursor. The strip below shows "
+        "the energy month by month, for all loads at the battery and for the "
+        "appliance under the cursor."
+    )
 
     BINDINGS = [
         Binding("a", "add", "Add", id="loads.add"),
@@ -122,8 +123,11 @@ class LoadsSection(Section):
                         row = design.loads.per_load_wh[i]
                         value = row[dm - 1] if dm else max(row)
                     else:
-                        value = (load.quantity * load.power_w * load.hours_per_day
-                                 * load.duty_cycle if load.months else 0.0)
+                        value = (
+                            load.quantity * load.power_w * load.hours_per_day * load.duty_cycle
+                            if load.months
+                            else 0.0
+                        )
                     cells.append(Text(f"{value:,.0f}".rjust(c.width - 1) + " ", style="bold"))
                 else:
                     cells.append(table.cell(c, getattr(load, c.key)))
@@ -134,8 +138,13 @@ class LoadsSection(Section):
         empty = self.query_one("#loads-empty", Static)
         empty.display = n == 0
         table.styles.height = "auto" if n == 0 else "1fr"
-        empty.update(Text("No appliances yet: press a to add one, or i to import a CSV list "
-                          "(bundled examples are in load_profiles/).", style="italic"))
+        empty.update(
+            Text(
+                "No appliances yet: press a to add one, or i to import a CSV list "
+                "(bundled examples are in load_profiles/).",
+                style="italic",
+            )
+        )
         self._months(session)
 
     def _months(self, session: Session) -> None:
@@ -150,11 +159,13 @@ class LoadsSection(Section):
             rows.append(("All, at batt.", d.loads.daily_energy_wh))
             r = self.table.cursor_row
             if session.project.loads and 0 <= r < len(d.loads.per_load_wh):
-                rows.append((clip(printable(session.project.loads[r].name), 12),
-                             d.loads.per_load_wh[r]))
+                rows.append(
+                    (clip(printable(session.project.loads[r].name), 12), d.loads.per_load_wh[r])
+                )
         else:
-            strip.append("\n(no design yet: " + printable(session.outcome.error or "") + ")",
-                         style="dim")
+            strip.append(
+                "\n(no design yet: " + printable(session.outcome.error or "") + ")", style="dim"
+            )
         for label, values in rows:
             strip.append(f"\n{label:<12}")
             for i, v in enumerate(values, start=1):
@@ -190,9 +201,15 @@ class LoadsSection(Section):
                     return
                 self._set(path, value, column.label)
 
-            self.app.push_screen(ChoiceDialog(f"{column.label} for '{printable(load.name)}'",
-                                              options, getattr(load, column.key),
-                                              note=column.hint), chosen)
+            self.app.push_screen(
+                ChoiceDialog(
+                    f"{column.label} for '{printable(load.name)}'",
+                    options,
+                    getattr(load, column.key),
+                    note=column.hint,
+                ),
+                chosen,
+            )
             return
         original = getattr(load, column.key)
         if column.kind == "months":
@@ -221,8 +238,7 @@ class LoadsSection(Section):
             return from_printable(typed, original)
         if column.kind == "months":
             return parse_months(typed)
-        value = parse_number(typed, column.unit, column.hint,
-                             fraction=column.key == "duty_cycle")
+        value = parse_number(typed, column.unit, column.hint, fraction=column.key == "duty_cycle")
         if column.kind == "int":
             if value != int(value):
                 raise ValueError(f"'{typed}' must be a whole number")
@@ -278,11 +294,16 @@ class LoadsSection(Section):
 
     # ------------------------------------------------------------------ CSV
     def action_import_csv(self) -> None:
-        self.app.push_screen(PathDialog("Import a load list (CSV)", suffixes=(".csv",),
-                                        verb="imports",
-                                        note="Columns: name, quantity, power_w, hours_per_day, "
-                                        "ac_dc, duty_cycle, surge_w, months, critical"),
-                             self._import_path)
+        self.app.push_screen(
+            PathDialog(
+                "Import a load list (CSV)",
+                suffixes=(".csv",),
+                verb="imports",
+                note="Columns: name, quantity, power_w, hours_per_day, "
+                "ac_dc, duty_cycle, surge_w, months, critical",
+            ),
+            self._import_path,
+        )
 
     def _import_path(self, path: Path | None) -> None:
         if path is None:
@@ -292,8 +313,9 @@ class LoadsSection(Section):
         try:
             loads = load_loads_csv(path)
         except LoadListError as exc:
-            self.app.push_screen(MessageDialog("The load list has problems; nothing was "
-                                               "imported", str(exc)))
+            self.app.push_screen(
+                MessageDialog("The load list has problems; nothing was imported", str(exc))
+            )
             return
         if not self.session.project.loads:
             self._import(loads, append=False, name=path.name)
@@ -303,9 +325,14 @@ class LoadsSection(Section):
             if result in ("add", "replace"):
                 self._import(loads, append=result == "add", name=path.name)
 
-        self.app.push_screen(ConfirmDialog(
-            "Import load list", f"{len(loads)} appliance line(s) read from {path.name}.",
-            [("a", "Add to the list", "add"), ("r", "Replace the list", "replace")]), answer)
+        self.app.push_screen(
+            ConfirmDialog(
+                "Import load list",
+                f"{len(loads)} appliance line(s) read from {path.name}.",
+                [("a", "Add to the list", "add"), ("r", "Replace the list", "replace")],
+            ),
+            answer,
+        )
 
     def _import(self, loads, append: bool, name: str) -> None:
         try:
@@ -313,14 +340,23 @@ class LoadsSection(Section):
         except EditRejected as exc:
             self.app.push_screen(MessageDialog("Not imported", self.problems_text(exc)))
             return
-        self.work.changed(f"{len(loads)} appliance line(s) imported from {printable(name)}",
-                          tell=True)
+        self.work.changed(
+            f"{len(loads)} appliance line(s) imported from {printable(name)}", tell=True
+        )
         self._go(0, 0)
 
     def action_export_csv(self) -> None:
         stem = (self.session.path.stem if self.session.path else "loads") + "-loads.csv"
-        self.app.push_screen(PathDialog("Export the load list (CSV)", stem, suffixes=(".csv",),
-                                        must_exist=False, verb="exports"), self._export_path)
+        self.app.push_screen(
+            PathDialog(
+                "Export the load list (CSV)",
+                stem,
+                suffixes=(".csv",),
+                must_exist=False,
+                verb="exports",
+            ),
+            self._export_path,
+        )
 
     def _export_path(self, path: Path | None) -> None:
         if path is None:
@@ -331,8 +367,9 @@ class LoadsSection(Section):
 
         refusal = overwrite_refusal(path, self.session.path)
         if refusal:
-            self.app.notify(f"Not exported: {printable(refusal)}", severity="error",
-                            markup=False, timeout=8)
+            self.app.notify(
+                f"Not exported: {printable(refusal)}", severity="error", markup=False, timeout=8
+            )
             return
 
         def write(answer: str | None = "yes") -> None:
@@ -344,16 +381,22 @@ class LoadsSection(Section):
             try:
                 atomic_write_text(path, loads_to_csv(self.session.project.loads))
             except OSError as exc:
-                self.app.notify(f"Not exported: {exc.strerror}", severity="error",
-                                markup=False)
+                self.app.notify(f"Not exported: {exc.strerror}", severity="error", markup=False)
                 return
-            self.app.notify(f"Exported {len(self.session.project.loads)} line(s) to "
-                            f"{printable(str(path))}", markup=False)
+            self.app.notify(
+                f"Exported {len(self.session.project.loads)} line(s) to {printable(str(path))}",
+                markup=False,
+            )
 
         if path.exists():
-            self.app.push_screen(ConfirmDialog("Replace file?", f"{path} exists.",
-                                               [("y", "Replace it", "yes"),
-                                                ("n", "Keep it", "no")]), write)
+            self.app.push_screen(
+                ConfirmDialog(
+                    "Replace file?",
+                    f"{path} exists.",
+                    [("y", "Replace it", "yes"), ("n", "Keep it", "no")],
+                ),
+                write,
+            )
         else:
             write()
 
@@ -374,13 +417,22 @@ class LoadsSection(Section):
                 "quantity x power x hours per day x duty cycle, in the months the appliance is "
                 "used (at the appliance; AC loads are divided by the inverter efficiency on the "
                 "way to the battery)",
-                (("quantity", str(load.quantity)), ("power", fmt(load.power_w, "W")),
-                 ("hours per day", fmt(load.hours_per_day, "h")),
-                 ("duty cycle", fmt(load.duty_cycle)), ("months", format_months(load.months)),
-                 ("month shown", month)),
-                "common practice, no source")
+                (
+                    ("quantity", str(load.quantity)),
+                    ("power", fmt(load.power_w, "W")),
+                    ("hours per day", fmt(load.hours_per_day, "h")),
+                    ("duty cycle", fmt(load.duty_cycle)),
+                    ("months", format_months(load.months)),
+                    ("month shown", month),
+                ),
+                "common practice, no source",
+            )
             return Figure(f"Energy of '{load.name}'", f"{value:,.0f} Wh/day", None, reason)
         value = getattr(load, column.key)
         shown = format_months(value) if column.kind == "months" else str(value)
-        return Figure(f"{column.label} of '{load.name}'", shown, "loads.daily_energy_wh",
-                      extra="A value from the survey; it feeds the daily energy shown here.")
+        return Figure(
+            f"{column.label} of '{load.name}'",
+            shown,
+            "loads.daily_energy_wh",
+            extra="A value from the survey; it feeds the daily energy shown here.",
+        )

@@ -63,8 +63,9 @@ class Choice:
 
 COMMON: tuple[Choice, ...] = (
     Choice("controller", "Controller type (MPPT or PWM)", "controller.type", CONTROLLER_TYPES),
-    Choice("chemistry", "Battery chemistry preset (type, depth, efficiency)", None,
-           CHEMISTRY_CHOICES),
+    Choice(
+        "chemistry", "Battery chemistry preset (type, depth, efficiency)", None, CHEMISTRY_CHOICES
+    ),
     Choice("voltage", "System voltage", "choices.system_voltage", VOLTAGE_CHOICES),
     Choice("autonomy", "Days of autonomy", "choices.autonomy_days"),
     Choice("dod", "Max depth of discharge", "choices.max_dod"),
@@ -83,9 +84,11 @@ def chemistry_preset(project: Project, chemistry: str) -> dict[str, Any]:
     from offgrid.battery import CHEMISTRIES
 
     chem = CHEMISTRIES[chemistry]
-    out: dict[str, Any] = {"battery.chemistry": chemistry,
-                           "battery.max_dod": chem.default_max_dod,
-                           "battery.efficiency": PRESET_EFFICIENCY[chemistry]}
+    out: dict[str, Any] = {
+        "battery.chemistry": chemistry,
+        "battery.max_dod": chem.default_max_dod,
+        "battery.efficiency": PRESET_EFFICIENCY[chemistry],
+    }
     unit_v = project.battery.nominal_voltage_v
     cell_v = chem.cell_voltage_v
     cells = max(1, round(unit_v / cell_v))
@@ -172,15 +175,20 @@ class PriceTable(SteadyTable):
         self.parent.action_import_prices()  # type: ignore[union-attr]
 
 
-COST_REASONS = {"Capital cost": "costs.capital", "Lifecycle cost": "costs.lcc",
-                "Cost per kWh delivered": "costs.cost_per_kwh"}
+COST_REASONS = {
+    "Capital cost": "costs.capital",
+    "Lifecycle cost": "costs.lcc",
+    "Cost per kWh delivered": "costs.cost_per_kwh",
+}
 
 
 class OptionsSection(Section):
     section_id = "options"
-    help_text = ("The project's variants beside the base design, each figure that differs "
-                 "marked with *; and the price list that the costs use (p switches). Enter "
-                 "edits the value under the cursor; w explains a figure or a cost.")
+    help_text = (
+        "The project's variants beside the base design, each figure that differs "
+        "marked with *; and the price list that the costs use (p switches). Enter "
+        "edits the value under the cursor; w explains a figure or a cost."
+    )
 
     BINDINGS = [
         Binding("p", "toggle_prices", "Prices", id="options.prices"),
@@ -225,8 +233,11 @@ class OptionsSection(Section):
         if self.showing_prices:
             self._fill_prices(session)
         else:
-            fresh = self.result is not None and self.result.project_text == session.text() \
+            fresh = (
+                self.result is not None
+                and self.result.project_text == session.text()
                 and self.result.with_risk == self.with_risk
+            )
             if not fresh and not self.running:
                 self._start(session)
             self._status(session)
@@ -237,23 +248,38 @@ class OptionsSection(Section):
         n = len(session.project.variants)
         if self.running:
             what = f", {RISK_YEARS} weather years each" if self.with_risk else ""
-            status.update(Text(f"Designing the base and {n} option(s){what}... (you can "
-                               "keep working)", style="bold"))
+            status.update(
+                Text(
+                    f"Designing the base and {n} option(s){what}... (you can keep working)",
+                    style="bold",
+                )
+            )
         elif self.result is not None and self.result.project_text != session.text():
             status.update(Text("\u26a0 Out of date: the project changed.", style="bold reverse"))
         elif not n:
-            status.update(Text("No options yet: a adds one (one change against the base). "
-                               "p: prices", style="bold"))
+            status.update(
+                Text(
+                    "No options yet: a adds one (one change against the base). p: prices",
+                    style="bold",
+                )
+            )
         else:
             risk = "g: risk off" if self.with_risk else "g: risk"
-            status.update(Text(f"Base and {n} option(s); * differs from the base "
-                               f"({self.result.seconds:.1f} s). p: prices, {risk}"
-                               if self.result else "", style="bold"))
+            status.update(
+                Text(
+                    f"Base and {n} option(s); * differs from the base "
+                    f"({self.result.seconds:.1f} s). p: prices, {risk}"
+                    if self.result
+                    else "",
+                    style="bold",
+                )
+            )
 
     def _start(self, session: Session) -> None:
         self.running = True
-        self._compare(copy.deepcopy(session.project), session.base_dir, session.text(),
-                      self.with_risk)
+        self._compare(
+            copy.deepcopy(session.project), session.base_dir, session.text(), self.with_risk
+        )
 
     @work(thread=True, exclusive=True, group="options")
     def _compare(self, project: Project, base: Path, text: str, with_risk: bool) -> None:
@@ -271,8 +297,9 @@ class OptionsSection(Section):
                 def simulate(proj, _design):
                     if worker.is_cancelled:
                         raise RuntimeError("stopped")
-                    return simulate_project(proj, base, years=RISK_YEARS,
-                                            with_tradeoff=False).reliability
+                    return simulate_project(
+                        proj, base, years=RISK_YEARS, with_tradeoff=False
+                    ).reliability
 
             comparison = compare_variants(project, base, simulate=simulate)
         except Exception as exc:  # a message for the user, not a crash
@@ -291,8 +318,9 @@ class OptionsSection(Section):
 
     def _failed(self, message: str) -> None:
         self.running = False
-        self.app.notify(f"Options could not be compared: {message}", severity="error",
-                        markup=False, timeout=6)
+        self.app.notify(
+            f"Options could not be compared: {message}", severity="error", markup=False, timeout=6
+        )
 
     def _fill(self) -> None:
         table = self.table
@@ -308,21 +336,26 @@ class OptionsSection(Section):
         for k in range(len(cols)):
             head = "Base" if k == 0 else f"Option {k}"
             table.add_column(Text(head, style="bold"), width=room, key=f"c{k}")
-        table.add_row(Text("Name", style="bold"),
-                      *[Text(printable(c.name)) for c in cols])
+        table.add_row(Text("Name", style="bold"), *[Text(printable(c.name)) for c in cols])
         self._rows.append(("name", None))
         if any(c.error for c in cols):
-            table.add_row(Text("Problem", style="bold"),
-                          *[Text(printable(c.error or "-")) for c in cols])
+            table.add_row(
+                Text("Problem", style="bold"), *[Text(printable(c.error or "-")) for c in cols]
+            )
             self._rows.append(("error", None))
         group = ""
-        titles = {"choices": "Changed values", "figures": "Sized system", "cost": "Cost",
-                  "reliability": "Reliability"}
+        titles = {
+            "choices": "Changed values",
+            "figures": "Sized system",
+            "cost": "Cost",
+            "reliability": "Reliability",
+        }
         for row in cmp.rows:
             if row.group != group:
                 group = row.group
-                table.add_row(Text(titles.get(group, group), style="bold underline"),
-                              *["" for _ in cols])
+                table.add_row(
+                    Text(titles.get(group, group), style="bold underline"), *["" for _ in cols]
+                )
                 self._rows.append(("heading", None))
             label = override_label(row.label) if row.group == "choices" else row.label
             unit = f" {row.unit}" if row.unit else ""
@@ -330,13 +363,17 @@ class OptionsSection(Section):
             for text, diff, raw in zip(row.texts, row.differs, row.values, strict=True):
                 numeric = isinstance(raw, int | float) and not isinstance(raw, bool)
                 value = printable(text) + (unit if numeric else "")
-                cells.append(Text(DIFF_MARK + value, style="bold reverse") if diff
-                             else Text("  " + value))
+                cells.append(
+                    Text(DIFF_MARK + value, style="bold reverse") if diff else Text("  " + value)
+                )
             table.add_row(Text("  " + label), *cells)
             self._rows.append(row)
         if table.row_count:
-            table.move_cursor(row=min(keep.row, table.row_count - 1),
-                              column=min(max(1, keep.column), len(cols)), animate=False)
+            table.move_cursor(
+                row=min(keep.row, table.row_count - 1),
+                column=min(max(1, keep.column), len(cols)),
+                animate=False,
+            )
 
     # ------------------------------------------------------------------ prices
     def _fill_prices(self, session: Session) -> None:
@@ -352,30 +389,36 @@ class OptionsSection(Section):
         project = session.project
         cur = project.economics.currency
         for i, item in enumerate(project.prices):
-            table.add_row(Text(printable(item.part)), Text(f"{item.unit_price:,.2f}"),
-                          Text(cur), Text(printable(item.note)))
+            table.add_row(
+                Text(printable(item.part)),
+                Text(f"{item.unit_price:,.2f}"),
+                Text(cur),
+                Text(printable(item.note)),
+            )
             self._price_rows.append(("price", i))
         self._cost = self._base_cost(session)
         cost = self._cost
         status = self.query_one("#options-status", Static)
         if cost is not None and cost.missing:
-            table.add_row(Text("No price yet (Enter gives one)", style="bold underline"),
-                          "", "", "")
+            table.add_row(
+                Text("No price yet (Enter gives one)", style="bold underline"), "", "", ""
+            )
             self._price_rows.append(("heading", None))
             for key in cost.missing:
-                table.add_row(Text("  " + printable(key)), Text("missing", style="bold"),
-                              Text(cur), "")
+                table.add_row(
+                    Text("  " + printable(key)), Text("missing", style="bold"), Text(cur), ""
+                )
                 self._price_rows.append(("missing", key))
         if cost is not None:
             from offgrid.economics.costs import money
 
-            table.add_row(Text("Cost of the base design",
-                               style="bold underline"), "", "", "")
+            table.add_row(Text("Cost of the base design", style="bold underline"), "", "", "")
             self._price_rows.append(("heading", None))
-            for label, value, unit in (("Capital cost", cost.capital, cur),
-                                       ("Lifecycle cost", cost.lcc, cur),
-                                       ("Cost per kWh delivered", cost.cost_per_kwh,
-                                        f"{cur}/kWh")):
+            for label, value, unit in (
+                ("Capital cost", cost.capital, cur),
+                ("Lifecycle cost", cost.lcc, cur),
+                ("Cost per kWh delivered", cost.cost_per_kwh, f"{cur}/kWh"),
+            ):
                 shown = "no price" if value is None else money(value)
                 table.add_row(Text("  " + label), Text(shown, style="bold"), Text(unit), "")
                 self._price_rows.append(("cost", label))
@@ -385,11 +428,13 @@ class OptionsSection(Section):
             state = f", {len(cost.missing)} part(s) without a price. w: formula"
         else:
             state = ", every part priced. w: formula"
-        status.update(Text(f"Price list: {len(project.prices)} line(s){state}. p: options",
-                           style="bold"))
+        status.update(
+            Text(f"Price list: {len(project.prices)} line(s){state}. p: options", style="bold")
+        )
         if table.row_count:
-            table.move_cursor(row=min(keep.row, table.row_count - 1), column=keep.column,
-                              animate=False)
+            table.move_cursor(
+                row=min(keep.row, table.row_count - 1), column=keep.column, animate=False
+            )
 
     def _base_cost(self, session: Session):
         d = session.design
@@ -416,9 +461,13 @@ class OptionsSection(Section):
 
     def action_toggle_risk(self) -> None:
         self.with_risk = not self.with_risk
-        self.app.notify(f"Options compared with {RISK_YEARS} synthetic weather years each "
-                        "(loss-of-load, unmet energy)." if self.with_risk else
-                        "Options compared without the risk check.", timeout=3)
+        self.app.notify(
+            f"Options compared with {RISK_YEARS} synthetic weather years each "
+            "(loss-of-load, unmet energy)."
+            if self.with_risk
+            else "Options compared without the risk check.",
+            timeout=3,
+        )
         if self.showing_prices:
             self.action_toggle_prices()
         else:
@@ -440,9 +489,12 @@ class OptionsSection(Section):
             return
         item = project.prices[index]
         if column == "part":
-            self._edit_text(f"prices[{index + 1}].part", "Part key", item.part,
-                            "a key from the bill of materials, e.g. controller:MPPT or "
-                            "cable:copper 6 mm2")
+            self._edit_text(
+                f"prices[{index + 1}].part",
+                "Part key",
+                item.part,
+                "a key from the bill of materials, e.g. controller:MPPT or cable:copper 6 mm2",
+            )
         elif column == "note":
             self._edit_text(f"prices[{index + 1}].note", "Note", item.note, "any text")
         else:
@@ -468,12 +520,15 @@ class OptionsSection(Section):
             self.work.changed("Currency set")
             return None
 
-        self.editor.start("Currency of every price (economics.currency)",
-                          self.session.project.economics.currency, apply,
-                          "one currency for the whole price list", back=self.prices)
+        self.editor.start(
+            "Currency of every price (economics.currency)",
+            self.session.project.economics.currency,
+            apply,
+            "one currency for the whole price list",
+            back=self.prices,
+        )
 
-    def _ask_price(self, part: str, index: int | None, text: str = "",
-                   currency: str = "") -> None:
+    def _ask_price(self, part: str, index: int | None, text: str = "", currency: str = "") -> None:
         cur = currency or self.session.project.economics.currency
 
         def apply(typed: str) -> str | None:
@@ -498,8 +553,13 @@ class OptionsSection(Section):
             self.work.changed("Price set")
             return None
 
-        self.editor.start(f"Unit price of {printable(part)} ({cur})", text, apply,
-                          "price of one unit, above zero", back=self.prices)
+        self.editor.start(
+            f"Unit price of {printable(part)} ({cur})",
+            text,
+            apply,
+            "price of one unit, above zero",
+            back=self.prices,
+        )
 
     def action_add_price(self) -> None:
         cost = self._cost
@@ -514,9 +574,13 @@ class OptionsSection(Section):
             self.call_after_refresh(self._ask_price, part, None)
             return None
 
-        self.editor.start("New price: part key", start, apply,
-                          "a bill-of-materials key; the kind alone (cable) prices every part "
-                          "of that kind", back=self.prices)
+        self.editor.start(
+            "New price: part key",
+            start,
+            apply,
+            "a bill-of-materials key; the kind alone (cable) prices every part of that kind",
+            back=self.prices,
+        )
 
     def action_delete_price(self) -> None:
         what, index = self._price_row()
@@ -526,16 +590,19 @@ class OptionsSection(Section):
         part = self.session.project.prices[index].part
         self.session.change(lambda p: p.prices.pop(index))
         self.work.changed()
-        self.app.notify(f"Price of {printable(part)} deleted (u undoes).", markup=False,
-                        timeout=3)
+        self.app.notify(f"Price of {printable(part)} deleted (u undoes).", markup=False, timeout=3)
 
     def action_import_prices(self) -> None:
         def chosen(path: Path | None) -> None:
             if path is not None:
                 self.import_prices(path)
 
-        self.app.push_screen(PathDialog("Import a price list (CSV: part, unit_price)",
-                                        suffixes=(".csv",), verb="reads it"), chosen)
+        self.app.push_screen(
+            PathDialog(
+                "Import a price list (CSV: part, unit_price)", suffixes=(".csv",), verb="reads it"
+            ),
+            chosen,
+        )
 
     def import_prices(self, path: Path) -> None:
         from offgrid.economics.prices import PriceListError, load_price_csv, merge_prices
@@ -543,18 +610,25 @@ class OptionsSection(Section):
         try:
             items = load_price_csv(path)
         except (OSError, PriceListError) as exc:
-            self.app.push_screen(MessageDialog("That price list cannot be used",
-                                               f"{exc}\n\nThe price list was not changed."))
+            self.app.push_screen(
+                MessageDialog(
+                    "That price list cannot be used", f"{exc}\n\nThe price list was not changed."
+                )
+            )
             return
         try:
             self.session.change(lambda p: setattr(p, "prices", merge_prices(p.prices, items)))
         except EditRejected as exc:
-            self.app.push_screen(MessageDialog("That price list cannot be used",
-                                               self.problems_text(exc)))
+            self.app.push_screen(
+                MessageDialog("That price list cannot be used", self.problems_text(exc))
+            )
             return
         self.work.changed()
-        self.app.notify(f"{len(items)} price(s) read from {printable(path.name)} (u undoes).",
-                        markup=False, timeout=4)
+        self.app.notify(
+            f"{len(items)} price(s) read from {printable(path.name)} (u undoes).",
+            markup=False,
+            timeout=4,
+        )
 
     # ------------------------------------------------------------------ variants
     def _column(self) -> int:
@@ -606,8 +680,9 @@ class OptionsSection(Section):
             self.work.changed("Option renamed")
             return None
 
-        self.editor.start("Name of the option", v.name, apply, "a short name; names must "
-                          "differ", back=self.table)
+        self.editor.start(
+            "Name of the option", v.name, apply, "a short name; names must differ", back=self.table
+        )
 
     def _set_override(self, vi: int, path: str, value: Any) -> str | None:
         """Put ``path = value`` in variant ``vi``; None if accepted, else the problem."""
@@ -641,8 +716,10 @@ class OptionsSection(Section):
                     if problem:
                         self.app.notify(problem, severity="error", markup=False, timeout=6)
 
-            self.app.push_screen(ChoiceDialog(f"{printable(v.name)}: {override_label(path)}",
-                                              options, current), chosen)
+            self.app.push_screen(
+                ChoiceDialog(f"{printable(v.name)}: {override_label(path)}", options, current),
+                chosen,
+            )
             return
         text = "" if current is None else (f.edit_text(current) if f else str(current))
 
@@ -653,15 +730,21 @@ class OptionsSection(Section):
                 return str(exc)
             return self._set_override(vi, path, value)
 
-        self.editor.start(f"{printable(v.name)}: {override_label(path)}", text, apply,
-                          f.help() if f else path, back=self.table)
+        self.editor.start(
+            f"{printable(v.name)}: {override_label(path)}",
+            text,
+            apply,
+            f.help() if f else path,
+            back=self.table,
+        )
 
     def action_add_change(self) -> None:
         """One more change in the option under the cursor."""
         vi = self._variant_index()
         if vi is None:
-            self.app.notify("Put the cursor on an option's column first (a adds an option).",
-                            timeout=3)
+            self.app.notify(
+                "Put the cursor on an option's column first (a adds an option).", timeout=3
+            )
             return
         self.action_add_variant(into=vi)
 
@@ -683,8 +766,11 @@ class OptionsSection(Section):
             else:
                 self._ask_value(choice, into)
 
-        title = "New option: what does it change?" if into is None else \
-            f"{printable(self.session.project.variants[into].name)}: add a change"
+        title = (
+            "New option: what does it change?"
+            if into is None
+            else f"{printable(self.session.project.variants[into].name)}: add a change"
+        )
         self.app.push_screen(ChoiceDialog(title, options), picked)
 
     def _ask_value(self, choice: Choice, into: int | None = None) -> None:
@@ -701,8 +787,9 @@ class OptionsSection(Section):
                 return str(exc)
             return self._add(choice, value, into)
 
-        self.editor.start(f"New option: {choice.label}", start, apply,
-                          f.help() if f else "", back=self.table)
+        self.editor.start(
+            f"New option: {choice.label}", start, apply, f.help() if f else "", back=self.table
+        )
 
     def _add(self, choice: Choice, value: Any, into: int | None = None) -> str | None:
         """Add a variant with the chosen override (or add it to variant ``into``).
@@ -719,8 +806,9 @@ class OptionsSection(Section):
             overrides = {choice.path: value}
             f = KNOWN_FIELDS.get(choice.path)
             shown = f.show(value) if f is not None else str(value)
-        name = unique_name([v.name for v in project.variants],
-                           f"{choice.label.split(' (')[0]}: {shown}"[:40])
+        name = unique_name(
+            [v.name for v in project.variants], f"{choice.label.split(' (')[0]}: {shown}"[:40]
+        )
         variant = Variant(name=name, overrides=overrides, note="added in the options section")
         at = len(project.variants) + 1 if into is None else into + 1
 
@@ -741,25 +829,29 @@ class OptionsSection(Section):
             return problem
         self.work.changed()
         if into is None:
-            self.app.notify(f"Option '{printable(name)}' added; Enter on its name renames it.",
-                            markup=False, timeout=4)
+            self.app.notify(
+                f"Option '{printable(name)}' added; Enter on its name renames it.",
+                markup=False,
+                timeout=4,
+            )
         else:
-            self.app.notify(f"{choice.label.split(' (')[0]}: {shown} added to "
-                            f"'{printable(project.variants[into].name)}'.", markup=False,
-                            timeout=4)
+            self.app.notify(
+                f"{choice.label.split(' (')[0]}: {shown} added to "
+                f"'{printable(project.variants[into].name)}'.",
+                markup=False,
+                timeout=4,
+            )
         return None
 
     def action_delete_variant(self) -> None:
         vi = self._variant_index()
         if vi is None:
-            self.app.notify("Put the cursor on an option's column (the base stays).",
-                            timeout=3)
+            self.app.notify("Put the cursor on an option's column (the base stays).", timeout=3)
             return
         name = self.session.project.variants[vi].name
         self.session.change(lambda p: p.variants.pop(vi))
         self.work.changed()
-        self.app.notify(f"Option '{printable(name)}' deleted (u undoes).", markup=False,
-                        timeout=3)
+        self.app.notify(f"Option '{printable(name)}' deleted (u undoes).", markup=False, timeout=3)
 
     # ------------------------------------------------------------------ why
     def figure(self) -> Figure | None:
@@ -767,14 +859,21 @@ class OptionsSection(Section):
             what, label = self._price_row()
             cost = self._cost
             if what == "cost" and cost is not None:
-                return Figure(label, self._cost_text(cost, label), None,
-                              cost.reasons.get(COST_REASONS[label]),
-                              extra=self._cost_extra(cost))
+                return Figure(
+                    label,
+                    self._cost_text(cost, label),
+                    None,
+                    cost.reasons.get(COST_REASONS[label]),
+                    extra=self._cost_extra(cost),
+                )
             if what == "price":
                 item = self.session.project.prices[label]
-                return Figure(item.part, f"{item.unit_price:g} "
-                              f"{self.session.project.economics.currency}", None,
-                              extra="A price you typed or imported; the costs use it as given.")
+                return Figure(
+                    item.part,
+                    f"{item.unit_price:g} {self.session.project.economics.currency}",
+                    None,
+                    extra="A price you typed or imported; the costs use it as given.",
+                )
             return None
         if not self._rows or self.result is None:
             return None
@@ -787,23 +886,43 @@ class OptionsSection(Section):
         label = f"{row.label} ({col.name})"
         if row.group == "cost" and col.cost is not None:
             key = COST_REASONS.get(row.label)
-            reason = col.cost.reasons.get(key) if key else Reason(
-                "battery service life used for replacements", (), col.cost.battery_life_source)
+            reason = (
+                col.cost.reasons.get(key)
+                if key
+                else Reason(
+                    "battery service life used for replacements", (), col.cost.battery_life_source
+                )
+            )
             return Figure(label, value, None, reason, extra=self._cost_extra(col.cost))
         if row.group == "reliability" and col.reliability is not None:
             from offgrid.economics.variants import RELIABILITY_ROWS
 
             attr = next((a for lbl, _u, _d, a in RELIABILITY_ROWS if lbl == row.label), "")
             reason = col.reliability.reasons.get(attr)
-            return Figure(label, value, None, reason, extra=f"{RISK_YEARS} synthetic weather "
-                          "years through this option's design, as in 7 Risk.")
+            return Figure(
+                label,
+                value,
+                None,
+                reason,
+                extra=f"{RISK_YEARS} synthetic weather "
+                "years through this option's design, as in 7 Risk.",
+            )
         if row.group == "choices":
-            return Figure(label, value, None, extra="A value of this option (or of the base "
-                          "project); the engine uses it as given.")
+            return Figure(
+                label,
+                value,
+                None,
+                extra="A value of this option (or of the base "
+                "project); the engine uses it as given.",
+            )
         if col.design is not None:
             path, reason = find_reason(col.design.reasons, row.path)
-            extra = ("The number of warnings and notes of this design; 6 Cautions lists "
-                     "those of the base." if row.path == "warnings" else "")
+            extra = (
+                "The number of warnings and notes of this design; 6 Cautions lists "
+                "those of the base."
+                if row.path == "warnings"
+                else ""
+            )
             return Figure(label, value, path, reason, extra=extra)
         return Figure(label, value, None, extra=col.error or "")
 
@@ -811,8 +930,11 @@ class OptionsSection(Section):
     def _cost_text(cost, label: str) -> str:
         from offgrid.economics.costs import money
 
-        value = {"Capital cost": cost.capital, "Lifecycle cost": cost.lcc,
-                 "Cost per kWh delivered": cost.cost_per_kwh}[label]
+        value = {
+            "Capital cost": cost.capital,
+            "Lifecycle cost": cost.lcc,
+            "Cost per kWh delivered": cost.cost_per_kwh,
+        }[label]
         return money(value, cost.currency)
 
     @staticmethod
@@ -822,9 +944,11 @@ class OptionsSection(Section):
         if cost.missing:
             return cost.message()
         c = cost.currency
-        return (f"parts {money(cost.parts, c)} + installation {money(cost.installation, c)} = "
-                f"capital {money(cost.capital, c)}; + replacements {money(cost.replacements_pw, c)}"
-                f" + upkeep {money(cost.upkeep_pw, c)} = lifecycle {money(cost.lcc, c)} over "
-                f"{cost.economics.life_years} years; energy {cost.energy_kwh_year:,.0f} kWh/year "
-                f"x PWF {cost.pwf_energy:.2f}; battery life {cost.battery_life_years:g} years "
-                f"({cost.battery_life_source}).")
+        return (
+            f"parts {money(cost.parts, c)} + installation {money(cost.installation, c)} = "
+            f"capital {money(cost.capital, c)}; + replacements {money(cost.replacements_pw, c)}"
+            f" + upkeep {money(cost.upkeep_pw, c)} = lifecycle {money(cost.lcc, c)} over "
+            f"{cost.economics.life_years} years; energy {cost.energy_kwh_year:,.0f} kWh/year "
+            f"x PWF {cost.pwf_energy:.2f}; battery life {cost.battery_life_years:g} years "
+            f"({cost.battery_life_source})."
+        )

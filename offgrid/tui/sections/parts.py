@@ -17,9 +17,11 @@ from offgrid.tui.widgets.fieldtable import FieldTable
 
 class PartsSection(Section):
     section_id = "parts"
-    help_text = ("The parts the system is built from and the design choices. Enter edits the "
-                 "field under the cursor; the module's datasheet is edited as a whole, because "
-                 "its values must agree with each other.")
+    help_text = (
+        "The parts the system is built from and the design choices. Enter edits the "
+        "field under the cursor; the module's datasheet is edited as a whole, because "
+        "its values must agree with each other."
+    )
 
     def compose(self) -> ComposeResult:
         yield FieldTable(PARTS_FIELDS, id="parts-fields")
@@ -67,8 +69,9 @@ class PartsSection(Section):
                 return
             self.work.changed(f"{field.label}: {field.show(value)}")
 
-        self.app.push_screen(ChoiceDialog(field.label, list(field.choices), current,
-                                          note=field.help()), chosen)
+        self.app.push_screen(
+            ChoiceDialog(field.label, list(field.choices), current, note=field.help()), chosen
+        )
 
     def _edit_module(self, field: Field) -> None:
         project = self.session.project
@@ -87,8 +90,11 @@ class PartsSection(Section):
             self.work.changed("Module datasheet set")
             return {}
 
-        self.app.push_screen(SheetDialog("Module datasheet (values at STC)", MODULE_FIELDS,
-                                         project, apply, focus=field.path))
+        self.app.push_screen(
+            SheetDialog(
+                "Module datasheet (values at STC)", MODULE_FIELDS, project, apply, focus=field.path
+            )
+        )
 
     def figure(self) -> Figure | None:
         field = self.fields.current_field()

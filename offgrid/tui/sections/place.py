@@ -26,11 +26,20 @@ from offgrid.tui.widgets.steady import SteadyTable
 
 CLIMATE_FIELDS: tuple[Field | str, ...] = (
     "Climate",
-    Field("climate", "Climate", "climate", hint="Enter or c: pick a bundled climate, a file, "
-          "or type twelve months"),
-    Field("climate.record_low_c", "Record low temperature", "auto_float", unit="C",
-          reason="site.record_low_c",
-          hint="lowest temperature expected, C: sets the cold string voltage"),
+    Field(
+        "climate",
+        "Climate",
+        "climate",
+        hint="Enter or c: pick a bundled climate, a file, or type twelve months",
+    ),
+    Field(
+        "climate.record_low_c",
+        "Record low temperature",
+        "auto_float",
+        unit="C",
+        reason="site.record_low_c",
+        hint="lowest temperature expected, C: sets the cold string voltage",
+    ),
 )
 ROWS = (
     ("insolation_kwh_m2_day", "Sun kWh/m2/d", "mean daily sun on the horizontal, kWh/m2/day"),
@@ -84,13 +93,17 @@ def climate_option_label(entry) -> Text:
     right = f"{right} \u00b7 {entry.origin}" if right else entry.origin
     room = PICKER_WIDTH - len(right) - 2
     if len(title) > room:
-        title = title[:room - 1] + "\u2026"
+        title = title[: room - 1] + "\u2026"
     source = printable(entry.source or "source not given").replace("\n", " ")
     if len(source) > PICKER_WIDTH - 2:
-        source = source[:PICKER_WIDTH - 3] + "\u2026"
-    return Text.assemble((title, "bold"), " " * (PICKER_WIDTH - len(title) - len(right)),
-                         (right, "italic" if entry.origin == "yours" else ""), "\n",
-                         ("  " + source, "dim"))
+        source = source[: PICKER_WIDTH - 3] + "\u2026"
+    return Text.assemble(
+        (title, "bold"),
+        " " * (PICKER_WIDTH - len(title) - len(right)),
+        (right, "italic" if entry.origin == "yours" else ""),
+        "\n",
+        ("  " + source, "dim"),
+    )
 
 
 def checked_climate(climate: MonthlyClimate) -> None:
@@ -130,8 +143,11 @@ class ClimateTable(SteadyTable):
                     cells.append(Text("-".rjust(5), style="dim"))
                 else:
                     digits = 2 if key in ("insolation_kwh_m2_day", "poa") else 1
-                    cells.append(Text(f"{values[i]:.{digits}f}".rjust(5),
-                                      style="dim" if key == "poa" else ""))
+                    cells.append(
+                        Text(
+                            f"{values[i]:.{digits}f}".rjust(5), style="dim" if key == "poa" else ""
+                        )
+                    )
             self.add_row(*cells, key=key)
         if keep.row < self.row_count:
             self.move_cursor(row=keep.row, column=max(1, keep.column), animate=False)
@@ -141,8 +157,10 @@ class ClimateTable(SteadyTable):
 
 class PlaceSection(Section):
     section_id = "place"
-    help_text = ("Project and site details, and the climate: pick a bundled one, a file, or "
-                 "type the twelve monthly values in the table.")
+    help_text = (
+        "Project and site details, and the climate: pick a bundled one, a file, or "
+        "type the twelve monthly values in the table."
+    )
 
     BINDINGS = [
         Binding("c", "choose_climate", "Climate", id="place.climate"),
@@ -178,12 +196,14 @@ class PlaceSection(Section):
         special = {"climate": climate_name(project)}
         inline = project.climate.inline
         if inline is None:
-            special["climate.record_low_c"] = ("from the climate file" if project.climate.ref
-                                               else "-")
+            special["climate.record_low_c"] = (
+                "from the climate file" if project.climate.ref else "-"
+            )
         else:
             low = inline.record_low_c
-            special["climate.record_low_c"] = (f"{low:g} C" if low is not None else
-                                               "estimated from minima")
+            special["climate.record_low_c"] = (
+                f"{low:g} C" if low is not None else "estimated from minima"
+            )
         self.fields.fill(project, design, {}, special)
         climate = self._climate(session)
         poa = design.site.poa_kwh_m2_day if design else None
@@ -192,8 +212,10 @@ class PlaceSection(Section):
         if inline is not None:
             title = "Monthly climate (your own values: Enter edits a month)"
         elif project.climate.ref:
-            title = f"Climate '{printable(project.climate.ref)}' \u00b7 Enter on a month " \
-                    "edits your own copy"
+            title = (
+                f"Climate '{printable(project.climate.ref)}' \u00b7 Enter on a month "
+                "edits your own copy"
+            )
         else:
             title = "Monthly climate: none yet (press c to pick one, or m to type your own)"
         self.query_one("#climate-title", Static).update(Text(title, style="bold"))
@@ -249,8 +271,13 @@ class PlaceSection(Section):
             self.work.changed("record low set")
             return None
 
-        self.editor.start(field.label, text, apply, field.help() + "; setting it makes your "
-                          "own copy of the climate", back=self.fields)
+        self.editor.start(
+            field.label,
+            text,
+            apply,
+            field.help() + "; setting it makes your own copy of the climate",
+            back=self.fields,
+        )
 
     # ------------------------------------------------------------------ months
     def on_data_table_cell_selected(self, event: DataTable.CellSelected) -> None:
@@ -269,8 +296,9 @@ class PlaceSection(Section):
 
         def apply(typed: str) -> str | None:
             try:
-                self.session.change(lambda p: self._put_months(p, key, month, typed),
-                                    focus="climate")
+                self.session.change(
+                    lambda p: self._put_months(p, key, month, typed), focus="climate"
+                )
             except EditRejected as exc:
                 return self.problems_text(exc)
             self.work.changed(f"{MONTHS[month - 1]} {label.lower()} set")
@@ -289,12 +317,16 @@ class PlaceSection(Section):
 
             base = resolve_climate(p, self.session.base_dir)
         if base is None:
-            base = MonthlyClimate(insolation_kwh_m2_day=[0.0] * 12, temp_mean_c=[20.0] * 12,
-                                  source="typed by the user")
+            base = MonthlyClimate(
+                insolation_kwh_m2_day=[0.0] * 12,
+                temp_mean_c=[20.0] * 12,
+                source="typed by the user",
+            )
             own = base
         else:
-            own = dataclasses.replace(base, source=f"own copy of {p.climate.ref}: "
-                                      f"{base.source}".strip())
+            own = dataclasses.replace(
+                base, source=f"own copy of {p.climate.ref}: {base.source}".strip()
+            )
         p.climate = ClimateChoice(inline=own)
 
     def _put_months(self, p: Project, key: str, month: int, typed: str) -> None:
@@ -313,8 +345,9 @@ class PlaceSection(Section):
         elif len(parts) == 1:
             values = getattr(climate, key)
             if values is None:
-                raise ValueError("this row is empty: type all twelve values, January first, "
-                                 "separated by spaces")
+                raise ValueError(
+                    "this row is empty: type all twelve values, January first, separated by spaces"
+                )
             values = list(values)
             values[month - 1] = parse_number(parts[0], unit)
             setattr(climate, key, values)
@@ -329,21 +362,35 @@ class PlaceSection(Section):
         options: list[tuple[object, str | Text]] = []
         for e in entries:
             if e.error:
-                options.append((("bad", e.name), Text(f"{printable(e.title)}: cannot be read "
-                                                      f"({printable(e.error)})")))
+                options.append(
+                    (
+                        ("bad", e.name),
+                        Text(f"{printable(e.title)}: cannot be read ({printable(e.error)})"),
+                    )
+                )
             else:
                 options.append((("ref", e.name), climate_option_label(e)))
-        options.append((("own", ""), "Type twelve monthly values (starts from the current "
-                        "climate)"))
-        options.append((("file", ""), "Import a weather file: EPW, TMY3, TMY2, monthly CSV, or "
-                        "an offgrid climate (.toml)..."))
+        options.append(
+            (("own", ""), "Type twelve monthly values (starts from the current climate)")
+        )
+        options.append(
+            (
+                ("file", ""),
+                "Import a weather file: EPW, TMY3, TMY2, monthly CSV, or "
+                "an offgrid climate (.toml)...",
+            )
+        )
         current = self.session.project.climate
         now = ("ref", current.ref) if current.ref else ("own", "") if current.inline else None
-        note = ("nearest first from the site" if sorted_by == "distance" else
-                "by name (set the site's latitude and longitude for nearest first)")
+        note = (
+            "nearest first from the site"
+            if sorted_by == "distance"
+            else "by name (set the site's latitude and longitude for nearest first)"
+        )
         note += " \u00b7 yours: from `offgrid climate import`"
-        self.app.push_screen(ChoiceDialog("Climate for this site", options, now, note=note),
-                             self._climate_chosen)
+        self.app.push_screen(
+            ChoiceDialog("Climate for this site", options, now, note=note), self._climate_chosen
+        )
 
     def _climate_chosen(self, choice) -> None:
         if not choice:
@@ -356,11 +403,17 @@ class PlaceSection(Section):
         elif kind == "own":
             self.action_own_months()
         elif kind == "file":
-            self.app.push_screen(PathDialog(
-                "Climate or weather file", suffixes=WEATHER_SUFFIXES, verb="reads it",
-                note="An offgrid climate (.toml) is used as it is; an hourly weather year "
-                     "(EPW, TMY3, TMY2) or a monthly CSV is reduced to twelve months and "
-                     "checked."), self._file_chosen)
+            self.app.push_screen(
+                PathDialog(
+                    "Climate or weather file",
+                    suffixes=WEATHER_SUFFIXES,
+                    verb="reads it",
+                    note="An offgrid climate (.toml) is used as it is; an hourly weather year "
+                    "(EPW, TMY3, TMY2) or a monthly CSV is reduced to twelve months and "
+                    "checked.",
+                ),
+                self._file_chosen,
+            )
 
     def _file_chosen(self, path: Path | None) -> None:
         if path is None:
@@ -396,8 +449,12 @@ class PlaceSection(Section):
     def _import_failed(self, path: Path, message: str) -> None:
         from offgrid.tui.screens.dialogs import MessageDialog
 
-        self.app.push_screen(MessageDialog(f"{printable(path.name)} was not imported",
-                                           message + "\n\nThe project was not changed."))
+        self.app.push_screen(
+            MessageDialog(
+                f"{printable(path.name)} was not imported",
+                message + "\n\nThe project was not changed.",
+            )
+        )
 
     def _imported(self, path: Path, result) -> None:
         from offgrid.tui.screens.dialogs import MessageDialog
@@ -406,8 +463,11 @@ class PlaceSection(Section):
 
         def put(p: Project) -> None:
             p.climate = ClimateChoice(inline=climate)
-            if p.site.latitude_deg == 0 and p.site.longitude_deg == 0 and \
-                    climate.latitude_deg is not None:
+            if (
+                p.site.latitude_deg == 0
+                and p.site.longitude_deg == 0
+                and climate.latitude_deg is not None
+            ):
                 p.site.latitude_deg = climate.latitude_deg
                 p.site.longitude_deg = climate.longitude_deg or 0.0
                 p.site.elevation_m = climate.elevation_m or p.site.elevation_m
@@ -419,8 +479,11 @@ class PlaceSection(Section):
             self._import_failed(path, self.problems_text(exc))
             return
         self.work.changed(f"Climate imported from {printable(path.name)}")
-        lines = [f"Twelve monthly values from {path.name} ({result.kind}) are now this "
-                 "project's own climate.", f"Source: {climate.source}"]
+        lines = [
+            f"Twelve monthly values from {path.name} ({result.kind}) are now this "
+            "project's own climate.",
+            f"Source: {climate.source}",
+        ]
         lines += [f"Note: {n}" for n in result.notes]
         lines += [f"{f.severity.upper()}: {f.message}" for f in result.findings]
         self.app.push_screen(MessageDialog("Climate imported", "\n".join(lines)))
@@ -450,9 +513,14 @@ class PlaceSection(Section):
         from offgrid.tui.screens.dialogs import ChoiceDialog, MessageDialog
 
         if not findings:
-            self.app.push_screen(MessageDialog("Climate check", "No problems found: the sun "
-                                               "values fit the site's clear-sky limits and the "
-                                               "temperatures agree with each other."))
+            self.app.push_screen(
+                MessageDialog(
+                    "Climate check",
+                    "No problems found: the sun "
+                    "values fit the site's clear-sky limits and the "
+                    "temperatures agree with each other.",
+                )
+            )
             return
         options: list[tuple[object, str]] = []
         for f in findings:
@@ -479,9 +547,14 @@ class PlaceSection(Section):
                 return
             self.work.changed(f"Climate fixed: {finding.fixes[i].label}", tell=True)
 
-        self.app.push_screen(ChoiceDialog("Climate check: what was found (Enter on a fix "
-                                          "applies it to your own copy)", options,
-                                          note="u undoes a fix"), chosen)
+        self.app.push_screen(
+            ChoiceDialog(
+                "Climate check: what was found (Enter on a fix applies it to your own copy)",
+                options,
+                note="u undoes a fix",
+            ),
+            chosen,
+        )
 
     def _use_ref(self, ref: str) -> None:
         from offgrid.climate.files import load_climate
@@ -523,17 +596,20 @@ class PlaceSection(Section):
             self.work.changed()
             if points:
                 az, el = max(points, key=lambda p: p[1])
-                said = (f"Horizon: {len(points)} point(s), highest {el:g} deg at azimuth "
-                        f"{az:g} deg.")
+                said = f"Horizon: {len(points)} point(s), highest {el:g} deg at azimuth {az:g} deg."
             else:
                 said = "Horizon: open (no obstructions)."
             self.app.notify(said, timeout=4)
             return None
 
-        self.editor.start("Horizon profile: azimuth:elevation pairs, degrees", text, apply,
-                          "e.g. 90:10, 180:4, 270:12 (azimuth clockwise from north, elevation "
-                          "of the obstruction top); empty = open horizon",
-                          back=self.fields)
+        self.editor.start(
+            "Horizon profile: azimuth:elevation pairs, degrees",
+            text,
+            apply,
+            "e.g. 90:10, 180:4, 270:12 (azimuth clockwise from north, elevation "
+            "of the obstruction top); empty = open horizon",
+            back=self.fields,
+        )
 
     def action_own_months(self) -> None:
         try:
@@ -554,18 +630,20 @@ class PlaceSection(Section):
             value = "-"
             if key == "poa" and d is not None:
                 value = f"{d.site.poa_kwh_m2_day[month - 1]:.2f} kWh/m2/day"
-                return Figure(f"{MONTHS[month - 1]} sun on the array", value,
-                              "site.poa_kwh_m2_day")
+                return Figure(f"{MONTHS[month - 1]} sun on the array", value, "site.poa_kwh_m2_day")
             climate = self._climate(self.session)
             # dynamic: a MonthlyClimate field named in ROWS ("poa", the array row, is not one)
             values = getattr(climate, key) if climate and key != "poa" else None
             if values:
                 value = f"{values[month - 1]:g}"
             src = climate.source if climate else ""
-            return Figure(f"{MONTHS[month - 1]} {label}", value, "site.design_month"
-                          if d and d.site.design_month == month else None,
-                          extra=f"Climate data, typed or read from the climate file. Source: "
-                                f"{src or 'not given'}")
+            return Figure(
+                f"{MONTHS[month - 1]} {label}",
+                value,
+                "site.design_month" if d and d.site.design_month == month else None,
+                extra=f"Climate data, typed or read from the climate file. Source: "
+                f"{src or 'not given'}",
+            )
         field = self.fields.current_field()
         if field is None:
             return None

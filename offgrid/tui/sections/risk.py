@@ -59,8 +59,15 @@ def kept_run(state: Path, project_path: Path) -> RiskRun | None:
     try:
         # our own file in the user's state folder, written by keep_run
         body = pickle.loads(kept_run_file(state, project_path).read_bytes())
-    except (OSError, pickle.UnpicklingError, EOFError, AttributeError, ImportError,
-            TypeError, ValueError):
+    except (
+        OSError,
+        pickle.UnpicklingError,
+        EOFError,
+        AttributeError,
+        ImportError,
+        TypeError,
+        ValueError,
+    ):
         return None
     if not isinstance(body, dict) or body.get("path") != str(Path(project_path).resolve()):
         return None
@@ -79,9 +86,11 @@ def pct(x: float | None) -> str:
 
 class RiskSection(Section):
     section_id = "risk"
-    help_text = (f"Runs {YEARS} years of synthetic daily weather through the design (a few "
-                 "seconds, in the background) and reports how often loads would be shed, "
-                 "how deep the battery cycles, and the array/battery trade-off.")
+    help_text = (
+        f"Runs {YEARS} years of synthetic daily weather through the design (a few "
+        "seconds, in the background) and reports how often loads would be shed, "
+        "how deep the battery cycles, and the array/battery trade-off."
+    )
 
     BINDINGS = [
         Binding("g", "run", "Run check", id="risk.run"),
@@ -113,17 +122,35 @@ class RiskSection(Section):
         bar = self.query_one(ProgressBar)
         bar.display = self.running
         if self.running:
-            status.update(Text(f"Simulating {YEARS} years of weather... (x stops; you can keep "
-                               "working)", style="bold"))
+            status.update(
+                Text(
+                    f"Simulating {YEARS} years of weather... (x stops; you can keep working)",
+                    style="bold",
+                )
+            )
         elif self.result is None:
-            status.update(Text(f"Press g to test this design against {YEARS} years of synthetic "
-                               "weather (a few seconds, in the background).", style="bold"))
+            status.update(
+                Text(
+                    f"Press g to test this design against {YEARS} years of synthetic "
+                    "weather (a few seconds, in the background).",
+                    style="bold",
+                )
+            )
         elif self.result.project_text != session.text():
-            status.update(Text("\u26a0 Out of date: the project changed since this run. Press g "
-                               "to run again.", style="bold reverse"))
+            status.update(
+                Text(
+                    "\u26a0 Out of date: the project changed since this run. Press g to run again.",
+                    style="bold reverse",
+                )
+            )
         else:
-            status.update(Text(f"Result for the design as it is now ({self.result.seconds:.1f} "
-                               "s). w explains a figure.", style="bold"))
+            status.update(
+                Text(
+                    f"Result for the design as it is now ({self.result.seconds:.1f} "
+                    "s). w explains a figure.",
+                    style="bold",
+                )
+            )
         self._fill()
 
     def _fill(self) -> None:
@@ -143,34 +170,71 @@ class RiskSection(Section):
         wear = r.wear
         rs = r.reasons
         rows = [
-            ("Loss-of-load probability", pct(r.lolp) + f"  ({r.shed_days} of {r.days} days)",
-             rs.get("lolp"), ""),
+            (
+                "Loss-of-load probability",
+                pct(r.lolp) + f"  ({r.shed_days} of {r.days} days)",
+                rs.get("lolp"),
+                "",
+            ),
             ("Unmet energy", pct(r.unmet_fraction), rs.get("unmet_fraction"), ""),
             ("Critical loads: LOLP", pct(r.lolp_critical), rs.get("lolp_critical"), ""),
-            ("Longest shedding run", f"{r.longest_shed_run_days} days",
-             rs.get("longest_shed_run_days"), ""),
-            (f"Days below {r.soc_threshold:.0%} charge", f"{r.days_below_soc}",
-             rs.get("days_below_soc"), ""),
-            ("LOLP at end of battery life", pct(r.lolp_end_of_life), rs.get("lolp"),
-             "The same simulation with the battery capacity at its end-of-life fraction."),
-            ("Battery life, simulated", f"{wear.expected_life_years:.1f} years",
-             rs.get("wear.expected_life_years"), ""),
-            ("Full cycles per year", f"{wear.equivalent_full_cycles_per_year:.0f}",
-             rs.get("wear.equivalent_full_cycles_per_year"), ""),
-            ("Solar not used: battery was full", pct(r.spilled_fraction), None,
-             "Share of the controller output that the full battery could not take."),
+            (
+                "Longest shedding run",
+                f"{r.longest_shed_run_days} days",
+                rs.get("longest_shed_run_days"),
+                "",
+            ),
+            (
+                f"Days below {r.soc_threshold:.0%} charge",
+                f"{r.days_below_soc}",
+                rs.get("days_below_soc"),
+                "",
+            ),
+            (
+                "LOLP at end of battery life",
+                pct(r.lolp_end_of_life),
+                rs.get("lolp"),
+                "The same simulation with the battery capacity at its end-of-life fraction.",
+            ),
+            (
+                "Battery life, simulated",
+                f"{wear.expected_life_years:.1f} years",
+                rs.get("wear.expected_life_years"),
+                "",
+            ),
+            (
+                "Full cycles per year",
+                f"{wear.equivalent_full_cycles_per_year:.0f}",
+                rs.get("wear.equivalent_full_cycles_per_year"),
+                "",
+            ),
+            (
+                "Solar not used: battery was full",
+                pct(r.spilled_fraction),
+                None,
+                "Share of the controller output that the full battery could not take.",
+            ),
         ]
         tr = rep.tradeoff
         if tr is not None:
             rows.append(("Reliability targets", "", None, ""))  # a heading
             for t in tr.targets:
-                need = (f"{t.design_capacity_needed_wh / 1000:.1f} kWh"
-                        if t.design_capacity_needed_wh else "-")
-                rows.append((f"Loads met on {pct(1 - t.target)} of days",
-                             ("this design: yes" if t.design_meets else "this design: NO"),
-                             None, t.message))
-                rows.append(("    battery needed for it", need + " with this array", None,
-                             t.message))
+                need = (
+                    f"{t.design_capacity_needed_wh / 1000:.1f} kWh"
+                    if t.design_capacity_needed_wh
+                    else "-"
+                )
+                rows.append(
+                    (
+                        f"Loads met on {pct(1 - t.target)} of days",
+                        ("this design: yes" if t.design_meets else "this design: NO"),
+                        None,
+                        t.message,
+                    )
+                )
+                rows.append(
+                    ("    battery needed for it", need + " with this array", None, t.message)
+                )
         for label, value, reason, extra in rows:
             if not value and reason is None and not extra:
                 table.add_row(Text(label, style="bold underline"), Text(""))
@@ -197,14 +261,16 @@ class RiskSection(Section):
             self.app.notify("Already running (x stops it).", timeout=2)
             return
         if self.session.design is None:
-            self.app.notify("No design to test yet: see the headline.", severity="warning",
-                            timeout=3)
+            self.app.notify(
+                "No design to test yet: see the headline.", severity="warning", timeout=3
+            )
             return
         self.running = True
         self.query_one(ProgressBar).update(progress=0)
         self.show(self.session)
-        self._simulate(copy.deepcopy(self.session.project), self.session.base_dir,
-                       self.session.text())
+        self._simulate(
+            copy.deepcopy(self.session.project), self.session.base_dir, self.session.text()
+        )
 
     def action_stop(self) -> None:
         if self.running:
@@ -227,9 +293,12 @@ class RiskSection(Section):
             return
         try:
             report = simulate_project(
-                project, base, years=YEARS,
+                project,
+                base,
+                years=YEARS,
                 progress=lambda f: self.app.call_from_thread(self._progress, f),
-                cancelled=lambda: worker.is_cancelled)
+                cancelled=lambda: worker.is_cancelled,
+            )
         except SimulationCancelled:
             return
         except Exception as exc:  # a message for the user, not a crash
@@ -249,8 +318,12 @@ class RiskSection(Section):
         try:
             keep_run(self.app.state, path, run)  # type: ignore[attr-defined]
         except (OSError, pickle.PicklingError, TypeError) as exc:
-            self.app.notify(f"The risk result is not kept for next time: {exc}",
-                            severity="warning", markup=False, timeout=4)
+            self.app.notify(
+                f"The risk result is not kept for next time: {exc}",
+                severity="warning",
+                markup=False,
+                timeout=4,
+            )
 
     def on_mount(self) -> None:
         path = self.work.session.path if self.work.session is not None else None
@@ -259,8 +332,11 @@ class RiskSection(Section):
 
     def current_report(self, session: Session):
         """The last run's report if it was run on the project as it is now, else None."""
-        if self.result is not None and not self.running and \
-                self.result.project_text == session.text():
+        if (
+            self.result is not None
+            and not self.running
+            and self.result.project_text == session.text()
+        ):
             return self.result.report
         return None
 
@@ -273,13 +349,11 @@ class RiskSection(Section):
         self._keep(run)
         if self.is_attached and self.work.session is not None:
             self.show(self.session)
-        self.app.notify(f"Risk check done: LOLP {pct(run.report.reliability.lolp)}",
-                        timeout=4)
+        self.app.notify(f"Risk check done: LOLP {pct(run.report.reliability.lolp)}", timeout=4)
 
     def _failed(self, message: str) -> None:
         self.running = False
-        self.app.notify(f"Risk check failed: {message}", severity="error", markup=False,
-                        timeout=6)
+        self.app.notify(f"Risk check failed: {message}", severity="error", markup=False, timeout=6)
         if self.is_attached:
             self.show(self.session)
 

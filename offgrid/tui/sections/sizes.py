@@ -18,8 +18,19 @@ from offgrid.tui.text import printable
 from offgrid.tui.widgets.monthchart import MONTHS, MonthChart
 from offgrid.tui.widgets.steady import SteadyTable
 
-KNOWN = {"loads", "site", "array", "battery", "controller", "inverter", "warnings", "cautions",
-         "reasons", "electrical", "wires"}
+KNOWN = {
+    "loads",
+    "site",
+    "array",
+    "battery",
+    "controller",
+    "inverter",
+    "warnings",
+    "cautions",
+    "reasons",
+    "electrical",
+    "wires",
+}
 Row = str | tuple[str, str, str | None]
 
 
@@ -30,56 +41,101 @@ def figure_rows(d: SystemDesign) -> list[Row]:
     rows: list[Row] = [
         "Array",
         ("Array power", f"{a.power_w:,.0f} W", "array.power_w"),
-        ("Modules", f"{a.modules_series} in series \u00d7 {a.modules_parallel} strings = "
-                    f"{a.module_count} \u00d7 {a.module_power_w:g} W", "array.modules_series"),
+        (
+            "Modules",
+            f"{a.modules_series} in series \u00d7 {a.modules_parallel} strings = "
+            f"{a.module_count} \u00d7 {a.module_power_w:g} W",
+            "array.modules_series",
+        ),
         ("Strings in parallel", f"{a.modules_parallel}", "array.modules_parallel"),
         ("Power needed", f"{a.required_power_w:,.0f} W", "array.required_power_w"),
         ("All derates together", f"{a.derate_total:.3f}", "array.required_power_w"),
-        *[(f"  derate: {name}", f"{value:.3f}", f"array.derates.{name}"
-           if f"array.derates.{name}" in d.reasons else "array.required_power_w")
-          for name, value in a.derates.items()],
+        *[
+            (
+                f"  derate: {name}",
+                f"{value:.3f}",
+                f"array.derates.{name}"
+                if f"array.derates.{name}" in d.reasons
+                else "array.required_power_w",
+            )
+            for name, value in a.derates.items()
+        ],
         ("Cold string Voc", f"{a.string_voc_cold_v:.1f} V", "array.modules_series"),
         ("Hot string Vmp", f"{a.string_vmp_hot_v:.1f} V", "array.modules_series"),
         "Battery bank",
         ("System voltage", f"{b.system_voltage_v} V", "battery.system_voltage_v"),
         ("Capacity installed", f"{b.capacity_ah:,.0f} Ah", "battery.capacity_ah"),
         ("Capacity needed", f"{b.required_ah:,.0f} Ah", "battery.required_ah"),
-        ("Energy, nominal", f"{b.nominal_kwh:.2f} kWh at {b.bank_voltage_v:g} V",
-         "battery.nominal_kwh"),
-        ("Energy, usable", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD",
-         "battery.usable_kwh"),
-        ("Units", f"{b.units_series} in series \u00d7 {b.units_parallel} strings = "
-                  f"{b.unit_count}", "battery.units_parallel"),
+        (
+            "Energy, nominal",
+            f"{b.nominal_kwh:.2f} kWh at {b.bank_voltage_v:g} V",
+            "battery.nominal_kwh",
+        ),
+        ("Energy, usable", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD", "battery.usable_kwh"),
+        (
+            "Units",
+            f"{b.units_series} in series \u00d7 {b.units_parallel} strings = {b.unit_count}",
+            "battery.units_parallel",
+        ),
         ("Days of autonomy", f"{b.autonomy_days:g} days", "battery.required_ah"),
         ("Temperature factor", f"{b.temp_factor:.3f}", "battery.required_ah"),
         ("Battery temp., capacity", f"{b.capacity_temp_c:.1f} C", "battery.capacity_temp_c"),
         ("Battery temp., ageing", f"up to {b.ageing_temp_c:.1f} C", "battery.ageing_temp_c"),
-        ("Float life at those temps.", f"{b.calendar_life_years:.1f} years",
-         "battery.calendar_life_years"),
+        (
+            "Float life at those temps.",
+            f"{b.calendar_life_years:.1f} years",
+            "battery.calendar_life_years",
+        ),
         "Charge controller",
-        ("Rating", (f"{c.count} \u00d7 " if c.count > 1 else "") +
-         f"{c.current_a:.0f} A {c.type.upper()}", "controller.current_a"),
+        (
+            "Rating",
+            (f"{c.count} \u00d7 " if c.count > 1 else "") + f"{c.current_a:.0f} A {c.type.upper()}",
+            "controller.current_a",
+        ),
         ("Current needed", f"{c.required_current_a:.1f} A", "controller.required_current_a"),
         "Inverter",
-        *((("Continuous", f"{inv.continuous_w:,.0f} W", "inverter.continuous_w"),
-           ("Surge", f"{inv.surge_w:,.0f} W (needs {inv.required_surge_w:,.0f} W)",
-            "inverter.surge_w"),
-           ("DC input current", f"{inv.dc_input_current_a:.1f} A",
-            "inverter.dc_input_current_a"))
-          if inv.needed else (("Inverter", "none: no AC loads", "inverter.continuous_w"),)),
+        *(
+            (
+                ("Continuous", f"{inv.continuous_w:,.0f} W", "inverter.continuous_w"),
+                (
+                    "Surge",
+                    f"{inv.surge_w:,.0f} W (needs {inv.required_surge_w:,.0f} W)",
+                    "inverter.surge_w",
+                ),
+                (
+                    "DC input current",
+                    f"{inv.dc_input_current_a:.1f} A",
+                    "inverter.dc_input_current_a",
+                ),
+            )
+            if inv.needed
+            else (("Inverter", "none: no AC loads", "inverter.continuous_w"),)
+        ),
         "Loads and site",
         ("Design month", MONTHS[dm], "site.design_month"),
-        ("Energy in design month", f"{ld.design_daily_energy_wh:,.0f} Wh/day",
-         "loads.design_daily_energy_wh"),
+        (
+            "Energy in design month",
+            f"{ld.design_daily_energy_wh:,.0f} Wh/day",
+            "loads.design_daily_energy_wh",
+        ),
         ("Largest month", f"{ld.max_daily_energy_wh:,.0f} Wh/day", "loads.daily_energy_wh"),
         ("Peak AC power at once", f"{ld.peak_ac_w:,.0f} W", "loads.peak_ac_w"),
-        ("Largest starting power",
-         (f"{ld.largest_surge_w:,.0f} W ({printable(ld.largest_surge_load)}, "
-          f"{ld.largest_surge_ac_dc.upper()})" if ld.largest_surge_load else "none given"),
-         "loads.largest_surge_w"),
+        (
+            "Largest starting power",
+            (
+                f"{ld.largest_surge_w:,.0f} W ({printable(ld.largest_surge_load)}, "
+                f"{ld.largest_surge_ac_dc.upper()})"
+                if ld.largest_surge_load
+                else "none given"
+            ),
+            "loads.largest_surge_w",
+        ),
         ("Inverter idle energy", f"{ld.inverter_idle_wh:,.0f} Wh/day", "loads.inverter_idle_wh"),
-        ("Sun on array, design month", f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day",
-         "site.poa_kwh_m2_day"),
+        (
+            "Sun on array, design month",
+            f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day",
+            "site.poa_kwh_m2_day",
+        ),
         ("Tilt / azimuth", f"{s.tilt_deg:.0f} / {s.azimuth_deg:.0f} deg", "site.tilt_deg"),
         ("Record low temperature", f"{s.record_low_c:.1f} C", "site.record_low_c"),
     ]
@@ -96,21 +152,35 @@ def electrical_rows(d: SystemDesign) -> list[Row]:
     rows: list[Row] = ["Strings and module"]
     w, lay, h, mp = er.strings.window, er.strings.layout, er.harvest, er.mpp
     rows += [
-        ("Series count allowed", f"{w.min_series} to {w.max_series} modules",
-         "strings.max_series"),
-        ("Layout", f"{lay.series} in series \u00d7 {lay.parallel} strings"
-         + (f" on {lay.controllers} controllers" if lay.controllers > 1 else ""),
-         "strings.min_series"),
-        ("Module at design-month noon", f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, "
-         f"{mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)", "mpp.pmp_w"),
-        ("PWM against MPPT, per module", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
-         "array.harvest_pwm_wh_day"),
+        ("Series count allowed", f"{w.min_series} to {w.max_series} modules", "strings.max_series"),
+        (
+            "Layout",
+            f"{lay.series} in series \u00d7 {lay.parallel} strings"
+            + (f" on {lay.controllers} controllers" if lay.controllers > 1 else ""),
+            "strings.min_series",
+        ),
+        (
+            "Module at design-month noon",
+            f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, {mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)",
+            "mpp.pmp_w",
+        ),
+        (
+            "PWM against MPPT, per module",
+            f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
+            "array.harvest_pwm_wh_day",
+        ),
     ]
     if h.shortfall_pct > 0:
-        rows.append(("Harvest short of demand", f"{h.shortfall_pct:.1f} %",
-                     "array.harvest_mppt_wh_day"))
-    rows.append(("Battery bank fault current", f"{er.protection.bank_fault_current_a:,.0f} A",
-                 "protection.bank_fault_current_a"))
+        rows.append(
+            ("Harvest short of demand", f"{h.shortfall_pct:.1f} %", "array.harvest_mppt_wh_day")
+        )
+    rows.append(
+        (
+            "Battery bank fault current",
+            f"{er.protection.bank_fault_current_a:,.0f} A",
+            "protection.bank_fault_current_a",
+        )
+    )
     return rows
 
 
@@ -120,8 +190,13 @@ def _show_value(value) -> str | None:
     if isinstance(value, int):
         return str(value)
     if isinstance(value, float):
-        return f"{value:,.3g}" if abs(value) < 100 else f"{value:,.0f}" if math.isfinite(
-            value) else "-"
+        return (
+            f"{value:,.3g}"
+            if abs(value) < 100
+            else f"{value:,.0f}"
+            if math.isfinite(value)
+            else "-"
+        )
     if isinstance(value, str):
         return printable(value)
     return None
@@ -181,9 +256,11 @@ class FigureTable(SteadyTable):
 
 class SizesSection(Section):
     section_id = "sizes"
-    help_text = ("The sized system. Every figure has its reason: put the cursor on it and press "
-                 "w. The chart compares what the array delivers to the battery with the demand, "
-                 "month by month; the design month is the one with the least to spare.")
+    help_text = (
+        "The sized system. Every figure has its reason: put the cursor on it and press "
+        "w. The chart compares what the array delivers to the battery with the demand, "
+        "month by month; the design month is the one with the least to spare."
+    )
 
     def compose(self) -> ComposeResult:
         yield FigureTable(id="figures")

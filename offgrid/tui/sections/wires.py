@@ -32,35 +32,81 @@ LENGTH_LIMITS_M = RUN_LENGTH_RANGE_M
 
 WIRING_FIELDS: tuple[Field | str, ...] = (
     "Cable settings",
-    Field("wiring.units", "Cable sizes in", "choice",
-          choices=(("mm2", "mm2 (IEC 60228)"), ("awg", "AWG / kcmil (NEC)")),
-          hint="the size system of the cables you can buy"),
-    Field("wiring.material", "Conductor", "choice",
-          choices=(("copper", "copper"), ("aluminium", "aluminium"))),
-    Field("wiring.insulation_temp_c", "Insulation rating", "choice",
-          choices=((60, "60 C"), (75, "75 C"), (90, "90 C")),
-          hint="temperature rating of the cable insulation"),
+    Field(
+        "wiring.units",
+        "Cable sizes in",
+        "choice",
+        choices=(("mm2", "mm2 (IEC 60228)"), ("awg", "AWG / kcmil (NEC)")),
+        hint="the size system of the cables you can buy",
+    ),
+    Field(
+        "wiring.material",
+        "Conductor",
+        "choice",
+        choices=(("copper", "copper"), ("aluminium", "aluminium")),
+    ),
+    Field(
+        "wiring.insulation_temp_c",
+        "Insulation rating",
+        "choice",
+        choices=((60, "60 C"), (75, "75 C"), (90, "90 C")),
+        hint="temperature rating of the cable insulation",
+    ),
     Field("wiring.conductor_temp_c", "Conductor temperature", unit="C"),
-    Field("wiring.ambient_temp_c", "Ambient around cables", "auto_float", unit="C",
-          auto_text="site's hottest month"),
-    Field("wiring.dc_load_run_m", "DC load runs, unless set", unit="m",
-          hint="one-way length of each DC load circuit without its own length"),
-    Field("wiring.battery_short_circuit_a", "Battery unit short circuit", "auto_float",
-          unit="A", auto_text="estimated", reason="protection.bank_fault_current_a"),
-    Field("wiring.module_max_fuse_a", "Module max series fuse", "auto_float", unit="A",
-          auto_text="not given", reason="protection.string_fuses"),
+    Field(
+        "wiring.ambient_temp_c",
+        "Ambient around cables",
+        "auto_float",
+        unit="C",
+        auto_text="site's hottest month",
+    ),
+    Field(
+        "wiring.dc_load_run_m",
+        "DC load runs, unless set",
+        unit="m",
+        hint="one-way length of each DC load circuit without its own length",
+    ),
+    Field(
+        "wiring.battery_short_circuit_a",
+        "Battery unit short circuit",
+        "auto_float",
+        unit="A",
+        auto_text="estimated",
+        reason="protection.bank_fault_current_a",
+    ),
+    Field(
+        "wiring.module_max_fuse_a",
+        "Module max series fuse",
+        "auto_float",
+        unit="A",
+        auto_text="not given",
+        reason="protection.string_fuses",
+    ),
 )
 
 COLUMNS = (  # key, label, width
-    ("run", "Run", 26), ("count", "n", 3), ("current_a", "Max A", 7), ("length_m", "Length", 8),
-    ("size", "Size", 10), ("operating_current_a", "Drop A", 7), ("drop_pct", "Drop %", 7),
-    ("drop_limit_pct", "Limit", 6), ("fuse_a", "Fuse A", 7),
+    ("run", "Run", 26),
+    ("count", "n", 3),
+    ("current_a", "Max A", 7),
+    ("length_m", "Length", 8),
+    ("size", "Size", 10),
+    ("operating_current_a", "Drop A", 7),
+    ("drop_pct", "Drop %", 7),
+    ("drop_limit_pct", "Limit", 6),
+    ("fuse_a", "Fuse A", 7),
 )
 #: Max A: the maximum continuous current (ampacity and fuse); Drop A: the operating current
 #: the voltage drop is computed with.
-REASON_OF_COLUMN = {"run": "size", "count": "size", "current_a": "current_a", "size": "size",
-                    "operating_current_a": "drop_current_a", "drop_pct": "drop_pct",
-                    "drop_limit_pct": "drop_pct", "fuse_a": "fuse_a"}
+REASON_OF_COLUMN = {
+    "run": "size",
+    "count": "size",
+    "current_a": "current_a",
+    "size": "size",
+    "operating_current_a": "drop_current_a",
+    "drop_pct": "drop_pct",
+    "drop_limit_pct": "drop_pct",
+    "fuse_a": "fuse_a",
+}
 
 
 def runs_of(design: SystemDesign | None) -> list[WireChoice]:
@@ -74,17 +120,28 @@ def basic_rows(d: SystemDesign) -> list[tuple[str, str, str]]:
     """What the sizing alone says about the circuits."""
     a, c, inv, b = d.array, d.controller, d.inverter, d.battery
     rows = [
-        ("Array string, cold open-circuit voltage", f"{a.string_voc_cold_v:.1f} V",
-         "array.modules_series"),
+        (
+            "Array string, cold open-circuit voltage",
+            f"{a.string_voc_cold_v:.1f} V",
+            "array.modules_series",
+        ),
         ("Controller maximum PV voltage", f"{c.max_pv_voltage_v:g} V", "array.modules_series"),
-        ("Array to controller, current needed", f"{c.required_current_a:.1f} A",
-         "controller.required_current_a"),
+        (
+            "Array to controller, current needed",
+            f"{c.required_current_a:.1f} A",
+            "controller.required_current_a",
+        ),
         ("Controller to battery, rating", f"{c.current_a:.0f} A", "controller.current_a"),
         ("Battery voltage", f"{b.system_voltage_v} V", "battery.system_voltage_v"),
     ]
     if inv.needed:
-        rows.append(("Battery to inverter, current at cut-off", f"{inv.dc_input_current_a:.1f} A",
-                     "inverter.dc_input_current_a"))
+        rows.append(
+            (
+                "Battery to inverter, current at cut-off",
+                f"{inv.dc_input_current_a:.1f} A",
+                "inverter.dc_input_current_a",
+            )
+        )
     return rows
 
 
@@ -105,11 +162,13 @@ class RunsTable(SteadyTable):
 
 class WiresSection(Section):
     section_id = "wires"
-    help_text = ("The cable runs: each with its maximum continuous current (Max A, for ampacity "
-                 "and the fuse), one-way length, the size that meets both ampacity and the "
-                 "run's voltage-drop limit, the operating current the drop is computed with "
-                 "(Drop A), and its fuse or breaker. Enter on a length changes it; Tab goes "
-                 "to the cable settings.")
+    help_text = (
+        "The cable runs: each with its maximum continuous current (Max A, for ampacity "
+        "and the fuse), one-way length, the size that meets both ampacity and the "
+        "run's voltage-drop limit, the operating current the drop is computed with "
+        "(Drop A), and its fuse or breaker. Enter on a length changes it; Tab goes "
+        "to the cable settings."
+    )
 
     BINDINGS = [Binding("p", "devices", "Protection", id="wires.devices")]
 
@@ -156,8 +215,9 @@ class WiresSection(Section):
         self._basic = []
         self.fields.fill(session.project, d, {})
         if d is None:
-            note.update(Text("No design yet, so no wiring: see the headline above.",
-                             style="italic"))
+            note.update(
+                Text("No design yet, so no wiring: see the headline above.", style="italic")
+            )
             return
         if self._runs:
             width = self.size.width or 80
@@ -186,19 +246,31 @@ class WiresSection(Section):
                         cells.append(Text(f"{_num(value)} ".rjust(w)))
                 table.add_row(*cells, key=str(i))
             n_dev = len(d.electrical.protection.devices) if d.electrical is not None else 0
-            note.update(Text(f"{len(self._runs)} cable runs \u00b7 Enter on a length edits it "
-                             f"\u00b7 p: the {n_dev} fuses and switches", style="bold"))
+            note.update(
+                Text(
+                    f"{len(self._runs)} cable runs \u00b7 Enter on a length edits it "
+                    f"\u00b7 p: the {n_dev} fuses and switches",
+                    style="bold",
+                )
+            )
         else:
             table.add_column("Circuit", key="c", width=44)
             table.add_column("Figure", key="v")
             self._basic = basic_rows(d)
             for label, value, _path in self._basic:
                 table.add_row(Text(label), Text(value, style="bold"))
-            note.update(Text("Main DC circuits from the sizing (cable sizes need the electrical "
-                             "design).", style="bold"))
+            note.update(
+                Text(
+                    "Main DC circuits from the sizing (cable sizes need the electrical design).",
+                    style="bold",
+                )
+            )
         if table.row_count:
-            table.move_cursor(row=min(keep.row, table.row_count - 1),
-                              column=min(keep.column, len(table.columns) - 1), animate=False)
+            table.move_cursor(
+                row=min(keep.row, table.row_count - 1),
+                column=min(keep.column, len(table.columns) - 1),
+                animate=False,
+            )
 
     # ------------------------------------------------------------------ editing
     def on_data_table_cell_selected(self, event: DataTable.CellSelected) -> None:
@@ -232,9 +304,13 @@ class WiresSection(Section):
             self.work.changed("Length set")
             return None
 
-        self.editor.start(f"One-way length of {clip(printable(label), 40)} (m)",
-                          f"{run.length_m:g}", apply,
-                          "from one end of the run to the other, in metres", back=self.table)
+        self.editor.start(
+            f"One-way length of {clip(printable(label), 40)} (m)",
+            f"{run.length_m:g}",
+            apply,
+            "from one end of the run to the other, in metres",
+            back=self.table,
+        )
 
     def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
         if event.data_table is not self.fields:
@@ -245,6 +321,7 @@ class WiresSection(Section):
             return
         current = get_path(self.session.project, field.path)
         if field.base_kind == "choice":
+
             def chosen(value) -> None:
                 if value is None or value == current:
                     return
@@ -255,8 +332,9 @@ class WiresSection(Section):
                     return
                 self.work.changed(f"{field.label}: {field.show(value)}")
 
-            self.app.push_screen(ChoiceDialog(field.label, list(field.choices), current,
-                                              note=field.help()), chosen)
+            self.app.push_screen(
+                ChoiceDialog(field.label, list(field.choices), current, note=field.help()), chosen
+            )
             return
 
         def apply(typed: str) -> str | None:
@@ -269,8 +347,9 @@ class WiresSection(Section):
             self.work.changed(f"{field.label} set")
             return None
 
-        self.editor.start(field.label, field.edit_text(current), apply, field.help(),
-                          back=self.fields)
+        self.editor.start(
+            field.label, field.edit_text(current), apply, field.help(), back=self.fields
+        )
 
     # ------------------------------------------------------------------ protection
     def action_devices(self) -> None:
@@ -280,8 +359,9 @@ class WiresSection(Section):
         er = d.electrical if d is not None else None
         devices = er.protection.devices if er is not None else ()
         if not devices:
-            self.app.notify("No protective devices: the electrical design is not available.",
-                            timeout=3)
+            self.app.notify(
+                "No protective devices: the electrical design is not available.", timeout=3
+            )
             return
         text = Text()
         for i, dev in enumerate(devices):
@@ -306,24 +386,32 @@ class WiresSection(Section):
             if field is None:
                 return None
             value = field.show(get_path(self.session.project, field.path), self.session.design)
-            return Figure(field.label, value, field.reason,
-                          extra="" if field.reason else "A cable setting you chose.")
+            return Figure(
+                field.label,
+                value,
+                field.reason,
+                extra="" if field.reason else "A cable setting you chose.",
+            )
         row = self.table.cursor_row
         if self._runs:
             run = self._runs[min(row, len(self._runs) - 1)]
             column = COLUMNS[self.table.cursor_column][0]
             if column == "length_m":
-                return Figure(f"Length of {run.run}", f"{run.length_m:g} m", None,
-                              extra="A one-way length you typed (or the default); Enter "
-                                    f"changes it (project field {run.length_path}).")
+                return Figure(
+                    f"Length of {run.run}",
+                    f"{run.length_m:g} m",
+                    None,
+                    extra="A one-way length you typed (or the default); Enter "
+                    f"changes it (project field {run.length_path}).",
+                )
             what = REASON_OF_COLUMN.get(column, "size")
             value = getattr(run, column)  # dynamic: a WireChoice field named in COLUMNS
             shown = f"{value:.2f}" if isinstance(value, float) else str(value)
-            label = {"current_a": "maximum continuous current (ampacity, fuse)",
-                     "operating_current_a": "operating current (voltage drop)"}.get(
-                         column, column.replace("_", " "))
-            return Figure(f"{run.run}: {label}", shown,
-                          f"wires.{run.key}.{what}")
+            label = {
+                "current_a": "maximum continuous current (ampacity, fuse)",
+                "operating_current_a": "operating current (voltage drop)",
+            }.get(column, column.replace("_", " "))
+            return Figure(f"{run.run}: {label}", shown, f"wires.{run.key}.{what}")
         if self._basic:
             label, value, path = self._basic[min(row, len(self._basic) - 1)]
             return Figure(label, value, path)

@@ -111,18 +111,25 @@ class Headline(Static):
         bank = f"{b.nominal_kwh:.1f} kWh {b.capacity_ah:,.0f} Ah {b.system_voltage_v} V"
         # Shorter forms until the line fits: the warning count is never cut.
         forms = [
-            (("Array ", f"{d.array.power_w:,.0f} W"),
-             ("Battery ", bank),
-             ("Controller ", ctrl), count + more),
-            (("Array ", f"{d.array.power_w:,.0f} W"),
-             ("Battery ", bank),
-             ("Controller ", ctrl), count),
-            (("PV ", f"{d.array.power_w:,.0f} W"),
-             ("Batt. ", bank),
-             ("Ctrl ", ctrl), count),
-            (("PV ", f"{d.array.power_w:,.0f} W"),
-             ("Batt. ", f"{b.capacity_ah:,.0f} Ah {b.system_voltage_v} V"),
-             ("Ctrl ", ctrl), f"{n} warn."),
+            (
+                ("Array ", f"{d.array.power_w:,.0f} W"),
+                ("Battery ", bank),
+                ("Controller ", ctrl),
+                count + more,
+            ),
+            (
+                ("Array ", f"{d.array.power_w:,.0f} W"),
+                ("Battery ", bank),
+                ("Controller ", ctrl),
+                count,
+            ),
+            (("PV ", f"{d.array.power_w:,.0f} W"), ("Batt. ", bank), ("Ctrl ", ctrl), count),
+            (
+                ("PV ", f"{d.array.power_w:,.0f} W"),
+                ("Batt. ", f"{b.capacity_ah:,.0f} Ah {b.system_voltage_v} V"),
+                ("Ctrl ", ctrl),
+                f"{n} warn.",
+            ),
         ]
         for *parts, tail in forms:
             if sum(len(lb) + len(v) + 3 for lb, v in parts) + len(tail) <= width:

@@ -49,8 +49,14 @@ class EditBar(Vertical):
         Binding("escape", "cancel", "Cancel edit", id="edit.cancel"),
         # Applied while the key is handled, before the next key, so a key typed
         # right after Enter goes to the table, not into the closing box.
-        Binding("enter", "apply", "Apply the typed value (in the edit box)", show=False,
-                priority=True, id="edit.apply"),
+        Binding(
+            "enter",
+            "apply",
+            "Apply the typed value (in the edit box)",
+            show=False,
+            priority=True,
+            id="edit.apply",
+        ),
     ]
 
     def __init__(self, **kwargs) -> None:
@@ -71,14 +77,18 @@ class EditBar(Vertical):
     def input(self) -> Input:
         return self.query_one("#edit-input", Input)
 
-    def start(self, label: str, text: str, apply: Apply, hint: str = "",
-              back: Widget | None = None) -> None:
+    def start(
+        self, label: str, text: str, apply: Apply, hint: str = "", back: Widget | None = None
+    ) -> None:
         """Open the editor on ``text``; ``apply`` is called with what the user enters."""
         self._apply = apply
         self._back = back
         self.query_one("#edit-label", Static).update(
-            Text.assemble(literal(label), ("   Enter applies, Esc cancels; typing "
-                                           "replaces, \u2190 \u2192 keep it", "dim")))
+            Text.assemble(
+                literal(label),
+                ("   Enter applies, Esc cancels; typing replaces, \u2190 \u2192 keep it", "dim"),
+            )
+        )
         self._say(hint, bad=False)
         self.add_class("-open")
         self.styles.display = "block"  # at once: the class takes effect at the next refresh

@@ -55,8 +55,13 @@ class FieldTable(SteadyTable):
         row = self._rows[min(self.cursor_row, len(self._rows) - 1)]
         return row if isinstance(row, Field) else None
 
-    def fill(self, project, design: SystemDesign | None, problems: dict[str, str],
-             special: dict[str, str] | None = None) -> None:
+    def fill(
+        self,
+        project,
+        design: SystemDesign | None,
+        problems: dict[str, str],
+        special: dict[str, str] | None = None,
+    ) -> None:
         """Show the project's values; ``special`` gives the text of non-plain rows.
 
         When the rows are already there only the cells whose text changed are
@@ -87,8 +92,11 @@ class FieldTable(SteadyTable):
                 value = Text.assemble(("\u2717 ", "bold"), value)
             cells.append(value)
         shown_before = getattr(self, "_shown", None)
-        if shown_before is not None and len(shown_before) == len(cells) and \
-                self.row_count == len(cells):
+        if (
+            shown_before is not None
+            and len(shown_before) == len(cells)
+            and self.row_count == len(cells)
+        ):
             for i, (row, value) in enumerate(zip(self._rows, cells, strict=True)):
                 if value is not None and value != shown_before[i]:
                     self.update_cell(row.path, "value", value)
@@ -98,12 +106,10 @@ class FieldTable(SteadyTable):
         self.clear()
         for i, (row, value) in enumerate(zip(self._rows, cells, strict=True)):
             if isinstance(row, str):
-                self.add_row(Text(row, style="bold underline"), Text(""), Text(""),
-                             key=f"group{i}")
+                self.add_row(Text(row, style="bold underline"), Text(""), Text(""), key=f"group{i}")
                 continue
             hint = clip_words(row.help(), getattr(self, "_help_w", 40))
-            self.add_row(Text("  " + row.label), value, Text(hint, style="dim"),
-                         key=row.path)
+            self.add_row(Text("  " + row.label), value, Text(hint, style="dim"), key=row.path)
         self._shown = cells
         self.move_cursor(row=self._first_field(keep), animate=False)
 

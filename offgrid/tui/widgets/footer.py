@@ -17,8 +17,13 @@ class KeyFooter(Footer):
 
     def compose(self) -> ComposeResult:
         widgets = list(super().compose())
-        first = [w for w in widgets if isinstance(w, FooterKey) and w.action in FIRST
-                 and "-command-palette" not in w.classes]
+        first = [
+            w
+            for w in widgets
+            if isinstance(w, FooterKey)
+            and w.action in FIRST
+            and "-command-palette" not in w.classes
+        ]
         first.sort(key=lambda w: FIRST.index(w.action))
         yield from first
         yield from (w for w in widgets if w not in first)
@@ -31,8 +36,11 @@ class KeyFooter(Footer):
         """Hide the keys that would be cut at the right edge: a key is shown whole or not
         at all (the hidden ones are in the ``?`` list)."""
         keys = [w for w in self.children if "-command-palette" not in w.classes]
-        palette = sum(w.outer_size.width + w.styles.margin.width for w in self.children
-                      if "-command-palette" in w.classes)
+        palette = sum(
+            w.outer_size.width + w.styles.margin.width
+            for w in self.children
+            if "-command-palette" in w.classes
+        )
         room = self.size.width - palette
         if room <= 0:
             return

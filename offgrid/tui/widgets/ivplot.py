@@ -10,10 +10,28 @@ from dataclasses import dataclass
 
 import numpy as np
 
-GLYPHS = {False: {"iv": "\u2022", "pv": "\u00b7", "mpp": "M", "pwm": "P", "win": "\u2502",
-                  "axis_v": "\u2502", "axis_h": "\u2500", "corner": "\u2514"},
-          True: {"iv": "*", "pv": ".", "mpp": "M", "pwm": "P", "win": "|",
-                 "axis_v": "|", "axis_h": "-", "corner": "+"}}
+GLYPHS = {
+    False: {
+        "iv": "\u2022",
+        "pv": "\u00b7",
+        "mpp": "M",
+        "pwm": "P",
+        "win": "\u2502",
+        "axis_v": "\u2502",
+        "axis_h": "\u2500",
+        "corner": "\u2514",
+    },
+    True: {
+        "iv": "*",
+        "pv": ".",
+        "mpp": "M",
+        "pwm": "P",
+        "win": "|",
+        "axis_v": "|",
+        "axis_h": "-",
+        "corner": "+",
+    },
+}
 
 
 @dataclass(frozen=True)
@@ -76,6 +94,6 @@ def draw(curve: Curve, width: int = 72, height: int = 14, plain: bool = False) -
         volts = v_max * k / 4
         text = f"{volts:.0f}V"
         at = min(col(volts), cols - len(text))
-        ticks[at:at + len(text)] = list(text)
+        ticks[at : at + len(text)] = list(text)
     lines.append(" " * (left + 1) + "".join(ticks).rstrip())
     return [line[:width] for line in lines]

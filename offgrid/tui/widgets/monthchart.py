@@ -58,15 +58,19 @@ class MonthChart(Widget):
         width = max(40, self.size.width)
         out = Text(no_wrap=True, overflow="crop")
         if len(self.supply) != 12 or len(self.demand) != 12:
-            out.append(self.note or "No design yet: the chart appears once the design can be "
-                       "made.", style="italic")
+            out.append(
+                self.note or "No design yet: the chart appears once the design can be made.",
+                style="italic",
+            )
             return out
         # month 4 | supply bar | value 6 | demand bar | value 6 | ratio 6 | mark 9
         fixed = 4 + 6 + 6 + 7 + 10
         bar_w = max(6, (width - fixed) // 2)
         full = max(max(self.supply), max(self.demand), 1.0)
-        head = (f"{'':4}{'Supply to battery, Wh/day':<{bar_w + 6}}"
-                f"{'Demand, Wh/day':<{bar_w + 6}} {'sun/use':>6}")
+        head = (
+            f"{'':4}{'Supply to battery, Wh/day':<{bar_w + 6}}"
+            f"{'Demand, Wh/day':<{bar_w + 6}} {'sun/use':>6}"
+        )
         out.append(head + "\n", style="bold")
         for i in range(12):
             s, d = self.supply[i], self.demand[i]
@@ -74,11 +78,14 @@ class MonthChart(Widget):
             ratio = s / d if d > 0 else 0.0
             style = "bold reverse" if is_design else ""
             out.append(f"{MONTHS[i]:<4}", style=style)
-            out.append(f"{bar(s, full, bar_w):<{bar_w}}", style="green" if not is_design else
-                       "bold green")
+            out.append(
+                f"{bar(s, full, bar_w):<{bar_w}}", style="green" if not is_design else "bold green"
+            )
             out.append(f"{short_number(s):>5} ", style=style)
-            out.append(f"{bar(d, full, bar_w):<{bar_w}}", style="yellow" if not is_design else
-                       "bold yellow")
+            out.append(
+                f"{bar(d, full, bar_w):<{bar_w}}",
+                style="yellow" if not is_design else "bold yellow",
+            )
             out.append(f"{short_number(d):>5} ", style=style)
             shown = f"{ratio:.2f}" if ratio < 99.995 else f"{ratio:.0f}"
             out.append(f"{shown:>6}" if d > 0 else f"{'-':>6}", style=style)

@@ -26,8 +26,9 @@ class SteadyTable(DataTable):
         at = self.cursor_coordinate
         key = self.coordinate_to_cell_key(at)
         if self.cursor_type == "cell":
-            message = DataTable.CellSelected(self, self.get_cell_at(at), coordinate=at,
-                                             cell_key=key)
+            message = DataTable.CellSelected(
+                self, self.get_cell_at(at), coordinate=at, cell_key=key
+            )
         elif self.cursor_type == "row":
             message = DataTable.RowSelected(self, at.row, key.row_key)
         else:
