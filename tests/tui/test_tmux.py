@@ -137,6 +137,14 @@ def test_edit_save_and_quit_in_a_real_terminal(terminal, tmp_path, term, no_colo
         t.wait_for("Nov<")  # the design month's mark in the months table
         shown = t.screen()
         assert not any(ch in shown for ch in "\u2502\u25b8\u25c2\u2192"), shown
+    # the key line shows each key whole: the one that would be cut at 80 columns is hidden
+    import re
+    import time
+
+    time.sleep(0.5)
+    footer = t.screen().rstrip("\n").splitlines()[-1]
+    keys_part = re.split(r"[\u258f|]\s*\^p", footer)[0].rstrip()
+    assert keys_part.endswith("w Why?"), footer
     t.keys("3")
     t.wait_for("Days of autonomy")
     t.keys("Down", "Enter")

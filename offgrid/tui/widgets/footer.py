@@ -46,6 +46,12 @@ class KeyFooter(Footer):
             return
         for w in keys:
             w.display = True
+        if any(w.outer_size.width == 0 for w in keys):  # not laid out yet: look again soon
+            self._tries = getattr(self, "_tries", 0) + 1
+            if self._tries < 40:
+                self.set_timer(0.05, self._fit)
+            return
+        self._tries = 0
         used = 0
         for w in keys:
             used += w.outer_size.width + w.styles.margin.width
