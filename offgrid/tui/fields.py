@@ -340,7 +340,7 @@ PARTS_FIELDS: tuple[Field | str, ...] = (
     ),
     Field("battery.nominal_voltage_v", "Unit voltage", unit="V"),
     Field("battery.capacity_ah", "Unit capacity", unit="Ah"),
-    Field("battery.max_dod", "Unit max depth of disch."),
+    Field("battery.max_dod", "Unit max. DoD"),
     Field("battery.efficiency", "Round-trip efficiency"),
     "Charge controller",
     Field(
@@ -375,7 +375,7 @@ PARTS_FIELDS: tuple[Field | str, ...] = (
     ),
     Field(
         "inverter.on_all_year",
-        "On in months without AC",
+        "Inverter on all year",
         "choice",
         choices=((False, "no, switched off"), (True, "yes, all year")),
         reason="loads.inverter_idle_wh",

@@ -62,13 +62,13 @@ WIRING_FIELDS: tuple[Field | str, ...] = (
     ),
     Field(
         "wiring.dc_load_run_m",
-        "DC load runs, unless set",
+        "DC load run, default",
         unit="m",
         hint="one-way length of each DC load circuit without its own length",
     ),
     Field(
         "wiring.battery_short_circuit_a",
-        "Battery unit short circuit",
+        "Battery short circuit",
         "auto_float",
         unit="A",
         auto_text="estimated",
