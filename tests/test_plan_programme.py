@@ -318,3 +318,17 @@ def test_zone_kits_are_compared_and_the_plan_says_which(demo):
     zone_of = {v.id: v.zone for v in load_programme(demo_programme_path()).villages}
     for v in zoned.villages:
         assert all(name.startswith(zone_of[v.id] + "-") for name in v.kit_counts)
+
+
+def test_programme_report_never_overwrites_a_project(tmp_path, capsys):
+    # issue 12: no output over an offgrid project, even with --force; the programme path too
+    from offgrid.paths import demo_project_path
+
+    target = tmp_path / "site.md"
+    target.write_text(demo_project_path().read_text())
+    before = target.read_text()
+    with pytest.raises(SystemExit) as exit_:
+        main(["plan", "--demo-programme", "--report", str(target)])
+    assert exit_.value.code == 2
+    assert "project" in capsys.readouterr().err
+    assert target.read_text() == before

@@ -121,22 +121,8 @@ def run(args: argparse.Namespace) -> int:
             return run_programme(args, path)
     if not path:
         fail("name a community survey CSV, or use --demo for the bundled demonstration community")
-    if args.kits is not None and args.kits < 1:
-        fail(f"--kits {args.kits}: give 1 or more kit types")
-    if args.jobs is not None and args.jobs < 1:
-        fail("--jobs must be 1 or more")
-    if args.max_kits < 1:
-        fail("--max-kits must be 1 or more")
+    report = _check_common(args)
     step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
-    report = Path(args.report) if args.report else None
-    if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
-        fail(f"--report {report}: the file name must end in .md, .csv or .json")
-    if report is not None:
-        from offgrid.report.export import overwrite_refusal
-
-        refusal = overwrite_refusal(report)
-        if refusal:
-            fail(f"--report {refusal}")
     if path == STDIO:
         from offgrid.plan.community import plan_community
         from offgrid.plan.survey import read_survey
@@ -192,6 +178,12 @@ def _check_common(args) -> Path | None:
     report = Path(args.report) if args.report else None
     if report is not None and report.suffix.lower() not in (".md", ".csv", ".json"):
         fail(f"--report {report}: the file name must end in .md, .csv or .json")
+    if report is not None:  # before any work: never over a project, even when forced
+        from offgrid.report.export import overwrite_refusal
+
+        refusal = overwrite_refusal(report)
+        if refusal:
+            fail(f"--report {refusal}")
     return report
 
 
@@ -220,20 +212,7 @@ def run_programme(args: argparse.Namespace, path) -> int:
     except (ProgrammeError, PlanError) as exc:
         fail(str(exc))
     if report is not None:
-        from offgrid.project.atomic import atomic_write_text
-
-        suffix = report.suffix.lower()
-        text = (
-            markdown_report(plan)
-            if suffix == ".md"
-            else rows_csv(plan)
-            if suffix == ".csv"
-            else dump_json(plan.to_dict()) + "\n"
-        )
-        try:
-            atomic_write_text(report, text, backup=True)
-        except OSError as exc:
-            fail(f"cannot write {report}: {exc.strerror}")
+        write_report(plan, report, markdown_report, rows_csv)
     if args.json:
         print(dump_json(plan.to_dict()))
     else:
@@ -251,10 +230,13 @@ def run_programme(args: argparse.Namespace, path) -> int:
     return 0
 
 
-def write_report(plan, path: Path) -> None:
-    from offgrid.plan.text import markdown_report, rows_csv
+def write_report(plan, path: Path, markdown_report=None, rows_csv=None) -> None:
+    """Write ``--report`` as Markdown, row CSV or JSON by its suffix (a community plan's
+    views unless a programme's are given); never over a project file."""
     from offgrid.project.atomic import atomic_write_text
 
+    if markdown_report is None or rows_csv is None:
+        from offgrid.plan.text import markdown_report, rows_csv
     suffix = path.suffix.lower()
     if suffix == ".md":
         text = markdown_report(plan)
