@@ -85,7 +85,7 @@ def test_extraterrestrial_on_the_plane_would_not_bind():
 
 
 def test_ineichen_perez_matches_pvlib():
-    # pvlib.clearsky.ineichen as the reference for our numpy transcription of Ineichen &
+    # pvlib.clearsky.ineichen as the reference for our numpy version of Ineichen &
     # Perez (2002), with Kasten & Young (1989) air mass and pvlib's standard-atmosphere
     # pressure.
     import warnings
