@@ -122,7 +122,6 @@ def run(args: argparse.Namespace) -> int:
     if not path:
         fail("name a community survey CSV, or use --demo for the bundled demonstration community")
     report = _check_common(args)
-    step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
     if path == STDIO:
         from offgrid.plan.community import plan_community
         from offgrid.plan.survey import read_survey
@@ -135,17 +134,7 @@ def run(args: argparse.Namespace) -> int:
             )
 
     try:
-        plan = plan_file(
-            path,
-            kits=args.kits,
-            kit_type_cost=args.kit_cost,
-            prices=args.prices,
-            objective=args.objective,
-            climate=args.climate,
-            jobs=args.jobs,
-            k_max=args.max_kits,
-            **step,
-        )
+        plan = plan_file(path, climate=args.climate, **_plan_options(args))
     except (SurveyError, PlanError) as exc:
         fail(str(exc))
     if report is not None:
@@ -166,6 +155,20 @@ def run(args: argparse.Namespace) -> int:
         )
         return 1
     return 0
+
+
+def _plan_options(args) -> dict:
+    """The planning options a community and a programme share, from the command line."""
+    step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
+    return dict(
+        kits=args.kits,
+        kit_type_cost=args.kit_cost,
+        prices=args.prices,
+        objective=args.objective,
+        jobs=args.jobs,
+        k_max=args.max_kits,
+        **step,
+    )
 
 
 def _check_common(args) -> Path | None:
@@ -196,19 +199,8 @@ def run_programme(args: argparse.Namespace, path) -> int:
     report = _check_common(args)
     if args.climate:
         fail("--climate: a programme names each village's climate in its climate column")
-    step = {} if args.energy_step is None else {"energy_step_pct": args.energy_step}
     try:
-        plan = plan_programme_file(
-            path,
-            kits=args.kits,
-            kit_type_cost=args.kit_cost,
-            prices=args.prices,
-            objective=args.objective,
-            jobs=args.jobs,
-            k_max=args.max_kits,
-            kit_scope=args.kit_scope,
-            **step,
-        )
+        plan = plan_programme_file(path, kit_scope=args.kit_scope, **_plan_options(args))
     except (ProgrammeError, PlanError) as exc:
         fail(str(exc))
     if report is not None:
