@@ -14,9 +14,9 @@ import time
 
 def main() -> None:
     t0 = time.perf_counter()
+    from offgrid.design.sizing import design
     from offgrid.paths import demo_project_path
     from offgrid.project.store import load_project
-    from offgrid.sizing import design
 
     t_import = time.perf_counter() - t0
     project = load_project(demo_project_path())

@@ -25,11 +25,11 @@ def _median_ms(fn, runs: int = 50) -> tuple[float, float]:
 
 def main() -> None:
     t0 = time.perf_counter()
-    from offgrid.electrical import electrical_design
+    from offgrid.design.electrical import electrical_design
+    from offgrid.design.pv import fit_module
+    from offgrid.design.sizing import design
     from offgrid.paths import demo_project_path
     from offgrid.project.store import load_project
-    from offgrid.pv import fit_module
-    from offgrid.sizing import design
 
     t_import = time.perf_counter() - t0
     project = load_project(demo_project_path())

@@ -23,6 +23,7 @@ def median_s(fn, runs: int = 5) -> float:
 
 
 def main() -> None:
+    from offgrid.design.sizing import design
     from offgrid.economics.bom import bill_of_materials
     from offgrid.economics.costs import lifecycle_cost
     from offgrid.economics.variants import compare_variants
@@ -30,7 +31,6 @@ def main() -> None:
     from offgrid.project.model import Variant
     from offgrid.project.store import load_project
     from offgrid.simulate.run import simulate_project
-    from offgrid.sizing import design
 
     path = demo_project_path()
     project = load_project(path)

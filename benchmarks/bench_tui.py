@@ -82,9 +82,9 @@ def tmux_edit(edits: int = 12) -> list[float] | None:
     if tmux is None:
         return None
     sys.path.insert(0, str(ROOT))
+    from offgrid.design.sizing import design
     from offgrid.paths import demo_project_path
     from offgrid.project.store import load_project
-    from offgrid.sizing import design
 
     sock = f"offgrid-bench-edit-{os.getpid()}"
 

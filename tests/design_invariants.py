@@ -8,10 +8,10 @@ from __future__ import annotations
 
 import math
 
-from offgrid.result import SystemDesign
+from offgrid.design.result import SystemDesign
 
 #: The chosen controller's harvest may fall this far short before modules are added
-#: (offgrid.sizing.HARVEST_SHORTFALL_TOLERANCE_PCT), plus rounding.
+#: (offgrid.design.sizing.HARVEST_SHORTFALL_TOLERANCE_PCT), plus rounding.
 HARVEST_TOL = 0.006
 
 

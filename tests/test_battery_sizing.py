@@ -6,10 +6,10 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from offgrid.design.sizing import design
 from offgrid.project.model import Load
 from offgrid.simulate.adapter import inputs_from_design
 from offgrid.simulate.life import battery_wear, calendar_life_years
-from offgrid.sizing import design
 from tests.conftest import hand_project
 
 
@@ -31,7 +31,7 @@ def test_bank_is_sized_on_the_worst_month_hand_worked():
     """Hand-worked (calculator), loads as in test_sizing step 1:
     winter (Dec-Feb, 4.4 C): 2351.1 x 1.1 = 2586.2 Wh/day; summer (May-Sep, 25 C), with the
     fan 300 W x 4 h: 3551.1 x 1.1 = 3906.2 Wh/day.  Temperature factor 1.30 at 4.4 C
-    (IEEE Std 485 Table 1 type factor at 40 F, as transcribed in offgrid.battery), 1.00 at
+    (IEEE Std 485 Table 1 type factor at 40 F, as transcribed in offgrid.design.battery), 1.00 at
     25 C.  Worst month: max(2586.2 x 1.30 = 3362.1, 3906.2 x 1.00) = 3906.2 (summer).
     3906.2 x 3 / (0.5 x sqrt(0.85) x 0.8) / 24 V = 1324.0 Ah -> 7 strings of 200 Ah.
     The old rule, largest demand x coldest factor, 3906.2 x 1.30: 1721.2 Ah -> 9 strings.

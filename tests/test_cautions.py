@@ -6,7 +6,7 @@ from dataclasses import replace
 
 import pytest
 
-from offgrid import cautions as cau
+from offgrid.design import cautions as cau
 
 
 def inputs(**kw) -> cau.CautionInputs:
@@ -106,7 +106,7 @@ def test_every_design_carries_the_standing_cautions_and_defers_to_code_last():
 
 
 def test_every_output_states_the_deference_to_code_once():
-    # one statement, owned by offgrid.cautions, in the design, the plan and the report
+    # one statement, owned by offgrid.design.cautions, in the design, the plan and the report
     import subprocess
     import sys
 

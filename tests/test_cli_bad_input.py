@@ -281,9 +281,9 @@ def test_whole_numbers_that_are_not_finite(tmp_path, capsys):
 
 def test_design_refuses_a_climate_that_is_not_finite():
     # The engine checks the climate it is given too (the text UI edits it in place).
+    from offgrid.design.result import DesignError
+    from offgrid.design.sizing import design
     from offgrid.project.validate import validate_project
-    from offgrid.result import DesignError
-    from offgrid.sizing import design
 
     p = hand_project()
     p.climate.inline.record_low_c = float("nan")

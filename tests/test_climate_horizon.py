@@ -125,7 +125,7 @@ def test_sky_share_hidden_by_a_horizon_and_its_warning():
     import math
 
     from offgrid.climate.horizon import sky_share_blocked
-    from offgrid.sizing import design
+    from offgrid.design.sizing import design
     from tests.conftest import hand_project
 
     assert sky_share_blocked([(0.0, 30.0)]) == pytest.approx(math.sin(math.radians(30)) ** 2)

@@ -233,8 +233,8 @@ def test_isotropic_sky_parts_match_pvlib():
 
 
 def test_one_isotropic_sky_behind_the_monthly_hourly_and_clear_sky_planes():
-    from offgrid import harvest
     from offgrid.climate import clearsky, poa
+    from offgrid.design import harvest
 
     for module in (harvest, clearsky):
         assert module.sky_diffuse_isotropic is poa.sky_diffuse_isotropic

@@ -7,9 +7,9 @@ import pytest
 
 from offgrid.climate.files import load_climate
 from offgrid.climate.tilt import best_tilt
+from offgrid.design.sizing import design
 from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo, Site
 from offgrid.project.store import ProjectFileError, dumps_project, loads_project
-from offgrid.sizing import design
 
 
 def _project(climate_name: str, **site) -> Project:
@@ -104,8 +104,8 @@ def test_climate_albedo_used_unless_the_site_sets_one():
     # albedo automatic; a value on the site wins.
     from dataclasses import replace
 
+    from offgrid.design.sizing import design
     from offgrid.project.model import ClimateChoice
-    from offgrid.sizing import design
     from tests.conftest import hand_project
 
     snow = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]
@@ -153,8 +153,8 @@ def test_climate_albedo_reaches_the_harvest_as_the_site_value_would():
     # file gives the same harvest as the same values typed on the site.
     from dataclasses import replace
 
+    from offgrid.design.sizing import design
     from offgrid.project.model import ClimateChoice
-    from offgrid.sizing import design
     from tests.conftest import hand_project
 
     snow = [0.7, 0.7, 0.4, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2, 0.4]

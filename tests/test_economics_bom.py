@@ -8,10 +8,10 @@ import math
 
 import pytest
 
+from offgrid.design.sizing import design
+from offgrid.design.wiring import WireChoice
 from offgrid.economics.bom import CONDUCTORS_PER_RUN, _cable_lines, bill_of_materials, bom_csv
 from offgrid.project.model import Load
-from offgrid.sizing import design
-from offgrid.wiring import WireChoice
 from tests.conftest import hand_project
 from tests.report_helpers import demo
 

@@ -13,6 +13,7 @@ import dataclasses
 
 import pytest
 
+from offgrid.design.sizing import design
 from offgrid.economics.bom import BomLine
 from offgrid.economics.costs import (
     BATTERY_LIFE_PRESET_YEARS,
@@ -27,7 +28,6 @@ from offgrid.project.model import Economics, PriceItem
 from offgrid.project.store import ProjectFileError, loads_project
 from offgrid.simulate.life import BatteryWear
 from offgrid.simulate.reliability import Reliability
-from offgrid.sizing import design
 from tests.conftest import hand_project
 
 

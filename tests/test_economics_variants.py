@@ -4,10 +4,10 @@ from __future__ import annotations
 
 import pytest
 
+from offgrid.design.sizing import design
 from offgrid.economics.variants import apply_variant, compare_variants, flatten_overrides
 from offgrid.project.model import Variant
 from offgrid.project.store import dumps_project, loads_project
-from offgrid.sizing import design
 from tests.conftest import hand_project
 from tests.report_helpers import demo
 

@@ -7,15 +7,15 @@ import json
 import numpy as np
 import pytest
 
-from offgrid import pv
 from offgrid.climate import sky
 from offgrid.climate.poa import poa_monthly_liu_jordan
-from offgrid.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
+from offgrid.design import pv
+from offgrid.design.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
+from offgrid.design.result import DesignError
+from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
 from offgrid.project.model import ModuleSpec
 from offgrid.project.store import dumps_project, load_project, loads_project
-from offgrid.result import DesignError
-from offgrid.sizing import design
 from tests.conftest import hand_project
 
 
@@ -212,7 +212,7 @@ def test_pwm_60_cell_on_24_v_is_suitable_but_short_in_the_heat(project):
 
 
 def test_array_is_raised_when_the_chosen_harvest_falls_short(project, monkeypatch):
-    import offgrid.electrical as el
+    import offgrid.design.electrical as el
 
     real = el.harvest_wh_day
 
@@ -295,7 +295,7 @@ def test_wiring_section_round_trips(project):
 
 def test_wiring_derate_far_from_the_sized_cables_is_noted():
     # Drop % at the operating current ~ share of power lost in the cable (common practice).
-    from offgrid.sizing import design
+    from offgrid.design.sizing import design
     from tests.conftest import hand_project
 
     p = hand_project()

@@ -17,6 +17,8 @@ import typing
 from hypothesis import HealthCheck, assume, event, given, settings
 from hypothesis import strategies as st
 
+from offgrid.design.result import DesignError
+from offgrid.design.sizing import design
 from offgrid.project.model import (
     ClimateChoice,
     Load,
@@ -25,8 +27,6 @@ from offgrid.project.model import (
     ProjectInfo,
 )
 from offgrid.project.validate import RANGES, validate_project
-from offgrid.result import DesignError
-from offgrid.sizing import design
 
 try:
     from design_invariants import design_problems

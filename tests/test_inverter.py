@@ -10,10 +10,10 @@ from __future__ import annotations
 
 import pytest
 
-from offgrid.loads import analyse_loads
+from offgrid.design.loads import analyse_loads
+from offgrid.design.sizing import design
 from offgrid.project.model import InverterSpec, Load
-from offgrid.sizing import design
-from offgrid.summary import summary_text
+from offgrid.report.summary import summary_text
 from tests.conftest import hand_project
 
 

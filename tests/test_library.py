@@ -115,8 +115,8 @@ def test_import_writes_into_the_user_library_and_list_marks_it_yours(capsys, tmp
 
 
 def test_a_project_names_a_user_climate(capsys, tmp_path):
+    from offgrid.design.sizing import design
     from offgrid.project.store import load_project
-    from offgrid.sizing import design
 
     src = _monthly_csv(tmp_path)
     assert run(capsys, "climate", "import", str(src), "--name", "Typed Hill")[0] == 0

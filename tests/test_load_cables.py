@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import pytest
 
+from offgrid.design.sizing import design
 from offgrid.project.loads_csv import loads_to_csv, read_loads_csv
 from offgrid.project.model import SCHEMA_VERSION, Load
 from offgrid.project.store import (
@@ -18,7 +19,6 @@ from offgrid.project.store import (
     loads_project,
     save_project,
 )
-from offgrid.sizing import design
 from tests.conftest import hand_project
 
 

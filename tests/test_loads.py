@@ -6,7 +6,7 @@ from pathlib import Path
 
 import pytest
 
-from offgrid.loads import analyse_loads, appliance_energy_wh
+from offgrid.design.loads import analyse_loads, appliance_energy_wh
 from offgrid.paths import load_profiles_dir
 from offgrid.project.loads_csv import (
     LoadListError,

@@ -11,6 +11,7 @@ import numpy as np
 import pytest
 
 from offgrid.cli import main
+from offgrid.design.sizing import DEFERS_TO_CODE, design
 from offgrid.paths import load_profiles_dir
 from offgrid.plan import rows as rows_mod
 from offgrid.plan.community import demo_survey_path, plan_community, plan_file
@@ -24,7 +25,6 @@ from offgrid.plan.rows import (
 )
 from offgrid.plan.survey import load_survey, read_survey
 from offgrid.plan.text import markdown_report, rows_csv, summary_text
-from offgrid.sizing import DEFERS_TO_CODE, design
 
 
 @pytest.fixture(scope="module")
@@ -56,9 +56,9 @@ def test_each_row_is_the_single_project_design(demo):
 
 def test_one_tilt_for_the_community_unless_a_row_sets_its_own():
     """Kits share a mounting: the tilt is the engine's search for the total demand."""
-    from offgrid.loads import appliance_energy_wh
-    from offgrid.result import ReasonBook
-    from offgrid.sizing import site_geometry
+    from offgrid.design.loads import appliance_energy_wh
+    from offgrid.design.result import ReasonBook
+    from offgrid.design.sizing import site_geometry
 
     text = (
         "climate,kisanga-ridge-demo\nproject,kisanga-ridge-home-parts\n"

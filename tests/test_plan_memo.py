@@ -7,12 +7,12 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from offgrid.design.pv import fit_module, module_mpp
+from offgrid.design.sizing import design
 from offgrid.memo import design_memo, memo_active
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.rows import community_tilt, prepare, row_project, summarise
 from offgrid.plan.survey import read_survey
-from offgrid.pv import fit_module, module_mpp
-from offgrid.sizing import design
 
 HEAD = (
     "community,Memo check (invented)\nclimate,kisanga-ridge-demo\n"

@@ -17,6 +17,7 @@ from pathlib import Path
 import pytest
 
 from offgrid.cli import main
+from offgrid.design.sizing import DEFERS_TO_CODE
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.community import plan_community
 from offgrid.plan.programme import (
@@ -28,7 +29,6 @@ from offgrid.plan.programme import (
 )
 from offgrid.plan.programme_text import markdown_report, rows_csv, summary_text
 from offgrid.plan.survey import load_survey
-from offgrid.sizing import DEFERS_TO_CODE
 
 sys.path.insert(0, str(Path(__file__).parent))
 from test_plan_kits import brute_cost

@@ -88,9 +88,9 @@ def test_kit_unit_cost_is_the_sum_of_its_parts(plan):
 
 def test_cables_and_protection_come_from_the_electrical_design(plan):
     """Cable metres = 2 conductors x one-way length x runs of each design's wires."""
+    from offgrid.design.sizing import design
     from offgrid.plan.rows import prepare, row_project
     from offgrid.plan.survey import load_survey
-    from offgrid.sizing import design
 
     inputs = prepare(load_survey(demo_survey_path()))
     inputs.base.site.tilt_deg = plan.tilt_deg

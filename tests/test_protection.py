@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
-from offgrid import protection as prot
-from offgrid import strings as st
-from offgrid.result import DesignError
+from offgrid.design import protection as prot
+from offgrid.design import strings as st
+from offgrid.design.result import DesignError
 
 # NEC 2023 Table 240.6(A) (REFERENCES.md, V).
 NEC_240_6 = (
@@ -195,7 +195,7 @@ def test_battery_disconnect_is_rated_and_dc_motor_circuits_say_time_delay():
     # NEC 706.15 disconnect: rated for the largest current through the battery terminals
     # (1.25 x the circuits it carries; common practice, no source).  A DC motor draws its
     # starting current through its circuit fuse (common practice, no source).
-    from offgrid.sizing import design
+    from offgrid.design.sizing import design
     from tests.conftest import hand_project
 
     p = hand_project()

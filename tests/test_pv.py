@@ -12,9 +12,9 @@ import math
 import numpy as np
 import pytest
 
-from offgrid import pv
+from offgrid.design import pv
+from offgrid.design.result import DesignError
 from offgrid.project.model import ModuleSpec
-from offgrid.result import DesignError
 
 # Invented datasheets spanning 36-cell to 72-cell (half-cut) modules.
 DATASHEETS = {
@@ -219,7 +219,7 @@ def test_ross_cell_temperature_matches_pvlib_ross_with_noct_k():
 
 def test_one_ross_function_behind_sizing_harvest_and_electrical():
     # The former second copies are gone: the design steps use the one function.
-    from offgrid import electrical, harvest, sizing
+    from offgrid.design import electrical, harvest, sizing
 
     assert not hasattr(pv, "cell_temperature_noct")
     assert sizing.cell_temperature_ross is pv.cell_temperature_ross
@@ -231,9 +231,9 @@ def test_the_sizing_figure_is_the_one_ross_function():
     # The design's monthly cell temperature (array.cell_temp_c) is exactly the one function
     # at the day's air temperature and the energy-weighted irradiance of the month.
     from offgrid.climate import sky
+    from offgrid.design.sizing import design, energy_weighted_irradiance
     from offgrid.paths import demo_project_path
     from offgrid.project.store import load_project
-    from offgrid.sizing import design, energy_weighted_irradiance
 
     project = load_project(demo_project_path())
     d = design(project, demo_project_path().parent)

@@ -7,9 +7,9 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from offgrid.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
-from offgrid.pv import fit_module
-from offgrid.sizing import design
+from offgrid.design.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
+from offgrid.design.pv import fit_module
+from offgrid.design.sizing import design
 from tests.conftest import hand_project
 
 
@@ -54,7 +54,7 @@ def test_comparison_does_not_depend_on_the_array_size(ctype):
 
 
 def test_per_module_gap_matches_one_string_without_cables():
-    """Reference: the same I-V model (offgrid.harvest) on one string of each type with no
+    """Reference: the same I-V model (offgrid.design.harvest) on one string of each type with no
     cable at all, per module; the design's figure, whose cables lose the same fraction both
     ways, agrees within 1.5 points."""
     p = _pwm_project("pwm", 100.0)

@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
-from offgrid.battery import MIN_LEAD_ACID_CHARGE_C_RATE
+from offgrid.design.battery import MIN_LEAD_ACID_CHARGE_C_RATE
 
 README = Path(__file__).resolve().parents[1] / "README.md"
 
@@ -17,6 +17,6 @@ def test_low_charge_rate_note_is_one_value_matching_the_code():
     notes = [" ".join(m.group(0).split()) for m in found]
     assert len(notes) == 1, notes
     value = int(re.search(r"C/(\d+)", notes[0]).group(1))
-    assert value == round(1 / MIN_LEAD_ACID_CHARGE_C_RATE)  # C/50 in offgrid.battery
+    assert value == round(1 / MIN_LEAD_ACID_CHARGE_C_RATE)  # C/50 in offgrid.design.battery
     assert "common practice, no source" in notes[0]
     assert "C/20" not in " ".join(notes)

@@ -2,17 +2,17 @@
 
 Rule of the project: every figure the engine produces carries its reason.  Each numeric
 leaf of the JSON's main sections must resolve through :meth:`SystemDesign.why` (by its
-JSON path, see :func:`offgrid.result.reason_key`), or be listed below as what it is.
+JSON path, see :func:`offgrid.design.result.reason_key`), or be listed below as what it is.
 """
 
 from __future__ import annotations
 
 import pytest
 
+from offgrid.design.result import reason_key
+from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
 from offgrid.project.store import load_project
-from offgrid.result import reason_key
-from offgrid.sizing import design
 from tests.conftest import hand_project
 
 SECTIONS = (

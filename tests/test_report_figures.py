@@ -12,12 +12,12 @@ from html.parser import HTMLParser
 
 import pytest
 
+from offgrid.design.sizing import design
 from offgrid.report.build import KEY_FIGURES, LABELS, build_report
 from offgrid.report.document import Figures, Table
 from offgrid.report.html import render_html
 from offgrid.report.markdown import render_markdown
 from offgrid.report.text import render_text
-from offgrid.sizing import design
 from offgrid.wording import confirm_words
 from tests.report_helpers import assert_shown_equals, at_path, demo, size_json
 

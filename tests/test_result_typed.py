@@ -12,12 +12,12 @@ import typing
 
 import pytest
 
-from offgrid import electrical as el
-from offgrid.protection import Device
-from offgrid.pv import IVCurve, OperatingPoint
-from offgrid.result import SystemDesign
-from offgrid.sizing import design
-from offgrid.wiring import WireChoice
+from offgrid.design import electrical as el
+from offgrid.design.protection import Device
+from offgrid.design.pv import IVCurve, OperatingPoint
+from offgrid.design.result import SystemDesign
+from offgrid.design.sizing import design
+from offgrid.design.wiring import WireChoice
 from tests.report_helpers import demo
 
 

@@ -7,13 +7,13 @@ import numpy as np
 import pytest
 
 from offgrid.cli import main
+from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
 from offgrid.project.store import load_project
 from offgrid.simulate.adapter import inputs_from_design
 from offgrid.simulate.balance import build_steps
 from offgrid.simulate.run import simulate_project
 from offgrid.simulate.weather import MONTH_OF_DAY, WeatherSeries
-from offgrid.sizing import design
 
 
 def test_text_summary(capsys):
@@ -134,9 +134,9 @@ def test_hand_project_simulates(project):
 def test_measured_days_from_the_climate_are_used(monkeypatch):
     from types import SimpleNamespace
 
-    import offgrid.sizing
+    import offgrid.design.sizing
 
-    real = offgrid.sizing.resolve_climate
+    real = offgrid.design.sizing.resolve_climate
 
     def with_daily(project, base=None):
         c = real(project, base)
@@ -144,7 +144,7 @@ def test_measured_days_from_the_climate_are_used(monkeypatch):
             **{**vars(c), "daily": SimpleNamespace(insolation_kwh_m2_day=[5.0] * 365)}
         )
 
-    monkeypatch.setattr(offgrid.sizing, "resolve_climate", with_daily)
+    monkeypatch.setattr(offgrid.design.sizing, "resolve_climate", with_daily)
     project = load_project(demo_project_path())
     rep = simulate_project(project, demo_project_path().parent, years=2, with_tradeoff=False)
     assert rep.weather["measured_years"] == 1 and rep.weather["years"] == 3

@@ -8,8 +8,8 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from offgrid.result import DesignError
-from offgrid.sizing import design
+from offgrid.design.result import DesignError
+from offgrid.design.sizing import design
 from tests.conftest import hand_project
 
 
@@ -323,7 +323,7 @@ def test_inverter_surge_is_covered_beyond_the_common_ratings(project):
 
 
 def test_charge_current_against_the_bank(project):
-    # Limits from memory (typical makers' figures, as offgrid.battery says): lead-acid about
+    # Limits from memory (typical makers' figures, as offgrid.design.battery says): lead-acid about
     # C/5-C/4 at most; far below C/20 a lead-acid bank seldom reaches full charge.
     d = design(project)
     b = d.battery

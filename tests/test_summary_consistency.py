@@ -6,10 +6,10 @@ import re
 
 import pytest
 
+from offgrid.design.sizing import MONTHS, design
 from offgrid.paths import demo_project_path
 from offgrid.project.store import load_project
-from offgrid.sizing import MONTHS, design
-from offgrid.summary import summary_text
+from offgrid.report.summary import summary_text
 from tests.conftest import hand_project
 
 

@@ -13,6 +13,7 @@ import re
 
 import pytest
 
+from offgrid.design.sizing import design
 from offgrid.economics.bom import bill_of_materials
 from offgrid.economics.costs import lifecycle_cost
 from offgrid.paths import demo_project_path
@@ -21,10 +22,9 @@ from offgrid.project.store import load_project
 from offgrid.report import render
 from offgrid.report.build import build_report
 from offgrid.report.document import Figures, Table
+from offgrid.report.summary import summary_text
 from offgrid.simulate.life import BatteryWear
 from offgrid.simulate.reliability import Reliability
-from offgrid.sizing import design
-from offgrid.summary import summary_text
 from offgrid.tui.screens.curves import array_curves
 from offgrid.tui.sections.sizes import figure_rows
 from offgrid.tui.sections.wires import basic_rows, runs_of

@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import pytest
 
-from offgrid.sizing import design
-from offgrid.summary import summary_text
+from offgrid.design.sizing import design
+from offgrid.report.summary import summary_text
 from tests.conftest import hand_project
 
 

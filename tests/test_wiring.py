@@ -6,8 +6,8 @@ import math
 
 import pytest
 
-from offgrid import wiring as wr
-from offgrid.result import DesignError
+from offgrid.design import wiring as wr
+from offgrid.design.result import DesignError
 
 FT_PER_M = 1 / 0.3048
 

@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
+from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
 from offgrid.project.store import load_project
-from offgrid.sizing import design
 from offgrid.wording import confirm_words
 
 

@@ -17,8 +17,8 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from offgrid.result import DesignError, SystemDesign
-from offgrid.sizing import design
+from offgrid.design.result import DesignError, SystemDesign
+from offgrid.design.sizing import design
 from tests.conftest import hand_project
 from tests.design_invariants import HARVEST_TOL
 

@@ -181,8 +181,8 @@ def describe_tilt(choice: TiltChoice) -> str:
 
 
 def tilt_reason_inputs(choice: TiltChoice) -> dict[str, str]:
-    """Inputs for a :class:`offgrid.result.Reason` describing the search."""
-    from offgrid.result import fmt
+    """Inputs for a :class:`offgrid.design.result.Reason` describing the search."""
+    from offgrid.design.result import fmt
 
     return {
         "azimuth": fmt(choice.azimuth_deg, "deg"),

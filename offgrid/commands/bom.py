@@ -43,8 +43,8 @@ def register(sub) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from offgrid.commands.output import check_writable, write_output
-    from offgrid.result import DesignError
-    from offgrid.sizing import design
+    from offgrid.design.result import DesignError
+    from offgrid.design.sizing import design
 
     out = Path(args.output) if args.output and args.output != STDIO else None
     if out is not None:

@@ -176,7 +176,7 @@ def first_field(exc) -> str | None:
 
 def design_failed(exc, suffix: str = "") -> None:
     """Exit for a DesignError: 2 when the input is unusable, 3 when the design cannot be met."""
-    from offgrid.result import INPUT_ERROR_CODES
+    from offgrid.design.result import INPUT_ERROR_CODES
 
     if exc.code in INPUT_ERROR_CODES:
         fail(

@@ -58,8 +58,8 @@ def register(sub) -> None:
 
 
 def _design(project, base):
-    from offgrid.result import DesignError
-    from offgrid.sizing import design
+    from offgrid.design.result import DesignError
+    from offgrid.design.sizing import design
 
     try:
         return design(project, base)

@@ -87,7 +87,7 @@ def choose_format(fmt: str | None, output: str | None) -> str:
 
 def run(args: argparse.Namespace) -> int:
     from offgrid.commands.output import check_writable, write_output
-    from offgrid.result import DesignError
+    from offgrid.design.result import DesignError
 
     if args.output == STDIO and args.bom == STDIO:
         fail("-o - and --bom - cannot both use the standard output: give one of them a file")
@@ -110,8 +110,8 @@ def run(args: argparse.Namespace) -> int:
         check_writable(bom_path, args.force, reading_path(args))
     project, base = open_project(args)
 
+    from offgrid.design.sizing import design
     from offgrid.report import make_report
-    from offgrid.sizing import design
 
     try:
         result = design(project, base)

@@ -83,7 +83,7 @@ def _int(text: str, name: str) -> int:
 
 
 def run(args: argparse.Namespace) -> int:
-    from offgrid.result import DesignError
+    from offgrid.design.result import DesignError
     from offgrid.simulate.run import prices_from_args, simulate_project, summary_text
     from offgrid.simulate.tradeoff import DEFAULT_TARGETS
     from offgrid.simulate.weather import check_seed, check_years

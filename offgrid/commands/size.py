@@ -148,8 +148,8 @@ def apply_overrides(project, args: argparse.Namespace) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from offgrid.result import DesignError
-    from offgrid.sizing import design
+    from offgrid.design.result import DesignError
+    from offgrid.design.sizing import design
 
     project, base = project_from_args(args)
     try:
@@ -159,7 +159,7 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         print(json_text(result.to_dict()))
     else:
-        from offgrid.summary import summary_text
+        from offgrid.report.summary import summary_text
 
         print(summary_text(project, result))
     return 0

@@ -65,10 +65,10 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         print(json_text(comparison_dict(cmp)))
         return 0
+    from offgrid.design.sizing import design
     from offgrid.report.build import build_report
     from offgrid.report.document import Report
     from offgrid.report.text import render_text
-    from offgrid.sizing import design
 
     base_design = cmp.columns[0].design
     if base_design is None:

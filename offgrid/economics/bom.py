@@ -22,11 +22,11 @@ from collections.abc import Iterable
 from dataclasses import dataclass
 from typing import Any
 
+from offgrid.design.protection import Device
+from offgrid.design.result import SystemDesign
+from offgrid.design.wiring import WireChoice
 from offgrid.project.model import Project
-from offgrid.protection import Device
-from offgrid.result import SystemDesign
 from offgrid.safetext import csv_row
-from offgrid.wiring import WireChoice
 
 #: Conductors per cable run: go and return of a two-wire DC or single-phase AC circuit.
 CONDUCTORS_PER_RUN = 2

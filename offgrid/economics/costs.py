@@ -31,10 +31,10 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from offgrid.design.result import Reason, SystemDesign, fmt
 from offgrid.economics.bom import BomLine
 from offgrid.economics.prices import price_for
 from offgrid.project.model import Economics, Project
-from offgrid.result import Reason, SystemDesign, fmt
 from offgrid.simulate.reliability import Reliability
 
 if TYPE_CHECKING:

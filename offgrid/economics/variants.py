@@ -19,8 +19,8 @@ from dataclasses import dataclass, is_dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, get_type_hints
 
+from offgrid.design.result import DesignError, SystemDesign
 from offgrid.project.model import Project, Variant
-from offgrid.result import DesignError, SystemDesign
 
 if TYPE_CHECKING:
     from offgrid.economics.costs import LifecycleCost
@@ -263,9 +263,9 @@ def compare_variants(
     and ``unmet_fraction`` as fractions) for each column.  A variant that cannot be applied
     or designed keeps its column with the reason in ``error``.
     """
+    from offgrid.design.sizing import design as run_design
     from offgrid.economics.bom import bill_of_materials
     from offgrid.economics.costs import lifecycle_cost
-    from offgrid.sizing import design as run_design
 
     columns: list[VariantColumn] = []
     entries = [Variant(name="Base design", overrides={}, note="the project as saved")]

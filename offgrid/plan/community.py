@@ -15,7 +15,8 @@ from typing import Any
 
 import numpy as np
 
-from offgrid.cautions import DEFERS_TO_CODE
+from offgrid.design.cautions import DEFERS_TO_CODE
+from offgrid.design.result import Notice, Reason, ReasonBook, fmt
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.kits import Candidate, PlanError, Standardisation, standardise
 from offgrid.plan.prices import PriceList, PriceListError, from_part_prices, load_prices
@@ -33,7 +34,6 @@ from offgrid.plan.rows import (
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, load_survey
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES, mtf2015_tier, tier_reason
 from offgrid.plan.totals import Totals, procurement_totals
-from offgrid.result import Notice, Reason, ReasonBook, fmt
 
 #: Number of kit types when neither --kits nor a kit-type price is given.
 DEFAULT_KITS = 3
@@ -431,7 +431,7 @@ def assemble(
             "standard kits share one mounting: the engine's tilt search run "
             "once for the survey's total appliance demand by month (rows x counts); rows "
             "that set site.tilt_deg keep theirs",
-            "offgrid.sizing.site_geometry",
+            "offgrid.design.sizing.site_geometry",
             tilt=fmt(tilt, "deg"),
         )
     elif tilt is not None:
@@ -500,7 +500,7 @@ def _reasons(
         "plan.rows",
         "each row designed as its own project with the single-system engine "
         "(worst-month sizing); identical rows designed once",
-        "offgrid.sizing.design",
+        "offgrid.design.sizing.design",
     )
     if standard is not None:
         target = (

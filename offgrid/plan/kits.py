@@ -49,9 +49,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from offgrid.design.sizing import INVERTER_SURGE_MULTIPLE
 from offgrid.plan.prices import PriceList
 from offgrid.plan.rows import Cable, Protection, RowDesign
-from offgrid.sizing import INVERTER_SURGE_MULTIPLE
 
 Objective = str  # "cost" or "oversize"
 METHOD = (

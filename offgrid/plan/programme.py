@@ -29,8 +29,8 @@ from typing import Any
 
 import numpy as np
 
-from offgrid.cautions import DEFERS_TO_CODE
 from offgrid.climate.files import ClimateFileError, load_climate, monthly_climate_problems
+from offgrid.design.cautions import DEFERS_TO_CODE
 from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan import survey as sv

@@ -1,4 +1,4 @@
-"""Design every survey row with the single-project engine (:func:`offgrid.sizing.design`).
+"""Design every survey row with the single-project engine (:func:`offgrid.design.sizing.design`).
 
 Each row becomes an ordinary :class:`~offgrid.project.model.Project`: the shared
 site and climate, the shared (or the row's own) parts and design choices, and the
@@ -25,6 +25,7 @@ from pathlib import Path
 import numpy as np
 
 from offgrid.climate.files import ClimateFileError, load_climate
+from offgrid.design.result import DesignError, SystemDesign
 from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.survey import PART_SECTIONS, Survey, SurveyError, SurveyProblem, SurveyRow
@@ -32,7 +33,6 @@ from offgrid.project.loads_csv import LoadListError, load_loads_csv
 from offgrid.project.model import ClimateChoice, Load, MonthlyClimate, Project, ProjectInfo
 from offgrid.project.store import ProjectFileError, load_project
 from offgrid.project.validate import validate_project
-from offgrid.result import DesignError, SystemDesign
 
 #: Below this many distinct designs, worker processes cost more than they save (measured:
 #: start-up about 0.1 s per worker with fork; one design with its electrical part 15-25 ms).
@@ -530,7 +530,7 @@ def _copy(obj):
 
 
 def _design_one(project: Project, base_dir: Path | None) -> RowDesign | RowFailure:
-    from offgrid.sizing import design
+    from offgrid.design.sizing import design
 
     try:
         return summarise(project, design(project, base_dir))
@@ -634,14 +634,14 @@ def community_tilt(inputs: PlanInputs) -> float | None:
     """Search the community's one tilt and set it on the shared site.
 
     Standard kits share one mounting frame, so the whole community is designed at one
-    tilt: the engine's own search (:func:`offgrid.sizing.site_geometry`) run once for the
+    tilt: the engine's own search (:func:`offgrid.design.sizing.site_geometry`) run once for the
     survey's total appliance demand by month (each row's loads x its count).  Rows that
     set ``site.tilt_deg`` keep theirs.  Returns the tilt, or None when the site already
     has one or no row can be read.
     """
-    from offgrid.loads import appliance_energy_wh
-    from offgrid.result import ReasonBook
-    from offgrid.sizing import site_geometry
+    from offgrid.design.loads import appliance_energy_wh
+    from offgrid.design.result import ReasonBook
+    from offgrid.design.sizing import site_geometry
 
     base = inputs.base
     if base.site.tilt_deg is not None or inputs.tilt_searched:

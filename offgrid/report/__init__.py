@@ -56,10 +56,10 @@ def simulate_for_report(
     The trade-off's cheapest point is priced from the project's price list when the module
     and the battery unit have prices.
     """
+    from offgrid.design.sizing import design as run_design
     from offgrid.economics.bom import bill_of_materials
     from offgrid.economics.costs import tradeoff_prices
     from offgrid.simulate.run import simulate_project
-    from offgrid.sizing import design as run_design
 
     prices = tradeoff_prices(project, bill_of_materials(project, run_design(project, base)))
     return simulate_project(
@@ -83,12 +83,12 @@ def make_report(
     """Design ``project`` (unless ``design`` is given) and render its report.
 
     ``simulate`` runs the reliability study (and simulates each variant) unless a study is
-    given as ``reliability``.  Raises :class:`~offgrid.result.DesignError` when the project
+    given as ``reliability``.  Raises :class:`~offgrid.design.result.DesignError` when the project
     does not design, ValueError for bad simulation settings.  Charts are drawn for HTML only
     unless ``with_charts`` says otherwise.
     """
+    from offgrid.design.sizing import design as run_design
     from offgrid.report.build import build_report
-    from offgrid.sizing import design as run_design
 
     if fmt not in FORMATS:
         raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")

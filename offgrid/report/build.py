@@ -1,6 +1,6 @@
 """Build the report model (:class:`~offgrid.report.document.Report`) from a project and its design.
 
-Every number is taken from the :class:`~offgrid.result.SystemDesign` (through its
+Every number is taken from the :class:`~offgrid.design.result.SystemDesign` (through its
 ``to_dict()``, the same JSON that ``offgrid size --json`` prints), formatted once
 here and tagged with its dotted path, so each format shows the same figure and a
 test can check it against the JSON.  Sections that later parts of the engine
@@ -17,8 +17,9 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from offgrid.cautions import DEFERS_TO_CODE
 from offgrid.climate.model import MonthlyClimate
+from offgrid.design.cautions import DEFERS_TO_CODE
+from offgrid.design.result import Reason, SystemDesign
 from offgrid.economics.bom import (
     BomLine,
     bill_of_materials,
@@ -41,7 +42,6 @@ from offgrid.report.document import (
     Section,
     Table,
 )
-from offgrid.result import Reason, SystemDesign
 
 if TYPE_CHECKING:
     from offgrid.economics.variants import VariantComparison
@@ -417,7 +417,7 @@ def build_report(
     has variants and ``with_variants`` is true).
     """
     if climate is None:
-        from offgrid.sizing import resolve_climate
+        from offgrid.design.sizing import resolve_climate
 
         try:
             climate = resolve_climate(project, base)

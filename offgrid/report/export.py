@@ -142,8 +142,8 @@ def export_report(
     """Design ``project`` and write its report to ``path``; returns the path written.
 
     ``reading``: the project file it came from, never overwritten (nor any project)."""
+    from offgrid.design.result import DesignError
     from offgrid.report import make_report
-    from offgrid.result import DesignError
 
     target = Path(path)
     kind = format_for(target, fmt)
@@ -190,8 +190,8 @@ def export_bom(
     reading: str | os.PathLike | None = None,
 ) -> Path:
     """Design ``project`` and write its bill of materials (CSV) to ``path``."""
-    from offgrid.result import DesignError
-    from offgrid.sizing import design as run_design
+    from offgrid.design.result import DesignError
+    from offgrid.design.sizing import design as run_design
 
     target = Path(path)
     _check(target, force, reading)

@@ -27,9 +27,9 @@ from pathlib import Path
 
 import numpy as np
 
-from offgrid.battery import MAX_CHARGE_C_RATE
+from offgrid.design.battery import MAX_CHARGE_C_RATE
+from offgrid.design.result import SystemDesign
 from offgrid.project.model import Project
-from offgrid.result import SystemDesign
 from offgrid.simulate.balance import SystemInputs, check_inputs
 from offgrid.simulate.profiles import HOURS, window_profile
 
@@ -144,7 +144,7 @@ def inputs_from_design(
 
 def measured_daily(project: Project, base: Path | None = None) -> np.ndarray | None:
     """Real daily insolation of an imported weather year, when the climate carries one."""
-    from offgrid.sizing import resolve_climate
+    from offgrid.design.sizing import resolve_climate
 
     climate = resolve_climate(project, base)
     daily = getattr(climate, "daily", None)

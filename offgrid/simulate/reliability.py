@@ -7,7 +7,7 @@ from typing import Any
 
 import numpy as np
 
-from offgrid.result import Reason, ReasonBook, fmt
+from offgrid.design.result import Reason, ReasonBook, fmt
 from offgrid.simulate.balance import Balance, SystemInputs, build_steps, simulate_inputs
 from offgrid.simulate.life import CYCLE_LIFE_SOURCE, BatteryWear, battery_wear
 from offgrid.simulate.profiles import LOAD_WINDOWS_H

@@ -152,8 +152,8 @@ def simulate_project(
 
     Raises ValueError (or DesignError) with a message naming the field and the fix.
     """
+    from offgrid.design.sizing import design
     from offgrid.simulate.adapter import inputs_from_design, measured_daily
-    from offgrid.sizing import design
 
     years = check_years(years)
     seed = check_seed(seed)

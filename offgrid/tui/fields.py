@@ -13,9 +13,9 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
+from offgrid.design.result import SystemDesign
 from offgrid.numbers import NumberError, read_number
 from offgrid.project.validate import RANGES
-from offgrid.result import SystemDesign
 
 HINTS = {path: hint for path, _lo, _hi, hint in RANGES}
 #: Fields whose value is a fraction 0-1: a plain number above 1 (up to 100) is a percentage.

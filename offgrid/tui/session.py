@@ -15,6 +15,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from offgrid.design.result import DesignError, SystemDesign
 from offgrid.project.atomic import (
     Fingerprint,
     clean_stray_temp_files,
@@ -23,7 +24,6 @@ from offgrid.project.atomic import (
 from offgrid.project.model import ClimateChoice, Load, Project, ProjectInfo, Site
 from offgrid.project.store import dumps_project, load_project, save_project
 from offgrid.project.validate import Problem, validate_project
-from offgrid.result import DesignError, SystemDesign
 
 UNDO_DEPTH = 200
 
@@ -123,7 +123,7 @@ class Session:
     # ------------------------------------------------------------------ design
     def recompute(self) -> Outcome:
         """Run the engine on the current project; never raises."""
-        from offgrid.sizing import design  # the engine; imported here to keep start-up light
+        from offgrid.design.sizing import design  # the engine; imported here to keep start-up light
 
         t0 = time.perf_counter()
         out = Outcome()

@@ -5,9 +5,9 @@ from __future__ import annotations
 import numpy as np
 from tui_helpers import SIZE, demo_app, screen_text
 
+from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
 from offgrid.project.store import load_project
-from offgrid.sizing import design
 from offgrid.tui.screens.curves import CurvesDialog, array_curves
 from offgrid.tui.widgets.ivplot import draw
 

@@ -6,9 +6,9 @@ import json
 
 from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
 
+from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
 from offgrid.project.store import dumps_project, load_project
-from offgrid.sizing import design
 from offgrid.tui.app import make_app
 from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.recover import RecoverDialog

@@ -6,9 +6,9 @@ from pathlib import Path
 
 from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
 
+from offgrid.design.sizing import design
 from offgrid.project.model import Load
 from offgrid.project.store import load_project
-from offgrid.sizing import design
 from offgrid.tui.app import make_app
 from offgrid.tui.screens.dialogs import ChoiceDialog, ConfirmDialog, PathDialog
 from offgrid.tui.screens.sheet import SheetDialog

@@ -32,8 +32,8 @@ def plain_terminal() -> bool:
 
 def array_curves(project, design) -> list[Curve]:
     """The three conditions as string curves; [] when the design has no electrical part."""
-    from offgrid.electrical import HOT_IRRADIANCE_W_M2
-    from offgrid.pv import iv_curve
+    from offgrid.design.electrical import HOT_IRRADIANCE_W_M2
+    from offgrid.design.pv import iv_curve
 
     er = design.electrical
     if er is None:

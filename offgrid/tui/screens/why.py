@@ -9,7 +9,7 @@ from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.widgets import Static
 
-from offgrid.result import Reason
+from offgrid.design.result import Reason
 from offgrid.tui.screens.dialogs import Dialog
 from offgrid.tui.text import literal
 

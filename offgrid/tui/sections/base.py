@@ -8,7 +8,7 @@ from typing import TYPE_CHECKING
 from textual.containers import Vertical
 from textual.widget import Widget
 
-from offgrid.result import Reason
+from offgrid.design.result import Reason
 from offgrid.tui.fields import Field
 from offgrid.tui.session import EditRejected, Session, get_path
 from offgrid.tui.text import from_printable, printable

@@ -7,7 +7,7 @@ from textual.app import ComposeResult
 from textual.widgets import OptionList
 from textual.widgets.option_list import Option
 
-from offgrid.result import Notice
+from offgrid.design.result import Notice
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable

@@ -9,8 +9,8 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
+from offgrid.design.result import Reason, fmt
 from offgrid.project.loads_csv import format_months, parse_months
-from offgrid.result import Reason, fmt
 from offgrid.tui.fields import LOAD_COLUMNS, Column, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, ConfirmDialog, MessageDialog, PathDialog

@@ -23,8 +23,8 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
+from offgrid.design.result import Reason
 from offgrid.project.model import PriceItem, Project, Variant
-from offgrid.result import Reason
 from offgrid.tui.fields import (
     CHEMISTRY_CHOICES,
     CONTROLLER_TYPES,
@@ -81,7 +81,7 @@ def chemistry_preset(project: Project, chemistry: str) -> dict[str, Any]:
     The unit voltage is rounded to whole cells of that chemistry (a 2 V lead-acid cell
     becomes one 3.2 V lithium iron phosphate cell), so the bank can still be laid out.
     """
-    from offgrid.battery import CHEMISTRIES
+    from offgrid.design.battery import CHEMISTRIES
 
     chem = CHEMISTRIES[chemistry]
     out: dict[str, Any] = {

@@ -226,7 +226,7 @@ class PlaceSection(Section):
             return c.inline
         if c.ref:
             try:
-                from offgrid.sizing import resolve_climate
+                from offgrid.design.sizing import resolve_climate
 
                 return resolve_climate(session.project, session.base_dir)
             except ValueError:
@@ -313,7 +313,7 @@ class PlaceSection(Section):
             return
         base = None
         if p.climate.ref:
-            from offgrid.sizing import resolve_climate
+            from offgrid.design.sizing import resolve_climate
 
             base = resolve_climate(p, self.session.base_dir)
         if base is None:

@@ -22,7 +22,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, ProgressBar, Static
 
-from offgrid.result import Reason
+from offgrid.design.result import Reason
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable

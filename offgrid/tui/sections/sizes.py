@@ -10,7 +10,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable
 
-from offgrid.result import SystemDesign
+from offgrid.design.result import SystemDesign
 from offgrid.tui.keys import focus_now
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session

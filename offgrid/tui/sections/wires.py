@@ -15,8 +15,9 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
+from offgrid.design.result import SystemDesign
+from offgrid.design.wiring import WireChoice
 from offgrid.project.model import RUN_LENGTH_RANGE_M
-from offgrid.result import SystemDesign
 from offgrid.tui.fields import Field, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog
@@ -26,7 +27,6 @@ from offgrid.tui.text import clip, printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 from offgrid.tui.widgets.steady import SteadyTable
-from offgrid.wiring import WireChoice
 
 LENGTH_LIMITS_M = RUN_LENGTH_RANGE_M
 

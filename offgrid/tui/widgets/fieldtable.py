@@ -5,7 +5,7 @@ from __future__ import annotations
 from rich.text import Text
 from textual.binding import Binding
 
-from offgrid.result import SystemDesign
+from offgrid.design.result import SystemDesign
 from offgrid.tui.fields import Field
 from offgrid.tui.session import get_path
 from offgrid.tui.text import clip_words, literal

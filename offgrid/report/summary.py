@@ -2,8 +2,8 @@
 
 from __future__ import annotations
 
+from offgrid.design.result import SystemDesign
 from offgrid.project.model import Project
-from offgrid.result import SystemDesign
 from offgrid.safetext import printable
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")

@@ -14,8 +14,8 @@ import math
 from dataclasses import asdict, dataclass, field, fields, is_dataclass
 from typing import TYPE_CHECKING, Any, Literal
 
-if TYPE_CHECKING:  # typing only: offgrid.electrical imports this module
-    from offgrid.electrical import ElectricalResult
+if TYPE_CHECKING:  # typing only: offgrid.design.electrical imports this module
+    from offgrid.design.electrical import ElectricalResult
 
 Severity = Literal["info", "warning", "error"]
 
@@ -164,7 +164,7 @@ class ArrayResult:
     vmp_hot_v: float
     string_voc_cold_v: float
     string_vmp_hot_v: float
-    # Daily energy into the battery each month from the I-V curves (offgrid.electrical):
+    # Daily energy into the battery each month from the I-V curves (offgrid.design.electrical):
     harvest_pwm_wh_day: tuple[float, ...] = ()
     harvest_mppt_wh_day: tuple[float, ...] = ()
 
@@ -229,7 +229,7 @@ class SystemDesign:
     cautions: tuple[str, ...]
     reasons: dict[str, Reason] = field(default_factory=dict)
     #: The electrical design (strings, harvest, cables, protection); None only on the
-    #: worst-month core before :func:`offgrid.electrical.with_electrical` adds it.
+    #: worst-month core before :func:`offgrid.design.electrical.with_electrical` adds it.
     electrical: ElectricalResult | None = None
 
     def why(self, path: str) -> Reason | None:

@@ -11,7 +11,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from offgrid.result import DesignError
+from offgrid.design.result import DesignError
 
 #: NEC 2023 Table 240.6(A) standard ratings [A] (as transcribed, V).
 STANDARD_RATINGS_A = (

@@ -24,8 +24,8 @@ import numpy as np
 
 from offgrid.climate import sky
 from offgrid.climate.poa import ground_reflected_isotropic, sky_diffuse_isotropic
+from offgrid.design.pv import DiodeParams, cell_temperature_ross, module_current, module_mpp
 from offgrid.memo import memoised
-from offgrid.pv import DiodeParams, cell_temperature_ross, module_current, module_mpp
 
 PROFILE_STEPS = 48
 

@@ -24,7 +24,7 @@ import functools
 import math
 from dataclasses import dataclass
 
-from offgrid.result import DesignError
+from offgrid.design.result import DesignError
 
 FT_PER_KM = 1000.0 / 0.3048
 KCMIL_MM2 = 0.506707479  # 1 kcmil = 1000 circular mils = 0.5067 mm2

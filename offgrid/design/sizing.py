@@ -5,7 +5,7 @@ Pure: no UI, no files written.  Every figure is recorded with its reason.
 Chain, in order (each step its own function below):
 
 1. climate and monthly plane-of-array insolation (Liu-Jordan / Klein, :mod:`offgrid.climate.sky`);
-2. loads at the battery by month (:mod:`offgrid.loads`);
+2. loads at the battery by month (:mod:`offgrid.design.loads`);
 3. design month = largest ratio of daily demand to plane-of-array insolation;
 4. array power = design-month demand / (peak sun hours x temperature x soiling x mismatch x
    wiring x controller x battery round trip), each derate shown on its own;
@@ -24,15 +24,14 @@ from pathlib import Path
 
 import numpy as np
 
-from offgrid.battery import CHEMISTRIES, capacity_temperature_factor, units_in_series
-from offgrid.cautions import DEFERS_TO_CODE  # noqa: F401  (re-exported)
 from offgrid.climate import sky
 from offgrid.climate.files import ClimateFileError, load_climate
 from offgrid.climate.model import MonthlyClimate
-from offgrid.loads import analyse_loads
-from offgrid.project.model import Project
-from offgrid.pv import cell_temperature_ross
-from offgrid.result import (
+from offgrid.design.battery import CHEMISTRIES, capacity_temperature_factor, units_in_series
+from offgrid.design.cautions import DEFERS_TO_CODE  # noqa: F401  (re-exported)
+from offgrid.design.loads import analyse_loads
+from offgrid.design.pv import cell_temperature_ross
+from offgrid.design.result import (
     ArrayResult,
     BatteryResult,
     ControllerResult,
@@ -45,6 +44,7 @@ from offgrid.result import (
     SystemDesign,
     fmt,
 )
+from offgrid.project.model import Project
 
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 #: Common charge-controller current ratings, A (common practice, no source).
@@ -424,7 +424,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     # 4-5. array
     k_array = len(notices)
     arr_notices: list[Notice] = []
-    from offgrid.pv import fit_module
+    from offgrid.design.pv import fit_module
 
     params = fit_module(project.module)  # once per design: the window and the curves share it
     array, ctrl, system_v, batt_abs_v, dm = _size_array(
@@ -503,7 +503,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     # 9. electrical design: strings, harvest both ways from the I-V curves, cables,
     # protection, cautions.  If the chosen controller's harvest falls short of the demand
     # in any month, add modules and size again (at most a few rounds).
-    from offgrid.electrical import electrical_design, with_electrical
+    from offgrid.design.electrical import electrical_design, with_electrical
 
     core = assemble(array, ctrl, arr_notices)
     er = electrical_design(project, core, params)
@@ -537,7 +537,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
             "array.modules_parallel",
             "raised until the daily harvest through the chosen "
             "controller, after the battery round trip, covers every month's demand",
-            "De Soto (2006) I-V curves over the month's mean day (offgrid.harvest)",
+            "De Soto (2006) I-V curves over the month's mean day (offgrid.design.harvest)",
             first=str(first),
             now=str(core.array.module_count),
         )
@@ -564,7 +564,7 @@ def _charge_rate_notices(
     Peak current: MPPT, array STC power x controller efficiency / system voltage; PWM,
     strings x Imp; at most the controllers' ratings together.
     """
-    from offgrid.battery import MAX_CHARGE_C_RATE, MIN_LEAD_ACID_CHARGE_C_RATE
+    from offgrid.design.battery import MAX_CHARGE_C_RATE, MIN_LEAD_ACID_CHARGE_C_RATE
 
     v = battery.bank_voltage_v or battery.system_voltage_v
     if ctrl.type == "mppt":
@@ -713,9 +713,9 @@ def _size_array(
     system_v = choose_system_voltage(project, max(rough, lr.peak_ac_w * NEC_CONTINUOUS), book)
     n_cells_sys = system_v / 2.0 if chem.lead_acid else system_v / 3.0
     batt_abs_v = chem.absorption_v_per_cell * n_cells_sys
-    # String window (offgrid.electrical): cold Voc at the record low, hot Vmp from the fitted
+    # String window (offgrid.design.electrical): cold Voc at the record low, hot Vmp from the fitted
     # single-diode model; DesignError when no series count fits the controller.
-    from offgrid.electrical import string_limits
+    from offgrid.design.electrical import string_limits
 
     lim = string_limits(project, site.temp_day_c, t_low, batt_abs_v, params)
     window, vmp_hot, voc_cold = lim.window, lim.vmp_hot_v, lim.voc_cold_v
@@ -927,7 +927,7 @@ def _layout_with_controllers(project: Project, window, n_need: int, system_v: in
     """
     from dataclasses import replace
 
-    from offgrid.strings import choose_layout
+    from offgrid.design.strings import choose_layout
 
     m = project.module
     top = max(_controller_ratings(project))
@@ -1351,7 +1351,7 @@ def _size_inverter(
             book.add(f"inverter.{key}", "no AC loads: no inverter", "common practice")
         book.given("inverter.efficiency", "inverter.efficiency", fmt(inv.efficiency))
         return InverterResult(False, 0.0, 0.0, 0.0, 0.0, inv.efficiency, 0.0, 0.0)
-    from offgrid.loads import SURGE_FORMULA
+    from offgrid.design.loads import SURGE_FORMULA
 
     req_cont = lr.peak_ac_w * NEC_CONTINUOUS
     req_surge = lr.surge_need_w

@@ -36,8 +36,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from offgrid.design.result import DesignError
 from offgrid.memo import memoised
-from offgrid.result import DesignError
 
 T_REF_C = 25.0
 T_REF_K = 298.15

@@ -16,7 +16,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from offgrid.result import DesignError
+from offgrid.design.result import DesignError
 
 #: NEC Table 690.7(A) (as transcribed, V): (lowest expected ambient, lower end of the row C,
 #: factor), for crystalline and multicrystalline silicon modules.

@@ -1,7 +1,7 @@
 """Electrical design after the worst-month core: strings, harvest, cables, protection, cautions.
 
 ``electrical_design(project, core)`` takes the project and the
-:class:`~offgrid.result.SystemDesign` of the worst-month sizing and returns an
+:class:`~offgrid.design.result.SystemDesign` of the worst-month sizing and returns an
 :class:`ElectricalResult`: every figure carries its reason.
 """
 
@@ -12,12 +12,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from offgrid import cautions as cau
-from offgrid import protection as prot
-from offgrid import strings as st
-from offgrid import wiring as wr
-from offgrid.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
-from offgrid.pv import (
+from offgrid.design import cautions as cau
+from offgrid.design import protection as prot
+from offgrid.design import strings as st
+from offgrid.design import wiring as wr
+from offgrid.design.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
+from offgrid.design.pv import (
     DiodeParams,
     IVCurve,
     OperatingPoint,
@@ -28,7 +28,7 @@ from offgrid.pv import (
     module_mpp,
     validate_module,
 )
-from offgrid.result import DesignError, Notice, Reason, ReasonBook, fmt
+from offgrid.design.result import DesignError, Notice, Reason, ReasonBook, fmt
 
 NEC = "NFPA 70 (NEC) 2023"
 #: What each kind of run's maximum current is, for its reason.

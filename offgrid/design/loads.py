@@ -14,8 +14,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from offgrid.design.result import LoadResult, ReasonBook, fmt
 from offgrid.project.model import InverterSpec, Load
-from offgrid.result import LoadResult, ReasonBook, fmt
 
 
 def month_mask(loads: list[Load]) -> np.ndarray:
