@@ -217,6 +217,50 @@ class Variant:
     note: str = ""
 
 
+GeneratorFuel = Literal["diesel", "petrol", "lpg"]
+DispatchRule = Literal["cycle_charging", "load_following"]
+DerateMethod = Literal["common_practice", "iso3046"]
+
+
+@dataclass
+class GeneratorSpec:
+    """A generator beside the sun (issue 16); ranges and hints in offgrid/generator/fields.py.
+
+    Fuel use from the datasheet at ``fuel_load_pct`` % of the rating, L/h (LPG: litres of
+    liquid).  Money in ``Economics.currency``.  Quiet hours are solar time, whole hours,
+    from ``quiet_from_h`` up to ``quiet_to_h`` (may wrap past midnight).
+    """
+
+    name: str = "Generator"
+    fuel: GeneratorFuel = "diesel"
+    rated_kw: float = 5.0  # continuous output at the reference conditions, kW
+    fuel_load_pct: list[float] = field(default_factory=lambda: [25.0, 50.0, 75.0, 100.0])
+    fuel_l_h: list[float] = field(default_factory=list)
+    min_load_fraction: float = 0.3  # of the derated output
+    altitude_m: float | None = None  # None: site.elevation_m
+    hottest_temp_c: float | None = None  # None: the climate's hottest monthly mean maximum
+    derate_method: DerateMethod = "common_practice"
+    derate_alt_pct_per_300m: float = 3.0
+    derate_alt_above_m: float = 1000.0
+    derate_temp_pct_per_5c: float = 2.0
+    derate_temp_above_c: float = 25.0
+    charger_kw: float = 2.0  # battery charger's DC output, kW
+    charger_efficiency: float = 0.9
+    dispatch: DispatchRule = "cycle_charging"
+    start_soc: float = 0.6  # cycle charging: start at or below this state of charge
+    stop_soc: float = 0.9  # and run until this one
+    quiet_from_h: int | None = None
+    quiet_to_h: int | None = None
+    price: float | None = None  # purchase and installation
+    fuel_price_per_l: float = 1.5
+    fuel_escalation_pct: float = 3.0  # yearly rise of the fuel price, %
+    maintenance_per_run_h: float = 0.4
+    overhaul_interval_h: float = 10000.0
+    overhaul_cost: float = 0.0
+    life_run_h: float = 20000.0  # replaced after this many run hours
+    life_years: float = 15.0  # or after this many years, whichever comes first
+
+
 @dataclass
 class Project:
     info: ProjectInfo = field(default_factory=ProjectInfo)
@@ -232,6 +276,7 @@ class Project:
     economics: Economics = field(default_factory=Economics)
     variants: list[Variant] = field(default_factory=list)
     wiring: WiringChoices = field(default_factory=WiringChoices)
+    generator: GeneratorSpec | None = None  # None: solar only
     # Sections that later features own (wiring runs, prices, variants) are kept
     # verbatim so that nothing a user saved is ever dropped.
     extra: dict = field(default_factory=dict)

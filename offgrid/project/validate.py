@@ -208,6 +208,10 @@ def validate_project(project: Project) -> list[Problem]:
             who = f"load '{printable(load.name)}'" if load.name.strip() else f"appliance {i + 1}"
             problems.append(Problem(f"loads[{i + 1}].{fld}", f"{msg} ({who})"))
     problems.extend(_price_and_variant_problems(project))
+    if project.generator is not None:  # issue 16: the generator's own checks
+        from offgrid.generator.fields import generator_problems
+
+        problems.extend(Problem(path, msg) for path, msg in generator_problems(project))
     return problems
 
 
