@@ -1,0 +1,70 @@
+"""The invented hybrid lodge: generator setup from the project, the hybrid run (issue 16)."""
+
+from __future__ import annotations
+
+import dataclasses
+
+import pytest
+
+from offgrid.design.result import DesignError
+from offgrid.design.sizing import design
+from offgrid.generator.hybrid import gen_wh_per_bus_wh, generator_setup, hybrid_run
+from offgrid.paths import demo_project_path
+from offgrid.project.store import load_project
+from offgrid.simulate.adapter import inputs_from_design
+from offgrid.simulate.balance import build_steps
+from offgrid.simulate.weather import synthetic_daily_insolation
+
+LODGE = demo_project_path().parent / "demo-hybrid-lodge.toml"
+
+
+@pytest.fixture(scope="module")
+def lodge():
+    p = load_project(LODGE)
+    d = design(p)
+    inp = inputs_from_design(p, d)
+    w = synthetic_daily_insolation(inp.insolation_kwh_m2_day, inp.latitude_deg, 4, seed=3)
+    return p, d, inp, w, build_steps(inp, w, "hourly")
+
+
+def test_demo_is_labelled_invented(lodge):
+    p = lodge[0]
+    assert p.info.demo and "invented" in p.info.notes.lower()
+    assert p.generator is not None and "invented" in p.generator.name
+
+
+def test_setup_from_the_project(lodge):
+    p, d = lodge[0], lodge[1]
+    s = generator_setup(p, d)
+    # 450 m and an 18.2 C hottest monthly maximum: below both derate thresholds
+    assert s.derating.derated_kw == pytest.approx(6.0)
+    assert s.check.ok and s.check.starting_need_w <= 6000
+    # all loads AC: per bus Wh the generator gives (AC x growth) / bus = inverter share
+    ratio = gen_wh_per_bus_wh(p, d)
+    assert all(0.5 < r < 1.0 for r in ratio)
+
+
+def test_generator_smaller_than_its_start_is_refused(lodge):
+    p, d = lodge[0], lodge[1]
+    small = dataclasses.replace(p, generator=dataclasses.replace(p.generator, rated_kw=2.0))
+    with pytest.raises(DesignError) as err:
+        generator_setup(small, d)
+    assert err.value.field == "generator.rated_kw"
+    assert "Water pump" in str(err.value) or "kW" in str(err.value)
+
+
+def test_hybrid_run_trends(lodge):
+    p, d, inp, w, steps = lodge
+    s = generator_setup(p, d)
+    full = hybrid_run(inp, w, s.inputs, steps=steps)
+    third = hybrid_run(inp, w, s.inputs, inp.array_w / 3, inp.capacity_wh / 2, steps=steps)
+    # a smaller array and bank: more generator, less sun, still (nearly) no unmet energy
+    assert third.fuel_l_per_year > full.fuel_l_per_year
+    assert third.run_hours_per_year > full.run_hours_per_year
+    assert third.solar_fraction < full.solar_fraction <= 1
+    assert third.unmet_fraction < 0.01 < third.solar_only_unmet_fraction
+    # fuel per run hour lies between the no-load use and the full-load use of the curve
+    per_h = third.fuel_l_per_year / third.run_hours_per_year
+    assert s.fuel.fuel_l_h(0) <= per_h <= s.fuel.fuel_l_h(6.0)
+    assert third.wear is not None and third.wear.expected_life_years > 0
+    assert set(third.reasons) >= {"fuel_l_per_year", "solar_fraction", "run_hours_per_year"}
