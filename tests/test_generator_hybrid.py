@@ -68,3 +68,32 @@ def test_hybrid_run_trends(lodge):
     assert s.fuel.fuel_l_h(0) <= per_h <= s.fuel.fuel_l_h(6.0)
     assert third.wear is not None and third.wear.expected_life_years > 0
     assert set(third.reasons) >= {"fuel_l_per_year", "solar_fraction", "run_hours_per_year"}
+
+
+def test_mix_tradeoff_small_grid(lodge):
+    from offgrid.economics.hybrid_mix import mix_tradeoff
+
+    p, d, inp, w, steps = lodge
+    s = generator_setup(p, d)
+    prices = {"array_per_w": 0.4, "battery_per_kwh": 300.0}
+    m = mix_tradeoff(
+        p,
+        d,
+        inp,
+        w,
+        s,
+        prices,
+        array_factors=(0.2, 0.6, 1.0),
+        battery_factors=(0.5,),
+        steps=steps,
+    )
+    assert len(m.points) == 3
+    fuel = [q.fuel_l_per_year for q in m.points]
+    assert fuel[0] > fuel[1] > fuel[2] > 0  # less sun, more fuel
+    assert m.cheapest is not None and m.cheapest.unmet_fraction <= m.unmet_limit
+    assert m.cheapest.lcc == min(q.lcc for q in m.points if q.unmet_fraction <= m.unmet_limit)
+    # the solar-only point: the design's own array and bank, no fuel, costed the same way
+    so = m.solar_only
+    assert not so.generator and so.fuel_l_per_year == 0 and so.array_w == inp.array_w
+    # capital by hand: (array W x 0.4 + kWh x 300) x (1 + 15 % installation)
+    assert so.capital == pytest.approx((so.array_w * 0.4 + so.battery_kwh * 300) * 1.15)

@@ -214,21 +214,26 @@ def hybrid_run(
     *,
     steps=None,
     with_wear: bool = True,
+    solar_only: bool = True,
 ) -> HybridRun:
-    """Simulate one design with the generator and, on the same weather, without it."""
+    """Simulate one design with the generator and (``solar_only``) on the same weather
+    without it; without that run the solar-only figures are NaN."""
     aw = inp.array_w if array_w is None else float(array_w)
     cap = inp.capacity_wh if capacity_wh is None else float(capacity_wh)
     steps = steps if steps is not None else build_steps(inp, weather, "hourly")
     b = hybrid_balance(inp, steps, gen, aw, cap, record=with_wear)
-    solo = run_balance(
-        steps,
-        aw,
-        cap,
-        max_dod=inp.max_dod,
-        eta_charge=inp.eta_charge,
-        eta_discharge=inp.eta_discharge,
-        initial_soc=inp.initial_soc,
-    )
+    solo_lolp = solo_unmet = float("nan")
+    if solar_only:
+        solo = run_balance(
+            steps,
+            aw,
+            cap,
+            max_dod=inp.max_dod,
+            eta_charge=inp.eta_charge,
+            eta_discharge=inp.eta_discharge,
+            initial_soc=inp.initial_soc,
+        )
+        solo_lolp, solo_unmet = float(solo.lolp[0]), float(solo.unmet_fraction[0])
     years = weather.years
     wear = None
     if with_wear and b.stored_wh is not None:
@@ -292,8 +297,8 @@ def hybrid_run(
         unmet_fraction=b.unmet_fraction,
         lolp=b.shed_days / b.days,
         solar_fraction=b.solar_fraction,
-        solar_only_lolp=float(solo.lolp[0]),
-        solar_only_unmet_fraction=float(solo.unmet_fraction[0]),
+        solar_only_lolp=solo_lolp,
+        solar_only_unmet_fraction=solo_unmet,
         wear=wear,
         reasons=book.freeze(),
     )
