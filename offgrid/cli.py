@@ -22,6 +22,7 @@ COMMANDS: tuple[str, ...] = (
     "prices",
     "variants",
     "plan",
+    "generator",
 )
 VERSION_FLAGS = ("--version", "-V")
 

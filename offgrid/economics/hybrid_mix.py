@@ -190,6 +190,12 @@ def mix_tradeoff(
             "no mix kept unmet energy within the limit: a larger generator or charger, or "
             "fewer quiet hours"
         )
+    if cheapest is not None and solar_only.lcc < cheapest.lcc:
+        notes.append(
+            f"the solar-only design costs less over the life but leaves "
+            f"{solar_only.unmet_fraction:.2%} of the energy unmet (the limit is "
+            f"{unmet_limit:.1%}): the generator buys the reliability"
+        )
     e = project.economics
     reasons = {
         "lcc": Reason(
