@@ -107,6 +107,11 @@ def make_report(
                 ).reliability
 
             comparison = compare_variants(project, base, simulate=one)
+    generator = None
+    if simulate and project.generator is not None:  # issue 16: the generator study
+        from offgrid.generator.study import generator_study
+
+        generator = generator_study(project, base, years=min(years, 20), seed=seed)
     report = build_report(
         project,
         d,
@@ -115,5 +120,6 @@ def make_report(
         with_charts=charts,
         with_variants=with_variants,
         comparison=comparison,
+        generator=generator,
     )
     return render(report, fmt)

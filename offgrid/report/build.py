@@ -42,9 +42,11 @@ from offgrid.report.document import (
     Section,
     Table,
 )
+from offgrid.report.generator_section import generator_section
 
 if TYPE_CHECKING:
     from offgrid.economics.variants import VariantComparison
+    from offgrid.generator.study import GeneratorStudy
     from offgrid.simulate.run import SimulationReport
     from offgrid.simulate.tradeoff import TradeOff
 
@@ -409,6 +411,7 @@ def build_report(
     comparison: VariantComparison | None = None,
     with_charts: bool = True,
     with_variants: bool = True,
+    generator: GeneratorStudy | None = None,
 ) -> Report:
     """The report model of a designed project.
 
@@ -442,6 +445,7 @@ def build_report(
         _bom(ri, bom, cost),
         _costs(ri, cost),
         _reliability(ri),
+        generator_section(project, design, generator, base),  # None without a generator
         _variants(ri),
         _cautions(ri),
         _assumptions(ri, tree),
@@ -1449,6 +1453,10 @@ def _cautions(ri: ReportInputs) -> Section:
     for extra in ri.reliability.cautions if ri.reliability is not None else ():
         if extra not in cautions:
             cautions.append(extra)
+    if ri.project.generator is not None:  # issue 16: a generator's own cautions
+        from offgrid.generator.cautions import generator_cautions
+
+        cautions.extend(c for c in generator_cautions(ri.project.generator) if c not in cautions)
     if not any("defers to local electrical code" in c for c in cautions):
         cautions.append(DEFERS_TO_CODE)
     blocks.append(Bullets(tuple(cautions), "caution"))

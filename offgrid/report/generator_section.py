@@ -1,0 +1,238 @@
+"""The report's generator section (issue 16): rendering only, from the generator study.
+
+Without a study (the report run without simulation) the section shows what needs no
+weather: derating, the fuel line and its fit, the generator check, its parts and the
+cautions.  With :class:`~offgrid.generator.study.GeneratorStudy` it adds the hourly
+simulation, the present-worth costs and the trade-off of sun, battery and fuel.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from offgrid.design.result import SystemDesign
+from offgrid.economics.costs import money
+from offgrid.generator.cautions import generator_cautions
+from offgrid.project.model import Project
+from offgrid.report.document import Block, Bullets, Cell, Paragraph, Section, Table
+
+if TYPE_CHECKING:
+    from offgrid.generator.hybrid import GeneratorSetup
+    from offgrid.generator.study import GeneratorStudy
+
+KEY = "generator"
+TITLE = "Generator beside the sun"
+
+
+def _c(text: str, value: float | None = None) -> Cell:
+    """A cell without a design path: the generator's figures are in its own JSON section."""
+    return Cell(text, value)
+
+
+def _figures(setup: GeneratorSetup) -> list[Block]:
+    d, f, k = setup.derating, setup.fuel, setup.check
+    rows = (
+        ("Derated output", f"{d.derated_kw:.2f} kW", d.derated_kw),
+        ("No-load fuel", f"{f.no_load_l_h:.3f} L/h", f.no_load_l_h),
+        ("Marginal fuel", f"{f.b_l_per_kwh:.4f} L/kWh", f.b_l_per_kwh),
+        ("Starting need", f"{k.starting_need_w / 1000:.2f} kW", k.starting_need_w),
+        ("Minimum loading", f"{k.min_load_w / 1000:.2f} kW", k.min_load_w),
+    )
+    how = (
+        f"Derated output: {d.rated_kw:g} kW x {d.factor:.3f} at {d.altitude_m:.0f} m and "
+        f"{d.temp_c:.1f} C ({d.reason.source}).",
+        f"Fuel line: fuel = {f.a_l_h_per_kw:.4f} x rating + {f.b_l_per_kwh:.4f} x output "
+        f"L/h, R^2 {f.r_squared:.4f} ({f.reason.source}).",
+        f"Starting need: the largest start with the loads beside it + the charger's input "
+        f"{k.charger_input_w / 1000:.2f} kW, within the derated output: "
+        + ("yes" if k.ok else "no")
+        + f" ({k.reason.source}).",
+        f"Minimum loading: {setup.spec.min_load_fraction:.0%} of the derated output, against "
+        "wet stacking; below it a dump load takes the rest (common practice, no source).",
+    )
+    return [
+        Table(
+            "generator-figures",
+            ("Figure", "Value"),
+            tuple((_c(a), _c(b, v)) for a, b, v in rows),
+            ("l", "r"),
+        ),
+        Bullets(how),
+    ]
+
+
+def _fit(setup: GeneratorSetup) -> Table:
+    f = setup.fuel
+    rows = tuple(
+        (
+            _c(f"{x:.2f}", x),
+            _c(f"{y:.3f}", y),
+            _c(f"{z:.3f}", z),
+            _c(f"{y - z:+.3f}", y - z),
+        )
+        for x, y, z in zip(f.points_kw, f.points_l_h, f.fitted_l_h, strict=True)
+    )
+    return Table(
+        "generator-fuel-fit",
+        ("Load kW", "Datasheet L/h", "Line L/h", "Difference"),
+        rows,
+        ("r", "r", "r", "r"),
+        "The fuel line fitted by least squares to the datasheet points.",
+    )
+
+
+def _run(study: GeneratorStudy) -> Table:
+    r = study.run
+    rows = [
+        ("Array", f"{r.array_w:.0f} W", r.array_w),
+        ("Battery at its temperature", f"{r.capacity_wh / 1000:.2f} kWh", r.capacity_wh),
+        ("Run hours a year", f"{r.run_hours_per_year:.0f} h", r.run_hours_per_year),
+        ("Starts a year", f"{r.starts_per_year:.0f}", r.starts_per_year),
+        ("Fuel a year", f"{r.fuel_l_per_year:.0f} L", r.fuel_l_per_year),
+        (
+            "Hours below minimum loading",
+            f"{r.below_min_hours_per_year:.0f} h/yr",
+            r.below_min_hours_per_year,
+        ),
+        ("Solar fraction", f"{r.solar_fraction:.1%}", r.solar_fraction),
+        ("Unmet energy", f"{r.unmet_fraction:.3%}", r.unmet_fraction),
+    ]
+    if r.wear is not None:
+        rows.append(
+            (
+                "Battery expected life",
+                f"{r.wear.expected_life_years:.1f} years",
+                r.wear.expected_life_years,
+            )
+        )
+    return Table(
+        "generator-run",
+        ("Hybrid simulated", "Value"),
+        tuple((_c(a), _c(b, v)) for a, b, v in rows),
+        ("l", "r"),
+        f"{study.chosen}; {study.years} years of hourly synthetic weather, "
+        f"{r.rule.replace('_', ' ')}.",
+    )
+
+
+def _costs(study: GeneratorStudy) -> Table:
+    c = study.cost
+    cur = c.currency
+    rows = (
+        ("Generator price", c.capital),
+        ("Fuel (present worth)", c.fuel_pw),
+        ("Maintenance (present worth)", c.maintenance_pw),
+        ("Overhauls (present worth)", c.overhaul_pw),
+        ("Replacements (present worth)", c.replacement_pw),
+        ("Generator total (present worth)", c.total_pw),
+    )
+    return Table(
+        "generator-costs",
+        ("Cost", "Amount"),
+        tuple((_c(a), _c(money(v, cur), v)) for a, v in rows),
+        ("l", "r"),
+        c.reasons["fuel_pw"].source,
+    )
+
+
+def _tradeoff(study: GeneratorStudy) -> list[Block]:
+    m = study.mix
+    if m is None:
+        return []
+    cur = m.currency
+    pts = sorted(m.points, key=lambda p: (p.battery_kwh, p.array_w))
+    rows = []
+    for p in (*pts, m.solar_only):
+        label = "solar only" if not p.generator else ("cheapest" if p is m.cheapest else "")
+        rows.append(
+            (
+                _c(f"{p.array_w:.0f}", p.array_w),
+                _c(f"{p.battery_kwh:.2f}", p.battery_kwh),
+                _c(f"{p.fuel_l_per_year:.0f}", p.fuel_l_per_year),
+                _c(f"{p.unmet_fraction:.3%}", p.unmet_fraction),
+                _c(f"{p.lcc:,.0f}", p.lcc),
+                _c(label),
+            )
+        )
+    return [
+        Table(
+            "generator-tradeoff",
+            ("Array W", "Battery kWh", "Fuel L/yr", "Unmet", f"LCC {cur}", ""),
+            tuple(rows),
+            ("r", "r", "r", "r", "r", "l"),
+            "Sun, battery and fuel: lifecycle cost of the parts that change with the mix.",
+        ),
+        Bullets(m.notes),
+    ]
+
+
+def generator_section(
+    project: Project,
+    design: SystemDesign,
+    study: GeneratorStudy | None = None,
+    base: Path | None = None,
+) -> Section | None:
+    """The section, or None when the project has no generator."""
+    if project.generator is None:
+        return None
+    from offgrid.design.result import DesignError
+    from offgrid.generator.hybrid import generator_setup
+
+    if study is not None:
+        setup = study.setup
+    else:
+        try:
+            setup = generator_setup(project, design, base)
+        except DesignError as exc:
+            return Section(
+                KEY,
+                TITLE,
+                (
+                    Bullets((str(exc),), "warning"),
+                    Bullets(generator_cautions(project.generator), "caution"),
+                ),
+            )
+    g = setup.spec
+    blocks: list[Block] = [
+        Paragraph(
+            f"{g.name}: {g.fuel}, {g.rated_kw:g} kW rated; charger {g.charger_kw:g} kW at "
+            f"{g.charger_efficiency:.0%}; dispatch {g.dispatch.replace('_', ' ')}"
+            + (
+                f" (start at {g.start_soc:.0%}, stop at {g.stop_soc:.0%} charge)"
+                if g.dispatch == "cycle_charging"
+                else ""
+            )
+            + (
+                f"; quiet from {g.quiet_from_h:02d} to {g.quiet_to_h:02d} h solar time"
+                if g.quiet_from_h is not None and g.quiet_to_h is not None
+                else ""
+            )
+            + "."
+        ),
+        *_figures(setup),
+        _fit(setup),
+    ]
+    if setup.notices:
+        blocks.append(Bullets(tuple(n.message for n in setup.notices), "warning"))
+    if study is not None:
+        blocks += [_run(study), _costs(study), *_tradeoff(study)]
+    else:
+        blocks.append(
+            Paragraph(
+                "Run hours, fuel a year and the trade-off of sun and fuel need the "
+                "simulation: make the report with --simulate, or run offgrid generator."
+            )
+        )
+    parts = [
+        f"Generator set: {g.name}"
+        + ("" if g.price is None else f", {money(g.price, project.economics.currency)}"),
+        "Changeover switch or interlock (or the inverter-charger's transfer relay)",
+        f"Battery charger {g.charger_kw:g} kW (or the inverter-charger's charger)",
+        "Fuel store: approved containers or a bunded tank, spill kit, extinguisher",
+        "Earthing of the generator frame; one neutral-earth bond",
+    ]
+    blocks.append(Paragraph("Generator parts to add to the bill of materials:"))
+    blocks.append(Bullets(tuple(parts)))
+    blocks.append(Bullets(generator_cautions(g), "caution"))
+    return Section(KEY, TITLE, tuple(blocks))
