@@ -97,3 +97,18 @@ def test_mix_tradeoff_small_grid(lodge):
     assert not so.generator and so.fuel_l_per_year == 0 and so.array_w == inp.array_w
     # capital by hand: (array W x 0.4 + kWh x 300) x (1 + 15 % installation)
     assert so.capital == pytest.approx((so.array_w * 0.4 + so.battery_kwh * 300) * 1.15)
+
+
+def test_mix_with_a_chosen_solar_share(lodge):
+    from offgrid.economics.hybrid_mix import mix_tradeoff
+
+    p, d, inp, w, steps = lodge
+    s = generator_setup(p, d)
+    prices = {"array_per_w": 0.4, "battery_per_kwh": 300.0}
+    kw = {"array_factors": (0.2, 0.6, 1.0), "battery_factors": (0.5,), "steps": steps}
+    free = mix_tradeoff(p, d, inp, w, s, prices, **kw)
+    share = max(q.solar_fraction for q in free.points) - 1e-9
+    m = mix_tradeoff(p, d, inp, w, s, prices, min_solar_fraction=share, **kw)
+    assert m.cheapest is not None and m.cheapest.solar_fraction >= share
+    with pytest.raises(ValueError, match="solar-share"):
+        mix_tradeoff(p, d, inp, w, s, prices, min_solar_fraction=1.5, **kw)

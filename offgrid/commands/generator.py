@@ -42,6 +42,12 @@ def register(sub) -> None:
     p.add_argument(
         "--battery-price", type=finite_float, metavar="PER_KWH", help="battery price per kWh"
     )
+    p.add_argument(
+        "--solar-share",
+        type=finite_float,
+        metavar="FRACTION",
+        help="cheapest mix with at least this share of the energy from the sun (0-1)",
+    )
     p.add_argument("--no-mix", action="store_true", help="skip the trade-off across sizes")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
     with_example(
@@ -85,6 +91,7 @@ def run(args: argparse.Namespace) -> int:
             battery_kwh=args.battery_kwh,
             prices=prices,
             with_mix=not args.no_mix,
+            min_solar_fraction=args.solar_share,
         )
     except DesignError as exc:
         design_failed(exc)

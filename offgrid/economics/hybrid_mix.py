@@ -109,9 +109,18 @@ def mix_tradeoff(
     array_factors=DEFAULT_ARRAY_FACTORS,
     battery_factors=DEFAULT_BATTERY_FACTORS,
     unmet_limit: float = DEFAULT_UNMET_LIMIT,
+    min_solar_fraction: float | None = None,
     steps=None,
 ) -> MixTradeoff:
-    """Lifecycle cost of each (array, battery) with the generator, and of the solar-only design."""
+    """Lifecycle cost of each (array, battery) with the generator, and of the solar-only design.
+
+    ``min_solar_fraction``: the cheapest point is chosen among those whose solar fraction
+    is at least this share (a chosen share of demand from the sun).
+    """
+    if min_solar_fraction is not None and not 0 <= min_solar_fraction <= 1:
+        raise ValueError(
+            f"--solar-share: {min_solar_fraction:g} must be a fraction 0-1 (0.8 = 80 % sun)"
+        )
     steps = steps if steps is not None else build_steps(inp, weather, "hourly")
     nominal_kwh = float(design.battery.nominal_kwh)
     spec = setup.spec
@@ -175,7 +184,8 @@ def mix_tradeoff(
         capital,
         lcc,
     )
-    ok = [p for p in points if p.unmet_fraction <= unmet_limit]
+    share = 0.0 if min_solar_fraction is None else min_solar_fraction
+    ok = [p for p in points if p.unmet_fraction <= unmet_limit and p.solar_fraction >= share]
     cheapest = min(ok, key=lambda p: p.lcc) if ok else None
     notes = [
         "costs of the parts that change with the mix only (array, battery, generator); "
@@ -183,6 +193,8 @@ def mix_tradeoff(
         f"{weather.years} years of hourly synthetic weather; cheapest point among those with "
         f"unmet energy at most {unmet_limit:.1%}",
     ]
+    if min_solar_fraction is not None:
+        notes.append(f"only mixes with a solar fraction of at least {share:.0%}")
     if spec.price is None:
         notes.append("generator.price not given: the generator's purchase is left out")
     if cheapest is None:

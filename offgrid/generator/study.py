@@ -130,6 +130,7 @@ def generator_study(
     battery_kwh: float | None = None,
     prices: dict[str, float] | None = None,
     with_mix: bool = True,
+    min_solar_fraction: float | None = None,
     use_measured: bool = True,
 ) -> GeneratorStudy:
     """Raises DesignError or ValueError with the field and the fix."""
@@ -155,7 +156,16 @@ def generator_study(
         prices = tradeoff_prices(project, bill_of_materials(project, result))
     mix = None
     if with_mix and prices is not None:
-        mix = mix_tradeoff(project, result, inp, weather, setup, prices, steps=steps)
+        mix = mix_tradeoff(
+            project,
+            result,
+            inp,
+            weather,
+            setup,
+            prices,
+            min_solar_fraction=min_solar_fraction,
+            steps=steps,
+        )
     elif with_mix:
         notes.append(
             "no trade-off: price the module and the battery in [[prices]] (or give "
