@@ -52,3 +52,18 @@ def test_small_generator_refused_with_field(tmp_path, capsys):
         main(["generator", str(p), "--years", "2", "--no-mix", "--json"])
     out = json.loads(capsys.readouterr().out)
     assert out["error"]["field"] == "generator.rated_kw"
+
+
+def test_size_json_has_the_generator_section(capsys, tmp_path):
+    assert main(["size", str(hybrid_demo_path()), "--json"]) == 0
+    g = json.loads(capsys.readouterr().out)["generator"]
+    assert g["derating"]["derated_kw"] == 6.0 and g["check"]["ok"] is True
+    assert g["fuel_curve"]["b_l_per_kwh"] == pytest.approx(0.29)
+    text = (
+        hybrid_demo_path().read_text(encoding="utf-8").replace("rated_kw = 6.0", "rated_kw = 2.0")
+    )
+    p = tmp_path / "small.toml"
+    p.write_text(text, encoding="utf-8")
+    assert main(["size", str(p), "--json"]) == 0  # the solar design still stands
+    g = json.loads(capsys.readouterr().out)["generator"]
+    assert g["refused"]["field"] == "generator.rated_kw"

@@ -157,9 +157,18 @@ def run(args: argparse.Namespace) -> int:
     except DesignError as exc:
         design_failed(exc)
     if args.json:
-        print(json_text(result.to_dict()))
+        out = result.to_dict()
+        if project.generator is not None:  # issue 16: the generator beside the design
+            from offgrid.generator.study import size_section
+
+            out["generator"] = size_section(project, result, base)
+        print(json_text(out))
     else:
         from offgrid.report.summary import summary_text
 
         print(summary_text(project, result))
+        if project.generator is not None:  # issue 16
+            from offgrid.generator.study import size_lines
+
+            print("\n".join(size_lines(project, result, base)))
     return 0

@@ -52,52 +52,12 @@ class GeneratorStudy:
         return self.setup.notices
 
     def to_dict(self) -> dict[str, Any]:
-        s = self.setup
-        fuel = s.fuel
         return {
             "title": self.title,
             "demo": self.demo,
             "years": self.years,
             "seed": self.seed,
-            "generator": {
-                "name": s.spec.name,
-                "fuel": s.spec.fuel,
-                "rated_kw": s.spec.rated_kw,
-                "dispatch": s.spec.dispatch,
-                "start_soc": s.spec.start_soc,
-                "stop_soc": s.spec.stop_soc,
-                "quiet_from_h": s.spec.quiet_from_h,
-                "quiet_to_h": s.spec.quiet_to_h,
-            },
-            "derating": {
-                "method": s.derating.method,
-                "altitude_m": s.derating.altitude_m,
-                "temp_c": s.derating.temp_c,
-                "pressure_kpa": round(s.derating.pressure_kpa, 3),
-                "factor": round(s.derating.factor, 4),
-                "derated_kw": round(s.derating.derated_kw, 4),
-                "reason": s.derating.reason.as_dict(),
-            },
-            "fuel_curve": {
-                "a_l_h_per_kw": round(fuel.a_l_h_per_kw, 6),
-                "b_l_per_kwh": round(fuel.b_l_per_kwh, 6),
-                "no_load_l_h": round(fuel.no_load_l_h, 6),
-                "r_squared": round(fuel.r_squared, 6),
-                "residual_max_l_h": round(fuel.residual_max_l_h, 6),
-                "fit": fuel.table(),
-                "reason": fuel.reason.as_dict(),
-            },
-            "check": {
-                "derated_w": s.check.derated_w,
-                "ac_peak_w": s.check.ac_peak_w,
-                "surge_need_w": s.check.surge_need_w,
-                "charger_input_w": round(s.check.charger_input_w, 3),
-                "running_need_w": round(s.check.running_need_w, 3),
-                "starting_need_w": round(s.check.starting_need_w, 3),
-                "min_load_w": round(s.check.min_load_w, 3),
-                "ok": s.check.ok,
-                "reason": s.check.reason.as_dict(),
-            },
+            **setup_dict(self.setup),
             "solar_only": {
                 "array_w": self.solar_only_array_w,
                 "battery_kwh": self.solar_only_battery_kwh,
@@ -106,10 +66,56 @@ class GeneratorStudy:
             "simulation": _finite(self.run.to_dict()),
             "costs": self.cost.to_dict(),
             "tradeoff": None if self.mix is None else self.mix.to_dict(),
-            "notices": [asdict(n) for n in self.notices],
             "notes": list(self.notes),
             "cautions": list(self.cautions),
         }
+
+
+def setup_dict(s: GeneratorSetup) -> dict[str, Any]:
+    """The generator's figures that need no weather: spec, derating, fuel line, check."""
+    fuel = s.fuel
+    return {
+        "generator": {
+            "name": s.spec.name,
+            "fuel": s.spec.fuel,
+            "rated_kw": s.spec.rated_kw,
+            "dispatch": s.spec.dispatch,
+            "start_soc": s.spec.start_soc,
+            "stop_soc": s.spec.stop_soc,
+            "quiet_from_h": s.spec.quiet_from_h,
+            "quiet_to_h": s.spec.quiet_to_h,
+        },
+        "derating": {
+            "method": s.derating.method,
+            "altitude_m": s.derating.altitude_m,
+            "temp_c": s.derating.temp_c,
+            "pressure_kpa": round(s.derating.pressure_kpa, 3),
+            "factor": round(s.derating.factor, 4),
+            "derated_kw": round(s.derating.derated_kw, 4),
+            "reason": s.derating.reason.as_dict(),
+        },
+        "fuel_curve": {
+            "a_l_h_per_kw": round(fuel.a_l_h_per_kw, 6),
+            "b_l_per_kwh": round(fuel.b_l_per_kwh, 6),
+            "no_load_l_h": round(fuel.no_load_l_h, 6),
+            "r_squared": round(fuel.r_squared, 6),
+            "residual_max_l_h": round(fuel.residual_max_l_h, 6),
+            "fit": fuel.table(),
+            "reason": fuel.reason.as_dict(),
+        },
+        "check": {
+            "derated_w": s.check.derated_w,
+            "ac_peak_w": s.check.ac_peak_w,
+            "surge_need_w": s.check.surge_need_w,
+            "charger_input_w": round(s.check.charger_input_w, 3),
+            "running_need_w": round(s.check.running_need_w, 3),
+            "starting_need_w": round(s.check.starting_need_w, 3),
+            "min_load_w": round(s.check.min_load_w, 3),
+            "ok": s.check.ok,
+            "reason": s.check.reason.as_dict(),
+        },
+        "notices": [asdict(n) for n in s.notices],
+    }
 
 
 def _finite(d: dict[str, Any]) -> dict[str, Any]:
@@ -308,3 +314,41 @@ def summary_text(st: GeneratorStudy) -> str:
     for ctn in st.cautions:
         out += _wrap("! " + ctn)
     return "\n".join(out)
+
+
+def size_section(project: Project, design, base: Path | None = None) -> dict[str, Any]:
+    """The ``generator`` section of ``offgrid size --json``: the figures that need no
+    weather, or the refusal (code, message, field) when the generator cannot serve."""
+    from offgrid.design.result import DesignError
+    from offgrid.generator.hybrid import generator_setup
+
+    try:
+        setup = generator_setup(project, design, base)
+    except DesignError as exc:
+        return {"refused": {"code": exc.code, "message": str(exc), "field": exc.field}}
+    return {**setup_dict(setup), "cautions": list(generator_cautions(setup.spec))}
+
+
+def size_lines(project: Project, design, base: Path | None = None) -> list[str]:
+    """A few lines for ``offgrid size``: the generator beside the solar design."""
+    sec = size_section(project, design, base)
+    g = project.generator
+    assert g is not None
+    out = ["", f"Generator: {g.name}, {g.fuel}, {g.rated_kw:g} kW rated"]
+    if "refused" in sec:
+        return out + _wrap("  cannot serve: " + sec["refused"]["message"], "    ")
+    d, f, k = sec["derating"], sec["fuel_curve"], sec["check"]
+    out.append(
+        f"  derated {d['derated_kw']:.2f} kW; fuel = {f['a_l_h_per_kw']:.4f} x rating + "
+        f"{f['b_l_per_kwh']:.4f} x output L/h"
+    )
+    out.append(
+        f"  starting need {k['starting_need_w'] / 1000:.2f} kW within the derated output; "
+        f"minimum loading {k['min_load_w'] / 1000:.2f} kW"
+    )
+    out += _wrap(
+        "  run hours, litres a year and the cheapest mix of sun and fuel: offgrid generator",
+        "    ",
+    )
+    out += _wrap("! " + sec["cautions"][0])
+    return out
