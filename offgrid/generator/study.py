@@ -149,6 +149,10 @@ def generator_study(
 
     years = check_years(years)
     seed = check_seed(seed)
+    if (array_w is not None and not array_w >= 0) or (
+        battery_kwh is not None and not battery_kwh > 0
+    ):
+        raise ValueError("--array-w must be 0 or more and --battery-kwh above 0")
     result = design(project, base)
     setup = generator_setup(project, result, base)
     inp = inputs_from_design(project, result)
@@ -182,8 +186,6 @@ def generator_study(
     if array_w is not None or battery_kwh is not None:
         aw = inp.array_w if array_w is None else float(array_w)
         kwh = nominal if battery_kwh is None else float(battery_kwh)
-        if not (aw >= 0 and kwh > 0):
-            raise ValueError("--array-w must be 0 or more and --battery-kwh above 0")
         chosen = "the array and battery given"
     elif mix is not None and mix.cheapest is not None:
         aw, kwh = mix.cheapest.array_w, mix.cheapest.battery_kwh
