@@ -31,8 +31,9 @@ def test_section_with_the_study():
     rep = build_report(p, d, with_charts=False, with_variants=False, generator=st)
     md = render(rep, "md")
     assert "Fuel a year" in md and "solar only" in md and "cheapest" in md
-    html = render(rep, "html")
-    assert "Generator beside the sun" in html
+    assert "Lifecycle cost across array sizes" in md
+    html = render(build_report(p, d, with_charts=True, with_variants=False, generator=st), "html")
+    assert "Generator beside the sun" in html and "Lifecycle cost of sun" in html
 
 
 def test_no_generator_no_section():

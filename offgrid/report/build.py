@@ -445,7 +445,7 @@ def build_report(
         _bom(ri, bom, cost),
         _costs(ri, cost),
         _reliability(ri),
-        generator_section(project, design, generator, base),  # None without a generator
+        generator_section(project, design, generator, base, with_charts),  # None: no generator
         _variants(ri),
         _cautions(ri),
         _assumptions(ri, tree),

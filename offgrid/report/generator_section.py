@@ -15,7 +15,7 @@ from offgrid.design.result import SystemDesign
 from offgrid.economics.costs import money
 from offgrid.generator.cautions import generator_cautions
 from offgrid.project.model import Project
-from offgrid.report.document import Block, Bullets, Cell, Paragraph, Section, Table
+from offgrid.report.document import Block, Bullets, Cell, Chart, Paragraph, Section, Table
 
 if TYPE_CHECKING:
     from offgrid.generator.hybrid import GeneratorSetup
@@ -136,7 +136,51 @@ def _costs(study: GeneratorStudy) -> Table:
     )
 
 
-def _tradeoff(study: GeneratorStudy) -> list[Block]:
+def _chart(study: GeneratorStudy, with_charts: bool) -> Chart:
+    m = study.mix
+    assert m is not None
+    by_bank: dict[float, list] = {}
+    for p in m.points:
+        by_bank.setdefault(round(p.battery_kwh, 2), []).append(p)
+    curves = [
+        (
+            f"battery {kwh:.1f} kWh",
+            [p.array_w / 1000 for p in sorted(pts, key=lambda q: q.array_w)],
+            [p.lcc / 1000 for p in sorted(pts, key=lambda q: q.array_w)],
+        )
+        for kwh, pts in sorted(by_bank.items())
+    ]
+    ch = m.cheapest
+    svg = ""
+    if with_charts:
+        from offgrid.report import charts
+
+        svg = charts.tradeoff_svg(
+            curves,
+            None if ch is None else (ch.array_w / 1000, ch.lcc / 1000),
+            "array power (kW)",
+            f"lifecycle cost (thousand {m.currency})",
+            title="Lifecycle cost of sun, battery and fuel",
+        )
+    text = tuple(
+        f"{label}: "
+        + ", ".join(f"{x:.1f} kW/{y:.1f}k" for x, y in list(zip(xs, ys, strict=True))[:5])
+        + (" ..." if len(xs) > 5 else "")
+        for label, xs, ys in curves
+    )
+    so = m.solar_only
+    return Chart(
+        "generator-tradeoff-chart",
+        "Lifecycle cost across array sizes",
+        svg,
+        text,
+        f"One line per battery size, with the generator; the star is the cheapest mix. "
+        f"Solar only: {so.array_w / 1000:.1f} kW, {so.battery_kwh:.1f} kWh, "
+        f"LCC {so.lcc / 1000:.1f}k {m.currency}, unmet {so.unmet_fraction:.2%}.",
+    )
+
+
+def _tradeoff(study: GeneratorStudy, with_charts: bool = False) -> list[Block]:
     m = study.mix
     if m is None:
         return []
@@ -163,6 +207,7 @@ def _tradeoff(study: GeneratorStudy) -> list[Block]:
             ("r", "r", "r", "r", "r", "l"),
             "Sun, battery and fuel: lifecycle cost of the parts that change with the mix.",
         ),
+        _chart(study, with_charts),
         Bullets(m.notes),
     ]
 
@@ -172,6 +217,7 @@ def generator_section(
     design: SystemDesign,
     study: GeneratorStudy | None = None,
     base: Path | None = None,
+    with_charts: bool = False,
 ) -> Section | None:
     """The section, or None when the project has no generator."""
     if project.generator is None:
@@ -216,7 +262,7 @@ def generator_section(
     if setup.notices:
         blocks.append(Bullets(tuple(n.message for n in setup.notices), "warning"))
     if study is not None:
-        blocks += [_run(study), _costs(study), *_tradeoff(study)]
+        blocks += [_run(study), _costs(study), *_tradeoff(study, with_charts)]
     else:
         blocks.append(
             Paragraph(
