@@ -157,7 +157,8 @@ def run_hybrid(
     lc_l = steps.critical_wh.tolist()
     lo_l = steps.other_wh.tolist()
     month = steps.month.tolist()
-    tot_pv = tot_spill = tot_draw = tot_cin = 0.0
+    tot_pv = aw * float(steps.pv_wh_per_w.sum())
+    tot_spill = tot_draw = tot_cin = 0.0
     g_load_t = g_batt_t = g_out_t = dump_t = fuel = 0.0
     unmet = unmet_c = 0.0
     shed_days = run_h = starts = below = 0
@@ -172,44 +173,48 @@ def run_hybrid(
             p = aw * pv_d[s]
             lc = lc_d[s]
             load = lc + lo_d[s]
-            avail_b = (e - floor) * ed
-            if avail_b < 0.0:
+            if load <= p:
+                rest = 0.0
+                surplus = p - load
+                short = False
                 avail_b = 0.0
-            short = load - p - avail_b > tol
+            else:
+                rest = load - p
+                surplus = 0.0
+                avail_b = (e - floor) * ed
+                if avail_b < 0.0:
+                    avail_b = 0.0
+                short = rest - avail_b > tol
             was = on
             if quiet[s]:
                 on = False
             elif cycle:
-                if on and e >= stop_e:
-                    on = False
-                if not on and (e <= start_e or short):
+                if on:
+                    if e >= stop_e:
+                        on = short  # reached the stop; runs on only if still short
+                elif e <= start_e or short:
                     on = True
             else:
                 on = short
-            direct = load if load < p else p
-            rest = load - direct
-            surplus = p - direct
-            room = (cap - e) * iec
-            if room < 0.0:
-                room = 0.0
-            pv_cin = surplus if surplus < room else room
-            if pv_cin > climit:
-                pv_cin = climit
-            g_out = 0.0
             if on:
                 run_h += 1
                 if not was:
                     starts += 1
+                room = (cap - e) * iec
+                if room < 0.0:
+                    room = 0.0
+                pv_cin = surplus if surplus < room else room
+                if pv_cin > climit:
+                    pv_cin = climit
                 g_serve = rest if rest * k <= g_w else g_w / k
                 g_load = g_serve * k
                 rest -= g_serve
-                g_left = g_w - g_load
                 left_room = room - pv_cin
                 left_c = climit - pv_cin
                 if left_c < left_room:
                     left_room = left_c
                 if cycle:
-                    want = g_left * eta_chg
+                    want = (g_w - g_load) * eta_chg
                 else:  # load following: only what the minimum loading forces out
                     extra = g_min - g_load
                     want = extra * eta_chg if extra > 0.0 else 0.0
@@ -229,26 +234,36 @@ def run_hybrid(
                 g_batt_t += g_cin
                 g_out_t += g_out
                 cin = pv_cin + g_cin
+                e += cin * ec
+                tot_cin += cin
+                tot_spill += surplus - pv_cin
+                if gw_rec is not None:
+                    gw_rec.append(g_out)
             else:
-                cin = pv_cin
-            e += cin * ec
-            tot_cin += cin
-            tot_pv += p
-            tot_spill += surplus - pv_cin
-            draw = 0.0
+                if surplus > 0.0:
+                    room = (cap - e) * iec
+                    if room < 0.0:
+                        room = 0.0
+                    pv_cin = surplus if surplus < room else room
+                    if pv_cin > climit:
+                        pv_cin = climit
+                    e += pv_cin * ec
+                    tot_cin += pv_cin
+                    tot_spill += surplus - pv_cin
+                if gw_rec is not None:
+                    gw_rec.append(0.0)
             if rest > 0.0:
                 draw = rest if rest < avail_b else avail_b
                 e -= draw / ed
                 tot_draw += draw
-            shed = rest - draw
-            if shed > 0.0:
-                served = load - shed
-                sc = lc if lc < served else served
-                unmet_c += lc - sc
-                day_shed += shed
+                shed = rest - draw
+                if shed > 0.0:
+                    served = load - shed
+                    sc = lc if lc < served else served
+                    unmet_c += lc - sc
+                    day_shed += shed
             if st_rec is not None:
                 st_rec.append(e)
-                gw_rec.append(g_out)
         unmet += day_shed
         if day_shed > tol:
             shed_days += 1
