@@ -40,12 +40,12 @@ def main() -> None:
     t_rec = best(lambda: hybrid_run(inp, w, s.inputs, aw, cap, steps=steps, solar_only=False))
     t_all = best(lambda: hybrid_run(inp, w, s.inputs, aw, cap, steps=steps))
     print(
-        f"30 years hourly, one design: balance {t_bal:.3f} s; with battery wear "
+        f"CPU time, 30 years hourly, one design: balance {t_bal:.3f} s; with battery wear "
         f"(rainflow) {t_rec:.3f} s; plus the solar-only comparison {t_all:.3f} s"
     )
     prices = {"array_per_w": 0.4, "battery_per_kwh": 300.0}
     t_mix = best(lambda: mix_tradeoff(p, d, inp, w, s, prices, steps=steps), 1)
-    print(f"20-point trade-off over 30 years: {t_mix:.2f} s")
+    print(f"CPU time, 20-point trade-off over 30 years: {t_mix:.2f} s")
 
 
 if __name__ == "__main__":
