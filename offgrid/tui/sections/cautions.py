@@ -99,6 +99,13 @@ class CautionsSection(Section):
                     text.append(f"\n  Enter: go to {self._label(where)}", style="dim")
                 options.append(Option(text))
                 self._targets.append((where, None, caution))
+            if session.project.generator is not None:  # issue 16: the generator's cautions
+                from offgrid.generator.cautions import generator_cautions
+
+                for caution in generator_cautions(session.project.generator):
+                    text = Text.assemble(("\u26a0 ", "bold"), printable(confirm_words(caution)))
+                    options.append(Option(text))
+                    self._targets.append((None, None, caution))
         ol.add_options(options)
         if ol.option_count:
             ol.highlighted = min(keep, ol.option_count - 1)
