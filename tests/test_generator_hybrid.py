@@ -112,3 +112,19 @@ def test_mix_with_a_chosen_solar_share(lodge):
     assert m.cheapest is not None and m.cheapest.solar_fraction >= share
     with pytest.raises(ValueError, match="solar-share"):
         mix_tradeoff(p, d, inp, w, s, prices, min_solar_fraction=1.5, **kw)
+
+
+def test_iso3046_method_from_the_project(lodge):
+    # the same lodge moved to 2000 m with a 40 C hottest day and the ISO 3046-1 method:
+    # alpha = 0.7253 (hand-worked in test_generator_engine.py): 6 kW x 0.7253 = 4.35 kW is
+    # below the 5.08 kW starting need (refused); 8 kW x 0.7253 = 5.80 kW serves
+    p, d = lodge[0], lodge[1]
+    g = dataclasses.replace(
+        p.generator, derate_method="iso3046", altitude_m=2000.0, hottest_temp_c=40.0
+    )
+    with pytest.raises(DesignError, match=r"4\.35 kW"):
+        generator_setup(dataclasses.replace(p, generator=g), d)
+    g = dataclasses.replace(g, rated_kw=8.0)
+    s = generator_setup(dataclasses.replace(p, generator=g), d)
+    assert s.derating.derated_kw == pytest.approx(8 * 0.7253, abs=2e-3)
+    assert "ISO 3046-1" in s.derating.reason.source

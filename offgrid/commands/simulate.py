@@ -119,4 +119,6 @@ def run(args: argparse.Namespace) -> int:
         print(json_text(rep.to_dict()))
     else:
         print(summary_text(rep))
+        if project.generator is not None:  # issue 16
+            print("\nThis project has a generator: offgrid generator simulates it beside the sun.")
     return 0
