@@ -128,3 +128,15 @@ def test_iso3046_method_from_the_project(lodge):
     s = generator_setup(dataclasses.replace(p, generator=g), d)
     assert s.derating.derated_kw == pytest.approx(8 * 0.7253, abs=2e-3)
     assert "ISO 3046-1" in s.derating.reason.source
+
+
+def test_study_without_prices_skips_the_mix_and_says_so():
+    from offgrid.generator.study import generator_study
+
+    p = load_project(LODGE)
+    p.prices = []
+    st = generator_study(p, years=1, seed=2)
+    assert st.mix is None
+    assert any("no trade-off" in n for n in st.notes)
+    assert st.chosen.startswith("the solar-only")
+    assert st.run.array_w == st.solar_only_array_w

@@ -39,7 +39,7 @@ FIELDS: tuple[tuple[str, str, str, tuple | None, str], ...] = (
         "Derate method",
         "",
         ("common_practice", "iso3046"),
-        "common_practice: the straight-line figures above; iso3046: the ISO 3046-1 power "
+        "common_practice: the straight line of the derate_* figures; iso3046: the ISO 3046-1 power "
         "adjustment of a naturally aspirated diesel",
     ),
     (
