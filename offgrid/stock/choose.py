@@ -1,0 +1,333 @@
+"""The cheapest combination of catalogue parts that meets the design.
+
+Every module x battery unit x charge controller x inverter of a catalogue is tried on a
+copy of the project with those parts in it (:func:`with_parts`), designed by the engine
+(:func:`offgrid.design.sizing.design`: the string window against the controller's PV
+voltage, the controller's current and count, the bank's units in series and parallel),
+then checked for what the design does not choose itself: the controller works at the
+system voltage, the inverter's DC voltage is the system voltage and its continuous and
+surge ratings cover the design's required figures (``inverter.required_continuous_w``,
+``inverter.required_surge_w``).
+
+An inverter enters the design only through its efficiency and idle draw, so inverters
+with the same two values share one design (the result is the same as designing each
+combination, which ``tests/test_stock_choose.py`` checks against a brute-force search).
+
+Combinations are ranked by capital (the main parts at catalogue prices in the project's
+currency, plus the installation share) and by lifecycle cost
+(:func:`offgrid.economics.costs.lifecycle_cost`).  A combination with a part that has no
+price, or a price in a currency without an exchange rate, is not ranked: it is listed
+as unpriced with what is missing (never counted as free).
+"""
+
+from __future__ import annotations
+
+import copy
+from collections import Counter
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+
+from offgrid.design.result import DesignError
+from offgrid.economics.bom import BomLine
+from offgrid.project.model import PriceItem, Project
+from offgrid.stock.catalogue import (
+    Catalogue,
+    StockPart,
+    battery_spec,
+    controller_spec,
+    module_spec,
+)
+from offgrid.stock.money import Rates, convert, project_rates
+
+MAIN_KINDS = ("modules", "batteries", "controllers", "inverters")
+
+
+@dataclass(frozen=True)
+class Combination:
+    module: StockPart
+    battery: StockPart
+    controller: StockPart
+    inverter: StockPart | None  # None: the design has no AC loads
+    system_voltage_v: int
+    module_count: int
+    battery_units: int
+    controller_count: int
+    array_power_w: float
+    bank_kwh: float
+    capital: float | None  # project currency, installation share included
+    lcc: float | None
+    missing: tuple[str, ...] = ()  # parts without a usable price, and why
+
+    def names(self) -> tuple[str, ...]:
+        inv = self.inverter.name if self.inverter else "(no inverter)"
+        return (self.module.name, self.battery.name, self.controller.name, inv)
+
+
+@dataclass(frozen=True)
+class Rejection:
+    names: tuple[str, str, str, str]
+    code: str
+    message: str
+
+
+@dataclass(frozen=True)
+class SearchResult:
+    currency: str
+    tried: int
+    designs_run: int
+    by_capital: tuple[Combination, ...]
+    by_lcc: tuple[Combination, ...]
+    unpriced: tuple[Combination, ...]
+    rejected: tuple[Rejection, ...]
+    notes: tuple[str, ...] = ()
+    reasons: dict[str, int] = field(default_factory=dict)  # code -> combinations rejected
+
+    @property
+    def best(self) -> Combination | None:
+        return self.by_capital[0] if self.by_capital else None
+
+
+def needs_inverter(project: Project) -> bool:
+    """True when any load is AC with power (the engine's ``inverter.needed``)."""
+    return any(ld.ac_dc == "ac" and ld.quantity * ld.power_w > 0 for ld in project.loads)
+
+
+def with_parts(
+    project: Project,
+    module: StockPart,
+    battery: StockPart,
+    controller: StockPart,
+    inverter: StockPart | None,
+) -> Project:
+    """A copy of the project with the catalogue parts' datasheets in its part tables."""
+    p = copy.deepcopy(project)
+    p.module = module_spec(module)
+    p.battery = battery_spec(battery)
+    p.controller = controller_spec(controller)
+    if inverter is not None:
+        p.inverter = replace(
+            p.inverter,
+            efficiency=float(inverter.spec["efficiency"]),
+            self_consumption_w=float(inverter.spec["self_consumption_w"]),
+        )
+    return p
+
+
+def price_in(part: StockPart, currency: str, *rates: Rates) -> tuple[float | None, str]:
+    """The part's price in ``currency`` and, when there is none, why."""
+    if part.price is None:
+        return None, f"{part.name}: no price in the catalogue"
+    value = convert(part.price, part.currency, currency, *rates)
+    if value is None:
+        return None, (
+            f"{part.name}: priced in {part.currency}, no exchange rate to {currency} "
+            "(add it to the catalogue's rates.csv or the project's [stock.rates])"
+        )
+    return value, ""
+
+
+def check_parts(design, controller: StockPart, inverter: StockPart | None) -> tuple[str, str]:
+    """What the engine does not check itself; ('', '') when the parts fit, else (code, why)."""
+    v = design.battery.system_voltage_v
+    volts = controller.spec["battery_voltages_v"]
+    if v not in volts:
+        return "controller-battery-voltage", (
+            f"{controller.name} works at {' '.join(map(str, volts))} V, the system is {v} V"
+        )
+    inv = design.inverter
+    if inverter is None or not inv.needed:
+        return "", ""
+    s = inverter.spec
+    if s["dc_voltage_v"] != v:
+        return "inverter-dc-voltage", (
+            f"{inverter.name} takes {s['dc_voltage_v']} V DC, the system is {v} V"
+        )
+    if s["continuous_w"] + 1e-9 < inv.required_continuous_w:
+        return "inverter-continuous", (
+            f"{inverter.name} gives {s['continuous_w']:g} W continuous, the design needs "
+            f"{inv.required_continuous_w:.0f} W (1.25 x the AC power on at once)"
+        )
+    if s["surge_w"] + 1e-9 < inv.required_surge_w:
+        return "inverter-surge", (
+            f"{inverter.name} gives {s['surge_w']:g} W surge, the design needs "
+            f"{inv.required_surge_w:.0f} W to start the largest appliance"
+        )
+    return "", ""
+
+
+def main_lines(design, combo_parts: tuple) -> list[BomLine]:
+    """The four main parts as bill-of-materials lines keyed by the catalogue names."""
+    module, battery, controller, inverter = combo_parts
+    a, b, c = design.array, design.battery, design.controller
+    lines = [
+        BomLine(f"module:{module.name}", module.name, float(a.module_count), "each", "", ""),
+        BomLine(f"battery:{battery.name}", battery.name, float(b.unit_count), "each", "", ""),
+        BomLine(f"controller:{controller.name}", controller.name, float(c.count), "each", "", ""),
+    ]
+    if inverter is not None and design.inverter.needed:
+        lines.append(BomLine(f"inverter:{inverter.name}", inverter.name, 1.0, "each", "", ""))
+    return lines
+
+
+def cost_of(project: Project, design, combo_parts: tuple, rate_sets: tuple) -> tuple:
+    """(capital, lifecycle cost, missing) of the main parts in the project's currency."""
+    from offgrid.economics.costs import lifecycle_cost
+
+    currency = project.economics.currency
+    lines = main_lines(design, combo_parts)
+    prices, missing = [], []
+    for ln, part in zip(lines, combo_parts, strict=False):
+        value, why = price_in(part, currency, *rate_sets)
+        if value is None:
+            missing.append(why)
+        else:
+            prices.append(PriceItem(ln.key, value))
+    if missing:
+        return None, None, tuple(missing)
+    priced = copy.copy(project)
+    priced.prices = prices
+    lc = lifecycle_cost(priced, design, tuple(lines))
+    return lc.capital, lc.lcc, ()
+
+
+def rate_sets_for(project: Project, catalogue: Catalogue) -> tuple[tuple[Rates, ...], list[str]]:
+    table = project.extra.get("stock", {}).get("rates", {})
+    own, problems = project_rates(table if isinstance(table, dict) else {}, project.economics.currency)
+    return (own, catalogue.rates), problems
+
+
+def search(
+    project: Project,
+    catalogue: Catalogue,
+    base: Path | None = None,
+    keep_rejected: int = 2000,
+) -> SearchResult:
+    """Every combination of the catalogue's main parts, designed, checked and ranked."""
+    from offgrid.design.sizing import design
+    from offgrid.memo import design_memo
+
+    rate_sets, notes = rate_sets_for(project, catalogue)
+    mods, bats, ctrls = (catalogue.of(k) for k in MAIN_KINDS[:3])
+    invs: tuple[StockPart | None, ...] = (
+        catalogue.of("inverters") if needs_inverter(project) else (None,)
+    )
+    if not (mods and bats and ctrls and invs):
+        empty = [k for k in MAIN_KINDS if not catalogue.of(k)]
+        notes.append("the catalogue has no " + ", ".join(empty) + ": nothing to combine")
+        return SearchResult(project.economics.currency, 0, 0, (), (), (), (), tuple(notes))
+    groups: dict[tuple, list[StockPart | None]] = {}
+    for inv in invs:
+        key = (
+            None if inv is None else (inv.spec["efficiency"], inv.spec["self_consumption_w"])
+        )
+        groups.setdefault(key, []).append(inv)
+    feasible: list[Combination] = []
+    rejected: list[Rejection] = []
+    reasons: Counter[str] = Counter()
+    tried = runs = 0
+    with design_memo():
+        for m in mods:
+            for b in bats:
+                for c in ctrls:
+                    for members in groups.values():
+                        trial = with_parts(project, m, b, c, members[0])
+                        runs += 1
+                        try:
+                            d = design(trial, base)
+                            error = None
+                        except DesignError as exc:
+                            error = exc
+                        for inv in members:
+                            tried += 1
+                            names = (m.name, b.name, c.name, inv.name if inv else "")
+                            if error is not None:
+                                code, why = error.code, str(error)
+                            else:
+                                code, why = check_parts(d, c, inv)
+                            if code:
+                                reasons[code] += 1
+                                if len(rejected) < keep_rejected:
+                                    rejected.append(Rejection(names, code, why))
+                                continue
+                            parts = (m, b, c, inv)
+                            capital, lcc, missing = cost_of(trial, d, parts, rate_sets)
+                            feasible.append(
+                                Combination(
+                                    m,
+                                    b,
+                                    c,
+                                    inv,
+                                    d.battery.system_voltage_v,
+                                    d.array.module_count,
+                                    d.battery.unit_count,
+                                    d.controller.count,
+                                    d.array.power_w,
+                                    d.battery.nominal_kwh,
+                                    capital,
+                                    lcc,
+                                    missing,
+                                )
+                            )
+    priced = [x for x in feasible if x.capital is not None]
+    unpriced = tuple(x for x in feasible if x.capital is None)
+    by_capital = tuple(sorted(priced, key=lambda x: (x.capital, x.lcc, x.names())))
+    by_lcc = tuple(sorted(priced, key=lambda x: (x.lcc, x.capital, x.names())))
+    return SearchResult(
+        project.economics.currency,
+        tried,
+        runs,
+        by_capital,
+        by_lcc,
+        unpriced,
+        tuple(rejected),
+        tuple(notes),
+        dict(reasons),
+    )
+
+
+def search_text(result: SearchResult, top: int = 5) -> str:
+    """The search as plain text: counts, the best few both ways, why the others fail."""
+    from offgrid.economics.costs import money
+    from offgrid.safetext import printable
+
+    cur = result.currency
+    n_ok = len(result.by_capital) + len(result.unpriced)
+    out = [
+        f"Combinations tried: {result.tried} ({result.designs_run} designs run); "
+        f"{n_ok} meet the design, {len(result.by_capital)} of them priced; "
+        f"{result.tried - n_ok} rejected.",
+        "Capital: the main parts (modules, battery units, controllers, inverter) at "
+        "catalogue prices in the project's currency, plus the installation share; cable, "
+        "protection and accessories are in the bill of materials.",
+    ]
+    out += [f"note: {printable(n)}" for n in result.notes]
+
+    def block(title: str, items: tuple[Combination, ...]) -> None:
+        out.append("")
+        out.append(title)
+        for i, x in enumerate(items[:top], 1):
+            inv = printable(x.inverter.name) if x.inverter else "no inverter (DC only)"
+            out.append(
+                f"{i:>2}. capital {money(x.capital, cur)}, lifecycle {money(x.lcc, cur)}: "
+                f"{x.module_count} x {printable(x.module.name)}, {x.battery_units} x "
+                f"{printable(x.battery.name)}, {x.controller_count} x "
+                f"{printable(x.controller.name)}, {inv} ({x.system_voltage_v} V, "
+                f"{x.array_power_w:.0f} W, {x.bank_kwh:.1f} kWh)"
+            )
+
+    if result.by_capital:
+        block("Cheapest by capital:", result.by_capital)
+        block("Cheapest by lifecycle cost:", result.by_lcc)
+    else:
+        out += ["", "No priced combination meets the design."]
+    if result.unpriced:
+        out += ["", f"Meet the design but cannot be priced ({len(result.unpriced)}):"]
+        for x in result.unpriced[:top]:
+            out.append("  " + "; ".join(printable(s) for s in x.missing))
+    if result.reasons:
+        out += ["", "Rejected, by reason:"]
+        for code, n in sorted(result.reasons.items(), key=lambda kv: (-kv[1], kv[0])):
+            example = next((r for r in result.rejected if r.code == code), None)
+            out.append(f"  {n:>5} {code}" + (f": e.g. {printable(example.message)}" if example else ""))
+    return "\n".join(out) + "\n"
+
