@@ -22,6 +22,7 @@ COMMANDS: tuple[str, ...] = (
     "prices",
     "variants",
     "plan",
+    "parts",
 )
 VERSION_FLAGS = ("--version", "-V")
 

@@ -128,9 +128,7 @@ KINDS: dict[str, tuple[Column, ...]] = {
     ),
     "cables": (
         Column("name", "text", True, "the part's name, unique among the cables"),
-        Column(
-            "material", "choice", True, "copper or aluminium", choices=("copper", "aluminium")
-        ),
+        Column("material", "choice", True, "copper or aluminium", choices=("copper", "aluminium")),
         Column("size", "text", True, "size as the wiring schedule writes it (6 mm2, 10 AWG)"),
     ),
     "devices": (
@@ -180,7 +178,8 @@ class StockPart:
 
     def record(self) -> dict[str, Any]:
         """The full row as plain data (what a project keeps of a part it uses)."""
-        out: dict[str, Any] = {"name": self.name, **self.spec}
+        out: dict[str, Any] = {"name": self.name}
+        out |= {k: v for k, v in self.spec.items() if v is not None}
         if self.price is not None:
             out["price"] = self.price
         if self.currency:
@@ -359,9 +358,7 @@ def read_kind_csv(kind: str, text: str, source: str) -> tuple[list[StockPart], l
             )
             continue
         seen[name] = line
-        parts.append(
-            StockPart(kind, name, values, price, currency, supplier, demo, source, line)
-        )
+        parts.append(StockPart(kind, name, values, price, currency, supplier, demo, source, line))
     return parts, problems
 
 

@@ -192,7 +192,9 @@ def cost_of(project: Project, design, combo_parts: tuple, rate_sets: tuple) -> t
 
 def rate_sets_for(project: Project, catalogue: Catalogue) -> tuple[tuple[Rates, ...], list[str]]:
     table = project.extra.get("stock", {}).get("rates", {})
-    own, problems = project_rates(table if isinstance(table, dict) else {}, project.economics.currency)
+    own, problems = project_rates(
+        table if isinstance(table, dict) else {}, project.economics.currency
+    )
     return (own, catalogue.rates), problems
 
 
@@ -217,9 +219,7 @@ def search(
         return SearchResult(project.economics.currency, 0, 0, (), (), (), (), tuple(notes))
     groups: dict[tuple, list[StockPart | None]] = {}
     for inv in invs:
-        key = (
-            None if inv is None else (inv.spec["efficiency"], inv.spec["self_consumption_w"])
-        )
+        key = None if inv is None else (inv.spec["efficiency"], inv.spec["self_consumption_w"])
         groups.setdefault(key, []).append(inv)
     feasible: list[Combination] = []
     rejected: list[Rejection] = []
@@ -328,6 +328,7 @@ def search_text(result: SearchResult, top: int = 5) -> str:
         out += ["", "Rejected, by reason:"]
         for code, n in sorted(result.reasons.items(), key=lambda kv: (-kv[1], kv[0])):
             example = next((r for r in result.rejected if r.code == code), None)
-            out.append(f"  {n:>5} {code}" + (f": e.g. {printable(example.message)}" if example else ""))
+            out.append(
+                f"  {n:>5} {code}" + (f": e.g. {printable(example.message)}" if example else "")
+            )
     return "\n".join(out) + "\n"
-
