@@ -74,8 +74,9 @@ def register(sub) -> None:
     q.add_argument("kind", choices=KIND_NAMES, metavar="KIND", help=", ".join(KIND_NAMES))
     with_example(
         q,
-        "offgrid parts template modules > modules.csv",
-        "writes the columns of the modules' file; fill in one module a row and import it.",
+        "offgrid parts template modules",
+        "prints the columns of the modules' file (redirect it to modules.csv); fill in one "
+        "module a row, then `offgrid parts import modules.csv`.",
     )
     q.set_defaults(func=run_template)
 
