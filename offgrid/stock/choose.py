@@ -5,7 +5,8 @@ copy of the project with those parts in it (:func:`with_parts`), designed by the
 (:func:`offgrid.design.sizing.design`: the string window against the controller's PV
 voltage, the controller's current and count, the bank's units in series and parallel),
 then checked for what the design does not choose itself: the controller works at the
-system voltage, the inverter's DC voltage is the system voltage and its continuous and
+system voltage and the inverter's DC voltage is the system voltage (both checked before
+designing when the project fixes the system voltage), and the inverter's continuous and
 surge ratings cover the design's required figures (``inverter.required_continuous_w``,
 ``inverter.required_surge_w``).
 
@@ -155,6 +156,24 @@ def check_parts(design, controller: StockPart, inverter: StockPart | None) -> tu
     return "", ""
 
 
+def fixed_voltage_check(
+    system_v: int, controller: StockPart, inverter: StockPart | None
+) -> tuple[str, str]:
+    """With a fixed system voltage, the voltage checks of :func:`check_parts` need no
+    design: they come first (so a part that cannot work at that voltage costs no design)."""
+    volts = controller.spec["battery_voltages_v"]
+    if system_v not in volts:
+        return "controller-battery-voltage", (
+            f"{controller.name} works at {' '.join(map(str, volts))} V, the system is {system_v} V"
+        )
+    if inverter is not None and inverter.spec["dc_voltage_v"] != system_v:
+        return "inverter-dc-voltage", (
+            f"{inverter.name} takes {inverter.spec['dc_voltage_v']} V DC, the system is "
+            f"{system_v} V"
+        )
+    return "", ""
+
+
 def main_lines(design, combo_parts: tuple) -> list[BomLine]:
     """The four main parts as bill-of-materials lines keyed by the catalogue names."""
     module, battery, controller, inverter = combo_parts
@@ -225,11 +244,32 @@ def search(
     rejected: list[Rejection] = []
     reasons: Counter[str] = Counter()
     tried = runs = 0
+    fixed = project.choices.system_voltage
+    fixed_v = None if fixed == "auto" else int(fixed)
+
+    def reject(names: tuple, code: str, why: str) -> None:
+        reasons[code] += 1
+        if len(rejected) < keep_rejected:
+            rejected.append(Rejection(names, code, why))
+
     with design_memo():
         for m in mods:
             for b in bats:
                 for c in ctrls:
-                    for members in groups.values():
+                    for group in groups.values():
+                        members = []
+                        for inv in group:
+                            names = (m.name, b.name, c.name, inv.name if inv else "")
+                            code, why = ("", "")
+                            if fixed_v is not None:
+                                code, why = fixed_voltage_check(fixed_v, c, inv)
+                            if code:
+                                tried += 1
+                                reject(names, code, why)
+                            else:
+                                members.append(inv)
+                        if not members:
+                            continue
                         trial = with_parts(project, m, b, c, members[0])
                         runs += 1
                         try:
@@ -245,9 +285,7 @@ def search(
                             else:
                                 code, why = check_parts(d, c, inv)
                             if code:
-                                reasons[code] += 1
-                                if len(rejected) < keep_rejected:
-                                    rejected.append(Rejection(names, code, why))
+                                reject(names, code, why)
                                 continue
                             parts = (m, b, c, inv)
                             capital, lcc, missing = cost_of(trial, d, parts, rate_sets)
