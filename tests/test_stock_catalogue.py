@@ -128,3 +128,13 @@ def test_rate_rows_with_problems():
     assert "line 3, rate" in str(problems[0]) and "line 4, from" in str(problems[1])
     rates, problems = project_rates({"EUR": 1.1, "XYZ": "a lot"}, "USD")
     assert rates == {("EUR", "USD"): 1.1} and "stock.rates.XYZ" in problems[0]
+
+
+def test_the_format_document_lists_every_column():
+    from offgrid.paths import CHECKOUT_ROOT
+
+    doc = (CHECKOUT_ROOT / "docs" / "parts-format.md").read_text()
+    for kind in KIND_NAMES:
+        section = doc.split(f"### `{kind}.csv`")[1].split("###")[0]
+        for col in columns_of(kind):
+            assert f"| `{col.name}` |" in section, (kind, col.name)
