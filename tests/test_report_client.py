@@ -13,11 +13,27 @@ from offgrid.project.model import PriceItem
 from offgrid.project.store import load_project
 from offgrid.report.client import client_summary_text
 
-KINDS = (
-    "module battery controller inverter fuse fuse-or-breaker disconnect cable mounting "
-    "pv-connector combiner surge-protector earthing-conductor earth-electrode battery-link "
-    "lug fuse-holder dc-board label"
-).split()
+KINDS = [
+    "module",
+    "battery",
+    "controller",
+    "inverter",
+    "fuse",
+    "fuse-or-breaker",
+    "disconnect",
+    "cable",
+    "mounting",
+    "pv-connector",
+    "combiner",
+    "surge-protector",
+    "earthing-conductor",
+    "earth-electrode",
+    "battery-link",
+    "lug",
+    "fuse-holder",
+    "dc-board",
+    "label",
+]
 
 
 @pytest.fixture(scope="module")
