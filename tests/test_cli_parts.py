@@ -106,3 +106,23 @@ def test_catalogue_folder_option(capsys, tmp_path):
     assert code == 0 and "inverters (0)" in out and "lacks the column(s)" in err
     code, _, err = run(capsys, "parts", "list", "--catalogue", str(tmp_path / "none"))
     assert code == 2 and "is not a folder" in err
+
+
+def test_bad_stock_settings_are_refused_with_the_key(capsys, tmp_path):
+    from offgrid.paths import demo_project_path
+
+    text = demo_project_path().read_text() + '\n[stock]\nmounting = "pole"\n'
+    src = tmp_path / "p.toml"
+    src.write_text(text)
+    code, _, err = run(capsys, "parts", "bom", str(src))
+    assert code == 2 and "stock.mounting: 'pole' is not one of: ground, roof" in err
+
+
+def test_names_with_terminal_escapes_are_shown_literally(capsys, tmp_path):
+    folder = tmp_path / "cat"
+    shutil.copytree(bundled_catalogue_dir(), folder)
+    mods = (folder / "modules.csv").read_text().splitlines()
+    evil = mods[1].replace("Invented 36-cell 150 W module (demo)", "Evil \x1b[31mred\x1b[0m")
+    (folder / "modules.csv").write_text("\n".join([mods[0], evil]) + "\n")
+    code, out, _ = run(capsys, "parts", "list", "--kind", "modules", "--catalogue", str(folder))
+    assert code == 0 and "\x1b" not in out and "Evil" in out

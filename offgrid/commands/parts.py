@@ -148,6 +148,15 @@ def _catalogue(args):
     return cat
 
 
+def _check_stock(project) -> None:
+    """The project's ``[stock]`` table checked; a problem fails with its key and the fix."""
+    from offgrid.stock.project_parts import stock_problems
+
+    problems = stock_problems(project)
+    if problems:
+        fail("; ".join(problems), field=problems[0].split(":", 1)[0])
+
+
 def run_list(args: argparse.Namespace) -> int:
     from offgrid.safetext import printable
     from offgrid.stock.catalogue import KIND_NAMES, PRICE_UNIT
@@ -259,6 +268,7 @@ def run_best(args: argparse.Namespace) -> int:
 
         check_writable(out, args.force, reading_path(args))
     project, base = open_project(args)
+    _check_stock(project)
     cat = _catalogue(args)
     result = search(project, cat, base)
     sys.stdout.write(search_text(result, max(1, args.top)))
@@ -304,6 +314,7 @@ def run_bom(args: argparse.Namespace) -> int:
     if out is not None:
         check_writable(out, args.force, reading_path(args))
     project, base = open_project(args)
+    _check_stock(project)
     try:
         result = design(project, base)
     except DesignError as exc:
