@@ -113,11 +113,50 @@ def test_prices_and_totals_worked_by_hand():
     rows = list(csv.reader(io.StringIO(text)))
     total_row = rows[-1]
     # 4 x 100 + 10 x 250 + 1 x 300 + 1 x 200 + 4 mounting sets x 20 = 3480
-    assert float(total_row[-1]) == pytest.approx(3480.0)
+    assert float(total_row[-2]) == pytest.approx(3480.0)
     assert total_row[1].startswith(f"INCOMPLETE total: {len(missing)} line(s)")
     lines = complete_bill_of_materials(p, d)
     priced = {"module", "battery", "controller", "inverter", "mounting"}
     assert sorted(missing) == sorted(ln.key for ln in lines if ln.kind not in priced)
     for row in rows[1:-1]:
         if row[0].split(":")[0] not in priced:
-            assert row[-2:] == ["", ""]  # blank, never 0.00
+            assert row[-3:] == ["", "", "no price"]  # blank, never 0.00
+
+
+def test_catalogue_prices_cables_and_devices_by_rating_and_voltage(demo):
+    """Demo schedule: 35 A and 70 A fuse-or-breakers, fuses of 30, 3 and 1 A at 63 V,
+    a 70 A disconnect, a DC surge protector for 127 V; cable 1.5, 4 and 10 mm2."""
+    from dataclasses import replace
+
+    from offgrid.stock.catalogue import Catalogue, read_kind_csv, template_csv
+
+    p, d = demo
+    q = replace(p, prices=[])
+    devices = """
+Fuse 30 A 80 V,fuse,30,80,4,USD,,yes
+Fuse 30 A 48 V (too low a voltage),fuse,30,48,1,USD,,yes
+Fuse 40 A 80 V (not the rating),fuse,40,80,1,USD,,yes
+Breaker 35 A 150 V,breaker,35,150,30,USD,,yes
+Disconnect 100 A 80 V,disconnect,100,80,50,EUR,,yes
+SPD 150 V,surge protector,,150,40,USD,,yes
+SPD 100 V (too low),surge protector,,100,10,USD,,yes
+"""
+    cables = "Cable 10 mm2,copper,10 mm2,5,USD,,yes\nCable 6 mm2,copper,6 mm2,3,USD,,yes\n"
+    parts = {}
+    for kind, body in (("devices", devices), ("cables", cables)):
+        got, problems = read_kind_csv(kind, template_csv(kind) + body.strip() + "\n", kind)
+        assert problems == []
+        parts[kind] = tuple(got)
+    cat = Catalogue("test", parts, (), {("EUR", "USD"): 1.2})
+    text, missing = priced_bom_csv(q, d, cat)
+    rows = {r[0]: r for r in csv.reader(io.StringIO(text))}
+    assert rows["fuse:30 A 63 V"][-3:] == ["4.00", "4.00", "catalogue: Fuse 30 A 80 V"]
+    assert rows["fuse-or-breaker:35 A 127 V"][-1] == "catalogue: Breaker 35 A 150 V"
+    assert rows["disconnect:70 A 63 V"][-3] == "60.00"  # 50 EUR x 1.2
+    assert rows["surge-protector:DC 127 V"][-3:-1] == ["40.00", "80.00"]  # 2 of them
+    assert rows["cable:copper 10 mm2"][-3] == "5.00"
+    # no 70 A breaker, no 3 A or 1 A fuse, no 1.5 or 4 mm2 cable in the catalogue
+    for key in ("fuse-or-breaker:70 A 63 V", "fuse:3 A 63 V", "cable:copper 1.5 mm2"):
+        assert key in missing and rows[key][-1] == "no price"
+    priced = sum(float(r[-2]) for k, r in rows.items() if k not in ("part", "total") and r[-2])
+    assert float(rows["total"][-2]) == pytest.approx(priced)

@@ -86,7 +86,7 @@ def test_best_take_saves_a_project_that_stands_alone(capsys, tmp_path, monkeypat
     module_row = rows[keys.index(f"module:{rec['module']['name']}")]
     # the demo catalogue's rates.csv: 1 EUR = 1.08 USD (invented rate)
     rate = {"USD": 1.0, "EUR": 1.08}[rec["module"]["currency"]]
-    assert float(module_row[-2]) == pytest.approx(round(rec["module"]["price"] * rate, 2))
+    assert float(module_row[-3]) == pytest.approx(round(rec["module"]["price"] * rate, 2))
     assert rows[-1][0] == "total" and "line(s) have no price" in err
 
 

@@ -114,6 +114,12 @@ def register(sub) -> None:
 
     q = ps.add_parser("bom", help="the complete bill of materials as CSV")
     add_project_argument(q)
+    q.add_argument(
+        "--catalogue",
+        metavar="DIR",
+        help="also price cables and protective devices the project's price list leaves "
+        "open from the catalogue in DIR",
+    )
     q.add_argument("-o", "--output", metavar="FILE", help="write to FILE (default: stdout)")
     q.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
     with_example(
@@ -319,7 +325,8 @@ def run_bom(args: argparse.Namespace) -> int:
         result = design(project, base)
     except DesignError as exc:
         design_failed(exc, "; no bill of materials was written")
-    text, missing = priced_bom_csv(project, result)
+    cat = _catalogue(args) if args.catalogue else None
+    text, missing = priced_bom_csv(project, result, cat)
     if out is None:
         sys.stdout.write(text)
     else:
