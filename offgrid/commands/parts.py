@@ -276,7 +276,13 @@ def run_best(args: argparse.Namespace) -> int:
     project, base = open_project(args)
     _check_stock(project)
     cat = _catalogue(args)
-    result = search(project, cat, base)
+    from offgrid.commands.common import design_failed
+    from offgrid.design.result import DesignError
+
+    try:
+        result = search(project, cat, base)
+    except DesignError as exc:
+        design_failed(exc, "; no combination was tried")
     sys.stdout.write(search_text(result, max(1, args.top)))
     if args.take is None:
         return 0 if result.by_capital or result.unpriced else 3
@@ -287,6 +293,8 @@ def run_best(args: argparse.Namespace) -> int:
 
 
 def _take(project, base, cat, combo, out: Path) -> None:
+    from dataclasses import replace
+
     from offgrid.design.sizing import design
     from offgrid.project.store import save_project
     from offgrid.stock.choose import rate_sets_for, with_parts
@@ -302,7 +310,7 @@ def _take(project, base, cat, combo, out: Path) -> None:
     if project.climate.ref and base is not None and not Path(project.climate.ref).is_absolute():
         ref = base / project.climate.ref
         if ref.exists() and out.resolve().parent != base.resolve():
-            taken.climate.ref = str(ref.resolve())
+            taken.climate = replace(taken.climate, ref=str(ref.resolve()))
     save_project(taken, out)
     for why in missing:
         print(f"offgrid: no price taken: {why}", file=sys.stderr)

@@ -100,8 +100,12 @@ def with_parts(
     controller: StockPart,
     inverter: StockPart | None,
 ) -> Project:
-    """A copy of the project with the catalogue parts' datasheets in its part tables."""
-    p = copy.deepcopy(project)
+    """A copy of the project with the catalogue parts' datasheets in its part tables.
+
+    A shallow copy (the engine only reads a project): the four part tables are new,
+    everything else is shared with ``project``, so a caller that changes another table
+    of the copy replaces it first."""
+    p = copy.copy(project)
     p.module = module_spec(module)
     p.battery = battery_spec(battery)
     p.controller = controller_spec(controller)
@@ -223,11 +227,18 @@ def search(
     base: Path | None = None,
     keep_rejected: int = 2000,
 ) -> SearchResult:
-    """Every combination of the catalogue's main parts, designed, checked and ranked."""
-    from offgrid.design.sizing import design
+    """Every combination of the catalogue's main parts, designed, checked and ranked.
+
+    Raises :class:`~offgrid.design.result.DesignError` when the project's climate cannot
+    be read (no combination could be designed)."""
+    from offgrid.design.sizing import design, resolve_climate
     from offgrid.memo import design_memo
+    from offgrid.project.model import ClimateChoice
 
     rate_sets, notes = rate_sets_for(project, catalogue)
+    # the climate read once (DesignError when it cannot be): every trial shares it
+    project = copy.copy(project)
+    project.climate = ClimateChoice(inline=resolve_climate(project, base))
     mods, bats, ctrls = (catalogue.of(k) for k in MAIN_KINDS[:3])
     invs: tuple[StockPart | None, ...] = (
         catalogue.of("inverters") if needs_inverter(project) else (None,)

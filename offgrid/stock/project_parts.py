@@ -177,6 +177,7 @@ def take_parts(
     unpriced (with why).
     """
     p = with_parts(project, module, battery, controller, inverter)
+    p.extra = dict(p.extra)  # the copy's own (with_parts shares the other tables)
     table = dict(stock_table(p))
     chosen = {"module": module, "battery": battery, "controller": controller}
     if inverter is not None:
