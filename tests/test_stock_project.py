@@ -43,7 +43,7 @@ def test_taken_parts_round_trip_through_the_project_file_and_price_converted():
     i = cat.find("inverters", "Invented 600 W 24 V inverter (demo)")
     project = hand_project()
     before = copy.deepcopy(project)
-    taken, missing = take_parts(project, m, b, c, i, "controller:MPPT 60 A", ({}, cat.rates))
+    taken, missing = take_parts(project, m, b, c, i, ({}, cat.rates))
     assert missing == [] and project == before  # the original is untouched
     again = loads_project(dumps_project(taken), source="test")
     assert again.extra["stock"]["inverter"]["surge_w"] == 1200.0
@@ -65,7 +65,7 @@ def test_without_a_rate_the_price_is_left_out_and_said():
     cat = load_catalogue(bundled_catalogue_dir())
     m = cat.find("modules", "Invented 120-half-cell 380 W module (demo)")
     b, c = cat.of("batteries")[0], cat.of("controllers")[1]
-    taken, missing = take_parts(hand_project(), m, b, c, None, "controller:MPPT 60 A", ({},))
+    taken, missing = take_parts(hand_project(), m, b, c, None, ({},))
     assert len(missing) == 1 and "no exchange rate to USD" in missing[0]
     assert not any(p.part == f"module:{m.name}" for p in taken.prices)
     assert "inverter" not in taken.extra["stock"]

@@ -295,17 +295,13 @@ def run_best(args: argparse.Namespace) -> int:
 def _take(project, base, cat, combo, out: Path) -> None:
     from dataclasses import replace
 
-    from offgrid.design.sizing import design
     from offgrid.project.store import save_project
-    from offgrid.stock.choose import rate_sets_for, with_parts
+    from offgrid.stock.choose import rate_sets_for
     from offgrid.stock.project_parts import take_parts
 
-    trial = with_parts(project, combo.module, combo.battery, combo.controller, combo.inverter)
-    d = design(trial, base)
-    key = f"controller:{d.controller.type.upper()} {d.controller.current_a:g} A"
     rates, _ = rate_sets_for(project, cat)
     taken, missing = take_parts(
-        project, combo.module, combo.battery, combo.controller, combo.inverter, key, rates
+        project, combo.module, combo.battery, combo.controller, combo.inverter, rates
     )
     if project.climate.ref and base is not None and not Path(project.climate.ref).is_absolute():
         ref = base / project.climate.ref

@@ -19,7 +19,7 @@ from typing import Any
 from offgrid.economics.prices import merge_prices
 from offgrid.project.model import PriceItem, Project
 from offgrid.stock.catalogue import StockPart
-from offgrid.stock.choose import price_in, with_parts
+from offgrid.stock.choose import price_in
 from offgrid.stock.money import Rates
 
 STOCK_TABLE = "stock"
@@ -161,50 +161,86 @@ def _plain(record: dict) -> dict:
     return {k: list(v) if isinstance(v, tuple) else v for k, v in record.items()}
 
 
+#: catalogue kind -> the project's part table (and ``[stock]`` key)
+ROLE = {"modules": "module", "batteries": "battery", "controllers": "controller"}
+ROLE["inverters"] = "inverter"
+
+
+def part_key(part: StockPart) -> str:
+    """The bill-of-materials key the project's design gives this catalogue part.
+
+    A catalogue controller sets ``controller.max_current_a``, so the design's rating is
+    that figure (``controller:MPPT 60 A``); the inverter is named by its own record
+    (:func:`offgrid.economics.bom.bill_of_materials`)."""
+    if part.kind == "controllers":
+        s = part.spec
+        return f"controller:{s['type'].upper()} {float(s['max_current_a']):g} A"
+    return f"{ROLE[part.kind]}:{part.name}"
+
+
+def put_part(project: Project, part: StockPart, rate_sets: tuple[Rates, ...]) -> str:
+    """Put one catalogue module, battery unit, controller or inverter into ``project`` in
+    place: its datasheet into the part table, its whole row into ``[stock.<part>]``, its
+    price (in the project's currency) into ``[[prices]]``.  Returns why no price was
+    taken ('' when one was)."""
+    from dataclasses import replace
+
+    from offgrid.stock.catalogue import battery_spec, controller_spec, module_spec
+
+    role = ROLE[part.kind]
+    if role == "module":
+        project.module = module_spec(part)
+    elif role == "battery":
+        project.battery = battery_spec(part)
+    elif role == "controller":
+        project.controller = controller_spec(part)
+    else:
+        project.inverter = replace(
+            project.inverter,
+            efficiency=float(part.spec["efficiency"]),
+            self_consumption_w=float(part.spec["self_consumption_w"]),
+        )
+    table = dict(stock_table(project))
+    table[role] = _plain(part.record())
+    project.extra = {**project.extra, STOCK_TABLE: table}
+    cur = project.economics.currency
+    value, why = price_in(part, cur, *rate_sets)
+    if value is None:
+        return why
+    note = f"catalogue: {part.name}"
+    if part.currency.upper() != cur.upper():
+        note += f", {part.price:g} {part.currency} converted"
+    if part.supplier:
+        note += f"; {part.supplier}"
+    project.prices = merge_prices(
+        project.prices, [PriceItem(part_key(part), round(value, 2), note)]
+    )
+    return ""
+
+
 def take_parts(
     project: Project,
     module: StockPart,
     battery: StockPart,
     controller: StockPart,
     inverter: StockPart | None,
-    controller_key: str,
     rate_sets: tuple[Rates, ...],
 ) -> tuple[Project, list[str]]:
-    """A copy of ``project`` with the parts taken in (datasheets, records, prices).
+    """A copy of ``project`` with the parts taken in (:func:`put_part` for each; without an
+    inverter any earlier ``[stock.inverter]`` is dropped).  Returns the project and the
+    parts left unpriced (with why)."""
+    import copy
 
-    ``controller_key`` is the bill-of-materials key of the controller as the design
-    names it (``controller:MPPT 60 A``).  Returns the project and the parts left
-    unpriced (with why).
-    """
-    p = with_parts(project, module, battery, controller, inverter)
-    p.extra = dict(p.extra)  # the copy's own (with_parts shares the other tables)
-    table = dict(stock_table(p))
-    chosen = {"module": module, "battery": battery, "controller": controller}
-    if inverter is not None:
-        chosen["inverter"] = inverter
-    else:
-        table.pop("inverter", None)
-    keys = {
-        "module": f"module:{module.name}",
-        "battery": f"battery:{battery.name}",
-        "controller": controller_key,
-        "inverter": f"inverter:{inverter.name}" if inverter else "",
-    }
-    new: list[PriceItem] = []
-    missing: list[str] = []
-    cur = p.economics.currency
-    for role, part in chosen.items():
-        table[role] = _plain(part.record())
-        value, why = price_in(part, cur, *rate_sets)
-        if value is None:
-            missing.append(why)
-            continue
-        note = f"catalogue: {part.name}"
-        if part.currency.upper() != cur.upper():
-            note += f", {part.price:g} {part.currency} converted"
-        if part.supplier:
-            note += f"; {part.supplier}"
-        new.append(PriceItem(keys[role], round(value, 2), note))
-    p.extra[STOCK_TABLE] = table
-    p.prices = merge_prices(p.prices, new)
+    p = copy.deepcopy(project)
+    missing = []
+    for part in (module, battery, controller, inverter):
+        if part is not None:
+            why = put_part(p, part, rate_sets)
+            if why:
+                missing.append(why)
+    if inverter is None and "inverter" in stock_table(p):
+        p.extra = {
+            **p.extra,
+            STOCK_TABLE: {k: v for k, v in stock_table(p).items() if k != "inverter"},
+        }
     return p, missing
