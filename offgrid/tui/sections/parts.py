@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from textual.app import ComposeResult
+from textual.binding import Binding
 from textual.widgets import DataTable
 
 from offgrid.tui.fields import MODULE_FIELDS, PARTS_FIELDS, Field
@@ -14,9 +15,20 @@ from offgrid.tui.session import EditRejected, Session, get_path, set_path
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 
+#: The first word of a field's path -> the catalogue kind the picker lists for it.
+CATALOGUE_KIND = {
+    "module": "modules",
+    "battery": "batteries",
+    "controller": "controllers",
+    "inverter": "inverters",
+}
+
 
 class PartsSection(Section):
     section_id = "parts"
+    BINDINGS = [
+        Binding("c", "from_catalogue", "From catalogue", show=False, id="parts.catalogue"),
+    ]
     help_text = (
         "The parts the system is built from and the design choices. Enter edits the "
         "field under the cursor; the module's datasheet is edited as a whole, because "
@@ -95,6 +107,61 @@ class PartsSection(Section):
                 "Module datasheet (values at STC)", MODULE_FIELDS, project, apply, focus=field.path
             )
         )
+
+    def action_from_catalogue(self) -> None:
+        """Pick the part under the cursor (module, battery, controller, inverter) from the
+        parts catalogue; the project keeps its whole row and price (undo takes it back)."""
+        from offgrid.economics.costs import money
+        from offgrid.stock.catalogue import default_catalogue_dir, load_catalogue
+        from offgrid.stock.choose import price_in, rate_sets_for
+        from offgrid.stock.project_parts import put_part
+
+        field = self.fields.current_field()
+        kind = CATALOGUE_KIND.get(field.path.split(".")[0]) if field else None
+        if kind is None:
+            self.app.notify(
+                "Put the cursor on a module, battery, controller or inverter field first.",
+                markup=False,
+            )
+            return
+        folder, demo = default_catalogue_dir()
+        cat = load_catalogue(folder)
+        parts = cat.of(kind)
+        if cat.problems:
+            self.app.notify(
+                f"{len(cat.problems)} catalogue row(s) skipped; `offgrid parts list` "
+                "shows them with their lines.",
+                severity="warning",
+                markup=False,
+            )
+        if not parts:
+            self.app.notify(f"The catalogue has no {kind}.", markup=False)
+            return
+        project = self.session.project
+        rates, _ = rate_sets_for(project, cat)
+        cur = project.economics.currency
+        options = []
+        for part in parts:
+            value, _why = price_in(part, cur, *rates)
+            price = money(value, cur) if value is not None else "no price"
+            options.append((part.name, f"{part.name}  ({price})"))
+
+        def chosen(name) -> None:
+            part = cat.find(kind, name) if name is not None else None
+            if part is None:
+                return
+            said: list[str] = []
+            try:
+                self.session.change(lambda p: said.append(put_part(p, part, rates)))
+            except EditRejected as exc:
+                self.app.notify(self.problems_text(exc), severity="error", markup=False)
+                return
+            self.work.changed(f"{part.name} from the catalogue")
+            if said and said[0]:
+                self.app.notify(said[0], severity="warning", markup=False)
+
+        note = "Invented demonstration catalogue" if demo else f"Catalogue: {folder}"
+        self.app.push_screen(ChoiceDialog(f"Catalogue {kind}", options, note=note), chosen)
 
     def figure(self) -> Figure | None:
         field = self.fields.current_field()
