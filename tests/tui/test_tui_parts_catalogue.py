@@ -43,3 +43,30 @@ async def test_the_picker_needs_a_part_field(state):
         await pilot.pause()
         assert not isinstance(app.screen, ChoiceDialog)
         assert "stock" not in app.session.project.extra
+
+
+async def test_cheapest_combination_offered_and_taken(state):
+    from offgrid.paths import demo_project_path
+    from offgrid.project.store import load_project
+    from offgrid.stock.catalogue import bundled_catalogue_dir, load_catalogue
+    from offgrid.stock.choose import search
+
+    expected = search(
+        load_project(demo_project_path()),
+        load_catalogue(bundled_catalogue_dir()),
+        demo_project_path().parent,
+    ).best
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        app.work.action_goto("parts")
+        await pilot.pause()
+        await pilot.press("b")
+        await wait_for(pilot, lambda: isinstance(app.screen, ChoiceDialog), timeout_s=60)
+        assert "tried" in app.screen.note and "meet the design" in app.screen.note
+        await pilot.press("enter")  # the cheapest
+        await wait_for(pilot, lambda: "stock" in app.session.project.extra)
+        p = app.session.project
+        assert p.module.name == expected.module.name
+        assert p.extra["stock"]["inverter"]["name"] == expected.inverter.name
+        assert app.session.design.array.module_count == expected.module_count

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from textual import work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable
@@ -28,6 +29,7 @@ class PartsSection(Section):
     section_id = "parts"
     BINDINGS = [
         Binding("c", "from_catalogue", "From catalogue", show=False, id="parts.catalogue"),
+        Binding("b", "cheapest", "Cheapest parts", show=False, id="parts.cheapest"),
     ]
     help_text = (
         "The parts the system is built from and the design choices. Enter edits the "
@@ -162,6 +164,78 @@ class PartsSection(Section):
 
         note = "Invented demonstration catalogue" if demo else f"Catalogue: {folder}"
         self.app.push_screen(ChoiceDialog(f"Catalogue {kind}", options, note=note), chosen)
+
+    def action_cheapest(self) -> None:
+        """Try every combination of the catalogue's parts (off the UI thread) and offer the
+        cheapest few by capital; Enter takes one into the project."""
+        import copy
+
+        self.app.notify("Trying the catalogue's combinations...", timeout=3, markup=False)
+        self._search(copy.deepcopy(self.session.project), self.session.base_dir)
+
+    @work(thread=True, exclusive=True, group="parts-search")
+    def _search(self, project, base) -> None:
+        from offgrid.design.result import DesignError
+        from offgrid.stock.catalogue import default_catalogue_dir, load_catalogue
+        from offgrid.stock.choose import search
+
+        try:
+            cat = load_catalogue(default_catalogue_dir()[0])
+            result = search(project, cat, base)
+        except DesignError as exc:
+            self.app.call_from_thread(
+                self.app.notify, f"Cannot try combinations: {exc}", severity="error", markup=False
+            )
+            return
+        self.app.call_from_thread(self._found, project, cat, result)
+
+    def _found(self, project, cat, result) -> None:
+        from offgrid.economics.costs import money
+        from offgrid.stock.choose import rate_sets_for
+        from offgrid.stock.project_parts import put_part
+
+        n_ok = len(result.by_capital) + len(result.unpriced)
+        reasons = ", ".join(
+            f"{n} {code}" for code, n in sorted(result.reasons.items(), key=lambda kv: -kv[1])[:3]
+        )
+        note = (
+            f"{result.tried} tried, {n_ok} meet the design, {result.tried - n_ok} rejected"
+            + (f" ({reasons})" if reasons else "")
+            + ". Capital / lifecycle cost of the main parts."
+        )
+        if not result.by_capital:
+            self.app.notify("No priced combination meets the design. " + note, markup=False)
+            return
+        cur = result.currency
+        options = []
+        for i, x in enumerate(result.by_capital[:5]):
+            inv = x.inverter.name if x.inverter else "no inverter"
+            label = (
+                f"{money(x.capital, cur)} / {money(x.lcc, cur)}: {x.module_count} x "
+                f"{x.module.name}, {x.battery_units} x {x.battery.name}, "
+                f"{x.controller_count} x {x.controller.name}, {inv}"
+            )
+            options.append((i, label))
+        rates, _ = rate_sets_for(project, cat)
+
+        def chosen(index) -> None:
+            if index is None:
+                return
+            x = result.by_capital[index]
+            parts = [p for p in (x.module, x.battery, x.controller, x.inverter) if p]
+
+            def put(p) -> None:
+                for part in parts:
+                    put_part(p, part, rates)
+
+            try:
+                self.session.change(put)
+            except EditRejected as exc:
+                self.app.notify(self.problems_text(exc), severity="error", markup=False)
+                return
+            self.work.changed(f"Catalogue combination {index + 1} taken")
+
+        self.app.push_screen(ChoiceDialog("Cheapest combinations", options, note=note), chosen)
 
     def figure(self) -> Figure | None:
         field = self.fields.current_field()
