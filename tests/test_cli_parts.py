@@ -126,3 +126,16 @@ def test_names_with_terminal_escapes_are_shown_literally(capsys, tmp_path):
     (folder / "modules.csv").write_text("\n".join([mods[0], evil]) + "\n")
     code, out, _ = run(capsys, "parts", "list", "--kind", "modules", "--catalogue", str(folder))
     assert code == 0 and "\x1b" not in out and "Evil" in out
+
+
+def test_best_as_json_counts_add_up(capsys):
+    import json
+
+    code, out, _ = run(capsys, "parts", "best", "--demo", "--json", "--top", "3")
+    assert code == 0
+    data = json.loads(out)
+    rejected = sum(v["count"] for v in data["rejected"].values())
+    assert data["tried"] == data["meet_design"] + rejected == 4 * 5 * 4 * 4
+    caps = [x["capital"] for x in data["by_capital"]]
+    assert caps == sorted(caps) and len(caps) == 3
+    assert all(v["example"] for v in data["rejected"].values())

@@ -96,6 +96,7 @@ def register(sub) -> None:
     add_project_argument(q)
     _catalogue_arg(q)
     q.add_argument("--top", type=int, default=5, metavar="N", help="show the best N (5)")
+    q.add_argument("--json", action="store_true", help="print the search as JSON")
     q.add_argument(
         "--take",
         type=int,
@@ -283,7 +284,13 @@ def run_best(args: argparse.Namespace) -> int:
         result = search(project, cat, base)
     except DesignError as exc:
         design_failed(exc, "; no combination was tried")
-    sys.stdout.write(search_text(result, max(1, args.top)))
+    if args.json:
+        from offgrid.commands.common import json_text
+        from offgrid.stock.choose import search_json
+
+        print(json_text(search_json(result, max(1, args.top))))
+    else:
+        sys.stdout.write(search_text(result, max(1, args.top)))
     if args.take is None:
         return 0 if result.by_capital or result.unpriced else 3
     if not 1 <= args.take <= len(result.by_capital):

@@ -381,3 +381,43 @@ def search_text(result: SearchResult, top: int = 5) -> str:
                 f"  {n:>5} {code}" + (f": e.g. {printable(example.message)}" if example else "")
             )
     return "\n".join(out) + "\n"
+
+
+def search_json(result: SearchResult, top: int = 5) -> dict:
+    """The search as plain data (counts, the best few both ways, rejections by reason)."""
+
+    def one(x: Combination) -> dict:
+        return {
+            "module": x.module.name,
+            "battery": x.battery.name,
+            "controller": x.controller.name,
+            "inverter": x.inverter.name if x.inverter else None,
+            "system_voltage_v": x.system_voltage_v,
+            "module_count": x.module_count,
+            "battery_units": x.battery_units,
+            "controller_count": x.controller_count,
+            "array_power_w": x.array_power_w,
+            "bank_kwh": x.bank_kwh,
+            "capital": x.capital,
+            "lcc": x.lcc,
+            "missing": list(x.missing),
+        }
+
+    examples = {}
+    for r in result.rejected:
+        examples.setdefault(r.code, r.message)
+    return {
+        "currency": result.currency,
+        "tried": result.tried,
+        "designs_run": result.designs_run,
+        "meet_design": len(result.by_capital) + len(result.unpriced),
+        "priced": len(result.by_capital),
+        "by_capital": [one(x) for x in result.by_capital[:top]],
+        "by_lcc": [one(x) for x in result.by_lcc[:top]],
+        "unpriced": [one(x) for x in result.unpriced[:top]],
+        "rejected": {
+            code: {"count": n, "example": examples.get(code, "")}
+            for code, n in sorted(result.reasons.items())
+        },
+        "notes": list(result.notes),
+    }
