@@ -5,9 +5,14 @@ All parts here are invented for the tests (the bundled catalogue is marked inven
 
 from __future__ import annotations
 
+import csv
+import io
+import math
 from dataclasses import fields
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from offgrid.project.model import BatterySpec, ModuleSpec
 from offgrid.stock.catalogue import (
@@ -138,3 +143,35 @@ def test_the_format_document_lists_every_column():
         section = doc.split(f"### `{kind}.csv`")[1].split("###")[0]
         for col in columns_of(kind):
             assert f"| `{col.name}` |" in section, (kind, col.name)
+
+
+# ----------------------------------------------------------------------------- fuzz
+
+NASTY = st.one_of(
+    st.sampled_from(["", "nan", "inf", "-1e400", "1,500", "=cmd|' /C calc'!A0", "\x1b[31m"]),
+    st.text(max_size=12),
+    st.floats(allow_nan=True, allow_infinity=True).map(str),
+)
+
+
+@settings(derandomize=True, max_examples=150, deadline=None, database=None)
+@given(kind=st.sampled_from(KIND_NAMES), column=st.integers(0, 20), cell=NASTY)
+def test_one_bad_cell_never_crashes_nor_lets_a_non_finite_number_in(kind, column, cell):
+    """One cell of the first row replaced: the other rows are all kept; the first is kept
+    with finite values or reported on its line; nothing raises."""
+    cat = load_catalogue(bundled_catalogue_dir())
+    head, first, *rest = kind_csv(kind, list(cat.of(kind))).splitlines()
+    cells = next(csv.reader([first]))
+    cells[column % len(cells)] = cell
+    buf = io.StringIO()
+    csv.writer(buf, lineterminator="\n").writerow(cells)
+    text = "\n".join([head, buf.getvalue().rstrip("\n"), *rest]) + "\n"
+    parts, problems = read_kind_csv(kind, text, "f")
+    kept_first = any(p.line == 2 for p in parts)
+    said_first = any(p.line is not None and p.line >= 2 for p in problems)
+    assert kept_first or said_first
+    for part in parts:
+        for value in part.spec.values():
+            if isinstance(value, float):
+                assert math.isfinite(value)
+        assert part.price is None or (math.isfinite(part.price) and part.price > 0)
