@@ -139,3 +139,15 @@ def test_best_as_json_counts_add_up(capsys):
     caps = [x["capital"] for x in data["by_capital"]]
     assert caps == sorted(caps) and len(caps) == 3
     assert all(v["example"] for v in data["rejected"].values())
+
+
+def test_import_never_drops_rows_your_catalogue_cannot_read(capsys, tmp_path):
+    user_catalogue_dir().mkdir(parents=True)
+    mine = user_catalogue_dir() / "modules.csv"
+    head = template_csv("modules")
+    mine.write_text(head + "Half typed,300,,,,,,,,,,,,,,\n")
+    src = tmp_path / "modules.csv"
+    src.write_text(head + "Shop module,300,32.5,9.23,39.8,9.75,0.05,-0.3,-0.4,60,1.63,45,,,,\n")
+    code, _, err = run(capsys, "parts", "import", str(src))
+    assert code == 2 and "fix them first" in err and "line 2, vmp_v" in err
+    assert "Half typed" in mine.read_text()

@@ -69,3 +69,12 @@ def test_without_a_rate_the_price_is_left_out_and_said():
     assert len(missing) == 1 and "no exchange rate to USD" in missing[0]
     assert not any(p.part == f"module:{m.name}" for p in taken.prices)
     assert "inverter" not in taken.extra["stock"]
+
+
+def test_a_hand_edited_inverter_record_is_refused_not_crashed_on():
+    p = hand_project()
+    p.extra["stock"] = {"inverter": {"name": "x", "continuous_w": "lots", "surge_w": 1}}
+    assert stock_problems(p)[0].startswith("stock.inverter: needs")
+    d = design(p)
+    inv = next(ln for ln in bill_of_materials(p, d) if ln.kind == "inverter")
+    assert inv.key == f"inverter:{d.inverter.continuous_w:g} W"  # the design's own line

@@ -242,7 +242,17 @@ def run_import(args: argparse.Namespace) -> int:
     for problem in problems:
         print(f"offgrid: {problem}", file=sys.stderr)
     folder = user_catalogue_dir()
-    have = list(load_catalogue(folder).of(kind))
+    mine = load_catalogue(folder)
+    target = str(folder / f"{kind}.csv")
+    if any(p.source == target for p in mine.problems):
+        for problem in mine.problems:
+            if problem.source == target:
+                print(f"offgrid: {problem}", file=sys.stderr)
+        fail(
+            f"your catalogue's {printable(target)} has rows with problems (above): fix them "
+            "first, so that adding to it loses none of them; nothing was changed"
+        )
+    have = list(mine.of(kind))
     names = {p.name for p in have}
     added = []
     for part in new:

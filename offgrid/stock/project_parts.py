@@ -13,6 +13,7 @@ The project inputs this adds are declared once, in :data:`STOCK_INPUTS`; they li
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from typing import Any
 
@@ -130,6 +131,12 @@ def stock_problems(project: Project) -> list[str]:
     m = t.get("mounting", "ground")
     if m not in MOUNTINGS:
         out.append(f"stock.mounting: '{m}' is not one of: {', '.join(MOUNTINGS)}")
+    inv = t.get("inverter")
+    if inv is not None and stock_inverter(project) is None:
+        out.append(
+            "stock.inverter: needs name, continuous_w, surge_w and dc_voltage_v as numbers; "
+            "take the inverter again from the catalogue (`offgrid parts best --take`)"
+        )
     a = t.get("cable_allowance_pct", DEFAULT_CABLE_ALLOWANCE_PCT)
     spec = INPUT_OF["stock.cable_allowance_pct"]
     if isinstance(a, bool) or not isinstance(a, int | float) or not spec.low <= a <= spec.high:
@@ -151,10 +158,13 @@ def cable_allowance_pct(project: Project) -> float:
 def stock_inverter(project: Project) -> dict | None:
     """The catalogue inverter the project took, when its record is whole."""
     inv = stock_table(project).get("inverter")
-    need = ("name", "continuous_w", "surge_w", "dc_voltage_v")
-    if isinstance(inv, dict) and all(k in inv for k in need):
-        return inv
-    return None
+    if not isinstance(inv, dict) or not isinstance(inv.get("name"), str):
+        return None
+    for key in ("continuous_w", "surge_w", "dc_voltage_v"):
+        v = inv.get(key)
+        if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+            return None
+    return inv
 
 
 def _plain(record: dict) -> dict:
