@@ -69,11 +69,15 @@ def price_usd(part) -> float | None:
 
 
 def brute_force(project, cat):
-    """Every combination designed on its own, checked and priced here, independently."""
+    """Every combination designed on its own, checked and priced here, independently;
+    an "auto" system voltage tried at 12, 24 and 48 V."""
     install = 1 + project.economics.installation_pct / 100.0
     ok, rejected = [], {}
-    for m, b, c, i in itertools.product(*(cat.of(k) for k in cat.parts)):
+    fixed = project.choices.system_voltage
+    volts = (12, 24, 48) if fixed == "auto" else (fixed,)
+    for v, m, b, c, i in itertools.product(volts, *(cat.of(k) for k in cat.parts)):
         p = copy.deepcopy(project)
+        p.choices.system_voltage = v
         p.module = ModuleSpec(name=m.name, **m.spec)
         p.battery = BatterySpec(name=b.name, **b.spec)
         s = c.spec
@@ -85,8 +89,7 @@ def brute_force(project, cat):
             efficiency=i.spec["efficiency"],
             self_consumption_w=i.spec["self_consumption_w"],
         )
-        v = project.choices.system_voltage  # fixed: the voltage checks need no design
-        code = (
+        code = (  # at a fixed voltage the voltage checks need no design: they come first
             "controller-battery-voltage"
             if v not in s["battery_voltages_v"]
             else "inverter-dc-voltage"
@@ -118,11 +121,11 @@ def brute_force(project, cat):
             continue
         prices = [price_usd(x) for x in (m, b, c, i)]
         if None in prices:
-            ok.append(((m.name, b.name, c.name, i.name), None))
+            ok.append(((m.name, b.name, c.name, i.name, v), None))
             continue
         qty = (d.array.module_count, d.battery.unit_count, d.controller.count, 1)
         capital = sum(q * pr for q, pr in zip(qty, prices, strict=True)) * install
-        ok.append(((m.name, b.name, c.name, i.name), capital))
+        ok.append(((m.name, b.name, c.name, i.name, v), capital))
     return ok, rejected
 
 
@@ -140,9 +143,11 @@ def test_search_equals_brute_force():
     assert result.designs_run == 3 * 3 * 3 * 3
     assert result.reasons == rejected
     priced = sorted((c for c in ok if c[1] is not None), key=lambda c: (c[1], c[0]))
-    assert [x.names() for x in result.by_capital] == [n for n, _ in priced]
+    assert [(*x.names(), x.system_voltage_v) for x in result.by_capital] == [n for n, _ in priced]
     assert [x.capital for x in result.by_capital] == pytest.approx([c for _, c in priced])
-    assert {x.names() for x in result.unpriced} == {n for n, c in ok if c is None}
+    assert {(*x.names(), x.system_voltage_v) for x in result.unpriced} == {
+        n for n, c in ok if c is None
+    }
     assert len(result.by_capital) + len(result.unpriced) + sum(rejected.values()) == result.tried
     lccs = [x.lcc for x in result.by_lcc]
     assert lccs == sorted(lccs) and {x.names() for x in result.by_lcc} == {
@@ -227,3 +232,24 @@ def test_dc_only_project_needs_no_inverter():
     assert b.capital == pytest.approx(
         b.module_count * 100 + b.battery_units * 280 + b.controller_count * 320
     )
+
+
+@pytest.mark.slow
+def test_search_at_auto_voltage_equals_brute_force_over_the_three_voltages():
+    project = hand_project()
+    project.choices.system_voltage = "auto"
+    lines = {
+        "modules": MODULES.strip().splitlines()[:2],
+        "batteries": [BATTERIES.strip().splitlines()[0], BATTERIES.strip().splitlines()[2]],
+        "controllers": CONTROLLERS.strip().splitlines()[:2],
+        "inverters": [INVERTERS.strip().splitlines()[k] for k in (0, 4)],
+    }
+    cat = catalogue(**{k: "\n".join(v) for k, v in lines.items()})
+    result = search(project, cat)
+    ok, rejected = brute_force(project, cat)
+    assert result.tried == 3 * 2 * 2 * 2 * 2
+    assert result.reasons == rejected
+    priced = sorted((c for c in ok if c[1] is not None), key=lambda c: (c[1], c[0]))
+    assert [(*x.names(), x.system_voltage_v) for x in result.by_capital] == [n for n, _ in priced]
+    # both a 24 V and a 48 V kit are found (the engine's own "auto" picks one voltage)
+    assert {x.system_voltage_v for x in result.by_capital} >= {24, 48}

@@ -318,7 +318,13 @@ def _take(project, base, cat, combo, out: Path) -> None:
 
     rates, _ = rate_sets_for(project, cat)
     taken, missing = take_parts(
-        project, combo.module, combo.battery, combo.controller, combo.inverter, rates
+        project,
+        combo.module,
+        combo.battery,
+        combo.controller,
+        combo.inverter,
+        rates,
+        combo.system_voltage_v,
     )
     if project.climate.ref and base is not None and not Path(project.climate.ref).is_absolute():
         ref = base / project.climate.ref

@@ -6,7 +6,8 @@ copy of the project with those parts in it (:func:`with_parts`), designed by the
 voltage, the controller's current and count, the bank's units in series and parallel),
 then checked for what the design does not choose itself: the controller works at the
 system voltage and the inverter's DC voltage is the system voltage (both checked before
-designing when the project fixes the system voltage), and the inverter's continuous and
+designing; a project whose system voltage is "auto" is tried at 12, 24 and 48 V, each
+fixed in turn), and the inverter's continuous and
 surge ratings cover the design's required figures (``inverter.required_continuous_w``,
 ``inverter.required_surge_w``).
 
@@ -24,6 +25,7 @@ as unpriced with what is missing (never counted as free).
 from __future__ import annotations
 
 import copy
+import itertools
 from collections import Counter
 from dataclasses import dataclass, field, replace
 from pathlib import Path
@@ -32,6 +34,7 @@ from offgrid.design.result import DesignError
 from offgrid.economics.bom import BomLine
 from offgrid.project.model import PriceItem, Project
 from offgrid.stock.catalogue import (
+    SYSTEM_VOLTAGES_V,
     Catalogue,
     StockPart,
     battery_spec,
@@ -160,6 +163,13 @@ def check_parts(design, controller: StockPart, inverter: StockPart | None) -> tu
     return "", ""
 
 
+def replace_choices(project: Project, system_voltage_v: int) -> Project:
+    """A shallow copy of the project at a fixed system voltage."""
+    p = copy.copy(project)
+    p.choices = replace(project.choices, system_voltage=int(system_voltage_v))
+    return p
+
+
 def fixed_voltage_check(
     system_v: int, controller: StockPart, inverter: StockPart | None
 ) -> tuple[str, str]:
@@ -256,7 +266,15 @@ def search(
     reasons: Counter[str] = Counter()
     tried = runs = 0
     fixed = project.choices.system_voltage
-    fixed_v = None if fixed == "auto" else int(fixed)
+    # "auto": each system voltage is tried as a fixed one (the engine's own choice would
+    # hide the parts that work at another voltage)
+    volts = SYSTEM_VOLTAGES_V if fixed == "auto" else (int(fixed),)
+    trials = [(v, replace_choices(project, v)) for v in volts]
+    if fixed == "auto":
+        notes.append(
+            "system voltage 'auto': every combination tried at 12, 24 and 48 V; taking one "
+            "fixes the project's system voltage at its own"
+        )
 
     def reject(names: tuple, code: str, why: str) -> None:
         reasons[code] += 1
@@ -264,63 +282,62 @@ def search(
             rejected.append(Rejection(names, code, why))
 
     with design_memo():
-        for m in mods:
-            for b in bats:
-                for c in ctrls:
-                    for group in groups.values():
-                        members = []
-                        for inv in group:
-                            names = (m.name, b.name, c.name, inv.name if inv else "")
-                            code, why = ("", "")
-                            if fixed_v is not None:
-                                code, why = fixed_voltage_check(fixed_v, c, inv)
-                            if code:
-                                tried += 1
-                                reject(names, code, why)
-                            else:
-                                members.append(inv)
-                        if not members:
-                            continue
-                        trial = with_parts(project, m, b, c, members[0])
-                        runs += 1
-                        try:
-                            d = design(trial, base)
-                            error = None
-                        except DesignError as exc:
-                            error = exc
-                        for inv in members:
+        for v, proj in trials:
+            for m, b, c in itertools.product(mods, bats, ctrls):
+                for group in groups.values():
+                    members = []
+                    for inv in group:
+                        names = (m.name, b.name, c.name, inv.name if inv else "")
+                        code, why = fixed_voltage_check(v, c, inv) if v else ("", "")
+                        if code:
                             tried += 1
-                            names = (m.name, b.name, c.name, inv.name if inv else "")
-                            if error is not None:
-                                code, why = error.code, str(error)
-                            else:
-                                code, why = check_parts(d, c, inv)
-                            if code:
-                                reject(names, code, why)
-                                continue
-                            parts = (m, b, c, inv)
-                            capital, lcc, missing = cost_of(trial, d, parts, rate_sets)
-                            feasible.append(
-                                Combination(
-                                    m,
-                                    b,
-                                    c,
-                                    inv,
-                                    d.battery.system_voltage_v,
-                                    d.array.module_count,
-                                    d.battery.unit_count,
-                                    d.controller.count,
-                                    d.array.power_w,
-                                    d.battery.nominal_kwh,
-                                    capital,
-                                    lcc,
-                                    missing,
-                                )
+                            reject(names, code, why)
+                        else:
+                            members.append(inv)
+                    if not members:
+                        continue
+                    trial = with_parts(proj, m, b, c, members[0])
+                    runs += 1
+                    try:
+                        d = design(trial, base)
+                        error = None
+                    except DesignError as exc:
+                        error = exc
+                    for inv in members:
+                        tried += 1
+                        names = (m.name, b.name, c.name, inv.name if inv else "")
+                        if error is not None:
+                            code, why = error.code, str(error)
+                        else:
+                            code, why = check_parts(d, c, inv)
+                        if code:
+                            reject(names, code, why)
+                            continue
+                        parts = (m, b, c, inv)
+                        capital, lcc, missing = cost_of(trial, d, parts, rate_sets)
+                        feasible.append(
+                            Combination(
+                                m,
+                                b,
+                                c,
+                                inv,
+                                d.battery.system_voltage_v,
+                                d.array.module_count,
+                                d.battery.unit_count,
+                                d.controller.count,
+                                d.array.power_w,
+                                d.battery.nominal_kwh,
+                                capital,
+                                lcc,
+                                missing,
                             )
+                        )
     priced = [x for x in feasible if x.capital is not None]
     unpriced = tuple(x for x in feasible if x.capital is None)
-    by_capital = tuple(sorted(priced, key=lambda x: (x.capital, x.lcc, x.names())))
-    by_lcc = tuple(sorted(priced, key=lambda x: (x.lcc, x.capital, x.names())))
+    by_capital = tuple(
+        sorted(priced, key=lambda x: (x.capital, x.lcc, x.names(), x.system_voltage_v))
+    )
+    by_lcc = tuple(sorted(priced, key=lambda x: (x.lcc, x.capital, x.names(), x.system_voltage_v)))
     return SearchResult(
         project.economics.currency,
         tried,

@@ -235,13 +235,18 @@ def take_parts(
     controller: StockPart,
     inverter: StockPart | None,
     rate_sets: tuple[Rates, ...],
+    system_voltage_v: int | None = None,
 ) -> tuple[Project, list[str]]:
     """A copy of ``project`` with the parts taken in (:func:`put_part` for each; without an
-    inverter any earlier ``[stock.inverter]`` is dropped).  Returns the project and the
-    parts left unpriced (with why)."""
+    inverter any earlier ``[stock.inverter]`` is dropped) and, when given, the system
+    voltage the combination was found at fixed in ``choices.system_voltage``.  Returns the
+    project and the parts left unpriced (with why)."""
     import copy
+    from dataclasses import replace
 
     p = copy.deepcopy(project)
+    if system_voltage_v is not None:
+        p.choices = replace(p.choices, system_voltage=int(system_voltage_v))
     missing = []
     for part in (module, battery, controller, inverter):
         if part is not None:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import dataclasses
+
 from textual import work
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -211,7 +213,8 @@ class PartsSection(Section):
         for i, x in enumerate(result.by_capital[:5]):
             inv = x.inverter.name if x.inverter else "no inverter"
             label = (
-                f"{money(x.capital, cur)} / {money(x.lcc, cur)}: {x.module_count} x "
+                f"{money(x.capital, cur)} / {money(x.lcc, cur)}, {x.system_voltage_v} V: "
+                f"{x.module_count} x "
                 f"{x.module.name}, {x.battery_units} x {x.battery.name}, "
                 f"{x.controller_count} x {x.controller.name}, {inv}"
             )
@@ -225,6 +228,7 @@ class PartsSection(Section):
             parts = [p for p in (x.module, x.battery, x.controller, x.inverter) if p]
 
             def put(p) -> None:
+                p.choices = dataclasses.replace(p.choices, system_voltage=x.system_voltage_v)
                 for part in parts:
                     put_part(p, part, rates)
 
