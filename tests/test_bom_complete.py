@@ -7,7 +7,6 @@ import csv
 import io
 
 import pytest
-from conftest import hand_project
 
 from offgrid.design.sizing import design
 from offgrid.economics.bom import bill_of_materials, complete_bill_of_materials
@@ -15,6 +14,7 @@ from offgrid.paths import demo_project_path
 from offgrid.project.model import PriceItem
 from offgrid.project.store import load_project
 from offgrid.stock.kit import priced_bom_csv
+from tests.conftest import hand_project
 
 COMMON = "common practice, no source"
 

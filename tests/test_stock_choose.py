@@ -12,13 +12,13 @@ import itertools
 from dataclasses import replace
 
 import pytest
-from conftest import hand_project
 
 from offgrid.design.result import DesignError
 from offgrid.design.sizing import design
 from offgrid.project.model import BatterySpec, ControllerSpec, ModuleSpec
 from offgrid.stock.catalogue import Catalogue, read_kind_csv, template_csv
 from offgrid.stock.choose import search, search_text
+from tests.conftest import hand_project
 
 MODULES = """
 Inv mod 300,300,32.5,9.23,39.8,9.75,0.05,-0.30,-0.40,60,1.63,45,100,USD,,yes

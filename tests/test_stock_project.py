@@ -5,7 +5,6 @@ from __future__ import annotations
 import copy
 
 import pytest
-from conftest import hand_project
 
 from offgrid.design.sizing import design
 from offgrid.economics.bom import bill_of_materials
@@ -19,6 +18,7 @@ from offgrid.stock.project_parts import (
     stock_problems,
     take_parts,
 )
+from tests.conftest import hand_project
 
 
 def test_stock_inputs_are_declared_once_and_checked():
