@@ -65,6 +65,7 @@ def test_bad_rows_are_reported_with_file_line_column_and_skipped():
             GOOD_MOD,  # the same name again
             GOOD_MOD.replace("Test module A", "No currency").replace(",USD,", ",,"),
             GOOD_MOD.replace("Test module A", "Blank Voc").replace(",39.8,", ",,"),
+            GOOD_MOD.replace("Test module A", "Odd currency").replace(",USD,", ",dollars,"),
         ]
     )
     parts, problems = read_kind_csv("modules", text, "mods.csv")
@@ -77,6 +78,7 @@ def test_bad_rows_are_reported_with_file_line_column_and_skipped():
     assert "line 7, name: 'Test module A' is already on line 2" in said[3]
     assert "line 8, currency: a price needs its currency" in said[4]
     assert "line 9, voc_v: is empty" in said[5]
+    assert "line 10, currency: 'DOLLARS' is not a three-letter currency code" in said[6]
     assert all("row skipped" in s for s in said[:4])
 
 

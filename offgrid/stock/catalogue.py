@@ -332,6 +332,17 @@ def read_kind_csv(kind: str, text: str, source: str) -> tuple[list[StockPart], l
         name = values.pop("name")
         price, currency = values.pop("price"), (values.pop("currency") or "").upper()
         supplier, demo = values.pop("supplier") or "", bool(values.pop("demo"))
+        if currency and not (len(currency) == 3 and currency.isascii() and currency.isalpha()):
+            problems.append(
+                CatalogueProblem(
+                    source,
+                    line,
+                    "currency",
+                    f"'{printable(currency)}' is not a three-letter currency code (ISO 4217: "
+                    "USD, EUR, KES ...); row skipped",
+                )
+            )
+            continue
         if price is not None and not currency:
             problems.append(
                 CatalogueProblem(

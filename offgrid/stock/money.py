@@ -41,9 +41,14 @@ def read_rates_csv(text: str, source: str) -> tuple[Rates, list]:
     problems = []
     for line, cells in table.records:
         src, dst = cells.get("from", "").upper(), cells.get("to", "").upper()
-        if not src or not dst:
+        if not all(len(x) == 3 and x.isascii() and x.isalpha() for x in (src, dst)):
             problems.append(
-                CatalogueProblem(source, line, "from", "both currencies are needed; row skipped")
+                CatalogueProblem(
+                    source,
+                    line,
+                    "from",
+                    "both currencies are needed as three-letter codes (EUR, USD); row skipped",
+                )
             )
             continue
         try:
