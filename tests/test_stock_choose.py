@@ -17,7 +17,7 @@ from offgrid.design.result import DesignError
 from offgrid.design.sizing import design
 from offgrid.project.model import BatterySpec, ControllerSpec, ModuleSpec
 from offgrid.stock.catalogue import Catalogue, read_kind_csv, template_csv
-from offgrid.stock.choose import search, search_text
+from offgrid.stock.choose import cost_of, search, search_text, with_parts
 from tests.conftest import hand_project
 
 MODULES = """
@@ -149,6 +149,13 @@ def test_search_equals_brute_force():
         n for n, c in ok if c is None
     }
     assert len(result.by_capital) + len(result.unpriced) + sum(rejected.values()) == result.tried
+    # the summed lifecycle cost equals offgrid.economics.costs.lifecycle_cost called directly
+    for x in result.by_capital[:: max(1, len(result.by_capital) // 8)]:
+        p = with_parts(project, x.module, x.battery, x.controller, x.inverter)
+        d = design(p)
+        parts = (x.module, x.battery, x.controller, x.inverter)
+        direct = cost_of(p, d, parts, ({}, cat.rates))
+        assert (x.capital, x.lcc) == pytest.approx(direct[:2], rel=1e-12)
     lccs = [x.lcc for x in result.by_lcc]
     assert lccs == sorted(lccs) and {x.names() for x in result.by_lcc} == {
         x.names() for x in result.by_capital

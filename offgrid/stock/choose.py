@@ -202,8 +202,16 @@ def main_lines(design, combo_parts: tuple) -> list[BomLine]:
     return lines
 
 
-def cost_of(project: Project, design, combo_parts: tuple, rate_sets: tuple) -> tuple:
-    """(capital, lifecycle cost, missing) of the main parts in the project's currency."""
+def cost_of(
+    project: Project, design, combo_parts: tuple, rate_sets: tuple, factors: dict | None = None
+) -> tuple:
+    """(capital, lifecycle cost, missing) of the main parts in the project's currency.
+
+    :func:`offgrid.economics.costs.lifecycle_cost` is linear in the lines' totals and,
+    without a simulation, depends on the parts only through each line's kind (its service
+    life; the battery's from its chemistry): ``factors`` caches, per (kind, chemistry),
+    the capital and lifecycle cost of a line of total 1, so each combination costs a sum
+    (``tests/test_stock_choose.py`` checks it against the direct call)."""
     from offgrid.economics.costs import lifecycle_cost
 
     currency = project.economics.currency
@@ -217,10 +225,25 @@ def cost_of(project: Project, design, combo_parts: tuple, rate_sets: tuple) -> t
             prices.append(PriceItem(ln.key, value))
     if missing:
         return None, None, tuple(missing)
-    priced = copy.copy(project)
-    priced.prices = prices
-    lc = lifecycle_cost(priced, design, tuple(lines))
-    return lc.capital, lc.lcc, ()
+    if factors is None:
+        priced = copy.copy(project)
+        priced.prices = prices
+        lc = lifecycle_cost(priced, design, tuple(lines))
+        return lc.capital, lc.lcc, ()
+    capital = lcc = 0.0
+    for ln, price in zip(lines, prices, strict=True):
+        key = (ln.kind, project.battery.chemistry)
+        if key not in factors:
+            one = copy.copy(project)
+            one.prices = [PriceItem(ln.key, 1.0)]
+            unit = BomLine(ln.key, ln.description, 1.0, ln.unit, "", "")
+            lc = lifecycle_cost(one, design, (unit,))
+            factors[key] = (lc.capital, lc.lcc)
+        f_cap, f_lcc = factors[key]
+        total = price.unit_price * ln.quantity
+        capital += total * f_cap
+        lcc += total * f_lcc
+    return capital, lcc, ()
 
 
 def rate_sets_for(project: Project, catalogue: Catalogue) -> tuple[tuple[Rates, ...], list[str]]:
@@ -265,6 +288,7 @@ def search(
     rejected: list[Rejection] = []
     reasons: Counter[str] = Counter()
     tried = runs = 0
+    factors: dict = {}  # (kind, chemistry) -> capital and lifecycle cost of a total of 1
     fixed = project.choices.system_voltage
     # "auto": each system voltage is tried as a fixed one (the engine's own choice would
     # hide the parts that work at another voltage)
@@ -314,7 +338,7 @@ def search(
                             reject(names, code, why)
                             continue
                         parts = (m, b, c, inv)
-                        capital, lcc, missing = cost_of(trial, d, parts, rate_sets)
+                        capital, lcc, missing = cost_of(trial, d, parts, rate_sets, factors)
                         feasible.append(
                             Combination(
                                 m,
