@@ -247,7 +247,8 @@ def cost_of(
 
 
 def rate_sets_for(project: Project, catalogue: Catalogue) -> tuple[tuple[Rates, ...], list[str]]:
-    table = project.extra.get("stock", {}).get("rates", {})
+    stock = project.extra.get("stock")
+    table = stock.get("rates", {}) if isinstance(stock, dict) else {}
     own, problems = project_rates(
         table if isinstance(table, dict) else {}, project.economics.currency
     )
@@ -277,7 +278,8 @@ def search(
         catalogue.of("inverters") if needs_inverter(project) else (None,)
     )
     if not (mods and bats and ctrls and invs):
-        empty = [k for k in MAIN_KINDS if not catalogue.of(k)]
+        needed = MAIN_KINDS if invs != (None,) else MAIN_KINDS[:3]
+        empty = [k for k in needed if not catalogue.of(k)]
         notes.append("the catalogue has no " + ", ".join(empty) + ": nothing to combine")
         return SearchResult(project.economics.currency, 0, 0, (), (), (), (), tuple(notes))
     groups: dict[tuple, list[StockPart | None]] = {}
