@@ -260,3 +260,18 @@ def test_search_at_auto_voltage_equals_brute_force_over_the_three_voltages():
     assert [(*x.names(), x.system_voltage_v) for x in result.by_capital] == [n for n, _ in priced]
     # both a 24 V and a 48 V kit are found (the engine's own "auto" picks one voltage)
     assert {x.system_voltage_v for x in result.by_capital} >= {24, 48}
+
+
+@pytest.mark.slow
+def test_worker_processes_give_the_same_result():
+    from offgrid.stock.choose import _pool_context
+
+    assert _pool_context() is not None  # fork is there: jobs=2 really uses two workers
+    project = hand_project()
+    cat = catalogue()
+    one = search(project, cat, jobs=1)
+    two = search(project, cat, jobs=2)
+    assert two.tried == one.tried and two.designs_run == one.designs_run
+    assert two.reasons == one.reasons and two.rejected == one.rejected
+    assert two.by_capital == one.by_capital and two.by_lcc == one.by_lcc
+    assert two.unpriced == one.unpriced

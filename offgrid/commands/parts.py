@@ -98,6 +98,12 @@ def register(sub) -> None:
     q.add_argument("--top", type=int, default=5, metavar="N", help="show the best N (5)")
     q.add_argument("--json", action="store_true", help="print the search as JSON")
     q.add_argument(
+        "--jobs",
+        type=int,
+        metavar="N",
+        help="worker processes (default: one per processor; 1 designs in this process)",
+    )
+    q.add_argument(
         "--take",
         type=int,
         metavar="N",
@@ -290,8 +296,13 @@ def run_best(args: argparse.Namespace) -> int:
     from offgrid.commands.common import design_failed
     from offgrid.design.result import DesignError
 
+    from offgrid.plan.rows import default_jobs
+
+    if args.jobs is not None and args.jobs < 1:
+        fail("--jobs must be 1 or more", field="--jobs")
+    jobs = args.jobs or default_jobs()
     try:
-        result = search(project, cat, base)
+        result = search(project, cat, base, jobs=jobs)
     except DesignError as exc:
         design_failed(exc, "; no combination was tried")
     if args.json:

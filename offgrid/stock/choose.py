@@ -255,17 +255,101 @@ def rate_sets_for(project: Project, catalogue: Catalogue) -> tuple[tuple[Rates, 
     return (own, catalogue.rates), problems
 
 
+def _pool_context():
+    """fork when it is safe (no other thread runs: the text UI searches in a worker
+    thread), else None: then the search runs in this process."""
+    import multiprocessing
+    import threading
+
+    if "fork" in multiprocessing.get_all_start_methods() and threading.active_count() == 1:
+        return multiprocessing.get_context("fork")
+    return None
+
+
+def _chunk_in_worker(chunk: tuple):
+    from offgrid.memo import design_memo
+
+    with design_memo():
+        return _search_chunk(*chunk)
+
+
+def _search_chunk(project, v, m, bats, ctrls, groups, base, rate_sets, keep: int = 2000):
+    """One module at one system voltage against every battery, controller and inverter:
+    (feasible, rejections, reasons, tried, designs run)."""
+    from offgrid.design.sizing import design
+
+    feasible: list[Combination] = []
+    rejected: list[Rejection] = []
+    reasons: Counter[str] = Counter()
+    tried = runs = 0
+    factors: dict = {}  # (kind, chemistry) -> capital and lifecycle cost of a total of 1
+
+    def reject(names: tuple, code: str, why: str) -> None:
+        reasons[code] += 1
+        if len(rejected) < keep:
+            rejected.append(Rejection(names, code, why))
+
+    for b, c in itertools.product(bats, ctrls):
+        for group in groups:
+            members = []
+            for inv in group:
+                names = (m.name, b.name, c.name, inv.name if inv else "")
+                code, why = fixed_voltage_check(v, c, inv)
+                if code:
+                    tried += 1
+                    reject(names, code, why)
+                else:
+                    members.append(inv)
+            if not members:
+                continue
+            trial = with_parts(project, m, b, c, members[0])
+            runs += 1
+            try:
+                d = design(trial, base)
+                error = None
+            except DesignError as exc:
+                error = exc
+            for inv in members:
+                tried += 1
+                names = (m.name, b.name, c.name, inv.name if inv else "")
+                code, why = (error.code, str(error)) if error else check_parts(d, c, inv)
+                if code:
+                    reject(names, code, why)
+                    continue
+                capital, lcc, missing = cost_of(trial, d, (m, b, c, inv), rate_sets, factors)
+                feasible.append(
+                    Combination(
+                        m,
+                        b,
+                        c,
+                        inv,
+                        d.battery.system_voltage_v,
+                        d.array.module_count,
+                        d.battery.unit_count,
+                        d.controller.count,
+                        d.array.power_w,
+                        d.battery.nominal_kwh,
+                        capital,
+                        lcc,
+                        missing,
+                    )
+                )
+    return feasible, rejected, dict(reasons), tried, runs
+
+
 def search(
     project: Project,
     catalogue: Catalogue,
     base: Path | None = None,
     keep_rejected: int = 2000,
+    jobs: int = 1,
 ) -> SearchResult:
     """Every combination of the catalogue's main parts, designed, checked and ranked.
 
-    Raises :class:`~offgrid.design.result.DesignError` when the project's climate cannot
-    be read (no combination could be designed)."""
-    from offgrid.design.sizing import design, resolve_climate
+    ``jobs`` > 1 shares the modules out between that many worker processes (fork only;
+    the result is the same).  Raises :class:`~offgrid.design.result.DesignError` when the
+    project's climate cannot be read (no combination could be designed)."""
+    from offgrid.design.sizing import resolve_climate
     from offgrid.memo import design_memo
     from offgrid.project.model import ClimateChoice
 
@@ -286,78 +370,39 @@ def search(
     for inv in invs:
         key = None if inv is None else (inv.spec["efficiency"], inv.spec["self_consumption_w"])
         groups.setdefault(key, []).append(inv)
-    feasible: list[Combination] = []
-    rejected: list[Rejection] = []
-    reasons: Counter[str] = Counter()
-    tried = runs = 0
-    factors: dict = {}  # (kind, chemistry) -> capital and lifecycle cost of a total of 1
     fixed = project.choices.system_voltage
     # "auto": each system voltage is tried as a fixed one (the engine's own choice would
     # hide the parts that work at another voltage)
     volts = SYSTEM_VOLTAGES_V if fixed == "auto" else (int(fixed),)
-    trials = [(v, replace_choices(project, v)) for v in volts]
     if fixed == "auto":
         notes.append(
             "system voltage 'auto': every combination tried at 12, 24 and 48 V; taking one "
             "fixes the project's system voltage at its own"
         )
+    chunks = [
+        (replace_choices(project, v), v, m, bats, ctrls, tuple(groups.values()), base, rate_sets)
+        for v in volts
+        for m in mods
+    ]
+    context = _pool_context() if jobs > 1 and len(chunks) > 1 else None
+    if context is None:
+        with design_memo():
+            done = [_search_chunk(*c) for c in chunks]
+    else:
+        from concurrent.futures import ProcessPoolExecutor
 
-    def reject(names: tuple, code: str, why: str) -> None:
-        reasons[code] += 1
-        if len(rejected) < keep_rejected:
-            rejected.append(Rejection(names, code, why))
-
-    with design_memo():
-        for v, proj in trials:
-            for m, b, c in itertools.product(mods, bats, ctrls):
-                for group in groups.values():
-                    members = []
-                    for inv in group:
-                        names = (m.name, b.name, c.name, inv.name if inv else "")
-                        code, why = fixed_voltage_check(v, c, inv) if v else ("", "")
-                        if code:
-                            tried += 1
-                            reject(names, code, why)
-                        else:
-                            members.append(inv)
-                    if not members:
-                        continue
-                    trial = with_parts(proj, m, b, c, members[0])
-                    runs += 1
-                    try:
-                        d = design(trial, base)
-                        error = None
-                    except DesignError as exc:
-                        error = exc
-                    for inv in members:
-                        tried += 1
-                        names = (m.name, b.name, c.name, inv.name if inv else "")
-                        if error is not None:
-                            code, why = error.code, str(error)
-                        else:
-                            code, why = check_parts(d, c, inv)
-                        if code:
-                            reject(names, code, why)
-                            continue
-                        parts = (m, b, c, inv)
-                        capital, lcc, missing = cost_of(trial, d, parts, rate_sets, factors)
-                        feasible.append(
-                            Combination(
-                                m,
-                                b,
-                                c,
-                                inv,
-                                d.battery.system_voltage_v,
-                                d.array.module_count,
-                                d.battery.unit_count,
-                                d.controller.count,
-                                d.array.power_w,
-                                d.battery.nominal_kwh,
-                                capital,
-                                lcc,
-                                missing,
-                            )
-                        )
+        with ProcessPoolExecutor(max_workers=jobs, mp_context=context) as pool:
+            done = list(pool.map(_chunk_in_worker, chunks))
+    feasible: list[Combination] = []
+    rejected: list[Rejection] = []
+    reasons: Counter[str] = Counter()
+    tried = runs = 0
+    for ok, rej, why, n_tried, n_runs in done:  # in the order of the chunks: deterministic
+        feasible += ok
+        rejected += rej[: max(0, keep_rejected - len(rejected))]
+        reasons.update(why)
+        tried += n_tried
+        runs += n_runs
     priced = [x for x in feasible if x.capital is not None]
     unpriced = tuple(x for x in feasible if x.capital is None)
     by_capital = tuple(
