@@ -295,7 +295,6 @@ def run_best(args: argparse.Namespace) -> int:
     cat = _catalogue(args)
     from offgrid.commands.common import design_failed
     from offgrid.design.result import DesignError
-
     from offgrid.plan.rows import default_jobs
 
     if args.jobs is not None and args.jobs < 1:
