@@ -16,8 +16,9 @@ import pytest
 from offgrid.design.result import DesignError
 from offgrid.design.sizing import design
 from offgrid.project.model import BatterySpec, ControllerSpec, ModuleSpec
+from offgrid.stock.best_text import search_text
 from offgrid.stock.catalogue import Catalogue, read_kind_csv, template_csv
-from offgrid.stock.choose import cost_of, search, search_text, with_parts
+from offgrid.stock.choose import cost_of, search, with_parts
 from tests.conftest import hand_project
 
 MODULES = """

@@ -281,7 +281,8 @@ def run_import(args: argparse.Namespace) -> int:
 
 
 def run_best(args: argparse.Namespace) -> int:
-    from offgrid.stock.choose import search, search_text
+    from offgrid.stock.best_text import search_text
+    from offgrid.stock.choose import search
 
     out = Path(args.output) if args.output and args.output != STDIO else None
     if args.take is not None and out is None:
@@ -306,7 +307,7 @@ def run_best(args: argparse.Namespace) -> int:
         design_failed(exc, "; no combination was tried")
     if args.json:
         from offgrid.commands.common import json_text
-        from offgrid.stock.choose import search_json
+        from offgrid.stock.best_text import search_json
 
         print(json_text(search_json(result, max(1, args.top))))
     else:
