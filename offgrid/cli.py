@@ -23,6 +23,7 @@ COMMANDS: tuple[str, ...] = (
     "variants",
     "plan",
     "generator",
+    "parts",
 )
 VERSION_FLAGS = ("--version", "-V")
 

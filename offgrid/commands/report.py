@@ -28,9 +28,10 @@ def register(sub) -> None:
     add_project_argument(p)
     p.add_argument(
         "--format",
-        choices=("html", "md", "txt"),
+        choices=("html", "md", "txt", "client"),
         help="report format (default: from the -o suffix; txt on the standard "
-        "output, html for a file without a known suffix)",
+        "output, html for a file without a known suffix); client: the one-page client "
+        "summary (text)",
     )
     p.add_argument(
         "-o",

@@ -104,7 +104,10 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
             "battery.unit_count",
         )
     )
-    if inv.needed:
+    stock_inv = _stock_inverter(project) if inv.needed else None
+    if stock_inv is not None:
+        lines.append(_stock_inverter_line(stock_inv, design))
+    elif inv.needed:
         lines.append(
             BomLine(
                 f"inverter:{inv.continuous_w:g} W",
@@ -118,6 +121,58 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
     lines += _protection_lines(design)
     lines += _cable_lines(wires_of(design))
     return tuple(lines)
+
+
+def _stock_inverter(project: Project) -> dict | None:
+    from offgrid.stock.project_parts import stock_inverter
+
+    return stock_inverter(project)
+
+
+def _stock_inverter_line(rec: dict, design: SystemDesign) -> BomLine:
+    """The catalogue inverter the project took (``[stock.inverter]``), checked against the
+    design's required continuous and surge power."""
+    inv, v = design.inverter, design.battery.system_voltage_v
+    ok = (
+        rec["continuous_w"] + 1e-9 >= inv.required_continuous_w
+        and rec["surge_w"] + 1e-9 >= inv.required_surge_w
+        and int(rec["dc_voltage_v"]) == v
+    )
+    verdict = "covers" if ok else "DOES NOT cover (choose another inverter)"
+    return BomLine(
+        f"inverter:{rec['name']}",
+        f"Inverter {rec['name']}, {rec['continuous_w']:g} W continuous, "
+        f"{rec['surge_w']:g} W surge, {rec['dc_voltage_v']} V DC input",
+        1.0,
+        "each",
+        f"catalogue inverter; {verdict} the required {inv.required_continuous_w:.0f} W "
+        f"continuous and {inv.required_surge_w:.0f} W surge at {v} V",
+        "inverter.required_continuous_w",
+    )
+
+
+def complete_bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, ...]:
+    """Everything the crew packs: the main parts and the protection schedule of
+    :func:`bill_of_materials`, the accessories of :mod:`offgrid.economics.accessories`
+    and the cable with the project's allowance (``[stock] cable_allowance_pct``).
+    Each line names its design figure or caution (``figure``)."""
+    from dataclasses import replace
+
+    from offgrid.economics.accessories import accessory_lines, cable_lines_with_allowance
+    from offgrid.stock.project_parts import cable_allowance_pct, mounting
+
+    allowance = cable_allowance_pct(project)
+    figures = {"inverter": "inverter.continuous_w"}
+    main = []
+    for ln in bill_of_materials(project, design):
+        if ln.kind == "cable":
+            continue
+        if not ln.figure:
+            ln = replace(ln, figure=figures.get(ln.kind, "protection.devices.rating_a"))
+        main.append(ln)
+    extra = accessory_lines(project, design, mounting(project), allowance)
+    cables = cable_lines_with_allowance(design, allowance)
+    return (*main, *extra, *cables)
 
 
 def _cable_lines(wires: Iterable[WireChoice]) -> list[BomLine]:

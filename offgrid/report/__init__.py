@@ -90,6 +90,12 @@ def make_report(
     from offgrid.design.sizing import design as run_design
     from offgrid.report.build import build_report
 
+    if fmt == "client":  # the one-page client summary (text)
+        from offgrid.report.client import client_summary_text
+        from offgrid.safetext import visible
+
+        d = design if design is not None else run_design(project, base)
+        return visible(client_summary_text(project, d))
     if fmt not in FORMATS:
         raise ValueError(f"unknown report format '{fmt}'; use one of {', '.join(FORMATS)}")
     d = design if design is not None else run_design(project, base)

@@ -1,0 +1,135 @@
+"""The one-page client summary: site, what is installed, what it serves and for how many
+days without sun, the cost, the main cautions and a block for signatures.
+
+Plain text in 78 columns (about one printed page); the long technical report stays
+(:mod:`offgrid.report.build`).  The cost is the complete bill of materials priced from
+the project's price list: with lines unpriced it says how many, never a partial sum as
+the cost.  Recalled values are in client words (:func:`offgrid.wording.confirm_words`).
+"""
+
+from __future__ import annotations
+
+import textwrap
+
+from offgrid.design.result import SystemDesign
+from offgrid.economics.costs import lifecycle_cost, money
+from offgrid.project.model import Project
+from offgrid.safetext import printable
+from offgrid.wording import confirm_words
+
+WIDTH = 78
+#: The cautions a client summary shows first, in this order (the rest are in the report).
+MAIN_CAUTIONS = (
+    "battery-short-circuit",
+    "lead-acid-ventilation",
+    "lfp-cold-charge",
+    "pv-live-in-daylight",
+    "grounding",
+    "dc-above-elv",
+)
+MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+
+
+def _wrap(text: str, indent: str = "  ") -> list[str]:
+    rest = " " * len(indent) + "  "
+    return textwrap.wrap(text, WIDTH, initial_indent=indent, subsequent_indent=rest)
+
+
+def _inverter_line(project: Project, design: SystemDesign) -> str:
+    from offgrid.stock.project_parts import stock_inverter
+
+    inv = design.inverter
+    if not inv.needed:
+        return "none (all loads run on DC)"
+    rec = stock_inverter(project)
+    if rec is not None:
+        return (
+            f"{printable(str(rec['name']))}, {rec['continuous_w']:g} W continuous, "
+            f"{rec['surge_w']:g} W surge"
+        )
+    return f"{inv.continuous_w:.0f} W continuous, {inv.surge_w:.0f} W surge"
+
+
+def client_summary_text(project: Project, design: SystemDesign) -> str:
+    """The one-page summary as text (80-column safe)."""
+    from offgrid.economics.bom import complete_bill_of_materials
+
+    info, a, b, c, ld = project.info, design.array, design.battery, design.controller, design.loads
+    title = printable(info.name) + ("  (demonstration data, invented)" if info.demo else "")
+    out = [title, "=" * min(WIDTH, len(title)), ""]
+    if info.client:
+        out.append(f"Client:    {printable(info.client)}")
+    if info.designer:
+        out.append(f"Designer:  {printable(info.designer)}")
+    site = project.site
+    out.append(
+        f"Site:      {printable(site.name or '-')} (latitude {site.latitude_deg:.2f}, "
+        f"longitude {site.longitude_deg:.2f})"
+    )
+    out += ["", "What is installed"]
+    out += _wrap(
+        f"Solar array {a.power_w:.0f} W: {a.module_count} x {printable(project.module.name)} "
+        f"({a.modules_series} in series x {a.modules_parallel} in parallel), tilt "
+        f"{design.site.tilt_deg:.0f} deg"
+    )
+    out += _wrap(
+        f"Battery bank {b.nominal_kwh:.1f} kWh at {b.system_voltage_v} V "
+        f"({b.usable_kwh:.1f} kWh usable): {b.unit_count} x {printable(project.battery.name)}"
+    )
+    out += _wrap(f"Charge controller: {c.count} x {c.current_a:g} A {c.type.upper()}")
+    out += _wrap(f"Inverter: {_inverter_line(project, design)}")
+    month = MONTHS[design.site.design_month - 1]
+    out += ["", "What it serves"]
+    n_loads = len(project.loads)
+    n_crit = sum(1 for x in project.loads if x.critical)
+    out += _wrap(
+        f"{n_loads} appliance line(s)"
+        + (f", {n_crit} of them critical" if n_crit else "")
+        + f": {ld.design_daily_energy_wh / 1000:.2f} kWh a day at the battery in {month}, "
+        f"the design month (growth margin of {ld.growth_pct:g} % included)."
+    )
+    out += _wrap(
+        f"Days without sun: the battery carries the loads for {b.autonomy_days:g} days "
+        f"down to {b.max_dod * 100:.0f} % depth of discharge."
+    )
+    lines = complete_bill_of_materials(project, design)
+    lc = lifecycle_cost(project, design, lines)
+    out += ["", "Cost"]
+    if lc.capital is not None:
+        out += _wrap(
+            f"Capital {money(lc.capital, lc.currency)} (parts and installation); "
+            f"lifecycle cost over {project.economics.life_years} years "
+            f"{money(lc.lcc, lc.currency)}"
+            + (
+                f", {money(lc.cost_per_kwh, lc.currency)} per kWh delivered."
+                if lc.cost_per_kwh is not None
+                else "."
+            )
+        )
+    else:
+        from offgrid.economics.prices import price_for
+
+        so_far = sum(
+            (price_for(ln.key, project.prices) or 0.0) * ln.quantity
+            for ln in lines
+            if ln.key not in lc.missing
+        )
+        n_priced = len(lines) - len(lc.missing)
+        out += _wrap(
+            f"Not yet fully priced: {len(lc.missing)} of {len(lines)} lines of the bill of "
+            f"materials have no price, so no total cost is given. The {n_priced} "
+            f"priced lines come to {money(so_far, lc.currency)} (parts only, INCOMPLETE). "
+            "`offgrid parts bom` lists the unpriced lines; price them with `offgrid prices`."
+        )
+    out += ["", "Main cautions"]
+    by_code = {x.code: x for x in design.electrical.cautions} if design.electrical else {}
+    for code in MAIN_CAUTIONS:
+        if code in by_code:
+            out += _wrap(confirm_words(by_code[code].text), "- ")
+    defers = by_code.get("defers-to-code")
+    if defers is not None:
+        out += ["", *_wrap(confirm_words(defers.text), "")]
+    out += ["", "Signatures"]
+    for who in ("Designer", "Installer", "Client"):
+        out.append(f"  {who + ':':<11} {'_' * 30}   Date: {'_' * 12}")
+    return "\n".join(out) + "\n"

@@ -1,0 +1,261 @@
+"""The project's own copy of the catalogue parts it uses, and its stock settings.
+
+Taking parts into a project (:func:`take_parts`) writes their datasheets into the
+project's part tables (``[module]``, ``[battery]``, ``[controller]``, ``[inverter]``),
+keeps the whole catalogue row of each in ``[stock.<part>]`` (the inverter's ratings, the
+controller's battery voltages, price, currency, supplier: what the part tables have no
+field for), and prices them in the project's ``[[prices]]`` in the project's currency.
+So a project file still stands alone and reopens on a machine without the catalogue.
+
+The project inputs this adds are declared once, in :data:`STOCK_INPUTS`; they live in the
+``[stock]`` table, which the store keeps verbatim (``Project.extra``).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Any
+
+from offgrid.economics.prices import merge_prices
+from offgrid.project.model import PriceItem, Project
+from offgrid.stock.catalogue import StockPart
+from offgrid.stock.choose import price_in
+from offgrid.stock.money import Rates
+
+STOCK_TABLE = "stock"
+MOUNTINGS = ("ground", "roof")
+#: Extra length of cable bought over the measured runs, % (common practice, no source:
+#: offcuts, bends and terminations; 10 % is a usual allowance).
+DEFAULT_CABLE_ALLOWANCE_PCT = 10.0
+
+
+@dataclass(frozen=True)
+class StockInput:
+    """Metadata of one project input of the ``[stock]`` table."""
+
+    path: str
+    label: str
+    unit: str
+    kind: str  # "text", "number", "choice", "table"
+    default: Any
+    help: str
+    low: float | None = None
+    high: float | None = None
+    choices: tuple[str, ...] = ()
+
+
+#: Every project input of the parts catalogue feature, in one place.
+STOCK_INPUTS: tuple[StockInput, ...] = (
+    StockInput(
+        "stock.mounting",
+        "Module mounting",
+        "",
+        "choice",
+        "ground",
+        "where the modules are mounted: ground frame or roof rails (sets the mounting "
+        "line of the bill of materials)",
+        choices=MOUNTINGS,
+    ),
+    StockInput(
+        "stock.cable_allowance_pct",
+        "Cable allowance",
+        "%",
+        "number",
+        DEFAULT_CABLE_ALLOWANCE_PCT,
+        "cable bought over the measured runs for offcuts and terminations (common "
+        "practice, no source)",
+        0.0,
+        100.0,
+    ),
+    StockInput(
+        "stock.rates",
+        "Exchange rates",
+        "project currency per unit",
+        "table",
+        {},
+        "one unit of a price list's currency in the project's currency (EUR = 1.08); "
+        "wins over the catalogue's rates.csv",
+        0.0,
+        1e7,
+    ),
+    StockInput(
+        "stock.module",
+        "Catalogue module",
+        "",
+        "table",
+        None,
+        "the whole catalogue row of the module taken (name, datasheet, price, currency, "
+        "supplier); written by `offgrid parts best --take`",
+    ),
+    StockInput(
+        "stock.battery",
+        "Catalogue battery unit",
+        "",
+        "table",
+        None,
+        "the whole catalogue row of the battery unit taken",
+    ),
+    StockInput(
+        "stock.controller",
+        "Catalogue controller",
+        "",
+        "table",
+        None,
+        "the whole catalogue row of the charge controller taken (with its battery voltages)",
+    ),
+    StockInput(
+        "stock.inverter",
+        "Catalogue inverter",
+        "",
+        "table",
+        None,
+        "the whole catalogue row of the inverter taken (continuous, surge, DC voltage, "
+        "charger current)",
+    ),
+)
+INPUT_OF = {i.path: i for i in STOCK_INPUTS}
+
+
+def stock_table(project: Project) -> dict:
+    t = project.extra.get(STOCK_TABLE, {})
+    return t if isinstance(t, dict) else {}
+
+
+def stock_problems(project: Project) -> list[str]:
+    """The ``[stock]`` table's values against :data:`STOCK_INPUTS`, with the fix."""
+    t = stock_table(project)
+    out = []
+    if STOCK_TABLE in project.extra and not isinstance(project.extra[STOCK_TABLE], dict):
+        return ["stock: must be a table ([stock])"]
+    m = t.get("mounting", "ground")
+    if m not in MOUNTINGS:
+        out.append(f"stock.mounting: '{m}' is not one of: {', '.join(MOUNTINGS)}")
+    inv = t.get("inverter")
+    if inv is not None and stock_inverter(project) is None:
+        out.append(
+            "stock.inverter: needs name, continuous_w, surge_w and dc_voltage_v as numbers; "
+            "take the inverter again from the catalogue (`offgrid parts best --take`)"
+        )
+    a = t.get("cable_allowance_pct", DEFAULT_CABLE_ALLOWANCE_PCT)
+    spec = INPUT_OF["stock.cable_allowance_pct"]
+    if isinstance(a, bool) or not isinstance(a, int | float) or not spec.low <= a <= spec.high:
+        out.append(f"stock.cable_allowance_pct: give a number from 0 to 100 (got {a!r})")
+    return out
+
+
+def mounting(project: Project) -> str:
+    m = stock_table(project).get("mounting", "ground")
+    return m if m in MOUNTINGS else "ground"
+
+
+def cable_allowance_pct(project: Project) -> float:
+    a = stock_table(project).get("cable_allowance_pct", DEFAULT_CABLE_ALLOWANCE_PCT)
+    ok = isinstance(a, int | float) and not isinstance(a, bool) and 0 <= a <= 100
+    return float(a) if ok else DEFAULT_CABLE_ALLOWANCE_PCT
+
+
+def stock_inverter(project: Project) -> dict | None:
+    """The catalogue inverter the project took, when its record is whole."""
+    inv = stock_table(project).get("inverter")
+    if not isinstance(inv, dict) or not isinstance(inv.get("name"), str):
+        return None
+    for key in ("continuous_w", "surge_w", "dc_voltage_v"):
+        v = inv.get(key)
+        if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+            return None
+    return inv
+
+
+def _plain(record: dict) -> dict:
+    return {k: list(v) if isinstance(v, tuple) else v for k, v in record.items()}
+
+
+#: catalogue kind -> the project's part table (and ``[stock]`` key)
+ROLE = {"modules": "module", "batteries": "battery", "controllers": "controller"}
+ROLE["inverters"] = "inverter"
+
+
+def part_key(part: StockPart) -> str:
+    """The bill-of-materials key the project's design gives this catalogue part.
+
+    A catalogue controller sets ``controller.max_current_a``, so the design's rating is
+    that figure (``controller:MPPT 60 A``); the inverter is named by its own record
+    (:func:`offgrid.economics.bom.bill_of_materials`)."""
+    if part.kind == "controllers":
+        s = part.spec
+        return f"controller:{s['type'].upper()} {float(s['max_current_a']):g} A"
+    return f"{ROLE[part.kind]}:{part.name}"
+
+
+def put_part(project: Project, part: StockPart, rate_sets: tuple[Rates, ...]) -> str:
+    """Put one catalogue module, battery unit, controller or inverter into ``project`` in
+    place: its datasheet into the part table, its whole row into ``[stock.<part>]``, its
+    price (in the project's currency) into ``[[prices]]``.  Returns why no price was
+    taken ('' when one was)."""
+    from dataclasses import replace
+
+    from offgrid.stock.catalogue import battery_spec, controller_spec, module_spec
+
+    role = ROLE[part.kind]
+    if role == "module":
+        project.module = module_spec(part)
+    elif role == "battery":
+        project.battery = battery_spec(part)
+    elif role == "controller":
+        project.controller = controller_spec(part)
+    else:
+        project.inverter = replace(
+            project.inverter,
+            efficiency=float(part.spec["efficiency"]),
+            self_consumption_w=float(part.spec["self_consumption_w"]),
+        )
+    table = dict(stock_table(project))
+    table[role] = _plain(part.record())
+    project.extra = {**project.extra, STOCK_TABLE: table}
+    cur = project.economics.currency
+    value, why = price_in(part, cur, *rate_sets)
+    if value is None:
+        return why
+    note = f"catalogue: {part.name}"
+    if part.currency.upper() != cur.upper():
+        note += f", {part.price:g} {part.currency} converted"
+    if part.supplier:
+        note += f"; {part.supplier}"
+    project.prices = merge_prices(
+        project.prices, [PriceItem(part_key(part), round(value, 2), note)]
+    )
+    return ""
+
+
+def take_parts(
+    project: Project,
+    module: StockPart,
+    battery: StockPart,
+    controller: StockPart,
+    inverter: StockPart | None,
+    rate_sets: tuple[Rates, ...],
+    system_voltage_v: int | None = None,
+) -> tuple[Project, list[str]]:
+    """A copy of ``project`` with the parts taken in (:func:`put_part` for each; without an
+    inverter any earlier ``[stock.inverter]`` is dropped) and, when given, the system
+    voltage the combination was found at fixed in ``choices.system_voltage``.  Returns the
+    project and the parts left unpriced (with why)."""
+    import copy
+    from dataclasses import replace
+
+    p = copy.deepcopy(project)
+    if system_voltage_v is not None:
+        p.choices = replace(p.choices, system_voltage=int(system_voltage_v))
+    missing = []
+    for part in (module, battery, controller, inverter):
+        if part is not None:
+            why = put_part(p, part, rate_sets)
+            if why:
+                missing.append(why)
+    if inverter is None and "inverter" in stock_table(p):
+        p.extra = {
+            **p.extra,
+            STOCK_TABLE: {k: v for k, v in stock_table(p).items() if k != "inverter"},
+        }
+    return p, missing
