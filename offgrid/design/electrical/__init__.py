@@ -16,6 +16,11 @@ from offgrid.design import cautions as cau
 from offgrid.design import protection as prot
 from offgrid.design import strings as st
 from offgrid.design import wiring as wr
+from offgrid.design.electrical.string_layout import (  # noqa: F401  (re-exported)
+    HOT_IRRADIANCE_W_M2,
+    StringLimits,
+    string_limits,
+)
 from offgrid.design.harvest import HarvestInputs, daily_poa_profile, harvest_wh_day
 from offgrid.design.pv import (
     DiodeParams,
@@ -25,7 +30,6 @@ from offgrid.design.pv import (
     fit_module,
     iv_curve,
     module_current,
-    module_mpp,
     validate_module,
 )
 from offgrid.design.result import DesignError, Notice, Reason, ReasonBook, fmt
@@ -49,7 +53,6 @@ WIRE_DROP_CURRENT_RULE = {
     "the low-voltage cut-off)",
     "load": "the same as its maximum current (quantity x power / system voltage)",
 }
-HOT_IRRADIANCE_W_M2 = 1000.0
 MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 LARGE_CONDUCTOR_MM2 = 50.0  # ~1/0 AWG: above this on 12/24 V, suggest a higher voltage
 
@@ -253,46 +256,6 @@ def with_electrical(core, er: ElectricalResult):
     )
 
 
-@dataclass(frozen=True)
-class StringLimits:
-    window: st.StringWindow
-    voc_cold_v: float
-    voc_rule: str
-    vmp_hot_v: float
-    hot_cell_temp_c: float
-    record_low_c: float
-    pwm_drop_v: float
-
-
-def string_limits(
-    project, temp_day_c, record_low_c: float, absorption_v: float, params: DiodeParams | None = None
-) -> StringLimits:
-    """Cold Voc, hot Vmp and the series-count window of the project's module and controller.
-
-    Hot Vmp: the fitted single-diode model at 1000 W/m2 and the NOCT cell
-    temperature of the hottest month's daytime mean.  Raises DesignError when no
-    series count fits.
-    """
-    module = project.module
-    if params is None:
-        params = fit_module(module)
-    voc_cold, rule = st.voc_cold_v(module.voc_v, module.beta_voc_pct_per_c, record_low_c)
-    t_max = float(np.max(np.asarray(temp_day_c, dtype=float)))
-    hot_tc = float(cell_temperature_ross(t_max, HOT_IRRADIANCE_W_M2, module.noct_c))
-    vmp_hot = float(module_mpp(params, HOT_IRRADIANCE_W_M2, hot_tc)[0])
-    pwm_drop = project.choices.drop_limit_array_pct / 100.0 * absorption_v
-    window = st.string_window(
-        project.controller.type,
-        float(project.controller.max_pv_voltage_v),
-        voc_cold,
-        vmp_hot,
-        absorption_v,
-        pwm_drop,
-        module.vmp_v,
-    )
-    return StringLimits(window, voc_cold, rule, vmp_hot, hot_tc, record_low_c, pwm_drop)
-
-
 def pwm_charging_voltage_v(system_voltage_v: float, absorption_v: float) -> float:
     """Battery voltage a PWM array works against: mean of full-rest and absorption voltage.
 
@@ -451,7 +414,15 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     ctype = project.controller.type
     vsys = float(core.battery.system_voltage_v)
     v_abs = float(core.battery.absorption_voltage_v)
-    lim = string_limits(project, temp_day, float(site.record_low_c), v_abs, params)
+    lim = string_limits(
+        module,
+        project.controller,
+        project.choices.drop_limit_array_pct,
+        temp_day,
+        float(site.record_low_c),
+        v_abs,
+        params,
+    )
     window, voc_cold, voc_rule = lim.window, lim.voc_cold_v, lim.voc_rule
     vmp_hot, hot_tc, record_low, pwm_drop = (
         lim.vmp_hot_v,
