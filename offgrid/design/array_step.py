@@ -13,7 +13,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.climate import sky
-from offgrid.design.battery import CHEMISTRIES, units_in_series
+from offgrid.design.battery import CHEMISTRIES, cells_in_series, units_in_series
 from offgrid.design.controller_step import layout_with_controllers, size_controller
 from offgrid.design.electrical.string_layout import string_limits
 from offgrid.design.months import as_tuple
@@ -143,8 +143,7 @@ def size_array(
         max(rough, loads.peak_ac_w * NEC_CONTINUOUS),
         book,
     )
-    n_cells_sys = system_v / 2.0 if chem.lead_acid else system_v / 3.0
-    batt_abs_v = chem.absorption_v_per_cell * n_cells_sys
+    batt_abs_v = chem.absorption_v_per_cell * cells_in_series(battery.chemistry, system_v)
     # String window (offgrid.design.electrical): cold Voc at the record low, hot Vmp from the fitted
     # single-diode model; DesignError when no series count fits the controller.
     lim = string_limits(
