@@ -27,6 +27,8 @@ from offgrid.design.result import DesignError
 from offgrid.design.sizing import design
 from offgrid.project.model import Load
 from tests.conftest import hand_project
+from tests.test_pwm_mppt import _pwm_project
+from tests.test_worst_month import LOAD_LISTS, _bundled
 
 DATA = Path(__file__).parent / "data"
 GOLDEN = DATA / "design-golden.json"
@@ -45,20 +47,6 @@ def _canon(data: dict) -> str:
     return json.dumps(data, sort_keys=True, indent=1)
 
 
-def _bundled(loads_csv: str, climate: str):
-    from offgrid.climate.files import load_climate
-    from offgrid.paths import load_profiles_dir
-    from offgrid.project.loads_csv import load_loads_csv
-    from offgrid.project.model import ClimateChoice, Project, Site
-
-    clim = load_climate(climate)
-    return Project(
-        site=Site(latitude_deg=clim.latitude_deg, longitude_deg=clim.longitude_deg),
-        climate=ClimateChoice(ref=climate),
-        loads=load_loads_csv(load_profiles_dir() / loads_csv),
-    )
-
-
 def _demo():
     from offgrid.paths import demo_project_path
     from offgrid.project.store import load_project
@@ -70,20 +58,7 @@ def _test_projects():
     """Named variants of the hand project and the demo (invented data)."""
     out = {}
     out["hand"] = hand_project()
-    p = hand_project()
-    p.controller.type = "pwm"
-    p.module = replace(
-        p.module,
-        name="36-cell",
-        pmax_w=100.0,
-        vmp_v=18.0,
-        imp_a=5.56,
-        voc_v=22.0,
-        isc_a=5.9,
-        cells_in_series=36,
-        area_m2=0.67,
-    )
-    p.choices.system_voltage = 12
+    p = _pwm_project("pwm", 100.0)  # the 36-cell module on 12 V
     out["hand-pwm-36cell-12v"] = p
     p = hand_project()
     p.controller.type = "pwm"
@@ -166,7 +141,6 @@ def _cases() -> dict[str, dict]:
     from offgrid.paths import demo_project_path
     from offgrid.plan.rows import communities_dir, prepare, row_project
     from offgrid.plan.survey import load_survey
-    from tests.test_worst_month import LOAD_LISTS
 
     cases = {}
     for name, p in _test_projects().items():
