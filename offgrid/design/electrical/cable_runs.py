@@ -39,8 +39,7 @@ LARGE_CONDUCTOR_MM2 = 50.0  # ~1/0 AWG: above this on 12/24 V, suggest a higher 
 
 
 @dataclass(frozen=True)
-class CableStep:
-    wires: tuple[wr.WireChoice, ...]
+class RunPlan:
     runs: tuple[wr.RunSpec, ...]
     fuses_needed: bool  # string fuses
     string_fuse_a: float | None
@@ -49,6 +48,12 @@ class CableStep:
     battery_fuse_a: float | None  # the inverter circuit's, None without an inverter
     charge_max_current_a: float  # each controller's battery output, for its fuse
     charging_voltage_v: float  # the battery voltage a PWM array works against
+
+
+@dataclass(frozen=True)
+class CableStep:
+    wires: tuple[wr.WireChoice, ...]
+    plan: RunPlan
     ambient_c: float
     reasons: dict[str, Reason]
     notices: tuple[Notice, ...]
@@ -61,7 +66,7 @@ def wire_ambient_c(wiring: WiringChoices, temp_day_c) -> float:
     return float(max(temp_day_c))
 
 
-def size_cables(
+def plan_runs(
     module: ModuleSpec,
     params: DiodeParams,
     ctype: str,
@@ -75,12 +80,9 @@ def size_cables(
     loads: list[Load],
     wiring: WiringChoices,
     choices: DesignChoices,
-    ambient_c: float,
-) -> CableStep:
-    """Every run of the system (strings, array, charge, inverter, DC loads) with its currents,
-    fuse and conductor; warnings for very large cables and a wiring derate the cables belie."""
-    rb = ReasonBook()
-    notices: list[Notice] = []
+) -> RunPlan:
+    """Every run of the system (strings, array, charge, inverter, DC loads) with its maximum
+    and operating currents, circuit voltage, length, drop limit and fuse."""
     # Runs and their currents.
     isc, imp = module.isc_a, module.imp_a
     n_c = layout.strings_per_controller
@@ -206,8 +208,52 @@ def size_cables(
                 own,
             )
         )
+    return RunPlan(
+        tuple(runs),
+        fuses_needed,
+        string_fuse,
+        array_fuse,
+        charge_fuse,
+        battery_fuse,
+        i_charge_max,
+        v_chg,
+    )
 
-    ambient = ambient_c
+
+def size_cables(
+    module: ModuleSpec,
+    params: DiodeParams,
+    ctype: str,
+    controller_efficiency: float,
+    controller_current_a: float,
+    controllers: int,
+    vsys: float,
+    v_abs: float,
+    layout: st.Layout,
+    inverter: InverterResult,
+    loads: list[Load],
+    wiring: WiringChoices,
+    choices: DesignChoices,
+    ambient_c: float,
+) -> CableStep:
+    """The runs of :func:`plan_runs` with their conductors sized (PV runs in series share one
+    drop limit), the reasons of every wire, and the cable warnings."""
+    plan = plan_runs(
+        module,
+        params,
+        ctype,
+        controller_efficiency,
+        controller_current_a,
+        controllers,
+        vsys,
+        v_abs,
+        layout,
+        inverter,
+        loads,
+        wiring,
+        choices,
+    )
+    runs, limits, ambient = plan.runs, choices, ambient_c
     cable = (
         wiring.units,
         wiring.material,
@@ -221,13 +267,29 @@ def size_cables(
         wr.size_runs_in_series(pv_runs, limits.drop_limit_array_pct, *cable)
         + [wr.size_conductor(r, *cable) for r in other]
     )
+    return CableStep(
+        wires,
+        plan,
+        ambient,
+        wire_reasons(wires, runs, wiring, ambient),
+        cable_notices(wires, vsys, float(choices.derates.wiring)),
+    )
+
+
+def wire_reasons(
+    wires: tuple[wr.WireChoice, ...],
+    runs: tuple[wr.RunSpec, ...],
+    wiring: WiringChoices,
+    ambient: float,
+) -> dict[str, Reason]:
+    """The reasons of every figure of every wire (``wires.KEY.FIGURE``)."""
+    rb = ReasonBook()
     table = "NEC Chapter 9 Table 8" if wiring.units == "awg" else "IEC 60228"
     amp_table = (
         "NEC Table 310.16 with Table 310.15(B)(1)(1), 110.14(C)"
         if wiring.units == "awg"
         else "IEC 60364-5-52 Tables B.52.4/B.52.5, B.52.14"
     )
-    big = []
     for w in wires:
         base = f"wires.{w.key}"
         kind = w.key if w.key in WIRE_CURRENT_RULE else "load"
@@ -315,8 +377,15 @@ def size_cables(
                 current=fmt(w.current_a, "A"),
                 ampacity=fmt(w.ampacity_a, "A"),
             )
-        if w.area_mm2 >= LARGE_CONDUCTOR_MM2 and vsys <= 24:
-            big.append(w)
+    return rb.freeze()
+
+
+def cable_notices(
+    wires: tuple[wr.WireChoice, ...], vsys: float, wiring_derate: float
+) -> tuple[Notice, ...]:
+    """Very large cables at 12/24 V; a wiring derate the cables as sized do not bear out."""
+    notices: list[Notice] = []
+    big = [w for w in wires if w.area_mm2 >= LARGE_CONDUCTOR_MM2 and vsys <= 24]
     if big:
         names = ", ".join(f"{w.run} ({w.size})" for w in big)
         notices.append(
@@ -332,7 +401,7 @@ def size_cables(
 
     # The derate chain's wiring factor against the cables as sized (drop % ~ power lost %).
     cable_loss = sum(w.drop_pct for w in wires if w.key in ("string", "array", "charge")) / 100
-    chain_loss = 1.0 - float(choices.derates.wiring)
+    chain_loss = 1.0 - wiring_derate
     if abs(chain_loss - cable_loss) > 0.03:
         notices.append(
             Notice(
@@ -350,17 +419,4 @@ def size_cables(
                 "array.derates.wiring",
             )
         )
-    return CableStep(
-        wires,
-        tuple(runs),
-        fuses_needed,
-        string_fuse,
-        array_fuse,
-        charge_fuse,
-        battery_fuse,
-        i_charge_max,
-        v_chg,
-        ambient,
-        rb.freeze(),
-        tuple(notices),
-    )
+    return tuple(notices)

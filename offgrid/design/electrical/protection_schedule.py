@@ -41,9 +41,10 @@ def protection_schedule(
     wires, inv, isc = cables.wires, inverter, isc_a
     layout = strings.layout
     n_c = layout.strings_per_controller
-    fuses_needed, string_fuse = cables.fuses_needed, cables.string_fuse_a
-    array_fuse, charge_fuse = cables.array_fuse_a, cables.charge_fuse_a
-    battery_fuse, i_charge_max = cables.battery_fuse_a, cables.charge_max_current_a
+    plan = cables.plan
+    fuses_needed, string_fuse = plan.fuses_needed, plan.string_fuse_a
+    array_fuse, charge_fuse = plan.array_fuse_a, plan.charge_fuse_a
+    battery_fuse, i_charge_max = plan.battery_fuse_a, plan.charge_max_current_a
     # Protection.
     bat = battery
     unit_sc, estimated = prot.unit_short_circuit_a(
