@@ -7,7 +7,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from offgrid.design.battery import CHEMISTRIES, capacity_temperature_factor, units_in_series
+from offgrid.design.battery import (
+    CHEMISTRIES,
+    Chemistry,
+    capacity_temperature_factor,
+    units_in_series,
+)
 from offgrid.design.months import MONTHS, as_tuple
 from offgrid.design.result import (
     ArrayResult,
@@ -57,14 +62,10 @@ def size_battery(
     (``site.battery_temp_c``, ``site.battery_warm_temp_c``), None for the outdoor air.
     """
     from offgrid.simulate.life import (
-        CALENDAR_TEMPERATURE_SOURCE,
-        CYCLE_LIFE_SOURCE,
         calendar_life_years,
-        cycles_to_failure,
     )
 
     book = ReasonBook()
-    notices: list[Notice] = []
     b = spec
     chem = CHEMISTRIES[b.chemistry]
     dod = choices.max_dod if choices.max_dod is not None else b.max_dod
@@ -125,192 +126,33 @@ def size_battery(
             t_age = np.maximum(t_age, float(room))
             age_from += f", at least the room's {room:g} C"
     cal_years = calendar_life_years(b.chemistry, t_age)
-    book.add(
-        "battery.required_ah",
-        f"{rule}: its daily energy x days of autonomy x temperature factor / (max depth "
-        "of discharge x discharge efficiency x end-of-life capacity) / bank voltage",
-        "common practice (autonomy method); temperature factor: " + chem.temp_source,
-        energy=fmt(energy, "Wh/day"),
-        autonomy=fmt(choices.autonomy_days, "days"),
-        temperature_factor=fmt(f_t),
-        battery_temperature=fmt(t_batt, "C"),
-        max_dod=fmt(dod),
-        discharge_efficiency=fmt(eta_dis),
-        ageing=fmt(choices.ageing_factor),
-        bank_voltage=fmt(bank_v, "V"),
-        worst_month=f"{MONTHS[worst]}: {demand[worst]:.0f} Wh/day x {f_m[worst]:.3f} -> "
-        f"{worst_wh / bank_v:.0f} Ah" + ("" if choices.battery_largest_coldest else " (used)"),
-        largest_x_coldest=f"{demand[big]:.0f} Wh/day ({MONTHS[big]}) x {f_m[cold]:.3f} "
-        f"({MONTHS[cold]}) -> {conservative_wh / bank_v:.0f} Ah"
-        + (" (used)" if choices.battery_largest_coldest else " (conservative option)"),
+    k = BankFigures(
+        chem,
+        dod,
+        series,
+        bank_v,
+        t_cap,
+        f_m,
+        demand,
+        eta_dis,
+        worst,
+        worst_wh,
+        big,
+        cold,
+        conservative_wh,
+        energy,
+        f_t,
+        t_batt,
+        need_ah,
+        parallel,
+        cap_ah,
+        rule,
+        t_age,
+        age_from,
     )
-    book.add(
-        "battery.capacity_ah",
-        "strings in parallel x unit capacity",
-        "common practice, no source",
-        parallel=str(parallel),
-        unit=fmt(b.capacity_ah, "Ah"),
-    )
-    book.add(
-        "battery.units_series",
-        "system voltage / unit voltage",
-        "common practice",
-        system=fmt(system_v, "V"),
-        unit=fmt(b.nominal_voltage_v, "V"),
-    )
-    book.add(
-        "battery.units_parallel",
-        "ceil(required Ah / unit Ah)",
-        "common practice",
-        required=fmt(need_ah, "Ah"),
-        unit=fmt(b.capacity_ah, "Ah"),
-    )
-    book.add(
-        "battery.usable_kwh",
-        "installed Ah x bank voltage x max depth of discharge",
-        "common practice",
-        capacity=fmt(cap_ah, "Ah"),
-        max_dod=fmt(dod),
-        bank_voltage=fmt(bank_v, "V"),
-    )
-    if chem.lead_acid and parallel > 3:
-        notices.append(
-            Notice(
-                "lead-acid-parallel",
-                f"{parallel} parallel strings of lead-acid "
-                "batteries: strings share current unevenly above three; choose "
-                "larger units (or 2 V cells) to keep three or fewer.",
-                "warning",
-                "battery.units_parallel",
-            )
-        )
-    if parallel == 1 and cap_ah > 2.0 * need_ah:
-        notices.append(
-            Notice(
-                "battery-oversized",
-                f"One string of these {b.capacity_ah:g} Ah "
-                f"units is {cap_ah / need_ah:.1f} times the {need_ah:.0f} Ah the "
-                "design needs: smaller units would cost less and charge more "
-                "fully.",
-                "info",
-                "battery.capacity_ah",
-            )
-        )
-    if t_cap[cold] < 5:
-        where = (
-            "the battery room's temperature (site.battery_temp_c)"
-            if room_temp_c is not None
-            else f"the mean air temperature of {MONTHS[cold]}; set site.battery_temp_c for a room"
-        )
-        notices.append(
-            Notice(
-                "battery-cold",
-                f"The battery works at about {t_cap[cold]:.0f} C "
-                f"({where}): it then needs {f_m[cold]:.2f} times its rated "
-                "capacity for the same energy (counted in that month's need); "
-                "insulate it or move it indoors.",
-                "warning",
-                "battery.required_ah",
-            )
-        )
-    book.add(
-        "battery.nominal_kwh",
-        "installed Ah x bank nominal voltage (units in series x unit voltage) / 1000",
-        "common practice, no source",
-        capacity=fmt(cap_ah, "Ah"),
-        bank_voltage=fmt(bank_v, "V"),
-    )
-    book.add(
-        "battery.bank_voltage_v",
-        "units in series x the unit's own nominal voltage",
-        "common practice, no source",
-        series=str(series),
-        unit=fmt(b.nominal_voltage_v, "V"),
-    )
-    book.add(
-        "battery.capacity_temp_c",
-        "battery temperature for capacity in the month the "
-        "bank is sized on: the room's (site.battery_temp_c) or that month's mean air "
-        "temperature",
-        chem.temp_source,
-        month=MONTHS[worst if not choices.battery_largest_coldest else cold],
-    )
-    book.add(
-        "battery.ageing_temp_c",
-        "warmest monthly battery temperature for ageing: " + age_from,
-        "common practice, no source",
-        months=" ".join(f"{t:.0f}" for t in t_age),
-    )
-    book.add(
-        "battery.ageing_temps_c",
-        "battery temperature for ageing, each month: " + age_from,
-        "common practice, no source",
-    )
-    book.add(
-        "battery.calendar_life_years",
-        "float (calendar) life at 25 C / the day-weighted "
-        "mean over the months of 2^((T - 25 C) / 10 C), T the month's battery temperature "
-        "for ageing, no credit below 25 C"
-        if chem.lead_acid
-        else "float (calendar) life of the preset, not corrected for temperature (no source "
-        "for lithium iron phosphate)",
-        CALENDAR_TEMPERATURE_SOURCE + "; life at 25 C from memory",
-        at_25c=fmt(calendar_life_years(b.chemistry), "yr"),
-        warmest=fmt(float(t_age.max()), "C"),
-    )
-    if chem.lead_acid and dod > 0.8 + 1e-9:
-        n_dod = float(cycles_to_failure(b.chemistry, dod))
-        n_half = float(cycles_to_failure(b.chemistry, 0.5))
-        notices.append(
-            Notice(
-                "lead-acid-deep-dod",
-                f"A maximum depth of discharge of {dod:.0%} on {chem.label} "
-                f"batteries: the cycle-life curve used here gives about {n_dod:.0f} cycles to end "
-                f"of life at that depth against {n_half:.0f} at 50 % ({CYCLE_LIFE_SOURCE}), so "
-                f"a bank run that deep on many days wears out in about {n_dod / 365:.1f} years of "
-                "daily cycling. Lead-acid is usually designed for 50 % or less (common practice); "
-                "check the battery's datasheet for its cycle life.",
-                "warning",
-                "battery.max_dod",
-            )
-        )
-    if choices.max_dod is not None:
-        book.given("battery.max_dod", "choices.max_dod", fmt(dod))
-    else:
-        book.given("battery.max_dod", "battery.max_dod", fmt(dod))
-    book.given("battery.autonomy_days", "choices.autonomy_days", fmt(choices.autonomy_days, "days"))
-    book.add(
-        "battery.unit_count",
-        "units in series x strings in parallel",
-        "common practice, no source",
-        series=str(series),
-        parallel=str(parallel),
-    )
-    book.add(
-        "battery.temp_factor",
-        "capacity needed per rated capacity at the battery's "
-        "temperature (1 at 25 C, more in the cold)",
-        chem.temp_source,
-        battery_temperature=fmt(t_batt, "C"),
-        temperature_from="site.battery_temp_c"
-        if room_temp_c is not None
-        else "the sizing month's mean air temperature",
-    )
-    book.given("battery.ageing_factor", "choices.ageing_factor", fmt(choices.ageing_factor))
-    book.add(
-        "battery.discharge_efficiency",
-        "square root of the round-trip efficiency (the "
-        "loss shared equally between charge and discharge)",
-        "common practice, no source",
-        round_trip=fmt(b.efficiency),
-    )
-    book.add(
-        "battery.absorption_voltage_v",
-        "absorption (charging) voltage per cell at 25 C x cells in series",
-        "common practice, no source (check the battery's manual)",
-        per_cell=fmt(chem.absorption_v_per_cell, "V"),
-        chemistry=chem.label,
-    )
+    book.extend(_capacity_reasons(k, spec, choices, system_v))
+    book.extend(_temperature_reasons(k, spec, choices, room_temp_c, cal_years))
+    notices = _battery_notices(k, spec, room_temp_c)
     result = BatteryResult(
         chemistry=b.chemistry,
         system_voltage_v=system_v,
@@ -334,6 +176,268 @@ def size_battery(
         ageing_temps_c=as_tuple(t_age),
     )
     return BatteryStep(result, book.freeze(), tuple(notices))
+
+
+@dataclass(frozen=True)
+class BankFigures:
+    """The bank sizing's intermediate figures, for its reasons and warnings."""
+
+    chem: Chemistry
+    dod: float
+    series: int
+    bank_v: float
+    t_cap: np.ndarray  # battery temperature for capacity, each month [C]
+    f_m: np.ndarray  # capacity-temperature factor, each month
+    demand: np.ndarray
+    eta_dis: float
+    worst: int  # month of the largest demand x factor (0-based)
+    worst_wh: float
+    big: int  # month of the largest demand
+    cold: int  # month of the largest factor
+    conservative_wh: float
+    energy: float
+    f_t: float
+    t_batt: float
+    need_ah: float  # required capacity [Ah]
+    parallel: int
+    cap_ah: float  # installed capacity [Ah]
+    rule: str  # the sizing rule in words
+    t_age: np.ndarray  # battery temperature for ageing, each month [C]
+    age_from: str
+
+
+def _capacity_reasons(
+    k: BankFigures, spec: BatterySpec, choices: DesignChoices, system_v: int
+) -> dict[str, Reason]:
+    """Reasons of the bank's capacity, voltage and unit counts."""
+    rule = k.rule
+    worst = k.worst
+    demand = k.demand
+    f_m = k.f_m
+    worst_wh = k.worst_wh
+    bank_v = k.bank_v
+    big = k.big
+    cold = k.cold
+    conservative_wh = k.conservative_wh
+    b = spec
+    book = ReasonBook()
+    book.add(
+        "battery.required_ah",
+        f"{rule}: its daily energy x days of autonomy x temperature factor / (max depth "
+        "of discharge x discharge efficiency x end-of-life capacity) / bank voltage",
+        "common practice (autonomy method); temperature factor: " + k.chem.temp_source,
+        energy=fmt(k.energy, "Wh/day"),
+        autonomy=fmt(choices.autonomy_days, "days"),
+        temperature_factor=fmt(k.f_t),
+        battery_temperature=fmt(k.t_batt, "C"),
+        max_dod=fmt(k.dod),
+        discharge_efficiency=fmt(k.eta_dis),
+        ageing=fmt(choices.ageing_factor),
+        bank_voltage=fmt(k.bank_v, "V"),
+        worst_month=f"{MONTHS[worst]}: {demand[worst]:.0f} Wh/day x {f_m[worst]:.3f} -> "
+        f"{worst_wh / bank_v:.0f} Ah" + ("" if choices.battery_largest_coldest else " (used)"),
+        largest_x_coldest=f"{demand[big]:.0f} Wh/day ({MONTHS[big]}) x {f_m[cold]:.3f} "
+        f"({MONTHS[cold]}) -> {conservative_wh / bank_v:.0f} Ah"
+        + (" (used)" if choices.battery_largest_coldest else " (conservative option)"),
+    )
+    book.add(
+        "battery.capacity_ah",
+        "strings in parallel x unit capacity",
+        "common practice, no source",
+        parallel=str(k.parallel),
+        unit=fmt(b.capacity_ah, "Ah"),
+    )
+    book.add(
+        "battery.units_series",
+        "system voltage / unit voltage",
+        "common practice",
+        system=fmt(system_v, "V"),
+        unit=fmt(b.nominal_voltage_v, "V"),
+    )
+    book.add(
+        "battery.units_parallel",
+        "ceil(required Ah / unit Ah)",
+        "common practice",
+        required=fmt(k.need_ah, "Ah"),
+        unit=fmt(b.capacity_ah, "Ah"),
+    )
+    book.add(
+        "battery.usable_kwh",
+        "installed Ah x bank voltage x max depth of discharge",
+        "common practice",
+        capacity=fmt(k.cap_ah, "Ah"),
+        max_dod=fmt(k.dod),
+        bank_voltage=fmt(k.bank_v, "V"),
+    )
+    book.add(
+        "battery.nominal_kwh",
+        "installed Ah x bank nominal voltage (units in series x unit voltage) / 1000",
+        "common practice, no source",
+        capacity=fmt(k.cap_ah, "Ah"),
+        bank_voltage=fmt(k.bank_v, "V"),
+    )
+    book.add(
+        "battery.bank_voltage_v",
+        "units in series x the unit's own nominal voltage",
+        "common practice, no source",
+        series=str(k.series),
+        unit=fmt(b.nominal_voltage_v, "V"),
+    )
+    book.add(
+        "battery.capacity_temp_c",
+        "battery temperature for capacity in the month the "
+        "bank is sized on: the room's (site.battery_temp_c) or that month's mean air "
+        "temperature",
+        k.chem.temp_source,
+        month=MONTHS[k.worst if not choices.battery_largest_coldest else k.cold],
+    )
+    book.add(
+        "battery.ageing_temp_c",
+        "warmest monthly battery temperature for ageing: " + k.age_from,
+        "common practice, no source",
+        months=" ".join(f"{t:.0f}" for t in k.t_age),
+    )
+    return book.freeze()
+
+
+def _temperature_reasons(
+    k: BankFigures, spec: BatterySpec, choices: DesignChoices, room_temp_c, cal_years
+):
+    """Reasons of the temperatures, ageing, life and efficiencies."""
+    from offgrid.simulate.life import CALENDAR_TEMPERATURE_SOURCE, calendar_life_years
+
+    b = spec
+    book = ReasonBook()
+    book.add(
+        "battery.ageing_temps_c",
+        "battery temperature for ageing, each month: " + k.age_from,
+        "common practice, no source",
+    )
+    book.add(
+        "battery.calendar_life_years",
+        "float (calendar) life at 25 C / the day-weighted "
+        "mean over the months of 2^((T - 25 C) / 10 C), T the month's battery temperature "
+        "for ageing, no credit below 25 C"
+        if k.chem.lead_acid
+        else "float (calendar) life of the preset, not corrected for temperature (no source "
+        "for lithium iron phosphate)",
+        CALENDAR_TEMPERATURE_SOURCE + "; life at 25 C from memory",
+        at_25c=fmt(calendar_life_years(b.chemistry), "yr"),
+        warmest=fmt(float(k.t_age.max()), "C"),
+    )
+    if choices.max_dod is not None:
+        book.given("battery.max_dod", "choices.max_dod", fmt(k.dod))
+    else:
+        book.given("battery.max_dod", "battery.max_dod", fmt(k.dod))
+    book.given("battery.autonomy_days", "choices.autonomy_days", fmt(choices.autonomy_days, "days"))
+    book.add(
+        "battery.unit_count",
+        "units in series x strings in parallel",
+        "common practice, no source",
+        series=str(k.series),
+        parallel=str(k.parallel),
+    )
+    book.add(
+        "battery.temp_factor",
+        "capacity needed per rated capacity at the battery's "
+        "temperature (1 at 25 C, more in the cold)",
+        k.chem.temp_source,
+        battery_temperature=fmt(k.t_batt, "C"),
+        temperature_from="site.battery_temp_c"
+        if room_temp_c is not None
+        else "the sizing month's mean air temperature",
+    )
+    book.given("battery.ageing_factor", "choices.ageing_factor", fmt(choices.ageing_factor))
+    book.add(
+        "battery.discharge_efficiency",
+        "square root of the round-trip efficiency (the "
+        "loss shared equally between charge and discharge)",
+        "common practice, no source",
+        round_trip=fmt(b.efficiency),
+    )
+    book.add(
+        "battery.absorption_voltage_v",
+        "absorption (charging) voltage per cell at 25 C x cells in series",
+        "common practice, no source (check the battery's manual)",
+        per_cell=fmt(k.chem.absorption_v_per_cell, "V"),
+        chemistry=k.chem.label,
+    )
+    return book.freeze()
+
+
+def _battery_notices(
+    k: BankFigures, spec: BatterySpec, room_temp_c: float | None
+) -> tuple[Notice, ...]:
+    """Warnings: too many lead-acid strings, an oversized unit, a cold bank, deep cycling."""
+    parallel = k.parallel
+    cap_ah = k.cap_ah
+    need_ah = k.need_ah
+    cold = k.cold
+    t_cap = k.t_cap
+    f_m = k.f_m
+    dod = k.dod
+    chem = k.chem
+    from offgrid.simulate.life import CYCLE_LIFE_SOURCE, cycles_to_failure
+
+    b = spec
+    notices: list[Notice] = []
+    if k.chem.lead_acid and k.parallel > 3:
+        notices.append(
+            Notice(
+                "lead-acid-parallel",
+                f"{parallel} parallel strings of lead-acid "
+                "batteries: strings share current unevenly above three; choose "
+                "larger units (or 2 V cells) to keep three or fewer.",
+                "warning",
+                "battery.units_parallel",
+            )
+        )
+    if k.parallel == 1 and k.cap_ah > 2.0 * k.need_ah:
+        notices.append(
+            Notice(
+                "battery-oversized",
+                f"One string of these {b.capacity_ah:g} Ah "
+                f"units is {cap_ah / need_ah:.1f} times the {need_ah:.0f} Ah the "
+                "design needs: smaller units would cost less and charge more "
+                "fully.",
+                "info",
+                "battery.capacity_ah",
+            )
+        )
+    if k.t_cap[k.cold] < 5:
+        where = (
+            "the battery room's temperature (site.battery_temp_c)"
+            if room_temp_c is not None
+            else f"the mean air temperature of {MONTHS[cold]}; set site.battery_temp_c for a room"
+        )
+        notices.append(
+            Notice(
+                "battery-cold",
+                f"The battery works at about {t_cap[cold]:.0f} C "
+                f"({where}): it then needs {f_m[cold]:.2f} times its rated "
+                "capacity for the same energy (counted in that month's need); "
+                "insulate it or move it indoors.",
+                "warning",
+                "battery.required_ah",
+            )
+        )
+    if k.chem.lead_acid and k.dod > 0.8 + 1e-9:
+        n_dod = float(cycles_to_failure(b.chemistry, k.dod))
+        n_half = float(cycles_to_failure(b.chemistry, 0.5))
+        notices.append(
+            Notice(
+                "lead-acid-deep-dod",
+                f"A maximum depth of discharge of {dod:.0%} on {chem.label} "
+                f"batteries: the cycle-life curve used here gives about {n_dod:.0f} cycles to end "
+                f"of life at that depth against {n_half:.0f} at 50 % ({CYCLE_LIFE_SOURCE}), so "
+                f"a bank run that deep on many days wears out in about {n_dod / 365:.1f} years of "
+                "daily cycling. Lead-acid is usually designed for 50 % or less (common practice); "
+                "check the battery's datasheet for its cycle life.",
+                "warning",
+                "battery.max_dod",
+            )
+        )
+    return tuple(notices)
 
 
 def charge_rate(
