@@ -216,6 +216,115 @@ def size_array(
     ctrl = ctrl_step.controller
     book.extend(ctrl_step.reasons)
     supply = power * poa * monthly_total
+    book.extend(
+        _array_reasons(
+            ArrayFigures(
+                demand=demand,
+                dm=dm,
+                poa=poa,
+                total=total,
+                temp_text=temp_text,
+                t_cell=t_cell,
+                g_w=g_w,
+                site=site,
+                m=m,
+                soil_text=soil_text,
+                required=required,
+                ns=ns,
+                n_par=n_par,
+                string_w=string_w,
+                system_v=system_v,
+                d=d,
+                ctrl_spec=ctrl_spec,
+                batt_rt=batt_rt,
+                derates=derates,
+                voc_cold=voc_cold,
+                vmp_hot=vmp_hot,
+            )
+        )
+    )
+    array = ArrayResult(
+        power_w=float(power),
+        required_power_w=required,
+        module_power_w=m.pmax_w,
+        modules_series=ns,
+        modules_parallel=n_par,
+        module_count=ns * n_par,
+        derates=derates,
+        derate_total=total,
+        cell_temp_c=as_tuple(t_cell),
+        supply_wh_day=as_tuple(supply),
+        voc_cold_v=float(voc_cold),
+        vmp_hot_v=float(vmp_hot),
+        string_voc_cold_v=float(ns * voc_cold),
+        string_vmp_hot_v=float(ns * vmp_hot),
+    )
+
+    if ctrl.count > 1:
+        notices.append(
+            Notice(
+                "several-controllers",
+                f"{ctrl.count} charge controllers of "
+                f"{ctrl.current_a:g} A are needed; give each its own group of "
+                f"{n_par // ctrl.count} strings.",
+                "info",
+                "controller.current_a",
+            )
+        )
+    return ArrayStep(array, ctrl, system_v, batt_abs_v, dm, book.freeze(), tuple(notices))
+
+
+@dataclass(frozen=True)
+class ArrayFigures:
+    """The figures of the array sizing that its reasons quote (inputs and results)."""
+
+    demand: np.ndarray
+    dm: int
+    poa: np.ndarray
+    total: float
+    temp_text: str
+    t_cell: np.ndarray
+    g_w: np.ndarray
+    site: SiteResult
+    m: ModuleSpec
+    soil_text: str
+    required: float
+    ns: int
+    n_par: int
+    string_w: float
+    system_v: int
+    d: Derates
+    ctrl_spec: ControllerSpec
+    batt_rt: float
+    derates: dict[str, float]
+    voc_cold: float
+    vmp_hot: float
+
+
+def _array_reasons(k: ArrayFigures) -> dict[str, Reason]:
+    """Reasons of the array's power, derates, cell temperature and string voltages."""
+    demand = k.demand
+    dm = k.dm
+    poa = k.poa
+    total = k.total
+    temp_text = k.temp_text
+    t_cell = k.t_cell
+    g_w = k.g_w
+    site = k.site
+    m = k.m
+    soil_text = k.soil_text
+    required = k.required
+    ns = k.ns
+    n_par = k.n_par
+    string_w = k.string_w
+    system_v = k.system_v
+    d = k.d
+    ctrl_spec = k.ctrl_spec
+    batt_rt = k.batt_rt
+    derates = k.derates
+    voc_cold = k.voc_cold
+    vmp_hot = k.vmp_hot
+    book = ReasonBook()
     book.add(
         "array.required_power_w",
         "design-month demand / (peak sun hours x product of derates), the largest of "
@@ -306,32 +415,4 @@ def size_array(
         series=str(ns),
         vmp_hot=fmt(vmp_hot, "V"),
     )
-    array = ArrayResult(
-        power_w=float(power),
-        required_power_w=required,
-        module_power_w=m.pmax_w,
-        modules_series=ns,
-        modules_parallel=n_par,
-        module_count=ns * n_par,
-        derates=derates,
-        derate_total=total,
-        cell_temp_c=as_tuple(t_cell),
-        supply_wh_day=as_tuple(supply),
-        voc_cold_v=float(voc_cold),
-        vmp_hot_v=float(vmp_hot),
-        string_voc_cold_v=float(ns * voc_cold),
-        string_vmp_hot_v=float(ns * vmp_hot),
-    )
-
-    if ctrl.count > 1:
-        notices.append(
-            Notice(
-                "several-controllers",
-                f"{ctrl.count} charge controllers of "
-                f"{ctrl.current_a:g} A are needed; give each its own group of "
-                f"{n_par // ctrl.count} strings.",
-                "info",
-                "controller.current_a",
-            )
-        )
-    return ArrayStep(array, ctrl, system_v, batt_abs_v, dm, book.freeze(), tuple(notices))
+    return book.freeze()
