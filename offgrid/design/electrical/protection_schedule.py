@@ -166,6 +166,64 @@ def protection_schedule(
         n_bat if n_bat >= 2 else 0,
         bat_string_fuse,
     )
+
+    rb.extend(
+        _protection_reasons(
+            ProtectionFigures(
+                estimated=estimated,
+                unit_sc=unit_sc,
+                n_bat=n_bat,
+                battery_fuse=battery_fuse,
+                inv=inv,
+                fault=fault,
+                unit_capacity_ah=unit_capacity_ah,
+                bat_string_fuse=bat_string_fuse,
+                string_fuse=string_fuse,
+                isc=isc,
+                bank_v=bank_v,
+                strings=strings,
+                n_c=n_c,
+            )
+        )
+    )
+    return ProtectionStep(protection, rb.freeze())
+
+
+@dataclass(frozen=True)
+class ProtectionFigures:
+    """The figures of the protection schedule that its reasons quote."""
+
+    estimated: bool
+    unit_sc: float
+    n_bat: int
+    battery_fuse: float | None
+    inv: InverterResult
+    fault: float
+    unit_capacity_ah: float
+    bat_string_fuse: float | None
+    string_fuse: float | None
+    isc: float
+    bank_v: float
+    strings: StringDesign
+    n_c: int
+
+
+def _protection_reasons(k: ProtectionFigures) -> dict[str, Reason]:
+    """Reasons of the fault current, the battery and string fuses and the device ratings."""
+    estimated = k.estimated
+    unit_sc = k.unit_sc
+    n_bat = k.n_bat
+    battery_fuse = k.battery_fuse
+    inv = k.inv
+    fault = k.fault
+    unit_capacity_ah = k.unit_capacity_ah
+    bat_string_fuse = k.bat_string_fuse
+    string_fuse = k.string_fuse
+    isc = k.isc
+    bank_v = k.bank_v
+    strings = k.strings
+    n_c = k.n_c
+    rb = ReasonBook()
     rb.add(
         "protection.bank_fault_current_a",
         "sum over parallel strings of one unit's short-circuit current",
@@ -241,4 +299,4 @@ def protection_schedule(
         f"{NEC} 690.9(A); IEC 62548:2016 7.3.3",
         strings_per_controller=str(n_c),
     )
-    return ProtectionStep(protection, rb.freeze())
+    return rb.freeze()
