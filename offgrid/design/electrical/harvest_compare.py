@@ -136,6 +136,107 @@ def compare_harvests(
         (pwm_layout.series, pwm_layout.parallel),
         (mppt_layout.series, mppt_layout.parallel),
     )
+    rb.extend(
+        _harvest_reasons(
+            HarvestFigures(
+                vsys=vsys,
+                v_abs=v_abs,
+                pwm=pwm,
+                m=m,
+                n_pwm=n_pwm,
+                per_pwm=per_pwm,
+                mppt=mppt,
+                n_mppt=n_mppt,
+                per_mppt=per_mppt,
+                ms=ms,
+                chosen=chosen,
+                eta_batt=eta_batt,
+                demand=demand,
+                mppt_layout=mppt_layout,
+                eff=eff,
+                soiling=soiling,
+                mismatch=mismatch,
+                v_chg=v_chg,
+                pwm_layout=pwm_layout,
+            )
+        )
+    )
+    if shortfall > 0.5:
+        notices.append(
+            Notice(
+                "harvest-shortfall",
+                f"Through the {ctype.upper()} controller the array delivers "
+                f"{chosen[ms]:.0f} Wh/day in {MONTH_NAMES[ms]}; after the battery's round trip "
+                f"({eta_batt:.0%}) that is {shortfall:.0f} % below the {demand:.0f} Wh/day the "
+                "loads need: add modules"
+                + (" or use an MPPT controller" if ctype == "pwm" else "")
+                + ".",
+                "warning",
+                "array.harvest_pwm_wh_day" if ctype == "pwm" else "array.harvest_mppt_wh_day",
+            )
+        )
+    if ctype == "pwm" and pwm_vs < -20.0:
+        notices.append(
+            Notice(
+                "pwm-mismatch",
+                f"This module suits a PWM controller badly at {vsys:.0f} V: PWM "
+                f"harvests {-pwm_vs:.0f} % less per module than MPPT would in the design month. "
+                "Use an MPPT "
+                "controller or modules whose Vmp is nearer the battery voltage.",
+                "warning",
+                "array.harvest_pwm_wh_day",
+            )
+        )
+    return HarvestStep(harvest, rb.freeze(), tuple(notices))
+
+
+@dataclass(frozen=True)
+class HarvestFigures:
+    """The figures of the harvest comparison that its reasons quote."""
+
+    vsys: float
+    v_abs: float
+    pwm: np.ndarray
+    m: int
+    n_pwm: int
+    per_pwm: float
+    mppt: np.ndarray
+    n_mppt: int
+    per_mppt: float
+    ms: int
+    chosen: np.ndarray
+    eta_batt: float
+    demand: float
+    mppt_layout: st.Layout
+    eff: float
+    soiling: float
+    mismatch: float
+    v_chg: float
+    pwm_layout: st.Layout
+
+
+def _harvest_reasons(k: HarvestFigures) -> dict[str, Reason]:
+    """Reasons of the charging voltage, both harvests, their layouts and the shortfall."""
+    vsys = k.vsys
+    v_abs = k.v_abs
+    pwm = k.pwm
+    m = k.m
+    n_pwm = k.n_pwm
+    per_pwm = k.per_pwm
+    mppt = k.mppt
+    n_mppt = k.n_mppt
+    per_mppt = k.per_mppt
+    ms = k.ms
+    chosen = k.chosen
+    eta_batt = k.eta_batt
+    demand = k.demand
+    mppt_layout = k.mppt_layout
+    eff = k.eff
+    soiling = k.soiling
+    mismatch = k.mismatch
+    v_chg = k.v_chg
+    pwm_layout = k.pwm_layout
+    rb = ReasonBook()
     hsrc = (
         "De Soto (2006) I-V curve at each step of the month's mean day (Collares-Pereira & "
         "Rabl 1979 / Liu & Jordan profile, isotropic sky, scaled to the monthly POA)"
@@ -197,30 +298,4 @@ def compare_harvests(
         series=str(pwm_layout.series),
         parallel=str(pwm_layout.parallel),
     )
-    if shortfall > 0.5:
-        notices.append(
-            Notice(
-                "harvest-shortfall",
-                f"Through the {ctype.upper()} controller the array delivers "
-                f"{chosen[ms]:.0f} Wh/day in {MONTH_NAMES[ms]}; after the battery's round trip "
-                f"({eta_batt:.0%}) that is {shortfall:.0f} % below the {demand:.0f} Wh/day the "
-                "loads need: add modules"
-                + (" or use an MPPT controller" if ctype == "pwm" else "")
-                + ".",
-                "warning",
-                "array.harvest_pwm_wh_day" if ctype == "pwm" else "array.harvest_mppt_wh_day",
-            )
-        )
-    if ctype == "pwm" and pwm_vs < -20.0:
-        notices.append(
-            Notice(
-                "pwm-mismatch",
-                f"This module suits a PWM controller badly at {vsys:.0f} V: PWM "
-                f"harvests {-pwm_vs:.0f} % less per module than MPPT would in the design month. "
-                "Use an MPPT "
-                "controller or modules whose Vmp is nearer the battery voltage.",
-                "warning",
-                "array.harvest_pwm_wh_day",
-            )
-        )
-    return HarvestStep(harvest, rb.freeze(), tuple(notices))
+    return rb.freeze()

@@ -124,6 +124,58 @@ def lay_out_strings(
         layout.series * vmp_hot,
         changed,
     )
+    rb.extend(_string_reasons(module, params, ctype, strings, temp_day, v_abs))
+    if window.hot_vmp_short and ctype == "pwm":
+        notices.append(
+            Notice(
+                "pwm-hot-vmp",
+                f"In the hottest month the string's Vmp falls to "
+                f"{layout.series * vmp_hot:.1f} V, below the {window.required_vmp_v:.1f} V the "
+                "battery needs at absorption: charging slows in the midday heat (the PWM harvest "
+                "includes it). An MPPT controller with one more module in series avoids it.",
+                "info",
+                "array.vmp_hot_v",
+            )
+        )
+    return StringStep(strings, lim, rb.freeze(), tuple(notices))
+
+
+def other_layout(
+    ctype: str,
+    layout: st.Layout,
+    module_vmp_v: float,
+    max_pv_voltage_v: float,
+    voc_cold: float,
+    vmp_hot: float,
+    v_abs: float,
+    pwm_drop: float,
+) -> st.Layout:
+    """Layout of the same modules for the controller type not chosen, for the comparison."""
+    n, k = layout.module_count, layout.controllers
+    if ctype == "mppt":  # PWM: fewest modules in series that suit the battery (STC Vmp)
+        s = max(1, math.ceil((v_abs + pwm_drop) / module_vmp_v - 1e-9))
+        per = math.ceil(math.ceil(n / s) / k)
+        return st.Layout(s, per * k, k, per, s * per * k)
+    try:
+        win = st.string_window("mppt", float(max_pv_voltage_v), voc_cold, vmp_hot, v_abs)
+    except DesignError:
+        return layout
+    return st.choose_layout(win, n, k)
+
+
+def _string_reasons(
+    module: ModuleSpec,
+    params: DiodeParams,
+    ctype: str,
+    strings: StringDesign,
+    temp_day: np.ndarray,
+    v_abs: float,
+) -> dict[str, Reason]:
+    """Reasons of the string window and the layout's voltages."""
+    window, layout = strings.window, strings.layout
+    voc_cold, voc_rule, vmp_hot = strings.voc_cold_v, strings.voc_cold_rule, strings.vmp_hot_v
+    hot_tc, record_low = strings.hot_cell_temp_c, strings.record_low_c
+    rb = ReasonBook()
     rb.add(
         "array.voc_cold_v",
         "module Voc at the record low ambient: Voc x (1 + beta (Tlow - "
@@ -234,39 +286,4 @@ def lay_out_strings(
             required=fmt(window.required_vmp_v, "V"),
             vmp_stc=fmt(module.vmp_v, "V"),
         )
-    if window.hot_vmp_short and ctype == "pwm":
-        notices.append(
-            Notice(
-                "pwm-hot-vmp",
-                f"In the hottest month the string's Vmp falls to "
-                f"{layout.series * vmp_hot:.1f} V, below the {window.required_vmp_v:.1f} V the "
-                "battery needs at absorption: charging slows in the midday heat (the PWM harvest "
-                "includes it). An MPPT controller with one more module in series avoids it.",
-                "info",
-                "array.vmp_hot_v",
-            )
-        )
-    return StringStep(strings, lim, rb.freeze(), tuple(notices))
-
-
-def other_layout(
-    ctype: str,
-    layout: st.Layout,
-    module_vmp_v: float,
-    max_pv_voltage_v: float,
-    voc_cold: float,
-    vmp_hot: float,
-    v_abs: float,
-    pwm_drop: float,
-) -> st.Layout:
-    """Layout of the same modules for the controller type not chosen, for the comparison."""
-    n, k = layout.module_count, layout.controllers
-    if ctype == "mppt":  # PWM: fewest modules in series that suit the battery (STC Vmp)
-        s = max(1, math.ceil((v_abs + pwm_drop) / module_vmp_v - 1e-9))
-        per = math.ceil(math.ceil(n / s) / k)
-        return st.Layout(s, per * k, k, per, s * per * k)
-    try:
-        win = st.string_window("mppt", float(max_pv_voltage_v), voc_cold, vmp_hot, v_abs)
-    except DesignError:
-        return layout
-    return st.choose_layout(win, n, k)
+    return rb.freeze()
