@@ -22,6 +22,7 @@ from offgrid.design.electrical.cable_runs import (  # noqa: F401  (re-exported)
     NEC,
     WIRE_CURRENT_RULE,
     WIRE_DROP_CURRENT_RULE,
+    plan_runs,
     size_cables,
     wire_ambient_c,
 )
@@ -116,7 +117,7 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         module, params, ctype, lim, noon.temp_day_c, v_abs, core.array, controllers
     )
     strings, layout = lay.strings, lay.strings.layout
-    cables = size_cables(
+    plan = plan_runs(
         module,
         params,
         ctype,
@@ -130,8 +131,9 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         project.loads,
         wiring,
         project.choices,
-        wire_ambient_c(wiring, site.temp_day_c),
     )
+    ambient_c = wire_ambient_c(wiring, site.temp_day_c)
+    cables = size_cables(plan, wiring, project.choices, vsys, ambient_c)
     crop = compare_harvests(
         params,
         module,

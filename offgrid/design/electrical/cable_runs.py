@@ -221,39 +221,11 @@ def plan_runs(
 
 
 def size_cables(
-    module: ModuleSpec,
-    params: DiodeParams,
-    ctype: str,
-    controller_efficiency: float,
-    controller_current_a: float,
-    controllers: int,
-    vsys: float,
-    v_abs: float,
-    layout: st.Layout,
-    inverter: InverterResult,
-    loads: list[Load],
-    wiring: WiringChoices,
-    choices: DesignChoices,
-    ambient_c: float,
+    plan: RunPlan, wiring: WiringChoices, choices: DesignChoices, vsys: float, ambient_c: float
 ) -> CableStep:
     """The runs of :func:`plan_runs` with their conductors sized (PV runs in series share one
     drop limit), the reasons of every wire, and the cable warnings."""
-    plan = plan_runs(
-        module,
-        params,
-        ctype,
-        controller_efficiency,
-        controller_current_a,
-        controllers,
-        vsys,
-        v_abs,
-        layout,
-        inverter,
-        loads,
-        wiring,
-        choices,
-    )
-    runs, limits, ambient = plan.runs, choices, ambient_c
+    runs, ambient = plan.runs, ambient_c
     cable = (
         wiring.units,
         wiring.material,
@@ -264,7 +236,7 @@ def size_cables(
     pv_runs = [r for r in runs if r.key in ("string", "array")]
     other = [r for r in runs if r.key not in ("string", "array")]
     wires = tuple(
-        wr.size_runs_in_series(pv_runs, limits.drop_limit_array_pct, *cable)
+        wr.size_runs_in_series(pv_runs, choices.drop_limit_array_pct, *cable)
         + [wr.size_conductor(r, *cable) for r in other]
     )
     return CableStep(
