@@ -12,6 +12,7 @@ from offgrid.design import protection as prot
 from offgrid.design import strings as st
 from offgrid.design import wiring as wr
 from offgrid.design.electrical.harvest_compare import pwm_charging_voltage_v
+from offgrid.design.inverter_step import inverter_dc_current_a
 from offgrid.design.pv import DiodeParams, module_current
 from offgrid.design.result import InverterResult, Notice, Reason, ReasonBook, fmt
 from offgrid.project.model import DesignChoices, Load, ModuleSpec, WiringChoices
@@ -165,8 +166,8 @@ def plan_runs(
     battery_fuse = None
     if inv.needed:
         i_inv = float(inv.dc_input_current_a)
-        if not i_inv > 0:
-            i_inv = float(inv.continuous_w) / (float(inv.efficiency) * vsys)
+        if not i_inv > 0:  # a core built by hand: the inverter step's one formula
+            i_inv = inverter_dc_current_a(float(inv.continuous_w), float(inv.efficiency), vsys)
         battery_fuse = prot.standard_rating_a(1.25 * i_inv, what="inverter circuit", field="loads")
         runs.append(
             wr.RunSpec(
