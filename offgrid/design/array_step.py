@@ -58,12 +58,11 @@ def energy_weighted_irradiance(poa_kwh_m2_day, daylight_h):
 
 
 def choose_system_voltage(
-    chosen: int | str, unit_v: float, power_w: float, book: ReasonBook
-) -> int:
-    """The user's system voltage, or the auto rule (lowest that keeps DC current <= 100 A).
-
-    ``book``: the calling step's own reasons (the figure is the step's).
-    """
+    chosen: int | str, unit_v: float, power_w: float
+) -> tuple[int, dict[str, Reason]]:
+    """The user's system voltage, or the auto rule (lowest that keeps DC current <= 100 A),
+    with its reason."""
+    book = ReasonBook()
     if chosen != "auto":
         book.add(
             "battery.system_voltage_v",
@@ -71,7 +70,7 @@ def choose_system_voltage(
             "project file",
             system_voltage=fmt(int(chosen), "V"),
         )
-        return int(chosen)
+        return int(chosen), book.freeze()
     for v in (12, 24, 48):
         if power_w / v <= AUTO_VOLTAGE_MAX_CURRENT_A and units_in_series(v, unit_v):
             break
@@ -85,7 +84,7 @@ def choose_system_voltage(
         power=fmt(power_w, "W"),
         unit_voltage=fmt(unit_v, "V"),
     )
-    return v
+    return v, book.freeze()
 
 
 def soiling_factor(d: Derates) -> tuple[float, str]:
@@ -137,12 +136,12 @@ def size_array(
     rough = float(
         np.max(np.divide(demand, poa * f_temp_mppt * chain, out=np.zeros(12), where=poa > 0))
     )
-    system_v = choose_system_voltage(
+    system_v, voltage_reasons = choose_system_voltage(
         choices.system_voltage,
         battery.nominal_voltage_v,
         max(rough, loads.peak_ac_w * NEC_CONTINUOUS),
-        book,
     )
+    book.extend(voltage_reasons)
     batt_abs_v = chem.absorption_v_per_cell * cells_in_series(battery.chemistry, system_v)
     # String window (offgrid.design.electrical): cold Voc at the record low, hot Vmp from the fitted
     # single-diode model; DesignError when no series count fits the controller.
