@@ -62,7 +62,7 @@ def compare_harvests(
 
     rb = ReasonBook()
     notices: list[Notice] = []
-    profile, step_h, temp_day, m = noon.profile, noon.step_h, noon.temp_day_c, design_month
+    m = design_month
     # Harvest both ways with the chosen cables; the other controller type on its own layout.
     loop = {w.key: 2.0 * w.length_m * w.resistance_ohm_km / 1000.0 for w in wires}
     alt = other_layout(
@@ -70,44 +70,9 @@ def compare_harvests(
     )
     mppt_layout, pwm_layout = (layout, alt) if ctype == "mppt" else (alt, layout)
 
-    def run_harvest(lay: st.Layout) -> tuple[np.ndarray, np.ndarray]:
-        # controllers with n strings each; when the strings do not share out equally, some
-        # controllers have one string fewer.  The other controller type's layout gets PV
-        # cables sized for the same fractional loss as the chosen layout's (string run: the
-        # same current at s_alt/s volts; array run: n_alt strings at s_alt/s volts), so the
-        # comparison is of the controllers, not of cables sized for the other one.
-        r_str, r_arr = loop.get("string", 0.0), loop["array"]
-        if lay is not layout:
-            r_str *= lay.series / layout.series
-            r_arr *= (
-                layout.strings_per_controller
-                * lay.series
-                / (max(1, lay.strings_per_controller) * layout.series)
-            )
-        k = lay.controllers
-        groups = {lay.parallel // k + 1: lay.parallel % k, lay.parallel // k: k - lay.parallel % k}
-        total = [np.zeros(12), np.zeros(12)]
-        for n_str, n_ctrl in groups.items():
-            if n_str < 1 or n_ctrl < 1:
-                continue
-            hin = HarvestInputs(
-                lay.series,
-                n_str,
-                n_ctrl,
-                v_chg,
-                eff,
-                soiling,
-                mismatch,
-                r_str,
-                r_arr,
-                loop["charge"],
-            )
-            got = harvest_wh_day(params, profile, step_h, temp_day, module.noct_c, hin)
-            total = [total[0] + got[0], total[1] + got[1]]
-        return total[0], total[1]
-
-    mppt = run_harvest(mppt_layout)[0]
-    pwm = run_harvest(pwm_layout)[1]
+    common = (params, module.noct_c, noon, layout, loop, v_chg, eff, soiling, mismatch)
+    mppt = layout_harvest_wh_day(mppt_layout, *common)[0]
+    pwm = layout_harvest_wh_day(pwm_layout, *common)[1]
     chosen = pwm if ctype == "pwm" else mppt
     demand_m = np.asarray(daily_energy_wh, dtype=float)
     eta_batt = float(battery_efficiency)
@@ -188,6 +153,60 @@ def compare_harvests(
             )
         )
     return HarvestStep(harvest, rb.freeze(), tuple(notices))
+
+
+def layout_harvest_wh_day(
+    lay: st.Layout,
+    params: DiodeParams,
+    noct_c: float,
+    noon,
+    layout: st.Layout,
+    loop: dict[str, float],
+    v_chg: float,
+    eff: float,
+    soiling: float,
+    mismatch: float,
+) -> tuple[np.ndarray, np.ndarray]:
+    """Daily harvest (MPPT, PWM) [Wh/day, 12 months] of the modules laid out as ``lay``.
+
+    ``layout``: the chosen controller's layout, whose cables (``loop``: each run's loop
+    resistance [ohm]) were sized; ``noon``: the mean-day profile and temperatures.
+    """
+    profile, step_h, temp_day = noon.profile, noon.step_h, noon.temp_day_c
+    # controllers with n strings each; when the strings do not share out equally, some
+    # controllers have one string fewer.  The other controller type's layout gets PV
+    # cables sized for the same fractional loss as the chosen layout's (string run: the
+    # same current at s_alt/s volts; array run: n_alt strings at s_alt/s volts), so the
+    # comparison is of the controllers, not of cables sized for the other one.
+    r_str, r_arr = loop.get("string", 0.0), loop["array"]
+    if lay is not layout:
+        r_str *= lay.series / layout.series
+        r_arr *= (
+            layout.strings_per_controller
+            * lay.series
+            / (max(1, lay.strings_per_controller) * layout.series)
+        )
+    k = lay.controllers
+    groups = {lay.parallel // k + 1: lay.parallel % k, lay.parallel // k: k - lay.parallel % k}
+    total = [np.zeros(12), np.zeros(12)]
+    for n_str, n_ctrl in groups.items():
+        if n_str < 1 or n_ctrl < 1:
+            continue
+        hin = HarvestInputs(
+            lay.series,
+            n_str,
+            n_ctrl,
+            v_chg,
+            eff,
+            soiling,
+            mismatch,
+            r_str,
+            r_arr,
+            loop["charge"],
+        )
+        got = harvest_wh_day(params, profile, step_h, temp_day, noct_c, hin)
+        total = [total[0] + got[0], total[1] + got[1]]
+    return total[0], total[1]
 
 
 @dataclass(frozen=True)
