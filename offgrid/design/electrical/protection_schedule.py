@@ -6,6 +6,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from offgrid.design import protection as prot
+from offgrid.design import wiring as wr
 from offgrid.design.electrical.cable_runs import NEC, CableStep
 from offgrid.design.electrical.records import ProtectionResult, StringDesign
 from offgrid.design.result import BatteryResult, InverterResult, Reason, ReasonBook, fmt
@@ -20,6 +21,35 @@ class ProtectionStep:
 
 def _device_kind(rating: float | None, kind: str) -> str:
     return "fuse" if rating in prot.FUSE_ONLY_RATINGS_A else kind
+
+
+def load_circuit_devices(
+    wires: tuple[wr.WireChoice, ...], loads: list[Load], vsys: float, bank_v: float
+) -> list[prot.Device]:
+    """One fuse or breaker per DC load circuit, at the DC distribution board (a motor's
+    starting current noted)."""
+    devices: list[prot.Device] = []
+    for w in wires:
+        if w.key.startswith("load"):
+            load = loads[int(w.key[4:]) - 1]
+            note = ""
+            if load.surge_w > load.power_w > 0:
+                note = (
+                    f"starts at about {load.quantity * load.surge_w / vsys:.0f} A: a "
+                    "time-delay fuse or a breaker with a motor-start curve"
+                )
+            devices.append(
+                prot.Device(
+                    f"{w.run} circuit, at the DC distribution board",
+                    _device_kind(w.fuse_a, "fuse or breaker"),
+                    w.fuse_a,
+                    bank_v,
+                    1,
+                    note=note,
+                    source=f"{NEC} 240.4, 240.6(A)",
+                )
+            )
+    return devices
 
 
 def protection_schedule(
@@ -135,26 +165,7 @@ def protection_schedule(
             source=f"{NEC} 706.15",
         )
     )
-    for w in wires:
-        if w.key.startswith("load"):
-            load = loads[int(w.key[4:]) - 1]
-            note = ""
-            if load.surge_w > load.power_w > 0:
-                note = (
-                    f"starts at about {load.quantity * load.surge_w / vsys:.0f} A: a "
-                    "time-delay fuse or a breaker with a motor-start curve"
-                )
-            devices.append(
-                prot.Device(
-                    f"{w.run} circuit, at the DC distribution board",
-                    _device_kind(w.fuse_a, "fuse or breaker"),
-                    w.fuse_a,
-                    bank_v,
-                    1,
-                    note=note,
-                    source=f"{NEC} 240.4, 240.6(A)",
-                )
-            )
+    devices.extend(load_circuit_devices(wires, loads, vsys, bank_v))
     protection = ProtectionResult(
         tuple(devices),
         fuses_needed,
