@@ -127,57 +127,14 @@ def sun_on_plane(
         "(1982); Duffie & Beckman 4th ed. sec. 2.19"
     )
     if res.capped is not None and res.capped.any():
-        from offgrid.climate.checks import MONTHS
-
-        held = [m for m in range(12) if res.capped[m]]
-        formula += "; held at the clearest-sky insolation on the plane in " + ", ".join(
-            MONTHS[m] for m in held
-        )
-        source += (
-            "; ceiling: Ineichen & Perez (2002) clear sky at the Linke turbidity of "
-            "Ineichen (2008) with no aerosol and 0.2 cm water vapour"
-        )
-        notices.append(
-            Notice(
-                "poa-capped",
-                "In "
-                + ", ".join(
-                    f"{MONTHS[m]} ({res.uncapped_kwh_m2_day[m]:.2f} -> "
-                    f"{res.poa_kwh_m2_day[m]:.2f} kWh/m2/day)"
-                    for m in held
-                )
-                + " the monthly transposition gave more sun on the array than cloudless days "
-                "in the clearest plausible air could bring to it (the noon sun is low over the "
-                "horizon); the array-plane value is held at that ceiling. Treat these months "
-                "as uncertain and confirm them with measured or hourly data.",
-                "warning",
-                "site.poa_kwh_m2_day",
-            )
-        )
+        more_formula, more_source, held = _ceiling_terms(res)
+        formula, source = formula + more_formula, source + more_source
+        notices.extend(held)
     if horizon:
-        lost = float((res.beam_lost_kwh_m2_day * sky.DAYS_IN_MONTH).sum())
-        total = float(((res.poa_kwh_m2_day + res.beam_lost_kwh_m2_day) * sky.DAYS_IN_MONTH).sum())
-        formula += (
-            "; beam term x the share of the plane's beam with the sun above the horizon profile"
-        )
-        source += "; sun positions: Reda & Andreas (2004) SPA through pvlib"
-        inputs["horizon"] = ", ".join(f"{a:g}:{e:g}" for a, e in horizon)
-        inputs["horizon loss"] = fmt(100.0 * lost / total if total > 0 else 0.0, "% a year")
-        from offgrid.climate.horizon import sky_share_blocked
-
-        hidden = sky_share_blocked(horizon)
-        if hidden > 0.10:
-            notices.append(
-                Notice(
-                    "horizon-diffuse",
-                    f"The horizon profile hides about {hidden:.0%} of the sky's "
-                    "diffuse light (on a level surface); only the sun's direct beam is removed "
-                    "behind it, so the array-plane insolation reads high by up to about that share "
-                    "of its diffuse part. Allow a margin for a deep valley or tall obstructions.",
-                    "warning",
-                    "site.poa_kwh_m2_day",
-                )
-            )
+        more_formula, more_source, more_inputs, hidden = _horizon_terms(res, horizon)
+        formula, source = formula + more_formula, source + more_source
+        inputs.update(more_inputs)
+        notices.extend(hidden)
     book.add("site.poa_kwh_m2_day", formula, source, **inputs)
     return SunStep(
         float(tilt),
@@ -192,6 +149,66 @@ def sun_on_plane(
         book.freeze(),
         tuple(notices),
     )
+
+
+def _ceiling_terms(res) -> tuple[str, str, list[Notice]]:
+    """Formula and source words, and the warning, for months held at the clear-sky ceiling."""
+    from offgrid.climate.checks import MONTHS
+
+    held = [m for m in range(12) if res.capped[m]]
+    formula = "; held at the clearest-sky insolation on the plane in " + ", ".join(
+        MONTHS[m] for m in held
+    )
+    source = (
+        "; ceiling: Ineichen & Perez (2002) clear sky at the Linke turbidity of "
+        "Ineichen (2008) with no aerosol and 0.2 cm water vapour"
+    )
+    notices = [
+        Notice(
+            "poa-capped",
+            "In "
+            + ", ".join(
+                f"{MONTHS[m]} ({res.uncapped_kwh_m2_day[m]:.2f} -> "
+                f"{res.poa_kwh_m2_day[m]:.2f} kWh/m2/day)"
+                for m in held
+            )
+            + " the monthly transposition gave more sun on the array than cloudless days "
+            "in the clearest plausible air could bring to it (the noon sun is low over the "
+            "horizon); the array-plane value is held at that ceiling. Treat these months "
+            "as uncertain and confirm them with measured or hourly data.",
+            "warning",
+            "site.poa_kwh_m2_day",
+        )
+    ]
+    return formula, source, notices
+
+
+def _horizon_terms(res, horizon) -> tuple[str, str, dict[str, str], list[Notice]]:
+    """Formula and source words, inputs and the warning of a horizon profile."""
+    lost = float((res.beam_lost_kwh_m2_day * sky.DAYS_IN_MONTH).sum())
+    total = float(((res.poa_kwh_m2_day + res.beam_lost_kwh_m2_day) * sky.DAYS_IN_MONTH).sum())
+    formula = "; beam term x the share of the plane's beam with the sun above the horizon profile"
+    source = "; sun positions: Reda & Andreas (2004) SPA through pvlib"
+    inputs = {}
+    inputs["horizon"] = ", ".join(f"{a:g}:{e:g}" for a, e in horizon)
+    inputs["horizon loss"] = fmt(100.0 * lost / total if total > 0 else 0.0, "% a year")
+    from offgrid.climate.horizon import sky_share_blocked
+
+    hidden = sky_share_blocked(horizon)
+    notices: list[Notice] = []
+    if hidden > 0.10:
+        notices.append(
+            Notice(
+                "horizon-diffuse",
+                f"The horizon profile hides about {hidden:.0%} of the sky's "
+                "diffuse light (on a level surface); only the sun's direct beam is removed "
+                "behind it, so the array-plane insolation reads high by up to about that share "
+                "of its diffuse part. Allow a margin for a deep valley or tall obstructions.",
+                "warning",
+                "site.poa_kwh_m2_day",
+            )
+        )
+    return formula, source, inputs, notices
 
 
 def site_record(site: Site, climate: MonthlyClimate, sun: SunStep, demand_wh_day) -> SiteStep:
