@@ -98,6 +98,49 @@ def soiling_factor(d: Derates) -> tuple[float, str]:
     return d.soiling, "fixed soiling factor"
 
 
+def temperature_factor(coefficient_pct_per_c: float, t_cell_c):
+    """1 + coefficient x (cell temperature - 25 C): the module's power (gamma_Pmax) or
+    current (alpha_Isc) at the cell temperature relative to STC (datasheet coefficients)."""
+    return 1.0 + coefficient_pct_per_c / 100.0 * (t_cell_c - 25.0)
+
+
+def temperature_and_operating_point(
+    ctype: str, m: ModuleSpec, t_cell, system_v: int, wiring_derate: float, ns: int
+) -> tuple[np.ndarray, str, np.ndarray, list[Notice]]:
+    """Each month's temperature derate and operating-point factor, and the PWM warning.
+
+    MPPT: 1 + gamma_Pmax (Tc - 25 C), operating point 1.  PWM: the array works at the
+    battery's charging voltage (1.1 x system voltage plus the wiring drop), its current
+    ~ Imp (1 + alpha_Isc (Tc - 25 C)), so the factor is that voltage x Imp / Pmax, at most 1.
+    """
+    notices: list[Notice] = []
+    if ctype == "mppt":
+        f_temp = temperature_factor(m.gamma_pmax_pct_per_c, t_cell)
+        temp_text = "1 + gamma_Pmax x (cell temperature - 25 C)"
+        f_op = np.ones(12)
+    else:
+        # PWM: the array works at battery voltage, its current ~ Imp (1 + alpha dT).
+        f_temp = temperature_factor(m.alpha_isc_pct_per_c, t_cell)
+        temp_text = "1 + alpha_Isc x (cell temperature - 25 C) (PWM: current-limited)"
+        v_op_module = (system_v * 1.1 * (2.0 - wiring_derate)) / ns
+        f_op_scalar = min(1.0, v_op_module * m.imp_a / m.pmax_w)
+        f_op = np.full(12, f_op_scalar)
+        if ns * m.vmp_v > 1.6 * system_v:
+            notices.append(
+                Notice(
+                    "pwm-voltage-waste",
+                    f"With PWM the {ns}-module string (Vmp {ns * m.vmp_v:.0f} V)"
+                    f" is pulled down to about {system_v * 1.1:.0f} V, so only {f_op_scalar:.0%} "
+                    "of "
+                    "its power is used: choose an MPPT controller or modules made for a "
+                    f"{system_v} V battery.",
+                    "warning",
+                    "array.power_w",
+                )
+            )
+    return f_temp, temp_text, f_op, notices
+
+
 def size_array(
     module: ModuleSpec,
     ctrl_spec: ControllerSpec,
@@ -123,15 +166,13 @@ def size_array(
     daylight = sky.daylight_hours(site.latitude_deg)
     g_w = energy_weighted_irradiance(poa, daylight)
     t_cell = cell_temperature_ross(site.temp_day_c, g_w, m.noct_c)
-    gamma = m.gamma_pmax_pct_per_c / 100.0
-    alpha = m.alpha_isc_pct_per_c / 100.0
     d = choices.derates
     soiling, soil_text = soiling_factor(d)
     batt_rt = battery.efficiency
     chem = CHEMISTRIES[battery.chemistry]
 
     # A first estimate of power (MPPT chain) fixes the system voltage.
-    f_temp_mppt = 1.0 + gamma * (t_cell - 25.0)
+    f_temp_mppt = temperature_factor(m.gamma_pmax_pct_per_c, t_cell)
     chain = soiling * d.mismatch * d.wiring * ctrl_spec.efficiency * batt_rt
     rough = float(
         np.max(np.divide(demand, poa * f_temp_mppt * chain, out=np.zeros(12), where=poa > 0))
@@ -162,30 +203,10 @@ def size_array(
         window=f"{window.min_series}-{window.max_series}",
     )
     ns = window.min_series
-    if ctrl_spec.type == "mppt":
-        f_temp = f_temp_mppt
-        temp_text = "1 + gamma_Pmax x (cell temperature - 25 C)"
-        f_op = np.ones(12)
-    else:
-        # PWM: the array works at battery voltage, its current ~ Imp (1 + alpha dT).
-        f_temp = 1.0 + alpha * (t_cell - 25.0)
-        temp_text = "1 + alpha_Isc x (cell temperature - 25 C) (PWM: current-limited)"
-        v_op_module = (system_v * 1.1 * (2.0 - d.wiring)) / ns
-        f_op_scalar = min(1.0, v_op_module * m.imp_a / m.pmax_w)
-        f_op = np.full(12, f_op_scalar)
-        if ns * m.vmp_v > 1.6 * system_v:
-            notices.append(
-                Notice(
-                    "pwm-voltage-waste",
-                    f"With PWM the {ns}-module string (Vmp {ns * m.vmp_v:.0f} V)"
-                    f" is pulled down to about {system_v * 1.1:.0f} V, so only {f_op_scalar:.0%} "
-                    "of "
-                    "its power is used: choose an MPPT controller or modules made for a "
-                    f"{system_v} V battery.",
-                    "warning",
-                    "array.power_w",
-                )
-            )
+    f_temp, temp_text, f_op, pwm_notices = temperature_and_operating_point(
+        ctrl_spec.type, m, t_cell, system_v, d.wiring, ns
+    )
+    notices.extend(pwm_notices)
 
     # The design month: the month whose derated supply covers its demand least.
     monthly_total = f_temp * f_op * chain
