@@ -210,25 +210,9 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         er = electrical_design(project, core, params)
     arr_notices = list(arr.notices)
     if core.array.module_count != first:
-        arr_notices.append(
-            Notice(
-                "array-raised-for-harvest",
-                f"The array was raised from {first} to "
-                f"{core.array.module_count} modules: through the "
-                f"{arr.controller.type.upper()} controller the I-V curves deliver less than the "
-                "derate chain assumed in at least one month.",
-                "info",
-                "array.power_w",
-            )
-        )
-        book.add(
-            "array.modules_parallel",
-            "raised until the daily harvest through the chosen "
-            "controller, after the battery round trip, covers every month's demand",
-            "De Soto (2006) I-V curves over the month's mean day (offgrid.design.harvest)",
-            first=str(first),
-            now=str(core.array.module_count),
-        )
+        note, why = _raised_for_harvest(first, core.array.module_count, arr.controller.type)
+        arr_notices.append(note)
+        book.extend(why)
     rate = charge_rate(arr.array, arr.controller, bat.battery, project.module.imp_a)
     book.extend(rate.reasons)
     battery = replace(
@@ -255,3 +239,26 @@ def _idle_notices(lr: LoadResult) -> list[Notice]:
             )
         ]
     return []
+
+
+def _raised_for_harvest(first: int, now: int, ctype: str) -> tuple[Notice, dict]:
+    """The note and the reason of an array raised until the I-V harvest covers the demand."""
+    book = ReasonBook()
+    note = Notice(
+        "array-raised-for-harvest",
+        f"The array was raised from {first} to "
+        f"{now} modules: through the "
+        f"{ctype.upper()} controller the I-V curves deliver less than the "
+        "derate chain assumed in at least one month.",
+        "info",
+        "array.power_w",
+    )
+    book.add(
+        "array.modules_parallel",
+        "raised until the daily harvest through the chosen "
+        "controller, after the battery round trip, covers every month's demand",
+        "De Soto (2006) I-V curves over the month's mean day (offgrid.design.harvest)",
+        first=str(first),
+        now=str(now),
+    )
+    return note, book.freeze()
