@@ -67,6 +67,41 @@ def wire_ambient_c(wiring: WiringChoices, temp_day_c) -> float:
     return float(max(temp_day_c))
 
 
+def dc_load_runs(
+    loads: list[Load], vsys: float, wiring: WiringChoices, drop_limit_pct: float
+) -> list[wr.RunSpec]:
+    """One run per DC load with power: quantity x power / system voltage, its own length
+    (``loads[N].run_m``) or the default (``wiring.dc_load_run_m``), fuse >= 1.25 x current."""
+    runs: list[wr.RunSpec] = []
+    for n_load, load in enumerate(loads, start=1):
+        if load.ac_dc != "dc" or not load.quantity * load.power_w > 0:
+            continue
+        i_load = load.quantity * load.power_w / vsys
+        own = f"loads[{n_load}].run_m"
+        length = wiring.dc_load_run_m if load.run_m is None else load.run_m
+        field = "wiring.dc_load_run_m" if load.run_m is None else own
+        runs.append(
+            wr.RunSpec(
+                f"load{n_load}",
+                f"DC load '{load.name}'",
+                i_load,
+                i_load,
+                vsys,
+                length,
+                drop_limit_pct,
+                prot.standard_rating_a(
+                    1.25 * i_load,
+                    what=f"DC load '{load.name}' circuit",
+                    field=f"loads[{n_load}].power_w",
+                ),
+                1,
+                field,
+                own,
+            )
+        )
+    return runs
+
+
 def plan_runs(
     module: ModuleSpec,
     params: DiodeParams,
@@ -183,32 +218,7 @@ def plan_runs(
                 "wiring.battery_inverter_m",
             )
         )
-    for n_load, load in enumerate(loads, start=1):
-        if load.ac_dc != "dc" or not load.quantity * load.power_w > 0:
-            continue
-        i_load = load.quantity * load.power_w / vsys
-        own = f"loads[{n_load}].run_m"
-        length = wiring.dc_load_run_m if load.run_m is None else load.run_m
-        field = "wiring.dc_load_run_m" if load.run_m is None else own
-        runs.append(
-            wr.RunSpec(
-                f"load{n_load}",
-                f"DC load '{load.name}'",
-                i_load,
-                i_load,
-                vsys,
-                length,
-                limits.drop_limit_load_pct,
-                prot.standard_rating_a(
-                    1.25 * i_load,
-                    what=f"DC load '{load.name}' circuit",
-                    field=f"loads[{n_load}].power_w",
-                ),
-                1,
-                field,
-                own,
-            )
-        )
+    runs.extend(dc_load_runs(loads, vsys, wiring, limits.drop_limit_load_pct))
     return RunPlan(
         tuple(runs),
         fuses_needed,
