@@ -9,6 +9,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 
+from offgrid.design.protection import pv_fuse_min_a
 from offgrid.design.ratings import CONTROLLER_RATINGS_A, NEC_CONTINUOUS, next_rating
 from offgrid.design.result import ControllerResult, DesignError, Reason, ReasonBook, fmt
 from offgrid.design.strings import Layout, StringWindow, choose_layout
@@ -40,8 +41,8 @@ def controller_input_current_a(
     PWM: 1.25 x 1.25 x Isc x strings (NEC 690.8(A)(1) and (B)(1)); MPPT: 1.25 x power /
     battery voltage (the converter's output current with the continuous factor).
     """
-    if ctype == "pwm":
-        return NEC_CONTINUOUS * NEC_CONTINUOUS * isc_a * strings
+    if ctype == "pwm":  # the same product as the PV circuit's device minimum
+        return pv_fuse_min_a(isc_a, strings)
     return NEC_CONTINUOUS * power_w / system_v
 
 
