@@ -26,13 +26,15 @@ import numpy as np
 
 from offgrid.climate.files import ClimateFileError, load_climate
 from offgrid.climate.model import MonthlyClimate
-from offgrid.design.array_step import (  # noqa: F401  (energy_weighted_irradiance re-exported)
+from offgrid.design.array_step import (  # noqa: F401  (re-exported: names imported from here)
+    AUTO_VOLTAGE_MAX_CURRENT_A,
     ArrayStep,
     energy_weighted_irradiance,
     size_array,
 )
 from offgrid.design.battery_step import charge_rate, size_battery
 from offgrid.design.cautions import DEFERS_TO_CODE  # noqa: F401  (re-exported)
+from offgrid.design.controller_step import MAX_CONTROLLERS  # noqa: F401  (re-exported)
 from offgrid.design.inverter_step import (
     INVERTER_SURGE_MULTIPLE,  # noqa: F401  (re-exported)
     size_inverter,
@@ -40,8 +42,19 @@ from offgrid.design.inverter_step import (
 from offgrid.design.loads import analyse_loads
 from offgrid.design.months import MONTHS  # noqa: F401  (re-exported)
 from offgrid.design.pv import cell_temperature_ross  # noqa: F401  (the one Ross model)
+from offgrid.design.ratings import (  # noqa: F401  (re-exported)
+    CONTROLLER_RATINGS_A,
+    INVERTER_RATINGS_W,
+    NEC_CONTINUOUS,
+    next_rating,
+)
 from offgrid.design.result import DesignError, LoadResult, Notice, ReasonBook, SystemDesign
-from offgrid.design.site_step import confirm_design_month, site_record, sun_on_plane
+from offgrid.design.site_step import (
+    LOW_SUN_KWH_M2_DAY,  # noqa: F401  (re-exported)
+    confirm_design_month,
+    site_record,
+    sun_on_plane,
+)
 from offgrid.project.model import Project
 
 #: The chosen controller's harvest may fall this far below the demand before modules are
