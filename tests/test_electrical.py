@@ -212,7 +212,7 @@ def test_pwm_60_cell_on_24_v_is_suitable_but_short_in_the_heat(project):
 
 
 def test_array_is_raised_when_the_chosen_harvest_falls_short(project, monkeypatch):
-    import offgrid.design.electrical as el
+    import offgrid.design.electrical.harvest_compare as el
 
     real = el.harvest_wh_day
 

@@ -75,6 +75,13 @@ def cells_per_unit(chemistry: str, unit_voltage_v: float) -> int:
     return max(1, round(unit_voltage_v / CHEMISTRIES[chemistry].cell_voltage_v))
 
 
+def cells_in_series(chemistry: str, system_voltage_v: float) -> float:
+    """Cells in series of a bank at a nominal system voltage: 2 V a lead-acid cell, 3 V a
+    lithium iron phosphate cell (its 12 V class); the one count behind the absorption
+    voltage and the ventilation caution (common practice, no source)."""
+    return system_voltage_v / (2.0 if CHEMISTRIES[chemistry].lead_acid else 3.0)
+
+
 def units_in_series(system_voltage_v: float, unit_voltage_v: float) -> int | None:
     """Whole number of units that make the system voltage, or None if they cannot.
 

@@ -80,6 +80,10 @@ class ReasonBook:
             f"as set in {field} (typed, or the default)", (("value", value),), "project file"
         )
 
+    def extend(self, reasons: dict[str, Reason]) -> None:
+        """Take in a step's own reasons; a later reason of the same figure replaces the earlier."""
+        self._items.update(reasons)
+
     def freeze(self) -> dict[str, Reason]:
         return dict(self._items)
 
