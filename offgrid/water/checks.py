@@ -4,6 +4,7 @@ shape; each problem names the field (``water[1].pump.flow_m3_h``) and the fix.""
 from __future__ import annotations
 
 import math
+from itertools import pairwise
 
 from offgrid.water.fields import WATER_FIELDS
 
@@ -48,7 +49,7 @@ def supply_problems(supply, where: str) -> list[tuple[str, str]]:
     for name, pts in (("head_points_m", heads), ("power_points_w", powers)):
         if len(pts) < 2 or any(not _finite(v) or v < 0 for v in pts):
             out.append((f"{pw}.{name}", "needs at least two numbers 0 or more from the datasheet"))
-        elif any(b <= a for a, b in zip(pts, pts[1:], strict=False)):
+        elif any(b <= a for a, b in pairwise(pts)):
             out.append((f"{pw}.{name}", "must rise from one point to the next"))
     shape_msg = (
         f"needs one row per head ({len(heads)}) with one flow per power ({len(powers)}), "
@@ -62,8 +63,11 @@ def supply_problems(supply, where: str) -> list[tuple[str, str]]:
         vt = p.voltage_v
         if len(vt) != len(heads) or any(len(row) != len(powers) for row in vt):
             out.append(
-                (f"{pw}.voltage_v", "a direct-drive pump " + shape_msg.replace("flow", "voltage")
-                 .replace("in m3/h", "in V"))
+                (
+                    f"{pw}.voltage_v",
+                    "a direct-drive pump "
+                    + shape_msg.replace("flow", "voltage").replace("in m3/h", "in V"),
+                )
             )
         elif any(not _finite(v) or v <= 0 or v > 1500 for row in vt for v in row):
             out.append((f"{pw}.voltage_v", "voltages must be numbers above 0 and up to 1500 V"))

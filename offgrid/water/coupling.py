@@ -26,7 +26,7 @@ from offgrid.design.pv import (
     open_circuit_voltage,
 )
 
-BISECTION_STEPS = 60
+BISECTION_STEPS = 44  # 2^-44 of Voc: below 1e-11 V
 
 
 @dataclass(frozen=True)

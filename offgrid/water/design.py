@@ -33,7 +33,7 @@ MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", 
 #: sectional steel tanks).
 TANK_SIZES_M3 = (1.0, 2.0, 3.0, 5.0, 10.0, 15.0, 20.0, 25.0, 30.0, 40.0, 50.0, 75.0, 100.0)
 MAX_PARALLEL = 40
-HEAD_ITERATIONS = 5
+HEAD_ITERATIONS = 8
 
 
 @dataclass(frozen=True)
@@ -56,6 +56,7 @@ class DayConditions:
 @dataclass(frozen=True)
 class DailyFlows:
     head_m: float  # duty head (at the day's peak flow)
+    head_flow_m3_h: float  # the flow the duty head was taken at (the last peak flow)
     flow_m3_h: np.ndarray  # (..., steps)
     power_w: np.ndarray  # input power to the pump set (..., steps)
     volume_m3_day: np.ndarray  # (...)
@@ -148,20 +149,27 @@ def daily_flows(params, supply, cond: DayConditions, layout: ArrayLayout, g=None
     g = cond.irradiance_w_m2 if g is None else g
     tc = cond.cell_temp_c(g)
     q_peak = 0.0
-    head = float(hy.total_dynamic_head_m(supply, 0.0))
+    p_fixed = None
+    if supply.pump.drive == "controller":  # the array's MPP does not depend on the head
+        pump = pump_at_head(supply.pump, float(hy.total_dynamic_head_m(supply, 0.0)))
+        p_fixed = input_power_w(params, supply, g, tc, layout, pump, cond.mismatch)
     for _ in range(HEAD_ITERATIONS):
-        head = float(hy.total_dynamic_head_m(supply, q_peak))
+        q_head = q_peak
+        head = float(hy.total_dynamic_head_m(supply, q_head))
         pump = pump_at_head(supply.pump, head, "water.pump")
-        p = input_power_w(params, supply, g, tc, layout, pump, cond.mismatch)
+        if p_fixed is None:
+            p = input_power_w(params, supply, g, tc, layout, pump, cond.mismatch)
+        else:
+            p = p_fixed
         q = flow_at_power_m3_h(pump, p)
         new_peak = float(q.max()) if q.size else 0.0
-        if abs(new_peak - q_peak) < 1e-4:
+        if abs(new_peak - q_peak) < 1e-3:
             q_peak = new_peak
             break
         q_peak = new_peak
     step = cond.step_h.reshape((12,) + (1,) * (q.ndim - 1))
     vol = (q * step).sum(axis=-1)
-    return DailyFlows(head, q, p, vol, pump)
+    return DailyFlows(head, q_head, q, p, vol, pump)
 
 
 def start_irradiance_w_m2(params, supply, cond: DayConditions, layout, pump: PumpAtHead, month):
@@ -183,10 +191,10 @@ def _layouts(params: DiodeParams, project, supply, cond: DayConditions, t_low: f
         params, 1000.0, cell_temperature_ross(cond.temp_day_c[hot], 1000.0, m.noct_c)
     )
     vmp_hot = float(vmp_hot)
-    s_max = int(math.floor(sp.max_input_v / voc_cold))
+    s_max = math.floor(sp.max_input_v / voc_cold)
     s_min = 1
     if sp.drive == "controller":
-        s_min = max(1, int(math.ceil(sp.min_input_v / vmp_hot)))
+        s_min = max(1, math.ceil(sp.min_input_v / vmp_hot))
     if s_max < s_min:
         raise DesignError(
             "pump-window",
@@ -205,7 +213,7 @@ def standard_tank(required_m3: float) -> tuple[float, int]:
         if size >= required_m3 - 1e-9:
             return size, 1
     big = TANK_SIZES_M3[-1]
-    return big, int(math.ceil(required_m3 / big))
+    return big, math.ceil(required_m3 / big)
 
 
 def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesign:
@@ -270,10 +278,11 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
     lim = int(np.argmin(cover))
     q_peak = float(fl.flow_m3_h.max())
     head = fl.head_m
+    q_h = fl.head_flow_m3_h  # the head's parts at the flow it was taken at
     d = supply.pipe_diameter_mm / 1000.0
-    friction = float(hy.friction_head_m(supply, q_peak))
-    minor = float(hy.minor_loss_head_m(q_peak, d, supply.minor_loss_k))
-    drawdown = float(hy.drawdown_at_m(q_peak, supply.drawdown_m, supply.drawdown_test_m3_h))
+    friction = float(hy.friction_head_m(supply, q_h))
+    minor = float(hy.minor_loss_head_m(q_h, d, supply.minor_loss_k))
+    drawdown = float(hy.drawdown_at_m(q_h, supply.drawdown_m, supply.drawdown_test_m3_h))
     vel = float(hy.velocity_m_s(q_peak, d))
     e_hyd = float(hy.hydraulic_energy_wh(fl.volume_m3_day[lim], head)) / 1000.0
     k = int(np.argmax(fl.flow_m3_h[lim]))
