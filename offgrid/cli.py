@@ -22,6 +22,7 @@ COMMANDS: tuple[str, ...] = (
     "prices",
     "variants",
     "plan",
+    "water",
 )
 VERSION_FLAGS = ("--version", "-V")
 
