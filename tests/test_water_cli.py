@@ -47,3 +47,34 @@ def test_infeasible_head_is_refused_with_the_reason(capsys, tmp_path):
     assert e.value.code == 3
     err = json.loads(capsys.readouterr().out)["error"]
     assert err["code"] == "pump-head" and "cannot lift" in err["message"]
+
+
+def test_water_report_file(capsys, tmp_path):
+    out = tmp_path / "water.md"
+    assert main(["water", "--demo", "--years", "0", "--report", str(out)]) == 0
+    text = out.read_text()
+    assert "Water supply:" in text and "Total dynamic head" in text
+    assert "Float switch" in text or "float switch" in text
+    assert "invented" in text
+
+
+def test_water_lines_in_the_project_bom_and_report():
+    # A project with a power system and a water supply: the pumping parts join the bill of
+    # materials and the report gains a water section.
+    import copy
+
+    from offgrid.design.sizing import design
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.project.store import load_project
+    from offgrid.report.build import build_report
+
+    power = load_project(demo_project_path())
+    water = load_project(demo_water_path())
+    both = copy.deepcopy(power)
+    both.water = water.water
+    d = design(both)
+    kinds = {line.kind for line in bill_of_materials(both, d)}
+    assert {"water.pump", "water.tank", "water.float_switch"} <= kinds
+    report = build_report(both, d, with_charts=False)
+    assert report.section("water-1") is not None
+    assert build_report(power, design(power), with_charts=False).section("water-1") is None

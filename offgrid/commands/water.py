@@ -22,6 +22,12 @@ def register(sub) -> None:
         "--years", type=int, default=30, help="years of synthetic weather (default 30; 0: none)"
     )
     p.add_argument("--seed", type=int, default=1, help="seed of the synthetic weather")
+    p.add_argument(
+        "--report",
+        metavar="FILE",
+        help="also write the pumping report to FILE (.md: Markdown, else plain text)",
+    )
+    p.add_argument("--force", action="store_true", help="overwrite the report FILE if it exists")
     with_example(
         p,
         "offgrid water --demo",
@@ -44,6 +50,14 @@ def run(args: argparse.Namespace) -> int:
         args.project, args.demo = str(demo_water_path()), False
     if not 0 <= args.years <= 1000:
         fail("--years: give 0 to 1000 years", field="--years")
+    from pathlib import Path
+
+    from offgrid.commands.common import reading_path
+    from offgrid.commands.output import check_writable, write_output
+
+    out = Path(args.report) if args.report else None
+    if out is not None:
+        check_writable(out, args.force, reading_path(args))
     project, base = open_project(args)
     if not project.water:
         fail(
@@ -64,6 +78,16 @@ def run(args: argparse.Namespace) -> int:
         sections.append(water_section(w, supply, rel))
         lines.extend(water_lines(w, supply, rel))
         lines.append("")
+    if out is not None:
+        from offgrid.water.report import water_report
+
+        report = water_report(project, base)
+        if out.suffix.lower() in (".md", ".markdown"):
+            from offgrid.report.markdown import render_markdown as render
+        else:
+            from offgrid.report.text import render_text as render
+        write_output(out, render(report), reading_path(args))
+        print(f"offgrid: wrote {out}", file=sys.stderr)
     if args.json:
         from offgrid.commands.common import json_text
 

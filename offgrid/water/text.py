@@ -97,3 +97,16 @@ def _wrap(text: str, first: str) -> list[str]:
     import textwrap
 
     return textwrap.wrap(text, width=80, initial_indent=first, subsequent_indent=" " * len(first))
+
+
+def water_bom_lines(project, base=None) -> list:
+    """The pumping parts of every supply as :class:`~offgrid.economics.bom.BomLine` records."""
+    from offgrid.economics.bom import BomLine
+    from offgrid.water.design import water_design
+
+    out = []
+    for i, supply in enumerate(project.water):
+        w = water_design(project, i, base)
+        for key, desc, qty, unit, note in water_bom(w, supply):
+            out.append(BomLine(f"{key}:{desc}", desc, qty, unit, note or f"water[{i + 1}]"))
+    return out
