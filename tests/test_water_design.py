@@ -202,3 +202,25 @@ def test_field_metadata_paths_exist():
         assert f.low < f.high and f.label and f.hint
     assert len({f.path for f in WATER_FIELDS}) == len(WATER_FIELDS)
     assert dataclasses.is_dataclass(s)
+
+
+def test_pipe_suggestion_and_drop_cable(demo):
+    from offgrid.water.design import suggested_pipe_mm
+
+    s = demo.water[0]
+    # at 2 m3/h, 20 mm is 1.77 m/s but its friction over 250 m is far above 10 % of 28 m
+    # of lift; the suggestion meets both limits and the next smaller bore fails one
+    bore = suggested_pipe_mm(s, 2.0)
+    trial = dataclasses.replace(s, pipe_diameter_mm=bore)
+    assert float(hy.velocity_m_s(2.0, bore / 1000)) <= 2.0
+    assert float(hy.friction_head_m(trial, 2.0)) <= 0.1 * (s.static_level_m + s.tank_height_m)
+    from offgrid.water.design import PIPE_BORES_MM
+
+    smaller = PIPE_BORES_MM[PIPE_BORES_MM.index(bore) - 1]
+    small = dataclasses.replace(s, pipe_diameter_mm=smaller)
+    assert (
+        float(hy.friction_head_m(small, 2.0)) > 0.1 * (s.static_level_m + s.tank_height_m)
+        or float(hy.velocity_m_s(2.0, smaller / 1000)) > 2.0
+    )
+    w = water_design(demo, 0)
+    assert w.drop_cable_drop_pct <= 3.0 and w.drop_cable_size

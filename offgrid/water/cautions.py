@@ -9,7 +9,9 @@ DEFER = (
 )
 
 
-def water_cautions(supply, drop_cable_current_a: float, array_voc_cold_v: float) -> tuple[str, ...]:
+def water_cautions(
+    supply, drop_cable_current_a: float, array_voc_cold_v: float, cable: str = ""
+) -> tuple[str, ...]:
     """The cautions that apply to one water supply."""
     out = [
         "Dry-run protection: fit a low-water probe (or the controller's dry-run sensing) "
@@ -25,7 +27,9 @@ def water_cautions(supply, drop_cable_current_a: float, array_voc_cold_v: float)
         "the array frame, the well casing (if metal) and the controller to one earth, and "
         "fit surge protection on the array input and on the pump cable.",
         f"Drop cable ({supply.drop_cable_m:g} m): size it for the pump's full current "
-        f"(about {drop_cable_current_a:.1f} A here) with a voltage drop the motor allows, "
+        f"(about {drop_cable_current_a:.1f} A here; at least {cable} for the array's DC "
+        "voltage; an AC pump's cable follows its inverter's output) with a voltage drop "
+        "the motor allows, "
         "in a cable made for submersion in drinking water, joined with a proper "
         "water-tight splice kit.",
         f"DC arcs: the array reaches about {array_voc_cold_v:.0f} V open circuit on a cold "

@@ -32,6 +32,11 @@ MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", 
 #: Standard tank sizes [m3] (common practice, no source: ranges of common plastic and
 #: sectional steel tanks).
 TANK_SIZES_M3 = (1.0, 2.0, 3.0, 5.0, 10.0, 15.0, 20.0, 25.0, 30.0, 40.0, 50.0, 75.0, 100.0)
+#: Standard pipe bores [mm] (common practice, no source: nominal sizes of PE/PVC pipe; the
+#: inner bore depends on the pressure class: confirm it on the pipe's table).
+PIPE_BORES_MM = (20.0, 25.0, 32.0, 40.0, 50.0, 63.0, 75.0, 90.0, 110.0, 125.0, 160.0, 200.0)
+FRICTION_SHARE_LIMIT = 0.10  # friction at most 10 % of the static lift (common practice)
+DROP_CABLE_LIMIT_PCT = 3.0  # drop-cable voltage drop limit (common practice, no source)
 MAX_PARALLEL = 40
 HEAD_ITERATIONS = 8
 
@@ -86,6 +91,10 @@ class WaterDesign:
     need_m3_day: tuple[float, ...]
     water_m3_day: tuple[float, ...]
     limiting_month: int  # 1-12
+    pipe_suggested_mm: float  # smallest standard bore in the velocity and friction limits
+    drop_cable_current_a: float
+    drop_cable_size: str
+    drop_cable_drop_pct: float
     tank_required_m3: float
     tank_size_m3: float
     tank_count: int
@@ -207,6 +216,41 @@ def _layouts(params: DiodeParams, project, supply, cond: DayConditions, t_low: f
     return list(range(s_min, s_max + 1)), voc_cold, rule, vmp_hot
 
 
+def suggested_pipe_mm(supply, flow_m3_h: float) -> float:
+    """Smallest standard bore keeping the velocity at most 2 m/s and the friction at most 10 %
+    of the static lift at ``flow_m3_h`` (the largest listed if none does)."""
+    from dataclasses import replace
+
+    lift = supply.static_level_m + supply.tank_height_m
+    for bore in PIPE_BORES_MM:
+        trial = replace(supply, pipe_diameter_mm=bore)
+        v = float(hy.velocity_m_s(flow_m3_h, bore / 1000.0))
+        if v <= hy.VELOCITY_HIGH_M_S and float(
+            hy.friction_head_m(trial, flow_m3_h)
+        ) <= FRICTION_SHARE_LIMIT * max(lift, 1.0):
+            return bore
+    return PIPE_BORES_MM[-1]
+
+
+def drop_cable(project, supply, current_a: float, voltage_v: float) -> tuple[str, float]:
+    """Smallest conductor of the project's wire units keeping the two-wire drop of the drop
+    cable within 3 % at ``current_a`` and ``voltage_v``: (size name, drop %)."""
+    from offgrid.design.wiring import resistance_ohm_per_km, sizes_for, voltage_drop_v
+
+    w = project.wiring
+    sizes = sizes_for(w.units)
+    drop = 0.0
+    for size in sizes:
+        try:
+            r = resistance_ohm_per_km(size, w.material, w.conductor_temp_c)
+        except DesignError:
+            continue
+        drop = 100.0 * float(voltage_drop_v(current_a, supply.drop_cable_m, r)) / voltage_v
+        if drop <= DROP_CABLE_LIMIT_PCT:
+            return size.name, drop
+    return sizes[-1].name, drop
+
+
 def standard_tank(required_m3: float) -> tuple[float, int]:
     """The smallest standard size that holds ``required_m3``, or several of the largest."""
     for size in TANK_SIZES_M3:
@@ -290,6 +334,9 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
     q_duty = float(fl.flow_m3_h[lim, k])
     eff = hy.WH_PER_M3_M * q_duty * head / p_duty if p_duty > 0 else 0.0
     g_start = start_irradiance_w_m2(params, supply, cond, lay, fl.pump, lim)
+    pipe_mm = suggested_pipe_mm(supply, q_peak)
+    i_pump = float(np.max(fl.power_w)) / max(float(lay.series) * vmp_hot, 1.0)
+    cable_size, cable_drop = drop_cable(project, supply, i_pump, lay.series * vmp_hot)
     tank_req = supply.autonomy_days * float(need.max())
     tank_size, tank_n = standard_tank(tank_req)
     array_w = lay.modules * project.module.pmax_w
@@ -392,18 +439,28 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
         days=fmt(supply.autonomy_days, "days"),
         need=fmt(float(need.max()), "m3/day"),
     )
-    if vel > hy.VELOCITY_HIGH_M_S or vel < hy.VELOCITY_LOW_M_S:
+    if vel > hy.VELOCITY_HIGH_M_S:
         notices.append(
             Notice(
                 "pipe-velocity",
-                f"the pipe velocity at the peak flow is {vel:.2f} m/s, outside the usual "
-                f"{hy.VELOCITY_LOW_M_S:g}-{hy.VELOCITY_HIGH_M_S:g} m/s: "
-                + ("use a larger pipe" if vel > 1 else "a smaller pipe would do"),
+                f"the pipe velocity at the peak flow is {vel:.2f} m/s, above the usual "
+                f"{hy.VELOCITY_HIGH_M_S:g} m/s: use a larger pipe ({pipe_mm:g} mm)",
                 "warning",
                 f"{where}.pipe_diameter_mm",
             )
         )
-    if friction > 0.1 * head:
+    elif vel < hy.VELOCITY_LOW_M_S:
+        notices.append(
+            Notice(
+                "pipe-velocity",
+                f"the pipe velocity at the peak flow is {vel:.2f} m/s, below "
+                f"{hy.VELOCITY_LOW_M_S:g} m/s: sediment can settle; fit a scour valve at the "
+                "low points and flush the main",
+                "info",
+                f"{where}.pipe_diameter_mm",
+            )
+        )
+    if friction > FRICTION_SHARE_LIMIT * head:
         notices.append(
             Notice(
                 "pipe-friction",
@@ -423,8 +480,35 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
                 f"{where}.safe_yield_m3_h",
             )
         )
-    i_pump = p_duty / max(float(lay.series) * vmp_hot, 1.0)
-    cautions = water_cautions(supply, i_pump, voc_cold * lay.series)
+    book.add(
+        "water.pipe_suggested_mm",
+        "smallest standard bore with velocity <= 2 m/s and friction <= 10 % of the static lift "
+        "at the peak flow",
+        "common practice, no source (limits and bores)",
+        flow=fmt(q_peak, "m3/h"),
+        lift=fmt(supply.static_level_m + supply.tank_height_m, "m"),
+    )
+    book.add(
+        "water.drop_cable_size",
+        "smallest conductor with 2 L I R <= 3 % of the string's hot Vmp",
+        "two-wire DC drop (common practice); resistances as in offgrid.design.wiring",
+        current=fmt(i_pump, "A"),
+        length=fmt(supply.drop_cable_m, "m"),
+        voltage=fmt(lay.series * vmp_hot, "V"),
+    )
+    if pipe_mm < supply.pipe_diameter_mm - 1e-9 or pipe_mm > supply.pipe_diameter_mm + 1e-9:
+        notices.append(
+            Notice(
+                "pipe-suggested",
+                f"a {pipe_mm:g} mm bore would keep velocity and friction in range at this flow "
+                f"(the project has {supply.pipe_diameter_mm:g} mm)",
+                "info",
+                f"{where}.pipe_diameter_mm",
+            )
+        )
+    cautions = water_cautions(
+        supply, i_pump, voc_cold * lay.series, f"{cable_size} ({cable_drop:.1f} % drop)"
+    )
     return WaterDesign(
         name=supply.name,
         static_level_m=supply.static_level_m,
@@ -447,6 +531,10 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
         need_m3_day=tuple(float(x) for x in need),
         water_m3_day=tuple(float(x) for x in fl.volume_m3_day),
         limiting_month=lim + 1,
+        pipe_suggested_mm=pipe_mm,
+        drop_cable_current_a=i_pump,
+        drop_cable_size=cable_size,
+        drop_cable_drop_pct=cable_drop,
         tank_required_m3=tank_req,
         tank_size_m3=tank_size,
         tank_count=tank_n,

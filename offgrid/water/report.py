@@ -29,6 +29,7 @@ FIGURES = (
     ("pump_set_efficiency", "Pump set efficiency at noon", "", 2),
     ("start_irradiance_w_m2", "Start-up irradiance", "W/m2", 0),
     ("module_count", "Modules for the pump", "", 0),
+    ("pipe_suggested_mm", "Suggested pipe bore", "mm", 0),
     ("tank_size_m3", "Tank size (each)", "m3", 0),
 )
 

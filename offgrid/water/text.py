@@ -24,7 +24,7 @@ def water_bom(w: WaterDesign, supply) -> list[tuple[str, str, float, str, str]]:
         ctrl,
         ("water.modules", "PV modules for the pump array", float(w.module_count), "each",
          f"{w.series} in series x {w.parallel} in parallel"),
-        ("water.drop_cable", "Submersible drop cable (size for the pump current)",
+        ("water.drop_cable", f"Submersible drop cable, {w.drop_cable_size}",
          float(supply.drop_cable_m), "m", "drinking-water rated"),
         ("water.riser_pipe", f"Riser and delivery pipe, {supply.pipe_diameter_mm:g} mm bore, "
          f"{supply.pipe_material}", float(supply.pipe_length_m), "m", ""),
@@ -59,6 +59,10 @@ def water_lines(w: WaterDesign, supply, reliability: dict | None = None) -> list
         f"{w.tank_height_m:g} + friction {w.friction_m:.1f} + fittings {w.minor_loss_m:.1f} m",
         f"  Peak flow           {w.peak_flow_m3_h:6.2f} m3/h (safe yield "
         f"{supply.safe_yield_m3_h:g} m3/h); pipe velocity {w.velocity_m_s:.2f} m/s",
+        f"  Pipe                {supply.pipe_diameter_mm:g} mm bore; {w.pipe_suggested_mm:g} mm "
+        "keeps velocity and friction in range",
+        f"  Drop cable          {w.drop_cable_size} for {w.drop_cable_current_a:.1f} A over "
+        f"{supply.drop_cable_m:g} m ({w.drop_cable_drop_pct:.1f} % drop)",
         f"  Array               {w.module_count} modules ({w.series} series x {w.parallel} "
         f"parallel), {w.array_power_w:.0f} W; cold Voc {w.string_voc_cold_v:.0f} V",
         f"  Pump starts at      {w.start_irradiance_w_m2:6.0f} W/m2 on the array "
