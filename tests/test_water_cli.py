@@ -78,3 +78,19 @@ def test_water_lines_in_the_project_bom_and_report():
     report = build_report(both, d, with_charts=False)
     assert report.section("water-1") is not None
     assert build_report(power, design(power), with_charts=False).section("water-1") is None
+
+
+def test_size_json_has_a_water_section_when_the_project_has_water(capsys, tmp_path):
+    power = demo_project_path().read_text()
+    water = demo_water_path().read_text()
+    tables = water[water.index("[[water]]") :]
+    path = tmp_path / "both.toml"
+    path.write_text(power + "\n" + tables)
+    assert main(["size", "--json", str(path)]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["water"][0]["name"].endswith("(invented)")
+    assert "array" in data  # the power design is still there
+    assert main(["size", str(path)]) == 0
+    assert "Water supply:" in capsys.readouterr().out
+    assert main(["size", "--json", str(demo_project_path())]) == 0
+    assert "water" not in json.loads(capsys.readouterr().out)
