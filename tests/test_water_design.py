@@ -73,6 +73,13 @@ def test_every_figure_has_a_reason(demo_design):
         "tank_size_m3",
     ):
         assert f"water.{key}" in demo_design.reasons, key
+    from offgrid.water.design import WaterDesign
+
+    skip = {"name", "reasons", "notices", "cautions", "day_irradiance_w_m2", "day_flow_m3_h",
+            "day_step_h"}  # fmt: skip
+    for f in dataclasses.fields(WaterDesign):
+        if f.name not in skip:
+            assert f"water.{f.name}" in demo_design.reasons, f.name
     d = demo_design.to_dict()
     assert d["reasons"]["water.friction_m"]["source"].startswith("Darcy-Weisbach")
     assert any("local" in c for c in d["cautions"])

@@ -78,7 +78,9 @@ def pumped_volume_table(params, supply, cond: DayConditions, layout: ArrayLayout
     g = cond.irradiance_w_m2[:, None, :] * SCALE_GRID[None, :, None]
     tc = cond.cell_temp_c(g)
     p = input_power_w(params, supply, g, tc, layout, pump, cond.mismatch)
-    q = flow_at_power_m3_h(pump, p)
+    # the borehole's safe yield caps the rate on days brighter than the mean (the design keeps
+    # the mean day's peak within it; a flow-limited controller is assumed)
+    q = np.minimum(flow_at_power_m3_h(pump, p), supply.safe_yield_m3_h)
     return (q * cond.step_h[:, None, None]).sum(axis=-1)
 
 

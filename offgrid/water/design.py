@@ -439,6 +439,78 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
         days=fmt(supply.autonomy_days, "days"),
         need=fmt(float(need.max()), "m3/day"),
     )
+    book.given("water.static_level_m", f"{where}.static_level_m", fmt(supply.static_level_m, "m"))
+    book.given("water.tank_height_m", f"{where}.tank_height_m", fmt(supply.tank_height_m, "m"))
+    book.given("water.need_m3_day", f"{where}.need_m3_day", "twelve monthly values")
+    book.add(
+        "water.drawdown_m",
+        "drawdown at the test rate x flow / test rate",
+        "common practice, no source (linear drawdown; a step test is better)",
+        test_drawdown=fmt(supply.drawdown_m, "m"),
+        test_rate=fmt(supply.drawdown_test_m3_h, "m3/h"),
+        flow=fmt(q_h, "m3/h"),
+    )
+    book.add(
+        "water.peak_flow_m3_h",
+        "largest flow over the twelve mean days",
+        "pump datasheet at the input power of each step",
+        safe_yield=fmt(supply.safe_yield_m3_h, "m3/h"),
+    )
+    book.add(
+        "water.start_power_w",
+        "input power where the datasheet's flow at this head reaches zero",
+        "pump datasheet (first segment extended to zero flow)",
+        head=fmt(head, "m"),
+    )
+    for name in ("series", "parallel"):
+        book.add(
+            f"water.{name}",
+            "the layout of the fewest modules (see water.module_count)",
+            "common practice, no source",
+            layout=f"{lay.series} x {lay.parallel}",
+        )
+    book.add(
+        "water.array_power_w",
+        "modules x module rated power",
+        "module datasheet",
+        modules=str(lay.modules),
+        module=fmt(project.module.pmax_w, "W"),
+    )
+    book.add(
+        "water.string_voc_cold_v",
+        "series count x module Voc at the record low",
+        f"NEC 690.7 ({voc_rule})",
+        series=str(lay.series),
+        voc_cold=fmt(voc_cold, "V"),
+        record_low=fmt(t_low, "C"),
+    )
+    book.add(
+        "water.tank_required_m3",
+        "days of water x largest daily need",
+        "common practice, no source",
+        days=fmt(supply.autonomy_days, "days"),
+        need=fmt(float(need.max()), "m3/day"),
+    )
+    book.add(
+        "water.tank_count",
+        "tanks of the standard size to hold the required volume",
+        "common practice, no source",
+        required=fmt(tank_req, "m3"),
+    )
+    book.add(
+        "water.drop_cable_current_a",
+        "largest input power / (series x module hot Vmp)",
+        "common practice, no source (DC side of the pump)",
+        power=fmt(float(np.max(fl.power_w)), "W"),
+        voltage=fmt(lay.series * vmp_hot, "V"),
+    )
+    book.add(
+        "water.drop_cable_drop_pct",
+        "2 L I R / V x 100 for the chosen conductor",
+        "two-wire DC drop (common practice)",
+        size=cable_size,
+        limit=fmt(DROP_CABLE_LIMIT_PCT, "%"),
+    )
     if vel > hy.VELOCITY_HIGH_M_S:
         notices.append(
             Notice(
