@@ -89,3 +89,51 @@ def test_pump_above_its_highest_head_is_refused_naming_the_field():
     with pytest.raises(DesignError) as e:
         pump_at_head(PumpSpec(), 75.0)
     assert e.value.code == "pump-head" and e.value.field.endswith("head_points_m")
+
+
+def test_direct_point_on_a_motor_line_lies_on_the_array_curve():
+    # Against the existing Newton solve of the single-diode current at a voltage
+    # (offgrid.design.pv.current_at_voltage, a different method from our bisection on the
+    # diode voltage): at the returned voltage the array gives the returned current, and the
+    # motor line takes it.
+    from offgrid.design.pv import current_at_voltage
+    from offgrid.water.coupling import load_current_a
+    from offgrid.water.pump import motor_line
+
+    pump = PumpSpec(
+        drive="direct",
+        voltage_v=[[45.0, 60.0, 75.0, 90.0], [50.0, 65.0, 80.0, 95.0], [55.0, 70.0, 85.0, 100.0]],
+    )
+    line_v, line_i = motor_line(pump_at_head(pump, 35.0))
+    params = fit_module(ModuleSpec())
+    g = np.array([150.0, 450.0, 900.0])
+    tc = np.array([22.0, 35.0, 50.0])
+    lay = ArrayLayout(2, 2)
+    v, i = direct_operating_point(params, g, tc, lay, line_v, line_i)
+    il, i0, rs, rsh, a = calcparams_desoto(params, g, tc)
+    i_curve = lay.parallel * current_at_voltage(v / lay.series, il, i0, rs, rsh, a)
+    assert np.allclose(i, i_curve, atol=1e-6)
+    assert np.allclose(i, load_current_a(v, line_v, line_i), atol=1e-6)
+
+
+def test_start_irradiance_is_the_threshold():
+    import copy
+
+    from offgrid.design.pv import cell_temperature_ross
+    from offgrid.design.result import ReasonBook
+    from offgrid.design.sizing import resolve_climate
+    from offgrid.paths import demo_water_path
+    from offgrid.project.store import load_project
+    from offgrid.water.design import day_conditions, input_power_w, water_design
+
+    p = load_project(demo_water_path())
+    w = water_design(p, 0)
+    s = p.water[0]
+    cond = day_conditions(p, resolve_climate(p), s, ReasonBook())
+    pump = pump_at_head(s.pump, w.total_dynamic_head_m)
+    lay = ArrayLayout(w.series, w.parallel)
+    m = w.limiting_month - 1
+    g = np.array([w.start_irradiance_w_m2 - 2.5, w.start_irradiance_w_m2])
+    tc = cell_temperature_ross(cond.temp_day_c[m], g, cond.noct_c)
+    p_in = input_power_w(fit_module(p.module), copy.deepcopy(s), g, tc, lay, pump, cond.mismatch)
+    assert p_in[0] <= pump.start_power_w < p_in[1]
