@@ -94,3 +94,15 @@ def test_size_json_has_a_water_section_when_the_project_has_water(capsys, tmp_pa
     assert "Water supply:" in capsys.readouterr().out
     assert main(["size", "--json", str(demo_project_path())]) == 0
     assert "water" not in json.loads(capsys.readouterr().out)
+
+
+def test_water_report_html_has_the_day_chart(tmp_path):
+    out = tmp_path / "water.txt"
+    assert main(["water", "--demo", "--years", "0", "--report", str(out)]) == 0
+    assert "solar time" in out.read_text()  # the chart's text form
+    from offgrid.project.store import load_project
+    from offgrid.report.html import render_html
+    from offgrid.water.report import water_report
+
+    html = render_html(water_report(load_project(demo_water_path())))
+    assert html.count("<svg") == 1 and "flow (m3/h)" in html

@@ -442,7 +442,7 @@ def build_report(
         _bom(ri, bom, cost),
         _costs(ri, cost),
         _reliability(ri),
-        *_water_sections(project, base),
+        *_water_sections(project, base, with_charts),
         _variants(ri),
         _cautions(ri),
         _assumptions(ri, tree),
@@ -465,13 +465,13 @@ def build_report(
 # ----------------------------------------------------------------------------- sections
 
 
-def _water_sections(project: Project, base: Path | None) -> list[Section]:
+def _water_sections(project: Project, base: Path | None, charts: bool) -> list[Section]:
     """The [[water]] supplies (offgrid.water), none without."""
     if not project.water:
         return []
     from offgrid.water.report import water_sections
 
-    return water_sections(project, base)
+    return water_sections(project, base, charts)
 
 
 def _job(ri: ReportInputs, tree: dict) -> Section:

@@ -38,25 +38,34 @@ def _cell(value: float, unit: str, digits: int, path: str) -> Cell:
     return Cell(f"{value:.{digits}f} {unit}".strip(), float(value), path)
 
 
-def _day_chart(w: WaterDesign) -> Chart:
-    """Flow through the limiting month's mean day against the sunshine, in text columns."""
+def _day_chart(w: WaterDesign, charts: bool = True) -> Chart:
+    """Flow through the limiting month's mean day against the sunshine: an SVG (when charts
+    are on) and the same in text columns."""
     g, q = w.day_irradiance_w_m2, w.day_flow_m3_h
+    n = len(g)
+    hours = [12.0 - n * w.day_step_h / 2 + (k + 0.5) * w.day_step_h for k in range(n)]
+    title = f"{MONTHS[w.limiting_month - 1]} mean day: flow against sunshine"
+    svg = ""
+    if charts:
+        from offgrid.report.charts import day_flow_svg
+
+        svg = day_flow_svg(hours, g, q, w.start_irradiance_w_m2, title)
     step = max(1, len(g) // 12)
-    rows = ["  step  sun W/m2  flow m3/h"]
+    rows = ["  solar time  sun W/m2  flow m3/h"]
     g_max = max(max(g), 1.0)
-    for i in range(0, len(g), step):
+    for i in range(0, n, step):
         bar = "#" * round(20 * g[i] / g_max)
-        rows.append(f"  {i + 1:4d}  {g[i]:8.0f}  {q[i]:9.2f}  {bar}")
+        rows.append(f"  {hours[i]:8.2f} h  {g[i]:8.0f}  {q[i]:9.2f}  {bar}")
     return Chart(
-        f"water-day-{w.name}",
-        f"{MONTHS[w.limiting_month - 1]} mean day: flow against sunshine",
-        "",
+        f"water-day-{w.limiting_month}",
+        title,
+        svg,
         tuple(rows),
         f"bars: irradiance on the array; the pump starts at {w.start_irradiance_w_m2:.0f} W/m2",
     )
 
 
-def water_section(w: WaterDesign, supply, key: str) -> Section:
+def water_section(w: WaterDesign, supply, key: str, charts: bool = True) -> Section:
     figs = []
     for name, label, unit, digits in FIGURES:
         path = f"water.{name}"
@@ -101,7 +110,7 @@ def water_section(w: WaterDesign, supply, key: str) -> Section:
         ),
         Figures(tuple(figs), "Pumping figures and their reasons"),
         months,
-        _day_chart(w),
+        _day_chart(w, charts),
         bom,
     ]
     if w.notices:
@@ -110,15 +119,15 @@ def water_section(w: WaterDesign, supply, key: str) -> Section:
     return Section(key, f"Water supply: {w.name}", tuple(blocks))
 
 
-def water_sections(project, base: Path | None = None) -> list[Section]:
+def water_sections(project, base: Path | None = None, charts: bool = True) -> list[Section]:
     """One section per ``[[water]]`` supply (none without)."""
     return [
-        water_section(water_design(project, i, base), s, f"water-{i + 1}")
+        water_section(water_design(project, i, base), s, f"water-{i + 1}", charts)
         for i, s in enumerate(project.water)
     ]
 
 
-def water_report(project, base: Path | None = None) -> Report:
+def water_report(project, base: Path | None = None, charts: bool = True) -> Report:
     """A report of the water supplies alone (a pumping project with no battery system)."""
     from offgrid.wording import for_client
 
@@ -126,7 +135,7 @@ def water_report(project, base: Path | None = None) -> Report:
     return Report(
         title=info.name,
         subtitle=f"Solar water pumping design for {project.site.name or info.name}",
-        sections=for_client(tuple(water_sections(project, base))),
+        sections=for_client(tuple(water_sections(project, base, charts))),
         demo=info.demo,
         meta=tuple((k, v) for k, v in (("Client", info.client), ("Designer", info.designer)) if v),
     )
