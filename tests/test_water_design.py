@@ -231,3 +231,12 @@ def test_pipe_suggestion_and_drop_cable(demo):
     )
     w = water_design(demo, 0)
     assert w.drop_cable_drop_pct <= 3.0 and w.drop_cable_size
+
+
+def test_format_document_lists_every_input():
+    from pathlib import Path
+
+    text = (Path(__file__).resolve().parents[1] / "docs" / "water-format.md").read_text()
+    for f in WATER_FIELDS:
+        assert f"`{f.path.removeprefix('pump.')}`" in text, f.path
+        assert f.hint in text, f.path
