@@ -128,6 +128,7 @@ def test_head_beyond_the_pump_is_infeasible_with_the_reason(demo):
     with pytest.raises(DesignError) as e:
         water_design(p, 0)
     assert e.value.code == "pump-head" and "cannot lift" in str(e.value)
+    assert e.value.field == "water[1].pump.head_points_m"
 
 
 def test_direct_drive_pump_sizes(demo):

@@ -72,9 +72,11 @@ def tank_balance(pumped_m3, need_m3, capacity_m3: float, start_m3: float) -> Tan
     return TankBalance(level, delivered, short, spill)
 
 
-def pumped_volume_table(params, supply, cond: DayConditions, layout: ArrayLayout, head_m):
+def pumped_volume_table(
+    params, supply, cond: DayConditions, layout: ArrayLayout, head_m, field: str = "water[1].pump"
+):
     """Volume per day [m3] of each month at each day-scaling factor of ``SCALE_GRID``."""
-    pump = pump_at_head(supply.pump, head_m)
+    pump = pump_at_head(supply.pump, head_m, field)
     g = cond.irradiance_w_m2[:, None, :] * SCALE_GRID[None, :, None]
     tc = cond.cell_temp_c(g)
     p = input_power_w(params, supply, g, tc, layout, pump, cond.mismatch)
@@ -113,7 +115,9 @@ def simulate_tank(project, index: int = 0, years: int = 30, seed: int = 1, base=
     cond = day_conditions(project, climate, supply, ReasonBook())
     params = fit_module(project.module)
     layout = ArrayLayout(w.series, w.parallel)
-    table = pumped_volume_table(params, supply, cond, layout, w.total_dynamic_head_m)
+    table = pumped_volume_table(
+        params, supply, cond, layout, w.total_dynamic_head_m, f"water[{index + 1}].pump"
+    )
     try:
         weather = synthetic_daily_insolation(
             climate.insolation_kwh_m2_day, project.site.latitude_deg, years=years, seed=seed

@@ -118,20 +118,22 @@ class WaterDesign:
 
 def day_conditions(project, climate, supply, book: ReasonBook) -> DayConditions:
     """The array plane's mean-day irradiance and cell temperature of each month."""
-    from offgrid.design.sizing import site_albedo, site_geometry
+    from offgrid.design.sizing import _soiling_factor, site_albedo, site_geometry
 
     need = np.asarray(supply.need_m3_day, dtype=float)
-    _tilt, _az, sun = site_geometry(project, climate, book, need * 1000.0, [])
+    # the tilt search (when no tilt is set) weighs the months by the water need
+    tilt, azimuth, sun = site_geometry(project, climate, book, need * 1000.0, [])
     g, step_h = daily_poa_profile(
         tuple(climate.insolation_kwh_m2_day),
         tuple(float(x) for x in sun["poa"]),
         project.site.latitude_deg,
-        _tilt,
-        _az,
+        tilt,
+        azimuth,
         site_albedo(project, climate),
     )
     d = project.choices.derates
-    g = np.asarray(g) * d.soiling
+    soiling, _how = _soiling_factor(project)  # the same soiling as the power design
+    g = np.asarray(g) * soiling
     t_mean = np.asarray(climate.temp_mean_c, dtype=float)
     t_max = np.asarray(climate.temp_max_c, dtype=float) if climate.temp_max_c else t_mean + 5.0
     t_day = (t_mean + t_max) / 2.0
@@ -151,21 +153,24 @@ def input_power_w(params, supply, cond_g, cond_tc, layout: ArrayLayout, pump: Pu
     return np.minimum(p * sp.controller_efficiency, pump.max_power_w)
 
 
-def daily_flows(params, supply, cond: DayConditions, layout: ArrayLayout, g=None) -> DailyFlows:
+def daily_flows(
+    params, supply, cond: DayConditions, layout: ArrayLayout, g=None, field: str = "water[1].pump"
+) -> DailyFlows:
     """Flow through each month's mean day at the duty head, iterated with the peak flow.
 
-    ``g`` (same trailing shape as the conditions) replaces the irradiance (weather days)."""
+    ``g`` (months first, steps last) replaces the mean days' irradiance; ``field`` is the
+    pump's project path, named when the pump cannot lift the head."""
     g = cond.irradiance_w_m2 if g is None else g
     tc = cond.cell_temp_c(g)
     q_peak = 0.0
     p_fixed = None
     if supply.pump.drive == "controller":  # the array's MPP does not depend on the head
-        pump = pump_at_head(supply.pump, float(hy.total_dynamic_head_m(supply, 0.0)))
+        pump = pump_at_head(supply.pump, float(hy.total_dynamic_head_m(supply, 0.0)), field)
         p_fixed = input_power_w(params, supply, g, tc, layout, pump, cond.mismatch)
     for _ in range(HEAD_ITERATIONS):
         q_head = q_peak
         head = float(hy.total_dynamic_head_m(supply, q_head))
-        pump = pump_at_head(supply.pump, head, "water.pump")
+        pump = pump_at_head(supply.pump, head, field)
         if p_fixed is None:
             p = input_power_w(params, supply, g, tc, layout, pump, cond.mismatch)
         else:
@@ -291,7 +296,7 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
             lay = ArrayLayout(s, p)
             if best is not None and lay.modules >= best[0].modules:
                 break
-            fl = daily_flows(params, supply, cond, lay)
+            fl = daily_flows(params, supply, cond, lay, field=f"{where}.pump")
             peak = float(fl.flow_m3_h.max())
             if peak > supply.safe_yield_m3_h + 1e-9:
                 over_yield = over_yield or (lay, fl)

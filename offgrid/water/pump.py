@@ -41,7 +41,7 @@ def _along_head(table, heads, head_m: float) -> np.ndarray:
     return np.array([np.interp(head_m, heads, t[:, j]) for j in range(t.shape[1])])
 
 
-def pump_at_head(pump, head_m: float, field: str = "water.pump") -> PumpAtHead:
+def pump_at_head(pump, head_m: float, field: str = "water[1].pump") -> PumpAtHead:
     """Interpolate the datasheet at ``head_m``; DesignError if it cannot lift that head."""
     heads = np.asarray(pump.head_points_m, dtype=float)
     powers = np.asarray(pump.power_points_w, dtype=float)
