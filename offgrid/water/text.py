@@ -58,13 +58,13 @@ def water_lines(w: WaterDesign, supply, reliability: dict | None = None) -> list
         f"    static {w.static_level_m:g} + drawdown {w.drawdown_m:.1f} + tank "
         f"{w.tank_height_m:g} + friction {w.friction_m:.1f} + fittings {w.minor_loss_m:.1f} m",
         f"  Peak flow           {w.peak_flow_m3_h:6.2f} m3/h (safe yield "
-        f"{supply.safe_yield_m3_h:g} m3/h); pipe velocity {w.velocity_m_s:.2f} m/s",
-        f"  Pipe                {supply.pipe_diameter_mm:g} mm bore; {w.pipe_suggested_mm:g} mm "
-        "keeps velocity and friction in range",
+        f"{supply.safe_yield_m3_h:g} m3/h), {w.velocity_m_s:.2f} m/s in the pipe",
+        f"  Pipe                {supply.pipe_diameter_mm:g} mm bore; suggested "
+        f"{w.pipe_suggested_mm:g} mm (velocity, friction)",
         f"  Drop cable          {w.drop_cable_size} for {w.drop_cable_current_a:.1f} A over "
         f"{supply.drop_cable_m:g} m ({w.drop_cable_drop_pct:.1f} % drop)",
-        f"  Array               {w.module_count} modules ({w.series} series x {w.parallel} "
-        f"parallel), {w.array_power_w:.0f} W; cold Voc {w.string_voc_cold_v:.0f} V",
+        f"  Array               {w.module_count} modules ({w.series} in series x {w.parallel}), "
+        f"{w.array_power_w:.0f} W; cold Voc {w.string_voc_cold_v:.0f} V",
         f"  Pump starts at      {w.start_irradiance_w_m2:6.0f} W/m2 on the array "
         f"({w.start_power_w:.0f} W in)",
         f"  Limiting month      {MONTHS[lim]}: {w.water_m3_day[lim]:.1f} m3/day pumped for "
@@ -74,9 +74,9 @@ def water_lines(w: WaterDesign, supply, reliability: dict | None = None) -> list
         f"  Tank                {w.tank_count} x {w.tank_size_m3:g} m3 "
         f"({supply.autonomy_days:g} days of the largest need: {w.tank_required_m3:.1f} m3)",
         "  Water by month (m3/day):",
-        "  " + " " * 6 + "".join(f"{m:>6s}" for m in MONTHS),
-        "  pumped" + "".join(f"{v:6.1f}" for v in w.water_m3_day),
-        "  need  " + "".join(f"{v:6.1f}" for v in w.need_m3_day),
+        "  " + " " * 6 + "".join(f"{m:>5s}" for m in MONTHS),
+        "  pumped" + "".join(_cell(v) for v in w.water_m3_day),
+        "  need  " + "".join(_cell(v) for v in w.need_m3_day),
     ]
     if reliability is not None:
         r = reliability
@@ -97,10 +97,15 @@ def water_lines(w: WaterDesign, supply, reliability: dict | None = None) -> list
     return out
 
 
+def _cell(value: float) -> str:
+    """A month's volume in five columns."""
+    return f"{value:5.1f}" if value < 99.95 else f" {value:4.0f}"
+
+
 def _wrap(text: str, first: str) -> list[str]:
     import textwrap
 
-    return textwrap.wrap(text, width=80, initial_indent=first, subsequent_indent=" " * len(first))
+    return textwrap.wrap(text, width=76, initial_indent=first, subsequent_indent=" " * len(first))
 
 
 def water_bom_lines(project, base=None) -> list:
