@@ -84,3 +84,19 @@ def test_total_dynamic_head_adds_the_parts():
     expect = 25.0 + 4.0 * q / 2.0 + fric + minor
     assert np.allclose(hy.total_dynamic_head_m(s, q), expect)
     assert np.all(np.diff(hy.total_dynamic_head_m(s, np.linspace(0, 5, 20))) > 0)
+
+
+@pytest.mark.parametrize(
+    ("gpm", "d_in", "length_ft", "c"), [(750, 14, 300, 130), (40, 2, 500, 150)]
+)
+def test_hazen_williams_si_form_against_the_us_customary_form(gpm, d_in, length_ft, c):
+    # The US-customary form dp [psi] = 4.52 L Q^1.85 / (C^1.85 d^4.87), L in ft, Q in gpm,
+    # d in inches (the form of the NCEES PE Civil Reference Handbook, as quoted in public
+    # practice material; not checked against the handbook itself), converted to metres of
+    # water (1 psi = 6894.757 Pa, rho g = 9810 Pa/m): our SI form, with its own constant 10.67
+    # and exponents 1.852 / 4.8704, agrees within 1 %.
+    psi = 4.52 * length_ft * gpm**1.85 / (c**1.85 * d_in**4.87)
+    ref_m = psi * 6894.757 / 9810.0
+    q_m3_h = gpm * 3.785411784e-3 * 60.0
+    ours = float(hy.hazen_williams_head_m(q_m3_h, length_ft * 0.3048, d_in * 0.0254, c))
+    assert ours == pytest.approx(ref_m, rel=0.01)
