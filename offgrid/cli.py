@@ -24,6 +24,7 @@ COMMANDS: tuple[str, ...] = (
     "plan",
     "generator",
     "parts",
+    "water",
 )
 VERSION_FLAGS = ("--version", "-V")
 

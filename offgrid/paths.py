@@ -50,6 +50,11 @@ def demo_project_path() -> Path:
     return Path(__file__).resolve().parent / "data" / "demo-project.toml"
 
 
+def demo_water_path() -> Path:
+    """The bundled demonstration pumping project (an invented village water point)."""
+    return Path(__file__).resolve().parent / "data" / "demo-water.toml"
+
+
 # ----------------------------------------------------------------------------- the user's library
 
 

@@ -148,6 +148,7 @@ def test_the_sdist_and_the_wheel_carry_the_data(installed):
         "offgrid/_bundled/load_profiles/household-kit.csv",
         "offgrid/_bundled/load_profiles/communities/kisanga-ridge-community.csv",
         "offgrid/data/demo-project.toml",
+        "offgrid/data/demo-water.toml",
         "offgrid/tui/app.tcss",
     ):
         assert name in names, name

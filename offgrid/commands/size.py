@@ -156,12 +156,15 @@ def run(args: argparse.Namespace) -> int:
         result = design(project, base)
     except DesignError as exc:
         design_failed(exc)
+    water = _water_parts(project, base)  # [[water]] supplies: (JSON sections, text lines)
     if args.json:
         out = result.to_dict()
         if project.generator is not None:  # issue 16: the generator beside the design
             from offgrid.generator.study import size_section
 
             out["generator"] = size_section(project, result, base)
+        if water is not None:
+            out["water"] = water[0]
         print(json_text(out))
     else:
         from offgrid.report.summary import summary_text
@@ -171,4 +174,26 @@ def run(args: argparse.Namespace) -> int:
             from offgrid.generator.study import size_lines
 
             print("\n".join(size_lines(project, result, base)))
+        if water is not None:
+            print("\n".join(water[1]))
     return 0
+
+
+def _water_parts(project, base):
+    """The water supplies' JSON sections and text lines (offgrid.water), None without."""
+    if not project.water:
+        return None
+    from offgrid.design.result import DesignError
+    from offgrid.water.design import water_design
+    from offgrid.water.text import water_lines, water_section
+
+    sections, lines = [], [""]
+    for i, supply in enumerate(project.water):
+        try:
+            w = water_design(project, i, base)
+        except DesignError as exc:
+            design_failed(exc)
+            raise
+        sections.append(water_section(w, supply))
+        lines.extend(water_lines(w, supply))
+    return sections, lines

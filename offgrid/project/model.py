@@ -11,6 +11,7 @@ from dataclasses import dataclass, field
 from typing import Literal
 
 from offgrid.climate.model import MonthlyClimate
+from offgrid.project.water_model import WaterSupply
 
 FORMAT_NAME = "offgrid-project"
 #: 2: a DC load's cable run length stands on the load (``[[loads]] run_m``); schema 1 kept
@@ -277,6 +278,7 @@ class Project:
     variants: list[Variant] = field(default_factory=list)
     wiring: WiringChoices = field(default_factory=WiringChoices)
     generator: GeneratorSpec | None = None  # None: solar only
+    water: list[WaterSupply] = field(default_factory=list)  # [[water]] supplies (offgrid.water)
     # Sections that later features own (wiring runs, prices, variants) are kept
     # verbatim so that nothing a user saved is ever dropped.
     extra: dict = field(default_factory=dict)

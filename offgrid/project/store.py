@@ -97,6 +97,8 @@ def project_to_dict(project: Project) -> dict[str, Any]:
         if f.name in body or f.name in ("loads", "extra"):
             continue
         value = getattr(project, f.name)
+        if f.name == "water" and not value:
+            continue  # no [[water]] tables: the file stays as before
         if value is not None:
             body[f.name] = _plain(value)
     loads = []

@@ -137,6 +137,9 @@ def validate_project(project: Project) -> list[Problem]:
             problems.append(Problem(path, f"{value:g} is out of range; {hint}"))
     for path, message in albedo_problems(project.site.albedo, "site.albedo"):
         problems.append(Problem(path, message))
+    from offgrid.water.checks import water_problems  # [[water]] supplies
+
+    problems.extend(Problem(path, message) for path, message in water_problems(project))
     m = project.module
     if m.vmp_v >= m.voc_v:
         problems.append(

@@ -446,6 +446,7 @@ def build_report(
         _costs(ri, cost),
         _reliability(ri),
         generator_section(project, design, generator, base, with_charts),  # None: no generator
+        *_water_sections(project, base, with_charts),
         _variants(ri),
         _cautions(ri),
         _assumptions(ri, tree),
@@ -466,6 +467,15 @@ def build_report(
 
 
 # ----------------------------------------------------------------------------- sections
+
+
+def _water_sections(project: Project, base: Path | None, charts: bool) -> list[Section]:
+    """The [[water]] supplies (offgrid.water), none without."""
+    if not project.water:
+        return []
+    from offgrid.water.report import water_sections
+
+    return water_sections(project, base, charts)
 
 
 def _job(ri: ReportInputs, tree: dict) -> Section:

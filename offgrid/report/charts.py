@@ -349,3 +349,30 @@ def text_bars(
                 f"{v:>{num_w},.0f}{(' ' + unit) if unit else ''}".rstrip()
             )
     return lines
+
+
+def day_flow_svg(
+    hour: Sequence[float],
+    irradiance_w_m2: Sequence[float],
+    flow_m3_h: Sequence[float],
+    start_irradiance_w_m2: float,
+    title: str = "Flow through the day against the sunshine",
+) -> str:
+    """A pump's flow over a mean day (left axis) against the array's irradiance (right)."""
+    plt = _plt()
+    h = [float(x) for x in hour]
+    with plt.rc_context(_STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 3.0))
+        ax.plot(h, [float(q) for q in flow_m3_h], color=SUPPLY, linewidth=1.8, label="flow")
+        ax.set_xlabel("solar time (h)")
+        ax.set_ylabel("flow (m3/h)", color=SUPPLY)
+        ax.set_ylim(0, max(max(float(q) for q in flow_m3_h), 0.1) * 1.15)
+        ax2 = ax.twinx()
+        ax2.spines["right"].set_visible(True)
+        ax2.grid(False)
+        ax2.plot(h, [float(g) for g in irradiance_w_m2], color=DEMAND, linewidth=1.5,
+                 linestyle="--", label="irradiance on the array")  # fmt: skip
+        ax2.axhline(start_irradiance_w_m2, color=GREY, linewidth=0.8, linestyle=":")
+        ax2.set_ylabel("irradiance (W/m2)", color=DEMAND)
+        ax2.set_ylim(0, max(max(float(g) for g in irradiance_w_m2), 1.0) * 1.15)
+        return _to_svg(fig, title)

@@ -757,6 +757,11 @@ class OffgridApp(App):
                 work.action_curves,
             )
             yield SystemCommand(
+                "Water pumping",
+                "The project's water supplies: head, array, tank, the day's flow",
+                work.action_water,
+            )
+            yield SystemCommand(
                 "Why this value", "The reason for the figure under the cursor (w)", work.action_why
             )
             yield SystemCommand("Recalculate", "Run the design again", work.changed)

@@ -256,6 +256,19 @@ class WorkScreen(Screen):
             return
         self.app.push_screen(CurvesDialog(curves))
 
+    def action_water(self) -> None:
+        """The project's water supplies ([[water]] tables): figures and the day's flow."""
+        from offgrid.tui.screens.water import WaterDialog, water_blocks
+
+        if not self.session.project.water:
+            self.app.notify(
+                "No water supply in this project: add a [[water]] table to the project file "
+                "(see docs/water-format.md).",
+                timeout=5,
+            )
+            return
+        self.app.push_screen(WaterDialog(water_blocks(self.session.project, self.session.base_dir)))
+
     # ------------------------------------------------------------------ edits and files
     def action_undo(self) -> None:
         if self.session.undo():
