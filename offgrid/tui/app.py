@@ -13,6 +13,7 @@ from textual.binding import Binding
 from textual.screen import Screen
 from textual.theme import Theme
 
+from offgrid.tui import messages
 from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.help import HelpDialog
 from offgrid.tui.screens.recover import RecoverDialog
@@ -253,6 +254,40 @@ class OffgridApp(App):
             [("s", "Save them", "save"), ("d", "Discard them", "discard")],
         )
 
+    # ------------------------------------------------------------------ messages
+    def on_project_changed(self, message: messages.ProjectChanged) -> None:
+        self.project_changed()
+
+    def on_save_asked(self, message: messages.SaveAsked) -> None:
+        self.save_project(ask=message.ask)
+
+    def on_open_asked(self, message: messages.OpenAsked) -> None:
+        self.open_dialog()
+
+    def on_revert_asked(self, message: messages.RevertAsked) -> None:
+        self.revert_project()
+
+    def on_export_asked(self, message: messages.ExportAsked) -> None:
+        self.export_dialog(message.what)
+
+    def on_start_asked(self, message: messages.StartAsked) -> None:
+        self.to_start()
+
+    def on_open_path_asked(self, message: messages.OpenPathAsked) -> None:
+        self.open_path(message.path)
+
+    def on_scenario_asked(self, message: messages.ScenarioAsked) -> None:
+        self.new_scenario(message.path)
+
+    def on_blank_asked(self, message: messages.BlankAsked) -> None:
+        self.new_blank()
+
+    def on_demo_asked(self, message: messages.DemoAsked) -> None:
+        self.new_demo()
+
+    def on_plan_asked(self, message: messages.PlanAsked) -> None:
+        self.open_plan()
+
     # ------------------------------------------------------------------ new / open
     def open_path(self, path: Path) -> None:
         from offgrid.project.store import ProjectFileError
@@ -436,7 +471,8 @@ class OffgridApp(App):
             except ProjectFileError as exc:
                 self.push_screen(MessageDialog("Cannot revert", str(exc)))
                 return
-            self.work.changed()  # type: ignore[union-attr]
+            if self.work is not None:
+                self.work.changed()
             self.notify("Reverted to the saved version (u undoes).", timeout=3)
 
         if not session.dirty:

@@ -12,6 +12,18 @@ from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Input
 
 from offgrid.tui.keys import focus_now
+from offgrid.tui.messages import (
+    Edited,
+    ExportAsked,
+    OpenAsked,
+    ProjectChanged,
+    RevealAsked,
+    RevertAsked,
+    SaveAsked,
+    StartAsked,
+    WhyAsked,
+    send,
+)
 from offgrid.tui.screens.why import WhyDialog, find_reason
 from offgrid.tui.sections.base import Section
 from offgrid.tui.sections.cautions import CautionsSection
@@ -160,9 +172,21 @@ class WorkScreen(Screen):
         self.session.recompute()
         self.refresh_all()
         self.last_change_s = time.perf_counter() - t0
-        self.app.project_changed()  # type: ignore[attr-defined]
+        send(self, ProjectChanged())
         if note and tell:
             self.app.notify(note, markup=False, timeout=4)
+
+    def on_edited(self, message: Edited) -> None:
+        message.stop()
+        self.changed(message.note, message.tell)
+
+    def on_why_asked(self, message: WhyAsked) -> None:
+        message.stop()
+        self.action_why()
+
+    def on_reveal_asked(self, message: RevealAsked) -> None:
+        message.stop()
+        self.reveal(message.path)
 
     def replace_session(self, session: Session) -> None:
         self.session = session
@@ -272,19 +296,19 @@ class WorkScreen(Screen):
             self.app.notify("Nothing to redo", timeout=2)
 
     def action_save(self) -> None:
-        self.app.save_project()  # type: ignore[attr-defined]
+        send(self, SaveAsked())
 
     def action_save_as(self) -> None:
-        self.app.save_project(ask=True)  # type: ignore[attr-defined]
+        send(self, SaveAsked(ask=True))
 
     def action_open(self) -> None:
-        self.app.open_dialog()  # type: ignore[attr-defined]
+        send(self, OpenAsked())
 
     def action_revert(self) -> None:
-        self.app.revert_project()  # type: ignore[attr-defined]
+        send(self, RevertAsked())
 
     def action_export(self, what: str) -> None:
-        self.app.export_dialog(what)  # type: ignore[attr-defined]
+        send(self, ExportAsked(what))
 
     def action_start(self) -> None:
-        self.app.to_start()  # type: ignore[attr-defined]
+        send(self, StartAsked())

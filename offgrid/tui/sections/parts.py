@@ -67,7 +67,7 @@ class PartsSection(Section):
             except EditRejected as exc:
                 self.app.notify(self.problems_text(exc), severity="error", markup=False)
                 return
-            self.work.changed(f"{field.label}: {field.show(value)}")
+            self.edited(f"{field.label}: {field.show(value)}")
 
         self.app.push_screen(
             ChoiceDialog(field.label, list(field.choices), current, note=field.help()), chosen
@@ -87,7 +87,7 @@ class PartsSection(Section):
                 self.session.change(put)
             except EditRejected as exc:
                 return {p.path: p.message for p in exc.problems}
-            self.work.changed("Module datasheet set")
+            self.edited("Module datasheet set")
             return {}
 
         self.app.push_screen(

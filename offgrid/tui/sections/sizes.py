@@ -12,6 +12,7 @@ from textual.widgets import DataTable
 
 from offgrid.design.result import SystemDesign
 from offgrid.tui.keys import focus_now
+from offgrid.tui.messages import WhyAsked, send
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable
@@ -284,7 +285,7 @@ class SizesSection(Section):
 
     def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
         event.stop()
-        self.work.action_why()
+        send(self, WhyAsked())
 
     def figure(self) -> Figure | None:
         row = self.table.current()
