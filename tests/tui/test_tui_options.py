@@ -436,12 +436,12 @@ async def test_command_list_reaches_the_price_list_and_horizon(state):
         await pilot.pause()
         await settle(pilot)
         commands = {c.title: c for c in app.get_system_commands(app.screen)}
-        commands["Price list"].callback()
+        commands["Prices (8 Options)"].callback()
         await settle(pilot)
         section = app.work.current
         assert isinstance(section, OptionsSection) and section.showing_prices
         assert "Price list: 13 line(s)" in screen_text(app)
-        commands["Horizon"].callback()
+        commands["Horizon (1 Place)"].callback()
         await pilot.pause()
         assert app.work.section == "place"
         assert app.screen.query_one("#place-edit", EditBar).is_open

@@ -615,7 +615,7 @@ async def test_no_design_is_explained_and_leads_to_the_field(state):
 
 async def test_help_lists_every_binding_with_a_description(state):
     app = demo_app(state)
-    async with app.run_test(size=(100, 60)) as pilot:
+    async with app.run_test(size=(100, 150)) as pilot:
         await pilot.pause()
         await pilot.press("question_mark")
         await pilot.pause()
@@ -642,15 +642,15 @@ async def test_command_palette_reaches_the_actions(state):
             "Revert",
             "Undo",
             "Redo",
-            "Why this value",
-            "Add appliance",
-            "Copy appliance",
-            "Delete appliance",
-            "Import load list",
-            "Export load list",
-            "Climate",
-            "Type twelve months",
-            "Go to 4 Sizes",
+            "Why?",
+            "Add (2 Loads)",
+            "Copy (2 Loads)",
+            "Delete (2 Loads)",
+            "Import (2 Loads)",
+            "Export (2 Loads)",
+            "Climate (1 Place)",
+            "Months (1 Place)",
+            "Go to Sizes",
             "Sunlight colours",
             "Help",
             "Quit",
@@ -662,7 +662,7 @@ async def test_command_palette_reaches_the_actions(state):
         from textual.command import CommandPalette
 
         assert isinstance(app.screen, CommandPalette)
-        await pilot.press(*"add appl")
+        await pilot.press(*"add (2 loads")
         await pilot.pause(0.5)
         await pilot.press("enter")
         await pilot.pause()

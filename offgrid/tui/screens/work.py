@@ -75,7 +75,7 @@ class WorkScreen(Screen):
 
     BINDINGS = [
         *(
-            Binding(str(n), f"go('{sid}')", title, show=False, id=f"go.{sid}")
+            Binding(str(n), f"go('{sid}')", f"Go to {title}", show=False, id=f"go.{sid}")
             for n, (sid, title, _what) in enumerate(SECTIONS, start=1)
         ),
         Binding(
@@ -92,18 +92,55 @@ class WorkScreen(Screen):
             show=False,
             id="go.previous",
         ),
-        Binding("w", "why", "Why?", id="why"),
-        Binding("v", "curves", "I-V curves", show=False, id="curves"),
+        Binding("w", "why", "Why?", id="why", tooltip="The reason for the figure under the cursor"),
+        Binding(
+            "v",
+            "curves",
+            "I-V curves",
+            show=False,
+            id="curves",
+            tooltip="The array's I-V and P-V curves: design month, record low, hottest month",
+        ),
         Binding("s", "save", "Save", id="file.save"),
         Binding("ctrl+s", "save", "Save", show=False, id="file.save_ctrl", priority=True),
-        Binding("S", "save_as", "Save as", show=False, id="file.save_as"),
-        Binding("o", "open", "Open", show=False, id="file.open"),
-        Binding("r", "revert", "Revert", show=False, id="file.revert"),
-        Binding("u", "undo", "Undo", show=False, id="edit.undo"),
+        Binding(
+            "S",
+            "save_as",
+            "Save as",
+            show=False,
+            id="file.save_as",
+            tooltip="Save under a new name",
+        ),
+        Binding("o", "open", "Open", show=False, id="file.open", tooltip="Open a project file"),
+        Binding(
+            "r", "revert", "Revert", show=False, id="file.revert", tooltip="Back to the saved file"
+        ),
+        Binding("u", "undo", "Undo", show=False, id="edit.undo", tooltip="Undo the last change"),
         Binding("U,ctrl+y", "redo", "Redo", show=False, id="edit.redo"),
-        Binding("n", "start", "Start screen", show=False, id="file.start"),
-        Binding("E", "export('report')", "Export report", show=False, id="file.report"),
-        Binding("B", "export('bom')", "Export parts list", show=False, id="file.bom"),
+        Binding(
+            "n",
+            "start",
+            "Start screen",
+            show=False,
+            id="file.start",
+            tooltip="Recent projects, new, open",
+        ),
+        Binding(
+            "E",
+            "export('report')",
+            "Export report",
+            show=False,
+            id="file.report",
+            tooltip="Write the design report: HTML, Markdown or text",
+        ),
+        Binding(
+            "B",
+            "export('bom')",
+            "Export parts list",
+            show=False,
+            id="file.bom",
+            tooltip="Write the parts list as CSV",
+        ),
     ]
 
     def __init__(self, session: Session, section: str = "place") -> None:

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, cast
+from typing import TYPE_CHECKING, ClassVar, cast
 
 from textual.containers import Vertical
 from textual.widget import Widget
@@ -35,6 +35,8 @@ class Section(Vertical):
 
     section_id = ""
     help_text = ""
+    #: Widgets inside whose own keys belong to this section (help, palette).
+    KEY_WIDGETS: ClassVar[tuple[type[Widget], ...]] = ()
 
     @property
     def work(self) -> WorkScreen:

@@ -67,6 +67,7 @@ class LoadsTable(SteadyTable):
 
 class LoadsSection(Section):
     section_id = "loads"
+    KEY_WIDGETS = (LoadsTable,)
     help_text = (
         "The appliances: Enter edits the cell under the cursor. The strip below shows "
         "the energy month by month, for all loads at the battery and for the "
@@ -74,13 +75,52 @@ class LoadsSection(Section):
     )
 
     BINDINGS = [
-        Binding("a", "add", "Add", id="loads.add"),
-        Binding("d", "duplicate", "Copy", id="loads.duplicate"),
-        Binding("x,delete", "delete", "Delete", id="loads.delete"),
-        Binding("K,shift+up", "move(-1)", "Move up", id="loads.up", show=False),
-        Binding("J,shift+down", "move(1)", "Move down", id="loads.down", show=False),
-        Binding("i", "import_csv", "Import", id="loads.import"),
-        Binding("e", "export_csv", "Export", id="loads.export", show=False),
+        Binding("a", "add", "Add", id="loads.add", tooltip="A new appliance line in the load list"),
+        Binding(
+            "d",
+            "duplicate",
+            "Copy",
+            id="loads.duplicate",
+            tooltip="Copy the appliance under the cursor",
+        ),
+        Binding(
+            "x,delete",
+            "delete",
+            "Delete",
+            id="loads.delete",
+            tooltip="Remove the appliance under the cursor",
+        ),
+        Binding(
+            "K,shift+up",
+            "move(-1)",
+            "Move up",
+            id="loads.up",
+            tooltip="Move the appliance up the list",
+            show=False,
+        ),
+        Binding(
+            "J,shift+down",
+            "move(1)",
+            "Move down",
+            id="loads.down",
+            tooltip="Move the appliance down the list",
+            show=False,
+        ),
+        Binding(
+            "i",
+            "import_csv",
+            "Import",
+            id="loads.import",
+            tooltip="Read appliances from a load list CSV file",
+        ),
+        Binding(
+            "e",
+            "export_csv",
+            "Export",
+            id="loads.export",
+            tooltip="Write the appliances to a load list CSV file",
+            show=False,
+        ),
     ]
 
     def compose(self) -> ComposeResult:

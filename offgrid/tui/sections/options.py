@@ -142,9 +142,27 @@ class VariantTable(SteadyTable):
 
     BINDINGS = [
         Binding("enter", "select_cursor", "Edit", id="options.edit"),
-        Binding("a", "add_variant", "Add", id="options.add"),
-        Binding("x", "delete_variant", "Delete", id="options.delete"),
-        Binding("c", "add_change", "Add change", id="options.change"),
+        Binding(
+            "a",
+            "add_variant",
+            "Add",
+            id="options.add",
+            tooltip="A variant of the design with one change",
+        ),
+        Binding(
+            "x",
+            "delete_variant",
+            "Delete",
+            id="options.delete",
+            tooltip="Remove the option under the cursor",
+        ),
+        Binding(
+            "c",
+            "add_change",
+            "Add change",
+            id="options.change",
+            tooltip="One more change in the option under the cursor",
+        ),
     ]
 
     class Command(Message):
@@ -167,11 +185,21 @@ class VariantTable(SteadyTable):
 class PriceTable(SteadyTable):
     """The price list: part, unit price, currency, note; then the parts still unpriced."""
 
+    KEY_GROUP = "prices (p)"
+
     BINDINGS = [
         Binding("enter", "select_cursor", "Edit", id="prices.edit"),
-        Binding("a", "add_price", "Add", id="prices.add"),
-        Binding("x", "delete_price", "Delete", id="prices.delete"),
-        Binding("i", "import_prices", "Import", id="prices.import"),
+        Binding("a", "add_price", "Add", id="prices.add", tooltip="A new line in the price list"),
+        Binding(
+            "x",
+            "delete_price",
+            "Delete",
+            id="prices.delete",
+            tooltip="Remove the price under the cursor",
+        ),
+        Binding(
+            "i", "import_prices", "Import", id="prices.import", tooltip="Read a price list CSV file"
+        ),
     ]
 
     class Command(Message):
@@ -200,6 +228,7 @@ COST_REASONS = {
 
 class OptionsSection(Section):
     section_id = "options"
+    KEY_WIDGETS = (VariantTable, PriceTable)
     help_text = (
         "The project's variants beside the base design, each figure that differs "
         "marked with *; and the price list that the costs use (p switches). Enter "
@@ -207,7 +236,13 @@ class OptionsSection(Section):
     )
 
     BINDINGS = [
-        Binding("p", "toggle_prices", "Prices", id="options.prices"),
+        Binding(
+            "p",
+            "toggle_prices",
+            "Prices",
+            id="options.prices",
+            tooltip="Show and edit the project's price list",
+        ),
         Binding("g", "toggle_risk", "Risk", id="options.risk"),
     ]
 

@@ -157,16 +157,31 @@ class ClimateTable(SteadyTable):
 
 class PlaceSection(Section):
     section_id = "place"
+    KEY_WIDGETS = (ClimateTable,)
     help_text = (
         "Project and site details, and the climate: pick a bundled one, a file, or "
         "type the twelve monthly values in the table."
     )
 
     BINDINGS = [
-        Binding("c", "choose_climate", "Climate", id="place.climate"),
-        Binding("m", "own_months", "Months", id="place.months"),
+        Binding(
+            "c", "choose_climate", "Climate", id="place.climate", tooltip="Pick the site's climate"
+        ),
+        Binding(
+            "m",
+            "own_months",
+            "Months",
+            id="place.months",
+            tooltip="Use your own monthly climate values",
+        ),
         Binding("k", "check_climate", "Check", id="place.check"),
-        Binding("z", "horizon", "Horizon", id="place.horizon"),
+        Binding(
+            "z",
+            "horizon",
+            "Horizon",
+            id="place.horizon",
+            tooltip="Type the hills and trees around the site",
+        ),
     ]
 
     def compose(self) -> ComposeResult:

@@ -257,6 +257,7 @@ class FigureTable(SteadyTable):
 
 class SizesSection(Section):
     section_id = "sizes"
+    KEY_WIDGETS = (FigureTable,)
     help_text = (
         "The sized system. Every figure has its reason: put the cursor on it and press "
         "w. The chart compares what the array delivers to the battery with the demand, "

@@ -163,6 +163,7 @@ class RunsTable(SteadyTable):
 
 class WiresSection(Section):
     section_id = "wires"
+    KEY_WIDGETS = (RunsTable,)
     help_text = (
         "The cable runs: each with its maximum continuous current (Max A, for ampacity "
         "and the fuse), one-way length, the size that meets both ampacity and the "
@@ -171,7 +172,15 @@ class WiresSection(Section):
         "to the cable settings."
     )
 
-    BINDINGS = [Binding("p", "devices", "Protection", id="wires.devices")]
+    BINDINGS = [
+        Binding(
+            "p",
+            "devices",
+            "Protection",
+            id="wires.devices",
+            tooltip="The protection devices of each circuit",
+        )
+    ]
 
     def __init__(self, **kwargs) -> None:
         super().__init__(**kwargs)
