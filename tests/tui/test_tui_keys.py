@@ -15,7 +15,8 @@ from offgrid.tui.fields import parse_number
 
 KEYS = {" ": "space", "-": "minus", ".": "full_stop", ",": "comma", "%": "percent_sign"}
 
-pytestmark = pytest.mark.asyncio(loop_scope="module")
+#: the tests on the module's shared app (demo_pilot) run on its event loop
+SHARED = pytest.mark.asyncio(loop_scope="module")
 
 
 def burst(app, keys: list[str | tuple[str, str | None]]) -> None:
@@ -33,6 +34,7 @@ def chars(text: str) -> list[str]:
     return list(text)
 
 
+@SHARED
 async def test_loads_add_and_type_at_once_many_times(demo_pilot):
     pilot = demo_pilot
     app = pilot.app
@@ -48,6 +50,7 @@ async def test_loads_add_and_type_at_once_many_times(demo_pilot):
             assert app.session.project.loads[row].name == f"{name}{rep}"
 
 
+@SHARED
 async def test_loads_edit_replaces_the_old_value_at_once(demo_pilot):
     pilot = demo_pilot
     app = pilot.app
@@ -64,6 +67,7 @@ async def test_loads_edit_replaces_the_old_value_at_once(demo_pilot):
         assert app.focused is app.work.current.table
 
 
+@SHARED
 async def test_ctrl_u_then_digits_in_order(demo_pilot):
     pilot = demo_pilot
     app = pilot.app
@@ -78,6 +82,7 @@ async def test_ctrl_u_then_digits_in_order(demo_pilot):
         assert app.session.project.loads[1].power_w == 60.0
 
 
+@SHARED
 async def test_parts_field_typed_over_at_once(demo_pilot):
     pilot = demo_pilot
     app = pilot.app
@@ -92,6 +97,7 @@ async def test_parts_field_typed_over_at_once(demo_pilot):
         assert app.session.project.choices.autonomy_days == parse_number(days)
 
 
+@SHARED
 async def test_arrow_keeps_the_old_value_for_editing(demo_pilot):
     pilot = demo_pilot
     app = pilot.app
