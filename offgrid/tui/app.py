@@ -13,6 +13,8 @@ from textual.binding import Binding
 from textual.screen import Screen
 from textual.theme import Theme
 
+from offgrid.tui import messages
+from offgrid.tui.commands import KeyGroup, binding_commands, key_groups
 from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.help import HelpDialog
 from offgrid.tui.screens.recover import RecoverDialog
@@ -91,11 +93,37 @@ class OffgridApp(App):
     ENABLE_COMMAND_PALETTE = True
 
     BINDINGS = [
-        Binding("question_mark,f1,h", "help", "Help", id="app.help"),
-        Binding("q", "quit", "Quit", id="app.quit"),
+        Binding(
+            "question_mark,f1,h",
+            "help",
+            "Help",
+            id="app.help",
+            tooltip="Every key, the section's first",
+        ),
+        Binding(
+            "q",
+            "quit",
+            "Quit",
+            id="app.quit",
+            tooltip="Leave offgrid, asking about unsaved changes",
+        ),
         Binding("ctrl+q", "quit", "Quit", show=False, priority=True, id="app.quit_ctrl"),
-        Binding("t", "toggle_theme", "Sunlight colours", show=False, id="app.theme"),
-        Binding("P", "plan", "Plan a community", show=False, id="app.plan"),
+        Binding(
+            "t",
+            "toggle_theme",
+            "Sunlight colours",
+            show=False,
+            id="app.theme",
+            tooltip="Switch to high contrast and back",
+        ),
+        Binding(
+            "P",
+            "plan",
+            "Plan a community",
+            show=False,
+            id="app.plan",
+            tooltip="Many households from one survey: standard kits and totals",
+        ),
         Binding(
             "ctrl+p", "command_palette", "Commands", show=False, priority=True, id="app.commands"
         ),
@@ -252,6 +280,40 @@ class OffgridApp(App):
             f"'{name}' has changes that are not saved ({when}).",
             [("s", "Save them", "save"), ("d", "Discard them", "discard")],
         )
+
+    # ------------------------------------------------------------------ messages
+    def on_project_changed(self, message: messages.ProjectChanged) -> None:
+        self.project_changed()
+
+    def on_save_asked(self, message: messages.SaveAsked) -> None:
+        self.save_project(ask=message.ask)
+
+    def on_open_asked(self, message: messages.OpenAsked) -> None:
+        self.open_dialog()
+
+    def on_revert_asked(self, message: messages.RevertAsked) -> None:
+        self.revert_project()
+
+    def on_export_asked(self, message: messages.ExportAsked) -> None:
+        self.export_dialog(message.what)
+
+    def on_start_asked(self, message: messages.StartAsked) -> None:
+        self.to_start()
+
+    def on_open_path_asked(self, message: messages.OpenPathAsked) -> None:
+        self.open_path(message.path)
+
+    def on_scenario_asked(self, message: messages.ScenarioAsked) -> None:
+        self.new_scenario(message.path)
+
+    def on_blank_asked(self, message: messages.BlankAsked) -> None:
+        self.new_blank()
+
+    def on_demo_asked(self, message: messages.DemoAsked) -> None:
+        self.new_demo()
+
+    def on_plan_asked(self, message: messages.PlanAsked) -> None:
+        self.open_plan()
 
     # ------------------------------------------------------------------ new / open
     def open_path(self, path: Path) -> None:
@@ -436,7 +498,8 @@ class OffgridApp(App):
             except ProjectFileError as exc:
                 self.push_screen(MessageDialog("Cannot revert", str(exc)))
                 return
-            self.work.changed()  # type: ignore[union-attr]
+            if self.work is not None:
+                self.work.changed()
             self.notify("Reverted to the saved version (u undoes).", timeout=3)
 
         if not session.dirty:
@@ -635,77 +698,23 @@ class OffgridApp(App):
         sun = self.theme == SUN_THEME
         self.notify(f"Colours: {'sunlight (high contrast)' if sun else 'night'}", timeout=2)
 
-    def help_groups(self) -> list[tuple[str, list[Binding]]]:
-        from offgrid.tui.screens.dialogs import Dialog
-        from offgrid.tui.sections.loads import LoadsSection, LoadsTable
-        from offgrid.tui.sections.options import OptionsSection, PriceTable, VariantTable
-        from offgrid.tui.sections.place import ClimateTable, PlaceSection
-        from offgrid.tui.sections.risk import RiskSection
-        from offgrid.tui.widgets.editbar import EditBar
-        from offgrid.tui.widgets.fieldtable import FieldTable
-
-        def b(cls) -> list[Binding]:
-            return [x for x in cls.BINDINGS if isinstance(x, Binding)]
-
-        work = b(WorkScreen)
-        moving = [x for x in work if x.id and x.id.startswith("go.")]
-        moving = [
-            Binding("1,2,3,4,5,6,7,8", "goto", "Go to section 1-8 (Place ... Options)"),
-            *[x for x in moving if x.id[3:] not in {s for s, _t, _w in SECTIONS}],
-            Binding("up,down,left,right", "move", "Move the cursor"),
-            Binding("pageup,pagedown", "page", "Move a page"),
-            Binding("tab,shift+tab", "focus", "Next / previous table"),
-        ]
-        return [
-            (
-                "Everywhere",
-                [
-                    *b(OffgridApp),
-                    Binding("ctrl+p", "palette", "Command list (every action)"),
-                    *[x for x in work if not x.id or not x.id.startswith("go.")],
-                ],
-            ),
-            ("Moving around", moving),
-            (
-                "Editing a value",
-                [
-                    *b(FieldTable),
-                    *b(EditBar),
-                    Binding("any key", "type", "Typing replaces the old value (it opens selected)"),
-                    Binding(
-                        "left,right,home,end", "keep", "Keep the old value to change part of it"
-                    ),
-                ],
-            ),
-            ("1 Place", [*b(PlaceSection), *b(ClimateTable)]),
-            ("2 Loads", [*b(LoadsSection), *b(LoadsTable)]),
-            ("7 Risk", b(RiskSection)),
-            ("8 Options", [*b(VariantTable), *b(OptionsSection)]),
-            ("8 Options, prices (p)", b(PriceTable)),
-            ("Start screen", b(StartScreen)),
-            *self._plan_help(),
-            ("Dialogs", b(Dialog)),
-        ]
-
-    def _plan_help(self) -> list[tuple[str, list[Binding]]]:
-        try:
-            from offgrid.tui.screens.plan import PlanScreen
-        except ImportError:
-            return []
-        return [("Community plan (P)", [x for x in PlanScreen.BINDINGS if isinstance(x, Binding)])]
+    def help_groups(self) -> list[KeyGroup]:
+        """Every key, from the bindings (offgrid.tui.commands); the palette reads the same."""
+        return key_groups(self, self.screen if self.is_running else None)
 
     def action_help(self) -> None:
         work = self.work
         first = None
         about = ""
+        groups = self.help_groups()
         if work is not None and self.screen is work:
             sid = work.section
             n = [s for s, _t, _w in SECTIONS].index(sid) + 1
-            first = next((t for t, _b in self.help_groups() if t.startswith(f"{n} ")), None)
+            first = next((g.title for g in groups if g.title.startswith(f"{n} ")), None)
             about = (
                 f"You are in {n} {work.current.__class__.__name__[:-7]}: {work.current.help_text}"
             )
-        self.push_screen(HelpDialog(self.help_groups(), first, about))
+        self.push_screen(HelpDialog(groups, first, about))
 
     def _field_commands(self, work: WorkScreen) -> Iterable[SystemCommand]:
         """Every input and every figure of Sizes by its words: the palette goes there."""
@@ -738,136 +747,21 @@ class OffgridApp(App):
                 )
 
     def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
-        work = self.work if isinstance(screen, WorkScreen) else None
-        if work is not None:
-            for n, (sid, title, what) in enumerate(SECTIONS, start=1):
-                yield SystemCommand(f"Go to {n} {title}", what, lambda s=sid: work.action_goto(s))
-
-            def in_section(sid: str, action: str):
-                def run() -> None:
-                    work.action_goto(sid)
-                    getattr(work.current, f"action_{action}")()
-
-                return run
-
-            yield from self._field_commands(work)
-            yield SystemCommand(
-                "I-V curves",
-                "The array's I-V and P-V curves: design month, record low, hottest month (v)",
-                work.action_curves,
-            )
+        """Every key of the app and of ``screen`` (its sections too), from the bindings;
+        then the fields and figures by their words, and the few commands with no key."""
+        if isinstance(screen, WorkScreen):
+            yield from self._field_commands(screen)
+        yield from binding_commands(self, screen)
+        if isinstance(screen, WorkScreen):
+            yield SystemCommand("Recalculate", "Run the design again", screen.changed)
             yield SystemCommand(
                 "Water pumping",
                 "The project's water supplies: head, array, tank, the day's flow",
-                work.action_water,
+                screen.action_water,
             )
-            yield SystemCommand(
-                "Why this value", "The reason for the figure under the cursor (w)", work.action_why
-            )
-            yield SystemCommand("Recalculate", "Run the design again", work.changed)
-            yield SystemCommand("Save", "Save the project (s, ctrl+s)", work.action_save)
-            yield SystemCommand("Save as", "Save under a new name (S)", work.action_save_as)
-            yield SystemCommand("Open", "Open a project file (o)", work.action_open)
-            yield SystemCommand("Revert", "Back to the saved file (r)", work.action_revert)
-            yield SystemCommand("Undo", "Undo the last change (u)", work.action_undo)
-            yield SystemCommand("Redo", "Redo (U, ctrl+y)", work.action_redo)
-            yield SystemCommand("Start screen", "Recent projects, new, open (n)", work.action_start)
-            yield SystemCommand(
-                "Climate",
-                "Pick the site's climate (Place, c)",
-                in_section("place", "choose_climate"),
-            )
-            yield SystemCommand(
-                "Type twelve months",
-                "Use your own monthly climate values (Place, m)",
-                in_section("place", "own_months"),
-            )
-            yield SystemCommand(
-                "Horizon",
-                "Type the hills and trees around the site (Place, z)",
-                in_section("place", "horizon"),
-            )
-            yield SystemCommand(
-                "Add appliance",
-                "A new line in the load list (Loads, a)",
-                in_section("loads", "add"),
-            )
-            yield SystemCommand(
-                "Copy appliance",
-                "Duplicate the line under the cursor (Loads, d)",
-                in_section("loads", "duplicate"),
-            )
-            yield SystemCommand(
-                "Delete appliance",
-                "Remove the line under the cursor (Loads, x)",
-                in_section("loads", "delete"),
-            )
-            yield SystemCommand(
-                "Move appliance up",
-                "(Loads, K or shift+up)",
-                lambda: (work.action_goto("loads"), work.current.action_move(-1)),
-            )
-            yield SystemCommand(
-                "Move appliance down",
-                "(Loads, J or shift+down)",
-                lambda: (work.action_goto("loads"), work.current.action_move(1)),
-            )
-            yield SystemCommand(
-                "Import load list",
-                "Read appliances from a CSV file (Loads, i)",
-                in_section("loads", "import_csv"),
-            )
-            yield SystemCommand(
-                "Export load list",
-                "Write the appliances to a CSV file (Loads, e)",
-                in_section("loads", "export_csv"),
-            )
-            yield SystemCommand(
-                "Run the risk check",
-                "Simulate synthetic weather years in the background (Risk, g)",
-                in_section("risk", "run"),
-            )
-            yield SystemCommand("Stop the risk check", "(Risk, x)", in_section("risk", "stop"))
-            yield SystemCommand(
-                "Add an option",
-                "A variant of the design with one change (Options, a)",
-                in_section("options", "add_variant"),
-            )
-            yield SystemCommand(
-                "Price list",
-                "Show and edit the project's prices (Options, p)",
-                in_section("options", "show_prices"),
-            )
-            yield SystemCommand(
-                "Import prices",
-                "Read a price list CSV (Options, prices, i)",
-                in_section("options", "import_prices"),
-            )
-            yield SystemCommand(
-                "Export report",
-                "Write the design report: HTML, Markdown or text (E)",
-                lambda: self.export_dialog("report"),
-            )
-            yield SystemCommand(
-                "Export bill of materials",
-                "Write the parts list as CSV (B)",
-                lambda: self.export_dialog("bom"),
-            )
-        yield SystemCommand(
-            "Plan a community",
-            "Many households from one survey: standard kits and totals (P)",
-            self.open_plan,
-        )
         yield SystemCommand("New blank project", "Start from nothing", self.new_blank)
         yield SystemCommand(
             "New demo project", "The Kisanga Ridge health post (invented)", self.new_demo
-        )
-        yield SystemCommand(
-            "Sunlight colours", "Switch to high contrast and back (t)", self.action_toggle_theme
-        )
-        yield SystemCommand("Help", "All keys (?, h, F1)", self.action_help)
-        yield SystemCommand(
-            "Quit", "Leave offgrid, asking about unsaved changes (q, ctrl+q)", self.action_quit
         )
         for cmd in super().get_system_commands(screen):
             if cmd.title not in ("Quit", "Theme", "Keys"):

@@ -7,12 +7,16 @@ of key events at once, as the terminal driver does.
 
 from __future__ import annotations
 
+import pytest
 from textual import events
 from tui_helpers import SIZE, demo_app
 
 from offgrid.tui.fields import parse_number
 
 KEYS = {" ": "space", "-": "minus", ".": "full_stop", ",": "comma", "%": "percent_sign"}
+
+#: the tests on the module's shared app (demo_pilot) run on its event loop
+SHARED = pytest.mark.asyncio(loop_scope="module")
 
 
 def burst(app, keys: list[str | tuple[str, str | None]]) -> None:
@@ -30,67 +34,82 @@ def chars(text: str) -> list[str]:
     return list(text)
 
 
-async def test_loads_add_and_type_at_once_many_times(state):
-    app = demo_app(state, section="loads")
-    async with app.run_test(size=SIZE) as pilot:
+@SHARED
+async def test_loads_add_and_type_at_once_many_times(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    app.work.action_goto("loads")
+    await pilot.pause()
+    await pilot.pause()
+    names = ["Welder", "Drill", "Kx01", "Grain mill", "Fridge", "Lamp e-3"]
+    for rep in range(3):
+        for name in names:
+            burst(app, ["a", *chars(f"{name}{rep}"), "enter"])
+            await pilot.pause()
+            row = app.work.current._row()
+            assert app.session.project.loads[row].name == f"{name}{rep}"
+
+
+@SHARED
+async def test_loads_edit_replaces_the_old_value_at_once(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    app.work.action_goto("loads")
+    await pilot.pause()
+    await pilot.pause()
+    for hours in ("4", "7.5", "12", "0.5"):
+        # Column 3 is hours per day; Enter opens the editor with the value selected.
+        app.work.current.table.move_cursor(row=0, column=3)
         await pilot.pause()
-        names = ["Welder", "Drill", "Kx01", "Grain mill", "Fridge", "Lamp e-3"]
-        for rep in range(3):
-            for name in names:
-                burst(app, ["a", *chars(f"{name}{rep}"), "enter"])
-                await pilot.pause()
-                row = app.work.current._row()
-                assert app.session.project.loads[row].name == f"{name}{rep}"
-
-
-async def test_loads_edit_replaces_the_old_value_at_once(state):
-    app = demo_app(state, section="loads")
-    async with app.run_test(size=SIZE) as pilot:
+        burst(app, ["enter", *chars(hours), "enter", "right", "left"])
         await pilot.pause()
-        for hours in ("4", "7.5", "12", "0.5"):
-            # Column 3 is hours per day; Enter opens the editor with the value selected.
-            app.work.current.table.move_cursor(row=0, column=3)
-            await pilot.pause()
-            burst(app, ["enter", *chars(hours), "enter", "right", "left"])
-            await pilot.pause()
-            assert app.session.project.loads[0].hours_per_day == float(hours)
-            assert app.focused is app.work.current.table
+        assert app.session.project.loads[0].hours_per_day == float(hours)
+        assert app.focused is app.work.current.table
 
 
-async def test_ctrl_u_then_digits_in_order(state):
-    app = demo_app(state, section="loads")
-    async with app.run_test(size=SIZE) as pilot:
+@SHARED
+async def test_ctrl_u_then_digits_in_order(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    app.work.action_goto("loads")
+    await pilot.pause()
+    await pilot.pause()
+    for _ in range(5):
+        app.work.current.table.move_cursor(row=1, column=2)
         await pilot.pause()
-        for _ in range(5):
-            app.work.current.table.move_cursor(row=1, column=2)
-            await pilot.pause()
-            burst(app, ["enter", "end", "ctrl+u", *chars("60"), "enter"])
-            await pilot.pause()
-            assert app.session.project.loads[1].power_w == 60.0
-
-
-async def test_parts_field_typed_over_at_once(state):
-    app = demo_app(state, section="parts")
-    async with app.run_test(size=SIZE) as pilot:
+        burst(app, ["enter", "end", "ctrl+u", *chars("60"), "enter"])
         await pilot.pause()
-        for days in ("2", "3.5", "5"):
-            assert app.work.current.reveal("choices.autonomy_days")
-            await pilot.pause()
-            burst(app, ["enter", *chars(days), "enter"])
-            await pilot.pause()
-            assert app.session.project.choices.autonomy_days == parse_number(days)
+        assert app.session.project.loads[1].power_w == 60.0
 
 
-async def test_arrow_keeps_the_old_value_for_editing(state):
-    app = demo_app(state, section="parts")
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        before = app.session.project.choices.autonomy_days
+@SHARED
+async def test_parts_field_typed_over_at_once(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    app.work.action_goto("parts")
+    await pilot.pause()
+    await pilot.pause()
+    for days in ("2", "3.5", "5"):
         assert app.work.current.reveal("choices.autonomy_days")
         await pilot.pause()
-        burst(app, ["enter", "end", "0", "enter"])
+        burst(app, ["enter", *chars(days), "enter"])
         await pilot.pause()
-        assert app.session.project.choices.autonomy_days == float(f"{before:g}0")
+        assert app.session.project.choices.autonomy_days == parse_number(days)
+
+
+@SHARED
+async def test_arrow_keeps_the_old_value_for_editing(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    app.work.action_goto("parts")
+    await pilot.pause()
+    await pilot.pause()
+    before = app.session.project.choices.autonomy_days
+    assert app.work.current.reveal("choices.autonomy_days")
+    await pilot.pause()
+    burst(app, ["enter", "end", "0", "enter"])
+    await pilot.pause()
+    assert app.session.project.choices.autonomy_days == float(f"{before:g}0")
 
 
 async def test_percent_and_hemisphere_forms_typed_at_once(state):

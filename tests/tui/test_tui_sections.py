@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+import pytest
 from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
 
 from offgrid.design.sizing import design
@@ -18,6 +19,8 @@ from offgrid.tui.screens.work import WorkScreen
 from offgrid.tui.widgets.editbar import EditBar
 
 # ----------------------------------------------------------------------------- start
+
+pytestmark = pytest.mark.asyncio(loop_scope="module")
 
 
 async def test_start_screen_offers_recent_new_and_open(state, tmp_path):
@@ -85,61 +88,61 @@ async def test_recent_projects_are_listed(state, tmp_path):
 # ----------------------------------------------------------------------------- place
 
 
-async def test_place_edit_number_and_bad_input_keeps_last_value(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await edit_field(pilot, "place", "site.elevation_m", "1500")
-        assert app.session.project.site.elevation_m == 1500.0
-        # not a number: message in place, editor stays open, value kept
-        await edit_field(pilot, "place", "site.latitude_deg", "north")
-        bar = app.screen.query_one("#place-edit", EditBar)
-        assert bar.is_open
-        assert "'north' is not a latitude: type decimal degrees" in screen_text(app)
-        assert app.session.project.site.latitude_deg == -3.4
-        # out of range: the limit is shown
-        await type_into(pilot, "95")
-        assert "a latitude is at most 90 degrees" in screen_text(app)
-        assert app.session.project.site.latitude_deg == -3.4
-        await pilot.press("escape")
-        await pilot.pause()
-        assert not bar.is_open
-        assert app.session.project.site.latitude_deg == -3.4
+async def test_place_edit_number_and_bad_input_keeps_last_value(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await edit_field(pilot, "place", "site.elevation_m", "1500")
+    assert app.session.project.site.elevation_m == 1500.0
+    # not a number: message in place, editor stays open, value kept
+    await edit_field(pilot, "place", "site.latitude_deg", "north")
+    bar = app.screen.query_one("#place-edit", EditBar)
+    assert bar.is_open
+    assert "'north' is not a latitude: type decimal degrees" in screen_text(app)
+    assert app.session.project.site.latitude_deg == -3.4
+    # out of range: the limit is shown
+    await type_into(pilot, "95")
+    assert "a latitude is at most 90 degrees" in screen_text(app)
+    assert app.session.project.site.latitude_deg == -3.4
+    await pilot.press("escape")
+    await pilot.pause()
+    assert not bar.is_open
+    assert app.session.project.site.latitude_deg == -3.4
 
 
-async def test_place_tilt_auto_and_value(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        tilt = app.session.design.site.tilt_deg
-        assert f"automatic \u2192 {tilt:.0f} deg" in screen_text(app)
-        await edit_field(pilot, "place", "site.tilt_deg", "15")
-        assert app.session.project.site.tilt_deg == 15.0
-        assert app.session.design.site.tilt_deg == 15.0
-        await edit_field(pilot, "place", "site.tilt_deg", "auto")
-        assert app.session.project.site.tilt_deg is None
+async def test_place_tilt_auto_and_value(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    tilt = app.session.design.site.tilt_deg
+    assert f"automatic \u2192 {tilt:.0f} deg" in screen_text(app)
+    await edit_field(pilot, "place", "site.tilt_deg", "15")
+    assert app.session.project.site.tilt_deg == 15.0
+    assert app.session.design.site.tilt_deg == 15.0
+    await edit_field(pilot, "place", "site.tilt_deg", "auto")
+    assert app.session.project.site.tilt_deg is None
 
 
-async def test_place_albedo_one_value_or_twelve(state):
+async def test_place_albedo_one_value_or_twelve(demo_pilot):
     # snow-month reflectance as in Duffie & Beckman 4th ed. Example 2.19.1
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        snow = "0.7 0.7 0.4 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.4"
-        await edit_field(pilot, "place", "site.albedo", snow)
-        assert app.session.project.site.albedo == [float(v) for v in snow.split()]
-        assert "0.7 Jan-Feb" in screen_text(app)
-        await edit_field(pilot, "place", "site.albedo", "0.3")
-        assert app.session.project.site.albedo == 0.3
-        # eleven values or one out of range: refused with the fix, the last value kept
-        await edit_field(pilot, "place", "site.albedo", " ".join(["0.2"] * 11))
-        assert "twelve" in screen_text(app)
-        await type_into(pilot, "0.7 0.7 1.4 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.4")
-        assert "outside 0-1" in screen_text(app)
-        assert app.session.project.site.albedo == 0.3
-        await pilot.press("escape")
-        await edit_field(pilot, "place", "site.albedo", "auto")
-        assert app.session.project.site.albedo is None
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    snow = "0.7 0.7 0.4 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.4"
+    await edit_field(pilot, "place", "site.albedo", snow)
+    assert app.session.project.site.albedo == [float(v) for v in snow.split()]
+    assert "0.7 Jan-Feb" in screen_text(app)
+    await edit_field(pilot, "place", "site.albedo", "0.3")
+    assert app.session.project.site.albedo == 0.3
+    # eleven values or one out of range: refused with the fix, the last value kept
+    await edit_field(pilot, "place", "site.albedo", " ".join(["0.2"] * 11))
+    assert "twelve" in screen_text(app)
+    await type_into(pilot, "0.7 0.7 1.4 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.2 0.4")
+    assert "outside 0-1" in screen_text(app)
+    assert app.session.project.site.albedo == 0.3
+    await pilot.press("escape")
+    await edit_field(pilot, "place", "site.albedo", "auto")
+    assert app.session.project.site.albedo is None
 
 
 async def test_place_pick_climate_and_type_months(state):
@@ -187,70 +190,70 @@ async def test_place_pick_climate_and_type_months(state):
 # ----------------------------------------------------------------------------- loads
 
 
-async def test_loads_add_edit_duplicate_move_delete(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("2")
-        await pilot.pause()
-        loads = lambda: app.session.project.loads  # noqa: E731
-        n = len(loads())
-        before = app.session.design.loads.daily_energy_wh[0]
-        table = app.work.current.table
-        table.move_cursor(row=n - 1, column=0)
-        await pilot.press("a")  # add after the last: the name editor opens at once
-        await pilot.pause()
-        assert len(loads()) == n + 1
-        await type_into(pilot, "Water filter pump")
-        assert loads()[n].name == "Water filter pump"
-        table.move_cursor(row=n, column=2)
-        await pilot.press("enter")
-        await type_into(pilot, "40")
-        assert loads()[n].power_w == 40.0
-        after = app.session.design.loads.daily_energy_wh[0]
-        assert after > before  # the design followed the edit
-        # bad cell: message, value kept
-        table.move_cursor(row=n, column=3)
-        await pilot.press("enter")
-        await type_into(pilot, "30")
-        assert "outside 0-24 hours" in screen_text(app)
-        assert loads()[n].hours_per_day == 1.0
-        await pilot.press("escape")
-        await pilot.press("d")
-        await pilot.pause()
-        assert len(loads()) == n + 2 and loads()[n + 1].name == "Water filter pump"
-        await pilot.press("K")
-        await pilot.pause()
-        assert loads()[n].name == "Water filter pump" and table.cursor_row == n
-        await pilot.press("x")
-        await pilot.pause()
-        assert len(loads()) == n + 1
-        await pilot.press("u")
-        await pilot.pause()
-        assert len(loads()) == n + 2
+async def test_loads_add_edit_duplicate_move_delete(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("2")
+    await pilot.pause()
+    loads = lambda: app.session.project.loads  # noqa: E731
+    n = len(loads())
+    before = app.session.design.loads.daily_energy_wh[0]
+    table = app.work.current.table
+    table.move_cursor(row=n - 1, column=0)
+    await pilot.press("a")  # add after the last: the name editor opens at once
+    await pilot.pause()
+    assert len(loads()) == n + 1
+    await type_into(pilot, "Water filter pump")
+    assert loads()[n].name == "Water filter pump"
+    table.move_cursor(row=n, column=2)
+    await pilot.press("enter")
+    await type_into(pilot, "40")
+    assert loads()[n].power_w == 40.0
+    after = app.session.design.loads.daily_energy_wh[0]
+    assert after > before  # the design followed the edit
+    # bad cell: message, value kept
+    table.move_cursor(row=n, column=3)
+    await pilot.press("enter")
+    await type_into(pilot, "30")
+    assert "outside 0-24 hours" in screen_text(app)
+    assert loads()[n].hours_per_day == 1.0
+    await pilot.press("escape")
+    await pilot.press("d")
+    await pilot.pause()
+    assert len(loads()) == n + 2 and loads()[n + 1].name == "Water filter pump"
+    await pilot.press("K")
+    await pilot.pause()
+    assert loads()[n].name == "Water filter pump" and table.cursor_row == n
+    await pilot.press("x")
+    await pilot.pause()
+    assert len(loads()) == n + 1
+    await pilot.press("u")
+    await pilot.pause()
+    assert len(loads()) == n + 2
 
 
-async def test_loads_choice_and_months_cells(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("2")
-        table = app.work.current.table
-        table.move_cursor(row=0, column=4)  # AC/DC
-        await pilot.press("enter")
-        await pilot.pause()
-        assert isinstance(app.screen, ChoiceDialog)
-        await pilot.press("up", "enter")  # AC
-        await pilot.pause()
-        assert app.session.project.loads[0].ac_dc == "ac"
-        table.move_cursor(row=0, column=7)  # months
-        await pilot.press("enter")
-        await type_into(pilot, "11-2")
-        assert app.session.project.loads[0].months == (1, 2, 11, 12)
-        table.move_cursor(row=0, column=7)
-        await pilot.press("enter")
-        await type_into(pilot, "13")
-        assert "outside 1-12" in screen_text(app)
+async def test_loads_choice_and_months_cells(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("2")
+    table = app.work.current.table
+    table.move_cursor(row=0, column=4)  # AC/DC
+    await pilot.press("enter")
+    await pilot.pause()
+    assert isinstance(app.screen, ChoiceDialog)
+    await pilot.press("up", "enter")  # AC
+    await pilot.pause()
+    assert app.session.project.loads[0].ac_dc == "ac"
+    table.move_cursor(row=0, column=7)  # months
+    await pilot.press("enter")
+    await type_into(pilot, "11-2")
+    assert app.session.project.loads[0].months == (1, 2, 11, 12)
+    table.move_cursor(row=0, column=7)
+    await pilot.press("enter")
+    await type_into(pilot, "13")
+    assert "outside 1-12" in screen_text(app)
 
 
 async def test_loads_names_with_markup_and_escapes_are_literal(state, tmp_path):
@@ -316,20 +319,20 @@ async def test_loads_import_and_export_csv(state, tmp_path):
 # ----------------------------------------------------------------------------- parts
 
 
-async def test_parts_autonomy_changes_battery_and_why(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        ah = app.session.design.battery.capacity_ah
-        await edit_field(pilot, "parts", "choices.autonomy_days", "5")
-        assert app.session.project.choices.autonomy_days == 5.0
-        assert app.session.design.battery.capacity_ah > ah
-        assert f"{app.session.design.battery.capacity_ah:,.0f} Ah" in screen_text(app)
-        await pilot.press("w")
-        await pilot.pause()
-        assert isinstance(app.screen, WhyDialog)
-        text = " ".join(screen_text(app).replace("\u2588", " ").split())
-        assert "days of autonomy" in text and "IEEE" in text
+async def test_parts_autonomy_changes_battery_and_why(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    ah = app.session.design.battery.capacity_ah
+    await edit_field(pilot, "parts", "choices.autonomy_days", "5")
+    assert app.session.project.choices.autonomy_days == 5.0
+    assert app.session.design.battery.capacity_ah > ah
+    assert f"{app.session.design.battery.capacity_ah:,.0f} Ah" in screen_text(app)
+    await pilot.press("w")
+    await pilot.pause()
+    assert isinstance(app.screen, WhyDialog)
+    text = " ".join(screen_text(app).replace("\u2588", " ").split())
+    assert "days of autonomy" in text and "IEEE" in text
 
 
 async def test_parts_choice_dialog_for_system_voltage(state):
@@ -353,63 +356,63 @@ async def edit_field_choice(pilot, path):
     await pilot.pause()
 
 
-async def test_parts_module_datasheet_edited_as_a_whole(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await edit_field_choice(pilot, "module.pmax_w")
-        assert isinstance(app.screen, SheetDialog)
-        sheet = app.screen
-        values = {
-            "module.pmax_w": "400",
-            "module.vmp_v": "41",
-            "module.imp_a": "9.76",
-            "module.voc_v": "49.5",
-            "module.isc_a": "10.3",
-        }
-        for i, f in enumerate(sheet.fields):
-            if f.path in values:
-                sheet.query_one(f"#in{i}").value = values[f.path]
-        # a single inconsistent value is refused with the reason, nothing changes
-        imp = next(i for i, f in enumerate(sheet.fields) if f.path == "module.imp_a")
-        sheet.query_one(f"#in{imp}").value = "12"
-        await pilot.press("enter")
-        await pilot.pause()
-        assert isinstance(app.screen, SheetDialog)
-        assert "must be below Isc" in screen_text(app)
-        assert app.session.project.module.pmax_w == 300.0
-        sheet.query_one(f"#in{imp}").value = "9.76"
-        await pilot.press("enter")
-        await pilot.pause()
-        assert not isinstance(app.screen, SheetDialog)
-        assert app.session.project.module.pmax_w == 400.0
-        assert app.session.design.array.module_power_w == 400.0
+async def test_parts_module_datasheet_edited_as_a_whole(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await edit_field_choice(pilot, "module.pmax_w")
+    assert isinstance(app.screen, SheetDialog)
+    sheet = app.screen
+    values = {
+        "module.pmax_w": "400",
+        "module.vmp_v": "41",
+        "module.imp_a": "9.76",
+        "module.voc_v": "49.5",
+        "module.isc_a": "10.3",
+    }
+    for i, f in enumerate(sheet.fields):
+        if f.path in values:
+            sheet.query_one(f"#in{i}").value = values[f.path]
+    # a single inconsistent value is refused with the reason, nothing changes
+    imp = next(i for i, f in enumerate(sheet.fields) if f.path == "module.imp_a")
+    sheet.query_one(f"#in{imp}").value = "12"
+    await pilot.press("enter")
+    await pilot.pause()
+    assert isinstance(app.screen, SheetDialog)
+    assert "must be below Isc" in screen_text(app)
+    assert app.session.project.module.pmax_w == 300.0
+    sheet.query_one(f"#in{imp}").value = "9.76"
+    await pilot.press("enter")
+    await pilot.pause()
+    assert not isinstance(app.screen, SheetDialog)
+    assert app.session.project.module.pmax_w == 400.0
+    assert app.session.design.array.module_power_w == 400.0
 
 
 # ----------------------------------------------------------------------------- sizes
 
 
-async def test_sizes_figures_chart_and_reason(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("4")
-        await pilot.pause()
-        text = screen_text(app)
-        assert "Supply to battery" in text and "\u25c0 design" in text
-        # the design month is the least-covered month: November on the demo (supply/use
-        # 1.35 against July's 1.37), with every month's derates
-        assert "Nov" in text.split("\u25c0 design")[0].splitlines()[-1]
-        table = app.work.current.table
-        table.move_cursor(row=1)
-        await pilot.press("w")
-        await pilot.pause()
-        text = screen_text(app)
-        assert "Array power" in text and "modules in series x strings in parallel" in text
-        assert "Source" in text
-        await pilot.press("escape")
-        await pilot.pause()
-        assert isinstance(app.screen, WorkScreen)
+async def test_sizes_figures_chart_and_reason(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("4")
+    await pilot.pause()
+    text = screen_text(app)
+    assert "Supply to battery" in text and "\u25c0 design" in text
+    # the design month is the least-covered month: November on the demo (supply/use
+    # 1.35 against July's 1.37), with every month's derates
+    assert "Nov" in text.split("\u25c0 design")[0].splitlines()[-1]
+    table = app.work.current.table
+    table.move_cursor(row=1)
+    await pilot.press("w")
+    await pilot.pause()
+    text = screen_text(app)
+    assert "Array power" in text and "modules in series x strings in parallel" in text
+    assert "Source" in text
+    await pilot.press("escape")
+    await pilot.pause()
+    assert isinstance(app.screen, WorkScreen)
 
 
 async def test_sizes_chart_marks_the_least_covered_month(state):
@@ -428,19 +431,19 @@ async def test_sizes_chart_marks_the_least_covered_month(state):
         assert min(ratios) >= 1.0  # every month covered
 
 
-async def test_every_figure_row_has_a_reason(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        from offgrid.tui.screens.why import find_reason
-        from offgrid.tui.sections.sizes import figure_rows
+async def test_every_figure_row_has_a_reason(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    from offgrid.tui.screens.why import find_reason
+    from offgrid.tui.sections.sizes import figure_rows
 
-        d = app.session.design
-        for row in figure_rows(d):
-            if isinstance(row, str):
-                continue
-            _path, reason = find_reason(d.reasons, row[2])
-            assert reason is not None, row
+    d = app.session.design
+    for row in figure_rows(d):
+        if isinstance(row, str):
+            continue
+        _path, reason = find_reason(d.reasons, row[2])
+        assert reason is not None, row
 
 
 # ----------------------------------------------------------------------------- wires
@@ -461,153 +464,153 @@ async def test_wires_without_electrical_design_shows_main_circuits(state):
         assert f"{d.array.string_voc_cold_v:.1f} V" in text
 
 
-async def test_wires_runs_and_length_edit(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("5")
-        await pilot.pause()
-        runs = app.session.design.electrical.wires
-        text = screen_text(app)
-        assert "array to controller" in text and runs[1].size in text
-        table = app.work.current.table
-        table.move_cursor(row=1, column=3)  # the array run's length
-        await pilot.press("enter")
-        await type_into(pilot, "60")
-        assert app.session.project.wiring.array_run_m == 60.0
-        longer = app.session.design.electrical.wires[1]
-        assert longer.length_m == 60.0 and longer.area_mm2 >= runs[1].area_mm2
-        table.move_cursor(row=1, column=3)
-        await pilot.press("enter")
-        await type_into(pilot, "5000")
-        assert "out of range" in screen_text(app)
-        assert app.session.project.wiring.array_run_m == 60.0
-        await pilot.press("escape")
-        table.move_cursor(row=1, column=4)  # its size: why
-        await pilot.press("w")
-        await pilot.pause()
-        assert "NEC" in screen_text(app) and "ampacity" in screen_text(app)
-        await pilot.press("escape", "p")
-        await pilot.pause()
-        assert "Fuses, breakers and disconnects" in screen_text(app)
+async def test_wires_runs_and_length_edit(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("5")
+    await pilot.pause()
+    runs = app.session.design.electrical.wires
+    text = screen_text(app)
+    assert "array to controller" in text and runs[1].size in text
+    table = app.work.current.table
+    table.move_cursor(row=1, column=3)  # the array run's length
+    await pilot.press("enter")
+    await type_into(pilot, "60")
+    assert app.session.project.wiring.array_run_m == 60.0
+    longer = app.session.design.electrical.wires[1]
+    assert longer.length_m == 60.0 and longer.area_mm2 >= runs[1].area_mm2
+    table.move_cursor(row=1, column=3)
+    await pilot.press("enter")
+    await type_into(pilot, "5000")
+    assert "out of range" in screen_text(app)
+    assert app.session.project.wiring.array_run_m == 60.0
+    await pilot.press("escape")
+    table.move_cursor(row=1, column=4)  # its size: why
+    await pilot.press("w")
+    await pilot.pause()
+    assert "NEC" in screen_text(app) and "ampacity" in screen_text(app)
+    await pilot.press("escape", "p")
+    await pilot.pause()
+    assert "Fuses, breakers and disconnects" in screen_text(app)
 
 
-async def test_parts_inverter_on_all_year_choice(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        work = app.work
-        work.action_goto("parts")
-        await pilot.pause()
-        assert work.current.reveal("inverter.on_all_year")
-        await pilot.pause()
-        assert app.session.project.inverter.on_all_year is False
-        await pilot.press("enter")
-        await pilot.pause()
-        assert isinstance(app.screen, ChoiceDialog)
-        await pilot.press("down", "enter")  # yes, all year
-        await pilot.pause()
-        assert app.session.project.inverter.on_all_year is True
+async def test_parts_inverter_on_all_year_choice(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    work = app.work
+    work.action_goto("parts")
+    await pilot.pause()
+    assert work.current.reveal("inverter.on_all_year")
+    await pilot.pause()
+    assert app.session.project.inverter.on_all_year is False
+    await pilot.press("enter")
+    await pilot.pause()
+    assert isinstance(app.screen, ChoiceDialog)
+    await pilot.press("down", "enter")  # yes, all year
+    await pilot.pause()
+    assert app.session.project.inverter.on_all_year is True
 
 
-async def test_wires_show_both_currents(state):
+async def test_wires_show_both_currents(demo_pilot):
     # Max A: maximum continuous current (ampacity, fuse); Drop A: the operating current of
     # the voltage drop (issue 11).  The demo's array run: 24.4 A max, 18.5 A operating.
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("5")
-        await pilot.pause()
-        w = app.session.design.electrical.wires[1]
-        text = screen_text(app)
-        assert "Max A" in text and "Drop A" in text
-        row = next(ln for ln in text.splitlines() if "array to controller" in ln)
-        assert f"{w.current_a:.1f}" in row and f"{w.operating_current_a:.1f}" in row
-        app.work.current.table.move_cursor(row=1, column=5)  # its Drop A: why
-        await pilot.press("w")
-        await pilot.pause()
-        assert "operating current" in screen_text(app)
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("5")
+    await pilot.pause()
+    w = app.session.design.electrical.wires[1]
+    text = screen_text(app)
+    assert "Max A" in text and "Drop A" in text
+    row = next(ln for ln in text.splitlines() if "array to controller" in ln)
+    assert f"{w.current_a:.1f}" in row and f"{w.operating_current_a:.1f}" in row
+    app.work.current.table.move_cursor(row=1, column=5)  # its Drop A: why
+    await pilot.press("w")
+    await pilot.pause()
+    assert "operating current" in screen_text(app)
 
 
-async def test_wires_dc_load_length_stays_with_the_load_when_it_is_renamed(state):
+async def test_wires_dc_load_length_stays_with_the_load_when_it_is_renamed(demo_pilot):
     # Loads own their cables (issue 14): Wires edits the run's own project path
     # (WireChoice.length_path, loads[N].run_m); renaming the load on Loads keeps it.
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("5")
-        await pilot.pause()
-        runs = app.session.design.electrical.wires
-        row = next(i for i, r in enumerate(runs) if r.key == "load1")
-        assert runs[row].length_path == "loads[1].run_m"
-        table = app.work.current.table
-        table.move_cursor(row=row, column=3)
-        await pilot.press("enter")
-        await type_into(pilot, "25")
-        assert app.session.project.loads[0].run_m == 25.0
-        await pilot.press("2")
-        await pilot.pause()
-        app.work.current.table.move_cursor(row=0, column=0)
-        await pilot.press("enter")
-        await type_into(pilot, "Renamed lights")
-        assert app.session.project.loads[0].name == "Renamed lights"
-        assert app.session.project.loads[0].run_m == 25.0
-        await pilot.press("5")
-        await pilot.pause()
-        wire = next(r for r in app.session.design.electrical.wires if r.key == "load1")
-        assert wire.length_m == 25.0 and "Renamed lights" in wire.run
-        row_text = next(ln for ln in screen_text(app).splitlines() if "Renamed ligh" in ln)
-        assert " 25.0 " in row_text  # the name is clipped to the column at 80 columns
-        app.work.current.table.move_cursor(row=row, column=3)
-        await pilot.pause()
-        assert "loads[1].run_m" in app.work.current.figure().extra  # why: the field it sets
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("5")
+    await pilot.pause()
+    runs = app.session.design.electrical.wires
+    row = next(i for i, r in enumerate(runs) if r.key == "load1")
+    assert runs[row].length_path == "loads[1].run_m"
+    table = app.work.current.table
+    table.move_cursor(row=row, column=3)
+    await pilot.press("enter")
+    await type_into(pilot, "25")
+    assert app.session.project.loads[0].run_m == 25.0
+    await pilot.press("2")
+    await pilot.pause()
+    app.work.current.table.move_cursor(row=0, column=0)
+    await pilot.press("enter")
+    await type_into(pilot, "Renamed lights")
+    assert app.session.project.loads[0].name == "Renamed lights"
+    assert app.session.project.loads[0].run_m == 25.0
+    await pilot.press("5")
+    await pilot.pause()
+    wire = next(r for r in app.session.design.electrical.wires if r.key == "load1")
+    assert wire.length_m == 25.0 and "Renamed lights" in wire.run
+    row_text = next(ln for ln in screen_text(app).splitlines() if "Renamed ligh" in ln)
+    assert " 25.0 " in row_text  # the name is clipped to the column at 80 columns
+    app.work.current.table.move_cursor(row=row, column=3)
+    await pilot.pause()
+    assert "loads[1].run_m" in app.work.current.figure().extra  # why: the field it sets
 
 
 # ----------------------------------------------------------------------------- cautions
 
 
-async def test_cautions_lists_warnings_and_safety(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        # many lead-acid strings in parallel: the engine warns
-        await edit_field(pilot, "parts", "battery.capacity_ah", "100")
-        n = sum(1 for w in app.session.design.warnings if w.severity != "info")
-        assert n >= 1
-        assert f"{n} warning" in screen_text(app)
-        await pilot.press("6")
-        await pilot.pause()
-        text = screen_text(app)
-        assert "WARNING" in text and "parallel" in text
-        await pilot.press("end")
-        await pilot.pause()
-        assert "defers to local electrical codes" in screen_text(app)
-        section = app.work.current
-        index = next(
-            i
-            for i, (_p, n, _m) in enumerate(section._targets)
-            if n is not None and n.code == "lead-acid-parallel"
-        )
-        section.items.highlighted = index
-        await pilot.press("enter")  # to the input the warning is about
-        await pilot.pause()
-        assert app.work.section == "parts"
-        assert app.work.current.fields.current_field().path == "battery.capacity_ah"
+async def test_cautions_lists_warnings_and_safety(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    # many lead-acid strings in parallel: the engine warns
+    await edit_field(pilot, "parts", "battery.capacity_ah", "100")
+    n = sum(1 for w in app.session.design.warnings if w.severity != "info")
+    assert n >= 1
+    assert f"{n} warning" in screen_text(app)
+    await pilot.press("6")
+    await pilot.pause()
+    text = screen_text(app)
+    assert "WARNING" in text and "parallel" in text
+    await pilot.press("end")
+    await pilot.pause()
+    assert "defers to local electrical codes" in screen_text(app)
+    section = app.work.current
+    index = next(
+        i
+        for i, (_p, n, _m) in enumerate(section._targets)
+        if n is not None and n.code == "lead-acid-parallel"
+    )
+    section.items.highlighted = index
+    await pilot.press("enter")  # to the input the warning is about
+    await pilot.pause()
+    assert app.work.section == "parts"
+    assert app.work.current.fields.current_field().path == "battery.capacity_ah"
 
 
-async def test_no_design_is_explained_and_leads_to_the_field(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await edit_field(pilot, "parts", "controller.max_pv_voltage_v", "40")
-        assert app.session.design is None
-        assert "No design" in screen_text(app)
-        await pilot.press("6")
-        await pilot.pause()
-        assert "NO DESIGN" in screen_text(app)
-        await pilot.press("enter")
-        await pilot.pause()
-        assert app.work.section == "parts"
+async def test_no_design_is_explained_and_leads_to_the_field(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await edit_field(pilot, "parts", "controller.max_pv_voltage_v", "40")
+    assert app.session.design is None
+    assert "No design" in screen_text(app)
+    await pilot.press("6")
+    await pilot.pause()
+    assert "NO DESIGN" in screen_text(app)
+    await pilot.press("enter")
+    await pilot.pause()
+    assert app.work.section == "parts"
 
 
 # ----------------------------------------------------------------------------- keys
@@ -615,7 +618,7 @@ async def test_no_design_is_explained_and_leads_to_the_field(state):
 
 async def test_help_lists_every_binding_with_a_description(state):
     app = demo_app(state)
-    async with app.run_test(size=(100, 60)) as pilot:
+    async with app.run_test(size=(100, 150)) as pilot:
         await pilot.pause()
         await pilot.press("question_mark")
         await pilot.pause()
@@ -630,70 +633,70 @@ async def test_help_lists_every_binding_with_a_description(state):
                 assert b.description in text, b.description
 
 
-async def test_command_palette_reaches_the_actions(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        titles = [c.title for c in app.get_system_commands(app.work)]
-        for needed in (
-            "Save",
-            "Save as",
-            "Open",
-            "Revert",
-            "Undo",
-            "Redo",
-            "Why this value",
-            "Add appliance",
-            "Copy appliance",
-            "Delete appliance",
-            "Import load list",
-            "Export load list",
-            "Climate",
-            "Type twelve months",
-            "Go to 4 Sizes",
-            "Sunlight colours",
-            "Help",
-            "Quit",
-            "Start screen",
-        ):
-            assert needed in titles, needed
-        await pilot.press("ctrl+p")
-        await pilot.pause()
-        from textual.command import CommandPalette
+async def test_command_palette_reaches_the_actions(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    titles = [c.title for c in app.get_system_commands(app.work)]
+    for needed in (
+        "Save",
+        "Save as",
+        "Open",
+        "Revert",
+        "Undo",
+        "Redo",
+        "Why?",
+        "Add (2 Loads)",
+        "Copy (2 Loads)",
+        "Delete (2 Loads)",
+        "Import (2 Loads)",
+        "Export (2 Loads)",
+        "Climate (1 Place)",
+        "Months (1 Place)",
+        "Go to Sizes",
+        "Sunlight colours",
+        "Help",
+        "Quit",
+        "Start screen",
+    ):
+        assert needed in titles, needed
+    await pilot.press("ctrl+p")
+    await pilot.pause()
+    from textual.command import CommandPalette
 
-        assert isinstance(app.screen, CommandPalette)
-        await pilot.press(*"add appl")
-        await pilot.pause(0.5)
-        await pilot.press("enter")
-        await pilot.pause()
-        await pilot.pause()
-        assert app.work.section == "loads"
-        assert len(app.session.project.loads) == 10
-
-
-async def test_sunlight_theme_toggles(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("t")
-        assert app.theme == "offgrid-sunlight"
-        await pilot.press("t")
-        assert app.theme == "offgrid-night"
+    assert isinstance(app.screen, CommandPalette)
+    await pilot.press(*"add (2 loads")
+    await pilot.pause(0.5)
+    await pilot.press("enter")
+    await pilot.pause()
+    await pilot.pause()
+    assert app.work.section == "loads"
+    assert len(app.session.project.loads) == 10
 
 
-async def test_letter_keys_type_into_the_editor(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        work = app.work
-        work.current.reveal("site.name")
-        await pilot.press("enter")
-        await pilot.pause()
-        app.focused.value = ""
-        await pilot.press(*"sq2w", "enter")  # keys that are actions elsewhere
-        await pilot.pause()
-        assert app.session.project.site.name == "sq2w"
-        assert work.section == "place" and app.is_running
+async def test_sunlight_theme_toggles(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("t")
+    assert app.theme == "offgrid-sunlight"
+    await pilot.press("t")
+    assert app.theme == "offgrid-night"
+
+
+async def test_letter_keys_type_into_the_editor(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    work = app.work
+    work.current.reveal("site.name")
+    await pilot.press("enter")
+    await pilot.pause()
+    app.focused.value = ""
+    await pilot.press(*"sq2w", "enter")  # keys that are actions elsewhere
+    await pilot.pause()
+    assert app.session.project.site.name == "sq2w"
+    assert work.section == "place" and app.is_running
 
 
 async def test_demo_design_matches_engine(state):
@@ -843,13 +846,13 @@ async def test_risk_check_can_be_stopped(state, monkeypatch):
         assert "Press g" in screen_text(app)
 
 
-async def test_risk_check_real_run(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("7", "g")
-        risk = app.work.current
-        await wait_until(pilot, lambda: risk.result is not None, 60)
-        text = screen_text(app)
-        assert "Result for the design as it is now" in text
-        assert "Reliability targets" in text and "battery needed for it" in text
+async def test_risk_check_real_run(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("7", "g")
+    risk = app.work.current
+    await wait_until(pilot, lambda: risk.result is not None, 60)
+    text = screen_text(app)
+    assert "Result for the design as it is now" in text
+    assert "Reliability targets" in text and "battery needed for it" in text

@@ -55,3 +55,34 @@ async def wait_for(pilot, condition, timeout_s: float = 10.0) -> None:
         if time.monotonic() > end:
             raise AssertionError(f"not reached within {timeout_s} s: {condition}")
         await pilot.pause(0.05)
+
+
+async def reset_demo(pilot) -> None:
+    """Put a shared app back to a fresh demo project on section Place.
+
+    Closes dialogs and open editors, stops the workers (risk check, imports), and
+    shows a new demo session, as a newly started app would.
+    """
+    from offgrid.tui.screens.work import WorkScreen
+    from offgrid.tui.session import demo_session
+    from offgrid.tui.widgets.editbar import EditBar
+
+    app = pilot.app
+    while not isinstance(app.screen, WorkScreen):
+        app.pop_screen()
+        await pilot.pause()
+    work = app.screen
+    app.workers.cancel_all()
+    for bar in work.query(EditBar):
+        if bar.is_open:
+            bar.close()
+    app.clear_notifications()
+    from offgrid.tui.sections.options import OptionsSection
+
+    for options in work.query(OptionsSection):
+        if options.showing_prices:
+            options.action_toggle_prices()
+    work.replace_session(demo_session())
+    work.action_goto("place")
+    app.recovery.clear()
+    await pilot.pause()

@@ -1,4 +1,4 @@
-"""Every key, grouped by where it works; built from the bindings themselves."""
+"""Every key, grouped by where it works; built from the bindings (offgrid.tui.commands)."""
 
 from __future__ import annotations
 
@@ -9,6 +9,7 @@ from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.widgets import Static
 
+from offgrid.tui.commands import KeyGroup
 from offgrid.tui.screens.dialogs import Dialog
 
 GENERAL = """\
@@ -30,32 +31,21 @@ connection drops, the next start offers to bring it back.
 Designs from offgrid defer to local electrical codes and licensed practice."""
 
 
-def key_rows(app, bindings: list[Binding]) -> list[tuple[str, str]]:
-    rows = []
-    seen = set()
-    for b in bindings:
-        if not b.description or b.action in seen:
-            continue
-        seen.add(b.action)
-        keys = ", ".join(
-            app.get_key_display(Binding(k.strip(), b.action)) for k in b.key.split(",")
-        )
-        rows.append((keys, b.description))
-    return rows
-
-
-def help_table(app, groups: list[tuple[str, list[Binding]]], first: str | None) -> Table:
-    ordered = sorted(groups, key=lambda g: g[0] != first)
+def help_table(groups: list[KeyGroup], first: str | None) -> Table:
+    """The groups as a two-column table, the group titled ``first`` at the top."""
+    ordered = sorted(groups, key=lambda g: g.title != first)
     table = Table.grid(padding=(0, 2))
     table.add_column(no_wrap=True, style="bold", min_width=14)
     table.add_column()
-    for title, bindings in ordered:
-        rows = key_rows(app, bindings)
+    for title, rows in ordered:
         if not rows:
             continue
         table.add_row(Text(title, style="bold underline"), "")
-        for keys, what in rows:
-            table.add_row(keys, what)
+        for row in rows:
+            what = Text(row.description)
+            if row.tooltip:
+                what.append(f" \u00b7 {row.tooltip}", style="dim")
+            table.add_row(row.keys, what)
         table.add_row("", "")
     return table
 
@@ -65,9 +55,7 @@ class HelpDialog(Dialog):
 
     BINDINGS = [Binding("question_mark,f1,h", "close", "Close", id="help.close")]
 
-    def __init__(
-        self, groups: list[tuple[str, list[Binding]]], first: str | None = None, about: str = ""
-    ) -> None:
+    def __init__(self, groups: list[KeyGroup], first: str | None = None, about: str = "") -> None:
         super().__init__()
         self.groups = groups
         self.first = first
@@ -80,7 +68,7 @@ class HelpDialog(Dialog):
                 if self.about:
                     yield Static(Text(self.about, style="italic"))
                     yield Static("")
-                yield Static(help_table(self.app, self.groups, self.first))
+                yield Static(help_table(self.groups, self.first))
                 yield Static(Text(GENERAL))
             yield Static(
                 Text("\u2191\u2193 PgUp PgDn scroll \u00b7 Esc, ? or h: close", style="dim")

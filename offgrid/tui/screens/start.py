@@ -12,6 +12,15 @@ from textual.screen import Screen
 from textual.widgets import Footer, OptionList, Static
 from textual.widgets.option_list import Option
 
+from offgrid.tui.messages import (
+    BlankAsked,
+    DemoAsked,
+    OpenAsked,
+    OpenPathAsked,
+    PlanAsked,
+    ScenarioAsked,
+    send,
+)
 from offgrid.tui.text import printable
 
 SCENARIOS = {
@@ -120,13 +129,12 @@ class StartScreen(Screen):
     def on_option_list_option_selected(self, event: OptionList.OptionSelected) -> None:
         event.stop()
         kind, value = self.choices[event.option_index]
-        app = self.app
         if kind == "file":
-            app.open_path(value)  # type: ignore[attr-defined]
+            send(self, OpenPathAsked(value))
         elif kind == "demo":
             self.action_demo()
         elif kind == "scenario":
-            app.new_scenario(value)  # type: ignore[attr-defined]
+            send(self, ScenarioAsked(value))
         elif kind == "blank":
             self.action_blank()
         elif kind == "open":
@@ -134,16 +142,16 @@ class StartScreen(Screen):
         elif kind == "plan":
             self.action_plan()
         elif kind == "quit":
-            app.exit(0)
+            self.app.exit(0)
 
     def action_open(self) -> None:
-        self.app.open_dialog()  # type: ignore[attr-defined]
+        send(self, OpenAsked())
 
     def action_blank(self) -> None:
-        self.app.new_blank()  # type: ignore[attr-defined]
+        send(self, BlankAsked())
 
     def action_plan(self) -> None:
-        self.app.open_plan()  # type: ignore[attr-defined]
+        send(self, PlanAsked())
 
     def action_demo(self) -> None:
-        self.app.new_demo()  # type: ignore[attr-defined]
+        send(self, DemoAsked())

@@ -12,6 +12,18 @@ from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Input
 
 from offgrid.tui.keys import focus_now
+from offgrid.tui.messages import (
+    Edited,
+    ExportAsked,
+    OpenAsked,
+    ProjectChanged,
+    RevealAsked,
+    RevertAsked,
+    SaveAsked,
+    StartAsked,
+    WhyAsked,
+    send,
+)
 from offgrid.tui.screens.why import WhyDialog, find_reason
 from offgrid.tui.sections.base import Section
 from offgrid.tui.sections.cautions import CautionsSection
@@ -63,7 +75,7 @@ class WorkScreen(Screen):
 
     BINDINGS = [
         *(
-            Binding(str(n), f"go('{sid}')", title, show=False, id=f"go.{sid}")
+            Binding(str(n), f"go('{sid}')", f"Go to {title}", show=False, id=f"go.{sid}")
             for n, (sid, title, _what) in enumerate(SECTIONS, start=1)
         ),
         Binding(
@@ -80,18 +92,55 @@ class WorkScreen(Screen):
             show=False,
             id="go.previous",
         ),
-        Binding("w", "why", "Why?", id="why"),
-        Binding("v", "curves", "I-V curves", show=False, id="curves"),
+        Binding("w", "why", "Why?", id="why", tooltip="The reason for the figure under the cursor"),
+        Binding(
+            "v",
+            "curves",
+            "I-V curves",
+            show=False,
+            id="curves",
+            tooltip="The array's I-V and P-V curves: design month, record low, hottest month",
+        ),
         Binding("s", "save", "Save", id="file.save"),
         Binding("ctrl+s", "save", "Save", show=False, id="file.save_ctrl", priority=True),
-        Binding("S", "save_as", "Save as", show=False, id="file.save_as"),
-        Binding("o", "open", "Open", show=False, id="file.open"),
-        Binding("r", "revert", "Revert", show=False, id="file.revert"),
-        Binding("u", "undo", "Undo", show=False, id="edit.undo"),
+        Binding(
+            "S",
+            "save_as",
+            "Save as",
+            show=False,
+            id="file.save_as",
+            tooltip="Save under a new name",
+        ),
+        Binding("o", "open", "Open", show=False, id="file.open", tooltip="Open a project file"),
+        Binding(
+            "r", "revert", "Revert", show=False, id="file.revert", tooltip="Back to the saved file"
+        ),
+        Binding("u", "undo", "Undo", show=False, id="edit.undo", tooltip="Undo the last change"),
         Binding("U,ctrl+y", "redo", "Redo", show=False, id="edit.redo"),
-        Binding("n", "start", "Start screen", show=False, id="file.start"),
-        Binding("E", "export('report')", "Export report", show=False, id="file.report"),
-        Binding("B", "export('bom')", "Export parts list", show=False, id="file.bom"),
+        Binding(
+            "n",
+            "start",
+            "Start screen",
+            show=False,
+            id="file.start",
+            tooltip="Recent projects, new, open",
+        ),
+        Binding(
+            "E",
+            "export('report')",
+            "Export report",
+            show=False,
+            id="file.report",
+            tooltip="Write the design report: HTML, Markdown or text",
+        ),
+        Binding(
+            "B",
+            "export('bom')",
+            "Export parts list",
+            show=False,
+            id="file.bom",
+            tooltip="Write the parts list as CSV",
+        ),
     ]
 
     def __init__(self, session: Session, section: str = "place") -> None:
@@ -160,9 +209,21 @@ class WorkScreen(Screen):
         self.session.recompute()
         self.refresh_all()
         self.last_change_s = time.perf_counter() - t0
-        self.app.project_changed()  # type: ignore[attr-defined]
+        send(self, ProjectChanged())
         if note and tell:
             self.app.notify(note, markup=False, timeout=4)
+
+    def on_edited(self, message: Edited) -> None:
+        message.stop()
+        self.changed(message.note, message.tell)
+
+    def on_why_asked(self, message: WhyAsked) -> None:
+        message.stop()
+        self.action_why()
+
+    def on_reveal_asked(self, message: RevealAsked) -> None:
+        message.stop()
+        self.reveal(message.path)
 
     def replace_session(self, session: Session) -> None:
         self.session = session
@@ -285,19 +346,19 @@ class WorkScreen(Screen):
             self.app.notify("Nothing to redo", timeout=2)
 
     def action_save(self) -> None:
-        self.app.save_project()  # type: ignore[attr-defined]
+        send(self, SaveAsked())
 
     def action_save_as(self) -> None:
-        self.app.save_project(ask=True)  # type: ignore[attr-defined]
+        send(self, SaveAsked(ask=True))
 
     def action_open(self) -> None:
-        self.app.open_dialog()  # type: ignore[attr-defined]
+        send(self, OpenAsked())
 
     def action_revert(self) -> None:
-        self.app.revert_project()  # type: ignore[attr-defined]
+        send(self, RevertAsked())
 
     def action_export(self, what: str) -> None:
-        self.app.export_dialog(what)  # type: ignore[attr-defined]
+        send(self, ExportAsked(what))
 
     def action_start(self) -> None:
-        self.app.to_start()  # type: ignore[attr-defined]
+        send(self, StartAsked())

@@ -3,13 +3,14 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, ClassVar, cast
 
 from textual.containers import Vertical
 from textual.widget import Widget
 
 from offgrid.design.result import Reason
 from offgrid.tui.fields import Field
+from offgrid.tui.messages import Edited, send
 from offgrid.tui.session import EditRejected, Session, get_path
 from offgrid.tui.text import from_printable, printable
 from offgrid.tui.widgets.editbar import EditBar
@@ -34,14 +35,21 @@ class Section(Vertical):
 
     section_id = ""
     help_text = ""
+    #: Widgets inside whose own keys belong to this section (help, palette).
+    KEY_WIDGETS: ClassVar[tuple[type[Widget], ...]] = ()
 
     @property
     def work(self) -> WorkScreen:
-        return self.screen  # type: ignore[return-value]
+        """The work screen this section is on (read its session; tell it by messages)."""
+        return cast("WorkScreen", self.screen)
 
     @property
     def session(self) -> Session:
         return self.work.session
+
+    def edited(self, note: str | None = None, tell: bool = False) -> None:
+        """Tell the work screen that an edit was applied (:class:`~offgrid.tui.messages.Edited`)."""
+        send(self, Edited(note, tell))
 
     def show(self, session: Session) -> None:
         """Redraw from the session (called after every change while visible)."""
@@ -75,7 +83,7 @@ class Section(Vertical):
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
-            self.work.changed(f"{field.label} set")
+            self.edited(f"{field.label} set")
             return None
 
         editor.start(field.label, text, apply, field.help(), back=back)

@@ -8,6 +8,7 @@ from textual.widgets import OptionList
 from textual.widgets.option_list import Option
 
 from offgrid.design.result import Notice
+from offgrid.tui.messages import RevealAsked, send
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable
@@ -133,7 +134,7 @@ class CautionsSection(Section):
         event.stop()
         target = self._target()
         if target and target[0]:
-            self.work.reveal(target[0])
+            send(self, RevealAsked(target[0]))
 
     def figure(self) -> Figure | None:
         target = self._target()

@@ -13,6 +13,7 @@ from offgrid.design.result import Reason, fmt
 from offgrid.project.loads_csv import format_months, parse_months
 from offgrid.tui.fields import LOAD_COLUMNS, Column, parse_number
 from offgrid.tui.keys import focus_now
+from offgrid.tui.messages import WhyAsked, send
 from offgrid.tui.screens.dialogs import ChoiceDialog, ConfirmDialog, MessageDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session
@@ -66,6 +67,7 @@ class LoadsTable(SteadyTable):
 
 class LoadsSection(Section):
     section_id = "loads"
+    KEY_WIDGETS = (LoadsTable,)
     help_text = (
         "The appliances: Enter edits the cell under the cursor. The strip below shows "
         "the energy month by month, for all loads at the battery and for the "
@@ -73,13 +75,52 @@ class LoadsSection(Section):
     )
 
     BINDINGS = [
-        Binding("a", "add", "Add", id="loads.add"),
-        Binding("d", "duplicate", "Copy", id="loads.duplicate"),
-        Binding("x,delete", "delete", "Delete", id="loads.delete"),
-        Binding("K,shift+up", "move(-1)", "Move up", id="loads.up", show=False),
-        Binding("J,shift+down", "move(1)", "Move down", id="loads.down", show=False),
-        Binding("i", "import_csv", "Import", id="loads.import"),
-        Binding("e", "export_csv", "Export", id="loads.export", show=False),
+        Binding("a", "add", "Add", id="loads.add", tooltip="A new appliance line in the load list"),
+        Binding(
+            "d",
+            "duplicate",
+            "Copy",
+            id="loads.duplicate",
+            tooltip="Copy the appliance under the cursor",
+        ),
+        Binding(
+            "x,delete",
+            "delete",
+            "Delete",
+            id="loads.delete",
+            tooltip="Remove the appliance under the cursor",
+        ),
+        Binding(
+            "K,shift+up",
+            "move(-1)",
+            "Move up",
+            id="loads.up",
+            tooltip="Move the appliance up the list",
+            show=False,
+        ),
+        Binding(
+            "J,shift+down",
+            "move(1)",
+            "Move down",
+            id="loads.down",
+            tooltip="Move the appliance down the list",
+            show=False,
+        ),
+        Binding(
+            "i",
+            "import_csv",
+            "Import",
+            id="loads.import",
+            tooltip="Read appliances from a load list CSV file",
+        ),
+        Binding(
+            "e",
+            "export_csv",
+            "Export",
+            id="loads.export",
+            tooltip="Write the appliances to a load list CSV file",
+            show=False,
+        ),
     ]
 
     def compose(self) -> ComposeResult:
@@ -191,7 +232,7 @@ class LoadsSection(Section):
         load = self.session.project.loads[row]
         path = f"loads[{row + 1}].{column.key}"
         if column.kind == "figure":
-            self.work.action_why()
+            send(self, WhyAsked())
             return
         if column.kind == "choice":
             options = [(v, label) for v, label in column.choices]
@@ -227,7 +268,7 @@ class LoadsSection(Section):
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
-            self.work.changed(f"{column.label} set")
+            self.edited(f"{column.label} set")
             return None
 
         label = f"{column.label} of '{clip(printable(load.name), 30)}'"
@@ -251,7 +292,7 @@ class LoadsSection(Section):
         except EditRejected as exc:
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
-        self.work.changed(f"{label} set")
+        self.edited(f"{label} set")
 
     def _go(self, row: int, column: int | None = None) -> None:
         self.show(self.session)
@@ -262,7 +303,7 @@ class LoadsSection(Section):
     def action_add(self) -> None:
         row = self._row()
         at = self.session.add_load(row)
-        self.work.changed("Appliance added: type its name")
+        self.edited("Appliance added: type its name")
         self._go(at, 0)
         self.table.action_select_cursor()
 
@@ -271,7 +312,7 @@ class LoadsSection(Section):
         if row is None:
             return
         at = self.session.duplicate_load(row)
-        self.work.changed("Appliance copied", tell=True)
+        self.edited("Appliance copied", tell=True)
         self._go(at)
 
     def action_delete(self) -> None:
@@ -280,7 +321,7 @@ class LoadsSection(Section):
             return
         name = self.session.project.loads[row].name
         self.session.delete_load(row)
-        self.work.changed(f"Deleted '{printable(name)}' (u undoes)", tell=True)
+        self.edited(f"Deleted '{printable(name)}' (u undoes)", tell=True)
         self._go(max(0, min(row, len(self.session.project.loads) - 1)))
 
     def action_move(self, step: int) -> None:
@@ -289,7 +330,7 @@ class LoadsSection(Section):
             return
         to = self.session.move_load(row, step)
         if to != row:
-            self.work.changed("Appliance moved")
+            self.edited("Appliance moved")
             self._go(to)
 
     # ------------------------------------------------------------------ CSV
@@ -340,9 +381,7 @@ class LoadsSection(Section):
         except EditRejected as exc:
             self.app.push_screen(MessageDialog("Not imported", self.problems_text(exc)))
             return
-        self.work.changed(
-            f"{len(loads)} appliance line(s) imported from {printable(name)}", tell=True
-        )
+        self.edited(f"{len(loads)} appliance line(s) imported from {printable(name)}", tell=True)
         self._go(0, 0)
 
     def action_export_csv(self) -> None:

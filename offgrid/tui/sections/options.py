@@ -21,6 +21,7 @@ from rich.text import Text
 from textual import work
 from textual.app import ComposeResult
 from textual.binding import Binding
+from textual.message import Message
 from textual.widgets import DataTable, Static
 
 from offgrid.design.result import Reason
@@ -34,6 +35,7 @@ from offgrid.tui.fields import (
     parse_number,
 )
 from offgrid.tui.keys import focus_now
+from offgrid.tui.messages import RevealAsked, WhyAsked, send
 from offgrid.tui.screens.dialogs import ChoiceDialog, MessageDialog, PathDialog
 from offgrid.tui.screens.why import find_reason
 from offgrid.tui.sections.base import Figure, Section
@@ -140,39 +142,81 @@ class VariantTable(SteadyTable):
 
     BINDINGS = [
         Binding("enter", "select_cursor", "Edit", id="options.edit"),
-        Binding("a", "add_variant", "Add", id="options.add"),
-        Binding("x", "delete_variant", "Delete", id="options.delete"),
-        Binding("c", "add_change", "Add change", id="options.change"),
+        Binding(
+            "a",
+            "add_variant",
+            "Add",
+            id="options.add",
+            tooltip="A variant of the design with one change",
+        ),
+        Binding(
+            "x",
+            "delete_variant",
+            "Delete",
+            id="options.delete",
+            tooltip="Remove the option under the cursor",
+        ),
+        Binding(
+            "c",
+            "add_change",
+            "Add change",
+            id="options.change",
+            tooltip="One more change in the option under the cursor",
+        ),
     ]
 
+    class Command(Message):
+        """A key of the table, for the Options section: add, change or delete."""
+
+        def __init__(self, what: str) -> None:
+            super().__init__()
+            self.what = what
+
     def action_add_variant(self) -> None:
-        self.parent.action_add_variant()  # type: ignore[union-attr]
+        send(self, self.Command("add_variant"))
 
     def action_add_change(self) -> None:
-        self.parent.action_add_change()  # type: ignore[union-attr]
+        send(self, self.Command("add_change"))
 
     def action_delete_variant(self) -> None:
-        self.parent.action_delete_variant()  # type: ignore[union-attr]
+        send(self, self.Command("delete_variant"))
 
 
 class PriceTable(SteadyTable):
     """The price list: part, unit price, currency, note; then the parts still unpriced."""
 
+    KEY_GROUP = "prices (p)"
+
     BINDINGS = [
         Binding("enter", "select_cursor", "Edit", id="prices.edit"),
-        Binding("a", "add_price", "Add", id="prices.add"),
-        Binding("x", "delete_price", "Delete", id="prices.delete"),
-        Binding("i", "import_prices", "Import", id="prices.import"),
+        Binding("a", "add_price", "Add", id="prices.add", tooltip="A new line in the price list"),
+        Binding(
+            "x",
+            "delete_price",
+            "Delete",
+            id="prices.delete",
+            tooltip="Remove the price under the cursor",
+        ),
+        Binding(
+            "i", "import_prices", "Import", id="prices.import", tooltip="Read a price list CSV file"
+        ),
     ]
 
+    class Command(Message):
+        """A key of the table, for the Options section: add, delete or import prices."""
+
+        def __init__(self, what: str) -> None:
+            super().__init__()
+            self.what = what
+
     def action_add_price(self) -> None:
-        self.parent.action_add_price()  # type: ignore[union-attr]
+        send(self, self.Command("add_price"))
 
     def action_delete_price(self) -> None:
-        self.parent.action_delete_price()  # type: ignore[union-attr]
+        send(self, self.Command("delete_price"))
 
     def action_import_prices(self) -> None:
-        self.parent.action_import_prices()  # type: ignore[union-attr]
+        send(self, self.Command("import_prices"))
 
 
 COST_REASONS = {
@@ -184,6 +228,7 @@ COST_REASONS = {
 
 class OptionsSection(Section):
     section_id = "options"
+    KEY_WIDGETS = (VariantTable, PriceTable)
     help_text = (
         "The project's variants beside the base design, each figure that differs "
         "marked with *; and the price list that the costs use (p switches). Enter "
@@ -191,7 +236,13 @@ class OptionsSection(Section):
     )
 
     BINDINGS = [
-        Binding("p", "toggle_prices", "Prices", id="options.prices"),
+        Binding(
+            "p",
+            "toggle_prices",
+            "Prices",
+            id="options.prices",
+            tooltip="Show and edit the project's price list",
+        ),
         Binding("g", "toggle_risk", "Risk", id="options.risk"),
     ]
 
@@ -449,6 +500,22 @@ class OptionsSection(Section):
             self.app.notify(f"No cost: {exc}", severity="warning", markup=False, timeout=4)
             return None
 
+    def on_variant_table_command(self, message: VariantTable.Command) -> None:
+        message.stop()
+        {
+            "add_variant": self.action_add_variant,
+            "add_change": self.action_add_change,
+            "delete_variant": self.action_delete_variant,
+        }[message.what]()
+
+    def on_price_table_command(self, message: PriceTable.Command) -> None:
+        message.stop()
+        {
+            "add_price": self.action_add_price,
+            "delete_price": self.action_delete_price,
+            "import_prices": self.action_import_prices,
+        }[message.what]()
+
     def action_toggle_prices(self) -> None:
         self.editor.close()
         self.showing_prices = not self.showing_prices
@@ -506,7 +573,7 @@ class OptionsSection(Section):
                 self.session.set_value(path, typed.strip() if label == "Part key" else typed)
             except EditRejected as exc:
                 return self.problems_text(exc)
-            self.work.changed(f"{label} set")
+            self.edited(f"{label} set")
             return None
 
         self.editor.start(label, text, apply, hint, back=self.prices)
@@ -517,7 +584,7 @@ class OptionsSection(Section):
             if not code or len(code) > 5 or not code.isalpha():
                 return "type a currency code of letters, e.g. USD, EUR, KES"
             self.session.set_value("economics.currency", code)
-            self.work.changed("Currency set")
+            self.edited("Currency set")
             return None
 
         self.editor.start(
@@ -550,7 +617,7 @@ class OptionsSection(Section):
                 self.session.change(put, focus=f"prices[{at}].unit_price")
             except EditRejected as exc:
                 return self.problems_text(exc)
-            self.work.changed("Price set")
+            self.edited("Price set")
             return None
 
         self.editor.start(
@@ -589,7 +656,7 @@ class OptionsSection(Section):
             return
         part = self.session.project.prices[index].part
         self.session.change(lambda p: p.prices.pop(index))
-        self.work.changed()
+        self.edited()
         self.app.notify(f"Price of {printable(part)} deleted (u undoes).", markup=False, timeout=3)
 
     def action_import_prices(self) -> None:
@@ -623,7 +690,7 @@ class OptionsSection(Section):
                 MessageDialog("That price list cannot be used", self.problems_text(exc))
             )
             return
-        self.work.changed()
+        self.edited()
         self.app.notify(
             f"{len(items)} price(s) read from {printable(path.name)} (u undoes).",
             markup=False,
@@ -649,7 +716,7 @@ class OptionsSection(Section):
             elif what == "missing":
                 self._edit_price(None, "price", part=index)
             elif what == "cost":
-                self.work.action_why()
+                send(self, WhyAsked())
             return
         if not self._rows or self.result is None:
             return
@@ -665,7 +732,7 @@ class OptionsSection(Section):
             self.app.notify("A computed figure: w explains it.", timeout=3)
             return
         if vi is None:
-            self.work.reveal(row.path)  # the base value is edited where it lives
+            send(self, RevealAsked(row.path))  # the base value is edited where it lives
             return
         self._edit_override(vi, row.path)
 
@@ -677,7 +744,7 @@ class OptionsSection(Section):
                 self.session.set_value(f"variants[{vi + 1}].name", typed.strip())
             except EditRejected as exc:
                 return self.problems_text(exc)
-            self.work.changed("Option renamed")
+            self.edited("Option renamed")
             return None
 
         self.editor.start(
@@ -698,7 +765,7 @@ class OptionsSection(Section):
             self.session.change(put, focus=f"variants[{vi + 1}].overrides")
         except EditRejected as exc:
             return self.problems_text(exc)
-        self.work.changed(f"{override_label(path)} set")
+        self.edited(f"{override_label(path)} set")
         return None
 
     def _edit_override(self, vi: int, path: str) -> None:
@@ -827,7 +894,7 @@ class OptionsSection(Section):
             problem = self.problems_text(exc)
             self.app.notify(problem, severity="error", markup=False, timeout=6)
             return problem
-        self.work.changed()
+        self.edited()
         if into is None:
             self.app.notify(
                 f"Option '{printable(name)}' added; Enter on its name renames it.",
@@ -850,7 +917,7 @@ class OptionsSection(Section):
             return
         name = self.session.project.variants[vi].name
         self.session.change(lambda p: p.variants.pop(vi))
-        self.work.changed()
+        self.edited()
         self.app.notify(f"Option '{printable(name)}' deleted (u undoes).", markup=False, timeout=3)
 
     # ------------------------------------------------------------------ why

@@ -83,7 +83,7 @@ class PartsSection(Section):
             except EditRejected as exc:
                 self.app.notify(self.problems_text(exc), severity="error", markup=False)
                 return
-            self.work.changed(f"{field.label}: {field.show(value)}")
+            self.edited(f"{field.label}: {field.show(value)}")
 
         self.app.push_screen(
             ChoiceDialog(field.label, list(field.choices), current, note=field.help()), chosen
@@ -103,7 +103,7 @@ class PartsSection(Section):
                 self.session.change(put)
             except EditRejected as exc:
                 return {p.path: p.message for p in exc.problems}
-            self.work.changed("Module datasheet set")
+            self.edited("Module datasheet set")
             return {}
 
         self.app.push_screen(
@@ -160,7 +160,7 @@ class PartsSection(Section):
             except EditRejected as exc:
                 self.app.notify(self.problems_text(exc), severity="error", markup=False)
                 return
-            self.work.changed(f"{part.name} from the catalogue")
+            self.edited(f"{part.name} from the catalogue")
             if said and said[0]:
                 self.app.notify(said[0], severity="warning", markup=False)
 
@@ -237,7 +237,7 @@ class PartsSection(Section):
             except EditRejected as exc:
                 self.app.notify(self.problems_text(exc), severity="error", markup=False)
                 return
-            self.work.changed(f"Catalogue combination {index + 1} taken")
+            self.edited(f"Catalogue combination {index + 1} taken")
 
         self.app.push_screen(ChoiceDialog("Cheapest combinations", options, note=note), chosen)
 

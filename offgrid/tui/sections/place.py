@@ -157,16 +157,31 @@ class ClimateTable(SteadyTable):
 
 class PlaceSection(Section):
     section_id = "place"
+    KEY_WIDGETS = (ClimateTable,)
     help_text = (
         "Project and site details, and the climate: pick a bundled one, a file, or "
         "type the twelve monthly values in the table."
     )
 
     BINDINGS = [
-        Binding("c", "choose_climate", "Climate", id="place.climate"),
-        Binding("m", "own_months", "Months", id="place.months"),
+        Binding(
+            "c", "choose_climate", "Climate", id="place.climate", tooltip="Pick the site's climate"
+        ),
+        Binding(
+            "m",
+            "own_months",
+            "Months",
+            id="place.months",
+            tooltip="Use your own monthly climate values",
+        ),
         Binding("k", "check_climate", "Check", id="place.check"),
-        Binding("z", "horizon", "Horizon", id="place.horizon"),
+        Binding(
+            "z",
+            "horizon",
+            "Horizon",
+            id="place.horizon",
+            tooltip="Type the hills and trees around the site",
+        ),
     ]
 
     def compose(self) -> ComposeResult:
@@ -268,7 +283,7 @@ class PlaceSection(Section):
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
-            self.work.changed("record low set")
+            self.edited("record low set")
             return None
 
         self.editor.start(
@@ -301,7 +316,7 @@ class PlaceSection(Section):
                 )
             except EditRejected as exc:
                 return self.problems_text(exc)
-            self.work.changed(f"{MONTHS[month - 1]} {label.lower()} set")
+            self.edited(f"{MONTHS[month - 1]} {label.lower()} set")
             return None
 
         what = f"{label} for {MONTHS[month - 1]} (or twelve values separated by spaces)"
@@ -478,7 +493,7 @@ class PlaceSection(Section):
         except EditRejected as exc:
             self._import_failed(path, self.problems_text(exc))
             return
-        self.work.changed(f"Climate imported from {printable(path.name)}")
+        self.edited(f"Climate imported from {printable(path.name)}")
         lines = [
             f"Twelve monthly values from {path.name} ({result.kind}) are now this "
             "project's own climate.",
@@ -545,7 +560,7 @@ class PlaceSection(Section):
             except EditRejected as exc:
                 self.app.notify(self.problems_text(exc), severity="error", markup=False)
                 return
-            self.work.changed(f"Climate fixed: {finding.fixes[i].label}", tell=True)
+            self.edited(f"Climate fixed: {finding.fixes[i].label}", tell=True)
 
         self.app.push_screen(
             ChoiceDialog(
@@ -576,7 +591,7 @@ class PlaceSection(Section):
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
         note = f"Climate: {printable(ref)}" + (f"; {moved[0]}" if moved else "")
-        self.work.changed(note, tell=True)
+        self.edited(note, tell=True)
 
     def action_horizon(self) -> None:
         """Type the horizon profile (site.horizon_deg) as azimuth:elevation pairs."""
@@ -593,7 +608,7 @@ class PlaceSection(Section):
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
-            self.work.changed()
+            self.edited()
             if points:
                 az, el = max(points, key=lambda p: p[1])
                 said = f"Horizon: {len(points)} point(s), highest {el:g} deg at azimuth {az:g} deg."
@@ -617,7 +632,7 @@ class PlaceSection(Section):
         except EditRejected as exc:
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
-        self.work.changed("Now using your own twelve months: edit them in the table", tell=True)
+        self.edited("Now using your own twelve months: edit them in the table", tell=True)
         focus_now(self.months)
 
     # ------------------------------------------------------------------ why

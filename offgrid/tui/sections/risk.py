@@ -93,8 +93,14 @@ class RiskSection(Section):
     )
 
     BINDINGS = [
-        Binding("g", "run", "Run check", id="risk.run"),
-        Binding("x", "stop", "Stop", id="risk.stop"),
+        Binding(
+            "g",
+            "run",
+            "Run check",
+            id="risk.run",
+            tooltip="Simulate synthetic weather years in the background",
+        ),
+        Binding("x", "stop", "Stop", id="risk.stop", tooltip="Stop the running risk check"),
     ]
 
     def __init__(self, **kwargs) -> None:

@@ -12,6 +12,7 @@ from textual.widgets import DataTable
 
 from offgrid.design.result import SystemDesign
 from offgrid.tui.keys import focus_now
+from offgrid.tui.messages import WhyAsked, send
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
 from offgrid.tui.text import printable
@@ -256,6 +257,7 @@ class FigureTable(SteadyTable):
 
 class SizesSection(Section):
     section_id = "sizes"
+    KEY_WIDGETS = (FigureTable,)
     help_text = (
         "The sized system. Every figure has its reason: put the cursor on it and press "
         "w. The chart compares what the array delivers to the battery with the demand, "
@@ -284,7 +286,7 @@ class SizesSection(Section):
 
     def on_data_table_row_selected(self, event: DataTable.RowSelected) -> None:
         event.stop()
-        self.work.action_why()
+        send(self, WhyAsked())
 
     def figure(self) -> Figure | None:
         row = self.table.current()

@@ -20,6 +20,7 @@ from offgrid.design.wiring import WireChoice
 from offgrid.project.model import RUN_LENGTH_RANGE_M
 from offgrid.tui.fields import Field, parse_number
 from offgrid.tui.keys import focus_now
+from offgrid.tui.messages import WhyAsked, send
 from offgrid.tui.screens.dialogs import ChoiceDialog
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import EditRejected, Session, get_path
@@ -162,6 +163,7 @@ class RunsTable(SteadyTable):
 
 class WiresSection(Section):
     section_id = "wires"
+    KEY_WIDGETS = (RunsTable,)
     help_text = (
         "The cable runs: each with its maximum continuous current (Max A, for ampacity "
         "and the fuse), one-way length, the size that meets both ampacity and the "
@@ -170,7 +172,15 @@ class WiresSection(Section):
         "to the cable settings."
     )
 
-    BINDINGS = [Binding("p", "devices", "Protection", id="wires.devices")]
+    BINDINGS = [
+        Binding(
+            "p",
+            "devices",
+            "Protection",
+            id="wires.devices",
+            tooltip="The protection devices of each circuit",
+        )
+    ]
 
     def __init__(self, **kwargs) -> None:
         super().__init__(**kwargs)
@@ -278,12 +288,12 @@ class WiresSection(Section):
             return
         event.stop()
         if not self._runs:
-            self.work.action_why()
+            send(self, WhyAsked())
             return
         run = self._runs[min(event.coordinate.row, len(self._runs) - 1)]
         column = COLUMNS[event.coordinate.column][0]
         if column != "length_m":
-            self.work.action_why()
+            send(self, WhyAsked())
             return
         label, target = run.run, run.length_path
         if not target:
@@ -301,7 +311,7 @@ class WiresSection(Section):
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
-            self.work.changed("Length set")
+            self.edited("Length set")
             return None
 
         self.editor.start(
@@ -330,7 +340,7 @@ class WiresSection(Section):
                 except EditRejected as exc:
                     self.app.notify(self.problems_text(exc), severity="error", markup=False)
                     return
-                self.work.changed(f"{field.label}: {field.show(value)}")
+                self.edited(f"{field.label}: {field.show(value)}")
 
             self.app.push_screen(
                 ChoiceDialog(field.label, list(field.choices), current, note=field.help()), chosen
@@ -344,7 +354,7 @@ class WiresSection(Section):
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
-            self.work.changed(f"{field.label} set")
+            self.edited(f"{field.label} set")
             return None
 
         self.editor.start(
