@@ -17,7 +17,7 @@ from textual.widgets import DataTable, Static
 
 from offgrid.design.result import SystemDesign
 from offgrid.design.wiring import WireChoice
-from offgrid.project.model import RUN_LENGTH_RANGE_M
+from offgrid.catalogue import input_entry
 from offgrid.tui.fields import Field, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog
@@ -28,60 +28,16 @@ from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 from offgrid.tui.widgets.steady import SteadyTable
 
-LENGTH_LIMITS_M = RUN_LENGTH_RANGE_M
-
 WIRING_FIELDS: tuple[Field | str, ...] = (
     "Cable settings",
-    Field(
-        "wiring.units",
-        "Cable sizes in",
-        "choice",
-        choices=(("mm2", "mm2 (IEC 60228)"), ("awg", "AWG / kcmil (NEC)")),
-        hint="the size system of the cables you can buy",
-    ),
-    Field(
-        "wiring.material",
-        "Conductor",
-        "choice",
-        choices=(("copper", "copper"), ("aluminium", "aluminium")),
-    ),
-    Field(
-        "wiring.insulation_temp_c",
-        "Insulation rating",
-        "choice",
-        choices=((60, "60 C"), (75, "75 C"), (90, "90 C")),
-        hint="temperature rating of the cable insulation",
-    ),
-    Field("wiring.conductor_temp_c", "Conductor temperature", unit="C"),
-    Field(
-        "wiring.ambient_temp_c",
-        "Ambient around cables",
-        "auto_float",
-        unit="C",
-        auto_text="site's hottest month",
-    ),
-    Field(
-        "wiring.dc_load_run_m",
-        "DC load run, default",
-        unit="m",
-        hint="one-way length of each DC load circuit without its own length",
-    ),
-    Field(
-        "wiring.battery_short_circuit_a",
-        "Battery short circuit",
-        "auto_float",
-        unit="A",
-        auto_text="estimated",
-        reason="protection.bank_fault_current_a",
-    ),
-    Field(
-        "wiring.module_max_fuse_a",
-        "Module max series fuse",
-        "auto_float",
-        unit="A",
-        auto_text="not given",
-        reason="protection.string_fuses",
-    ),
+    Field("wiring.units", (("mm2", "mm2 (IEC 60228)"), ("awg", "AWG / kcmil (NEC)"))),
+    Field("wiring.material", (("copper", "copper"), ("aluminium", "aluminium"))),
+    Field("wiring.insulation_temp_c", ((60, "60 C"), (75, "75 C"), (90, "90 C"))),
+    Field("wiring.conductor_temp_c"),
+    Field("wiring.ambient_temp_c", auto_text="site's hottest month"),
+    Field("wiring.dc_load_run_m"),
+    Field("wiring.battery_short_circuit_a", auto_text="estimated"),
+    Field("wiring.module_max_fuse_a", auto_text="not given"),
 )
 
 COLUMNS = (  # key, label, width
@@ -292,10 +248,11 @@ class WiresSection(Section):
 
         def apply(typed: str) -> str | None:
             try:
-                value = parse_number(typed, "m", "one-way length in metres")
-                lo, hi = LENGTH_LIMITS_M
-                if not lo <= value <= hi:
-                    return f"{value:g} m is out of range; one-way length {lo:g}-{hi:g} m"
+                entry = input_entry(target)  # the run's own row: its range and hint
+                value = parse_number(typed, "m", entry.hint)
+                if entry.low is not None and entry.high is not None:
+                    if not entry.low <= value <= entry.high:
+                        return f"{value:g} m is out of range; {entry.hint}"
                 self.session.set_value(target, value)
             except EditRejected as exc:
                 return self.problems_text(exc)
