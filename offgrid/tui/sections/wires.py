@@ -15,9 +15,9 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
+from offgrid.catalogue import input_entry
 from offgrid.design.result import SystemDesign
 from offgrid.design.wiring import WireChoice
-from offgrid.catalogue import input_entry
 from offgrid.tui.fields import Field, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog
@@ -250,9 +250,9 @@ class WiresSection(Section):
             try:
                 entry = input_entry(target)  # the run's own row: its range and hint
                 value = parse_number(typed, "m", entry.hint)
-                if entry.low is not None and entry.high is not None:
-                    if not entry.low <= value <= entry.high:
-                        return f"{value:g} m is out of range; {entry.hint}"
+                lo, hi = entry.low, entry.high
+                if lo is not None and hi is not None and not lo <= value <= hi:
+                    return f"{value:g} m is out of range; {entry.hint}"
                 self.session.set_value(target, value)
             except EditRejected as exc:
                 return self.problems_text(exc)
