@@ -106,6 +106,7 @@ FIGURES: tuple[Fig, ...] = (
     Fig("electrical.strings.max_series", "Most modules in series", "", 0),
     Fig("electrical.strings.min_series", "Fewest modules in series", "", 0),
     Fig("electrical.strings.series", "String layout", "", 0),
+    Fig("electrical.strings.strings_per_controller", "Strings per controller", "", 0),
     Fig("electrical.strings.voc_cold_v", "Module Voc at record low", "V", 1),
     Fig("electrical.strings.vmp_hot_v", "Module Vmp, hot cells", "V", 1),
     Fig("electrical.harvest.pwm_vs_mppt_pct", "PWM against MPPT, per module", "%", 1),
