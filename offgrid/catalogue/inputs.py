@@ -27,7 +27,7 @@ INPUTS: tuple[In, ...] = (
         "deg",
         -90,
         90,
-        "degrees, north positive, -90 to 90 (12.4 S, 12\u00b024' S or -12.4)",
+        "12.4 S, 12\u00b024' S or -12.4 (north positive), -90 to 90 degrees",
     ),
     In(
         "site.longitude_deg",
@@ -35,7 +35,7 @@ INPUTS: tuple[In, ...] = (
         "deg",
         -180,
         180,
-        "degrees, east positive, -180 to 180 (1.5 W, 1\u00b030' W or -1.5)",
+        "1.5 W, 1\u00b030' W or -1.5 (east positive), -180 to 180 degrees",
     ),
     In(
         "site.elevation_m",
@@ -132,7 +132,7 @@ INPUTS: tuple[In, ...] = (
         "",
         0.05,
         1,
-        "maximum depth of discharge, a fraction (60 %, 60 or 0.6), or leave it out for "
+        "60 %, 60 or 0.6: maximum depth of discharge, a fraction, or leave it out for "
         "the battery unit's own",
         "auto_float",
         "battery.required_ah",
