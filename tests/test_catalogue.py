@@ -233,3 +233,16 @@ def test_cable_length_limits_are_one_copy():
     assert validate_project(project) == []
     load = model.Load("pump", power_w=50.0, hours_per_day=2.0, ac_dc="dc", run_m=lo / 2)
     assert [fld for fld, _ in check_load(load)] == ["run_m"]
+
+
+def test_load_columns_read_their_catalogue_rows(monkeypatch):
+    from offgrid.tui.fields import LOAD_COLUMNS
+
+    inputs = [c for c in LOAD_COLUMNS if c.kind != "figure"]
+    assert len(inputs) == 10
+    for c in inputs:
+        e = input_entry(f"loads[].{c.key}")
+        assert (c.label, c.unit, c.hint) == (e.label, e.unit, e.hint)
+        assert c.kind == e.kind.removeprefix("auto_")
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "loads[].power_w", hint="Zq watts")
+    assert next(c for c in LOAD_COLUMNS if c.key == "power_w").hint == "Zq watts"

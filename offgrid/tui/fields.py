@@ -319,14 +319,37 @@ MODULE_FIELDS = tuple(f for f in PARTS_FIELDS if isinstance(f, Field) and f.grou
 
 @dataclass(frozen=True)
 class Column:
+    """A column of the loads table: ``header`` and ``width`` are the table's own; the
+    input's label, unit, hint and kind are the catalogue's row ``loads[].KEY``."""
+
     key: str
-    label: str
+    header: str
     width: int
-    kind: str = "float"  # text, int, float, choice, months, figure (not editable)
-    unit: str = ""
     choices: tuple[tuple[Any, str], ...] = ()
-    hint: str = ""
     short: dict | None = None  # shorter cell text for some choices
+    figure_hint: str = ""  # a computed column (not an input): what it shows
+
+    @property
+    def entry(self) -> InputEntry | None:
+        return None if self.figure_hint else input_entry(f"loads[].{self.key}")
+
+    @property
+    def label(self) -> str:
+        """The input's name in prompts and messages (the header is shorter)."""
+        return self.entry.label if self.entry else self.header
+
+    @property
+    def kind(self) -> str:
+        """text, int, float, choice, months; figure: computed, not editable."""
+        return self.entry.kind.removeprefix("auto_") if self.entry else "figure"
+
+    @property
+    def unit(self) -> str:
+        return self.entry.unit if self.entry else ""
+
+    @property
+    def hint(self) -> str:
+        return self.entry.hint if self.entry else self.figure_hint
 
 
 TIME_CHOICES = (
@@ -337,45 +360,21 @@ TIME_CHOICES = (
     ("night", "night"),
 )
 LOAD_COLUMNS: tuple[Column, ...] = (
-    Column("name", "Appliance", 20, "text", hint="what it is; any text"),
-    Column("quantity", "Qty", 4, "int", hint="how many of them, a whole number"),
-    Column("power_w", "Watts", 6, unit="W", hint="running power of one unit, W"),
-    Column("hours_per_day", "h/day", 6, unit="h", hint="hours on per day, 0-24"),
-    Column(
-        "ac_dc",
-        "AC/DC",
-        6,
-        "choice",
-        choices=(("ac", "AC"), ("dc", "DC")),
-        hint="AC runs through the inverter; DC straight from the battery",
-    ),
-    Column(
-        "duty_cycle",
-        "Duty",
-        5,
-        hint="share of the on-time it really draws power (a fridge "
-        "compressor 0.3-0.5), 0-1 or 40 %",
-    ),
-    Column(
-        "surge_w", "Start", 6, unit="W", hint="starting power of one unit (motors), W; 0 if none"
-    ),
-    Column("months", "Months", 7, "months", hint="months of use: 1-12, 5,6,7 or 11-2"),
-    Column(
-        "critical",
-        "Must",
-        5,
-        "choice",
-        choices=((True, "yes"), (False, "no")),
-        hint="yes: must never be switched off to save energy",
-    ),
+    Column("name", "Appliance", 20),
+    Column("quantity", "Qty", 4),
+    Column("power_w", "Watts", 6),
+    Column("hours_per_day", "h/day", 6),
+    Column("ac_dc", "AC/DC", 6, (("ac", "AC"), ("dc", "DC"))),
+    Column("duty_cycle", "Duty", 5),
+    Column("surge_w", "Start", 6),
+    Column("months", "Months", 7),
+    Column("critical", "Must", 5, ((True, "yes"), (False, "no"))),
     Column(
         "time_of_day",
         "When",
         6,
-        "choice",
-        choices=TIME_CHOICES,
-        hint="when it mostly runs (used by the hour-by-hour checks)",
+        TIME_CHOICES,
         short={"any": "any", "morning": "morn", "evening": "eve"},
     ),
-    Column("energy", "Wh/day", 7, "figure", hint="energy at the appliance in the design month"),
+    Column("energy", "Wh/day", 7, figure_hint="energy at the appliance in the design month"),
 )

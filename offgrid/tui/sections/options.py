@@ -23,6 +23,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
+from offgrid.catalogue import find_input
 from offgrid.design.result import Reason
 from offgrid.project.model import PriceItem, Project, Variant
 from offgrid.tui.fields import (
@@ -105,8 +106,9 @@ def unique_name(names: list[str], wanted: str) -> str:
 
 
 def override_label(path: str) -> str:
-    f = KNOWN_FIELDS.get(path)
-    return f.label if f else path
+    """The catalogue's label of the input at ``path``, else the path itself."""
+    entry = find_input(path)
+    return entry.label if entry else path
 
 
 def parse_override(path: str, text: str) -> Any:
