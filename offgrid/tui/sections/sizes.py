@@ -35,7 +35,9 @@ KNOWN = {
 Row = str | tuple[str, str, str | None]
 
 
-def _row(path: str, value: str | None = None, number: float | None = None) -> Row:
+def figure_row(
+    path: str, value: str | None = None, number: float | None = None
+) -> tuple[str, str, str]:
     """(label, value, reason path) of the catalogue's figure at ``path``: its label, the
     value given (else ``number`` with the figure's digits and unit) and its reason."""
     e = figure_entry(path)
@@ -48,15 +50,15 @@ def figure_rows(d: SystemDesign) -> list[Row]:
     dm = s.design_month - 1
     rows: list[Row] = [
         "Array",
-        _row("array.power_w", number=a.power_w),
-        _row(
+        figure_row("array.power_w", number=a.power_w),
+        figure_row(
             "array.module_count",
             f"{a.modules_series} in series \u00d7 {a.modules_parallel} strings = "
             f"{a.module_count} \u00d7 {a.module_power_w:g} W",
         ),
-        _row("array.modules_parallel", f"{a.modules_parallel}"),
-        _row("array.required_power_w", number=a.required_power_w),
-        _row("array.derate_total", number=a.derate_total),
+        figure_row("array.modules_parallel", f"{a.modules_parallel}"),
+        figure_row("array.required_power_w", number=a.required_power_w),
+        figure_row("array.derate_total", number=a.derate_total),
         *[
             (
                 f"  {_derate_label(d, name)}",
@@ -67,48 +69,48 @@ def figure_rows(d: SystemDesign) -> list[Row]:
             )
             for name, value in a.derates.items()
         ],
-        _row("array.string_voc_cold_v", number=a.string_voc_cold_v),
-        _row("array.string_vmp_hot_v", number=a.string_vmp_hot_v),
+        figure_row("array.string_voc_cold_v", number=a.string_voc_cold_v),
+        figure_row("array.string_vmp_hot_v", number=a.string_vmp_hot_v),
         "Battery bank",
-        _row("battery.system_voltage_v", f"{b.system_voltage_v} V"),
-        _row("battery.capacity_ah", number=b.capacity_ah),
-        _row("battery.required_ah", number=b.required_ah),
-        _row("battery.nominal_kwh", f"{b.nominal_kwh:.2f} kWh at {b.bank_voltage_v:g} V"),
-        _row("battery.usable_kwh", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD"),
-        _row(
+        figure_row("battery.system_voltage_v", f"{b.system_voltage_v} V"),
+        figure_row("battery.capacity_ah", number=b.capacity_ah),
+        figure_row("battery.required_ah", number=b.required_ah),
+        figure_row("battery.nominal_kwh", f"{b.nominal_kwh:.2f} kWh at {b.bank_voltage_v:g} V"),
+        figure_row("battery.usable_kwh", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD"),
+        figure_row(
             "battery.unit_count",
             f"{b.units_series} in series \u00d7 {b.units_parallel} strings = {b.unit_count}",
         ),
-        _row("battery.autonomy_days", f"{b.autonomy_days:g} days"),
-        _row("battery.temp_factor", number=b.temp_factor),
-        _row("battery.capacity_temp_c", number=b.capacity_temp_c),
-        _row("battery.ageing_temp_c", f"up to {b.ageing_temp_c:.1f} C"),
-        _row("battery.calendar_life_years", number=b.calendar_life_years),
+        figure_row("battery.autonomy_days", f"{b.autonomy_days:g} days"),
+        figure_row("battery.temp_factor", number=b.temp_factor),
+        figure_row("battery.capacity_temp_c", number=b.capacity_temp_c),
+        figure_row("battery.ageing_temp_c", f"up to {b.ageing_temp_c:.1f} C"),
+        figure_row("battery.calendar_life_years", number=b.calendar_life_years),
         "Charge controller",
-        _row(
+        figure_row(
             "controller.current_a",
             (f"{c.count} \u00d7 " if c.count > 1 else "") + f"{c.current_a:.0f} A {c.type.upper()}",
         ),
-        _row("controller.required_current_a", number=c.required_current_a),
+        figure_row("controller.required_current_a", number=c.required_current_a),
         "Inverter",
         *(
             (
-                _row("inverter.continuous_w", number=inv.continuous_w),
-                _row(
+                figure_row("inverter.continuous_w", number=inv.continuous_w),
+                figure_row(
                     "inverter.surge_w",
                     f"{inv.surge_w:,.0f} W (needs {inv.required_surge_w:,.0f} W)",
                 ),
-                _row("inverter.dc_input_current_a", number=inv.dc_input_current_a),
+                figure_row("inverter.dc_input_current_a", number=inv.dc_input_current_a),
             )
             if inv.needed
-            else (_row("inverter.continuous_w", "none: no AC loads"),)
+            else (figure_row("inverter.continuous_w", "none: no AC loads"),)
         ),
         "Loads and site",
-        _row("site.design_month", MONTHS[dm]),
-        _row("loads.design_daily_energy_wh", number=ld.design_daily_energy_wh),
-        _row("loads.max_daily_energy_wh", number=ld.max_daily_energy_wh),
-        _row("loads.peak_ac_w", number=ld.peak_ac_w),
-        _row(
+        figure_row("site.design_month", MONTHS[dm]),
+        figure_row("loads.design_daily_energy_wh", number=ld.design_daily_energy_wh),
+        figure_row("loads.max_daily_energy_wh", number=ld.max_daily_energy_wh),
+        figure_row("loads.peak_ac_w", number=ld.peak_ac_w),
+        figure_row(
             "loads.largest_surge_w",
             (
                 f"{ld.largest_surge_w:,.0f} W ({printable(ld.largest_surge_load)}, "
@@ -117,11 +119,11 @@ def figure_rows(d: SystemDesign) -> list[Row]:
                 else "none given"
             ),
         ),
-        _row("loads.inverter_idle_wh", number=ld.inverter_idle_wh),
-        _row("site.poa_kwh_m2_day", f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day in {MONTHS[dm]}"),
-        _row("site.tilt_deg", number=s.tilt_deg),
-        _row("site.azimuth_deg", number=s.azimuth_deg),
-        _row("site.record_low_c", number=s.record_low_c),
+        figure_row("loads.inverter_idle_wh", number=ld.inverter_idle_wh),
+        figure_row("site.poa_kwh_m2_day", f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day in {MONTHS[dm]}"),
+        figure_row("site.tilt_deg", number=s.tilt_deg),
+        figure_row("site.azimuth_deg", number=s.azimuth_deg),
+        figure_row("site.record_low_c", number=s.record_low_c),
     ]
     rows += electrical_rows(d)
     rows += extra_rows(d)
@@ -141,24 +143,24 @@ def electrical_rows(d: SystemDesign) -> list[Row]:
     rows: list[Row] = ["Strings and module"]
     w, lay, h, mp = er.strings.window, er.strings.layout, er.harvest, er.mpp
     rows += [
-        _row("electrical.strings.max_series", f"{w.max_series} (fewest {w.min_series})"),
-        _row(
+        figure_row("electrical.strings.max_series", f"{w.max_series} (fewest {w.min_series})"),
+        figure_row(
             "electrical.strings.series",
             f"{lay.series} in series \u00d7 {lay.parallel} strings"
             + (f" on {lay.controllers} controllers" if lay.controllers > 1 else ""),
         ),
-        _row(
+        figure_row(
             "mpp.pmp_w",
             f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, {mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)",
         ),
-        _row(
+        figure_row(
             "electrical.harvest.pwm_vs_mppt_pct", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month"
         ),
     ]
     if h.shortfall_pct > 0:
-        rows.append(_row("electrical.harvest.shortfall_pct", number=h.shortfall_pct))
+        rows.append(figure_row("electrical.harvest.shortfall_pct", number=h.shortfall_pct))
     rows.append(
-        _row(
+        figure_row(
             "electrical.protection.bank_fault_current_a", number=er.protection.bank_fault_current_a
         )
     )
@@ -196,7 +198,10 @@ def extra_rows(d: SystemDesign) -> list[Row]:
         for g in dataclasses.fields(value):
             shown = _show_value(getattr(value, g.name))
             if shown is not None:
-                rows.append((g.name.replace("_", " "), shown, f"{f.name}.{g.name}"))
+                path = f"{f.name}.{g.name}"
+                entry = find_figure(path)  # a catalogued figure keeps its one label
+                label = entry.label if entry else g.name.replace("_", " ")
+                rows.append((label, shown, entry.explained_by if entry else path))
     return rows
 
 

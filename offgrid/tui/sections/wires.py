@@ -73,31 +73,19 @@ def runs_of(design: SystemDesign | None) -> list[WireChoice]:
 
 
 def basic_rows(d: SystemDesign) -> list[tuple[str, str, str]]:
-    """What the sizing alone says about the circuits."""
+    """What the sizing alone says about the circuits (labels from the catalogue)."""
+    from offgrid.tui.sections.sizes import figure_row
+
     a, c, inv, b = d.array, d.controller, d.inverter, d.battery
     rows = [
-        (
-            "Array string, cold open-circuit voltage",
-            f"{a.string_voc_cold_v:.1f} V",
-            "array.modules_series",
-        ),
-        ("Controller maximum PV voltage", f"{c.max_pv_voltage_v:g} V", "array.modules_series"),
-        (
-            "Array to controller, current needed",
-            f"{c.required_current_a:.1f} A",
-            "controller.required_current_a",
-        ),
-        ("Controller to battery, rating", f"{c.current_a:.0f} A", "controller.current_a"),
-        ("Battery voltage", f"{b.system_voltage_v} V", "battery.system_voltage_v"),
+        figure_row("array.string_voc_cold_v", number=a.string_voc_cold_v),
+        figure_row("controller.max_pv_voltage_v", f"{c.max_pv_voltage_v:g} V"),
+        figure_row("controller.required_current_a", number=c.required_current_a),
+        figure_row("controller.current_a", f"{c.current_a:.0f} A"),
+        figure_row("battery.system_voltage_v", f"{b.system_voltage_v} V"),
     ]
     if inv.needed:
-        rows.append(
-            (
-                "Battery to inverter, current at cut-off",
-                f"{inv.dc_input_current_a:.1f} A",
-                "inverter.dc_input_current_a",
-            )
-        )
+        rows.append(figure_row("inverter.dc_input_current_a", number=inv.dc_input_current_a))
     return rows
 
 
