@@ -246,3 +246,15 @@ def test_load_columns_read_their_catalogue_rows(monkeypatch):
         assert c.kind == e.kind.removeprefix("auto_")
     _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "loads[].power_w", hint="Zq watts")
     assert next(c for c in LOAD_COLUMNS if c.key == "power_w").hint == "Zq watts"
+
+
+def test_the_variant_comparison_names_figures_as_the_catalogue_does():
+    from offgrid.economics.variants import FIGURE_ROWS
+
+    room = 26  # the Options section's label column (28) less its indent
+    for label, _unit, _digits, path, _get in FIGURE_ROWS:
+        if catalogue.find_figure(path) is not None:
+            assert label is None, f"{path}: its own label '{label}' beside the catalogue's"
+            assert len(figure_entry(path).label) <= room, path
+        else:
+            assert label and len(label) <= room, path

@@ -17,7 +17,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from offgrid.catalogue import figure_entry, find_figure, key_figures
+from offgrid.catalogue import figure_entry, find_figure, find_input, key_figures
 from offgrid.climate.model import MonthlyClimate
 from offgrid.design.cautions import DEFERS_TO_CODE
 from offgrid.design.result import Reason, SystemDesign
@@ -1305,7 +1305,9 @@ def _variants(ri: ReportInputs) -> Section | None:
     names = tuple(c.name for c in cmp.columns)
     rows = []
     for r in cmp.rows:
-        label = f"{r.label} ({r.unit})" if r.unit else r.label
+        entry = find_input(r.label) if r.group == "choices" else None  # a changed input
+        name = entry.label if entry is not None else r.label
+        label = f"{name} ({r.unit})" if r.unit else name
         cells = [
             Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None, None, dif)
             for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)

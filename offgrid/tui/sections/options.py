@@ -44,7 +44,7 @@ from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.steady import SteadyTable
 
 DIFF_MARK = "* "  # before the value, so a narrow column never crops it
-LABEL_WIDTH = 24
+LABEL_WIDTH = 28  # two spaces and the compared figures' labels (26 at most), or an input's (22)
 RISK_YEARS = 30  # synthetic weather years per column, as in section 7 Risk
 KNOWN_FIELDS = {f.path: f for f in PARTS_FIELDS if isinstance(f, Field)}
 
