@@ -65,9 +65,16 @@ def input_entry(path: str) -> InputEntry:
     return entry
 
 
+_WIRE = re.compile(r"^wires(?:\[\d*\]|\.[^.]+)\.([a-z_]+)$")
+
+
 def find_figure(path: str) -> FigureEntry | None:
-    """The figure at a JSON path or a reason key, or None."""
-    return FIGURES_BY_PATH.get(path)
+    """The figure at a JSON path or a reason key, or None; a cable's figure by its index
+    (``wires[2].size``) or its run's key (``wires.charge.size``) is the row ``wires[].size``."""
+    entry = FIGURES_BY_PATH.get(path)
+    if entry is None and (m := _WIRE.match(path)):
+        entry = FIGURES_BY_PATH.get(f"wires[].{m.group(1)}")
+    return entry
 
 
 def figure_entry(path: str) -> FigureEntry:

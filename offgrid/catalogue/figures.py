@@ -115,4 +115,16 @@ FIGURES: tuple[Fig, ...] = (
     Fig("electrical.protection.bank_fault_current_a", "Battery bank fault current", "A", 0),
     Fig("electrical.protection.battery_fuse_a", "Battery fuse", "A", 0),
     Fig("electrical.protection.string_fuses", "String fuses"),
+    # ---------------------------------------------------------------- cables, one row per run
+    # (``wires[2].size`` in the JSON, ``wires.charge.size`` as a reason key: see find_figure)
+    Fig("wires[].count", "Identical runs", "", 0),
+    Fig("wires[].size", "Conductor size"),
+    Fig("wires[].current_a", "Maximum continuous current", "A", 1),
+    Fig("wires[].drop_current_a", "Current for the voltage drop", "A", 1),
+    Fig("wires[].length_m", "Length", "m", 1),
+    Fig("wires[].voltage_v", "Circuit voltage", "V", 1),
+    Fig("wires[].resistance_ohm_km", "Conductor resistance", "ohm/km", 3),
+    Fig("wires[].drop_pct", "Voltage drop", "%", 2),
+    Fig("wires[].ampacity_a", "Ampacity", "A", 0),
+    Fig("wires[].fuse_a", "Fuse", "A", 0),
 )

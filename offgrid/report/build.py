@@ -119,17 +119,6 @@ GROUP_TITLES = {
     "wires": "Cables",
     "protection": "Protection",
 }
-WIRE_FIELDS = {
-    "size": "conductor size",
-    "drop_pct": "voltage drop",
-    "ampacity_a": "ampacity",
-    "fuse_a": "fuse",
-    "current_a": "maximum continuous current",
-    "drop_current_a": "operating current (voltage drop)",
-    "length_m": "length",
-    "voltage_v": "circuit voltage",
-    "resistance_ohm_km": "conductor resistance",
-}
 
 # ----------------------------------------------------------------------------- formatting
 
@@ -244,8 +233,14 @@ def figure_label(design: SystemDesign, path: str) -> str:
         for w in wires_of(design):
             if w.key == key:
                 run = w.run
-                return f"{run[:1].upper()}{run[1:]}: {WIRE_FIELDS.get(name, name)}"
+                return f"{run[:1].upper()}{run[1:]}: {_wire_field(name).lower()}"
     return label_of(path)
+
+
+def _wire_field(name: str) -> str:
+    """The catalogue's label of a cable's figure (``size`` -> Conductor size)."""
+    entry = find_figure(f"wires[].{name}")
+    return entry.label if entry is not None else name.replace("_", " ")
 
 
 def label_of(path: str) -> str:
@@ -802,7 +797,7 @@ def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
             (run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
             for run, r in entries
         )
-        label = WIRE_FIELDS.get(name, name)
+        label = _wire_field(name)
         items.append(
             FigureItem(
                 f"wires.*.{name}",

@@ -15,7 +15,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
-from offgrid.catalogue import input_entry
+from offgrid.catalogue import find_figure, input_entry
 from offgrid.design.result import SystemDesign
 from offgrid.design.wiring import WireChoice
 from offgrid.tui.fields import Field, parse_number
@@ -51,6 +51,8 @@ COLUMNS = (  # key, label, width
     ("drop_limit_pct", "Limit", 6),
     ("fuse_a", "Fuse A", 7),
 )
+#: A column's name in the design's JSON where it differs (the catalogue's row ``wires[].NAME``).
+JSON_NAME = {"operating_current_a": "drop_current_a"}
 #: Max A: the maximum continuous current (ampacity and fuse); Drop A: the operating current
 #: the voltage drop is computed with.
 REASON_OF_COLUMN = {
@@ -352,10 +354,8 @@ class WiresSection(Section):
             what = REASON_OF_COLUMN.get(column, "size")
             value = getattr(run, column)  # dynamic: a WireChoice field named in COLUMNS
             shown = f"{value:.2f}" if isinstance(value, float) else str(value)
-            label = {
-                "current_a": "maximum continuous current (ampacity, fuse)",
-                "operating_current_a": "operating current (voltage drop)",
-            }.get(column, column.replace("_", " "))
+            entry = find_figure(f"wires[].{JSON_NAME.get(column, column)}")
+            label = entry.label.lower() if entry else column.replace("_", " ")
             return Figure(f"{run.run}: {label}", shown, f"wires.{run.key}.{what}")
         if self._basic:
             label, value, path = self._basic[min(row, len(self._basic) - 1)]
