@@ -265,3 +265,12 @@ def test_the_variant_comparison_names_figures_as_the_catalogue_does():
             assert len(figure_entry(path).label) <= room, path
         else:
             assert label and len(label) <= room, path
+
+
+def test_a_load_is_checked_against_its_catalogue_rows(monkeypatch):
+    from offgrid.project.loads_csv import check_load
+
+    load = model.Load("lamp", power_w=50.0, hours_per_day=5.0)
+    assert check_load(load) == []
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "loads[].hours_per_day", high=4.0)
+    assert [(f, "0-4 hours" in m) for f, m in check_load(load)] == [("hours_per_day", True)]
