@@ -178,8 +178,8 @@ def test_ui_field_tables_hold_only_catalogued_inputs():
             entry.hint,
             entry.reason,
         )
-        if f.base_kind == "choice":
-            assert f.choices, f"{f.path}: a choice without choices"
+        if f.base_kind == "choice":  # the UI offers exactly the values validation allows
+            assert {v for v, _ in f.choices} == set(entry.values), f.path
 
 
 def test_the_report_and_the_ui_give_a_figure_the_same_label(demo):
@@ -251,6 +251,8 @@ def test_load_columns_read_their_catalogue_rows(monkeypatch):
         e = input_entry(f"loads[].{c.key}")
         assert (c.label, c.unit, c.hint) == (e.label, e.unit, e.hint)
         assert c.kind == e.kind.removeprefix("auto_")
+        if c.kind == "choice":
+            assert {v for v, _ in c.choices} == set(e.values), c.key
     _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "loads[].power_w", hint="Zq watts")
     assert next(c for c in LOAD_COLUMNS if c.key == "power_w").hint == "Zq watts"
 
@@ -274,3 +276,11 @@ def test_a_load_is_checked_against_its_catalogue_rows(monkeypatch):
     assert check_load(load) == []
     _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "loads[].hours_per_day", high=4.0)
     assert [(f, "0-4 hours" in m) for f, m in check_load(load)] == [("hours_per_day", True)]
+
+
+def test_a_choice_outside_the_catalogue_values_is_refused(monkeypatch):
+    project = model.Project()
+    project.climate.ref = "x"
+    assert validate_project(project) == []
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "wiring.units", values=("awg",))
+    assert [str(p) for p in validate_project(project)] == ["wiring.units: 'mm2' must be awg"]

@@ -18,7 +18,8 @@ class InputEntry:
     to type and is the tail of every message about the field; ``kind`` is text, float,
     int, choice, months or climate, ``auto_`` in front when it may be left out (the
     engine then picks); ``reason`` is the design figure (reason key) that explains the
-    automatic value or what the input drives.
+    automatic value or what the input drives; ``values`` are the values a choice allows
+    (how the UI names them is the UI's).
     """
 
     path: str
@@ -29,6 +30,7 @@ class InputEntry:
     hint: str = ""
     kind: str = "float"
     reason: str | None = None
+    values: tuple = ()
 
     @property
     def is_fraction(self) -> bool:

@@ -116,6 +116,7 @@ INPUTS: tuple[In, ...] = (
         hint="battery bank voltage; automatic keeps DC current at or below 100 A",
         kind="choice",
         reason="battery.system_voltage_v",
+        values=("auto", 12, 24, 48),
     ),
     In(
         "choices.autonomy_days",
@@ -171,6 +172,7 @@ INPUTS: tuple[In, ...] = (
         "temperature factor, even if they never meet in one month",
         kind="choice",
         reason="battery.required_ah",
+        values=(False, True),
     ),
     In(
         "choices.min_tilt_deg",
@@ -232,6 +234,7 @@ INPUTS: tuple[In, ...] = (
         "Chemistry",
         hint="sets charging voltage, temperature correction and cautions",
         kind="choice",
+        values=("flooded", "agm", "gel", "lifepo4"),
     ),
     In(
         "battery.nominal_voltage_v",
@@ -271,6 +274,7 @@ INPUTS: tuple[In, ...] = (
         "Controller type",
         hint="MPPT converts the array's voltage; PWM connects it straight to the battery",
         kind="choice",
+        values=("pwm", "mppt"),
     ),
     In(
         "controller.max_pv_voltage_v",
@@ -334,6 +338,7 @@ INPUTS: tuple[In, ...] = (
         hint="yes: its idle draw counts in months when no AC load is used",
         kind="choice",
         reason="loads.inverter_idle_wh",
+        values=(False, True),
     ),
     # ---------------------------------------------------------------- losses
     In(
@@ -415,14 +420,22 @@ INPUTS: tuple[In, ...] = (
         "Cable sizes in",
         hint="the size system of the cables you can buy",
         kind="choice",
+        values=("awg", "mm2"),
     ),
-    In("wiring.material", "Conductor", hint="copper or aluminium", kind="choice"),
+    In(
+        "wiring.material",
+        "Conductor",
+        hint="copper or aluminium",
+        kind="choice",
+        values=("copper", "aluminium"),
+    ),
     In(
         "wiring.insulation_temp_c",
         "Insulation rating",
         "C",
         hint="temperature rating of the cable insulation",
         kind="choice",
+        values=(60, 75, 90),
     ),
     In(
         "wiring.conductor_temp_c",
@@ -516,6 +529,7 @@ INPUTS: tuple[In, ...] = (
         "AC or DC",
         hint="AC runs through the inverter; DC straight from the battery",
         kind="choice",
+        values=("ac", "dc"),
     ),
     In(
         "loads[].duty_cycle",
@@ -540,12 +554,14 @@ INPUTS: tuple[In, ...] = (
         "Must stay on",
         hint="yes: must never be switched off to save energy",
         kind="choice",
+        values=(False, True),
     ),
     In(
         "loads[].time_of_day",
         "Time of day",
         hint="when it mostly runs (used by the hour-by-hour checks)",
         kind="choice",
+        values=("any", "day", "morning", "evening", "night"),
     ),
     In(
         "loads[].run_m",

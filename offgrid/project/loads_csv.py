@@ -34,7 +34,7 @@ COLUMNS = (
     "critical",
 )
 OPTIONAL_COLUMNS = ("time_of_day", "run_m")
-TIMES_OF_DAY = ("any", "day", "morning", "evening", "night")
+TIMES_OF_DAY = input_entry("loads[].time_of_day").values
 #: The longest load list read (a clinic or a school has tens of loads; a whole village is
 #: planned as a community survey, not as one load list).
 MAX_LOADS = 5000

@@ -38,6 +38,22 @@ def ranged_inputs() -> list[tuple[str, float, float, str]]:
     ]
 
 
+def _choice_problems(project: Project) -> list[Problem]:
+    """A value outside the catalogue's ``values`` of a choice (yes/no and per-load rows
+    are checked where they are read)."""
+    problems = []
+    for e in catalogue.INPUTS_BY_PATH.values():
+        if not e.values or "[]" in e.path or all(isinstance(v, bool) for v in e.values):
+            continue
+        value = _get(project, e.path)
+        if value not in e.values:
+            names = [str(v) for v in e.values]
+            allowed = " or ".join([", ".join(names[:-1]), names[-1]] if len(names) > 1 else names)
+            unit = f" ({e.unit})" if e.unit else ""
+            problems.append(Problem(e.path, f"'{value}' must be {allowed}{unit}"))
+    return problems
+
+
 def _get(project: Project, path: str):
     obj = project
     for part in path.split("."):
@@ -81,29 +97,7 @@ def validate_project(project: Project) -> list[Problem]:
                 f"{m.vmp_v * m.imp_a:.1f} W by more than 5 %; check the datasheet",
             )
         )
-    sv = project.choices.system_voltage
-    if sv not in ("auto", 12, 24, 48):
-        problems.append(Problem("choices.system_voltage", f"'{sv}' must be auto, 12, 24 or 48"))
-    if project.controller.type not in ("pwm", "mppt"):
-        problems.append(
-            Problem("controller.type", f"'{project.controller.type}' must be pwm or mppt")
-        )
-    if project.battery.chemistry not in ("flooded", "agm", "gel", "lifepo4"):
-        problems.append(
-            Problem(
-                "battery.chemistry",
-                f"'{project.battery.chemistry}' must be one of flooded, agm, gel, lifepo4",
-            )
-        )
-    w = project.wiring
-    if w.units not in ("awg", "mm2"):
-        problems.append(Problem("wiring.units", f"'{w.units}' must be awg or mm2"))
-    if w.material not in ("copper", "aluminium"):
-        problems.append(Problem("wiring.material", f"'{w.material}' must be copper or aluminium"))
-    if w.insulation_temp_c not in (60, 75, 90):
-        problems.append(
-            Problem("wiring.insulation_temp_c", f"'{w.insulation_temp_c}' must be 60, 75 or 90 (C)")
-        )
+    problems.extend(_choice_problems(project))
     c = project.climate
     if c.ref is None and c.inline is None:
         problems.append(
