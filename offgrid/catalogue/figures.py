@@ -20,6 +20,7 @@ FIGURES: tuple[Fig, ...] = (
     Fig("site.albedo", "Ground reflectance (albedo)", "", 2),
     Fig("site.poa_kwh_m2_day", "Array-plane insolation", "kWh/m2/day", 2),
     Fig("site.horizontal_kwh_m2_day", "Horizontal insolation", "kWh/m2/day", 2),
+    Fig("site.demand_to_sun", "Demand to sun", "Wh per kWh/m2", 0),
     # ---------------------------------------------------------------- loads
     Fig("loads.design_daily_energy_wh", "Energy in design month", "Wh/day", 0, key=True),
     Fig(
@@ -33,6 +34,11 @@ FIGURES: tuple[Fig, ...] = (
     Fig("loads.peak_ac_w", "Peak AC power at once", "W", 0, key=True),
     Fig("loads.largest_surge_w", "Largest starting power", "W", 0, key=True),
     Fig("loads.daily_energy_wh", "Demand at the battery", "Wh/day", 0),
+    Fig("loads.ac_energy_wh", "AC appliances", "Wh/day", 0),
+    Fig("loads.dc_energy_wh", "DC appliances", "Wh/day", 0),
+    Fig("loads.inverter_loss_wh", "Inverter loss", "Wh/day", 0),
+    Fig("loads.inverter_idle_by_month_wh", "Inverter idle", "Wh/day", 0),
+    Fig("loads.critical_energy_wh", "Critical loads' energy", "Wh/day", 0),
     Fig("loads.connected_ac_w", "AC power connected", "W", 0),
     Fig("loads.connected_dc_w", "DC power connected", "W", 0),
     Fig("loads.growth_pct", "Load growth margin", "%", 1),

@@ -237,6 +237,12 @@ def figure_label(design: SystemDesign, path: str) -> str:
     return label_of(path)
 
 
+def _with_unit(path: str) -> str:
+    """A monthly row's label: the catalogue's label and unit (``Array supply ..., Wh/day``)."""
+    e = figure_entry(path)
+    return f"{e.label}, {e.unit}" if e.unit else e.label
+
+
 def _wire_field(name: str) -> str:
     """The catalogue's label of a cable's figure (``size`` -> Conductor size)."""
     entry = find_figure(f"wires[].{name}")
@@ -531,14 +537,14 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
         )
     ]
     for label, vals, path in (
-        ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
-        ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
-        ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
-        ("Inverter idle", idle, "loads.inverter_idle_by_month_wh"),
+        (None, lr.ac_energy_wh, "loads.ac_energy_wh"),
+        (None, lr.dc_energy_wh, "loads.dc_energy_wh"),
+        (None, lr.inverter_loss_wh, "loads.inverter_loss_wh"),
+        (None, idle, "loads.inverter_idle_by_month_wh"),
         (f"Growth {lr.growth_pct:g} %", growth, None),
-        ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh"),
+        (None, lr.daily_energy_wh, "loads.daily_energy_wh"),
     ):
-        mrows.append(_month_row(label, vals, path))
+        mrows.append(_month_row(label or figure_entry(path).label, vals, path))
     blocks.append(
         Table(
             "energy-by-month",
@@ -591,18 +597,20 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
         )
     ]
     rows = [
-        _month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
-        _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day"),
+        _month_row(
+            _with_unit("loads.daily_energy_wh"), lr.daily_energy_wh, "loads.daily_energy_wh"
+        ),
+        _month_row(_with_unit("array.supply_wh_day"), a.supply_wh_day, "array.supply_wh_day"),
     ]
     harvests = []
-    for label, attr, values in (
-        ("MPPT harvest", "harvest_mppt_wh_day", a.harvest_mppt_wh_day),
-        ("PWM harvest", "harvest_pwm_wh_day", a.harvest_pwm_wh_day),
+    for attr, values in (
+        ("harvest_mppt_wh_day", a.harvest_mppt_wh_day),
+        ("harvest_pwm_wh_day", a.harvest_pwm_wh_day),
     ):
         if len(values) == 12:
-            rows.append(_month_row(f"{label}, Wh/day", values, f"array.{attr}"))
-            harvests.append((label, values))
-    rows.append(_month_row("Demand/sun", s.demand_to_sun, "site.demand_to_sun"))
+            rows.append(_month_row(_with_unit(f"array.{attr}"), values, f"array.{attr}"))
+            harvests.append((figure_entry(f"array.{attr}").label, values))
+    rows.append(_month_row(_with_unit("site.demand_to_sun"), s.demand_to_sun, "site.demand_to_sun"))
     blocks.append(
         Table(
             "supply-demand",
