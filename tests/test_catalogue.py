@@ -284,3 +284,12 @@ def test_a_choice_outside_the_catalogue_values_is_refused(monkeypatch):
     assert validate_project(project) == []
     _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "wiring.units", values=("awg",))
     assert [str(p) for p in validate_project(project)] == ["wiring.units: 'mm2' must be awg"]
+
+
+def test_a_ui_field_needs_its_catalogue_row():
+    from offgrid.tui.fields import Field
+
+    with pytest.raises(TypeError, match=r"add a row to offgrid/catalogue/inputs\.py"):
+        Field("site.tilt_deg", "Tilt")  # the old form, label and all
+    with pytest.raises(KeyError, match=r"site\.mast_height_m"):
+        Field("site.mast_height_m")

@@ -32,6 +32,14 @@ class Field:
     auto_text: str = "automatic"
     group_form: str | None = None  # edit together with the other fields of this group
 
+    def __post_init__(self) -> None:
+        if isinstance(self.choices, str):  # the old Field(path, label, kind, unit=...) form
+            raise TypeError(
+                f"Field({self.path!r}, {self.choices!r}): label, unit, hint, kind and reason "
+                "are the catalogue's; add a row to offgrid/catalogue/inputs.py"
+            )
+        input_entry(self.path)  # KeyError naming the path when it is not catalogued
+
     @property
     def entry(self) -> InputEntry:
         return input_entry(self.path)
