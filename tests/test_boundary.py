@@ -11,7 +11,7 @@ def test_engine_imports_no_ui():
         "import sys\n"
         "import offgrid.design.sizing, offgrid.project.store, offgrid.report.summary\n"
         "import offgrid.economics.bom, offgrid.economics.costs, offgrid.economics.prices\n"
-        "import offgrid.economics.variants\n"
+        "import offgrid.economics.variants, offgrid.catalogue\n"
         "from offgrid.paths import demo_project_path\n"
         "from offgrid.project.store import load_project\n"
         "offgrid.design.sizing.design(load_project(demo_project_path()))\n"

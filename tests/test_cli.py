@@ -64,7 +64,11 @@ def test_size_demo_json_has_documented_keys():
 
 def test_size_summary_is_readable_and_fits_80_columns():
     out = offgrid("size", "--demo").stdout
-    assert "Design month" in out and "Battery bank" in out and "demonstration data" in out
+    assert (
+        "Design month" in out
+        and "Battery capacity installed" in out
+        and "demonstration data" in out
+    )
     assert max(len(line) for line in out.splitlines()) <= 80
 
 

@@ -26,7 +26,7 @@ from offgrid.project.model import (
     Project,
     ProjectInfo,
 )
-from offgrid.project.validate import RANGES, validate_project
+from offgrid.project.validate import ranged_inputs, validate_project
 
 try:
     from design_invariants import design_problems
@@ -78,7 +78,7 @@ def modules(draw, project: Project) -> None:
     """A crystalline module datasheet that hangs together (most draws), or raw ranges."""
     m = project.module
     if draw(st.integers(0, 9)) == 0:
-        return  # keep the raw RANGES values: validate_module may refuse them
+        return  # keep the raw catalogue ranges: validate_module may refuse them
     cells = draw(st.sampled_from((32, 36, 40, 54, 60, 66, 72, 96, 120, 132, 144)))
     in_series = cells // 2 if cells >= 120 else cells  # half-cut modules
     voc = in_series * draw(st.floats(0.58, 0.72, **finite))
@@ -180,7 +180,7 @@ def loads(draw) -> list[Load]:
 @st.composite
 def projects(draw) -> Project:
     p = Project(info=ProjectInfo(name="fuzz", demo=True))
-    for path, lo, hi, _ in RANGES:
+    for path, lo, hi, _ in ranged_inputs():
         obj, name = _owner(p, path)
         tp = _hint(obj, name)
         default = getattr(obj, name)

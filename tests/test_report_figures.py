@@ -12,14 +12,17 @@ from html.parser import HTMLParser
 
 import pytest
 
+from offgrid.catalogue import figure_entry, key_figures
 from offgrid.design.sizing import design
-from offgrid.report.build import KEY_FIGURES, LABELS, build_report
+from offgrid.report.build import build_report
 from offgrid.report.document import Figures, Table
 from offgrid.report.html import render_html
 from offgrid.report.markdown import render_markdown
 from offgrid.report.text import render_text
 from offgrid.wording import confirm_words
 from tests.report_helpers import assert_shown_equals, at_path, demo, size_json
+
+KEY_FIGURES = key_figures()
 
 
 @pytest.fixture(scope="module")
@@ -109,7 +112,7 @@ def test_text_figures_equal_size_json(demo_report):
     data = size_json()
     shown = _label_values(render_text(demo_report), r"^(\S.*?) \.{2,} (.+)$")
     for path in KEY_FIGURES:
-        label = LABELS[path]
+        label = figure_entry(path).label
         assert label in shown, f"text report lacks '{label}'"
         assert_shown_equals(shown[label], at_path(data, path), f"txt {path}")
 
@@ -118,7 +121,7 @@ def test_markdown_figures_equal_size_json(demo_report):
     data = size_json()
     shown = _label_values(render_markdown(demo_report), r"^- \*\*(.+?): (.+?)\*\*\\?$")
     for path in KEY_FIGURES:
-        label = LABELS[path].replace("_", "\\_")
+        label = figure_entry(path).label.replace("_", "\\_")
         assert label in shown, f"markdown report lacks '{label}'"
         assert_shown_equals(shown[label], at_path(data, path), f"md {path}")
 

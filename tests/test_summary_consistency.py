@@ -30,23 +30,25 @@ def test_summary_figures_equal_the_json(name):
     a, b, c, inv = j["array"], j["battery"], j["controller"], j["inverter"]
     assert f"Design month: {MONTHS[j['site']['design_month'] - 1]}" in text
     assert re.search(
-        rf"Array\s+{a['power_w']:.0f} W\s+{a['modules_series']} series x "
+        rf"Array power installed\s+{a['power_w']:.0f} W\s+{a['modules_series']} series x "
         rf"{a['modules_parallel']} parallel",
         text,
     )
     assert re.search(
-        rf"Battery bank\s+{b['capacity_ah']:.0f} Ah at {b['system_voltage_v']} V\s+"
+        rf"Battery capacity installed\s+{b['capacity_ah']:.0f} Ah at {b['system_voltage_v']} V\s+"
         rf"{b['units_series']} series x {b['units_parallel']} parallel",
         text,
     )
     count = f"{c['count']} x " if c["count"] > 1 else ""
     assert re.search(
-        rf"Charge controller\s+{count}{c['current_a']:.0f} A {c['type'].upper()}", text
+        rf"Controller rating\s+{count}{c['current_a']:.0f} A {c['type'].upper()}", text
     )
     per = c["required_current_a"] / c["count"]
     assert f"needs {per:.1f} A" in text
     if inv["needed"]:
-        assert re.search(rf"Inverter\s+{inv['continuous_w']:.0f} W continuous", text)
+        assert re.search(
+            rf"Inverter continuous rating\s+{inv['continuous_w']:.0f} W continuous", text
+        )
     strings = j["electrical"]["strings"]
     assert f"chosen {strings['series']} x {strings['parallel']} parallel" in text
     for w in j["wires"]:

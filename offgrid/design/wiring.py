@@ -24,12 +24,12 @@ import functools
 import math
 from dataclasses import dataclass
 
+from offgrid.catalogue.inputs import RUN_LENGTH_M
 from offgrid.design.result import DesignError
 
 FT_PER_KM = 1000.0 / 0.3048
 KCMIL_MM2 = 0.506707479  # 1 kcmil = 1000 circular mils = 0.5067 mm2
-RUN_MIN_M = 0.1
-RUN_MAX_M = 1000.0
+RUN_MIN_M, RUN_MAX_M = RUN_LENGTH_M  # the catalogue's one range of run lengths
 
 # Temperature coefficients of resistance, per C.
 ALPHA_75 = {"copper": 0.00323, "aluminium": 0.00330}  # at 75 C: 1/(234.5+75), 1/(228.1+75)

@@ -19,6 +19,7 @@ from dataclasses import dataclass, is_dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, get_type_hints
 
+from offgrid.catalogue import figure_entry
 from offgrid.design.result import DesignError, SystemDesign
 from offgrid.project.model import Project, Variant
 
@@ -155,30 +156,31 @@ def _show(value: Any, digits: int | None) -> str:
     return str(value)
 
 
-#: Figures compared: label, unit, digits, getter from (design, cost, reliability).
-FIGURE_ROWS: tuple[tuple[str, str, int, str, Callable[..., Any]], ...] = (
-    ("Design month", "", 0, "site.design_month", lambda d, c, r: MONTHS[d.site.design_month - 1]),
+#: Figures compared: label (None: the catalogue's, by path), unit, digits, path, getter
+#: from (design, cost, reliability).
+FIGURE_ROWS: tuple[tuple[str | None, str, int, str, Callable[..., Any]], ...] = (
+    (None, "", 0, "site.design_month", lambda d, c, r: MONTHS[d.site.design_month - 1]),
     (
-        "System voltage",
+        None,
         "V",
         0,
         "battery.system_voltage_v",
         lambda d, c, r: d.battery.system_voltage_v,
     ),
-    ("Array power", "W", 0, "array.power_w", lambda d, c, r: d.array.power_w),
+    (None, "W", 0, "array.power_w", lambda d, c, r: d.array.power_w),
     (
-        "Modules",
+        None,
         "",
         0,
         "array.module_count",
         lambda d, c, r: f"{d.array.modules_series} x {d.array.modules_parallel}",
     ),
-    ("Derates together", "", 3, "array.derate_total", lambda d, c, r: d.array.derate_total),
-    ("Battery bank", "Ah", 0, "battery.capacity_ah", lambda d, c, r: d.battery.capacity_ah),
-    ("Battery usable", "kWh", 2, "battery.usable_kwh", lambda d, c, r: d.battery.usable_kwh),
-    ("Battery units", "", 0, "battery.unit_count", lambda d, c, r: d.battery.unit_count),
+    (None, "", 3, "array.derate_total", lambda d, c, r: d.array.derate_total),
+    (None, "Ah", 0, "battery.capacity_ah", lambda d, c, r: d.battery.capacity_ah),
+    (None, "kWh", 2, "battery.usable_kwh", lambda d, c, r: d.battery.usable_kwh),
+    (None, "", 0, "battery.unit_count", lambda d, c, r: d.battery.unit_count),
     (
-        "Controller",
+        None,
         "A",
         0,
         "controller.current_a",
@@ -187,7 +189,7 @@ FIGURE_ROWS: tuple[tuple[str, str, int, str, Callable[..., Any]], ...] = (
         ),
     ),
     (
-        "Inverter",
+        None,
         "W",
         0,
         "inverter.continuous_w",
@@ -303,6 +305,7 @@ def compare_variants(
                 vals.append(None)
         rows.append(_row(p, "", None, vals, "choices", p))
     for label, unit, digits, path, get in FIGURE_ROWS:
+        label = label or figure_entry(path).label
         vals = [
             get(c.design, c.cost, c.reliability) if c.design is not None else None for c in columns
         ]

@@ -17,8 +17,9 @@ import io
 from dataclasses import dataclass
 from pathlib import Path
 
+from offgrid.catalogue import input_entry
 from offgrid.numbers import NumberError, is_finite_number, read_number
-from offgrid.project.model import ALL_MONTHS, RUN_LENGTH_RANGE_M, Load
+from offgrid.project.model import ALL_MONTHS, Load
 from offgrid.safetext import csv_cell, csv_uncell
 
 COLUMNS = (
@@ -33,7 +34,7 @@ COLUMNS = (
     "critical",
 )
 OPTIONAL_COLUMNS = ("time_of_day", "run_m")
-TIMES_OF_DAY = ("any", "day", "morning", "evening", "night")
+TIMES_OF_DAY = input_entry("loads[].time_of_day").values
 #: The longest load list read (a clinic or a school has tens of loads; a whole village is
 #: planned as a community survey, not as one load list).
 MAX_LOADS = 5000
@@ -105,6 +106,13 @@ def format_months(months: tuple[int, ...]) -> str:
     return ",".join(f"{a}-{b}" if b > a else str(a) for a, b in runs)
 
 
+def _range(path: str) -> tuple[float, float]:
+    """(low, high) of a load's input, from the catalogue."""
+    entry = input_entry(path)
+    assert entry.low is not None and entry.high is not None, path
+    return entry.low, entry.high
+
+
 def check_load(load: Load) -> list[tuple[str, str]]:
     """Problems with one load as (field, message with the fix); empty when valid."""
     out: list[tuple[str, str]] = []
@@ -124,19 +132,34 @@ def check_load(load: Load) -> list[tuple[str, str]]:
         )
     if out:
         return out
+    q, pw, hr, du, su = (
+        _range(f"loads[].{k}")
+        for k in ("quantity", "power_w", "hours_per_day", "duty_cycle", "surge_w")
+    )
     if not isinstance(load.quantity, int) or isinstance(load.quantity, bool):
-        out.append(("quantity", f"'{load.quantity}' must be a whole number 0-100000"))
-    elif load.quantity < 0 or load.quantity > 100000:
-        out.append(("quantity", f"{load.quantity} is not a count; use a whole number 0-100000"))
-    if not 0 <= load.power_w <= 1_000_000:
-        out.append(("power_w", f"{load.power_w} W is outside 0-1,000,000 W"))
-    if not 0 <= load.hours_per_day <= 24:
-        out.append(("hours_per_day", f"{load.hours_per_day} h is outside 0-24 hours per day"))
-    if not 0 <= load.duty_cycle <= 1:
+        out.append(("quantity", f"'{load.quantity}' must be a whole number {q[0]:g}-{q[1]:g}"))
+    elif not q[0] <= load.quantity <= q[1]:
         out.append(
-            ("duty_cycle", f"{load.duty_cycle} must be a fraction 0-1 (0.4 = on 40 % of the time)")
+            ("quantity", f"{load.quantity} is not a count; use a whole number {q[0]:g}-{q[1]:g}")
         )
-    if not 0 <= load.surge_w <= 10_000_000:
+    if not pw[0] <= load.power_w <= pw[1]:
+        out.append(("power_w", f"{load.power_w} W is outside {pw[0]:,.0f}-{pw[1]:,.0f} W"))
+    if not hr[0] <= load.hours_per_day <= hr[1]:
+        out.append(
+            (
+                "hours_per_day",
+                f"{load.hours_per_day} h is outside {hr[0]:g}-{hr[1]:g} hours per day",
+            )
+        )
+    if not du[0] <= load.duty_cycle <= du[1]:
+        out.append(
+            (
+                "duty_cycle",
+                f"{load.duty_cycle} must be a fraction {du[0]:g}-{du[1]:g} "
+                "(0.4 = on 40 % of the time)",
+            )
+        )
+    if not su[0] <= load.surge_w <= su[1]:
         out.append(("surge_w", f"{load.surge_w} W must be 0 (no surge) or a starting power in W"))
     elif 0 < load.surge_w < load.power_w:
         out.append(
@@ -150,7 +173,7 @@ def check_load(load: Load) -> list[tuple[str, str]]:
         out.append(("ac_dc", f"'{load.ac_dc}' must be ac or dc"))
     if not load.months or any(not 1 <= m <= 12 for m in load.months):
         out.append(("months", "give the months of use, e.g. 1-12 or 5,6,7"))
-    lo, hi = RUN_LENGTH_RANGE_M
+    lo, hi = _range("loads[].run_m")
     if load.run_m is not None and not lo <= load.run_m <= hi:
         out.append(
             (

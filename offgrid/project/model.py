@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Literal
 
+from offgrid.catalogue.inputs import RUN_LENGTH_M
 from offgrid.climate.model import MonthlyClimate
 from offgrid.project.water_model import WaterSupply
 
@@ -23,8 +24,8 @@ ControllerType = Literal["pwm", "mppt"]
 Chemistry = Literal["flooded", "agm", "gel", "lifepo4"]
 TimeOfDay = Literal["any", "day", "evening", "night", "morning"]
 ALL_MONTHS: tuple[int, ...] = tuple(range(1, 13))
-#: One-way length of a cable run that a project may hold, m (inclusive).
-RUN_LENGTH_RANGE_M = (0.1, 1000.0)
+#: One-way length of a cable run that a project may hold, m (inclusive): the catalogue's.
+RUN_LENGTH_RANGE_M = RUN_LENGTH_M
 
 
 @dataclass

@@ -294,14 +294,11 @@ def _short(value: Any) -> str:
 
 
 def _hint(path: str) -> str:
-    """What to type at ``path``: its range from validate.RANGES, or a general hint."""
-    from offgrid.project.validate import RANGES
+    """What to type at ``path``: its hint in the catalogue, or a general hint."""
+    from offgrid.catalogue import find_input
 
-    generic = path.split("[")[0] if "[" in path else path
-    for name, _lo, _hi, hint in RANGES:
-        if name in (path, generic):
-            return hint
-    return "type a number such as 0 or 1.5"
+    entry = find_input(path)
+    return entry.hint if entry is not None and entry.hint else "type a number such as 0 or 1.5"
 
 
 def _depth(data: Any, limit: int) -> int:

@@ -17,6 +17,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from offgrid.catalogue import figure_entry, find_figure, find_input, key_figures
 from offgrid.climate.model import MonthlyClimate
 from offgrid.design.cautions import DEFERS_TO_CODE
 from offgrid.design.result import Reason, SystemDesign
@@ -69,67 +70,6 @@ SECTION_KEYS = (
     "assumptions",
 )
 
-#: Labels of design figures by dotted path (others get a label from the path).
-LABELS: dict[str, str] = {
-    "site.tilt_deg": "Array tilt",
-    "site.azimuth_deg": "Array azimuth",
-    "site.design_month": "Design month",
-    "site.albedo": "Ground reflectance (albedo)",
-    "site.record_low_c": "Lowest temperature for the string",
-    "site.poa_kwh_m2_day": "Array-plane insolation",
-    "loads.daily_energy_wh": "Daily energy at the battery",
-    "loads.design_daily_energy_wh": "Design-month energy at the battery",
-    "loads.max_daily_energy_wh": "Largest monthly daily energy",
-    "loads.inverter_idle_wh": "Inverter idle energy",
-    "loads.peak_ac_w": "Peak AC power at once",
-    "loads.largest_surge_w": "Largest starting power",
-    "array.required_power_w": "Array power required",
-    "array.power_w": "Array power installed",
-    "array.modules_series": "Modules in series",
-    "array.modules_parallel": "Strings in parallel",
-    "array.module_count": "Modules",
-    "array.derate_total": "Derates together",
-    "array.supply_wh_day": "Array supply to the battery",
-    "array.string_voc_cold_v": "String Voc at the lowest temperature",
-    "array.string_vmp_hot_v": "String Vmp hot",
-    "battery.system_voltage_v": "System voltage",
-    "battery.bank_voltage_v": "Battery bank nominal voltage",
-    "battery.capacity_temp_c": "Battery temperature for capacity",
-    "battery.ageing_temp_c": "Battery temperature for ageing, warmest month",
-    "battery.ageing_temps_c": "Battery temperature for ageing",
-    "battery.calendar_life_years": "Battery float life at those temperatures",
-    "battery.required_ah": "Battery capacity required",
-    "battery.capacity_ah": "Battery capacity installed",
-    "battery.units_series": "Battery units in series",
-    "battery.units_parallel": "Battery strings in parallel",
-    "battery.unit_count": "Battery units",
-    "battery.nominal_kwh": "Battery energy, nominal",
-    "battery.usable_kwh": "Battery energy, usable",
-    "controller.required_current_a": "Controller current required",
-    "controller.current_a": "Controller rating",
-    "controller.count": "Charge controllers",
-    "inverter.continuous_w": "Inverter continuous rating",
-    "inverter.surge_w": "Inverter surge rating",
-    "inverter.required_surge_w": "Starting demand on the inverter",
-    "inverter.dc_input_current_a": "Inverter DC input current",
-    "controller.max_pv_voltage_v": "Controller maximum PV voltage",
-    "array.voc_cold_v": "Module Voc at the lowest temperature",
-    "array.vmp_hot_v": "Module Vmp hot",
-    "array.harvest_mppt_wh_day": "MPPT harvest",
-    "array.harvest_pwm_wh_day": "PWM harvest",
-    "module.fit": "Single-diode model of the module",
-    "mpp.vmp_v": "Vmp, one module",
-    "mpp.imp_a": "Imp, one module",
-    "mpp.pmp_w": "Pmp, one module",
-    "mpp.fill_factor": "Fill factor",
-    "mpp.efficiency": "Module efficiency",
-    "strings.max_series": "Most modules in series",
-    "strings.min_series": "Fewest modules in series",
-    "protection.bank_fault_current_a": "Battery bank fault current",
-    "protection.battery_fuse_a": "Battery fuse",
-    "protection.string_fuses": "String fuses",
-}
-
 #: Figures that have no reason of their own in the engine: the reason the report states.
 DERIVED: dict[str, Reason] = {
     "array.module_count": Reason("modules in series x strings in parallel"),
@@ -155,41 +95,6 @@ DERIVED: dict[str, Reason] = {
     ),
 }
 
-#: Figures shown in the figures section, in order, beside every figure that has a reason.
-KEY_FIGURES = (
-    "site.design_month",
-    "site.tilt_deg",
-    "site.azimuth_deg",
-    "site.record_low_c",
-    "loads.design_daily_energy_wh",
-    "loads.max_daily_energy_wh",
-    "loads.inverter_idle_wh",
-    "loads.peak_ac_w",
-    "loads.largest_surge_w",
-    "array.required_power_w",
-    "array.derate_total",
-    "array.modules_series",
-    "array.modules_parallel",
-    "array.module_count",
-    "array.power_w",
-    "array.string_voc_cold_v",
-    "array.string_vmp_hot_v",
-    "battery.system_voltage_v",
-    "battery.required_ah",
-    "battery.units_series",
-    "battery.units_parallel",
-    "battery.unit_count",
-    "battery.capacity_ah",
-    "battery.nominal_kwh",
-    "battery.usable_kwh",
-    "controller.required_current_a",
-    "controller.current_a",
-    "controller.count",
-    "inverter.continuous_w",
-    "inverter.surge_w",
-    "inverter.required_surge_w",
-    "inverter.dc_input_current_a",
-)
 GROUP_ORDER = (
     "site",
     "loads",
@@ -215,17 +120,6 @@ GROUP_TITLES = {
     "strings": "String window",
     "wires": "Cables",
     "protection": "Protection",
-}
-WIRE_FIELDS = {
-    "size": "conductor size",
-    "drop_pct": "voltage drop",
-    "ampacity_a": "ampacity",
-    "fuse_a": "fuse",
-    "current_a": "maximum continuous current",
-    "drop_current_a": "operating current (voltage drop)",
-    "length_m": "length",
-    "voltage_v": "circuit voltage",
-    "resistance_ohm_km": "conductor resistance",
 }
 
 # ----------------------------------------------------------------------------- formatting
@@ -278,8 +172,11 @@ def number_text(value: float, digits: int) -> str:
 
 
 def figure_cell(value: Any, path: str, unit: str | None = None) -> Cell:
-    """A design figure formatted with its unit, keeping the number and the path."""
-    unit = unit_of(path) if unit is None else unit
+    """A design figure formatted with its unit, keeping the number and the path; unit and
+    digits are the catalogue's (:mod:`offgrid.catalogue`) when it lists the figure."""
+    entry = find_figure(path)
+    if unit is None:
+        unit = entry.unit if entry is not None else unit_of(path)
     if path.endswith("design_month") and isinstance(value, int):
         return Cell(MONTHS[value - 1], float(value), path)
     if isinstance(value, bool):
@@ -287,7 +184,8 @@ def figure_cell(value: Any, path: str, unit: str | None = None) -> Cell:
     if isinstance(value, int):
         return Cell(f"{value:,d} {unit}".strip(), float(value), path)
     if isinstance(value, float):
-        text = number_text(value, digits_for(value, unit))
+        digits = entry.digits if entry is not None and entry.digits is not None else None
+        text = number_text(value, digits_for(value, unit) if digits is None else digits)
         return Cell(f"{text} {unit}".strip(), value, path)
     return Cell(str(value), None, path)
 
@@ -337,13 +235,27 @@ def figure_label(design: SystemDesign, path: str) -> str:
         for w in wires_of(design):
             if w.key == key:
                 run = w.run
-                return f"{run[:1].upper()}{run[1:]}: {WIRE_FIELDS.get(name, name)}"
+                return f"{run[:1].upper()}{run[1:]}: {_wire_field(name).lower()}"
     return label_of(path)
 
 
+def _with_unit(path: str) -> str:
+    """A monthly row's label: the catalogue's label and unit (``Array supply ..., Wh/day``)."""
+    e = figure_entry(path)
+    return f"{e.label}, {e.unit}" if e.unit else e.label
+
+
+def _wire_field(name: str) -> str:
+    """The catalogue's label of a cable's figure (``size`` -> Conductor size)."""
+    entry = find_figure(f"wires[].{name}")
+    return entry.label if entry is not None else name.replace("_", " ")
+
+
 def label_of(path: str) -> str:
-    if path in LABELS:
-        return LABELS[path]
+    """The catalogue's label of a figure; for one it does not list, words from the path."""
+    entry = find_figure(path)
+    if entry is not None:
+        return entry.label
     head, _, name = path.rpartition(".")
     words = name
     for suffix in (
@@ -368,6 +280,11 @@ def label_of(path: str) -> str:
     if head.startswith("array.derates"):
         return f"Derate: {words}"
     return words[:1].upper() + words[1:]
+
+
+def _fig_row(value: Any, path: str) -> tuple[Cell, Cell]:
+    """A table row of one figure: the catalogue's label and the formatted value."""
+    return _c(figure_entry(path).label), figure_cell(value, path)
 
 
 def _c(text: str, value: float | None = None, path: str | None = None) -> Cell:
@@ -634,14 +551,14 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
         )
     ]
     for label, vals, path in (
-        ("AC appliances", lr.ac_energy_wh, "loads.ac_energy_wh"),
-        ("DC appliances", lr.dc_energy_wh, "loads.dc_energy_wh"),
-        ("Inverter loss", lr.inverter_loss_wh, "loads.inverter_loss_wh"),
-        ("Inverter idle", idle, "loads.inverter_idle_by_month_wh"),
+        (None, lr.ac_energy_wh, "loads.ac_energy_wh"),
+        (None, lr.dc_energy_wh, "loads.dc_energy_wh"),
+        (None, lr.inverter_loss_wh, "loads.inverter_loss_wh"),
+        (None, idle, "loads.inverter_idle_by_month_wh"),
         (f"Growth {lr.growth_pct:g} %", growth, None),
-        ("At the battery", lr.daily_energy_wh, "loads.daily_energy_wh"),
+        (None, lr.daily_energy_wh, "loads.daily_energy_wh"),
     ):
-        mrows.append(_month_row(label, vals, path))
+        mrows.append(_month_row(label or figure_entry(path).label, vals, path))
     blocks.append(
         Table(
             "energy-by-month",
@@ -694,18 +611,20 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
         )
     ]
     rows = [
-        _month_row("Demand, Wh/day", lr.daily_energy_wh, "loads.daily_energy_wh"),
-        _month_row("Supply, Wh/day", a.supply_wh_day, "array.supply_wh_day"),
+        _month_row(
+            _with_unit("loads.daily_energy_wh"), lr.daily_energy_wh, "loads.daily_energy_wh"
+        ),
+        _month_row(_with_unit("array.supply_wh_day"), a.supply_wh_day, "array.supply_wh_day"),
     ]
     harvests = []
-    for label, attr, values in (
-        ("MPPT harvest", "harvest_mppt_wh_day", a.harvest_mppt_wh_day),
-        ("PWM harvest", "harvest_pwm_wh_day", a.harvest_pwm_wh_day),
+    for attr, values in (
+        ("harvest_mppt_wh_day", a.harvest_mppt_wh_day),
+        ("harvest_pwm_wh_day", a.harvest_pwm_wh_day),
     ):
         if len(values) == 12:
-            rows.append(_month_row(f"{label}, Wh/day", values, f"array.{attr}"))
-            harvests.append((label, values))
-    rows.append(_month_row("Demand/sun", s.demand_to_sun, "site.demand_to_sun"))
+            rows.append(_month_row(_with_unit(f"array.{attr}"), values, f"array.{attr}"))
+            harvests.append((figure_entry(f"array.{attr}").label, values))
+    rows.append(_month_row(_with_unit("site.demand_to_sun"), s.demand_to_sun, "site.demand_to_sun"))
     blocks.append(
         Table(
             "supply-demand",
@@ -796,25 +715,12 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
         )
     ]
     rows = [
-        (
-            _c("Irradiance"),
-            Cell(
-                f"{mpp.irradiance_w_m2:,.0f} W/m2",
-                float(mpp.irradiance_w_m2),
-                "mpp.irradiance_w_m2",
-            ),
-        ),
-        (
-            _c("Cell temperature"),
-            Cell(f"{mpp.cell_temp_c:.1f} C", float(mpp.cell_temp_c), "mpp.cell_temp_c"),
-        ),
-        (_c("Vmp"), Cell(f"{vm:.2f} V", vm, "mpp.vmp_v")),
-        (_c("Imp"), Cell(f"{im:.2f} A", im, "mpp.imp_a")),
-        (_c("Pmp"), Cell(f"{mpp.pmp_w:,.1f} W", float(mpp.pmp_w), "mpp.pmp_w")),
-        (
-            _c("Fill factor"),
-            Cell(f"{mpp.fill_factor:.3f}", float(mpp.fill_factor), "mpp.fill_factor"),
-        ),
+        _fig_row(float(mpp.irradiance_w_m2), "mpp.irradiance_w_m2"),
+        _fig_row(float(mpp.cell_temp_c), "mpp.cell_temp_c"),
+        _fig_row(vm, "mpp.vmp_v"),
+        _fig_row(im, "mpp.imp_a"),
+        _fig_row(float(mpp.pmp_w), "mpp.pmp_w"),
+        _fig_row(float(mpp.fill_factor), "mpp.fill_factor"),
     ]
     if operating:
         rows.append(
@@ -843,7 +749,7 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
 
 def _figures(ri: ReportInputs, tree: dict) -> Section:
     d = ri.design
-    paths = list(KEY_FIGURES)
+    paths = list(key_figures())
     for path in d.reasons:
         if path not in paths:
             paths.append(path)
@@ -913,7 +819,7 @@ def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
             (run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
             for run, r in entries
         )
-        label = WIRE_FIELDS.get(name, name)
+        label = _wire_field(name)
         items.append(
             FigureItem(
                 f"wires.*.{name}",
@@ -933,24 +839,15 @@ def _strings(ri: ReportInputs, tree: dict) -> Section:
     a, c, b = d.array, d.controller, d.battery
     m = p.module
     rows = [
-        (_c("Modules in series per string"), figure_cell(a.modules_series, "array.modules_series")),
-        (_c("Strings in parallel"), figure_cell(a.modules_parallel, "array.modules_parallel")),
+        _fig_row(a.modules_series, "array.modules_series"),
+        _fig_row(a.modules_parallel, "array.modules_parallel"),
         (_c("Module Voc / Vmp at STC"), _c(f"{m.voc_v:g} V / {m.vmp_v:g} V")),
-        (
-            _c(f"Module Voc at {d.site.record_low_c:.1f} C"),
-            figure_cell(a.voc_cold_v, "array.voc_cold_v"),
-        ),
-        (_c("String Voc, cold"), figure_cell(a.string_voc_cold_v, "array.string_voc_cold_v")),
-        (
-            _c("Controller maximum PV voltage"),
-            figure_cell(c.max_pv_voltage_v, "controller.max_pv_voltage_v"),
-        ),
-        (_c("Module Vmp, hot"), figure_cell(a.vmp_hot_v, "array.vmp_hot_v")),
-        (_c("String Vmp, hot"), figure_cell(a.string_vmp_hot_v, "array.string_vmp_hot_v")),
-        (
-            _c("Battery absorption voltage"),
-            figure_cell(b.absorption_voltage_v, "battery.absorption_voltage_v"),
-        ),
+        _fig_row(a.voc_cold_v, "array.voc_cold_v"),
+        _fig_row(a.string_voc_cold_v, "array.string_voc_cold_v"),
+        _fig_row(c.max_pv_voltage_v, "controller.max_pv_voltage_v"),
+        _fig_row(a.vmp_hot_v, "array.vmp_hot_v"),
+        _fig_row(a.string_vmp_hot_v, "array.string_vmp_hot_v"),
+        _fig_row(b.absorption_voltage_v, "battery.absorption_voltage_v"),
     ]
     blocks: list[Block] = [Table("strings", ("String", "Value"), tuple(rows), ("l", "r"))]
     ok_cold = a.string_voc_cold_v < c.max_pv_voltage_v
@@ -1425,7 +1322,9 @@ def _variants(ri: ReportInputs) -> Section | None:
     names = tuple(c.name for c in cmp.columns)
     rows = []
     for r in cmp.rows:
-        label = f"{r.label} ({r.unit})" if r.unit else r.label
+        entry = find_input(r.label) if r.group == "choices" else None  # a changed input
+        name = entry.label if entry is not None else r.label
+        label = f"{name} ({r.unit})" if r.unit else name
         cells = [
             Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None, None, dif)
             for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from offgrid.catalogue import figure_entry, find_figure
 from offgrid.design.result import SystemDesign
 from offgrid.project.model import Project
 from offgrid.safetext import printable
@@ -10,17 +11,34 @@ MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", 
 WIDTH = 80
 
 
-def _row(label: str, value: str, reason: str = "") -> str:
-    text = f"  {label:<20}{value}"
-    if reason:
-        text = f"{text:<44}{reason}"
-    return text[:WIDTH]
+LABEL_WIDTH = 30  # the catalogue's figure labels are at most 29 characters
+DETAIL_AT = 48
+
+
+def _row(label: str, value: str, detail: str = "") -> list[str]:
+    """One figure: label, value and a detail beside it, or below it when it does not fit."""
+    text = f"  {label:<{LABEL_WIDTH - 1}} {value}"
+    if not detail:
+        return [text[:WIDTH]]
+    joined = f"{text:<{DETAIL_AT - 1}} {detail}"
+    if len(joined) <= WIDTH:
+        return [joined]
+    return [text[:WIDTH], (" " * (LABEL_WIDTH + 2) + detail)[:WIDTH]]
+
+
+def _fig(path: str, value: str, detail: str = "") -> list[str]:
+    """A row labelled as the catalogue labels the figure at ``path``."""
+    return _row(figure_entry(path).label, value, detail)
 
 
 def _months_table(title: str, values, digits: int = 0, unit: str = "") -> list[str]:
     head = "  " + " ".join(f"{m:>5}" for m in MONTHS)
     vals = "  " + " ".join(f"{v:>5.{digits}f}" for v in values)
     return [f"{title} {unit}".rstrip(), head, vals]
+
+
+def _label(path: str) -> str:
+    return figure_entry(path).label
 
 
 def summary_text(project: Project, d: SystemDesign) -> str:
@@ -43,71 +61,65 @@ def summary_text(project: Project, d: SystemDesign) -> str:
     )
     lines.append("")
     lines.append("Design")
-    lines.append(
-        _row(
-            "Array",
-            f"{a.power_w:.0f} W",
-            f"{a.modules_series} series x {a.modules_parallel} parallel x {a.module_power_w:.0f} W",
-        )
+    lines += _fig(
+        "array.power_w",
+        f"{a.power_w:.0f} W",
+        f"{a.modules_series} series x {a.modules_parallel} parallel x {a.module_power_w:.0f} W",
     )
-    lines.append(
-        _row("  required", f"{a.required_power_w:.0f} W", f"derates together {a.derate_total:.2f}")
+    lines += _fig(
+        "array.required_power_w",
+        f"{a.required_power_w:.0f} W",
+        f"derates together {a.derate_total:.2f}",
     )
     bank = (
         f" ({b.bank_voltage_v:g} V nominal)"
         if b.bank_voltage_v and abs(b.bank_voltage_v - b.system_voltage_v) > 1e-9
         else ""
     )
-    lines.append(
-        _row(
-            "Battery bank",
-            f"{b.capacity_ah:.0f} Ah at {b.system_voltage_v} V{bank}",
-            f"{b.units_series} series x {b.units_parallel} parallel units",
-        )
+    lines += _fig(
+        "battery.capacity_ah",
+        f"{b.capacity_ah:.0f} Ah at {b.system_voltage_v} V{bank}",
+        f"{b.units_series} series x {b.units_parallel} parallel units",
     )
-    lines.append(
-        _row(
-            "  energy",
-            f"{b.nominal_kwh:.2f} kWh nominal",
-            f"{b.usable_kwh:.2f} kWh usable at {b.max_dod:.0%} DoD",
-        )
+    lines += _fig(
+        "battery.nominal_kwh",
+        f"{b.nominal_kwh:.2f} kWh",
+        f"{b.usable_kwh:.2f} kWh usable at {b.max_dod:.0%} DoD",
     )
-    lines.append(
-        _row(
-            "  temperature",
-            f"{b.capacity_temp_c:.0f} C for capacity",
-            f"ageing up to {b.ageing_temp_c:.0f} C: life {b.calendar_life_years:.1f} yr",
-        )
+    lines += _fig(
+        "battery.capacity_temp_c",
+        f"{b.capacity_temp_c:.0f} C",
+        f"ageing up to {b.ageing_temp_c:.0f} C: life {b.calendar_life_years:.1f} yr",
     )
-    lines.append(_row("  autonomy", f"{b.autonomy_days:g} days", f"{b.chemistry}"))
+    lines += _fig("battery.autonomy_days", f"{b.autonomy_days:g} days", f"{b.chemistry}")
     ctrl_count = f"{c.count} x " if c.count > 1 else ""
     needs = (
         f"needs {c.required_current_a / c.count:.1f} A each"
         if c.count > 1
         else f"needs {c.required_current_a:.1f} A"
     )
-    lines.append(
-        _row("Charge controller", f"{ctrl_count}{c.current_a:.0f} A {c.type.upper()}", needs)
+    lines += _fig(
+        "controller.current_a", f"{ctrl_count}{c.current_a:.0f} A {c.type.upper()}", needs
     )
     if inv.needed:
-        lines.append(
-            _row(
-                "Inverter",
-                f"{inv.continuous_w:.0f} W continuous",
-                f"surge {inv.surge_w:.0f} W (needs {inv.required_surge_w:.0f} W)",
-            )
+        lines += _fig(
+            "inverter.continuous_w",
+            f"{inv.continuous_w:.0f} W continuous",
+            f"surge {inv.surge_w:.0f} W (needs {inv.required_surge_w:.0f} W)",
         )
     else:
-        lines.append(_row("Inverter", "none (no AC loads)"))
+        lines += _fig("inverter.continuous_w", "none (no AC loads)")
     lines.append("")
     lines.append("Derates in the design month (fraction kept)")
     for name, value in a.derates.items():
-        lines.append(_row(name, f"{value:.3f}"))
+        entry = find_figure(f"array.derates.{name}")
+        lines += _row(entry.label if entry else f"Derate: {name}", f"{value:.3f}")
     lines.append("")
-    lines += _months_table("Demand at the battery", ld.daily_energy_wh, 0, "(Wh/day)")
-    lines += _months_table("Array-plane insolation", s.poa_kwh_m2_day, 2, "(kWh/m2/day)")
+    label = _label
+    lines += _months_table(label("loads.daily_energy_wh"), ld.daily_energy_wh, 0, "(Wh/day)")
+    lines += _months_table(label("site.poa_kwh_m2_day"), s.poa_kwh_m2_day, 2, "(kWh/m2/day)")
     lines += _months_table(
-        "Array supply for the loads, derate chain incl. battery round trip",
+        label("array.supply_wh_day") + ", derate chain incl. battery round trip",
         a.supply_wh_day,
         0,
         "(Wh/day)",
@@ -166,9 +178,9 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
     module = [
         f"Module at design conditions ({month} solar noon, {mp.irradiance_w_m2:.0f} W/m2, "
         f"cell {mp.cell_temp_c:.0f} C)",
-        _row("Maximum power", f"{mp.pmp_w:.0f} W", f"Vmp {mp.vmp_v:.1f} V x Imp {mp.imp_a:.2f} A"),
-        _row("Open circuit", f"{mp.voc_v:.1f} V", f"Isc {mp.isc_a:.2f} A"),
-        _row("Fill factor", f"{mp.fill_factor:.3f}", f"efficiency {mp.efficiency:.1%}"),
+        *_fig("mpp.pmp_w", f"{mp.pmp_w:.0f} W", f"Vmp {mp.vmp_v:.1f} V x Imp {mp.imp_a:.2f} A"),
+        *_fig("mpp.voc_v", f"{mp.voc_v:.1f} V", f"Isc {mp.isc_a:.2f} A"),
+        *_fig("mpp.fill_factor", f"{mp.fill_factor:.3f}", f"efficiency {mp.efficiency:.1%}"),
     ]
     err = max(abs(x) for x in e.fit.stc_error_pct)
     module += _wrap(
@@ -179,28 +191,28 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
     ctrl = f"{lay.controllers} controllers; " if lay.controllers > 1 else ""
     strings = [
         "Strings",
-        _row(
-            "Series window",
-            f"{sd.window.min_series}-{sd.window.max_series} modules",
+        *_fig(
+            "electrical.strings.max_series",
+            f"{sd.window.max_series} (fewest {sd.window.min_series})",
             f"chosen {lay.series} x {lay.parallel} parallel",
         ),
-        _row(
-            "Cold Voc",
-            f"{sd.voc_cold_v:.1f} V/module",
+        *_fig(
+            "electrical.strings.voc_cold_v",
+            f"{sd.voc_cold_v:.1f} V",
             f"string {sd.string_voc_cold_v:.0f} V at {sd.record_low_c:.0f} C",
         ),
-        _row(
-            "  controller max",
+        *_fig(
+            "controller.max_pv_voltage_v",
             f"{sd.window.max_pv_voltage_v:.0f} V",
             "cold Voc by " + sd.voc_cold_rule.split(",")[0].replace("datasheet ", ""),
         ),
-        _row(
-            "Hot Vmp",
-            f"{sd.vmp_hot_v:.1f} V/module",
+        *_fig(
+            "electrical.strings.vmp_hot_v",
+            f"{sd.vmp_hot_v:.1f} V",
             f"string {sd.string_vmp_hot_v:.0f} V, needs {sd.window.required_vmp_v:.1f}",
         ),
-        _row(
-            "Strings/controller",
+        *_fig(
+            "electrical.strings.strings_per_controller",
             f"{lay.strings_per_controller}",
             ctrl + ("string fuses" if pr.string_fuses else "no string fuses needed"),
         ),

@@ -6,7 +6,7 @@ A catalogue is a folder holding any of ``modules.csv``, ``batteries.csv``,
 is ``user_data_dir()/parts`` (beside the user's climates); a demonstration catalogue of
 invented generic parts is bundled (``offgrid/data/parts``).  The columns of each kind
 are the fields of the project's part tables (:mod:`offgrid.project.model`), checked
-against the same ranges as the project (:data:`offgrid.project.validate.RANGES`), plus
+against the same ranges as the project (:func:`offgrid.project.validate.ranged_inputs`), plus
 ``price``, ``currency`` and ``supplier``.  The format is in docs/parts-format.md.
 
 A row with a missing or impossible value is reported with its file and line, the
@@ -25,11 +25,11 @@ from typing import Any
 from offgrid.economics.prices import read_price_table
 from offgrid.numbers import MAX_PRICE, PRICE_RANGE, NumberError, read_number
 from offgrid.project.model import BatterySpec, ControllerSpec, ModuleSpec
-from offgrid.project.validate import RANGES
+from offgrid.project.validate import ranged_inputs
 from offgrid.safetext import csv_cell, csv_uncell, printable
 
 PARTS_FOLDER = "parts"
-RANGE_OF = {path: (lo, hi, hint) for path, lo, hi, hint in RANGES}
+RANGE_OF = {path: (lo, hi, hint) for path, lo, hi, hint in ranged_inputs()}
 #: The battery voltages a system may have (offgrid.design.sizing chooses among them).
 SYSTEM_VOLTAGES_V = (12, 24, 48)
 

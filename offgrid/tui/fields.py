@@ -13,28 +13,57 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
+from offgrid.catalogue import InputEntry, input_entry
 from offgrid.design.result import SystemDesign
 from offgrid.numbers import NumberError, read_number
-from offgrid.project.validate import RANGES
 
-HINTS = {path: hint for path, _lo, _hi, hint in RANGES}
-#: Fields whose value is a fraction 0-1: a plain number above 1 (up to 100) is a percentage.
-FRACTIONS = frozenset(path for path, lo, hi, _hint in RANGES if hi == 1 and lo >= 0)
 AUTO_WORDS = ("", "auto", "automatic", "-", "none", "default")
 
 
 @dataclass(frozen=True)
 class Field:
+    """An editable input: its label, unit, hint, kind, range and explaining figure are the
+    catalogue's (:mod:`offgrid.catalogue`, read by ``path`` each time); what is here is how
+    the form shows and reads it."""
+
     path: str
-    label: str
-    kind: str = "float"  # text, float, int, choice, months; auto_* allow None (automatic)
-    unit: str = ""
-    hint: str = ""
     choices: tuple[tuple[Any, str], ...] = ()
-    reason: str | None = None  # engine figure explaining the (automatic) value
     auto: Callable[[SystemDesign], str] | None = None  # what "automatic" came to
     auto_text: str = "automatic"
     group_form: str | None = None  # edit together with the other fields of this group
+
+    def __post_init__(self) -> None:
+        if isinstance(self.choices, str):  # the old Field(path, label, kind, unit=...) form
+            raise TypeError(
+                f"Field({self.path!r}, {self.choices!r}): label, unit, hint, kind and reason "
+                "are the catalogue's; add a row to offgrid/catalogue/inputs.py"
+            )
+        input_entry(self.path)  # KeyError naming the path when it is not catalogued
+
+    @property
+    def entry(self) -> InputEntry:
+        return input_entry(self.path)
+
+    @property
+    def label(self) -> str:
+        return self.entry.label
+
+    @property
+    def kind(self) -> str:
+        return self.entry.kind
+
+    @property
+    def unit(self) -> str:
+        return self.entry.unit
+
+    @property
+    def hint(self) -> str:
+        return self.entry.hint
+
+    @property
+    def reason(self) -> str | None:
+        """The engine figure explaining the (automatic) value."""
+        return self.entry.reason
 
     @property
     def allows_auto(self) -> bool:
@@ -45,7 +74,7 @@ class Field:
         return self.kind.removeprefix("auto_")
 
     def help(self) -> str:
-        return self.hint or HINTS.get(self.path, "")
+        return self.hint
 
     # ------------------------------------------------------------------ showing
     def show(self, value: Any, design: SystemDesign | None = None) -> str:
@@ -98,7 +127,7 @@ class Field:
             return parse_one_or_twelve(raw, self.help())
         if self.path in ANGLE_AXES:
             return parse_angle(raw, ANGLE_AXES[self.path])
-        number = parse_number(raw, self.unit, self.help(), fraction=self.path in FRACTIONS)
+        number = parse_number(raw, self.unit, self.help(), fraction=self.entry.is_fraction)
         if self.base_kind == "int":
             if number != int(number):
                 raise ValueError(f"'{raw}' must be a whole number")
@@ -199,70 +228,20 @@ def _fmt(value: float, unit: str, digits: int = 0) -> str:
 
 PROJECT_FIELDS: tuple[Field | str, ...] = (
     "Project",
-    Field("info.name", "Project name", "text", hint="what the file is about"),
-    Field("info.client", "Client", "text", hint="who the system is for"),
-    Field("info.designer", "Designer", "text", hint="who sized it"),
-    Field("info.notes", "Notes", "text", hint="anything worth keeping with the design"),
+    Field("info.name"),
+    Field("info.client"),
+    Field("info.designer"),
+    Field("info.notes"),
     "Site",
-    Field("site.name", "Site name", "text", hint="village, building or plot"),
-    Field(
-        "site.latitude_deg",
-        "Latitude",
-        unit="deg",
-        hint="12.4 S, 12\u00b024' S or -12.4 (north positive)",
-    ),
-    Field(
-        "site.longitude_deg",
-        "Longitude",
-        unit="deg",
-        hint="1.5 W, 1\u00b030' W or -1.5 (east positive)",
-    ),
-    Field("site.elevation_m", "Elevation", unit="m"),
-    Field(
-        "site.tilt_deg",
-        "Array tilt",
-        "auto_float",
-        unit="deg",
-        reason="site.tilt_deg",
-        auto=lambda d: _fmt(d.site.tilt_deg, "deg"),
-        hint="degrees from horizontal; 'auto' = |latitude|, at least the minimum tilt",
-    ),
-    Field(
-        "site.azimuth_deg",
-        "Array azimuth",
-        "auto_float",
-        unit="deg",
-        reason="site.azimuth_deg",
-        auto=lambda d: _fmt(d.site.azimuth_deg, "deg"),
-        hint="degrees clockwise from north (180 = south); 'auto' faces the equator",
-    ),
-    Field(
-        "site.albedo",
-        "Ground albedo",
-        "auto_months",
-        auto_text="climate's, else 0.2",
-        reason="site.poa_kwh_m2_day",
-        hint="ground reflectance 0-1: one value, or twelve January first for snow months "
-        "(0.2 grass or soil, fresh snow about 0.7-0.8); 'auto' = the climate's, else 0.2",
-    ),
-    Field(
-        "site.battery_temp_c",
-        "Battery room temp.",
-        "auto_float",
-        unit="C",
-        auto_text="coldest monthly mean",
-        hint="mean temperature where the battery stands; 'auto' = coldest monthly mean",
-    ),
-    Field(
-        "site.battery_warm_temp_c",
-        "Battery room, warm",
-        "auto_float",
-        unit="C",
-        reason="battery.ageing_temp_c",
-        auto_text="monthly means",
-        hint="mean temperature of the battery room in the warm months, for ageing; 'auto' = "
-        "each month's mean air temperature",
-    ),
+    Field("site.name"),
+    Field("site.latitude_deg"),
+    Field("site.longitude_deg"),
+    Field("site.elevation_m"),
+    Field("site.tilt_deg", auto=lambda d: _fmt(d.site.tilt_deg, "deg")),
+    Field("site.azimuth_deg", auto=lambda d: _fmt(d.site.azimuth_deg, "deg")),
+    Field("site.albedo", auto_text="climate's, else 0.2"),
+    Field("site.battery_temp_c", auto_text="coldest monthly mean"),
+    Field("site.battery_warm_temp_c", auto_text="monthly means"),
 )
 
 CONTROLLER_TYPES = (
@@ -279,131 +258,66 @@ VOLTAGE_CHOICES = (("auto", "automatic"), (12, "12 V"), (24, "24 V"), (48, "48 V
 
 PARTS_FIELDS: tuple[Field | str, ...] = (
     "Design choices",
-    Field(
-        "choices.system_voltage",
-        "System voltage",
-        "choice",
-        choices=VOLTAGE_CHOICES,
-        reason="battery.system_voltage_v",
-        hint="battery bank voltage; automatic keeps DC current at or below 100 A",
-    ),
-    Field("choices.autonomy_days", "Days of autonomy", unit="days", reason="battery.required_ah"),
-    Field(
-        "choices.max_dod",
-        "Max depth of discharge",
-        "auto_float",
-        reason="battery.required_ah",
-        auto_text="battery's own",
-        hint="60 %, 60 or 0.6; 'auto' = the battery unit's value",
-    ),
-    Field(
-        "choices.load_growth_pct", "Load growth margin", unit="%", reason="loads.daily_energy_wh"
-    ),
-    Field("choices.coincidence_factor", "AC coincidence factor", reason="loads.peak_ac_w"),
-    Field("choices.ageing_factor", "End-of-life capacity", reason="battery.required_ah"),
+    Field("choices.system_voltage", VOLTAGE_CHOICES),
+    Field("choices.autonomy_days"),
+    Field("choices.max_dod", auto_text="battery's own"),
+    Field("choices.load_growth_pct"),
+    Field("choices.coincidence_factor"),
+    Field("choices.ageing_factor"),
     Field(
         "choices.battery_largest_coldest",
-        "Bank: peak x coldest",
-        "choice",
-        choices=((False, "no: worst single month"), (True, "yes: conservative")),
-        reason="battery.required_ah",
-        hint="yes: size the bank on the largest daily demand x the coldest month's "
-        "temperature factor, even if they never meet in one month",
+        ((False, "no: worst single month"), (True, "yes: conservative")),
     ),
-    Field("choices.min_tilt_deg", "Minimum tilt", unit="deg", reason="site.tilt_deg"),
+    Field("choices.min_tilt_deg"),
     "Module (datasheet, STC)",
     *(
-        Field(f"module.{name}", label, kind, unit=unit, group_form="module")
-        for name, label, kind, unit in (
-            ("name", "Module name", "text", ""),
-            ("pmax_w", "Pmax", "float", "W"),
-            ("vmp_v", "Vmp", "float", "V"),
-            ("imp_a", "Imp", "float", "A"),
-            ("voc_v", "Voc", "float", "V"),
-            ("isc_a", "Isc", "float", "A"),
-            ("alpha_isc_pct_per_c", "Isc temp. coefficient", "float", "%/C"),
-            ("beta_voc_pct_per_c", "Voc temp. coefficient", "auto_float", "%/C"),
-            ("gamma_pmax_pct_per_c", "Pmax temp. coefficient", "float", "%/C"),
-            ("cells_in_series", "Cells in series", "int", ""),
-            ("area_m2", "Area", "float", "m2"),
-            ("noct_c", "NOCT", "float", "C"),
+        Field(f"module.{name}", group_form="module")
+        for name in (
+            "name",
+            "pmax_w",
+            "vmp_v",
+            "imp_a",
+            "voc_v",
+            "isc_a",
+            "alpha_isc_pct_per_c",
+            "beta_voc_pct_per_c",
+            "gamma_pmax_pct_per_c",
+            "cells_in_series",
+            "area_m2",
+            "noct_c",
         )
     ),
     "Battery unit",
-    Field("battery.name", "Battery name", "text", hint="make and model, or a description"),
-    Field(
-        "battery.chemistry",
-        "Chemistry",
-        "choice",
-        choices=CHEMISTRY_CHOICES,
-        hint="sets charging voltage, temperature correction and cautions",
-    ),
-    Field("battery.nominal_voltage_v", "Unit voltage", unit="V"),
-    Field("battery.capacity_ah", "Unit capacity", unit="Ah"),
-    Field("battery.max_dod", "Unit max. DoD"),
-    Field("battery.efficiency", "Round-trip efficiency"),
+    Field("battery.name"),
+    Field("battery.chemistry", CHEMISTRY_CHOICES),
+    Field("battery.nominal_voltage_v"),
+    Field("battery.capacity_ah"),
+    Field("battery.max_dod"),
+    Field("battery.efficiency"),
     "Charge controller",
-    Field(
-        "controller.type",
-        "Controller type",
-        "choice",
-        choices=CONTROLLER_TYPES,
-        hint="MPPT converts the array's voltage; PWM connects it straight to the battery",
-    ),
-    Field(
-        "controller.max_pv_voltage_v",
-        "Max PV input voltage",
-        unit="V",
-        reason="array.modules_series",
-    ),
-    Field("controller.efficiency", "Controller efficiency"),
+    Field("controller.type", CONTROLLER_TYPES),
+    Field("controller.max_pv_voltage_v"),
+    Field("controller.efficiency"),
     Field(
         "controller.max_current_a",
-        "Rated current",
-        "auto_float",
-        unit="A",
-        reason="controller.current_a",
         auto=lambda d: _fmt(d.controller.current_a, "A"),
         auto_text="pick standard",
-        hint="the controller's charge current, A; 'auto' picks the next standard rating",
     ),
     "Inverter",
-    Field("inverter.efficiency", "Inverter efficiency", reason="loads.daily_energy_wh"),
-    Field("inverter.self_consumption_w", "Idle draw", unit="W", reason="loads.inverter_idle_wh"),
-    Field(
-        "inverter.hours_on_per_day", "Hours switched on", unit="h", reason="loads.inverter_idle_wh"
-    ),
-    Field(
-        "inverter.on_all_year",
-        "Inverter on all year",
-        "choice",
-        choices=((False, "no, switched off"), (True, "yes, all year")),
-        reason="loads.inverter_idle_wh",
-        hint="yes: its idle draw counts in months when no AC load is used",
-    ),
+    Field("inverter.efficiency"),
+    Field("inverter.self_consumption_w"),
+    Field("inverter.hours_on_per_day"),
+    Field("inverter.on_all_year", ((False, "no, switched off"), (True, "yes, all year"))),
     "Losses (fraction kept)",
-    Field("choices.derates.soiling", "Soiling", reason="array.derates.soiling"),
-    Field(
-        "choices.derates.soiling_rate_pct_per_day",
-        "Soiling rate",
-        "auto_float",
-        unit="%/day",
-        auto_text="off (fixed factor above)",
-        reason="array.derates.soiling",
-        hint="daily soiling loss, %/day; 'auto' uses the fixed soiling factor",
-    ),
-    Field(
-        "choices.derates.cleaning_interval_days",
-        "Cleaning interval",
-        unit="days",
-        reason="array.derates.soiling",
-    ),
-    Field("choices.derates.mismatch", "Module mismatch", reason="array.required_power_w"),
-    Field("choices.derates.wiring", "DC wiring", reason="array.required_power_w"),
+    Field("choices.derates.soiling"),
+    Field("choices.derates.soiling_rate_pct_per_day", auto_text="off (fixed factor above)"),
+    Field("choices.derates.cleaning_interval_days"),
+    Field("choices.derates.mismatch"),
+    Field("choices.derates.wiring"),
     "Voltage-drop limits",
-    Field("choices.drop_limit_array_pct", "Array to controller", unit="%"),
-    Field("choices.drop_limit_battery_pct", "Battery runs", unit="%"),
-    Field("choices.drop_limit_load_pct", "Load runs", unit="%"),
+    Field("choices.drop_limit_array_pct"),
+    Field("choices.drop_limit_battery_pct"),
+    Field("choices.drop_limit_load_pct"),
 )
 
 MODULE_FIELDS = tuple(f for f in PARTS_FIELDS if isinstance(f, Field) and f.group_form == "module")
@@ -413,14 +327,37 @@ MODULE_FIELDS = tuple(f for f in PARTS_FIELDS if isinstance(f, Field) and f.grou
 
 @dataclass(frozen=True)
 class Column:
+    """A column of the loads table: ``header`` and ``width`` are the table's own; the
+    input's label, unit, hint and kind are the catalogue's row ``loads[].KEY``."""
+
     key: str
-    label: str
+    header: str
     width: int
-    kind: str = "float"  # text, int, float, choice, months, figure (not editable)
-    unit: str = ""
     choices: tuple[tuple[Any, str], ...] = ()
-    hint: str = ""
     short: dict | None = None  # shorter cell text for some choices
+    figure_hint: str = ""  # a computed column (not an input): what it shows
+
+    @property
+    def entry(self) -> InputEntry | None:
+        return None if self.figure_hint else input_entry(f"loads[].{self.key}")
+
+    @property
+    def label(self) -> str:
+        """The input's name in prompts and messages (the header is shorter)."""
+        return self.entry.label if self.entry else self.header
+
+    @property
+    def kind(self) -> str:
+        """text, int, float, choice, months; figure: computed, not editable."""
+        return self.entry.kind.removeprefix("auto_") if self.entry else "figure"
+
+    @property
+    def unit(self) -> str:
+        return self.entry.unit if self.entry else ""
+
+    @property
+    def hint(self) -> str:
+        return self.entry.hint if self.entry else self.figure_hint
 
 
 TIME_CHOICES = (
@@ -431,45 +368,21 @@ TIME_CHOICES = (
     ("night", "night"),
 )
 LOAD_COLUMNS: tuple[Column, ...] = (
-    Column("name", "Appliance", 20, "text", hint="what it is; any text"),
-    Column("quantity", "Qty", 4, "int", hint="how many of them, a whole number"),
-    Column("power_w", "Watts", 6, unit="W", hint="running power of one unit, W"),
-    Column("hours_per_day", "h/day", 6, unit="h", hint="hours on per day, 0-24"),
-    Column(
-        "ac_dc",
-        "AC/DC",
-        6,
-        "choice",
-        choices=(("ac", "AC"), ("dc", "DC")),
-        hint="AC runs through the inverter; DC straight from the battery",
-    ),
-    Column(
-        "duty_cycle",
-        "Duty",
-        5,
-        hint="share of the on-time it really draws power (a fridge "
-        "compressor 0.3-0.5), 0-1 or 40 %",
-    ),
-    Column(
-        "surge_w", "Start", 6, unit="W", hint="starting power of one unit (motors), W; 0 if none"
-    ),
-    Column("months", "Months", 7, "months", hint="months of use: 1-12, 5,6,7 or 11-2"),
-    Column(
-        "critical",
-        "Must",
-        5,
-        "choice",
-        choices=((True, "yes"), (False, "no")),
-        hint="yes: must never be switched off to save energy",
-    ),
+    Column("name", "Appliance", 20),
+    Column("quantity", "Qty", 4),
+    Column("power_w", "Watts", 6),
+    Column("hours_per_day", "h/day", 6),
+    Column("ac_dc", "AC/DC", 6, (("ac", "AC"), ("dc", "DC"))),
+    Column("duty_cycle", "Duty", 5),
+    Column("surge_w", "Start", 6),
+    Column("months", "Months", 7),
+    Column("critical", "Must", 5, ((True, "yes"), (False, "no"))),
     Column(
         "time_of_day",
         "When",
         6,
-        "choice",
-        choices=TIME_CHOICES,
-        hint="when it mostly runs (used by the hour-by-hour checks)",
+        TIME_CHOICES,
         short={"any": "any", "morning": "morn", "evening": "eve"},
     ),
-    Column("energy", "Wh/day", 7, "figure", hint="energy at the appliance in the design month"),
+    Column("energy", "Wh/day", 7, figure_hint="energy at the appliance in the design month"),
 )

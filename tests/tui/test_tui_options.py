@@ -151,8 +151,8 @@ async def test_options_number_override_is_validated_and_edited_in_place(demo_pil
     assert dict(flatten_overrides(app.session.project.variants[-1].overrides)) == {
         "choices.autonomy_days": 5.0
     }
-    base_ah = section.result.comparison.row("Battery bank").values[0]
-    assert section.result.comparison.row("Battery bank").values[-1] > base_ah
+    base_ah = section.result.comparison.row("Battery capacity installed").values[0]
+    assert section.result.comparison.row("Battery capacity installed").values[-1] > base_ah
     # edit the override of that column in place
     cursor_on(section, "choices.autonomy_days", 3)
     await pilot.press("enter")

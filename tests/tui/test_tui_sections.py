@@ -460,7 +460,9 @@ async def test_wires_without_electrical_design_shows_main_circuits(state):
         app.work.action_goto("wires")
         await pilot.pause()
         text = screen_text(app)
-        assert "Array string, cold open-circuit voltage" in text
+        from offgrid.catalogue import figure_entry
+
+        assert figure_entry("array.string_voc_cold_v").label in text
         assert f"{d.array.string_voc_cold_v:.1f} V" in text
 
 

@@ -113,15 +113,13 @@ class CautionsSection(Section):
 
     @staticmethod
     def _label(path: str) -> str:
-        """The name of the input (or figure) at ``path`` as its section shows it."""
-        from offgrid.tui.fields import PARTS_FIELDS, PROJECT_FIELDS
-        from offgrid.tui.sections.place import CLIMATE_FIELDS
-        from offgrid.tui.sections.wires import WIRING_FIELDS
+        """The name of the input (or figure) at ``path``, as the catalogue labels it."""
+        from offgrid.catalogue import find_figure, find_input
 
-        for f in (*PROJECT_FIELDS, *CLIMATE_FIELDS, *PARTS_FIELDS, *WIRING_FIELDS):
-            if not isinstance(f, str) and f.path == path:
-                return f.label.lower() if f.label[1:2].islower() else f.label
-        return path
+        entry = find_input(path) or find_figure(path)
+        if entry is None:
+            return path
+        return entry.label.lower() if entry.label[1:2].islower() else entry.label
 
     def _target(self):
         i = self.items.highlighted

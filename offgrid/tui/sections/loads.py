@@ -44,7 +44,9 @@ class LoadsTable(SteadyTable):
         self.clear(columns=True)
         for c in LOAD_COLUMNS:
             w = self.name_width if c.key == "name" else c.width
-            label = c.label.ljust(w) if c.kind in ("text", "months") else c.label.rjust(w - 1) + " "
+            label = (
+                c.header.ljust(w) if c.kind in ("text", "months") else c.header.rjust(w - 1) + " "
+            )
             self.add_column(Text(label, style="bold"), width=w, key=c.key)
 
     def cell(self, column: Column, value) -> Text:

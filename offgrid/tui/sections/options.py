@@ -24,6 +24,7 @@ from textual.binding import Binding
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
+from offgrid.catalogue import find_input
 from offgrid.design.result import Reason
 from offgrid.project.model import PriceItem, Project, Variant
 from offgrid.tui.fields import (
@@ -45,7 +46,7 @@ from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.steady import SteadyTable
 
 DIFF_MARK = "* "  # before the value, so a narrow column never crops it
-LABEL_WIDTH = 24
+LABEL_WIDTH = 28  # two spaces and the compared figures' labels (26 at most), or an input's (22)
 RISK_YEARS = 30  # synthetic weather years per column, as in section 7 Risk
 KNOWN_FIELDS = {f.path: f for f in PARTS_FIELDS if isinstance(f, Field)}
 
@@ -107,8 +108,9 @@ def unique_name(names: list[str], wanted: str) -> str:
 
 
 def override_label(path: str) -> str:
-    f = KNOWN_FIELDS.get(path)
-    return f.label if f else path
+    """The catalogue's label of the input at ``path``, else the path itself."""
+    entry = find_input(path)
+    return entry.label if entry else path
 
 
 def parse_override(path: str, text: str) -> Any:

@@ -26,20 +26,8 @@ from offgrid.tui.widgets.steady import SteadyTable
 
 CLIMATE_FIELDS: tuple[Field | str, ...] = (
     "Climate",
-    Field(
-        "climate",
-        "Climate",
-        "climate",
-        hint="Enter or c: pick a bundled climate, a file, or type twelve months",
-    ),
-    Field(
-        "climate.record_low_c",
-        "Record low temperature",
-        "auto_float",
-        unit="C",
-        reason="site.record_low_c",
-        hint="lowest temperature expected, C: sets the cold string voltage",
-    ),
+    Field("climate"),
+    Field("climate.record_low_c"),
 )
 ROWS = (
     ("insolation_kwh_m2_day", "Sun kWh/m2/d", "mean daily sun on the horizontal, kWh/m2/day"),

@@ -10,6 +10,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable
 
+from offgrid.catalogue import figure_entry, find_figure
 from offgrid.design.result import SystemDesign
 from offgrid.tui.keys import focus_now
 from offgrid.tui.messages import WhyAsked, send
@@ -35,25 +36,33 @@ KNOWN = {
 Row = str | tuple[str, str, str | None]
 
 
+def figure_row(
+    path: str, value: str | None = None, number: float | None = None
+) -> tuple[str, str, str]:
+    """(label, value, reason path) of the catalogue's figure at ``path``: its label, the
+    value given (else ``number`` with the figure's digits and unit) and its reason."""
+    e = figure_entry(path)
+    return (e.label, value if value is not None else e.text(float(number or 0)), e.explained_by)
+
+
 def figure_rows(d: SystemDesign) -> list[Row]:
     """Headings and (label, value, reason path) rows for every figure of the design."""
     a, b, c, inv, ld, s = d.array, d.battery, d.controller, d.inverter, d.loads, d.site
     dm = s.design_month - 1
     rows: list[Row] = [
         "Array",
-        ("Array power", f"{a.power_w:,.0f} W", "array.power_w"),
-        (
-            "Modules",
+        figure_row("array.power_w", number=a.power_w),
+        figure_row(
+            "array.module_count",
             f"{a.modules_series} in series \u00d7 {a.modules_parallel} strings = "
             f"{a.module_count} \u00d7 {a.module_power_w:g} W",
-            "array.modules_series",
         ),
-        ("Strings in parallel", f"{a.modules_parallel}", "array.modules_parallel"),
-        ("Power needed", f"{a.required_power_w:,.0f} W", "array.required_power_w"),
-        ("All derates together", f"{a.derate_total:.3f}", "array.required_power_w"),
+        figure_row("array.modules_parallel", f"{a.modules_parallel}"),
+        figure_row("array.required_power_w", number=a.required_power_w),
+        figure_row("array.derate_total", number=a.derate_total),
         *[
             (
-                f"  derate: {name}",
+                f"  {_derate_label(d, name)}",
                 f"{value:.3f}",
                 f"array.derates.{name}"
                 if f"array.derates.{name}" in d.reasons
@@ -61,88 +70,70 @@ def figure_rows(d: SystemDesign) -> list[Row]:
             )
             for name, value in a.derates.items()
         ],
-        ("Cold string Voc", f"{a.string_voc_cold_v:.1f} V", "array.modules_series"),
-        ("Hot string Vmp", f"{a.string_vmp_hot_v:.1f} V", "array.modules_series"),
+        figure_row("array.string_voc_cold_v", number=a.string_voc_cold_v),
+        figure_row("array.string_vmp_hot_v", number=a.string_vmp_hot_v),
         "Battery bank",
-        ("System voltage", f"{b.system_voltage_v} V", "battery.system_voltage_v"),
-        ("Capacity installed", f"{b.capacity_ah:,.0f} Ah", "battery.capacity_ah"),
-        ("Capacity needed", f"{b.required_ah:,.0f} Ah", "battery.required_ah"),
-        (
-            "Energy, nominal",
-            f"{b.nominal_kwh:.2f} kWh at {b.bank_voltage_v:g} V",
-            "battery.nominal_kwh",
-        ),
-        ("Energy, usable", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD", "battery.usable_kwh"),
-        (
-            "Units",
+        figure_row("battery.system_voltage_v", f"{b.system_voltage_v} V"),
+        figure_row("battery.capacity_ah", number=b.capacity_ah),
+        figure_row("battery.required_ah", number=b.required_ah),
+        figure_row("battery.nominal_kwh", f"{b.nominal_kwh:.2f} kWh at {b.bank_voltage_v:g} V"),
+        figure_row("battery.usable_kwh", f"{b.usable_kwh:.2f} kWh at {b.max_dod:.0%} DoD"),
+        figure_row(
+            "battery.unit_count",
             f"{b.units_series} in series \u00d7 {b.units_parallel} strings = {b.unit_count}",
-            "battery.units_parallel",
         ),
-        ("Days of autonomy", f"{b.autonomy_days:g} days", "battery.required_ah"),
-        ("Temperature factor", f"{b.temp_factor:.3f}", "battery.required_ah"),
-        ("Battery temp., capacity", f"{b.capacity_temp_c:.1f} C", "battery.capacity_temp_c"),
-        ("Battery temp., ageing", f"up to {b.ageing_temp_c:.1f} C", "battery.ageing_temp_c"),
-        (
-            "Float life at those temps.",
-            f"{b.calendar_life_years:.1f} years",
-            "battery.calendar_life_years",
-        ),
+        figure_row("battery.autonomy_days", f"{b.autonomy_days:g} days"),
+        figure_row("battery.temp_factor", number=b.temp_factor),
+        figure_row("battery.capacity_temp_c", number=b.capacity_temp_c),
+        figure_row("battery.ageing_temp_c", f"up to {b.ageing_temp_c:.1f} C"),
+        figure_row("battery.calendar_life_years", number=b.calendar_life_years),
         "Charge controller",
-        (
-            "Rating",
-            (f"{c.count} \u00d7 " if c.count > 1 else "") + f"{c.current_a:.0f} A {c.type.upper()}",
+        figure_row(
             "controller.current_a",
+            (f"{c.count} \u00d7 " if c.count > 1 else "") + f"{c.current_a:.0f} A {c.type.upper()}",
         ),
-        ("Current needed", f"{c.required_current_a:.1f} A", "controller.required_current_a"),
+        figure_row("controller.required_current_a", number=c.required_current_a),
         "Inverter",
         *(
             (
-                ("Continuous", f"{inv.continuous_w:,.0f} W", "inverter.continuous_w"),
-                (
-                    "Surge",
-                    f"{inv.surge_w:,.0f} W (needs {inv.required_surge_w:,.0f} W)",
+                figure_row("inverter.continuous_w", number=inv.continuous_w),
+                figure_row(
                     "inverter.surge_w",
+                    f"{inv.surge_w:,.0f} W (needs {inv.required_surge_w:,.0f} W)",
                 ),
-                (
-                    "DC input current",
-                    f"{inv.dc_input_current_a:.1f} A",
-                    "inverter.dc_input_current_a",
-                ),
+                figure_row("inverter.dc_input_current_a", number=inv.dc_input_current_a),
             )
             if inv.needed
-            else (("Inverter", "none: no AC loads", "inverter.continuous_w"),)
+            else (figure_row("inverter.continuous_w", "none: no AC loads"),)
         ),
         "Loads and site",
-        ("Design month", MONTHS[dm], "site.design_month"),
-        (
-            "Energy in design month",
-            f"{ld.design_daily_energy_wh:,.0f} Wh/day",
-            "loads.design_daily_energy_wh",
-        ),
-        ("Largest month", f"{ld.max_daily_energy_wh:,.0f} Wh/day", "loads.daily_energy_wh"),
-        ("Peak AC power at once", f"{ld.peak_ac_w:,.0f} W", "loads.peak_ac_w"),
-        (
-            "Largest starting power",
+        figure_row("site.design_month", MONTHS[dm]),
+        figure_row("loads.design_daily_energy_wh", number=ld.design_daily_energy_wh),
+        figure_row("loads.max_daily_energy_wh", number=ld.max_daily_energy_wh),
+        figure_row("loads.peak_ac_w", number=ld.peak_ac_w),
+        figure_row(
+            "loads.largest_surge_w",
             (
                 f"{ld.largest_surge_w:,.0f} W ({printable(ld.largest_surge_load)}, "
                 f"{ld.largest_surge_ac_dc.upper()})"
                 if ld.largest_surge_load
                 else "none given"
             ),
-            "loads.largest_surge_w",
         ),
-        ("Inverter idle energy", f"{ld.inverter_idle_wh:,.0f} Wh/day", "loads.inverter_idle_wh"),
-        (
-            "Sun on array, design month",
-            f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day",
-            "site.poa_kwh_m2_day",
-        ),
-        ("Tilt / azimuth", f"{s.tilt_deg:.0f} / {s.azimuth_deg:.0f} deg", "site.tilt_deg"),
-        ("Record low temperature", f"{s.record_low_c:.1f} C", "site.record_low_c"),
+        figure_row("loads.inverter_idle_wh", number=ld.inverter_idle_wh),
+        figure_row("site.poa_kwh_m2_day", f"{s.poa_kwh_m2_day[dm]:.2f} kWh/m2/day in {MONTHS[dm]}"),
+        figure_row("site.tilt_deg", number=s.tilt_deg),
+        figure_row("site.azimuth_deg", number=s.azimuth_deg),
+        figure_row("site.record_low_c", number=s.record_low_c),
     ]
     rows += electrical_rows(d)
     rows += extra_rows(d)
     return rows
+
+
+def _derate_label(d: SystemDesign, name: str) -> str:
+    entry = find_figure(f"array.derates.{name}")
+    return entry.label if entry is not None else f"Derate: {name}"
 
 
 def electrical_rows(d: SystemDesign) -> list[Row]:
@@ -153,33 +144,25 @@ def electrical_rows(d: SystemDesign) -> list[Row]:
     rows: list[Row] = ["Strings and module"]
     w, lay, h, mp = er.strings.window, er.strings.layout, er.harvest, er.mpp
     rows += [
-        ("Series count allowed", f"{w.min_series} to {w.max_series} modules", "strings.max_series"),
-        (
-            "Layout",
+        figure_row("electrical.strings.max_series", f"{w.max_series} (fewest {w.min_series})"),
+        figure_row(
+            "electrical.strings.series",
             f"{lay.series} in series \u00d7 {lay.parallel} strings"
             + (f" on {lay.controllers} controllers" if lay.controllers > 1 else ""),
-            "strings.min_series",
         ),
-        (
-            "Module at design-month noon",
-            f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, {mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)",
+        figure_row(
             "mpp.pmp_w",
+            f"{mp.pmp_w:.0f} W at {mp.vmp_v:.1f} V, {mp.imp_a:.2f} A ({mp.cell_temp_c:.0f} C cell)",
         ),
-        (
-            "PWM against MPPT, per module",
-            f"{h.pwm_vs_mppt_pct:+.1f} % in the design month",
-            "array.harvest_pwm_wh_day",
+        figure_row(
+            "electrical.harvest.pwm_vs_mppt_pct", f"{h.pwm_vs_mppt_pct:+.1f} % in the design month"
         ),
     ]
     if h.shortfall_pct > 0:
-        rows.append(
-            ("Harvest short of demand", f"{h.shortfall_pct:.1f} %", "array.harvest_mppt_wh_day")
-        )
+        rows.append(figure_row("electrical.harvest.shortfall_pct", number=h.shortfall_pct))
     rows.append(
-        (
-            "Battery bank fault current",
-            f"{er.protection.bank_fault_current_a:,.0f} A",
-            "protection.bank_fault_current_a",
+        figure_row(
+            "electrical.protection.bank_fault_current_a", number=er.protection.bank_fault_current_a
         )
     )
     return rows
@@ -216,7 +199,10 @@ def extra_rows(d: SystemDesign) -> list[Row]:
         for g in dataclasses.fields(value):
             shown = _show_value(getattr(value, g.name))
             if shown is not None:
-                rows.append((g.name.replace("_", " "), shown, f"{f.name}.{g.name}"))
+                path = f"{f.name}.{g.name}"
+                entry = find_figure(path)  # a catalogued figure keeps its one label
+                label = entry.label if entry else g.name.replace("_", " ")
+                rows.append((label, shown, entry.explained_by if entry else path))
     return rows
 
 

@@ -15,9 +15,9 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
+from offgrid.catalogue import find_figure, input_entry
 from offgrid.design.result import SystemDesign
 from offgrid.design.wiring import WireChoice
-from offgrid.project.model import RUN_LENGTH_RANGE_M
 from offgrid.tui.fields import Field, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.messages import WhyAsked, send
@@ -29,60 +29,16 @@ from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
 from offgrid.tui.widgets.steady import SteadyTable
 
-LENGTH_LIMITS_M = RUN_LENGTH_RANGE_M
-
 WIRING_FIELDS: tuple[Field | str, ...] = (
     "Cable settings",
-    Field(
-        "wiring.units",
-        "Cable sizes in",
-        "choice",
-        choices=(("mm2", "mm2 (IEC 60228)"), ("awg", "AWG / kcmil (NEC)")),
-        hint="the size system of the cables you can buy",
-    ),
-    Field(
-        "wiring.material",
-        "Conductor",
-        "choice",
-        choices=(("copper", "copper"), ("aluminium", "aluminium")),
-    ),
-    Field(
-        "wiring.insulation_temp_c",
-        "Insulation rating",
-        "choice",
-        choices=((60, "60 C"), (75, "75 C"), (90, "90 C")),
-        hint="temperature rating of the cable insulation",
-    ),
-    Field("wiring.conductor_temp_c", "Conductor temperature", unit="C"),
-    Field(
-        "wiring.ambient_temp_c",
-        "Ambient around cables",
-        "auto_float",
-        unit="C",
-        auto_text="site's hottest month",
-    ),
-    Field(
-        "wiring.dc_load_run_m",
-        "DC load run, default",
-        unit="m",
-        hint="one-way length of each DC load circuit without its own length",
-    ),
-    Field(
-        "wiring.battery_short_circuit_a",
-        "Battery short circuit",
-        "auto_float",
-        unit="A",
-        auto_text="estimated",
-        reason="protection.bank_fault_current_a",
-    ),
-    Field(
-        "wiring.module_max_fuse_a",
-        "Module max series fuse",
-        "auto_float",
-        unit="A",
-        auto_text="not given",
-        reason="protection.string_fuses",
-    ),
+    Field("wiring.units", (("mm2", "mm2 (IEC 60228)"), ("awg", "AWG / kcmil (NEC)"))),
+    Field("wiring.material", (("copper", "copper"), ("aluminium", "aluminium"))),
+    Field("wiring.insulation_temp_c", ((60, "60 C"), (75, "75 C"), (90, "90 C"))),
+    Field("wiring.conductor_temp_c"),
+    Field("wiring.ambient_temp_c", auto_text="site's hottest month"),
+    Field("wiring.dc_load_run_m"),
+    Field("wiring.battery_short_circuit_a", auto_text="estimated"),
+    Field("wiring.module_max_fuse_a", auto_text="not given"),
 )
 
 COLUMNS = (  # key, label, width
@@ -96,6 +52,8 @@ COLUMNS = (  # key, label, width
     ("drop_limit_pct", "Limit", 6),
     ("fuse_a", "Fuse A", 7),
 )
+#: A column's name in the design's JSON where it differs (the catalogue's row ``wires[].NAME``).
+JSON_NAME = {"operating_current_a": "drop_current_a"}
 #: Max A: the maximum continuous current (ampacity and fuse); Drop A: the operating current
 #: the voltage drop is computed with.
 REASON_OF_COLUMN = {
@@ -118,31 +76,19 @@ def runs_of(design: SystemDesign | None) -> list[WireChoice]:
 
 
 def basic_rows(d: SystemDesign) -> list[tuple[str, str, str]]:
-    """What the sizing alone says about the circuits."""
+    """What the sizing alone says about the circuits (labels from the catalogue)."""
+    from offgrid.tui.sections.sizes import figure_row
+
     a, c, inv, b = d.array, d.controller, d.inverter, d.battery
     rows = [
-        (
-            "Array string, cold open-circuit voltage",
-            f"{a.string_voc_cold_v:.1f} V",
-            "array.modules_series",
-        ),
-        ("Controller maximum PV voltage", f"{c.max_pv_voltage_v:g} V", "array.modules_series"),
-        (
-            "Array to controller, current needed",
-            f"{c.required_current_a:.1f} A",
-            "controller.required_current_a",
-        ),
-        ("Controller to battery, rating", f"{c.current_a:.0f} A", "controller.current_a"),
-        ("Battery voltage", f"{b.system_voltage_v} V", "battery.system_voltage_v"),
+        figure_row("array.string_voc_cold_v", number=a.string_voc_cold_v),
+        figure_row("controller.max_pv_voltage_v", f"{c.max_pv_voltage_v:g} V"),
+        figure_row("controller.required_current_a", number=c.required_current_a),
+        figure_row("controller.current_a", f"{c.current_a:.0f} A"),
+        figure_row("battery.system_voltage_v", f"{b.system_voltage_v} V"),
     ]
     if inv.needed:
-        rows.append(
-            (
-                "Battery to inverter, current at cut-off",
-                f"{inv.dc_input_current_a:.1f} A",
-                "inverter.dc_input_current_a",
-            )
-        )
+        rows.append(figure_row("inverter.dc_input_current_a", number=inv.dc_input_current_a))
     return rows
 
 
@@ -302,10 +248,11 @@ class WiresSection(Section):
 
         def apply(typed: str) -> str | None:
             try:
-                value = parse_number(typed, "m", "one-way length in metres")
-                lo, hi = LENGTH_LIMITS_M
-                if not lo <= value <= hi:
-                    return f"{value:g} m is out of range; one-way length {lo:g}-{hi:g} m"
+                entry = input_entry(target)  # the run's own row: its range and hint
+                value = parse_number(typed, "m", entry.hint)
+                lo, hi = entry.low, entry.high
+                if lo is not None and hi is not None and not lo <= value <= hi:
+                    return f"{value:g} m is out of range; {entry.hint}"
                 self.session.set_value(target, value)
             except EditRejected as exc:
                 return self.problems_text(exc)
@@ -417,10 +364,8 @@ class WiresSection(Section):
             what = REASON_OF_COLUMN.get(column, "size")
             value = getattr(run, column)  # dynamic: a WireChoice field named in COLUMNS
             shown = f"{value:.2f}" if isinstance(value, float) else str(value)
-            label = {
-                "current_a": "maximum continuous current (ampacity, fuse)",
-                "operating_current_a": "operating current (voltage drop)",
-            }.get(column, column.replace("_", " "))
+            entry = find_figure(f"wires[].{JSON_NAME.get(column, column)}")
+            label = entry.label.lower() if entry else column.replace("_", " ")
             return Figure(f"{run.run}: {label}", shown, f"wires.{run.key}.{what}")
         if self._basic:
             label, value, path = self._basic[min(row, len(self._basic) - 1)]

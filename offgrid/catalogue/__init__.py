@@ -1,0 +1,89 @@
+"""One catalogue of the project's inputs and the design's figures (engine, no UI).
+
+For any input (``choices.autonomy_days``) or figure (``battery.capacity_ah``) this is the
+one place that holds its label, unit, range, hint and the reason that explains it;
+validation, the text UI's field tables and figure rows, the report and the text summary
+read it by path.  A new input or figure is added in one place: a row in
+:mod:`offgrid.catalogue.inputs` or :mod:`offgrid.catalogue.figures`.
+
+API: :class:`InputEntry`, :class:`FigureEntry`; :func:`input_entry` and
+:func:`figure_entry` (by path, ``KeyError`` naming the path when it is not catalogued),
+:func:`find_input` and :func:`find_figure` (``None`` instead); ``INPUTS``, ``FIGURES``,
+:func:`key_figures`, ``RUN_LENGTH_M``.
+"""
+
+from __future__ import annotations
+
+import re
+
+from offgrid.catalogue.entries import (
+    FIGURE_LABEL_ROOM,
+    INPUT_LABEL_ROOM,
+    FigureEntry,
+    InputEntry,
+)
+from offgrid.catalogue.figures import FIGURES
+from offgrid.catalogue.inputs import INPUTS, RUN_LENGTH_M
+
+__all__ = [
+    "FIGURES",
+    "FIGURE_LABEL_ROOM",
+    "INPUTS",
+    "INPUT_LABEL_ROOM",
+    "RUN_LENGTH_M",
+    "FigureEntry",
+    "InputEntry",
+    "figure_entry",
+    "find_figure",
+    "find_input",
+    "input_entry",
+    "key_figures",
+]
+
+_INDEX = re.compile(r"\[\d+\]")
+
+#: Lookup tables (views read entries through the functions below, at the time they
+#: render, so a test can swap an entry here and see it in every view).
+INPUTS_BY_PATH: dict[str, InputEntry] = {e.path: e for e in INPUTS}
+FIGURES_BY_PATH: dict[str, FigureEntry] = {}
+for _e in FIGURES:
+    FIGURES_BY_PATH[_e.path] = _e
+for _e in FIGURES:  # also by reason key (strings.max_series), never over a JSON path
+    FIGURES_BY_PATH.setdefault(_e.reason_key, _e)
+del _e
+
+
+def find_input(path: str) -> InputEntry | None:
+    """The input at ``path`` (``loads[3].run_m`` is the row ``loads[].run_m``), or None."""
+    return INPUTS_BY_PATH.get(path) or INPUTS_BY_PATH.get(_INDEX.sub("[]", path))
+
+
+def input_entry(path: str) -> InputEntry:
+    entry = find_input(path)
+    if entry is None:
+        raise KeyError(f"{path}: not an input of the catalogue (offgrid/catalogue/inputs.py)")
+    return entry
+
+
+_WIRE = re.compile(r"^wires(?:\[\d*\]|\.[^.]+)\.([a-z_]+)$")
+
+
+def find_figure(path: str) -> FigureEntry | None:
+    """The figure at a JSON path or a reason key, or None; a cable's figure by its index
+    (``wires[2].size``) or its run's key (``wires.charge.size``) is the row ``wires[].size``."""
+    entry = FIGURES_BY_PATH.get(path)
+    if entry is None and (m := _WIRE.match(path)):
+        entry = FIGURES_BY_PATH.get(f"wires[].{m.group(1)}")
+    return entry
+
+
+def figure_entry(path: str) -> FigureEntry:
+    entry = find_figure(path)
+    if entry is None:
+        raise KeyError(f"{path}: not a figure of the catalogue (offgrid/catalogue/figures.py)")
+    return entry
+
+
+def key_figures() -> tuple[str, ...]:
+    """The report's key figures by reason key, in catalogue order."""
+    return tuple(e.reason_key for e in FIGURES if e.key)

@@ -1,0 +1,73 @@
+"""The two kinds of catalogue entry: a project input and a design figure (plain data)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+#: Longest input label: the text UI's field tables give the label 22 characters.
+INPUT_LABEL_ROOM = 22
+#: Longest figure label: the Sizes section's figure column gives it 29 characters.
+FIGURE_LABEL_ROOM = 29
+
+
+@dataclass(frozen=True)
+class InputEntry:
+    """One value the user types or chooses, at a dotted path of the ``Project``.
+
+    ``low``/``high`` bound a number (inclusive; None: no range check); ``hint`` says what
+    to type and is the tail of every message about the field; ``kind`` is text, float,
+    int, choice, months or climate, ``auto_`` in front when it may be left out (the
+    engine then picks); ``reason`` is the design figure (reason key) that explains the
+    automatic value or what the input drives; ``values`` are the values a choice allows
+    (how the UI names them is the UI's).
+    """
+
+    path: str
+    label: str
+    unit: str = ""
+    low: float | None = None
+    high: float | None = None
+    hint: str = ""
+    kind: str = "float"
+    reason: str | None = None
+    values: tuple = ()
+
+    @property
+    def is_fraction(self) -> bool:
+        """A number 0-1 (a typed "60" or "60 %" means 0.6)."""
+        return self.high == 1 and self.low is not None and self.low >= 0
+
+
+@dataclass(frozen=True)
+class FigureEntry:
+    """One design figure, at a dotted path of ``SystemDesign.to_dict()``.
+
+    ``digits``: decimals shown (None: by the value's size); ``reason``: the reason key
+    that explains it when that is not its own (a composite row); ``key``: one of the
+    report's key figures.
+    """
+
+    path: str
+    label: str
+    unit: str = ""
+    digits: int | None = None
+    reason: str | None = None
+    key: bool = False
+
+    @property
+    def reason_key(self) -> str:
+        """This figure's own key in ``SystemDesign.reasons`` (``strings.max_series``)."""
+        from offgrid.design.result import reason_key
+
+        return reason_key(self.path)
+
+    @property
+    def explained_by(self) -> str:
+        """The key in ``SystemDesign.reasons`` whose reason explains this figure."""
+        return self.reason or self.reason_key
+
+    def text(self, value: float, digits: int | None = None) -> str:
+        """``value`` with its digits, thousands separated, and its unit: ``1,800 W``."""
+        d = self.digits if digits is None else digits
+        number = f"{value:,.{d if d is not None else 2}f}"
+        return f"{number} {self.unit}".strip()

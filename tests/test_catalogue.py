@@ -1,0 +1,295 @@
+"""The one catalogue of inputs and figures (offgrid/catalogue/): complete, true to the model
+and the design, and the only source of labels, units, hints and ranges for every view.
+
+Internal consistency checks (no outside reference applies: these are the program's own
+names); the ranges themselves are the ones validation already used (issue 14).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import typing
+
+import pytest
+
+from offgrid import catalogue
+from offgrid.catalogue import (
+    FIGURE_LABEL_ROOM,
+    FIGURES,
+    INPUT_LABEL_ROOM,
+    INPUTS,
+    RUN_LENGTH_M,
+    figure_entry,
+    input_entry,
+    key_figures,
+)
+from offgrid.climate.model import MonthlyClimate
+from offgrid.design.sizing import design
+from offgrid.paths import demo_project_path
+from offgrid.project import model
+from offgrid.project.store import load_project
+from offgrid.project.validate import validate_project
+
+
+@pytest.fixture(scope="module")
+def demo():
+    project = load_project(demo_project_path())
+    return project, design(project, demo_project_path().parent)
+
+
+def _model_type(path: str):
+    """The declared type at a catalogue path of ``Project``, or raise naming the part."""
+    cls: typing.Any = model.Project
+    parts = path.replace("[]", "").split(".")
+    for i, part in enumerate(parts):
+        if cls is model.ClimateChoice and part not in {f.name for f in dataclasses.fields(cls)}:
+            # the UI edits the climate's own values (climate.record_low_c) in its inline copy
+            cls = MonthlyClimate
+        hints = typing.get_type_hints(cls)
+        assert part in hints, f"{path}: {'.'.join(parts[: i + 1])} is not in {cls.__name__}"
+        tp = hints[part]
+        # a record, a list of records (loads) or an optional record: descend into it
+        args = [a for a in typing.get_args(tp) if dataclasses.is_dataclass(a)]
+        cls = args[0] if args else tp
+    return cls
+
+
+def test_every_input_path_is_in_the_project_model():
+    for entry in INPUTS:
+        _model_type(entry.path)
+    assert len({e.path for e in INPUTS}) == len(INPUTS), "an input is listed twice"
+
+
+def test_every_input_of_the_model_is_catalogued():
+    # the leaves of every form's dataclass; horizon, prices, variants, demo flags and the
+    # climate's references are edited by their own dialogs, not as one field
+    not_fields = {
+        "info.demo",
+        "site.horizon_deg",
+        "climate.ref",
+        "climate.inline",
+        "loads[].name",
+    }
+    missing = []
+    for top in ("info", "site", "module", "battery", "controller", "inverter", "wiring"):
+        cls = _model_type(top)
+        for f in dataclasses.fields(cls):
+            path = f"{top}.{f.name}"
+            if path not in not_fields and catalogue.find_input(path) is None:
+                missing.append(path)
+    assert not missing, missing
+
+
+def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
+    _, d = demo
+    tree = d.to_dict()
+    for entry in FIGURES:
+        if entry.path.startswith("wires[]."):  # one row for every cable run
+            name = entry.path.removeprefix("wires[].")
+            assert all(name in w for w in tree["wires"]), entry.path
+            keys = [f"wires.{w['key']}.{name}" for w in tree["wires"]]
+            assert any(k in d.reasons for k in keys), f"{entry.path}: no run has a reason"
+            assert all(catalogue.find_figure(k) is entry for k in keys)
+            continue
+        node = tree
+        for part in entry.path.split("."):
+            assert isinstance(node, dict) and part in node, f"{entry.path} not in the JSON"
+            node = node[part]
+        assert entry.explained_by in d.reasons, f"{entry.path}: no reason {entry.explained_by}"
+    assert len({e.path for e in FIGURES}) == len(FIGURES), "a figure is listed twice"
+
+
+def test_labels_fit_their_columns():
+    assert all(len(e.label) <= INPUT_LABEL_ROOM for e in INPUTS), [
+        e.label for e in INPUTS if len(e.label) > INPUT_LABEL_ROOM
+    ]
+    assert all(len(e.label) <= FIGURE_LABEL_ROOM for e in FIGURES), [
+        e.label for e in FIGURES if len(e.label) > FIGURE_LABEL_ROOM
+    ]
+
+
+def test_lookup_by_json_path_reason_key_and_load_row():
+    assert figure_entry("electrical.strings.max_series") is figure_entry("strings.max_series")
+    assert input_entry("loads[3].run_m").path == "loads[].run_m"
+    with pytest.raises(KeyError, match="not a figure of the catalogue"):
+        figure_entry("array.nothing_w")
+    with pytest.raises(KeyError, match=r"site\.nowhere"):
+        input_entry("site.nowhere")
+
+
+# ----------------------------------------------------------------------------- one source
+
+
+def _swap(monkeypatch, table: dict, path: str, **changes) -> None:
+    for key, entry in list(table.items()):
+        if entry.path == path:  # every key the entry is found by (JSON path, reason key)
+            monkeypatch.setitem(table, key, dataclasses.replace(entry, **changes))
+
+
+def test_every_view_takes_a_figure_label_from_the_catalogue(monkeypatch, demo):
+    from offgrid.report.build import build_report
+    from offgrid.report.summary import summary_text
+    from offgrid.report.text import render_text
+    from offgrid.tui.sections.sizes import figure_rows
+
+    project, d = demo
+    for path in ("array.power_w", "battery.nominal_kwh", "mpp.pmp_w"):
+        _swap(monkeypatch, catalogue.FIGURES_BY_PATH, path, label=f"Zq {path}")
+    rows = [r for r in figure_rows(d) if not isinstance(r, str)]
+    report = render_text(build_report(project, d, with_charts=False, with_variants=False))
+    summary = summary_text(project, d)
+    for path in ("array.power_w", "battery.nominal_kwh", "mpp.pmp_w"):
+        assert f"Zq {path}" in [r[0] for r in rows], path
+        assert f"Zq {path}" in report, path
+        assert f"Zq {path}" in summary, path
+
+
+def test_every_view_takes_an_input_from_the_catalogue(monkeypatch):
+    from offgrid.project.store import _hint
+    from offgrid.tui.fields import PARTS_FIELDS
+
+    path = "choices.autonomy_days"
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, path, label="Zq days", hint="Zq hint", low=5.0)
+    field = next(f for f in PARTS_FIELDS if not isinstance(f, str) and f.path == path)
+    assert (field.label, field.help()) == ("Zq days", "Zq hint")
+    assert _hint(path) == "Zq hint"
+    project = model.Project()  # 3 days of autonomy: now below the swapped range
+    project.climate.ref = "x"
+    problems = [p for p in validate_project(project) if p.path == path]
+    assert problems and "Zq hint" in problems[0].message
+
+
+def test_ui_field_tables_hold_only_catalogued_inputs():
+    from offgrid.tui.fields import PARTS_FIELDS, PROJECT_FIELDS
+    from offgrid.tui.sections.place import CLIMATE_FIELDS
+    from offgrid.tui.sections.wires import WIRING_FIELDS
+
+    fields = [
+        f
+        for f in (*PROJECT_FIELDS, *CLIMATE_FIELDS, *PARTS_FIELDS, *WIRING_FIELDS)
+        if not isinstance(f, str)
+    ]
+    assert len(fields) > 50
+    for f in fields:
+        entry = input_entry(f.path)
+        assert (f.label, f.unit, f.help(), f.reason) == (
+            entry.label,
+            entry.unit,
+            entry.hint,
+            entry.reason,
+        )
+        if f.base_kind == "choice":  # the UI offers exactly the values validation allows
+            assert {v for v, _ in f.choices} == set(entry.values), f.path
+
+
+def test_the_report_and_the_ui_give_a_figure_the_same_label(demo):
+    """'Array power' in the UI was 'Array power installed' in the report (issue 14)."""
+    from offgrid.report.build import label_of
+    from offgrid.tui.sections.sizes import figure_rows
+
+    _, d = demo
+    labels = {e.label for e in FIGURES}
+    for row in figure_rows(d):
+        if not isinstance(row, str):
+            assert row[0].strip() in labels, f"Sizes row '{row[0]}' is not a catalogue label"
+    for path in key_figures():
+        assert label_of(path) == figure_entry(path).label
+    assert figure_entry("array.power_w").label == "Array power installed"
+
+
+# ----------------------------------------------------------------------------- drift
+
+
+def test_each_sizes_row_shows_its_own_reason(demo):
+    """The UI's 'Energy, nominal' showed the reason for battery.capacity_ah (issue 14):
+    every row names the reason of the figure it is labelled as, its own when it has one."""
+    from offgrid.tui.sections.sizes import figure_rows
+
+    _, d = demo
+    by_label = {}
+    for e in FIGURES:
+        by_label.setdefault(e.label, []).append(e)
+    for row in figure_rows(d):
+        if isinstance(row, str) or row[0].startswith("  "):
+            continue  # headings; derate rows carry their own derate's path
+        label, _value, reason = row
+        assert reason in {e.explained_by for e in by_label[label]}, (label, reason)
+        assert reason in d.reasons, (label, reason)
+    nominal = next(r for r in figure_rows(d) if r[0] == figure_entry("battery.nominal_kwh").label)
+    assert nominal[2] == "battery.nominal_kwh"
+
+
+def test_cable_length_limits_are_one_copy():
+    """Cable-length limits stood in three places (model, validation, wiring) (issue 14)."""
+    from offgrid.design import wiring
+    from offgrid.project.loads_csv import check_load
+
+    assert model.RUN_LENGTH_RANGE_M is RUN_LENGTH_M
+    assert (wiring.RUN_MIN_M, wiring.RUN_MAX_M) == RUN_LENGTH_M
+    runs = [e for e in INPUTS if e.path.startswith("wiring.") and e.path.endswith("_m")]
+    runs.append(input_entry("loads[].run_m"))
+    assert len(runs) == 6
+    for e in runs:
+        assert (e.low, e.high) == RUN_LENGTH_M, e.path
+    lo, hi = RUN_LENGTH_M
+    project = model.Project()
+    project.climate.ref = "x"
+    project.wiring.array_run_m = hi + 0.5
+    assert [p.path for p in validate_project(project)] == ["wiring.array_run_m"]
+    project.wiring.array_run_m = hi
+    assert validate_project(project) == []
+    load = model.Load("pump", power_w=50.0, hours_per_day=2.0, ac_dc="dc", run_m=lo / 2)
+    assert [fld for fld, _ in check_load(load)] == ["run_m"]
+
+
+def test_load_columns_read_their_catalogue_rows(monkeypatch):
+    from offgrid.tui.fields import LOAD_COLUMNS
+
+    inputs = [c for c in LOAD_COLUMNS if c.kind != "figure"]
+    assert len(inputs) == 10
+    for c in inputs:
+        e = input_entry(f"loads[].{c.key}")
+        assert (c.label, c.unit, c.hint) == (e.label, e.unit, e.hint)
+        assert c.kind == e.kind.removeprefix("auto_")
+        if c.kind == "choice":
+            assert {v for v, _ in c.choices} == set(e.values), c.key
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "loads[].power_w", hint="Zq watts")
+    assert next(c for c in LOAD_COLUMNS if c.key == "power_w").hint == "Zq watts"
+
+
+def test_the_variant_comparison_names_figures_as_the_catalogue_does():
+    from offgrid.economics.variants import FIGURE_ROWS
+
+    room = 26  # the Options section's label column (28) less its indent
+    for label, _unit, _digits, path, _get in FIGURE_ROWS:
+        if catalogue.find_figure(path) is not None:
+            assert label is None, f"{path}: its own label '{label}' beside the catalogue's"
+            assert len(figure_entry(path).label) <= room, path
+        else:
+            assert label and len(label) <= room, path
+
+
+def test_a_load_is_checked_against_its_catalogue_rows(monkeypatch):
+    from offgrid.project.loads_csv import check_load
+
+    load = model.Load("lamp", power_w=50.0, hours_per_day=5.0)
+    assert check_load(load) == []
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "loads[].hours_per_day", high=4.0)
+    assert [(f, "0-4 hours" in m) for f, m in check_load(load)] == [("hours_per_day", True)]
+
+
+def test_a_choice_outside_the_catalogue_values_is_refused(monkeypatch):
+    project = model.Project()
+    project.climate.ref = "x"
+    assert validate_project(project) == []
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "wiring.units", values=("awg",))
+    assert [str(p) for p in validate_project(project)] == ["wiring.units: 'mm2' must be awg"]
+
+
+def test_a_ui_field_needs_its_catalogue_row():
+    from offgrid.tui.fields import Field
+
+    with pytest.raises(TypeError, match=r"add a row to offgrid/catalogue/inputs\.py"):
+        Field("site.tilt_deg", "Tilt")  # the old form, label and all
+    with pytest.raises(KeyError, match=r"site\.mast_height_m"):
+        Field("site.mast_height_m")
