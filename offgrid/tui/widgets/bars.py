@@ -88,6 +88,12 @@ class Headline(Static):
         if self._session is not None:
             self.show(self._session)
 
+    def pending(self) -> None:
+        """The design is being worked out (a worker thread): no figures until it is in."""
+        self._session = None
+        self.remove_class("-error")
+        self.update(Text("Working out the design\u2026", style="italic"))
+
     def show(self, session: Session) -> None:
         self._session = session
         out = session.outcome
