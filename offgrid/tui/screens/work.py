@@ -143,8 +143,6 @@ class WorkScreen(Screen):
             out = compute_outcome(project, base)
             with contextlib.suppress(RuntimeError):  # the app has ended meanwhile
                 self.app.call_from_thread(self._design_done, seq, session, out, then)
-            for module, _name in SECTION_MODULES.values():  # the other sections, off the
-                importlib.import_module(module)  # UI thread (at once once imported)
 
         self.run_worker(work, name=f"design-{seq}", group="design", thread=True)
         return seq
@@ -170,7 +168,18 @@ class WorkScreen(Screen):
 
     def _first_design(self) -> None:
         self.action_goto(self.section)
-        self.call_after_refresh(self._mount_rest)
+        self.call_after_refresh(self._import_rest)  # once the headline is on screen
+
+    def _import_rest(self) -> None:
+        """Import the other sections on a worker thread, then build them here."""
+
+        def work() -> None:
+            for module, _name in SECTION_MODULES.values():
+                importlib.import_module(module)
+            with contextlib.suppress(RuntimeError):  # the app has ended meanwhile
+                self.app.call_from_thread(self._mount_rest)
+
+        self.run_worker(work, name="sections", group="sections", thread=True)
 
     async def _mount_rest(self) -> None:
         switcher = self.query_one(ContentSwitcher)
