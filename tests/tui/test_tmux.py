@@ -265,3 +265,19 @@ def test_nothing_left_on_screen_after_notifications(terminal, tmp_path):
         time.sleep(0.3)
         after = t.tmux("capture-pane", "-t", "t", "-p", "-e")
         assert after == before, f"section {section}: the screen changed after the toasts"
+
+
+@pytest.mark.skipif(
+    not os.environ.get("OFFGRID_WHOLE_JOB"),
+    reason="about 90 s at 0.15 s a key: OFFGRID_WHOLE_JOB=1 runs it",
+)
+def test_whole_job_at_human_speed_keeps_every_typed_value(tmp_path):
+    """benchmarks/tmux_whole_job.py once: every value typed comes out exactly as typed."""
+    import importlib.util
+
+    spec = importlib.util.spec_from_file_location(
+        "tmux_whole_job", ROOT / "benchmarks" / "tmux_whole_job.py"
+    )
+    job = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(job)
+    assert job.one_run(tmp_path, 0.15) == []
