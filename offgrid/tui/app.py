@@ -153,9 +153,14 @@ class OffgridApp(App):
 
     @contextlib.asynccontextmanager
     async def run_test(self, *args, **kwargs):
-        async with super().run_test(*args, **kwargs) as pilot:
-            await self.design_settled(pilot)
-            yield pilot
+        from offgrid.tui.session import release_engine_memo
+
+        try:
+            async with super().run_test(*args, **kwargs) as pilot:
+                await self.design_settled(pilot)
+                yield pilot
+        finally:
+            release_engine_memo()
 
     async def run_async(self, *args, auto_pilot=None, **kwargs):
         if auto_pilot is not None:
@@ -165,7 +170,12 @@ class OffgridApp(App):
                 await self.design_settled(pilot)
                 await inner(pilot)
 
-        return await super().run_async(*args, auto_pilot=auto_pilot, **kwargs)
+        from offgrid.tui.session import release_engine_memo
+
+        try:
+            return await super().run_async(*args, auto_pilot=auto_pilot, **kwargs)
+        finally:
+            release_engine_memo()  # the engine's memo lives as long as the app
 
     async def on_event(self, event: events.Event) -> None:
         # On the work screen each key is handled to the end before the next one

@@ -47,7 +47,7 @@ class Outcome:
     seconds: float = 0.0
 
 
-_memo_held: list = []  # the engine memo's open block, held for the process's life
+_memo_held: list = []  # the engine memo's open block while a text UI runs
 
 
 def compute_outcome(project: Project, base_dir: Path) -> Outcome:
@@ -58,13 +58,14 @@ def compute_outcome(project: Project, base_dir: Path) -> Outcome:
     not depend on the demand (offgrid.memo: transposition, module fit, I-V harvest,
     keyed by their exact inputs) is held open for the life of the process, so an edit
     of the loads or the battery does not redo the site's sky and the module's curves
-    (the demo: about 22 ms to 4 ms a design).
+    (the demo: about 22 ms to 4 ms a design). It is held open from the first design
+    until :func:`release_engine_memo` (the app calls it when it ends).
     """
     from offgrid.design.sizing import design  # the engine; imported here to keep start-up light
     from offgrid.memo import design_memo
 
-    if not _memo_held:  # never left (a dropped reference would end it): entries are
-        block = design_memo()  # bounded by memo.MAX_ENTRIES
+    if not _memo_held:  # kept referenced (a dropped generator would end the block);
+        block = design_memo()  # entries are bounded by memo.MAX_ENTRIES
         block.__enter__()
         _memo_held.append(block)
     t0 = time.perf_counter()
@@ -78,6 +79,12 @@ def compute_outcome(project: Project, base_dir: Path) -> Outcome:
         out.error_code = "engine-fault"
     out.seconds = time.perf_counter() - t0
     return out
+
+
+def release_engine_memo() -> None:
+    """End the engine memo held by :func:`compute_outcome` (its entries are dropped)."""
+    while _memo_held:
+        _memo_held.pop().__exit__(None, None, None)
 
 
 def get_path(obj: Any, path: str) -> Any:

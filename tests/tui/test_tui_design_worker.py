@@ -79,3 +79,15 @@ async def test_opening_another_project_drops_the_old_ones_design(state, monkeypa
         assert work.designs_dropped == 1  # request 1 was for the first session
         assert work.session is other and other.design is not None
         assert "Second project" in screen_text(app)
+
+
+async def test_the_engine_memo_lives_as_long_as_the_app(state):
+    """Held open for the app's edits, ended with it: later designs in the process (the
+    CLI, planning's own scoped memo) see no entries of it."""
+    from offgrid.design.pv import fit_module
+    from offgrid.memo import memo_active
+
+    app = make_app(demo=True, state=state, check_recovery=False)
+    async with app.run_test(size=SIZE):
+        assert memo_active() and fit_module.cache
+    assert not memo_active() and fit_module.cache == {}
