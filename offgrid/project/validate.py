@@ -10,7 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from offgrid import catalogue
-from offgrid.climate.sky import albedo_problems
+from offgrid.climate.albedo import albedo_problems
 from offgrid.numbers import MAX_PRICE, PRICE_RANGE, is_finite_number
 from offgrid.project.loads_csv import check_load
 from offgrid.project.model import Project

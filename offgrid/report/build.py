@@ -659,15 +659,9 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
             f"{MONTHS[dm]} is the design month.",
         )
     )
-    surplus = [sup - dem for sup, dem in zip(a.supply_wh_day, lr.daily_energy_wh, strict=True)]
-    low = int(np.argmin(surplus))
-    blocks.append(
-        Paragraph(
-            f"Smallest margin: {MONTHS[low]}, supply {a.supply_wh_day[low]:,.0f} Wh/day for "
-            f"{lr.daily_energy_wh[low]:,.0f} Wh/day of demand "
-            f"({a.supply_wh_day[low] / lr.daily_energy_wh[low] - 1:+.0%})."
-        )
-    )
+    from offgrid.report.margins import margin_sentences
+
+    blocks.append(Paragraph(margin_sentences(dm, a.supply_wh_day, lr.daily_energy_wh)))
     blocks += _iv_blocks(ri)
     return Section("design-month", "Design month", tuple(blocks))
 

@@ -29,7 +29,7 @@ from offgrid.tui.state import (
     remember_project,
     state_dir,
 )
-from offgrid.tui.text import printable
+from offgrid.tui.text import plain_terminal, printable
 from offgrid.tui.widgets.bars import SECTIONS
 
 AUTOSAVE_SECONDS = 0.0  # kept for callers; the recovery copy is written after every edit
@@ -152,14 +152,58 @@ class OffgridApp(App):
         self.discarded = False
         self.autosaves = 0
         self._last_session: Session | None = session
-        from offgrid.tui.screens.curves import plain_terminal
-
         self.plain = plain_terminal()
         if self.plain:  # a serial console or screen reader: ASCII lines, no colour
             self.CSS = PLAIN_CSS
         for t in THEMES:
             self.register_theme(t)
         self.theme = theme or DEFAULT_THEME
+
+    # ------------------------------------------------------------------ pilots
+    # A pilot (tests, snapshots) starts once the first design is on screen, as a person
+    # would see it: the design is worked out on a worker thread after the first paint.
+    pilots_wait_for_design = True  # False: a test that looks at the state before it
+
+    async def design_settled(self, pilot, timeout_s: float = 20.0) -> None:
+        """Pause ``pilot`` until no design is being worked out on the work screen."""
+        import time
+
+        if not self.pilots_wait_for_design:
+            return
+
+        end = time.monotonic() + timeout_s
+        await pilot.pause()
+        while (work := self.work) is not None and work.design_pending:
+            if time.monotonic() > end:
+                raise TimeoutError(f"no design within {timeout_s} s")
+            await pilot.pause(0.01)
+        await pilot.pause()
+
+    @contextlib.asynccontextmanager
+    async def run_test(self, *args, **kwargs):
+        from offgrid.tui.session import release_engine_memo
+
+        try:
+            async with super().run_test(*args, **kwargs) as pilot:
+                await self.design_settled(pilot)
+                yield pilot
+        finally:
+            release_engine_memo()
+
+    async def run_async(self, *args, auto_pilot=None, **kwargs):
+        if auto_pilot is not None:
+            inner = auto_pilot
+
+            async def auto_pilot(pilot) -> None:
+                await self.design_settled(pilot)
+                await inner(pilot)
+
+        from offgrid.tui.session import release_engine_memo
+
+        try:
+            return await super().run_async(*args, auto_pilot=auto_pilot, **kwargs)
+        finally:
+            release_engine_memo()  # the engine's memo lives as long as the app
 
     async def on_event(self, event: events.Event) -> None:
         # On the work screen each key is handled to the end before the next one

@@ -8,6 +8,8 @@ and are wrapped in :class:`rich.text.Text`, which never parses markup.
 
 from __future__ import annotations
 
+import os
+
 from rich.text import Text
 
 from offgrid.safetext import printable  # one helper for every output
@@ -65,3 +67,9 @@ def clip_words(text: str, width: int) -> str:
     at_word_end = text[width - 1] == " "  # the room ends at a word's end: keep that word
     cut = room if at_word_end or " " not in room else room.rsplit(" ", 1)[0]
     return cut.rstrip(" ,;:(") + "\u2026"
+
+
+def plain_terminal() -> bool:
+    """ASCII only, no colour: NO_COLOR set, or a vt100-class or dumb terminal."""
+    term = os.environ.get("TERM", "")
+    return bool(os.environ.get("NO_COLOR")) or term in ("vt100", "vt102", "vt220", "dumb")

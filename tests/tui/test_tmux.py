@@ -245,3 +245,39 @@ def test_open_and_type_at_human_speed_then_kill_9(terminal, tmp_path):
     typed = [ld.name for ld in kept.loads if ld.name in names]
     assert typed == names  # each added after the one before, in order
     assert kept.loads[[ld.name for ld in kept.loads].index("Lamp")].hours_per_day == 4.0
+
+
+def test_nothing_left_on_screen_after_notifications(terminal, tmp_path):
+    """A notification in every section comes and goes; the screen is then the same cell
+    for cell (colours included) as before it: nothing is left at the bottom-right."""
+    t = terminal()
+    t.start(str(project_copy(tmp_path)), term="tmux-256color")
+    t.wait_for("Array 1,800 W")
+    for section in "12345678":
+        t.keys(section)
+        time.sleep(0.5)
+        before = t.tmux("capture-pane", "-t", "t", "-p", "-e")
+        t.keys("u", "u")  # "Nothing to undo", twice: two toasts stacked
+        t.wait_for("Nothing to undo")
+        end = time.monotonic() + 10
+        while "Nothing to undo" in t.screen() and time.monotonic() < end:
+            time.sleep(0.2)
+        time.sleep(0.3)
+        after = t.tmux("capture-pane", "-t", "t", "-p", "-e")
+        assert after == before, f"section {section}: the screen changed after the toasts"
+
+
+@pytest.mark.skipif(
+    not os.environ.get("OFFGRID_WHOLE_JOB"),
+    reason="about 90 s at 0.15 s a key: OFFGRID_WHOLE_JOB=1 runs it",
+)
+def test_whole_job_at_human_speed_keeps_every_typed_value(tmp_path):
+    """benchmarks/tmux_whole_job.py once: every value typed comes out exactly as typed."""
+    import importlib.util
+
+    spec = importlib.util.spec_from_file_location(
+        "tmux_whole_job", ROOT / "benchmarks" / "tmux_whole_job.py"
+    )
+    job = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(job)
+    assert job.one_run(tmp_path, 0.15) == []

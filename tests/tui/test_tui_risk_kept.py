@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 import time
 
 from tui_helpers import SIZE, edit_field, screen_text
@@ -27,6 +28,12 @@ async def test_risk_result_survives_reopen_goes_stale_and_is_exported(state, tmp
         risk = app.work.current
         await wait_until(pilot, lambda: risk.result is not None)
         lolp = risk.result.report.reliability.lolp
+    # kept as JSON (no pickle) with the project text it was run on: its inputs
+    kept = sorted(state.glob("risk-*"))
+    assert [k.suffix for k in kept] == [".json"]
+    body = json.loads(kept[0].read_text())
+    assert body["project_text"] == app.session.text()
+    assert body["report"]["reliability"]["lolp"] == lolp
     # reopened: the last run is there, for the project as it is
     app = make_app(target, state=state)
     async with app.run_test(size=SIZE) as pilot:

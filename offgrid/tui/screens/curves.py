@@ -9,8 +9,6 @@ charging voltage and the controller's maximum PV input voltage).
 
 from __future__ import annotations
 
-import os
-
 import numpy as np
 from rich.text import Text
 from textual.app import ComposeResult
@@ -19,15 +17,10 @@ from textual.containers import Vertical
 from textual.widgets import Static
 
 from offgrid.tui.screens.dialogs import Dialog
+from offgrid.tui.text import plain_terminal
 from offgrid.tui.widgets.ivplot import Curve, draw
 
 COLD_IRRADIANCE_W_M2 = 1000.0  # full sun on a cold clear day (common practice, no source)
-
-
-def plain_terminal() -> bool:
-    """ASCII only, no colour: NO_COLOR set, or a vt100-class or dumb terminal."""
-    term = os.environ.get("TERM", "")
-    return bool(os.environ.get("NO_COLOR")) or term in ("vt100", "vt102", "vt220", "dumb")
 
 
 def array_curves(project, design) -> list[Curve]:

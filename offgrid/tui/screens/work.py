@@ -4,7 +4,10 @@ from __future__ import annotations
 
 import asyncio
 import contextlib
+import copy
+import importlib
 import time
+from collections.abc import Callable
 
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -26,28 +29,28 @@ from offgrid.tui.messages import (
 )
 from offgrid.tui.screens.why import WhyDialog, find_reason
 from offgrid.tui.sections.base import Section
-from offgrid.tui.sections.cautions import CautionsSection
-from offgrid.tui.sections.loads import LoadsSection
-from offgrid.tui.sections.options import OptionsSection
-from offgrid.tui.sections.parts import PartsSection
-from offgrid.tui.sections.place import PlaceSection
-from offgrid.tui.sections.risk import RiskSection
-from offgrid.tui.sections.sizes import SizesSection
-from offgrid.tui.sections.wires import WiresSection
-from offgrid.tui.session import Session
+from offgrid.tui.session import Outcome, Session, compute_outcome
 from offgrid.tui.widgets.bars import SECTIONS, FileBar, Headline, SectionBar
 from offgrid.tui.widgets.footer import KeyFooter
 
-SECTION_CLASSES: dict[str, type[Section]] = {
-    "place": PlaceSection,
-    "loads": LoadsSection,
-    "parts": PartsSection,
-    "sizes": SizesSection,
-    "wires": WiresSection,
-    "cautions": CautionsSection,
-    "risk": RiskSection,
-    "options": OptionsSection,
+#: Where each section's class is: imported when first needed, so the first paint waits
+#: only for the section shown (the others are imported on the design's worker thread).
+SECTION_MODULES: dict[str, tuple[str, str]] = {
+    "place": ("offgrid.tui.sections.place", "PlaceSection"),
+    "loads": ("offgrid.tui.sections.loads", "LoadsSection"),
+    "parts": ("offgrid.tui.sections.parts", "PartsSection"),
+    "sizes": ("offgrid.tui.sections.sizes", "SizesSection"),
+    "wires": ("offgrid.tui.sections.wires", "WiresSection"),
+    "cautions": ("offgrid.tui.sections.cautions", "CautionsSection"),
+    "risk": ("offgrid.tui.sections.risk", "RiskSection"),
+    "options": ("offgrid.tui.sections.options", "OptionsSection"),
 }
+
+
+def section_class(sid: str) -> type[Section]:
+    module, name = SECTION_MODULES[sid]
+    return getattr(importlib.import_module(module), name)
+
 
 #: Section-changing and other one-letter keys work while no text box has focus.
 LETTER_ACTIONS = {
@@ -149,6 +152,9 @@ class WorkScreen(Screen):
         self.section = section
         self.stale: set[str] = set()
         self.last_change_s = 0.0
+        self.design_seq = 0  # number of the newest design request (request_design)
+        self.design_pending = False  # a design is being worked out on a worker thread
+        self.designs_dropped = 0  # results that came after a newer request
         self._all_mounted = asyncio.Event()
 
     def compose(self) -> ComposeResult:
@@ -156,26 +162,77 @@ class WorkScreen(Screen):
         yield SectionBar(id="sectionbar")
         yield Headline(id="headline")
         with ContentSwitcher(initial=self.section, id="sections"):
-            yield SECTION_CLASSES[self.section](id=self.section)
+            yield section_class(self.section)(id=self.section)
         yield KeyFooter(compact=True)
 
     def on_mount(self) -> None:
-        # First paint at once (the headline says the design is coming), then the design,
-        # then the other sections: the screen answers keys sooner.
+        # First paint at once (the headline says the design is coming); the design is
+        # worked out on a worker thread, then the other sections are built.
         self.query_one(FileBar).show(self.session)
         self.query_one(SectionBar).show(self.section)
-        self.query_one(Headline).update("Working out the design...")
-        self.call_after_refresh(self._first_design)
+        self.design_pending = True
+        self.query_one(Headline).pending()
+        self.call_after_refresh(self.request_design, self._first_design)
+
+    def request_design(self, then: Callable[[], object] | None = None) -> int:
+        """Work out the session's design on a worker thread; returns the request's number.
+
+        The headline says "working out" until the result is in. Every request (and every
+        recompute on the UI thread, :meth:`recompute_now`) takes the next number; a
+        result whose number is not the newest, or that was asked for another session, is
+        dropped, so a superseded design is never shown as current.
+        """
+        self.design_seq += 1
+        seq, session = self.design_seq, self.session
+        project, base = copy.deepcopy(session.project), session.base_dir
+        self.design_pending = True
+        self.query_one(Headline).pending()
+
+        def work() -> None:
+            out = compute_outcome(project, base)
+            with contextlib.suppress(RuntimeError):  # the app has ended meanwhile
+                self.app.call_from_thread(self._design_done, seq, session, out, then)
+
+        self.run_worker(work, name=f"design-{seq}", group="design", thread=True)
+        return seq
+
+    def _design_done(
+        self, seq: int, session: Session, out: Outcome, then: Callable[[], object] | None
+    ) -> None:
+        if seq != self.design_seq or session is not self.session:
+            self.designs_dropped += 1  # superseded: an edit or another project came since
+            return
+        session.outcome = out
+        self.design_pending = False
+        self.refresh_all()
+        if then is not None:
+            then()
+
+    def recompute_now(self) -> None:
+        """Recompute on the UI thread (an applied edit: a few ms with the engine's memo,
+        less than a thread hop); supersedes any design still being worked out."""
+        self.design_seq += 1
+        self.session.recompute()
+        self.design_pending = False
 
     def _first_design(self) -> None:
-        self.session.recompute()
-        self.refresh_all()
         self.action_goto(self.section)
-        self.call_after_refresh(self._mount_rest)
+        self.call_after_refresh(self._import_rest)  # once the headline is on screen
+
+    def _import_rest(self) -> None:
+        """Import the other sections on a worker thread, then build them here."""
+
+        def work() -> None:
+            for module, _name in SECTION_MODULES.values():
+                importlib.import_module(module)
+            with contextlib.suppress(RuntimeError):  # the app has ended meanwhile
+                self.app.call_from_thread(self._mount_rest)
+
+        self.run_worker(work, name="sections", group="sections", thread=True)
 
     async def _mount_rest(self) -> None:
         switcher = self.query_one(ContentSwitcher)
-        missing = [cls(id=sid) for sid, cls in SECTION_CLASSES.items() if not self._has(sid)]
+        missing = [section_class(sid)(id=sid) for sid in SECTION_MODULES if not self._has(sid)]
         for widget in missing:
             widget.display = widget.id == switcher.current
         if missing:
@@ -193,7 +250,11 @@ class WorkScreen(Screen):
     def refresh_all(self) -> None:
         """Redraw the bars and the visible section; mark the others to redraw when shown."""
         self.query_one(FileBar).show(self.session)
-        self.query_one(Headline).show(self.session)
+        headline = self.query_one(Headline)
+        if self.design_pending:
+            headline.pending()  # never the figures of a design that is being replaced
+        else:
+            headline.show(self.session)
         self.query_one(SectionBar).show(self.section)
         self.current.show(self.session)
         self.stale = {sid for sid, _t, _w in SECTIONS if sid != self.section}
@@ -206,7 +267,7 @@ class WorkScreen(Screen):
         already shows the effect of an ordinary edit).
         """
         t0 = time.perf_counter()
-        self.session.recompute()
+        self.recompute_now()
         self.refresh_all()
         self.last_change_s = time.perf_counter() - t0
         send(self, ProjectChanged())
@@ -227,8 +288,10 @@ class WorkScreen(Screen):
 
     def replace_session(self, session: Session) -> None:
         self.session = session
-        session.recompute()
-        self.refresh_all()
+        self.refresh_all()  # the new project's names at once; its design a moment later
+        self.request_design(self._focus_first)
+
+    def _focus_first(self) -> None:
         focus = self.current.first_focus()
         if focus is not None:
             focus_now(focus)

@@ -10,8 +10,6 @@ from __future__ import annotations
 
 import copy
 import hashlib
-import os
-import pickle
 import time
 from dataclasses import dataclass
 from pathlib import Path
@@ -35,44 +33,47 @@ YEARS = 30
 @dataclass
 class RiskRun:
     report: object  # offgrid.simulate.run.SimulationReport
-    project_text: str
+    project_text: str  # the project (TOML) it was run on: out of date when the text differs
     seconds: float
+
+
+#: Largest kept study read back [bytes] (a 30-year study with its trade-off: ~60 kB).
+MAX_KEPT_BYTES = 4_000_000
 
 
 def kept_run_file(state: Path, project_path: Path) -> Path:
     """Where the last risk run of a project file is kept (the user's own state folder)."""
     key = hashlib.sha1(str(Path(project_path).resolve()).encode()).hexdigest()[:16]
-    return Path(state) / f"risk-{key}.pickle"
+    return Path(state) / f"risk-{key}.json"
 
 
 def keep_run(state: Path, project_path: Path, run: RiskRun) -> None:
-    """Keep ``run`` with the project it was run on (its text: the inputs), atomically."""
+    """Keep ``run`` as JSON with the project text it was run on (its inputs), atomically."""
+    from offgrid.project.atomic import write_atomic
+    from offgrid.simulate.stored import StoredStudy, study_to_json
+
     target = kept_run_file(state, project_path)
     target.parent.mkdir(parents=True, exist_ok=True)
-    tmp = target.with_suffix(".tmp")
-    tmp.write_bytes(pickle.dumps({"path": str(Path(project_path).resolve()), "run": run}))
-    os.replace(tmp, target)
+    where = str(Path(project_path).resolve())
+    body = study_to_json(StoredStudy(run.report, run.project_text, run.seconds, where))
+    write_atomic(target, body, backup=False)
 
 
 def kept_run(state: Path, project_path: Path) -> RiskRun | None:
-    """The last run kept for this project file, or None (missing, unreadable, another file)."""
+    """The last run kept for this project file, or None (missing, unreadable, another file).
+
+    A bounded read (:func:`offgrid.textfile.read_text`) of plain JSON: nothing in the
+    file is run, and a damaged or planted file is only ignored."""
+    from offgrid.simulate.stored import study_from_json
+    from offgrid.textfile import read_text
+
     try:
-        # our own file in the user's state folder, written by keep_run
-        body = pickle.loads(kept_run_file(state, project_path).read_bytes())
-    except (
-        OSError,
-        pickle.UnpicklingError,
-        EOFError,
-        AttributeError,
-        ImportError,
-        TypeError,
-        ValueError,
-    ):
+        kept = study_from_json(read_text(kept_run_file(state, project_path), MAX_KEPT_BYTES))
+    except (OSError, ValueError):  # ValueError: StoredStudyError, TextFileError, bad UTF-8
         return None
-    if not isinstance(body, dict) or body.get("path") != str(Path(project_path).resolve()):
+    if kept.project_path != str(Path(project_path).resolve()):
         return None
-    run = body.get("run")
-    return run if isinstance(run, RiskRun) else None
+    return RiskRun(kept.report, kept.project_text, kept.seconds)
 
 
 def pct(x: float | None) -> str:
@@ -323,7 +324,7 @@ class RiskSection(Section):
             return
         try:
             keep_run(self.app.state, path, run)  # type: ignore[attr-defined]
-        except (OSError, pickle.PicklingError, TypeError) as exc:
+        except (OSError, TypeError, ValueError) as exc:
             self.app.notify(
                 f"The risk result is not kept for next time: {exc}",
                 severity="warning",

@@ -21,6 +21,16 @@ SECTIONS: tuple[tuple[str, str, str], ...] = (
 )
 
 
+def put_line(bar: Static, text: Text, layout: bool = False) -> None:
+    """Show ``text`` on a one-line bar: nothing when it is already shown, and no layout
+    pass (the bar's height is fixed): Textual's default re-lays out the whole screen on
+    every update, which three bars did after each edit."""
+    if not layout and getattr(bar, "_line", None) == text:
+        return
+    bar._line = text  # type: ignore[attr-defined]
+    bar.update(text, layout=layout)
+
+
 class FileBar(Static):
     """Project name, file and the unsaved marker."""
 
@@ -53,7 +63,7 @@ class FileBar(Static):
         text.append(clip(left, max(10, room)), style="bold")
         text.append(" " * max(2, width - min(len(left), max(10, room)) - len(right)))
         text.append(right, style="bold reverse" if session.dirty else "")
-        self.update(text)
+        put_line(self, text)
 
 
 class SectionBar(Static):
@@ -71,7 +81,7 @@ class SectionBar(Static):
                 text.append(f"{mark[0]}{n} {title}{mark[1]}", style="bold reverse")
             else:
                 text.append(f" {n} {title} ")
-        self.update(text)
+        put_line(self, text)
 
 
 class Headline(Static):
@@ -88,6 +98,13 @@ class Headline(Static):
         if self._session is not None:
             self.show(self._session)
 
+    def pending(self) -> None:
+        """The design is being worked out (a worker thread): no figures until it is in."""
+        self._session = None
+        self.remove_class("-error")
+        self._line = None
+        self.update(Text("Working out the design\u2026", style="italic"))
+
     def show(self, session: Session) -> None:
         self._session = session
         out = session.outcome
@@ -98,8 +115,10 @@ class Headline(Static):
             text = Text(no_wrap=False, overflow="ellipsis")
             text.append("\u2717 No design: ", style="bold")
             text.append(printable(out.error or "not computed yet"))
+            self._line = None
             self.update(text)
             return
+        was_error = self.has_class("-error")
         self.remove_class("-error")
         b, c = d.battery, d.controller
         width = max(20, (self.size.width or 80) - 2)
@@ -142,4 +161,4 @@ class Headline(Static):
             text.append(value, style="bold")
         text.append(bar)
         text.append(tail, style="bold" if n else "")
-        self.update(text)
+        put_line(self, text, layout=was_error)

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from textual.app import ComposeResult
+from textual.screen import Screen
 from textual.widgets import Footer
 from textual.widgets._footer import FooterKey
 
@@ -15,7 +16,43 @@ class KeyFooter(Footer):
     The section's own keys follow; any that do not fit are in the ``?`` list.
     """
 
+    _shown: tuple | None = None  # the keys as last composed (see bindings_changed)
+
+    @staticmethod
+    def _keys(screen: Screen) -> tuple:
+        return tuple(
+            (b.key, b.description, b.action, enabled, tooltip)
+            for (_node, b, enabled, tooltip) in screen.active_bindings.values()
+            if b.show
+        )
+
+    def bindings_changed(self, screen: Screen) -> None:
+        """Rebuild only when the keys shown change: Textual rebuilds the footer on every
+        focus move and binding refresh (three times an edit, each a few ms of mounting and
+        styling before the next frame). When only keys' availability changes (an edit box
+        takes the focus: letter keys type into it), they are greyed or lit in place."""
+        if self._shown is not None and screen is self.screen and self.is_attached:
+            keys = self._keys(screen)
+            if keys == self._shown:
+                return
+            if [k[:3] for k in keys] == [k[:3] for k in self._shown]:
+                enabled: dict[tuple[str, str], bool] = {}
+                for key, _label, action, on, _tip in keys:
+                    enabled.setdefault((key, action), on)
+                for w in self.query(FooterKey):
+                    on = enabled.get((w.key, w.action))
+                    if on is not None and w._disabled == on:
+                        w._disabled = not on
+                        w.set_class(not on, "-disabled")
+                        w.refresh()
+                self._shown = keys
+                return
+            self._shown = keys  # (a rebuild is on its way: the same keys again need none)
+        super().bindings_changed(screen)
+
     def compose(self) -> ComposeResult:
+        if self._bindings_ready:
+            self._shown = self._keys(self.screen)
         widgets = list(super().compose())
         first = [
             w
