@@ -51,6 +51,7 @@ from offgrid.plan.rows import (
     compact,
     default_jobs,
     distinct_rows,
+    keep_memo,
     prepare,
 )
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
@@ -674,7 +675,9 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
     batches = [tasks[i : i + size] for i in range(0, len(tasks), size)]
     gc.freeze()  # forked workers then leave the parent's objects unshared-but-untouched
     try:
-        with ProcessPoolExecutor(max_workers=jobs, mp_context=context) as pool:
+        with ProcessPoolExecutor(
+            max_workers=jobs, mp_context=context, initializer=keep_memo
+        ) as pool:
             for result in pool.map(_programme_batch, batches):
                 for v, i, r in result:
                     work[v].results[i] = compact(r, seen)

@@ -558,9 +558,16 @@ def _build_and_design(inputs: PlanInputs, row: SurveyRow) -> RowDesign | RowFail
 _WORKER_INPUTS: PlanInputs | None = None
 
 
+def keep_memo() -> None:
+    """Worker initializer: the design memo stays on for the worker's life, so batch after
+    batch reuses what earlier batches computed (the memo bounds its own size)."""
+    design_memo().__enter__()
+
+
 def _init_worker(inputs: PlanInputs) -> None:
     global _WORKER_INPUTS
     _WORKER_INPUTS = inputs
+    keep_memo()
 
 
 def _worker_batch(
