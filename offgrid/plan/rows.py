@@ -25,7 +25,7 @@ from pathlib import Path
 import numpy as np
 
 from offgrid.climate.files import ClimateFileError, load_climate
-from offgrid.design.result import DesignError, SystemDesign
+from offgrid.design.result import DesignError, SystemDesign, plain_reasons
 from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan.survey import PART_SECTIONS, Survey, SurveyError, SurveyProblem, SurveyRow
@@ -533,7 +533,9 @@ def _design_one(project: Project, base_dir: Path | None) -> RowDesign | RowFailu
     from offgrid.design.sizing import design
 
     try:
-        return summarise(project, design(project, base_dir))
+        with plain_reasons():  # a row keeps no reasons (see RowDesign)
+            d = design(project, base_dir)
+        return summarise(project, d)
     except DesignError as exc:
         return RowFailure(exc.code, str(exc))
 
