@@ -23,6 +23,7 @@ import pytest
 from offgrid.design.result import DesignError, PlainReason, Reason, ReasonBook, plain_reasons
 from offgrid.design.sizing import design
 from offgrid.memo import memo_active
+from offgrid.numbers import NumberError, read_number
 from offgrid.paths import load_profiles_dir
 from offgrid.plan import programme as prog_mod
 from offgrid.plan.community import CURVE_KITS, assemble, plan_community, resolve_prices
@@ -200,3 +201,18 @@ def test_plain_reasons_read_like_reasons_and_stay_scoped():
     assert (p.formula, p.inputs, p.source) == (r.formula, r.inputs, r.source)
     assert p.as_dict() == r.as_dict()
     assert isinstance(ReasonBook()._make("f"), Reason)  # outside the block: full records
+
+
+@pytest.mark.parametrize(
+    "text, value",
+    [("0", 0.0), ("007", 7.0), ("1500", 1500.0), (" 42 ", 42.0), ("12.5", 12.5), ("0,5", 0.5)],
+)
+def test_number_reader_quick_digits_read_as_the_rules_say(text, value):
+    # offgrid.numbers module rules (common practice, no source): plain digits as usual
+    assert read_number(text) == value
+
+
+@pytest.mark.parametrize("text", ["1,500", "", "9" * 400, "\u00b2", "nan", "1e400"])
+def test_number_reader_still_refuses_what_the_rules_refuse(text):
+    with pytest.raises(NumberError):
+        read_number(text)

@@ -656,18 +656,23 @@ def community_tilt(inputs: PlanInputs) -> float | None:
     if base.site.tilt_deg is not None or inputs.tilt_searched:
         return None
     total = np.zeros(12)
+    monthly: dict[tuple, np.ndarray | None] = {}  # one load list's months, once per list
     for row in inputs.survey.rows:
         if row.count <= 0:
             continue
         if row.daily_energy_wh is not None:
             total += row.daily_energy_wh * row.count
             continue
-        loads = _load_list(inputs, row.load_list) if row.load_list else None
-        if loads is None and row.project:
-            rp = _row_base(inputs, row.project)
-            loads = rp.loads if isinstance(rp, Project) else None
-        if isinstance(loads, list) and loads:
-            total += appliance_energy_wh(loads).sum(axis=0) * row.count
+        ref = (row.load_list, row.project)
+        if ref not in monthly:
+            loads = _load_list(inputs, row.load_list) if row.load_list else None
+            if loads is None and row.project:
+                rp = _row_base(inputs, row.project)
+                loads = rp.loads if isinstance(rp, Project) else None
+            ok = isinstance(loads, list) and loads
+            monthly[ref] = appliance_energy_wh(loads).sum(axis=0) if ok else None
+        if monthly[ref] is not None:
+            total += monthly[ref] * row.count
     if not total.any():
         return None
     assert base.climate.inline is not None
