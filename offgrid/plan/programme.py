@@ -53,6 +53,7 @@ from offgrid.plan.rows import (
     distinct_rows,
     keep_memo,
     prepare,
+    sent_compact,
 )
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES, mtf2015_tier
@@ -647,7 +648,10 @@ _PROGRAMME_INPUTS: list[PlanInputs] = []
 
 def _programme_batch(batch: list[tuple[int, int, SurveyRow]]) -> list[tuple[int, int, Any]]:
     with design_memo():
-        return [(v, i, _build_and_design(_PROGRAMME_INPUTS[v], row)) for v, i, row in batch]
+        return [
+            (v, i, sent_compact(_build_and_design(_PROGRAMME_INPUTS[v], row)))
+            for v, i, row in batch
+        ]
 
 
 def _light(inputs: PlanInputs) -> PlanInputs:
