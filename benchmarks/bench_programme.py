@@ -37,6 +37,21 @@ what an idle machine gives; CPU is the process's and its workers' together), Dec
     (251,939 distinct designs, ~1,260 a village; the main process peaked at 1.42 GB,
     each of the 2 workers held ~0.3 GB of its own, so ~2.0 GB together; JSON 0.2 MB)
 
+After the wire-size candidates and the I-V harvest were memoised, the workers kept their
+memo and compacted what they send, and planned rows' reasons became plain tuples
+(results unchanged: tests/test_plan_fastpath.py; /usr/bin/time -v, load average noted):
+
+    distinct, 10000 rows, jobs 2 (default)  wall 8.0 s, CPU 12.9 s, 166 MB  load 0.3
+        (before: wall 12.6 s, CPU 17.8 s, 171 MB at load 1.1; 48.6 s wall at load 10;
+        with every change: 32.3 s wall, CPU 15.6 s at load 4.3-5.4; the JSON the same)
+    programme 200 villages, 100000 rows     wall 91 s, CPU 101 s, 309 MB    load 0.4-3.2
+                                            (memo steps only; same JSON as before)
+                                            wall 150 s, CPU 129 s, 272 MB  load 4.3-5.5
+    programme 200 villages, 1000000 rows    wall 1425 s, CPU 617 s          load 6-11
+        main process peak 1.2 GB; main and workers together 1.26 GB (sum of PSS)
+    A/B in one tree, 40 villages x 20000 rows, load 3.5-5: workers' CPU 24.9-27.7 s
+    without plain reasons and compacted sending, 21.9-23.6 s with them.
+
 Time follows the distinct designs, not the rows: about 1.7-2.5 ms CPU each; each
 village's own site and climate gives it its own designs, so at a fixed number of rows
 more villages cost more. Reading costs about 40 us of CPU per survey row.
@@ -126,6 +141,7 @@ def run_cli(path: Path, jobs: int | None, extra: tuple[str, ...] = ()) -> dict:
     cmd = [sys.executable, "-m", "offgrid", "plan", str(path), "--json", *extra]
     if jobs:
         cmd += ["--jobs", str(jobs)]
+    load_before = os.getloadavg()[0]
     before = resource.getrusage(resource.RUSAGE_CHILDREN)
     t = time.perf_counter()
     res = subprocess.run(
@@ -136,7 +152,12 @@ def run_cli(path: Path, jobs: int | None, extra: tuple[str, ...] = ()) -> dict:
     if res.returncode not in (0, 1):
         raise SystemExit(f"offgrid plan failed: {res.stderr[-2000:]}")
     cpu = (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
-    return {"wall_s": wall, "cpu_s": cpu, "peak_mb": after.ru_maxrss / 1024.0}
+    return {
+        "wall_s": wall,
+        "cpu_s": cpu,
+        "peak_mb": after.ru_maxrss / 1024.0,
+        "load": f"{load_before:.1f}-{os.getloadavg()[0]:.1f}",
+    }
 
 
 def main() -> None:
@@ -152,18 +173,22 @@ def main() -> None:
     with tempfile.TemporaryDirectory() as tmp:
         folder = Path(tmp)
         print("\nOne community, every row distinct (offgrid plan SURVEY.csv --json)")
-        print(f"  {'rows':>8} {'jobs':>4} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}")
+        print(
+            f"  {'rows':>8} {'jobs':>4} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}"
+            f" {'load':>9}"
+        )
         for n in (1000,) if quick else (1000, 10_000):
             write_distinct(folder / "distinct.csv", n)
             for j in (1, 2) if jobs is None else (jobs,):
                 r = run_cli(folder / "distinct.csv", j)
                 print(
                     f"  {n:>8} {j:>4} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
-                    f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}"
+                    f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f} {r['load']:>9}"
                 )
         print("\nProgramme: villages x rows (offgrid plan PROGRAMME.csv --json)")
         print(
             f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}"
+            f" {'load':>9}"
         )
         cases = (
             [(10, 10_000)]
@@ -177,7 +202,7 @@ def main() -> None:
             r = run_cli(path, jobs)
             print(
                 f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
-                f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f}",
+                f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f} {r['load']:>9}",
                 flush=True,
             )
 

@@ -3,9 +3,12 @@
 Planning designs thousands of rows on one site with one set of parts: the module fit,
 the module's maximum power points over the mean days of the months (the I-V harvest),
 the monthly plane-of-array transposition and the mean-day irradiance profile are the
-same for every row.  Inside ``with design_memo():`` the functions decorated with
-:func:`memoised` keep their results, keyed by their exact inputs (arrays by their bytes);
-outside it they run as before.  The caches are per process and cleared when the last
+same for every row; the daily harvest of one array layout with its cables
+(:func:`offgrid.design.harvest.harvest_wh_day`) and the conductor sizes that carry one
+run (:func:`offgrid.design.wiring._candidates`) repeat across thousands of rows.
+Inside ``with design_memo():`` the functions decorated with :func:`memoised` keep
+their results, keyed by their exact inputs (arrays by their bytes); outside it they run
+as before.  The caches are per process and cleared when the last
 ``with`` block ends, so a single design never sees stale values.
 
 Only pure functions of their arguments may be decorated; results are returned as they

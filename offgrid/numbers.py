@@ -23,6 +23,7 @@ import re
 #: A number with a comma that could be a thousands separator: 1-3 digits, then groups
 #: of exactly three (``1,500``; ``12,000,000``); ``0,500`` is a decimal comma.
 _THOUSANDS = re.compile(r"^[+-]?[1-9]\d{0,2}(,\d{3})+$")
+_NUMBER = re.compile(r"[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?")
 AMBIGUOUS_HINT = "write 1500 or 1.5 (no thousands separator; a point for decimals)"
 
 
@@ -36,6 +37,10 @@ def read_number(raw: str) -> float:
     The message quotes the text; the caller adds the field or line.
     """
     text = str(raw).strip().replace("\u2212", "-")
+    if text.isascii() and text.isdigit():  # the usual case, quickly: plain digits
+        value = float(text)
+        if math.isfinite(value):
+            return value
     if not text:
         raise NumberError("is empty: type a number")
     shown = repr(text) if len(text) <= 40 else repr(text[:37] + "...")
@@ -45,7 +50,7 @@ def read_number(raw: str) -> float:
         text = text.replace(",", ".")
     if text.lower().lstrip("+-") in ("nan", "inf", "infinity"):
         raise NumberError(f"{shown} is not a finite number: type a number such as 0 or 1.5")
-    if not re.fullmatch(r"[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?", text):
+    if not _NUMBER.fullmatch(text):
         raise NumberError(f"{shown} is not a number")
     value = float(text)
     if not math.isfinite(value):

@@ -26,6 +26,7 @@ from dataclasses import dataclass
 
 from offgrid.catalogue.inputs import RUN_LENGTH_M
 from offgrid.design.result import DesignError
+from offgrid.memo import memoised
 
 FT_PER_KM = 1000.0 / 0.3048
 KCMIL_MM2 = 0.506707479  # 1 kcmil = 1000 circular mils = 0.5067 mm2
@@ -353,6 +354,7 @@ def check_length(length_m: float, run_name: str, field: str) -> None:
         )
 
 
+@memoised  # planning: thousands of designs size the same string, array and charge runs
 def _candidates(
     run: RunSpec,
     units: str,
@@ -360,7 +362,7 @@ def _candidates(
     conductor_temp_c: float,
     ambient_c: float,
     insulation_c: int,
-) -> list[WireChoice]:
+) -> tuple[WireChoice, ...]:
     """Every listed size that meets the run's ampacity and small-conductor rules, smallest first."""
     check_length(run.length_m, run.name, run.length_field)
     if not (run.max_current_a > 0 and math.isfinite(run.max_current_a)):
@@ -408,7 +410,7 @@ def _candidates(
             + (", or use copper." if material == "aluminium" else "."),
             field=run.length_field,
         )
-    return out
+    return tuple(out)
 
 
 def drop_limit_field(key: str) -> str:

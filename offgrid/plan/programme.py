@@ -51,7 +51,9 @@ from offgrid.plan.rows import (
     compact,
     default_jobs,
     distinct_rows,
+    keep_memo,
     prepare,
+    sent_compact,
 )
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES, mtf2015_tier
@@ -646,7 +648,10 @@ _PROGRAMME_INPUTS: list[PlanInputs] = []
 
 def _programme_batch(batch: list[tuple[int, int, SurveyRow]]) -> list[tuple[int, int, Any]]:
     with design_memo():
-        return [(v, i, _build_and_design(_PROGRAMME_INPUTS[v], row)) for v, i, row in batch]
+        return [
+            (v, i, sent_compact(_build_and_design(_PROGRAMME_INPUTS[v], row)))
+            for v, i, row in batch
+        ]
 
 
 def _light(inputs: PlanInputs) -> PlanInputs:
@@ -674,7 +679,9 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
     batches = [tasks[i : i + size] for i in range(0, len(tasks), size)]
     gc.freeze()  # forked workers then leave the parent's objects unshared-but-untouched
     try:
-        with ProcessPoolExecutor(max_workers=jobs, mp_context=context) as pool:
+        with ProcessPoolExecutor(
+            max_workers=jobs, mp_context=context, initializer=keep_memo
+        ) as pool:
             for result in pool.map(_programme_batch, batches):
                 for v, i, r in result:
                     work[v].results[i] = compact(r, seen)

@@ -20,6 +20,7 @@ from __future__ import annotations
 import csv
 import dataclasses
 import io
+import sys
 import types
 import typing
 from dataclasses import dataclass, field
@@ -101,7 +102,7 @@ class SurveyError(ValueError):
         super().__init__(f"{source}: cannot plan ({len(problems)} problem(s))\n{text}")
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)  # a million rows: no per-row __dict__
 class SurveyRow:
     """One household or facility as typed (values checked, references not yet resolved)."""
 
@@ -526,20 +527,21 @@ def _read_row(
             bad(h, str(exc))
     if len(problems) > start:
         return None
+    # The short repeated texts are interned: a programme holds a million rows.
     return SurveyRow(
         line=line,
         id=rid,
         name=values.get("name", "") or rid,
-        kind=(values.get("kind") or "household").lower(),
+        kind=sys.intern((values.get("kind") or "household").lower()),
         count=count,
-        load_list=load_list,
-        project=project,
+        load_list=sys.intern(load_list) if load_list else None,
+        project=sys.intern(project) if project else None,
         daily_energy_wh=energy,
         peak_power_w=peak,
-        ac_dc=ac_dc,
+        ac_dc=sys.intern(ac_dc),
         surge_w=surge,
-        kit=kit,
-        overrides=tuple(sorted(overrides)),
+        kit=sys.intern(kit),
+        overrides=tuple(sorted(overrides)) if overrides else (),
     )
 
 
