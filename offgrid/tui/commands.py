@@ -82,12 +82,12 @@ def key_rows(
 
 def section_groups(app: App) -> list[KeyGroup]:
     """The keys of each section and of the tables in it (``Section.KEY_WIDGETS``)."""
-    from offgrid.tui.screens.work import SECTION_CLASSES
+    from offgrid.tui.screens.work import section_class
     from offgrid.tui.widgets.bars import SECTIONS
 
     groups = []
     for n, (sid, title, _what) in enumerate(SECTIONS, start=1):
-        cls = SECTION_CLASSES[sid]
+        cls = section_class(sid)
         rows = key_rows(app, own_bindings(cls), sid, cls)
         tail: list[KeyGroup] = []
         for widget in cls.KEY_WIDGETS:

@@ -11,7 +11,7 @@ from __future__ import annotations
 import pytest
 
 from offgrid.tui.commands import own_bindings
-from offgrid.tui.screens.work import SECTION_CLASSES, WorkScreen
+from offgrid.tui.screens.work import WorkScreen, section_class
 from offgrid.tui.widgets.bars import SECTIONS
 
 pytestmark = pytest.mark.asyncio(loop_scope="module")
@@ -20,7 +20,7 @@ pytestmark = pytest.mark.asyncio(loop_scope="module")
 def section_bindings():
     """(group title, owner class, binding) for every described binding of every section."""
     for n, (sid, title, _what) in enumerate(SECTIONS, start=1):
-        cls = SECTION_CLASSES[sid]
+        cls = section_class(sid)
         for owner in (cls, *cls.KEY_WIDGETS):
             part = getattr(owner, "KEY_GROUP", "")
             group = f"{n} {title}, {part}" if part else f"{n} {title}"
