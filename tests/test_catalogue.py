@@ -56,8 +56,68 @@ def _model_type(path: str):
 
 def test_every_input_path_is_in_the_project_model():
     for entry in INPUTS:
+        if entry.path.startswith("stock."):
+            continue  # the [stock] table is kept verbatim in Project.extra (test below)
         _model_type(entry.path)
     assert len({e.path for e in INPUTS}) == len(INPUTS), "an input is listed twice"
+
+
+def _leaves(cls, prefix: str) -> list[tuple[str, typing.Any]]:
+    """(path, declared type) of every leaf of a dataclass, into nested records (pump)."""
+    out = []
+    hints = typing.get_type_hints(cls)
+    for f in dataclasses.fields(cls):
+        tp = hints[f.name]
+        if dataclasses.is_dataclass(tp):
+            out += _leaves(tp, f"{prefix}{f.name}.")
+        else:
+            out.append((f"{prefix}{f.name}", tp))
+    return out
+
+
+def _literal_words(tp) -> set:
+    """The words a ``Literal`` (or an optional one) allows; empty for any other type."""
+    if typing.get_origin(tp) is typing.Literal:
+        return set(typing.get_args(tp))
+    return {w for a in typing.get_args(tp) for w in _literal_words(a)}
+
+
+def test_every_leaf_of_the_water_and_generator_records_is_catalogued():
+    """The [[water]] supply (with its pump) and the [generator] table: every field has its
+    row, no row is left over, and a choice row allows exactly the words the file does."""
+    from offgrid.project.water_model import WaterSupply
+
+    for cls, prefix in ((WaterSupply, "water[]."), (model.GeneratorSpec, "generator.")):
+        leaves = _leaves(cls, prefix)
+        missing = [p for p, _ in leaves if catalogue.find_input(p) is None]
+        assert not missing, missing
+        rows = {e.path for e in catalogue.inputs_under(prefix)}
+        assert rows == {p for p, _ in leaves}, rows - {p for p, _ in leaves}
+        for path, tp in leaves:
+            entry = input_entry(path)
+            assert entry.hint, path
+            if entry.kind == "choice":
+                assert set(entry.values) == _literal_words(tp), path
+            elif entry.low is not None:
+                assert entry.low < entry.high, path
+            assert entry.kind.startswith("auto_") == (type(None) in typing.get_args(tp)), path
+
+
+def test_every_key_of_the_stock_table_is_catalogued():
+    """The [stock] table is no dataclass: its keys are the ones the parts code reads
+    (mounting, cable allowance, rates) and the whole rows ``--take`` writes."""
+    from offgrid.stock.catalogue import bundled_catalogue_dir, load_catalogue
+    from offgrid.stock.project_parts import stock_table, take_parts
+    from tests.conftest import hand_project
+
+    cat = load_catalogue(bundled_catalogue_dir())
+    parts = [cat.of(k)[0] for k in ("modules", "batteries", "controllers", "inverters")]
+    project, _ = take_parts(hand_project(), *parts, ({}, cat.rates))
+    written = {f"stock.{k}" for k in stock_table(project)}
+    assert written == {"stock.module", "stock.battery", "stock.controller", "stock.inverter"}
+    read = {"stock.mounting", "stock.cable_allowance_pct", "stock.rates"}
+    assert {e.path for e in catalogue.inputs_under("stock.")} == written | read
+    assert input_entry("stock.mounting").values == ("ground", "roof")
 
 
 def test_every_input_of_the_model_is_catalogued():
@@ -293,3 +353,50 @@ def test_a_ui_field_needs_its_catalogue_row():
         Field("site.tilt_deg", "Tilt")  # the old form, label and all
     with pytest.raises(KeyError, match=r"site\.mast_height_m"):
         Field("site.mast_height_m")
+
+
+def test_water_generator_and_stock_messages_take_hint_and_range_from_the_catalogue(monkeypatch):
+    from offgrid.paths import demo_water_path
+    from offgrid.stock.money import rate_problem
+    from offgrid.stock.project_parts import stock_problems
+    from tests.conftest import hand_project
+
+    project = load_project(demo_water_path())
+    level = project.water[0].static_level_m
+    project.water[0].pump.controller_efficiency = 0.95
+    assert validate_project(project) == [] and level > 10
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "water[].static_level_m", high=10.0,
+          hint="Zq level")  # fmt: skip
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "water[].pump.controller_efficiency",
+          low=0.99, hint="Zq eff")  # fmt: skip
+    said = {p.path: p.message for p in validate_project(project)}
+    assert said == {
+        "water[1].static_level_m": f"{level:g} is out of range; Zq level",
+        "water[1].pump.controller_efficiency": "0.95 is out of range; Zq eff",
+    }
+
+    project = model.Project(generator=model.GeneratorSpec(fuel_l_h=[1.0, 1.6, 2.2, 2.9]))
+    project.climate.ref = "x"
+    assert validate_project(project) == []
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "generator.rated_kw", low=6.0, hint="Zq kW")
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "generator.fuel", values=("lpg",))
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "generator.fuel_l_h", high=2.0)
+    said = {p.path: p.message for p in validate_project(project)}
+    assert said == {
+        "generator.rated_kw": "5 is out of range; Zq kW",
+        "generator.fuel": "'diesel' must be one of lpg",
+        "generator.fuel_l_h": "fuel use is litres per hour, above 0 (up to 2)",
+    }
+
+    project = hand_project()
+    project.extra["stock"] = {"mounting": "roof", "cable_allowance_pct": 10.0}
+    assert stock_problems(project) == [] and rate_problem(1.08) is None
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "stock.cable_allowance_pct", high=5.0,
+          hint="Zq offcuts")  # fmt: skip
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "stock.mounting", values=("ground",))
+    _swap(monkeypatch, catalogue.INPUTS_BY_PATH, "stock.rates", high=1.0)
+    assert stock_problems(project) == [
+        "stock.mounting: 'roof' is not one of: ground",
+        "stock.cable_allowance_pct: give a number from 0 to 5 (got 10.0): Zq offcuts",
+    ]
+    assert "at most 1" in rate_problem(1.08)
