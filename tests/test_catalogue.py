@@ -317,16 +317,31 @@ def test_load_columns_read_their_catalogue_rows(monkeypatch):
     assert next(c for c in LOAD_COLUMNS if c.key == "power_w").hint == "Zq watts"
 
 
-def test_the_variant_comparison_names_figures_as_the_catalogue_does():
-    from offgrid.economics.variants import FIGURE_ROWS
+def test_the_variant_comparison_names_figures_as_the_catalogue_does(monkeypatch):
+    """The variants table kept its own units and digits beside the catalogue's labels:
+    label, unit and digits of every figure row now follow the catalogue's row."""
+    from offgrid.economics.variants import COUNT_ROWS, FIGURE_ROWS, compare_variants
 
     room = 26  # the Options section's label column (28) less its indent
-    for label, _unit, _digits, path, _get in FIGURE_ROWS:
-        if catalogue.find_figure(path) is not None:
-            assert label is None, f"{path}: its own label '{label}' beside the catalogue's"
-            assert len(figure_entry(path).label) <= room, path
-        else:
-            assert label and len(label) <= room, path
+    paths = [path for path, _get in FIGURE_ROWS]
+    for path in paths:
+        assert len(figure_entry(path).label) <= room, path
+    assert all(label and len(label) <= room for label, _ in COUNT_ROWS)
+    assert not {label for label, _ in COUNT_ROWS} & {e.label for e in FIGURES}
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "battery.usable_kwh", unit="Zq", digits=4)
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "array.power_w", label="Zq power")
+    project = load_project(demo_project_path())
+    project.variants = []
+    rows = {
+        r.path: r for r in compare_variants(project, demo_project_path().parent, None, False).rows
+    }
+    assert [p for p in rows if p != "warnings"] == paths
+    for path in paths:
+        e = catalogue.find_figure(path)
+        assert (rows[path].label, rows[path].unit) == (e.label, e.unit), path
+    assert rows["array.power_w"].label == "Zq power"
+    usable = rows["battery.usable_kwh"]
+    assert usable.unit == "Zq" and usable.texts[0] == f"{usable.values[0]:,.4f}"
 
 
 def test_a_load_is_checked_against_its_catalogue_rows(monkeypatch):
