@@ -24,12 +24,12 @@ from offgrid.catalogue.entries import (
     FigureEntry,
     InputEntry,
 )
-from offgrid.catalogue.figures import FIGURES
+from offgrid.catalogue.figures import FIGURES as DESIGN_FIGURES
 from offgrid.catalogue.generator import GENERATOR_INPUTS
 from offgrid.catalogue.inputs import INPUTS as PROJECT_INPUTS
 from offgrid.catalogue.inputs import RUN_LENGTH_M
 from offgrid.catalogue.stock import STOCK_INPUTS
-from offgrid.catalogue.water import WATER_INPUTS
+from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
 
 __all__ = [
     "FIGURES",
@@ -57,6 +57,8 @@ INPUTS: tuple[InputEntry, ...] = (
     *GENERATOR_INPUTS,
     *STOCK_INPUTS,
 )
+#: Every figure: the design's, then each water supply's (``water[].``).
+FIGURES: tuple[FigureEntry, ...] = (*DESIGN_FIGURES, *WATER_FIGURES)
 #: Tables whose rows their own checks read (a table a project may leave out, or one row
 #: per item): ``validate_project``'s loop over the core inputs leaves them to those.
 OWN_CHECKS: tuple[str, ...] = ("loads[].", "water[].", "generator.", "stock.")
@@ -95,8 +97,9 @@ _WIRE = re.compile(r"^wires(?:\[\d*\]|\.[^.]+)\.([a-z_]+)$")
 
 def find_figure(path: str) -> FigureEntry | None:
     """The figure at a JSON path or a reason key, or None; a cable's figure by its index
-    (``wires[2].size``) or its run's key (``wires.charge.size``) is the row ``wires[].size``."""
-    entry = FIGURES_BY_PATH.get(path)
+    (``wires[2].size``) or its run's key (``wires.charge.size``) is the row ``wires[].size``,
+    a water supply's (``water[1].friction_m``) the row ``water[].friction_m``."""
+    entry = FIGURES_BY_PATH.get(path) or FIGURES_BY_PATH.get(_INDEX.sub("[]", path))
     if entry is None and (m := _WIRE.match(path)):
         entry = FIGURES_BY_PATH.get(f"wires[].{m.group(1)}")
     return entry

@@ -1,4 +1,5 @@
-"""The inputs of a water supply (``[[water]]`` tables, :mod:`offgrid.project.water_model`).
+"""The inputs of a water supply (``[[water]]`` tables, :mod:`offgrid.project.water_model`)
+and the figures of its design (:class:`offgrid.water.design.WaterDesign`).
 
 One row per field, ``water[].`` in front as for ``loads[]`` (``water[2].pump.max_input_v``
 is the row ``water[].pump.max_input_v``).  A number row with a range is checked by
@@ -10,6 +11,7 @@ rows (a test keeps it in step).
 
 from __future__ import annotations
 
+from offgrid.catalogue.entries import FigureEntry as Fig
 from offgrid.catalogue.entries import InputEntry as In
 
 WATER_INPUTS: tuple[In, ...] = (
@@ -67,3 +69,22 @@ WATER_INPUTS: tuple[In, ...] = (
     In("water[].pump.controller_efficiency", "Pump controller eff.", "", 0.5, 1.0,
        "pump controller efficiency as a fraction, 0.5-1"),
 )  # fmt: skip
+
+#: The figures of a water supply's design (``WaterDesign``, one per ``[[water]]`` table) a
+#: view shows with their reasons: ``water[].`` in front, explained by the reason
+#: ``water.<figure>`` of ``WaterDesign.reasons``.
+WATER_FIGURES: tuple[Fig, ...] = tuple(
+    Fig(f"water[].{name}", label, unit, digits, reason=f"water.{name}")
+    for name, label, unit, digits in (
+        ("total_dynamic_head_m", "Total dynamic head", "m", 1),
+        ("friction_m", "Pipe friction head", "m", 2),
+        ("minor_loss_m", "Fittings head", "m", 2),
+        ("velocity_m_s", "Pipe velocity at peak flow", "m/s", 2),
+        ("hydraulic_energy_kwh_day", "Hydraulic energy, limiting month", "kWh/day", 2),
+        ("pump_set_efficiency", "Pump set efficiency at noon", "", 2),
+        ("start_irradiance_w_m2", "Start-up irradiance", "W/m2", 0),
+        ("module_count", "Modules for the pump", "", 0),
+        ("pipe_suggested_mm", "Suggested pipe bore", "mm", 0),
+        ("tank_size_m3", "Tank size (each)", "m3", 0),
+    )
+)
