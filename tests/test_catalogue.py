@@ -144,8 +144,8 @@ def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
     _, d = demo
     tree = d.to_dict()
     for entry in FIGURES:
-        if entry.path.startswith("water[]."):
-            continue  # a water supply's design, not SystemDesign (test below)
+        if entry.path.startswith(("water[].", "generator.")):
+            continue  # a water supply's design or the generator's setup (tests below)
         if entry.path.startswith("wires[]."):  # one row for every cable run
             name = entry.path.removeprefix("wires[].")
             assert all(name in w for w in tree["wires"]), entry.path
@@ -449,3 +449,29 @@ def test_the_water_figures_are_the_water_designs_and_the_report_reads_them(monke
     ]
     friction = shown["water.friction_m"]
     assert friction.label == "Zq friction" and friction.cell.text == f"{w.friction_m:.4f} Zq"
+
+
+def test_the_generator_figures_are_in_the_size_json_and_the_report_reads_them(monkeypatch):
+    from offgrid.generator.study import hybrid_demo_path, size_section
+    from offgrid.report.build import build_report
+    from offgrid.report.text import render_text
+
+    project = load_project(hybrid_demo_path())
+    d = design(project, hybrid_demo_path().parent)
+    tree = {"generator": size_section(project, d, hybrid_demo_path().parent)}
+    rows = [e for e in FIGURES if e.path.startswith("generator.")]
+    assert len(rows) == 3
+    for e in rows:
+        node = tree
+        for part in e.path.split("."):
+            node = node[part]
+        assert isinstance(node, float), e.path
+        section = e.path.split(".")[1]  # its reason sits beside it in the JSON
+        assert tree["generator"][section]["reason"]["source"], e.path
+    before = render_text(build_report(project, d, with_charts=False, with_variants=False))
+    assert "Derated output" in before
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "generator.derating.derated_kw",
+          label="Zq derated", unit="Zq", digits=5)  # fmt: skip
+    after = render_text(build_report(project, d, with_charts=False, with_variants=False))
+    kw = tree["generator"]["derating"]["derated_kw"]
+    assert "Zq derated" in after and f"{kw:.5f} Zq" in after and "Derated output" not in after

@@ -25,7 +25,7 @@ from offgrid.catalogue.entries import (
     InputEntry,
 )
 from offgrid.catalogue.figures import FIGURES as DESIGN_FIGURES
-from offgrid.catalogue.generator import GENERATOR_INPUTS
+from offgrid.catalogue.generator import GENERATOR_FIGURES, GENERATOR_INPUTS
 from offgrid.catalogue.inputs import INPUTS as PROJECT_INPUTS
 from offgrid.catalogue.inputs import RUN_LENGTH_M
 from offgrid.catalogue.stock import STOCK_INPUTS
@@ -57,8 +57,8 @@ INPUTS: tuple[InputEntry, ...] = (
     *GENERATOR_INPUTS,
     *STOCK_INPUTS,
 )
-#: Every figure: the design's, then each water supply's (``water[].``).
-FIGURES: tuple[FigureEntry, ...] = (*DESIGN_FIGURES, *WATER_FIGURES)
+#: Every figure: the design's, each water supply's (``water[].``), the generator's.
+FIGURES: tuple[FigureEntry, ...] = (*DESIGN_FIGURES, *WATER_FIGURES, *GENERATOR_FIGURES)
 #: Tables whose rows their own checks read (a table a project may leave out, or one row
 #: per item): ``validate_project``'s loop over the core inputs leaves them to those.
 OWN_CHECKS: tuple[str, ...] = ("loads[].", "water[].", "generator.", "stock.")

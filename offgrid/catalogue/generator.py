@@ -1,4 +1,5 @@
-"""The inputs of the generator beside the sun (``[generator]``, ``GeneratorSpec``).
+"""The inputs of the generator beside the sun (``[generator]``, ``GeneratorSpec``) and the
+figures of its setup the report shows.
 
 A number row's range is inclusive (a ``floats`` row: each value of the list, checked with
 the fuel table's shape by :func:`offgrid.generator.fuel.check_fuel_points`); a choice
@@ -9,6 +10,7 @@ common-practice bounds (common practice, no source).
 
 from __future__ import annotations
 
+from offgrid.catalogue.entries import FigureEntry as Fig
 from offgrid.catalogue.entries import InputEntry as In
 
 GENERATOR_INPUTS: tuple[In, ...] = (
@@ -77,3 +79,12 @@ GENERATOR_INPUTS: tuple[In, ...] = (
     In("generator.life_years", "Life in years", "yr", 1, 60,
        "years until replacement however little it runs"),
 )  # fmt: skip
+
+#: The generator's figures that need no weather, at their paths of ``offgrid size --json``
+#: (``generator`` section, :func:`offgrid.generator.study.setup_dict`); each carries its
+#: reason beside it in that section (``generator.derating.reason``).
+GENERATOR_FIGURES: tuple[Fig, ...] = (
+    Fig("generator.derating.derated_kw", "Derated output", "kW", 2),
+    Fig("generator.fuel_curve.no_load_l_h", "No-load fuel", "L/h", 3),
+    Fig("generator.fuel_curve.b_l_per_kwh", "Marginal fuel", "L/kWh", 4),
+)
