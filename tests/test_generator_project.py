@@ -6,7 +6,8 @@ import dataclasses
 
 import pytest
 
-from offgrid.generator.fields import FIELDS, quiet_mask
+from offgrid.catalogue import inputs_under
+from offgrid.generator.fields import quiet_mask
 from offgrid.paths import demo_project_path
 from offgrid.project.model import GeneratorSpec
 from offgrid.project.store import ProjectFileError, dumps_project, loads_project
@@ -67,14 +68,15 @@ def test_bad_generator_input_refused(change, field, words):
 
 
 def test_field_metadata_matches_the_model():
-    # one tuple declares every input of the [generator] table, none twice
+    # the catalogue's generator rows declare every input of the [generator] table, none twice
     names = {f.name for f in dataclasses.fields(GeneratorSpec)}
-    paths = [path.removeprefix("generator.") for path, *_ in FIELDS]
+    rows = inputs_under("generator.")
+    paths = [e.path.removeprefix("generator.") for e in rows]
     assert sorted(paths) == sorted(names)
-    for path, label, _unit, span, hint in FIELDS:
-        assert len(label) <= 22 and hint, path
-        if span is not None and not isinstance(span[0], str):
-            assert span[0] < span[1], path
+    for e in rows:
+        assert len(e.label) <= 22 and e.hint, e.path
+        if e.low is not None:
+            assert e.low < e.high, e.path
 
 
 def test_quiet_mask_wraps_midnight():

@@ -6,13 +6,14 @@ import copy
 
 import pytest
 
+from offgrid.catalogue import input_entry, inputs_under
 from offgrid.design.sizing import design
 from offgrid.economics.bom import bill_of_materials
 from offgrid.project.store import dumps_project, loads_project
 from offgrid.stock.catalogue import bundled_catalogue_dir, load_catalogue
 from offgrid.stock.project_parts import (
-    INPUT_OF,
-    STOCK_INPUTS,
+    DEFAULT_CABLE_ALLOWANCE_PCT,
+    DEFAULT_MOUNTING,
     cable_allowance_pct,
     mounting,
     stock_problems,
@@ -22,15 +23,18 @@ from tests.conftest import hand_project
 
 
 def test_stock_inputs_are_declared_once_and_checked():
-    paths = [i.path for i in STOCK_INPUTS]
-    assert len(paths) == len(set(paths)) and all(p.startswith("stock.") for p in paths)
+    paths = [i.path for i in inputs_under("stock.")]
+    assert len(paths) == len(set(paths)) == 7
     p = hand_project()
     assert stock_problems(p) == []
-    assert mounting(p) == INPUT_OF["stock.mounting"].default
-    assert cable_allowance_pct(p) == INPUT_OF["stock.cable_allowance_pct"].default
+    assert mounting(p) == DEFAULT_MOUNTING in input_entry("stock.mounting").values
+    allowance = input_entry("stock.cable_allowance_pct")
+    assert cable_allowance_pct(p) == DEFAULT_CABLE_ALLOWANCE_PCT
+    assert allowance.low <= DEFAULT_CABLE_ALLOWANCE_PCT <= allowance.high
     p.extra["stock"] = {"mounting": "pole", "cable_allowance_pct": 150}
     said = stock_problems(p)
     assert said[0].startswith("stock.mounting") and said[1].startswith("stock.cable_allowance")
+    assert allowance.hint in said[1] and "from 0 to 100" in said[1]
     p.extra["stock"] = {"cable_allowance_pct": True}
     assert stock_problems(p)[0].startswith("stock.cable_allowance_pct")
 

@@ -9,15 +9,20 @@ import math
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from offgrid.catalogue import inputs_under
 from offgrid.design.result import DesignError
 from offgrid.paths import demo_water_path
 from offgrid.project.store import load_project
 from offgrid.water.checks import water_problems
 from offgrid.water.design import water_design
-from offgrid.water.fields import WATER_FIELDS
 
 BASE = load_project(demo_water_path())
-SCALAR = [f for f in WATER_FIELDS if f.path != "need_m3_day" and not f.path.startswith("pump.")]
+#: the supply's own number inputs with a range (not the monthly need, not the pump's)
+SCALAR = [
+    f
+    for f in inputs_under("water[].")
+    if f.low is not None and f.kind == "float" and not f.path.startswith("water[].pump.")
+]
 
 
 def _value(f):
@@ -27,7 +32,7 @@ def _value(f):
 
 @settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(
-    values=st.fixed_dictionaries({f.path: _value(f) for f in SCALAR}),
+    values=st.fixed_dictionaries({f.path.removeprefix("water[]."): _value(f) for f in SCALAR}),
     need=st.floats(0.1, 60.0),
     direct=st.booleans(),
 )

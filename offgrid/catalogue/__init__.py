@@ -4,12 +4,14 @@ For any input (``choices.autonomy_days``) or figure (``battery.capacity_ah``) th
 one place that holds its label, unit, range, hint and the reason that explains it;
 validation, the text UI's field tables and figure rows, the report and the text summary
 read it by path.  A new input or figure is added in one place: a row in
-:mod:`offgrid.catalogue.inputs` or :mod:`offgrid.catalogue.figures`.
+:mod:`offgrid.catalogue.inputs` (the core tables), :mod:`~offgrid.catalogue.water`
+(``[[water]]``), :mod:`~offgrid.catalogue.generator` (``[generator]``),
+:mod:`~offgrid.catalogue.stock` (``[stock]``) or :mod:`offgrid.catalogue.figures`.
 
 API: :class:`InputEntry`, :class:`FigureEntry`; :func:`input_entry` and
 :func:`figure_entry` (by path, ``KeyError`` naming the path when it is not catalogued),
-:func:`find_input` and :func:`find_figure` (``None`` instead); ``INPUTS``, ``FIGURES``,
-:func:`key_figures`, ``RUN_LENGTH_M``.
+:func:`find_input` and :func:`find_figure` (``None`` instead); :func:`inputs_under` (the
+rows of one table); ``INPUTS``, ``FIGURES``, :func:`key_figures`, ``RUN_LENGTH_M``.
 """
 
 from __future__ import annotations
@@ -22,14 +24,19 @@ from offgrid.catalogue.entries import (
     FigureEntry,
     InputEntry,
 )
-from offgrid.catalogue.figures import FIGURES
-from offgrid.catalogue.inputs import INPUTS, RUN_LENGTH_M
+from offgrid.catalogue.figures import FIGURES as DESIGN_FIGURES
+from offgrid.catalogue.generator import GENERATOR_FIGURES, GENERATOR_INPUTS
+from offgrid.catalogue.inputs import INPUTS as PROJECT_INPUTS
+from offgrid.catalogue.inputs import RUN_LENGTH_M
+from offgrid.catalogue.stock import STOCK_INPUTS
+from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
 
 __all__ = [
     "FIGURES",
     "FIGURE_LABEL_ROOM",
     "INPUTS",
     "INPUT_LABEL_ROOM",
+    "OWN_CHECKS",
     "RUN_LENGTH_M",
     "FigureEntry",
     "InputEntry",
@@ -37,10 +44,24 @@ __all__ = [
     "find_figure",
     "find_input",
     "input_entry",
+    "inputs_under",
     "key_figures",
 ]
 
 _INDEX = re.compile(r"\[\d+\]")
+
+#: Every input: the core tables, then ``[[water]]``, ``[generator]`` and ``[stock]``.
+INPUTS: tuple[InputEntry, ...] = (
+    *PROJECT_INPUTS,
+    *WATER_INPUTS,
+    *GENERATOR_INPUTS,
+    *STOCK_INPUTS,
+)
+#: Every figure: the design's, each water supply's (``water[].``), the generator's.
+FIGURES: tuple[FigureEntry, ...] = (*DESIGN_FIGURES, *WATER_FIGURES, *GENERATOR_FIGURES)
+#: Tables whose rows their own checks read (a table a project may leave out, or one row
+#: per item): ``validate_project``'s loop over the core inputs leaves them to those.
+OWN_CHECKS: tuple[str, ...] = ("loads[].", "water[].", "generator.", "stock.")
 
 #: Lookup tables (views read entries through the functions below, at the time they
 #: render, so a test can swap an entry here and see it in every view).
@@ -58,10 +79,16 @@ def find_input(path: str) -> InputEntry | None:
     return INPUTS_BY_PATH.get(path) or INPUTS_BY_PATH.get(_INDEX.sub("[]", path))
 
 
+def inputs_under(prefix: str) -> tuple[InputEntry, ...]:
+    """The rows whose path starts with ``prefix`` (``"water[]."``), in catalogue order, as
+    they are now (read at each call, so a swapped entry is seen)."""
+    return tuple(e for e in INPUTS_BY_PATH.values() if e.path.startswith(prefix))
+
+
 def input_entry(path: str) -> InputEntry:
     entry = find_input(path)
     if entry is None:
-        raise KeyError(f"{path}: not an input of the catalogue (offgrid/catalogue/inputs.py)")
+        raise KeyError(f"{path}: not an input of the catalogue (offgrid/catalogue/)")
     return entry
 
 
@@ -70,8 +97,9 @@ _WIRE = re.compile(r"^wires(?:\[\d*\]|\.[^.]+)\.([a-z_]+)$")
 
 def find_figure(path: str) -> FigureEntry | None:
     """The figure at a JSON path or a reason key, or None; a cable's figure by its index
-    (``wires[2].size``) or its run's key (``wires.charge.size``) is the row ``wires[].size``."""
-    entry = FIGURES_BY_PATH.get(path)
+    (``wires[2].size``) or its run's key (``wires.charge.size``) is the row ``wires[].size``,
+    a water supply's (``water[1].friction_m``) the row ``water[].friction_m``."""
+    entry = FIGURES_BY_PATH.get(path) or FIGURES_BY_PATH.get(_INDEX.sub("[]", path))
     if entry is None and (m := _WIRE.match(path)):
         entry = FIGURES_BY_PATH.get(f"wires[].{m.group(1)}")
     return entry

@@ -16,8 +16,9 @@ class InputEntry:
 
     ``low``/``high`` bound a number (inclusive; None: no range check); ``hint`` says what
     to type and is the tail of every message about the field; ``kind`` is text, float,
-    int, choice, months or climate, ``auto_`` in front when it may be left out (the
-    engine then picks); ``reason`` is the design figure (reason key) that explains the
+    int, choice, months, climate, floats (a list of numbers, each in the range) or table
+    (a table or a list of lists with rules of its own), ``auto_`` in front when it may be
+    left out (the engine then picks); ``reason`` is the design figure (reason key) that explains the
     automatic value or what the input drives; ``values`` are the values a choice allows
     (how the UI names them is the UI's).
     """

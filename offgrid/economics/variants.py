@@ -156,60 +156,37 @@ def _show(value: Any, digits: int | None) -> str:
     return str(value)
 
 
-#: Figures compared: label (None: the catalogue's, by path), unit, digits, path, getter
-#: from (design, cost, reliability).
-FIGURE_ROWS: tuple[tuple[str | None, str, int, str, Callable[..., Any]], ...] = (
-    (None, "", 0, "site.design_month", lambda d, c, r: MONTHS[d.site.design_month - 1]),
+#: Figures compared, by catalogue path (label, unit and digits are the catalogue's
+#: figure rows, :mod:`offgrid.catalogue.figures`), with the getter from (design, cost,
+#: reliability).
+FIGURE_ROWS: tuple[tuple[str, Callable[..., Any]], ...] = (
+    ("site.design_month", lambda d, c, r: MONTHS[d.site.design_month - 1]),
+    ("battery.system_voltage_v", lambda d, c, r: d.battery.system_voltage_v),
+    ("array.power_w", lambda d, c, r: d.array.power_w),
     (
-        None,
-        "V",
-        0,
-        "battery.system_voltage_v",
-        lambda d, c, r: d.battery.system_voltage_v,
-    ),
-    (None, "W", 0, "array.power_w", lambda d, c, r: d.array.power_w),
-    (
-        None,
-        "",
-        0,
         "array.module_count",
         lambda d, c, r: f"{d.array.modules_series} x {d.array.modules_parallel}",
     ),
-    (None, "", 3, "array.derate_total", lambda d, c, r: d.array.derate_total),
-    (None, "Ah", 0, "battery.capacity_ah", lambda d, c, r: d.battery.capacity_ah),
-    (None, "kWh", 2, "battery.usable_kwh", lambda d, c, r: d.battery.usable_kwh),
-    (None, "", 0, "battery.unit_count", lambda d, c, r: d.battery.unit_count),
+    ("array.derate_total", lambda d, c, r: d.array.derate_total),
+    ("battery.capacity_ah", lambda d, c, r: d.battery.capacity_ah),
+    ("battery.usable_kwh", lambda d, c, r: d.battery.usable_kwh),
+    ("battery.unit_count", lambda d, c, r: d.battery.unit_count),
     (
-        None,
-        "A",
-        0,
         "controller.current_a",
         lambda d, c, r: (
             f"{d.controller.count} x {d.controller.current_a:g} {d.controller.type.upper()}"
         ),
     ),
     (
-        None,
-        "W",
-        0,
         "inverter.continuous_w",
         lambda d, c, r: d.inverter.continuous_w if d.inverter.needed else "none",
     ),
-    # As the headline counts them: warnings, and notes (severity 'info') apart.
-    (
-        "Warnings",
-        "",
-        0,
-        "warnings",
-        lambda d, c, r: sum(1 for w in d.warnings if w.severity != "info"),
-    ),
-    (
-        "Notes",
-        "",
-        0,
-        "warnings",
-        lambda d, c, r: sum(1 for w in d.warnings if w.severity == "info"),
-    ),
+)
+#: Counts of the design's warnings, no catalogue figure: label and getter, as the headline
+#: counts them (warnings, and notes of severity 'info' apart); shown under ``warnings``.
+COUNT_ROWS: tuple[tuple[str, Callable[..., Any]], ...] = (
+    ("Warnings", lambda d, c, r: sum(1 for w in d.warnings if w.severity != "info")),
+    ("Notes", lambda d, c, r: sum(1 for w in d.warnings if w.severity == "info")),
 )
 COST_ROWS: tuple[tuple[str, int, str], ...] = (
     ("Capital cost", 0, "capital"),
@@ -304,12 +281,17 @@ def compare_variants(
             except ValueError:
                 vals.append(None)
         rows.append(_row(p, "", None, vals, "choices", p))
-    for label, unit, digits, path, get in FIGURE_ROWS:
-        label = label or figure_entry(path).label
-        vals = [
+
+    def figure_values(get: Callable[..., Any]) -> list[Any]:
+        return [
             get(c.design, c.cost, c.reliability) if c.design is not None else None for c in columns
         ]
-        rows.append(_row(label, unit, digits, vals, "figures", path))
+
+    for path, get in FIGURE_ROWS:
+        e = figure_entry(path)
+        rows.append(_row(e.label, e.unit, e.digits, figure_values(get), "figures", path))
+    for label, get in COUNT_ROWS:
+        rows.append(_row(label, "", 0, figure_values(get), "figures", "warnings"))
     if with_costs:
         currency = project.economics.currency
         for label, digits, attr in COST_ROWS:

@@ -1,212 +1,20 @@
-"""The generator's inputs: one table of metadata and the project checks on them.
+"""The project checks on the generator's inputs.
 
-``FIELDS`` is one tuple written so it can move into the field catalogue in one step:
-``(path, label, unit, range, hint)`` for every input of the ``[generator]`` table.
+The inputs' labels, units, ranges, allowed words and hints are the catalogue's
+``generator.`` rows (:mod:`offgrid.catalogue.generator`); :func:`generator_problems` checks
+a project against them and the consistency rules.
 """
 
 from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
+from offgrid.catalogue import inputs_under
 from offgrid.numbers import is_finite_number
 
 if TYPE_CHECKING:
     from offgrid.project.model import Project
 
-#: Every generator input: (path, label, unit, range, hint). ``range`` is (low, high) for a
-#: number (bounds inclusive; each value of a list), the allowed words of a choice, or None
-#: for free text.  Labels at most 22 characters.
-FIELDS: tuple[tuple[str, str, str, tuple | None, str], ...] = (
-    ("generator.name", "Generator name", "", None, "a short name for the generator set (text)"),
-    ("generator.fuel", "Generator fuel", "", ("diesel", "petrol", "lpg"), "the fuel it burns"),
-    (
-        "generator.rated_kw",
-        "Generator rating",
-        "kW",
-        (0.1, 2000),
-        "continuous output at the reference conditions, kW (the datasheet's prime rating)",
-    ),
-    (
-        "generator.dispatch",
-        "Dispatch rule",
-        "",
-        ("cycle_charging", "load_following"),
-        "cycle_charging: start at start_soc, charge to stop_soc; load_following: run only for "
-        "what the sun and battery cannot cover",
-    ),
-    (
-        "generator.derate_method",
-        "Derate method",
-        "",
-        ("common_practice", "iso3046"),
-        "common_practice: the straight line of the derate_* figures; iso3046: the ISO 3046-1 power "
-        "adjustment of a naturally aspirated diesel",
-    ),
-    (
-        "generator.fuel_load_pct",
-        "Fuel table loads",
-        "%",
-        (0.0, 110.0),
-        "the datasheet's loads, % of the rating, rising (25, 50, 75, 100)",
-    ),
-    (
-        "generator.fuel_l_h",
-        "Fuel table use",
-        "L/h",
-        (0.0, 1000.0),
-        "the datasheet's fuel use at each of those loads, L/h, rising with load (LPG: litres "
-        "of liquid)",
-    ),
-    (
-        "generator.min_load_fraction",
-        "Minimum loading",
-        "",
-        (0, 1),
-        "share of the derated output below which it must not run long, 0-1 (about 0.3 for "
-        "diesel against wet stacking)",
-    ),
-    (
-        "generator.altitude_m",
-        "Generator altitude",
-        "m",
-        (-430, 6000),
-        "metres above sea level, or leave it out for site.elevation_m",
-    ),
-    (
-        "generator.hottest_temp_c",
-        "Hottest air temp.",
-        "C",
-        (-40, 60),
-        "hottest air at the intake, C, or leave it out for the climate's hottest monthly mean "
-        "maximum",
-    ),
-    (
-        "generator.derate_alt_pct_per_300m",
-        "Derate per 300 m",
-        "%",
-        (0, 20),
-        "output lost per 300 m above the threshold, % (datasheet; about 3)",
-    ),
-    (
-        "generator.derate_alt_above_m",
-        "Derate from altitude",
-        "m",
-        (0, 6000),
-        "altitude where the derate starts, m (datasheet; about 1000)",
-    ),
-    (
-        "generator.derate_temp_pct_per_5c",
-        "Derate per 5 C",
-        "%",
-        (0, 20),
-        "output lost per 5 C above the threshold, % (datasheet; about 2)",
-    ),
-    (
-        "generator.derate_temp_above_c",
-        "Derate from temp.",
-        "C",
-        (-20, 60),
-        "temperature where the derate starts, C (datasheet; 25 to 40)",
-    ),
-    (
-        "generator.charger_kw",
-        "Charger output",
-        "kW",
-        (0.05, 500),
-        "battery charger's DC output at full rate, kW (the inverter-charger's charge rating)",
-    ),
-    (
-        "generator.charger_efficiency",
-        "Charger efficiency",
-        "",
-        (0.5, 1),
-        "charger AC to DC efficiency, a fraction (about 0.9)",
-    ),
-    (
-        "generator.start_soc",
-        "Start at charge",
-        "",
-        (0, 1),
-        "state of charge at which the generator starts, 0-1 (cycle charging)",
-    ),
-    (
-        "generator.stop_soc",
-        "Stop at charge",
-        "",
-        (0, 1),
-        "state of charge at which it stops, 0-1, above start_soc (cycle charging)",
-    ),
-    (
-        "generator.quiet_from_h",
-        "Quiet from hour",
-        "h",
-        (0, 23),
-        "solar hour 0-23 from which the generator may not run, or leave it out",
-    ),
-    (
-        "generator.quiet_to_h",
-        "Quiet until hour",
-        "h",
-        (0, 23),
-        "solar hour 0-23 at which quiet hours end, or leave it out",
-    ),
-    (
-        "generator.price",
-        "Generator price",
-        "money",
-        (0, 1000000000.0),
-        "purchase and installation, in economics.currency, or leave it out",
-    ),
-    (
-        "generator.fuel_price_per_l",
-        "Fuel price",
-        "money/L",
-        (0, 1000),
-        "fuel price today per litre delivered to site, in economics.currency",
-    ),
-    (
-        "generator.fuel_escalation_pct",
-        "Fuel price rise",
-        "%/yr",
-        (-10, 50),
-        "yearly rise of the fuel price, %",
-    ),
-    (
-        "generator.maintenance_per_run_h",
-        "Upkeep per run hour",
-        "money/h",
-        (0, 10000.0),
-        "oil, filters and service per run hour, in economics.currency",
-    ),
-    (
-        "generator.overhaul_interval_h",
-        "Overhaul every",
-        "h",
-        (100, 200000),
-        "run hours between overhauls (datasheet; about 10000 for a slow diesel)",
-    ),
-    (
-        "generator.overhaul_cost",
-        "Overhaul cost",
-        "money",
-        (0, 1000000000.0),
-        "cost of one overhaul, in economics.currency",
-    ),
-    (
-        "generator.life_run_h",
-        "Life in run hours",
-        "h",
-        (100, 500000),
-        "run hours until replacement (about 20000 for a slow diesel, 3000 for a small petrol set)",
-    ),
-    (
-        "generator.life_years",
-        "Life in years",
-        "yr",
-        (1, 60),
-        "years until replacement however little it runs",
-    ),
-)
 #: Lists checked together by :func:`offgrid.generator.fuel.check_fuel_points`.
 LIST_PATHS = ("generator.fuel_load_pct", "generator.fuel_l_h")
 
@@ -219,21 +27,21 @@ def generator_problems(project: Project) -> list[tuple[str, str]]:
     if g is None:
         return []
     out: list[tuple[str, str]] = []
-    for path, _label, _unit, span, hint in FIELDS:
-        if span is None or path in LIST_PATHS:
+    for e in inputs_under("generator."):
+        path = e.path
+        if path in LIST_PATHS:
             continue
         value = getattr(g, path.removeprefix("generator."))  # the path names the field
-        if isinstance(span[0], str):
-            if value not in span:
-                out.append((path, f"'{value}' must be one of {', '.join(span)}"))
+        if e.values:
+            if value not in e.values:
+                out.append((path, f"'{value}' must be one of {', '.join(e.values)}"))
             continue
-        if value is None:
+        if e.low is None or e.high is None or value is None:
             continue
-        lo, hi = span
         if not is_finite_number(value):
-            out.append((path, f"'{value}' is not a finite number; {hint}"))
-        elif not lo <= value <= hi:
-            out.append((path, f"{value:g} is out of range; {hint}"))
+            out.append((path, f"'{value}' is not a finite number; {e.hint}"))
+        elif not e.low <= value <= e.high:
+            out.append((path, f"{value:g} is out of range; {e.hint}"))
     out.extend(check_fuel_points(g.fuel_load_pct, g.fuel_l_h))
     if g.dispatch == "cycle_charging" and g.start_soc >= g.stop_soc:
         out.append(

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from offgrid.catalogue import input_entry
 from offgrid.design.result import Reason, fmt
 
 SOURCE = (
@@ -80,10 +81,18 @@ def check_fuel_points(load_pct, fuel_l_h) -> list[tuple[str, str]]:
             )
         )
         return out
-    if any(not (0 <= v <= 110) for v in x):
-        out.append(("generator.fuel_load_pct", "loads are % of the rating, 0-110"))
-    if any(not (0 < v <= 1000) for v in y):
-        out.append(("generator.fuel_l_h", "fuel use is litres per hour, above 0 (up to 1000)"))
+    loads, use = input_entry("generator.fuel_load_pct"), input_entry("generator.fuel_l_h")
+    if any(not (loads.low <= v <= loads.high) for v in x):
+        out.append(
+            ("generator.fuel_load_pct", f"loads are % of the rating, {loads.low:g}-{loads.high:g}")
+        )
+    if any(not (use.low < v <= use.high) for v in y):
+        out.append(
+            (
+                "generator.fuel_l_h",
+                f"fuel use is litres per hour, above {use.low:g} (up to {use.high:g})",
+            )
+        )
     if out:
         return out
     if any(b <= a for a, b in itertools.pairwise(x)):

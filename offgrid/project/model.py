@@ -226,7 +226,7 @@ DerateMethod = Literal["common_practice", "iso3046"]
 
 @dataclass
 class GeneratorSpec:
-    """A generator beside the sun (issue 16); ranges and hints in offgrid/generator/fields.py.
+    """A generator beside the sun (issue 16); ranges and hints in offgrid/catalogue/generator.py.
 
     Fuel use from the datasheet at ``fuel_load_pct`` % of the rating, L/h (LPG: litres of
     liquid).  Money in ``Economics.currency``.  Quiet hours are solar time, whole hours,

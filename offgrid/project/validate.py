@@ -30,12 +30,17 @@ class Problem:
 
 def ranged_inputs() -> list[tuple[str, float, float, str]]:
     """(path, low, high, hint) of every number input with a range, from the catalogue
-    (:mod:`offgrid.catalogue`); per-load rows (``loads[].*``) are checked by ``check_load``."""
+    (:mod:`offgrid.catalogue`); per-load rows (``loads[].*``) are checked by ``check_load``,
+    the water, generator and stock rows by their own checks (``catalogue.OWN_CHECKS``)."""
     return [
         (e.path, e.low, e.high, e.hint)
         for e in catalogue.INPUTS_BY_PATH.values()
-        if e.low is not None and e.high is not None and "[]" not in e.path
+        if e.low is not None and e.high is not None and not _own_check(e.path)
     ]
+
+
+def _own_check(path: str) -> bool:
+    return "[]" in path or path.startswith(catalogue.OWN_CHECKS)
 
 
 def _choice_problems(project: Project) -> list[Problem]:
@@ -43,7 +48,7 @@ def _choice_problems(project: Project) -> list[Problem]:
     are checked where they are read)."""
     problems = []
     for e in catalogue.INPUTS_BY_PATH.values():
-        if not e.values or "[]" in e.path or all(isinstance(v, bool) for v in e.values):
+        if not e.values or _own_check(e.path) or all(isinstance(v, bool) for v in e.values):
             continue
         value = _get(project, e.path)
         if value not in e.values:

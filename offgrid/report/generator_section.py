@@ -11,6 +11,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from offgrid.catalogue import figure_entry
 from offgrid.design.result import SystemDesign
 from offgrid.economics.costs import money
 from offgrid.generator.cautions import generator_cautions
@@ -30,17 +31,26 @@ def _c(text: str, value: float | None = None) -> Cell:
     return Cell(text, value)
 
 
+def _entries(shown):
+    """(catalogue figure row, value) for (path, value) pairs."""
+    return ((figure_entry(path), value) for path, value in shown)
+
+
 def _figures(setup: GeneratorSetup) -> list[Block]:
     d, f, k = setup.derating, setup.fuel, setup.check
+    shown = (
+        ("generator.derating.derated_kw", d.derated_kw),
+        ("generator.fuel_curve.no_load_l_h", f.no_load_l_h),
+        ("generator.fuel_curve.b_l_per_kwh", f.b_l_per_kwh),
+    )
     rows = (
-        ("Derated output", f"{d.derated_kw:.2f} kW", d.derated_kw),
-        ("No-load fuel", f"{f.no_load_l_h:.3f} L/h", f.no_load_l_h),
-        ("Marginal fuel", f"{f.b_l_per_kwh:.4f} L/kWh", f.b_l_per_kwh),
+        *((e.label, f"{v:.{e.digits}f} {e.unit}", v) for e, v in _entries(shown)),
         ("Starting need", f"{k.starting_need_w / 1000:.2f} kW", k.starting_need_w),
         ("Minimum loading", f"{k.min_load_w / 1000:.2f} kW", k.min_load_w),
     )
     how = (
-        f"Derated output: {d.rated_kw:g} kW x {d.factor:.3f} at {d.altitude_m:.0f} m and "
+        f"{figure_entry('generator.derating.derated_kw').label}: {d.rated_kw:g} kW x "
+        f"{d.factor:.3f} at {d.altitude_m:.0f} m and "
         f"{d.temp_c:.1f} C ({d.reason.source}).",
         f"Fuel line: fuel = {f.a_l_h_per_kw:.4f} x rating + {f.b_l_per_kwh:.4f} x output "
         f"L/h, R^2 {f.r_squared:.4f} ({f.reason.source}).",

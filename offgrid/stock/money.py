@@ -12,17 +12,24 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from offgrid.catalogue import input_entry
 from offgrid.numbers import NumberError, read_number
 from offgrid.safetext import printable
 
 Rates = dict[tuple[str, str], float]
-#: Largest exchange rate accepted (one unit of a currency in another), either way.
-MAX_RATE = 1e7
 
 
 def rate_problem(value: float) -> str | None:
-    if not 0 < value <= MAX_RATE:
-        return f"{value:g} is not a rate: one unit of 'from' in 'to', above 0 and at most 1e7"
+    """Why ``value`` is not an exchange rate, or None: above the catalogue's ``stock.rates``
+    low (0) and at most its high, the largest rate accepted either way (a rate of rates.csv
+    is held to the same)."""
+    spec = input_entry("stock.rates")
+    if not spec.low < value <= spec.high:
+        most = f"{spec.high:.0e}".replace("e+0", "e")
+        return (
+            f"{value:g} is not a rate: one unit of 'from' in 'to', above {spec.low:g} and at "
+            f"most {most}"
+        )
     return None
 
 

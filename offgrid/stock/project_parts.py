@@ -7,16 +7,16 @@ controller's battery voltages, price, currency, supplier: what the part tables h
 field for), and prices them in the project's ``[[prices]]`` in the project's currency.
 So a project file still stands alone and reopens on a machine without the catalogue.
 
-The project inputs this adds are declared once, in :data:`STOCK_INPUTS`; they live in the
+The project inputs this adds are the catalogue's ``stock.`` rows
+(:mod:`offgrid.catalogue.stock`: label, unit, range, allowed words, hint); they live in the
 ``[stock]`` table, which the store keeps verbatim (``Project.extra``).
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-from typing import Any
 
+from offgrid.catalogue import input_entry
 from offgrid.economics.prices import merge_prices
 from offgrid.project.model import PriceItem, Project
 from offgrid.stock.catalogue import StockPart
@@ -24,97 +24,10 @@ from offgrid.stock.choose import price_in
 from offgrid.stock.money import Rates
 
 STOCK_TABLE = "stock"
-MOUNTINGS = ("ground", "roof")
+DEFAULT_MOUNTING = "ground"
 #: Extra length of cable bought over the measured runs, % (common practice, no source:
 #: offcuts, bends and terminations; 10 % is a usual allowance).
 DEFAULT_CABLE_ALLOWANCE_PCT = 10.0
-
-
-@dataclass(frozen=True)
-class StockInput:
-    """Metadata of one project input of the ``[stock]`` table."""
-
-    path: str
-    label: str
-    unit: str
-    kind: str  # "text", "number", "choice", "table"
-    default: Any
-    help: str
-    low: float | None = None
-    high: float | None = None
-    choices: tuple[str, ...] = ()
-
-
-#: Every project input of the parts catalogue feature, in one place.
-STOCK_INPUTS: tuple[StockInput, ...] = (
-    StockInput(
-        "stock.mounting",
-        "Module mounting",
-        "",
-        "choice",
-        "ground",
-        "where the modules are mounted: ground frame or roof rails (sets the mounting "
-        "line of the bill of materials)",
-        choices=MOUNTINGS,
-    ),
-    StockInput(
-        "stock.cable_allowance_pct",
-        "Cable allowance",
-        "%",
-        "number",
-        DEFAULT_CABLE_ALLOWANCE_PCT,
-        "cable bought over the measured runs for offcuts and terminations (common "
-        "practice, no source)",
-        0.0,
-        100.0,
-    ),
-    StockInput(
-        "stock.rates",
-        "Exchange rates",
-        "project currency per unit",
-        "table",
-        {},
-        "one unit of a price list's currency in the project's currency (EUR = 1.08); "
-        "wins over the catalogue's rates.csv",
-        0.0,
-        1e7,
-    ),
-    StockInput(
-        "stock.module",
-        "Catalogue module",
-        "",
-        "table",
-        None,
-        "the whole catalogue row of the module taken (name, datasheet, price, currency, "
-        "supplier); written by `offgrid parts best --take`",
-    ),
-    StockInput(
-        "stock.battery",
-        "Catalogue battery unit",
-        "",
-        "table",
-        None,
-        "the whole catalogue row of the battery unit taken",
-    ),
-    StockInput(
-        "stock.controller",
-        "Catalogue controller",
-        "",
-        "table",
-        None,
-        "the whole catalogue row of the charge controller taken (with its battery voltages)",
-    ),
-    StockInput(
-        "stock.inverter",
-        "Catalogue inverter",
-        "",
-        "table",
-        None,
-        "the whole catalogue row of the inverter taken (continuous, surge, DC voltage, "
-        "charger current)",
-    ),
-)
-INPUT_OF = {i.path: i for i in STOCK_INPUTS}
 
 
 def stock_table(project: Project) -> dict:
@@ -123,14 +36,15 @@ def stock_table(project: Project) -> dict:
 
 
 def stock_problems(project: Project) -> list[str]:
-    """The ``[stock]`` table's values against :data:`STOCK_INPUTS`, with the fix."""
+    """The ``[stock]`` table's values against the catalogue's ``stock.`` rows, with the fix."""
     t = stock_table(project)
     out = []
     if STOCK_TABLE in project.extra and not isinstance(project.extra[STOCK_TABLE], dict):
         return ["stock: must be a table ([stock])"]
-    m = t.get("mounting", "ground")
-    if m not in MOUNTINGS:
-        out.append(f"stock.mounting: '{m}' is not one of: {', '.join(MOUNTINGS)}")
+    m = t.get("mounting", DEFAULT_MOUNTING)
+    values = input_entry("stock.mounting").values
+    if m not in values:
+        out.append(f"stock.mounting: '{m}' is not one of: {', '.join(values)}")
     inv = t.get("inverter")
     if inv is not None and stock_inverter(project) is None:
         out.append(
@@ -138,20 +52,24 @@ def stock_problems(project: Project) -> list[str]:
             "take the inverter again from the catalogue (`offgrid parts best --take`)"
         )
     a = t.get("cable_allowance_pct", DEFAULT_CABLE_ALLOWANCE_PCT)
-    spec = INPUT_OF["stock.cable_allowance_pct"]
+    spec = input_entry("stock.cable_allowance_pct")
     if isinstance(a, bool) or not isinstance(a, int | float) or not spec.low <= a <= spec.high:
-        out.append(f"stock.cable_allowance_pct: give a number from 0 to 100 (got {a!r})")
+        out.append(
+            f"stock.cable_allowance_pct: give a number from {spec.low:g} to {spec.high:g} "
+            f"(got {a!r}): {spec.hint}"
+        )
     return out
 
 
 def mounting(project: Project) -> str:
-    m = stock_table(project).get("mounting", "ground")
-    return m if m in MOUNTINGS else "ground"
+    m = stock_table(project).get("mounting", DEFAULT_MOUNTING)
+    return m if m in input_entry("stock.mounting").values else DEFAULT_MOUNTING
 
 
 def cable_allowance_pct(project: Project) -> float:
     a = stock_table(project).get("cable_allowance_pct", DEFAULT_CABLE_ALLOWANCE_PCT)
-    ok = isinstance(a, int | float) and not isinstance(a, bool) and 0 <= a <= 100
+    spec = input_entry("stock.cable_allowance_pct")
+    ok = isinstance(a, int | float) and not isinstance(a, bool) and spec.low <= a <= spec.high
     return float(a) if ok else DEFAULT_CABLE_ALLOWANCE_PCT
 
 

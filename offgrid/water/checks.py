@@ -1,12 +1,15 @@
-"""Checks of the ``[[water]]`` inputs: ranges from ``WATER_FIELDS`` and the pump table's
-shape; each problem names the field (``water[1].pump.flow_m3_h``) and the fix."""
+"""Checks of the ``[[water]]`` inputs: ranges and hints from the catalogue's ``water[].``
+rows (:mod:`offgrid.catalogue.water`) and the pump table's shape; each problem names the
+field (``water[1].pump.flow_m3_h``) and the fix."""
 
 from __future__ import annotations
 
 import math
 from itertools import pairwise
 
-from offgrid.water.fields import WATER_FIELDS
+from offgrid.catalogue import inputs_under
+
+ROW = "water[]."
 
 MAX_SUPPLIES = 20
 
@@ -23,11 +26,14 @@ def _finite(x) -> bool:
 
 def supply_problems(supply, where: str) -> list[tuple[str, str]]:
     out: list[tuple[str, str]] = []
-    for f in WATER_FIELDS:
-        value = _get(supply, f.path)
-        path = f"{where}.{f.path}"
+    for f in inputs_under(ROW):
+        if f.low is None or f.high is None:
+            continue  # text, choices (the loader) and the pump table (below)
+        field = f.path.removeprefix(ROW)
+        value = _get(supply, field)
+        path = f"{where}.{field}"
         values = value if isinstance(value, list) else [value]
-        if f.path == "need_m3_day" and len(values) != 12:
+        if field == "need_m3_day" and len(values) != 12:
             out.append((path, f"needs 12 monthly values, has {len(values)}; {f.hint}"))
             continue
         for v in values:

@@ -5,6 +5,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from offgrid.catalogue import FIGURES, figure_entry
 from offgrid.report.document import (
     Bullets,
     Cell,
@@ -19,19 +20,9 @@ from offgrid.report.document import (
 from offgrid.water.design import MONTHS, WaterDesign, water_design
 from offgrid.water.text import water_bom
 
-#: (figure, label, unit, digits) shown with their reasons
-FIGURES = (
-    ("total_dynamic_head_m", "Total dynamic head", "m", 1),
-    ("friction_m", "Pipe friction head", "m", 2),
-    ("minor_loss_m", "Fittings head", "m", 2),
-    ("velocity_m_s", "Pipe velocity at peak flow", "m/s", 2),
-    ("hydraulic_energy_kwh_day", "Hydraulic energy, limiting month", "kWh/day", 2),
-    ("pump_set_efficiency", "Pump set efficiency at noon", "", 2),
-    ("start_irradiance_w_m2", "Start-up irradiance", "W/m2", 0),
-    ("module_count", "Modules for the pump", "", 0),
-    ("pipe_suggested_mm", "Suggested pipe bore", "mm", 0),
-    ("tank_size_m3", "Tank size (each)", "m3", 0),
-)
+#: The figures shown with their reasons: the catalogue's ``water[].`` figure rows (label,
+#: unit, digits), in catalogue order.
+FIGURE_PATHS = tuple(e.path for e in FIGURES if e.path.startswith("water[]."))
 
 
 def _cell(value: float, unit: str, digits: int, path: str) -> Cell:
@@ -67,14 +58,15 @@ def _day_chart(w: WaterDesign, charts: bool = True) -> Chart:
 
 def water_section(w: WaterDesign, supply, key: str, charts: bool = True) -> Section:
     figs = []
-    for name, label, unit, digits in FIGURES:
-        path = f"water.{name}"
+    for e in map(figure_entry, FIGURE_PATHS):
+        name = e.path.removeprefix("water[].")
+        path = e.explained_by  # water.<figure>: its key in WaterDesign.reasons
         r = w.reasons.get(path)
         figs.append(
             FigureItem(
                 path,
-                label,
-                _cell(getattr(w, name), unit, digits, path),  # getattr: the name is data
+                e.label,
+                _cell(getattr(w, name), e.unit, e.digits, path),  # getattr: the name is data
                 r.formula if r else "",
                 r.inputs if r else (),
                 r.source if r else "",

@@ -6,6 +6,7 @@ from __future__ import annotations
 
 from typing import Any
 
+from offgrid.catalogue import figure_entry
 from offgrid.water.design import MONTHS, WaterDesign
 
 
@@ -52,9 +53,10 @@ def water_section(w: WaterDesign, supply, reliability: dict | None = None) -> di
 def water_lines(w: WaterDesign, supply, reliability: dict | None = None) -> list[str]:
     """The text summary of one supply (80 columns)."""
     lim = w.limiting_month - 1
+    tdh = figure_entry("water[].total_dynamic_head_m")
     out = [
         f"Water supply: {w.name}",
-        f"  Total dynamic head  {w.total_dynamic_head_m:6.1f} m",
+        f"  {tdh.label:<20}{w.total_dynamic_head_m:6.{tdh.digits}f} {tdh.unit}",
         f"    static {w.static_level_m:g} + drawdown {w.drawdown_m:.1f} + tank "
         f"{w.tank_height_m:g} + friction {w.friction_m:.1f} + fittings {w.minor_loss_m:.1f} m",
         f"  Peak flow           {w.peak_flow_m3_h:6.2f} m3/h (safe yield "
