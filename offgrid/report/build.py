@@ -1103,6 +1103,15 @@ def _bom(ri: ReportInputs, bom: tuple[BomLine, ...], cost: LifecycleCost) -> Sec
     blocks.append(
         Bullets(tuple(f"[{n}] {ln.key}: {ln.follows}" for n, ln in enumerate(bom, start=1)))
     )
+    apart = [str(n) for n, cl in enumerate(cost.lines, start=1) if cl.apart]
+    if apart:  # the generator's lines (issue 16)
+        blocks.append(
+            Paragraph(
+                f"Parts {', '.join(apart)} are the generator and what its cautions ask for: "
+                "priced here, but costed over the life (run-hour life, fuel, overhauls) in "
+                "the generator section, not in the capital below."
+            )
+        )
     if cost.missing:
         blocks.append(Bullets((cost.message(),), "warning"))
     elif cost.capital is not None:
@@ -1146,6 +1155,8 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
     rows = []
     lasting = []
     for n, cl in enumerate(cost.lines, start=1):
+        if cl.apart:  # a generator line: its life and replacements are the generator's
+            continue
         if not cl.replaced_at:
             lasting.append(f"{n}")
             continue
