@@ -61,7 +61,7 @@ def run(args: argparse.Namespace) -> int:
             '[variants.overrides] (for example "controller.type" = "pwm")',
             code=1,
         )
-    cmp = compare_variants(project, base)
+    cmp = compare_variants(project, base, with_generator=True)
     if args.json:
         print(json_text(comparison_dict(cmp)))
         return 0
