@@ -77,7 +77,7 @@ def test_quantities_worked_by_hand_from_the_lodge(lodge):
     y = np.array([0.9, 1.3, 1.75, 2.2])
     slope, icpt = np.polyfit(x, y, 1)  # numpy as the reference for the fit
     assert slope == pytest.approx(0.29, abs=1e-9)
-    litres, full = fuel_store_litres(p)
+    litres, full = fuel_store_litres(p) or (None, None)
     assert full == pytest.approx(icpt + slope * 6.0) == pytest.approx(2.19)
     assert litres == 55.0
     q = {ln.kind: ln for ln in gen_lines(bill_of_materials(p, d))}
@@ -98,6 +98,14 @@ def test_lpg_has_no_liquid_fuel_lines(lodge):
     kinds = {ln.kind for ln in bill_of_materials(lpg, d)}
     assert "spill-kit" not in kinds and "extinguisher" not in kinds
     assert "fuel-store" in kinds and "co-alarm" in kinds
+
+
+def test_an_unfitted_fuel_table_still_lists_the_store_unsized(lodge):
+    p, d = lodge
+    bad = copy.deepcopy(p)
+    bad.generator.fuel_l_h = [2.2]  # one value for four loads: validate refuses it too
+    store = next(ln for ln in bill_of_materials(bad, d) if ln.kind == "fuel-store")
+    assert store.key == "fuel-store:diesel" and "generator.fuel_l_h" in store.follows
 
 
 def test_solar_only_project_has_none(lodge):
@@ -164,3 +172,16 @@ def test_cli_bom_notes_unpriced_lines(capsys, tmp_path):
     out, err = capsys.readouterr()
     assert "co-alarm," in out
     assert "1 line(s) of the bill of materials without a price: co-alarm" in err
+
+
+def test_report_lists_them_and_says_where_they_are_costed(lodge):
+    from offgrid.report.build import build_report
+    from offgrid.report.text import render_text
+
+    p, d = lodge
+    text = render_text(build_report(p, d, with_charts=False, with_variants=False))
+    lines = bill_of_materials(p, d)
+    first = next(n for n, ln in enumerate(lines, start=1) if ln.kind in GENERATOR_KINDS)
+    assert f"Parts {first}, {first + 1}," in text
+    assert "costed over the life" in text
+    assert "Carbon monoxide alarm" in text

@@ -42,16 +42,44 @@ CO_ALARMS = 2  # the room beside the generator and the nearest sleeping room (co
 LIQUID_FUELS = ("diesel", "petrol")
 
 
-def fuel_store_litres(project: Project) -> tuple[float, float]:
-    """(store litres, full-load use L/h): a day at the rating from the fitted fuel line."""
-    from offgrid.generator.fuel import fit_fuel_curve
+def fuel_store_litres(project: Project) -> tuple[float, float] | None:
+    """(store litres, full-load use L/h): a day at the rating from the fitted fuel line;
+    None when the fuel table cannot be fitted (validate names the field)."""
+    from offgrid.generator.fuel import check_fuel_points, fit_fuel_curve
 
     g = project.generator
     assert g is not None
+    if check_fuel_points(g.fuel_load_pct, g.fuel_l_h):
+        return None
     f = fit_fuel_curve(g.rated_kw, g.fuel_load_pct, g.fuel_l_h)
     full = float(f.fuel_l_h(g.rated_kw))
     litres = math.ceil(full * FUEL_STORE_HOURS / FUEL_STORE_STEP_L - 1e-9) * FUEL_STORE_STEP_L
     return float(max(litres, FUEL_STORE_STEP_L)), full
+
+
+def _fuel_store_line(g, store: tuple[float, float] | None) -> BomLine:
+    kind = " (bunded tank or containers)" if g.fuel in LIQUID_FUELS else " (cylinders)"
+    if store is None:
+        return BomLine(
+            f"fuel-store:{g.fuel}",
+            f"Fuel store for {g.fuel}, approved and labelled{kind}",
+            1.0,
+            "each",
+            "fuel caution; no size: the fuel table (generator.fuel_l_h) cannot be fitted",
+            "caution:generator-fuel",
+        )
+    litres, full_l_h = store
+    return BomLine(
+        f"fuel-store:{litres:g} L {g.fuel}",
+        f"Fuel store for {g.fuel}, {litres:g} L, approved and labelled{kind}",
+        1.0,
+        "each",
+        f"fuel caution: {FUEL_STORE_HOURS:g} h at full rating x {full_l_h:.2f} L/h "
+        f"(the fitted fuel line at {g.rated_kw:g} kW) rounded up to "
+        f"{FUEL_STORE_STEP_L:g} L; {COMMON}; size it to the delivery interval from "
+        "the litres a year of offgrid generator",
+        "caution:generator-fuel",
+    )
 
 
 def generator_bom_lines(project: Project, design: SystemDesign) -> list[BomLine]:
@@ -61,7 +89,7 @@ def generator_bom_lines(project: Project, design: SystemDesign) -> list[BomLine]
         return []
     v = design.battery.system_voltage_v
     charger_in_kw = g.charger_kw / g.charger_efficiency
-    litres, full_l_h = fuel_store_litres(project)
+    store = fuel_store_litres(project)
     out = [
         BomLine(
             f"generator:{g.name}",
@@ -94,18 +122,7 @@ def generator_bom_lines(project: Project, design: SystemDesign) -> list[BomLine]
             "or the inverter's output",
             "caution:generator-changeover",
         ),
-        BomLine(
-            f"fuel-store:{litres:g} L {g.fuel}",
-            f"Fuel store for {g.fuel}, {litres:g} L, approved and labelled"
-            + (" (bunded tank or containers)" if g.fuel in LIQUID_FUELS else " (cylinders)"),
-            1.0,
-            "each",
-            f"fuel caution: {FUEL_STORE_HOURS:g} h at full rating x {full_l_h:.2f} L/h "
-            f"(the fitted fuel line at {g.rated_kw:g} kW) rounded up to "
-            f"{FUEL_STORE_STEP_L:g} L; {COMMON}; size it to the delivery interval from "
-            "the litres a year of offgrid generator",
-            "caution:generator-fuel",
-        ),
+        _fuel_store_line(g, store),
     ]
     if g.fuel in LIQUID_FUELS:
         out += [
