@@ -114,3 +114,21 @@ def test_cli_variants_shows_both(capsys, tmp_path):
     assert main(["variants", str(tmp_path / "lodge.toml")]) == 0
     out = capsys.readouterr().out
     assert "Generator fuel (L/yr)" in out and "Mix: lifecycle cost (EUR)" in out
+
+
+def test_simulated_report_reuses_its_study_for_the_base_column():
+    from offgrid.design.sizing import design
+    from offgrid.report.build import build_report
+
+    p = load_project(hybrid_demo_path())
+    p.variants = [Variant("Solar only", {"generator": False})]
+    base = hybrid_demo_path().parent
+    st = generator_study(p, base, years=YEARS)
+    rep = build_report(p, design(p, base), base=base, with_charts=False, generator=st)
+    sec = rep.section("variants")
+    assert sec is not None
+    table = sec.blocks[0]
+    rows = {r[0].text: r for r in table.rows}
+    fuel = rows["Generator fuel (L/yr)"]
+    assert fuel[1].value == pytest.approx(st.run.fuel_l_per_year)  # the report's own study
+    assert fuel[2].value == 0

@@ -59,6 +59,19 @@ def run_study(project: Project, base: Path | None):
     return generator_study(project, base)
 
 
+def study_like(project: Project, done) -> Callable[[Project, Path | None], Any]:
+    """A study function for :func:`compare_variants` that reuses ``done`` (the study of
+    ``project`` itself, e.g. the report's) and runs the others with its years and seed."""
+    from offgrid.generator.study import generator_study
+
+    def study(proj: Project, base: Path | None):
+        if proj is project:
+            return done
+        return generator_study(proj, base, years=done.years, seed=done.seed)
+
+    return study
+
+
 def _solar_mix_lcc(col) -> float | None:
     """Lifecycle cost of the solar-only column's array and battery, the mix's formula."""
     from offgrid.economics.bom import bill_of_materials

@@ -429,7 +429,13 @@ def build_report(
     if comparison is None and with_variants and project.variants:
         from offgrid.economics.variants import compare_variants
 
-        comparison = compare_variants(project, base)
+        if generator is None:
+            comparison = compare_variants(project, base)
+        else:  # simulated with a generator: the variants' hybrid rows too (issue 16)
+            from offgrid.economics.hybrid_variants import study_like
+
+            study = study_like(project, generator)
+            comparison = compare_variants(project, base, with_generator=True, study=study)
     tree = design.to_dict()
     bom = bill_of_materials(project, design)
     cost = lifecycle_cost(project, design, bom, reliability)
