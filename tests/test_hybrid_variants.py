@@ -74,6 +74,7 @@ def test_hybrid_column_is_the_study(lodge):
     # the cheapest hybrid burns some fuel and takes part of the energy from the sun
     assert st.run.fuel_l_per_year > 0 and 0 < st.run.solar_fraction < 1
     assert cmp.row("generator").texts == ("on", "off")
+    assert solo.overrides == (("generator", "off"),)
 
 
 def test_solar_column_costed_as_the_studys_solar_only_point(lodge):

@@ -35,7 +35,13 @@ def register(sub) -> None:
 def comparison_dict(cmp) -> dict:
     return {
         "columns": [
-            {"name": c.name, "note": c.note, "overrides": dict(c.overrides), "error": c.error}
+            {
+                "name": c.name,
+                "note": c.note,
+                "overrides": dict(c.overrides),
+                "error": c.error,
+                "hybrid_error": c.hybrid_error,
+            }
             for c in cmp.columns
         ],
         "rows": [

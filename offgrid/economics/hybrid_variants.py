@@ -45,6 +45,14 @@ def switch_generator(project: Project, value: Any, where: str):
     return project.generator
 
 
+def switch_text(value: Any) -> str:
+    """How an override of the switch reads: 'on', 'off', or the value as typed."""
+    key = value.strip().lower() if isinstance(value, str) else value
+    if isinstance(key, bool | str) and key in _ON:
+        return "on" if _ON[key] else "off"
+    return str(value)
+
+
 def shown_switch(project: Project | None) -> str | None:
     """The choices row of the switch: 'on' or 'off'."""
     if project is None:

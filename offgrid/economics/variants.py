@@ -279,12 +279,16 @@ def compare_variants(
     from offgrid.design.sizing import design as run_design
     from offgrid.economics.bom import bill_of_materials
     from offgrid.economics.costs import lifecycle_cost
+    from offgrid.economics.hybrid_variants import switch_text
 
     columns: list[VariantColumn] = []
     entries = [Variant(name="Base design", overrides={}, note="the project as saved")]
     entries += list(project.variants)
     for k, v in enumerate(entries):
-        shown = tuple((p, _show(val, None)) for p, val in flatten_overrides(v.overrides))
+        shown = tuple(
+            (p, _show(val, None) if p != "generator" else switch_text(val))
+            for p, val in flatten_overrides(v.overrides)
+        )
         try:
             proj = project if k == 0 else apply_variant(project, v)
         except ValueError as exc:
