@@ -84,3 +84,18 @@ def test_lines_carry_the_engine_figures_and_fit_the_dialog():
     assert f"solar fraction {st.run.solar_fraction:.1%}" in joined
     assert f"Cheapest mix: {st.mix.cheapest.array_w:.0f} W" in joined
     assert all(len(ln) <= 72 for ln in lines + more), max(lines + more, key=len)
+
+
+async def test_closing_before_the_study_ends_is_harmless(state):
+    app = make_app(hybrid_demo_path(), state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        open_generator(app.work)
+        await pilot.pause()
+        assert isinstance(app.screen, GeneratorDialog)
+        await pilot.press("escape")
+        await pilot.pause()
+        assert not isinstance(app.screen, GeneratorDialog)
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        assert app.is_running and not isinstance(app.screen, GeneratorDialog)
