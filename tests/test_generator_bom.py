@@ -185,3 +185,8 @@ def test_report_lists_them_and_says_where_they_are_costed(lodge):
     assert f"Parts {first}, {first + 1}," in text
     assert "costed over the life" in text
     assert "Carbon monoxide alarm" in text
+    assert "of the generator's lines have no price" not in text  # the lodge prices them all
+    bare = copy.deepcopy(p)
+    bare.prices = [it for it in bare.prices if it.part != "co-alarm"]
+    text = render_text(build_report(bare, d, with_charts=False, with_variants=False))
+    assert "1 of the generator's lines have no price: co-alarm" in text

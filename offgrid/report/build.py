@@ -1118,6 +1118,18 @@ def _bom(ri: ReportInputs, bom: tuple[BomLine, ...], cost: LifecycleCost) -> Sec
                 "the generator section, not in the capital below."
             )
         )
+        open_keys = [cl.key for cl in cost.lines if cl.apart and cl.unit_price is None]
+        if open_keys:
+            blocks.append(
+                Bullets(
+                    (
+                        f"{len(open_keys)} of the generator's lines have no price: "
+                        + ", ".join(open_keys)
+                        + ". Add them to the project's [[prices]] list.",
+                    ),
+                    "warning",
+                )
+            )
     if cost.missing:
         blocks.append(Bullets((cost.message(),), "warning"))
     elif cost.capital is not None:
