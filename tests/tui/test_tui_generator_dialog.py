@@ -15,6 +15,7 @@ from offgrid.project.store import load_project
 from offgrid.tui.app import make_app
 from offgrid.tui.screens.generator import (
     GeneratorDialog,
+    caution_lines,
     open_generator,
     setup_lines,
     study_lines,
@@ -48,10 +49,17 @@ async def test_palette_opens_the_dialog_and_the_study_fills_in(state):
         assert "Derated output" in text and "Fuel line" in text and "Check:" in text
         assert "Simulating" in text  # the study is still running in its worker
         await _wait_done(pilot, dialog)
-        dialog.query_one("#generator-body").scroll_end(animate=False)
+        study = str(dialog.query_one("#generator-study").content)
+        assert "run hours" in study and "L/yr" in study and "Cheapest mix" in study
+        dialog.query_one("#generator-body").scroll_to_widget(
+            dialog.query_one("#generator-study"), animate=False, top=True
+        )
         await pilot.pause()
         text = screen_text(app)
-        assert "run hours" in text and "L/yr" in text and "Cheapest mix" in text
+        assert "run hours" in text and "solar fraction" in text and "Cheapest mix" in text
+        dialog.query_one("#generator-body").scroll_end(animate=False)
+        await pilot.pause()
+        assert "qualified electrician" in screen_text(app)  # the cautions end the dialog
         await pilot.press("escape")
         await pilot.pause()
         assert not isinstance(app.screen, GeneratorDialog)
@@ -83,7 +91,9 @@ def test_lines_carry_the_engine_figures_and_fit_the_dialog():
     assert f"fuel {st.run.fuel_l_per_year:.0f} L/yr" in joined
     assert f"solar fraction {st.run.solar_fraction:.1%}" in joined
     assert f"Cheapest mix: {st.mix.cheapest.array_w:.0f} W" in joined
-    assert all(len(ln) <= 72 for ln in lines + more), max(lines + more, key=len)
+    tail = caution_lines(s)
+    assert any("carbon monoxide" in ln for ln in tail)
+    assert all(len(ln) <= 72 for ln in lines + more + tail), max(lines + more, key=len)
 
 
 async def test_closing_before_the_study_ends_is_harmless(state):

@@ -68,6 +68,17 @@ def setup_lines(setup) -> list[str]:
     return _fit(out)
 
 
+def caution_lines(setup) -> list[str]:
+    """The generator's cautions (CO, fuel, changeover, earthing, noise, local codes)."""
+    from offgrid.generator.cautions import generator_cautions
+    from offgrid.wording import confirm_words
+
+    out = ["", "Cautions"]
+    for c in generator_cautions(setup.spec):
+        out += _wrap("! " + confirm_words(c))
+    return out
+
+
 def study_lines(st) -> list[str]:
     """The simulated hybrid and the cheapest mix: engine figures as text, no Textual."""
     r, c = st.run, st.cost
@@ -105,6 +116,9 @@ def study_lines(st) -> list[str]:
             f"{ch.fuel_l_per_year:.0f} L/yr, solar {ch.solar_fraction:.0%}, "
             f"LCC {ch.lcc:,.0f} {cur} ({len(m.points)} mixes tried)"
         )
+    for n in m.notes:
+        if n.startswith("the solar-only design costs less"):
+            out += _wrap("Note: " + n)
     return _fit(out)
 
 
@@ -118,12 +132,16 @@ class GeneratorDialog(Dialog):
             super().__init__()
             self.lines = lines
 
-    def __init__(self, project, base: Path | None, lines: list[str]) -> None:
-        """``lines``: the setup's text (or why there is none); the study runs on a copy."""
+    def __init__(
+        self, project, base: Path | None, lines: list[str], tail: list[str] | None = None
+    ) -> None:
+        """``lines``: the setup's text; ``tail``: shown below the study (the cautions).
+        The study runs on a copy of ``project``."""
         super().__init__()
         self.project = copy.deepcopy(project)
         self.base = base
         self.lines = lines
+        self.tail = tail or []
         self.done = False
 
     def compose(self) -> ComposeResult:
@@ -135,6 +153,8 @@ class GeneratorDialog(Dialog):
                     Text("Simulating 20 years hour by hour ...", style="italic"),
                     id="generator-study",
                 )
+                if self.tail:
+                    yield Static(Text("\n".join(printable(ln) for ln in self.tail)))
             yield Static(Text("up/down: scroll   Enter or Esc: close", style="dim"))
 
     def on_mount(self) -> None:
@@ -175,9 +195,11 @@ def open_generator(screen) -> None:
         return
     try:
         d = session.design if session.design is not None else run_design(project, session.base_dir)
-        lines = setup_lines(generator_setup(project, d, session.base_dir))
+        setup = generator_setup(project, d, session.base_dir)
+        lines = setup_lines(setup)
+        tail = caution_lines(setup)
     except DesignError as exc:
         where = f"{exc.field}: " if exc.field else ""
         screen.app.notify(f"The generator cannot serve: {where}{exc}", severity="error")
         return
-    screen.app.push_screen(GeneratorDialog(project, session.base_dir, lines))
+    screen.app.push_screen(GeneratorDialog(project, session.base_dir, lines, tail))
