@@ -125,6 +125,10 @@ def test_priced_from_the_price_list_and_generator_price(lodge):
     co = got["co-alarm"]
     assert float(co["total (EUR)"]) == pytest.approx(2 * 35.0)
     assert unpriced_keys(p, d) == []
+    kit, missing = priced_bom_csv(p, d)  # the complete BOM says where the set's price is from
+    row = next(r for r in csv.reader(io.StringIO(kit)) if r[0].startswith("generator:"))
+    assert row[-1] == "generator.price" and float(row[-2]) == 4500.0
+    assert not [k for k in missing if k.split(":")[0] in GENERATOR_KINDS]
     # a price of the set in the list wins over generator.price
     listed = copy.deepcopy(p)
     from offgrid.project.model import PriceItem
