@@ -57,6 +57,11 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.report.export import bom_text
 
     text = bom_text(project, result)
+    from offgrid.economics.generator_bom import unpriced_note
+
+    note = unpriced_note(project, result)
+    if note:
+        print(f"offgrid: note: {note}", file=sys.stderr)
     if out is None:
         sys.stdout.write(text)
     else:

@@ -144,14 +144,16 @@ def run(args: argparse.Namespace) -> int:
         else:
             sys.stdout.write(text)
         return 0
+    from offgrid.economics.generator_bom import bom_prices
     from offgrid.report.document import Cell, Table
     from offgrid.report.text import render_table
 
     cur = project.economics.currency
     missing = []
     rows = []
+    table = bom_prices(project)  # the generator set: generator.price when not listed
     for ln in bom:
-        p = price_for(ln.key, project.prices)
+        p = price_for(ln.key, table)
         if p is None:
             missing.append(ln.key)
         rows.append(

@@ -35,7 +35,13 @@ def register(sub) -> None:
 def comparison_dict(cmp) -> dict:
     return {
         "columns": [
-            {"name": c.name, "note": c.note, "overrides": dict(c.overrides), "error": c.error}
+            {
+                "name": c.name,
+                "note": c.note,
+                "overrides": dict(c.overrides),
+                "error": c.error,
+                "hybrid_error": c.hybrid_error,
+            }
             for c in cmp.columns
         ],
         "rows": [
@@ -61,7 +67,7 @@ def run(args: argparse.Namespace) -> int:
             '[variants.overrides] (for example "controller.type" = "pwm")',
             code=1,
         )
-    cmp = compare_variants(project, base)
+    cmp = compare_variants(project, base, with_generator=True)
     if args.json:
         print(json_text(comparison_dict(cmp)))
         return 0

@@ -120,6 +120,10 @@ def bill_of_materials(project: Project, design: SystemDesign) -> tuple[BomLine, 
         )
     lines += _protection_lines(design)
     lines += _cable_lines(wires_of(design))
+    if project.generator is not None:  # the set, charger, changeover, fuel, exhaust, CO
+        from offgrid.economics.generator_bom import generator_bom_lines
+
+        lines += generator_bom_lines(project, design)
     if project.water:  # [[water]] supplies: pump, controller, drop cable, pipe, tank ...
         from offgrid.water.text import water_bom_lines
 

@@ -103,6 +103,7 @@ class CostLine:
     life_years: float
     replaced_at: tuple[float, ...]  # years
     replacement_pw: float | None  # present worth of its replacements
+    apart: bool = False  # a generator line: priced here, costed by the generator study
 
 
 @dataclass(frozen=True)
@@ -188,7 +189,11 @@ def lifecycle_cost(
     bom: tuple[BomLine, ...],
     reliability: SimulationReport | Reliability | None = None,
 ) -> LifecycleCost:
-    """Capital, replacements, upkeep and the lifecycle cost per kWh delivered."""
+    """Capital, replacements, upkeep and the lifecycle cost per kWh delivered.
+
+    The generator's lines (``generator_bom.GENERATOR_KINDS``) keep their line and price
+    but are left out of the sums and of ``missing``: the generator study costs them with
+    their run-hour life and the fuel."""
     e = project.economics
     d = e.discount_rate_pct / 100.0
     i = e.inflation_pct / 100.0
@@ -202,7 +207,20 @@ def lifecycle_cost(
     }
     lines: list[CostLine] = []
     missing: list[str] = []
+    from offgrid.economics.generator_bom import GENERATOR_KINDS, bom_prices
+
+    apart: set[str] = set()  # the generator's lines: costed by the generator study
     for ln in bom:
+        if ln.kind in GENERATOR_KINDS:
+            price = price_for(ln.key, bom_prices(project))
+            total = None if price is None else price * ln.quantity
+            lines.append(
+                CostLine(
+                    ln.key, ln.description, ln.quantity, ln.unit, price, total, 0.0, (), None, True
+                )
+            )
+            apart.add(ln.key)
+            continue
         price = price_for(ln.key, project.prices)
         life = float(lives.get(ln.kind, e.module_life_years))
         years = replacement_years(life, n)
@@ -273,7 +291,7 @@ def lifecycle_cost(
             served,
             reasons,
         )
-    parts = float(sum(ln.total or 0.0 for ln in lines))
+    parts = float(sum(ln.total or 0.0 for ln in lines if ln.key not in apart))
     install = parts * e.installation_pct / 100.0
     capital = parts + install
     upkeep = capital * e.om_pct_of_capital / 100.0

@@ -91,7 +91,13 @@ def apply_variant(project: Project, variant: Variant) -> Project:
     out = copy.deepcopy(project)
     out.variants = []
     for path, value in flatten_overrides(variant.overrides):
-        set_path(out, path, value, where=f"variant '{variant.name}': {path}")
+        where = f"variant '{variant.name}': {path}"
+        if path == "generator":  # generator = on/off (economics/hybrid_variants.py)
+            from offgrid.economics.hybrid_variants import switch_generator
+
+            out.generator = switch_generator(out, value, where)
+            continue
+        set_path(out, path, value, where=where)
     problems = validate_project(out)
     if problems:
         raise ValueError(f"variant '{variant.name}': " + "; ".join(str(p) for p in problems))
@@ -111,6 +117,8 @@ class VariantColumn:
     error: str | None  # why the variant could not be designed (or applied)
     cost: LifecycleCost | None = None
     reliability: Reliability | None = None  # the simulation's record, when it ran
+    hybrid: Any = None  # the generator study (GeneratorStudy) of a column with a generator
+    hybrid_error: str | None = None  # why that study could not run
 
 
 @dataclass(frozen=True)
@@ -235,22 +243,31 @@ def compare_variants(
     base: Path | None = None,
     simulate: Callable[[Project, SystemDesign], Any] | None = None,
     with_costs: bool = True,
+    with_generator: bool = False,
+    study: Callable[[Project, Path | None], Any] | None = None,
 ) -> VariantComparison:
     """Design the project and each of its variants; line up choices, figures, cost, reliability.
 
     ``simulate(project, design)``, when given, returns a reliability record (with ``lolp``
     and ``unmet_fraction`` as fractions) for each column.  A variant that cannot be applied
-    or designed keeps its column with the reason in ``error``.
+    or designed keeps its column with the reason in ``error``.  ``with_generator``: each
+    column with a generator runs its hybrid study (``study(project, base)``, by default
+    :func:`offgrid.economics.hybrid_variants.run_study`) and the "hybrid" rows set it
+    beside the solar-only columns (:mod:`offgrid.economics.hybrid_variants`).
     """
     from offgrid.design.sizing import design as run_design
     from offgrid.economics.bom import bill_of_materials
     from offgrid.economics.costs import lifecycle_cost
+    from offgrid.economics.hybrid_variants import switch_text
 
     columns: list[VariantColumn] = []
     entries = [Variant(name="Base design", overrides={}, note="the project as saved")]
     entries += list(project.variants)
     for k, v in enumerate(entries):
-        shown = tuple((p, _show(val, None)) for p, val in flatten_overrides(v.overrides))
+        shown = tuple(
+            (p, _show(val, None) if p != "generator" else switch_text(val))
+            for p, val in flatten_overrides(v.overrides)
+        )
         try:
             proj = project if k == 0 else apply_variant(project, v)
         except ValueError as exc:
@@ -265,7 +282,16 @@ def compare_variants(
             continue
         rel = simulate(proj, des) if simulate is not None else None
         cost = lifecycle_cost(proj, des, bill_of_materials(proj, des), rel) if with_costs else None
-        columns.append(VariantColumn(v.name, v.note, shown, proj, des, None, cost, rel))
+        hyb, hyb_err, note = None, None, v.note
+        if with_generator and proj.generator is not None:
+            from offgrid.economics.hybrid_variants import run_study
+
+            try:
+                hyb = (study or run_study)(proj, base)
+            except (DesignError, ValueError) as exc:
+                hyb_err = str(exc)
+                note = f"{note}; no hybrid study: {exc}".lstrip("; ")
+        columns.append(VariantColumn(v.name, note, shown, proj, des, None, cost, rel, hyb, hyb_err))
 
     rows: list[ComparisonRow] = []
     paths: list[str] = []
@@ -276,6 +302,11 @@ def compare_variants(
     for p in paths:
         vals = []
         for col in columns:
+            if p == "generator":  # the on/off switch, not the whole table
+                from offgrid.economics.hybrid_variants import shown_switch
+
+                vals.append(shown_switch(col.project))
+                continue
             try:
                 vals.append(_get_path(col.project, p) if col.project is not None else None)
             except ValueError:
@@ -304,6 +335,12 @@ def compare_variants(
                     [c.cost.battery_life_source for c in columns if c.cost is not None]
                 )
             rows.append(_row(label, unit, digits, vals, "cost"))
+    if with_generator and any(c.project is not None and c.project.generator for c in columns):
+        from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_values
+
+        for label, unit, digits, get in HYBRID_ROWS:
+            unit = project.economics.currency if unit == "money" else unit
+            rows.append(_row(label, unit, digits, hybrid_values(columns, get), "hybrid"))
     if simulate is not None:
         for label, unit, digits, attr in RELIABILITY_ROWS:
             vals = []

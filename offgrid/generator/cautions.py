@@ -25,6 +25,16 @@ CAUTIONS: tuple[str, ...] = (
     "practice: have the generator, its changeover and its earthing installed and "
     "inspected by a qualified electrician.",
 )
+#: One code per entry of CAUTIONS, in its order: what a bill-of-materials line that a
+#: caution asks for names (``figure = "caution:<code>"``).
+CAUTION_CODES: tuple[str, ...] = (
+    "generator-exhaust-co",
+    "generator-fuel",
+    "generator-changeover",
+    "generator-earthing",
+    "generator-noise",
+    "generator-codes",
+)
 LPG = (
     "LPG is heavier than air: store cylinders outdoors, upright, away from drains, pits "
     "and cellar openings where leaking gas collects."

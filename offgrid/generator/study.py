@@ -46,6 +46,7 @@ class GeneratorStudy:
     mix: MixTradeoff | None
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
+    chosen_battery_kwh: float | None = None  # nominal kWh of the simulated hybrid
 
     @property
     def notices(self) -> tuple[Notice, ...]:
@@ -215,6 +216,7 @@ def generator_study(
         mix=mix,
         notes=tuple(notes),
         cautions=generator_cautions(setup.spec),
+        chosen_battery_kwh=float(kwh),
     )
 
 

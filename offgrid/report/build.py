@@ -346,7 +346,13 @@ def build_report(
     if comparison is None and with_variants and project.variants:
         from offgrid.economics.variants import compare_variants
 
-        comparison = compare_variants(project, base)
+        if generator is None:
+            comparison = compare_variants(project, base)
+        else:  # simulated with a generator: the variants' hybrid rows too (issue 16)
+            from offgrid.economics.hybrid_variants import study_like
+
+            study = study_like(project, generator)
+            comparison = compare_variants(project, base, with_generator=True, study=study)
     tree = design.to_dict()
     bom = bill_of_materials(project, design)
     cost = lifecycle_cost(project, design, bom, reliability)
@@ -994,6 +1000,27 @@ def _bom(ri: ReportInputs, bom: tuple[BomLine, ...], cost: LifecycleCost) -> Sec
     blocks.append(
         Bullets(tuple(f"[{n}] {ln.key}: {ln.follows}" for n, ln in enumerate(bom, start=1)))
     )
+    apart = [str(n) for n, cl in enumerate(cost.lines, start=1) if cl.apart]
+    if apart:  # the generator's lines (issue 16)
+        blocks.append(
+            Paragraph(
+                f"Parts {', '.join(apart)} are the generator and what its cautions ask for: "
+                "priced here, but costed over the life (run-hour life, fuel, overhauls) in "
+                "the generator section, not in the capital below."
+            )
+        )
+        open_keys = [cl.key for cl in cost.lines if cl.apart and cl.unit_price is None]
+        if open_keys:
+            blocks.append(
+                Bullets(
+                    (
+                        f"{len(open_keys)} of the generator's lines have no price: "
+                        + ", ".join(open_keys)
+                        + ". Add them to the project's [[prices]] list.",
+                    ),
+                    "warning",
+                )
+            )
     if cost.missing:
         blocks.append(Bullets((cost.message(),), "warning"))
     elif cost.capital is not None:
@@ -1037,6 +1064,8 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
     rows = []
     lasting = []
     for n, cl in enumerate(cost.lines, start=1):
+        if cl.apart:  # a generator line: its life and replacements are the generator's
+            continue
         if not cl.replaced_at:
             lasting.append(f"{n}")
             continue

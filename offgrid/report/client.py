@@ -107,19 +107,25 @@ def client_summary_text(project: Project, design: SystemDesign) -> str:
             )
         )
     else:
+        from offgrid.economics.generator_bom import bom_prices
         from offgrid.economics.prices import price_for
 
-        so_far = sum(
-            (price_for(ln.key, project.prices) or 0.0) * ln.quantity
-            for ln in lines
-            if ln.key not in lc.missing
-        )
-        n_priced = len(lines) - len(lc.missing)
+        table = bom_prices(project)  # the generator set: generator.price when not listed
+        unpriced = [ln for ln in lines if price_for(ln.key, table) is None]
+        so_far = sum((price_for(ln.key, table) or 0.0) * ln.quantity for ln in lines)
+        n_priced = len(lines) - len(unpriced)
         out += _wrap(
-            f"Not yet fully priced: {len(lc.missing)} of {len(lines)} lines of the bill of "
+            f"Not yet fully priced: {len(unpriced)} of {len(lines)} lines of the bill of "
             f"materials have no price, so no total cost is given. The {n_priced} "
             f"priced lines come to {money(so_far, lc.currency)} (parts only, INCOMPLETE). "
             "`offgrid parts bom` lists the unpriced lines; price them with `offgrid prices`."
+        )
+    if project.generator is not None:  # issue 16: the generator's lines are costed apart
+        out += _wrap(
+            "The generator and what its cautions ask for (charger, changeover, fuel store, "
+            "exhaust, CO alarms) are in the bill of materials; their cost over the life, "
+            "with the fuel, is the generator study's (`offgrid generator`), not part of "
+            "the lifecycle cost of the solar parts."
         )
     out += ["", "Main cautions"]
     by_code = {x.code: x for x in design.electrical.cautions} if design.electrical else {}

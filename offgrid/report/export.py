@@ -169,12 +169,14 @@ def export_report(
 def bom_text(project: Project, design) -> str:
     """The bill of materials as CSV, priced where the price list has prices."""
     from offgrid.economics.bom import bill_of_materials, bom_csv
+    from offgrid.economics.generator_bom import bom_prices
     from offgrid.economics.prices import price_for
 
     lines = bill_of_materials(project, design)
+    table = bom_prices(project)
     prices = {}
     for ln in lines:
-        p = price_for(ln.key, project.prices)
+        p = price_for(ln.key, table)
         if p is not None:
             prices[ln.key] = p
     return bom_csv(lines, prices, project.economics.currency)

@@ -108,11 +108,16 @@ def priced_bom_csv(project: Project, design: SystemDesign, catalogue=None) -> tu
             ]
         )
     )
+    from offgrid.economics.generator_bom import bom_prices
+
+    table = bom_prices(project)
     total = 0.0
     missing: list[str] = []
     for ln in lines:
-        p = price_for(ln.key, project.prices)
+        p = price_for(ln.key, table)
         source = "project price list"
+        if p is not None and price_for(ln.key, project.prices) is None:
+            source = "generator.price"
         if p is None and ln.key in stock:
             p, name = stock[ln.key]
             source = f"catalogue: {name}"

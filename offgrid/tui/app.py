@@ -16,6 +16,7 @@ from textual.theme import Theme
 from offgrid.tui import messages
 from offgrid.tui.commands import KeyGroup, binding_commands, key_groups
 from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
+from offgrid.tui.screens.generator import open_generator
 from offgrid.tui.screens.help import HelpDialog
 from offgrid.tui.screens.recover import RecoverDialog
 from offgrid.tui.screens.start import StartScreen
@@ -802,6 +803,11 @@ class OffgridApp(App):
                 "Water pumping",
                 "The project's water supplies: head, array, tank, the day's flow",
                 screen.action_water,
+            )
+            yield SystemCommand(
+                "Generator beside the sun",
+                "Derated output, fuel line, check; run hours, litres and the cheapest mix",
+                lambda: open_generator(screen),
             )
         yield SystemCommand("New blank project", "Start from nothing", self.new_blank)
         yield SystemCommand(

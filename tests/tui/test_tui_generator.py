@@ -1,6 +1,7 @@
 """The text UI on the invented hybrid lodge: the generator's cautions are shown (issue 16).
 
-The generator's own figures and simulation are not in the text UI yet (offgrid generator).
+The generator's own figures and simulation are in a dialog from the command list
+(tests/tui/test_tui_generator_dialog.py).
 """
 
 from __future__ import annotations
