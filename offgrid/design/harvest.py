@@ -108,6 +108,7 @@ class HarvestInputs:
     charge_loop_ohm: float  # both conductors of one controller-to-battery run
 
 
+@memoised
 def harvest_wh_day(
     params: DiodeParams, irradiance_w_m2, step_h, ambient_c, noct_c: float, h: HarvestInputs
 ) -> tuple[np.ndarray, np.ndarray]:

@@ -23,9 +23,13 @@ Keys, by what each step reads (``design()`` in :mod:`offgrid.design.sizing`):
 - electrical steps before protection (fit, noon curve, string window and layout, cable
   runs, harvest comparison): the array step's key (its site, loads, inverter and array
   follow from it, the battery only through the efficiency and the two voltages in it);
-- protection schedule: that key and the bank's strings in parallel (the only battery
-  figure behind a refusal there: the battery string fuse; the unit's short-circuit value
-  is the project's).
+- protection schedule: run until it passes once for that key.  The battery enters a
+  refusal there only through the bank's strings in parallel n (the battery string fuse
+  at the terminals' current / n, refused above the largest fuse rating; the unit's
+  short-circuit value is the project's), and the battery disconnect then carries the
+  whole current with a breaker, whose ratings are among the fuse ratings: a schedule that
+  passed for one n passes for every n (n = 1: no string fuse), one refused is run again
+  for the next bank.
 
 The cautions and the charge-rate step never refuse and change no figure the search
 reads, so they are not run.  Only the figures the search reads are returned
@@ -92,6 +96,7 @@ class StepReuse:
         self._banks: dict = {}  # (battery, group, volts) -> bank step or refusal
         self._ends: dict = {}  # (array key, strings of the bank) -> last array step or refusal
         self._stores: dict[str, dict] = {}
+        self._protected: set = set()  # electrical keys whose protection schedule passed
 
     def _store(self, name: str) -> dict:
         return self._stores.setdefault(name, {})
@@ -191,10 +196,13 @@ class StepReuse:
                     bat.battery,
                     inv.inverter,
                     params,
-                    self._store("wires"),
+                    self,
+                    (m_name, arr_key[1], group, int(site2.design_month)),
                 ),
             )
-            _protection(p, front, bat.battery, inv.inverter)
+            if key not in self._protected:
+                _protection(p, front, bat.battery, inv.inverter)
+                self._protected.add(key)
             return front[2].harvest.shortfall_pct
 
         short = electrical(arr, 0)
@@ -285,9 +293,13 @@ def _cables(plan, wiring, choices, ambient_c: float, store: dict):
     return CableStep(tuple(wires), plan, ambient_c, {}, ())
 
 
-def _front(p: Project, site, lr, arr, battery, inverter, params, wire_store: dict):
+def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReuse, names: tuple):
     """The sub-steps of :func:`offgrid.design.electrical.electrical_design` before the
-    protection schedule, called as it calls them: (strings, cables, harvest step)."""
+    protection schedule, called as it calls them: (strings, cables, harvest step).
+
+    ``names``: (module, controller, inverter group, design month), what the module fit,
+    the noon curve and the string window read (the site follows from the group and the
+    design month; the string window reads the battery only through ``v_abs``)."""
     from offgrid.design.electrical import (
         _derate,
         compare_harvests,
@@ -303,19 +315,28 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, wire_store: dic
 
     module, wiring = p.module, p.wiring
     core = _Core(arr.array, arr.controller, battery, inverter, lr, site)
-    module_fit_step(module, params)
-    noon = noon_operating_point(module, params, site, site.albedo or p.site.albedo)
+    m_name, c_name, group, dm = names
+    _cached(reuse._store("module fit"), m_name, lambda: module_fit_step(module, params))
+    noon = _cached(
+        reuse._store("noon"),
+        (m_name, group, dm),
+        lambda: noon_operating_point(module, params, site, site.albedo or p.site.albedo),
+    )
     ctype = p.controller.type
     vsys = float(battery.system_voltage_v)
     v_abs = float(battery.absorption_voltage_v)
-    lim = string_limits(
-        module,
-        p.controller,
-        p.choices.drop_limit_array_pct,
-        noon.temp_day_c,
-        float(site.record_low_c),
-        v_abs,
-        params,
+    lim = _cached(
+        reuse._store("limits"),
+        (m_name, c_name, group, dm, v_abs),
+        lambda: string_limits(
+            module,
+            p.controller,
+            p.choices.drop_limit_array_pct,
+            noon.temp_day_c,
+            float(site.record_low_c),
+            v_abs,
+            params,
+        ),
     )
     controllers = max(1, int(arr.controller.count))
     lay = lay_out_strings(
@@ -337,7 +358,8 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, wire_store: dic
         wiring,
         p.choices,
     )
-    cables = _cables(plan, wiring, p.choices, wire_ambient_c(wiring, site.temp_day_c), wire_store)
+    ambient_c = wire_ambient_c(wiring, site.temp_day_c)
+    cables = _cables(plan, wiring, p.choices, ambient_c, reuse._store("wires"))
     crop = compare_harvests(
         params,
         module,
