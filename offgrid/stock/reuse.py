@@ -40,12 +40,30 @@ to the search by ``design()`` on a catalogue of varied and rejected parts.
 from __future__ import annotations
 
 import math
+from collections import defaultdict
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from typing import Any
 
 import numpy as np
 
+from offgrid.design import wiring as wr
+from offgrid.design.array_step import size_array
+from offgrid.design.battery_step import size_battery
+from offgrid.design.electrical import (
+    _derate,
+    compare_harvests,
+    lay_out_strings,
+    plan_runs,
+    protection_schedule,
+    string_limits,
+    wire_ambient_c,
+)
+from offgrid.design.electrical.cable_runs import CableStep
+from offgrid.design.electrical.operating_point import module_fit_step, noon_operating_point
+from offgrid.design.inverter_step import size_inverter
+from offgrid.design.loads import analyse_loads
+from offgrid.design.pv import fit_module
 from offgrid.design.result import (
     ArrayResult,
     BatteryResult,
@@ -53,6 +71,13 @@ from offgrid.design.result import (
     DesignError,
     InverterResult,
     LoadResult,
+)
+from offgrid.design.site_step import confirm_design_month, site_record, sun_on_plane
+from offgrid.design.sizing import (
+    HARVEST_SHORTFALL_TOLERANCE_PCT,
+    _check_climate,
+    _check_loads,
+    resolve_climate,
 )
 from offgrid.project.model import Project
 
@@ -95,11 +120,8 @@ class StepReuse:
         self._chains: dict = {}  # array key -> (arr, site, loads, inverter step) or refusal
         self._banks: dict = {}  # (battery, group, volts) -> bank step or refusal
         self._ends: dict = {}  # (array key, strings of the bank) -> last array step or refusal
-        self._stores: dict[str, dict] = {}
+        self.stores: defaultdict[str, dict] = defaultdict(dict)  # the other steps, by name
         self._protected: set = set()  # electrical keys whose protection schedule passed
-
-    def _store(self, name: str) -> dict:
-        return self._stores.setdefault(name, {})
 
     def design(
         self,
@@ -132,40 +154,39 @@ class StepReuse:
         last = _cached(
             self._ends,
             (arr_key, int(bat.battery.units_parallel)),
-            lambda: self._rounds(p(), arr_key, arr, site2, lr, bat, inv),
+            lambda: self._rounds(p, arr_key, arr, site2, lr, bat, inv),
         )
         return PartsDesign(lr, last.array, bat.battery, last.controller, inv.inverter)
 
     def _chain(self, p: Project, arr_key: tuple):
         """Loads, sun, site, module fit, the first array step, the design month and the
         inverter step: ``design()``'s steps that read no battery capacity."""
-        from offgrid.design.inverter_step import size_inverter
-        from offgrid.design.pv import fit_module
 
         m_name, _c, _b, group = arr_key
-        lr0, demand, site, t_low = _cached(self._store("site"), group, lambda: _site(p))
-        params = _cached(self._store("fit"), m_name, lambda: fit_module(p.module))
-        arr = self._array(p, arr_key, site, lr0, t_low, params, 0)
+        lr0, demand, site, t_low = _cached(self.stores["site"], group, lambda: _site(p))
+        params = _cached(self.stores["fit"], m_name, lambda: fit_module(p.module))
+        arr = self._array(lambda: p, arr_key, site, lr0, t_low, params, 0)
         dm = arr.design_month
         site2, lr = _month(site, lr0, demand, arr, dm)
         inv = _cached(
-            self._store("inverter"),
+            self.stores["inverter"],
             (group, dm, arr.system_voltage_v),
             lambda: size_inverter(p.inverter, lr, arr.system_voltage_v),
         )
         return arr, site2, lr, inv
 
-    def _array(self, p: Project, arr_key, site, lr0, t_low, params, min_modules: int):
-        from offgrid.design.array_step import size_array
+    def _array(
+        self, proj: Callable[[], Project], arr_key, site, lr0, t_low, params, min_modules: int
+    ):
 
         return _cached(
-            self._store("array"),
+            self.stores["array"],
             (*arr_key, min_modules),
             lambda: size_array(
-                p.module,
-                p.controller,
-                p.battery,
-                p.choices,
+                proj().module,
+                proj().controller,
+                proj().battery,
+                proj().choices,
                 site,
                 lr0,
                 t_low,
@@ -174,22 +195,22 @@ class StepReuse:
             ),
         )
 
-    def _rounds(self, p: Project, arr_key, arr, site2, lr, bat, inv):
+    def _rounds(self, proj: Callable[[], Project], arr_key, arr, site2, lr, bat, inv):
         """``design()``'s electrical rounds: modules added until the I-V harvest through
-        the controller covers the demand; the last array step."""
-        from offgrid.design.sizing import HARVEST_SHORTFALL_TOLERANCE_PCT
+        the controller covers the demand; the last array step.  ``proj``: the combination's
+        project, built only if a step of the rounds is first met here."""
 
         m_name, _c, _b, group = arr_key
-        lr0, _demand, _site, t_low = _cached(self._store("site"), group, lambda: _site(p))
-        params = _cached(self._store("fit"), m_name, lambda: fit_module_of(p))
+        lr0, _demand, _site, t_low = _cached(self.stores["site"], group, lambda: _site(proj()))
+        params = _cached(self.stores["fit"], m_name, lambda: fit_module_of(proj()))
 
         def electrical(array_step, min_modules: int) -> float:
             key = (*arr_key, min_modules)
             front = _cached(
-                self._store("front"),
+                self.stores["front"],
                 key,
                 lambda: _front(
-                    p,
+                    proj(),
                     site2,
                     lr,
                     array_step,
@@ -201,7 +222,7 @@ class StepReuse:
                 ),
             )
             if key not in self._protected:
-                _protection(p, front, bat.battery, inv.inverter)
+                _protection(proj(), front, bat.battery, inv.inverter)
                 self._protected.add(key)
             return front[2].harvest.shortfall_pct
 
@@ -212,19 +233,16 @@ class StepReuse:
             n = arr.array.module_count
             need = max(n + 1, math.ceil(n / (1.0 - short / 100.0) - 1e-9))
             # the later rounds see the design month's site, as in sizing.design
-            arr = self._array(p, arr_key, site2, lr0, t_low, params, need)
+            arr = self._array(proj, arr_key, site2, lr0, t_low, params, need)
             short = electrical(arr, need)
         return arr
 
 
 def fit_module_of(p: Project):
-    from offgrid.design.pv import fit_module
-
     return fit_module(p.module)
 
 
 def _bank(p: Project, lr, arr, site2):
-    from offgrid.design.battery_step import size_battery
 
     return size_battery(
         p.battery,
@@ -240,9 +258,6 @@ def _bank(p: Project, lr, arr, site2):
 
 def _site(p: Project):
     """Loads, sun on the plane and the site record: ``design()``'s first steps."""
-    from offgrid.design.loads import analyse_loads
-    from offgrid.design.site_step import site_record, sun_on_plane
-    from offgrid.design.sizing import _check_climate, _check_loads, resolve_climate
 
     climate = resolve_climate(p)
     _check_climate(climate)
@@ -256,7 +271,6 @@ def _site(p: Project):
 
 
 def _month(site, lr0, demand, arr, dm: int):
-    from offgrid.design.site_step import confirm_design_month
 
     site2 = replace(site, design_month=dm + 1)
     lr = replace(lr0, design_daily_energy_wh=float(demand[dm]))
@@ -268,8 +282,6 @@ def _cables(plan, wiring, choices, ambient_c: float, store: dict):
     """:func:`offgrid.design.electrical.cable_runs.size_cables` without the wires' reasons
     and notices (the search reads neither): the same conductors and refusals, in the same
     order, each run (the PV runs in series together) sized once per search."""
-    from offgrid.design import wiring as wr
-    from offgrid.design.electrical.cable_runs import CableStep
 
     cable = (
         wiring.units,
@@ -300,25 +312,13 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReus
     ``names``: (module, controller, inverter group, design month), what the module fit,
     the noon curve and the string window read (the site follows from the group and the
     design month; the string window reads the battery only through ``v_abs``)."""
-    from offgrid.design.electrical import (
-        _derate,
-        compare_harvests,
-        lay_out_strings,
-        plan_runs,
-        string_limits,
-        wire_ambient_c,
-    )
-    from offgrid.design.electrical.operating_point import (
-        module_fit_step,
-        noon_operating_point,
-    )
 
     module, wiring = p.module, p.wiring
     core = _Core(arr.array, arr.controller, battery, inverter, lr, site)
     m_name, c_name, group, dm = names
-    _cached(reuse._store("module fit"), m_name, lambda: module_fit_step(module, params))
+    _cached(reuse.stores["module fit"], m_name, lambda: module_fit_step(module, params))
     noon = _cached(
-        reuse._store("noon"),
+        reuse.stores["noon"],
         (m_name, group, dm),
         lambda: noon_operating_point(module, params, site, site.albedo or p.site.albedo),
     )
@@ -326,7 +326,7 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReus
     vsys = float(battery.system_voltage_v)
     v_abs = float(battery.absorption_voltage_v)
     lim = _cached(
-        reuse._store("limits"),
+        reuse.stores["limits"],
         (m_name, c_name, group, dm, v_abs),
         lambda: string_limits(
             module,
@@ -359,7 +359,7 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReus
         p.choices,
     )
     ambient_c = wire_ambient_c(wiring, site.temp_day_c)
-    cables = _cables(plan, wiring, p.choices, ambient_c, reuse._store("wires"))
+    cables = _cables(plan, wiring, p.choices, ambient_c, reuse.stores["wires"])
     crop = compare_harvests(
         params,
         module,
@@ -385,7 +385,6 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReus
 
 
 def _protection(p: Project, front, battery, inverter) -> None:
-    from offgrid.design.electrical import protection_schedule
 
     strings, cables, _crop, controllers = front
     protection_schedule(
