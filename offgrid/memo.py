@@ -2,8 +2,9 @@
 
 Planning designs thousands of rows on one site with one set of parts: the module fit,
 the module's maximum power points over the mean days of the months (the I-V harvest),
-the monthly plane-of-array transposition and the mean-day irradiance profile are the
-same for every row.  Inside ``with design_memo():`` the functions decorated with
+the monthly plane-of-array transposition, the mean-day irradiance profile and a
+layout's daily harvest through the controller (``harvest_wh_day``) are the same for
+every row.  Inside ``with design_memo():`` the functions decorated with
 :func:`memoised` keep their results, keyed by their exact inputs (arrays by their bytes);
 outside it they run as before.  The caches are per process and cleared when the last
 ``with`` block ends, so a single design never sees stale values.

@@ -15,6 +15,13 @@ An inverter enters the design only through its efficiency and idle draw, so inve
 with the same two values share one design (the result is the same as designing each
 combination, which ``tests/test_stock_choose.py`` checks against a brute-force search).
 
+The steps of the design are shared across the combinations (:mod:`offgrid.stock.reuse`):
+the loads, the sun and the site once per inverter group, the array step per module x
+controller x what it reads of the battery, the bank step per battery unit, the electrical
+steps per array step; a step that refuses is not run again for the combinations that
+reach it with the same inputs (``tests/test_stock_reuse.py`` holds it to the search by
+``sizing.design``, ``reuse=False``).
+
 Combinations are ranked by capital (the main parts at catalogue prices in the project's
 currency, plus the installation share) and by lifecycle cost
 (:func:`offgrid.economics.costs.lifecycle_cost`).  A combination with a part that has no
