@@ -149,7 +149,7 @@ class StepReuse:
         bat = _cached(
             self._banks,
             (b_name, group, arr.system_voltage_v, arr.absorption_voltage_v),
-            lambda: _bank(p(), lr, arr, site2),
+            lambda: _figures_only(_bank(p(), lr, arr, site2)),
         )
         last = _cached(
             self._ends,
@@ -182,16 +182,18 @@ class StepReuse:
         return _cached(
             self.stores["array"],
             (*arr_key, min_modules),
-            lambda: size_array(
-                proj().module,
-                proj().controller,
-                proj().battery,
-                proj().choices,
-                site,
-                lr0,
-                t_low,
-                params,
-                min_modules=min_modules,
+            lambda: _figures_only(
+                size_array(
+                    proj().module,
+                    proj().controller,
+                    proj().battery,
+                    proj().choices,
+                    site,
+                    lr0,
+                    t_low,
+                    params,
+                    min_modules=min_modules,
+                )
             ),
         )
 
@@ -224,7 +226,7 @@ class StepReuse:
             if key not in self._protected:
                 _protection(proj(), front, bat.battery, inv.inverter)
                 self._protected.add(key)
-            return front[2].harvest.shortfall_pct
+            return front[2]
 
         short = electrical(arr, 0)
         for _ in range(4):  # as sizing.design: add modules until the harvest covers
@@ -236,6 +238,12 @@ class StepReuse:
             arr = self._array(proj, arr_key, site2, lr0, t_low, params, need)
             short = electrical(arr, need)
         return arr
+
+
+def _figures_only(step):
+    """A step's record without its reasons and notices (the search reads neither; kept
+    for thousands of steps they would hold most of the search's memory)."""
+    return replace(step, reasons={}, notices=())
 
 
 def fit_module_of(p: Project):
@@ -307,7 +315,8 @@ def _cables(plan, wiring, choices, ambient_c: float, store: dict):
 
 def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReuse, names: tuple):
     """The sub-steps of :func:`offgrid.design.electrical.electrical_design` before the
-    protection schedule, called as it calls them: (strings, cables, harvest step).
+    protection schedule, called as it calls them: (strings, cables, the harvest's
+    shortfall [%], controllers).
 
     ``names``: (module, controller, inverter group, design month), what the module fit,
     the noon curve and the string window read (the site follows from the group and the
@@ -381,12 +390,12 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReus
         daily_energy_wh=lr.daily_energy_wh,
         battery_efficiency=float(p.battery.efficiency),
     )
-    return lay.strings, cables, crop, controllers
+    return lay.strings, cables, float(crop.harvest.shortfall_pct), controllers
 
 
 def _protection(p: Project, front, battery, inverter) -> None:
 
-    strings, cables, _crop, controllers = front
+    strings, cables, _short, controllers = front
     protection_schedule(
         cables,
         strings,
