@@ -31,10 +31,10 @@ Keys, by what each step reads (``design()`` in :mod:`offgrid.design.sizing`):
   passed for one n passes for every n (n = 1: no string fuse), one refused is run again
   for the next bank.
 
-The cautions and the charge-rate step never refuse and change no figure the search
-reads, so they are not run.  Only the figures the search reads are returned
-(:class:`PartsDesign`); ``tests/test_stock_reuse.py`` holds the search with this reuse
-to the search by ``design()`` on a catalogue of varied and rejected parts.
+The design month's confirmation, the cautions and the charge-rate step never refuse and
+change no figure the search reads, so they are not run.  Only the figures the search
+reads are returned (:class:`PartsDesign`); ``tests/test_stock_reuse.py`` holds the search
+with this reuse to the search by ``design()`` on a catalogue of varied and rejected parts.
 """
 
 from __future__ import annotations
@@ -72,7 +72,7 @@ from offgrid.design.result import (
     InverterResult,
     LoadResult,
 )
-from offgrid.design.site_step import confirm_design_month, site_record, sun_on_plane
+from offgrid.design.site_step import site_record, sun_on_plane
 from offgrid.design.sizing import (
     HARVEST_SHORTFALL_TOLERANCE_PCT,
     _check_climate,
@@ -279,10 +279,11 @@ def _site(p: Project):
 
 
 def _month(site, lr0, demand, arr, dm: int):
-
+    """The site and loads at the array step's design month, as ``design()`` sets them
+    (``confirm_design_month`` only gives that month's reasons and the low-sun warning,
+    never refuses: not run)."""
     site2 = replace(site, design_month=dm + 1)
     lr = replace(lr0, design_daily_energy_wh=float(demand[dm]))
-    confirm_design_month(site2, arr.array.supply_wh_day, demand, dm)
     return site2, lr
 
 
