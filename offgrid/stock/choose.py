@@ -15,6 +15,13 @@ An inverter enters the design only through its efficiency and idle draw, so inve
 with the same two values share one design (the result is the same as designing each
 combination, which ``tests/test_stock_choose.py`` checks against a brute-force search).
 
+The steps of the design are shared across the combinations (:mod:`offgrid.stock.reuse`):
+the loads, the sun and the site once per inverter group, the array step per module x
+controller x what it reads of the battery, the bank step per battery unit, the electrical
+steps per array step; a step that refuses is not run again for the combinations that
+reach it with the same inputs (``tests/test_stock_reuse.py`` holds it to the search by
+``sizing.design``, ``reuse=False``).
+
 Combinations are ranked by capital (the main parts at catalogue prices in the project's
 currency, plus the installation share) and by lifecycle cost
 (:func:`offgrid.economics.costs.lifecycle_cost`).  A combination with a part that has no
@@ -266,16 +273,41 @@ def _pool_context():
     return None
 
 
+_WORKER_REUSE: dict[str, object] = {}  # in a worker process: the search's token -> StepReuse
+
+
 def _chunk_in_worker(chunk: tuple):
     from offgrid.memo import design_memo
+    from offgrid.stock.reuse import StepReuse
 
+    *args, token = chunk
+    reuse = None
+    if token:
+        if token not in _WORKER_REUSE:
+            _WORKER_REUSE.clear()  # one search's steps at a time
+            _WORKER_REUSE[token] = StepReuse()
+        reuse = _WORKER_REUSE[token]
     with design_memo():
-        return _search_chunk(*chunk)
+        return _search_chunk(*args, reuse=reuse)
 
 
-def _search_chunk(project, v, m, bats, ctrls, groups, base, rate_sets, keep: int = 2000):
+def _group_key(inverter: StockPart | None, system_voltage_v: int) -> tuple:
+    """What the loads read of the inverter (efficiency, idle draw), and the system voltage."""
+    if inverter is None:
+        return ("project inverter", system_voltage_v)
+    s = inverter.spec
+    return (float(s["efficiency"]), float(s["self_consumption_w"]), system_voltage_v)
+
+
+def _search_chunk(
+    project, v, m, bats, ctrls, groups, base, rate_sets, keep: int = 2000, reuse=None
+):
     """One module at one system voltage against every battery, controller and inverter:
-    (feasible, rejections, reasons, tried, designs run)."""
+    (feasible, rejections, reasons, tried, designs run).
+
+    ``reuse``: a :class:`~offgrid.stock.reuse.StepReuse` shared by the search's chunks
+    (the same figures and refusals as ``sizing.design``, each step once per distinct
+    input), or None: every combination designed by ``sizing.design``."""
     from offgrid.design.sizing import design
 
     feasible: list[Combination] = []
@@ -283,6 +315,11 @@ def _search_chunk(project, v, m, bats, ctrls, groups, base, rate_sets, keep: int
     reasons: Counter[str] = Counter()
     tried = runs = 0
     factors: dict = {}  # (kind, chemistry) -> capital and lifecycle cost of a total of 1
+    cost_projects: dict[str, Project] = {}
+    bat_keys = {
+        b.name: (b.spec["efficiency"], b.spec["chemistry"], b.spec["nominal_voltage_v"])
+        for b in bats
+    }
 
     def reject(names: tuple, code: str, why: str) -> None:
         reasons[code] += 1
@@ -302,10 +339,23 @@ def _search_chunk(project, v, m, bats, ctrls, groups, base, rate_sets, keep: int
                     members.append(inv)
             if not members:
                 continue
-            trial = with_parts(project, m, b, c, members[0])
             runs += 1
             try:
-                d = design(trial, base)
+                if reuse is None:
+                    trial = with_parts(project, m, b, c, members[0])
+                    d = design(trial, base)
+                else:
+                    # the costs read of the project only its economics and the battery's
+                    # chemistry: one copy per battery unit serves them
+                    if b.name not in cost_projects:
+                        cost_projects[b.name] = with_parts(project, m, b, c, members[0])
+                    trial = cost_projects[b.name]
+                    d = reuse.design(
+                        lambda b=b, c=c, i=members[0]: with_parts(project, m, b, c, i),
+                        (m.name, b.name, c.name),
+                        _group_key(members[0], v),
+                        bat_keys[b.name],
+                    )
                 error = None
             except DesignError as exc:
                 error = exc
@@ -343,12 +393,16 @@ def search(
     base: Path | None = None,
     keep_rejected: int = 2000,
     jobs: int = 1,
+    reuse: bool = True,
 ) -> SearchResult:
     """Every combination of the catalogue's main parts, designed, checked and ranked.
 
     ``jobs`` > 1 shares the modules out between that many worker processes (fork only;
-    the result is the same).  Raises :class:`~offgrid.design.result.DesignError` when the
-    project's climate cannot be read (no combination could be designed)."""
+    the result is the same).  ``reuse``: the design steps shared across the combinations
+    (:mod:`offgrid.stock.reuse`; False designs each by ``sizing.design``, the same
+    result, about 20 times slower on a large catalogue).  Raises
+    :class:`~offgrid.design.result.DesignError` when the project's climate cannot be
+    read (no combination could be designed)."""
     from offgrid.design.sizing import resolve_climate
     from offgrid.memo import design_memo
     from offgrid.project.model import ClimateChoice
@@ -386,13 +440,18 @@ def search(
     ]
     context = _pool_context() if jobs > 1 and len(chunks) > 1 else None
     if context is None:
+        from offgrid.stock.reuse import StepReuse
+
+        shared = StepReuse() if reuse else None
         with design_memo():
-            done = [_search_chunk(*c) for c in chunks]
+            done = [_search_chunk(*c, reuse=shared) for c in chunks]
     else:
+        import uuid
         from concurrent.futures import ProcessPoolExecutor
 
+        token = uuid.uuid4().hex if reuse else ""
         with ProcessPoolExecutor(max_workers=jobs, mp_context=context) as pool:
-            done = list(pool.map(_chunk_in_worker, chunks))
+            done = list(pool.map(_chunk_in_worker, [(*c, token) for c in chunks]))
     feasible: list[Combination] = []
     rejected: list[Rejection] = []
     reasons: Counter[str] = Counter()
