@@ -106,3 +106,27 @@ def test_water_report_html_has_the_day_chart(tmp_path):
 
     html = render_html(water_report(load_project(demo_water_path())))
     assert html.count("<svg") == 1 and "flow (m3/h)" in html
+
+
+def test_size_of_a_water_only_project_shows_the_supply_not_a_refusal(capsys):
+    # the bundled demo water point has no loads: `offgrid size` says there is no battery
+    # system and shows the supply (it refused with "the load list is empty" before)
+    assert main(["size", str(demo_water_path())]) == 0
+    out = capsys.readouterr().out
+    assert "no battery system designed" in out and "Total dynamic head" in out
+    assert main(["size", str(demo_water_path()), "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["power"] is None and "load list is empty" in data["power_note"]
+    assert data["water"][0]["total_dynamic_head_m"] > 0
+
+
+def test_size_without_loads_or_water_still_refuses(capsys, tmp_path):
+    from offgrid.project.store import load_project, save_project
+
+    project = load_project(demo_project_path())
+    project.loads = []
+    path = tmp_path / "empty.toml"
+    save_project(project, path)
+    with pytest.raises(SystemExit) as exc:
+        main(["size", str(path)])
+    assert exc.value.code == 3 and "load list is empty" in capsys.readouterr().err

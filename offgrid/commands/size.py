@@ -155,6 +155,8 @@ def run(args: argparse.Namespace) -> int:
     try:
         result = design(project, base)
     except DesignError as exc:
+        if exc.code == "no-loads" and project.water:
+            return _water_only(args, project, base, exc)
         design_failed(exc)
     water = _water_parts(project, base)  # [[water]] supplies: (JSON sections, text lines)
     if args.json:
@@ -176,6 +178,23 @@ def run(args: argparse.Namespace) -> int:
             print("\n".join(size_lines(project, result, base)))
         if water is not None:
             print("\n".join(water[1]))
+    return 0
+
+
+def _water_only(args: argparse.Namespace, project, base, exc) -> int:
+    """A project that only pumps water (no loads): its supplies, and why there is no
+    battery system, instead of a refusal."""
+    water = _water_parts(project, base)
+    assert water is not None
+    why = (
+        "no battery system designed (the load list is empty); each water supply below "
+        "runs from its own array. Add appliances to size a battery system too"
+    )
+    if args.json:
+        print(json_text({"power": None, "power_note": why, "water": water[0]}))
+    else:
+        print(f"{project.info.name or 'Project'}: {why}")
+        print("\n".join(water[1]))
     return 0
 
 

@@ -115,6 +115,8 @@ class Headline(Static):
             text = Text(no_wrap=False, overflow="ellipsis")
             text.append("\u2717 No design: ", style="bold")
             text.append(printable(out.error or "not computed yet"))
+            if session.project.water and not session.project.loads:
+                text.append(" \u00b7 the water supplies are designed under Water pumping (^p)")
             self._line = None
             self.update(text)
             return
