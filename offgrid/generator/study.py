@@ -24,6 +24,13 @@ from offgrid.project.model import Project
 DEFAULT_YEARS = 20
 
 
+#: how the text names a derating method (the file's words are ``generator.derate_method``)
+_METHOD_WORDS = {
+    "common_practice": "straight-line derate (common practice)",
+    "iso3046": "ISO 3046-1 power adjustment",
+}
+
+
 def hybrid_demo_path() -> Path:
     """The bundled invented hybrid lodge (a demonstration scenario of our own)."""
     from offgrid.paths import demo_project_path
@@ -232,9 +239,10 @@ def summary_text(st: GeneratorStudy) -> str:
     out = [head, "=" * min(80, len(head))]
     out += _wrap(f"Generator: {s.spec.name}, {s.spec.fuel}, {s.spec.rated_kw:g} kW rated")
     d = s.derating
-    out.append(
+    out += _wrap(
         f"  derated {d.derated_kw:.2f} kW (x {d.factor:.3f}) at {d.altitude_m:.0f} m, "
-        f"{d.temp_c:.1f} C; {d.method}"
+        f"{d.temp_c:.1f} C; {_METHOD_WORDS.get(d.method, d.method)}",
+        "    ",
     )
     out += _wrap("  " + d.reason.source, "    ")
     f = s.fuel
