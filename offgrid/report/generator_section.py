@@ -42,23 +42,24 @@ def _figures(setup: GeneratorSetup) -> list[Block]:
         ("generator.derating.derated_kw", d.derated_kw),
         ("generator.fuel_curve.no_load_l_h", f.no_load_l_h),
         ("generator.fuel_curve.b_l_per_kwh", f.b_l_per_kwh),
+        ("generator.check.starting_need_w", k.starting_need_w),
+        ("generator.check.min_load_w", k.min_load_w),
     )
-    rows = (
-        *((e.label, f"{v:.{e.digits}f} {e.unit}", v) for e, v in _entries(shown)),
-        ("Starting need", f"{k.starting_need_w / 1000:.2f} kW", k.starting_need_w),
-        ("Minimum loading", f"{k.min_load_w / 1000:.2f} kW", k.min_load_w),
-    )
+    # label, value in the catalogue's unit (scaled: W shown in kW), the stored value
+    rows = tuple((e.label, e.text(v), v) for e, v in _entries(shown))
     how = (
         f"{figure_entry('generator.derating.derated_kw').label}: {d.rated_kw:g} kW x "
         f"{d.factor:.3f} at {d.altitude_m:.0f} m and "
         f"{d.temp_c:.1f} C ({d.reason.source}).",
         f"Fuel line: fuel = {f.a_l_h_per_kw:.4f} x rating + {f.b_l_per_kwh:.4f} x output "
         f"L/h, R^2 {f.r_squared:.4f} ({f.reason.source}).",
-        f"Starting need: the largest start with the loads beside it + the charger's input "
+        f"{figure_entry('generator.check.starting_need_w').label}: the largest start with "
+        "the loads beside it + the charger's input "
         f"{k.charger_input_w / 1000:.2f} kW, within the derated output: "
         + ("yes" if k.ok else "no")
         + f" ({k.reason.source}).",
-        f"Minimum loading: {setup.spec.min_load_fraction:.0%} of the derated output, against "
+        f"{figure_entry('generator.check.min_load_w').label}: "
+        f"{setup.spec.min_load_fraction:.0%} of the derated output, against "
         "wet stacking; below it a dump load takes the rest (common practice, no source).",
     )
     return [
