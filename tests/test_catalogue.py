@@ -573,3 +573,30 @@ def test_every_view_takes_the_reliability_and_cost_rows_from_the_catalogue(
     assert rows["reliability.lolp"].values[0] == pytest.approx(rel.lolp * 1000)
     assert (rows["costs.lcc"].label, rows["costs.lcc"].unit) == ("Zq lcc", f"Zq {cur}")
 
+
+def test_a_bad_stock_value_in_a_file_is_reported_with_its_line(tmp_path):
+    """``[stock]`` is checked by the store like any other table: the catalogue's range
+    and words, with the line it stands on (validate_project reads stock_field_problems)."""
+    from offgrid.project.store import ProjectFileError
+
+    text = demo_project_path().read_text(encoding="utf-8")
+    assert "[stock]" not in text
+    text += '\n[stock]\nmounting = "barn"\ncable_allowance_pct = 300\n\n[stock.rates]\nEUR = -1\n'
+    path = tmp_path / "p.toml"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(ProjectFileError) as info:
+        load_project(path)
+    lines = text.splitlines()
+    got = {p.path: p for p in info.value.problems}
+    assert set(got) == {"stock.mounting", "stock.cable_allowance_pct", "stock.rates.EUR"}
+    for p in got.values():
+        key = p.path.rsplit(".", 1)[1]
+        assert lines[p.line - 1].startswith(f"{key} ="), (p, lines[p.line - 1])
+    assert "ground, roof" in got["stock.mounting"].message
+    assert input_entry("stock.cable_allowance_pct").hint in got["stock.cable_allowance_pct"].message
+    # a good table loads, and validate_project leaves it alone
+    good = text.replace('mounting = "barn"', 'mounting = "roof"')
+    good = good.replace("pct = 300", "pct = 15").replace("EUR = -1", "EUR = 1.08")
+    path.write_text(good, encoding="utf-8")
+    project = load_project(path)
+    assert not [p for p in validate_project(project) if p.path.startswith("stock")]
