@@ -145,7 +145,7 @@ def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
     _, d = demo
     tree = d.to_dict()
     for entry in FIGURES:
-        if entry.path.startswith(("water[].", "generator.", "reliability.", "costs.")):
+        if entry.path.startswith(("water[].", "generator.", "reliability.", "hybrid.", "costs.")):
             continue  # a water supply's, the generator's, the simulation's, the cost's (below)
         if entry.path.startswith("wires[]."):  # one row for every cable run
             name = entry.path.removeprefix("wires[].")
@@ -173,7 +173,7 @@ def test_labels_fit_their_columns():
     def room(path: str) -> int:
         if path.startswith("water[]."):
             return 40
-        if path.startswith(("reliability.", "costs.")):
+        if path.startswith(("reliability.", "hybrid.", "costs.")):
             return OUTCOME_LABEL_ROOM
         return FIGURE_LABEL_ROOM
 
@@ -600,3 +600,35 @@ def test_a_bad_stock_value_in_a_file_is_reported_with_its_line(tmp_path):
     path.write_text(good, encoding="utf-8")
     project = load_project(path)
     assert not [p for p in validate_project(project) if p.path.startswith("stock")]
+
+
+def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_them(monkeypatch):
+    from offgrid.catalogue import HYBRID_FIGURES
+    from offgrid.catalogue.outcomes import outcome_key
+    from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_row
+    from offgrid.generator.study import generator_study, hybrid_demo_path
+    from offgrid.report.build import build_report
+    from offgrid.report.text import render_text
+
+    project = load_project(hybrid_demo_path())
+    st = generator_study(project, years=2, seed=1)
+    tree = st.to_dict()["simulation"]  # `offgrid generator --json`
+    for e in HYBRID_FIGURES:
+        node = tree
+        for part in e.path.split(".")[1:]:
+            node = node[part]
+        assert isinstance(node, int | float), e.path
+    assert sum(outcome_key(e.path) in st.run.reasons for e in HYBRID_FIGURES) >= 4
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.capacity_wh", label="Zq battery",
+          unit="Wh", digits=0, scale=1.0)  # fmt: skip
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.fuel_l_per_year", label="Zq fuel",
+          unit="Zq", digits=2)  # fmt: skip
+    d = design(project, hybrid_demo_path().parent)
+    text = render_text(build_report(project, d, with_charts=False, with_variants=False,
+                                    generator=st))  # fmt: skip
+    assert f"{st.run.capacity_wh:,.0f} Wh" in text and "Zq battery" in text
+    assert f"{st.run.fuel_l_per_year:,.2f} Zq" in text and "Zq fuel" in text
+    name, unit, digits, _get = next(r for r in HYBRID_ROWS if r[0] == "hybrid.fuel_l_per_year")
+    assert hybrid_row(name, unit, digits, [1.5]) == ("Zq fuel", "Zq", 2, [1.5])
+    solar = next(r for r in HYBRID_ROWS if r[0] == "hybrid.solar_fraction")
+    assert hybrid_row(*solar[:3], [0.25]) == ("Mix: solar fraction", "%", 1, [25.0])

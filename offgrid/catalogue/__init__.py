@@ -30,7 +30,7 @@ from offgrid.catalogue.figures import FIGURES as DESIGN_FIGURES
 from offgrid.catalogue.generator import GENERATOR_FIGURES, GENERATOR_INPUTS
 from offgrid.catalogue.inputs import INPUTS as PROJECT_INPUTS
 from offgrid.catalogue.inputs import RUN_LENGTH_M
-from offgrid.catalogue.outcomes import COST_FIGURES, RELIABILITY_FIGURES
+from offgrid.catalogue.outcomes import COST_FIGURES, HYBRID_FIGURES, RELIABILITY_FIGURES
 from offgrid.catalogue.stock import STOCK_INPUTS
 from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
 
@@ -38,6 +38,7 @@ __all__ = [
     "COST_FIGURES",
     "FIGURES",
     "FIGURE_LABEL_ROOM",
+    "HYBRID_FIGURES",
     "INPUTS",
     "INPUT_LABEL_ROOM",
     "OWN_CHECKS",
@@ -63,12 +64,14 @@ INPUTS: tuple[InputEntry, ...] = (
     *STOCK_INPUTS,
 )
 #: Every figure: the design's, each water supply's (``water[].``), the generator's, the
-#: simulation's (``reliability.``) and the lifecycle cost's (``costs.``).
+#: simulation's (``reliability.``), the hourly run with the generator's (``hybrid.``) and
+#: the lifecycle cost's (``costs.``).
 FIGURES: tuple[FigureEntry, ...] = (
     *DESIGN_FIGURES,
     *WATER_FIGURES,
     *GENERATOR_FIGURES,
     *RELIABILITY_FIGURES,
+    *HYBRID_FIGURES,
     *COST_FIGURES,
 )
 #: Tables whose rows their own checks read (a table a project may leave out, or one row

@@ -2,7 +2,8 @@
 
 Reliability rows sit at their paths of ``offgrid simulate --json`` (``reliability.lolp``;
 :meth:`offgrid.simulate.reliability.Reliability.to_dict`), explained by the record's own
-reason at the path less ``reliability.`` (:func:`outcome_key`); cost rows at the fields of
+reason at the path less ``reliability.`` (:func:`outcome_key`); the hybrid run's rows
+(``hybrid.``) alike; cost rows at the fields of
 :class:`offgrid.economics.costs.LifecycleCost` (``costs.capital``), whose reasons are keyed
 by that path.  A fraction is stored 0-1 and shown in % (``scale=100``); ``{currency}`` in
 a unit is the project's ``economics.currency``.  The 7 Risk section, the report's
@@ -42,6 +43,21 @@ RELIABILITY_FIGURES: tuple[Fig, ...] = (
     Fig("reliability.demand_kwh_per_year", "Yearly demand at the battery", "kWh/year", 0),
 )  # fmt: skip
 
+#: The hourly simulation with the generator (``offgrid generator --json``, its
+#: ``simulation`` section: :meth:`offgrid.generator.hybrid.HybridRun.to_dict`), explained
+#: by the run's reason at the path less ``hybrid.``.
+HYBRID_FIGURES: tuple[Fig, ...] = (
+    Fig("hybrid.array_w", "Array", "W", 0),
+    Fig("hybrid.capacity_wh", "Battery at its temperature", "kWh", 2, scale=1e-3),
+    Fig("hybrid.run_hours_per_year", "Generator run hours", "h/yr", 0),
+    Fig("hybrid.starts_per_year", "Generator starts", "/yr", 0),
+    Fig("hybrid.fuel_l_per_year", "Generator fuel", "L/yr", 0),
+    Fig("hybrid.below_min_hours_per_year", "Hours below minimum loading", "h/yr", 0),
+    Fig("hybrid.solar_fraction", "Solar fraction", "%", 1, scale=100.0),
+    Fig("hybrid.unmet_fraction", "Unmet energy, hourly", "%", 3, scale=100.0),
+    Fig("hybrid.wear.expected_life_years", "Battery expected life", "years", 1),
+)
+
 COST_FIGURES: tuple[Fig, ...] = (
     Fig("costs.capital", "Capital cost", "{currency}", 2),
     Fig("costs.replacements_pw", "Replacements, present worth", "{currency}", 2),
@@ -54,9 +70,10 @@ COST_FIGURES: tuple[Fig, ...] = (
 
 def outcome_key(path: str) -> str:
     """The key of a row's reason in its own record: ``reliability.wear.expected_life_years``
-    -> ``wear.expected_life_years`` (``Reliability.reasons``); a cost row keeps its path
-    (``LifecycleCost.reasons``)."""
-    return path.removeprefix("reliability.")
+    -> ``wear.expected_life_years`` (``Reliability.reasons``; ``hybrid.``: ``HybridRun``); a
+    cost row keeps its path (``LifecycleCost.reasons``)."""
+    head, _, rest = path.partition(".")
+    return rest if head in {"reliability", "hybrid"} else path
 
 
 def outcome_value(record: object, path: str) -> object:

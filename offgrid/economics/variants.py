@@ -336,11 +336,12 @@ def compare_variants(
                 )
             rows.append(_row(label, e.unit_in(currency), e.digits, vals, "cost", path))
     if with_generator and any(c.project is not None and c.project.generator for c in columns):
-        from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_values
+        from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_row, hybrid_values
 
-        for label, unit, digits, get in HYBRID_ROWS:
+        for name, unit, digits, get in HYBRID_ROWS:
+            label, unit, digits, vals = hybrid_row(name, unit, digits, hybrid_values(columns, get))
             unit = project.economics.currency if unit == "money" else unit
-            rows.append(_row(label, unit, digits, hybrid_values(columns, get), "hybrid"))
+            rows.append(_row(label, unit, digits, vals, "hybrid"))
     if simulate is not None:
         for path in RELIABILITY_ROWS:
             e = figure_entry(path)

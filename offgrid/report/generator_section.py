@@ -12,6 +12,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from offgrid.catalogue import figure_entry
+from offgrid.catalogue.outcomes import HYBRID_FIGURES, outcome_value
 from offgrid.design.result import SystemDesign
 from offgrid.economics.costs import money
 from offgrid.generator.cautions import generator_cautions
@@ -95,28 +96,13 @@ def _fit(setup: GeneratorSetup) -> Table:
 
 def _run(study: GeneratorStudy) -> Table:
     r = study.run
-    rows = [
-        ("Array", f"{r.array_w:.0f} W", r.array_w),
-        ("Battery at its temperature", f"{r.capacity_wh / 1000:.2f} kWh", r.capacity_wh),
-        ("Run hours a year", f"{r.run_hours_per_year:.0f} h", r.run_hours_per_year),
-        ("Starts a year", f"{r.starts_per_year:.0f}", r.starts_per_year),
-        ("Fuel a year", f"{r.fuel_l_per_year:.0f} L", r.fuel_l_per_year),
-        (
-            "Hours below minimum loading",
-            f"{r.below_min_hours_per_year:.0f} h/yr",
-            r.below_min_hours_per_year,
-        ),
-        ("Solar fraction", f"{r.solar_fraction:.1%}", r.solar_fraction),
-        ("Unmet energy", f"{r.unmet_fraction:.3%}", r.unmet_fraction),
-    ]
-    if r.wear is not None:
-        rows.append(
-            (
-                "Battery expected life",
-                f"{r.wear.expected_life_years:.1f} years",
-                r.wear.expected_life_years,
-            )
-        )
+    rows = []
+    for row in HYBRID_FIGURES:  # the catalogue's rows (offgrid/catalogue/outcomes.py)
+        path = row.path
+        e = figure_entry(path)
+        v = outcome_value(r, path)
+        if v is not None:
+            rows.append((e.label, e.text(float(v)), float(v)))
     return Table(
         "generator-run",
         ("Hybrid simulated", "Value"),
