@@ -145,7 +145,7 @@ def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
     _, d = demo
     tree = d.to_dict()
     for entry in FIGURES:
-        if entry.path.startswith(("water[].", "generator.", "reliability.", "hybrid.", "costs.")):
+        if entry.path.startswith(("water[].", "generator", "reliability.", "hybrid.", "costs.")):
             continue  # a water supply's, the generator's, the simulation's, the cost's (below)
         if entry.path.startswith("wires[]."):  # one row for every cable run
             name = entry.path.removeprefix("wires[].")
@@ -173,7 +173,7 @@ def test_labels_fit_their_columns():
     def room(path: str) -> int:
         if path.startswith("water[]."):
             return 40
-        if path.startswith(("reliability.", "hybrid.", "costs.")):
+        if path.startswith(("reliability.", "hybrid.", "costs.", "generator_costs.")):
             return OUTCOME_LABEL_ROOM
         return FIGURE_LABEL_ROOM
 
@@ -603,7 +603,7 @@ def test_a_bad_stock_value_in_a_file_is_reported_with_its_line(tmp_path):
 
 
 def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_them(monkeypatch):
-    from offgrid.catalogue import HYBRID_FIGURES
+    from offgrid.catalogue import GENERATOR_COST_FIGURES, HYBRID_FIGURES
     from offgrid.catalogue.outcomes import outcome_key
     from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_row
     from offgrid.generator.study import generator_study, hybrid_demo_path
@@ -619,6 +619,12 @@ def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_the
             node = node[part]
         assert isinstance(node, int | float), e.path
     assert sum(outcome_key(e.path) in st.run.reasons for e in HYBRID_FIGURES) >= 4
+    costs = st.to_dict()["costs"]  # the generator's own costs, same JSON
+    for e in GENERATOR_COST_FIGURES:
+        assert e.path.removeprefix("generator_costs.") in costs, e.path
+    assert outcome_key("generator_costs.fuel_pw") in st.cost.reasons
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "generator_costs.fuel_pw", label="Zq fuel pw",
+          unit="Zq {currency}", digits=1)  # fmt: skip
     _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.capacity_wh", label="Zq battery",
           unit="Wh", digits=0, scale=1.0)  # fmt: skip
     _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.fuel_l_per_year", label="Zq fuel",
@@ -628,6 +634,7 @@ def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_the
                                     generator=st))  # fmt: skip
     assert f"{st.run.capacity_wh:,.0f} Wh" in text and "Zq battery" in text
     assert f"{st.run.fuel_l_per_year:,.2f} Zq" in text and "Zq fuel" in text
+    assert f"{st.cost.fuel_pw:,.1f} Zq {st.cost.currency}" in text and "Zq fuel pw" in text
     name, unit, digits, _get = next(r for r in HYBRID_ROWS if r[0] == "hybrid.fuel_l_per_year")
     assert hybrid_row(name, unit, digits, [1.5]) == ("Zq fuel", "Zq", 2, [1.5])
     solar = next(r for r in HYBRID_ROWS if r[0] == "hybrid.solar_fraction")

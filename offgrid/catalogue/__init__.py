@@ -30,7 +30,12 @@ from offgrid.catalogue.figures import FIGURES as DESIGN_FIGURES
 from offgrid.catalogue.generator import GENERATOR_FIGURES, GENERATOR_INPUTS
 from offgrid.catalogue.inputs import INPUTS as PROJECT_INPUTS
 from offgrid.catalogue.inputs import RUN_LENGTH_M
-from offgrid.catalogue.outcomes import COST_FIGURES, HYBRID_FIGURES, RELIABILITY_FIGURES
+from offgrid.catalogue.outcomes import (
+    COST_FIGURES,
+    GENERATOR_COST_FIGURES,
+    HYBRID_FIGURES,
+    RELIABILITY_FIGURES,
+)
 from offgrid.catalogue.stock import STOCK_INPUTS
 from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
 
@@ -38,6 +43,7 @@ __all__ = [
     "COST_FIGURES",
     "FIGURES",
     "FIGURE_LABEL_ROOM",
+    "GENERATOR_COST_FIGURES",
     "HYBRID_FIGURES",
     "INPUTS",
     "INPUT_LABEL_ROOM",
@@ -65,7 +71,7 @@ INPUTS: tuple[InputEntry, ...] = (
 )
 #: Every figure: the design's, each water supply's (``water[].``), the generator's, the
 #: simulation's (``reliability.``), the hourly run with the generator's (``hybrid.``) and
-#: the lifecycle cost's (``costs.``).
+#: the lifecycle cost's (``costs.``) and the generator's own costs (``generator_costs.``).
 FIGURES: tuple[FigureEntry, ...] = (
     *DESIGN_FIGURES,
     *WATER_FIGURES,
@@ -73,6 +79,7 @@ FIGURES: tuple[FigureEntry, ...] = (
     *RELIABILITY_FIGURES,
     *HYBRID_FIGURES,
     *COST_FIGURES,
+    *GENERATOR_COST_FIGURES,
 )
 #: Tables whose rows their own checks read (a table a project may leave out, or one row
 #: per item): ``validate_project``'s loop over the core inputs leaves them to those.

@@ -68,12 +68,25 @@ COST_FIGURES: tuple[Fig, ...] = (
 )
 
 
+#: The generator's own present-worth costs (``offgrid generator --json``, its ``costs``
+#: section: :class:`offgrid.economics.generator_costs.GeneratorCost`), explained by the
+#: record's reason at the path less ``generator_costs.``.
+GENERATOR_COST_FIGURES: tuple[Fig, ...] = (
+    Fig("generator_costs.capital", "Generator price", "{currency}", 2),
+    Fig("generator_costs.fuel_pw", "Fuel (present worth)", "{currency}", 2),
+    Fig("generator_costs.maintenance_pw", "Maintenance (present worth)", "{currency}", 2),
+    Fig("generator_costs.overhaul_pw", "Overhauls (present worth)", "{currency}", 2),
+    Fig("generator_costs.replacement_pw", "Replacements (present worth)", "{currency}", 2),
+    Fig("generator_costs.total_pw", "Generator total (present worth)", "{currency}", 2),
+)
+
+
 def outcome_key(path: str) -> str:
     """The key of a row's reason in its own record: ``reliability.wear.expected_life_years``
     -> ``wear.expected_life_years`` (``Reliability.reasons``; ``hybrid.``: ``HybridRun``); a
     cost row keeps its path (``LifecycleCost.reasons``)."""
     head, _, rest = path.partition(".")
-    return rest if head in {"reliability", "hybrid"} else path
+    return rest if head in {"reliability", "hybrid", "generator_costs"} else path
 
 
 def outcome_value(record: object, path: str) -> object:

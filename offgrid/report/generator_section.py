@@ -12,7 +12,12 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from offgrid.catalogue import figure_entry
-from offgrid.catalogue.outcomes import HYBRID_FIGURES, outcome_value
+from offgrid.catalogue.outcomes import (
+    GENERATOR_COST_FIGURES,
+    HYBRID_FIGURES,
+    outcome_key,
+    outcome_value,
+)
 from offgrid.design.result import SystemDesign
 from offgrid.economics.costs import money
 from offgrid.generator.cautions import generator_cautions
@@ -116,20 +121,18 @@ def _run(study: GeneratorStudy) -> Table:
 def _costs(study: GeneratorStudy) -> Table:
     c = study.cost
     cur = c.currency
-    rows = (
-        ("Generator price", c.capital),
-        ("Fuel (present worth)", c.fuel_pw),
-        ("Maintenance (present worth)", c.maintenance_pw),
-        ("Overhauls (present worth)", c.overhaul_pw),
-        ("Replacements (present worth)", c.replacement_pw),
-        ("Generator total (present worth)", c.total_pw),
+    rows = tuple(  # the catalogue's rows (offgrid/catalogue/outcomes.py)
+        (e.label, "-" if v is None else e.text(float(v), currency=cur), v)
+        for e, v in (
+            (figure_entry(row.path), outcome_value(c, row.path)) for row in GENERATOR_COST_FIGURES
+        )
     )
     return Table(
         "generator-costs",
         ("Cost", "Amount"),
-        tuple((_c(a), _c(money(v, cur), v)) for a, v in rows),
+        tuple((_c(a), _c(text, v)) for a, text, v in rows),
         ("l", "r"),
-        c.reasons["fuel_pw"].source,
+        c.reasons[outcome_key("generator_costs.fuel_pw")].source,
     )
 
 
