@@ -23,6 +23,7 @@ from offgrid.catalogue import (
     input_entry,
     key_figures,
 )
+from offgrid.catalogue.outcomes import OUTCOME_LABEL_ROOM
 from offgrid.climate.model import MonthlyClimate
 from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
@@ -144,8 +145,8 @@ def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
     _, d = demo
     tree = d.to_dict()
     for entry in FIGURES:
-        if entry.path.startswith(("water[].", "generator.")):
-            continue  # a water supply's design or the generator's setup (tests below)
+        if entry.path.startswith(("water[].", "generator", "reliability.", "hybrid.", "costs.")):
+            continue  # a water supply's, the generator's, the simulation's, the cost's (below)
         if entry.path.startswith("wires[]."):  # one row for every cable run
             name = entry.path.removeprefix("wires[].")
             assert all(name in w for w in tree["wires"]), entry.path
@@ -165,13 +166,18 @@ def test_labels_fit_their_columns():
     assert all(len(e.label) <= INPUT_LABEL_ROOM for e in INPUTS), [
         e.label for e in INPUTS if len(e.label) > INPUT_LABEL_ROOM
     ]
+
     # the Sizes column holds the design's figures; a water supply's figures are shown in
     # the report and the water dialog, whose lines wrap (40: half an 80-column line)
-    too_long = [
-        e.label
-        for e in FIGURES
-        if len(e.label) > (40 if e.path.startswith("water[].") else FIGURE_LABEL_ROOM)
-    ]
+    # the simulation's and the cost's figures fill the 7 Risk section's wider column
+    def room(path: str) -> int:
+        if path.startswith("water[]."):
+            return 40
+        if path.startswith(("reliability.", "hybrid.", "costs.", "generator_costs.")):
+            return OUTCOME_LABEL_ROOM
+        return FIGURE_LABEL_ROOM
+
+    too_long = [e.label for e in FIGURES if len(e.label) > room(e.path)]
     assert not too_long, too_long
 
 
@@ -460,7 +466,7 @@ def test_the_generator_figures_are_in_the_size_json_and_the_report_reads_them(mo
     d = design(project, hybrid_demo_path().parent)
     tree = {"generator": size_section(project, d, hybrid_demo_path().parent)}
     rows = [e for e in FIGURES if e.path.startswith("generator.")]
-    assert len(rows) == 3
+    assert len(rows) == 5
     for e in rows:
         node = tree
         for part in e.path.split("."):
@@ -475,3 +481,161 @@ def test_the_generator_figures_are_in_the_size_json_and_the_report_reads_them(mo
     after = render_text(build_report(project, d, with_charts=False, with_variants=False))
     kw = tree["generator"]["derating"]["derated_kw"]
     assert "Zq derated" in after and f"{kw:.5f} Zq" in after and "Derated output" not in after
+    # the check's powers are held in W and shown in kW by the row's scale
+    need_w = tree["generator"]["check"]["starting_need_w"]
+    assert f"{need_w / 1000:,.2f} kW" in before
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "generator.check.starting_need_w",
+          label="Zq need", unit="W", digits=0, scale=1.0)  # fmt: skip
+    after = render_text(build_report(project, d, with_charts=False, with_variants=False))
+    assert "Zq need" in after and f"{need_w:,.0f} W" in after
+
+
+# ------------------------------------------------------- simulation and lifecycle cost
+
+
+@pytest.fixture(scope="module")
+def simulated(demo):
+    from offgrid.report import simulate_for_report
+
+    project, _ = demo
+    base = demo_project_path().parent
+    return simulate_for_report(project, base, years=4, seed=1, with_tradeoff=False)
+
+
+def test_every_outcome_path_is_in_the_simulate_json_or_the_cost_record(demo, simulated):
+    from offgrid.catalogue import COST_FIGURES, RELIABILITY_FIGURES
+    from offgrid.catalogue.outcomes import outcome_key
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.economics.costs import LifecycleCost, lifecycle_cost
+
+    project, d = demo
+    tree = simulated.to_dict()  # what `offgrid simulate --json` prints
+    rel = simulated.reliability
+    for e in RELIABILITY_FIGURES:
+        node = tree
+        for part in e.path.split("."):
+            assert isinstance(node, dict) and part in node, f"{e.path} not in the JSON"
+            node = node[part]
+        # the measured years' LOLP is left out when the weather has no measured years
+        assert isinstance(node, int | float) or e.path == "reliability.lolp_measured", e.path
+        if e.reason is not None:  # a composite row names a reason the record has
+            assert outcome_key(e.explained_by) in rel.reasons, e.path
+    assert sum(outcome_key(e.explained_by) in rel.reasons for e in RELIABILITY_FIGURES) >= 8
+    names = {f.name for f in dataclasses.fields(LifecycleCost)}
+    cost = lifecycle_cost(project, d, bill_of_materials(project, d), simulated)
+    for e in COST_FIGURES:
+        assert e.path.removeprefix("costs.") in names, e.path
+    for key in cost.reasons:  # every explained cost figure is a catalogue row
+        if key in {"costs.upkeep_pw"}:
+            continue  # its row's label carries the yearly upkeep and PWF (report table)
+        assert catalogue.find_figure(key) is not None, key
+
+
+def test_a_scaled_figure_shows_its_scale_and_its_currency():
+    e = figure_entry("reliability.lolp")
+    assert (e.scale, e.unit, e.text(0.0123)) == (100.0, "%", "1.230 %")
+    assert figure_entry("costs.cost_per_kwh").text(0.51234, currency="EUR") == "0.512 EUR/kWh"
+    assert figure_entry("costs.lcc").unit_in("USD") == "USD"
+
+
+def test_every_view_takes_the_reliability_and_cost_rows_from_the_catalogue(
+    monkeypatch, demo, simulated
+):
+    """The report, the 7 Risk rows, the variants table and the Options price view."""
+    from offgrid.economics.bom import bill_of_materials
+    from offgrid.economics.costs import lifecycle_cost
+    from offgrid.economics.variants import compare_variants
+    from offgrid.report.build import build_report
+    from offgrid.report.text import render_text
+    from offgrid.tui.sections.options import OptionsSection
+    from offgrid.tui.sections.risk import risk_row
+
+    project, d = demo
+    rel = simulated.reliability
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "reliability.lolp", label="Zq lolp",
+          unit="Zq", digits=5, scale=1000.0)  # fmt: skip
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "costs.lcc", label="Zq lcc",
+          unit="Zq {currency}", digits=1)  # fmt: skip
+    report = render_text(
+        build_report(project, d, reliability=simulated, with_charts=False, with_variants=False)
+    )
+    cost = lifecycle_cost(project, d, bill_of_materials(project, d), simulated)
+    cur = project.economics.currency
+    assert "Zq lolp" in report and f"{rel.lolp * 1000:,.5f} Zq" in report
+    assert "Zq lcc" in report and f"{cost.lcc:,.1f} Zq {cur}" in report
+    label, text, reason, _ = risk_row(rel, "reliability.lolp")
+    assert (label, text.split("  ")[0]) == ("Zq lolp", f"{rel.lolp * 1000:,.5f} Zq")
+    assert reason is rel.reasons["lolp"]
+    assert OptionsSection._cost_text(cost, "costs.lcc") == f"{cost.lcc:,.1f} Zq {cur}"
+    table = compare_variants(project, demo_project_path().parent, simulate=lambda p, x: rel)
+    rows = {r.path: r for r in table.rows if r.group in {"cost", "reliability"}}
+    assert (rows["reliability.lolp"].label, rows["reliability.lolp"].unit) == ("Zq lolp", "Zq")
+    assert rows["reliability.lolp"].values[0] == pytest.approx(rel.lolp * 1000)
+    assert (rows["costs.lcc"].label, rows["costs.lcc"].unit) == ("Zq lcc", f"Zq {cur}")
+
+
+def test_a_bad_stock_value_in_a_file_is_reported_with_its_line(tmp_path):
+    """``[stock]`` is checked by the store like any other table: the catalogue's range
+    and words, with the line it stands on (validate_project reads stock_field_problems)."""
+    from offgrid.project.store import ProjectFileError
+
+    text = demo_project_path().read_text(encoding="utf-8")
+    assert "[stock]" not in text
+    text += '\n[stock]\nmounting = "barn"\ncable_allowance_pct = 300\n\n[stock.rates]\nEUR = -1\n'
+    path = tmp_path / "p.toml"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(ProjectFileError) as info:
+        load_project(path)
+    lines = text.splitlines()
+    got = {p.path: p for p in info.value.problems}
+    assert set(got) == {"stock.mounting", "stock.cable_allowance_pct", "stock.rates.EUR"}
+    for p in got.values():
+        key = p.path.rsplit(".", 1)[1]
+        assert lines[p.line - 1].startswith(f"{key} ="), (p, lines[p.line - 1])
+    assert "ground, roof" in got["stock.mounting"].message
+    assert input_entry("stock.cable_allowance_pct").hint in got["stock.cable_allowance_pct"].message
+    # a good table loads, and validate_project leaves it alone
+    good = text.replace('mounting = "barn"', 'mounting = "roof"')
+    good = good.replace("pct = 300", "pct = 15").replace("EUR = -1", "EUR = 1.08")
+    path.write_text(good, encoding="utf-8")
+    project = load_project(path)
+    assert not [p for p in validate_project(project) if p.path.startswith("stock")]
+
+
+def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_them(monkeypatch):
+    from offgrid.catalogue import GENERATOR_COST_FIGURES, HYBRID_FIGURES
+    from offgrid.catalogue.outcomes import outcome_key
+    from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_row
+    from offgrid.generator.study import generator_study, hybrid_demo_path
+    from offgrid.report.build import build_report
+    from offgrid.report.text import render_text
+
+    project = load_project(hybrid_demo_path())
+    st = generator_study(project, years=2, seed=1)
+    tree = st.to_dict()["simulation"]  # `offgrid generator --json`
+    for e in HYBRID_FIGURES:
+        node = tree
+        for part in e.path.split(".")[1:]:
+            node = node[part]
+        assert isinstance(node, int | float), e.path
+    assert sum(outcome_key(e.path) in st.run.reasons for e in HYBRID_FIGURES) >= 4
+    costs = st.to_dict()["costs"]  # the generator's own costs, same JSON
+    for e in GENERATOR_COST_FIGURES:
+        assert e.path.removeprefix("generator_costs.") in costs, e.path
+    assert outcome_key("generator_costs.fuel_pw") in st.cost.reasons
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "generator_costs.fuel_pw", label="Zq fuel pw",
+          unit="Zq {currency}", digits=1)  # fmt: skip
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.capacity_wh", label="Zq battery",
+          unit="Wh", digits=0, scale=1.0)  # fmt: skip
+    _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.fuel_l_per_year", label="Zq fuel",
+          unit="Zq", digits=2)  # fmt: skip
+    d = design(project, hybrid_demo_path().parent)
+    text = render_text(build_report(project, d, with_charts=False, with_variants=False,
+                                    generator=st))  # fmt: skip
+    assert f"{st.run.capacity_wh:,.0f} Wh" in text and "Zq battery" in text
+    assert f"{st.run.fuel_l_per_year:,.2f} Zq" in text and "Zq fuel" in text
+    assert f"{st.cost.fuel_pw:,.1f} Zq {st.cost.currency}" in text and "Zq fuel pw" in text
+    name, unit, digits, _get = next(r for r in HYBRID_ROWS if r[0] == "hybrid.fuel_l_per_year")
+    assert hybrid_row(name, unit, digits, [1.5]) == ("Zq fuel", "Zq", 2, [1.5])
+    solar = next(r for r in HYBRID_ROWS if r[0] == "hybrid.solar_fraction")
+    assert hybrid_row(*solar[:3], [0.25]) == ("Mix: solar fraction", "%", 1, [25.0])

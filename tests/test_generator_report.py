@@ -30,7 +30,7 @@ def test_section_with_the_study():
     st = generator_study(p, years=2, seed=1)
     rep = build_report(p, d, with_charts=False, with_variants=False, generator=st)
     md = render(rep, "md")
-    assert "Fuel a year" in md and "solar only" in md and "cheapest" in md
+    assert "Generator fuel" in md and "solar only" in md and "cheapest" in md
     assert "Lifecycle cost across array sizes" in md
     html = render(build_report(p, d, with_charts=True, with_variants=False, generator=st), "html")
     assert "Generator beside the sun" in html and "Lifecycle cost of sun" in html

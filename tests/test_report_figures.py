@@ -156,9 +156,9 @@ def test_reliability_figures_equal_simulate_json():
     import json
     from contextlib import redirect_stdout
 
+    from offgrid.catalogue import RELIABILITY_FIGURES
     from offgrid.cli import main
     from offgrid.report import simulate_for_report
-    from offgrid.report.build import RELIABILITY_FIGURES
 
     buf = io.StringIO()
     with redirect_stdout(buf):
@@ -174,7 +174,7 @@ def test_reliability_figures_equal_simulate_json():
         with_charts=False,
         with_variants=False,
     )
-    scale = {f"reliability.{a}": s for a, _, s, _, _ in RELIABILITY_FIGURES}
+    scale = {e.path: e.scale for e in RELIABILITY_FIGURES}
     checked = 0
     for sec in report.sections:
         for block in sec.blocks:

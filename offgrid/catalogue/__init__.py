@@ -6,12 +6,14 @@ validation, the text UI's field tables and figure rows, the report and the text 
 read it by path.  A new input or figure is added in one place: a row in
 :mod:`offgrid.catalogue.inputs` (the core tables), :mod:`~offgrid.catalogue.water`
 (``[[water]]``), :mod:`~offgrid.catalogue.generator` (``[generator]``),
-:mod:`~offgrid.catalogue.stock` (``[stock]``) or :mod:`offgrid.catalogue.figures`.
+:mod:`~offgrid.catalogue.stock` (``[stock]``), :mod:`offgrid.catalogue.figures` (the
+design) or :mod:`~offgrid.catalogue.outcomes` (simulation and lifecycle cost).
 
 API: :class:`InputEntry`, :class:`FigureEntry`; :func:`input_entry` and
 :func:`figure_entry` (by path, ``KeyError`` naming the path when it is not catalogued),
 :func:`find_input` and :func:`find_figure` (``None`` instead); :func:`inputs_under` (the
-rows of one table); ``INPUTS``, ``FIGURES``, :func:`key_figures`, ``RUN_LENGTH_M``.
+rows of one table); ``INPUTS``, ``FIGURES`` (with ``RELIABILITY_FIGURES`` and
+``COST_FIGURES``), :func:`key_figures`, ``RUN_LENGTH_M``.
 """
 
 from __future__ import annotations
@@ -28,15 +30,25 @@ from offgrid.catalogue.figures import FIGURES as DESIGN_FIGURES
 from offgrid.catalogue.generator import GENERATOR_FIGURES, GENERATOR_INPUTS
 from offgrid.catalogue.inputs import INPUTS as PROJECT_INPUTS
 from offgrid.catalogue.inputs import RUN_LENGTH_M
+from offgrid.catalogue.outcomes import (
+    COST_FIGURES,
+    GENERATOR_COST_FIGURES,
+    HYBRID_FIGURES,
+    RELIABILITY_FIGURES,
+)
 from offgrid.catalogue.stock import STOCK_INPUTS
 from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
 
 __all__ = [
+    "COST_FIGURES",
     "FIGURES",
     "FIGURE_LABEL_ROOM",
+    "GENERATOR_COST_FIGURES",
+    "HYBRID_FIGURES",
     "INPUTS",
     "INPUT_LABEL_ROOM",
     "OWN_CHECKS",
+    "RELIABILITY_FIGURES",
     "RUN_LENGTH_M",
     "FigureEntry",
     "InputEntry",
@@ -57,8 +69,18 @@ INPUTS: tuple[InputEntry, ...] = (
     *GENERATOR_INPUTS,
     *STOCK_INPUTS,
 )
-#: Every figure: the design's, each water supply's (``water[].``), the generator's.
-FIGURES: tuple[FigureEntry, ...] = (*DESIGN_FIGURES, *WATER_FIGURES, *GENERATOR_FIGURES)
+#: Every figure: the design's, each water supply's (``water[].``), the generator's, the
+#: simulation's (``reliability.``), the hourly run with the generator's (``hybrid.``) and
+#: the lifecycle cost's (``costs.``) and the generator's own costs (``generator_costs.``).
+FIGURES: tuple[FigureEntry, ...] = (
+    *DESIGN_FIGURES,
+    *WATER_FIGURES,
+    *GENERATOR_FIGURES,
+    *RELIABILITY_FIGURES,
+    *HYBRID_FIGURES,
+    *COST_FIGURES,
+    *GENERATOR_COST_FIGURES,
+)
 #: Tables whose rows their own checks read (a table a project may leave out, or one row
 #: per item): ``validate_project``'s loop over the core inputs leaves them to those.
 OWN_CHECKS: tuple[str, ...] = ("loads[].", "water[].", "generator.", "stock.")

@@ -45,7 +45,9 @@ class FigureEntry:
 
     ``digits``: decimals shown (None: by the value's size); ``reason``: the reason key
     that explains it when that is not its own (a composite row); ``key``: one of the
-    report's key figures.
+    report's key figures.  ``scale``: the stored value times this is the shown one (a
+    fraction shown in %: 100; W shown in kW: 1e-3), in ``unit``; a ``{currency}`` in the
+    unit is the project's currency, filled in at display (:meth:`unit_in`).
     """
 
     path: str
@@ -54,6 +56,7 @@ class FigureEntry:
     digits: int | None = None
     reason: str | None = None
     key: bool = False
+    scale: float = 1.0
 
     @property
     def reason_key(self) -> str:
@@ -67,8 +70,17 @@ class FigureEntry:
         """The key in ``SystemDesign.reasons`` whose reason explains this figure."""
         return self.reason or self.reason_key
 
-    def text(self, value: float, digits: int | None = None) -> str:
-        """``value`` with its digits, thousands separated, and its unit: ``1,800 W``."""
+    def unit_in(self, currency: str = "") -> str:
+        """The unit with the project's currency in place of ``{currency}``."""
+        return self.unit.replace("{currency}", currency).strip()
+
+    def shown(self, value: float) -> float:
+        """The stored value as shown: times ``scale`` (0.0123 -> 1.23 %)."""
+        return value * self.scale
+
+    def text(self, value: float, digits: int | None = None, currency: str = "") -> str:
+        """The stored ``value`` scaled, with its digits, thousands separated, and its unit:
+        ``1,800 W``; ``0.0123`` of a % row: ``1.230 %``."""
         d = self.digits if digits is None else digits
-        number = f"{value:,.{d if d is not None else 2}f}"
-        return f"{number} {self.unit}".strip()
+        number = f"{self.shown(value):,.{d if d is not None else 2}f}"
+        return f"{number} {self.unit_in(currency)}".strip()

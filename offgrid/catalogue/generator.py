@@ -82,9 +82,12 @@ GENERATOR_INPUTS: tuple[In, ...] = (
 
 #: The generator's figures that need no weather, at their paths of ``offgrid size --json``
 #: (``generator`` section, :func:`offgrid.generator.study.setup_dict`); each carries its
-#: reason beside it in that section (``generator.derating.reason``).
+#: reason beside it in that section (``generator.derating.reason``).  The check's powers
+#: are held in W and shown in kW (``scale``).
 GENERATOR_FIGURES: tuple[Fig, ...] = (
     Fig("generator.derating.derated_kw", "Derated output", "kW", 2),
     Fig("generator.fuel_curve.no_load_l_h", "No-load fuel", "L/h", 3),
     Fig("generator.fuel_curve.b_l_per_kwh", "Marginal fuel", "L/kWh", 4),
+    Fig("generator.check.starting_need_w", "Starting need", "kW", 2, scale=1e-3),
+    Fig("generator.check.min_load_w", "Minimum loading", "kW", 2, scale=1e-3),
 )

@@ -105,6 +105,8 @@ def _lcc(col, st) -> float | None:
 
 
 #: Hybrid rows: label, unit, digits, getter from (column, study); study None: solar only.
+#: A row named by a catalogue path (``hybrid.fuel_l_per_year``) takes its label, unit,
+#: digits and scale from there (:func:`hybrid_row`); its getter gives the stored value.
 #: "Mix: lifecycle cost" counts the parts that change with the mix (array, battery,
 #: generator with its fuel), the trade-off's own formula, for every column.
 HYBRID_ROWS: tuple[tuple[str, str, int, Callable[[Any, Any], Any]], ...] = (
@@ -120,23 +122,35 @@ HYBRID_ROWS: tuple[tuple[str, str, int, Callable[[Any, Any], Any]], ...] = (
         2,
         lambda c, s: c.design.battery.nominal_kwh if s is None else s.chosen_battery_kwh,
     ),
-    ("Generator fuel", "L/yr", 0, lambda c, s: 0.0 if s is None else s.run.fuel_l_per_year),
-    ("Generator run hours", "h/yr", 0, lambda c, s: 0.0 if s is None else s.run.run_hours_per_year),
-    ("Generator starts", "/yr", 0, lambda c, s: 0.0 if s is None else s.run.starts_per_year),
+    ("hybrid.fuel_l_per_year", "", 0, lambda c, s: 0.0 if s is None else s.run.fuel_l_per_year),
     (
-        "Mix: solar fraction",
-        "%",
-        1,
-        lambda c, s: 100.0 if s is None else 100.0 * s.run.solar_fraction,
+        "hybrid.run_hours_per_year",
+        "",
+        0,
+        lambda c, s: 0.0 if s is None else s.run.run_hours_per_year,
     ),
-    (
-        "Mix: unmet energy, hourly",
-        "%",
-        3,
-        lambda c, s: None if s is None else 100.0 * s.run.unmet_fraction,
-    ),
+    ("hybrid.starts_per_year", "", 0, lambda c, s: 0.0 if s is None else s.run.starts_per_year),
+    ("hybrid.solar_fraction", "", 1, lambda c, s: 1.0 if s is None else s.run.solar_fraction),
+    ("hybrid.unmet_fraction", "", 3, lambda c, s: None if s is None else s.run.unmet_fraction),
     ("Mix: lifecycle cost", "money", 0, _lcc),
 )
+
+
+#: Rows shown as a share of the mix (the solar-only column's own figure beside it).
+MIX_ROWS = ("hybrid.solar_fraction", "hybrid.unmet_fraction")
+
+
+def hybrid_row(name: str, unit: str, digits: int, values: list[Any]) -> tuple:
+    """(label, unit, digits, values) of one hybrid row: a catalogue path's row with its
+    values scaled ("Mix: " before the rows of :data:`MIX_ROWS`), else as given."""
+    if not name.startswith("hybrid."):
+        return name, unit, digits, values
+    from offgrid.catalogue import figure_entry
+
+    e = figure_entry(name)
+    label = f"Mix: {e.label[0].lower()}{e.label[1:]}" if name in MIX_ROWS else e.label
+    shown = [None if v is None else e.shown(float(v)) for v in values]
+    return label, e.unit, e.digits, shown
 
 
 def hybrid_values(columns, label_getter) -> list[Any]:

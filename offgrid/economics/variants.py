@@ -20,6 +20,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, get_type_hints
 
 from offgrid.catalogue import figure_entry
+from offgrid.catalogue.outcomes import outcome_value
 from offgrid.design.result import DesignError, SystemDesign
 from offgrid.project.model import Project, Variant
 
@@ -196,11 +197,12 @@ COUNT_ROWS: tuple[tuple[str, Callable[..., Any]], ...] = (
     ("Warnings", lambda d, c, r: sum(1 for w in d.warnings if w.severity != "info")),
     ("Notes", lambda d, c, r: sum(1 for w in d.warnings if w.severity == "info")),
 )
-COST_ROWS: tuple[tuple[str, int, str], ...] = (
-    ("Capital cost", 0, "capital"),
-    ("Lifecycle cost", 0, "lcc"),
-    ("Cost per kWh delivered", 3, "cost_per_kwh"),
-    ("Battery life", 1, "battery_life_years"),
+#: The lifecycle cost's rows, by their catalogue paths (label, unit, digits there).
+COST_ROWS: tuple[str, ...] = (
+    "costs.capital",
+    "costs.lcc",
+    "costs.cost_per_kwh",
+    "costs.battery_life_years",
 )
 
 
@@ -214,13 +216,12 @@ def battery_life_label(sources: list[str]) -> str:
         else "preset"
         for s in sources
     }
-    return "Battery life" + (", " + " or ".join(sorted(kinds)) if kinds else "")
+    base = figure_entry("costs.battery_life_years").label
+    return base + (", " + " or ".join(sorted(kinds)) if kinds else "")
 
 
-RELIABILITY_ROWS: tuple[tuple[str, str, int, str], ...] = (
-    ("Loss-of-load probability", "%", 2, "lolp"),
-    ("Unmet energy", "%", 2, "unmet_fraction"),
-)
+#: The simulation's rows, by their catalogue paths.
+RELIABILITY_ROWS: tuple[str, ...] = ("reliability.lolp", "reliability.unmet_fraction")
 
 
 def _row(
@@ -325,28 +326,28 @@ def compare_variants(
         rows.append(_row(label, "", 0, figure_values(get), "figures", "warnings"))
     if with_costs:
         currency = project.economics.currency
-        for label, digits, attr in COST_ROWS:
-            vals = [getattr(c.cost, attr) if c.cost is not None else None for c in columns]
-            unit = "years" if attr == "battery_life_years" else currency
-            if attr == "cost_per_kwh":
-                unit = f"{currency}/kWh"
-            if attr == "battery_life_years":  # say which method: preset or simulated wear
+        for path in COST_ROWS:
+            e = figure_entry(path)
+            vals = [outcome_value(c.cost, path) if c.cost is not None else None for c in columns]
+            label = e.label
+            if path == "costs.battery_life_years":  # say which method: preset or simulated
                 label = battery_life_label(
                     [c.cost.battery_life_source for c in columns if c.cost is not None]
                 )
-            rows.append(_row(label, unit, digits, vals, "cost"))
+            rows.append(_row(label, e.unit_in(currency), e.digits, vals, "cost", path))
     if with_generator and any(c.project is not None and c.project.generator for c in columns):
-        from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_values
+        from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_row, hybrid_values
 
-        for label, unit, digits, get in HYBRID_ROWS:
+        for name, unit, digits, get in HYBRID_ROWS:
+            label, unit, digits, vals = hybrid_row(name, unit, digits, hybrid_values(columns, get))
             unit = project.economics.currency if unit == "money" else unit
-            rows.append(_row(label, unit, digits, hybrid_values(columns, get), "hybrid"))
+            rows.append(_row(label, unit, digits, vals, "hybrid"))
     if simulate is not None:
-        for label, unit, digits, attr in RELIABILITY_ROWS:
+        for path in RELIABILITY_ROWS:
+            e = figure_entry(path)
             vals = []
             for c in columns:
-                # attr: a field named in RELIABILITY_ROWS (no default: a renamed one raises)
-                v = getattr(c.reliability, attr) if c.reliability is not None else None
-                vals.append(float(v) * 100.0 if isinstance(v, int | float) else None)
-            rows.append(_row(label, unit, digits, vals, "reliability"))
+                v = outcome_value(c.reliability, path) if c.reliability is not None else None
+                vals.append(e.shown(float(v)) if isinstance(v, int | float) else None)
+            rows.append(_row(e.label, e.unit, e.digits, vals, "reliability", path))
     return VariantComparison(tuple(columns), tuple(rows))

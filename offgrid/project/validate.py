@@ -135,6 +135,10 @@ def validate_project(project: Project) -> list[Problem]:
         from offgrid.generator.fields import generator_problems
 
         problems.extend(Problem(path, msg) for path, msg in generator_problems(project))
+    if "stock" in project.extra:  # issue 17: the [stock] table, kept verbatim in extra
+        from offgrid.stock.project_parts import stock_field_problems
+
+        problems.extend(Problem(path, msg) for path, msg in stock_field_problems(project))
     return problems
 
 

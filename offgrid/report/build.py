@@ -18,6 +18,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from offgrid.catalogue import figure_entry, find_figure, find_input, key_figures
+from offgrid.catalogue.outcomes import RELIABILITY_FIGURES, outcome_key, outcome_value
 from offgrid.climate.model import MonthlyClimate
 from offgrid.design.cautions import DEFERS_TO_CODE
 from offgrid.design.result import Reason, SystemDesign
@@ -1099,35 +1100,28 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
         if cost.served_fraction >= 1
         else (f" x {cost.served_fraction:.3f} share of demand served (simulation)")
     )
-    energy_row = (_c("Energy delivered per year"), _c(f"{cost.energy_kwh_year:,.0f} kWh"))
+    energy_row = (
+        _c(figure_entry("costs.energy_kwh_year").label),
+        _c(figure_entry("costs.energy_kwh_year").text(cost.energy_kwh_year)),
+    )
     if cost.missing:
         blocks.append(Table("lifecycle", ("Item", "Value"), (energy_row,), ("l", "r")))
         blocks.append(Bullets((cost.message(),), "warning"))
         return Section("costs", "Costs over the project life", tuple(blocks))
     rows2 = [
-        (_c("Capital cost"), Cell(money(cost.capital, cur), cost.capital, "costs.capital")),
-        (
-            _c("Replacements, present worth"),
-            Cell(money(cost.replacements_pw, cur), cost.replacements_pw, "costs.replacements_pw"),
-        ),
+        _cost_row(cost, "costs.capital"),
+        _cost_row(cost, "costs.replacements_pw"),
         (
             _c(f"Upkeep {money(cost.upkeep_yearly, cur)}/year x PWF {cost.pwf_upkeep:.3f}"),
             Cell(money(cost.upkeep_pw, cur), cost.upkeep_pw, "costs.upkeep_pw"),
         ),
-        (_c("Lifecycle cost"), Cell(money(cost.lcc, cur), cost.lcc, "costs.lcc")),
+        _cost_row(cost, "costs.lcc"),
         energy_row,
         (
             _c(f"Discounted energy (x PWF {cost.pwf_energy:.3f})"),
             _c(f"{cost.energy_pw_kwh:,.0f} kWh"),
         ),
-        (
-            _c("Cost per kWh delivered"),
-            Cell(
-                "-" if cost.cost_per_kwh is None else f"{cost.cost_per_kwh:,.3f} {cur}/kWh",
-                cost.cost_per_kwh,
-                "costs.cost_per_kwh",
-            ),
-        ),
+        _cost_row(cost, "costs.cost_per_kwh"),
     ]
     blocks.append(Table("lifecycle", ("Item", "Value"), tuple(rows2), ("l", "r"), wrap=(0,)))
     blocks.append(
@@ -1140,36 +1134,13 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
     return Section("costs", "Costs over the project life", tuple(blocks))
 
 
-#: Reliability figures: attribute path in the simulation's record, label, scale, unit, digits.
-RELIABILITY_FIGURES: tuple[tuple[str, str, float, str, int], ...] = (
-    ("lolp", "Loss-of-load probability", 100.0, "%", 3),
-    ("unmet_fraction", "Unmet energy", 100.0, "%", 3),
-    ("lolp_critical", "Loss-of-load probability, critical loads", 100.0, "%", 3),
-    ("unmet_fraction_critical", "Unmet energy, critical loads", 100.0, "%", 3),
-    ("shed_days", "Days with shedding", 1.0, "days", 0),
-    ("longest_shed_run_days", "Longest run of shedding days", 1.0, "days", 0),
-    ("days_below_soc", "Days below the charge threshold", 1.0, "days", 0),
-    ("lolp_end_of_life", "Loss-of-load probability at end of battery life", 100.0, "%", 3),
-    ("lolp_measured", "Loss-of-load probability, measured years alone", 100.0, "%", 3),
-    ("wear.equivalent_full_cycles_per_year", "Equivalent full cycles per year", 1.0, "", 0),
-    ("wear.cycle_life_years", "Battery cycle life", 1.0, "years", 1),
-    ("wear.calendar_life_years", "Battery calendar life", 1.0, "years", 1),
-    ("wear.expected_life_years", "Battery expected life", 1.0, "years", 1),
-    ("pv_kwh_per_year", "PV energy to the battery bus", 1.0, "kWh/year", 0),
-    ("spilled_fraction", "Solar not used: battery was full", 100.0, "%", 1),
-    ("battery_loss_kwh_per_year", "Battery losses", 1.0, "kWh/year", 0),
-    ("demand_kwh_per_year", "Demand at the battery", 1.0, "kWh/year", 0),
-)
-
-
-def _attr(obj: Any, dotted: str) -> Any:
-    """The figure at a dotted path of RELIABILITY_FIGURES (a name it lists, so no default:
-    a renamed field raises); None where the record leaves a figure out."""
-    for part in dotted.split("."):
-        obj = getattr(obj, part)
-        if obj is None:
-            return None
-    return obj
+def _cost_row(cost: LifecycleCost, path: str) -> tuple[Cell, Cell]:
+    """One row of the lifecycle table: the catalogue's label, unit and digits for the value
+    at ``path`` of the cost; '-' where it is not known."""
+    e = figure_entry(path)
+    v = outcome_value(cost, path)
+    text = "-" if v is None else e.text(float(v), currency=cost.currency)
+    return _c(e.label), Cell(text, v, path)
 
 
 def _reliability(ri: ReportInputs) -> Section | None:
@@ -1190,21 +1161,21 @@ def _reliability(ri: ReportInputs) -> Section | None:
     )
     reasons = rel.reasons
     items = []
-    for attr, label, scale, unit, digits in RELIABILITY_FIGURES:
-        v = _attr(rel, attr)
+    for row in RELIABILITY_FIGURES:  # the catalogue's rows, read as they are now
+        e = figure_entry(row.path)
+        v = outcome_value(rel, e.path)
         if not isinstance(v, int | float) or isinstance(v, bool) or not math.isfinite(v):
             continue
-        shown = v * scale
-        if attr == "shed_days" and rel.days:
-            text = f"{int(v):,d} of {int(rel.days):,d} days"
+        if e.path == "reliability.shed_days" and rel.days:
+            text = f"{int(v):,d} of {int(rel.days):,d} {e.unit}"
         else:
-            text = f"{shown:,.{digits}f} {unit}".strip()
-        r = reasons.get(attr)
+            text = e.text(float(v))
+        r = reasons.get(outcome_key(e.explained_by))
         items.append(
             FigureItem(
-                f"reliability.{attr}",
-                label,
-                Cell(text, float(shown), f"reliability.{attr}"),
+                e.path,
+                e.label,
+                Cell(text, float(e.shown(v)), e.path),
                 r.formula if r else "",
                 r.inputs if r else (),
                 r.source if r else "",

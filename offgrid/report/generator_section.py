@@ -12,6 +12,12 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from offgrid.catalogue import figure_entry
+from offgrid.catalogue.outcomes import (
+    GENERATOR_COST_FIGURES,
+    HYBRID_FIGURES,
+    outcome_key,
+    outcome_value,
+)
 from offgrid.design.result import SystemDesign
 from offgrid.economics.costs import money
 from offgrid.generator.cautions import generator_cautions
@@ -42,23 +48,24 @@ def _figures(setup: GeneratorSetup) -> list[Block]:
         ("generator.derating.derated_kw", d.derated_kw),
         ("generator.fuel_curve.no_load_l_h", f.no_load_l_h),
         ("generator.fuel_curve.b_l_per_kwh", f.b_l_per_kwh),
+        ("generator.check.starting_need_w", k.starting_need_w),
+        ("generator.check.min_load_w", k.min_load_w),
     )
-    rows = (
-        *((e.label, f"{v:.{e.digits}f} {e.unit}", v) for e, v in _entries(shown)),
-        ("Starting need", f"{k.starting_need_w / 1000:.2f} kW", k.starting_need_w),
-        ("Minimum loading", f"{k.min_load_w / 1000:.2f} kW", k.min_load_w),
-    )
+    # label, value in the catalogue's unit (scaled: W shown in kW), the stored value
+    rows = tuple((e.label, e.text(v), v) for e, v in _entries(shown))
     how = (
         f"{figure_entry('generator.derating.derated_kw').label}: {d.rated_kw:g} kW x "
         f"{d.factor:.3f} at {d.altitude_m:.0f} m and "
         f"{d.temp_c:.1f} C ({d.reason.source}).",
         f"Fuel line: fuel = {f.a_l_h_per_kw:.4f} x rating + {f.b_l_per_kwh:.4f} x output "
         f"L/h, R^2 {f.r_squared:.4f} ({f.reason.source}).",
-        f"Starting need: the largest start with the loads beside it + the charger's input "
+        f"{figure_entry('generator.check.starting_need_w').label}: the largest start with "
+        "the loads beside it + the charger's input "
         f"{k.charger_input_w / 1000:.2f} kW, within the derated output: "
         + ("yes" if k.ok else "no")
         + f" ({k.reason.source}).",
-        f"Minimum loading: {setup.spec.min_load_fraction:.0%} of the derated output, against "
+        f"{figure_entry('generator.check.min_load_w').label}: "
+        f"{setup.spec.min_load_fraction:.0%} of the derated output, against "
         "wet stacking; below it a dump load takes the rest (common practice, no source).",
     )
     return [
@@ -94,28 +101,13 @@ def _fit(setup: GeneratorSetup) -> Table:
 
 def _run(study: GeneratorStudy) -> Table:
     r = study.run
-    rows = [
-        ("Array", f"{r.array_w:.0f} W", r.array_w),
-        ("Battery at its temperature", f"{r.capacity_wh / 1000:.2f} kWh", r.capacity_wh),
-        ("Run hours a year", f"{r.run_hours_per_year:.0f} h", r.run_hours_per_year),
-        ("Starts a year", f"{r.starts_per_year:.0f}", r.starts_per_year),
-        ("Fuel a year", f"{r.fuel_l_per_year:.0f} L", r.fuel_l_per_year),
-        (
-            "Hours below minimum loading",
-            f"{r.below_min_hours_per_year:.0f} h/yr",
-            r.below_min_hours_per_year,
-        ),
-        ("Solar fraction", f"{r.solar_fraction:.1%}", r.solar_fraction),
-        ("Unmet energy", f"{r.unmet_fraction:.3%}", r.unmet_fraction),
-    ]
-    if r.wear is not None:
-        rows.append(
-            (
-                "Battery expected life",
-                f"{r.wear.expected_life_years:.1f} years",
-                r.wear.expected_life_years,
-            )
-        )
+    rows = []
+    for row in HYBRID_FIGURES:  # the catalogue's rows (offgrid/catalogue/outcomes.py)
+        path = row.path
+        e = figure_entry(path)
+        v = outcome_value(r, path)
+        if v is not None:
+            rows.append((e.label, e.text(float(v)), float(v)))
     return Table(
         "generator-run",
         ("Hybrid simulated", "Value"),
@@ -129,20 +121,18 @@ def _run(study: GeneratorStudy) -> Table:
 def _costs(study: GeneratorStudy) -> Table:
     c = study.cost
     cur = c.currency
-    rows = (
-        ("Generator price", c.capital),
-        ("Fuel (present worth)", c.fuel_pw),
-        ("Maintenance (present worth)", c.maintenance_pw),
-        ("Overhauls (present worth)", c.overhaul_pw),
-        ("Replacements (present worth)", c.replacement_pw),
-        ("Generator total (present worth)", c.total_pw),
+    rows = tuple(  # the catalogue's rows (offgrid/catalogue/outcomes.py)
+        (e.label, "-" if v is None else e.text(float(v), currency=cur), v)
+        for e, v in (
+            (figure_entry(row.path), outcome_value(c, row.path)) for row in GENERATOR_COST_FIGURES
+        )
     )
     return Table(
         "generator-costs",
         ("Cost", "Amount"),
-        tuple((_c(a), _c(money(v, cur), v)) for a, v in rows),
+        tuple((_c(a), _c(text, v)) for a, text, v in rows),
         ("l", "r"),
-        c.reasons["fuel_pw"].source,
+        c.reasons[outcome_key("generator_costs.fuel_pw")].source,
     )
 
 

@@ -36,28 +36,51 @@ def stock_table(project: Project) -> dict:
 
 
 def stock_problems(project: Project) -> list[str]:
-    """The ``[stock]`` table's values against the catalogue's ``stock.`` rows, with the fix."""
-    t = stock_table(project)
-    out = []
+    """The ``[stock]`` table's values against the catalogue's ``stock.`` rows, with the fix:
+    ``"stock.mounting: 'roof' is not one of: ground"``."""
+    return [f"{path}: {message}" for path, message in stock_field_problems(project)]
+
+
+def stock_field_problems(project: Project) -> list[tuple[str, str]]:
+    """(dotted path, message with the fix) for each bad value of ``[stock]``; what
+    :func:`offgrid.project.validate.validate_project` reports (so the store gives the line)."""
+    from offgrid.stock.money import project_rates
+
     if STOCK_TABLE in project.extra and not isinstance(project.extra[STOCK_TABLE], dict):
-        return ["stock: must be a table ([stock])"]
+        return [("stock", "must be a table ([stock])")]
+    t = stock_table(project)
+    out: list[tuple[str, str]] = []
     m = t.get("mounting", DEFAULT_MOUNTING)
     values = input_entry("stock.mounting").values
     if m not in values:
-        out.append(f"stock.mounting: '{m}' is not one of: {', '.join(values)}")
+        out.append(("stock.mounting", f"'{m}' is not one of: {', '.join(values)}"))
     inv = t.get("inverter")
     if inv is not None and stock_inverter(project) is None:
         out.append(
-            "stock.inverter: needs name, continuous_w, surge_w and dc_voltage_v as numbers; "
-            "take the inverter again from the catalogue (`offgrid parts best --take`)"
+            (
+                "stock.inverter",
+                "needs name, continuous_w, surge_w and dc_voltage_v as numbers; take the "
+                "inverter again from the catalogue (`offgrid parts best --take`)",
+            )
         )
     a = t.get("cable_allowance_pct", DEFAULT_CABLE_ALLOWANCE_PCT)
     spec = input_entry("stock.cable_allowance_pct")
     if isinstance(a, bool) or not isinstance(a, int | float) or not spec.low <= a <= spec.high:
         out.append(
-            f"stock.cable_allowance_pct: give a number from {spec.low:g} to {spec.high:g} "
-            f"(got {a!r}): {spec.hint}"
+            (
+                "stock.cable_allowance_pct",
+                f"give a number from {spec.low:g} to {spec.high:g} (got {a!r}): {spec.hint}",
+            )
         )
+    rates = t.get("rates")
+    if rates is not None and not isinstance(rates, dict):
+        out.append(
+            ("stock.rates", f"must be a table ([stock.rates]): {input_entry('stock.rates').hint}")
+        )
+    elif rates:
+        for problem in project_rates(rates, project.economics.currency)[1]:
+            path, message = problem.split(": ", 1)
+            out.append((path, message))
     return out
 
 

@@ -323,7 +323,7 @@ async def test_prices_why_shows_the_cost_formula(demo_pilot):
     section = await to_options(pilot)
     await pilot.press("p")
     await pilot.pause()
-    price_cursor_on(section, "cost", "Capital cost")
+    price_cursor_on(section, "cost", "costs.capital")
     await pilot.press("w")
     await pilot.pause()
     assert isinstance(app.screen, WhyDialog)
@@ -331,7 +331,7 @@ async def test_prices_why_shows_the_cost_formula(demo_pilot):
     assert "sum of quantity x unit price" in text
     await pilot.press("escape")
     await pilot.pause()
-    price_cursor_on(section, "cost", "Cost per kWh delivered")
+    price_cursor_on(section, "cost", "costs.cost_per_kwh")
     await pilot.press("w")
     await pilot.pause()
     assert "PWF(N, 0, d)" in screen_text(app)  # Duffie & Beckman 4th ed. ch. 11

@@ -24,7 +24,8 @@ from textual.binding import Binding
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
-from offgrid.catalogue import find_input
+from offgrid.catalogue import figure_entry, find_input
+from offgrid.catalogue.outcomes import outcome_key, outcome_value
 from offgrid.design.result import Reason
 from offgrid.project.model import PriceItem, Project, Variant
 from offgrid.tui.fields import (
@@ -221,11 +222,9 @@ class PriceTable(SteadyTable):
         send(self, self.Command("import_prices"))
 
 
-COST_REASONS = {
-    "Capital cost": "costs.capital",
-    "Lifecycle cost": "costs.lcc",
-    "Cost per kWh delivered": "costs.cost_per_kwh",
-}
+#: The base design's cost rows under the price list, by catalogue path (label, unit,
+#: digits there; each is also the key of its reason in ``LifecycleCost.reasons``).
+BASE_COST_ROWS = ("costs.capital", "costs.lcc", "costs.cost_per_kwh")
 
 
 class OptionsSection(Section):
@@ -463,18 +462,16 @@ class OptionsSection(Section):
                 )
                 self._price_rows.append(("missing", key))
         if cost is not None:
-            from offgrid.economics.costs import money
-
             table.add_row(Text("Cost of the base design", style="bold underline"), "", "", "")
             self._price_rows.append(("heading", None))
-            for label, value, unit in (
-                ("Capital cost", cost.capital, cur),
-                ("Lifecycle cost", cost.lcc, cur),
-                ("Cost per kWh delivered", cost.cost_per_kwh, f"{cur}/kWh"),
-            ):
-                shown = "no price" if value is None else money(value)
-                table.add_row(Text("  " + label), Text(shown, style="bold"), Text(unit), "")
-                self._price_rows.append(("cost", label))
+            for path in BASE_COST_ROWS:
+                e = figure_entry(path)
+                value = outcome_value(cost, path)
+                shown = "no price" if value is None else f"{e.shown(value):,.{e.digits}f}"
+                table.add_row(
+                    Text("  " + e.label), Text(shown, style="bold"), Text(e.unit_in(cur)), ""
+                )
+                self._price_rows.append(("cost", path))
         if cost is None:
             state = ", no design yet to price (see the headline). a adds a line"
         elif cost.missing:
@@ -929,10 +926,10 @@ class OptionsSection(Section):
             cost = self._cost
             if what == "cost" and cost is not None:
                 return Figure(
-                    label,
+                    figure_entry(label).label,
                     self._cost_text(cost, label),
                     None,
-                    cost.reasons.get(COST_REASONS[label]),
+                    cost.reasons.get(label),
                     extra=self._cost_extra(cost),
                 )
             if what == "price":
@@ -954,20 +951,17 @@ class OptionsSection(Section):
         value = row.texts[k]
         label = f"{row.label} ({col.name})"
         if row.group == "cost" and col.cost is not None:
-            key = COST_REASONS.get(row.label)
             reason = (
-                col.cost.reasons.get(key)
-                if key
+                col.cost.reasons.get(row.path)
+                if row.path in col.cost.reasons
                 else Reason(
                     "battery service life used for replacements", (), col.cost.battery_life_source
                 )
             )
             return Figure(label, value, None, reason, extra=self._cost_extra(col.cost))
         if row.group == "reliability" and col.reliability is not None:
-            from offgrid.economics.variants import RELIABILITY_ROWS
-
-            attr = next((a for lbl, _u, _d, a in RELIABILITY_ROWS if lbl == row.label), "")
-            reason = col.reliability.reasons.get(attr)
+            key = outcome_key(figure_entry(row.path).explained_by)
+            reason = col.reliability.reasons.get(key)
             return Figure(
                 label,
                 value,
@@ -996,15 +990,9 @@ class OptionsSection(Section):
         return Figure(label, value, None, extra=col.error or "")
 
     @staticmethod
-    def _cost_text(cost, label: str) -> str:
-        from offgrid.economics.costs import money
-
-        value = {
-            "Capital cost": cost.capital,
-            "Lifecycle cost": cost.lcc,
-            "Cost per kWh delivered": cost.cost_per_kwh,
-        }[label]
-        return money(value, cost.currency)
+    def _cost_text(cost, path: str) -> str:
+        value = outcome_value(cost, path)
+        return "-" if value is None else figure_entry(path).text(value, currency=cost.currency)
 
     @staticmethod
     def _cost_extra(cost) -> str:

@@ -13,6 +13,7 @@ import hashlib
 import time
 from dataclasses import dataclass
 from pathlib import Path
+from typing import Any
 
 from rich.text import Text
 from textual import work
@@ -20,6 +21,8 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, ProgressBar, Static
 
+from offgrid.catalogue import figure_entry
+from offgrid.catalogue.outcomes import outcome_key, outcome_value
 from offgrid.design.result import Reason
 from offgrid.tui.sections.base import Figure, Section
 from offgrid.tui.session import Session
@@ -83,6 +86,39 @@ def pct(x: float | None) -> str:
     if v == 0:
         return "0 %"
     return f"{v:.3f} %" if v < 0.1 else f"{v:.2f} %" if v < 10 else f"{v:.1f} %"
+
+
+#: The figures this section lists, by catalogue path, with a note for the why screen.
+RISK_ROWS: tuple[tuple[str, str], ...] = (
+    ("reliability.lolp", ""),
+    ("reliability.unmet_fraction", ""),
+    ("reliability.lolp_critical", ""),
+    ("reliability.longest_shed_run_days", ""),
+    ("reliability.days_below_soc", ""),
+    (
+        "reliability.lolp_end_of_life",
+        "The same simulation with the battery capacity at its end-of-life fraction.",
+    ),
+    ("reliability.wear.expected_life_years", ""),
+    ("reliability.wear.equivalent_full_cycles_per_year", ""),
+    (
+        "reliability.spilled_fraction",
+        "Share of the controller output that the full battery could not take.",
+    ),
+)
+
+
+def risk_row(rel: Any, path: str, extra: str = "") -> tuple[str, str, Any, str]:
+    """Label, shown value, reason and note of one figure of the simulation's record, label,
+    unit, digits and scale from the catalogue (offgrid/catalogue/outcomes.py)."""
+    e = figure_entry(path)
+    v = outcome_value(rel, path)
+    text = "-" if v is None else e.text(float(v))
+    if path == "reliability.lolp":
+        text += f"  ({rel.shed_days} of {rel.days} days)"
+    elif path == "reliability.days_below_soc":
+        text += f" (below {rel.soc_threshold:.0%} charge)"
+    return e.label, text, rel.reasons.get(outcome_key(e.explained_by)), extra
 
 
 class RiskSection(Section):
@@ -174,54 +210,7 @@ class RiskSection(Section):
             return
         rep = self.result.report
         r = rep.reliability
-        wear = r.wear
-        rs = r.reasons
-        rows = [
-            (
-                "Loss-of-load probability",
-                pct(r.lolp) + f"  ({r.shed_days} of {r.days} days)",
-                rs.get("lolp"),
-                "",
-            ),
-            ("Unmet energy", pct(r.unmet_fraction), rs.get("unmet_fraction"), ""),
-            ("Critical loads: LOLP", pct(r.lolp_critical), rs.get("lolp_critical"), ""),
-            (
-                "Longest shedding run",
-                f"{r.longest_shed_run_days} days",
-                rs.get("longest_shed_run_days"),
-                "",
-            ),
-            (
-                f"Days below {r.soc_threshold:.0%} charge",
-                f"{r.days_below_soc}",
-                rs.get("days_below_soc"),
-                "",
-            ),
-            (
-                "LOLP at end of battery life",
-                pct(r.lolp_end_of_life),
-                rs.get("lolp"),
-                "The same simulation with the battery capacity at its end-of-life fraction.",
-            ),
-            (
-                "Battery life, simulated",
-                f"{wear.expected_life_years:.1f} years",
-                rs.get("wear.expected_life_years"),
-                "",
-            ),
-            (
-                "Full cycles per year",
-                f"{wear.equivalent_full_cycles_per_year:.0f}",
-                rs.get("wear.equivalent_full_cycles_per_year"),
-                "",
-            ),
-            (
-                "Solar not used: battery was full",
-                pct(r.spilled_fraction),
-                None,
-                "Share of the controller output that the full battery could not take.",
-            ),
-        ]
+        rows = [risk_row(r, path, extra) for path, extra in RISK_ROWS]
         tr = rep.tradeoff
         if tr is not None:
             rows.append(("Reliability targets", "", None, ""))  # a heading

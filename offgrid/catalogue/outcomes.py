@@ -1,0 +1,101 @@
+"""The figures of the energy-balance simulation and of the lifecycle cost.
+
+Reliability rows sit at their paths of ``offgrid simulate --json`` (``reliability.lolp``;
+:meth:`offgrid.simulate.reliability.Reliability.to_dict`), explained by the record's own
+reason at the path less ``reliability.`` (:func:`outcome_key`); the hybrid run's rows
+(``hybrid.``) alike; cost rows at the fields of
+:class:`offgrid.economics.costs.LifecycleCost` (``costs.capital``), whose reasons are keyed
+by that path.  A fraction is stored 0-1 and shown in % (``scale=100``); ``{currency}`` in
+a unit is the project's ``economics.currency``.  The 7 Risk section, the report's
+reliability figures and costs table, the variants table and the Options section read these
+rows; their labels fit the Risk section's figure column (:data:`OUTCOME_LABEL_ROOM`).
+"""
+
+from __future__ import annotations
+
+from offgrid.catalogue.entries import FigureEntry as Fig
+
+#: Longest label of these rows: the 7 Risk section's figure column (34) less its margin.
+OUTCOME_LABEL_ROOM = 33
+
+RELIABILITY_FIGURES: tuple[Fig, ...] = (
+    Fig("reliability.lolp", "Loss-of-load probability", "%", 3, scale=100.0),
+    Fig("reliability.unmet_fraction", "Unmet energy", "%", 3, scale=100.0),
+    Fig("reliability.lolp_critical", "LOLP, critical loads", "%", 3, scale=100.0),
+    Fig("reliability.unmet_fraction_critical", "Unmet energy, critical loads", "%", 3,
+        scale=100.0),
+    Fig("reliability.shed_days", "Days with shedding", "days", 0),
+    Fig("reliability.longest_shed_run_days", "Longest run of shedding days", "days", 0),
+    Fig("reliability.days_below_soc", "Days below the charge threshold", "days", 0),
+    Fig("reliability.lolp_end_of_life", "LOLP at end of battery life", "%", 3, "lolp",
+        scale=100.0),
+    Fig("reliability.lolp_measured", "LOLP, measured years alone", "%", 3, "lolp",
+        scale=100.0),
+    Fig("reliability.wear.equivalent_full_cycles_per_year", "Equivalent full cycles per year",
+        "", 0),
+    Fig("reliability.wear.cycle_life_years", "Battery cycle life", "years", 1),
+    Fig("reliability.wear.calendar_life_years", "Battery calendar life", "years", 1),
+    Fig("reliability.wear.expected_life_years", "Battery expected life", "years", 1),
+    Fig("reliability.pv_kwh_per_year", "PV energy to the battery bus", "kWh/year", 0),
+    Fig("reliability.spilled_fraction", "Solar not used: battery was full", "%", 1,
+        scale=100.0),
+    Fig("reliability.battery_loss_kwh_per_year", "Battery losses", "kWh/year", 0),
+    Fig("reliability.demand_kwh_per_year", "Yearly demand at the battery", "kWh/year", 0),
+)  # fmt: skip
+
+#: The hourly simulation with the generator (``offgrid generator --json``, its
+#: ``simulation`` section: :meth:`offgrid.generator.hybrid.HybridRun.to_dict`), explained
+#: by the run's reason at the path less ``hybrid.``.
+HYBRID_FIGURES: tuple[Fig, ...] = (
+    Fig("hybrid.array_w", "Array", "W", 0),
+    Fig("hybrid.capacity_wh", "Battery at its temperature", "kWh", 2, scale=1e-3),
+    Fig("hybrid.run_hours_per_year", "Generator run hours", "h/yr", 0),
+    Fig("hybrid.starts_per_year", "Generator starts", "/yr", 0),
+    Fig("hybrid.fuel_l_per_year", "Generator fuel", "L/yr", 0),
+    Fig("hybrid.below_min_hours_per_year", "Hours below minimum loading", "h/yr", 0),
+    Fig("hybrid.solar_fraction", "Solar fraction", "%", 1, scale=100.0),
+    Fig("hybrid.unmet_fraction", "Unmet energy, hourly", "%", 3, scale=100.0),
+    Fig("hybrid.wear.expected_life_years", "Battery expected life", "years", 1),
+)
+
+COST_FIGURES: tuple[Fig, ...] = (
+    Fig("costs.capital", "Capital cost", "{currency}", 2),
+    Fig("costs.replacements_pw", "Replacements, present worth", "{currency}", 2),
+    Fig("costs.lcc", "Lifecycle cost", "{currency}", 2),
+    Fig("costs.energy_kwh_year", "Energy delivered per year", "kWh", 0),
+    Fig("costs.cost_per_kwh", "Cost per kWh delivered", "{currency}/kWh", 3),
+    Fig("costs.battery_life_years", "Battery life", "years", 1),
+)
+
+
+#: The generator's own present-worth costs (``offgrid generator --json``, its ``costs``
+#: section: :class:`offgrid.economics.generator_costs.GeneratorCost`), explained by the
+#: record's reason at the path less ``generator_costs.``.
+GENERATOR_COST_FIGURES: tuple[Fig, ...] = (
+    Fig("generator_costs.capital", "Generator price", "{currency}", 2),
+    Fig("generator_costs.fuel_pw", "Fuel (present worth)", "{currency}", 2),
+    Fig("generator_costs.maintenance_pw", "Maintenance (present worth)", "{currency}", 2),
+    Fig("generator_costs.overhaul_pw", "Overhauls (present worth)", "{currency}", 2),
+    Fig("generator_costs.replacement_pw", "Replacements (present worth)", "{currency}", 2),
+    Fig("generator_costs.total_pw", "Generator total (present worth)", "{currency}", 2),
+)
+
+
+def outcome_key(path: str) -> str:
+    """The key of a row's reason in its own record: ``reliability.wear.expected_life_years``
+    -> ``wear.expected_life_years`` (``Reliability.reasons``; ``hybrid.``: ``HybridRun``); a
+    cost row keeps its path (``LifecycleCost.reasons``)."""
+    head, _, rest = path.partition(".")
+    return rest if head in {"reliability", "hybrid", "generator_costs"} else path
+
+
+def outcome_value(record: object, path: str) -> object:
+    """The raw value at a row's path of its record (``Reliability`` or ``LifecycleCost``),
+    the first part of the path left out; None where the record leaves it out.  No default:
+    a renamed field raises AttributeError."""
+    obj = record
+    for part in path.split(".")[1:]:
+        obj = getattr(obj, part)
+        if obj is None:
+            return None
+    return obj
