@@ -93,8 +93,9 @@ def new_generator(rated_kw: float = 5.0):
 
     loads = [25.0, 50.0, 75.0, 100.0]
     fuel = [round(NEW_FUEL_A * rated_kw + NEW_FUEL_B * rated_kw * x / 100, 3) for x in loads]
-    return GeneratorSpec(name="New generator (replace the fuel table by the datasheet's)",
-                         rated_kw=rated_kw, fuel_load_pct=loads, fuel_l_h=fuel)  # fmt: skip
+    return GeneratorSpec(
+        name="New generator", rated_kw=rated_kw, fuel_load_pct=loads, fuel_l_h=fuel
+    )
 
 
 class FormDialog(Dialog):
@@ -119,6 +120,7 @@ class FormDialog(Dialog):
         self.editing: Field | None = None
         self.drafts: dict[str, str] = {}
         self.fields: list[Field] = []
+        self.hinted_row = -1
 
     # ------------------------------------------------------------------ to fill in
     @property
@@ -158,16 +160,25 @@ class FormDialog(Dialog):
 
     def reload(self, keep_row: bool = True) -> None:
         """Rows and figures from the session's project as it is now."""
+        from textual.coordinate import Coordinate
+
         table = self.query_one(DataTable)
         row = table.cursor_row if keep_row else 0
-        table.clear()
         prefix = self.prefix()
-        self.fields = form_fields(prefix) if prefix else []
+        fields = form_fields(prefix) if prefix else []
         project = self.session.project
-        for f in self.fields:
-            table.add_row(f.label, printable(show_value(f, get_path(project, f.path))))
-        if self.fields:
-            table.move_cursor(row=min(row, len(self.fields) - 1))
+        cells = [(f.label, printable(show_value(f, get_path(project, f.path)))) for f in fields]
+        if len(fields) == len(self.fields) == table.row_count:  # same rows: cells in place
+            for i, (label, value) in enumerate(cells):
+                table.update_cell_at(Coordinate(i, 0), label)
+                table.update_cell_at(Coordinate(i, 1), value)
+        else:
+            table.clear()
+            for label, value in cells:
+                table.add_row(label, value)
+        self.fields = fields
+        if fields and (not keep_row or table.cursor_row != row):
+            table.move_cursor(row=min(row, len(fields) - 1))
         title = self.heading + (f": {self.item_name()}" if prefix else "")
         self.query_one("#form-title", Static).update(Text(printable(title), style="bold"))
         lines = self.figure_lines() if prefix else [self.empty_text()]
@@ -175,6 +186,7 @@ class FormDialog(Dialog):
             Text("\n".join(printable(ln) for ln in lines))
         )
         self.show_hint()
+        self.hinted_row = self.query_one(DataTable).cursor_row
 
     def item_name(self) -> str:
         return str(get_path(self.session.project, self.prefix() + "name"))
@@ -196,8 +208,10 @@ class FormDialog(Dialog):
             allowed = f" ({', '.join(v for v, _ in f.choices)})" if f.choices else ""
             self.say(f"{f.label}{allowed}: {f.hint}")
 
-    def on_data_table_row_highlighted(self, _event) -> None:
-        self.show_hint()
+    def on_data_table_row_highlighted(self, event) -> None:
+        if event.cursor_row != self.hinted_row:  # not the row redrawn after an edit:
+            self.hinted_row = event.cursor_row  # its note stays until the cursor moves
+            self.show_hint()
 
     def on_data_table_row_selected(self, event) -> None:
         event.stop()
@@ -390,7 +404,10 @@ class GeneratorForm(FormDialog):
             self.say("This project has its generator already (one per project).")
             return
         new = new_generator()
-        self.change(lambda p: setattr(p, "generator", new), "Generator added")
+        self.change(
+            lambda p: setattr(p, "generator", new),
+            "Generator added: its fuel table is a starting point, type the datasheet's",
+        )
 
     def action_remove(self) -> None:
         if self.session.project.generator is None:
