@@ -185,7 +185,8 @@ async def test_rows_come_from_the_catalogue_and_lists_read_as_typed():
 
     rows = form_fields("water[2].")
     assert rows[0].path == "water[2].name"
-    assert all(find_input(f.path).kind != "table" for f in rows)
+    tables = [f.path for f in rows if find_input(f.path).kind == "table"]
+    assert tables == ["water[2].pump.flow_m3_h"]  # the datasheet, typed as points
     need = next(f for f in rows if f.path.endswith("need_m3_day"))
     assert parse_value(need, "3") == [3.0] * 12
     with pytest.raises(ValueError, match="twelve"):
@@ -194,3 +195,26 @@ async def test_rows_come_from_the_catalogue_and_lists_read_as_typed():
     assert parse_value(gen["generator.fuel_l_h"], "0.7; 1.0; 1.3; 1.6") == [0.7, 1.0, 1.3, 1.6]
     assert parse_value(gen["generator.fuel"], "LPG") == "lpg"
     assert parse_value(gen["generator.quiet_from_h"], "auto") is None
+
+
+async def test_pump_datasheet_typed_as_points(demo_pilot):
+    from offgrid.water.design import water_design
+
+    app = demo_pilot.app
+    await _open_water_form(demo_pilot)
+    path = "water[1].pump.flow_m3_h"
+    await _edit(demo_pilot, path, "20 1.2 200; 20 2.5 400; 40 0.5 200")
+    said = str(app.screen.query_one("#form-message").content)
+    assert "Datasheet flows (water[1].pump.flow_m3_h) not changed" in said
+    assert "no flow at 40 m and 400 W" in said
+    await type_into(demo_pilot, "20 1.2 200; 40 0.5 200; 20 2.5 400; 40 1.4 400")
+    pump = app.session.project.water[0].pump
+    assert pump.head_points_m == [20, 40] and pump.power_points_w == [200, 400]
+    assert pump.flow_m3_h == [[1.2, 2.5], [0.5, 1.4]]
+    await wait_for(demo_pilot, lambda: "2 heads x 2 powers" in screen_text(app))
+    w = water_design(app.session.project, 0, app.session.base_dir)
+    body = str(app.screen.query_one("#form-figure-text").content)
+    assert f"Total dynamic head    {w.total_dynamic_head_m:.1f} m" in body
+    await demo_pilot.press("u")
+    await demo_pilot.pause()
+    assert app.session.project.water[0].pump.head_points_m == [20.0, 40.0, 60.0]

@@ -25,6 +25,10 @@ from offgrid.tui.screens.dialogs import ChoiceDialog, Dialog
 from offgrid.tui.session import EditRejected, get_path
 from offgrid.tui.text import printable
 
+#: The pump's datasheet as one row of typed points "head flow power; ..." (the heads and
+#: powers tables follow from the points); the direct motor's voltages stay in the file.
+POINTS = "pump.flow_m3_h"
+
 #: Actions of one letter: with the edit box focused the letter types into it instead.
 FORM_LETTERS = {"add", "remove", "undo", "next_item"}
 
@@ -35,7 +39,7 @@ def form_fields(prefix: str) -> list[Field]:
     row_prefix = "water[]." if prefix.startswith("water[") else prefix
     out = []
     for e in inputs_under(row_prefix):
-        if e.kind == "table":
+        if e.kind == "table" and not e.path.endswith(POINTS):
             continue
         path = prefix + e.path.removeprefix(row_prefix)
         choices = tuple((v, str(v).replace("_", " ")) for v in e.values)
@@ -43,8 +47,55 @@ def form_fields(prefix: str) -> list[Field]:
     return out
 
 
+def pump_points(project, f: Field) -> list[tuple[float, float, float]]:
+    """The pump's datasheet as (head m, flow m3/h, power W) points, head by head."""
+    pump = get_path(project, f.path.removesuffix(".flow_m3_h"))
+    return [
+        (h, q, w)
+        for h, row in zip(pump.head_points_m, pump.flow_m3_h, strict=False)
+        for w, q in zip(pump.power_points_w, row, strict=False)
+    ]
+
+
+def points_text(points) -> str:
+    return "; ".join(f"{h:g} {q:g} {w:g}" for h, q, w in points)
+
+
+def parse_points(text: str, hint: str = "") -> tuple[list, list, list]:
+    """Typed points "head flow power; ..." (m, m3/h, W) as the heads, the powers and the
+    flow table; ValueError naming a point that is missing or cannot be read."""
+    heads: list[float] = []
+    powers: list[float] = []
+    flow: dict[tuple[float, float], float] = {}
+    for n, chunk in enumerate((c for c in text.split(";") if c.strip()), start=1):
+        parts = chunk.split()
+        if len(parts) != 3:
+            raise ValueError(
+                f"point {n} '{chunk.strip()}': type head (m), flow (m3/h) and power (W), "
+                "points separated by ;"
+            )
+        h, q, w = (parse_number(x, "", hint) for x in parts)
+        flow[(h, w)] = q
+        heads += [h] if h not in heads else []
+        powers += [w] if w not in powers else []
+    heads.sort()
+    powers.sort()
+    missing = [(h, w) for h in heads for w in powers if (h, w) not in flow]
+    if missing:
+        h, w = missing[0]
+        raise ValueError(
+            f"no flow at {h:g} m and {w:g} W: every head needs a flow at every power "
+            f"({len(missing)} missing)"
+        )
+    return heads, powers, [[flow[(h, w)] for w in powers] for h in heads]
+
+
 def show_value(f: Field, value: Any) -> str:
     """The value as the form's row shows it, with its unit."""
+    if f.path.endswith(POINTS):
+        rows = len(value)
+        cols = len(value[0]) if value else 0
+        return f"{rows} heads x {cols} powers (Enter: head flow power; ...)"
     if isinstance(value, list):
         if len(value) == 12 and len(set(value)) == 1:
             return f"{value[0]:g} {f.unit} every month".strip()
@@ -60,6 +111,8 @@ def edit_text(f: Field, value: Any) -> str:
 
 def parse_value(f: Field, text: str) -> Any:
     """What was typed, read as ``f``'s kind; ValueError saying what to type."""
+    if f.path.endswith(POINTS):
+        return parse_points(text, f.hint)
     if f.base_kind != "floats":
         return f.parse(text)
     if f.path.endswith("need_m3_day"):
@@ -238,10 +291,17 @@ class FormDialog(Dialog):
             return
         self.editing = f
         box = self.query_one(Input)
-        box.value = self.drafts.pop(f.path, edit_text(f, value))
+        start = (
+            points_text(pump_points(self.session.project, f)) if f.path.endswith(POINTS) else None
+        )
+        box.value = self.drafts.pop(f.path, start or edit_text(f, value))
         box.display = True
         box.focus()
-        self.say(f"{f.label} ({f.unit or 'no unit'}): {f.hint}. Enter keeps it, Esc leaves it")
+        self.call_after_refresh(self.keep_cursor_in_view)
+        what = f"{f.label} ({f.unit or 'no unit'}): {f.hint}"
+        if f.path.endswith(POINTS):
+            what = "Datasheet points: head m, flow m3/h, power W; ; between points"
+        self.say(f"{what}. Enter keeps it, Esc leaves it")
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         event.stop()
@@ -259,7 +319,18 @@ class FormDialog(Dialog):
     def apply(self, f: Field, value: Any) -> bool:
         """Set ``f`` through the session; a refusal is shown and nothing is changed."""
         try:
-            self.session.set_value(f.path, value)
+            if f.path.endswith(POINTS):
+                pump = f.path.removesuffix(".flow_m3_h")
+                heads, powers, flow = value
+
+                def put(p) -> None:
+                    target = get_path(p, pump)
+                    target.head_points_m, target.power_points_w = heads, powers
+                    target.flow_m3_h = flow
+
+                self.session.change(put, focus=f.path)
+            else:
+                self.session.set_value(f.path, value)
         except EditRejected as exc:
             self.say(refusal(f, exc), error=True)
             return False
@@ -272,6 +343,13 @@ class FormDialog(Dialog):
         box.display = False
         self.query_one(DataTable).focus()
         self.show_hint()
+        self.call_after_refresh(self.keep_cursor_in_view)
+
+    def keep_cursor_in_view(self) -> None:
+        """The table's height changes with the box: keep the cursor's row on screen."""
+        table = self.query_one(DataTable)
+        if table.row_count:
+            table.move_cursor(row=table.cursor_row, animate=False, scroll=True)
 
     def action_close(self) -> None:
         if self.editing is not None:  # Esc in the box: back to the rows, the text kept
