@@ -218,3 +218,22 @@ async def test_pump_datasheet_typed_as_points(demo_pilot):
     await demo_pilot.press("u")
     await demo_pilot.pause()
     assert app.session.project.water[0].pump.head_points_m == [20.0, 40.0, 60.0]
+
+
+async def test_e_in_the_generator_dialog_opens_its_form(demo_pilot):
+    from offgrid.tui.screens.generator import GeneratorDialog
+
+    app = demo_pilot.app
+    open_generator(app.work)
+    await wait_for(demo_pilot, lambda: isinstance(app.screen, GeneratorForm))
+    await demo_pilot.press("a")
+    await demo_pilot.press("escape")
+    await demo_pilot.pause()
+    open_generator(app.work)  # now there is one: the read-only figures first
+    await wait_for(demo_pilot, lambda: isinstance(app.screen, GeneratorDialog))
+    await demo_pilot.press("e")
+    await wait_for(demo_pilot, lambda: isinstance(app.screen, GeneratorForm))
+    await demo_pilot.press("x")
+    await demo_pilot.pause()
+    assert app.session.project.generator is None
+    await wait_for(demo_pilot, lambda: "No generator yet: press a" in screen_text(app))
