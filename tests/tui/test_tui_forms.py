@@ -45,6 +45,7 @@ async def test_add_a_supply_type_need_and_head_see_the_figures(demo_pilot):
     from offgrid.water.design import water_design
 
     app = demo_pilot.app
+    writes = app.recovery.writes
     await _open_water_form(demo_pilot)
     assert len(app.session.project.water) == 1
     await _edit(demo_pilot, "water[1].need_m3_day", "12")
@@ -57,7 +58,8 @@ async def test_add_a_supply_type_need_and_head_see_the_figures(demo_pilot):
     assert "12 m3/day every month" in text and "35 m" in text
     assert f"Total dynamic head    {expect.total_dynamic_head_m:.1f} m" in text
     assert "static 35 + drawdown" in text  # the head as typed, in the figures
-    assert app.session.dirty and app.recovery is not None
+    assert app.session.dirty
+    assert app.recovery.flush() and app.recovery.writes > writes  # the autosave wrote it
 
 
 async def test_a_refused_value_names_the_field_and_keeps_the_text(demo_pilot):
