@@ -809,6 +809,16 @@ class OffgridApp(App):
                 "Derated output, fuel line, check; run hours, litres and the cheapest mix",
                 lambda: open_generator(screen),
             )
+            yield SystemCommand(
+                "Edit water supplies",
+                "Add, edit or remove a [[water]] supply: need, levels, pipe, pump",
+                lambda: screen.app.push_screen(water_form()),
+            )
+            yield SystemCommand(
+                "Edit the generator",
+                "Add, edit or remove the generator: rating, fuel table, dispatch, costs",
+                lambda: screen.app.push_screen(generator_form()),
+            )
         yield SystemCommand("New blank project", "Start from nothing", self.new_blank)
         yield SystemCommand(
             "New demo project", "The Kisanga Ridge health post (invented)", self.new_demo
@@ -871,3 +881,15 @@ def make_app(
                 session = Session.open(target)
     orphans = RecoveryStore(state or state_dir()).orphans() if check_recovery else []
     return OffgridApp(session, state=state, orphans=orphans, **kwargs)
+
+
+def water_form():
+    from offgrid.tui.screens.forms import WaterForm
+
+    return WaterForm()
+
+
+def generator_form():
+    from offgrid.tui.screens.forms import GeneratorForm
+
+    return GeneratorForm()

@@ -159,6 +159,11 @@ def key_groups(app: App, screen: Screen | None) -> list[KeyGroup]:
             )
         )
     groups.append(KeyGroup("Dialogs", key_rows(app, own_bindings(Dialog))))
+    from offgrid.tui.screens.forms import FormDialog, GeneratorForm, WaterForm
+
+    for title, form in (("Water supply form", WaterForm), ("Generator form", GeneratorForm)):
+        rows = key_rows(app, own_bindings(form) + own_bindings(FormDialog))
+        groups.append(KeyGroup(title, rows))
     if not isinstance(screen, WorkScreen):  # the section keys work on the work screen only
         groups = [
             KeyGroup(g.title, [r if r.where in ("app", "screen") else _help(r) for r in g.rows])

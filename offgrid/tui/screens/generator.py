@@ -3,7 +3,8 @@
 At once: the derated output, the fitted fuel line against the datasheet, and the check of
 what it must carry.  The hybrid study (20 years of hourly synthetic weather, the trade-off
 of array and battery against fuel) runs in a worker thread; when it is done the dialog adds
-run hours, starts, litres, the solar fraction and the cheapest mix.  Nothing is edited here.
+run hours, starts, litres, the solar fraction and the cheapest mix.  Nothing is edited here:
+``e`` opens the form (:mod:`offgrid.tui.screens.forms`).
 """
 
 from __future__ import annotations
@@ -125,7 +126,10 @@ def study_lines(st) -> list[str]:
 class GeneratorDialog(Dialog):
     """The generator's figures; the study fills in when its worker ends. Enter or Esc closes."""
 
-    BINDINGS = [Binding("enter", "close", "Close", id="generator.close")]
+    BINDINGS = [
+        Binding("enter", "close", "Close", id="generator.close"),
+        Binding("e", "edit", "Add, edit or remove the generator", id="generator.edit"),
+    ]
 
     class Studied(Message):
         def __init__(self, lines: list[str]) -> None:
@@ -155,7 +159,14 @@ class GeneratorDialog(Dialog):
                 )
                 if self.tail:
                     yield Static(Text("\n".join(printable(ln) for ln in self.tail)))
-            yield Static(Text("up/down: scroll   Enter or Esc: close", style="dim"))
+            yield Static(Text("up/down: scroll   e: edit   Enter or Esc: close", style="dim"))
+
+    def action_edit(self) -> None:
+        """Close the figures and open the form (offgrid.tui.screens.forms)."""
+        from offgrid.tui.screens.forms import GeneratorForm
+
+        self.dismiss(None)
+        self.app.push_screen(GeneratorForm())
 
     def on_mount(self) -> None:
         self.run_study()
@@ -187,11 +198,10 @@ def open_generator(screen) -> None:
     session = screen.session
     project = session.project
     if project.generator is None:
-        screen.app.notify(
-            "No generator in this project: add a [generator] table to the project file "
-            "(see offgrid generator --help).",
-            timeout=5,
-        )
+        from offgrid.tui.screens.forms import GeneratorForm
+
+        screen.app.notify("No generator in this project yet: press a to add one.", timeout=5)
+        screen.app.push_screen(GeneratorForm())
         return
     try:
         d = session.design if session.design is not None else run_design(project, session.base_dir)

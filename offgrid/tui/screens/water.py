@@ -34,7 +34,10 @@ def day_plot(sun, flow, width: int = 60, height: int = 10, plain: bool = False) 
 class WaterDialog(Dialog):
     """Each water supply's design (or why it cannot be met); Enter or Esc closes."""
 
-    BINDINGS = [Binding("enter", "close", "Close", id="water.close")]
+    BINDINGS = [
+        Binding("enter", "close", "Close", id="water.close"),
+        Binding("e", "edit", "Add, edit or remove water supplies", id="water.edit"),
+    ]
 
     def __init__(self, blocks: list[tuple[str, list[str], tuple | None]]) -> None:
         """``blocks``: (title, text lines, (sun, flow, start W/m2) or None) per supply."""
@@ -59,7 +62,14 @@ class WaterDialog(Dialog):
                         )
                         yield Static(Text("\n".join(day_plot(sun, flow, 70, 8, self.plain))))
                     yield Static(Text("\n".join(printable(ln) for ln in lines)))
-            yield Static(Text("up/down: scroll   Enter or Esc: close", style="dim"))
+            yield Static(Text("up/down: scroll   e: edit   Enter or Esc: close", style="dim"))
+
+    def action_edit(self) -> None:
+        """Close the figures and open the form (offgrid.tui.screens.forms)."""
+        from offgrid.tui.screens.forms import WaterForm
+
+        self.dismiss(None)
+        self.app.push_screen(WaterForm())
 
 
 def water_blocks(project, base=None) -> list[tuple[str, list[str], tuple | None]]:

@@ -385,11 +385,10 @@ class WorkScreen(Screen):
         from offgrid.tui.screens.water import WaterDialog, water_blocks
 
         if not self.session.project.water:
-            self.app.notify(
-                "No water supply in this project: add a [[water]] table to the project file "
-                "(see docs/water-format.md).",
-                timeout=5,
-            )
+            from offgrid.tui.screens.forms import WaterForm
+
+            self.app.notify("No water supply in this project yet: press a to add one.", timeout=5)
+            self.app.push_screen(WaterForm())
             return
         self.app.push_screen(WaterDialog(water_blocks(self.session.project, self.session.base_dir)))
 
