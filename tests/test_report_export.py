@@ -53,3 +53,16 @@ def test_export_bom(tmp_path):
     out = export_bom(project, tmp_path / "parts.csv", base)
     rows = list(csv.DictReader(out.open(encoding="utf-8")))
     assert rows[0]["part"].startswith("module:") and rows[0]["quantity"] == "6"
+
+
+def test_export_bom_complete_is_the_whole_kit(tmp_path):
+    # the text UI writes the complete kit (issue 17): the main parts plus what the crew
+    # must also carry, each line with its reason; the short list stays for `offgrid bom`
+    project, base = demo()
+    short = export_bom(project, tmp_path / "short.csv", base).read_text(encoding="utf-8")
+    whole = export_bom(project, tmp_path / "kit.csv", base, complete=True)
+    rows = list(csv.DictReader(whole.open(encoding="utf-8")))
+    parts = [r["part"] for r in rows]
+    assert parts[0].startswith("module:")
+    assert any("mount" in p for p in parts) and any("earth" in p for p in parts)
+    assert len(rows) > len(short.splitlines())

@@ -190,8 +190,14 @@ def export_bom(
     force: bool = False,
     design=None,
     reading: str | os.PathLike | None = None,
+    complete: bool = False,
 ) -> Path:
-    """Design ``project`` and write its bill of materials (CSV) to ``path``."""
+    """Design ``project`` and write its bill of materials (CSV) to ``path``.
+
+    ``complete``: everything the crew packs (:func:`offgrid.stock.kit.priced_bom_csv`:
+    the main parts, protection, mounting, connectors, surge protection, earthing,
+    interconnects, lugs, labels and cable with its allowance, each line saying why),
+    as the text UI writes it; else the main parts, as ``offgrid bom`` writes them."""
     from offgrid.design.result import DesignError
     from offgrid.design.sizing import design as run_design
 
@@ -201,4 +207,9 @@ def export_bom(
         d = design if design is not None else run_design(project, base)
     except DesignError as exc:
         raise ExportError(f"cannot design: {exc}; no bill of materials was written") from exc
+    if complete:
+        from offgrid.stock.kit import priced_bom_csv
+
+        text, _unpriced = priced_bom_csv(project, d)  # unpriced lines are marked in it
+        return write_file(target, text, reading)
     return write_file(target, bom_text(project, d), reading)

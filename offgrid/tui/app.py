@@ -584,7 +584,7 @@ class OffgridApp(App):
             start, suffixes, title = (
                 f"{stem}-bom.csv",
                 (".csv",),
-                "Export the bill of materials (CSV)",
+                "Export the bill of materials: all the crew packs (CSV)",
             )
 
         def chosen(path: Path | None) -> None:
@@ -649,8 +649,14 @@ class OffgridApp(App):
                         reliability=reliability,
                     )
                 else:
-                    written = export_bom(
-                        project, path, base, force=force, design=design, reading=reading
+                    written = export_bom(  # the whole kit: what the crew packs
+                        project,
+                        path,
+                        base,
+                        force=force,
+                        design=design,
+                        reading=reading,
+                        complete=True,
                     )
             except ExportError as exc:
                 self.call_from_thread(

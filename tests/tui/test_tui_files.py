@@ -303,6 +303,7 @@ async def test_export_report_and_bill_of_materials(state, tmp_path):
         await type_into(pilot, str(bom))
         await wait_until(pilot, bom.exists)
         assert bom.read_text().count("\n") > 3
+        assert "earth" in bom.read_text()  # the whole kit, not only the main parts
         # an existing file is replaced only after asking
         await pilot.press("B")
         await pilot.pause()
