@@ -86,6 +86,13 @@ def register(sub) -> None:
         help="design surveyed energy and peak power at the next PCT %% step up, "
         "so near-equal rows share a design (default 1; 0: as given)",
     )
+    p.add_argument(
+        "--merge",
+        nargs="+",
+        metavar="PLAN.json",
+        help="merge programme plans made apart (split by village, each written with "
+        "--json) into one: villages unioned, counts and totals summed",
+    )
     p.add_argument("--rows", action="store_true", help="list every row in the summary")
     p.add_argument("--json", action="store_true", help="print the plan as JSON")
     p.add_argument(
@@ -107,6 +114,8 @@ def run(args: argparse.Namespace) -> int:
     from offgrid.plan.kits import PlanError
     from offgrid.plan.survey import SurveyError
 
+    if args.merge:
+        return run_merge(args)
     if sum(map(bool, (args.demo, args.demo_programme, args.survey))) > 1:
         fail("give one of COMMUNITY.csv, PROGRAMME.csv, --demo or --demo-programme")
     if args.demo_programme:
@@ -220,6 +229,59 @@ def run_programme(args: argparse.Namespace, path) -> int:
         )
         return 1
     return 0
+
+
+def run_merge(args: argparse.Namespace) -> int:
+    """Merge programme plans made apart (``offgrid plan --merge A.json B.json ...``)."""
+    import json
+
+    from offgrid.plan.merge import MergeError, merge_plans, merged_markdown
+    from offgrid.project.atomic import atomic_write_text
+    from offgrid.report.export import overwrite_refusal
+
+    if args.survey or args.demo or args.demo_programme:
+        fail("--merge takes plan JSON files only: give no survey or programme beside it")
+    if args.kits is not None or args.kit_cost is not None:
+        fail(
+            "--merge: the plan JSON holds each village's counts and totals, not the "
+            "per-row demands the kit search needs, so a merge cannot choose kits again; "
+            "plan the whole programme on one machine with --kits, or plan the parts with "
+            "--kit-scope village and merge them"
+        )
+    report = Path(args.report) if args.report else None
+    if report is not None and report.suffix.lower() not in (".md", ".json"):
+        fail(f"--report {report}: a merged plan is written as .md or .json")
+    plans = []
+    for name in args.merge:
+        try:
+            plans.append((name, json.loads(Path(name).read_text(encoding="utf-8"))))
+        except OSError as exc:
+            fail(f"--merge {name}: cannot read it: {exc.strerror}")
+        except (UnicodeDecodeError, ValueError):
+            fail(
+                f"--merge {name}: not JSON; write each part with offgrid plan PROGRAMME.csv --json"
+            )
+    try:
+        doc = merge_plans(plans)
+    except MergeError as exc:
+        fail(str(exc))
+    if report is not None:
+        refusal = overwrite_refusal(report)
+        if refusal:
+            fail(f"--report {refusal}")
+        text = merged_markdown(doc) if report.suffix.lower() == ".md" else dump_json(doc) + "\n"
+        try:
+            atomic_write_text(report, text, backup=True)
+        except OSError as exc:
+            fail(f"cannot write {report}: {exc.strerror}")
+    if args.json or report is None:
+        print(dump_json(doc) if args.json else merged_markdown(doc))
+    else:
+        print(
+            f"Merged {len(plans)} plans: {len(doc['villages'])} villages, {doc['systems']} "
+            f"systems\nWritten: {report}"
+        )
+    return 1 if doc["left_out"] else 0
 
 
 def write_report(plan, path: Path, markdown_report=None, rows_csv=None) -> None:

@@ -47,13 +47,14 @@ from offgrid.plan.rows import (
     _find,
     _pool_context,
     communities_dir,
-    community_tilt,
+    community_demand,
     compact,
     default_jobs,
     distinct_rows,
     keep_memo,
     prepare,
     sent_compact,
+    set_community_tilt,
 )
 from offgrid.plan.survey import Survey, SurveyError, SurveyProblem, SurveyRow
 from offgrid.plan.tiers import MTF_EDITION, TIER_NAMES, mtf2015_tier
@@ -641,23 +642,38 @@ class _VillageWork:
     unique: list[SurveyRow]
     index_of: list[int]
     results: list = field(default_factory=list)
+    #: the village's monthly demand its tilt is searched for (None: no search to run)
+    demand: np.ndarray | None = None
 
 
 _PROGRAMME_INPUTS: list[PlanInputs] = []
+_PROGRAMME_DEMAND: list[np.ndarray | None] = []
 
 
-def _programme_batch(batch: list[tuple[int, int, SurveyRow]]) -> list[tuple[int, int, Any]]:
+def _programme_batch(
+    batch: list[tuple[int, int, SurveyRow]],
+) -> tuple[dict[int, float], list[tuple[int, int, Any]]]:
+    """Design a batch in a worker; a village's tilt is searched here the first time this
+    worker meets the village (the same search on the same demand as in the main process,
+    so the same tilt), and returned with the designs."""
+    tilts: dict[int, float] = {}
+    out = []
     with design_memo():
-        return [
-            (v, i, sent_compact(_build_and_design(_PROGRAMME_INPUTS[v], row)))
-            for v, i, row in batch
-        ]
+        for v, i, row in batch:
+            inputs = _PROGRAMME_INPUTS[v]
+            demand = _PROGRAMME_DEMAND[v]
+            if demand is not None and not inputs.tilt_searched:
+                tilts[v] = set_community_tilt(inputs, demand)
+            out.append((v, i, sent_compact(_build_and_design(inputs, row))))
+    return tilts, out
 
 
 def _light(inputs: PlanInputs) -> PlanInputs:
+    """What a forked worker needs of a village: its base and the references already read
+    (shared by the villages of one survey folder), not its survey's rows."""
     light = copy.copy(inputs.survey)
     light.rows, light.problems = [], []
-    return replace(inputs, survey=light, load_lists={}, projects={})
+    return replace(inputs, survey=light)
 
 
 def _design_all(work: list[_VillageWork], jobs: int) -> None:
@@ -668,12 +684,20 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
     context = _pool_context() if jobs > 1 and len(tasks) >= PARALLEL_MIN_DESIGNS else None
     seen: dict = {}
     if context is None:
+        for w in work:
+            if w.demand is not None:
+                set_community_tilt(w.inputs, w.demand)
         with design_memo():
             for v, i, row in tasks:
                 work[v].results[i] = compact(_build_and_design(work[v].inputs, row), seen)
         return
-    global _PROGRAMME_INPUTS
+    global _PROGRAMME_INPUTS, _PROGRAMME_DEMAND
     _PROGRAMME_INPUTS = [_light(w.inputs) for w in work]  # inherited by the forked workers
+    _PROGRAMME_DEMAND = [w.demand for w in work]
+    # a village whose rows all go to the main process's results still needs its tilt
+    for w in work:
+        if w.demand is not None and not w.unique:
+            set_community_tilt(w.inputs, w.demand)
     # keep each batch on one village so a worker's memo serves it
     size = max(50, min(400, len(tasks) // (jobs * 4) or 1))
     batches = [tasks[i : i + size] for i in range(0, len(tasks), size)]
@@ -682,11 +706,14 @@ def _design_all(work: list[_VillageWork], jobs: int) -> None:
         with ProcessPoolExecutor(
             max_workers=jobs, mp_context=context, initializer=keep_memo
         ) as pool:
-            for result in pool.map(_programme_batch, batches):
+            for tilts, result in pool.map(_programme_batch, batches):
+                for v, tilt in tilts.items():
+                    work[v].inputs.base.site.tilt_deg = tilt
+                    work[v].inputs.tilt_searched = True
                 for v, i, r in result:
                     work[v].results[i] = compact(r, seen)
     finally:
-        _PROGRAMME_INPUTS = []
+        _PROGRAMME_INPUTS, _PROGRAMME_DEMAND = [], []
         gc.unfreeze()
 
 
@@ -775,7 +802,12 @@ def _village_surveys(prog: Programme, left: list[ProgrammeProblem]) -> list[tupl
 
 
 def _prepare_village(
-    prog: Programme, v: Village, s: Survey, energy_step_pct: float, left: list[ProgrammeProblem]
+    prog: Programme,
+    v: Village,
+    s: Survey,
+    energy_step_pct: float,
+    left: list[ProgrammeProblem],
+    loaded: dict | None = None,
 ) -> PlanInputs | None:
     try:
         climate = village_climate(v.climate, prog.base_dir)
@@ -811,7 +843,11 @@ def _prepare_village(
         s.project = prog.project
     try:
         inputs = prepare(
-            s, climate=v.climate, energy_step_pct=energy_step_pct, climate_table=climate
+            s,
+            climate=v.climate,
+            energy_step_pct=energy_step_pct,
+            climate_table=climate,
+            loaded=loaded,
         )
     except SurveyError as exc:
         for p in exc.problems:
@@ -844,8 +880,13 @@ def plan_programme(
     left: list[ProgrammeProblem] = list(prog.problems)
     work: list[_VillageWork] = []
     notices: list[str] = []
+    loaded: dict = {}  # parts projects read once per programme
+    refs: dict = {}  # per survey folder: the load lists and row projects read once
     for v, s in _village_surveys(prog, left):
-        inputs = _prepare_village(prog, v, s, energy_step_pct, left)
+        inputs = _prepare_village(prog, v, s, energy_step_pct, left, loaded)
+        if inputs is not None:
+            lists, projects = refs.setdefault(inputs.base_dir, ({}, {}))
+            inputs = replace(inputs, load_lists=lists, projects=projects)
         if inputs is None:
             continue
         c = inputs.base.climate.inline
@@ -865,9 +906,9 @@ def plan_programme(
             )
         for p in inputs.survey.problems:
             left.append(ProgrammeProblem(inputs.survey.source, p.line, v.id, p.field, p.message))
-        community_tilt(inputs)
         unique, index_of = distinct_rows(inputs)
-        work.append(_VillageWork(v, inputs, unique, index_of))
+        # the tilt search itself runs with the designs (in the workers when they start)
+        work.append(_VillageWork(v, inputs, unique, index_of, demand=community_demand(inputs)))
     if not work:
         raise ProgrammeError(
             left or [ProgrammeProblem(prog.source, 0, "", "villages", "no village can be planned")]

@@ -315,10 +315,13 @@ def prepare(
     project: str | None = None,
     energy_step_pct: float = DEFAULT_ENERGY_STEP_PCT,
     climate_table: MonthlyClimate | None = None,
+    loaded: dict[Path, Project | ProjectFileError] | None = None,
 ) -> PlanInputs:
     """Resolve the shared climate, site and base project; raise SurveyError if unusable.
 
     ``climate_table``: a climate already read (a programme's village), used as it is.
+    ``loaded``: parts projects already read (path -> project or its error), shared by a
+    programme's villages so each file is read once; each survey gets its own copy.
     """
     fatal: list[SurveyProblem] = []
     lines = survey.setting_lines
@@ -338,10 +341,11 @@ def prepare(
                 )
             )
         else:
-            try:
-                base = load_project(path)
-            except ProjectFileError as exc:
-                fatal.append(SurveyProblem(lines.get("project", 0), "", "project", str(exc)))
+            got = _load_base(path, loaded)
+            if isinstance(got, ProjectFileError):
+                fatal.append(SurveyProblem(lines.get("project", 0), "", "project", str(got)))
+            else:
+                base = got
     base.loads = []
     base.info = ProjectInfo(name=survey.name, demo=survey.demo)
     climate_ref = climate or survey.climate or base.climate.ref
@@ -407,6 +411,24 @@ def prepare(
     return PlanInputs(
         survey, base, base_dir, climate_ref or "", {}, {}, energy_step_pct=energy_step_pct
     )
+
+
+def _load_base(
+    path: Path, loaded: dict[Path, Project | ProjectFileError] | None
+) -> Project | ProjectFileError:
+    """The parts project at ``path``: read once into ``loaded``, a fresh copy each call."""
+    if loaded is None:
+        try:
+            return load_project(path)
+        except ProjectFileError as exc:
+            return exc
+    if path not in loaded:
+        try:
+            loaded[path] = load_project(path)
+        except ProjectFileError as exc:
+            loaded[path] = exc
+    got = loaded[path]
+    return got if isinstance(got, ProjectFileError) else copy.deepcopy(got)
 
 
 def _load_list(inputs: PlanInputs, ref: str) -> list[Load] | str:
@@ -661,12 +683,17 @@ def community_tilt(inputs: PlanInputs) -> float | None:
     set ``site.tilt_deg`` keep theirs.  Returns the tilt, or None when the site already
     has one or no row can be read.
     """
-    from offgrid.design.loads import appliance_energy_wh
-    from offgrid.design.result import ReasonBook
-    from offgrid.design.sizing import site_geometry
+    total = community_demand(inputs)
+    return None if total is None else set_community_tilt(inputs, total)
 
-    base = inputs.base
-    if base.site.tilt_deg is not None or inputs.tilt_searched:
+
+def community_demand(inputs: PlanInputs) -> np.ndarray | None:
+    """The survey's total appliance demand by month (Wh/day, 12 values) that
+    :func:`community_tilt` searches the tilt for; None when there is no search to run
+    (the site has a tilt, it was searched already, or no row can be read)."""
+    from offgrid.design.loads import appliance_energy_wh
+
+    if inputs.base.site.tilt_deg is not None or inputs.tilt_searched:
         return None
     total = np.zeros(12)
     monthly: dict[tuple, np.ndarray | None] = {}  # one load list's months, once per list
@@ -686,8 +713,17 @@ def community_tilt(inputs: PlanInputs) -> float | None:
             monthly[ref] = appliance_energy_wh(loads).sum(axis=0) if ok else None
         if monthly[ref] is not None:
             total += monthly[ref] * row.count
-    if not total.any():
-        return None
+    return total if total.any() else None
+
+
+def set_community_tilt(inputs: PlanInputs, total: np.ndarray) -> float:
+    """Search the tilt for the monthly demand ``total`` (:func:`community_demand`) and set
+    it on the shared site; the part of :func:`community_tilt` a programme runs in its
+    worker processes."""
+    from offgrid.design.result import ReasonBook
+    from offgrid.design.sizing import site_geometry
+
+    base = inputs.base
     assert base.climate.inline is not None
     tilt, _, _ = site_geometry(base, base.climate.inline, ReasonBook(), demand_wh_day=total)
     base.site.tilt_deg = float(tilt)
