@@ -47,7 +47,8 @@ class FileBar(Static):
     def show(self, session: Session) -> None:
         self._session = session
         width = max(20, self.size.width or 80) - 2
-        marker = "  \u25cf unsaved" if session.dirty else ""
+        dirty = session.dirty  # (the project as text: a few ms, so once)
+        marker = "  \u25cf unsaved" if dirty else ""
         if session.path is not None:
             where = str(session.path.name) + (" (new file)" if not session.path.exists() else "")
         elif session.origin == "demo":
@@ -62,7 +63,7 @@ class FileBar(Static):
         text = Text(no_wrap=True, overflow="crop")
         text.append(clip(left, max(10, room)), style="bold")
         text.append(" " * max(2, width - min(len(left), max(10, room)) - len(right)))
-        text.append(right, style="bold reverse" if session.dirty else "")
+        text.append(right, style="bold reverse" if dirty else "")
         put_line(self, text)
 
 

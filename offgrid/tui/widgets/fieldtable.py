@@ -47,7 +47,7 @@ class FieldTable(SteadyTable):
         if event.size.width != getattr(self, "_layout", 0) and self._last_fill is not None:
             self._columns(event.size.width)
             self.fill(*self._last_fill)
-        super().on_resize(event)
+        # (then SteadyTable._on_resize scrolls the cursor into view)
 
     def current_field(self) -> Field | None:
         if not self._rows or self.cursor_row is None:
@@ -99,7 +99,7 @@ class FieldTable(SteadyTable):
         ):
             for i, (row, value) in enumerate(zip(self._rows, cells, strict=True)):
                 if value is not None and value != shown_before[i]:
-                    self.update_cell(row.path, "value", value)
+                    self.set_cell_text(row.path, "value", value)
             self._shown = cells
             return
         keep = self.cursor_row or 0

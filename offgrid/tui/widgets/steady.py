@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
+from textual.widget import Widget
 from textual.widgets import DataTable
+from textual.widgets.data_table import ColumnKey, RowKey
 
 from offgrid.tui.keys import deliver_now
 
@@ -44,5 +46,70 @@ class SteadyTable(DataTable):
             return
         super()._scroll_cursor_into_view(animate=animate)
 
-    def on_resize(self, event) -> None:
+    def _on_resize(self, event) -> None:
+        """Scroll the cursor into view; keep the rendered rows unless the width changed.
+
+        DataTable drops every rendered row on any resize (its ``_on_resize``); an edit
+        box opening or closing below a table changes only its height, which made the
+        whole table render again twice an edit. Rows depend on the width alone.
+        """
+        width = (event.size.width, event.virtual_size.width)
+        if width != getattr(self, "_rendered_width", None):
+            self._rendered_width = width
+            self._update_count += 1  # what DataTable's own handler does on every resize
+        event.prevent_default()  # (DataTable's handler is the only other one)
         self._scroll_cursor_into_view()
+
+    def notify_style_update(self) -> None:
+        """Keep the rendered rows when only the focus moved (an edit box opened or closed).
+
+        DataTable drops them on every style update; its caches are keyed by the focus
+        state already, so rows drawn focused stay right while the component styles of
+        that state are the same (a theme change alters them: everything is dropped).
+        """
+        state = self.get_pseudo_class_state()
+        Widget.notify_style_update(self)  # the widget's own style caches
+        try:
+            look = tuple(
+                self.get_component_rich_style(name, partial=True)
+                for name in sorted(self.COMPONENT_CLASSES)
+            )
+        except KeyError:  # styles not set up yet (mounting): drop everything
+            look = None
+        seen = getattr(self, "_looks", None)
+        if look is None or seen is None or seen.get(state, look) != look:
+            seen = {}
+            self._row_render_cache.clear()
+            self._cell_render_cache.clear()
+            self._row_renderable_cache.clear()
+            self._line_cache.clear()
+        seen[state] = look
+        self._looks = seen
+        self._styles_cache.clear()
+        self._get_styles_to_render_cell.cache_clear()
+        self.refresh()
+
+    def set_cell_text(self, row_key: str, column_key: str, value) -> None:
+        """Change one cell and render only its row again (``update_cell`` renders all).
+
+        Leans on DataTable's caches (Textual is pinned exactly): the entries of this
+        row are dropped and only its line is marked for repaint.
+        """
+        rkey = RowKey(row_key)
+        index = self._row_locations.get(rkey)
+        if index is None or ColumnKey(column_key) not in self.columns:
+            self.update_cell(row_key, column_key, value)  # (raises CellDoesNotExist)
+            return
+        self._data[rkey][ColumnKey(column_key)] = value
+        for cache in (self._row_render_cache, self._cell_render_cache):
+            for key in [k for k in list(cache.keys()) if k[0] == rkey]:
+                cache.discard(key)
+        for key in [k for k in list(self._row_renderable_cache.keys()) if k[1] == index]:
+            self._row_renderable_cache.discard(key)
+        for key in list(self._line_cache.keys()):
+            try:
+                if self._get_offsets(key[0])[0] == rkey:
+                    self._line_cache.discard(key)
+            except LookupError:
+                self._line_cache.discard(key)
+        self.refresh_row(index)
