@@ -51,8 +51,7 @@ from offgrid.design import wiring as wr
 from offgrid.design.array_step import size_array
 from offgrid.design.battery_step import size_battery
 from offgrid.design.electrical import (
-    _derate,
-    compare_harvests,
+    harvest_check,
     lay_out_strings,
     plan_runs,
     protection_schedule,
@@ -370,27 +369,7 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReus
     )
     ambient_c = wire_ambient_c(wiring, site.temp_day_c)
     cables = _cables(plan, wiring, p.choices, ambient_c, reuse.stores["wires"])
-    crop = compare_harvests(
-        params,
-        module,
-        ctype,
-        layout,
-        cables.wires,
-        noon,
-        int(site.design_month) - 1,
-        max_pv_voltage_v=float(p.controller.max_pv_voltage_v),
-        voc_cold=lim.voc_cold_v,
-        vmp_hot=lim.vmp_hot_v,
-        vsys=vsys,
-        v_abs=v_abs,
-        pwm_drop=lim.pwm_drop_v,
-        v_chg=cables.plan.charging_voltage_v,
-        eff=float(p.controller.efficiency),
-        soiling=_derate(core, p, "soiling"),
-        mismatch=_derate(core, p, "mismatch"),
-        daily_energy_wh=lr.daily_energy_wh,
-        battery_efficiency=float(p.battery.efficiency),
-    )
+    crop = harvest_check(p, core, params, layout, cables, noon, lim)
     return lay.strings, cables, float(crop.harvest.shortfall_pct), controllers
 
 

@@ -27,6 +27,7 @@ from offgrid.design.electrical.cable_runs import (  # noqa: F401  (re-exported)
     wire_ambient_c,
 )
 from offgrid.design.electrical.harvest_compare import (  # noqa: F401  (re-exported)
+    HarvestStep,
     compare_harvests,
     pwm_charging_voltage_v,
 )
@@ -89,6 +90,34 @@ def _derate(core, project, name: str) -> float:
     return float(value)
 
 
+def harvest_check(project, core, params, layout, cables, noon, lim) -> HarvestStep:
+    """The layout's daily harvest through its controller and cables against the design
+    month's demand (:func:`~offgrid.design.electrical.harvest_compare.compare_harvests`),
+    as :func:`electrical_design` runs it; the parts search (``stock/reuse.py``) calls it too.
+    """
+    return compare_harvests(
+        params,
+        project.module,
+        project.controller.type,
+        layout,
+        cables.wires,
+        noon,
+        int(core.site.design_month) - 1,
+        max_pv_voltage_v=float(project.controller.max_pv_voltage_v),
+        voc_cold=lim.voc_cold_v,
+        vmp_hot=lim.vmp_hot_v,
+        vsys=float(core.battery.system_voltage_v),
+        v_abs=float(core.battery.absorption_voltage_v),
+        pwm_drop=lim.pwm_drop_v,
+        v_chg=cables.plan.charging_voltage_v,
+        eff=float(project.controller.efficiency),
+        soiling=_derate(core, project, "soiling"),
+        mismatch=_derate(core, project, "mismatch"),
+        daily_energy_wh=core.loads.daily_energy_wh,
+        battery_efficiency=float(project.battery.efficiency),
+    )
+
+
 def electrical_design(project, core, params: DiodeParams | None = None) -> ElectricalResult:
     """Electrical design of the stand-alone system sized by the worst-month core.
 
@@ -134,27 +163,7 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
     )
     ambient_c = wire_ambient_c(wiring, site.temp_day_c)
     cables = size_cables(plan, wiring, project.choices, vsys, ambient_c)
-    crop = compare_harvests(
-        params,
-        module,
-        ctype,
-        layout,
-        cables.wires,
-        noon,
-        int(site.design_month) - 1,
-        max_pv_voltage_v=float(project.controller.max_pv_voltage_v),
-        voc_cold=lim.voc_cold_v,
-        vmp_hot=lim.vmp_hot_v,
-        vsys=vsys,
-        v_abs=v_abs,
-        pwm_drop=lim.pwm_drop_v,
-        v_chg=cables.plan.charging_voltage_v,
-        eff=float(project.controller.efficiency),
-        soiling=_derate(core, project, "soiling"),
-        mismatch=_derate(core, project, "mismatch"),
-        daily_energy_wh=core.loads.daily_energy_wh,
-        battery_efficiency=float(project.battery.efficiency),
-    )
+    crop = harvest_check(project, core, params, layout, cables, noon, lim)
     prot = protection_schedule(
         cables,
         strings,
