@@ -67,3 +67,15 @@ def test_size_json_has_the_generator_section(capsys, tmp_path):
     assert main(["size", str(p), "--json"]) == 0  # the solar design still stands
     g = json.loads(capsys.readouterr().out)["generator"]
     assert g["refused"]["field"] == "generator.rated_kw"
+
+
+def test_years_and_seed_are_read_as_offgrid_simulate_reads_them(capsys):
+    # one reader for both commands (simulate.weather.check_years / check_seed)
+    for argv in (["--years", "many"], ["--seed", "x"]):
+        with pytest.raises(SystemExit) as exc:
+            main(["generator", "--demo", "--no-mix", *argv])
+        assert exc.value.code == 2
+        err = capsys.readouterr().err
+        with pytest.raises(SystemExit):
+            main(["simulate", "--demo", "--no-sweep", *argv])
+        assert capsys.readouterr().err == err

@@ -59,14 +59,6 @@ def register(sub) -> None:
     p.set_defaults(func=run)
 
 
-def _int(text: str, name: str) -> int:
-    try:
-        return int(text)
-    except ValueError:
-        fail(f"--{name}: {text!r} is not a whole number")
-    raise AssertionError  # unreachable
-
-
 def run(args: argparse.Namespace) -> int:
     from offgrid.design.result import DesignError
     from offgrid.generator.study import generator_study, hybrid_demo_path, summary_text
@@ -85,8 +77,8 @@ def run(args: argparse.Namespace) -> int:
         study = generator_study(
             project,
             base,
-            years=_int(args.years, "years"),
-            seed=_int(args.seed, "seed"),
+            years=args.years,  # read by check_years / check_seed, as `offgrid simulate`
+            seed=args.seed,
             array_w=args.array_w,
             battery_kwh=args.battery_kwh,
             prices=prices,
