@@ -23,6 +23,7 @@ from textual._callback import invoke
 from textual._dispatch_key import dispatch_key
 from textual.app import App
 from textual.message import Message
+from textual.message_pump import MessagePump
 from textual.widget import Widget
 
 
@@ -34,21 +35,23 @@ def focus_now(widget: Widget, scroll_visible: bool = True) -> None:
         widget.focus(scroll_visible)
 
 
-def deliver_now(sender: Widget, message: Message) -> None:
-    """Run ``message``'s handlers on ``sender`` and up its ancestors now, as bubbling would.
+def deliver_now(sender: MessagePump, message: Message, *, to_app: bool = False) -> None:
+    """Run ``message``'s handlers on ``sender`` and up its ancestors now, as bubbling would
+    (the app too with ``to_app``; :func:`offgrid.tui.messages.send` is that case).
 
-    Synchronous handlers run at once; a coroutine handler is scheduled in order.
+    Synchronous handlers run at once; a coroutine handler is scheduled in order. Delivery
+    stops where a handler calls ``message.stop()``.
     """
     message._sender = sender
-    node = sender
-    while node is not None and not isinstance(node, App):
+    node: MessagePump | None = sender
+    while node is not None and (to_app or not isinstance(node, App)):
         for _cls, method in node._get_dispatch_methods(message.handler_name, message):
             result = method(message)
             if inspect.isawaitable(result):
                 node.call_next(lambda r=result: r)
         if message._stop_propagation or not message.bubble:
             return
-        node = node.parent  # type: ignore[assignment]
+        node = node._parent
 
 
 async def handle_key_now(app: App, event: events.Key) -> None:

@@ -10,29 +10,19 @@ the key that opens a dialog must have opened it when the following keys arrive
 
 from __future__ import annotations
 
-import inspect
 from pathlib import Path
 
 from textual.message import Message
 from textual.message_pump import MessagePump
 
+from offgrid.tui.keys import deliver_now
+
 
 def send(sender: MessagePump, message: Message) -> None:
-    """Run ``message``'s handlers on ``sender``, then its parents up to the app, now.
-
-    Synchronous handlers run at once; a coroutine handler is scheduled in order on
-    the node that has it. Delivery stops where a handler calls ``message.stop()``.
-    """
-    message._sender = sender
-    node: MessagePump | None = sender
-    while node is not None:
-        for _cls, method in node._get_dispatch_methods(message.handler_name, message):
-            result = method(message)
-            if inspect.isawaitable(result):
-                node.call_next(lambda r=result: r)
-        if message._stop_propagation or not message.bubble:
-            return
-        node = node._parent
+    """Run ``message``'s handlers on ``sender``, then its parents up to the app, now
+    (:func:`offgrid.tui.keys.deliver_now` up to the app). Delivery stops where a handler
+    calls ``message.stop()``."""
+    deliver_now(sender, message, to_app=True)
 
 
 # ---------------------------------------------------------------- sections -> work screen
