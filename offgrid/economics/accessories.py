@@ -17,8 +17,10 @@ design) or the caution (``figure = "caution:<code>"``) that asks for it:
   current through the terminals);
 * a holder for each fuse of the protection schedule;
 * a DC distribution board with a way per DC load circuit;
-* the cable runs again with the stated allowance (in place of the bare lengths);
 * a warning label for each caution that asks for a marking.
+
+(The cable runs with the stated allowance come from the main list's own
+:func:`offgrid.economics.bom._cable_lines`, given the allowance.)
 
 Counts that are the trade's habit, not a design figure (connectors per string, lugs per
 conductor end, labels, allowance) say ``common practice, no source``.  Earthing
@@ -210,35 +212,6 @@ def accessory_lines(
                 "each",
                 f"the {code} caution asks the hazard to be marked; {COMMON}",
                 f"caution:{code}",
-            )
-        )
-    return out
-
-
-def cable_lines_with_allowance(design: SystemDesign, allowance_pct: float) -> list[BomLine]:
-    """Cable by material and size: 2 conductors x one-way length x runs, + allowance."""
-    totals: dict[tuple[str, str], float] = {}
-    runs: dict[tuple[str, str], list[str]] = {}
-    first: dict[tuple[str, str], str] = {}
-    for w in wires_of(design):
-        key = (w.material, w.size)
-        totals[key] = totals.get(key, 0.0) + w.length_m * CONDUCTORS_PER_RUN * w.count
-        runs.setdefault(key, []).append(w.run)
-        first.setdefault(key, f"wires.{w.key}.length_m")
-    out = []
-    for (material, size), metres in totals.items():
-        qty = float(math.ceil(metres * (1 + allowance_pct / 100.0) - 1e-9))
-        out.append(
-            BomLine(
-                f"cable:{material} {size}",
-                f"Cable, {material}, {size}",
-                qty,
-                "m",
-                f"{CONDUCTORS_PER_RUN} conductors x one-way length of: "
-                + ", ".join(runs[(material, size)])
-                + f" = {metres:g} m, + {allowance_pct:g} % allowance ({COMMON}), "
-                "rounded up to the metre",
-                first[(material, size)],
             )
         )
     return out

@@ -166,7 +166,7 @@ def complete_bill_of_materials(project: Project, design: SystemDesign) -> tuple[
     Each line names its design figure or caution (``figure``)."""
     from dataclasses import replace
 
-    from offgrid.economics.accessories import accessory_lines, cable_lines_with_allowance
+    from offgrid.economics.accessories import accessory_lines
     from offgrid.stock.project_parts import cable_allowance_pct, mounting
 
     allowance = cable_allowance_pct(project)
@@ -179,21 +179,35 @@ def complete_bill_of_materials(project: Project, design: SystemDesign) -> tuple[
             ln = replace(ln, figure=figures.get(ln.kind, "protection.devices.rating_a"))
         main.append(ln)
     extra = accessory_lines(project, design, mounting(project), allowance)
-    cables = cable_lines_with_allowance(design, allowance)
+    cables = _cable_lines(wires_of(design), allowance)
     return (*main, *extra, *cables)
 
 
-def _cable_lines(wires: Iterable[WireChoice]) -> list[BomLine]:
-    """Cable by material and size: sum over runs of 2 x one-way length x number of runs."""
+def _cable_lines(wires: Iterable[WireChoice], allowance_pct: float | None = None) -> list[BomLine]:
+    """Cable by material and size: sum over runs of 2 x one-way length x number of runs.
+
+    ``allowance_pct``: the complete kit's cutting allowance (common practice, no source),
+    added and stated in each line, which then names its first run's length figure."""
     totals: dict[tuple[str, str], float] = {}
     runs: dict[tuple[str, str], list[str]] = {}
+    first: dict[tuple[str, str], str] = {}
     for w in wires:
         key = (w.material, w.size)
         totals[key] = totals.get(key, 0.0) + w.length_m * CONDUCTORS_PER_RUN * w.count
         runs.setdefault(key, []).append(w.run)
+        first.setdefault(key, f"wires.{w.key}.length_m")
     out = []
     for (material, size), metres in totals.items():
-        qty = float(math.ceil(metres - 1e-9))
+        if allowance_pct is None:
+            qty = float(math.ceil(metres - 1e-9))
+            how, figure = " (rounded up to the metre)", ""
+        else:
+            qty = float(math.ceil(metres * (1 + allowance_pct / 100.0) - 1e-9))
+            how = (
+                f" = {metres:g} m, + {allowance_pct:g} % allowance (common practice, no "
+                "source), rounded up to the metre"
+            )
+            figure = first[(material, size)]
         out.append(
             BomLine(
                 f"cable:{material} {size}",
@@ -202,7 +216,8 @@ def _cable_lines(wires: Iterable[WireChoice]) -> list[BomLine]:
                 "m",
                 f"{CONDUCTORS_PER_RUN} conductors x one-way length of: "
                 + ", ".join(runs[(material, size)])
-                + " (rounded up to the metre)",
+                + how,
+                figure,
             )
         )
     return out
