@@ -13,7 +13,14 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.climate import sky
-from offgrid.design.battery import CHEMISTRIES, cells_in_series, units_in_series
+from offgrid.design.battery import absorption_voltage_v, units_in_series
+from offgrid.design.charging import (
+    PWM_ARRAY_SIDE_FORMULA,
+    PWM_BATTERY_SIDE_FORMULA,
+    PwmVoltage,
+    pwm_module_current_a,
+    pwm_operating_voltage,
+)
 from offgrid.design.controller_step import layout_with_controllers, size_controller
 from offgrid.design.electrical.string_layout import string_limits
 from offgrid.design.months import as_tuple
@@ -42,6 +49,7 @@ class ArrayStep:
     controller: ControllerResult
     system_voltage_v: int
     absorption_voltage_v: float  # the bank's absorption voltage at the system voltage
+    pwm_voltage: PwmVoltage  # what a PWM controller pulls the array down to
     design_month: int  # 0-based index of the least-covered month
     reasons: dict[str, Reason]
     notices: tuple[Notice, ...]
@@ -105,13 +113,22 @@ def temperature_factor(coefficient_pct_per_c: float, t_cell_c):
 
 
 def temperature_and_operating_point(
-    ctype: str, m: ModuleSpec, t_cell, system_v: int, wiring_derate: float, ns: int
+    ctype: str,
+    m: ModuleSpec,
+    params: DiodeParams,
+    t_cell,
+    system_v: int,
+    pwm: PwmVoltage,
+    ns: int,
 ) -> tuple[np.ndarray, str, np.ndarray, list[Notice]]:
     """Each month's temperature derate and operating-point factor, and the PWM warning.
 
-    MPPT: 1 + gamma_Pmax (Tc - 25 C), operating point 1.  PWM: the array works at the
-    battery's charging voltage (1.1 x system voltage plus the wiring drop), its current
-    ~ Imp (1 + alpha_Isc (Tc - 25 C)), so the factor is that voltage x Imp / Pmax, at most 1.
+    MPPT: 1 + gamma_Pmax (Tc - 25 C), operating point 1.  PWM: the array is held at the
+    PWM operating voltage (``pwm.array_v``, :func:`offgrid.design.charging.pwm_operating_voltage`),
+    where the single-diode model gives the module current I at STC
+    (:func:`offgrid.design.charging.pwm_module_current_a`), so the operating-point factor
+    is (array voltage / series) x I / Pmax, at most 1, and the current follows the cell
+    temperature as 1 + alpha_Isc (Tc - 25 C).
     """
     notices: list[Notice] = []
     if ctype == "mppt":
@@ -119,18 +136,19 @@ def temperature_and_operating_point(
         temp_text = "1 + gamma_Pmax x (cell temperature - 25 C)"
         f_op = np.ones(12)
     else:
-        # PWM: the array works at battery voltage, its current ~ Imp (1 + alpha dT).
+        # PWM: the array works at the battery's voltage, its current I(V) (1 + alpha dT).
         f_temp = temperature_factor(m.alpha_isc_pct_per_c, t_cell)
         temp_text = "1 + alpha_Isc x (cell temperature - 25 C) (PWM: current-limited)"
-        v_op_module = (system_v * 1.1 * (2.0 - wiring_derate)) / ns
-        f_op_scalar = min(1.0, v_op_module * m.imp_a / m.pmax_w)
+        v_op_module = pwm.array_v / ns
+        i_op = pwm_module_current_a(params, pwm.array_v, ns)
+        f_op_scalar = min(1.0, v_op_module * i_op / m.pmax_w)
         f_op = np.full(12, f_op_scalar)
         if ns * m.vmp_v > 1.6 * system_v:
             notices.append(
                 Notice(
                     "pwm-voltage-waste",
                     f"With PWM the {ns}-module string (Vmp {ns * m.vmp_v:.0f} V)"
-                    f" is pulled down to about {system_v * 1.1:.0f} V, so only {f_op_scalar:.0%} "
+                    f" is pulled down to about {pwm.array_v:.1f} V, so only {f_op_scalar:.0%} "
                     "of "
                     "its power is used: choose an MPPT controller or modules made for a "
                     f"{system_v} V battery.",
@@ -169,7 +187,6 @@ def size_array(
     d = choices.derates
     soiling, soil_text = soiling_factor(d)
     batt_rt = battery.efficiency
-    chem = CHEMISTRIES[battery.chemistry]
 
     # A first estimate of power (MPPT chain) fixes the system voltage.
     f_temp_mppt = temperature_factor(m.gamma_pmax_pct_per_c, t_cell)
@@ -183,7 +200,8 @@ def size_array(
         max(rough, loads.peak_ac_w * NEC_CONTINUOUS),
     )
     book.extend(voltage_reasons)
-    batt_abs_v = chem.absorption_v_per_cell * cells_in_series(battery.chemistry, system_v)
+    batt_abs_v = absorption_voltage_v(battery.chemistry, system_v)
+    pwm = pwm_operating_voltage(battery.chemistry, system_v, d.wiring)
     # String window (offgrid.design.electrical): cold Voc at the record low, hot Vmp from the fitted
     # single-diode model; DesignError when no series count fits the controller.
     lim = string_limits(
@@ -204,7 +222,7 @@ def size_array(
     )
     ns = window.min_series
     f_temp, temp_text, f_op, pwm_notices = temperature_and_operating_point(
-        ctrl_spec.type, m, t_cell, system_v, d.wiring, ns
+        ctrl_spec.type, m, params, t_cell, system_v, pwm, ns
     )
     notices.extend(pwm_notices)
 
@@ -260,6 +278,8 @@ def size_array(
                 derates=derates,
                 voc_cold=voc_cold,
                 vmp_hot=vmp_hot,
+                pwm=pwm,
+                params=params,
             )
         )
     )
@@ -291,7 +311,7 @@ def size_array(
                 "controller.current_a",
             )
         )
-    return ArrayStep(array, ctrl, system_v, batt_abs_v, dm, book.freeze(), tuple(notices))
+    return ArrayStep(array, ctrl, system_v, batt_abs_v, pwm, dm, book.freeze(), tuple(notices))
 
 
 @dataclass(frozen=True)
@@ -319,6 +339,8 @@ class ArrayFigures:
     derates: dict[str, float]
     voc_cold: float
     vmp_hot: float
+    pwm: PwmVoltage
+    params: DiodeParams
 
 
 def _array_reasons(k: ArrayFigures) -> dict[str, Reason]:
@@ -337,7 +359,6 @@ def _array_reasons(k: ArrayFigures) -> dict[str, Reason]:
     ns = k.ns
     n_par = k.n_par
     string_w = k.string_w
-    system_v = k.system_v
     d = k.d
     ctrl_spec = k.ctrl_spec
     batt_rt = k.batt_rt
@@ -394,16 +415,29 @@ def _array_reasons(k: ArrayFigures) -> dict[str, Reason]:
         series=str(ns),
         parallel=str(n_par),
     )
-    book.add(
-        "array.derates.operating point",
-        "MPPT: 1; PWM: string voltage held at the "
-        "battery's charging voltage (1.1 x system voltage, plus the wiring drop) x Imp / "
-        "Pmax, at most 1",
-        "common practice, no source",
-        battery=fmt(system_v, "V"),
-        series=str(ns),
-        module_imp=fmt(m.imp_a, "A"),
-    )
+    if k.ctrl_spec.type == "mppt":
+        book.add(
+            "array.derates.operating point",
+            "MPPT: 1 (the controller holds the array at its maximum power point)",
+            "common practice, no source",
+        )
+    else:
+        pwm = k.pwm
+        book.add(
+            "array.derates.operating point",
+            "PWM: (operating voltage / modules in series) x the module current there at STC "
+            f"/ Pmax, at most 1; operating voltage: {PWM_ARRAY_SIDE_FORMULA}; battery side: "
+            f"{PWM_BATTERY_SIDE_FORMULA}",
+            "common practice, no source; module current: De Soto (2006) single-diode model",
+            operating_voltage=fmt(pwm.array_v, "V"),
+            battery_side=fmt(pwm.battery_v, "V"),
+            full_rest=fmt(pwm.full_rest_v, "V"),
+            absorption=fmt(pwm.absorption_v, "V"),
+            wiring_derate=fmt(d.wiring),
+            series=str(ns),
+            module_current=fmt(pwm_module_current_a(k.params, pwm.array_v, ns), "A"),
+            module_pmax=fmt(m.pmax_w, "W"),
+        )
     book.given("array.derates.mismatch", "choices.derates.mismatch", fmt(d.mismatch))
     book.given("array.derates.wiring", "choices.derates.wiring", fmt(d.wiring))
     book.given("array.derates.controller", "controller.efficiency", fmt(ctrl_spec.efficiency))

@@ -82,6 +82,14 @@ def cells_in_series(chemistry: str, system_voltage_v: float) -> float:
     return system_voltage_v / (2.0 if CHEMISTRIES[chemistry].lead_acid else 3.0)
 
 
+def absorption_voltage_v(chemistry: str, system_voltage_v: float) -> float:
+    """The bank's absorption (charging) voltage at 25 C [V]: the chemistry's per-cell value x
+    :func:`cells_in_series` (common practice, no source; check the battery's manual)."""
+    return CHEMISTRIES[chemistry].absorption_v_per_cell * cells_in_series(
+        chemistry, system_voltage_v
+    )
+
+
 def units_in_series(system_voltage_v: float, unit_voltage_v: float) -> int | None:
     """Whole number of units that make the system voltage, or None if they cannot.
 

@@ -13,7 +13,14 @@ from offgrid.design.battery import (
     capacity_temperature_factor,
     units_in_series,
 )
+from offgrid.design.charging import (
+    PEAK_CHARGE_FORMULA,
+    PEAK_CHARGE_SOURCE,
+    PwmVoltage,
+    peak_charge_current,
+)
 from offgrid.design.months import MONTHS, as_tuple
+from offgrid.design.pv import DiodeParams
 from offgrid.design.result import (
     ArrayResult,
     BatteryResult,
@@ -441,31 +448,57 @@ def _battery_notices(
 
 
 def charge_rate(
-    array: ArrayResult, ctrl: ControllerResult, battery: BatteryResult, module_imp_a: float
+    array: ArrayResult,
+    ctrl: ControllerResult,
+    battery: BatteryResult,
+    params: DiodeParams,
+    pwm: PwmVoltage,
 ) -> ChargeRateStep:
     """The array's peak charge current against what the bank takes (and, for lead-acid, needs).
 
-    Peak current: MPPT, array STC power x controller efficiency / system voltage; PWM,
-    strings x Imp; at most the controllers' ratings together.
+    Peak current (:func:`offgrid.design.charging.peak_charge_current`, the one model, also
+    the charge run's): MPPT, array STC power x controller efficiency / the bank's voltage;
+    PWM, strings x the I-V model's module current at the PWM operating voltage
+    (``pwm.array_v``) at STC; at most the controllers' ratings together.
     """
     from offgrid.design.battery import MAX_CHARGE_C_RATE, MIN_LEAD_ACID_CHARGE_C_RATE
 
     book = ReasonBook()
 
-    v = battery.bank_voltage_v or battery.system_voltage_v
-    if ctrl.type == "mppt":
-        i_array = array.power_w * ctrl.efficiency / v
-    else:
-        i_array = array.modules_parallel * module_imp_a
-    i_peak = min(i_array, ctrl.current_a * ctrl.count)
+    peak = peak_charge_current(
+        ctrl.type,
+        series=array.modules_series,
+        strings=array.modules_parallel,
+        module_pmax_w=array.module_power_w,
+        controller_efficiency=ctrl.efficiency,
+        bank_voltage_v=battery.bank_voltage_v,
+        system_voltage_v=battery.system_voltage_v,
+        rating_a=ctrl.current_a * ctrl.count,
+        params=params,
+        pwm_array_v=pwm.array_v,
+    )
+    i_peak = peak.current_a
     rate = i_peak / battery.capacity_ah
     top = MAX_CHARGE_C_RATE.get(battery.chemistry)
+    if ctrl.type == "mppt":
+        how = {
+            "array": fmt(array.power_w, "W"),
+            "controller_efficiency": fmt(ctrl.efficiency),
+            "bank_voltage": fmt(peak.voltage_v, "V"),
+        }
+    else:
+        how = {
+            "strings": str(array.modules_parallel),
+            "operating_voltage": fmt(peak.voltage_v, "V"),
+            "series": str(array.modules_series),
+            "module_current": fmt(peak.string_current_a, "A"),
+        }
     book.add(
         "battery.peak_charge_current_a",
-        "MPPT: array STC power x controller efficiency / "
-        "system voltage; PWM: strings x Imp; at most the controllers' ratings together",
-        "common practice, no source",
-        array=fmt(array.power_w, "W"),
+        PEAK_CHARGE_FORMULA,
+        PEAK_CHARGE_SOURCE,
+        **how,
+        array_current=fmt(peak.array_current_a, "A"),
         controllers=f"{ctrl.count} x {ctrl.current_a:g} A",
     )
     book.add(

@@ -226,7 +226,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         note, why = _raised_for_harvest(first, core.array.module_count, arr.controller.type)
         arr_notices.append(note)
         book.extend(why)
-    rate = charge_rate(arr.array, arr.controller, bat.battery, project.module.imp_a)
+    rate = charge_rate(arr.array, arr.controller, bat.battery, params, arr.pwm_voltage)
     book.extend(rate.reasons)
     battery = replace(
         bat.battery,

@@ -50,6 +50,7 @@ import numpy as np
 from offgrid.design import wiring as wr
 from offgrid.design.array_step import size_array
 from offgrid.design.battery_step import size_battery
+from offgrid.design.charging import pwm_operating_voltage
 from offgrid.design.electrical import (
     harvest_check,
     lay_out_strings,
@@ -360,7 +361,8 @@ def _front(p: Project, site, lr, arr, battery, inverter, params, reuse: StepReus
         float(arr.controller.current_a),
         controllers,
         vsys,
-        v_abs,
+        pwm_operating_voltage(battery.chemistry, vsys, float(p.choices.derates.wiring)),
+        float(battery.bank_voltage_v),
         layout,
         inverter,
         p.loads,

@@ -17,6 +17,7 @@ from __future__ import annotations
 
 from offgrid.design import cautions as cau
 from offgrid.design.battery import cells_in_series
+from offgrid.design.charging import pwm_operating_voltage
 from offgrid.design.electrical.cable_runs import (  # noqa: F401  (re-exported)
     LARGE_CONDUCTOR_MM2,
     NEC,
@@ -26,10 +27,9 @@ from offgrid.design.electrical.cable_runs import (  # noqa: F401  (re-exported)
     size_cables,
     wire_ambient_c,
 )
-from offgrid.design.electrical.harvest_compare import (  # noqa: F401  (re-exported)
+from offgrid.design.electrical.harvest_compare import (
     HarvestStep,
     compare_harvests,
-    pwm_charging_voltage_v,
 )
 from offgrid.design.electrical.operating_point import module_fit_step, noon_operating_point
 from offgrid.design.electrical.protection_schedule import protection_schedule
@@ -109,7 +109,7 @@ def harvest_check(project, core, params, layout, cables, noon, lim) -> HarvestSt
         vsys=float(core.battery.system_voltage_v),
         v_abs=float(core.battery.absorption_voltage_v),
         pwm_drop=lim.pwm_drop_v,
-        v_chg=cables.plan.charging_voltage_v,
+        pwm_voltage=cables.plan.pwm_voltage,
         eff=float(project.controller.efficiency),
         soiling=_derate(core, project, "soiling"),
         mismatch=_derate(core, project, "mismatch"),
@@ -154,7 +154,8 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         float(core.controller.current_a),
         controllers,
         vsys,
-        v_abs,
+        pwm_operating_voltage(core.battery.chemistry, vsys, _derate(core, project, "wiring")),
+        float(core.battery.bank_voltage_v),
         layout,
         core.inverter,
         project.loads,

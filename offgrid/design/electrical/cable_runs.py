@@ -11,9 +11,9 @@ from dataclasses import dataclass
 from offgrid.design import protection as prot
 from offgrid.design import strings as st
 from offgrid.design import wiring as wr
-from offgrid.design.electrical.harvest_compare import pwm_charging_voltage_v
+from offgrid.design.charging import PwmVoltage, peak_charge_current
 from offgrid.design.inverter_step import inverter_dc_current_a
-from offgrid.design.pv import DiodeParams, module_current
+from offgrid.design.pv import DiodeParams
 from offgrid.design.result import InverterResult, Notice, Reason, ReasonBook, fmt
 from offgrid.project.model import DesignChoices, Load, ModuleSpec, WiringChoices
 
@@ -28,10 +28,12 @@ WIRE_CURRENT_RULE = {
 }
 #: What each kind of run's operating (voltage-drop) current is, for its reason.
 WIRE_DROP_CURRENT_RULE = {
-    "string": "Imp of one string (MPPT) or the module current at the charging voltage (PWM), "
-    "at STC",
+    "string": "Imp of one string (MPPT) or the module current at the PWM operating voltage "
+    "(PWM), at STC",
     "array": "strings per controller x the string's operating current",
-    "charge": "the array's charge current at full sun, at most the controller's rating",
+    "charge": "the peak charge current of one controller's strings, at most its rating "
+    "(MPPT: STC power x efficiency / bank voltage; PWM: strings x the module current at "
+    "the PWM operating voltage, at STC)",
     "inverter": "the same as its maximum current (the inverter at its continuous rating at "
     "the low-voltage cut-off)",
     "load": "the same as its maximum current (quantity x power / system voltage)",
@@ -48,7 +50,7 @@ class RunPlan:
     charge_fuse_a: float
     battery_fuse_a: float | None  # the inverter circuit's, None without an inverter
     charge_max_current_a: float  # each controller's battery output, for its fuse
-    charging_voltage_v: float  # the battery voltage a PWM array works against
+    pwm_voltage: PwmVoltage  # what a PWM array works against (battery and array side)
 
 
 @dataclass(frozen=True)
@@ -110,7 +112,8 @@ def plan_runs(
     controller_current_a: float,
     controllers: int,
     vsys: float,
-    v_abs: float,
+    pwm: PwmVoltage,
+    bank_voltage_v: float,
     layout: st.Layout,
     inverter: InverterResult,
     loads: list[Load],
@@ -118,27 +121,35 @@ def plan_runs(
     choices: DesignChoices,
 ) -> RunPlan:
     """Every run of the system (strings, array, charge, inverter, DC loads) with its maximum
-    and operating currents, circuit voltage, length, drop limit and fuse."""
+    and operating currents, circuit voltage, length, drop limit and fuse.
+
+    ``pwm``: the PWM operating voltage (:func:`offgrid.design.charging.pwm_operating_voltage`);
+    the charge run's operating current is one controller's peak charge current
+    (:func:`offgrid.design.charging.peak_charge_current`, MPPT at ``bank_voltage_v``)."""
     # Runs and their currents.
     isc, imp = module.isc_a, module.imp_a
     n_c = layout.strings_per_controller
-    v_chg = pwm_charging_voltage_v(vsys, v_abs)
+    peak = peak_charge_current(
+        ctype,
+        series=layout.series,
+        strings=n_c,
+        module_pmax_w=module.pmax_w,
+        controller_efficiency=controller_efficiency,
+        bank_voltage_v=bank_voltage_v,
+        system_voltage_v=vsys,
+        rating_a=controller_current_a,
+        params=params,
+        pwm_array_v=pwm.array_v,
+    )
     if ctype == "pwm":
-        i_pwm_stc = float(module_current(params, v_chg / layout.series, 1000.0, 25.0))
-        v_array, i_op_str = v_chg, i_pwm_stc
+        v_array, i_op_str = pwm.array_v, peak.string_current_a
     else:
         v_array, i_op_str = layout.series * module.vmp_v, imp
     fuses_needed = prot.string_fuses_needed(n_c, isc, wiring.module_max_fuse_a)
     string_fuse = (
         prot.string_fuse_rating_a(isc, wiring.module_max_fuse_a) if (fuses_needed) else None
     )
-    eff = float(controller_efficiency)
-    p_sub_stc = layout.series * n_c * module.pmax_w
-    i_charge_op = min(
-        p_sub_stc * (eff if ctype == "mppt" else 1.0) / vsys, float(controller_current_a)
-    )
-    if ctype == "pwm":
-        i_charge_op = min(n_c * i_pwm_stc, float(controller_current_a))
+    i_charge_op = peak.current_a
     i_charge_max = max(float(controller_current_a), i_charge_op)
     limits = choices
     runs: list[wr.RunSpec] = []
@@ -227,7 +238,7 @@ def plan_runs(
         charge_fuse,
         battery_fuse,
         i_charge_max,
-        v_chg,
+        pwm,
     )
 
 

@@ -9,6 +9,7 @@ import numpy as np
 
 from offgrid.design import strings as st
 from offgrid.design import wiring as wr
+from offgrid.design.charging import PWM_BATTERY_SIDE_FORMULA, PWM_VOLTAGE_SOURCE, PwmVoltage
 from offgrid.design.electrical.records import HarvestResult
 from offgrid.design.harvest import HarvestInputs, harvest_wh_day
 from offgrid.design.months import MONTHS as MONTH_NAMES
@@ -22,14 +23,6 @@ class HarvestStep:
     harvest: HarvestResult
     reasons: dict[str, Reason]
     notices: tuple[Notice, ...]
-
-
-def pwm_charging_voltage_v(system_voltage_v: float, absorption_v: float) -> float:
-    """Battery voltage a PWM array works against: mean of full-rest and absorption voltage.
-
-    Full rest taken as 1.05 x nominal (2.1 V per lead-acid cell); common practice, no source.
-    """
-    return 0.5 * (1.05 * system_voltage_v + absorption_v)
 
 
 def compare_harvests(
@@ -47,7 +40,7 @@ def compare_harvests(
     vsys: float,
     v_abs: float,
     pwm_drop: float,
-    v_chg: float,
+    pwm_voltage: PwmVoltage,
     eff: float,
     soiling: float,
     mismatch: float,
@@ -57,10 +50,13 @@ def compare_harvests(
     """Harvest through the chosen controller on its layout and through the other type on
     its own best layout of the same modules (``noon``: the mean-day profile of
     :func:`offgrid.design.electrical.operating_point.noon_operating_point`;
-    ``design_month``: 0-based)."""
+    ``design_month``: 0-based).  ``pwm_voltage``: the one PWM operating voltage
+    (:func:`offgrid.design.charging.pwm_operating_voltage`); the curves take its battery
+    side and the sized cables' resistance as the drop."""
     from offgrid.design.electrical.string_layout import other_layout
 
     rb = ReasonBook()
+    v_chg = pwm_voltage.battery_v
     notices: list[Notice] = []
     m = design_month
     # Harvest both ways with the chosen cables; the other controller type on its own layout.
@@ -123,6 +119,7 @@ def compare_harvests(
                 mismatch=mismatch,
                 v_chg=v_chg,
                 pwm_layout=pwm_layout,
+                pwm_voltage=pwm_voltage,
             )
         )
     )
@@ -232,12 +229,12 @@ class HarvestFigures:
     mismatch: float
     v_chg: float
     pwm_layout: st.Layout
+    pwm_voltage: PwmVoltage
 
 
 def _harvest_reasons(k: HarvestFigures) -> dict[str, Reason]:
     """Reasons of the charging voltage, both harvests, their layouts and the shortfall."""
     vsys = k.vsys
-    v_abs = k.v_abs
     pwm = k.pwm
     m = k.m
     n_pwm = k.n_pwm
@@ -262,11 +259,12 @@ def _harvest_reasons(k: HarvestFigures) -> dict[str, Reason]:
     )
     rb.add(
         "harvest.charging_voltage_v",
-        "battery voltage a PWM array works against: mean of "
-        "full rest (1.05 x nominal) and absorption voltage",
-        "common practice, no source",
+        "battery voltage a PWM array works against (the battery side of the PWM operating "
+        f"voltage): {PWM_BATTERY_SIDE_FORMULA}; the I-V curves add the sized cables' drop",
+        PWM_VOLTAGE_SOURCE,
         nominal=fmt(vsys, "V"),
-        absorption=fmt(v_abs, "V"),
+        full_rest=fmt(k.pwm_voltage.full_rest_v, "V"),
+        absorption=fmt(k.pwm_voltage.absorption_v, "V"),
     )
     rb.add(
         "harvest.pwm_vs_mppt_pct",
