@@ -2,6 +2,13 @@
 
 Targets (issue: backbone): design() < 50 ms after imports; the whole command < 1.5 s.
 Run: python benchmarks/bench_design.py
+
+Measured 2026-12-02, after the one PWM operating voltage and peak charge current
+(offgrid/design/charging.py), at a load average of 5.4-5.7 on the shared 2-core machine:
+design() median 49.8 ms (wall), `offgrid size --demo --json` best 0.95 s; CPU time of
+design() against the commit before, median of 40, load ~5: demo 32.5-33.4 ms (was
+33.7-33.8), its PWM variant 31.6-34.5 ms (33.3-33.5), 36-cell 12 V PWM 15.2-17.7 ms
+(16.3-17.7): no change beyond the noise.
 """
 
 from __future__ import annotations
