@@ -147,9 +147,19 @@ def test_agm_12v_worked_numbers():
     # Well below Vmp the module gives a little more than Imp (5.56 A) and less than Isc
     # (5.9 A): the datasheet's own bounds.
     assert p.module.imp_a < i_ref < p.module.isc_a
-    # operating-point factor 13.905 x I / 100 W (the old chain had 13.596 x 5.56 / 100 =
-    # 0.756).
+    # pvlib 0.16.1's i_from_v gives I(13.905 V) = 5.849 A at STC.
+    assert i_ref == pytest.approx(5.849, abs=5e-4)
+    # operating-point factor 13.905 V x 5.849 A / 100 W = 0.8133 (the old chain had
+    # 13.596 V x Imp 5.56 A / 100 W = 0.756).
     assert d.array.derates["operating point"] == pytest.approx(13.905 * i_ref / 100.0, rel=1e-6)
+    assert d.array.derates["operating point"] == pytest.approx(0.8133, abs=5e-4)
+    # 12 strings on two 60 A controllers, 6 strings each: peak = 12 x 5.849 = 70.19 A
+    # (under 2 x 60 A); the charge run 6 x 5.849 = 35.10 A; 70.19 = 2 x 35.10.
+    assert (d.array.modules_parallel, d.controller.count) == (12, 2)
+    assert d.controller.current_a == 60.0
+    wires = {w.key: w for w in d.electrical.wires}
+    assert d.battery.peak_charge_current_a == pytest.approx(70.19, abs=0.01)
+    assert wires["charge"].operating_current_a == pytest.approx(35.10, abs=0.01)
 
 
 @pytest.mark.parametrize("series", [1, 2, 3])
