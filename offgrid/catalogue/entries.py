@@ -1,7 +1,11 @@
-"""The two kinds of catalogue entry: a project input and a design figure (plain data)."""
+"""The kinds of catalogue entry (plain data): a project input, a design figure, a row
+whose label carries figures (:class:`CompositeEntry`) and a table of figures
+(:class:`TableEntry`)."""
 
 from __future__ import annotations
 
+import string
+from collections.abc import Callable
 from dataclasses import dataclass
 
 #: Longest input label: the text UI's field tables give the label 22 characters.
@@ -84,3 +88,63 @@ class FigureEntry:
         d = self.digits if digits is None else digits
         number = f"{self.shown(value):,.{d if d is not None else 2}f}"
         return f"{number} {self.unit_in(currency)}".strip()
+
+
+@dataclass(frozen=True)
+class CompositeEntry:
+    """A row whose label carries computed numbers, e.g. ``Upkeep {upkeep} x PWF {pwf}``.
+
+    ``label`` is a template whose named placeholders are filled from ``parts``: each
+    name maps to the path of a figure that is itself a catalogue entry, and is shown as
+    that figure's :meth:`FigureEntry.text` (number, digits, scale and unit).  ``value``
+    is the path of the figure the row shows beside its label (empty for a line of
+    prose); its reason explains the row.
+    """
+
+    id: str
+    label: str
+    parts: tuple[tuple[str, str], ...]
+    value: str = ""
+
+    @property
+    def names(self) -> tuple[str, ...]:
+        """The placeholder names the template uses, in order."""
+        return tuple(f for _, f, _, _ in string.Formatter().parse(self.label) if f)
+
+    def fill(
+        self,
+        value_of: Callable[[str], float | None],
+        figure: Callable[[str], FigureEntry],
+        currency: str = "",
+    ) -> str:
+        """The label with each placeholder replaced by its figure's text; ``value_of``
+        gives a figure's stored value by path ('-' where it is None), ``figure`` the
+        catalogue entry at a path (:func:`offgrid.catalogue.figure_entry`)."""
+        paths = dict(self.parts)
+        texts: dict[str, str] = {}
+        for name in self.names:
+            v = value_of(paths[name])
+            e = figure(paths[name])
+            texts[name] = "-" if v is None else e.text(float(v), currency=currency)
+        return self.label.format_map(texts)
+
+
+@dataclass(frozen=True)
+class TableEntry:
+    """A table of figures: an id, its title and its rows (or columns) as figure paths.
+
+    ``figures`` are catalogue paths (``reliability.months[].lolp``); each is shown under
+    its own label and unit (:meth:`heading`), so the table says what the figure rows
+    elsewhere say.  ``note`` is the table's caption.
+    """
+
+    id: str
+    title: str
+    figures: tuple[str, ...]
+    note: str = ""
+
+    @staticmethod
+    def heading(entry: FigureEntry, currency: str = "") -> str:
+        """A row or column heading: the figure's label and unit (``LOLP %``)."""
+        unit = entry.unit_in(currency)
+        return f"{entry.label} {unit}".strip()

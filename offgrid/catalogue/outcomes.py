@@ -58,13 +58,37 @@ HYBRID_FIGURES: tuple[Fig, ...] = (
     Fig("hybrid.wear.expected_life_years", "Battery expected life", "years", 1),
 )
 
+#: The monthly figures of the simulation (``offgrid simulate --json``: ``months[k].lolp``),
+#: one row each of the table ``reliability-months`` (:mod:`offgrid.catalogue.composites`),
+#: explained by the record's reason ``months.lolp``.  Their heading (label and unit) fits
+#: the 7 Risk section's month strip (:data:`MONTH_LABEL_ROOM`).
+MONTH_FIGURES: tuple[Fig, ...] = (
+    Fig("reliability.months[].lolp", "LOLP", "%", 1, "reliability.months.lolp", scale=100.0),
+    Fig("reliability.months[].soc_min_p5", "SoC p5", "%", 0, "reliability.months.soc_min",
+        scale=100.0),
+    Fig("reliability.months[].soc_min_p50", "SoC p50", "%", 0, "reliability.months.soc_min",
+        scale=100.0),
+    Fig("reliability.months[].soc_min_p95", "SoC p95", "%", 0, "reliability.months.soc_min",
+        scale=100.0),
+)  # fmt: skip
+
+#: Longest heading (label and unit) of a monthly row: the month strip's label column.
+MONTH_LABEL_ROOM = 11
+
 COST_FIGURES: tuple[Fig, ...] = (
+    Fig("costs.parts", "Parts", "{currency}", 2),
+    Fig("costs.installation", "Installation", "{currency}", 2),
     Fig("costs.capital", "Capital cost", "{currency}", 2),
     Fig("costs.replacements_pw", "Replacements, present worth", "{currency}", 2),
     Fig("costs.lcc", "Lifecycle cost", "{currency}", 2),
     Fig("costs.energy_kwh_year", "Energy delivered per year", "kWh", 0),
     Fig("costs.cost_per_kwh", "Cost per kWh delivered", "{currency}/kWh", 3),
     Fig("costs.battery_life_years", "Battery life", "years", 1),
+    Fig("costs.upkeep_yearly", "Upkeep per year", "{currency}/year", 2),
+    Fig("costs.upkeep_pw", "Upkeep, present worth", "{currency}", 2),
+    Fig("costs.pwf_upkeep", "Present worth factor, upkeep", "", 3),
+    Fig("costs.pwf_energy", "Present worth factor, energy", "", 3),
+    Fig("costs.energy_pw_kwh", "Discounted energy over the life", "kWh", 0),
 )
 
 

@@ -17,7 +17,16 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from offgrid.catalogue import figure_entry, find_figure, find_input, key_figures
+from offgrid.catalogue import (
+    FIGURE_GROUPS,
+    composite,
+    figure_entry,
+    fill,
+    find_figure,
+    find_input,
+    key_figures,
+    table_entry,
+)
 from offgrid.catalogue.outcomes import RELIABILITY_FIGURES, outcome_key, outcome_value
 from offgrid.climate.model import MonthlyClimate
 from offgrid.design.cautions import DEFERS_TO_CODE
@@ -109,19 +118,8 @@ GROUP_ORDER = (
     "wires",
     "protection",
 )
-GROUP_TITLES = {
-    "site": "Site and sun",
-    "loads": "Loads",
-    "array": "Array",
-    "battery": "Battery",
-    "controller": "Charge controller",
-    "inverter": "Inverter",
-    "module": "Module model",
-    "mpp": "Maximum power point, design month",
-    "strings": "String window",
-    "wires": "Cables",
-    "protection": "Protection",
-}
+#: The headings of the figure groups: the catalogue's (offgrid/catalogue/composites.py).
+GROUP_TITLES = FIGURE_GROUPS
 
 # ----------------------------------------------------------------------------- formatting
 
@@ -562,7 +560,7 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
         (None, lr.dc_energy_wh, "loads.dc_energy_wh"),
         (None, lr.inverter_loss_wh, "loads.inverter_loss_wh"),
         (None, idle, "loads.inverter_idle_by_month_wh"),
-        (f"Growth {lr.growth_pct:g} %", growth, None),
+        (fill("loads.growth_row", lr), growth, None),
         (None, lr.daily_energy_wh, "loads.daily_energy_wh"),
     ):
         mrows.append(_month_row(label or figure_entry(path).label, vals, path))
@@ -734,9 +732,10 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
                 ),
             )
         )
+    pwm_vs_mppt = figure_entry("electrical.harvest.pwm_vs_mppt_pct")
     rows.append(
         (
-            _c("PWM against MPPT per module, design month"),
+            _c(pwm_vs_mppt.label),
             Cell(
                 f"{harvest.pwm_vs_mppt_pct:+.1f} %",
                 float(harvest.pwm_vs_mppt_pct),
@@ -1111,16 +1110,10 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
     rows2 = [
         _cost_row(cost, "costs.capital"),
         _cost_row(cost, "costs.replacements_pw"),
-        (
-            _c(f"Upkeep {money(cost.upkeep_yearly, cur)}/year x PWF {cost.pwf_upkeep:.3f}"),
-            Cell(money(cost.upkeep_pw, cur), cost.upkeep_pw, "costs.upkeep_pw"),
-        ),
+        _composite_row(cost, "costs.upkeep_row"),
         _cost_row(cost, "costs.lcc"),
         energy_row,
-        (
-            _c(f"Discounted energy (x PWF {cost.pwf_energy:.3f})"),
-            _c(f"{cost.energy_pw_kwh:,.0f} kWh"),
-        ),
+        _composite_row(cost, "costs.discounted_energy_row"),
         _cost_row(cost, "costs.cost_per_kwh"),
     ]
     blocks.append(Table("lifecycle", ("Item", "Value"), tuple(rows2), ("l", "r"), wrap=(0,)))
@@ -1141,6 +1134,29 @@ def _cost_row(cost: LifecycleCost, path: str) -> tuple[Cell, Cell]:
     v = outcome_value(cost, path)
     text = "-" if v is None else e.text(float(v), currency=cost.currency)
     return _c(e.label), Cell(text, v, path)
+
+
+def _composite_row(cost: LifecycleCost, entry_id: str) -> tuple[Cell, Cell]:
+    """A lifecycle row whose label carries figures: the catalogue's template filled, and
+    the value of the figure it names (offgrid/catalogue/composites.py)."""
+    row = composite(entry_id)
+    label = fill(entry_id, cost, cost.currency)
+    _, value = _cost_row(cost, row.value)
+    return _c(label), value
+
+
+def _month_table_rows(months, table_id: str) -> tuple[tuple[Cell, ...], ...]:
+    """The rows of a catalogue table of monthly figures (``reliability-months``): each
+    row's heading and digits its figure's, each month's value scaled as the figure says."""
+    from offgrid.catalogue import TableEntry
+
+    rows = []
+    for path in table_entry(table_id).figures:
+        e = figure_entry(path)
+        name = path.rsplit(".", 1)[1]
+        values = [e.shown(getattr(m, name)) for m in months]  # a field named in the table
+        rows.append(_month_row(TableEntry.heading(e), values, None, e.digits or 0))
+    return tuple(rows)
 
 
 def _reliability(ri: ReportInputs) -> Section | None:
@@ -1185,20 +1201,14 @@ def _reliability(ri: ReportInputs) -> Section | None:
         blocks.append(Figures(tuple(items), "Reliability figures"))
     months = rel.months
     if len(months) == 12:
-        rows = [
-            _month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
-            _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
-            _month_row("SoC p50 %", [100 * m.soc_min_p50 for m in months], None),
-            _month_row("SoC p95 %", [100 * m.soc_min_p95 for m in months], None),
-        ]
+        table = table_entry("reliability-months")
         blocks.append(
             Table(
-                "reliability-months",
+                table.id,
                 ("", *MONTHS),
-                tuple(rows),
+                _month_table_rows(months, table.id),
                 ("l",) + ("r",) * 12,
-                "By month: share of days with shedding, and the 5th, 50th and 95th "
-                "percentiles of the day's lowest state of charge.",
+                table.note,
             )
         )
         worst = rel.worst_year_soc_min

@@ -270,6 +270,20 @@ def _reasons(
         _SRC_BAL,
         threshold=fmt(thr),
     )
+    # the monthly table (catalogue table ``reliability-months``)
+    book.add(
+        "months.lolp",
+        "days of the month with any load shed / days of that month simulated",
+        _SRC_BAL,
+        days=days,
+    )
+    book.add(
+        "months.soc_min",
+        "5th, 50th and 95th percentiles of the day's lowest state of charge over the "
+        "days of the month (numpy.percentile, linear)",
+        _SRC_BAL,
+        days=days,
+    )
     book.add(
         "wear.equivalent_full_cycles_per_year",
         "energy delivered by the battery / nominal capacity / years",

@@ -121,6 +121,37 @@ def risk_row(rel: Any, path: str, extra: str = "") -> tuple[str, str, Any, str]:
     return e.label, text, rel.reasons.get(outcome_key(e.explained_by)), extra
 
 
+#: The monthly rows of the strip under the figures: the catalogue table's first two.
+STRIP_ROWS = 2
+
+
+def month_strip_rows(months) -> list[tuple[str, list[str]]]:
+    """(heading, twelve texts) of each row of the month strip: the catalogue table
+    ``reliability-months`` (offgrid/catalogue/composites.py), its figures' headings and
+    digits, the lowest state of charge's 5th percentile after the LOLP."""
+    from offgrid.catalogue import TableEntry, table_entry
+
+    rows = []
+    for path in table_entry("reliability-months").figures[:STRIP_ROWS]:
+        e = figure_entry(path)
+        name = path.rsplit(".", 1)[1]
+        values = [e.shown(getattr(m, name)) for m in months]  # a field named in the table
+        rows.append((TableEntry.heading(e), [f"{v:.{e.digits or 0}f}" for v in values]))
+    return rows
+
+
+def month_strip(months) -> Text:
+    text = Text(no_wrap=True, overflow="crop")
+    text.append(f"{'':<12}", style="bold")
+    for m in MONTHS:
+        text.append(f"{m:>5}", style="bold")
+    for heading, values in month_strip_rows(months):
+        text.append(f"\n{heading:<12}")
+        for v in values:
+            text.append(f"{v:>5}")
+    return text
+
+
 class RiskSection(Section):
     section_id = "risk"
     help_text = (
@@ -239,17 +270,7 @@ class RiskSection(Section):
             self._rows.append((label, value, reason, extra))
         if table.row_count:
             table.move_cursor(row=min(keep, table.row_count - 1), animate=False)
-        text = Text(no_wrap=True, overflow="crop")
-        text.append(f"{'LOLP %':<12}", style="bold")
-        for m in MONTHS:
-            text.append(f"{m:>5}", style="bold")
-        text.append(f"\n{'':<12}")
-        for ms in r.months:
-            text.append(f"{100 * ms.lolp:>5.1f}")
-        text.append(f"\n{'SoC low p5':<12}")
-        for ms in r.months:
-            text.append(f"{100 * ms.soc_min_p5:>5.0f}")
-        strip.update(text)
+        strip.update(month_strip(r.months))
 
     # ------------------------------------------------------------------ running
     def action_run(self) -> None:
