@@ -29,6 +29,7 @@ import re
 from offgrid.catalogue.composites import (
     COMPOSITES,
     COMPOSITES_BY_ID,
+    EACH_RUN_LABEL,
     FIGURE_GROUPS,
     TABLES,
     TABLES_BY_ID,
@@ -51,6 +52,7 @@ from offgrid.catalogue.outcomes import (
     HYBRID_FIGURES,
     MONTH_FIGURES,
     RELIABILITY_FIGURES,
+    TRADEOFF_FIGURES,
 )
 from offgrid.catalogue.stock import STOCK_INPUTS
 from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
@@ -58,6 +60,7 @@ from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
 __all__ = [
     "COMPOSITES",
     "COST_FIGURES",
+    "EACH_RUN_LABEL",
     "FIGURES",
     "FIGURE_GROUPS",
     "FIGURE_LABEL_ROOM",
@@ -102,6 +105,7 @@ FIGURES: tuple[FigureEntry, ...] = (
     *GENERATOR_FIGURES,
     *RELIABILITY_FIGURES,
     *MONTH_FIGURES,
+    *TRADEOFF_FIGURES,
     *HYBRID_FIGURES,
     *COST_FIGURES,
     *GENERATOR_COST_FIGURES,
@@ -181,13 +185,13 @@ def table_entry(entry_id: str) -> TableEntry:
         raise KeyError(f"{entry_id}: not a table of offgrid/catalogue/composites.py") from None
 
 
-def fill(entry_id: str, record: object, currency: str = "") -> str:
+def fill(entry_id: str, record: object, currency: str = "", **words: str) -> str:
     """The composite row ``entry_id`` filled from ``record`` (a ``LifecycleCost``, a
-    ``Reliability``): each placeholder's figure read at its path of the record."""
+    ``Reliability``): each placeholder's figure read at its path of the record, the word
+    placeholders from ``words``."""
     from offgrid.catalogue.outcomes import outcome_value
 
-    return composite(entry_id).fill(
-        lambda path: outcome_value(record, path),
-        figure_entry,
-        currency,  # type: ignore[arg-type]
-    )
+    def value_of(path: str):
+        return outcome_value(record, path)
+
+    return composite(entry_id).fill(value_of, figure_entry, currency, **words)

@@ -31,6 +31,20 @@ COMPOSITES: tuple[CompositeEntry, ...] = (
     ),
     # the report's energy-by-month table: the growth margin's row
     CompositeEntry("loads.growth_row", "Growth {growth}", (("growth", "loads.growth_pct"),)),
+    # the trade-off's cheapest point (report table, 7 Risk)
+    CompositeEntry(
+        "tradeoff.point",
+        "{array}, {battery}",
+        (("array", "tradeoff.points[].array_w"), ("battery", "tradeoff.points[].capacity_wh")),
+    ),
+    # the variants table and the Options section: the battery life and its method
+    CompositeEntry(
+        "costs.battery_life_method",
+        "{label}, {method}",
+        (),
+        "costs.battery_life_years",
+        words=("method",),
+    ),
     # one line of prose: the Options section's note on a priced option
     CompositeEntry(
         "costs.sums_note",
@@ -51,10 +65,104 @@ COMPOSITES: tuple[CompositeEntry, ...] = (
     ),
 )
 
+#: The heading of a cable figure's reason in the report (one reason per column of the
+#: cable schedule, every run's inputs under it): the figure's own label in ``{label}``.
+EACH_RUN_LABEL = "{label} of each run"
+
 TABLES: tuple[TableEntry, ...] = (
+    # the report's tables of the design (offgrid/report/build.py)
+    TableEntry(
+        "energy-by-month",
+        "Wh/day",
+        (
+            "loads.per_load_wh",
+            "loads.ac_energy_wh",
+            "loads.dc_energy_wh",
+            "loads.inverter_loss_wh",
+            "loads.inverter_idle_by_month_wh",
+            "loads.daily_energy_wh",
+        ),
+        "Daily energy by month, Wh/day: each appliance line at the appliance, "
+        "then the totals up to the battery.",
+    ),
+    TableEntry(
+        "supply-demand",
+        "",
+        (
+            "loads.daily_energy_wh",
+            "array.supply_wh_day",
+            "array.harvest_mppt_wh_day",
+            "array.harvest_pwm_wh_day",
+            "site.demand_to_sun",
+        ),
+        "Demand and array supply at the battery (supply: the worst-month "
+        "derate chain; harvest: from the I-V curves through the day, where "
+        "computed); demand/sun in Wh per kWh/m2 of array-plane insolation.",
+    ),
+    TableEntry(
+        "mpp",
+        "One module, design month",
+        (
+            "mpp.irradiance_w_m2",
+            "mpp.cell_temp_c",
+            "mpp.vmp_v",
+            "mpp.imp_a",
+            "mpp.pmp_w",
+            "mpp.fill_factor",
+            "electrical.harvest.pwm_vs_mppt_pct",
+        ),
+    ),
+    # columns: one row per cable run
+    TableEntry(
+        "wiring",
+        "Run",
+        (
+            "wires[].count",
+            "wires[].current_a",
+            "wires[].drop_current_a",
+            "wires[].length_m",
+            "wires[].size",
+            "wires[].drop_pct",
+            "wires[].ampacity_a",
+            "wires[].fuse_a",
+        ),
+        "max A: the circuit's maximum continuous current, for ampacity and the "
+        "fuse (NEC 690.8 for PV circuits); drop A: the operating current; length "
+        "one-way; drop = 2 x length x drop A x resistance per metre at conductor "
+        "temperature / circuit voltage; ampacity after the temperature and grouping "
+        "corrections.",
+    ),
+    TableEntry(
+        "derates",
+        "Derate (fraction kept)",
+        (
+            "array.derates.temperature",
+            "array.derates.operating point",
+            "array.derates.soiling",
+            "array.derates.mismatch",
+            "array.derates.wiring",
+            "array.derates.controller",
+            "array.derates.battery round trip",
+            "array.derate_total",
+        ),
+    ),
+    # the simulation's (the report, 7 Risk, offgrid simulate)
+    TableEntry(
+        "tradeoff",
+        "Array and battery for a target LOLP",
+        (
+            "tradeoff.targets[].target",
+            "tradeoff.targets[].design_meets",
+            "tradeoff.targets[].design_capacity_needed_wh",
+            "tradeoff.targets[].cheapest",
+        ),
+        "Met: this design meets the target. Battery needed: on the curve at this "
+        "design's array size. Cheapest point: array and battery alone, priced "
+        "per W of module and per kWh of battery unit from the price list.",
+    ),
     TableEntry(
         "reliability-months",
-        "Reliability by month",
+        "",
         (
             "reliability.months[].lolp",
             "reliability.months[].soc_min_p5",
@@ -80,6 +188,8 @@ FIGURE_GROUPS: dict[str, str] = {
     "module": "Module model",
     "mpp": "Maximum power point, design month",
     "strings": "String window",
+    "harvest": "Harvest, PWM and MPPT",
+    "iv_curve": "I-V curve, design month",
     "wires": "Cables",
     "protection": "Protection",
 }

@@ -51,7 +51,9 @@ class FigureEntry:
     that explains it when that is not its own (a composite row); ``key``: one of the
     report's key figures.  ``scale``: the stored value times this is the shown one (a
     fraction shown in %: 100; W shown in kW: 1e-3), in ``unit``; a ``{currency}`` in the
-    unit is the project's currency, filled in at display (:meth:`unit_in`).
+    unit is the project's currency, filled in at display (:meth:`unit_in`).  ``short``:
+    the word a narrow table's column heading uses instead of the label (``Max`` of
+    ``Maximum continuous current``; :meth:`column`).
     """
 
     path: str
@@ -61,6 +63,7 @@ class FigureEntry:
     reason: str | None = None
     key: bool = False
     scale: float = 1.0
+    short: str = ""
 
     @property
     def reason_key(self) -> str:
@@ -77,6 +80,16 @@ class FigureEntry:
     def unit_in(self, currency: str = "") -> str:
         """The unit with the project's currency in place of ``{currency}``."""
         return self.unit.replace("{currency}", currency).strip()
+
+    def heading(self, currency: str = "") -> str:
+        """A table row's heading: the label and the unit (``Battery energy, usable (kWh)``)."""
+        unit = self.unit_in(currency)
+        return f"{self.label} ({unit})" if unit else self.label
+
+    def column(self, currency: str = "") -> str:
+        """A narrow table's column heading: the short word (else the label) and the unit
+        (``Max A``)."""
+        return f"{self.short or self.label} {self.unit_in(currency)}".strip()
 
     def shown(self, value: float) -> float:
         """The stored value as shown: times ``scale`` (0.0123 -> 1.23 %)."""
@@ -98,13 +111,16 @@ class CompositeEntry:
     name maps to the path of a figure that is itself a catalogue entry, and is shown as
     that figure's :meth:`FigureEntry.text` (number, digits, scale and unit).  ``value``
     is the path of the figure the row shows beside its label (empty for a line of
-    prose); its reason explains the row.
+    prose); its reason explains the row, and ``{label}`` in the template is its label.
+    ``words`` name the placeholders that are words, not figures (a method, a name),
+    given by the view that fills the row.
     """
 
     id: str
     label: str
     parts: tuple[tuple[str, str], ...]
     value: str = ""
+    words: tuple[str, ...] = ()
 
     @property
     def names(self) -> tuple[str, ...]:
@@ -116,16 +132,23 @@ class CompositeEntry:
         value_of: Callable[[str], float | None],
         figure: Callable[[str], FigureEntry],
         currency: str = "",
+        **words: str,
     ) -> str:
         """The label with each placeholder replaced by its figure's text; ``value_of``
         gives a figure's stored value by path ('-' where it is None), ``figure`` the
-        catalogue entry at a path (:func:`offgrid.catalogue.figure_entry`)."""
+        catalogue entry at a path (:func:`offgrid.catalogue.figure_entry`); ``words``
+        the texts of the word placeholders."""
         paths = dict(self.parts)
         texts: dict[str, str] = {}
         for name in self.names:
-            v = value_of(paths[name])
-            e = figure(paths[name])
-            texts[name] = "-" if v is None else e.text(float(v), currency=currency)
+            if name == "label" and self.value:
+                texts[name] = figure(self.value).label
+            elif name in self.words:
+                texts[name] = words[name]
+            else:
+                v = value_of(paths[name])
+                e = figure(paths[name])
+                texts[name] = "-" if v is None else e.text(float(v), currency=currency)
         return self.label.format_map(texts)
 
 
@@ -133,18 +156,14 @@ class CompositeEntry:
 class TableEntry:
     """A table of figures: an id, its title and its rows (or columns) as figure paths.
 
-    ``figures`` are catalogue paths (``reliability.months[].lolp``); each is shown under
-    its own label and unit (:meth:`heading`), so the table says what the figure rows
-    elsewhere say.  ``note`` is the table's caption.
+    ``figures`` are catalogue paths (``reliability.months[].lolp``); a row of figures
+    is headed by its figure's label and unit (:meth:`FigureEntry.heading`), a column by
+    its short word and unit (:meth:`FigureEntry.column`), so the table says what the
+    figure rows elsewhere say.  ``title`` heads the label column (or the table);
+    ``note`` is the table's caption.
     """
 
     id: str
     title: str
     figures: tuple[str, ...]
     note: str = ""
-
-    @staticmethod
-    def heading(entry: FigureEntry, currency: str = "") -> str:
-        """A row or column heading: the figure's label and unit (``LOLP %``)."""
-        unit = entry.unit_in(currency)
-        return f"{entry.label} {unit}".strip()

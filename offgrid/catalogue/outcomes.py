@@ -72,6 +72,24 @@ MONTH_FIGURES: tuple[Fig, ...] = (
         scale=100.0),
 )  # fmt: skip
 
+#: Each target LOLP of the array-battery trade-off (``SimulationReport.tradeoff``:
+#: :class:`offgrid.simulate.tradeoff.TargetResult`), one row per target of the table
+#: ``tradeoff`` (report) and of the 7 Risk section, explained by
+#: :data:`offgrid.simulate.tradeoff.TRADEOFF_REASONS` at the path less ``tradeoff.``.
+TRADEOFF_FIGURES: tuple[Fig, ...] = (
+    Fig("tradeoff.targets[].target", "Target LOLP", "%", 3, "tradeoff.targets.target",
+        scale=100.0),
+    Fig("tradeoff.targets[].design_meets", "Met by this design", "", None,
+        "tradeoff.targets.design_meets", short="Met"),
+    Fig("tradeoff.targets[].design_capacity_needed_wh", "Battery needed at this array",
+        "kWh", 1, "tradeoff.targets.design_capacity_needed_wh", scale=1e-3,
+        short="Battery needed"),
+    Fig("tradeoff.targets[].cheapest", "Cheapest point", "", None, "tradeoff.targets.cheapest"),
+    Fig("tradeoff.points[].array_w", "Array on the curve", "W", 0, "tradeoff.targets.cheapest"),
+    Fig("tradeoff.points[].capacity_wh", "Battery on the curve", "kWh", 1,
+        "tradeoff.targets.cheapest", scale=1e-3),
+)  # fmt: skip
+
 #: Longest heading (label and unit) of a monthly row: the month strip's label column.
 MONTH_LABEL_ROOM = 11
 
@@ -110,7 +128,7 @@ def outcome_key(path: str) -> str:
     -> ``wear.expected_life_years`` (``Reliability.reasons``; ``hybrid.``: ``HybridRun``); a
     cost row keeps its path (``LifecycleCost.reasons``)."""
     head, _, rest = path.partition(".")
-    return rest if head in {"reliability", "hybrid", "generator_costs"} else path
+    return rest if head in {"reliability", "hybrid", "generator_costs", "tradeoff"} else path
 
 
 def outcome_value(record: object, path: str) -> object:

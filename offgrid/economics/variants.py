@@ -216,8 +216,11 @@ def battery_life_label(sources: list[str]) -> str:
         else "preset"
         for s in sources
     }
-    base = figure_entry("costs.battery_life_years").label
-    return base + (", " + " or ".join(sorted(kinds)) if kinds else "")
+    if not kinds:
+        return figure_entry("costs.battery_life_years").label
+    from offgrid.catalogue import fill
+
+    return fill("costs.battery_life_method", None, method=" or ".join(sorted(kinds)))
 
 
 #: The simulation's rows, by their catalogue paths.

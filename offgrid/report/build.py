@@ -18,6 +18,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from offgrid.catalogue import (
+    EACH_RUN_LABEL,
     FIGURE_GROUPS,
     composite,
     figure_entry,
@@ -239,9 +240,8 @@ def figure_label(design: SystemDesign, path: str) -> str:
 
 
 def _with_unit(path: str) -> str:
-    """A monthly row's label: the catalogue's label and unit (``Array supply ..., Wh/day``)."""
-    e = figure_entry(path)
-    return f"{e.label}, {e.unit}" if e.unit else e.label
+    """A monthly row's label: the catalogue's label and unit (``Array supply ... (Wh/day)``)."""
+    return figure_entry(path).heading()
 
 
 def _wire_field(name: str) -> str:
@@ -564,15 +564,9 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
         (None, lr.daily_energy_wh, "loads.daily_energy_wh"),
     ):
         mrows.append(_month_row(label or figure_entry(path).label, vals, path))
+    table = table_entry("energy-by-month")
     blocks.append(
-        Table(
-            "energy-by-month",
-            ("Wh/day", *MONTHS),
-            tuple(mrows),
-            ("l",) + ("r",) * 12,
-            "Daily energy by month, Wh/day: each appliance line at the appliance, "
-            "then the totals up to the battery.",
-        )
+        Table(table.id, (table.title, *MONTHS), tuple(mrows), ("l",) + ("r",) * 12, table.note)
     )
     reason = d.reasons.get("loads.daily_energy_wh")
     if reason:
@@ -630,16 +624,9 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
             rows.append(_month_row(_with_unit(f"array.{attr}"), values, f"array.{attr}"))
             harvests.append((figure_entry(f"array.{attr}").label, values))
     rows.append(_month_row(_with_unit("site.demand_to_sun"), s.demand_to_sun, "site.demand_to_sun"))
+    table = table_entry("supply-demand")
     blocks.append(
-        Table(
-            "supply-demand",
-            ("", *MONTHS),
-            tuple(rows),
-            ("l",) + ("r",) * 12,
-            "Demand and array supply at the battery (supply: the worst-month "
-            "derate chain; harvest: from the I-V curves through the day, where "
-            "computed); demand/sun in Wh per kWh/m2 of array-plane insolation.",
-        )
+        Table(table.id, (table.title, *MONTHS), tuple(rows), ("l",) + ("r",) * 12, table.note)
     )
     svg = (
         charts.supply_demand_svg(
@@ -743,7 +730,8 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
             ),
         )
     )
-    blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))
+    table = table_entry("mpp")
+    blocks.append(Table(table.id, (table.title, "Value"), tuple(rows), ("l", "r"), table.note))
     return blocks
 
 
@@ -819,11 +807,10 @@ def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
             (run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
             for run, r in entries
         )
-        label = _wire_field(name)
         items.append(
             FigureItem(
                 f"wires.*.{name}",
-                f"{label[:1].upper()}{label[1:]} of each run",
+                EACH_RUN_LABEL.format(label=_wire_field(name)),
                 Cell("see the schedule"),
                 formula,
                 inputs,
@@ -907,27 +894,14 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
                 )
             )
         material = f"{materials.pop()} conductors; " if len(materials) == 1 else ""
+        table = table_entry("wiring")
         blocks.append(
             Table(
-                "wiring",
-                (
-                    "Run",
-                    "Runs",
-                    "Max A",
-                    "Drop A",
-                    "Length m",
-                    "Size",
-                    "Drop %",
-                    "Ampacity A",
-                    "Fuse A",
-                ),
+                table.id,
+                (table.title, *(figure_entry(path).column() for path in table.figures)),
                 tuple(rows),
                 ("l", "r", "r", "r", "r", "l", "r", "r", "r"),
-                f"{material}max A: the circuit's maximum continuous current, for ampacity and the "
-                "fuse (NEC 690.8 for PV circuits); drop A: the operating current; length "
-                "one-way; drop = 2 x length x drop A x resistance per metre at conductor "
-                "temperature / circuit voltage; ampacity after the temperature and grouping "
-                "corrections.",
+                f"{material}{table.note}",
                 wrap=(0,),
             )
         )
@@ -1148,14 +1122,12 @@ def _composite_row(cost: LifecycleCost, entry_id: str) -> tuple[Cell, Cell]:
 def _month_table_rows(months, table_id: str) -> tuple[tuple[Cell, ...], ...]:
     """The rows of a catalogue table of monthly figures (``reliability-months``): each
     row's heading and digits its figure's, each month's value scaled as the figure says."""
-    from offgrid.catalogue import TableEntry
-
     rows = []
     for path in table_entry(table_id).figures:
         e = figure_entry(path)
         name = path.rsplit(".", 1)[1]
         values = [e.shown(getattr(m, name)) for m in months]  # a field named in the table
-        rows.append(_month_row(TableEntry.heading(e), values, None, e.digits or 0))
+        rows.append(_month_row(e.heading(), values, None, e.digits or 0))
     return tuple(rows)
 
 
@@ -1205,7 +1177,7 @@ def _reliability(ri: ReportInputs) -> Section | None:
         blocks.append(
             Table(
                 table.id,
-                ("", *MONTHS),
+                (table.title, *MONTHS),
                 _month_table_rows(months, table.id),
                 ("l",) + ("r",) * 12,
                 table.note,
@@ -1246,6 +1218,8 @@ def _reliability(ri: ReportInputs) -> Section | None:
 
 
 def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
+    from offgrid.simulate.tradeoff import point_text, target_texts
+
     blocks: list[Block] = []
     curves = []
     rows = []
@@ -1260,20 +1234,10 @@ def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
                     [p.array_w / 1000 for p in pts],
                 )
             )
-        need = t.design_capacity_needed_wh
-        cheapest = "-"
-        if t.cheapest is not None:
-            cheapest = f"{t.cheapest.array_w:,.0f} W, {t.cheapest.capacity_wh / 1000:,.1f} kWh"
-            if t.cheapest_cost is not None:
-                cheapest += f" ({t.cheapest_cost:,.0f} {ri.project.economics.currency})"
-        rows.append(
-            (
-                _c(f"{t.target:.3%}"),
-                _c("yes" if t.design_meets else "no"),
-                _c("-" if need is None else f"{need / 1000:,.1f} kWh"),
-                _c(cheapest),
-            )
-        )
+        cheapest = point_text(t.cheapest)
+        if t.cheapest is not None and t.cheapest_cost is not None:
+            cheapest += f" ({t.cheapest_cost:,.0f} {ri.project.economics.currency})"
+        rows.append((*(_c(x) for x in target_texts(t)), _c(cheapest)))
         if t.message:
             messages.append(f"LOLP {t.target:.3%}: {t.message}")
     svg = ""
@@ -1302,15 +1266,14 @@ def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
             f"(LOLP {tr.design_lolp:.3%}).",
         )
     )
+    table = table_entry("tradeoff")
     blocks.append(
         Table(
-            "tradeoff",
-            ("Target LOLP", "Met", "Battery needed", "Cheapest point"),
+            table.id,
+            tuple(figure_entry(path).column() for path in table.figures),
             tuple(rows),
             ("r", "l", "r", "l"),
-            "Met: this design meets the target. Battery needed: on the curve at this "
-            "design's array size. Cheapest point: array and battery alone, priced "
-            "per W of module and per kWh of battery unit from the price list.",
+            table.note,
             wrap=(3,),
         )
     )
@@ -1328,7 +1291,7 @@ def _variants(ri: ReportInputs) -> Section | None:
     for r in cmp.rows:
         entry = find_input(r.label) if r.group == "choices" else None  # a changed input
         name = entry.label if entry is not None else r.label
-        label = f"{name} ({r.unit})" if r.unit else name
+        label = f"{name} ({r.unit})" if r.unit else name  # as FigureEntry.heading
         cells = [
             Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None, None, dif)
             for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)
@@ -1380,12 +1343,16 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
     p, d = ri.project, ri.design
     a = d.array
     dm = d.site.design_month - 1
-    rows = [(_c(name), _num(v, 3, f"array.derates.{name}")) for name, v in a.derates.items()]
-    rows.append((_c("together"), _num(a.derate_total, 3, "array.derate_total")))
+    table = table_entry("derates")
+    rows = [
+        (_c(label_of(f"array.derates.{name}")), _num(v, 3, f"array.derates.{name}"))
+        for name, v in a.derates.items()
+    ]
+    rows.append((_c(label_of("array.derate_total")), _num(a.derate_total, 3, "array.derate_total")))
     blocks: list[Block] = [
         Table(
-            "derates",
-            ("Derate (fraction kept)", MONTHS[dm]),
+            table.id,
+            (table.title, MONTHS[dm]),
             tuple(rows),
             ("l", "r"),
             f"In the design month ({MONTHS[dm]}).",

@@ -251,14 +251,14 @@ def summary_text(rep: SimulationReport) -> str:
     if r.lolp_measured is not None:
         lines.append(f"  LOLP in the measured year(s) alone {pct(r.lolp_measured)}")
     lines.append("")
-    lines.append(f"{'month':<10}" + "".join(f"{m:>5}" for m in MONTH_NAMES))
-    from offgrid.catalogue import TableEntry, figure_entry, table_entry
+    lines.append(f"{'month':<11}" + "".join(f"{m:>5}" for m in MONTH_NAMES))
+    from offgrid.catalogue import figure_entry, table_entry
 
     for path in table_entry("reliability-months").figures[:3]:  # LOLP, SoC p5 and p50
         e = figure_entry(path)
         name = path.rsplit(".", 1)[1]  # a field named in the catalogue's table
         lines.append(
-            f"{TableEntry.heading(e):<10}"
+            f"{e.heading():<11}"
             + "".join(f"{e.shown(getattr(m, name)):5.{e.digits or 0}f}" for m in r.months)
         )
     lines.append("  (SoC: lowest state of charge of the day, %, 5th and 50th percentile)")
