@@ -93,6 +93,9 @@ def _templates() -> list[re.Pattern]:
             else:  # a figure's text: its number and unit, '-' when not known
                 shown = r"(?:-?[\d,.]+(?: \S+)?|-)"
             body = body.replace(re.escape("{" + name + "}"), shown)
+            if name in dict(c.parts):  # {name.label}: that figure's label
+                label = re.escape(figure_entry(dict(c.parts)[name]).label)
+                body = body.replace(re.escape("{" + name + ".label}"), label)
         pats.append(re.compile(f"{body}$"))
     cables = "|".join(re.escape(e.label) for e in FIGURES if e.path.startswith("wires[]."))
     pats.append(re.compile(re.escape(EACH_RUN_LABEL).replace(r"\{label\}", f"(?:{cables})") + "$"))
@@ -262,6 +265,7 @@ def test_the_ui_sections_rows_are_catalogue_labels(rendered):
     for t in sim.tradeoff.targets:
         rows = tradeoff_rows(t)
         assert rows[0][0].startswith(figure_entry("tradeoff.targets[].target").label)
+        assert rows[0][1].startswith(figure_entry("tradeoff.targets[].design_meets").label)
         for label, _value, reason, _ in rows[1:]:
             assert _is_catalogue_label(label.strip(), cur) and reason is not None, label
     heads = [h for h, _ in month_strip_rows(rel.months)]

@@ -45,6 +45,76 @@ COMPOSITES: tuple[CompositeEntry, ...] = (
         "costs.battery_life_years",
         words=("method",),
     ),
+    # the one-page client summary (offgrid/report/client.py), one sentence each
+    CompositeEntry(
+        "client.array",
+        "{power.label} {power}: {count} x {module} ({series.label} {series}, "
+        "{parallel.label} {parallel}), {tilt.label} {tilt}",
+        (
+            ("power", "array.power_w"),
+            ("count", "array.module_count"),
+            ("series", "array.modules_series"),
+            ("parallel", "array.modules_parallel"),
+            ("tilt", "site.tilt_deg"),
+        ),
+        words=("module",),
+    ),
+    CompositeEntry(
+        "client.battery",
+        "{nominal.label} {nominal} at {voltage} ({usable.label} {usable}): {units} x {battery}",
+        (
+            ("nominal", "battery.nominal_kwh"),
+            ("voltage", "battery.system_voltage_v"),
+            ("usable", "battery.usable_kwh"),
+            ("units", "battery.unit_count"),
+        ),
+        words=("battery",),
+    ),
+    CompositeEntry(
+        "client.controller",
+        "{count.label}: {count} x {rating} {kind}",
+        (("count", "controller.count"), ("rating", "controller.current_a")),
+        words=("kind",),
+    ),
+    CompositeEntry(
+        "client.inverter",
+        "{continuous.label} {continuous}, {surge.label} {surge}",
+        (("continuous", "inverter.continuous_w"), ("surge", "inverter.surge_w")),
+    ),
+    CompositeEntry(
+        "client.serves",
+        "{lines}: {energy.label} {energy} at the battery ({month}, the design month; "
+        "{growth.label} {growth} included).",
+        (("energy", "loads.design_daily_energy_wh"), ("growth", "loads.growth_pct")),
+        words=("lines", "month"),
+    ),
+    CompositeEntry(
+        "client.autonomy",
+        "Days without sun: the battery carries the loads for {days.label} {days}, "
+        "down to its {dod.label} {dod}.",
+        (("days", "battery.autonomy_days"), ("dod", "battery.max_dod")),
+    ),
+    CompositeEntry(
+        "client.cost",
+        "{capital.label} {capital} (parts and installation); {lcc.label} over {years} "
+        "{lcc}; {per_kwh.label} {per_kwh}.",
+        (("capital", "costs.capital"), ("lcc", "costs.lcc"), ("per_kwh", "costs.cost_per_kwh")),
+        words=("years",),
+    ),
+    # the parts search's text (offgrid parts best): one combination a line
+    CompositeEntry(
+        "parts.combination",
+        "{capital.label} {capital}, {lcc.label} {lcc}: {parts} ({voltage.label} {voltage}, "
+        "{power.label} {power}, {bank.label} {bank})",
+        (
+            ("capital", "costs.capital"),
+            ("lcc", "costs.lcc"),
+            ("voltage", "battery.system_voltage_v"),
+            ("power", "array.power_w"),
+            ("bank", "battery.nominal_kwh"),
+        ),
+        words=("parts",),
+    ),
     # one line of prose: the Options section's note on a priced option
     CompositeEntry(
         "costs.sums_note",
@@ -149,7 +219,7 @@ TABLES: tuple[TableEntry, ...] = (
     # the simulation's (the report, 7 Risk, offgrid simulate)
     TableEntry(
         "tradeoff",
-        "Array and battery for a target LOLP",
+        "Reliability targets",
         (
             "tradeoff.targets[].target",
             "tradeoff.targets[].design_meets",

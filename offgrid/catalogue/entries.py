@@ -112,8 +112,10 @@ class CompositeEntry:
     that figure's :meth:`FigureEntry.text` (number, digits, scale and unit).  ``value``
     is the path of the figure the row shows beside its label (empty for a line of
     prose); its reason explains the row, and ``{label}`` in the template is its label.
-    ``words`` name the placeholders that are words, not figures (a method, a name),
-    given by the view that fills the row.
+    ``{name.label}`` is the label of the figure named ``name``, so a sentence says each
+    number with the catalogue's label and unit (``{power.label} {power}``: ``Array power
+    installed 1,800 W``).  ``words`` name the placeholders that are words, not figures (a
+    method, a name), given by the view that fills the row.
     """
 
     id: str
@@ -124,8 +126,14 @@ class CompositeEntry:
 
     @property
     def names(self) -> tuple[str, ...]:
-        """The placeholder names the template uses, in order."""
-        return tuple(f for _, f, _, _ in string.Formatter().parse(self.label) if f)
+        """The placeholder names the template uses, in order, each once (``{power.label}``
+        is the name ``power``)."""
+        out: list[str] = []
+        for _, field, _, _ in string.Formatter().parse(self.label):
+            name = (field or "").split(".")[0]
+            if name and name not in out:
+                out.append(name)
+        return tuple(out)
 
     def fill(
         self,
@@ -148,8 +156,20 @@ class CompositeEntry:
             else:
                 v = value_of(paths[name])
                 e = figure(paths[name])
-                texts[name] = "-" if v is None else e.text(float(v), currency=currency)
+                shown = "-" if v is None else e.text(float(v), currency=currency)
+                texts[name] = _Shown(shown, e.label)
         return self.label.format_map(texts)
+
+
+class _Shown(str):
+    """A figure's text in a template; ``.label`` is the figure's catalogue label."""
+
+    label: str
+
+    def __new__(cls, text: str, label: str) -> _Shown:
+        obj = super().__new__(cls, text)
+        obj.label = label
+        return obj
 
 
 @dataclass(frozen=True)

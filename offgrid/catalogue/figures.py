@@ -95,7 +95,7 @@ FIGURES: tuple[Fig, ...] = (
     Fig("battery.ageing_temp_c", "Battery temp. for ageing", "C", 1),
     Fig("battery.ageing_temps_c", "Battery temps. for ageing", "C", 1),
     Fig("battery.calendar_life_years", "Battery float life", "years", 1),
-    Fig("battery.max_dod", "Maximum depth of discharge", "", 3),
+    Fig("battery.max_dod", "Maximum depth of discharge", "%", 0, scale=100.0),
     Fig("battery.ageing_factor", "End-of-life capacity", "", 3),
     Fig("battery.discharge_efficiency", "Battery discharge efficiency", "", 3),
     Fig("battery.peak_charge_current_a", "Peak charge current", "A", 1),

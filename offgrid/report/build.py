@@ -185,7 +185,8 @@ def figure_cell(value: Any, path: str, unit: str | None = None) -> Cell:
         return Cell(f"{value:,d} {unit}".strip(), float(value), path)
     if isinstance(value, float):
         digits = entry.digits if entry is not None and entry.digits is not None else None
-        text = number_text(value, digits_for(value, unit) if digits is None else digits)
+        shown = entry.shown(value) if entry is not None else value  # the row's scale
+        text = number_text(shown, digits_for(shown, unit) if digits is None else digits)
         return Cell(f"{text} {unit}".strip(), value, path)
     return Cell(str(value), None, path)
 

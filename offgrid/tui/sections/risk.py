@@ -133,8 +133,12 @@ def tradeoff_rows(t: Any) -> list[tuple[str, str, Any, str]]:
         return TRADEOFF_REASONS.get(outcome_key(e.explained_by))
 
     rows = [
-        (f"{target.label} {t_text} {target.unit}", "", why(target), t.message),
-        (f"    {met.label}", "yes" if t.design_meets else "NO", why(met), t.message),
+        (
+            f"{target.label} {t_text} {target.unit}",
+            f"{met.label}: " + ("yes" if t.design_meets else "NO"),
+            why(met),
+            t.message,
+        ),
         (
             f"    {need.label}",
             need_text if t.design_capacity_needed_wh is None else f"{need_text} {need.unit}",
