@@ -31,6 +31,7 @@ from offgrid.catalogue.composites import (
     COMPOSITES_BY_ID,
     EACH_RUN_LABEL,
     FIGURE_GROUPS,
+    ROW_GROUPS,
     TABLES,
     TABLES_BY_ID,
 )
@@ -70,6 +71,7 @@ __all__ = [
     "INPUT_LABEL_ROOM",
     "OWN_CHECKS",
     "RELIABILITY_FIGURES",
+    "ROW_GROUPS",
     "RUN_LENGTH_M",
     "TABLES",
     "CompositeEntry",

@@ -264,5 +264,13 @@ FIGURE_GROUPS: dict[str, str] = {
     "protection": "Protection",
 }
 
+#: Headings of the groups of rows of a comparison of variants (the Options section).
+ROW_GROUPS: dict[str, str] = {
+    "choices": "Changed values",
+    "figures": "Sized system",
+    "cost": "Cost",
+    "reliability": "Reliability",
+}
+
 COMPOSITES_BY_ID: dict[str, CompositeEntry] = {c.id: c for c in COMPOSITES}
 TABLES_BY_ID: dict[str, TableEntry] = {t.id: t for t in TABLES}

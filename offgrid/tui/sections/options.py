@@ -24,7 +24,7 @@ from textual.binding import Binding
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
-from offgrid.catalogue import figure_entry, fill, find_input
+from offgrid.catalogue import ROW_GROUPS, figure_entry, fill, find_input
 from offgrid.catalogue.outcomes import outcome_key, outcome_value
 from offgrid.design.result import Reason
 from offgrid.project.model import PriceItem, Project, Variant
@@ -396,12 +396,7 @@ class OptionsSection(Section):
             )
             self._rows.append(("error", None))
         group = ""
-        titles = {
-            "choices": "Changed values",
-            "figures": "Sized system",
-            "cost": "Cost",
-            "reliability": "Reliability",
-        }
+        titles = ROW_GROUPS  # the catalogue's headings (offgrid/catalogue/composites.py)
         for row in cmp.rows:
             if row.group != group:
                 group = row.group
