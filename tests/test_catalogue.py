@@ -146,7 +146,7 @@ def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
     tree = d.to_dict()
     for entry in FIGURES:
         if entry.path.startswith(
-            ("water[].", "generator", "reliability.", "hybrid.", "costs.", "tradeoff.")
+            ("water[].", "generator", "reliability.", "hybrid.", "costs.", "tradeoff.", "mix.")
         ):
             continue  # a water supply's, the generator's, the simulation's, the cost's (below)
         if entry.path.startswith("wires[]."):  # one row for every cable run
@@ -633,6 +633,14 @@ def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_the
     for e in GENERATOR_COST_FIGURES:
         assert e.path.removeprefix("generator_costs.") in costs, e.path
     assert outcome_key("generator_costs.fuel_pw") in st.cost.reasons
+    from offgrid.catalogue.outcomes import MIX_FIGURES
+
+    mix = st.to_dict()["tradeoff"]  # each mix of the trade-off, same JSON
+    for e in MIX_FIGURES:
+        name = e.path.removeprefix("mix.points[].")
+        assert all(isinstance(p[name], int | float) for p in mix["points"]), e.path
+        key = outcome_key(e.explained_by)
+        assert key in (st.mix.reasons if e.explained_by.startswith("mix.") else st.run.reasons)
     _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "generator_costs.fuel_pw", label="Zq fuel pw",
           unit="Zq {currency}", digits=1)  # fmt: skip
     _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.capacity_wh", label="Zq battery",
@@ -647,5 +655,7 @@ def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_the
     assert f"{st.cost.fuel_pw:,.1f} Zq {st.cost.currency}" in text and "Zq fuel pw" in text
     name, unit, digits, _get = next(r for r in HYBRID_ROWS if r[0] == "hybrid.fuel_l_per_year")
     assert hybrid_row(name, unit, digits, [1.5]) == ("Zq fuel", "Zq", 2, [1.5])
-    solar = next(r for r in HYBRID_ROWS if r[0] == "hybrid.solar_fraction")
+    solar = next(r for r in HYBRID_ROWS if r[0] == "mix.points[].solar_fraction")
     assert hybrid_row(*solar[:3], [0.25]) == ("Mix: solar fraction", "%", 1, [25.0])
+    lcc = next(r for r in HYBRID_ROWS if r[0] == "mix.points[].lcc")
+    assert hybrid_row(*lcc[:3], [1.0], "EUR")[:2] == ("Mix: lifecycle cost", "EUR")

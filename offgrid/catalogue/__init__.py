@@ -51,6 +51,7 @@ from offgrid.catalogue.outcomes import (
     COST_FIGURES,
     GENERATOR_COST_FIGURES,
     HYBRID_FIGURES,
+    MIX_FIGURES,
     MONTH_FIGURES,
     RELIABILITY_FIGURES,
     TRADEOFF_FIGURES,
@@ -109,6 +110,7 @@ FIGURES: tuple[FigureEntry, ...] = (
     *MONTH_FIGURES,
     *TRADEOFF_FIGURES,
     *HYBRID_FIGURES,
+    *MIX_FIGURES,
     *COST_FIGURES,
     *GENERATOR_COST_FIGURES,
 )

@@ -216,6 +216,19 @@ TABLES: tuple[TableEntry, ...] = (
             "array.derate_total",
         ),
     ),
+    # the generator's trade-off (report): one row per mix
+    TableEntry(
+        "generator-tradeoff",
+        "",
+        (
+            "mix.points[].array_w",
+            "mix.points[].battery_kwh",
+            "mix.points[].fuel_l_per_year",
+            "mix.points[].unmet_fraction",
+            "mix.points[].lcc",
+        ),
+        "Sun, battery and fuel: lifecycle cost of the parts that change with the mix.",
+    ),
     # the simulation's (the report, 7 Risk, offgrid simulate)
     TableEntry(
         "tradeoff",

@@ -93,6 +93,24 @@ TRADEOFF_FIGURES: tuple[Fig, ...] = (
 #: Longest heading (label and unit) of a monthly row: the month strip's label column.
 MONTH_LABEL_ROOM = 11
 
+#: Each mix of sun, battery and fuel of the generator's trade-off (``offgrid generator
+#: --json``, ``tradeoff.points[k]``: :class:`offgrid.economics.hybrid_mix.MixPoint`), the
+#: columns of the report's table ``generator-tradeoff`` and the mix rows of a comparison
+#: of variants.  Explained by the trade-off's reasons (``MixTradeoff.reasons``, path less
+#: ``mix.``) or, for what the hourly run computes alike, by the run's (``hybrid.``).
+MIX_FIGURES: tuple[Fig, ...] = (
+    Fig("mix.points[].array_w", "Mix: array", "W", 0, "mix.points.array_w", short="Array"),
+    Fig("mix.points[].battery_kwh", "Mix: battery, nominal", "kWh", 2,
+        "mix.points.battery_kwh", short="Battery"),
+    Fig("mix.points[].fuel_l_per_year", "Mix: generator fuel", "L/yr", 0,
+        "hybrid.fuel_l_per_year", short="Fuel"),
+    Fig("mix.points[].solar_fraction", "Mix: solar fraction", "%", 1, "hybrid.solar_fraction",
+        scale=100.0, short="Solar"),
+    Fig("mix.points[].unmet_fraction", "Mix: unmet energy, hourly", "%", 3,
+        "hybrid.unmet_fraction", scale=100.0, short="Unmet"),
+    Fig("mix.points[].lcc", "Mix: lifecycle cost", "{currency}", 0, "mix.lcc", short="LCC"),
+)  # fmt: skip
+
 COST_FIGURES: tuple[Fig, ...] = (
     Fig("costs.parts", "Parts", "{currency}", 2),
     Fig("costs.installation", "Installation", "{currency}", 2),
@@ -128,7 +146,7 @@ def outcome_key(path: str) -> str:
     -> ``wear.expected_life_years`` (``Reliability.reasons``; ``hybrid.``: ``HybridRun``); a
     cost row keeps its path (``LifecycleCost.reasons``)."""
     head, _, rest = path.partition(".")
-    return rest if head in {"reliability", "hybrid", "generator_costs", "tradeoff"} else path
+    return rest if head in {"reliability", "hybrid", "generator_costs", "tradeoff", "mix"} else path
 
 
 def outcome_value(record: object, path: str) -> object:
