@@ -319,3 +319,22 @@ def test_a_composite_row_is_filled_from_its_figures_in_every_view(monkeypatch):
     text = render_text(build_report(project, d, with_charts=False, with_variants=False))
     assert f"Zq energy over the life, PWF {cost.pwf_energy:.5f}" in text
     assert f"x PWF {cost.pwf_energy:.5f}" in OptionsSection._cost_extra(cost)
+
+
+def test_each_table_and_template_is_well_formed():
+    """One label per figure within a table (no two rows or columns headed alike), every
+    placeholder of a template a figure of the catalogue, a word the view gives, or the
+    value figure's label; composite and table ids unique."""
+    for t in TABLES:
+        heads = [figure_entry(p).heading() for p in t.figures]
+        assert len(set(heads)) == len(heads), t.id
+        cols = [figure_entry(p).column() for p in t.figures]
+        assert len(set(cols)) == len(cols), t.id
+    for c in COMPOSITES:
+        parts = dict(c.parts)
+        for name in c.names:
+            assert name in parts or name in c.words or (name == "label" and c.value), (c.id, name)
+        assert not set(parts) & set(c.words), c.id
+        assert set(parts) <= set(c.names), (c.id, "a figure the template does not show")
+    assert len({c.id for c in COMPOSITES}) == len(COMPOSITES)
+    assert len({t.id for t in TABLES}) == len(TABLES)

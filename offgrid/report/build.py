@@ -1363,11 +1363,11 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
     b, m, cs, inv = p.battery, p.module, p.controller, p.inverter
     items = [
         ("Days of autonomy", f"{ch.autonomy_days:g}"),
-        ("Maximum depth of discharge", f"{d.battery.max_dod:.0%}"),
+        (label_of("battery.max_dod"), f"{d.battery.max_dod:.0%}"),
         ("Load growth margin", f"{ch.load_growth_pct:g} %"),
         ("Coincidence factor (AC)", f"{ch.coincidence_factor:g}"),
         ("Battery end-of-life capacity", f"{ch.ageing_factor:.0%}"),
-        ("Battery temperature factor", f"{d.battery.temp_factor:.3f}"),
+        (label_of("battery.temp_factor"), f"{d.battery.temp_factor:.3f}"),
         ("System voltage", f"{ch.system_voltage}"),
         ("Minimum tilt", f"{ch.min_tilt_deg:g} deg"),
         (
