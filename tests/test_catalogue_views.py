@@ -56,7 +56,7 @@ ROW_TABLES = {
     "generator-costs",
 }
 #: Report tables whose columns are figures (one row per cable run, per target).
-COLUMN_TABLES = {"wiring", "tradeoff", "generator-tradeoff"}
+COLUMN_TABLES = {"climate", "wiring", "tradeoff", "generator-tradeoff"}
 #: Rows of those tables that are not one figure, and why.
 NOT_FIGURES = {
     # two typed inputs of the module's datasheet side by side
@@ -75,7 +75,7 @@ def _labels(currency: str) -> set[str]:
     unit), a column's (short word and unit); inputs' labels (a variant's changed value)."""
     out = {e.label for e in INPUTS}
     for e in FIGURES:
-        out |= {e.label, e.heading(currency), e.column(currency)}
+        out |= {e.label, e.heading(currency), e.column(currency), e.column(unit=False)}
     return out
 
 
@@ -160,8 +160,7 @@ def test_every_figure_label_of_the_report_is_a_catalogue_label(rendered):
                 if not _is_catalogue_label(label, cur):
                     wrong.append((block.key, label))
         elif isinstance(block, Table) and block.key in COLUMN_TABLES:
-            entry = table_entry(block.key)
-            heads = tuple(figure_entry(p).column(cur) for p in entry.figures)
+            heads = table_entry(block.key).columns(figure_entry, cur)
             cols, n = block.columns, len(heads)
             assert any(cols[k : k + n] == heads for k in range(len(cols))), (block.key, cols)
     assert not wrong, wrong
@@ -328,7 +327,7 @@ def test_each_table_and_template_is_well_formed():
     for t in TABLES:
         heads = [figure_entry(p).heading() for p in t.figures]
         assert len(set(heads)) == len(heads), t.id
-        cols = [figure_entry(p).column() for p in t.figures]
+        cols = t.columns(figure_entry)
         assert len(set(cols)) == len(cols), t.id
     for c in COMPOSITES:
         parts = dict(c.parts)

@@ -140,7 +140,22 @@ COMPOSITES: tuple[CompositeEntry, ...] = (
 EACH_RUN_LABEL = "{label} of each run"
 
 TABLES: tuple[TableEntry, ...] = (
-    # the report's tables of the design (offgrid/report/build.py)
+    # the report's tables of the design (offgrid/report/build.py); the climate table's
+    # own Max and Min columns are the climate file's, not figures of the design
+    TableEntry(
+        "climate",
+        "Month",
+        (
+            "site.horizontal_kwh_m2_day",
+            "site.poa_kwh_m2_day",
+            "site.temp_mean_c",
+            "site.temp_day_c",
+        ),
+        "Insolation in kWh/m2/day (mean daily, horizontal and in the array plane); "
+        "temperatures in C (day = mean of the daily mean and maximum, used for the cell "
+        "temperature).",
+        units_in_note=True,
+    ),
     TableEntry(
         "energy-by-month",
         "Wh/day",

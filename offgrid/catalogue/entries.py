@@ -86,10 +86,11 @@ class FigureEntry:
         unit = self.unit_in(currency)
         return f"{self.label} ({unit})" if unit else self.label
 
-    def column(self, currency: str = "") -> str:
+    def column(self, currency: str = "", unit: bool = True) -> str:
         """A narrow table's column heading: the short word (else the label) and the unit
-        (``Max A``)."""
-        return f"{self.short or self.label} {self.unit_in(currency)}".strip()
+        (``Max A``); without the unit where the table's caption gives it."""
+        word = self.short or self.label
+        return f"{word} {self.unit_in(currency)}".strip() if unit else word
 
     def shown(self, value: float) -> float:
         """The stored value as shown: times ``scale`` (0.0123 -> 1.23 %)."""
@@ -187,3 +188,9 @@ class TableEntry:
     title: str
     figures: tuple[str, ...]
     note: str = ""
+    #: the caption gives the units: columns are headed by their short word alone
+    units_in_note: bool = False
+
+    def columns(self, figure: Callable[[str], FigureEntry], currency: str = "") -> tuple:
+        """The headings of the figure columns, in order (:meth:`FigureEntry.column`)."""
+        return tuple(figure(p).column(currency, unit=not self.units_in_note) for p in self.figures)

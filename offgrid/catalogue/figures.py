@@ -18,12 +18,12 @@ FIGURES: tuple[Fig, ...] = (
     Fig("site.azimuth_deg", "Array azimuth", "deg", 0, key=True),
     Fig("site.record_low_c", "Record low temperature", "C", 1, key=True),
     Fig("site.albedo", "Ground reflectance (albedo)", "", 2),
-    Fig("site.poa_kwh_m2_day", "Array-plane insolation", "kWh/m2/day", 2),
-    Fig("site.horizontal_kwh_m2_day", "Horizontal insolation", "kWh/m2/day", 2),
+    Fig("site.poa_kwh_m2_day", "Array-plane insolation", "kWh/m2/day", 2, short="Array plane"),
+    Fig("site.horizontal_kwh_m2_day", "Horizontal insolation", "kWh/m2/day", 2, short="Horizontal"),
     Fig("site.demand_to_sun", "Demand to sun", "Wh per kWh/m2", 0),
     Fig("site.latitude_deg", "Latitude", "deg", 4),
-    Fig("site.temp_mean_c", "Mean air temperature", "C", 1),
-    Fig("site.temp_day_c", "Daytime air temperature", "C", 1),
+    Fig("site.temp_mean_c", "Mean air temperature", "C", 1, short="Mean"),
+    Fig("site.temp_day_c", "Daytime air temperature", "C", 1, short="Day"),
     # ---------------------------------------------------------------- loads
     Fig("loads.design_daily_energy_wh", "Energy in design month", "Wh/day", 0, key=True),
     Fig(

@@ -452,7 +452,8 @@ def _climate(ri: ReportInputs, tree: dict) -> Section:
     d = ri.design
     s = d.site
     c = ri.climate
-    cols = ["Month", "Horizontal", "Array plane", "Mean", "Day"]
+    table = table_entry("climate")  # the figure columns are the catalogue's
+    cols = [table.title, *table.columns(figure_entry)]
     have_max = c is not None and c.temp_max_c is not None
     have_min = c is not None and c.temp_min_c is not None
     if have_max:
@@ -475,13 +476,11 @@ def _climate(ri: ReportInputs, tree: dict) -> Section:
         rows.append(tuple(row))
     blocks: list[Block] = [
         Table(
-            "climate",
+            table.id,
             tuple(cols),
             tuple(rows),
             ("l",) + ("r",) * (len(cols) - 1),
-            "Insolation in kWh/m2/day (mean daily, horizontal and in the array plane); "
-            "temperatures in C (day = mean of the daily mean and maximum, used for the cell "
-            "temperature).",
+            table.note,
         )
     ]
     src = s.climate_source or (c.source if c else "") or "not given"
@@ -899,7 +898,7 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
         blocks.append(
             Table(
                 table.id,
-                (table.title, *(figure_entry(path).column() for path in table.figures)),
+                (table.title, *table.columns(figure_entry)),
                 tuple(rows),
                 ("l", "r", "r", "r", "r", "l", "r", "r", "r"),
                 f"{material}{table.note}",
@@ -1271,7 +1270,7 @@ def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
     blocks.append(
         Table(
             table.id,
-            tuple(figure_entry(path).column() for path in table.figures),
+            table.columns(figure_entry),
             tuple(rows),
             ("r", "l", "r", "l"),
             table.note,

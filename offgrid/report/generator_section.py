@@ -199,7 +199,7 @@ def _tradeoff(study: GeneratorStudy, with_charts: bool = False) -> list[Block]:
     return [
         Table(
             table.id,
-            (*(e.column(cur) for e in entries), table.title),
+            (*table.columns(figure_entry, cur), table.title),
             tuple(rows),
             ("r", "r", "r", "r", "r", "l"),
             table.note,
