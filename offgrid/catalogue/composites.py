@@ -244,6 +244,20 @@ TABLES: tuple[TableEntry, ...] = (
         ),
         "Sun, battery and fuel: lifecycle cost of the parts that change with the mix.",
     ),
+    # the same mixes in the text of offgrid generator, with run hours and solar share
+    TableEntry(
+        "generator-mixes",
+        "",
+        (
+            "mix.points[].array_w",
+            "mix.points[].battery_kwh",
+            "mix.points[].fuel_l_per_year",
+            "mix.points[].run_hours_per_year",
+            "mix.points[].unmet_fraction",
+            "mix.points[].solar_fraction",
+            "mix.points[].lcc",
+        ),
+    ),
     # the simulation's (the report, 7 Risk, offgrid simulate)
     TableEntry(
         "tradeoff",

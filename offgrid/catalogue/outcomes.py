@@ -104,6 +104,8 @@ MIX_FIGURES: tuple[Fig, ...] = (
         "mix.points.battery_kwh", short="Battery"),
     Fig("mix.points[].fuel_l_per_year", "Mix: generator fuel", "L/yr", 0,
         "hybrid.fuel_l_per_year", short="Fuel"),
+    Fig("mix.points[].run_hours_per_year", "Mix: generator run hours", "h/yr", 0,
+        "hybrid.run_hours_per_year", short="Run"),
     Fig("mix.points[].solar_fraction", "Mix: solar fraction", "%", 1, "hybrid.solar_fraction",
         scale=100.0, short="Solar"),
     Fig("mix.points[].unmet_fraction", "Mix: unmet energy, hourly", "%", 3,

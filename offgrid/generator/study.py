@@ -248,6 +248,29 @@ def figure_lines(record: Any, rows: tuple, currency: str = "") -> list[str]:
     return out
 
 
+def mix_lines(m: MixTradeoff, currency: str) -> list[str]:
+    """The mixes of the trade-off as a text table: the catalogue's table
+    ``generator-mixes`` (columns headed by their short word and unit, each figure with
+    its digits and scale), the cheapest marked '<'."""
+    from offgrid.catalogue import figure_entry, table_entry
+
+    table = table_entry("generator-mixes")
+    entries = [figure_entry(p) for p in table.figures]
+    heads = table.columns(figure_entry, currency)
+    rows = []
+    for p in sorted(m.points, key=lambda q: (q.battery_kwh, q.array_w)):
+        cells = [
+            f"{e.shown(getattr(p, e.path.rsplit('.', 1)[1])):,.{e.digits or 0}f}"  # a field
+            for e in entries  # named in the table
+        ]
+        rows.append((cells, " <" if p is m.cheapest else ""))
+    widths = [max(len(h), *(len(c[k]) for c, _ in rows)) for k, h in enumerate(heads)]
+    out = ["  " + "  ".join(f"{h:>{w}}" for h, w in zip(heads, widths, strict=True))]
+    for cells, mark in rows:
+        out.append("  " + "  ".join(f"{c:>{w}}" for c, w in zip(cells, widths, strict=True)) + mark)
+    return out
+
+
 def summary_text(st: GeneratorStudy) -> str:
     """80-column summary of the generator study."""
     s, r, c = st.setup, st.run, st.cost
@@ -300,15 +323,7 @@ def summary_text(st: GeneratorStudy) -> str:
         m = st.mix
         out.append("")
         out.append(f"Trade-off: sun, battery and fuel ({len(m.points)} mixes, {m.years} years)")
-        out.append("  array W  battery kWh  fuel L/yr  run h/yr  unmet %  solar %  LCC " + cur)
-        rows = sorted(m.points, key=lambda p: (p.battery_kwh, p.array_w))
-        for p in rows:
-            mark = " <" if p is m.cheapest else ""
-            out.append(
-                f"  {p.array_w:7.0f}  {p.battery_kwh:11.2f}  {p.fuel_l_per_year:9.0f}  "
-                f"{p.run_hours_per_year:8.0f}  {100 * p.unmet_fraction:7.3f}  "
-                f"{100 * p.solar_fraction:7.1f}  {p.lcc:9,.0f}{mark}"
-            )
+        out += mix_lines(m, cur)
         so = m.solar_only
         out.append(
             f"  solar only: {so.array_w:.0f} W, {so.battery_kwh:.2f} kWh, unmet "
