@@ -145,7 +145,9 @@ def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
     _, d = demo
     tree = d.to_dict()
     for entry in FIGURES:
-        if entry.path.startswith(("water[].", "generator", "reliability.", "hybrid.", "costs.")):
+        if entry.path.startswith(
+            ("water[].", "generator", "reliability.", "hybrid.", "costs.", "tradeoff.", "mix.")
+        ):
             continue  # a water supply's, the generator's, the simulation's, the cost's (below)
         if entry.path.startswith("wires[]."):  # one row for every cable run
             name = entry.path.removeprefix("wires[].")
@@ -154,11 +156,19 @@ def test_every_figure_path_is_in_the_demo_json_and_has_a_reason(demo):
             assert any(k in d.reasons for k in keys), f"{entry.path}: no run has a reason"
             assert all(catalogue.find_figure(k) is entry for k in keys)
             continue
-        node = tree
+        nodes = [tree]
         for part in entry.path.split("."):
-            assert isinstance(node, dict) and part in node, f"{entry.path} not in the JSON"
-            node = node[part]
+            name = part.removesuffix("[]")
+            assert all(isinstance(n, dict) and name in n for n in nodes), (
+                f"{entry.path} not in the JSON"
+            )
+            nodes = [n[name] for n in nodes]
+            if part.endswith("[]"):  # one row for every item of a list (protective devices)
+                assert all(isinstance(n, list) and n for n in nodes), entry.path
+                nodes = [item for n in nodes for item in n]
         assert entry.explained_by in d.reasons, f"{entry.path}: no reason {entry.explained_by}"
+        if "[]" in entry.path:
+            assert catalogue.find_figure(entry.path.replace("[]", "[1]")) is entry
     assert len({e.path for e in FIGURES}) == len(FIGURES), "a figure is listed twice"
 
 
@@ -520,15 +530,15 @@ def test_every_outcome_path_is_in_the_simulate_json_or_the_cost_record(demo, sim
         assert isinstance(node, int | float) or e.path == "reliability.lolp_measured", e.path
         if e.reason is not None:  # a composite row names a reason the record has
             assert outcome_key(e.explained_by) in rel.reasons, e.path
-    assert sum(outcome_key(e.explained_by) in rel.reasons for e in RELIABILITY_FIGURES) >= 8
+    assert all(outcome_key(e.explained_by) in rel.reasons for e in RELIABILITY_FIGURES)
     names = {f.name for f in dataclasses.fields(LifecycleCost)}
     cost = lifecycle_cost(project, d, bill_of_materials(project, d), simulated)
     for e in COST_FIGURES:
         assert e.path.removeprefix("costs.") in names, e.path
     for key in cost.reasons:  # every explained cost figure is a catalogue row
-        if key in {"costs.upkeep_pw"}:
-            continue  # its row's label carries the yearly upkeep and PWF (report table)
         assert catalogue.find_figure(key) is not None, key
+    for e in COST_FIGURES:  # and every cost row is explained
+        assert e.path in cost.reasons, e.path
 
 
 def test_a_scaled_figure_shows_its_scale_and_its_currency():
@@ -623,6 +633,14 @@ def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_the
     for e in GENERATOR_COST_FIGURES:
         assert e.path.removeprefix("generator_costs.") in costs, e.path
     assert outcome_key("generator_costs.fuel_pw") in st.cost.reasons
+    from offgrid.catalogue.outcomes import MIX_FIGURES
+
+    mix = st.to_dict()["tradeoff"]  # each mix of the trade-off, same JSON
+    for e in MIX_FIGURES:
+        name = e.path.removeprefix("mix.points[].")
+        assert all(isinstance(p[name], int | float) for p in mix["points"]), e.path
+        key = outcome_key(e.explained_by)
+        assert key in (st.mix.reasons if e.explained_by.startswith("mix.") else st.run.reasons)
     _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "generator_costs.fuel_pw", label="Zq fuel pw",
           unit="Zq {currency}", digits=1)  # fmt: skip
     _swap(monkeypatch, catalogue.FIGURES_BY_PATH, "hybrid.capacity_wh", label="Zq battery",
@@ -637,5 +655,7 @@ def test_the_hybrid_run_rows_are_the_studys_and_the_report_and_variants_read_the
     assert f"{st.cost.fuel_pw:,.1f} Zq {st.cost.currency}" in text and "Zq fuel pw" in text
     name, unit, digits, _get = next(r for r in HYBRID_ROWS if r[0] == "hybrid.fuel_l_per_year")
     assert hybrid_row(name, unit, digits, [1.5]) == ("Zq fuel", "Zq", 2, [1.5])
-    solar = next(r for r in HYBRID_ROWS if r[0] == "hybrid.solar_fraction")
+    solar = next(r for r in HYBRID_ROWS if r[0] == "mix.points[].solar_fraction")
     assert hybrid_row(*solar[:3], [0.25]) == ("Mix: solar fraction", "%", 1, [25.0])
+    lcc = next(r for r in HYBRID_ROWS if r[0] == "mix.points[].lcc")
+    assert hybrid_row(*lcc[:3], [1.0], "EUR")[:2] == ("Mix: lifecycle cost", "EUR")

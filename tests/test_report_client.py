@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import pytest
 
+from offgrid.catalogue import figure_entry
 from offgrid.cli import main
 from offgrid.design.sizing import design
 from offgrid.economics.bom import complete_bill_of_materials
@@ -48,8 +49,10 @@ def test_one_page_with_what_the_client_needs(demo):
     lines = text.splitlines()
     assert len(lines) <= 60 and max(map(len, lines)) <= 80  # one printed page
     assert "(demonstration data, invented)" in lines[0]
-    assert f"Solar array {d.array.power_w:.0f} W: {d.array.module_count} x" in text
-    assert f"for {d.battery.autonomy_days:g} days" in text
+    # each number with the catalogue's label and unit (offgrid/catalogue/composites.py)
+    power, days = figure_entry("array.power_w"), figure_entry("battery.autonomy_days")
+    assert f"{power.label} {power.text(d.array.power_w)}: {d.array.module_count} x" in text
+    assert f"{days.label} {days.text(d.battery.autonomy_days)}" in " ".join(text.split())
     assert "defers to local electrical codes" in text
     assert text.count("Date: ____") == 3
     # unpriced accessories: no total given as the cost, the partial sum marked so
@@ -66,7 +69,7 @@ def test_fully_priced_kit_gives_capital_and_lifecycle(demo):
     # every line at 1 USD: the parts cost is the sum of the quantities, + 15 % installation
     parts = sum(ln.quantity for ln in lines)
     text = client_summary_text(q, d)
-    assert f"Capital {money(parts * 1.15, 'USD')}" in text
+    assert f"{figure_entry('costs.capital').label} {money(parts * 1.15, 'USD')}" in text
 
 
 def test_report_command_writes_the_client_format(tmp_path, capsys):

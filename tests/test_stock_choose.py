@@ -13,6 +13,7 @@ from dataclasses import replace
 
 import pytest
 
+from offgrid.catalogue import figure_entry
 from offgrid.design.result import DesignError
 from offgrid.design.sizing import design
 from offgrid.project.model import BatterySpec, ControllerSpec, ModuleSpec
@@ -184,7 +185,7 @@ def test_capital_worked_by_hand_for_a_small_kit():
     assert (best.module_count, best.battery_units, best.controller_count) == (4, 10, 2)
     # 4 x 100 + 10 x 280 + 2 x 320 + 1 x 260 = 4100 USD; + 10 % installation = 4510 USD
     assert best.capital == pytest.approx(4510.0)
-    assert "capital 4,510.00 USD" in search_text(result)
+    assert f"{figure_entry('costs.capital').label} 4,510.00 USD" in search_text(result)
 
 
 def test_a_price_in_another_currency_is_converted_or_left_unpriced():

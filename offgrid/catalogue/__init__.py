@@ -9,7 +9,13 @@ read it by path.  A new input or figure is added in one place: a row in
 :mod:`~offgrid.catalogue.stock` (``[stock]``), :mod:`offgrid.catalogue.figures` (the
 design) or :mod:`~offgrid.catalogue.outcomes` (simulation and lifecycle cost).
 
-API: :class:`InputEntry`, :class:`FigureEntry`; :func:`input_entry` and
+Rows whose label carries figures (``Upkeep {upkeep} x PWF {pwf}``), tables of figures
+(the monthly reliability table) and the headings of figure groups are entries of
+:mod:`~offgrid.catalogue.composites`: :func:`composite`, :func:`table_entry`,
+``FIGURE_GROUPS``.
+
+API: :class:`InputEntry`, :class:`FigureEntry`, :class:`CompositeEntry`,
+:class:`TableEntry`; :func:`input_entry` and
 :func:`figure_entry` (by path, ``KeyError`` naming the path when it is not catalogued),
 :func:`find_input` and :func:`find_figure` (``None`` instead); :func:`inputs_under` (the
 rows of one table); ``INPUTS``, ``FIGURES`` (with ``RELIABILITY_FIGURES`` and
@@ -20,11 +26,22 @@ from __future__ import annotations
 
 import re
 
+from offgrid.catalogue.composites import (
+    COMPOSITES,
+    COMPOSITES_BY_ID,
+    EACH_RUN_LABEL,
+    FIGURE_GROUPS,
+    ROW_GROUPS,
+    TABLES,
+    TABLES_BY_ID,
+)
 from offgrid.catalogue.entries import (
     FIGURE_LABEL_ROOM,
     INPUT_LABEL_ROOM,
+    CompositeEntry,
     FigureEntry,
     InputEntry,
+    TableEntry,
 )
 from offgrid.catalogue.figures import FIGURES as DESIGN_FIGURES
 from offgrid.catalogue.generator import GENERATOR_FIGURES, GENERATOR_INPUTS
@@ -34,14 +51,20 @@ from offgrid.catalogue.outcomes import (
     COST_FIGURES,
     GENERATOR_COST_FIGURES,
     HYBRID_FIGURES,
+    MIX_FIGURES,
+    MONTH_FIGURES,
     RELIABILITY_FIGURES,
+    TRADEOFF_FIGURES,
 )
 from offgrid.catalogue.stock import STOCK_INPUTS
 from offgrid.catalogue.water import WATER_FIGURES, WATER_INPUTS
 
 __all__ = [
+    "COMPOSITES",
     "COST_FIGURES",
+    "EACH_RUN_LABEL",
     "FIGURES",
+    "FIGURE_GROUPS",
     "FIGURE_LABEL_ROOM",
     "GENERATOR_COST_FIGURES",
     "HYBRID_FIGURES",
@@ -49,15 +72,22 @@ __all__ = [
     "INPUT_LABEL_ROOM",
     "OWN_CHECKS",
     "RELIABILITY_FIGURES",
+    "ROW_GROUPS",
     "RUN_LENGTH_M",
+    "TABLES",
+    "CompositeEntry",
     "FigureEntry",
     "InputEntry",
+    "TableEntry",
+    "composite",
     "figure_entry",
+    "fill",
     "find_figure",
     "find_input",
     "input_entry",
     "inputs_under",
     "key_figures",
+    "table_entry",
 ]
 
 _INDEX = re.compile(r"\[\d+\]")
@@ -77,7 +107,10 @@ FIGURES: tuple[FigureEntry, ...] = (
     *WATER_FIGURES,
     *GENERATOR_FIGURES,
     *RELIABILITY_FIGURES,
+    *MONTH_FIGURES,
+    *TRADEOFF_FIGURES,
     *HYBRID_FIGURES,
+    *MIX_FIGURES,
     *COST_FIGURES,
     *GENERATOR_COST_FIGURES,
 )
@@ -137,3 +170,32 @@ def figure_entry(path: str) -> FigureEntry:
 def key_figures() -> tuple[str, ...]:
     """The report's key figures by reason key, in catalogue order."""
     return tuple(e.reason_key for e in FIGURES if e.key)
+
+
+def composite(entry_id: str) -> CompositeEntry:
+    """The composite row ``entry_id`` (``costs.upkeep_row``), read as it is now."""
+    try:
+        return COMPOSITES_BY_ID[entry_id]
+    except KeyError:
+        where = "offgrid/catalogue/composites.py"
+        raise KeyError(f"{entry_id}: not a composite row of {where}") from None
+
+
+def table_entry(entry_id: str) -> TableEntry:
+    """The table ``entry_id`` (``reliability-months``), read as it is now."""
+    try:
+        return TABLES_BY_ID[entry_id]
+    except KeyError:
+        raise KeyError(f"{entry_id}: not a table of offgrid/catalogue/composites.py") from None
+
+
+def fill(entry_id: str, record: object, currency: str = "", **words: str) -> str:
+    """The composite row ``entry_id`` filled from ``record`` (a ``LifecycleCost``, a
+    ``Reliability``): each placeholder's figure read at its path of the record, the word
+    placeholders from ``words``."""
+    from offgrid.catalogue.outcomes import outcome_value
+
+    def value_of(path: str):
+        return outcome_value(record, path)
+
+    return composite(entry_id).fill(value_of, figure_entry, currency, **words)

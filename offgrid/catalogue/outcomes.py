@@ -58,13 +58,75 @@ HYBRID_FIGURES: tuple[Fig, ...] = (
     Fig("hybrid.wear.expected_life_years", "Battery expected life", "years", 1),
 )
 
+#: The monthly figures of the simulation (``offgrid simulate --json``: ``months[k].lolp``),
+#: one row each of the table ``reliability-months`` (:mod:`offgrid.catalogue.composites`),
+#: explained by the record's reason ``months.lolp``.  Their heading (label and unit) fits
+#: the 7 Risk section's month strip (:data:`MONTH_LABEL_ROOM`).
+MONTH_FIGURES: tuple[Fig, ...] = (
+    Fig("reliability.months[].lolp", "LOLP", "%", 1, "reliability.months.lolp", scale=100.0),
+    Fig("reliability.months[].soc_min_p5", "SoC p5", "%", 0, "reliability.months.soc_min",
+        scale=100.0),
+    Fig("reliability.months[].soc_min_p50", "SoC p50", "%", 0, "reliability.months.soc_min",
+        scale=100.0),
+    Fig("reliability.months[].soc_min_p95", "SoC p95", "%", 0, "reliability.months.soc_min",
+        scale=100.0),
+)  # fmt: skip
+
+#: Each target LOLP of the array-battery trade-off (``SimulationReport.tradeoff``:
+#: :class:`offgrid.simulate.tradeoff.TargetResult`), one row per target of the table
+#: ``tradeoff`` (report) and of the 7 Risk section, explained by
+#: :data:`offgrid.simulate.tradeoff.TRADEOFF_REASONS` at the path less ``tradeoff.``.
+TRADEOFF_FIGURES: tuple[Fig, ...] = (
+    Fig("tradeoff.targets[].target", "Target LOLP", "%", 3, "tradeoff.targets.target",
+        scale=100.0),
+    Fig("tradeoff.targets[].design_meets", "Met by this design", "", None,
+        "tradeoff.targets.design_meets", short="Met"),
+    Fig("tradeoff.targets[].design_capacity_needed_wh", "Battery needed at this array",
+        "kWh", 1, "tradeoff.targets.design_capacity_needed_wh", scale=1e-3,
+        short="Battery needed"),
+    Fig("tradeoff.targets[].cheapest", "Cheapest point", "", None, "tradeoff.targets.cheapest"),
+    Fig("tradeoff.points[].array_w", "Array on the curve", "W", 0, "tradeoff.targets.cheapest"),
+    Fig("tradeoff.points[].capacity_wh", "Battery on the curve", "kWh", 1,
+        "tradeoff.targets.cheapest", scale=1e-3),
+)  # fmt: skip
+
+#: Longest heading (label and unit) of a monthly row: the month strip's label column.
+MONTH_LABEL_ROOM = 11
+
+#: Each mix of sun, battery and fuel of the generator's trade-off (``offgrid generator
+#: --json``, ``tradeoff.points[k]``: :class:`offgrid.economics.hybrid_mix.MixPoint`), the
+#: columns of the report's table ``generator-tradeoff`` and the mix rows of a comparison
+#: of variants.  Explained by the trade-off's reasons (``MixTradeoff.reasons``, path less
+#: ``mix.``) or, for what the hourly run computes alike, by the run's (``hybrid.``).
+MIX_FIGURES: tuple[Fig, ...] = (
+    Fig("mix.points[].array_w", "Mix: array", "W", 0, "mix.points.array_w", short="Array"),
+    Fig("mix.points[].battery_kwh", "Mix: battery, nominal", "kWh", 2,
+        "mix.points.battery_kwh", short="Battery"),
+    Fig("mix.points[].fuel_l_per_year", "Mix: generator fuel", "L/yr", 0,
+        "hybrid.fuel_l_per_year", short="Fuel"),
+    Fig("mix.points[].run_hours_per_year", "Mix: generator run hours", "h/yr", 0,
+        "hybrid.run_hours_per_year", short="Run"),
+    Fig("mix.points[].solar_fraction", "Mix: solar fraction", "%", 1, "hybrid.solar_fraction",
+        scale=100.0, short="Solar"),
+    Fig("mix.points[].unmet_fraction", "Mix: unmet energy, hourly", "%", 3,
+        "hybrid.unmet_fraction", scale=100.0, short="Unmet"),
+    Fig("mix.points[].lcc", "Mix: lifecycle cost", "{currency}", 0, "mix.lcc", short="LCC"),
+)  # fmt: skip
+
 COST_FIGURES: tuple[Fig, ...] = (
+    Fig("costs.parts", "Parts", "{currency}", 2),
+    Fig("costs.installation", "Installation", "{currency}", 2),
     Fig("costs.capital", "Capital cost", "{currency}", 2),
     Fig("costs.replacements_pw", "Replacements, present worth", "{currency}", 2),
     Fig("costs.lcc", "Lifecycle cost", "{currency}", 2),
     Fig("costs.energy_kwh_year", "Energy delivered per year", "kWh", 0),
     Fig("costs.cost_per_kwh", "Cost per kWh delivered", "{currency}/kWh", 3),
     Fig("costs.battery_life_years", "Battery life", "years", 1),
+    Fig("costs.upkeep_yearly", "Upkeep per year", "{currency}/year", 2),
+    Fig("costs.upkeep_pw", "Upkeep, present worth", "{currency}", 2),
+    Fig("costs.pwf_upkeep", "Present worth factor, upkeep", "", 3),
+    Fig("costs.pwf_energy", "Present worth factor, energy", "", 3),
+    Fig("costs.energy_pw_kwh", "Discounted energy over the life", "kWh", 0),
 )
 
 
@@ -86,7 +148,7 @@ def outcome_key(path: str) -> str:
     -> ``wear.expected_life_years`` (``Reliability.reasons``; ``hybrid.``: ``HybridRun``); a
     cost row keeps its path (``LifecycleCost.reasons``)."""
     head, _, rest = path.partition(".")
-    return rest if head in {"reliability", "hybrid", "generator_costs"} else path
+    return rest if head in {"reliability", "hybrid", "generator_costs", "tradeoff", "mix"} else path
 
 
 def outcome_value(record: object, path: str) -> object:

@@ -121,7 +121,8 @@ class ReasonBook:
 def reason_key(path: str, data: dict | None = None) -> str:
     """The key in ``SystemDesign.reasons`` for a dotted path of ``SystemDesign.to_dict()``.
 
-    List indices are dropped (months, load lines, curve points); a cable's index becomes its
+    List indices are dropped (months, load lines, curve points, a catalogue row's ``[]``:
+    ``electrical.protection.devices[].count``); a cable's index becomes its
     key (``wires[2].size`` -> ``wires.charge.size``, needs ``data``); the electrical
     section's figures are keyed without ``electrical.`` (``electrical.strings.min_series``
     -> ``strings.min_series``) and the module fit's parameters share ``module.fit``.
@@ -134,7 +135,7 @@ def reason_key(path: str, data: dict | None = None) -> str:
         i = int(m.group(1))
         if i < len(wires) and isinstance(wires[i], dict) and "key" in wires[i]:
             return f"wires.{wires[i]['key']}.{m.group(2)}"
-    key = re.sub(r"\[\d+\]", "", path)
+    key = re.sub(r"\[\d*\]", "", path)  # a catalogue row's "[]" too
     if key.startswith("electrical.module_fit"):
         return "module.fit"
     return key.removeprefix("electrical.")

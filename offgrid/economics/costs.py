@@ -267,6 +267,50 @@ def lifecycle_cost(
             (("energy", fmt(energy, "kWh/year")), ("PWF(N, 0, d)", fmt(pwf_e))),
             "Duffie & Beckman 4th ed. ch. 11 (levelised over the discounted energy)",
         ),
+        # the figures the composite rows carry (offgrid/catalogue/composites.py)
+        "costs.parts": Reason(
+            "sum of quantity x unit price over the bill of materials",
+            (),
+            "common practice, no source",
+        ),
+        "costs.installation": Reason(
+            "parts x installation share",
+            (("installation", fmt(e.installation_pct, "%")),),
+            "common practice, no source",
+        ),
+        "costs.upkeep_yearly": Reason(
+            "capital x yearly upkeep share",
+            (("upkeep", fmt(e.om_pct_of_capital, "% of capital per year")),),
+            "common practice, no source",
+        ),
+        "costs.pwf_upkeep": Reason(
+            "PWF(N, i, d) = 1/(d - i) [1 - ((1 + i)/(1 + d))^N] (N/(1 + i) when i = d)",
+            (
+                ("N", fmt(n, "years")),
+                ("i", fmt(e.inflation_pct, "%")),
+                ("d", fmt(e.discount_rate_pct, "%")),
+            ),
+            "Duffie & Beckman 4th ed. eq. 11.5.1 (from memory)",
+        ),
+        "costs.pwf_energy": Reason(
+            "PWF(N, 0, d) = 1/d [1 - (1/(1 + d))^N]: the energy is not inflated",
+            (("N", fmt(n, "years")), ("d", fmt(e.discount_rate_pct, "%"))),
+            "Duffie & Beckman 4th ed. eq. 11.5.1 (from memory)",
+        ),
+        "costs.energy_kwh_year": Reason(
+            "daily AC and DC energy at the appliances by month x days in the month x "
+            "share of demand served",
+            (("served", fmt(served)),),
+            "common practice, no source",
+        ),
+        "costs.energy_pw_kwh": Reason(
+            "energy delivered per year x PWF(N, 0, d)",
+            (("energy", fmt(energy, "kWh/year")), ("PWF(N, 0, d)", fmt(pwf_e))),
+            "Duffie & Beckman 4th ed. ch. 11 (levelised over the discounted energy)",
+        ),
+        "costs.battery_life_years": Reason(
+            "the battery's service life", (), life_src or "common practice, no source"
+        ),
     }
     if missing:
         return LifecycleCost(

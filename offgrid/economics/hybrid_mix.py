@@ -210,6 +210,16 @@ def mix_tradeoff(
         )
     e = project.economics
     reasons = {
+        "points.array_w": Reason(
+            "the array sizes of the grid: the design's array times the factors swept",
+            (),
+            "common practice, no source",
+        ),
+        "points.battery_kwh": Reason(
+            "the nominal battery sizes of the grid: the design's bank times the factors swept",
+            (),
+            "common practice, no source",
+        ),
         "lcc": Reason(
             "(array x price per W + battery x price per kWh) x (1 + installation) + upkeep x "
             "PWF(N, i, d) + replacements x ((1 + i)/(1 + d))^n + generator present worth "
@@ -222,7 +232,7 @@ def mix_tradeoff(
                 ("i", fmt(e.inflation_pct, "%")),
             ),
             SOURCE_PW,
-        )
+        ),
     }
     return MixTradeoff(
         e.currency,

@@ -111,14 +111,14 @@ def _lcc(col, st) -> float | None:
 #: generator with its fuel), the trade-off's own formula, for every column.
 HYBRID_ROWS: tuple[tuple[str, str, int, Callable[[Any, Any], Any]], ...] = (
     (
-        "Mix: array",
-        "W",
+        "mix.points[].array_w",
+        "",
         0,
         lambda c, s: c.design.array.power_w if s is None else s.run.array_w,
     ),
     (
-        "Mix: battery, nominal",
-        "kWh",
+        "mix.points[].battery_kwh",
+        "",
         2,
         lambda c, s: c.design.battery.nominal_kwh if s is None else s.chosen_battery_kwh,
     ),
@@ -130,27 +130,33 @@ HYBRID_ROWS: tuple[tuple[str, str, int, Callable[[Any, Any], Any]], ...] = (
         lambda c, s: 0.0 if s is None else s.run.run_hours_per_year,
     ),
     ("hybrid.starts_per_year", "", 0, lambda c, s: 0.0 if s is None else s.run.starts_per_year),
-    ("hybrid.solar_fraction", "", 1, lambda c, s: 1.0 if s is None else s.run.solar_fraction),
-    ("hybrid.unmet_fraction", "", 3, lambda c, s: None if s is None else s.run.unmet_fraction),
-    ("Mix: lifecycle cost", "money", 0, _lcc),
+    (
+        "mix.points[].solar_fraction",
+        "",
+        1,
+        lambda c, s: 1.0 if s is None else s.run.solar_fraction,
+    ),
+    (
+        "mix.points[].unmet_fraction",
+        "",
+        3,
+        lambda c, s: None if s is None else s.run.unmet_fraction,
+    ),
+    ("mix.points[].lcc", "", 0, _lcc),
 )
 
 
-#: Rows shown as a share of the mix (the solar-only column's own figure beside it).
-MIX_ROWS = ("hybrid.solar_fraction", "hybrid.unmet_fraction")
-
-
-def hybrid_row(name: str, unit: str, digits: int, values: list[Any]) -> tuple:
-    """(label, unit, digits, values) of one hybrid row: a catalogue path's row with its
-    values scaled ("Mix: " before the rows of :data:`MIX_ROWS`), else as given."""
-    if not name.startswith("hybrid."):
+def hybrid_row(name: str, unit: str, digits: int, values: list[Any], currency: str = "") -> tuple:
+    """(label, unit, digits, values) of one hybrid row: a catalogue path's row
+    (``hybrid.`` the hourly run's, ``mix.`` the mix's) with its values scaled and its
+    unit in ``currency``, else as given."""
+    if not name.startswith(("hybrid.", "mix.")):
         return name, unit, digits, values
     from offgrid.catalogue import figure_entry
 
     e = figure_entry(name)
-    label = f"Mix: {e.label[0].lower()}{e.label[1:]}" if name in MIX_ROWS else e.label
     shown = [None if v is None else e.shown(float(v)) for v in values]
-    return label, e.unit, e.digits, shown
+    return e.label, e.unit_in(currency), e.digits, shown
 
 
 def hybrid_values(columns, label_getter) -> list[Any]:

@@ -216,8 +216,11 @@ def battery_life_label(sources: list[str]) -> str:
         else "preset"
         for s in sources
     }
-    base = figure_entry("costs.battery_life_years").label
-    return base + (", " + " or ".join(sorted(kinds)) if kinds else "")
+    if not kinds:
+        return figure_entry("costs.battery_life_years").label
+    from offgrid.catalogue import fill
+
+    return fill("costs.battery_life_method", None, method=" or ".join(sorted(kinds)))
 
 
 #: The simulation's rows, by their catalogue paths.
@@ -339,8 +342,9 @@ def compare_variants(
         from offgrid.economics.hybrid_variants import HYBRID_ROWS, hybrid_row, hybrid_values
 
         for name, unit, digits, get in HYBRID_ROWS:
-            label, unit, digits, vals = hybrid_row(name, unit, digits, hybrid_values(columns, get))
-            unit = project.economics.currency if unit == "money" else unit
+            label, unit, digits, vals = hybrid_row(
+                name, unit, digits, hybrid_values(columns, get), project.economics.currency
+            )
             rows.append(_row(label, unit, digits, vals, "hybrid"))
     if simulate is not None:
         for path in RELIABILITY_ROWS:

@@ -247,6 +247,18 @@ def hybrid_run(
         "battery": fmt(cap / 1000, "kWh"),
         "derated output": fmt(gen.derated_w, "W"),
     }
+    book.add(
+        "array_w",
+        "the array this hourly run simulates (the design's, or a mix of the trade-off)",
+        _SRC_DISPATCH,
+        array=fmt(aw, "W"),
+    )
+    book.add(
+        "capacity_wh",
+        "the battery capacity this run simulates, at the battery's temperature",
+        _SRC_DISPATCH,
+        battery=fmt(cap / 1000, "kWh"),
+    )
     book.add("run_hours_per_year", "hours the generator runs / years", _SRC_DISPATCH, **common)
     book.add("starts_per_year", "off-to-on changes / years", _SRC_DISPATCH, **common)
     book.add(

@@ -14,6 +14,7 @@ from dataclasses import asdict, dataclass
 from pathlib import Path
 from typing import Any
 
+from offgrid.catalogue.outcomes import GENERATOR_COST_FIGURES, HYBRID_FIGURES
 from offgrid.design.result import Notice
 from offgrid.economics.generator_costs import GeneratorCost, generator_cost
 from offgrid.economics.hybrid_mix import MixTradeoff, mix_tradeoff
@@ -231,6 +232,45 @@ def _wrap(text: str, indent: str = "  ") -> list[str]:
     return textwrap.wrap(text, 80, subsequent_indent=indent) or [""]
 
 
+def figure_lines(record: Any, rows: tuple, currency: str = "") -> list[str]:
+    """One line per catalogue row (offgrid/catalogue/outcomes.py) of a record of the
+    study: its label and its value with the row's digits, scale and unit; rows the record
+    leaves out are not shown."""
+    from offgrid.catalogue import figure_entry
+    from offgrid.catalogue.outcomes import outcome_value
+
+    out = []
+    for row in rows:
+        e = figure_entry(row.path)  # read as it is now
+        v = outcome_value(record, e.path)
+        if v is not None:
+            out.append(f"  {e.label:<34} {e.text(float(v), currency=currency):>16}")
+    return out
+
+
+def mix_lines(m: MixTradeoff, currency: str) -> list[str]:
+    """The mixes of the trade-off as a text table: the catalogue's table
+    ``generator-mixes`` (columns headed by their short word and unit, each figure with
+    its digits and scale), the cheapest marked '<'."""
+    from offgrid.catalogue import figure_entry, table_entry
+
+    table = table_entry("generator-mixes")
+    entries = [figure_entry(p) for p in table.figures]
+    heads = table.columns(figure_entry, currency)
+    rows = []
+    for p in sorted(m.points, key=lambda q: (q.battery_kwh, q.array_w)):
+        cells = [
+            f"{e.shown(getattr(p, e.path.rsplit('.', 1)[1])):,.{e.digits or 0}f}"  # a field
+            for e in entries  # named in the table
+        ]
+        rows.append((cells, " <" if p is m.cheapest else ""))
+    widths = [max(len(h), *(len(c[k]) for c, _ in rows)) for k, h in enumerate(heads)]
+    out = ["  " + "  ".join(f"{h:>{w}}" for h, w in zip(heads, widths, strict=True))]
+    for cells, mark in rows:
+        out.append("  " + "  ".join(f"{c:>{w}}" for c, w in zip(cells, widths, strict=True)) + mark)
+    return out
+
+
 def summary_text(st: GeneratorStudy) -> str:
     """80-column summary of the generator study."""
     s, r, c = st.setup, st.run, st.cost
@@ -238,9 +278,15 @@ def summary_text(st: GeneratorStudy) -> str:
     head = st.title + ("  (demonstration data)" if st.demo else "")
     out = [head, "=" * min(80, len(head))]
     out += _wrap(f"Generator: {s.spec.name}, {s.spec.fuel}, {s.spec.rated_kw:g} kW rated")
+    from offgrid.catalogue import figure_entry
+
+    derated = figure_entry("generator.derating.derated_kw")
+    need = figure_entry("generator.check.starting_need_w")
+    least = figure_entry("generator.check.min_load_w")
     d = s.derating
     out += _wrap(
-        f"  derated {d.derated_kw:.2f} kW (x {d.factor:.3f}) at {d.altitude_m:.0f} m, "
+        f"  {derated.label} {derated.text(d.derated_kw)} (x {d.factor:.3f}) at "
+        f"{d.altitude_m:.0f} m, "
         f"{d.temp_c:.1f} C; {_METHOD_WORDS.get(d.method, d.method)}",
         "    ",
     )
@@ -255,55 +301,29 @@ def summary_text(st: GeneratorStudy) -> str:
     out.append("    line L/h " + " ".join(f"{x:7.3f}" for x in f.fitted_l_h))
     k = s.check
     out.append(
-        f"  check: starting need {k.starting_need_w / 1000:.2f} kW (charger input "
+        f"  check: {need.label} {need.text(k.starting_need_w)} (charger input "
         f"{k.charger_input_w / 1000:.2f} kW) within {k.derated_w / 1000:.2f} kW: "
         + ("yes" if k.ok else "NO")
     )
-    out.append(f"  minimum loading {k.min_load_w / 1000:.2f} kW")
+    out.append(f"  {least.label} {least.text(k.min_load_w)}")
     out.append("")
     out += _wrap(
-        f"Hybrid simulated ({st.chosen}): array {r.array_w:.0f} W, battery "
-        f"{r.capacity_wh / 1000:.2f} kWh at its temperature; {r.rule.replace('_', ' ')}; "
-        f"{st.years} years hourly"
+        f"Hybrid simulated ({st.chosen}): {r.rule.replace('_', ' ')}; {st.years} years hourly"
     )
-    out.append(f"  run hours {r.run_hours_per_year:8.0f} /yr   starts {r.starts_per_year:6.0f} /yr")
-    out.append(
-        f"  fuel      {r.fuel_l_per_year:8.0f} L/yr  below minimum loading "
-        f"{r.below_min_hours_per_year:.0f} h/yr"
-    )
-    out.append(
-        f"  solar fraction {r.solar_fraction:6.1%}   unmet energy {r.unmet_fraction:.3%} "
-        f"(without the generator {r.solar_only_unmet_fraction:.2%})"
-    )
-    if r.wear is not None:
-        out.append(
-            f"  battery: {r.wear.equivalent_full_cycles_per_year:.0f} equivalent full "
-            f"cycles/yr, expected life {r.wear.expected_life_years:.1f} years"
-        )
+    out += figure_lines(r, HYBRID_FIGURES)  # the catalogue's rows, as the report's table
+    out.append(f"  (without the generator: unmet energy {r.solar_only_unmet_fraction:.2%})")
     out.append("")
     out.append("Generator costs over the system's life (present worth)")
+    out += figure_lines(c, GENERATOR_COST_FIGURES, cur)
     out.append(
-        f"  fuel       {c.fuel_pw:12,.0f} {cur}   ({c.fuel_first_year:,.0f} {cur} in year 1)"
+        f"  (fuel {c.fuel_first_year:,.0f} {cur} in year 1; {len(c.overhaul_years)} "
+        f"overhaul(s); life {c.life_years:.1f} years)"
     )
-    out.append(f"  upkeep     {c.maintenance_pw:12,.0f} {cur}")
-    out.append(f"  overhauls  {c.overhaul_pw:12,.0f} {cur}   ({len(c.overhaul_years)})")
-    rep = "-" if c.replacement_pw is None else f"{c.replacement_pw:12,.0f}"
-    out.append(f"  replaced   {rep:>12} {cur}   (life {c.life_years:.1f} years)")
-    tot = "-" if c.total_pw is None else f"{c.total_pw:12,.0f}"
-    out.append(f"  total      {tot:>12} {cur}")
     if st.mix is not None:
         m = st.mix
         out.append("")
         out.append(f"Trade-off: sun, battery and fuel ({len(m.points)} mixes, {m.years} years)")
-        out.append("  array W  battery kWh  fuel L/yr  run h/yr  unmet %  solar %  LCC " + cur)
-        rows = sorted(m.points, key=lambda p: (p.battery_kwh, p.array_w))
-        for p in rows:
-            mark = " <" if p is m.cheapest else ""
-            out.append(
-                f"  {p.array_w:7.0f}  {p.battery_kwh:11.2f}  {p.fuel_l_per_year:9.0f}  "
-                f"{p.run_hours_per_year:8.0f}  {100 * p.unmet_fraction:7.3f}  "
-                f"{100 * p.solar_fraction:7.1f}  {p.lcc:9,.0f}{mark}"
-            )
+        out += mix_lines(m, cur)
         so = m.solar_only
         out.append(
             f"  solar only: {so.array_w:.0f} W, {so.battery_kwh:.2f} kWh, unmet "

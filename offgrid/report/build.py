@@ -17,7 +17,17 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from offgrid.catalogue import figure_entry, find_figure, find_input, key_figures
+from offgrid.catalogue import (
+    EACH_RUN_LABEL,
+    FIGURE_GROUPS,
+    composite,
+    figure_entry,
+    fill,
+    find_figure,
+    find_input,
+    key_figures,
+    table_entry,
+)
 from offgrid.catalogue.outcomes import RELIABILITY_FIGURES, outcome_key, outcome_value
 from offgrid.climate.model import MonthlyClimate
 from offgrid.design.cautions import DEFERS_TO_CODE
@@ -109,19 +119,8 @@ GROUP_ORDER = (
     "wires",
     "protection",
 )
-GROUP_TITLES = {
-    "site": "Site and sun",
-    "loads": "Loads",
-    "array": "Array",
-    "battery": "Battery",
-    "controller": "Charge controller",
-    "inverter": "Inverter",
-    "module": "Module model",
-    "mpp": "Maximum power point, design month",
-    "strings": "String window",
-    "wires": "Cables",
-    "protection": "Protection",
-}
+#: The headings of the figure groups: the catalogue's (offgrid/catalogue/composites.py).
+GROUP_TITLES = FIGURE_GROUPS
 
 # ----------------------------------------------------------------------------- formatting
 
@@ -186,7 +185,8 @@ def figure_cell(value: Any, path: str, unit: str | None = None) -> Cell:
         return Cell(f"{value:,d} {unit}".strip(), float(value), path)
     if isinstance(value, float):
         digits = entry.digits if entry is not None and entry.digits is not None else None
-        text = number_text(value, digits_for(value, unit) if digits is None else digits)
+        shown = entry.shown(value) if entry is not None else value  # the row's scale
+        text = number_text(shown, digits_for(shown, unit) if digits is None else digits)
         return Cell(f"{text} {unit}".strip(), value, path)
     return Cell(str(value), None, path)
 
@@ -241,9 +241,8 @@ def figure_label(design: SystemDesign, path: str) -> str:
 
 
 def _with_unit(path: str) -> str:
-    """A monthly row's label: the catalogue's label and unit (``Array supply ..., Wh/day``)."""
-    e = figure_entry(path)
-    return f"{e.label}, {e.unit}" if e.unit else e.label
+    """A monthly row's label: the catalogue's label and unit (``Array supply ... (Wh/day)``)."""
+    return figure_entry(path).heading()
 
 
 def _wire_field(name: str) -> str:
@@ -453,7 +452,8 @@ def _climate(ri: ReportInputs, tree: dict) -> Section:
     d = ri.design
     s = d.site
     c = ri.climate
-    cols = ["Month", "Horizontal", "Array plane", "Mean", "Day"]
+    table = table_entry("climate")  # the figure columns are the catalogue's
+    cols = [table.title, *table.columns(figure_entry)]
     have_max = c is not None and c.temp_max_c is not None
     have_min = c is not None and c.temp_min_c is not None
     if have_max:
@@ -476,13 +476,11 @@ def _climate(ri: ReportInputs, tree: dict) -> Section:
         rows.append(tuple(row))
     blocks: list[Block] = [
         Table(
-            "climate",
+            table.id,
             tuple(cols),
             tuple(rows),
             ("l",) + ("r",) * (len(cols) - 1),
-            "Insolation in kWh/m2/day (mean daily, horizontal and in the array plane); "
-            "temperatures in C (day = mean of the daily mean and maximum, used for the cell "
-            "temperature).",
+            table.note,
         )
     ]
     src = s.climate_source or (c.source if c else "") or "not given"
@@ -562,19 +560,13 @@ def _loads(ri: ReportInputs, tree: dict) -> Section:
         (None, lr.dc_energy_wh, "loads.dc_energy_wh"),
         (None, lr.inverter_loss_wh, "loads.inverter_loss_wh"),
         (None, idle, "loads.inverter_idle_by_month_wh"),
-        (f"Growth {lr.growth_pct:g} %", growth, None),
+        (fill("loads.growth_row", lr), growth, None),
         (None, lr.daily_energy_wh, "loads.daily_energy_wh"),
     ):
         mrows.append(_month_row(label or figure_entry(path).label, vals, path))
+    table = table_entry("energy-by-month")
     blocks.append(
-        Table(
-            "energy-by-month",
-            ("Wh/day", *MONTHS),
-            tuple(mrows),
-            ("l",) + ("r",) * 12,
-            "Daily energy by month, Wh/day: each appliance line at the appliance, "
-            "then the totals up to the battery.",
-        )
+        Table(table.id, (table.title, *MONTHS), tuple(mrows), ("l",) + ("r",) * 12, table.note)
     )
     reason = d.reasons.get("loads.daily_energy_wh")
     if reason:
@@ -632,16 +624,9 @@ def _design_month(ri: ReportInputs, tree: dict) -> Section:
             rows.append(_month_row(_with_unit(f"array.{attr}"), values, f"array.{attr}"))
             harvests.append((figure_entry(f"array.{attr}").label, values))
     rows.append(_month_row(_with_unit("site.demand_to_sun"), s.demand_to_sun, "site.demand_to_sun"))
+    table = table_entry("supply-demand")
     blocks.append(
-        Table(
-            "supply-demand",
-            ("", *MONTHS),
-            tuple(rows),
-            ("l",) + ("r",) * 12,
-            "Demand and array supply at the battery (supply: the worst-month "
-            "derate chain; harvest: from the I-V curves through the day, where "
-            "computed); demand/sun in Wh per kWh/m2 of array-plane insolation.",
-        )
+        Table(table.id, (table.title, *MONTHS), tuple(rows), ("l",) + ("r",) * 12, table.note)
     )
     svg = (
         charts.supply_demand_svg(
@@ -734,9 +719,10 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
                 ),
             )
         )
+    pwm_vs_mppt = figure_entry("electrical.harvest.pwm_vs_mppt_pct")
     rows.append(
         (
-            _c("PWM against MPPT per module, design month"),
+            _c(pwm_vs_mppt.label),
             Cell(
                 f"{harvest.pwm_vs_mppt_pct:+.1f} %",
                 float(harvest.pwm_vs_mppt_pct),
@@ -744,7 +730,8 @@ def _iv_blocks(ri: ReportInputs) -> list[Block]:
             ),
         )
     )
-    blocks.append(Table("mpp", ("One module, design month", "Value"), tuple(rows), ("l", "r")))
+    table = table_entry("mpp")
+    blocks.append(Table(table.id, (table.title, "Value"), tuple(rows), ("l", "r"), table.note))
     return blocks
 
 
@@ -820,11 +807,10 @@ def _wire_reason_items(d: SystemDesign, paths: list[str]) -> list[FigureItem]:
             (run, ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in r.inputs))
             for run, r in entries
         )
-        label = _wire_field(name)
         items.append(
             FigureItem(
                 f"wires.*.{name}",
-                f"{label[:1].upper()}{label[1:]} of each run",
+                EACH_RUN_LABEL.format(label=_wire_field(name)),
                 Cell("see the schedule"),
                 formula,
                 inputs,
@@ -908,27 +894,14 @@ def _wiring(ri: ReportInputs, tree: dict) -> Section:
                 )
             )
         material = f"{materials.pop()} conductors; " if len(materials) == 1 else ""
+        table = table_entry("wiring")
         blocks.append(
             Table(
-                "wiring",
-                (
-                    "Run",
-                    "Runs",
-                    "Max A",
-                    "Drop A",
-                    "Length m",
-                    "Size",
-                    "Drop %",
-                    "Ampacity A",
-                    "Fuse A",
-                ),
+                table.id,
+                (table.title, *table.columns(figure_entry)),
                 tuple(rows),
                 ("l", "r", "r", "r", "r", "l", "r", "r", "r"),
-                f"{material}max A: the circuit's maximum continuous current, for ampacity and the "
-                "fuse (NEC 690.8 for PV circuits); drop A: the operating current; length "
-                "one-way; drop = 2 x length x drop A x resistance per metre at conductor "
-                "temperature / circuit voltage; ampacity after the temperature and grouping "
-                "corrections.",
+                f"{material}{table.note}",
                 wrap=(0,),
             )
         )
@@ -1111,16 +1084,10 @@ def _costs(ri: ReportInputs, cost: LifecycleCost) -> Section:
     rows2 = [
         _cost_row(cost, "costs.capital"),
         _cost_row(cost, "costs.replacements_pw"),
-        (
-            _c(f"Upkeep {money(cost.upkeep_yearly, cur)}/year x PWF {cost.pwf_upkeep:.3f}"),
-            Cell(money(cost.upkeep_pw, cur), cost.upkeep_pw, "costs.upkeep_pw"),
-        ),
+        _composite_row(cost, "costs.upkeep_row"),
         _cost_row(cost, "costs.lcc"),
         energy_row,
-        (
-            _c(f"Discounted energy (x PWF {cost.pwf_energy:.3f})"),
-            _c(f"{cost.energy_pw_kwh:,.0f} kWh"),
-        ),
+        _composite_row(cost, "costs.discounted_energy_row"),
         _cost_row(cost, "costs.cost_per_kwh"),
     ]
     blocks.append(Table("lifecycle", ("Item", "Value"), tuple(rows2), ("l", "r"), wrap=(0,)))
@@ -1141,6 +1108,27 @@ def _cost_row(cost: LifecycleCost, path: str) -> tuple[Cell, Cell]:
     v = outcome_value(cost, path)
     text = "-" if v is None else e.text(float(v), currency=cost.currency)
     return _c(e.label), Cell(text, v, path)
+
+
+def _composite_row(cost: LifecycleCost, entry_id: str) -> tuple[Cell, Cell]:
+    """A lifecycle row whose label carries figures: the catalogue's template filled, and
+    the value of the figure it names (offgrid/catalogue/composites.py)."""
+    row = composite(entry_id)
+    label = fill(entry_id, cost, cost.currency)
+    _, value = _cost_row(cost, row.value)
+    return _c(label), value
+
+
+def _month_table_rows(months, table_id: str) -> tuple[tuple[Cell, ...], ...]:
+    """The rows of a catalogue table of monthly figures (``reliability-months``): each
+    row's heading and digits its figure's, each month's value scaled as the figure says."""
+    rows = []
+    for path in table_entry(table_id).figures:
+        e = figure_entry(path)
+        name = path.rsplit(".", 1)[1]
+        values = [e.shown(getattr(m, name)) for m in months]  # a field named in the table
+        rows.append(_month_row(e.heading(), values, None, e.digits or 0))
+    return tuple(rows)
 
 
 def _reliability(ri: ReportInputs) -> Section | None:
@@ -1185,20 +1173,14 @@ def _reliability(ri: ReportInputs) -> Section | None:
         blocks.append(Figures(tuple(items), "Reliability figures"))
     months = rel.months
     if len(months) == 12:
-        rows = [
-            _month_row("LOLP %", [100 * m.lolp for m in months], None, 1),
-            _month_row("SoC p5 %", [100 * m.soc_min_p5 for m in months], None),
-            _month_row("SoC p50 %", [100 * m.soc_min_p50 for m in months], None),
-            _month_row("SoC p95 %", [100 * m.soc_min_p95 for m in months], None),
-        ]
+        table = table_entry("reliability-months")
         blocks.append(
             Table(
-                "reliability-months",
-                ("", *MONTHS),
-                tuple(rows),
+                table.id,
+                (table.title, *MONTHS),
+                _month_table_rows(months, table.id),
                 ("l",) + ("r",) * 12,
-                "By month: share of days with shedding, and the 5th, 50th and 95th "
-                "percentiles of the day's lowest state of charge.",
+                table.note,
             )
         )
         worst = rel.worst_year_soc_min
@@ -1236,6 +1218,8 @@ def _reliability(ri: ReportInputs) -> Section | None:
 
 
 def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
+    from offgrid.simulate.tradeoff import point_text, target_texts
+
     blocks: list[Block] = []
     curves = []
     rows = []
@@ -1250,20 +1234,10 @@ def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
                     [p.array_w / 1000 for p in pts],
                 )
             )
-        need = t.design_capacity_needed_wh
-        cheapest = "-"
-        if t.cheapest is not None:
-            cheapest = f"{t.cheapest.array_w:,.0f} W, {t.cheapest.capacity_wh / 1000:,.1f} kWh"
-            if t.cheapest_cost is not None:
-                cheapest += f" ({t.cheapest_cost:,.0f} {ri.project.economics.currency})"
-        rows.append(
-            (
-                _c(f"{t.target:.3%}"),
-                _c("yes" if t.design_meets else "no"),
-                _c("-" if need is None else f"{need / 1000:,.1f} kWh"),
-                _c(cheapest),
-            )
-        )
+        cheapest = point_text(t.cheapest)
+        if t.cheapest is not None and t.cheapest_cost is not None:
+            cheapest += f" ({t.cheapest_cost:,.0f} {ri.project.economics.currency})"
+        rows.append((*(_c(x) for x in target_texts(t)), _c(cheapest)))
         if t.message:
             messages.append(f"LOLP {t.target:.3%}: {t.message}")
     svg = ""
@@ -1292,15 +1266,14 @@ def _tradeoff_blocks(ri: ReportInputs, tr: TradeOff) -> list[Block]:
             f"(LOLP {tr.design_lolp:.3%}).",
         )
     )
+    table = table_entry("tradeoff")
     blocks.append(
         Table(
-            "tradeoff",
-            ("Target LOLP", "Met", "Battery needed", "Cheapest point"),
+            table.id,
+            table.columns(figure_entry),
             tuple(rows),
             ("r", "l", "r", "l"),
-            "Met: this design meets the target. Battery needed: on the curve at this "
-            "design's array size. Cheapest point: array and battery alone, priced "
-            "per W of module and per kWh of battery unit from the price list.",
+            table.note,
             wrap=(3,),
         )
     )
@@ -1318,7 +1291,7 @@ def _variants(ri: ReportInputs) -> Section | None:
     for r in cmp.rows:
         entry = find_input(r.label) if r.group == "choices" else None  # a changed input
         name = entry.label if entry is not None else r.label
-        label = f"{name} ({r.unit})" if r.unit else name
+        label = f"{name} ({r.unit})" if r.unit else name  # as FigureEntry.heading
         cells = [
             Cell(t + (" *" if dif else ""), v if isinstance(v, int | float) else None, None, dif)
             for t, v, dif in zip(r.texts, r.values, r.differs, strict=True)
@@ -1370,12 +1343,16 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
     p, d = ri.project, ri.design
     a = d.array
     dm = d.site.design_month - 1
-    rows = [(_c(name), _num(v, 3, f"array.derates.{name}")) for name, v in a.derates.items()]
-    rows.append((_c("together"), _num(a.derate_total, 3, "array.derate_total")))
+    table = table_entry("derates")
+    rows = [
+        (_c(label_of(f"array.derates.{name}")), _num(v, 3, f"array.derates.{name}"))
+        for name, v in a.derates.items()
+    ]
+    rows.append((_c(label_of("array.derate_total")), _num(a.derate_total, 3, "array.derate_total")))
     blocks: list[Block] = [
         Table(
-            "derates",
-            ("Derate (fraction kept)", MONTHS[dm]),
+            table.id,
+            (table.title, MONTHS[dm]),
             tuple(rows),
             ("l", "r"),
             f"In the design month ({MONTHS[dm]}).",
@@ -1385,11 +1362,11 @@ def _assumptions(ri: ReportInputs, tree: dict) -> Section:
     b, m, cs, inv = p.battery, p.module, p.controller, p.inverter
     items = [
         ("Days of autonomy", f"{ch.autonomy_days:g}"),
-        ("Maximum depth of discharge", f"{d.battery.max_dod:.0%}"),
+        (label_of("battery.max_dod"), f"{d.battery.max_dod:.0%}"),
         ("Load growth margin", f"{ch.load_growth_pct:g} %"),
         ("Coincidence factor (AC)", f"{ch.coincidence_factor:g}"),
         ("Battery end-of-life capacity", f"{ch.ageing_factor:.0%}"),
-        ("Battery temperature factor", f"{d.battery.temp_factor:.3f}"),
+        (label_of("battery.temp_factor"), f"{d.battery.temp_factor:.3f}"),
         ("System voltage", f"{ch.system_voltage}"),
         ("Minimum tilt", f"{ch.min_tilt_deg:g} deg"),
         (

@@ -40,21 +40,35 @@ def _inverter_line(project: Project, design: SystemDesign) -> str:
 
     inv = design.inverter
     if not inv.needed:
-        return "none (all loads run on DC)"
+        return "Inverter: none (all loads run on DC)"
     rec = stock_inverter(project)
-    if rec is not None:
-        return (
-            f"{printable(str(rec['name']))}, {rec['continuous_w']:g} W continuous, "
-            f"{rec['surge_w']:g} W surge"
-        )
-    return f"{inv.continuous_w:.0f} W continuous, {inv.surge_w:.0f} W surge"
+    sized = _said("client.inverter", design)
+    if rec is not None:  # the part chosen from stock, then the sizes it has to meet
+        return f"Inverter: {printable(str(rec['name']))}; {sized}"
+    return sized
+
+
+def _said(entry_id: str, design: SystemDesign, currency: str = "", **words: str) -> str:
+    """The catalogue's sentence ``entry_id`` (offgrid/catalogue/composites.py) filled
+    from the design: each number with its figure's label and unit."""
+    from offgrid.catalogue import composite, figure_entry
+
+    tree = design.to_dict()
+
+    def value_of(path: str) -> float | None:
+        node = tree
+        for part in path.split("."):
+            node = node[part]  # a path of the design's JSON, as the catalogue names it
+        return node
+
+    return composite(entry_id).fill(value_of, figure_entry, currency, **words)
 
 
 def client_summary_text(project: Project, design: SystemDesign) -> str:
     """The one-page summary as text (80-column safe)."""
     from offgrid.economics.bom import complete_bill_of_materials
 
-    info, a, b, c, ld = project.info, design.array, design.battery, design.controller, design.loads
+    info, c = project.info, design.controller
     title = printable(info.name) + ("  (demonstration data, invented)" if info.demo else "")
     out = [title, "=" * min(WIDTH, len(title)), ""]
     if info.client:
@@ -67,45 +81,26 @@ def client_summary_text(project: Project, design: SystemDesign) -> str:
         f"longitude {site.longitude_deg:.2f})"
     )
     out += ["", "What is installed"]
-    out += _wrap(
-        f"Solar array {a.power_w:.0f} W: {a.module_count} x {printable(project.module.name)} "
-        f"({a.modules_series} in series x {a.modules_parallel} in parallel), tilt "
-        f"{design.site.tilt_deg:.0f} deg"
-    )
-    out += _wrap(
-        f"Battery bank {b.nominal_kwh:.1f} kWh at {b.system_voltage_v} V "
-        f"({b.usable_kwh:.1f} kWh usable): {b.unit_count} x {printable(project.battery.name)}"
-    )
-    out += _wrap(f"Charge controller: {c.count} x {c.current_a:g} A {c.type.upper()}")
-    out += _wrap(f"Inverter: {_inverter_line(project, design)}")
+    # each number with the catalogue's label and unit (offgrid/catalogue/composites.py)
+    out += _wrap(_said("client.array", design, module=printable(project.module.name)))
+    out += _wrap(_said("client.battery", design, battery=printable(project.battery.name)))
+    out += _wrap(_said("client.controller", design, kind=c.type.upper()))
+    out += _wrap(_inverter_line(project, design))
     month = MONTHS[design.site.design_month - 1]
     out += ["", "What it serves"]
     n_loads = len(project.loads)
     n_crit = sum(1 for x in project.loads if x.critical)
-    out += _wrap(
-        f"{n_loads} appliance line(s)"
-        + (f", {n_crit} of them critical" if n_crit else "")
-        + f": {ld.design_daily_energy_wh / 1000:.2f} kWh a day at the battery in {month}, "
-        f"the design month (growth margin of {ld.growth_pct:g} % included)."
-    )
-    out += _wrap(
-        f"Days without sun: the battery carries the loads for {b.autonomy_days:g} days "
-        f"down to {b.max_dod * 100:.0f} % depth of discharge."
-    )
+    lines_text = f"{n_loads} appliance line(s)" + (f", {n_crit} of them critical" if n_crit else "")
+    out += _wrap(_said("client.serves", design, lines=lines_text, month=month))
+    out += _wrap(_said("client.autonomy", design))
     lines = complete_bill_of_materials(project, design)
     lc = lifecycle_cost(project, design, lines)
     out += ["", "Cost"]
     if lc.capital is not None:
-        out += _wrap(
-            f"Capital {money(lc.capital, lc.currency)} (parts and installation); "
-            f"lifecycle cost over {project.economics.life_years} years "
-            f"{money(lc.lcc, lc.currency)}"
-            + (
-                f", {money(lc.cost_per_kwh, lc.currency)} per kWh delivered."
-                if lc.cost_per_kwh is not None
-                else "."
-            )
-        )
+        from offgrid.catalogue import fill
+
+        years = f"{project.economics.life_years} years"
+        out += _wrap(fill("client.cost", lc, lc.currency, years=years))
     else:
         from offgrid.economics.generator_bom import bom_prices
         from offgrid.economics.prices import price_for

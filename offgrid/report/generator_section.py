@@ -11,7 +11,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from offgrid.catalogue import figure_entry
+from offgrid.catalogue import figure_entry, table_entry
 from offgrid.catalogue.outcomes import (
     GENERATOR_COST_FIGURES,
     HYBRID_FIGURES,
@@ -186,26 +186,23 @@ def _tradeoff(study: GeneratorStudy, with_charts: bool = False) -> list[Block]:
         return []
     cur = m.currency
     pts = sorted(m.points, key=lambda p: (p.battery_kwh, p.array_w))
+    table = table_entry("generator-tradeoff")  # the catalogue's columns
+    entries = [figure_entry(path) for path in table.figures]
     rows = []
     for p in (*pts, m.solar_only):
         label = "solar only" if not p.generator else ("cheapest" if p is m.cheapest else "")
-        rows.append(
-            (
-                _c(f"{p.array_w:.0f}", p.array_w),
-                _c(f"{p.battery_kwh:.2f}", p.battery_kwh),
-                _c(f"{p.fuel_l_per_year:.0f}", p.fuel_l_per_year),
-                _c(f"{p.unmet_fraction:.3%}", p.unmet_fraction),
-                _c(f"{p.lcc:,.0f}", p.lcc),
-                _c(label),
-            )
-        )
+        cells = []
+        for e in entries:
+            v = getattr(p, e.path.rsplit(".", 1)[1])  # a field named in the table
+            cells.append(_c(f"{e.shown(v):,.{e.digits or 0}f}", v))
+        rows.append((*cells, _c(label)))
     return [
         Table(
-            "generator-tradeoff",
-            ("Array W", "Battery kWh", "Fuel L/yr", "Unmet", f"LCC {cur}", ""),
+            table.id,
+            (*table.columns(figure_entry, cur), table.title),
             tuple(rows),
             ("r", "r", "r", "r", "r", "l"),
-            "Sun, battery and fuel: lifecycle cost of the parts that change with the mix.",
+            table.note,
         ),
         _chart(study, with_charts),
         Bullets(m.notes),

@@ -217,11 +217,13 @@ def _electrical_sections(d: SystemDesign) -> list[list[str]]:
             ctrl + ("string fuses" if pr.string_fuses else "no string fuses needed"),
         ),
     ]
+    # the rows of the design's harvest figures, by their short words (the catalogue's)
+    mppt, pwm = figure_entry("array.harvest_mppt_wh_day"), figure_entry("array.harvest_pwm_wh_day")
     harvest = [
-        "Harvest into the battery, from the I-V curves, before its round trip (Wh/day)",
+        f"Harvest into the battery, from the I-V curves, before its round trip ({mppt.unit})",
         "     " + " ".join(f"{m:>5}" for m in MONTHS),
-        "MPPT " + " ".join(f"{v:>5.0f}" for v in h.mppt_wh_day),
-        "PWM  " + " ".join(f"{v:>5.0f}" for v in h.pwm_wh_day),
+        f"{mppt.short:<5}" + " ".join(f"{v:>5.{mppt.digits}f}" for v in h.mppt_wh_day),
+        f"{pwm.short:<5}" + " ".join(f"{v:>5.{pwm.digits}f}" for v in h.pwm_wh_day),
     ]
     pct = h.pwm_vs_mppt_pct
     compare = (

@@ -270,6 +270,69 @@ def _reasons(
         _SRC_BAL,
         threshold=fmt(thr),
     )
+    years = weather.years
+    book.add(
+        "shed_days",
+        "days with any load shed, counted over the days simulated",
+        _SRC_BAL,
+        days=days,
+    )
+    book.add(
+        "pv_kwh_per_year",
+        "energy from the array through the controller to the battery bus / years",
+        _SRC_BAL,
+        pv=fmt(float(bal.pv_wh[0]) / 1000, "kWh"),
+        years=fmt(years),
+    )
+    book.add(
+        "spilled_fraction",
+        "controller output the full battery could not take / controller output",
+        _SRC_BAL,
+        spilled=fmt(float(bal.spilled_wh[0]) / 1000, "kWh"),
+        pv=fmt(float(bal.pv_wh[0]) / 1000, "kWh"),
+    )
+    book.add(
+        "battery_loss_kwh_per_year",
+        "charge and discharge losses of the battery / years",
+        _SRC_BAL,
+        losses=fmt(float(bal.losses_wh[0]) / 1000, "kWh"),
+        years=fmt(years),
+    )
+    book.add(
+        "demand_kwh_per_year",
+        "demand at the battery bus over the days simulated / years",
+        _SRC_BAL,
+        demand=fmt(bal.demand_wh / 1000, "kWh"),
+        years=fmt(years),
+    )
+    book.add(
+        "wear.cycle_life_years",
+        "years / Miner damage of the rainflow cycles (none when no damage is counted)",
+        "ASTM E1049-85 sec. 5.4.4 (rainflow); Miner (1945); cycle life " + CYCLE_LIFE_SOURCE,
+        damage_per_year=fmt(wear.damage_per_year),
+    )
+    book.add(
+        "wear.calendar_life_years",
+        "the chemistry's float life at the battery's temperatures"
+        if inp.calendar_life_years is not None
+        else "the chemistry's float life, preset at 25 C",
+        "offgrid.simulate.life (calendar life, module notes)",
+        chemistry=inp.chemistry,
+    )
+    # the monthly table (catalogue table ``reliability-months``)
+    book.add(
+        "months.lolp",
+        "days of the month with any load shed / days of that month simulated",
+        _SRC_BAL,
+        days=days,
+    )
+    book.add(
+        "months.soc_min",
+        "5th, 50th and 95th percentiles of the day's lowest state of charge over the "
+        "days of the month (numpy.percentile, linear)",
+        _SRC_BAL,
+        days=days,
+    )
     book.add(
         "wear.equivalent_full_cycles_per_year",
         "energy delivered by the battery / nominal capacity / years",

@@ -251,10 +251,16 @@ def summary_text(rep: SimulationReport) -> str:
     if r.lolp_measured is not None:
         lines.append(f"  LOLP in the measured year(s) alone {pct(r.lolp_measured)}")
     lines.append("")
-    lines.append(f"{'month':<8}" + "".join(f"{m:>6}" for m in MONTH_NAMES))
-    lines.append(f"{'LOLP %':<8}" + "".join(f"{100 * m.lolp:6.1f}" for m in r.months))
-    lines.append(f"{'SoC p5':<8}" + "".join(f"{100 * m.soc_min_p5:6.0f}" for m in r.months))
-    lines.append(f"{'SoC p50':<8}" + "".join(f"{100 * m.soc_min_p50:6.0f}" for m in r.months))
+    lines.append(f"{'month':<11}" + "".join(f"{m:>5}" for m in MONTH_NAMES))
+    from offgrid.catalogue import figure_entry, table_entry
+
+    for path in table_entry("reliability-months").figures[:3]:  # LOLP, SoC p5 and p50
+        e = figure_entry(path)
+        name = path.rsplit(".", 1)[1]  # a field named in the catalogue's table
+        lines.append(
+            f"{e.heading():<11}"
+            + "".join(f"{e.shown(getattr(m, name)):5.{e.digits or 0}f}" for m in r.months)
+        )
     lines.append("  (SoC: lowest state of charge of the day, %, 5th and 50th percentile)")
     lines.append("")
     wr = r.wear

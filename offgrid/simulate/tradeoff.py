@@ -16,8 +16,37 @@ from typing import Any
 
 import numpy as np
 
+from offgrid.design.result import Reason
 from offgrid.simulate.balance import SystemInputs, build_steps, run_balance
 from offgrid.simulate.weather import WeatherSeries
+
+#: The reasons of each target's figures (the same for every study: formula and method),
+#: keyed as the catalogue's rows ``tradeoff.targets[].target`` less ``tradeoff.``
+#: (offgrid/catalogue/outcomes.py).
+TRADEOFF_REASONS: dict[str, Reason] = {
+    "targets.target": Reason(
+        "the loss-of-load probability asked for: days with shedding / days simulated",
+        (),
+        "the project's or the command's target (choices)",
+    ),
+    "targets.design_meets": Reason(
+        "the design's own simulated LOLP <= the target",
+        (),
+        "offgrid.simulate.balance (step energy balance, module notes)",
+    ),
+    "targets.design_capacity_needed_wh": Reason(
+        "at the design's array size, the smallest battery capacity whose LOLP meets the "
+        "target, interpolated linearly in LOLP between the two grid capacities around it",
+        (),
+        "common practice, no source",
+    ),
+    "targets.cheapest": Reason(
+        "of the array and battery pairs on the target's curve, the one of least price: "
+        "array W x price per W + battery kWh x price per kWh (the price list)",
+        (),
+        "common practice, no source",
+    ),
+}
 
 DEFAULT_TARGETS = (0.01, 0.001)
 ARRAY_FACTORS = (0.5, 3.0)  # sweep range, times the reference array
@@ -362,3 +391,32 @@ def tradeoff(
         "capacity meeting the target interpolated linearly in LOLP between grid points",
     )
     return TradeOff(sw, inp.array_w, inp.capacity_wh, d_lolp, tuple(out), pr, notes)
+
+
+def point_text(point) -> str:
+    """A point of a trade-off curve (a ``CurvePoint``, or None: '-'), as the catalogue's
+    composite ``tradeoff.point`` says: ``1,234 W, 12.3 kWh``."""
+    from offgrid.catalogue import composite, figure_entry
+
+    if point is None:
+        return "-"
+    return composite("tradeoff.point").fill(
+        lambda path: getattr(point, path.rsplit(".", 1)[1]),  # a field named in the entry
+        figure_entry,
+    )
+
+
+def target_texts(target) -> tuple[str, str, str]:
+    """The texts of one target's figures (a ``TargetResult``), as the columns of the
+    catalogue's table ``tradeoff``: the target and the battery needed without their unit
+    (the column heading has it), met as yes/no."""
+    from offgrid.catalogue import figure_entry
+
+    t = figure_entry("tradeoff.targets[].target")
+    need = figure_entry("tradeoff.targets[].design_capacity_needed_wh")
+    wh = target.design_capacity_needed_wh
+    return (
+        f"{t.shown(target.target):,.{t.digits or 0}f}",
+        "yes" if target.design_meets else "no",
+        "-" if wh is None else f"{need.shown(wh):,.{need.digits or 0}f}",
+    )

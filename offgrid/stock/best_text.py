@@ -8,7 +8,7 @@ from offgrid.stock.choose import Combination, SearchResult
 
 def search_text(result: SearchResult, top: int = 5) -> str:
     """The search as plain text: counts, the best few both ways, why the others fail."""
-    from offgrid.economics.costs import money
+    from offgrid.catalogue import composite, figure_entry
     from offgrid.safetext import printable
 
     cur = result.currency
@@ -28,13 +28,20 @@ def search_text(result: SearchResult, top: int = 5) -> str:
         out.append(title)
         for i, x in enumerate(items[:top], 1):
             inv = printable(x.inverter.name) if x.inverter else "no inverter (DC only)"
-            out.append(
-                f"{i:>2}. capital {money(x.capital, cur)}, lifecycle {money(x.lcc, cur)}: "
+            parts = (
                 f"{x.module_count} x {printable(x.module.name)}, {x.battery_units} x "
                 f"{printable(x.battery.name)}, {x.controller_count} x "
-                f"{printable(x.controller.name)}, {inv} ({x.system_voltage_v} V, "
-                f"{x.array_power_w:.0f} W, {x.bank_kwh:.1f} kWh)"
+                f"{printable(x.controller.name)}, {inv}"
             )
+            values = {  # the combination's figures by their catalogue paths
+                "costs.capital": x.capital,
+                "costs.lcc": x.lcc,
+                "battery.system_voltage_v": x.system_voltage_v,
+                "array.power_w": x.array_power_w,
+                "battery.nominal_kwh": x.bank_kwh,
+            }
+            line = composite("parts.combination").fill(values.get, figure_entry, cur, parts=parts)
+            out.append(f"{i:>2}. {line}")
 
     if result.by_capital:
         block("Cheapest by capital:", result.by_capital)

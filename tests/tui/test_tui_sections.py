@@ -857,4 +857,8 @@ async def test_risk_check_real_run(demo_pilot):
     await wait_until(pilot, lambda: risk.result is not None, 60)
     text = screen_text(app)
     assert "Result for the design as it is now" in text
-    assert "Reliability targets" in text and "battery needed for it" in text
+    # the trade-off's rows: the catalogue's table title and figure labels
+    from offgrid.catalogue import figure_entry, table_entry
+
+    assert table_entry("tradeoff").title in text
+    assert figure_entry("tradeoff.targets[].design_capacity_needed_wh").label in text

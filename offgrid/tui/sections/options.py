@@ -24,7 +24,7 @@ from textual.binding import Binding
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
-from offgrid.catalogue import figure_entry, find_input
+from offgrid.catalogue import ROW_GROUPS, figure_entry, fill, find_input
 from offgrid.catalogue.outcomes import outcome_key, outcome_value
 from offgrid.design.result import Reason
 from offgrid.project.model import PriceItem, Project, Variant
@@ -396,12 +396,7 @@ class OptionsSection(Section):
             )
             self._rows.append(("error", None))
         group = ""
-        titles = {
-            "choices": "Changed values",
-            "figures": "Sized system",
-            "cost": "Cost",
-            "reliability": "Reliability",
-        }
+        titles = ROW_GROUPS  # the catalogue's headings (offgrid/catalogue/composites.py)
         for row in cmp.rows:
             if row.group != group:
                 group = row.group
@@ -996,16 +991,8 @@ class OptionsSection(Section):
 
     @staticmethod
     def _cost_extra(cost) -> str:
-        from offgrid.economics.costs import money
-
         if cost.missing:
             return cost.message()
-        c = cost.currency
-        return (
-            f"parts {money(cost.parts, c)} + installation {money(cost.installation, c)} = "
-            f"capital {money(cost.capital, c)}; + replacements {money(cost.replacements_pw, c)}"
-            f" + upkeep {money(cost.upkeep_pw, c)} = lifecycle {money(cost.lcc, c)} over "
-            f"{cost.economics.life_years} years; energy {cost.energy_kwh_year:,.0f} kWh/year "
-            f"x PWF {cost.pwf_energy:.2f}; battery life {cost.battery_life_years:g} years "
-            f"({cost.battery_life_source})."
-        )
+        # the catalogue's sentence (offgrid/catalogue/composites.py), its figures' units
+        sums = fill("costs.sums_note", cost, cost.currency)
+        return f"Over {cost.economics.life_years} years: {sums} ({cost.battery_life_source})."

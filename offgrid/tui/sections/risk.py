@@ -21,7 +21,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, ProgressBar, Static
 
-from offgrid.catalogue import figure_entry
+from offgrid.catalogue import figure_entry, table_entry
 from offgrid.catalogue.outcomes import outcome_key, outcome_value
 from offgrid.design.result import Reason
 from offgrid.tui.sections.base import Figure, Section
@@ -121,6 +121,65 @@ def risk_row(rel: Any, path: str, extra: str = "") -> tuple[str, str, Any, str]:
     return e.label, text, rel.reasons.get(outcome_key(e.explained_by)), extra
 
 
+def tradeoff_rows(t: Any) -> list[tuple[str, str, Any, str]]:
+    """Rows of one target of the trade-off (a ``TargetResult``): the catalogue table
+    ``tradeoff``'s figures, each its label and unit, its reason, the target's message."""
+    from offgrid.simulate.tradeoff import TRADEOFF_REASONS, point_text, target_texts
+
+    target, met, need, cheapest = (figure_entry(p) for p in table_entry("tradeoff").figures)
+    t_text, _met, need_text = target_texts(t)
+
+    def why(e):
+        return TRADEOFF_REASONS.get(outcome_key(e.explained_by))
+
+    rows = [
+        (
+            f"{target.label} {t_text} {target.unit}",
+            f"{met.label}: " + ("yes" if t.design_meets else "NO"),
+            why(met),
+            t.message,
+        ),
+        (
+            f"    {need.label}",
+            need_text if t.design_capacity_needed_wh is None else f"{need_text} {need.unit}",
+            why(need),
+            t.message,
+        ),
+    ]
+    if t.cheapest is not None:
+        rows.append((f"    {cheapest.label}", point_text(t.cheapest), why(cheapest), ""))
+    return rows
+
+
+#: The monthly rows of the strip under the figures: the catalogue table's first two.
+STRIP_ROWS = 2
+
+
+def month_strip_rows(months) -> list[tuple[str, list[str]]]:
+    """(heading, twelve texts) of each row of the month strip: the catalogue table
+    ``reliability-months`` (offgrid/catalogue/composites.py), its figures' headings and
+    digits, the lowest state of charge's 5th percentile after the LOLP."""
+    rows = []
+    for path in table_entry("reliability-months").figures[:STRIP_ROWS]:
+        e = figure_entry(path)
+        name = path.rsplit(".", 1)[1]
+        values = [e.shown(getattr(m, name)) for m in months]  # a field named in the table
+        rows.append((e.heading(), [f"{v:.{e.digits or 0}f}" for v in values]))
+    return rows
+
+
+def month_strip(months) -> Text:
+    text = Text(no_wrap=True, overflow="crop")
+    text.append(f"{'':<12}", style="bold")
+    for m in MONTHS:
+        text.append(f"{m:>5}", style="bold")
+    for heading, values in month_strip_rows(months):
+        text.append(f"\n{heading:<12}")
+        for v in values:
+            text.append(f"{v:>5}")
+    return text
+
+
 class RiskSection(Section):
     section_id = "risk"
     help_text = (
@@ -213,24 +272,9 @@ class RiskSection(Section):
         rows = [risk_row(r, path, extra) for path, extra in RISK_ROWS]
         tr = rep.tradeoff
         if tr is not None:
-            rows.append(("Reliability targets", "", None, ""))  # a heading
+            rows.append((table_entry("tradeoff").title, "", None, ""))  # a heading
             for t in tr.targets:
-                need = (
-                    f"{t.design_capacity_needed_wh / 1000:.1f} kWh"
-                    if t.design_capacity_needed_wh
-                    else "-"
-                )
-                rows.append(
-                    (
-                        f"Loads met on {pct(1 - t.target)} of days",
-                        ("this design: yes" if t.design_meets else "this design: NO"),
-                        None,
-                        t.message,
-                    )
-                )
-                rows.append(
-                    ("    battery needed for it", need + " with this array", None, t.message)
-                )
+                rows += tradeoff_rows(t)
         for label, value, reason, extra in rows:
             if not value and reason is None and not extra:
                 table.add_row(Text(label, style="bold underline"), Text(""))
@@ -239,17 +283,7 @@ class RiskSection(Section):
             self._rows.append((label, value, reason, extra))
         if table.row_count:
             table.move_cursor(row=min(keep, table.row_count - 1), animate=False)
-        text = Text(no_wrap=True, overflow="crop")
-        text.append(f"{'LOLP %':<12}", style="bold")
-        for m in MONTHS:
-            text.append(f"{m:>5}", style="bold")
-        text.append(f"\n{'':<12}")
-        for ms in r.months:
-            text.append(f"{100 * ms.lolp:>5.1f}")
-        text.append(f"\n{'SoC low p5':<12}")
-        for ms in r.months:
-            text.append(f"{100 * ms.soc_min_p5:>5.0f}")
-        strip.update(text)
+        strip.update(month_strip(r.months))
 
     # ------------------------------------------------------------------ running
     def action_run(self) -> None:

@@ -10,7 +10,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable
 
-from offgrid.catalogue import figure_entry, find_figure
+from offgrid.catalogue import FIGURE_GROUPS, figure_entry, find_figure
 from offgrid.design.result import SystemDesign
 from offgrid.tui.keys import focus_now
 from offgrid.tui.messages import WhyAsked, send
@@ -50,7 +50,7 @@ def figure_rows(d: SystemDesign) -> list[Row]:
     a, b, c, inv, ld, s = d.array, d.battery, d.controller, d.inverter, d.loads, d.site
     dm = s.design_month - 1
     rows: list[Row] = [
-        "Array",
+        FIGURE_GROUPS["array"],
         figure_row("array.power_w", number=a.power_w),
         figure_row(
             "array.module_count",
@@ -72,7 +72,7 @@ def figure_rows(d: SystemDesign) -> list[Row]:
         ],
         figure_row("array.string_voc_cold_v", number=a.string_voc_cold_v),
         figure_row("array.string_vmp_hot_v", number=a.string_vmp_hot_v),
-        "Battery bank",
+        FIGURE_GROUPS["battery"],
         figure_row("battery.system_voltage_v", f"{b.system_voltage_v} V"),
         figure_row("battery.capacity_ah", number=b.capacity_ah),
         figure_row("battery.required_ah", number=b.required_ah),
@@ -87,13 +87,13 @@ def figure_rows(d: SystemDesign) -> list[Row]:
         figure_row("battery.capacity_temp_c", number=b.capacity_temp_c),
         figure_row("battery.ageing_temp_c", f"up to {b.ageing_temp_c:.1f} C"),
         figure_row("battery.calendar_life_years", number=b.calendar_life_years),
-        "Charge controller",
+        FIGURE_GROUPS["controller"],
         figure_row(
             "controller.current_a",
             (f"{c.count} \u00d7 " if c.count > 1 else "") + f"{c.current_a:.0f} A {c.type.upper()}",
         ),
         figure_row("controller.required_current_a", number=c.required_current_a),
-        "Inverter",
+        FIGURE_GROUPS["inverter"],
         *(
             (
                 figure_row("inverter.continuous_w", number=inv.continuous_w),
@@ -106,7 +106,7 @@ def figure_rows(d: SystemDesign) -> list[Row]:
             if inv.needed
             else (figure_row("inverter.continuous_w", "none: no AC loads"),)
         ),
-        "Loads and site",
+        FIGURE_GROUPS["loads_site"],
         figure_row("site.design_month", MONTHS[dm]),
         figure_row("loads.design_daily_energy_wh", number=ld.design_daily_energy_wh),
         figure_row("loads.max_daily_energy_wh", number=ld.max_daily_energy_wh),
@@ -141,7 +141,7 @@ def electrical_rows(d: SystemDesign) -> list[Row]:
     er = d.electrical
     if er is None:
         return []
-    rows: list[Row] = ["Strings and module"]
+    rows: list[Row] = [FIGURE_GROUPS["strings_module"]]
     w, lay, h, mp = er.strings.window, er.strings.layout, er.harvest, er.mpp
     rows += [
         figure_row("electrical.strings.max_series", f"{w.max_series} (fewest {w.min_series})"),
