@@ -48,7 +48,14 @@ from offgrid.design.ratings import (  # noqa: F401  (re-exported)
     NEC_CONTINUOUS,
     next_rating,
 )
-from offgrid.design.result import DesignError, LoadResult, Notice, ReasonBook, SystemDesign
+from offgrid.design.result import (
+    DesignError,
+    LoadResult,
+    Notice,
+    ReasonBook,
+    SystemDesign,
+    reason_kind,
+)
 from offgrid.design.site_step import (
     LOW_SUN_KWH_M2_DAY,  # noqa: F401  (re-exported)
     confirm_design_month,
@@ -123,14 +130,8 @@ def site_geometry(
 # The steps below are memoised while planning (``with design_memo():``): a village's
 # distinct rows repeat a daily energy with different peak powers, and these steps read
 # the energy, not the peak.  Each is keyed by every argument it takes (and by the kind of
-# reason record being built, see offgrid.design.result.plain_reasons), so a memoised call
+# reason record being built, offgrid.design.result.reason_kind), so a memoised call
 # returns what the step itself returns for those arguments.
-
-
-def _reason_kind() -> type:
-    from offgrid.design import result
-
-    return result._make_reason
 
 
 @memoised
@@ -187,7 +188,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         project.loads, project.inverter, choices.load_growth_pct, choices.coincidence_factor, book
     )
     demand = np.asarray(lr.daily_energy_wh)
-    kind = _reason_kind()
+    kind = reason_kind()
     # 1. sun, 3. a first design month and the temperatures
     sun, site_step = _site_steps(
         project.site, choices.min_tilt_deg, climate, tuple(lr.daily_energy_wh), kind
