@@ -39,6 +39,7 @@ from offgrid.plan.prices import PriceList, PriceListError, load_prices
 from offgrid.plan.rows import (
     DEFAULT_ENERGY_STEP_PCT,
     PARALLEL_MIN_DESIGNS,
+    DesignTable,
     PlanInputs,
     RowDesign,
     RowFailure,
@@ -570,9 +571,15 @@ class ProgrammePlan:
     def to_dict(self) -> dict[str, Any]:
         from offgrid.plan.community import _plain
 
+        designs = DesignTable()
+        per_village: dict[str, list] = {}
+        for c, vid, label in zip(
+            self.candidates, self.candidate_village, self.candidate_labels, strict=True
+        ):
+            per_village.setdefault(vid, []).append([designs.add(c.design), c.count, c.kit, label])
         return {
             "format": "offgrid-programme-plan",
-            "schema": 1,
+            "schema": PLAN_SCHEMA,
             "name": self.name,
             "demo": self.demo,
             "source": self.source,
@@ -625,6 +632,8 @@ class ProgrammePlan:
                 | {
                     "left_out": [str(p) for p in v.left_out],
                     "total_cost": _plain(v.totals.total_cost) if v.totals else None,
+                    # [design, systems, kit flag, first row]: what the kits were chosen from
+                    "candidates": per_village.get(v.id, []),
                 }
                 for v in self.villages
             ],
@@ -633,7 +642,44 @@ class ProgrammePlan:
             "tiers": {"edition": MTF_EDITION, "systems": dict(self.tier_counts)},
             "notices": list(self.notices),
             "cautions": list(self.cautions),
+            "planning": dict(self.options),
+            "price_list": price_list_data(self.price_list),
+            "design_table": designs.data(),
         }
+
+
+#: 2: the distinct designs (``designs``, each village's ``candidates``), the planning
+#: options and the price list, so that a merge of plans chooses the kits again.
+PLAN_SCHEMA = 2
+
+
+def price_list_data(prices: PriceList | None) -> dict | None:
+    """A price list as plain JSON data (read back by :func:`price_list_from_data`)."""
+    if prices is None:
+        return None
+    return {
+        "entries": {k: list(v) for k, v in prices.entries.items()},
+        "currency": prices.currency,
+        "source": prices.source,
+        "demo": prices.demo,
+        "notes": dict(prices.notes),
+        "parts": [[p.part, p.unit_price, p.note] for p in prices.parts],
+    }
+
+
+def price_list_from_data(data: dict | None) -> PriceList | None:
+    from offgrid.project.model import PriceItem
+
+    if data is None:
+        return None
+    return PriceList(
+        {k: (v[0], v[1]) for k, v in data["entries"].items()},
+        data["currency"],
+        data["source"],
+        data["demo"],
+        dict(data["notes"]),
+        tuple(PriceItem(*p) for p in data["parts"]),
+    )
 
 
 # --------------------------------------------------------------------- planning
@@ -920,16 +966,7 @@ def plan_programme(
     _design_all(work, default_jobs() if jobs is None else jobs)
 
     price_list = _resolve_prices(prog, prices, work[0].inputs)
-    objective = objective or ("cost" if price_list is not None else "oversize")
-    if (
-        kit_type_cost is None
-        and objective == "cost"
-        and price_list is not None
-        and price_list.has("kit_type")
-    ):
-        kit_type_cost = price_list.optional("kit_type")
-    if kits is None and kit_type_cost is None:
-        kits = 3
+    objective, kits, kit_type_cost = kit_options(objective, kits, kit_type_cost, price_list)
 
     # one candidate per (village, distinct design, kit choice): counts summed
     cands: list[Candidate] = []
@@ -1020,6 +1057,25 @@ def plan_programme(
         price_list,
         tuple(cand_label),
     )
+
+
+def kit_options(
+    objective: str | None, kits: int | None, kit_type_cost: float | None, prices
+) -> tuple[str, int | None, float | None]:
+    """The objective, the number of kits and the kit type's cost as the kits are chosen:
+    cost with a price list, else oversize; the price list's kit type cost unless one is
+    given; 3 kits when neither a number nor a cost is given."""
+    objective = objective or ("cost" if prices is not None else "oversize")
+    if (
+        kit_type_cost is None
+        and objective == "cost"
+        and prices is not None
+        and prices.has("kit_type")
+    ):
+        kit_type_cost = prices.optional("kit_type")
+    if kits is None and kit_type_cost is None:
+        kits = 3
+    return objective, kits, kit_type_cost
 
 
 def choose_kits(
