@@ -15,7 +15,7 @@ villages on the bundled invented demo climates, invented households):
 Reports wall time, CPU time of the process and its workers, peak memory (largest
 resident set of the process or a worker) and rows per second.
 
-Run: python benchmarks/bench_programme.py [--quick | --full] [--jobs N]
+Run: python benchmarks/bench_programme.py [--quick | --full | --only V N] [--jobs N]
 
 Measured on 2 cores shared with other work (load average 3-6, so wall times are 2-4 x
 what an idle machine gives; CPU is the process's and its workers' together), December
@@ -155,25 +155,67 @@ def write_programme(folder: Path, villages: int, rows: int, seed: int = 5) -> Pa
     return folder / "programme.csv"
 
 
+def _tree(pid: int) -> list[int]:
+    """``pid`` and its descendants (Linux /proc)."""
+    out, todo = [], [pid]
+    while todo:
+        p = todo.pop()
+        out.append(p)
+        try:
+            for task in os.listdir(f"/proc/{p}/task"):
+                with open(f"/proc/{p}/task/{task}/children") as fh:
+                    todo += [int(c) for c in fh.read().split()]
+        except OSError:
+            pass
+    return out
+
+
+def _pss_mb(pids: list[int]) -> float:
+    """Sum of the proportional set sizes of ``pids`` [MB] (pages shared after a fork
+    counted once in all)."""
+    total = 0
+    for p in pids:
+        try:
+            with open(f"/proc/{p}/smaps_rollup") as fh:
+                for line in fh:
+                    if line.startswith("Pss:"):
+                        total += int(line.split()[1])
+                        break
+        except OSError:
+            pass
+    return total / 1024.0
+
+
 def run_cli(path: Path, jobs: int | None, extra: tuple[str, ...] = ()) -> dict:
+    """One whole ``offgrid plan`` process: wall and CPU time (the process and its
+    workers), the largest resident set of any one of them, the peak of the sum of their
+    PSS (sampled every 0.5 s), the JSON's size and the load average before and after."""
     cmd = [sys.executable, "-m", "offgrid", "plan", str(path), "--json", *extra]
     if jobs:
         cmd += ["--jobs", str(jobs)]
     load_before = os.getloadavg()[0]
     before = resource.getrusage(resource.RUSAGE_CHILDREN)
     t = time.perf_counter()
-    res = subprocess.run(
-        cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True, check=False
-    )
-    wall = time.perf_counter() - t
+    with tempfile.TemporaryFile() as out, tempfile.TemporaryFile() as err:
+        proc = subprocess.Popen(cmd, stdout=out, stderr=err)
+        peak_pss = 0.0
+        while proc.poll() is None:
+            peak_pss = max(peak_pss, _pss_mb(_tree(proc.pid)))
+            time.sleep(0.5)
+        wall = time.perf_counter() - t
+        json_kb = out.tell() / 1024.0
+        err.seek(0)
+        stderr = err.read().decode("utf-8", "replace")
     after = resource.getrusage(resource.RUSAGE_CHILDREN)
-    if res.returncode not in (0, 1):
-        raise SystemExit(f"offgrid plan failed: {res.stderr[-2000:]}")
+    if proc.returncode not in (0, 1):
+        raise SystemExit(f"offgrid plan failed: {stderr[-2000:]}")
     cpu = (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
     return {
         "wall_s": wall,
         "cpu_s": cpu,
         "peak_mb": after.ru_maxrss / 1024.0,
+        "pss_mb": peak_pss,
+        "json_kb": json_kb,
         "load": f"{load_before:.1f}-{os.getloadavg()[0]:.1f}",
     }
 
@@ -188,8 +230,15 @@ def main() -> None:
         f"CPUs available: {len(os.sched_getaffinity(0))}; load average "
         f"{os.getloadavg()[0]:.1f} (other work on the machine slows the wall times)"
     )
+    only = None
+    if "--only" in sys.argv:  # --only VILLAGES ROWS: that programme case alone
+        i = sys.argv.index("--only")
+        only = (int(sys.argv[i + 1]), int(sys.argv[i + 2]))
     with tempfile.TemporaryDirectory() as tmp:
         folder = Path(tmp)
+        if only is not None:
+            _programme_cases(folder, [only], jobs)
+            return
         print("\nOne community, every row distinct (offgrid plan SURVEY.csv --json)")
         print(
             f"  {'rows':>8} {'jobs':>4} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}"
@@ -203,11 +252,6 @@ def main() -> None:
                     f"  {n:>8} {j:>4} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
                     f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f} {r['load']:>9}"
                 )
-        print("\nProgramme: villages x rows (offgrid plan PROGRAMME.csv --json)")
-        print(
-            f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}"
-            f" {'load':>9}"
-        )
         cases = (
             [(10, 10_000)]
             if quick
@@ -215,14 +259,24 @@ def main() -> None:
         )
         if full:
             cases.append((200, 1_000_000))
-        for v, n in cases:
-            path = write_programme(folder, v, n)
-            r = run_cli(path, jobs)
-            print(
-                f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
-                f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f} {r['load']:>9}",
-                flush=True,
-            )
+        _programme_cases(folder, cases, jobs)
+
+
+def _programme_cases(folder: Path, cases: list[tuple[int, int]], jobs: int | None) -> None:
+    print("\nProgramme: villages x rows (offgrid plan PROGRAMME.csv --json)")
+    print(
+        f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} "
+        f"{'PSS MB':>7} {'rows/s':>8} {'JSON kB':>8} {'load':>9}"
+    )
+    for v, n in cases:
+        path = write_programme(folder, v, n)
+        r = run_cli(path, jobs)
+        print(
+            f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
+            f"{r['peak_mb']:>8.0f} {r['pss_mb']:>7.0f} {n / r['wall_s']:>8.0f} "
+            f"{r['json_kb']:>8.0f} {r['load']:>9}",
+            flush=True,
+        )
 
 
 if __name__ == "__main__":

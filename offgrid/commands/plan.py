@@ -313,5 +313,9 @@ JSON_INDENT_MAX_ROWS = 2000
 
 def dump_json(data: dict) -> str:
     """The plan as JSON text: indented for a readable plan, compact for a large one."""
-    big = len(data.get("rows") or ()) > JSON_INDENT_MAX_ROWS
+    table = data.get("design_table")  # a programme plan's distinct designs
+    big = (
+        max(len(data.get("rows") or ()), len(table["rows"]) if isinstance(table, dict) else 0)
+        > JSON_INDENT_MAX_ROWS
+    )
     return json_text(data, indent=None if big else 2, separators=(",", ":") if big else None)

@@ -138,8 +138,11 @@ def compact(design, pool: dict):
     return replace(design, **parts)
 
 
-#: The fields of a design that many designs repeat, kept once each in a design table.
-_SHARED_FIELDS = ("family", "warnings", "cautions", "cables", "devices")
+#: The fields of a design that many designs repeat (text and tuples), kept once each in
+#: a design table.
+_SHARED_FIELDS = tuple(
+    f.name for f in dataclasses.fields(RowDesign) if f.type.startswith(("str", "tuple"))
+)
 
 
 class DesignTable:
@@ -184,10 +187,10 @@ class DesignTable:
         }
 
 
-def _plain_tuple(name: str, value: tuple) -> list:
+def _plain_tuple(name: str, value: tuple | str) -> list | str:
     if name in ("cables", "devices"):
         return [list(dataclasses.astuple(x)) for x in value]
-    return list(value)
+    return value if isinstance(value, str) else list(value)
 
 
 def designs_from_data(data: dict) -> list[RowDesign]:
@@ -204,7 +207,7 @@ def designs_from_data(data: dict) -> list[RowDesign]:
         elif name == "devices":
             shared[name] = [tuple(Protection(*c) for c in v) for v in data["shared"][name]]
         else:
-            shared[name] = [tuple(v) for v in data["shared"][name]]
+            shared[name] = [tuple(v) if isinstance(v, list) else v for v in data["shared"][name]]
     out = []
     for row in data["rows"]:
         values = dict(zip(fields, row, strict=True))
