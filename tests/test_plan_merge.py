@@ -238,3 +238,18 @@ def test_cli_merges_plan_files(tmp_path, capsys):
         main(["plan", "--merge", str(old), files[1], "--kits", "3"])
     assert exit_.value.code == 2
     assert "kits cannot be chosen again" in capsys.readouterr().err
+
+
+def test_the_design_table_reads_back_every_design_exactly():
+    from offgrid.plan.rows import DesignTable, designs_from_data
+
+    plan = plan_programme_file(demo_programme_path(), jobs=1)
+    table = DesignTable()
+    index = [table.add(c.design) for c in plan.candidates]
+    back = designs_from_data(json.loads(json.dumps(table.data())))
+    assert [back[i] for i in index] == [c.design for c in plan.candidates]
+    # field for field, types too (an int written as 30 stays 30, a float 30.0 stays 30.0)
+    for i, c in zip(index, plan.candidates, strict=True):
+        for name in DesignTable.fields:
+            assert type(getattr(back[i], name)) is type(getattr(c.design, name)), name
+    assert len(table.rows) == len({c.design for c in plan.candidates})  # equal ones once
