@@ -188,6 +188,13 @@ def test_a_merge_with_kits_given_chooses_them_across_the_parts(tmp_path):
 def test_parts_planned_with_other_options_are_refused(tmp_path):
     a = _plan_json(_split(tmp_path, "a", {"KR", "DW"}), "programme")
     b = _plan_json(_split(tmp_path, "b", {"PA"}), "programme")
+    # the same price list read from another folder (another machine) is the same prices
+    b["price_list"] = dict(b["price_list"], source="/elsewhere/kisanga-ridge-prices.csv")
+    assert merge_plans([("a.json", a), ("b.json", b)])["kits"]
+    b["price_list"] = dict(b["price_list"], currency="EUR")
+    with pytest.raises(MergeError, match=r"price list differs between a.json and b.json"):
+        merge_plans([("a.json", a), ("b.json", b)])
+    b["price_list"] = a["price_list"]
     b["planning"] = dict(b["planning"], k_max=5)
     with pytest.raises(MergeError, match=r"planning differs between a.json and b.json"):
         merge_plans([("a.json", a), ("b.json", b)])

@@ -187,10 +187,16 @@ def _merge_choosing(
     )
     from offgrid.plan.rows import DesignTable, designs_from_data
 
+    def same(doc: dict, key: str):
+        value = doc.get(key)
+        if key == "price_list" and isinstance(value, dict):  # the same prices, read from
+            value = {k: v for k, v in value.items() if k != "source"}  # any folder
+        return value
+
     first_name, first = plans[0]
     for name, doc in plans[1:]:
         for key in ("kit_scope", "currency", "planning", "price_list"):
-            if doc.get(key) != first.get(key):
+            if same(doc, key) != same(first, key):
                 what = key.replace("_", " ")
                 raise MergeError(
                     f"the {what} differs between {first_name} and {name}: plan every part "
