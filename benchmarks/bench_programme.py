@@ -118,6 +118,9 @@ Whole runs, December 2026, 2 cores shared with the other engineers' tests (load 
                                          main process), peak of the summed PSS of main
                                          and workers 1,300 MB, JSON 50.6 MB, 1,952 rows/s,
                                          load 5.1 falling to 2.7 (--only 200 1000000)
+                                         again at load 3.2-3.8 (the lowest seen today):
+                                         440.5 s wall, 579.7 s CPU, 1,235 MB largest
+                                         RSS, 1,298 MB summed PSS, 2,270 rows/s
         the lead's run of main on a quiet machine (load < 2): 299.9 s wall, 551 s CPU,
         main peak RSS 1.19 GB, JSON 548 kB.  At load ~5 two cores give each process
         about half a core: the wall time here is the machine's, not the change's.
