@@ -15,7 +15,7 @@ villages on the bundled invented demo climates, invented households):
 Reports wall time, CPU time of the process and its workers, peak memory (largest
 resident set of the process or a worker) and rows per second.
 
-Run: python benchmarks/bench_programme.py [--quick | --full] [--jobs N]
+Run: python benchmarks/bench_programme.py [--quick | --full | --only V N] [--jobs N]
 
 Measured on 2 cores shared with other work (load average 3-6, so wall times are 2-4 x
 what an idle machine gives; CPU is the process's and its workers' together), December
@@ -73,6 +73,57 @@ also with --jobs 1 and 2 on 20 villages x 5,000 rows):
 Time follows the distinct designs, not the rows: about 1.7-2.5 ms CPU each; each
 village's own site and climate gives it its own designs, so at a fixed number of rows
 more villages cost more. Reading costs about 40 us of CPU per survey row.
+
+Where a distinct design's CPU goes (py-spy, 200 samples/s, one process designing the
+3,395 distinct rows of 3 villages x 12,000 rows, before the step memos; share of the
+designing): design() 89 %: the electrical design 35 % (I-V harvest check 10, cables 8 of
+which their reasons 5, string window 4.5, protection 4, noon operating point 3.4, string
+layout 3), size_array 15, analyse_loads 9.5, size_battery 9.2, site record 4.1, sun on
+the plane 4.0, design month 2.7, climate check 2; across all of them the reasons
+(ReasonBook.add and the *_reasons helpers) ~7 %, the memo's keys 5 %, dataclass
+__init__/replace ~10 %; building the row's project, summarise and compact 6.5 %.  No step
+dominates: the cost is ~2,300 Python calls on 12-month arrays per design.  A village's
+~1,260 distinct rows are ~90 distinct daily energies x ~15 peaks, and the battery, sun,
+site and design-month steps read the energy only: they are now memoised on every
+argument (sizing._site_steps, _battery_step, _design_month_step; their results equal
+design() alone: tests/test_plan_shared_steps.py).  In one process, best of 6
+interleaved rounds at load ~5, 1,969 designs of 2 villages: 1.40 -> 1.19 ms CPU each
+(-15 %; 1.84 -> 1.57 in another set of rounds).  Memoising the noon point and the string
+window too was measured (1.18 vs 1.24 ms, best of 7) and dropped: their keys cost what
+they saved.  The 2 x asked for is not reached: it needs the electrical design and the
+array step vectorised over a village's demands (one numpy pass per step over all the
+energies and peaks), which the engine's per-design steps do not offer yet.
+
+The plan JSON (schema 2) now carries the distinct designs (design table and each
+village's candidates) so that a merge chooses kits again; it grows with the designs:
+10 villages x 10,000 rows 1.15 MB, 50 x 25,000 3.1 MB (was 104 kB), 200 x 100,000
+11.7 MB (was 255 kB), 200 x 1,000,000 50.6 MB (was 548 kB); apart from the new keys
+the JSON is the same as before (50 x 25,000: equal after dropping them).
+Whole runs, December 2026, 2 cores shared with the other engineers' tests (load ~5):
+
+    programme 200 villages, 100000 rows  before (main at 7a704cd)  94.7 s wall, 134.3 s
+                                         CPU, peak RSS 251 MB, peak PSS sum 324 MB,
+                                         load 4.9-3.4
+                                         after   139.3 s wall, 129.3 s CPU, peak RSS
+                                         280 MB (/usr/bin/time -v), load ~4.8; another
+                                         run 194 s wall, 142 s CPU at load 4.8-5.0
+                                         (the other work's load, not the change: see
+                                         the alternated pairs below)
+    programme 50 villages, 25000 rows, /usr/bin/time, alternated, load 5-6:
+                                         before 55.8 s wall, 35.8 s user; 59.0 s, 42.5 s
+                                         after  51.2 s wall, 36.4 s user; 45.1 s, 33.7 s
+                                         maxrss 95 -> 101 MB (the design table)
+    programme 200 villages, 1000000 rows  after   512.3 s wall, 576.5 s CPU (main and
+                                         2 workers), largest resident set 1,235 MB (the
+                                         main process), peak of the summed PSS of main
+                                         and workers 1,300 MB, JSON 50.6 MB, 1,952 rows/s,
+                                         load 5.1 falling to 2.7 (--only 200 1000000)
+                                         again at load 3.2-3.8 (the lowest seen today):
+                                         440.5 s wall, 579.7 s CPU, 1,235 MB largest
+                                         RSS, 1,298 MB summed PSS, 2,270 rows/s
+        the lead's run of main on a quiet machine (load < 2): 299.9 s wall, 551 s CPU,
+        main peak RSS 1.19 GB, JSON 548 kB.  At load ~5 two cores give each process
+        about half a core: the wall time here is the machine's, not the change's.
 """
 
 from __future__ import annotations
@@ -155,25 +206,67 @@ def write_programme(folder: Path, villages: int, rows: int, seed: int = 5) -> Pa
     return folder / "programme.csv"
 
 
+def _tree(pid: int) -> list[int]:
+    """``pid`` and its descendants (Linux /proc)."""
+    out, todo = [], [pid]
+    while todo:
+        p = todo.pop()
+        out.append(p)
+        try:
+            for task in os.listdir(f"/proc/{p}/task"):
+                with open(f"/proc/{p}/task/{task}/children") as fh:
+                    todo += [int(c) for c in fh.read().split()]
+        except OSError:
+            pass
+    return out
+
+
+def _pss_mb(pids: list[int]) -> float:
+    """Sum of the proportional set sizes of ``pids`` [MB] (pages shared after a fork
+    counted once in all)."""
+    total = 0
+    for p in pids:
+        try:
+            with open(f"/proc/{p}/smaps_rollup") as fh:
+                for line in fh:
+                    if line.startswith("Pss:"):
+                        total += int(line.split()[1])
+                        break
+        except OSError:
+            pass
+    return total / 1024.0
+
+
 def run_cli(path: Path, jobs: int | None, extra: tuple[str, ...] = ()) -> dict:
+    """One whole ``offgrid plan`` process: wall and CPU time (the process and its
+    workers), the largest resident set of any one of them, the peak of the sum of their
+    PSS (sampled every 0.5 s), the JSON's size and the load average before and after."""
     cmd = [sys.executable, "-m", "offgrid", "plan", str(path), "--json", *extra]
     if jobs:
         cmd += ["--jobs", str(jobs)]
     load_before = os.getloadavg()[0]
     before = resource.getrusage(resource.RUSAGE_CHILDREN)
     t = time.perf_counter()
-    res = subprocess.run(
-        cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True, check=False
-    )
-    wall = time.perf_counter() - t
+    with tempfile.TemporaryFile() as out, tempfile.TemporaryFile() as err:
+        proc = subprocess.Popen(cmd, stdout=out, stderr=err)
+        peak_pss = 0.0
+        while proc.poll() is None:
+            peak_pss = max(peak_pss, _pss_mb(_tree(proc.pid)))
+            time.sleep(0.5)
+        wall = time.perf_counter() - t
+        json_kb = out.tell() / 1024.0
+        err.seek(0)
+        stderr = err.read().decode("utf-8", "replace")
     after = resource.getrusage(resource.RUSAGE_CHILDREN)
-    if res.returncode not in (0, 1):
-        raise SystemExit(f"offgrid plan failed: {res.stderr[-2000:]}")
+    if proc.returncode not in (0, 1):
+        raise SystemExit(f"offgrid plan failed: {stderr[-2000:]}")
     cpu = (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
     return {
         "wall_s": wall,
         "cpu_s": cpu,
         "peak_mb": after.ru_maxrss / 1024.0,
+        "pss_mb": peak_pss,
+        "json_kb": json_kb,
         "load": f"{load_before:.1f}-{os.getloadavg()[0]:.1f}",
     }
 
@@ -188,8 +281,15 @@ def main() -> None:
         f"CPUs available: {len(os.sched_getaffinity(0))}; load average "
         f"{os.getloadavg()[0]:.1f} (other work on the machine slows the wall times)"
     )
+    only = None
+    if "--only" in sys.argv:  # --only VILLAGES ROWS: that programme case alone
+        i = sys.argv.index("--only")
+        only = (int(sys.argv[i + 1]), int(sys.argv[i + 2]))
     with tempfile.TemporaryDirectory() as tmp:
         folder = Path(tmp)
+        if only is not None:
+            _programme_cases(folder, [only], jobs)
+            return
         print("\nOne community, every row distinct (offgrid plan SURVEY.csv --json)")
         print(
             f"  {'rows':>8} {'jobs':>4} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}"
@@ -203,11 +303,6 @@ def main() -> None:
                     f"  {n:>8} {j:>4} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
                     f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f} {r['load']:>9}"
                 )
-        print("\nProgramme: villages x rows (offgrid plan PROGRAMME.csv --json)")
-        print(
-            f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} {'rows/s':>8}"
-            f" {'load':>9}"
-        )
         cases = (
             [(10, 10_000)]
             if quick
@@ -215,14 +310,24 @@ def main() -> None:
         )
         if full:
             cases.append((200, 1_000_000))
-        for v, n in cases:
-            path = write_programme(folder, v, n)
-            r = run_cli(path, jobs)
-            print(
-                f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
-                f"{r['peak_mb']:>8.0f} {n / r['wall_s']:>8.0f} {r['load']:>9}",
-                flush=True,
-            )
+        _programme_cases(folder, cases, jobs)
+
+
+def _programme_cases(folder: Path, cases: list[tuple[int, int]], jobs: int | None) -> None:
+    print("\nProgramme: villages x rows (offgrid plan PROGRAMME.csv --json)")
+    print(
+        f"  {'villages':>8} {'rows':>9} {'wall s':>7} {'cpu s':>7} {'peak MB':>8} "
+        f"{'PSS MB':>7} {'rows/s':>8} {'JSON kB':>8} {'load':>9}"
+    )
+    for v, n in cases:
+        path = write_programme(folder, v, n)
+        r = run_cli(path, jobs)
+        print(
+            f"  {v:>8} {n:>9} {r['wall_s']:>7.1f} {r['cpu_s']:>7.1f} "
+            f"{r['peak_mb']:>8.0f} {r['pss_mb']:>7.0f} {n / r['wall_s']:>8.0f} "
+            f"{r['json_kb']:>8.0f} {r['load']:>9}",
+            flush=True,
+        )
 
 
 if __name__ == "__main__":

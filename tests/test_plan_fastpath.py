@@ -118,10 +118,16 @@ def _reference_rows(inputs) -> DesignedRows:
 
 
 def _drop_distinct(value):
-    """The plan's data without its counts of designs computed (the reference designs
-    every row)."""
+    """The plan's data without its counts of designs computed and a programme's kit
+    inputs (the reference designs every row, so it offers the kit search one candidate
+    per row where planning offers one per distinct design: the same kits, counts and
+    totals, other candidate lists)."""
     if isinstance(value, dict):
-        return {k: _drop_distinct(v) for k, v in value.items() if k != "distinct_designs"}
+        return {
+            k: _drop_distinct(v)
+            for k, v in value.items()
+            if k not in ("distinct_designs", "candidates", "design_table")
+        }
     if isinstance(value, list | tuple):
         return [_drop_distinct(v) for v in value]
     return value

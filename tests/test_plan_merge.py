@@ -117,9 +117,103 @@ def test_a_village_in_two_plans_is_refused_naming_both(tmp_path):
         merge_plans([("a.json", a), ("b.json", b)])
 
 
-def test_kits_chosen_apart_are_refused_with_the_fix(tmp_path):
+def _schema_1(doc: dict) -> dict:
+    """A plan as an older offgrid wrote it: counts and totals, no distinct designs."""
+    old = {k: v for k, v in doc.items() if k not in ("planning", "price_list", "design_table")}
+    old["villages"] = [{k: x for k, x in v.items() if k != "candidates"} for v in doc["villages"]]
+    return old | {"schema": 1}
+
+
+def _without_merge_notes(doc: dict) -> dict:
+    out = {k: v for k, v in doc.items() if k not in ("merged_from", "notices", "source")}
+    out["notices"] = [n for n in doc["notices"] if not n.startswith("Merged from ")]
+    out["villages"] = [{k: x for k, x in v.items() if k != "own_rows"} for v in doc["villages"]]
+    return out
+
+
+@pytest.mark.parametrize(
+    ("scope", "parts"),
+    [
+        ("programme", ({"KR", "DW"}, {"PA"})),
+        ("programme", ({"PA"}, {"DW", "KR"})),  # files in another order than the villages
+        ("zone", ({"KR", "PA"}, {"DW"})),
+        ("village", ({"DW"}, {"KR", "PA"})),
+    ],
+)
+def test_halves_with_their_designs_choose_the_kits_of_the_whole(tmp_path, scope, parts):
+    # One programme's kits over villages planned on two machines: the parts' JSON carry
+    # each village's distinct designs with their counts, and the merge chooses the kits
+    # again over all of them, by the programme's own code.  Expected: the whole programme
+    # planned at once, exactly (kits, parts, counts, tiers, totals, every village figure).
+    whole = _plan_json(demo_programme_path(), scope)
+    a = _plan_json(_split(tmp_path, "a", parts[0]), scope)
+    b = _plan_json(_split(tmp_path, "b", parts[1]), scope)
+    if scope == "programme":  # the case a merge of counts alone refused: the kits differ
+        assert a["kits"] != whole["kits"] or b["kits"] != whole["kits"]
+    merged = merge_plans([("a.json", a), ("b.json", b)])
+    assert _without_merge_notes(merged) == _without_merge_notes(whole)
+    assert merged["merged_from"] == ["a.json", "b.json"]
+    assert "chosen again" in merged["notices"][-1]
+    for v, w in zip(merged["villages"], whole["villages"], strict=True):
+        assert set(v["own_rows"]) <= set(w["own_rows"])  # one row of each own design
+        assert bool(v["own_rows"]) == bool(w["own_rows"])
+    # a merged plan merges again: the same plan
+    again = merge_plans([("m.json", merged), ("e.json", _empty_part(merged))])
+    assert _without_merge_notes(again) == _without_merge_notes(whole)
+
+
+def _empty_part(doc: dict) -> dict:
+    c = json.loads(json.dumps(doc))
+    c["villages"], c["left_out"] = [], []
+    c["kit_counts"], c["systems"], c["rows_read"], c["distinct_designs"] = {}, 0, 0, 0
+    c["design_table"] = {
+        "fields": doc["design_table"]["fields"],
+        "shared": doc["design_table"]["shared"],
+        "rows": [],
+    }
+    return c
+
+
+def test_a_merge_with_kits_given_chooses_them_across_the_parts(tmp_path):
+    whole = plan_programme_file(demo_programme_path(), jobs=1, kits=2)
     a = _plan_json(_split(tmp_path, "a", {"KR", "DW"}), "programme")
     b = _plan_json(_split(tmp_path, "b", {"PA"}), "programme")
+    merged = merge_plans([("a.json", a), ("b.json", b)], kits=2, kit_type_cost=None)
+    want = json.loads(json.dumps(whole.to_dict()))
+    assert merged["kits"] == want["kits"] and len(merged["kits"]) <= 2
+    assert merged["totals"] == want["totals"]
+    assert merged["kit_counts"] == want["kit_counts"]
+
+
+def test_parts_planned_with_other_options_are_refused(tmp_path):
+    a = _plan_json(_split(tmp_path, "a", {"KR", "DW"}), "programme")
+    b = _plan_json(_split(tmp_path, "b", {"PA"}), "programme")
+    # the same price list read from another folder (another machine) is the same prices
+    b["price_list"] = dict(b["price_list"], source="/elsewhere/kisanga-ridge-prices.csv")
+    assert merge_plans([("a.json", a), ("b.json", b)])["kits"]
+    b["price_list"] = dict(b["price_list"], currency="EUR")
+    with pytest.raises(MergeError, match=r"price list differs between a.json and b.json"):
+        merge_plans([("a.json", a), ("b.json", b)])
+    b["price_list"] = a["price_list"]
+    b["planning"] = dict(b["planning"], k_max=5)
+    with pytest.raises(MergeError, match=r"planning differs between a.json and b.json"):
+        merge_plans([("a.json", a), ("b.json", b)])
+
+
+def test_older_plans_without_designs_merge_counts_and_say_kits_are_not_chosen(tmp_path):
+    whole = _plan_json(demo_programme_path(), "village")
+    a = _schema_1(_plan_json(_split(tmp_path, "a", {"KR", "DW"}), "village"))
+    b = _plan_json(_split(tmp_path, "b", {"PA"}), "village")
+    merged = merge_plans([("a.json", a), ("b.json", b)])  # one old file: the old merge
+    assert merged["schema"] == 1 and "the kits were not chosen again" in merged["notices"][-1]
+    assert merged["kit_counts"] == whole["kit_counts"]
+    with pytest.raises(MergeError, match=r"a.json carries no distinct designs"):
+        merge_plans([("a.json", a), ("b.json", b)], kits=3)
+
+
+def test_kits_chosen_apart_are_refused_with_the_fix(tmp_path):
+    a = _schema_1(_plan_json(_split(tmp_path, "a", {"KR", "DW"}), "programme"))
+    b = _schema_1(_plan_json(_split(tmp_path, "b", {"PA"}), "programme"))
     with pytest.raises(MergeError, match=r"differs between a.json and b.json.*--kit-scope village"):
         merge_plans([("a.json", a), ("b.json", b)])
     # the same kits on both parts merge: a part's kits against themselves
@@ -141,7 +235,28 @@ def test_cli_merges_plan_files(tmp_path, capsys):
     _assert_same(doc, _plan_json(demo_programme_path(), "village"))
     text = (tmp_path / "m.md").read_text()
     assert "| KR Kisanga Ridge |" in text and DEFERS_TO_CODE in text
+    capsys.readouterr()
+    assert main(["plan", "--merge", *files, "--json", "--kits", "2"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["planning"]["kits"] == 2 and doc["kit_counts"]
+    old = tmp_path / "old.json"
+    old.write_text(json.dumps(_schema_1(json.loads((tmp_path / "a.json").read_text()))))
     with pytest.raises(SystemExit) as exit_:
-        main(["plan", "--merge", *files, "--kits", "3"])
+        main(["plan", "--merge", str(old), files[1], "--kits", "3"])
     assert exit_.value.code == 2
-    assert "per-row demands" in capsys.readouterr().err
+    assert "kits cannot be chosen again" in capsys.readouterr().err
+
+
+def test_the_design_table_reads_back_every_design_exactly():
+    from offgrid.plan.rows import DesignTable, designs_from_data
+
+    plan = plan_programme_file(demo_programme_path(), jobs=1)
+    table = DesignTable()
+    index = [table.add(c.design) for c in plan.candidates]
+    back = designs_from_data(json.loads(json.dumps(table.data())))
+    assert [back[i] for i in index] == [c.design for c in plan.candidates]
+    # field for field, types too (an int written as 30 stays 30, a float 30.0 stays 30.0)
+    for i, c in zip(index, plan.candidates, strict=True):
+        for name in DesignTable.fields:
+            assert type(getattr(back[i], name)) is type(getattr(c.design, name)), name
+    assert len(table.rows) == len({c.design for c in plan.candidates})  # equal ones once

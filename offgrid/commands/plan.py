@@ -91,7 +91,9 @@ def register(sub) -> None:
         nargs="+",
         metavar="PLAN.json",
         help="merge programme plans made apart (split by village, each written with "
-        "--json) into one: villages unioned, counts and totals summed",
+        "--json) into one: the kits chosen again across all the villages from their "
+        "distinct designs (--kits, --kit-cost change the parts' settings); plan files of "
+        "an older offgrid: villages unioned, counts and totals summed",
     )
     p.add_argument("--rows", action="store_true", help="list every row in the summary")
     p.add_argument("--json", action="store_true", help="print the plan as JSON")
@@ -241,13 +243,8 @@ def run_merge(args: argparse.Namespace) -> int:
 
     if args.survey or args.demo or args.demo_programme:
         fail("--merge takes plan JSON files only: give no survey or programme beside it")
-    if args.kits is not None or args.kit_cost is not None:
-        fail(
-            "--merge: the plan JSON holds each village's counts and totals, not the "
-            "per-row demands the kit search needs, so a merge cannot choose kits again; "
-            "plan the whole programme on one machine with --kits, or plan the parts with "
-            "--kit-scope village and merge them"
-        )
+    if args.kits is not None and args.kits < 1:
+        fail(f"--kits {args.kits}: give 1 or more kit types")
     report = Path(args.report) if args.report else None
     if report is not None and report.suffix.lower() not in (".md", ".json"):
         fail(f"--report {report}: a merged plan is written as .md or .json")
@@ -262,7 +259,7 @@ def run_merge(args: argparse.Namespace) -> int:
                 f"--merge {name}: not JSON; write each part with offgrid plan PROGRAMME.csv --json"
             )
     try:
-        doc = merge_plans(plans)
+        doc = merge_plans(plans, kits=args.kits, kit_type_cost=args.kit_cost)
     except MergeError as exc:
         fail(str(exc))
     if report is not None:
@@ -316,5 +313,9 @@ JSON_INDENT_MAX_ROWS = 2000
 
 def dump_json(data: dict) -> str:
     """The plan as JSON text: indented for a readable plan, compact for a large one."""
-    big = len(data.get("rows") or ()) > JSON_INDENT_MAX_ROWS
+    table = data.get("design_table")  # a programme plan's distinct designs
+    big = (
+        max(len(data.get("rows") or ()), len(table["rows"]) if isinstance(table, dict) else 0)
+        > JSON_INDENT_MAX_ROWS
+    )
     return json_text(data, indent=None if big else 2, separators=(",", ":") if big else None)

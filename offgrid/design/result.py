@@ -92,6 +92,12 @@ def plain_reasons() -> Iterator[None]:
         _make_reason = before
 
 
+def reason_kind() -> type:
+    """The reason record books opened now build (:class:`Reason`, or :class:`PlainReason`
+    inside :func:`plain_reasons`): part of the key of a memoised step that returns reasons."""
+    return _make_reason
+
+
 class ReasonBook:
     """Collects reasons while the engine computes."""
 

@@ -48,13 +48,21 @@ from offgrid.design.ratings import (  # noqa: F401  (re-exported)
     NEC_CONTINUOUS,
     next_rating,
 )
-from offgrid.design.result import DesignError, LoadResult, Notice, ReasonBook, SystemDesign
+from offgrid.design.result import (
+    DesignError,
+    LoadResult,
+    Notice,
+    ReasonBook,
+    SystemDesign,
+    reason_kind,
+)
 from offgrid.design.site_step import (
     LOW_SUN_KWH_M2_DAY,  # noqa: F401  (re-exported)
     confirm_design_month,
     site_record,
     sun_on_plane,
 )
+from offgrid.memo import memoised
 from offgrid.project.model import Project
 
 #: The chosen controller's harvest may fall this far below the demand before modules are
@@ -78,10 +86,15 @@ def resolve_climate(project: Project, base: Path | None = None) -> MonthlyClimat
     )
 
 
-def _check_climate(c: MonthlyClimate) -> None:
-    """DesignError naming the field when the climate table is incomplete or implausible."""
+@memoised  # planning: every row of a village checks the one climate
+def _climate_problems(c: MonthlyClimate) -> tuple:
     from offgrid.climate.files import monthly_climate_problems
 
+    return tuple(monthly_climate_problems(c))
+
+
+def _check_climate(c: MonthlyClimate) -> None:
+    """DesignError naming the field when the climate table is incomplete or implausible."""
     for key in ("insolation_kwh_m2_day", "temp_mean_c"):
         values = getattr(c, key)
         if values is None or len(values) != 12:
@@ -91,7 +104,7 @@ def _check_climate(c: MonthlyClimate) -> None:
                 f"{0 if values is None else len(values)}",
                 f"climate.{key}",
             )
-    problems = monthly_climate_problems(c)
+    problems = _climate_problems(c)
     if problems:
         path, message = problems[0]
         raise DesignError("climate-months", f"{path}: {message}", path)
@@ -112,6 +125,36 @@ def site_geometry(
     if notices is not None:
         notices.extend(step.notices)
     return step.tilt_deg, step.azimuth_deg, step.sun
+
+
+# The steps below are memoised while planning (``with design_memo():``): a village's
+# distinct rows repeat a daily energy with different peak powers, and these steps read
+# the energy, not the peak.  Each is keyed by every argument it takes (and by the kind of
+# reason record being built, offgrid.design.result.reason_kind), so a memoised call
+# returns what the step itself returns for those arguments.
+
+
+@memoised
+def _site_steps(site, min_tilt_deg: float, climate, demand: tuple, kind: type):
+    """Steps 1 and 3: :func:`sun_on_plane` and :func:`site_record` (``kind``: the reason
+    record in force, part of the memo's key only)."""
+    demand_wh_day = np.asarray(demand, dtype=float)
+    sun = sun_on_plane(site, min_tilt_deg, climate, demand_wh_day)
+    return sun, site_record(site, climate, sun, demand_wh_day)
+
+
+@memoised
+def _design_month_step(site, supply: tuple, demand: tuple, dm: int, kind: type):
+    return confirm_design_month(site, supply, np.asarray(demand, dtype=float), dm)
+
+
+@memoised
+def _battery_step(
+    spec, choices, daily_energy_wh: tuple, system_v, abs_v, t_mean: tuple, room_c, warm_c, kind
+):
+    return size_battery(
+        spec, choices, daily_energy_wh, system_v, abs_v, np.asarray(t_mean), room_c, warm_c
+    )
 
 
 def _check_loads(project: Project) -> None:
@@ -145,9 +188,11 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         project.loads, project.inverter, choices.load_growth_pct, choices.coincidence_factor, book
     )
     demand = np.asarray(lr.daily_energy_wh)
+    kind = reason_kind()
     # 1. sun, 3. a first design month and the temperatures
-    sun = sun_on_plane(project.site, choices.min_tilt_deg, climate, demand)
-    site_step = site_record(project.site, climate, sun, demand)
+    sun, site_step = _site_steps(
+        project.site, choices.min_tilt_deg, climate, tuple(lr.daily_energy_wh), kind
+    )
     for step in (sun, site_step):
         book.extend(step.reasons)
     site_notices = [*sun.notices, *site_step.notices]
@@ -175,18 +220,21 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     dm = arr.design_month
     site = replace(site, design_month=dm + 1)
     lr = replace(lr, design_daily_energy_wh=float(demand[dm]))
-    month = confirm_design_month(site, arr.array.supply_wh_day, demand, dm)
+    month = _design_month_step(
+        site, tuple(arr.array.supply_wh_day), tuple(lr.daily_energy_wh), dm, kind
+    )
     book.extend(month.reasons)
     # 6. battery, 8. inverter
-    bat = size_battery(
+    bat = _battery_step(
         project.battery,
         choices,
         lr.daily_energy_wh,
         arr.system_voltage_v,
         arr.absorption_voltage_v,
-        np.asarray(site.temp_mean_c),
+        tuple(site.temp_mean_c),
         project.site.battery_temp_c,
         project.site.battery_warm_temp_c,
+        kind,
     )
     inv = size_inverter(project.inverter, lr, arr.system_voltage_v)
     for step in (bat, inv):

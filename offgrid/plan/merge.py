@@ -25,26 +25,61 @@ class MergeError(ValueError):
     """The plans cannot be merged; the message names the files and the fix."""
 
 
+#: Plan schemas read: 1 (counts and totals only) and 2 (with the distinct designs).
+SCHEMAS = (1, 2)
+#: The note of a merge of plans without their designs (schema 1).
+NOT_CHOSEN_AGAIN = (
+    "the kits were not chosen again (a plan file without its distinct designs, schema 1, "
+    "written by an older offgrid: plan the parts again to merge with kits chosen across "
+    "them)"
+)
+
+
 def _check_doc(name: str, doc: Any) -> None:
     if not isinstance(doc, dict) or doc.get("format") != FORMAT:
         raise MergeError(
             f"{name}: not a programme plan (format '{FORMAT}'): write it with "
             "offgrid plan PROGRAMME.csv --json"
         )
-    if doc.get("schema") != 1:
-        raise MergeError(f"{name}: plan schema {doc.get('schema')!r}; this offgrid reads 1")
+    if doc.get("schema") not in SCHEMAS:
+        raise MergeError(
+            f"{name}: plan schema {doc.get('schema')!r}; this offgrid reads "
+            f"{' and '.join(map(str, SCHEMAS))}"
+        )
 
 
-def merge_plans(plans: list[tuple[str, dict]]) -> dict:
+def has_designs(doc: dict) -> bool:
+    """A plan that carries its distinct designs (schema 2): its kits can be chosen again."""
+    return doc.get("schema") == 2 and isinstance(doc.get("design_table"), dict)
+
+
+def merge_plans(
+    plans: list[tuple[str, dict]], kits: int | None = None, kit_type_cost: float | None = None
+) -> dict:
     """Merge programme plans ``(file name, plan JSON)`` into one plan JSON.
 
-    Raises :class:`MergeError` for a village in two files, differing kit scopes or
-    currencies, or a kit of one name with different parts in two files.
+    When every plan carries its distinct designs (schema 2) the kits are chosen again
+    across all the villages, as the whole programme planned at once would choose them
+    (``kits``/``kit_type_cost`` replace the parts' own settings); otherwise the villages
+    are unioned and counts and totals summed (see the module docstring).
+
+    Raises :class:`MergeError` for a village in two files, differing kit scopes,
+    currencies, planning options or price lists, or (without designs) a kit of one name
+    with different parts in two files.
     """
     if len(plans) < 2:
         raise MergeError("--merge: name two or more programme plan JSON files")
     for name, doc in plans:
         _check_doc(name, doc)
+    if all(has_designs(doc) for _, doc in plans):
+        return _merge_choosing(plans, kits, kit_type_cost)
+    if kits is not None or kit_type_cost is not None:
+        old = ", ".join(n for n, doc in plans if not has_designs(doc))
+        raise MergeError(
+            f"--merge: {old} carries no distinct designs (plan schema 1, an older offgrid), "
+            "so the kits cannot be chosen again: plan those parts again with this offgrid, "
+            "or merge without --kits and --kit-cost"
+        )
     first_name, first = plans[0]
     for name, doc in plans[1:]:
         for key in ("kit_scope", "currency"):
@@ -103,7 +138,7 @@ def merge_plans(plans: list[tuple[str, dict]]) -> dict:
                 cautions.append(text)
     notices.append(
         f"Merged from {len(plans)} plans ({', '.join(n for n, _ in plans)}): villages "
-        "unioned, counts and totals summed; the kits were not chosen again and no zone "
+        f"unioned, counts and totals summed; {NOT_CHOSEN_AGAIN} and no zone "
         "comparison was made across the parts."
     )
     return {
@@ -127,6 +162,187 @@ def merge_plans(plans: list[tuple[str, dict]]) -> dict:
         "tiers": {"edition": first["tiers"]["edition"], "systems": tiers},
         "notices": notices,
         "cautions": cautions,
+    }
+
+
+def _merge_choosing(
+    plans: list[tuple[str, dict]], kits: int | None, kit_type_cost: float | None
+) -> dict:
+    """The merge of plans that carry their designs: the villages in the programme's order
+    (their line), the kits chosen again over every village's candidates by the
+    programme's own code (:func:`offgrid.plan.programme.choose_kits`,
+    :func:`~offgrid.plan.programme.village_figures`), the totals summed again."""
+    from offgrid.design.cautions import DEFERS_TO_CODE
+    from offgrid.plan.community import _plain
+    from offgrid.plan.kits import Candidate
+    from offgrid.plan.programme import (
+        MTF_EDITION,
+        PLAN_SCHEMA,
+        TIER_NAMES,
+        _sum_totals,
+        choose_kits,
+        kit_options,
+        price_list_from_data,
+        village_figures,
+    )
+    from offgrid.plan.rows import DesignTable, designs_from_data
+
+    def same(doc: dict, key: str):
+        value = doc.get(key)
+        if key == "price_list" and isinstance(value, dict):  # the same prices, read from
+            value = {k: v for k, v in value.items() if k != "source"}  # any folder
+        return value
+
+    first_name, first = plans[0]
+    for name, doc in plans[1:]:
+        for key in ("kit_scope", "currency", "planning", "price_list"):
+            if same(doc, key) != same(first, key):
+                what = key.replace("_", " ")
+                raise MergeError(
+                    f"the {what} differs between {first_name} and {name}: plan every part "
+                    f"with the same {what} (the kits are chosen again across the parts)"
+                )
+    options = dict(first["planning"])
+    prices = price_list_from_data(first["price_list"])
+    if kits is not None or kit_type_cost is not None:
+        _, options["kits"], options["kit_type_cost"] = kit_options(
+            options["objective"], kits, kit_type_cost, prices
+        )
+    where: dict[str, str] = {}
+    entries = []  # (line, part order, village JSON, the part's designs)
+    for pi, (name, doc) in enumerate(plans):
+        try:
+            designs = designs_from_data(doc["design_table"])
+        except (KeyError, IndexError, TypeError, ValueError) as exc:
+            raise MergeError(
+                f"{name}: its designs cannot be read ({exc}); write it again with "
+                "offgrid plan PROGRAMME.csv --json"
+            ) from exc
+        for v in doc["villages"]:
+            if v["id"] in where:
+                raise MergeError(
+                    f"village '{v['id']}' is in both {where[v['id']]} and {name}: a "
+                    "programme splits by village, each village planned on one machine "
+                    "only; plan it in one part and leave it out of the other"
+                )
+            where[v["id"]] = name
+            entries.append((v["line"], pi, v, designs))
+    entries.sort(key=lambda e: (e[0], e[1]))
+    cands: list = []
+    labels: list[str] = []
+    mine: list[list[int]] = []
+    scope_of: list[str] = []
+    zone_of: list[str] = []
+    scope = first["kit_scope"]
+    for _, _, v, designs in entries:
+        here = []
+        for di, count, kit, label in v["candidates"]:
+            ci = len(cands)
+            cands.append(Candidate(ci, designs[di], count, kit))
+            labels.append(label)
+            zone = v["zone"]
+            scope_of.append(
+                {"programme": "programme", "village": v["id"], "zone": zone or "(no zone)"}[scope]
+            )
+            zone_of.append(zone)
+            here.append(ci)
+        mine.append(here)
+    objective = options["objective"]
+    standards, assign, kit_parts, zone_note = choose_kits(
+        cands,
+        scope_of,
+        zone_of,
+        scope,
+        options["kits"],
+        options["kit_type_cost"],
+        prices,
+        objective,
+        options["k_max"],
+    )
+    cautions: list[str] = []
+    villages = []
+    totals = []
+    table = DesignTable()
+    prog_tiers = {t: 0 for t in TIER_NAMES}
+    for (_, _, v, _), here in zip(entries, mine, strict=True):
+        fig = village_figures(here, cands, assign, kit_parts, standards, prices, labels, cautions)
+        totals.append(fig.totals)
+        for t, n in fig.tiers.items():
+            prog_tiers[t] += n
+        own_first = [labels[ci].split("/", 1)[-1] for ci in fig.own_candidates]
+        villages.append(
+            dict(v)
+            | {
+                "systems": sum(fig.kit_counts.values()) + fig.own,
+                "kit_counts": _plain(fig.kit_counts),
+                "own_systems": fig.own,
+                "own_rows": own_first,
+                "modules": fig.modules,
+                "battery_units": fig.battery_units,
+                "array_kw": _plain(fig.array_w / 1000.0),
+                "battery_kwh": _plain(fig.battery_wh / 1000.0),
+                "tier_counts": _plain(fig.tiers),
+                "total_cost": _plain(fig.totals.total_cost) if fig.totals else None,
+                "candidates": [
+                    [table.add(cands[ci].design), cands[ci].count, cands[ci].kit, labels[ci]]
+                    for ci in here
+                ],
+            }
+        )
+    if DEFERS_TO_CODE not in cautions:
+        cautions.append(DEFERS_TO_CODE)
+    kit_type = standards[0][1].kit_type_cost if standards else 0.0
+    total = _sum_totals(totals, sum(len(st.kits) for _, st in standards), kit_type, prices)
+    kit_counts: dict[str, int] = {}
+    for v in villages:
+        for k, n in v["kit_counts"].items():
+            kit_counts[k] = kit_counts.get(k, 0) + n
+    notices: list[str] = []
+    for _, doc in plans:
+        for text in doc["notices"]:
+            if not text.startswith((_ZONE_NOTE, "Merged from ")) and text not in notices:
+                notices.append(text)
+    if zone_note:
+        notices.append(zone_note)
+    notices.append(
+        f"Merged from {len(plans)} plans ({', '.join(n for n, _ in plans)}): the kits were "
+        "chosen again across all their villages from each village's distinct designs; "
+        "own_rows lists the first row of each own-system design."
+    )
+    return {
+        "format": FORMAT,
+        "schema": PLAN_SCHEMA,
+        "name": first["name"],
+        "demo": any(doc["demo"] for _, doc in plans),
+        "source": first["source"],
+        "merged_from": [n for n, _ in plans],
+        "kit_scope": scope,
+        "rows_read": sum(doc["rows_read"] for _, doc in plans),
+        "distinct_designs": sum(doc["distinct_designs"] for _, doc in plans),
+        "systems": sum(v["systems"] for v in villages),
+        "currency": first["currency"],
+        "prices": first["prices"],
+        "kits": [
+            {
+                "scope": name,
+                "name": k.name,
+                "systems": k.systems,
+                "unit_cost": _plain(k.unit_cost),
+                "parts": _plain(k.parts),
+            }
+            for name, st in standards
+            for k in st.kits
+        ],
+        "kit_counts": kit_counts,
+        "villages": villages,
+        "left_out": [p for _, doc in plans for p in doc["left_out"]],
+        "totals": _plain(total) if total else None,
+        "tiers": {"edition": MTF_EDITION, "systems": dict(prog_tiers)},
+        "notices": notices,
+        "cautions": cautions,
+        "planning": options,
+        "price_list": first["price_list"],
+        "design_table": table.data(),
     }
 
 

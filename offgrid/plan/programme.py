@@ -39,6 +39,7 @@ from offgrid.plan.prices import PriceList, PriceListError, load_prices
 from offgrid.plan.rows import (
     DEFAULT_ENERGY_STEP_PCT,
     PARALLEL_MIN_DESIGNS,
+    DesignTable,
     PlanInputs,
     RowDesign,
     RowFailure,
@@ -546,6 +547,10 @@ class ProgrammePlan:
     #: the kits' inputs: one per (village, distinct design, kit flag), counts summed
     candidates: tuple[Candidate, ...] = ()
     candidate_village: tuple[str, ...] = ()
+    #: what a merge needs to choose the kits again (see offgrid.plan.merge)
+    options: dict[str, Any] = field(default_factory=dict)
+    price_list: PriceList | None = None
+    candidate_labels: tuple[str, ...] = ()
 
     @property
     def systems(self) -> int:
@@ -566,9 +571,15 @@ class ProgrammePlan:
     def to_dict(self) -> dict[str, Any]:
         from offgrid.plan.community import _plain
 
+        designs = DesignTable()
+        per_village: dict[str, list] = {}
+        for c, vid, label in zip(
+            self.candidates, self.candidate_village, self.candidate_labels, strict=True
+        ):
+            per_village.setdefault(vid, []).append([designs.add(c.design), c.count, c.kit, label])
         return {
             "format": "offgrid-programme-plan",
-            "schema": 1,
+            "schema": PLAN_SCHEMA,
             "name": self.name,
             "demo": self.demo,
             "source": self.source,
@@ -621,6 +632,8 @@ class ProgrammePlan:
                 | {
                     "left_out": [str(p) for p in v.left_out],
                     "total_cost": _plain(v.totals.total_cost) if v.totals else None,
+                    # [design, systems, kit flag, first row]: what the kits were chosen from
+                    "candidates": per_village.get(v.id, []),
                 }
                 for v in self.villages
             ],
@@ -629,7 +642,44 @@ class ProgrammePlan:
             "tiers": {"edition": MTF_EDITION, "systems": dict(self.tier_counts)},
             "notices": list(self.notices),
             "cautions": list(self.cautions),
+            "planning": dict(self.options),
+            "price_list": price_list_data(self.price_list),
+            "design_table": designs.data(),
         }
+
+
+#: 2: the distinct designs (``designs``, each village's ``candidates``), the planning
+#: options and the price list, so that a merge of plans chooses the kits again.
+PLAN_SCHEMA = 2
+
+
+def price_list_data(prices: PriceList | None) -> dict | None:
+    """A price list as plain JSON data (read back by :func:`price_list_from_data`)."""
+    if prices is None:
+        return None
+    return {
+        "entries": {k: list(v) for k, v in prices.entries.items()},
+        "currency": prices.currency,
+        "source": prices.source,
+        "demo": prices.demo,
+        "notes": dict(prices.notes),
+        "parts": [[p.part, p.unit_price, p.note] for p in prices.parts],
+    }
+
+
+def price_list_from_data(data: dict | None) -> PriceList | None:
+    from offgrid.project.model import PriceItem
+
+    if data is None:
+        return None
+    return PriceList(
+        {k: (v[0], v[1]) for k, v in data["entries"].items()},
+        data["currency"],
+        data["source"],
+        data["demo"],
+        dict(data["notes"]),
+        tuple(PriceItem(*p) for p in data["parts"]),
+    )
 
 
 # --------------------------------------------------------------------- planning
@@ -916,16 +966,7 @@ def plan_programme(
     _design_all(work, default_jobs() if jobs is None else jobs)
 
     price_list = _resolve_prices(prog, prices, work[0].inputs)
-    objective = objective or ("cost" if price_list is not None else "oversize")
-    if (
-        kit_type_cost is None
-        and objective == "cost"
-        and price_list is not None
-        and price_list.has("kit_type")
-    ):
-        kit_type_cost = price_list.optional("kit_type")
-    if kits is None and kit_type_cost is None:
-        kits = 3
+    objective, kits, kit_type_cost = kit_options(objective, kits, kit_type_cost, price_list)
 
     # one candidate per (village, distinct design, kit choice): counts summed
     cands: list[Candidate] = []
@@ -953,54 +994,18 @@ def plan_programme(
             per_row.append(ci)
         row_cand.append(per_row)
 
-    scopes: dict[str, list[int]] = {}
-    for ci, vi in enumerate(cand_village):
-        v = work[vi].village
-        name = {"programme": "programme", "village": v.id, "zone": v.zone or "(no zone)"}[kit_scope]
-        scopes.setdefault(name, []).append(ci)
-    standards: list[tuple[str, Standardisation]] = []
-    assign: dict[int, Any] = {}
-    kit_parts: dict[str, Any] = {}
-    for name, members in scopes.items():
-        sub = [cands[ci] for ci in members]
-        st = standardise(
-            sub,
-            k=kits,
-            kit_type_cost=kit_type_cost,
-            prices=price_list,
-            objective=objective,
-            k_max=k_max,
-        )
-        if kit_scope != "programme":
-            prefix = f"{name}-"
-            st = replace(
-                st,
-                kits=tuple(replace(k, name=prefix + k.name) for k in st.kits),
-                assignments=tuple(
-                    replace(a, kit=prefix + a.kit if a.kit else None) for a in st.assignments
-                ),
-            )
-        standards.append((name, st))
-        for a in st.assignments:
-            assign[a.index] = a
-        for k in st.kits:
-            kit_parts[k.name] = k.parts
-
-    zones = {work[vi].village.zone for vi in cand_village}
-    if kit_scope != "zone" and len(zones) > 1 and "" not in zones and objective == "cost":
-        notices.append(
-            _zone_comparison(
-                cands,
-                cand_village,
-                work,
-                standards,
-                kits,
-                kit_type_cost,
-                price_list,
-                k_max,
-                kit_scope,
-            )
-        )
+    zone_of = [work[vi].village.zone for vi in cand_village]
+    scope_of = [
+        {"programme": "programme", "village": work[vi].village.id, "zone": z or "(no zone)"}[
+            kit_scope
+        ]
+        for vi, z in zip(cand_village, zone_of, strict=True)
+    ]
+    standards, assign, kit_parts, zone_note = choose_kits(
+        cands, scope_of, zone_of, kit_scope, kits, kit_type_cost, price_list, objective, k_max
+    )
+    if zone_note:
+        notices.append(zone_note)
 
     villages: list[VillageResult] = []
     prog_tiers = {t: 0 for t in TIER_NAMES}
@@ -1048,16 +1053,93 @@ def plan_programme(
         distinct,
         tuple(cands),
         tuple(work[vi].village.id for vi in cand_village),
+        {"kits": kits, "kit_type_cost": kit_type_cost, "objective": objective, "k_max": k_max},
+        price_list,
+        tuple(cand_label),
     )
 
 
+def kit_options(
+    objective: str | None, kits: int | None, kit_type_cost: float | None, prices
+) -> tuple[str, int | None, float | None]:
+    """The objective, the number of kits and the kit type's cost as the kits are chosen:
+    cost with a price list, else oversize; the price list's kit type cost unless one is
+    given; 3 kits when neither a number nor a cost is given."""
+    objective = objective or ("cost" if prices is not None else "oversize")
+    if (
+        kit_type_cost is None
+        and objective == "cost"
+        and prices is not None
+        and prices.has("kit_type")
+    ):
+        kit_type_cost = prices.optional("kit_type")
+    if kits is None and kit_type_cost is None:
+        kits = 3
+    return objective, kits, kit_type_cost
+
+
+def choose_kits(
+    cands: list[Candidate],
+    scope_of: list[str],
+    zone_of: list[str],
+    kit_scope: str,
+    kits: int | None,
+    kit_type_cost: float | None,
+    price_list: PriceList | None,
+    objective: str,
+    k_max: int,
+) -> tuple[list[tuple[str, Standardisation]], dict[int, Any], dict[str, Any], str]:
+    """The kits of each scope over the candidates (one per village, distinct design and kit
+    flag; ``scope_of``/``zone_of``: each candidate's scope and its village's zone): the
+    standardisations, each candidate's assignment by index, each kit's parts, and the
+    zone comparison's note ("" when none is made).  A programme plan and a merge of plans
+    (offgrid.plan.merge) both choose through here."""
+    scopes: dict[str, list[int]] = {}
+    for ci, name in enumerate(scope_of):
+        scopes.setdefault(name, []).append(ci)
+    standards: list[tuple[str, Standardisation]] = []
+    assign: dict[int, Any] = {}
+    kit_parts: dict[str, Any] = {}
+    for name, members in scopes.items():
+        sub = [cands[ci] for ci in members]
+        st = standardise(
+            sub,
+            k=kits,
+            kit_type_cost=kit_type_cost,
+            prices=price_list,
+            objective=objective,
+            k_max=k_max,
+        )
+        if kit_scope != "programme":
+            prefix = f"{name}-"
+            st = replace(
+                st,
+                kits=tuple(replace(k, name=prefix + k.name) for k in st.kits),
+                assignments=tuple(
+                    replace(a, kit=prefix + a.kit if a.kit else None) for a in st.assignments
+                ),
+            )
+        standards.append((name, st))
+        for a in st.assignments:
+            assign[a.index] = a
+        for k in st.kits:
+            kit_parts[k.name] = k.parts
+    zones = set(zone_of)
+    note = ""
+    if kit_scope != "zone" and len(zones) > 1 and "" not in zones and objective == "cost":
+        note = _zone_comparison(
+            cands, zone_of, standards, kits, kit_type_cost, price_list, k_max, kit_scope
+        )
+    return standards, assign, kit_parts, note
+
+
 def _zone_comparison(
-    cands, cand_village, work, standards, kits, kit_type_cost, prices, k_max, kit_scope
+    cands, zone_of, standards, kits, kit_type_cost, prices, k_max, kit_scope
 ) -> str:
     """Say whether kits restricted to climate zones would cost less than the scope used."""
     by_zone: dict[str, list[Candidate]] = {}
-    for c, vi in zip(cands, cand_village, strict=True):
-        by_zone.setdefault(work[vi].village.zone, []).append(c)
+    for c, zone in zip(cands, zone_of, strict=True):
+        by_zone.setdefault(zone, []).append(c)
     zoned = sum(
         standardise(
             sub, k=kits, kit_type_cost=kit_type_cost, prices=prices, objective="cost", k_max=k_max
@@ -1076,6 +1158,100 @@ def _zone_comparison(
     )
 
 
+@dataclass(frozen=True)
+class VillageFigures:
+    """A village's kit counts, own systems, parts, tiers and totals, from its candidates."""
+
+    kit_counts: dict[str, int]
+    own: int
+    own_candidates: tuple[int, ...]
+    modules: int
+    battery_units: int
+    array_w: float
+    battery_wh: float
+    tiers: dict[str, int]
+    totals: Totals | None
+
+
+def village_figures(
+    mine: list[int],
+    cands: list[Candidate],
+    assign: dict,
+    kit_parts: dict,
+    standards,
+    prices,
+    labels,
+    cautions: list[str],
+) -> VillageFigures:
+    """The figures of one village whose candidates are ``mine`` (indices into ``cands``, in
+    the order the village's rows first name them); each candidate's cautions are added to
+    ``cautions`` in that order.  Sums run over the candidates (count x figure), so a merge
+    of plans, which holds candidates and not rows, gives the same numbers."""
+    kit_counts: dict[str, int] = {}
+    own_c: list[int] = []
+    own = mods = units = 0
+    array_w = batt_wh = 0.0
+    cap, energy, weights = [], [], []
+    for ci in mine:
+        c = cands[ci]
+        r, n = c.design, c.count
+        a = assign[ci]
+        for text in r.cautions:
+            if text not in cautions:
+                cautions.append(text)
+        if a.kit:
+            kit_counts[a.kit] = kit_counts.get(a.kit, 0) + n
+            parts = kit_parts[a.kit]
+            mods += n * parts.modules_series * parts.strings
+            units += n * parts.units_series * parts.units_parallel
+            array_w += n * parts.modules_series * parts.strings * parts.module_pmax_w
+            batt_wh += n * (
+                parts.units_series
+                * parts.units_parallel
+                * parts.battery_unit_v
+                * parts.battery_unit_ah
+            )
+            scale = min(parts.array_power_w / r.required_power_w, parts.nominal_wh / r.required_wh)
+            own_scale = min(r.array_power_w / r.required_power_w, r.nominal_wh / r.required_wh)
+            energy.append(r.appliance_energy_wh * max(1.0, scale / own_scale))
+            cap.append(parts.inverter_w + (r.peak_capacity_w - r.inverter_w))
+        else:
+            own += n
+            own_c.append(ci)
+            mods += n * r.module_count
+            units += n * r.unit_count
+            array_w += n * r.array_power_w
+            batt_wh += n * r.nominal_wh
+            energy.append(r.appliance_energy_wh)
+            cap.append(r.peak_capacity_w)
+        weights.append(n)
+    tiers = {t: 0 for t in TIER_NAMES}
+    if weights:
+        tier_idx = mtf2015_tier(np.asarray(cap), np.asarray(energy))
+        for t, n in zip(np.atleast_1d(tier_idx), weights, strict=True):
+            tiers[TIER_NAMES[int(t)]] += n
+    totals = None
+    if mine:
+        order = sorted(mine)
+        sub_c = [cands[ci] for ci in order]
+        kits_here = []
+        for _, st in standards:
+            for k in st.kits:
+                n = kit_counts.get(k.name, 0)
+                if n:
+                    kits_here.append(replace(k, systems=n))
+        view = replace(
+            standards[0][1],
+            kits=tuple(kits_here),
+            assignments=tuple(assign[ci] for ci in order),
+            kit_type_cost=0.0,
+        )
+        totals = procurement_totals(view, sub_c, prices, {i: labels[i] for i in mine})
+    return VillageFigures(
+        kit_counts, own, tuple(own_c), mods, units, array_w, batt_wh, tiers, totals
+    )
+
+
 def _village_result(
     w: _VillageWork,
     per_row: list[int],
@@ -1090,15 +1266,10 @@ def _village_result(
 ) -> VillageResult:
     v = w.village
     rows_out = []
-    kit_counts: dict[str, int] = {}
     own_rows: list[str] = []
     unmet: list[tuple[str, str]] = []
-    own = 0
-    cap = []
-    energy = []
-    weights = []
-    mods = units = 0
-    array_w = batt_wh = 0.0
+    mine: list[int] = []
+    seen: set[int] = set()
     for row, ui, ci in zip(w.inputs.survey.rows, w.index_of, per_row, strict=True):
         r = w.results[ui]
         if isinstance(r, RowRejected):
@@ -1113,58 +1284,18 @@ def _village_result(
         if ci < 0:
             rows_out.append((row.id, row.line, row.count, "not planned", ""))
             continue
+        if ci not in seen:
+            seen.add(ci)
+            mine.append(ci)
         a = assign[ci]
-        for text in r.cautions:
-            if text not in cautions:
-                cautions.append(text)
         if a.kit:
-            kit_counts[a.kit] = kit_counts.get(a.kit, 0) + row.count
             rows_out.append((row.id, row.line, row.count, "kit", a.kit))
-            parts = kit_parts[a.kit]
-            mods += row.count * parts.modules_series * parts.strings
-            units += row.count * parts.units_series * parts.units_parallel
-            array_w += row.count * parts.modules_series * parts.strings * parts.module_pmax_w
-            batt_wh += row.count * (
-                parts.units_series
-                * parts.units_parallel
-                * parts.battery_unit_v
-                * parts.battery_unit_ah
-            )
-            scale = min(parts.array_power_w / r.required_power_w, parts.nominal_wh / r.required_wh)
-            own_scale = min(r.array_power_w / r.required_power_w, r.nominal_wh / r.required_wh)
-            energy.append(r.appliance_energy_wh * max(1.0, scale / own_scale))
-            cap.append(parts.inverter_w + (r.peak_capacity_w - r.inverter_w))
         else:
-            own += row.count
             own_rows.append(row.id)
             rows_out.append((row.id, row.line, row.count, "own system", ""))
-            mods += row.count * r.module_count
-            units += row.count * r.unit_count
-            array_w += row.count * r.array_power_w
-            batt_wh += row.count * r.nominal_wh
-            energy.append(r.appliance_energy_wh)
-            cap.append(r.peak_capacity_w)
-        weights.append(row.count)
-    tiers = {t: 0 for t in TIER_NAMES}
-    if weights:
-        tier_idx = mtf2015_tier(np.asarray(cap), np.asarray(energy))
-        for t, n in zip(np.atleast_1d(tier_idx), weights, strict=True):
-            tiers[TIER_NAMES[int(t)]] += n
-    mine = {ci for ci in per_row if ci >= 0}
-    totals = None
-    if mine:
-        sub_c = [cands[ci] for ci in sorted(mine)]
-        kits_here = []
-        assignments = tuple(assign[ci] for ci in sorted(mine))
-        for _, st in standards:
-            for k in st.kits:
-                n = kit_counts.get(k.name, 0)
-                if n:
-                    kits_here.append(replace(k, systems=n))
-        view = replace(
-            standards[0][1], kits=tuple(kits_here), assignments=assignments, kit_type_cost=0.0
-        )
-        totals = procurement_totals(view, sub_c, prices, {i: labels[i] for i in mine})
+    fig = village_figures(mine, cands, assign, kit_parts, standards, prices, labels, cautions)
+    kit_counts, own, tiers, totals = fig.kit_counts, fig.own, fig.tiers, fig.totals
+    mods, units, array_w, batt_wh = fig.modules, fig.battery_units, fig.array_w, fig.battery_wh
     designs = {
         id(w.results[i]) for i in range(len(w.unique)) if not isinstance(w.results[i], RowRejected)
     }

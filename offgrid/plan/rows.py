@@ -138,6 +138,85 @@ def compact(design, pool: dict):
     return replace(design, **parts)
 
 
+#: The fields of a design that many designs repeat (text and tuples), kept once each in
+#: a design table.
+_SHARED_FIELDS = tuple(
+    f.name for f in dataclasses.fields(RowDesign) if f.type.startswith(("str", "tuple"))
+)
+
+
+class DesignTable:
+    """Designs as plain JSON data, compact: each design one list of its fields in the
+    order of ``fields``, the repeated tuples (cables, devices, warnings, cautions, family)
+    once each in ``shared`` and named by their index.  Every number as it is (never
+    rounded: a merge of plans chooses kits again from these and must get what the whole
+    programme got).  Read back by :func:`designs_from_data`."""
+
+    fields = tuple(f.name for f in dataclasses.fields(RowDesign))
+
+    def __init__(self) -> None:
+        self.rows: list[list] = []
+        self._index: dict[RowDesign, int] = {}
+        self._shared: dict[str, tuple[list, dict]] = {k: ([], {}) for k in _SHARED_FIELDS}
+
+    def add(self, d: RowDesign) -> int:
+        """The index of ``d`` in the table (equal records are kept once)."""
+        i = self._index.get(d)
+        if i is not None:
+            return i
+        row = []
+        for name in self.fields:
+            value = getattr(d, name)
+            if name in self._shared:
+                values, index = self._shared[name]
+                j = index.get(value)
+                if j is None:
+                    j = index[value] = len(values)
+                    values.append(_plain_tuple(name, value))
+                value = j
+            row.append(value)
+        self._index[d] = len(self.rows)
+        self.rows.append(row)
+        return self._index[d]
+
+    def data(self) -> dict:
+        return {
+            "fields": list(self.fields),
+            "shared": {k: v for k, (v, _) in self._shared.items()},
+            "rows": self.rows,
+        }
+
+
+def _plain_tuple(name: str, value: tuple | str) -> list | str:
+    if name in ("cables", "devices"):
+        return [list(dataclasses.astuple(x)) for x in value]
+    return value if isinstance(value, str) else list(value)
+
+
+def designs_from_data(data: dict) -> list[RowDesign]:
+    """The designs of a :class:`DesignTable`'s data (JSON keeps ints and floats apart, so
+    each record equals the one written, field for field); raises KeyError, IndexError,
+    TypeError or ValueError when the data is malformed."""
+    fields = list(data["fields"])
+    if fields != list(DesignTable.fields):
+        raise ValueError(f"the designs' fields differ from this offgrid's: {fields}")
+    shared = {}
+    for name in _SHARED_FIELDS:
+        if name == "cables":
+            shared[name] = [tuple(Cable(*c) for c in v) for v in data["shared"][name]]
+        elif name == "devices":
+            shared[name] = [tuple(Protection(*c) for c in v) for v in data["shared"][name]]
+        else:
+            shared[name] = [tuple(v) if isinstance(v, list) else v for v in data["shared"][name]]
+    out = []
+    for row in data["rows"]:
+        values = dict(zip(fields, row, strict=True))
+        for name in _SHARED_FIELDS:
+            values[name] = shared[name][values[name]]
+        out.append(RowDesign(**values))
+    return out
+
+
 @dataclass(frozen=True)
 class RowFailure:
     code: str
