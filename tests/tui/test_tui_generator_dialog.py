@@ -31,7 +31,11 @@ async def _wait_done(pilot, dialog, seconds: float = 60.0) -> None:
     assert dialog.done, "the study did not finish"
 
 
-async def test_palette_opens_the_dialog_and_the_study_fills_in(state):
+async def test_palette_opens_the_dialog_and_the_study_fills_in(state, monkeypatch):
+    import threading
+
+    release = threading.Event()  # the study ends once the test has seen it running
+    short_generator_study(monkeypatch, release)
     app = make_app(hybrid_demo_path(), state=state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
@@ -48,6 +52,7 @@ async def test_palette_opens_the_dialog_and_the_study_fills_in(state):
         assert "Generator beside the sun" in text
         assert "Derated output" in text and "Fuel line" in text and "Check:" in text
         assert "Simulating" in text  # the study is still running in its worker
+        release.set()
         await _wait_done(pilot, dialog)
         study = str(dialog.query_one("#generator-study").content)
         assert "run hours" in study and "L/yr" in study and "Cheapest mix" in study
