@@ -22,9 +22,10 @@ the three runs below that logged it):
   (its fixed 0.5 s pause caught the Options section mid-redraw).
 - main's code with offgrid's caches left by an earlier run, load 2.2-5.7: 304 s wall,
   291 s CPU; collection 5.2-5.4 s of CPU in each of the 3 workers.
-- after: branch suite at 521901a (everything but the palette test's short study,
-  -3.5 s CPU more), a tree without caches, load 1.9 at the start and 5.0 at the end:
-  347 s wall, 323 s CPU (312 user + 11 system), 1372 passed; collection 4.9-5.3 s of CPU
+- after: branch suite at 521901a (before the palette test's short study, which saves
+  5 s of CPU more), a tree without caches, load 1.9 at the start and 5.0 at the end:
+  347 s wall, 323 s CPU (312 user + 11 system), 1372 passed, 2 failed (ruff on this
+  file, being written during the run; fixed); collection 4.9-5.3 s of CPU
   per worker (cold caches written as they went); golden fixture 5.94 s (+25 % against
   the runs before: the load). The three workers ended within 1.2 s of each other (no
   tail to steal: ``--dist worksteal`` has nothing to win here).
