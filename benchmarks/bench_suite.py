@@ -31,7 +31,9 @@ the three runs below that logged it):
   tail to steal: ``--dist worksteal`` has nothing to win here).
 - single files, -n0, load about 4.5: test_fuzz_design 9.8 -> 5.4 s CPU (the same 150
   examples); the generator dialog tests 4.6 -> 1.2 s (closing), 4.9 -> 1.2 s (the form's
-  e key), 6.9 -> 1.9 s (palette); the tmux notices test 26.7 s (quiet) -> 12.8-15.4 s
+  e key), 6.9 -> 1.9 s (palette, after the whole run above); the deference-to-code test
+  1.7 -> 0.55 s (in this process); test_tui_parts_catalogue 3.0 -> 2.2 s and
+  test_tui_navigation 6.4 -> 5.8 s (demo_pilot); the tmux notices test 26.7 s (quiet) -> 12.8-15.4 s
   wall at a load of 3-5; collecting the suite 8.9 -> 3.1 s CPU per process with the
   test modules' caches; the CLI and report test files 33.0 -> 24.0 s CPU with
   offgrid's caches.
