@@ -81,6 +81,25 @@ EditBar { border-top: ascii $accent; }
 """
 
 
+#: Set (a positive number of seconds) to make every notice last that long instead of its own
+#: time: tests that wait for notices to go set it; unset, each notice keeps its time.
+NOTICE_SECONDS_ENV = "OFFGRID_NOTICE_SECONDS"
+
+
+def notice_seconds(asked: float | None, env=None) -> float | None:
+    """How long a notice stays [s]: ``$OFFGRID_NOTICE_SECONDS`` if it is a positive finite
+    number, else ``asked`` (``None``: Textual's default)."""
+    import math
+    import os
+
+    text = (os.environ if env is None else env).get(NOTICE_SECONDS_ENV, "")
+    try:
+        seconds = float(text)
+    except ValueError:
+        return asked
+    return seconds if math.isfinite(seconds) and seconds > 0 else asked
+
+
 def suggested_name(title: str) -> str:
     slug = re.sub(r"[^A-Za-z0-9]+", "-", title).strip("-").lower()
     return (slug or "project")[:48] + ".toml"
@@ -205,6 +224,23 @@ class OffgridApp(App):
             return await super().run_async(*args, auto_pilot=auto_pilot, **kwargs)
         finally:
             release_engine_memo()  # the engine's memo lives as long as the app
+
+    def notify(
+        self,
+        message: str,
+        *,
+        title: str = "",
+        severity="information",
+        timeout: float | None = None,
+        markup: bool = True,
+    ) -> None:
+        super().notify(
+            message,
+            title=title,
+            severity=severity,
+            timeout=notice_seconds(timeout),
+            markup=markup,
+        )
 
     async def on_event(self, event: events.Event) -> None:
         # On the work screen each key is handled to the end before the next one

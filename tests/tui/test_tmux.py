@@ -45,7 +45,13 @@ class Terminal:
             raise AssertionError(f"tmux {' '.join(args)}: {proc.stderr}")
         return proc.stdout
 
-    def start(self, *argv: str, term: str = "xterm-256color", no_color: bool = False) -> None:
+    def start(
+        self,
+        *argv: str,
+        term: str = "xterm-256color",
+        no_color: bool = False,
+        notice_s: float | None = None,
+    ) -> None:
         env = {
             "TERM": term,
             "OFFGRID_STATE_DIR": str(self.state),
@@ -57,6 +63,8 @@ class Terminal:
         }
         if no_color:
             env["NO_COLOR"] = "1"
+        if notice_s is not None:  # every notice lasts this long (offgrid.tui.app.notice_seconds)
+            env["OFFGRID_NOTICE_SECONDS"] = str(notice_s)
         assign = " ".join(f"{k}='{v}'" for k, v in env.items())
         args = " ".join(f"'{a}'" for a in argv)
         command = f"cd '{self.cwd}' && exec env -i {assign} '{sys.executable}' -m offgrid {args}"
@@ -75,15 +83,42 @@ class Terminal:
     def screen(self) -> str:
         return self.tmux("capture-pane", "-t", "t", "-p", check=False)
 
-    def wait_for(self, *texts: str, timeout: float = 15.0) -> str:
+    def wait_for(self, *texts: str, timeout: float = 15.0, every_s: float = 0.1) -> str:
         end = time.monotonic() + timeout
         shown = ""
         while time.monotonic() < end:
             shown = self.screen()
             if all(t in shown for t in texts):
                 return shown
-            time.sleep(0.1)
+            time.sleep(every_s)
         raise AssertionError(f"never saw {texts!r} on screen:\n{shown}")
+
+    def wait_for_gone(self, text: str, timeout: float = 15.0) -> None:
+        end = time.monotonic() + timeout
+        while text in self.screen():
+            if time.monotonic() > end:
+                raise AssertionError(f"{text!r} still on screen after {timeout} s")
+            time.sleep(0.05)
+
+    def colours(self) -> str:
+        """The screen with its colours and attributes (escape sequences)."""
+        return self.tmux("capture-pane", "-t", "t", "-p", "-e")
+
+    def settled(self, *, absent: tuple[str, ...] = (), quiet_s: float = 0.3) -> str:
+        """The screen with colours once it has not changed for ``quiet_s`` and shows none of
+        ``absent`` (work in progress); fails after 15 s."""
+        end = time.monotonic() + 15.0
+        shown, since = self.colours(), time.monotonic()
+        while time.monotonic() < end:
+            time.sleep(0.05)
+            now = self.colours()
+            if now != shown:
+                shown, since = now, time.monotonic()
+                continue
+            busy = any(t in self.screen() for t in absent)
+            if time.monotonic() - since >= quiet_s and not busy:
+                return shown
+        raise AssertionError(f"the screen never settled:\n{self.screen()}")
 
     def hang_up(self) -> None:
         self.tmux("kill-server", check=False)
@@ -109,6 +144,15 @@ def terminal(tmp_path, request):
     yield make
     for t in made:
         t.hang_up()
+
+
+def running(pid: int) -> bool:
+    """Whether process ``pid`` is alive (an exited process not yet reaped is not)."""
+    try:
+        stat = Path(f"/proc/{pid}/stat").read_text()
+    except OSError:
+        return False
+    return stat.rsplit(")", 1)[1].split()[0] != "Z"
 
 
 def project_copy(tmp_path: Path) -> Path:
@@ -141,10 +185,14 @@ def test_edit_save_and_quit_in_a_real_terminal(terminal, tmp_path, term, no_colo
     import re
     import time
 
-    time.sleep(0.5)
-    footer = t.screen().rstrip("\n").splitlines()[-1]
-    keys_part = re.split(r"[\u258f|]\s*\^p", footer)[0].rstrip()
-    assert keys_part.endswith("w Why?"), footer
+    def keys_part() -> tuple[str, str]:
+        footer = t.screen().rstrip("\n").splitlines()[-1]
+        return re.split(r"[\u258f|]\s*\^p", footer)[0].rstrip(), footer
+
+    end = time.monotonic() + 5  # the key line is laid out once the screen has its size
+    while not (shown := keys_part())[0].endswith("w Why?") and time.monotonic() < end:
+        time.sleep(0.05)
+    assert shown[0].endswith("w Why?"), shown[1]
     t.keys("3")
     t.wait_for("Days of autonomy")
     t.keys("Down", "Enter")
@@ -176,13 +224,15 @@ def test_hang_up_then_recover_what_was_on_screen(terminal, tmp_path):
     t.type("Cold box [blue] 7")
     t.keys("Enter")
     t.wait_for("Cold box [blue] 7", "\u25cf unsaved")
+    pid = int(t.tmux("list-panes", "-t", "t", "-F", "#{pane_pid}").split()[0])
     t.hang_up()  # the terminal goes away, as when an SSH connection drops
     end = time.monotonic() + 10
     while not list((tmp_path / "state").glob("recovery-*.json")) and time.monotonic() < end:
         time.sleep(0.1)
     assert list((tmp_path / "state").glob("recovery-*.json")), "no recovery file written"
     assert load_project(target).loads[0].name != "Cold box [blue] 7"  # the file is untouched
-    time.sleep(0.5)  # the old process is gone
+    while running(pid) and time.monotonic() < end:
+        time.sleep(0.05)  # the old process is gone
     t2 = terminal("second")
     t2.start()
     t2.wait_for("Unsaved work was found", "clinic.toml")
@@ -249,21 +299,34 @@ def test_open_and_type_at_human_speed_then_kill_9(terminal, tmp_path):
 
 def test_nothing_left_on_screen_after_notifications(terminal, tmp_path):
     """A notification in every section comes and goes; the screen is then the same cell
-    for cell (colours included) as before it: nothing is left at the bottom-right."""
+    for cell (colours included) as before it: nothing is left at the bottom-right.
+
+    Every notice lasts 0.8 s here (``OFFGRID_NOTICE_SECONDS``) instead of its own 2 s: the
+    test waits for the screen, not for a clock."""
     t = terminal()
-    t.start(str(project_copy(tmp_path)), term="tmux-256color")
+    t.start(str(project_copy(tmp_path)), term="tmux-256color", notice_s=0.8)
     t.wait_for("Array 1,800 W")
-    for section in "12345678":
+    busy = ("keep working", "Working out the design")  # work in progress, not settled yet
+    shown = {  # a line of each section's own content, drawn after the section bar moves
+        "1": "Project name",
+        "2": "Appliance",
+        "3": "Design choices",
+        "4": "Array power installed",
+        "5": "cable runs",
+        "6": "Enter: go to",
+        "7": "Press g to test",
+        "8": "Base and 2 option(s)",
+    }
+    for section, text in shown.items():
         t.keys(section)
-        time.sleep(0.5)
-        before = t.tmux("capture-pane", "-t", "t", "-p", "-e")
+        t.wait_for(f"\u25b8{section} ", text)
+        before = t.settled(absent=busy)
         t.keys("u", "u")  # "Nothing to undo", twice: two toasts stacked
-        t.wait_for("Nothing to undo")
-        end = time.monotonic() + 10
-        while "Nothing to undo" in t.screen() and time.monotonic() < end:
-            time.sleep(0.2)
-        time.sleep(0.3)
-        after = t.tmux("capture-pane", "-t", "t", "-p", "-e")
+        t.wait_for("Nothing to undo", every_s=0.02)
+        t.wait_for_gone("Nothing to undo")
+        end = time.monotonic() + 3
+        while (after := t.colours()) != before and time.monotonic() < end:
+            time.sleep(0.05)
         assert after == before, f"section {section}: the screen changed after the toasts"
 
 

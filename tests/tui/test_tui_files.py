@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into
+from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into, wait_for
 
 from offgrid.design.sizing import design
 from offgrid.paths import demo_project_path
@@ -136,8 +136,7 @@ async def test_quit_without_saving_leaves_no_recovery(state, tmp_path):
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
         await edit_field(pilot, "parts", "choices.autonomy_days", "4")
-        await pilot.pause(0.3)
-        assert list(state.glob("recovery-*.json"))
+        await wait_for(pilot, lambda: list(state.glob("recovery-*.json")))  # the autosave
         await pilot.press("q", "d")
         await pilot.pause()
     assert not list(state.glob("recovery-*.json"))
@@ -155,8 +154,13 @@ async def test_autosave_and_recovery_restore_exactly_what_was_on_screen(state, t
         await pilot.press("a")
         await pilot.pause()
         await type_into(pilot, "Night [light] \x1b")
-        await pilot.pause(0.4)
         on_screen = app.session.text()
+
+        def saved() -> list:
+            files = list(state.glob("recovery-*.json"))
+            return files if files and json.loads(files[0].read_text())["text"] == on_screen else []
+
+        await wait_for(pilot, saved)  # the autosave has caught up with the last edit
         files = list(state.glob("recovery-*.json"))
         assert len(files) == 1
         assert json.loads(files[0].read_text())["text"] == on_screen

@@ -12,7 +12,7 @@ import re
 
 import pytest
 from textual.widgets import DataTable, Input
-from tui_helpers import screen_text, type_into, wait_for
+from tui_helpers import screen_text, short_generator_study, type_into, wait_for
 
 from offgrid.project.store import load_project
 from offgrid.tui.commands import key_groups, key_text
@@ -222,9 +222,10 @@ async def test_pump_datasheet_typed_as_points(demo_pilot):
     assert app.session.project.water[0].pump.head_points_m == [20.0, 40.0, 60.0]
 
 
-async def test_e_in_the_generator_dialog_opens_its_form(demo_pilot):
+async def test_e_in_the_generator_dialog_opens_its_form(demo_pilot, monkeypatch):
     from offgrid.tui.screens.generator import GeneratorDialog
 
+    short_generator_study(monkeypatch)  # the dialog starts its study; this test leaves it
     app = demo_pilot.app
     open_generator(app.work)
     await wait_for(demo_pilot, lambda: isinstance(app.screen, GeneratorForm))

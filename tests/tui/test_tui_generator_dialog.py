@@ -6,7 +6,7 @@ from __future__ import annotations
 import asyncio
 import copy
 
-from tui_helpers import SIZE, demo_app, screen_text
+from tui_helpers import SIZE, demo_app, screen_text, short_generator_study
 
 from offgrid.design.sizing import design
 from offgrid.generator.hybrid import generator_setup
@@ -31,7 +31,11 @@ async def _wait_done(pilot, dialog, seconds: float = 60.0) -> None:
     assert dialog.done, "the study did not finish"
 
 
-async def test_palette_opens_the_dialog_and_the_study_fills_in(state):
+async def test_palette_opens_the_dialog_and_the_study_fills_in(state, monkeypatch):
+    import threading
+
+    release = threading.Event()  # the study ends once the test has seen it running
+    short_generator_study(monkeypatch, release)
     app = make_app(hybrid_demo_path(), state=state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
@@ -48,6 +52,7 @@ async def test_palette_opens_the_dialog_and_the_study_fills_in(state):
         assert "Generator beside the sun" in text
         assert "Derated output" in text and "Fuel line" in text and "Check:" in text
         assert "Simulating" in text  # the study is still running in its worker
+        release.set()
         await _wait_done(pilot, dialog)
         study = str(dialog.query_one("#generator-study").content)
         assert "run hours" in study and "L/yr" in study and "Cheapest mix" in study
@@ -96,16 +101,23 @@ def test_lines_carry_the_engine_figures_and_fit_the_dialog():
     assert all(len(ln) <= 72 for ln in lines + more + tail), max(lines + more, key=len)
 
 
-async def test_closing_before_the_study_ends_is_harmless(state):
+async def test_closing_before_the_study_ends_is_harmless(state, monkeypatch):
+    import threading
+
+    release = threading.Event()  # the study ends only after the dialog is closed
+    short_generator_study(monkeypatch, release)
     app = make_app(hybrid_demo_path(), state=state)
     async with app.run_test(size=SIZE) as pilot:
         await pilot.pause()
         open_generator(app.work)
         await pilot.pause()
-        assert isinstance(app.screen, GeneratorDialog)
+        dialog = app.screen
+        assert isinstance(dialog, GeneratorDialog)
         await pilot.press("escape")
         await pilot.pause()
         assert not isinstance(app.screen, GeneratorDialog)
+        assert not dialog.done  # closed before the study ended
+        release.set()
         await app.workers.wait_for_complete()
         await pilot.pause()
         assert app.is_running and not isinstance(app.screen, GeneratorDialog)

@@ -843,7 +843,7 @@ async def test_risk_check_can_be_stopped(state, monkeypatch):
         risk = app.work.current
         assert risk.running
         await pilot.press("x")
-        await pilot.pause(0.3)
+        await wait_until(pilot, lambda: not risk.running, 5)  # stops within moments
         assert not risk.running and risk.result is None
         assert "Press g" in screen_text(app)
 
