@@ -328,7 +328,7 @@ class OffgridApp(App):
 
     # ------------------------------------------------------------------ messages
     def on_project_changed(self, message: messages.ProjectChanged) -> None:
-        self.project_changed()
+        self.project_changed(message.text)
 
     def on_save_asked(self, message: messages.SaveAsked) -> None:
         self.save_project(ask=message.ask)
@@ -681,19 +681,21 @@ class OffgridApp(App):
         self.push_screen(PlanScreen())
 
     # ------------------------------------------------------------------ recovery
-    def project_changed(self) -> None:
+    def project_changed(self, text: str | None = None) -> None:
         """Called after every applied edit: the recovery copy is handed to its writer thread.
 
-        The text is taken here (so it is exactly what is on screen); the writing is
-        done off the UI thread, and edits that come faster than writes are coalesced.
+        The text is taken here, or given by the work screen that made it for this edit
+        (so it is exactly what is on screen); the writing is done off the UI thread, and
+        edits that come faster than writes are coalesced.
         """
-        self.autosave()
+        self.autosave(text)
 
-    def autosave(self) -> None:
+    def autosave(self, text: str | None = None) -> None:
         session = self.session
         if session is None:
             return
-        text = session.text()
+        if text is None:
+            text = session.text()
         if text != session.baseline:
             self.recovery.submit(text, session.path, session.title, session.baseline)
             self.autosaves += 1

@@ -44,10 +44,12 @@ class FileBar(Static):
         if self._session is not None:
             self.show(self._session)
 
-    def show(self, session: Session) -> None:
+    def show(self, session: Session, text: str | None = None) -> None:
+        """``text``: the project as saved, if the caller has it (else it is made here)."""
         self._session = session
         width = max(20, self.size.width or 80) - 2
-        dirty = session.dirty  # (the project as text: a few ms, so once)
+        # (the project as text: a few ms, so once, or the caller's)
+        dirty = session.dirty if text is None else text != session.baseline
         marker = "  \u25cf unsaved" if dirty else ""
         if session.path is not None:
             where = str(session.path.name) + (" (new file)" if not session.path.exists() else "")
