@@ -66,3 +66,27 @@ async def test_the_shared_text_is_what_is_on_screen(demo_pilot):
     await edit_autonomy(demo_pilot, "3")  # back to the demo's own value: not unsaved
     assert app.session.text() == app.session.baseline
     assert "unsaved" not in str(app.work.query_one("#filebar").content)
+
+
+async def test_the_edit_box_opens_and_closes_without_restyling_it(demo_pilot, monkeypatch):
+    """Its own display style shows and hides it; a class made Textual apply the whole
+    stylesheet to the box and its children at each open and close (~3 ms each)."""
+    from offgrid.tui.widgets.editbar import EditBar
+
+    app = demo_pilot.app
+    await edit_autonomy(demo_pilot, "5")
+    bar = app.work.current.query_one(EditBar)
+    restyled: list[str] = []
+    original = app.stylesheet.update_nodes
+
+    def spy(nodes, *args, **kwargs):
+        nodes = list(nodes)
+        if bar in nodes:
+            restyled.append("edit box")
+        return original(nodes, *args, **kwargs)
+
+    monkeypatch.setattr(app.stylesheet, "update_nodes", spy)
+    await edit_autonomy(demo_pilot, "6")
+    assert not bar.is_open and bar.styles.display == "none"
+    assert app.session.project.choices.autonomy_days == 6.0
+    assert restyled == []
