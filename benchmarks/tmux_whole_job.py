@@ -16,6 +16,9 @@ screen. ``--from-demo`` starts from a copy of the demo project instead, with its
 climate (no months typed). Fields are reached through the command palette by their
 labels, as a person who knows the words would. Prints one line per run and the count
 of runs where every value came out exactly as typed.
+
+2 December 2026, ``--runs 3`` at 0.15 s a key (load 3.4-5 on the shared 2-core machine):
+3 of 3 runs kept every typed value exactly, 98-99 s a run (one run before that: the same).
 """
 
 from __future__ import annotations
