@@ -31,8 +31,11 @@ The full description is in docs/climate-format.md.
 
 from __future__ import annotations
 
+import copy
 import math
 import os
+import threading
+import time
 import tomllib
 from dataclasses import dataclass
 from pathlib import Path
@@ -417,13 +420,65 @@ def _flag(data: dict, key: str, where: str) -> bool:
     return v
 
 
-def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyClimate:
-    """Read a climate file by bundled name or path."""
-    from offgrid.textfile import TextFileError, read_text
+#: What :func:`load_climate` read, by the file's identity on disk (see ``_file_key``).
+_READ_CACHE: dict[tuple, MonthlyClimate] = {}
+_READ_CACHE_LIMIT = 32
+_READ_CACHE_LOCK = threading.Lock()  # designs run on worker threads too
 
-    path = resolve_climate(str(ref), base)
+
+def clear_climate_cache() -> None:
+    """Forget every climate file read (the next read of each goes to the disk)."""
+    with _READ_CACHE_LOCK:
+        _READ_CACHE.clear()
+
+
+#: A file changed less than this long ago is read every time: two writes within one tick
+#: of the file system's clock can leave the same times and size (as git's "racy" files).
+_SETTLED_NS = 2_000_000_000
+
+
+def _file_key(path: Path) -> tuple | None:
+    """The file as it is on disk now: resolved path, inode, modification and change times
+    in ns, size (any write, or a file put in its place, changes one of them); None when
+    it cannot be looked at or changed too recently to tell (``_SETTLED_NS``)."""
     try:
-        data = tomllib.loads(read_text(path, MAX_CLIMATE_BYTES).removeprefix("\ufeff"))
+        st = os.stat(path)
+    except OSError:
+        return None
+    if time.time_ns() - st.st_mtime_ns < _SETTLED_NS:
+        return None
+    return (str(path.resolve()), st.st_ino, st.st_mtime_ns, st.st_ctime_ns, st.st_size)
+
+
+def load_climate(ref: str | os.PathLike, base: Path | None = None) -> MonthlyClimate:
+    """Read a climate file by bundled name or path.
+
+    A file unchanged on disk since it was last read is not read and parsed again (the
+    text UI designs after every edit); each call returns a copy of its own, so a caller
+    may change it. A file that could not be read is never kept.
+    """
+    path = resolve_climate(str(ref), base)
+    key = _file_key(path)
+    with _READ_CACHE_LOCK:
+        kept = _READ_CACHE.get(key) if key is not None else None
+    if kept is not None:
+        return copy.deepcopy(kept)
+    climate = _read_climate(path)
+    if key is not None:
+        with _READ_CACHE_LOCK:
+            if len(_READ_CACHE) >= _READ_CACHE_LIMIT:
+                _READ_CACHE.pop(next(iter(_READ_CACHE)))  # the oldest read
+            _READ_CACHE[key] = copy.deepcopy(climate)
+    return climate
+
+
+def _read_climate(path: Path) -> MonthlyClimate:
+    """Read and check one climate file (no cache)."""
+    from offgrid import textfile
+    from offgrid.textfile import TextFileError
+
+    try:
+        data = tomllib.loads(textfile.read_text(path, MAX_CLIMATE_BYTES).removeprefix("\ufeff"))
     except TextFileError as exc:
         raise ClimateFileError(f"{path}: {exc}") from None
     except RecursionError:

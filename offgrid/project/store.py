@@ -16,6 +16,7 @@
 from __future__ import annotations
 
 import dataclasses
+import functools
 import os
 import re
 import tomllib
@@ -268,7 +269,7 @@ class _Reader:
         if not isinstance(data, dict):
             self.bad(path, "must be a table")
             return cls() if _all_defaults(cls) else None
-        hints = get_type_hints(cls)
+        hints = type_hints(cls)
         kwargs = {}
         known = {f.name for f in dataclasses.fields(cls)}
         for key in data:
@@ -283,6 +284,13 @@ class _Reader:
                 self.bad(f"{path}.{f.name}", "required field is missing")
                 kwargs[f.name] = self.convert(hints[f.name], _zero(hints[f.name]), path)
         return cls(**kwargs)
+
+
+@functools.cache
+def type_hints(cls: type) -> dict[str, Any]:
+    """The field types of dataclass ``cls`` (``get_type_hints``, evaluated once per class:
+    annotations do not change while the program runs). Read it, never change it."""
+    return get_type_hints(cls)
 
 
 def _short(value: Any) -> str:
@@ -438,7 +446,7 @@ def project_from_dict(
             "on the load: write run_m = LENGTH in its [[loads]] table instead",
         )
         return Project(), reader.problems
-    hints = get_type_hints(Project)
+    hints = type_hints(Project)
     kwargs: dict[str, Any] = {}
     extra: dict[str, Any] = {}
     for key, value in data.items():

@@ -4,8 +4,9 @@ from __future__ import annotations
 
 import contextlib
 import re
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from textual import events
 from textual.app import App, SystemCommand
@@ -14,12 +15,7 @@ from textual.screen import Screen
 from textual.theme import Theme
 
 from offgrid.tui import messages
-from offgrid.tui.commands import KeyGroup, binding_commands, key_groups
 from offgrid.tui.screens.dialogs import ConfirmDialog, MessageDialog, PathDialog
-from offgrid.tui.screens.generator import open_generator
-from offgrid.tui.screens.help import HelpDialog
-from offgrid.tui.screens.recover import RecoverDialog
-from offgrid.tui.screens.start import StartScreen
 from offgrid.tui.screens.work import WorkScreen
 from offgrid.tui.session import EditRejected, Session
 from offgrid.tui.state import (
@@ -32,6 +28,12 @@ from offgrid.tui.state import (
 )
 from offgrid.tui.text import plain_terminal, printable
 from offgrid.tui.widgets.bars import SECTIONS
+
+if TYPE_CHECKING:
+    from offgrid.tui.commands import KeyGroup
+
+# The start screen, the recovery, help and generator dialogs and the key lists are
+# imported where they are first shown: opening a project paints without them.
 
 AUTOSAVE_SECONDS = 0.0  # kept for callers; the recovery copy is written after every edit
 
@@ -274,12 +276,20 @@ class OffgridApp(App):
                 return screen
         return None
 
+    #: Called once the first screen is painted (``launch.run`` turns the garbage
+    #: collector back on there); None: nothing.
+    on_first_paint: Callable[[], object] | None = None
+
     def on_mount(self) -> None:
         if self.orphans:
+            from offgrid.tui.screens.recover import RecoverDialog
+
             self._first_screen()
             self.push_screen(RecoverDialog(self.orphans), self._recovery_answer)
         else:
             self._first_screen()
+        if self.on_first_paint is not None:
+            self.call_after_refresh(self.on_first_paint)
 
     def _first_screen(self) -> None:
         session = self.initial_session
@@ -293,9 +303,12 @@ class OffgridApp(App):
                     timeout=6,
                 )
             elif session.path is not None:
-                remember_project(session.path, self.state)
+                # After the first paint: the recent list is written with an fsync.
+                self.call_after_refresh(remember_project, session.path, self.state)
             self._tell_notes(session)
         else:
+            from offgrid.tui.screens.start import StartScreen
+
             self.push_screen(StartScreen(recent_projects(self.state)))
 
     def _tell_notes(self, session: Session) -> None:
@@ -364,7 +377,7 @@ class OffgridApp(App):
 
     # ------------------------------------------------------------------ messages
     def on_project_changed(self, message: messages.ProjectChanged) -> None:
-        self.project_changed()
+        self.project_changed(message.text)
 
     def on_save_asked(self, message: messages.SaveAsked) -> None:
         self.save_project(ask=message.ask)
@@ -449,6 +462,8 @@ class OffgridApp(App):
                 self.save_project(then=lambda: go("discard"))
                 return
             if answer == "discard":
+                from offgrid.tui.screens.start import StartScreen
+
                 self.recovery.clear()
                 self._last_session = None
                 self.switch_screen(StartScreen(recent_projects(self.state)))
@@ -717,19 +732,21 @@ class OffgridApp(App):
         self.push_screen(PlanScreen())
 
     # ------------------------------------------------------------------ recovery
-    def project_changed(self) -> None:
+    def project_changed(self, text: str | None = None) -> None:
         """Called after every applied edit: the recovery copy is handed to its writer thread.
 
-        The text is taken here (so it is exactly what is on screen); the writing is
-        done off the UI thread, and edits that come faster than writes are coalesced.
+        The text is taken here, or given by the work screen that made it for this edit
+        (so it is exactly what is on screen); the writing is done off the UI thread, and
+        edits that come faster than writes are coalesced.
         """
-        self.autosave()
+        self.autosave(text)
 
-    def autosave(self) -> None:
+    def autosave(self, text: str | None = None) -> None:
         session = self.session
         if session is None:
             return
-        text = session.text()
+        if text is None:
+            text = session.text()
         if text != session.baseline:
             self.recovery.submit(text, session.path, session.title, session.baseline)
             self.autosaves += 1
@@ -787,9 +804,13 @@ class OffgridApp(App):
 
     def help_groups(self) -> list[KeyGroup]:
         """Every key, from the bindings (offgrid.tui.commands); the palette reads the same."""
+        from offgrid.tui.commands import key_groups
+
         return key_groups(self, self.screen if self.is_running else None)
 
     def action_help(self) -> None:
+        from offgrid.tui.screens.help import HelpDialog
+
         work = self.work
         first = None
         about = ""
@@ -836,6 +857,9 @@ class OffgridApp(App):
     def get_system_commands(self, screen: Screen) -> Iterable[SystemCommand]:
         """Every key of the app and of ``screen`` (its sections too), from the bindings;
         then the fields and figures by their words, and the few commands with no key."""
+        from offgrid.tui.commands import binding_commands
+        from offgrid.tui.screens.generator import open_generator
+
         if isinstance(screen, WorkScreen):
             yield from self._field_commands(screen)
         yield from binding_commands(self, screen)

@@ -9,6 +9,7 @@ and so does a crash; the next start offers it.
 from __future__ import annotations
 
 import contextlib
+import gc
 import os
 import signal
 import sys
@@ -32,8 +33,24 @@ def _parse(argv: list[str]) -> tuple[str | None, bool] | str:
     return f"offgrid: cannot use {' '.join(argv)!r} here\n{USAGE}"
 
 
+def _collector_back_on() -> None:
+    """After the first paint: the garbage collector runs again (the cycles start-up left
+    are collected by its next passes, off the first paint's way)."""
+    gc.enable()
+
+
 def run(argv: list[str]) -> int:
     """Run the text UI; returns the process exit status."""
+    # Start-up allocates much and frees little (imports, the stylesheet, the first
+    # screen): the garbage collector's passes over it are off until the first paint.
+    gc.disable()
+    try:
+        return _run(argv)
+    finally:
+        gc.enable()
+
+
+def _run(argv: list[str]) -> int:
     from offgrid.safetext import visible
 
     parsed = _parse(list(argv))
@@ -52,6 +69,8 @@ def run(argv: list[str]) -> int:
             file=sys.stderr,
         )
         return 2
+
+    app.on_first_paint = _collector_back_on
 
     def hang_up(signum, _frame) -> None:
         try:

@@ -53,7 +53,15 @@ class RevealAsked(Message):
 
 # ---------------------------------------------------------------- work screen -> app
 class ProjectChanged(Message):
-    """The project on screen changed: the app hands a recovery copy to its writer."""
+    """The project on screen changed: the app hands a recovery copy to its writer.
+
+    ``text`` is the project as it would be saved, when the sender has made it already
+    (one serialisation an edit, shared with the file bar); None: the app makes it.
+    """
+
+    def __init__(self, text: str | None = None) -> None:
+        super().__init__()
+        self.text = text
 
 
 class SaveAsked(Message):

@@ -247,9 +247,12 @@ class WorkScreen(Screen):
     def current(self) -> Section:
         return self.query_one(f"#{self.section}", Section)
 
-    def refresh_all(self) -> None:
-        """Redraw the bars and the visible section; mark the others to redraw when shown."""
-        self.query_one(FileBar).show(self.session)
+    def refresh_all(self, text: str | None = None) -> None:
+        """Redraw the bars and the visible section; mark the others to redraw when shown.
+
+        ``text``: the project as saved, when the caller has made it (see :meth:`changed`).
+        """
+        self.query_one(FileBar).show(self.session, text)
         headline = self.query_one(Headline)
         if self.design_pending:
             headline.pending()  # never the figures of a design that is being replaced
@@ -268,9 +271,12 @@ class WorkScreen(Screen):
         """
         t0 = time.perf_counter()
         self.recompute_now()
-        self.refresh_all()
+        # The project as text once an edit (a few ms): the file bar's unsaved mark and
+        # the recovery copy share it.
+        text = self.session.text()
+        self.refresh_all(text)
         self.last_change_s = time.perf_counter() - t0
-        send(self, ProjectChanged())
+        send(self, ProjectChanged(text))
         if note and tell:
             self.app.notify(note, markup=False, timeout=4)
 

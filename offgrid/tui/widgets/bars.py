@@ -39,15 +39,20 @@ class FileBar(Static):
     """
 
     _session: Session | None = None
+    _text: str | None = None  # the project's text at the last show
 
     def on_resize(self) -> None:
-        if self._session is not None:
-            self.show(self._session)
+        if self._session is not None:  # a new width, the same project: its text again
+            self.show(self._session, self._text)
 
-    def show(self, session: Session) -> None:
+    def show(self, session: Session, text: str | None = None) -> None:
+        """``text``: the project as saved, if the caller has it (else it is made here)."""
         self._session = session
         width = max(20, self.size.width or 80) - 2
-        dirty = session.dirty  # (the project as text: a few ms, so once)
+        if text is None:
+            text = session.text()  # (a few ms, so once, or the caller's)
+        self._text = text
+        dirty = text != session.baseline
         marker = "  \u25cf unsaved" if dirty else ""
         if session.path is not None:
             where = str(session.path.name) + (" (new file)" if not session.path.exists() else "")

@@ -37,7 +37,6 @@ class EditBar(Vertical):
         border-top: solid $accent;
         padding: 0 1;
     }
-    EditBar.-open { display: block; }
     EditBar #edit-label { height: 1; text-style: bold; }
     EditBar Input { height: 1; border: none; padding: 0 1; background: $boost; }
     EditBar Input:focus { border: none; background: $boost; }
@@ -63,6 +62,9 @@ class EditBar(Vertical):
         super().__init__(**kwargs)
         self._apply: Apply | None = None
         self._back: Widget | None = None
+        # Shown or hidden by its own style alone: a class (``-open``) made Textual apply
+        # the whole stylesheet to the bar and its three children at every open and close.
+        self._open = False
 
     def compose(self) -> ComposeResult:
         yield Static(id="edit-label")
@@ -71,7 +73,7 @@ class EditBar(Vertical):
 
     @property
     def is_open(self) -> bool:
-        return self.has_class("-open")
+        return self._open
 
     @property
     def input(self) -> Input:
@@ -90,8 +92,8 @@ class EditBar(Vertical):
             )
         )
         self._say(hint, bad=False)
-        self.add_class("-open")
-        self.styles.display = "block"  # at once: the class takes effect at the next refresh
+        self._open = True
+        self.styles.display = "block"
         box = self.input
         box.value = text
         box.selection = Selection(0, len(text))
@@ -123,7 +125,7 @@ class EditBar(Vertical):
         self.close()
 
     def close(self) -> None:
-        self.remove_class("-open")
+        self._open = False
         self.styles.display = "none"
         self._apply = None
         back, self._back = self._back, None
