@@ -23,11 +23,12 @@ from offgrid.project.model import (
 
 
 def pytest_xdist_auto_num_workers(config) -> int:
-    """Workers for ``-n auto``: one more than the processors (at least 3). Many UI tests
-    wait on a terminal or a worker thread, so a third worker on two cores overlaps those
-    waits with other tests: the whole suite took 211 s with 2 workers and 169 s with 3 on
-    the 2-core machine (2 Dec 2026, quiet)."""
-    return max(3, (os.cpu_count() or 1) + 1)
+    """Workers for ``-n auto``: two more than the processors (at least 4). Many UI tests
+    wait on a terminal or a worker thread, so extra workers on two cores overlap those
+    waits with other tests: on the quiet 2-core machine (2 Dec 2026) the whole suite took
+    211 s with 2 workers, 169 s with 3 (1,361 tests), and with 1,448 tests 183 s with 3
+    against 169 s with 4 (CPU 312 and 306 s: the fourth fills the waits)."""
+    return max(4, (os.cpu_count() or 1) + 2)
 
 
 def pytest_configure(config) -> None:
