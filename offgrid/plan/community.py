@@ -178,6 +178,25 @@ def _plain(value: Any) -> Any:
     return value
 
 
+def kit_options(
+    objective: str | None, kits: int | None, kit_type_cost: float | None, prices
+) -> tuple[str, int | None, float | None]:
+    """The objective, the number of kits and the kit type's cost as the kits are chosen:
+    cost with a price list, else oversize; the price list's kit type cost unless one is
+    given; ``DEFAULT_KITS`` kits when neither a number nor a cost is given."""
+    objective = objective or ("cost" if prices is not None else "oversize")
+    if (
+        kit_type_cost is None
+        and objective == "cost"
+        and prices is not None
+        and prices.has("kit_type")
+    ):
+        kit_type_cost = prices.optional("kit_type")
+    if kits is None and kit_type_cost is None:
+        kits = DEFAULT_KITS
+    return objective, kits, kit_type_cost
+
+
 def resolve_prices(
     survey: Survey, prices: PriceList | str | None, inputs: PlanInputs | None = None
 ) -> PriceList | None:
@@ -248,16 +267,7 @@ def plan_community(
     """
     inputs = prepare(survey, climate=climate, energy_step_pct=energy_step_pct)
     price_list = resolve_prices(survey, prices, inputs)
-    objective = objective or ("cost" if price_list is not None else "oversize")
-    if (
-        kit_type_cost is None
-        and objective == "cost"
-        and price_list is not None
-        and price_list.has("kit_type")
-    ):
-        kit_type_cost = price_list.optional("kit_type")
-    if kits is None and kit_type_cost is None:
-        kits = DEFAULT_KITS
+    objective, kits, kit_type_cost = kit_options(objective, kits, kit_type_cost, price_list)
     designed = design_rows(inputs, jobs=default_jobs() if jobs is None else jobs)
     return assemble(inputs, designed, price_list, objective, kits, kit_type_cost, k_max, curve_to)
 

@@ -173,7 +173,7 @@ def _merge_choosing(
     programme's own code (:func:`offgrid.plan.programme.choose_kits`,
     :func:`~offgrid.plan.programme.village_figures`), the totals summed again."""
     from offgrid.design.cautions import DEFERS_TO_CODE
-    from offgrid.plan.community import _plain
+    from offgrid.plan.community import _plain, kit_options
     from offgrid.plan.kits import Candidate
     from offgrid.plan.programme import (
         MTF_EDITION,
@@ -181,7 +181,6 @@ def _merge_choosing(
         TIER_NAMES,
         _sum_totals,
         choose_kits,
-        kit_options,
         price_list_from_data,
         village_figures,
     )

@@ -34,6 +34,7 @@ from offgrid.design.cautions import DEFERS_TO_CODE
 from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan import survey as sv
+from offgrid.plan.community import kit_options
 from offgrid.plan.kits import Candidate, PlanError, Standardisation, standardise
 from offgrid.plan.prices import PriceList, PriceListError, load_prices
 from offgrid.plan.rows import (
@@ -1057,25 +1058,6 @@ def plan_programme(
         price_list,
         tuple(cand_label),
     )
-
-
-def kit_options(
-    objective: str | None, kits: int | None, kit_type_cost: float | None, prices
-) -> tuple[str, int | None, float | None]:
-    """The objective, the number of kits and the kit type's cost as the kits are chosen:
-    cost with a price list, else oversize; the price list's kit type cost unless one is
-    given; 3 kits when neither a number nor a cost is given."""
-    objective = objective or ("cost" if prices is not None else "oversize")
-    if (
-        kit_type_cost is None
-        and objective == "cost"
-        and prices is not None
-        and prices.has("kit_type")
-    ):
-        kit_type_cost = prices.optional("kit_type")
-    if kits is None and kit_type_cost is None:
-        kits = 3
-    return objective, kits, kit_type_cost
 
 
 def choose_kits(

@@ -10,27 +10,13 @@ twice gives.
 from __future__ import annotations
 
 import pytest
-from tui_helpers import type_into, wait_for
+from tui_helpers import edit_autonomy
 
 from offgrid.project import store
 from offgrid.tui import session as session_module
 from offgrid.tui.state import read_recovery
-from offgrid.tui.widgets.fieldtable import FieldTable
 
 pytestmark = pytest.mark.asyncio(loop_scope="module")
-
-
-async def edit_autonomy(pilot, days: str) -> None:
-    work = pilot.app.work
-    work.action_goto("parts")
-    await pilot.pause()
-    assert work.current.reveal("choices.autonomy_days")
-    await pilot.pause()
-    await pilot.press("enter")
-    await type_into(pilot, days)
-    table = work.current.query_one(FieldTable)
-    await wait_for(pilot, lambda: pilot.app.focused is table)
-    await pilot.pause()
 
 
 @pytest.fixture

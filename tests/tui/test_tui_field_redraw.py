@@ -10,7 +10,7 @@ must give what rendering afresh gives.
 from __future__ import annotations
 
 import pytest
-from tui_helpers import type_into, wait_for
+from tui_helpers import edit_autonomy
 
 from offgrid.tui.widgets.fieldtable import FieldTable
 
@@ -23,20 +23,6 @@ def drawn(table: FieldTable) -> list[tuple]:
         tuple((seg.text, str(seg.style)) for seg in table.render_line(y))
         for y in range(table.size.height)
     ]
-
-
-async def edit_autonomy(pilot, days: str) -> FieldTable:
-    work = pilot.app.work
-    work.action_goto("parts")
-    await pilot.pause()
-    assert work.current.reveal("choices.autonomy_days")
-    await pilot.pause()
-    await pilot.press("enter")
-    await type_into(pilot, days)
-    table = work.current.query_one(FieldTable)
-    await wait_for(pilot, lambda: pilot.app.focused is table)
-    await pilot.pause()
-    return table
 
 
 async def test_an_edit_draws_what_a_full_redraw_draws(demo_pilot):

@@ -46,6 +46,24 @@ async def edit_field(pilot, section: str, path: str, text: str) -> None:
     await type_into(pilot, text)
 
 
+async def edit_autonomy(pilot, days: str):
+    """Edit the days of autonomy in Parts to ``days`` and wait until the field table has
+    the focus again (the edit applied); returns that table."""
+    from offgrid.tui.widgets.fieldtable import FieldTable
+
+    work = pilot.app.work
+    work.action_goto("parts")
+    await pilot.pause()
+    assert work.current.reveal("choices.autonomy_days")
+    await pilot.pause()
+    await pilot.press("enter")
+    await type_into(pilot, days)
+    table = work.current.query_one(FieldTable)
+    await wait_for(pilot, lambda: pilot.app.focused is table)
+    await pilot.pause()
+    return table
+
+
 async def wait_for(pilot, condition, timeout_s: float = 10.0) -> None:
     """Pause until ``condition()`` holds (a busy machine paints late); fail after the timeout."""
     import time
