@@ -53,6 +53,17 @@ def has_designs(doc: dict) -> bool:
     return doc.get("schema") == 2 and isinstance(doc.get("design_table"), dict)
 
 
+def _claim(where: dict[str, str], village_id: str, name: str) -> None:
+    """Note that plan ``name`` holds ``village_id``; refuse a village in two plans."""
+    if village_id in where:
+        raise MergeError(
+            f"village '{village_id}' is in both {where[village_id]} and {name}: a "
+            "programme splits by village, each village planned on one machine only; "
+            "plan it in one part and leave it out of the other"
+        )
+    where[village_id] = name
+
+
 def merge_plans(
     plans: list[tuple[str, dict]], kits: int | None = None, kit_type_cost: float | None = None
 ) -> dict:
@@ -92,13 +103,7 @@ def merge_plans(
     villages: list[dict] = []
     for name, doc in plans:
         for v in doc["villages"]:
-            if v["id"] in where:
-                raise MergeError(
-                    f"village '{v['id']}' is in both {where[v['id']]} and {name}: a "
-                    "programme splits by village, each village planned on one machine only; "
-                    "plan it in one part and leave it out of the other"
-                )
-            where[v["id"]] = name
+            _claim(where, v["id"], name)
             villages.append(v)
     kits: dict[tuple[str, str], dict] = {}
     kit_file: dict[tuple[str, str], str] = {}
@@ -218,13 +223,7 @@ def _merge_choosing(
                 "offgrid plan PROGRAMME.csv --json"
             ) from exc
         for v in doc["villages"]:
-            if v["id"] in where:
-                raise MergeError(
-                    f"village '{v['id']}' is in both {where[v['id']]} and {name}: a "
-                    "programme splits by village, each village planned on one machine "
-                    "only; plan it in one part and leave it out of the other"
-                )
-            where[v["id"]] = name
+            _claim(where, v["id"], name)
             entries.append((v["line"], pi, v, designs))
     entries.sort(key=lambda e: (e[0], e[1]))
     cands: list = []
