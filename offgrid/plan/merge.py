@@ -180,13 +180,13 @@ def _merge_choosing(
     from offgrid.design.cautions import DEFERS_TO_CODE
     from offgrid.plan.community import _plain, kit_options
     from offgrid.plan.kits import Candidate
+    from offgrid.plan.prices import price_list_from_data
     from offgrid.plan.programme import (
         MTF_EDITION,
         PLAN_SCHEMA,
         TIER_NAMES,
         _sum_totals,
         choose_kits,
-        price_list_from_data,
         village_figures,
     )
     from offgrid.plan.rows import DesignTable, designs_from_data

@@ -148,6 +148,36 @@ class PriceList:
         return f"{unit:g} {self.currency} {per}"
 
 
+def price_list_data(prices: PriceList | None) -> dict | None:
+    """A price list as plain JSON data (read back by :func:`price_list_from_data`)."""
+    if prices is None:
+        return None
+    return {
+        "entries": {k: list(v) for k, v in prices.entries.items()},
+        "currency": prices.currency,
+        "source": prices.source,
+        "demo": prices.demo,
+        "notes": dict(prices.notes),
+        "parts": [[p.part, p.unit_price, p.note] for p in prices.parts],
+    }
+
+
+def price_list_from_data(data: dict | None) -> PriceList | None:
+    """The price list of :func:`price_list_data`'s data (a plan JSON's ``price_list``)."""
+    from offgrid.project.model import PriceItem
+
+    if data is None:
+        return None
+    return PriceList(
+        {k: (v[0], v[1]) for k, v in data["entries"].items()},
+        data["currency"],
+        data["source"],
+        data["demo"],
+        dict(data["notes"]),
+        tuple(PriceItem(*p) for p in data["parts"]),
+    )
+
+
 def from_part_prices(items, currency: str, source: str) -> PriceList:
     """A price list of per-part prices only (the report's ``part, unit_price`` format)."""
     return PriceList({}, currency, source, "demo" in source.lower(), {}, tuple(items))

@@ -36,7 +36,7 @@ from offgrid.paths import load_profiles_dir
 from offgrid.plan import survey as sv
 from offgrid.plan.community import kit_options
 from offgrid.plan.kits import Candidate, PlanError, Standardisation, standardise
-from offgrid.plan.prices import PriceList, PriceListError, load_prices
+from offgrid.plan.prices import PriceList, PriceListError, load_prices, price_list_data
 from offgrid.plan.rows import (
     DEFAULT_ENERGY_STEP_PCT,
     PARALLEL_MIN_DESIGNS,
@@ -652,35 +652,6 @@ class ProgrammePlan:
 #: 2: the distinct designs (``designs``, each village's ``candidates``), the planning
 #: options and the price list, so that a merge of plans chooses the kits again.
 PLAN_SCHEMA = 2
-
-
-def price_list_data(prices: PriceList | None) -> dict | None:
-    """A price list as plain JSON data (read back by :func:`price_list_from_data`)."""
-    if prices is None:
-        return None
-    return {
-        "entries": {k: list(v) for k, v in prices.entries.items()},
-        "currency": prices.currency,
-        "source": prices.source,
-        "demo": prices.demo,
-        "notes": dict(prices.notes),
-        "parts": [[p.part, p.unit_price, p.note] for p in prices.parts],
-    }
-
-
-def price_list_from_data(data: dict | None) -> PriceList | None:
-    from offgrid.project.model import PriceItem
-
-    if data is None:
-        return None
-    return PriceList(
-        {k: (v[0], v[1]) for k, v in data["entries"].items()},
-        data["currency"],
-        data["source"],
-        data["demo"],
-        dict(data["notes"]),
-        tuple(PriceItem(*p) for p in data["parts"]),
-    )
 
 
 # --------------------------------------------------------------------- planning
