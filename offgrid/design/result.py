@@ -59,9 +59,13 @@ def fmt(value: float | int | str, unit: str = "", digits: int = 3) -> str:
         if v == 0 or not math.isfinite(v):
             text = f"{v:g}"
         else:
-            mag = math.floor(math.log10(abs(v)))
+            # Round to the significant digits first: a hair under a power of ten (or
+            # rounding up across one) must not print one digit more ("100.0").
+            # Whole numbers keep all their digits ("1234 W").
+            r = float(f"{v:.{digits}g}")
+            mag = math.floor(math.log10(abs(r)))
             dec = max(0, digits - 1 - mag)
-            text = f"{v:.{dec}f}"
+            text = f"{v:.0f}" if dec == 0 else f"{r:.{dec}f}"
     return f"{text} {unit}".strip()
 
 

@@ -35,6 +35,12 @@ class NoonStep:
     reasons: dict[str, Reason]
 
 
+def _fit_error(error_pct: float) -> str:
+    """A fit error to 0.001 % (the fit's tolerance is 0.5 %): float noise of ~1e-14 %
+    reads 0, the same on every processor."""
+    return fmt(round(float(error_pct), 3) + 0.0, "%")
+
+
 def module_fit_step(module: ModuleSpec, params: DiodeParams) -> FitStep:
     """The fit's reason (its STC errors) and the datasheet's consistency warnings."""
     rb = ReasonBook()
@@ -47,10 +53,10 @@ def module_fit_step(module: ModuleSpec, params: DiodeParams) -> FitStep:
         "single-diode model fitted to the datasheet; reproduces Vmp, Imp, Voc, "
         "Isc at STC within 0.5 %",
         params.method,
-        vmp_error=fmt(params.stc_error_pct[0], "%"),
-        imp_error=fmt(params.stc_error_pct[1], "%"),
-        voc_error=fmt(params.stc_error_pct[2], "%"),
-        isc_error=fmt(params.stc_error_pct[3], "%"),
+        vmp_error=_fit_error(params.stc_error_pct[0]),
+        imp_error=_fit_error(params.stc_error_pct[1]),
+        voc_error=_fit_error(params.stc_error_pct[2]),
+        isc_error=_fit_error(params.stc_error_pct[3]),
     )
     return FitStep(rb.freeze(), tuple(notices))
 
