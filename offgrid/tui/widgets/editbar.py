@@ -23,8 +23,14 @@ from textual.widgets._input import Selection
 
 from offgrid.tui.keys import focus_now
 from offgrid.tui.text import literal
+from offgrid.tui.widgets.restyle import RestyleMemo
 
 Apply = Callable[[str], str | None]
+
+
+class EditInput(RestyleMemo, Input):
+    """The edit box's line: focused at every open and blurred at every close, restyled
+    from the memo of its two states (see :mod:`offgrid.tui.widgets.restyle`)."""
 
 
 class EditBar(Vertical):
@@ -68,7 +74,7 @@ class EditBar(Vertical):
 
     def compose(self) -> ComposeResult:
         yield Static(id="edit-label")
-        yield Input(id="edit-input", select_on_focus=False)
+        yield EditInput(id="edit-input", select_on_focus=False)
         yield Static(id="edit-message")
 
     @property
