@@ -195,9 +195,10 @@ class WorkScreen(Screen):
         project, base = copy.deepcopy(session.project), session.base_dir
         self.design_pending = True
         self.query_one(Headline).pending()
+        waiting = session.untyped_outcome()  # months still to type: no design on them
 
         def work() -> None:
-            out = compute_outcome(project, base)
+            out = waiting or compute_outcome(project, base)
             with contextlib.suppress(RuntimeError):  # the app has ended meanwhile
                 self.app.call_from_thread(self._design_done, seq, session, out, then)
 

@@ -100,6 +100,7 @@ class EditBar(Vertical):
         self._say(hint, bad=False)
         self._open = True
         self.styles.display = "block"
+        self._lift_notices(True)
         box = self.input
         box.value = text
         box.selection = Selection(0, len(text))
@@ -130,9 +131,33 @@ class EditBar(Vertical):
     def action_cancel(self) -> None:
         self.close()
 
+    def on_resize(self) -> None:
+        if self._open:
+            self._lift_notices(True)
+
+    def _lift_notices(self, up: bool) -> None:
+        """Notices (toasts, bottom right above the key line) go above the open edit box, so
+        none covers what is being typed or its hint; back down when it closes."""
+        from textual.widgets._toast import ToastRack
+
+        # the box's lines (the border, label, input, hint) until it is laid out
+        height = self.outer_size.height or 4 + self._message_lines
+        for rack in self.screen.query(ToastRack):
+            if up:
+                rack.styles.margin = (0, 0, 1 + height, 0)  # (1: the key line)
+            else:
+                rack.styles.clear_rule("margin")
+
+    @property
+    def _message_lines(self) -> int:
+        msg = self.query_one("#edit-message", Static)
+        room = max(10, (self.size.width or self.screen.size.width) - 2)
+        return min(3, max(1, -(-len(str(msg.content)) // room)))
+
     def close(self) -> None:
         self._open = False
         self.styles.display = "none"
+        self._lift_notices(False)
         self._apply = None
         back, self._back = self._back, None
         if back is not None and back.is_attached:
