@@ -140,9 +140,12 @@ class EditBar(Vertical):
         none covers what is being typed or its hint; back down when it closes."""
         from textual.widgets._toast import ToastRack
 
+        if self.app._disable_notifications:
+            return
         # the box's lines (the border, label, input, hint) until it is laid out
         height = self.outer_size.height or 4 + self._message_lines
-        for rack in self.screen.query(ToastRack):
+        # (the screen's own child: a query would walk every section's widgets)
+        for rack in self.screen.query_children(ToastRack):
             if up:
                 rack.styles.margin = (0, 0, 1 + height, 0)  # (1: the key line)
             else:
