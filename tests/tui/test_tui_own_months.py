@@ -152,3 +152,16 @@ async def test_saving_with_months_still_to_type_says_so(state, tmp_path):
         await pilot.pause()
         said = [n.message for n in app._notifications]
         assert any("still to type" in m and "sun Jan-Dec" in m for m in said), said
+
+
+async def test_m_on_months_already_your_own_says_so(state):
+    app = make_app(state=state)
+    async with app.run_test(size=SIZE, notifications=True) as pilot:
+        await pilot.pause()
+        work = await start_blank(pilot)
+        app.clear_notifications()
+        await pilot.press("m")  # the months are the project's own already
+        await pilot.pause()
+        said = [n.message for n in app._notifications]
+        assert said and "already" in said[-1], said
+        assert work.current.months.has_focus

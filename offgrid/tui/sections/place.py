@@ -646,6 +646,10 @@ class PlaceSection(Section):
         )
 
     def action_own_months(self) -> None:
+        if self.session.project.climate.inline is not None:
+            self.app.notify("These twelve months are your own already: Enter edits one.")
+            focus_now(self.months)
+            return
         self._fresh = False
         try:
             self.session.change(self._make_own, focus="climate")
