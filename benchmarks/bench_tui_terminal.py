@@ -40,6 +40,38 @@ spends ~15-20 ms on the UI thread before its frame (was ~40-55: two serialisatio
 edit box's class change restyling it and its children); what is left is the design
 itself (~8 ms with the engine's memo), the focus restyle of the table and the frame.
 First paint meets its 1.5x target in those sets; edit (3x) does not.
+
+Figures, 3 December 2026 (issue 19, edit to headline), same machine, shared (load
+3.2-3.6 unless said). "before" is commit 0a82eb1 (a plain copy of it run with this
+script from that copy), "after" this branch; pairs run back to back, ``--runs 5``:
+
+=====================================  ============  ============
+pair (load)                            before edit   after edit
+=====================================  ============  ============
+1 (3.6)                                4.23x 77 ms   2.81x 50 ms
+2 (2.4-3.2)                            4.14x 83 ms   2.94x 66 ms
+3 (2.8-3.6)                            4.08x 81 ms   3.13x 57 ms
+4 (3.5)                                4.78x 98 ms   2.90x 59 ms
+5 (3.5)                                4.25x 73 ms   3.22x 59 ms
+median of the five                     4.23x 81 ms   2.94x 59 ms
+one set at load 5.8-4.0                4.26x 93 ms   3.05-3.35x 63-68 ms
+=====================================  ============  ============
+
+The bare edit was 17-22 ms throughout. Edit (3x) is met at the day's ordinary load
+and only just (up to 3.35x when the machine is busier). An instrumented copy of the
+app (timers around Textual's steps, main thread CPU time from the Enter being handled
+to the frame handed to the terminal, 12 edits, medians) gave about 33 ms before and
+17 ms after. What went: the stylesheet applied to the field table and the edit box
+at each focus move (~6 ms: a memo of each one's styles per state,
+``tui/widgets/restyle.py``), the screen repainted whole at each focus move (a second
+render of every line), the table's style worked out for every line (once a pass now),
+the project's text before the frame (now after it), the footer rebuilt at each open
+and close (10-30 ms after the frame, which delayed the next key; changed in place
+now), the undo copy (pickle, not deepcopy) and a query of the whole DOM at each open.
+Start-up's objects are frozen out of the garbage collector at first paint: a full
+pass over them (35-90 ms) had come now and then in the middle of an edit. What is
+left per edit: the design (~3.5 ms of CPU with the engine's memo), Textual's render of
+the table at its new height after the box closes (~5 ms), the edit's own work (~4 ms).
 """
 
 from __future__ import annotations

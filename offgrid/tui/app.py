@@ -548,6 +548,15 @@ class OffgridApp(App):
         self.recovery.clear()
         remember_project(saved, self.state)
         self.notify(f"Saved {printable(str(saved))}", markup=False, timeout=3)
+        left = self.session.untyped_outcome() if self.session is not None else None
+        if left is not None:  # the file holds placeholders there (the climate needs twelve)
+            self.notify(
+                f"Saved with {left.error.split('. ')[0]}: the file holds placeholders "
+                "there (0 sun, 20 C) until you type them.",
+                severity="warning",
+                markup=False,
+                timeout=8,
+            )
         if self.work is not None:
             self.work.refresh_all()
         if then is not None:

@@ -9,6 +9,7 @@ introduced a problem.  The design is recomputed by :meth:`Session.recompute`.
 from __future__ import annotations
 
 import copy
+import pickle
 import time
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -26,6 +27,24 @@ from offgrid.project.store import dumps_project, load_project, save_project
 from offgrid.project.validate import Problem, validate_project
 
 UNDO_DEPTH = 200
+
+#: The climate rows a design needs, with the placeholder each month holds until it is
+#: typed (the saved climate needs twelve numbers): what the user is told to type.
+TO_TYPE = {"insolation_kwh_m2_day": ("sun", 0.0), "temp_mean_c": ("mean temperature", 20.0)}
+MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+
+
+def month_spans(months: tuple[int, ...]) -> str:
+    """``(1, 2, 3, 5)`` -> ``"Jan-Mar, May"``."""
+    spans: list[list[int]] = []
+    for m in sorted(months):
+        if spans and m == spans[-1][-1] + 1:
+            spans[-1].append(m)
+        else:
+            spans.append([m])
+    return ", ".join(
+        MONTH_NAMES[s[0] - 1] + (f"-{MONTH_NAMES[s[-1] - 1]}" if len(s) > 1 else "") for s in spans
+    )
 
 
 class EditRejected(ValueError):
@@ -87,6 +106,15 @@ def release_engine_memo() -> None:
         _memo_held.pop().__exit__(None, None, None)
 
 
+def snapshot(project: Project) -> Project:
+    """A copy of ``project`` for the undo stack: through pickle (the project is plain data),
+    a third of ``copy.deepcopy``'s time (0.2 against 0.7 ms for the demo), every edit."""
+    try:
+        return pickle.loads(pickle.dumps(project, pickle.HIGHEST_PROTOCOL))
+    except (pickle.PicklingError, TypeError, AttributeError):
+        return copy.deepcopy(project)
+
+
 def get_path(obj: Any, path: str) -> Any:
     """Value at a dotted path such as ``site.latitude_deg`` or ``loads[2].power_w``."""
     for part in path.split("."):
@@ -118,6 +146,12 @@ class Session:
     listeners: list[Callable[[], None]] = field(default_factory=list)
     # What opening an older file's schema could not carry over (shown once on opening).
     notes: list[str] = field(default_factory=list)
+    # Months of the own climate that still hold placeholders, by row (TO_TYPE): set when
+    # the months are started from nothing, emptied as they are typed; undone with the
+    # edits (the stacks beside the undo stacks hold them).
+    untyped: dict[str, frozenset[int]] = field(default_factory=dict)
+    undo_untyped: list[dict[str, frozenset[int]]] = field(default_factory=list)
+    redo_untyped: list[dict[str, frozenset[int]]] = field(default_factory=list)
 
     # ------------------------------------------------------------------ creation
     @classmethod
@@ -160,10 +194,45 @@ class Session:
     def title(self) -> str:
         return self.project.info.name or "Untitled project"
 
+    # ------------------------------------------------------------------ own months
+    def months_to_type(self) -> dict[str, tuple[int, ...]]:
+        """The own climate's months still to type, by row (empty: none)."""
+        climate = self.project.climate.inline
+        if climate is None or not self.untyped:
+            return {}
+        return {key: tuple(sorted(m)) for key, m in self.untyped.items() if m and key in TO_TYPE}
+
+    def start_untyped(self) -> None:
+        """The own climate was just started from placeholders: every month is to type."""
+        self.untyped = {key: frozenset(range(1, 13)) for key in TO_TYPE}
+
+    def typed(self, key: str, months: range | set[int] | tuple[int, ...]) -> None:
+        """Months of row ``key`` typed by the user (whatever the value, even a placeholder's)."""
+        if key in self.untyped:
+            left = self.untyped[key] - set(months)
+            self.untyped = (
+                {**self.untyped, key: left}
+                if left
+                else {k: v for k, v in self.untyped.items() if k != key}
+            )
+
+    def untyped_outcome(self) -> Outcome | None:
+        """No design while months are still to type (placeholders are not data)."""
+        left = self.months_to_type()
+        if not left:
+            return None
+        what = "; ".join(f"{TO_TYPE[k][0]} {month_spans(m)}" for k, m in left.items())
+        return Outcome(
+            error=f"months still to type: {what}. Type them in the climate table (Place); "
+            "the design waits for them.",
+            error_field="climate",
+            error_code="climate-months-untyped",
+        )
+
     # ------------------------------------------------------------------ design
     def recompute(self) -> Outcome:
         """Run the engine on the current project here and now; never raises."""
-        self.outcome = compute_outcome(self.project, self.base_dir)
+        self.outcome = self.untyped_outcome() or compute_outcome(self.project, self.base_dir)
         return self.outcome
 
     # ------------------------------------------------------------------ editing
@@ -173,8 +242,9 @@ class Session:
         ``focus`` is the dotted path being edited: a problem there rejects the
         edit even if it existed before.  Raises :class:`EditRejected`.
         """
-        before = copy.deepcopy(self.project)
+        before = snapshot(self.project)
         old = {p.path for p in validate_project(self.project)}
+        climate = self.project.climate.inline
         try:
             mutate(self.project)
         except (ValueError, TypeError, IndexError) as exc:
@@ -191,6 +261,11 @@ class Session:
         self.undo_stack.append(before)
         del self.undo_stack[:-UNDO_DEPTH]
         self.redo_stack.clear()
+        self.undo_untyped.append(self.untyped)
+        del self.undo_untyped[:-UNDO_DEPTH]
+        self.redo_untyped.clear()
+        if self.project.climate.inline is not climate:  # another climate: no placeholders
+            self.untyped = {}
 
     def set_value(self, path: str, value: Any) -> None:
         """Set one field; raises :class:`EditRejected` and keeps the old value on a problem."""
@@ -201,6 +276,8 @@ class Session:
             return False
         self.redo_stack.append(self.project)
         self.project = self.undo_stack.pop()
+        self.redo_untyped.append(self.untyped)
+        self.untyped = self.undo_untyped.pop() if self.undo_untyped else {}
         return True
 
     def redo(self) -> bool:
@@ -208,6 +285,8 @@ class Session:
             return False
         self.undo_stack.append(self.project)
         self.project = self.redo_stack.pop()
+        self.undo_untyped.append(self.untyped)
+        self.untyped = self.redo_untyped.pop() if self.redo_untyped else {}
         return True
 
     # ------------------------------------------------------------------ loads
@@ -276,6 +355,8 @@ class Session:
             seen = fingerprint(self.path)
             fresh = load_project(self.path)
             self.undo_stack.append(self.project)
+            self.undo_untyped.append(self.untyped)
+            self.untyped = {}
             self.project = fresh
             self.disk = seen
             self.baseline = self.text()
@@ -283,6 +364,8 @@ class Session:
             from offgrid.project.store import loads_project
 
             self.undo_stack.append(self.project)
+            self.undo_untyped.append(self.untyped)
+            self.untyped = {}
             self.project = loads_project(self.baseline, "starting state")
 
 

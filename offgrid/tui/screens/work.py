@@ -11,7 +11,9 @@ from collections.abc import Callable
 
 from textual.app import ComposeResult
 from textual.binding import Binding
+from textual.reactive import Reactive
 from textual.screen import Screen
+from textual.widget import Widget
 from textual.widgets import ContentSwitcher, Input
 
 from offgrid.tui.keys import focus_now
@@ -75,6 +77,11 @@ LETTER_ACTIONS = {
 
 class WorkScreen(Screen):
     """Where the whole job is done."""
+
+    #: Textual's own, but without repainting the whole screen when the focus moves (the
+    #: widgets that gain and lose it repaint themselves): an applied edit moves it twice,
+    #: and each time every line of the screen was rendered again before the frame.
+    focused: Reactive[Widget | None] = Reactive(None, repaint=False)
 
     BINDINGS = [
         *(
@@ -155,6 +162,7 @@ class WorkScreen(Screen):
         self.design_seq = 0  # number of the newest design request (request_design)
         self.design_pending = False  # a design is being worked out on a worker thread
         self.designs_dropped = 0  # results that came after a newer request
+        self._text_due = False  # an edit's text is still to be made (_after_change)
         self._all_mounted = asyncio.Event()
 
     def compose(self) -> ComposeResult:
@@ -187,9 +195,10 @@ class WorkScreen(Screen):
         project, base = copy.deepcopy(session.project), session.base_dir
         self.design_pending = True
         self.query_one(Headline).pending()
+        waiting = session.untyped_outcome()  # months still to type: no design on them
 
         def work() -> None:
-            out = compute_outcome(project, base)
+            out = waiting or compute_outcome(project, base)
             with contextlib.suppress(RuntimeError):  # the app has ended meanwhile
                 self.app.call_from_thread(self._design_done, seq, session, out, then)
 
@@ -247,12 +256,14 @@ class WorkScreen(Screen):
     def current(self) -> Section:
         return self.query_one(f"#{self.section}", Section)
 
-    def refresh_all(self, text: str | None = None) -> None:
+    def refresh_all(self, text: str | None = None, file_bar: bool = True) -> None:
         """Redraw the bars and the visible section; mark the others to redraw when shown.
 
-        ``text``: the project as saved, when the caller has made it (see :meth:`changed`).
+        ``text``: the project as saved, when the caller has made it (see :meth:`changed`);
+        ``file_bar=False`` leaves the file bar to the caller.
         """
-        self.query_one(FileBar).show(self.session, text)
+        if file_bar:
+            self.query_one(FileBar).show(self.session, text)
         headline = self.query_one(Headline)
         if self.design_pending:
             headline.pending()  # never the figures of a design that is being replaced
@@ -267,18 +278,29 @@ class WorkScreen(Screen):
         """After an accepted edit: recompute, redraw, and arm the recovery autosave.
 
         ``note`` says what changed; it is shown only with ``tell`` (the headline
-        already shows the effect of an ordinary edit).
+        already shows the effect of an ordinary edit). The project's text (a few ms),
+        which the file bar's unsaved mark and the recovery copy share, is made once the
+        new figures are on screen (:meth:`_after_change`).
         """
         t0 = time.perf_counter()
         self.recompute_now()
-        # The project as text once an edit (a few ms): the file bar's unsaved mark and
-        # the recovery copy share it.
-        text = self.session.text()
-        self.refresh_all(text)
+        self.refresh_all(file_bar=False)
         self.last_change_s = time.perf_counter() - t0
-        send(self, ProjectChanged(text))
+        if not self._text_due:
+            self._text_due = True
+            self.call_after_refresh(self._after_change)
         if note and tell:
             self.app.notify(note, markup=False, timeout=4)
+
+    def _after_change(self) -> None:
+        """The project as text once for the edits since the last frame: the file bar's
+        unsaved mark and the recovery copy (exactly what is on screen)."""
+        if not self._text_due:
+            return
+        self._text_due = False
+        text = self.session.text()
+        self.query_one(FileBar).show(self.session, text)
+        send(self, ProjectChanged(text))
 
     def on_edited(self, message: Edited) -> None:
         message.stop()
@@ -293,6 +315,7 @@ class WorkScreen(Screen):
         self.reveal(message.path)
 
     def replace_session(self, session: Session) -> None:
+        self._after_change()  # an edit's text still due belongs to the project before
         self.session = session
         self.refresh_all()  # the new project's names at once; its design a moment later
         self.request_design(self._focus_first)
@@ -323,6 +346,7 @@ class WorkScreen(Screen):
             self.call_after_refresh(self.action_goto, section)
             return
         self.set_focus(None)  # (a focused input can snap the switch back otherwise)
+        self.refresh()  # the whole screen again (a focus move alone does not: see focused)
         self.section = section
         self.query_one(ContentSwitcher).current = section
         if section in self.stale:

@@ -17,7 +17,7 @@ from offgrid.tui.fields import PROJECT_FIELDS, Field, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
-from offgrid.tui.session import EditRejected, Session, get_path
+from offgrid.tui.session import TO_TYPE, EditRejected, Session, get_path
 from offgrid.tui.text import printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
@@ -113,7 +113,15 @@ class ClimateTable(SteadyTable):
     def __init__(self, **kwargs) -> None:
         super().__init__(cursor_type="cell", cell_padding=0, zebra_stripes=False, **kwargs)
 
-    def fill(self, climate: MonthlyClimate | None, poa, design_month: int | None) -> None:
+    def fill(
+        self,
+        climate: MonthlyClimate | None,
+        poa,
+        design_month: int | None,
+        untyped: dict[str, tuple[int, ...]] | None = None,
+    ) -> None:
+        """``untyped``: months of a row still holding placeholders, shown as ``?``."""
+        untyped = untyped or {}
         keep = self.cursor_coordinate
         self.clear(columns=True)
         self.add_column(Text("Month"), width=13, key="label")
@@ -129,6 +137,8 @@ class ClimateTable(SteadyTable):
             for i in range(12):
                 if values is None or len(values) != 12:
                     cells.append(Text("-".rjust(5), style="dim"))
+                elif i + 1 in untyped.get(key, ()):
+                    cells.append(Text("?".rjust(5), style="bold"))  # not typed yet
                 else:
                     digits = 2 if key in ("insolation_kwh_m2_day", "poa") else 1
                     cells.append(
@@ -211,8 +221,11 @@ class PlaceSection(Section):
         climate = self._climate(session)
         poa = design.site.poa_kwh_m2_day if design else None
         dm = design.site.design_month if design else None
-        self.months.fill(climate, poa, dm)
-        if inline is not None:
+        untyped = session.months_to_type()
+        self.months.fill(climate, poa, dm, untyped)
+        if untyped:
+            title = "Monthly climate (your own values; ? = not typed yet: Enter types a month)"
+        elif inline is not None:
             title = "Monthly climate (your own values: Enter edits a month)"
         elif project.climate.ref:
             title = (
@@ -266,11 +279,13 @@ class PlaceSection(Section):
                     p.climate.inline.record_low_c = value
                     checked_climate(p.climate.inline)
 
+                self._fresh = False
                 self.session.change(put, focus="climate")
             except EditRejected as exc:
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
+            self._after_own()
             self.edited("record low set")
             return None
 
@@ -295,15 +310,19 @@ class PlaceSection(Section):
         month = max(1, col)
         climate = self._climate(self.session)
         values = getattr(climate, key) if climate is not None else None
-        start = f"{values[month - 1]:g}" if values else ""
+        fresh = climate is None or month in self.session.months_to_type().get(key, ())
+        start = f"{values[month - 1]:g}" if values and not fresh else ""
 
         def apply(typed: str) -> str | None:
+            self._fresh = False
             try:
                 self.session.change(
                     lambda p: self._put_months(p, key, month, typed), focus="climate"
                 )
             except EditRejected as exc:
                 return self.problems_text(exc)
+            self._after_own()
+            self.session.typed(key, range(1, 13) if self._all_twelve else (month,))
             self.edited(f"{MONTHS[month - 1]} {label.lower()} set")
             return None
 
@@ -319,20 +338,31 @@ class PlaceSection(Section):
             from offgrid.design.sizing import resolve_climate
 
             base = resolve_climate(p, self.session.base_dir)
-        if base is None:
+        if base is None:  # placeholders (TO_TYPE), marked as still to type (_after_own)
             base = MonthlyClimate(
-                insolation_kwh_m2_day=[0.0] * 12,
-                temp_mean_c=[20.0] * 12,
+                insolation_kwh_m2_day=[TO_TYPE["insolation_kwh_m2_day"][1]] * 12,
+                temp_mean_c=[TO_TYPE["temp_mean_c"][1]] * 12,
                 source="typed by the user",
             )
             own = base
+            self._fresh = True
         else:
             own = dataclasses.replace(
                 base, source=f"own copy of {p.climate.ref}: {base.source}".strip()
             )
         p.climate = ClimateChoice(inline=own)
 
+    _fresh = False  # the last change started the own months from placeholders
+    _all_twelve = False  # the last months typed were a whole row
+
+    def _after_own(self) -> None:
+        """After an accepted change: months just started from nothing are all to type."""
+        if self._fresh:
+            self._fresh = False
+            self.session.start_untyped()
+
     def _put_months(self, p: Project, key: str, month: int, typed: str) -> None:
+        self._all_twelve = False
         self._make_own(p)
         climate = p.climate.inline
         assert climate is not None
@@ -345,6 +375,7 @@ class PlaceSection(Section):
             setattr(climate, key, None)
         elif len(parts) == 12:
             setattr(climate, key, [parse_number(s, unit) for s in parts])
+            self._all_twelve = True
         elif len(parts) == 1:
             values = getattr(climate, key)
             if values is None:
@@ -615,12 +646,23 @@ class PlaceSection(Section):
         )
 
     def action_own_months(self) -> None:
+        if self.session.project.climate.inline is not None:
+            self.app.notify("These twelve months are your own already: Enter edits one.")
+            focus_now(self.months)
+            return
+        self._fresh = False
         try:
             self.session.change(self._make_own, focus="climate")
         except EditRejected as exc:
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
-        self.edited("Now using your own twelve months: edit them in the table", tell=True)
+        fresh = self._fresh
+        self._after_own()
+        if fresh:
+            note = "Your own twelve months: type the sun and mean temperature (? = not typed)"
+        else:
+            note = "Now your own copy of the twelve months: edit them in the table"
+        self.edited(note, tell=True)
         focus_now(self.months)
 
     # ------------------------------------------------------------------ why
@@ -639,6 +681,8 @@ class PlaceSection(Section):
             values = getattr(climate, key) if climate and key != "poa" else None
             if values:
                 value = f"{values[month - 1]:g}"
+            if month in self.session.months_to_type().get(key, ()):
+                value = "not typed yet"
             src = climate.source if climate else ""
             return Figure(
                 f"{MONTHS[month - 1]} {label}",

@@ -23,8 +23,14 @@ from textual.widgets._input import Selection
 
 from offgrid.tui.keys import focus_now
 from offgrid.tui.text import literal
+from offgrid.tui.widgets.restyle import RestyleMemo
 
 Apply = Callable[[str], str | None]
+
+
+class EditInput(RestyleMemo, Input):
+    """The edit box's line: focused at every open and blurred at every close, restyled
+    from the memo of its two states (see :mod:`offgrid.tui.widgets.restyle`)."""
 
 
 class EditBar(Vertical):
@@ -68,7 +74,7 @@ class EditBar(Vertical):
 
     def compose(self) -> ComposeResult:
         yield Static(id="edit-label")
-        yield Input(id="edit-input", select_on_focus=False)
+        yield EditInput(id="edit-input", select_on_focus=False)
         yield Static(id="edit-message")
 
     @property
@@ -94,6 +100,7 @@ class EditBar(Vertical):
         self._say(hint, bad=False)
         self._open = True
         self.styles.display = "block"
+        self._lift_notices(True)
         box = self.input
         box.value = text
         box.selection = Selection(0, len(text))
@@ -124,9 +131,36 @@ class EditBar(Vertical):
     def action_cancel(self) -> None:
         self.close()
 
+    def on_resize(self) -> None:
+        if self._open:
+            self._lift_notices(True)
+
+    def _lift_notices(self, up: bool) -> None:
+        """Notices (toasts, bottom right above the key line) go above the open edit box, so
+        none covers what is being typed or its hint; back down when it closes."""
+        from textual.widgets._toast import ToastRack
+
+        if self.app._disable_notifications:
+            return
+        # the box's lines (the border, label, input, hint) until it is laid out
+        height = self.outer_size.height or 4 + self._message_lines
+        # (the screen's own child: a query would walk every section's widgets)
+        for rack in self.screen.query_children(ToastRack):
+            if up:
+                rack.styles.margin = (0, 0, 1 + height, 0)  # (1: the key line)
+            else:
+                rack.styles.clear_rule("margin")
+
+    @property
+    def _message_lines(self) -> int:
+        msg = self.query_one("#edit-message", Static)
+        room = max(10, (self.size.width or self.screen.size.width) - 2)
+        return min(3, max(1, -(-len(str(msg.content)) // room)))
+
     def close(self) -> None:
         self._open = False
         self.styles.display = "none"
+        self._lift_notices(False)
         self._apply = None
         back, self._back = self._back, None
         if back is not None and back.is_attached:

@@ -2,14 +2,18 @@
 
 from __future__ import annotations
 
+from rich.style import Style
+from textual.geometry import Region
+from textual.strip import Strip
 from textual.widget import Widget
 from textual.widgets import DataTable
 from textual.widgets.data_table import ColumnKey, RowKey
 
 from offgrid.tui.keys import deliver_now
+from offgrid.tui.widgets.restyle import RestyleMemo
 
 
-class SteadyTable(DataTable):
+class SteadyTable(RestyleMemo, DataTable):
     """Scrolls the cursor into view only once it has a size, keeping headings above in view.
 
     A table filled while its section is hidden has no height yet; scrolling then
@@ -17,8 +21,26 @@ class SteadyTable(DataTable):
     Sub-classes say which rows are headings with :meth:`is_heading`.
     """
 
+    _pass_style: Style | None = None  # the table's style during one render pass
+
     def is_heading(self, row: int) -> bool:
         return False
+
+    @property
+    def rich_style(self) -> Style:
+        """The table's style: worked out once a render pass (DataTable asks for each line,
+        and each time walks every ancestor's styles: about half of redrawing a table)."""
+        if self._pass_style is not None:
+            return self._pass_style
+        return DataTable.rich_style.fget(self)  # type: ignore[attr-defined]
+
+    def render_lines(self, crop: Region) -> list[Strip]:
+        self._pass_style = None
+        self._pass_style = self.rich_style
+        try:
+            return super().render_lines(crop)
+        finally:
+            self._pass_style = None
 
     def action_select_cursor(self) -> None:
         """Enter: the section opens its editor now, before the next key is read."""
@@ -69,6 +91,14 @@ class SteadyTable(DataTable):
         """
         state = self.get_pseudo_class_state()
         Widget.notify_style_update(self)  # the widget's own style caches
+        seen = getattr(self, "_looks", None)
+        if getattr(self, "_restyle_replayed", False) and seen and state in seen:
+            # styles put back from the memo of a state seen before (restyle.py): its
+            # look is the one kept for that state
+            self._styles_cache.clear()
+            self._get_styles_to_render_cell.cache_clear()
+            self.refresh()
+            return
         try:
             look = tuple(
                 self.get_component_rich_style(name, partial=True)
