@@ -147,6 +147,31 @@ def _private_user_library(tmp_path_factory, monkeypatch):
     monkeypatch.setenv("XDG_DATA_HOME", str(tmp_path_factory.mktemp("xdg-data")))
 
 
+@pytest.fixture(autouse=True)
+def _recovery_writers_end(monkeypatch):
+    """The text UI's recovery writers made in a test end their threads after it (each
+    would idle 30 s after its last write). Planning refuses to fork while other threads
+    run, so a worker that had just run a UI test planned serially: the fork paths went
+    unchecked and tests/test_plan_merge.py's one-and-two-workers test failed, depending
+    on which tests a worker had run before it (tests/test_recovery_writer.py)."""
+    from offgrid.tui import autosave
+
+    made = []
+    real_init = autosave.RecoveryWriter.__init__
+
+    def init(self, *args, **kwargs):
+        real_init(self, *args, **kwargs)
+        made.append(self)
+
+    monkeypatch.setattr(autosave.RecoveryWriter, "__init__", init)
+    yield
+    for writer in made:
+        thread = writer._thread
+        writer.close()
+        if thread is not None:
+            thread.join(5.0)  # gone before the next test counts the threads
+
+
 def hand_project() -> Project:
     """The project of the hand-worked sizing in tests/test_sizing.py (invented)."""
     climate = MonthlyClimate(
