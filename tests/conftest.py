@@ -116,7 +116,14 @@ def _rewrite_test_modules_once(config) -> None:
     if config.getoption("assertmode") != "rewrite":
         return
     patterns = [*config.getini("python_files"), "conftest.py"]
-    for source in sorted(Path(__file__).parent.rglob("*.py")):
+    here = Path(__file__).parent
+    asked = [Path(config.invocation_params.dir, a.split("::")[0]).resolve() for a in config.args]
+    for source in sorted(here.rglob("*.py")):
+        wanted = source.name == "conftest.py" or any(
+            source == a or a in source.parents for a in asked
+        )
+        if not wanted:
+            continue  # a run of some files: the others' caches wait for a run that needs them
         if not any(fnmatch.fnmatch(source.name, p) for p in patterns):
             compileall.compile_file(str(source), quiet=2)
             continue
