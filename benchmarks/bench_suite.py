@@ -11,6 +11,27 @@ shared machine: another engineer's load lengthens the wall time far more than th
 (Apps started by the tmux tests run under the tmux server, not under pytest: their CPU is
 not counted.) The whole suite is heavy: run it on a quiet machine, not beside others.
 
+Figures (3 Dec 2026, the 2-core machine, busy: other engineers' load throughout):
+
+- before: the lead's quiet run of main (0a82eb1) from a fresh clone, load 1.2: 195.6 s
+  wall, 361 s CPU (345.5 user + 15.6 system), tests' own CPU 314 s, collection ~7 s of
+  CPU in each of the 4 workers. The same code here, a warm tree, ``-n 2``, load 3.4:
+  345.9 s wall, 385.4 s CPU, tests' CPU 364 s (contention inflates CPU too).
+- after: branch suite at 4986853, a cold tree (every ``__pycache__`` of the checkout
+  removed), the plain ``-n auto`` (4 workers), load 4.8 at the start and 8.5 at the end:
+  228.2 s wall, 258.3 s CPU (246.3 user + 12.0 system), 1449 passed, 5 skipped, 1 failed
+  (tests/test_design_golden.py on hand-pwm-36cell-12v only: last-digit float noise, on
+  main too); tests' CPU 229.5 s; collection 2.6-2.7 s of CPU per worker, cold.
+- where it came from (``-n0``, CPU seconds): the collector's passes (tests/conftest.py,
+  youngest generation at 10,000): the UI files test_tui_files + test_tui_options spent
+  9.7-10.9 s of ~45 s in it, 3.5 s after; the plan, climate and simulate files 5.2 -> 0.6
+  s. The test modules' rewritten caches written once by the controller: collecting with
+  4 workers in a fresh tree 29.3 -> ~20 s. The CLI in this process where its output is
+  the subject (tests/cli_support.py): test_cli + test_cli_json_errors 10.2 -> 2.6 s,
+  test_report_cli 10.4 -> 3.0 s. test_hybrid_variants 8.1 -> 4.2 s (the CLI's study over
+  5 years). test_tui_sections 38.7 -> 31.7 s (six more tests on the shared demo app, and
+  the collector).
+
 Figures (2 Dec 2026, the 2-core machine, never quiet: a load average of 4-5 from the
 other engineers' work during every whole run, so wall times were 2-3 times the quiet
 ones, and CPU seconds too are inflated by the contention: the same fixed work, the 169
@@ -125,6 +146,9 @@ def run(pytest_args: list[str], top: int) -> int:
             f"at the end {' '.join(f'{x:.2f}' for x in os.getloadavg())}"
         )
         print(f"pytest: {summary[0]}")
+        for line in proc.stdout.splitlines():  # the short summary: which tests failed
+            if line.startswith(("FAILED ", "ERROR ")):
+                print(f"  {line}")
         print(
             f"wall {wall:.1f} s, CPU {user + system:.1f} s ({user:.1f} user + {system:.1f} system)"
         )

@@ -96,7 +96,8 @@ def main(argv: list[str] | None = None) -> int:
         ui = _ui_entry()
         if ui is not None:
             return ui(argv)
-    if "--json" in argv:
+    json_errors = "--json" in argv
+    if json_errors:
         from offgrid.commands.common import set_json_errors
 
         set_json_errors(True)
@@ -115,6 +116,8 @@ def main(argv: list[str] | None = None) -> int:
         return 0
     finally:
         sys.stdout, sys.stderr = out, err
+        if json_errors:  # this run's, not the next main() call's in the same process
+            set_json_errors(False)
 
 
 class _Visible:

@@ -1,4 +1,6 @@
-"""The headless command line, run as a user would (subprocess)."""
+"""The headless command line: the program started as a user would (subprocess) for one
+run of each exit code (0, 2, 3), the other checks of the commands' output in this process
+(tests/cli_support.py: the same ``main``, without 0.3-0.9 s of CPU to start each one)."""
 
 from __future__ import annotations
 
@@ -11,6 +13,7 @@ import pytest
 
 from offgrid.paths import load_profiles_dir
 from offgrid.project.store import save_project
+from tests.cli_support import run_cli
 from tests.conftest import hand_project
 
 REQUIRED_KEYS = (
@@ -44,6 +47,14 @@ def offgrid(*args: str, check: bool = True) -> subprocess.CompletedProcess:
     return proc
 
 
+def cli(*args: str, check: bool = True) -> subprocess.CompletedProcess:
+    """``offgrid ARGS`` in this process (:func:`tests.cli_support.run_cli`)."""
+    proc = run_cli(*args)
+    if check:
+        assert proc.returncode == 0, proc.stderr
+    return proc
+
+
 def dig(data: dict, dotted: str):
     for part in dotted.split("."):
         data = data[part]
@@ -63,7 +74,7 @@ def test_size_demo_json_has_documented_keys():
 
 
 def test_size_summary_is_readable_and_fits_80_columns():
-    out = offgrid("size", "--demo").stdout
+    out = cli("size", "--demo").stdout
     assert (
         "Design month" in out
         and "Battery capacity installed" in out
@@ -75,7 +86,7 @@ def test_size_summary_is_readable_and_fits_80_columns():
 def test_size_project_file(tmp_path):
     path = tmp_path / "p.toml"
     save_project(hand_project(), path)
-    data = json.loads(offgrid("size", str(path), "--json").stdout)
+    data = json.loads(cli("size", str(path), "--json").stdout)
     assert data["array"]["power_w"] == 1200
 
 
@@ -85,7 +96,7 @@ def test_size_project_file(tmp_path):
 def test_quick_design_for_every_demo_load_list(name):
     csv = str(Path(load_profiles_dir()) / f"{name}.csv")
     data = json.loads(
-        offgrid(
+        cli(
             "size",
             "--loads",
             csv,
@@ -122,16 +133,16 @@ def test_design_that_cannot_be_met_exits_3(tmp_path):
 
 
 def test_quick_design_needs_both_parts():
-    proc = offgrid("size", "--loads", "x.csv", check=False)
+    proc = cli("size", "--loads", "x.csv", check=False)
     assert proc.returncode == 2 and "--climate" in proc.stderr
 
 
 def test_bad_override_names_the_field():
-    proc = offgrid("size", "--demo", "--max-dod", "1.7", check=False)
+    proc = cli("size", "--demo", "--max-dod", "1.7", check=False)
     assert proc.returncode == 2 and "choices.max_dod" in proc.stderr
 
 
 def test_unknown_climate_lists_bundled_names():
     csv = str(Path(load_profiles_dir()) / "household-kit.csv")
-    proc = offgrid("size", "--loads", csv, "--climate", "atlantis", check=False)
+    proc = cli("size", "--loads", csv, "--climate", "atlantis", check=False)
     assert proc.returncode == 2 and "kisanga-ridge-demo" in proc.stderr

@@ -1,7 +1,8 @@
 """With --json, a refusal is a JSON object on stdout too (issue 11, output contract).
 
 {"error": {"code", "message", "field", "exit_code"}}: exit 3 when the design cannot be met,
-exit 2 for bad input; the message still goes to stderr for people.
+exit 2 for bad input; the message still goes to stderr for people. The first check runs
+the program (subprocess), the others ``main`` in this process (tests/cli_support.py).
 """
 
 from __future__ import annotations
@@ -11,8 +12,9 @@ import json
 import pytest
 
 from offgrid.project.store import save_project
+from tests.cli_support import run_cli
 from tests.conftest import hand_project
-from tests.test_cli import offgrid
+from tests.test_cli import cli, offgrid
 
 
 def _error(proc, exit_code: int) -> dict:
@@ -36,24 +38,24 @@ def test_size_json_infeasible_design_exits_3_with_json(tmp_path):
 
 
 def test_size_json_bad_override_exits_2_with_the_field():
-    err = _error(offgrid("size", "--demo", "--max-dod", "1.7", "--json", check=False), 2)
+    err = _error(cli("size", "--demo", "--max-dod", "1.7", "--json", check=False), 2)
     assert err["field"] == "choices.max_dod" and err["code"] == "bad-input"
 
 
 def test_size_json_bad_project_file_names_the_field(tmp_path):
     path = tmp_path / "bad.toml"
     path.write_text("format = 'offgrid-project'\nschema = 1\n[site]\nlatitude_deg = 123\n")
-    err = _error(offgrid("size", str(path), "--json", check=False), 2)
+    err = _error(cli("size", str(path), "--json", check=False), 2)
     assert err["field"] == "site.latitude_deg"
 
 
 def test_size_json_bad_option_value_is_json_too():
-    err = _error(offgrid("size", "--demo", "--autonomy-days", "lots", "--json", check=False), 2)
+    err = _error(cli("size", "--demo", "--autonomy-days", "lots", "--json", check=False), 2)
     assert err["field"] == "--autonomy-days"
 
 
 def test_without_json_stdout_stays_empty():
-    proc = offgrid("size", "--demo", "--max-dod", "1.7", check=False)
+    proc = cli("size", "--demo", "--max-dod", "1.7", check=False)
     assert proc.returncode == 2 and proc.stdout == ""
 
 
@@ -62,4 +64,14 @@ def test_without_json_stdout_stays_empty():
     [("simulate", "--demo", "--years", "x", "--json"), ("variants", "nowhere.toml", "--json")],
 )
 def test_other_json_subcommands_share_it(args):
-    _error(offgrid(*args, check=False), 2)
+    _error(cli(*args, check=False), 2)
+
+
+def test_a_json_run_leaves_the_next_run_in_this_process_plain():
+    """main() called twice in one process (the CLI tests, a script): --json errors belong
+    to the run that asked for them."""
+    first = run_cli("size", "--demo", "--max-dod", "1.7", "--json")
+    assert first.returncode == 2 and json.loads(first.stdout)["error"]["field"]
+    then = run_cli("size", "--demo", "--max-dod", "1.7")
+    assert then.returncode == 2 and then.stdout == ""
+    assert "choices.max_dod" in then.stderr

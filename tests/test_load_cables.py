@@ -170,22 +170,15 @@ def test_load_list_csv_carries_the_run_length():
 
 
 def test_the_migration_note_reaches_the_text_ui_session_and_the_command_line(tmp_path):
-    import subprocess
-    import sys
-
     from offgrid.tui.session import Session
+    from tests.cli_support import run_cli
 
     path = tmp_path / "old.toml"
     path.write_text(_schema_1_text())
     session = Session.open(path)
     assert any("Old radio" in n for n in session.notes)
     assert session.project.loads[0].run_m == 40.0
-    proc = subprocess.run(
-        [sys.executable, "-m", "offgrid", "size", str(path)],
-        capture_output=True,
-        text=True,
-        timeout=120,
-    )
+    proc = run_cli("size", str(path))  # main() in this process
     assert proc.returncode == 0, proc.stderr
     assert "offgrid: note:" in proc.stderr and "Old radio" in proc.stderr
     assert path.read_text() == _schema_1_text()  # reading never rewrites the file

@@ -10,8 +10,6 @@ test projects.
 from __future__ import annotations
 
 import json
-import subprocess
-import sys
 from dataclasses import replace
 
 import numpy as np
@@ -19,6 +17,7 @@ import pytest
 
 from offgrid.design.result import DesignError, SystemDesign
 from offgrid.design.sizing import design
+from tests.cli_support import run_cli
 from tests.conftest import hand_project
 from tests.design_invariants import HARVEST_TOL
 
@@ -162,12 +161,7 @@ def test_test_projects_are_covered():
 
 
 def test_size_json_of_the_demo_marks_the_least_covered_month():
-    out = subprocess.run(
-        [sys.executable, "-m", "offgrid", "size", "--demo", "--json"],
-        capture_output=True,
-        text=True,
-        timeout=120,
-    )
+    out = run_cli("size", "--demo", "--json")  # main() in this process
     assert out.returncode in (0, 1), out.stderr
     data = json.loads(out.stdout)
     assert (

@@ -29,12 +29,14 @@ class RecoveryWriter:
         self._cond = threading.Condition()
         self._pending: Job | None = None
         self._busy = False
+        self._closing = False
         self._thread: threading.Thread | None = None
 
     def submit(self, text: str, path: Path | None, title: str, baseline: str) -> None:
         """Write this text soon (replacing any text given before that is not written yet)."""
         with self._cond:
             self._pending = (text, path, title, baseline)
+            self._closing = False
             if self._thread is None or not self._thread.is_alive():
                 self._thread = threading.Thread(
                     target=self._run, name="offgrid-recovery", daemon=True
@@ -66,10 +68,20 @@ class RecoveryWriter:
         with self._cond:
             return self._cond.wait_for(lambda: self._pending is None and not self._busy, timeout_s)
 
+    def close(self) -> None:
+        """Let the writer thread end once the text given is written (it would idle 30 s
+        first); a later :meth:`submit` starts one again, :meth:`write` needs none."""
+        with self._cond:
+            self._closing = True
+            self._cond.notify_all()
+
     def _run(self) -> None:
         while True:
             with self._cond:
-                if not self._cond.wait_for(lambda: self._pending is not None, 30.0):
+                ready = self._cond.wait_for(
+                    lambda: self._pending is not None or self._closing, 30.0
+                )
+                if not ready or self._pending is None:
                     self._thread = None
                     return
                 job, self._pending = self._pending, None

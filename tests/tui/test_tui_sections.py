@@ -256,64 +256,64 @@ async def test_loads_choice_and_months_cells(demo_pilot):
     assert "outside 1-12" in screen_text(app)
 
 
-async def test_loads_names_with_markup_and_escapes_are_literal(state, tmp_path):
+async def test_loads_names_with_markup_and_escapes_are_literal(demo_pilot, tmp_path):
     tricky = "[bold]Pump[/] [link=http://x]x[/link] \x1b[31mred\x1b[0m"
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("2")
-        table = app.work.current.table
-        table.move_cursor(row=0, column=0)
-        await pilot.press("enter")
-        await type_into(pilot, tricky)
-        assert app.session.project.loads[0].name == tricky
-        app.work.current.table.move_cursor(row=0, column=0)
-        await pilot.pause()
-        text = screen_text(app)
-        assert "[bold]Pump" in text  # markup shown, not applied
-        assert "\x1b" not in text
-        await pilot.press("w")  # the why dialog shows the whole name
-        await pilot.pause()
-        text = screen_text(app)
-        assert "\x1b" not in text and "\u241b[31mred" in text  # ESC as a visible symbol
-        await pilot.press("escape")
-        # editing something else keeps the name byte for byte
-        table.move_cursor(row=0, column=1)
-        await pilot.press("enter")
-        await type_into(pilot, "2")
-        target = tmp_path / "tricky.toml"
-        app.session.save(target)
-        assert load_project(target).loads[0].name == tricky
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("2")
+    table = app.work.current.table
+    table.move_cursor(row=0, column=0)
+    await pilot.press("enter")
+    await type_into(pilot, tricky)
+    assert app.session.project.loads[0].name == tricky
+    app.work.current.table.move_cursor(row=0, column=0)
+    await pilot.pause()
+    text = screen_text(app)
+    assert "[bold]Pump" in text  # markup shown, not applied
+    assert "\x1b" not in text
+    await pilot.press("w")  # the why dialog shows the whole name
+    await pilot.pause()
+    text = screen_text(app)
+    assert "\x1b" not in text and "\u241b[31mred" in text  # ESC as a visible symbol
+    await pilot.press("escape")
+    # editing something else keeps the name byte for byte
+    table.move_cursor(row=0, column=1)
+    await pilot.press("enter")
+    await type_into(pilot, "2")
+    target = tmp_path / "tricky.toml"
+    app.session.save(target)
+    assert load_project(target).loads[0].name == tricky
 
 
-async def test_loads_import_and_export_csv(state, tmp_path):
+async def test_loads_import_and_export_csv(demo_pilot, tmp_path):
     csv = tmp_path / "kit.csv"
     csv.write_text("name,quantity,power_w,hours_per_day,ac_dc\nRadio,1,10,4,dc\nTV,1,60,3,ac\n")
     bad = tmp_path / "bad.csv"
     bad.write_text("name,quantity,power_w,hours_per_day\nLamp,1,ten,4\n")
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("2", "i")
-        await pilot.pause()
-        assert isinstance(app.screen, PathDialog)
-        await type_into(pilot, str(bad))
-        assert "'ten' is not a number" in screen_text(app)  # problems listed, nothing imported
-        await pilot.press("escape")
-        n = len(app.session.project.loads)
-        await pilot.press("i")
-        await pilot.pause()
-        await type_into(pilot, str(csv))
-        assert isinstance(app.screen, ConfirmDialog)
-        await pilot.press("a")  # add to the list
-        await pilot.pause()
-        assert len(app.session.project.loads) == n + 2
-        await pilot.press("e")
-        await pilot.pause()
-        out = tmp_path / "out.csv"
-        await type_into(pilot, str(out))
-        assert out.read_text().splitlines()[0].startswith("name,quantity,power_w")
-        assert "TV,1,60,3,ac" in out.read_text()
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("2", "i")
+    await pilot.pause()
+    assert isinstance(app.screen, PathDialog)
+    await type_into(pilot, str(bad))
+    assert "'ten' is not a number" in screen_text(app)  # problems listed, nothing imported
+    await pilot.press("escape")
+    n = len(app.session.project.loads)
+    await pilot.press("i")
+    await pilot.pause()
+    await type_into(pilot, str(csv))
+    assert isinstance(app.screen, ConfirmDialog)
+    await pilot.press("a")  # add to the list
+    await pilot.pause()
+    assert len(app.session.project.loads) == n + 2
+    await pilot.press("e")
+    await pilot.pause()
+    out = tmp_path / "out.csv"
+    await type_into(pilot, str(out))
+    assert out.read_text().splitlines()[0].startswith("name,quantity,power_w")
+    assert "TV,1,60,3,ac" in out.read_text()
 
 
 # ----------------------------------------------------------------------------- parts
@@ -335,16 +335,16 @@ async def test_parts_autonomy_changes_battery_and_why(demo_pilot):
     assert "days of autonomy" in text and "IEEE" in text
 
 
-async def test_parts_choice_dialog_for_system_voltage(state):
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await edit_field_choice(pilot, "choices.system_voltage")
-        assert isinstance(app.screen, ChoiceDialog)
-        await pilot.press("up", "enter")  # from 48 V to 24 V
-        await pilot.pause()
-        assert app.session.project.choices.system_voltage == 24
-        assert app.session.design.battery.system_voltage_v == 24
+async def test_parts_choice_dialog_for_system_voltage(demo_pilot):
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await edit_field_choice(pilot, "choices.system_voltage")
+    assert isinstance(app.screen, ChoiceDialog)
+    await pilot.press("up", "enter")  # from 48 V to 24 V
+    await pilot.pause()
+    assert app.session.project.choices.system_voltage == 24
+    assert app.session.design.battery.system_voltage_v == 24
 
 
 async def edit_field_choice(pilot, path):
@@ -415,20 +415,20 @@ async def test_sizes_figures_chart_and_reason(demo_pilot):
     assert isinstance(app.screen, WorkScreen)
 
 
-async def test_sizes_chart_marks_the_least_covered_month(state):
+async def test_sizes_chart_marks_the_least_covered_month(demo_pilot):
     from offgrid.tui.widgets.monthchart import MonthChart
 
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        await pilot.press("4")
-        await pilot.pause()
-        chart = app.work.current.query_one(MonthChart)
-        rows = chart.render().plain.splitlines()[1:13]
-        ratios = [float(r.split("\u25c0")[0].split()[-1]) for r in rows]
-        marked = [i for i, r in enumerate(rows) if "\u25c0 design" in r]
-        assert marked == [ratios.index(min(ratios))]
-        assert min(ratios) >= 1.0  # every month covered
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    await pilot.press("4")
+    await pilot.pause()
+    chart = app.work.current.query_one(MonthChart)
+    rows = chart.render().plain.splitlines()[1:13]
+    ratios = [float(r.split("\u25c0")[0].split()[-1]) for r in rows]
+    marked = [i for i, r in enumerate(rows) if "\u25c0 design" in r]
+    assert marked == [ratios.index(min(ratios))]
+    assert min(ratios) >= 1.0  # every month covered
 
 
 async def test_every_figure_row_has_a_reason(demo_pilot):
@@ -449,21 +449,21 @@ async def test_every_figure_row_has_a_reason(demo_pilot):
 # ----------------------------------------------------------------------------- wires
 
 
-async def test_wires_without_electrical_design_shows_main_circuits(state):
+async def test_wires_without_electrical_design_shows_main_circuits(demo_pilot):
     import dataclasses
 
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        d = dataclasses.replace(app.session.design, electrical=None)
-        app.session.outcome.design = d
-        app.work.action_goto("wires")
-        await pilot.pause()
-        text = screen_text(app)
-        from offgrid.catalogue import figure_entry
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    d = dataclasses.replace(app.session.design, electrical=None)
+    app.session.outcome.design = d
+    app.work.action_goto("wires")
+    await pilot.pause()
+    text = screen_text(app)
+    from offgrid.catalogue import figure_entry
 
-        assert figure_entry("array.string_voc_cold_v").label in text
-        assert f"{d.array.string_voc_cold_v:.1f} V" in text
+    assert figure_entry("array.string_voc_cold_v").label in text
+    assert f"{d.array.string_voc_cold_v:.1f} V" in text
 
 
 async def test_wires_runs_and_length_edit(demo_pilot):
@@ -751,29 +751,29 @@ async def test_place_imports_a_weather_file_in_the_background(state, tmp_path):
         await pilot.press("escape")
 
 
-async def test_place_climate_check_offers_a_fix(state):
+async def test_place_climate_check_offers_a_fix(demo_pilot):
     from offgrid.tui.screens.dialogs import ChoiceDialog
 
-    app = demo_app(state)
-    async with app.run_test(size=SIZE) as pilot:
-        await pilot.pause()
-        # insolation typed in MJ/m2/day by mistake (x 3.6): above 12 is refused outright,
-        # so use values that fit 0-12 but exceed the site's clear-sky limit
-        await pilot.press("m")
-        await pilot.pause()
-        table = app.work.current.months
-        table.move_cursor(row=0, column=1)
-        await pilot.press("enter")
-        await type_into(pilot, " ".join(["11.5"] * 12))
-        await pilot.press("k")
-        await wait_until(pilot, lambda: isinstance(app.screen, ChoiceDialog))
-        dialog = app.screen
-        assert any(v is not None for v, _label in dialog.options), "no fix offered"
-        index = next(i for i, (v, _l) in enumerate(dialog.options) if v is not None)
-        dialog.query_one("#choices").highlighted = index
-        await pilot.press("enter")
-        await pilot.pause()
-        assert max(app.session.project.climate.inline.insolation_kwh_m2_day) < 11.5
+    pilot = demo_pilot
+    app = pilot.app
+    await pilot.pause()
+    # insolation typed in MJ/m2/day by mistake (x 3.6): above 12 is refused outright,
+    # so use values that fit 0-12 but exceed the site's clear-sky limit
+    await pilot.press("m")
+    await pilot.pause()
+    table = app.work.current.months
+    table.move_cursor(row=0, column=1)
+    await pilot.press("enter")
+    await type_into(pilot, " ".join(["11.5"] * 12))
+    await pilot.press("k")
+    await wait_until(pilot, lambda: isinstance(app.screen, ChoiceDialog))
+    dialog = app.screen
+    assert any(v is not None for v, _label in dialog.options), "no fix offered"
+    index = next(i for i, (v, _l) in enumerate(dialog.options) if v is not None)
+    dialog.query_one("#choices").highlighted = index
+    await pilot.press("enter")
+    await pilot.pause()
+    assert max(app.session.project.climate.inline.insolation_kwh_m2_day) < 11.5
 
 
 def slow_simulation(monkeypatch, release):
