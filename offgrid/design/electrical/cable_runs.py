@@ -14,7 +14,8 @@ from offgrid.design import wiring as wr
 from offgrid.design.charging import PwmVoltage, peak_charge_current
 from offgrid.design.inverter_step import inverter_dc_current_a
 from offgrid.design.pv import DiodeParams
-from offgrid.design.result import InverterResult, Notice, Reason, ReasonBook, fmt
+from offgrid.design.result import InverterResult, Notice, Reason, ReasonBook, fmt, reason_kind
+from offgrid.memo import memoised
 from offgrid.project.model import DesignChoices, Load, ModuleSpec, WiringChoices
 
 NEC = "NFPA 70 (NEC) 2023"
@@ -246,42 +247,70 @@ def size_cables(
     plan: RunPlan, wiring: WiringChoices, choices: DesignChoices, vsys: float, ambient_c: float
 ) -> CableStep:
     """The runs of :func:`plan_runs` with their conductors sized (PV runs in series share one
-    drop limit), the reasons of every wire, and the cable warnings."""
-    runs, ambient = plan.runs, ambient_c
-    cable = (
+    drop limit), the reasons of every wire, and the cable warnings.  What it reads of the
+    wiring and the choices is passed on to :func:`_sized_cables` (memoised while planning:
+    a village's designs share a few sets of runs)."""
+    return _sized_cables(
+        plan,
         wiring.units,
         wiring.material,
         wiring.conductor_temp_c,
-        ambient,
         wiring.insulation_temp_c,
+        choices.drop_limit_array_pct,
+        float(choices.derates.wiring),
+        vsys,
+        ambient_c,
+        reason_kind(),
     )
+
+
+@memoised
+def _sized_cables(
+    plan: RunPlan,
+    units: str,
+    material: str,
+    conductor_temp_c: float,
+    insulation_temp_c: float,
+    drop_limit_array_pct: float,
+    wiring_derate: float,
+    vsys: float,
+    ambient_c: float,
+    kind: type,
+) -> CableStep:
+    """:func:`size_cables` on the figures it reads (``kind``: the reason record in force,
+    part of the memo's key only)."""
+    runs, ambient = plan.runs, ambient_c
+    cable = (units, material, conductor_temp_c, ambient, insulation_temp_c)
     pv_runs = [r for r in runs if r.key in ("string", "array")]
     other = [r for r in runs if r.key not in ("string", "array")]
     wires = tuple(
-        wr.size_runs_in_series(pv_runs, choices.drop_limit_array_pct, *cable)
+        wr.size_runs_in_series(pv_runs, drop_limit_array_pct, *cable)
         + [wr.size_conductor(r, *cable) for r in other]
     )
     return CableStep(
         wires,
         plan,
         ambient,
-        wire_reasons(wires, runs, wiring, ambient),
-        cable_notices(wires, vsys, float(choices.derates.wiring)),
+        wire_reasons(wires, runs, units, conductor_temp_c, insulation_temp_c, ambient),
+        cable_notices(wires, vsys, wiring_derate),
     )
 
 
 def wire_reasons(
     wires: tuple[wr.WireChoice, ...],
     runs: tuple[wr.RunSpec, ...],
-    wiring: WiringChoices,
+    units: str,
+    conductor_temp_c: float,
+    insulation_temp_c: float,
     ambient: float,
 ) -> dict[str, Reason]:
-    """The reasons of every figure of every wire (``wires.KEY.FIGURE``)."""
+    """The reasons of every figure of every wire (``wires.KEY.FIGURE``); ``units``,
+    ``conductor_temp_c`` and ``insulation_temp_c`` are the wiring table's."""
     rb = ReasonBook()
-    table = "NEC Chapter 9 Table 8" if wiring.units == "awg" else "IEC 60228"
+    table = "NEC Chapter 9 Table 8" if units == "awg" else "IEC 60228"
     amp_table = (
         "NEC Table 310.16 with Table 310.15(B)(1)(1), 110.14(C)"
-        if wiring.units == "awg"
+        if units == "awg"
         else "IEC 60364-5-52 Tables B.52.4/B.52.5, B.52.14"
     )
     for w in wires:
@@ -307,7 +336,7 @@ def wire_reasons(
             drop_current=fmt(w.operating_current_a, "A"),
             resistance=fmt(w.resistance_ohm_km, "ohm/km"),
             circuit_voltage=fmt(w.voltage_v, "V"),
-            conductor_temp=fmt(wiring.conductor_temp_c, "C"),
+            conductor_temp=fmt(conductor_temp_c, "C"),
             limit=fmt(w.drop_limit_pct, "%"),
         )
         rb.add(
@@ -329,7 +358,7 @@ def wire_reasons(
             f"{base}.resistance_ohm_km",
             "conductor resistance at the conductor temperature",
             f"{table}, corrected to conductor temperature",
-            conductor_temp=fmt(wiring.conductor_temp_c, "C"),
+            conductor_temp=fmt(conductor_temp_c, "C"),
             size=w.size,
         )
         rb.add(
@@ -337,7 +366,7 @@ def wire_reasons(
             "table ampacity x ambient correction, within the terminal rating",
             amp_table,
             ambient=fmt(ambient, "C"),
-            insulation=fmt(wiring.insulation_temp_c, "C"),
+            insulation=fmt(insulation_temp_c, "C"),
         )
         rb.add(
             f"{base}.current_a",
