@@ -96,16 +96,24 @@ def _table_key(value: Any) -> tuple:
     TypeError for what marshal cannot write."""
     d = vars(value)
     values = tuple(d.values())
-    try:
-        return (type(value), tuple(d), marshal.dumps(values, 2))
-    except ValueError:
-        nested = tuple(
-            _table_key(v) if hasattr(type(v), "__dataclass_fields__") else None for v in values
-        )
-        if not any(nested):
-            raise
-        plain = tuple(v if k is None else None for v, k in zip(values, nested, strict=True))
-        return (type(value), tuple(d), nested, marshal.dumps(plain, 2))
+    cls = type(value)
+    if cls not in _NESTED:
+        try:
+            return (cls, tuple(d), marshal.dumps(values, 2))
+        except ValueError:
+            pass
+    nested = tuple(
+        _table_key(v) if hasattr(type(v), "__dataclass_fields__") else None for v in values
+    )
+    if not any(nested):
+        return (cls, tuple(d), marshal.dumps(values, 2))
+    _NESTED.add(cls)  # next time straight here (the failed marshal costs as much)
+    plain = tuple(v if k is None else None for v, k in zip(values, nested, strict=True))
+    return (cls, tuple(d), nested, marshal.dumps(plain, 2))
+
+
+#: Classes whose instances were seen holding a dataclass (``DesignChoices.derates``).
+_NESTED: set[type] = set()
 
 
 def _readonly(value: Any) -> Any:
