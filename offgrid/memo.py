@@ -111,11 +111,19 @@ def memoised(func: Callable) -> Callable:
     def wrapper(*args, **kwargs):
         if _depth == 0:
             return func(*args, **kwargs)
-        key = (tuple(map(freeze_key, args)), freeze_key(kwargs) if kwargs else ())
+        # Hashable arguments (numbers, strings, frozen records) are their own key, with
+        # their types (1, 1.0 and True apart); the rest through freeze_key, one by one.
+        key = (args, tuple(map(type, args)), freeze_key(kwargs) if kwargs else ())
         try:
             return cache[key]
         except KeyError:
             pass
+        except TypeError:  # an array, a list or a project table among them
+            key = ("keys", tuple(map(freeze_key, args)), key[2])
+            try:
+                return cache[key]
+            except KeyError:
+                pass
         out = _readonly(func(*args, **kwargs))
         if len(cache) >= MAX_ENTRIES:
             cache.clear()
