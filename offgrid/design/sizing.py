@@ -134,6 +134,14 @@ def site_geometry(
 # returns what the step itself returns for those arguments.
 
 
+@memoised  # planning: the villages of a programme survey the same demands
+def _load_step(loads, inverter, growth_pct, coincidence_factor, kind: type):
+    """Step 2, :func:`analyse_loads`, with its reasons (``kind``: the reason record in
+    force, part of the memo's key only)."""
+    book = ReasonBook()
+    return analyse_loads(loads, inverter, growth_pct, coincidence_factor, book), book.freeze()
+
+
 @memoised
 def _site_steps(site, min_tilt_deg: float, climate, demand: tuple, kind: type):
     """Steps 1 and 3: :func:`sun_on_plane` and :func:`site_record` (``kind``: the reason
@@ -184,11 +192,12 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     _check_loads(project)
     choices = project.choices
     # 2. loads (first: the tilt search weighs the months by their demand)
-    lr = analyse_loads(
-        project.loads, project.inverter, choices.load_growth_pct, choices.coincidence_factor, book
-    )
-    demand = np.asarray(lr.daily_energy_wh)
     kind = reason_kind()
+    lr, load_reasons = _load_step(
+        project.loads, project.inverter, choices.load_growth_pct, choices.coincidence_factor, kind
+    )
+    book.extend(load_reasons)
+    demand = np.asarray(lr.daily_energy_wh)
     # 1. sun, 3. a first design month and the temperatures
     sun, site_step = _site_steps(
         project.site, choices.min_tilt_deg, climate, tuple(lr.daily_energy_wh), kind
