@@ -142,6 +142,13 @@ def _load_step(loads, inverter, growth_pct, coincidence_factor, kind: type):
     return analyse_loads(loads, inverter, growth_pct, coincidence_factor, book), book.freeze()
 
 
+@memoised  # planning: villages of one design month share it for one demand
+def _inverter_step(spec, loads: LoadResult, system_v: int, kind: type):
+    """Step 8, :func:`size_inverter` (``kind``: the reason record in force, part of the
+    memo's key only)."""
+    return size_inverter(spec, loads, system_v)
+
+
 @memoised
 def _site_steps(site, min_tilt_deg: float, climate, demand: tuple, kind: type):
     """Steps 1 and 3: :func:`sun_on_plane` and :func:`site_record` (``kind``: the reason
@@ -245,7 +252,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         project.site.battery_warm_temp_c,
         kind,
     )
-    inv = size_inverter(project.inverter, lr, arr.system_voltage_v)
+    inv = _inverter_step(project.inverter, lr, arr.system_voltage_v, kind)
     for step in (bat, inv):
         book.extend(step.reasons)
     later = [*bat.notices, *inv.notices, *_idle_notices(lr)]
