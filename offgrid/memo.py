@@ -6,10 +6,20 @@ the monthly plane-of-array transposition and the mean-day irradiance profile are
 same for every row; the daily harvest of one array layout with its cables
 (:func:`offgrid.design.harvest.harvest_wh_day`) and the conductor sizes that carry one
 run (:func:`offgrid.design.wiring._candidates`) repeat across thousands of rows.
+The electrical sub-steps are memoised on the few figures each reads (the noon operating
+point, the string window and layout, the cables and each wire's reasons, the harvest
+comparison before the demand, the protection reasons, the cautions), not on the whole
+design: a village's ~1,260 distinct designs share a few design months, layouts, banks
+and runs.  The load analysis and the inverter step read the loads, not the site, so a
+programme's villages share them.  A step that reads a project table takes the table's
+figures it needs as arguments (``electrical.operating_point._noon_point``): what it
+cannot see cannot be missing from its key (tests/test_plan_memo_keys.py changes each
+input in turn inside one memo).
 Inside ``with design_memo():`` the functions decorated with :func:`memoised` keep
-their results, keyed by their exact inputs (arrays by their bytes); outside it they run
-as before.  The caches are per process and cleared when the last
-``with`` block ends, so a single design never sees stale values.
+their results, keyed by their exact inputs (arrays by their bytes, project tables by
+their pickle, single values with their type); outside it they run as before.  The
+caches are per process and cleared when the last ``with`` block ends, so a single design
+never sees stale values.
 
 Only pure functions of their arguments may be decorated; results are returned as they
 were first computed (numpy arrays made read-only, so a caller that writes into one

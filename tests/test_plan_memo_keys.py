@@ -156,3 +156,20 @@ def test_one_changed_input_is_never_served_another_projects_result(mppt):
             for name, p in [("base", base), *copies, ("base again", base)]:
                 want = alone_base if name.startswith("base") else alone[name]
                 assert _outcome(p) == want, name
+
+
+def test_a_memo_key_keeps_a_values_type_and_sign():
+    """1, 1.0 and True print apart in a reason (``fmt``), so they are three keys; a value
+    keyed on its own (beside an argument that is not hashable) keeps -0.0 apart too."""
+    from offgrid.memo import freeze_key, memoised
+
+    @memoised
+    def shown(value, table=None) -> str:
+        return repr(value)
+
+    with design_memo():
+        assert [shown(1), shown(1.0), shown(True), shown(1)] == ["1", "1.0", "True", "1"]
+        assert [shown(1, [1]), shown(1.0, [1]), shown(True, [1])] == ["1", "1.0", "True"]
+        assert [shown(-0.0, [1]), shown(0.0, [1])] == ["-0.0", "0.0"]
+    assert freeze_key(-0.0) != freeze_key(0.0)
+    assert len({freeze_key(1), freeze_key(1.0), freeze_key(True)}) == 3
