@@ -124,6 +124,48 @@ Whole runs, December 2026, 2 cores shared with the other engineers' tests (load 
         the lead's run of main on a quiet machine (load < 2): 299.9 s wall, 551 s CPU,
         main peak RSS 1.19 GB, JSON 548 kB.  At load ~5 two cores give each process
         about half a core: the wall time here is the machine's, not the change's.
+
+Issue 18's last figure (December 2026): main at 0a82eb1 on a quiet machine, 200 villages x
+1,000,000 rows: 301.5 s wall, 541.6 s user + 5.4 s sys, 181 % CPU, max RSS 1.26 GB, JSON
+51.6 MB.  Where a distinct design's CPU went then (py-spy, 5,051 designs of 4 villages x
+20,000 rows in one process): the electrical design 38 % (harvest comparison 10, cables 10,
+noon point, string window, layout and protection ~3.5 each), the array step 16, the load
+analysis 12, the memo's own keys 11 (a project table pickled, an unhashable argument
+tuple walked).  Now memoised, each on exactly the figures it reads (a step that reads a
+table takes those figures as arguments, so its key cannot miss one:
+tests/test_plan_memo_keys.py designs, inside one memo, a copy of a project for each of
+its ~70 inputs changed, and each must equal design() alone): the noon operating point,
+the string window and layout, the cables (the PV runs' conductors, each wire's
+reasons), the harvest comparison before the demand, the protection reasons, the
+cautions, the array step's site figures; and the load analysis and the inverter step,
+which read the loads and not the site, so a worker's villages share them.  Hashable
+arguments are their own key (with their types), the rest key one by one.  Every JSON
+equal to main's (apart from the checkout's path in "prices"); all 171 golden designs'
+to_dict() equal to main's.
+
+    designing only, 4 villages x 20,000 rows (5,051 designs), one process, main and this
+    branch at once (same load, 3.0-3.7): 2.22 / 1.71 / 1.81 -> 1.63 / 1.33 / 1.33 ms CPU a
+    design (-22 to -27 %), before the load and inverter memos
+    whole processes (/usr/bin/time; CPU = user + sys of the process and its workers):
+                              main               this branch
+    40 x 100,000, in turn     105.8 s wall       68.9 s wall      load 1.8-3.6, 3.6-3.3
+                              107.3 s CPU        78.4 s CPU (-27 %)
+                              197 MB, 946 rows/s 196 MB, 1,452 rows/s
+    both at once (same load; wall is the two sharing 2 cores):
+    20 x 100,000              71.1 s CPU         58.5 s CPU (-18 %)  load 5.3-6.2
+      (1,260 designs a village, as 1M)  162 MB   162 MB
+    40 x 100,000 (before the  116.5 s CPU        94.3 s CPU (-19 %)  load 3.0-5.4
+      cautions/inverter memos)
+    200 x 100,000             175.6 s CPU        150.6 s CPU (-14 %) load 4.6-5.4
+      (~180 designs a village: less to share within one)  274 MB   273 MB
+    200 x 1,000,000, once, with the others' work on the machine (load 3.1 before, 4.85
+    after; the process got 93 % CPU, i.e. about half of the two cores):
+                              597.3 s wall, 556.2 s user + 5.2 s sys, max RSS 1.26 GB,
+                              1,674 rows/s, JSON 51.6 MB equal to main's
+    The CPU seconds of that run are not comparable with the quiet 541.6 s: today the same
+    main process measured 1.6-2.6 ms CPU a design in runs minutes apart at load 2-5 (two
+    processes on two shared cores slow each other's instructions, not only their wall
+    time); the pairs run at once above are the comparable figures.
 """
 
 from __future__ import annotations

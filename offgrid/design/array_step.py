@@ -36,6 +36,7 @@ from offgrid.design.result import (
     SiteResult,
     fmt,
 )
+from offgrid.memo import memoised
 from offgrid.project.model import BatterySpec, ControllerSpec, Derates, DesignChoices, ModuleSpec
 
 #: Auto system-voltage rule: the lowest of 12/24/48 V that keeps the larger of array and
@@ -159,6 +160,20 @@ def temperature_and_operating_point(
     return f_temp, temp_text, f_op, notices
 
 
+@memoised  # planning: every design of a village has the same site and module
+def _cells_on_site(
+    poa_kwh_m2_day, latitude_deg: float, temp_day_c, noct_c: float, gamma_pmax_pct_per_c: float
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """The site's plane-of-array insolation as an array, the energy-weighted irradiance
+    over the day length, the cell temperature (Ross/NOCT) and the module's power
+    temperature factor at it, 12 months each: what :func:`size_array` reads of the site
+    before the demand."""
+    poa = np.array(poa_kwh_m2_day)  # a copy: the memo makes its results read-only
+    g_w = energy_weighted_irradiance(poa, sky.daylight_hours(latitude_deg))
+    t_cell = cell_temperature_ross(temp_day_c, g_w, noct_c)
+    return poa, g_w, t_cell, temperature_factor(gamma_pmax_pct_per_c, t_cell)
+
+
 def size_array(
     module: ModuleSpec,
     ctrl_spec: ControllerSpec,
@@ -179,17 +194,15 @@ def size_array(
     book = ReasonBook()
     notices: list[Notice] = []
     m = module
-    poa = np.asarray(site.poa_kwh_m2_day)
     demand = np.asarray(loads.daily_energy_wh)
-    daylight = sky.daylight_hours(site.latitude_deg)
-    g_w = energy_weighted_irradiance(poa, daylight)
-    t_cell = cell_temperature_ross(site.temp_day_c, g_w, m.noct_c)
+    poa, g_w, t_cell, f_temp_mppt = _cells_on_site(
+        site.poa_kwh_m2_day, site.latitude_deg, site.temp_day_c, m.noct_c, m.gamma_pmax_pct_per_c
+    )
     d = choices.derates
     soiling, soil_text = soiling_factor(d)
     batt_rt = battery.efficiency
 
-    # A first estimate of power (MPPT chain) fixes the system voltage.
-    f_temp_mppt = temperature_factor(m.gamma_pmax_pct_per_c, t_cell)
+    # A first estimate of power (MPPT chain) fixes the system voltage: f_temp_mppt.
     chain = soiling * d.mismatch * d.wiring * ctrl_spec.efficiency * batt_rt
     rough = float(
         np.max(np.divide(demand, poa * f_temp_mppt * chain, out=np.zeros(12), where=poa > 0))

@@ -12,6 +12,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from offgrid.memo import memoised
+
 #: Extra-low voltage limit for ripple-free DC [V]: IEC 61140:2016 / IEC 60449 band I.
 ELV_DC_LIMIT_V = 120.0
 
@@ -84,6 +86,7 @@ class CautionInputs:
     battery_min_source: str = "the site's record low"  # where battery_min_temp_c comes from
 
 
+@memoised  # planning: a village's designs share a few banks and strings
 def design_cautions(c: CautionInputs) -> tuple[Caution, ...]:
     out: list[Caution] = []
     if c.max_dc_voltage_v > ELV_DC_LIMIT_V:

@@ -134,6 +134,21 @@ def site_geometry(
 # returns what the step itself returns for those arguments.
 
 
+@memoised  # planning: the villages of a programme survey the same demands
+def _load_step(loads, inverter, growth_pct, coincidence_factor, kind: type):
+    """Step 2, :func:`analyse_loads`, with its reasons (``kind``: the reason record in
+    force, part of the memo's key only)."""
+    book = ReasonBook()
+    return analyse_loads(loads, inverter, growth_pct, coincidence_factor, book), book.freeze()
+
+
+@memoised  # planning: villages of one design month share it for one demand
+def _inverter_step(spec, loads: LoadResult, system_v: int, kind: type):
+    """Step 8, :func:`size_inverter` (``kind``: the reason record in force, part of the
+    memo's key only)."""
+    return size_inverter(spec, loads, system_v)
+
+
 @memoised
 def _site_steps(site, min_tilt_deg: float, climate, demand: tuple, kind: type):
     """Steps 1 and 3: :func:`sun_on_plane` and :func:`site_record` (``kind``: the reason
@@ -184,11 +199,12 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     _check_loads(project)
     choices = project.choices
     # 2. loads (first: the tilt search weighs the months by their demand)
-    lr = analyse_loads(
-        project.loads, project.inverter, choices.load_growth_pct, choices.coincidence_factor, book
-    )
-    demand = np.asarray(lr.daily_energy_wh)
     kind = reason_kind()
+    lr, load_reasons = _load_step(
+        project.loads, project.inverter, choices.load_growth_pct, choices.coincidence_factor, kind
+    )
+    book.extend(load_reasons)
+    demand = np.asarray(lr.daily_energy_wh)
     # 1. sun, 3. a first design month and the temperatures
     sun, site_step = _site_steps(
         project.site, choices.min_tilt_deg, climate, tuple(lr.daily_energy_wh), kind
@@ -236,7 +252,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
         project.site.battery_warm_temp_c,
         kind,
     )
-    inv = size_inverter(project.inverter, lr, arr.system_voltage_v)
+    inv = _inverter_step(project.inverter, lr, arr.system_voltage_v, kind)
     for step in (bat, inv):
         book.extend(step.reasons)
     later = [*bat.notices, *inv.notices, *_idle_notices(lr)]

@@ -136,14 +136,14 @@ def electrical_design(project, core, params: DiodeParams | None = None) -> Elect
         module,
         project.controller,
         project.choices.drop_limit_array_pct,
-        noon.temp_day_c,
+        site.temp_day_c,  # noon.temp_day_c's months as a tuple: a cheap memo key
         float(site.record_low_c),
         v_abs,
         params,
     )
     controllers = max(1, int(core.controller.count))
     lay = lay_out_strings(
-        module, params, ctype, lim, noon.temp_day_c, v_abs, core.array, controllers
+        module, params, ctype, lim, site.temp_day_c, v_abs, core.array, controllers
     )
     strings, layout = lay.strings, lay.strings.layout
     plan = plan_runs(

@@ -14,7 +14,8 @@ from offgrid.design import wiring as wr
 from offgrid.design.charging import PwmVoltage, peak_charge_current
 from offgrid.design.inverter_step import inverter_dc_current_a
 from offgrid.design.pv import DiodeParams
-from offgrid.design.result import InverterResult, Notice, Reason, ReasonBook, fmt
+from offgrid.design.result import InverterResult, Notice, Reason, ReasonBook, fmt, reason_kind
+from offgrid.memo import memoised
 from offgrid.project.model import DesignChoices, Load, ModuleSpec, WiringChoices
 
 NEC = "NFPA 70 (NEC) 2023"
@@ -246,131 +247,197 @@ def size_cables(
     plan: RunPlan, wiring: WiringChoices, choices: DesignChoices, vsys: float, ambient_c: float
 ) -> CableStep:
     """The runs of :func:`plan_runs` with their conductors sized (PV runs in series share one
-    drop limit), the reasons of every wire, and the cable warnings."""
-    runs, ambient = plan.runs, ambient_c
-    cable = (
+    drop limit), the reasons of every wire, and the cable warnings.  What it reads of the
+    wiring and the choices is passed on to :func:`_sized_cables` (memoised while planning:
+    a village's designs share a few sets of runs)."""
+    return _sized_cables(
+        plan,
         wiring.units,
         wiring.material,
         wiring.conductor_temp_c,
-        ambient,
         wiring.insulation_temp_c,
+        choices.drop_limit_array_pct,
+        float(choices.derates.wiring),
+        vsys,
+        ambient_c,
+        reason_kind(),
     )
-    pv_runs = [r for r in runs if r.key in ("string", "array")]
+
+
+@memoised
+def _sized_cables(
+    plan: RunPlan,
+    units: str,
+    material: str,
+    conductor_temp_c: float,
+    insulation_temp_c: float,
+    drop_limit_array_pct: float,
+    wiring_derate: float,
+    vsys: float,
+    ambient_c: float,
+    kind: type,
+) -> CableStep:
+    """:func:`size_cables` on the figures it reads (``kind``: the reason record in force,
+    part of the memo's key only)."""
+    runs, ambient = plan.runs, ambient_c
+    cable = (units, material, conductor_temp_c, ambient, insulation_temp_c)
+    pv_runs = tuple(r for r in runs if r.key in ("string", "array"))
     other = [r for r in runs if r.key not in ("string", "array")]
-    wires = tuple(
-        wr.size_runs_in_series(pv_runs, choices.drop_limit_array_pct, *cable)
-        + [wr.size_conductor(r, *cable) for r in other]
+    wires = _pv_wires(pv_runs, drop_limit_array_pct, *cable) + tuple(
+        wr.size_conductor(r, *cable) for r in other
     )
     return CableStep(
         wires,
         plan,
         ambient,
-        wire_reasons(wires, runs, wiring, ambient),
-        cable_notices(wires, vsys, float(choices.derates.wiring)),
+        wire_reasons(wires, runs, units, conductor_temp_c, insulation_temp_c, ambient),
+        cable_notices(wires, vsys, wiring_derate),
     )
 
 
 def wire_reasons(
     wires: tuple[wr.WireChoice, ...],
     runs: tuple[wr.RunSpec, ...],
-    wiring: WiringChoices,
+    units: str,
+    conductor_temp_c: float,
+    insulation_temp_c: float,
     ambient: float,
 ) -> dict[str, Reason]:
-    """The reasons of every figure of every wire (``wires.KEY.FIGURE``)."""
+    """The reasons of every figure of every wire (``wires.KEY.FIGURE``); ``units``,
+    ``conductor_temp_c`` and ``insulation_temp_c`` are the wiring table's."""
     rb = ReasonBook()
-    table = "NEC Chapter 9 Table 8" if wiring.units == "awg" else "IEC 60228"
+    kind = reason_kind()
+    for w in wires:
+        spec = next(r for r in runs if r.key == w.key)
+        rb.extend(
+            _one_wire_reasons(
+                w, spec.length_field, units, conductor_temp_c, insulation_temp_c, ambient, kind
+            )
+        )
+    return rb.freeze()
+
+
+@memoised  # planning: the designs of a village repeat a few PV runs
+def _pv_wires(
+    pv_runs: tuple[wr.RunSpec, ...],
+    limit_pct: float,
+    units: str,
+    material: str,
+    conductor_temp_c: float,
+    ambient_c: float,
+    insulation_c: int,
+) -> tuple[wr.WireChoice, ...]:
+    """:func:`offgrid.design.wiring.size_runs_in_series` of the PV runs, as a tuple."""
+    return tuple(
+        wr.size_runs_in_series(
+            list(pv_runs), limit_pct, units, material, conductor_temp_c, ambient_c, insulation_c
+        )
+    )
+
+
+@memoised  # planning: a village's designs share most of their wires
+def _one_wire_reasons(
+    w: wr.WireChoice,
+    length_field: str | None,
+    units: str,
+    conductor_temp_c: float,
+    insulation_temp_c: float,
+    ambient: float,
+    record: type,
+) -> dict[str, Reason]:
+    """The reasons of one wire's figures (``length_field``: its run's; ``record``: the
+    reason record in force, part of the memo's key only)."""
+    rb = ReasonBook()
+    table = "NEC Chapter 9 Table 8" if units == "awg" else "IEC 60228"
     amp_table = (
         "NEC Table 310.16 with Table 310.15(B)(1)(1), 110.14(C)"
-        if wiring.units == "awg"
+        if units == "awg"
         else "IEC 60364-5-52 Tables B.52.4/B.52.5, B.52.14"
     )
-    for w in wires:
-        base = f"wires.{w.key}"
-        kind = w.key if w.key in WIRE_CURRENT_RULE else "load"
+    base = f"wires.{w.key}"
+    rule = w.key if w.key in WIRE_CURRENT_RULE else "load"
+    rb.add(
+        f"{base}.size",
+        "smallest listed size whose ampacity >= max(1.25 x max current, "
+        "fuse) and whose voltage drop is within the run's limit",
+        f"{NEC} 690.8(B), 215.2; {amp_table}",
+        max_current=fmt(w.current_a, "A"),
+        required_ampacity=fmt(w.required_ampacity_a, "A"),
+        length=fmt(w.length_m, "m"),
+        ambient=fmt(ambient, "C"),
+        material=w.material,
+    )
+    rb.add(
+        f"{base}.drop_pct",
+        "100 x 2 x one-way length x drop current (drop_current_a, "
+        "the operating current) x resistance / circuit voltage",
+        f"{table}, corrected to conductor temperature",
+        length=fmt(w.length_m, "m"),
+        drop_current=fmt(w.operating_current_a, "A"),
+        resistance=fmt(w.resistance_ohm_km, "ohm/km"),
+        circuit_voltage=fmt(w.voltage_v, "V"),
+        conductor_temp=fmt(conductor_temp_c, "C"),
+        limit=fmt(w.drop_limit_pct, "%"),
+    )
+    rb.add(
+        f"{base}.drop_current_a",
+        "the operating current the voltage drop is computed with, by the rule of its kind of run",
+        "common practice, no source",
+        rule=WIRE_DROP_CURRENT_RULE[rule],
+        value=fmt(w.operating_current_a, "A"),
+    )
+    rb.add(
+        f"{base}.voltage_v",
+        "circuit voltage the drop is a percentage of: the string's "
+        "operating voltage on the PV side, the system voltage on the battery side",
+        "common practice, no source",
+        value=fmt(w.voltage_v, "V"),
+    )
+    rb.add(
+        f"{base}.resistance_ohm_km",
+        "conductor resistance at the conductor temperature",
+        f"{table}, corrected to conductor temperature",
+        conductor_temp=fmt(conductor_temp_c, "C"),
+        size=w.size,
+    )
+    rb.add(
+        f"{base}.ampacity_a",
+        "table ampacity x ambient correction, within the terminal rating",
+        amp_table,
+        ambient=fmt(ambient, "C"),
+        insulation=fmt(insulation_temp_c, "C"),
+    )
+    rb.add(
+        f"{base}.current_a",
+        "the circuit's maximum continuous current (for ampacity and "
+        "protection), by the rule of its kind of run",
+        f"{NEC} 690.8(A)(1) for PV circuits; the rest common practice, no source",
+        rule=WIRE_CURRENT_RULE[rule],
+        value=fmt(w.current_a, "A"),
+    )
+    rb.add(
+        f"{base}.length_m",
+        "one-way length of the run as set in the project (typed, or the default)",
+        "project file",
+        field=length_field or "wiring",
+        value=fmt(w.length_m, "m"),
+    )
+    rb.add(
+        f"{base}.count",
+        "identical runs: one per string (string runs) or per "
+        "controller (array and charge runs), else one",
+        "common practice, no source",
+        count=str(w.count),
+    )
+    if w.fuse_a is not None:
         rb.add(
-            f"{base}.size",
-            "smallest listed size whose ampacity >= max(1.25 x max current, "
-            "fuse) and whose voltage drop is within the run's limit",
-            f"{NEC} 690.8(B), 215.2; {amp_table}",
-            max_current=fmt(w.current_a, "A"),
-            required_ampacity=fmt(w.required_ampacity_a, "A"),
-            length=fmt(w.length_m, "m"),
-            ambient=fmt(ambient, "C"),
-            material=w.material,
+            f"{base}.fuse_a",
+            "smallest standard rating >= 1.25 x the circuit current, not "
+            "above the conductor's ampacity",
+            f"{NEC} 240.6(A), 690.9(B), 240.4",
+            current=fmt(w.current_a, "A"),
+            ampacity=fmt(w.ampacity_a, "A"),
         )
-        rb.add(
-            f"{base}.drop_pct",
-            "100 x 2 x one-way length x drop current (drop_current_a, "
-            "the operating current) x resistance / circuit voltage",
-            f"{table}, corrected to conductor temperature",
-            length=fmt(w.length_m, "m"),
-            drop_current=fmt(w.operating_current_a, "A"),
-            resistance=fmt(w.resistance_ohm_km, "ohm/km"),
-            circuit_voltage=fmt(w.voltage_v, "V"),
-            conductor_temp=fmt(wiring.conductor_temp_c, "C"),
-            limit=fmt(w.drop_limit_pct, "%"),
-        )
-        rb.add(
-            f"{base}.drop_current_a",
-            "the operating current the voltage drop is computed "
-            "with, by the rule of its kind of run",
-            "common practice, no source",
-            rule=WIRE_DROP_CURRENT_RULE[kind],
-            value=fmt(w.operating_current_a, "A"),
-        )
-        rb.add(
-            f"{base}.voltage_v",
-            "circuit voltage the drop is a percentage of: the string's "
-            "operating voltage on the PV side, the system voltage on the battery side",
-            "common practice, no source",
-            value=fmt(w.voltage_v, "V"),
-        )
-        rb.add(
-            f"{base}.resistance_ohm_km",
-            "conductor resistance at the conductor temperature",
-            f"{table}, corrected to conductor temperature",
-            conductor_temp=fmt(wiring.conductor_temp_c, "C"),
-            size=w.size,
-        )
-        rb.add(
-            f"{base}.ampacity_a",
-            "table ampacity x ambient correction, within the terminal rating",
-            amp_table,
-            ambient=fmt(ambient, "C"),
-            insulation=fmt(wiring.insulation_temp_c, "C"),
-        )
-        rb.add(
-            f"{base}.current_a",
-            "the circuit's maximum continuous current (for ampacity and "
-            "protection), by the rule of its kind of run",
-            f"{NEC} 690.8(A)(1) for PV circuits; the rest common practice, no source",
-            rule=WIRE_CURRENT_RULE[kind],
-            value=fmt(w.current_a, "A"),
-        )
-        spec = next(r for r in runs if r.key == w.key)
-        rb.add(
-            f"{base}.length_m",
-            "one-way length of the run as set in the project (typed, or the default)",
-            "project file",
-            field=spec.length_field or "wiring",
-            value=fmt(w.length_m, "m"),
-        )
-        rb.add(
-            f"{base}.count",
-            "identical runs: one per string (string runs) or per "
-            "controller (array and charge runs), else one",
-            "common practice, no source",
-            count=str(w.count),
-        )
-        if w.fuse_a is not None:
-            rb.add(
-                f"{base}.fuse_a",
-                "smallest standard rating >= 1.25 x the circuit current, not "
-                "above the conductor's ampacity",
-                f"{NEC} 240.6(A), 690.9(B), 240.4",
-                current=fmt(w.current_a, "A"),
-                ampacity=fmt(w.ampacity_a, "A"),
-            )
     return rb.freeze()
 
 

@@ -4,6 +4,7 @@ as sized, and the shortfall of the chosen one against each month's demand."""
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -14,8 +15,15 @@ from offgrid.design.electrical.records import HarvestResult
 from offgrid.design.harvest import HarvestInputs, harvest_wh_day
 from offgrid.design.months import MONTHS as MONTH_NAMES
 from offgrid.design.pv import DiodeParams
-from offgrid.design.result import Notice, Reason, ReasonBook, fmt
+from offgrid.design.result import Notice, Reason, ReasonBook, fmt, reason_kind
+from offgrid.memo import memoised
 from offgrid.project.model import ModuleSpec
+
+#: The source of the harvest figures' reasons.
+HARVEST_SOURCE = (
+    "De Soto (2006) I-V curve at each step of the month's mean day (Collares-Pereira & "
+    "Rabl 1979 / Liu & Jordan profile, isotropic sky, scaled to the monthly POA)"
+)
 
 
 @dataclass(frozen=True)
@@ -53,22 +61,30 @@ def compare_harvests(
     ``design_month``: 0-based).  ``pwm_voltage``: the one PWM operating voltage
     (:func:`offgrid.design.charging.pwm_operating_voltage`); the curves take its battery
     side and the sized cables' resistance as the drop."""
-    from offgrid.design.electrical.string_layout import other_layout
-
-    rb = ReasonBook()
-    v_chg = pwm_voltage.battery_v
-    notices: list[Notice] = []
-    m = design_month
-    # Harvest both ways with the chosen cables; the other controller type on its own layout.
-    loop = {w.key: 2.0 * w.length_m * w.resistance_ohm_km / 1000.0 for w in wires}
-    alt = other_layout(
-        ctype, layout, module.vmp_v, max_pv_voltage_v, voc_cold, vmp_hot, v_abs, pwm_drop
+    both = _both_harvests(
+        params,
+        module.noct_c,
+        module.vmp_v,
+        ctype,
+        layout,
+        tuple((w.key, 2.0 * w.length_m * w.resistance_ohm_km / 1000.0) for w in wires),
+        noon.profile,
+        noon.step_h,
+        noon.temp_day_c,
+        design_month,
+        max_pv_voltage_v,
+        voc_cold,
+        vmp_hot,
+        vsys,
+        v_abs,
+        pwm_drop,
+        pwm_voltage,
+        eff,
+        soiling,
+        mismatch,
+        reason_kind(),
     )
-    mppt_layout, pwm_layout = (layout, alt) if ctype == "mppt" else (alt, layout)
-
-    common = (params, module.noct_c, noon, layout, loop, v_chg, eff, soiling, mismatch)
-    mppt = layout_harvest_wh_day(mppt_layout, *common)[0]
-    pwm = layout_harvest_wh_day(pwm_layout, *common)[1]
+    pwm, mppt = both.pwm, both.mppt
     chosen = pwm if ctype == "pwm" else mppt
     demand_m = np.asarray(daily_energy_wh, dtype=float)
     eta_batt = float(battery_efficiency)
@@ -80,49 +96,32 @@ def compare_harvests(
     ms = int(np.argmax(short_m))
     shortfall = max(0.0, float(short_m[ms]))
     demand = float(demand_m[ms])
-    # Per module: each controller type on its own best layout of these modules, which may
-    # hold a different number of them (whole strings); compared per module installed.
-    n_pwm, n_mppt = pwm_layout.module_count, mppt_layout.module_count
-    per_pwm, per_mppt = pwm[m] / n_pwm, mppt[m] / n_mppt
-    pwm_vs = float(100.0 * (per_pwm / per_mppt - 1.0)) if per_mppt > 0 else 0.0
     harvest = HarvestResult(
         ctype,
-        tuple(pwm.tolist()),
-        tuple(mppt.tolist()),
-        tuple(chosen.tolist()),
-        v_chg,
-        m + 1,
-        pwm_vs,
+        both.pwm_wh_day,
+        both.mppt_wh_day,
+        both.pwm_wh_day if ctype == "pwm" else both.mppt_wh_day,
+        pwm_voltage.battery_v,
+        design_month + 1,
+        both.pwm_vs_mppt_pct,
         shortfall,
-        (pwm_layout.series, pwm_layout.parallel),
-        (mppt_layout.series, mppt_layout.parallel),
+        (both.pwm_layout.series, both.pwm_layout.parallel),
+        (both.mppt_layout.series, both.mppt_layout.parallel),
     )
-    rb.extend(
-        _harvest_reasons(
-            HarvestFigures(
-                vsys=vsys,
-                v_abs=v_abs,
-                pwm=pwm,
-                m=m,
-                n_pwm=n_pwm,
-                per_pwm=per_pwm,
-                mppt=mppt,
-                n_mppt=n_mppt,
-                per_mppt=per_mppt,
-                ms=ms,
-                chosen=chosen,
-                eta_batt=eta_batt,
-                demand=demand,
-                mppt_layout=mppt_layout,
-                eff=eff,
-                soiling=soiling,
-                mismatch=mismatch,
-                v_chg=v_chg,
-                pwm_layout=pwm_layout,
-                pwm_voltage=pwm_voltage,
-            )
-        )
+    rb = ReasonBook()
+    rb.extend(both.reasons_before)
+    rb.add(
+        "harvest.shortfall_pct",
+        "1 - harvest through the chosen controller x battery "
+        "round trip / demand, in the month where it is largest, when positive",
+        HARVEST_SOURCE,
+        month=MONTH_NAMES[ms],
+        harvest=fmt(float(chosen[ms]), "Wh/day"),
+        round_trip=fmt(eta_batt),
+        demand=fmt(demand, "Wh/day"),
     )
+    rb.extend(both.reasons_after)
+    notices: list[Notice] = []
     if shortfall > 0.5:
         notices.append(
             Notice(
@@ -137,6 +136,104 @@ def compare_harvests(
                 "array.harvest_pwm_wh_day" if ctype == "pwm" else "array.harvest_mppt_wh_day",
             )
         )
+    notices.extend(both.notices)
+    return HarvestStep(harvest, rb.freeze(), tuple(notices))
+
+
+class MeanDay(NamedTuple):
+    """What the harvest reads of the noon step: the mean-day profile and temperatures."""
+
+    profile: np.ndarray
+    step_h: np.ndarray
+    temp_day_c: np.ndarray
+
+
+@dataclass(frozen=True)
+class BothHarvests:
+    """The part of the comparison that does not read the demand (:func:`_both_harvests`)."""
+
+    pwm: np.ndarray  # Wh/day, 12 months (read-only)
+    mppt: np.ndarray
+    pwm_wh_day: tuple[float, ...]
+    mppt_wh_day: tuple[float, ...]
+    pwm_layout: st.Layout
+    mppt_layout: st.Layout
+    pwm_vs_mppt_pct: float
+    reasons_before: dict[str, Reason]  # the reasons before the shortfall's, in order
+    reasons_after: dict[str, Reason]  # and after it
+    notices: tuple[Notice, ...]
+
+
+@memoised  # planning: a village's designs share a few layouts, cables and design months
+def _both_harvests(
+    params: DiodeParams,
+    noct_c: float,
+    module_vmp_v: float,
+    ctype: str,
+    layout: st.Layout,
+    loop_items: tuple[tuple[str, float], ...],
+    profile: np.ndarray,
+    step_h: np.ndarray,
+    temp_day_c: np.ndarray,
+    design_month: int,
+    max_pv_voltage_v: float,
+    voc_cold: float,
+    vmp_hot: float,
+    vsys: float,
+    v_abs: float,
+    pwm_drop: float,
+    pwm_voltage: PwmVoltage,
+    eff: float,
+    soiling: float,
+    mismatch: float,
+    kind: type,
+) -> BothHarvests:
+    """Harvest through the chosen controller on its layout and through the other type on
+    its own best layout of the same modules, with their reasons and the PWM mismatch
+    warning: what :func:`compare_harvests` computes before the demand (``kind``: the
+    reason record in force, part of the memo's key only)."""
+    from offgrid.design.electrical.string_layout import other_layout
+
+    v_chg = pwm_voltage.battery_v
+    m = design_month
+    # Harvest both ways with the chosen cables; the other controller type on its own layout.
+    loop = dict(loop_items)
+    alt = other_layout(
+        ctype, layout, module_vmp_v, max_pv_voltage_v, voc_cold, vmp_hot, v_abs, pwm_drop
+    )
+    mppt_layout, pwm_layout = (layout, alt) if ctype == "mppt" else (alt, layout)
+    day = MeanDay(profile, step_h, temp_day_c)
+    common = (params, noct_c, day, layout, loop, v_chg, eff, soiling, mismatch)
+    mppt = layout_harvest_wh_day(mppt_layout, *common)[0]
+    pwm = layout_harvest_wh_day(pwm_layout, *common)[1]
+    # Per module: each controller type on its own best layout of these modules, which may
+    # hold a different number of them (whole strings); compared per module installed.
+    n_pwm, n_mppt = pwm_layout.module_count, mppt_layout.module_count
+    per_pwm, per_mppt = pwm[m] / n_pwm, mppt[m] / n_mppt
+    pwm_vs = float(100.0 * (per_pwm / per_mppt - 1.0)) if per_mppt > 0 else 0.0
+    reasons = _harvest_reasons(
+        HarvestFigures(
+            vsys=vsys,
+            v_abs=v_abs,
+            pwm=pwm,
+            m=m,
+            n_pwm=n_pwm,
+            per_pwm=per_pwm,
+            mppt=mppt,
+            n_mppt=n_mppt,
+            per_mppt=per_mppt,
+            mppt_layout=mppt_layout,
+            eff=eff,
+            soiling=soiling,
+            mismatch=mismatch,
+            v_chg=v_chg,
+            pwm_layout=pwm_layout,
+            pwm_voltage=pwm_voltage,
+        )
+    )
+    keys = list(reasons)
+    cut = keys.index("harvest.pwm_vs_mppt_pct") + 1
+    notices: list[Notice] = []
     if ctype == "pwm" and pwm_vs < -20.0:
         notices.append(
             Notice(
@@ -149,7 +246,20 @@ def compare_harvests(
                 "array.harvest_pwm_wh_day",
             )
         )
-    return HarvestStep(harvest, rb.freeze(), tuple(notices))
+    for arr in (pwm, mppt):
+        arr.flags.writeable = False
+    return BothHarvests(
+        pwm,
+        mppt,
+        tuple(pwm.tolist()),
+        tuple(mppt.tolist()),
+        pwm_layout,
+        mppt_layout,
+        pwm_vs,
+        {k: reasons[k] for k in keys[:cut]},
+        {k: reasons[k] for k in keys[cut:]},
+        tuple(notices),
+    )
 
 
 def layout_harvest_wh_day(
@@ -219,10 +329,6 @@ class HarvestFigures:
     mppt: np.ndarray
     n_mppt: int
     per_mppt: float
-    ms: int
-    chosen: np.ndarray
-    eta_batt: float
-    demand: float
     mppt_layout: st.Layout
     eff: float
     soiling: float
@@ -233,7 +339,8 @@ class HarvestFigures:
 
 
 def _harvest_reasons(k: HarvestFigures) -> dict[str, Reason]:
-    """Reasons of the charging voltage, both harvests, their layouts and the shortfall."""
+    """Reasons of the charging voltage, both harvests and their layouts (the shortfall's
+    is :func:`compare_harvests`'s: it reads the demand)."""
     vsys = k.vsys
     pwm = k.pwm
     m = k.m
@@ -242,10 +349,6 @@ def _harvest_reasons(k: HarvestFigures) -> dict[str, Reason]:
     mppt = k.mppt
     n_mppt = k.n_mppt
     per_mppt = k.per_mppt
-    ms = k.ms
-    chosen = k.chosen
-    eta_batt = k.eta_batt
-    demand = k.demand
     mppt_layout = k.mppt_layout
     eff = k.eff
     soiling = k.soiling
@@ -253,10 +356,7 @@ def _harvest_reasons(k: HarvestFigures) -> dict[str, Reason]:
     v_chg = k.v_chg
     pwm_layout = k.pwm_layout
     rb = ReasonBook()
-    hsrc = (
-        "De Soto (2006) I-V curve at each step of the month's mean day (Collares-Pereira & "
-        "Rabl 1979 / Liu & Jordan profile, isotropic sky, scaled to the monthly POA)"
-    )
+    hsrc = HARVEST_SOURCE
     rb.add(
         "harvest.charging_voltage_v",
         "battery voltage a PWM array works against (the battery side of the PWM operating "
@@ -275,16 +375,6 @@ def _harvest_reasons(k: HarvestFigures) -> dict[str, Reason]:
         hsrc,
         pwm=f"{pwm[m]:.0f} Wh/day from {n_pwm} modules ({per_pwm:.1f} per module)",
         mppt=f"{mppt[m]:.0f} Wh/day from {n_mppt} modules ({per_mppt:.1f} per module)",
-    )
-    rb.add(
-        "harvest.shortfall_pct",
-        "1 - harvest through the chosen controller x battery "
-        "round trip / demand, in the month where it is largest, when positive",
-        hsrc,
-        month=MONTH_NAMES[ms],
-        harvest=fmt(float(chosen[ms]), "Wh/day"),
-        round_trip=fmt(eta_batt),
-        demand=fmt(demand, "Wh/day"),
     )
     rb.add(
         "harvest.pwm_layout",

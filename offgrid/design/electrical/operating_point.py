@@ -15,7 +15,16 @@ from offgrid.design.pv import (
     iv_curve,
     validate_module,
 )
-from offgrid.design.result import DesignError, Notice, Reason, ReasonBook, SiteResult, fmt
+from offgrid.design.result import (
+    DesignError,
+    Notice,
+    Reason,
+    ReasonBook,
+    SiteResult,
+    fmt,
+    reason_kind,
+)
+from offgrid.memo import memoised
 from offgrid.project.model import ModuleSpec
 
 
@@ -67,18 +76,49 @@ def noon_operating_point(
     """The design month's mean-day irradiance profile and one module's I-V curve at its noon.
 
     ``albedo``: the ground reflectance in force (the site result's, else the project's).
+    What it reads of the module and the site is passed on to :func:`_noon_point`, which
+    planning memoises on exactly those figures (a village's designs share a few design
+    months, not their demands).
     """
-    rb = ReasonBook()
-    m = int(site.design_month) - 1
-    profile, step_h = daily_poa_profile(
+    return _noon_point(
+        module.noct_c,
+        module.area_m2,
+        params,
+        int(site.design_month),
         site.horizontal_kwh_m2_day,
         site.poa_kwh_m2_day,
         site.latitude_deg,
         site.tilt_deg,
         site.azimuth_deg,
+        site.temp_day_c,
         albedo,
+        reason_kind(),
     )
-    temp_day = np.asarray(site.temp_day_c, dtype=float)
+
+
+@memoised
+def _noon_point(
+    noct_c: float,
+    area_m2: float,
+    params: DiodeParams,
+    design_month: int,
+    horizontal_kwh_m2_day,
+    poa_kwh_m2_day,
+    latitude_deg: float,
+    tilt_deg: float,
+    azimuth_deg: float,
+    temp_day_c,
+    albedo,
+    kind: type,
+) -> NoonStep:
+    """:func:`noon_operating_point` on the figures it reads (``kind``: the reason record in
+    force, part of the memo's key only)."""
+    rb = ReasonBook()
+    m = design_month - 1
+    profile, step_h = daily_poa_profile(
+        horizontal_kwh_m2_day, poa_kwh_m2_day, latitude_deg, tilt_deg, azimuth_deg, albedo
+    )
+    temp_day = np.asarray(temp_day_c, dtype=float)
 
     # Design-month operating point at solar noon (the middle of the profile).
     g_noon = float(profile[m].max())
@@ -89,8 +129,8 @@ def noon_operating_point(
             "climate data and the array tilt.",
             field="climate",
         )
-    tc_noon = float(cell_temperature_ross(temp_day[m], g_noon, module.noct_c))
-    curve = iv_curve(params, g_noon, tc_noon, module.area_m2)
+    tc_noon = float(cell_temperature_ross(temp_day[m], g_noon, noct_c))
+    curve = iv_curve(params, g_noon, tc_noon, area_m2)
     mpp = curve.point
     src_noon = (
         "De Soto (2006) model at the design month's solar-noon irradiance "
@@ -102,7 +142,7 @@ def noon_operating_point(
         "mpp.irradiance_w_m2",
         "plane-of-array irradiance at solar noon of the design month's mean day",
         src_noon,
-        insolation=fmt(float(site.poa_kwh_m2_day[m]), "kWh/m2/day"),
+        insolation=fmt(float(poa_kwh_m2_day[m]), "kWh/m2/day"),
     )
     rb.add(
         "mpp.cell_temp_c",
@@ -110,7 +150,7 @@ def noon_operating_point(
         "Duffie & Beckman 4th ed. eq. 23.3.3 (NOCT method)",
         ambient=fmt(temp_day[m], "C"),
         irradiance=fmt(g_noon, "W/m2"),
-        noct=fmt(module.noct_c, "C"),
+        noct=fmt(noct_c, "C"),
     )
     for key in ("voltage_v", "current_a", "power_w", "irradiance_w_m2", "cell_temp_c"):
         rb.add(
@@ -140,6 +180,6 @@ def noon_operating_point(
             irradiance=fmt(g_noon, "W/m2"),
             cell_temp=fmt(tc_noon, "C"),
             value=fmt(val, unit),
-            area=fmt(module.area_m2, "m2"),
+            area=fmt(area_m2, "m2"),
         )
     return NoonStep(profile, step_h, temp_day, curve, mpp, rb.freeze())

@@ -9,7 +9,15 @@ from offgrid.design import protection as prot
 from offgrid.design import wiring as wr
 from offgrid.design.electrical.cable_runs import NEC, CableStep
 from offgrid.design.electrical.records import ProtectionResult, StringDesign
-from offgrid.design.result import BatteryResult, InverterResult, Reason, ReasonBook, fmt
+from offgrid.design.result import (
+    BatteryResult,
+    InverterResult,
+    Reason,
+    ReasonBook,
+    fmt,
+    reason_kind,
+)
+from offgrid.memo import memoised
 from offgrid.project.model import Load
 
 
@@ -220,7 +228,14 @@ class ProtectionFigures:
 
 
 def _protection_reasons(k: ProtectionFigures) -> dict[str, Reason]:
-    """Reasons of the fault current, the battery and string fuses and the device ratings."""
+    """Reasons of the fault current, the battery and string fuses and the device ratings
+    (memoised while planning on the figures they quote and the reason record in force)."""
+    return _quoted_reasons(k, reason_kind())
+
+
+@memoised  # planning: a village's designs share a few banks, inverters and strings
+def _quoted_reasons(k: ProtectionFigures, kind: type) -> dict[str, Reason]:
+    """:func:`_protection_reasons` (``kind``: part of the memo's key only)."""
     estimated = k.estimated
     unit_sc = k.unit_sc
     n_bat = k.n_bat

@@ -10,7 +10,16 @@ import numpy as np
 from offgrid.design import strings as st
 from offgrid.design.electrical.records import StringDesign
 from offgrid.design.pv import DiodeParams, cell_temperature_ross, fit_module, module_mpp
-from offgrid.design.result import ArrayResult, DesignError, Notice, Reason, ReasonBook, fmt
+from offgrid.design.result import (
+    ArrayResult,
+    DesignError,
+    Notice,
+    Reason,
+    ReasonBook,
+    fmt,
+    reason_kind,
+)
+from offgrid.memo import memoised
 from offgrid.project.model import ControllerSpec, ModuleSpec
 
 NEC = "NFPA 70 (NEC) 2023"
@@ -45,19 +54,49 @@ def string_limits(
     """
     if params is None:
         params = fit_module(module)
-    voc_cold, rule = st.voc_cold_v(module.voc_v, module.beta_voc_pct_per_c, record_low_c)
+    return _limits(
+        module.voc_v,
+        module.beta_voc_pct_per_c,
+        module.noct_c,
+        module.vmp_v,
+        controller.type,
+        controller.max_pv_voltage_v,
+        drop_limit_array_pct,
+        temp_day_c,
+        record_low_c,
+        absorption_v,
+        params,
+    )
+
+
+@memoised  # planning: a village's designs share a few windows
+def _limits(
+    voc_v: float,
+    beta_voc_pct_per_c: float | None,
+    noct_c: float,
+    vmp_v: float,
+    ctype: str,
+    max_pv_voltage_v: float,
+    drop_limit_array_pct: float,
+    temp_day_c,
+    record_low_c: float,
+    absorption_v: float,
+    params: DiodeParams,
+) -> StringLimits:
+    """:func:`string_limits` on the figures it reads of the module and controller."""
+    voc_cold, rule = st.voc_cold_v(voc_v, beta_voc_pct_per_c, record_low_c)
     t_max = float(np.max(np.asarray(temp_day_c, dtype=float)))
-    hot_tc = float(cell_temperature_ross(t_max, HOT_IRRADIANCE_W_M2, module.noct_c))
+    hot_tc = float(cell_temperature_ross(t_max, HOT_IRRADIANCE_W_M2, noct_c))
     vmp_hot = float(module_mpp(params, HOT_IRRADIANCE_W_M2, hot_tc)[0])
     pwm_drop = drop_limit_array_pct / 100.0 * absorption_v
     window = st.string_window(
-        controller.type,
-        float(controller.max_pv_voltage_v),
+        ctype,
+        float(max_pv_voltage_v),
         voc_cold,
         vmp_hot,
         absorption_v,
         pwm_drop,
-        module.vmp_v,
+        vmp_v,
     )
     return StringLimits(window, voc_cold, rule, vmp_hot, hot_tc, record_low_c, pwm_drop)
 
@@ -81,26 +120,63 @@ def lay_out_strings(
     controller_count: int,
 ) -> StringStep:
     """The worst-month array's layout checked against the string window (laid out again
-    when it does not fit), with the window's figures and their reasons."""
+    when it does not fit), with the window's figures and their reasons.  What it reads of
+    the module and the array is passed on to :func:`_lay_out` (memoised while planning:
+    a village's designs share a few layouts)."""
+    return _lay_out(
+        module.voc_v,
+        module.noct_c,
+        module.vmp_v,
+        params,
+        ctype,
+        lim,
+        temp_day,
+        v_abs,
+        array.modules_series,
+        array.modules_parallel,
+        array.module_count,
+        controller_count,
+        reason_kind(),
+    )
+
+
+@memoised
+def _lay_out(
+    voc_v: float,
+    noct_c: float,
+    vmp_v: float,
+    params: DiodeParams,
+    ctype: str,
+    lim: StringLimits,
+    temp_day,
+    v_abs: float,
+    modules_series: int,
+    modules_parallel: int,
+    module_count: int,
+    controller_count: int,
+    kind: type,
+) -> StringStep:
+    """:func:`lay_out_strings` on the figures it reads (``kind``: the reason record in
+    force, part of the memo's key only)."""
     rb = ReasonBook()
     notices: list[Notice] = []
     temp_day = np.asarray(temp_day, dtype=float)
     window, voc_cold, voc_rule = lim.window, lim.voc_cold_v, lim.voc_rule
     vmp_hot, hot_tc, record_low = lim.vmp_hot_v, lim.hot_cell_temp_c, lim.record_low_c
     controllers = max(1, int(controller_count))
-    core_series = int(array.modules_series)
-    if st.layout_fits(window, core_series) and array.modules_parallel >= 1:
-        per = math.ceil(array.modules_parallel / controllers)
+    core_series = int(modules_series)
+    if st.layout_fits(window, core_series) and modules_parallel >= 1:
+        per = math.ceil(modules_parallel / controllers)
         layout = st.Layout(
             core_series,
-            int(array.modules_parallel),
+            int(modules_parallel),
             controllers,
             per,
-            core_series * int(array.modules_parallel),
+            core_series * int(modules_parallel),
         )
         changed = False
     else:
-        layout = st.choose_layout(window, int(array.module_count), controllers)
+        layout = st.choose_layout(window, int(module_count), controllers)
         changed = True
         notices.append(
             Notice(
@@ -124,7 +200,7 @@ def lay_out_strings(
         layout.series * vmp_hot,
         changed,
     )
-    rb.extend(_string_reasons(module, params, ctype, strings, temp_day, v_abs))
+    rb.extend(_string_reasons(voc_v, noct_c, vmp_v, params, ctype, strings, temp_day, v_abs))
     if window.hot_vmp_short and ctype == "pwm":
         notices.append(
             Notice(
@@ -164,7 +240,9 @@ def other_layout(
 
 
 def _string_reasons(
-    module: ModuleSpec,
+    voc_v: float,
+    noct_c: float,
+    vmp_v: float,
     params: DiodeParams,
     ctype: str,
     strings: StringDesign,
@@ -181,7 +259,7 @@ def _string_reasons(
         "module Voc at the record low ambient: Voc x (1 + beta (Tlow - "
         "25 C)), or x the Table 690.7(A) factor without a coefficient",
         f"{NEC} 690.7(A)",
-        voc_stc=fmt(module.voc_v, "V"),
+        voc_stc=fmt(voc_v, "V"),
         record_low=fmt(record_low, "C"),
         rule=voc_rule,
     )
@@ -192,7 +270,7 @@ def _string_reasons(
         params.method,
         cell_temp=fmt(hot_tc, "C"),
         ambient=fmt(float(temp_day.max()), "C"),
-        noct=fmt(module.noct_c, "C"),
+        noct=fmt(noct_c, "C"),
     )
     rb.add(
         "controller.max_pv_voltage_v",
@@ -209,7 +287,7 @@ def _string_reasons(
         "hottest month's daytime air temperature + (NOCT - 20 C) x 1000 W/m2 / 800 W/m2",
         "Duffie & Beckman 4th ed. eq. 23.3.3 (NOCT method)",
         ambient=fmt(float(temp_day.max()), "C"),
-        noct=fmt(module.noct_c, "C"),
+        noct=fmt(noct_c, "C"),
     )
     rb.add(
         "strings.record_low_c",
@@ -284,6 +362,6 @@ def _string_reasons(
             "module's suitability for PWM at this battery voltage",
             "common practice, no source",
             required=fmt(window.required_vmp_v, "V"),
-            vmp_stc=fmt(module.vmp_v, "V"),
+            vmp_stc=fmt(vmp_v, "V"),
         )
     return rb.freeze()
