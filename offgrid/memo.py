@@ -29,6 +29,7 @@ fails loudly instead of corrupting the memo).
 from __future__ import annotations
 
 import functools
+import itertools
 import math
 import pickle
 from collections.abc import Callable, Iterator
@@ -136,7 +137,10 @@ def memoised(func: Callable) -> Callable:
                 pass
         out = _readonly(func(*args, **kwargs))
         if len(cache) >= MAX_ENTRIES:
-            cache.clear()
+            # Drop the oldest quarter (a dict keeps insertion order): the village being
+            # planned keeps what it has built, where clearing all lost it mid-village.
+            for old in list(itertools.islice(cache, MAX_ENTRIES // 4)):
+                del cache[old]
         cache[key] = out
         return out
 

@@ -173,3 +173,28 @@ def test_a_memo_key_keeps_a_values_type_and_sign():
         assert [shown(-0.0, [1]), shown(0.0, [1])] == ["-0.0", "0.0"]
     assert freeze_key(-0.0) != freeze_key(0.0)
     assert len({freeze_key(1), freeze_key(1.0), freeze_key(True)}) == 3
+
+
+def test_a_full_memo_drops_its_oldest_entries_not_the_newest():
+    # A worker plans village after village: the memo is bounded, and when full it must
+    # keep the entries of the village being planned (the newest), not start again empty.
+    from offgrid import memo
+
+    calls: list[int] = []
+
+    @memo.memoised
+    def square(x: int) -> int:
+        calls.append(x)
+        return x * x
+
+    with memo.design_memo():
+        for x in range(memo.MAX_ENTRIES + 10):
+            square(x)
+        assert len(square.cache) <= memo.MAX_ENTRIES
+        calls.clear()
+        newest = range(memo.MAX_ENTRIES - 100, memo.MAX_ENTRIES + 10)  # across the limit
+        assert [square(x) for x in newest] == [x * x for x in newest]
+        assert calls == []  # served from the memo
+        square(0)
+        assert calls == [0]  # the oldest was dropped
+    memo._caches.remove(square.cache)
