@@ -269,6 +269,7 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
         albedo=_albedo(monthly, sub),
     )
     _text(data, "name", where)
+    climate.months_to_type = _months_to_type(data, where)
     problems = monthly_climate_problems(climate, where, sub)
     if problems:
         path, message = problems[0]
@@ -276,6 +277,49 @@ def climate_from_dict(data: dict, where: str = "climate") -> MonthlyClimate:
     if "daily" in data:
         climate.daily = daily_from_dict(data["daily"], f"{where}.daily")
     return climate
+
+
+def _months_to_type(data: dict, where: str) -> dict[str, tuple[int, ...]]:
+    """The optional ``months_to_type`` table: row -> month numbers still to type."""
+    table = data.get("months_to_type")
+    if table is None:
+        return {}
+    if not isinstance(table, dict):
+        raise ClimateFileError(
+            f"{where}.months_to_type: must be a table of month-number lists "
+            "(e.g. temp_mean_c = [1, 2]); remove it once every month is typed"
+        )
+    out: dict[str, tuple[int, ...]] = {}
+    for key, months in table.items():
+        if not isinstance(months, list) or not all(
+            isinstance(m, int) and not isinstance(m, bool) for m in months
+        ):
+            raise ClimateFileError(f"{where}.months_to_type.{key}: {_MONTHS_TO_TYPE_FIX}")
+        out[key] = tuple(months)
+    return out
+
+
+_MONTHS_TO_TYPE_FIX = (
+    "give a list of month numbers 1-12 (January 1) still to type, e.g. [1, 2]; "
+    "remove the row once its months are typed"
+)
+
+
+def months_to_type_problems(
+    climate: MonthlyClimate, where: str = "climate"
+) -> list[tuple[str, str]]:
+    """Problems with :attr:`MonthlyClimate.months_to_type`: (dotted path, message with the fix)."""
+    from offgrid.climate.model import ROWS_TO_TYPE
+
+    out: list[tuple[str, str]] = []
+    for key, months in climate.months_to_type.items():
+        path = f"{where}.months_to_type.{key}"
+        if key not in ROWS_TO_TYPE:
+            rows = " or ".join(f"{k} ({word})" for k, word in ROWS_TO_TYPE.items())
+            out.append((path, f"not a row whose months can wait to be typed: give {rows}"))
+        elif any(isinstance(m, bool) or not isinstance(m, int) or not 1 <= m <= 12 for m in months):
+            out.append((path, _MONTHS_TO_TYPE_FIX))
+    return out
 
 
 #: Plausible ranges of a climate's values: key -> (low, high, unit, hint when out of range).
@@ -335,6 +379,7 @@ def monthly_climate_problems(
             elif not lo <= v <= hi:
                 out.append((f"{sub}.{key}[{i}]", f"{v:g} is outside {_span(lo, hi)} {unit}{hint}"))
     out.extend(albedo_problems(getattr(climate, "albedo", None), f"{sub}.albedo"))
+    out.extend(months_to_type_problems(climate, where))
     if out:
         return out
     mean = climate.temp_mean_c
@@ -526,6 +571,9 @@ def climate_to_dict(climate: MonthlyClimate, name: str = "", include_daily: bool
             list(climate.albedo) if isinstance(climate.albedo, list | tuple) else climate.albedo
         )
     body["monthly"] = monthly
+    left = climate.still_to_type()
+    if left:
+        body["months_to_type"] = {key: list(months) for key, months in left.items()}
     if include_daily and climate.daily is not None:
         body["daily"] = {key: list(getattr(climate.daily, key)) for key in DAILY_KEYS}
     return body

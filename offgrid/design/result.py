@@ -328,7 +328,7 @@ def _plain(value: Any) -> Any:
 
 #: DesignError codes that mean the input itself is unusable (exit code 2 on the command line,
 #: like any bad input) rather than a design that cannot be met (exit code 3).
-INPUT_ERROR_CODES = frozenset({"climate-missing", "climate-months"})
+INPUT_ERROR_CODES = frozenset({"climate-missing", "climate-months", "climate-months-untyped"})
 
 
 class DesignError(ValueError):

@@ -108,6 +108,21 @@ def _check_climate(c: MonthlyClimate) -> None:
     if problems:
         path, message = problems[0]
         raise DesignError("climate-months", f"{path}: {message}", path)
+    check_months_typed(c)
+
+
+def check_months_typed(c: MonthlyClimate) -> None:
+    """DesignError while an own climate has months still to type (placeholders, not data:
+    a design on them would be a wrong design)."""
+    left = c.to_type_text()
+    if left:
+        raise DesignError(
+            "climate-months-untyped",
+            f"months still to type: {left}. They hold placeholders, not data: type them "
+            "in the Place section (text UI), or in the project file's [climate.monthly] "
+            "table and then remove them from [climate.months_to_type]",
+            "climate.months_to_type",
+        )
 
 
 def site_geometry(

@@ -470,6 +470,17 @@ def prepare(
                 base.site.elevation_m = c.elevation_m or 0.0
     if not base.site.name:
         base.site.name = survey.name
+    if c is not None and c.to_type_text():  # placeholders, not data: no row is designed
+        fatal.append(
+            SurveyProblem(
+                lines.get("project", 0),
+                "",
+                "climate.months_to_type",
+                f"the project's own climate has months still to type: {c.to_type_text()}; "
+                "type them (Place section, or the file's [climate.monthly] table, then "
+                "remove them from [climate.months_to_type]) or give a climate row",
+            )
+        )
     if not fatal:
         for p in validate_project(base):
             fatal.append(SurveyProblem(lines.get(p.path, 0), "", p.path, p.message))

@@ -549,10 +549,10 @@ class OffgridApp(App):
         remember_project(saved, self.state)
         self.notify(f"Saved {printable(str(saved))}", markup=False, timeout=3)
         left = self.session.untyped_outcome() if self.session is not None else None
-        if left is not None:  # the file holds placeholders there (the climate needs twelve)
+        if left is not None:  # placeholders there (the climate needs twelve), marked as such
             self.notify(
-                f"Saved with {left.error.split('. ')[0]}: the file holds placeholders "
-                "there (0 sun, 20 C) until you type them.",
+                f"Saved with {left.error.split('. ')[0]}: the file marks them as still to "
+                "type, and no design runs on it until you type them.",
                 severity="warning",
                 markup=False,
                 timeout=8,

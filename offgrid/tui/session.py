@@ -16,6 +16,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from offgrid.climate.model import ROWS_TO_TYPE, month_spans
 from offgrid.design.result import DesignError, SystemDesign
 from offgrid.project.atomic import (
     Fingerprint,
@@ -29,22 +30,11 @@ from offgrid.project.validate import Problem, validate_project
 UNDO_DEPTH = 200
 
 #: The climate rows a design needs, with the placeholder each month holds until it is
-#: typed (the saved climate needs twelve numbers): what the user is told to type.
-TO_TYPE = {"insolation_kwh_m2_day": ("sun", 0.0), "temp_mean_c": ("mean temperature", 20.0)}
-MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
-
-
-def month_spans(months: tuple[int, ...]) -> str:
-    """``(1, 2, 3, 5)`` -> ``"Jan-Mar, May"``."""
-    spans: list[list[int]] = []
-    for m in sorted(months):
-        if spans and m == spans[-1][-1] + 1:
-            spans[-1].append(m)
-        else:
-            spans.append([m])
-    return ", ".join(
-        MONTH_NAMES[s[0] - 1] + (f"-{MONTH_NAMES[s[-1] - 1]}" if len(s) > 1 else "") for s in spans
-    )
+#: typed (the saved climate needs twelve numbers): what the user is told to type.  The
+#: months still to type are the climate's own (``MonthlyClimate.months_to_type``), so
+#: saving, reopening, recovery and undo keep them with the values.
+PLACEHOLDERS = {"insolation_kwh_m2_day": 0.0, "temp_mean_c": 20.0}
+TO_TYPE = {key: (word, PLACEHOLDERS[key]) for key, word in ROWS_TO_TYPE.items()}
 
 
 class EditRejected(ValueError):
@@ -146,12 +136,6 @@ class Session:
     listeners: list[Callable[[], None]] = field(default_factory=list)
     # What opening an older file's schema could not carry over (shown once on opening).
     notes: list[str] = field(default_factory=list)
-    # Months of the own climate that still hold placeholders, by row (TO_TYPE): set when
-    # the months are started from nothing, emptied as they are typed; undone with the
-    # edits (the stacks beside the undo stacks hold them).
-    untyped: dict[str, frozenset[int]] = field(default_factory=dict)
-    undo_untyped: list[dict[str, frozenset[int]]] = field(default_factory=list)
-    redo_untyped: list[dict[str, frozenset[int]]] = field(default_factory=list)
 
     # ------------------------------------------------------------------ creation
     @classmethod
@@ -198,23 +182,9 @@ class Session:
     def months_to_type(self) -> dict[str, tuple[int, ...]]:
         """The own climate's months still to type, by row (empty: none)."""
         climate = self.project.climate.inline
-        if climate is None or not self.untyped:
+        if climate is None:
             return {}
-        return {key: tuple(sorted(m)) for key, m in self.untyped.items() if m and key in TO_TYPE}
-
-    def start_untyped(self) -> None:
-        """The own climate was just started from placeholders: every month is to type."""
-        self.untyped = {key: frozenset(range(1, 13)) for key in TO_TYPE}
-
-    def typed(self, key: str, months: range | set[int] | tuple[int, ...]) -> None:
-        """Months of row ``key`` typed by the user (whatever the value, even a placeholder's)."""
-        if key in self.untyped:
-            left = self.untyped[key] - set(months)
-            self.untyped = (
-                {**self.untyped, key: left}
-                if left
-                else {k: v for k, v in self.untyped.items() if k != key}
-            )
+        return {k: m for k, m in climate.still_to_type().items() if k in TO_TYPE}
 
     def untyped_outcome(self) -> Outcome | None:
         """No design while months are still to type (placeholders are not data)."""
@@ -244,7 +214,6 @@ class Session:
         """
         before = snapshot(self.project)
         old = {p.path for p in validate_project(self.project)}
-        climate = self.project.climate.inline
         try:
             mutate(self.project)
         except (ValueError, TypeError, IndexError) as exc:
@@ -261,11 +230,6 @@ class Session:
         self.undo_stack.append(before)
         del self.undo_stack[:-UNDO_DEPTH]
         self.redo_stack.clear()
-        self.undo_untyped.append(self.untyped)
-        del self.undo_untyped[:-UNDO_DEPTH]
-        self.redo_untyped.clear()
-        if self.project.climate.inline is not climate:  # another climate: no placeholders
-            self.untyped = {}
 
     def set_value(self, path: str, value: Any) -> None:
         """Set one field; raises :class:`EditRejected` and keeps the old value on a problem."""
@@ -276,8 +240,6 @@ class Session:
             return False
         self.redo_stack.append(self.project)
         self.project = self.undo_stack.pop()
-        self.redo_untyped.append(self.untyped)
-        self.untyped = self.undo_untyped.pop() if self.undo_untyped else {}
         return True
 
     def redo(self) -> bool:
@@ -285,8 +247,6 @@ class Session:
             return False
         self.undo_stack.append(self.project)
         self.project = self.redo_stack.pop()
-        self.undo_untyped.append(self.untyped)
-        self.untyped = self.redo_untyped.pop() if self.redo_untyped else {}
         return True
 
     # ------------------------------------------------------------------ loads
@@ -355,8 +315,6 @@ class Session:
             seen = fingerprint(self.path)
             fresh = load_project(self.path)
             self.undo_stack.append(self.project)
-            self.undo_untyped.append(self.untyped)
-            self.untyped = {}
             self.project = fresh
             self.disk = seen
             self.baseline = self.text()
@@ -364,8 +322,6 @@ class Session:
             from offgrid.project.store import loads_project
 
             self.undo_stack.append(self.project)
-            self.undo_untyped.append(self.untyped)
-            self.untyped = {}
             self.project = loads_project(self.baseline, "starting state")
 
 

@@ -269,7 +269,7 @@ def standard_tank(required_m3: float) -> tuple[float, int]:
 
 def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesign:
     """Size ``project.water[index]``; DesignError when the water cannot be delivered."""
-    from offgrid.design.sizing import resolve_climate
+    from offgrid.design.sizing import check_months_typed, resolve_climate
 
     if not project.water:
         raise DesignError("no-water", "the project has no [[water]] supply: add one", "water")
@@ -278,6 +278,7 @@ def water_design(project, index: int = 0, base: Path | None = None) -> WaterDesi
     book = ReasonBook()
     notices: list[Notice] = []
     climate = resolve_climate(project, base)
+    check_months_typed(climate)  # no pump sized on placeholders
     params = fit_module(project.module)
     cond = day_conditions(project, climate, supply, book)
     t_mean = np.asarray(climate.temp_mean_c, dtype=float)

@@ -8,10 +8,14 @@ A notice must not hide the edit box's hint at 80x24.
 
 from __future__ import annotations
 
+import json
+
+import pytest
 from tui_helpers import SIZE, screen_text, type_into, wait_for
 
 from offgrid.project.model import Load
 from offgrid.tui.app import make_app
+from offgrid.tui.screens.recover import RecoverDialog
 from offgrid.tui.session import Session, blank_project
 
 
@@ -165,3 +169,83 @@ async def test_m_on_months_already_your_own_says_so(state):
         said = [n.message for n in app._notifications]
         assert said and "already" in said[-1], said
         assert work.current.months.has_focus
+
+
+# ------------------------------------------------ the marks are the project's (issue 19 follow-up)
+
+
+async def type_january_sun(pilot, work) -> None:
+    table = work.current.months
+    table.move_cursor(row=0, column=1)
+    await pilot.press("enter")
+    await wait_for(pilot, lambda: work.current.editor.is_open)
+    await type_into(pilot, "5.5")
+    await pilot.pause()
+
+
+def assert_still_to_type(app) -> None:
+    rows = climate_rows(app)
+    assert rows[0].count("?") == 11 and "5.50" in rows[0], rows
+    assert rows[1].count("?") == 12, rows
+    assert app.session.design is None
+    shown = screen_text(app)
+    assert "sun Feb-Dec" in shown and "mean temperature Jan-Dec" in shown, shown
+
+
+async def test_months_still_to_type_survive_save_and_reopen(state, tmp_path):
+    from offgrid.design.result import DesignError
+    from offgrid.design.sizing import design
+    from offgrid.project.store import load_project
+
+    target = tmp_path / "half-typed.toml"
+    app = make_app(state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        work = await start_blank(pilot, blank_with_a_load())
+        await type_january_sun(pilot, work)
+        assert_still_to_type(app)
+        app.session.path = target
+        app.save_project()
+        await pilot.pause()
+    assert "[climate.months_to_type]" in target.read_text(encoding="utf-8")
+    with pytest.raises(DesignError):  # the command line's design refuses it too
+        design(load_project(target), tmp_path)
+    app = make_app(target, state=state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        app.work.action_goto("place")
+        await pilot.pause()
+        assert_still_to_type(app)
+        assert not app.session.dirty
+
+
+async def test_months_still_to_type_survive_recovery(state):
+    app = make_app(state=state, autosave_seconds=0.05)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        work = await start_blank(pilot, blank_with_a_load())
+        await type_january_sun(pilot, work)
+        on_screen = app.session.text()
+        assert "months_to_type" in on_screen
+
+        def saved() -> list:
+            files = list(state.glob("recovery-*.json"))
+            return files if files and json.loads(files[0].read_text())["text"] == on_screen else []
+
+        await wait_for(pilot, saved)
+        files = saved()
+    # the session ends without a deliberate quit; pretend its process has ended
+    body = json.loads(files[0].read_text())
+    files[0].unlink()
+    body["pid"] = 999999997
+    (state / "recovery-999999997.json").write_text(json.dumps(body))
+    app2 = make_app(state=state)
+    async with app2.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        assert isinstance(app2.screen, RecoverDialog)
+        await pilot.press("r")
+        await pilot.pause()
+        assert app2.session.text() == on_screen
+        app2.work.action_goto("place")
+        await pilot.pause()
+        assert_still_to_type(app2)

@@ -12,7 +12,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.widgets import DataTable, Static
 
-from offgrid.project.model import ClimateChoice, MonthlyClimate, Project
+from offgrid.project.model import ALL_MONTHS, ClimateChoice, MonthlyClimate, Project
 from offgrid.tui.fields import PROJECT_FIELDS, Field, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, PathDialog
@@ -321,8 +321,6 @@ class PlaceSection(Section):
                 )
             except EditRejected as exc:
                 return self.problems_text(exc)
-            self._after_own()
-            self.session.typed(key, range(1, 13) if self._all_twelve else (month,))
             self.edited(f"{MONTHS[month - 1]} {label.lower()} set")
             return None
 
@@ -338,11 +336,12 @@ class PlaceSection(Section):
             from offgrid.design.sizing import resolve_climate
 
             base = resolve_climate(p, self.session.base_dir)
-        if base is None:  # placeholders (TO_TYPE), marked as still to type (_after_own)
+        if base is None:  # placeholders (TO_TYPE), every month marked as still to type
             base = MonthlyClimate(
                 insolation_kwh_m2_day=[TO_TYPE["insolation_kwh_m2_day"][1]] * 12,
                 temp_mean_c=[TO_TYPE["temp_mean_c"][1]] * 12,
                 source="typed by the user",
+                months_to_type={key: ALL_MONTHS for key in TO_TYPE},
             )
             own = base
             self._fresh = True
@@ -353,16 +352,8 @@ class PlaceSection(Section):
         p.climate = ClimateChoice(inline=own)
 
     _fresh = False  # the last change started the own months from placeholders
-    _all_twelve = False  # the last months typed were a whole row
-
-    def _after_own(self) -> None:
-        """After an accepted change: months just started from nothing are all to type."""
-        if self._fresh:
-            self._fresh = False
-            self.session.start_untyped()
 
     def _put_months(self, p: Project, key: str, month: int, typed: str) -> None:
-        self._all_twelve = False
         self._make_own(p)
         climate = p.climate.inline
         assert climate is not None
@@ -375,7 +366,7 @@ class PlaceSection(Section):
             setattr(climate, key, None)
         elif len(parts) == 12:
             setattr(climate, key, [parse_number(s, unit) for s in parts])
-            self._all_twelve = True
+            self._typed(climate, key, ALL_MONTHS)
         elif len(parts) == 1:
             values = getattr(climate, key)
             if values is None:
@@ -385,9 +376,20 @@ class PlaceSection(Section):
             values = list(values)
             values[month - 1] = parse_number(parts[0], unit)
             setattr(climate, key, values)
+            self._typed(climate, key, (month,))
         else:
             raise ValueError(f"type one value, or all twelve (you typed {len(parts)})")
         checked_climate(climate)
+
+    @staticmethod
+    def _typed(climate: MonthlyClimate, key: str, months: tuple[int, ...]) -> None:
+        """Months of row ``key`` typed (whatever the value, even a placeholder's): no longer
+        to type.  Part of the edit, so undo and redo bring the marks back with the values."""
+        if key not in climate.months_to_type:
+            return
+        left = tuple(m for m in climate.months_to_type[key] if m not in months)
+        marks = {k: m for k, m in climate.months_to_type.items() if k != key}
+        climate.months_to_type = {**marks, key: left} if left else marks
 
     # ------------------------------------------------------------------ climate choice
     def action_choose_climate(self) -> None:
@@ -656,9 +658,7 @@ class PlaceSection(Section):
         except EditRejected as exc:
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
-        fresh = self._fresh
-        self._after_own()
-        if fresh:
+        if self._fresh:
             note = "Your own twelve months: type the sun and mean temperature (? = not typed)"
         else:
             note = "Now your own copy of the twelve months: edit them in the table"
