@@ -132,6 +132,7 @@ def test_hand_project_simulates(project):
 
 
 def test_measured_days_from_the_climate_are_used(monkeypatch):
+    from dataclasses import replace
     from types import SimpleNamespace
 
     import offgrid.design.sizing
@@ -140,9 +141,7 @@ def test_measured_days_from_the_climate_are_used(monkeypatch):
 
     def with_daily(project, base=None):
         c = real(project, base)
-        return SimpleNamespace(
-            **{**vars(c), "daily": SimpleNamespace(insolation_kwh_m2_day=[5.0] * 365)}
-        )
+        return replace(c, daily=SimpleNamespace(insolation_kwh_m2_day=[5.0] * 365))
 
     monkeypatch.setattr(offgrid.design.sizing, "resolve_climate", with_daily)
     project = load_project(demo_project_path())
