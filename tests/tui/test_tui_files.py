@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import pathlib
 
 from tui_helpers import SIZE, demo_app, edit_field, screen_text, type_into, wait_for
 
@@ -411,3 +412,33 @@ async def test_opening_a_schema_1_file_tells_its_orphaned_cable_length(state, tm
         assert app.session.project.loads[0].run_m == 30.0
         told = [n.message for n in app._notifications]
         assert any("Old radio" in m and "dropped" in m for m in told), told
+
+
+async def test_a_name_typed_in_save_as_replaces_the_suggested_name(state, tmp_path, monkeypatch):
+    # Typed key by key, as a person does: the suggested "clinic-copy.toml" is selected,
+    # so "site.toml" replaces it (it gave "clinic-copy.tomlsite.toml"); its folder stays.
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "jobs").mkdir()
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await edit_field(pilot, "place", "info.name", "Clinic copy")
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+        assert isinstance(app.screen, PathDialog)
+        await pilot.press(*"site.toml", "enter")
+        await pilot.pause()
+        assert (tmp_path / "site.toml").exists()
+        # a suggestion with a folder: the folder is kept, the name replaced
+        chosen: list = []
+        app.push_screen(PathDialog("Save as", "jobs/site.toml", must_exist=False), chosen.append)
+        await pilot.pause()
+        await pilot.press(*"well.toml", "enter")
+        await pilot.pause()
+        assert chosen == [pathlib.Path("jobs/well.toml")]
+        # a folder alone is a start to type after
+        app.push_screen(PathDialog("Open", "jobs/"), chosen.append)
+        await pilot.pause()
+        await pilot.press(*"well.toml", "enter")
+        await pilot.pause()
+        assert chosen[-1] == pathlib.Path("jobs/well.toml")

@@ -13,6 +13,7 @@ from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.suggester import Suggester
 from textual.widgets import Button, Input, OptionList, Static
+from textual.widgets._input import Selection
 from textual.widgets.option_list import Option
 
 from offgrid.tui.text import literal
@@ -207,6 +208,9 @@ class PathDialog(Dialog):
         box = self.query_one(Input)
         box.focus()
         box.cursor_position = len(box.value)
+        name_at = box.value.rfind("/") + 1
+        if name_at < len(box.value):  # a suggested name: selected, so typing replaces it
+            box.selection = Selection(name_at, len(box.value))  # (its folder stays)
         self._list(box.value)
 
     def _list(self, value: str) -> None:
