@@ -17,6 +17,9 @@ from offgrid.design.months import MONTHS, as_tuple
 from offgrid.design.result import DesignError, Notice, Reason, ReasonBook, SiteResult, fmt
 from offgrid.project.model import Site
 
+#: A climate whose own coordinates lie more than this far (latitude or longitude) from the
+#: site may belong to another place (common practice, no source).
+CLIMATE_DISTANCE_WARN_DEG = 2.0
 LOW_SUN_KWH_M2_DAY = 1.5  # below it the monthly transposition is unreliable (test_climate_poa)
 
 
@@ -40,6 +43,43 @@ class SiteStep:
 class DesignMonthStep:
     reasons: dict[str, Reason]
     notices: tuple[Notice, ...]
+
+
+def position_notices(site: Site, climate: MonthlyClimate) -> tuple[Notice, ...]:
+    """Warnings for a site position never set (latitude and longitude both exactly 0, a
+    point in the sea) and for a climate whose own coordinates lie more than
+    :data:`CLIMATE_DISTANCE_WARN_DEG` from the site's: the sun on the tilted array is
+    worked out at the site's latitude, so either gives a wrong array without a sign."""
+    lat, lon = site.latitude_deg, site.longitude_deg
+    c_lat, c_lon = climate.latitude_deg, climate.longitude_deg
+    at = f" (the climate is for {c_lat:g}, {c_lon or 0.0:g})" if c_lat is not None else ""
+    if lat == 0.0 and lon == 0.0:
+        return (
+            Notice(
+                "site-position-unset",
+                "The site's latitude and longitude are both 0, a point in the sea: set the "
+                f"site's position{at} in the Place section (or [site] in the file); the sun "
+                "on the tilted array is worked out at the site's latitude",
+                "warning",
+                "site.latitude_deg",
+            ),
+        )
+    if c_lat is None or (
+        abs(c_lat - lat) <= CLIMATE_DISTANCE_WARN_DEG
+        and (c_lon is None or abs(c_lon - lon) <= CLIMATE_DISTANCE_WARN_DEG)
+    ):
+        return ()
+    return (
+        Notice(
+            "climate-elsewhere",
+            f"The climate is for {c_lat:g}, {c_lon or 0.0:g}, more than "
+            f"{CLIMATE_DISTANCE_WARN_DEG:g} deg from the site ({lat:g}, {lon:g}): check it "
+            "is the right climate or the site's position (the sun on the tilted array is "
+            "worked out at the site's latitude)",
+            "warning",
+            "site.latitude_deg",
+        ),
+    )
 
 
 def site_albedo(site: Site, climate: MonthlyClimate):

@@ -59,6 +59,7 @@ from offgrid.design.result import (
 from offgrid.design.site_step import (
     LOW_SUN_KWH_M2_DAY,  # noqa: F401  (re-exported)
     confirm_design_month,
+    position_notices,
     site_record,
     sun_on_plane,
 )
@@ -226,7 +227,7 @@ def design(project: Project, base: Path | None = None) -> SystemDesign:
     )
     for step in (sun, site_step):
         book.extend(step.reasons)
-    site_notices = [*sun.notices, *site_step.notices]
+    site_notices = [*position_notices(project.site, climate), *sun.notices, *site_step.notices]
     site = site_step.site
     t_low = site.record_low_c
     # 4-5, 7. array, system voltage, strings and controllers (on the least-covered month)

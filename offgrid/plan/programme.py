@@ -31,6 +31,7 @@ import numpy as np
 
 from offgrid.climate.files import ClimateFileError, load_climate, monthly_climate_problems
 from offgrid.design.cautions import DEFERS_TO_CODE
+from offgrid.design.site_step import CLIMATE_DISTANCE_WARN_DEG
 from offgrid.memo import design_memo
 from offgrid.paths import load_profiles_dir
 from offgrid.plan import survey as sv
@@ -82,9 +83,6 @@ ALIASES = {
 }
 SETTING_KEYS = ("programme", "demo", "project", "prices", "survey")
 KIT_SCOPES = ("programme", "village", "zone")
-#: A village's climate more than this far from its coordinates is flagged (the climate
-#: may belong to another place; common practice, no source).
-CLIMATE_DISTANCE_WARN_DEG = 2.0
 
 
 def village_climate(ref: str, base_dir: Path | None) -> MonthlyClimate:
