@@ -20,9 +20,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from offgrid.climate import sky
+from offgrid.climate.model import MONTH_NAMES
 from offgrid.climate.poa import poa_monthly
-
-MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 
 
 @dataclass(frozen=True)

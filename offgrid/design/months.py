@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+from offgrid.climate.model import MONTH_NAMES as MONTHS  # noqa: F401  (re-exported)
 
 
 def as_tuple(values) -> tuple[float, ...]:
