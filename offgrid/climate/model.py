@@ -29,6 +29,12 @@ def month_spans(months: tuple[int, ...]) -> str:
     )
 
 
+def to_type_text(rows: dict[str, tuple[int, ...]]) -> str:
+    """Months still to type, by row, in the user's words: ``"sun Feb-Dec; mean
+    temperature Jan-Dec"`` (empty: nothing to type)."""
+    return "; ".join(f"{ROWS_TO_TYPE.get(k, k)} {month_spans(m)}" for k, m in rows.items())
+
+
 @dataclass
 class MonthlyClimate:
     """Twelve monthly means for one site."""
@@ -55,9 +61,7 @@ class MonthlyClimate:
 
     def to_type_text(self) -> str:
         """``"sun Feb-Dec; mean temperature Jan-Dec"`` (empty: nothing to type)."""
-        return "; ".join(
-            f"{ROWS_TO_TYPE.get(k, k)} {month_spans(m)}" for k, m in self.still_to_type().items()
-        )
+        return to_type_text(self.still_to_type())
 
 
 @dataclass

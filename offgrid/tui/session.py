@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from offgrid.climate.model import ROWS_TO_TYPE, month_spans
+from offgrid.climate.model import ROWS_TO_TYPE, to_type_text
 from offgrid.design.result import DesignError, SystemDesign
 from offgrid.project.atomic import (
     Fingerprint,
@@ -29,12 +29,12 @@ from offgrid.project.validate import Problem, validate_project
 
 UNDO_DEPTH = 200
 
-#: The climate rows a design needs, with the placeholder each month holds until it is
-#: typed (the saved climate needs twelve numbers): what the user is told to type.  The
-#: months still to type are the climate's own (``MonthlyClimate.months_to_type``), so
-#: saving, reopening, recovery and undo keep them with the values.
+#: The placeholder each month of a climate row a design needs (the keys of
+#: ``ROWS_TO_TYPE``) holds until it is typed (the saved climate needs twelve numbers).
+#: The months still to type are the climate's own (``MonthlyClimate.months_to_type``),
+#: so saving, reopening, recovery and undo keep them with the values.
 PLACEHOLDERS = {"insolation_kwh_m2_day": 0.0, "temp_mean_c": 20.0}
-TO_TYPE = {key: (word, PLACEHOLDERS[key]) for key, word in ROWS_TO_TYPE.items()}
+assert PLACEHOLDERS.keys() == ROWS_TO_TYPE.keys()
 
 
 class EditRejected(ValueError):
@@ -184,14 +184,14 @@ class Session:
         climate = self.project.climate.inline
         if climate is None:
             return {}
-        return {k: m for k, m in climate.still_to_type().items() if k in TO_TYPE}
+        return {k: m for k, m in climate.still_to_type().items() if k in ROWS_TO_TYPE}
 
     def untyped_outcome(self) -> Outcome | None:
         """No design while months are still to type (placeholders are not data)."""
         left = self.months_to_type()
         if not left:
             return None
-        what = "; ".join(f"{TO_TYPE[k][0]} {month_spans(m)}" for k, m in left.items())
+        what = to_type_text(left)
         return Outcome(
             error=f"months still to type: {what}. Type them in the climate table (Place); "
             "the design waits for them.",

@@ -249,3 +249,21 @@ async def test_months_still_to_type_survive_recovery(state):
         app2.work.action_goto("place")
         await pilot.pause()
         assert_still_to_type(app2)
+
+
+async def test_the_record_low_set_on_a_bundled_climate_makes_an_own_copy(state):
+    # The record low is edited on Place too; it makes the project's own copy of the
+    # climate (every month data, none to type). It raised AttributeError after the
+    # months' marks moved into the project (a call left to a helper that went with them).
+    from tui_helpers import demo_app, edit_field
+
+    app = demo_app(state)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.pause()
+        await edit_field(pilot, "place", "climate.record_low_c", "-4")
+        await pilot.pause()
+        inline = app.session.project.climate.inline
+        assert inline is not None and inline.record_low_c == -4.0
+        assert inline.still_to_type() == {}
+        assert app.session.outcome.design is not None
+        assert app.session.project.climate.ref in (None, "")  # the copy replaced the choice

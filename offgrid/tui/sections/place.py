@@ -17,7 +17,7 @@ from offgrid.tui.fields import PROJECT_FIELDS, Field, parse_number
 from offgrid.tui.keys import focus_now
 from offgrid.tui.screens.dialogs import ChoiceDialog, PathDialog
 from offgrid.tui.sections.base import Figure, Section
-from offgrid.tui.session import TO_TYPE, EditRejected, Session, get_path
+from offgrid.tui.session import PLACEHOLDERS, EditRejected, Session, get_path
 from offgrid.tui.text import printable
 from offgrid.tui.widgets.editbar import EditBar
 from offgrid.tui.widgets.fieldtable import FieldTable
@@ -279,13 +279,11 @@ class PlaceSection(Section):
                     p.climate.inline.record_low_c = value
                     checked_climate(p.climate.inline)
 
-                self._fresh = False
                 self.session.change(put, focus="climate")
             except EditRejected as exc:
                 return self.problems_text(exc)
             except ValueError as exc:
                 return str(exc)
-            self._after_own()
             self.edited("record low set")
             return None
 
@@ -314,7 +312,6 @@ class PlaceSection(Section):
         start = f"{values[month - 1]:g}" if values and not fresh else ""
 
         def apply(typed: str) -> str | None:
-            self._fresh = False
             try:
                 self.session.change(
                     lambda p: self._put_months(p, key, month, typed), focus="climate"
@@ -336,22 +333,19 @@ class PlaceSection(Section):
             from offgrid.design.sizing import resolve_climate
 
             base = resolve_climate(p, self.session.base_dir)
-        if base is None:  # placeholders (TO_TYPE), every month marked as still to type
+        if base is None:  # placeholders, every month marked as still to type
             base = MonthlyClimate(
-                insolation_kwh_m2_day=[TO_TYPE["insolation_kwh_m2_day"][1]] * 12,
-                temp_mean_c=[TO_TYPE["temp_mean_c"][1]] * 12,
+                insolation_kwh_m2_day=[PLACEHOLDERS["insolation_kwh_m2_day"]] * 12,
+                temp_mean_c=[PLACEHOLDERS["temp_mean_c"]] * 12,
                 source="typed by the user",
-                months_to_type={key: ALL_MONTHS for key in TO_TYPE},
+                months_to_type={key: ALL_MONTHS for key in PLACEHOLDERS},
             )
             own = base
-            self._fresh = True
         else:
             own = dataclasses.replace(
                 base, source=f"own copy of {p.climate.ref}: {base.source}".strip()
             )
         p.climate = ClimateChoice(inline=own)
-
-    _fresh = False  # the last change started the own months from placeholders
 
     def _put_months(self, p: Project, key: str, month: int, typed: str) -> None:
         self._make_own(p)
@@ -652,13 +646,12 @@ class PlaceSection(Section):
             self.app.notify("These twelve months are your own already: Enter edits one.")
             focus_now(self.months)
             return
-        self._fresh = False
         try:
             self.session.change(self._make_own, focus="climate")
         except EditRejected as exc:
             self.app.notify(self.problems_text(exc), severity="error", markup=False)
             return
-        if self._fresh:
+        if self.session.months_to_type():  # started from placeholders, not a copy
             note = "Your own twelve months: type the sun and mean temperature (? = not typed)"
         else:
             note = "Now your own copy of the twelve months: edit them in the table"
